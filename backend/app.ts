@@ -1,0 +1,92 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import connectPgSimple from 'connect-pg-simple';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import type { Deps } from './lib/deps.ts';
+import { authenticate, csrfProtection } from './middleware/authenticate.ts';
+import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
+import { authRoutes } from './modules/auth/auth.routes.ts';
+import { auditRoutes } from './modules/audit/audit.routes.ts';
+import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
+import { healthRoutes } from './modules/health/health.routes.ts';
+import { usersRoutes } from './modules/users/users.routes.ts';
+
+const distDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
+
+/** Builds the Express app; never listens (main.ts does, tests use supertest). */
+export function createApp(deps: Deps): Express {
+  const { config, pool, db } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.TRUST_PROXY) app.set('trust proxy', /^\d+$/.test(config.TRUST_PROXY) ? Number(config.TRUST_PROXY) : config.TRUST_PROXY);
+
+  app.use(
+    pinoHttp({
+      level: config.LOG_LEVEL ?? (config.NODE_ENV === 'test' ? 'silent' : 'info'),
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      redact: ['req.headers.cookie', 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'],
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'"],
+          frameSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'self'"],
+          ...(config.isProduction ? { upgradeInsecureRequests: [] } : {}),
+        },
+      },
+      strictTransportSecurity: config.isProduction,
+    }),
+  );
+
+  // Health answers before sessions so a load balancer's probes create none.
+  app.use('/api/health', healthRoutes(deps));
+
+  // Bodies: JSON everywhere except the payment webhook, which must see the raw bytes it was signed over.
+  app.use('/api/webhooks', express.raw({ type: '*/*', limit: '1mb' }));
+  app.use(express.json({ limit: '100kb' }));
+
+  const PgStore = connectPgSimple(session);
+  app.use(
+    session({
+      name: 'cw.sid',
+      store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 }),
+      secret: config.sessionSecret,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: 12 * 3600_000, path: '/' },
+    }),
+  );
+  app.use(authenticate(db));
+  app.use('/api', csrfProtection(['/webhooks/']));
+
+  app.use('/api/auth', authRoutes(deps));
+  app.use('/api/users', usersRoutes(deps));
+  app.use('/api/audit', auditRoutes(deps));
+  app.use('/api/dev', mailboxRoutes(deps));
+  app.use('/api', apiNotFound);
+
+  // The built front end, with client-side routes falling back to index.html.
+  if (fs.existsSync(path.join(distDir, 'index.html'))) {
+    app.use(express.static(distDir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(distDir, 'index.html')));
+  }
+  app.use(problemHandler);
+  return app;
+}

@@ -1,0 +1,46 @@
+import { ForbiddenError } from '@casl/ability';
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import multer from 'multer';
+import { ZodError } from 'zod';
+import { HttpProblem, type ProblemFieldError } from '../lib/http-problem.ts';
+
+function send(res: Parameters<ErrorRequestHandler>[2], status: number, body: Record<string, unknown>) {
+  res.status(status).type('application/problem+json').json({ type: 'about:blank', status, ...body });
+}
+
+export function zodErrors(err: ZodError): ProblemFieldError[] {
+  return err.issues.map((i) => ({ path: i.path.map(String).join('.'), message: i.message }));
+}
+
+/** Every error leaves the API as RFC 9457 problem JSON. */
+export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  if (res.headersSent) return;
+  if (err instanceof HttpProblem) {
+    return send(res, err.status, { type: err.type, title: err.title, detail: err.detail, errors: err.errors, ...err.extra });
+  }
+  if (err instanceof ZodError) {
+    const errors = zodErrors(err);
+    return send(res, 422, {
+      title: 'Validation failed',
+      detail: errors.map((e) => (e.path ? `${e.path}: ${e.message}` : e.message)).join('; '),
+      errors,
+    });
+  }
+  if (err instanceof ForbiddenError) {
+    return send(res, 403, { title: 'Forbidden', detail: 'You may not do this.' });
+  }
+  if (err instanceof multer.MulterError) {
+    if (err.code === 'LIMIT_FILE_SIZE') return send(res, 413, { title: 'File too large', detail: err.message });
+    return send(res, 400, { title: 'Bad upload', detail: err.message });
+  }
+  const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500;
+  if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${err.limit} bytes.` });
+  if (err?.type === 'entity.parse.failed') return send(res, 400, { title: 'Malformed JSON', detail: 'The request body is not valid JSON.' });
+  if (status >= 400 && status < 500) return send(res, status, { title: err.message ?? 'Bad request', detail: err.message });
+  req.log?.error({ err }, 'unhandled error');
+  return send(res, 500, { title: 'Internal server error', detail: 'Something went wrong on our side.' });
+};
+
+export const apiNotFound: RequestHandler = (req, res) => {
+  send(res, 404, { title: 'Not found', detail: `No API route ${req.method} ${req.path}.` });
+};

@@ -1,0 +1,169 @@
+import { randomBytes } from 'node:crypto';
+import { Router, type Request } from 'express';
+import { rateLimit, type Options } from 'express-rate-limit';
+import {
+  acceptInvitationSchema,
+  loginSchema,
+  passwordResetConfirmSchema,
+  passwordResetRequestSchema,
+  updateMeSchema,
+} from '../../../shared/schemas/auth.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { audit } from '../../lib/audit.ts';
+import { HttpProblem, unauthorized } from '../../lib/http-problem.ts';
+import { enqueueMail } from '../../lib/mailer.ts';
+import { PgRateLimitStore } from '../../lib/rate-limit-store.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import {
+  checkCredentials,
+  consumeToken,
+  endSessionsOf,
+  hashPassword,
+  issueToken,
+  peekToken,
+  toSessionUser,
+  type SessionUser,
+} from './auth.service.ts';
+
+const newCsrfToken = () => randomBytes(24).toString('base64url');
+
+/** Start a fresh session for `user`: a new id (no fixation), the CSRF token carried over. */
+function signIn(req: Request, user: SessionUser): Promise<void> {
+  const csrf = req.session.csrfToken ?? newCsrfToken();
+  return new Promise((resolve, reject) => {
+    req.session.regenerate((err) => {
+      if (err) return reject(err);
+      req.session.userId = user.id;
+      req.session.csrfToken = csrf;
+      req.session.save((e) => (e ? reject(e) : resolve()));
+    });
+  });
+}
+
+export function authRoutes({ db, config, queue }: Deps): Router {
+  const router = Router();
+  const windowMs = config.LOGIN_LIMIT_WINDOW_MINUTES * 60_000;
+  const tooMany =
+    (what: string): Options['handler'] =>
+    (req, res) => {
+      const reset = (req as typeof req & { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime;
+      const seconds = reset ? Math.max(1, Math.ceil((reset.getTime() - Date.now()) / 1000)) : Math.ceil(windowMs / 1000);
+      res.setHeader('Retry-After', String(seconds));
+      res
+        .status(429)
+        .type('application/problem+json')
+        .json({ type: 'about:blank', status: 429, title: 'Too many attempts', detail: `Too many sign-in attempts ${what}; try again in ${Math.ceil(seconds / 60)} minutes.` });
+    };
+
+  const perIp = rateLimit({
+    windowMs,
+    limit: config.LOGIN_LIMIT_PER_IP,
+    standardHeaders: 'draft-7',
+    legacyHeaders: false,
+    store: new PgRateLimitStore(db, 'login-ip:'),
+    handler: tooMany('from this address'),
+  });
+  const perAccount = rateLimit({
+    windowMs,
+    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
+    standardHeaders: false,
+    legacyHeaders: false,
+    skipSuccessfulRequests: true,
+    keyGenerator: (req) => String(req.body?.email ?? '').trim().toLowerCase() || 'unknown',
+    store: new PgRateLimitStore(db, 'login-account:'),
+    handler: tooMany('for this account'),
+  });
+
+  router.get('/csrf', (req, res) => {
+    req.session.csrfToken ??= newCsrfToken();
+    res.json({ token: req.session.csrfToken });
+  });
+
+  router.post('/login', perIp, perAccount, async (req, res) => {
+    const input = loginSchema.parse(req.body ?? {});
+    const row = await checkCredentials(db, input.email, input.password);
+    if (!row) throw new HttpProblem(401, 'Sign-in failed', 'E-mail or password is wrong.');
+    const user = toSessionUser(row);
+    await signIn(req, user);
+    await db.updateTable('app_user').set({ last_login_at: new Date() }).where('id', '=', user.id).execute();
+    await audit(db, user.id, 'signed_in', 'User', user.id);
+    res.json({ user });
+  });
+
+  router.post('/logout', requireUser, async (req, res) => {
+    await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
+    res.clearCookie('cw.sid', { path: '/' });
+    res.status(204).end();
+  });
+
+  router.get('/me', (req, res) => {
+    if (!req.user) throw unauthorized();
+    res.json({ user: req.user });
+  });
+
+  router.patch('/me', requireUser, async (req, res) => {
+    const input = updateMeSchema.parse(req.body ?? {});
+    const me = req.user!;
+    const row = await db
+      .updateTable('app_user')
+      .set({ ...(input.name ? { name: input.name } : {}), ...(input.units ? { units: input.units } : {}), updated_at: new Date() })
+      .where('id', '=', me.id)
+      .returning(['id', 'email', 'name', 'roles', 'units'])
+      .executeTakeFirstOrThrow();
+    res.json({ user: toSessionUser(row) });
+  });
+
+  router.post('/password-reset', perIp, async (req, res) => {
+    const { email } = passwordResetRequestSchema.parse(req.body ?? {});
+    const user = await db.selectFrom('app_user').select(['id', 'name', 'email']).where('email', '=', email).where('is_active', '=', true).executeTakeFirst();
+    if (user) {
+      const token = await issueToken(db, user.id, 'password_reset', 1, null);
+      const link = `${config.publicUrl}/reset-password?token=${token}`;
+      await enqueueMail(queue, {
+        to: user.email,
+        subject: 'Reset your Cellarwright password',
+        text: `Hello ${user.name},\n\nSomeone asked to reset the password of your Cellarwright account at Larkspur Yard Brewing Co-op.\nChoose a new password here (the link works once, for one hour):\n\n${link}\n\nIf it was not you, ignore this e-mail; your password stays as it is.\n`,
+      });
+    }
+    // The same answer whether or not the account exists.
+    res.status(202).json({ ok: true });
+  });
+
+  router.post('/password-reset/confirm', async (req, res) => {
+    const input = passwordResetConfirmSchema.parse(req.body ?? {});
+    const passwordHash = await hashPassword(input.password);
+    await db.transaction().execute(async (trx) => {
+      const tok = await consumeToken(trx, input.token, 'password_reset');
+      await trx.updateTable('app_user').set({ password_hash: passwordHash, updated_at: new Date() }).where('id', '=', tok.user_id).execute();
+      await endSessionsOf(trx, tok.user_id);
+      await audit(trx, tok.user_id, 'password_reset', 'User', tok.user_id);
+    });
+    res.status(204).end();
+  });
+
+  router.get('/invitations/:token', async (req, res) => {
+    const tok = await peekToken(db, req.params.token, 'invitation');
+    res.json({ email: tok.email, name: tok.name });
+  });
+
+  router.post('/invitations/accept', async (req, res) => {
+    const input = acceptInvitationSchema.parse(req.body ?? {});
+    const passwordHash = await hashPassword(input.password);
+    const row = await db.transaction().execute(async (trx) => {
+      const tok = await consumeToken(trx, input.token, 'invitation');
+      const updated = await trx
+        .updateTable('app_user')
+        .set({ password_hash: passwordHash, name: input.name, updated_at: new Date(), last_login_at: new Date() })
+        .where('id', '=', tok.user_id)
+        .returning(['id', 'email', 'name', 'roles', 'units'])
+        .executeTakeFirstOrThrow();
+      await audit(trx, tok.user_id, 'invitation_accepted', 'User', tok.user_id);
+      return updated;
+    });
+    const user = toSessionUser(row);
+    await signIn(req, user);
+    res.json({ user });
+  });
+
+  return router;
+}

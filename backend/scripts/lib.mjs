@@ -1,0 +1,155 @@
+// Helpers shared by `npm start`, `npm test`, `npm run dev` and `npm run bench`.
+// Node built-ins only: these run before the npm dependencies are installed.
+import { execFileSync, spawn, spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+export const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+
+export function log(msg) {
+  process.stdout.write(`\x1b[38;5;130m[cellarwright]\x1b[0m ${msg}\n`);
+}
+
+function run(cmd, args, opts = {}) {
+  const r = spawnSync(cmd, args, { stdio: 'inherit', ...opts });
+  if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} exited with ${r.status}`);
+}
+
+/** Install npm dependencies when node_modules is missing or older than the lock file. */
+export function ensureNodeModules() {
+  const marker = path.join(root, 'node_modules', '.package-lock.json');
+  const lock = path.join(root, 'package-lock.json');
+  const stale = !fs.existsSync(marker) || (fs.existsSync(lock) && fs.statSync(lock).mtimeMs > fs.statSync(marker).mtimeMs + 1000);
+  if (!stale) return;
+  log('installing npm dependencies…');
+  run('npm', [fs.existsSync(lock) ? 'ci' : 'install', '--no-audit', '--no-fund'], { cwd: root });
+}
+
+let aptUpdated = false;
+/** Install Debian packages when a file they provide is missing (needs root or password-less sudo). */
+export function ensureDebian(packages, probeFile) {
+  if (fs.existsSync(probeFile)) return;
+  const sudo = isRoot ? [] : ['sudo', '-n'];
+  log(`installing ${packages.join(', ')} from Debian's packages…`);
+  const exec = (args) => (sudo.length ? run(sudo[0], [...sudo.slice(1), ...args]) : run(args[0], args.slice(1)));
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  process.env.DEBIAN_FRONTEND = 'noninteractive';
+  try {
+    if (!aptUpdated) {
+      exec(['apt-get', 'update', '-q']);
+      aptUpdated = true;
+    }
+    exec(['apt-get', 'install', '-y', '-q', '--no-install-recommends', ...packages]);
+  } catch (err) {
+    throw new Error(`could not install ${packages.join(' ')} (${err.message}); install them by hand, as root: apt-get install ${packages.join(' ')}`);
+  }
+  void env;
+}
+
+export function pgBinDir() {
+  const base = '/usr/lib/postgresql';
+  const pick = () => {
+    if (!fs.existsSync(base)) return null;
+    const versions = fs.readdirSync(base).filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb'))).sort((a, b) => Number(b) - Number(a));
+    return versions.length ? path.join(base, versions[0], 'bin') : null;
+  };
+  let dir = pick();
+  if (!dir) {
+    ensureDebian(['postgresql', 'postgresql-contrib'], '/usr/lib/postgresql/15/bin/initdb');
+    dir = pick();
+  }
+  if (!dir) throw new Error('PostgreSQL binaries not found under /usr/lib/postgresql');
+  return dir;
+}
+
+/** Run a PostgreSQL binary as the postgres system user when we are root (it refuses to run as root). */
+function pgExec(bin, args, opts = {}) {
+  const full = path.join(pgBinDir(), bin);
+  if (isRoot) return run('runuser', ['-u', 'postgres', '--', full, ...args], opts);
+  return run(full, args, opts);
+}
+
+function canPostgresEnter(dir) {
+  if (!isRoot) return true;
+  return spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-w', dir]).status === 0;
+}
+
+export function freePort() {
+  return new Promise((resolve, reject) => {
+    const srv = net.createServer();
+    srv.unref();
+    srv.on('error', reject);
+    srv.listen(0, '127.0.0.1', () => {
+      const { port } = srv.address();
+      srv.close(() => resolve(port));
+    });
+  });
+}
+
+/**
+ * A PostgreSQL cluster in `dataDir`, started on 127.0.0.1:`port`. As root the folder belongs to the
+ * postgres user; when that user cannot reach the folder (a checkout under /root, say) the cluster
+ * lives under /var/lib/postgresql and `dataDir` becomes a link to it.
+ */
+export async function startPostgres({ dataDir, port, throwaway = false }) {
+  fs.mkdirSync(path.dirname(dataDir), { recursive: true });
+  if (isRoot && !fs.existsSync(dataDir)) {
+    fs.mkdirSync(dataDir, { recursive: true });
+    execFileSync('chown', ['postgres:postgres', dataDir]);
+    if (!canPostgresEnter(dataDir)) {
+      fs.rmdirSync(dataDir);
+      const elsewhere = path.join('/var/lib/postgresql', `cellarwright-${Buffer.from(dataDir).toString('hex').slice(-24)}`);
+      fs.mkdirSync(elsewhere, { recursive: true });
+      execFileSync('chown', ['postgres:postgres', elsewhere]);
+      fs.symlinkSync(elsewhere, dataDir);
+    }
+  }
+  if (!fs.existsSync(path.join(dataDir, 'PG_VERSION'))) {
+    log(`initialising PostgreSQL in ${path.relative(root, dataDir) || dataDir}…`);
+    fs.mkdirSync(dataDir, { recursive: true });
+    pgExec('initdb', ['-D', dataDir, '-U', 'postgres', '--auth=trust', '-E', 'UTF8', '--locale=C.UTF-8', '--no-instructions'], {
+      stdio: ['ignore', 'ignore', 'inherit'],
+    });
+  }
+  const fast = throwaway ? ' -c fsync=off -c synchronous_commit=off -c full_page_writes=off' : '';
+  const opts = `-c listen_addresses=127.0.0.1 -p ${port} -k ${dataDir} -c max_connections=200${fast}`;
+  pgExec('pg_ctl', ['-D', dataDir, '-o', opts, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start'], {
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
+  return {
+    url: `postgres://postgres@127.0.0.1:${port}/postgres`,
+    stop() {
+      try {
+        pgExec('pg_ctl', ['-D', dataDir, '-m', 'fast', '-w', 'stop'], { stdio: ['ignore', 'ignore', 'ignore'] });
+      } catch {
+        /* already stopped */
+      }
+    },
+  };
+}
+
+/** Start a long-running child that inherits our output; returns the ChildProcess. */
+export function startChild(name, cmd, args, env = {}) {
+  const child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+  child.on('exit', (code, signal) => {
+    if (code !== 0 && signal == null) log(`${name} exited with ${code}`);
+  });
+  return child;
+}
+
+export const tsx = path.join(root, 'node_modules', '.bin', 'tsx');
+export const vite = path.join(root, 'node_modules', '.bin', 'vite');
+
+export function runSync(cmd, args, env = {}) {
+  run(cmd, args, { cwd: root, env: { ...process.env, ...env } });
+}
+
+/** Replace the database name of a postgres:// URL. */
+export function withDatabase(url, name) {
+  const u = new URL(url);
+  u.pathname = `/${name}`;
+  return u.toString();
+}

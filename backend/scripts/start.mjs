@@ -1,0 +1,70 @@
+// `npm start`: install what is missing, start PostgreSQL under .data/, migrate, seed the demo co-op
+// once, build the front end, start the local fakes of hosted services and serve the app.
+import path from 'node:path';
+import { ensureNodeModules, freePort, log, root, runSync, startChild, startPostgres, tsx, vite, withDatabase } from './lib.mjs';
+
+ensureNodeModules();
+
+const started = [];
+let pg = null;
+let stopping = false;
+function stopAll(code = 0) {
+  if (stopping) return;
+  stopping = true;
+  for (const child of started.reverse()) child.kill('SIGTERM');
+  if (pg) {
+    log('stopping PostgreSQL…');
+    pg.stop();
+  }
+  process.exit(code);
+}
+process.on('SIGINT', () => stopAll(0));
+process.on('SIGTERM', () => stopAll(0));
+
+try {
+  let databaseUrl = process.env.DATABASE_URL;
+  if (!databaseUrl) {
+    const port = Number(process.env.PGPORT_LOCAL ?? (await freePort()));
+    pg = await startPostgres({ dataDir: path.join(root, '.data', 'pg'), port });
+    const { default: pgLib } = await import('pg');
+    const admin = new pgLib.Client({ connectionString: pg.url });
+    await admin.connect();
+    const exists = await admin.query("select 1 from pg_database where datname = 'cellarwright'");
+    if (exists.rowCount === 0) await admin.query('create database cellarwright');
+    await admin.end();
+    databaseUrl = withDatabase(pg.url, 'cellarwright');
+    log(`PostgreSQL on ${databaseUrl}`);
+  }
+  const appPort = Number(process.env.PORT ?? 3000);
+  const smtpPort = Number(process.env.SMTP_PORT ?? (await freePort()));
+  const paymentsPort = Number(process.env.PAYMENTS_FAKE_PORT ?? (await freePort()));
+  const env = {
+    DATABASE_URL: databaseUrl,
+    NODE_ENV: process.env.NODE_ENV ?? 'development',
+    PORT: String(appPort),
+  };
+  const fakes = !process.env.SMTP_HOST;
+  if (fakes) Object.assign(env, { SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtpPort) });
+  env.PAYMENTS_FAKE_PORT = String(paymentsPort);
+
+  log('migrating…');
+  runSync(tsx, ['db/migrate.ts'], env);
+  log('seeding the demo co-op (once)…');
+  runSync(tsx, ['db/seed.ts'], env);
+  log('building the front end…');
+  runSync(vite, ['build', '--logLevel', 'warn']);
+
+  if (fakes) started.push(startChild('SMTP fake', tsx, ['backend/fakes/smtp-fake.ts'], env));
+  started.push(startChild('payment provider fake', tsx, ['backend/fakes/payments-fake.ts'], env));
+  const server = startChild('server', tsx, ['backend/main.ts'], env);
+  started.push(server);
+  server.on('exit', (code) => stopAll(code ?? 0));
+  setTimeout(() => {
+    log(`Cellarwright is on http://127.0.0.1:${appPort}`);
+    log('demo accounts (password cellar-demo): admin@example.org, treasurer@example.org, brewer@example.org, member@example.org (and member2@ … member24@example.org)');
+    log('Ctrl-C stops everything this started.');
+  }, 1500);
+} catch (err) {
+  log(`start failed: ${err.message}`);
+  stopAll(1);
+}

@@ -1,0 +1,10 @@
+import type { Deps } from './lib/deps.ts';
+import { createTransport, deliverMail, type OutgoingMail } from './lib/mailer.ts';
+
+/** Registers the queue workers; every instance may run them, pg-boss hands each job to one. */
+export async function startWorkers({ config, queue }: Deps): Promise<void> {
+  const transport = createTransport(config);
+  await queue.work<OutgoingMail>('email.send', { pollingIntervalSeconds: 0.5 }, async (jobs) => {
+    for (const job of jobs) await deliverMail(config, transport, job.data);
+  });
+}

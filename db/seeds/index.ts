@@ -1,0 +1,23 @@
+import { sql } from 'kysely';
+import type { Database } from '../../backend/db/database.ts';
+import * as users from './0001_users.ts';
+
+/** Seeds in the order they run; each later capability appends its own. */
+export const seeds: { name: string; seed: (db: Database) => Promise<void> }[] = [{ name: '0001_users', seed: users.seed }];
+
+export async function runSeeds(db: Database): Promise<string[]> {
+  const ran: string[] = [];
+  for (const s of seeds) {
+    const done = await db.transaction().execute(async (trx) => {
+      // One seeder at a time, even with several instances starting together.
+      await sql`select pg_advisory_xact_lock(7201)`.execute(trx);
+      const row = await trx.selectFrom('seed_run').select('name').where('name', '=', s.name).executeTakeFirst();
+      if (row) return false;
+      await s.seed(trx);
+      await trx.insertInto('seed_run').values({ name: s.name }).execute();
+      return true;
+    });
+    if (done) ran.push(s.name);
+  }
+  return ran;
+}
