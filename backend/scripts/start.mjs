@@ -1,5 +1,6 @@
 // `npm start`: install what is missing, start PostgreSQL under .data/, migrate, seed the demo co-op
 // once, build the front end, start the local fakes of hosted services and serve the app.
+import fs from 'node:fs';
 import path from 'node:path';
 import { ensureNodeModules, freePort, log, root, runSync, startChild, startPostgres, tsx, vite, withDatabase } from './lib.mjs';
 
@@ -55,7 +56,9 @@ try {
   runSync(vite, ['build', '--logLevel', 'warn']);
 
   if (fakes) started.push(startChild('SMTP fake', tsx, ['backend/fakes/smtp-fake.ts'], env));
-  started.push(startChild('payment provider fake', tsx, ['backend/fakes/payments-fake.ts'], env));
+  if (fs.existsSync(path.join(root, 'backend/fakes/payments-fake.ts'))) {
+    started.push(startChild('payment provider fake', tsx, ['backend/fakes/payments-fake.ts'], env));
+  }
   const server = startChild('server', tsx, ['backend/main.ts'], env);
   started.push(server);
   server.on('exit', (code) => stopAll(code ?? 0));
