@@ -1,0 +1,57 @@
+import fs from 'node:fs';
+import type { AddressInfo } from 'node:net';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import type { TestContext } from './context.ts';
+import { DEMO_PASSWORD } from './context.ts';
+
+export const artifactsDir = path.resolve('test-artifacts', 'screenshots');
+
+/** Serves the test context's app (API + built front end) on a free loopback port. */
+export async function serve(ctx: TestContext): Promise<{ url: string; close(): Promise<void> }> {
+  if (!fs.existsSync(path.resolve('dist', 'index.html'))) throw new Error('dist/ is missing: `npm test` builds it (or run `npx vite build`)');
+  const server = ctx.app.listen(0, '127.0.0.1');
+  await new Promise<void>((resolve) => server.once('listening', () => resolve()));
+  const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  ctx.config.publicUrl = url;
+  return {
+    url,
+    close: () => new Promise<void>((resolve) => server.close(() => resolve())),
+  };
+}
+
+/** Debian's Chromium, headless, with no background traffic. */
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export const phone = { width: 390, height: 844 };
+export const desktop = { width: 1366, height: 860 };
+
+/** A new browser context signed in through the sign-in form. */
+export async function signedInPage(
+  browser: Browser,
+  baseUrl: string,
+  email: string,
+  { viewport = desktop, password = DEMO_PASSWORD }: { viewport?: { width: number; height: number }; password?: string } = {},
+): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ viewport, baseURL: baseUrl });
+  const page = await context.newPage();
+  await page.goto('/login');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: /sign in/i }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
+  return { context, page };
+}
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+  fs.mkdirSync(artifactsDir, { recursive: true });
+  const file = path.join(artifactsDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  return file;
+}
