@@ -52,8 +52,10 @@ try {
   runSync(tsx, ['db/migrate.ts'], env);
   log('seeding the demo co-op (once)…');
   runSync(tsx, ['db/seed.ts'], env);
-  log('building the front end…');
-  runSync(vite, ['build', '--logLevel', 'warn']);
+  if (!process.env.SKIP_BUILD) {
+    log('building the front end…');
+    runSync(vite, ['build', '--logLevel', 'warn']);
+  }
 
   if (fakes) started.push(startChild('SMTP fake', tsx, ['backend/fakes/smtp-fake.ts'], env));
   if (fs.existsSync(path.join(root, 'backend/fakes/payments-fake.ts'))) {
