@@ -11,8 +11,11 @@ import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
+import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
+import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
 import { healthRoutes } from './modules/health/health.routes.ts';
+import { settingsRoutes } from './modules/settings/settings.routes.ts';
 import { usersRoutes } from './modules/users/users.routes.ts';
 
 const distDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
@@ -80,6 +83,9 @@ export function createApp(deps: Deps): Express {
   app.use('/api/users', usersRoutes(deps));
   app.use('/api/audit', auditRoutes(deps));
   app.use('/api/dev', mailboxRoutes(deps));
+  app.use('/api/equipment', equipmentRoutes(deps));
+  app.use('/api/bookings', bookingsRoutes(deps));
+  app.use('/api/settings', settingsRoutes(deps));
   app.use('/api', apiNotFound);
 
   // The built front end, with client-side routes falling back to index.html.

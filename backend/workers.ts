@@ -1,10 +1,16 @@
 import type { Deps } from './lib/deps.ts';
 import { createTransport, deliverMail, type OutgoingMail } from './lib/mailer.ts';
+import { advanceBookingStates } from './modules/bookings/bookings.service.ts';
 
 /** Registers the queue workers; every instance may run them, pg-boss hands each job to one. */
-export async function startWorkers({ config, queue }: Deps): Promise<void> {
+export async function startWorkers({ config, queue, db }: Deps): Promise<void> {
   const transport = createTransport(config);
   await queue.work<OutgoingMail>('email.send', { pollingIntervalSeconds: 0.5 }, async (jobs) => {
     for (const job of jobs) await deliverMail(config, transport, job.data);
   });
+  // Bookings move along with the clock: booked → in use at the start, → finished at the end.
+  await queue.work('bookings.advance', async () => {
+    await advanceBookingStates(db);
+  });
+  await queue.schedule('bookings.advance', '*/5 * * * *');
 }

@@ -1,0 +1,403 @@
+import { sql } from 'kysely';
+import type { AppAbility } from '../../../shared/permissions/ability.ts';
+import { subject } from '../../../shared/permissions/ability.ts';
+import type { Booking, BookingListQuery, CreateBookingInput } from '../../../shared/schemas/booking.ts';
+import { equipmentKindLabels } from '../../../shared/schemas/equipment.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import { bookingRuleLabels, type BookingRuleName, type BookingRules } from '../../../shared/schemas/settings.ts';
+import type { Database } from '../../db/database.ts';
+import type { BookingState } from '../../db/tables/cellar.ts';
+import { audit } from '../../lib/audit.ts';
+import { canAll } from '../../lib/authz.ts';
+import { conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
+import { getBookingRules } from '../settings/settings.service.ts';
+
+/** Who is asking: their id and what the shared policy lets them do. */
+export interface Viewer {
+  id: string;
+  ability: AppAbility;
+}
+
+const HOUR = 3600_000;
+const DAY = 24 * HOUR;
+/** A booking may start a few minutes in the past (the form was opened a little while ago). */
+const START_GRACE_MS = 10 * 60_000;
+
+export const liveStates: BookingState[] = ['booked', 'in_use'];
+
+function bookingQuery(db: Database) {
+  return db
+    .selectFrom('booking as b')
+    .innerJoin('equipment as e', 'e.id', 'b.equipment_id')
+    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
+    .select([
+      'b.id',
+      'b.equipment_id',
+      'b.owner_id',
+      'b.batch_id',
+      'b.starts_at',
+      'b.ends_at',
+      'b.blocked_until',
+      'b.state',
+      'b.notes',
+      'b.created_at',
+      'b.cancelled_at',
+      'e.code as equipment_code',
+      'e.name as equipment_name',
+      'e.kind as equipment_kind',
+      'u.name as owner_name',
+      'u.email as owner_email',
+    ]);
+}
+type BookingJoinedRow = Awaited<ReturnType<ReturnType<typeof bookingQuery>['executeTakeFirstOrThrow']>>;
+
+/** The one place a booking row becomes what a person may see: owners' details only with `readOwner`. */
+export function toBookingDto(row: BookingJoinedRow, viewer: Viewer): Booking {
+  const dto: Booking = {
+    id: row.id,
+    equipmentId: row.equipment_id,
+    equipment: { code: row.equipment_code, name: row.equipment_name, kind: row.equipment_kind },
+    startsAt: row.starts_at.toISOString(),
+    endsAt: row.ends_at.toISOString(),
+    blockedUntil: row.blocked_until.toISOString(),
+    state: row.state,
+    mine: row.owner_id === viewer.id,
+    createdAt: row.created_at.toISOString(),
+    cancelledAt: row.cancelled_at?.toISOString() ?? null,
+  };
+  if (viewer.ability.can('readOwner', subject('Booking', { ownerId: row.owner_id }))) {
+    dto.ownerId = row.owner_id;
+    dto.owner = { id: row.owner_id, name: row.owner_name, email: row.owner_email };
+    dto.batchId = row.batch_id;
+    dto.notes = row.notes;
+  }
+  return dto;
+}
+
+const sortColumns = {
+  startsAt: 'b.starts_at',
+  endsAt: 'b.ends_at',
+  createdAt: 'b.created_at',
+  state: 'b.state',
+} as const;
+
+export async function listBookings(db: Database, q: BookingListQuery, viewer: Viewer): Promise<Page<Booking>> {
+  let base = bookingQuery(db);
+  // The calendar is open to all who may read bookings; only the owner filter depends on who asks.
+  if (q.mine) base = base.where('b.owner_id', '=', viewer.id);
+  if (q.ownerId) {
+    // Filtering by someone else's id would reveal whose bookings those are.
+    if (q.ownerId !== viewer.id && !canAll(viewer.ability, 'readOwner', 'Booking')) {
+      throw new HttpProblem(403, 'Forbidden', 'You may filter only by your own bookings (mine=1).');
+    }
+    base = base.where('b.owner_id', '=', q.ownerId);
+  }
+  if (q.equipmentId) base = base.where('b.equipment_id', '=', q.equipmentId);
+  if (q.kind) base = base.where('e.kind', '=', q.kind);
+  if (q.from) base = base.where('b.ends_at', '>', new Date(q.from));
+  if (q.to) base = base.where('b.starts_at', '<', new Date(q.to));
+  if (q.state) base = base.where('b.state', '=', q.state);
+  else if (!q.includeCancelled) base = base.where('b.state', '<>', 'cancelled');
+
+  const [{ total }, rows] = await Promise.all([
+    base.clearSelect().select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .orderBy(sortColumns[q.sort], q.order)
+      .orderBy('e.code')
+      .orderBy('b.id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return { items: rows.map((r) => toBookingDto(r, viewer)), total, page: q.page, pageSize: q.pageSize };
+}
+
+export async function findBooking(db: Database, id: string): Promise<BookingJoinedRow | undefined> {
+  return bookingQuery(db).where('b.id', '=', id).executeTakeFirst();
+}
+
+export async function upcomingBookingsFor(db: Database, equipmentId: string, viewer: Viewer, limit = 20): Promise<Booking[]> {
+  const rows = await bookingQuery(db)
+    .where('b.equipment_id', '=', equipmentId)
+    .where('b.state', 'in', liveStates)
+    .where('b.blocked_until', '>', new Date())
+    .orderBy('b.starts_at')
+    .limit(limit)
+    .execute();
+  return rows.map((r) => toBookingDto(r, viewer));
+}
+
+/** Times in messages, in the co-op's time zone: "Thu 3 Dec 2026, 09:00". */
+export function formatWhen(at: Date, timeZone: string): string {
+  const text = new Intl.DateTimeFormat('en-GB', {
+    timeZone,
+    weekday: 'short',
+    day: 'numeric',
+    month: 'short',
+    year: 'numeric',
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
+  }).format(at);
+  return `${text} (${timeZone})`;
+}
+
+function ruleBroken(rule: BookingRuleName, detail: string, path: string): HttpProblem {
+  return new HttpProblem(422, `Booking rule: ${bookingRuleLabels[rule]}`, detail, [{ path, message: detail }], 'about:blank', { rule });
+}
+
+function plural(n: number, word: string): string {
+  return `${n} ${word}${n === 1 ? '' : 's'}`;
+}
+
+/** The co-op's rules, checked in the booking's own transaction. Throws a 422 naming the rule broken. */
+export function checkRules(
+  rules: BookingRules,
+  input: { startsAt: Date; endsAt: Date; kind: keyof BookingRules['maxDays'] },
+  activeCount: number,
+  now = new Date(),
+): void {
+  if (input.startsAt.getTime() < now.getTime() - START_GRACE_MS) {
+    throw new HttpProblem(422, 'Booking in the past', 'A booking cannot start in the past.', [{ path: 'startsAt', message: 'A booking cannot start in the past.' }], 'about:blank', {
+      rule: 'notInPast',
+    });
+  }
+  const latestStart = now.getTime() + rules.maxAdvanceDays * DAY;
+  if (input.startsAt.getTime() > latestStart) {
+    throw ruleBroken('maxAdvanceDays', `Bookings may start at most ${plural(rules.maxAdvanceDays, 'day')} ahead (co-op rule "${bookingRuleLabels.maxAdvanceDays}").`, 'startsAt');
+  }
+  const maxDays = rules.maxDays[input.kind];
+  const lengthMs = input.endsAt.getTime() - input.startsAt.getTime();
+  if (lengthMs > maxDays * DAY) {
+    const asked = Math.ceil((lengthMs / DAY) * 10) / 10;
+    throw ruleBroken(
+      'maxDays',
+      `A ${equipmentKindLabels[input.kind].toLowerCase()} may be booked for at most ${plural(maxDays, 'day')} (co-op rule "${bookingRuleLabels.maxDays}"); this booking is ${asked} days.`,
+      'endsAt',
+    );
+  }
+  if (activeCount >= rules.maxActiveBookingsPerMember) {
+    throw ruleBroken(
+      'maxActiveBookingsPerMember',
+      `A member may hold at most ${plural(rules.maxActiveBookingsPerMember, 'booking')} at once (co-op rule "${bookingRuleLabels.maxActiveBookingsPerMember}"); cancel one or wait until one ends.`,
+      'equipmentId',
+    );
+  }
+}
+
+interface Clash {
+  id: string;
+  owner_id: string;
+  owner_name: string;
+  starts_at: Date;
+  ends_at: Date;
+  blocked_until: Date;
+}
+
+async function findClash(db: Database, equipmentId: string, startsAt: Date, blockedUntil: Date): Promise<Clash | undefined> {
+  return db
+    .selectFrom('booking as b')
+    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
+    .select(['b.id', 'b.owner_id', 'u.name as owner_name', 'b.starts_at', 'b.ends_at', 'b.blocked_until'])
+    .where('b.equipment_id', '=', equipmentId)
+    .where('b.state', '<>', 'cancelled')
+    .where(sql<boolean>`tstzrange(b.starts_at, b.blocked_until, '[)') && tstzrange(${startsAt}, ${blockedUntil}, '[)')`)
+    .orderBy('b.starts_at')
+    .limit(1)
+    .executeTakeFirst();
+}
+
+/** A 409 that names the item and the period it clashes with; the holder's name only for those who may see it. */
+function clashProblem(
+  item: { id: string; code: string },
+  clash: Clash | undefined,
+  wanted: { startsAt: Date; blockedUntil: Date },
+  rules: BookingRules,
+  viewer: Viewer,
+): HttpProblem {
+  const tz = rules.timeZone;
+  if (!clash) {
+    return conflict(`${item.code} is already taken in that period (cleaning buffer of ${rules.cleaningBufferHours} h included).`, {
+      title: 'Slot taken',
+      clash: { equipmentId: item.id, code: item.code },
+    });
+  }
+  const seeOwner = viewer.ability.can('readOwner', subject('Booking', { ownerId: clash.owner_id }));
+  const holder = seeOwner ? (clash.owner_id === viewer.id ? 'by you' : `by ${clash.owner_name}`) : '';
+  const buffer = rules.cleaningBufferHours;
+  const parts = [
+    `${item.code} is taken${holder ? ` ${holder}` : ''} from ${formatWhen(clash.starts_at, tz)} until ${formatWhen(clash.ends_at, tz)}`,
+    clash.blocked_until > clash.ends_at ? `, and kept free for cleaning until ${formatWhen(clash.blocked_until, tz)}` : '',
+    `. Your booking, with its ${buffer} h cleaning buffer, would hold it from ${formatWhen(wanted.startsAt, tz)} until ${formatWhen(wanted.blockedUntil, tz)}.`,
+  ];
+  return new HttpProblem(409, 'Slot taken', parts.join(''), undefined, 'about:blank', {
+    clash: {
+      equipmentId: item.id,
+      code: item.code,
+      startsAt: clash.starts_at.toISOString(),
+      endsAt: clash.ends_at.toISOString(),
+      blockedUntil: clash.blocked_until.toISOString(),
+      ...(seeOwner ? { bookingId: clash.id, owner: { id: clash.owner_id, name: clash.owner_name } } : {}),
+    },
+  });
+}
+
+export interface CreatedBooking {
+  booking: Booking;
+  owner: { id: string; name: string; email: string };
+  rules: BookingRules;
+}
+
+/**
+ * Books an item. One transaction: the item's row is locked (so concurrent requests for it queue
+ * and each sees the others' bookings), then the owner's row (so their count of active bookings
+ * is exact), the rules are checked, and the insert is guarded by the exclusion constraint
+ * `booking_no_overlap` in any case.
+ */
+export async function createBooking(db: Database, input: CreateBookingInput & { ownerId: string }, actor: Viewer): Promise<CreatedBooking> {
+  const startsAt = new Date(input.startsAt);
+  const endsAt = new Date(input.endsAt);
+  let context: { item: { id: string; code: string }; rules: BookingRules; blockedUntil: Date } | undefined;
+  try {
+    return await db.transaction().execute(async (trx) => {
+      const item = await trx
+        .selectFrom('equipment')
+        .select(['id', 'code', 'kind', 'name', 'state'])
+        .where('id', '=', input.equipmentId)
+        .forUpdate()
+        .executeTakeFirst();
+      if (!item) throw notFound('Equipment');
+      const owner = await trx
+        .selectFrom('app_user')
+        .select(['id', 'name', 'email', 'is_active'])
+        .where('id', '=', input.ownerId)
+        .forUpdate()
+        .executeTakeFirst();
+      if (!owner || !owner.is_active) {
+        throw new HttpProblem(422, 'Validation failed', 'That member has no active account.', [{ path: 'ownerId', message: 'That member has no active account.' }]);
+      }
+      if (item.state === 'out_of_service') {
+        throw conflict(`${item.code} is out of service and cannot be booked.`, { title: 'Out of service', clash: { equipmentId: item.id, code: item.code } });
+      }
+      const rules = await getBookingRules(trx);
+      const { active } = await trx
+        .selectFrom('booking')
+        .select((eb) => eb.fn.countAll<number>().as('active'))
+        .where('owner_id', '=', owner.id)
+        .where('state', 'in', liveStates)
+        .where('ends_at', '>', new Date())
+        .executeTakeFirstOrThrow();
+      checkRules(rules, { startsAt, endsAt, kind: item.kind }, active);
+      if (input.batchId) await checkBatch(trx, input.batchId, owner.id);
+
+      const blockedUntil = new Date(endsAt.getTime() + rules.cleaningBufferHours * HOUR);
+      context = { item, rules, blockedUntil };
+      const clash = await findClash(trx, item.id, startsAt, blockedUntil);
+      if (clash) throw clashProblem(item, clash, { startsAt, blockedUntil }, rules, actor);
+
+      const row = await trx
+        .insertInto('booking')
+        .values({
+          equipment_id: item.id,
+          owner_id: owner.id,
+          batch_id: input.batchId ?? null,
+          starts_at: startsAt,
+          ends_at: endsAt,
+          blocked_until: blockedUntil,
+          state: startsAt.getTime() <= Date.now() ? 'in_use' : 'booked',
+          notes: input.notes ?? '',
+          created_by: actor.id,
+        })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      await audit(trx, actor.id, 'booked', 'Booking', row.id, {
+        equipmentId: item.id,
+        code: item.code,
+        ownerId: owner.id,
+        startsAt: startsAt.toISOString(),
+        endsAt: endsAt.toISOString(),
+        blockedUntil: blockedUntil.toISOString(),
+      });
+      const created = await findBooking(trx, row.id);
+      return { booking: toBookingDto(created!, actor), owner: { id: owner.id, name: owner.name, email: owner.email }, rules };
+    });
+  } catch (err) {
+    // The constraint is the guarantee: a booking that slipped past the check still cannot overlap.
+    if ((err as { code?: string }).code === '23P01' && context) {
+      const clash = await findClash(db, context.item.id, startsAt, context.blockedUntil);
+      throw clashProblem(context.item, clash, { startsAt, blockedUntil: context.blockedUntil }, context.rules, actor);
+    }
+    throw err;
+  }
+}
+
+/** A booking may name one of its owner's batches, once the batches capability keeps them. */
+async function checkBatch(trx: Database, batchId: string, ownerId: string): Promise<void> {
+  const exists = await sql<{ t: string | null }>`select to_regclass('public.batch')::text as t`.execute(trx);
+  const problem = (message: string) => new HttpProblem(422, 'Validation failed', message, [{ path: 'batchId', message }]);
+  if (!exists.rows[0]?.t) throw problem('Batches are not kept yet; leave the batch empty.');
+  const batch = await sql<{ owner_id: string }>`select owner_id from batch where id = ${batchId}`.execute(trx);
+  const row = batch.rows[0];
+  if (!row) throw problem('That batch does not exist.');
+  if (row.owner_id !== ownerId) throw problem('The batch must belong to the member the booking is for.');
+}
+
+export interface CancelledBooking {
+  booking: Booking;
+  owner: { id: string; name: string; email: string };
+  timeZone: string;
+  cancelledBy: string;
+}
+
+/** Cancels a booking (frees its slot at once) in one transaction with an audit row. */
+export async function cancelBooking(db: Database, id: string, actor: Viewer & { name: string }): Promise<CancelledBooking> {
+  return db.transaction().execute(async (trx) => {
+    const row = await trx.selectFrom('booking').select(['id', 'owner_id', 'state', 'ends_at']).where('id', '=', id).forUpdate().executeTakeFirst();
+    if (!row) throw notFound('Booking');
+    if (!actor.ability.can('cancel', subject('Booking', { ownerId: row.owner_id }))) {
+      throw new HttpProblem(403, 'Forbidden', 'Only the member who holds a booking, or the admin, may cancel it.');
+    }
+    if (row.state === 'cancelled') throw conflict('This booking is already cancelled.');
+    if (row.state === 'finished' || row.ends_at.getTime() <= Date.now()) throw conflict('This booking has already ended and cannot be cancelled.');
+    if (row.state === 'in_use' && !canAll(actor.ability, 'cancel', 'Booking')) {
+      throw conflict('This booking is in use; ask the brewer on duty or the admin to end it.');
+    }
+    await trx
+      .updateTable('booking')
+      .set({ state: 'cancelled', cancelled_at: new Date(), cancelled_by: actor.id, updated_at: new Date() })
+      .where('id', '=', id)
+      .execute();
+    await audit(trx, actor.id, 'cancelled', 'Booking', id, { previousState: row.state });
+    const after = await findBooking(trx, id);
+    const rules = await getBookingRules(trx);
+    return {
+      booking: toBookingDto(after!, actor),
+      owner: { id: after!.owner_id, name: after!.owner_name, email: after!.owner_email },
+      timeZone: rules.timeZone,
+      cancelledBy: actor.name,
+    };
+  });
+}
+
+/**
+ * Moves bookings along with the clock: `booked` becomes `in_use` at its start and `finished` at
+ * its end. Run by a scheduled job; returns how many changed.
+ */
+export async function advanceBookingStates(db: Database, now = new Date()): Promise<number> {
+  return db.transaction().execute(async (trx) => {
+    const finished = await trx
+      .updateTable('booking')
+      .set({ state: 'finished', updated_at: now })
+      .where('state', 'in', liveStates)
+      .where('ends_at', '<=', now)
+      .executeTakeFirst();
+    const started = await trx
+      .updateTable('booking')
+      .set({ state: 'in_use', updated_at: now })
+      .where('state', '=', 'booked')
+      .where('starts_at', '<=', now)
+      .where('ends_at', '>', now)
+      .executeTakeFirst();
+    return Number(finished.numUpdatedRows) + Number(started.numUpdatedRows);
+  });
+}

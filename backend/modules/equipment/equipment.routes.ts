@@ -1,0 +1,99 @@
+import { ForbiddenError } from '@casl/ability';
+import { Router } from 'express';
+import { z } from 'zod';
+import {
+  createEquipmentSchema,
+  equipmentListQuerySchema,
+  equipmentStateChangeSchema,
+  labelSheetQuerySchema,
+  updateEquipmentSchema,
+} from '../../../shared/schemas/equipment.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { notFound } from '../../lib/http-problem.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import { upcomingBookingsFor } from '../bookings/bookings.service.ts';
+import {
+  changeEquipmentState,
+  createEquipment,
+  equipmentByIds,
+  equipmentHistory,
+  findEquipment,
+  listEquipment,
+  updateEquipment,
+} from './equipment.service.ts';
+import { renderLabelSheet } from './labels-pdf.service.ts';
+
+const idSchema = z.uuid();
+
+/** The equipment registry: everyone reads it, the admin keeps it, the brewer on duty changes states. */
+export function equipmentRoutes({ db, config }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  async function itemOr404(rawId: string) {
+    const id = idSchema.safeParse(rawId);
+    const item = id.success ? await findEquipment(db, id.data) : undefined;
+    if (!item) throw notFound('Equipment');
+    return item;
+  }
+
+  router.get('/', async (req, res) => {
+    const q = equipmentListQuerySchema.parse(req.query);
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
+    res.json(await listEquipment(db, q));
+  });
+
+  router.get('/labels.pdf', async (req, res) => {
+    const q = labelSheetQuerySchema.parse(req.query);
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
+    const items = await equipmentByIds(db, [...new Set(q.ids)]);
+    if (items.length !== new Set(q.ids).size) throw notFound('Equipment');
+    // Keep the order asked for, so a sheet prints as picked.
+    const order = new Map(q.ids.map((id, i) => [id, i]));
+    items.sort((a, b) => order.get(a.id)! - order.get(b.id)!);
+    const pdf = await renderLabelSheet(items, config.publicUrl);
+    res
+      .status(200)
+      .type('application/pdf')
+      .set('Content-Disposition', `inline; filename="cellarwright-labels-${items.length}.pdf"`)
+      .set('Cache-Control', 'no-store')
+      .send(pdf);
+  });
+
+  router.get('/:id', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
+    const item = await itemOr404(req.params.id);
+    const [history, upcomingBookings] = await Promise.all([
+      equipmentHistory(db, item.id),
+      upcomingBookingsFor(db, item.id, { id: req.user!.id, ability: req.ability }),
+    ]);
+    res.json({ equipment: item, history, upcomingBookings });
+  });
+
+  router.post('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'Equipment');
+    const input = createEquipmentSchema.parse(req.body ?? {});
+    res.status(201).json({ equipment: await createEquipment(db, input, req.user!.id) });
+  });
+
+  router.patch('/:id', async (req, res) => {
+    // The registry's details are the admin's; the brewer on duty changes only states (below).
+    ForbiddenError.from(req.ability).throwUnlessCan('manage', 'Equipment');
+    const input = updateEquipmentSchema.parse(req.body ?? {});
+    const item = await itemOr404(req.params.id);
+    res.json({ equipment: await updateEquipment(db, item, input, req.user!.id) });
+  });
+
+  router.post('/:id/state', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
+    const input = equipmentStateChangeSchema.parse(req.body ?? {});
+    const item = await itemOr404(req.params.id);
+    const equipment = await db
+      .transaction()
+      .execute((trx) => changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: req.user!.id }));
+    res.json({ equipment, history: await equipmentHistory(db, item.id, 20) });
+  });
+
+  return router;
+}
+

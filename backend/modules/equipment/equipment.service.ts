@@ -1,0 +1,205 @@
+import { sql } from 'kysely';
+import {
+  attributesSchemaByKind,
+  type CreateEquipmentInput,
+  type Equipment,
+  type EquipmentListQuery,
+  type EquipmentStateChange,
+  type UpdateEquipmentInput,
+  type VesselState,
+  vesselStateLabels,
+} from '../../../shared/schemas/equipment.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+
+const columns = ['id', 'code', 'kind', 'name', 'capacity_liters', 'state', 'attributes', 'notes', 'state_changed_at', 'created_at', 'updated_at'] as const;
+
+type EquipmentRow = Awaited<ReturnType<ReturnType<typeof selectEquipment>['executeTakeFirstOrThrow']>>;
+function selectEquipment(db: Database) {
+  return db.selectFrom('equipment').select(columns);
+}
+
+export function toEquipmentDto(row: EquipmentRow): Equipment {
+  return {
+    id: row.id,
+    code: row.code,
+    kind: row.kind,
+    name: row.name,
+    capacityLiters: row.capacity_liters,
+    state: row.state,
+    attributes: (row.attributes ?? {}) as Record<string, unknown>,
+    notes: row.notes,
+    stateChangedAt: row.state_changed_at.toISOString(),
+    createdAt: row.created_at.toISOString(),
+    updatedAt: row.updated_at.toISOString(),
+  };
+}
+
+const sortColumns = {
+  code: 'code',
+  name: 'name',
+  kind: 'kind',
+  state: 'state',
+  capacityLiters: 'capacity_liters',
+  stateChangedAt: 'state_changed_at',
+} as const;
+
+export async function listEquipment(db: Database, q: EquipmentListQuery): Promise<Page<Equipment>> {
+  let base = db.selectFrom('equipment');
+  if (q.kind) base = base.where('kind', '=', q.kind);
+  if (q.state) base = base.where('state', '=', q.state);
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    base = base.where((eb) => eb.or([eb('code', 'ilike', like), eb('name', 'ilike', like), eb('notes', 'ilike', like)]));
+  }
+  const [{ total }, rows] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .select(columns)
+      .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
+      // Codes sort by their number within a prefix (K-2 before K-10).
+      .orderBy(sql`split_part(code, '-', 1)`)
+      .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`)
+      .orderBy('id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return { items: rows.map(toEquipmentDto), total, page: q.page, pageSize: q.pageSize };
+}
+
+export async function findEquipment(db: Database, id: string): Promise<Equipment | undefined> {
+  const row = await selectEquipment(db).where('id', '=', id).executeTakeFirst();
+  return row ? toEquipmentDto(row) : undefined;
+}
+
+export async function getEquipmentOrThrow(db: Database, id: string): Promise<Equipment> {
+  const item = await findEquipment(db, id);
+  if (!item) throw notFound('Equipment');
+  return item;
+}
+
+export async function equipmentHistory(db: Database, equipmentId: string, limit = 100): Promise<EquipmentStateChange[]> {
+  const rows = await db
+    .selectFrom('equipment_state_change as c')
+    .leftJoin('app_user as u', 'u.id', 'c.actor_id')
+    .select(['c.id', 'c.from_state', 'c.to_state', 'c.reason', 'c.at', 'c.actor_id', 'u.name as actor_name'])
+    .where('c.equipment_id', '=', equipmentId)
+    .orderBy('c.at', 'desc')
+    .orderBy('c.id', 'desc')
+    .limit(limit)
+    .execute();
+  return rows.map((r) => ({
+    id: String(r.id),
+    fromState: r.from_state,
+    toState: r.to_state,
+    reason: r.reason,
+    at: r.at.toISOString(),
+    actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? '' } : null,
+  }));
+}
+
+function isUniqueViolation(err: unknown): boolean {
+  return (err as { code?: string }).code === '23505';
+}
+
+export async function createEquipment(db: Database, input: CreateEquipmentInput, actorId: string): Promise<Equipment> {
+  try {
+    return await db.transaction().execute(async (trx) => {
+      const state = input.state ?? 'needs_cleaning';
+      const row = await trx
+        .insertInto('equipment')
+        .values({
+          code: input.code,
+          kind: input.kind,
+          name: input.name,
+          capacity_liters: input.capacityLiters ?? null,
+          state,
+          attributes: sql`${JSON.stringify(input.attributes)}::jsonb`,
+          notes: input.notes ?? '',
+        })
+        .returning(columns)
+        .executeTakeFirstOrThrow();
+      await trx
+        .insertInto('equipment_state_change')
+        .values({ equipment_id: row.id, from_state: null, to_state: state, reason: 'Added to the registry', actor_id: actorId })
+        .execute();
+      await audit(trx, actorId, 'created', 'Equipment', row.id, { code: row.code, kind: row.kind });
+      return toEquipmentDto(row);
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) throw conflict(`The code ${input.code} is already on another item.`, { title: 'Code taken' });
+    throw err;
+  }
+}
+
+export async function updateEquipment(db: Database, current: Equipment, input: UpdateEquipmentInput, actorId: string): Promise<Equipment> {
+  // Attributes are merged onto the current ones and must still fit the item's kind.
+  const attributes =
+    input.attributes !== undefined ? attributesSchemaByKind[current.kind].parse({ ...current.attributes, ...input.attributes }) : undefined;
+  if ((current.kind === 'fermenter' || current.kind === 'keg') && input.capacityLiters === null) {
+    throw unprocessable(`A ${current.kind} needs its capacity.`, [{ path: 'capacityLiters', message: 'Enter the capacity in litres' }]);
+  }
+  try {
+    return await db.transaction().execute(async (trx) => {
+      const row = await trx
+        .updateTable('equipment')
+        .set({
+          ...(input.code !== undefined ? { code: input.code } : {}),
+          ...(input.name !== undefined ? { name: input.name } : {}),
+          ...(input.capacityLiters !== undefined ? { capacity_liters: input.capacityLiters } : {}),
+          ...(input.notes !== undefined ? { notes: input.notes } : {}),
+          ...(attributes !== undefined ? { attributes: sql`${JSON.stringify(attributes)}::jsonb` } : {}),
+          updated_at: new Date(),
+        })
+        .where('id', '=', current.id)
+        .returning(columns)
+        .executeTakeFirstOrThrow();
+      await audit(trx, actorId, 'updated', 'Equipment', current.id, { ...input, ...(attributes ? { attributes } : {}) });
+      return toEquipmentDto(row);
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) throw conflict(`The code ${input.code} is already on another item.`, { title: 'Code taken' });
+    throw err;
+  }
+}
+
+/**
+ * Changes an item's state and records who, when and why, inside the caller's transaction.
+ * Other cellar work (sanitation cycles, transfers) calls this too, so every change lands in the history.
+ */
+export async function changeEquipmentState(
+  trx: Database,
+  change: { equipmentId: string; toState: VesselState; reason: string; actorId: string | null; at?: Date },
+): Promise<Equipment> {
+  const current = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', change.equipmentId).forUpdate().executeTakeFirst();
+  if (!current) throw notFound('Equipment');
+  if (current.state === change.toState) {
+    throw conflict(`${current.code} is already "${vesselStateLabels[change.toState]}".`, { title: 'No change' });
+  }
+  const at = change.at ?? new Date();
+  const row = await trx
+    .updateTable('equipment')
+    .set({ state: change.toState, state_changed_at: at, updated_at: at })
+    .where('id', '=', current.id)
+    .returning(columns)
+    .executeTakeFirstOrThrow();
+  await trx
+    .insertInto('equipment_state_change')
+    .values({ equipment_id: current.id, from_state: current.state, to_state: change.toState, reason: change.reason, actor_id: change.actorId, at })
+    .execute();
+  await audit(trx, change.actorId, 'state_changed', 'Equipment', current.id, { code: current.code, from: current.state, to: change.toState, reason: change.reason });
+  return toEquipmentDto(row);
+}
+
+export async function equipmentByIds(db: Database, ids: string[]): Promise<Equipment[]> {
+  if (!ids.length) return [];
+  const rows = await selectEquipment(db)
+    .where('id', 'in', ids)
+    .orderBy(sql`split_part(code, '-', 1)`)
+    .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`)
+    .execute();
+  return rows.map(toEquipmentDto);
+}

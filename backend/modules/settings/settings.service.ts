@@ -1,0 +1,45 @@
+import type { z } from 'zod';
+import { settingSections, type BookingRules, type SettingKey, type SettingValue } from '../../../shared/schemas/settings.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+
+type ValueOf<K extends SettingKey> = z.infer<(typeof settingSections)[K]['schema']>;
+
+/**
+ * Reads a settings section. A stored value missing newer fields is completed from the defaults;
+ * one that no longer parses falls back to the defaults entirely rather than breaking the co-op.
+ */
+export async function getSetting<K extends SettingKey>(db: Database, key: K, opts: { forUpdate?: boolean } = {}): Promise<SettingValue<ValueOf<K>>> {
+  const section = settingSections[key];
+  let q = db
+    .selectFrom('setting')
+    .leftJoin('app_user', 'app_user.id', 'setting.updated_by')
+    .select(['setting.value', 'setting.updated_at', 'setting.updated_by', 'app_user.name as updated_by_name'])
+    .where('setting.key', '=', key);
+  if (opts.forUpdate) q = q.forUpdate('setting');
+  const row = await q.executeTakeFirst();
+  const stored = row?.value && typeof row.value === 'object' ? (row.value as Record<string, unknown>) : {};
+  const parsed = section.schema.safeParse({ ...section.defaults, ...stored });
+  return {
+    key,
+    value: (parsed.success ? parsed.data : section.defaults) as ValueOf<K>,
+    updatedAt: row ? row.updated_at.toISOString() : null,
+    updatedBy: row?.updated_by ? { id: row.updated_by, name: row.updated_by_name ?? '' } : null,
+  };
+}
+
+export async function getBookingRules(db: Database, opts: { forUpdate?: boolean } = {}): Promise<BookingRules> {
+  return (await getSetting(db, 'booking_rules', opts)).value;
+}
+
+/** Saves a section (already parsed by its schema) with an audit row; call inside a transaction. */
+export async function putSetting<K extends SettingKey>(trx: Database, key: K, value: ValueOf<K>, actorId: string): Promise<SettingValue<ValueOf<K>>> {
+  const before = await getSetting(trx, key, { forUpdate: true });
+  await trx
+    .insertInto('setting')
+    .values({ key, value: JSON.stringify(value), updated_by: actorId, updated_at: new Date() })
+    .onConflict((oc) => oc.column('key').doUpdateSet({ value: JSON.stringify(value), updated_by: actorId, updated_at: new Date() }))
+    .execute();
+  await audit(trx, actorId, 'updated', 'Setting', key, { before: before.value, after: value });
+  return getSetting(trx, key);
+}

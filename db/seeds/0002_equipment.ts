@@ -1,0 +1,170 @@
+import { sql } from 'kysely';
+import type { Database } from '../../backend/db/database.ts';
+import type { EquipmentKind, VesselState } from '../../shared/schemas/equipment.ts';
+import { userId } from './0001_users.ts';
+import { rng, seedId } from './ids.ts';
+
+/** The stable id of a seeded item, by its label code (`F-07`, `K-031`, `T-3`, `C-1`). */
+export const equipmentId = (code: string) => seedId('equipment', code);
+
+export interface SeedEquipment {
+  code: string;
+  kind: EquipmentKind;
+  name: string;
+  capacityLiters: number | null;
+  attributes: Record<string, unknown>;
+  notes: string;
+}
+
+const pad = (n: number, width: number) => String(n).padStart(width, '0');
+
+function fermenters(): SeedEquipment[] {
+  const list: SeedEquipment[] = [];
+  for (let i = 1; i <= 12; i++) {
+    const code = `F-${pad(i, 2)}`;
+    if (i <= 6) {
+      list.push({
+        code,
+        kind: 'fermenter',
+        name: `30 L bucket fermenter ${i}`,
+        capacityLiters: 30,
+        attributes: { style: 'bucket', hasValve: i % 2 === 1 },
+        notes: i % 2 === 1 ? 'Spigot at the bottom; check the seal before filling.' : 'No valve: rack with a siphon.',
+      });
+    } else if (i <= 10) {
+      list.push({
+        code,
+        kind: 'fermenter',
+        name: `60 L fermenter ${i - 6}`,
+        capacityLiters: 60,
+        attributes: { style: 'bucket', hasValve: true },
+        notes: 'Bottom valve and a lid with an airlock grommet.',
+      });
+    } else {
+      list.push({
+        code,
+        kind: 'fermenter',
+        name: `120 L conical ${i - 10}`,
+        capacityLiters: 120,
+        attributes: { style: 'conical', hasValve: true },
+        notes: 'Stainless conical with a dump valve and a racking arm. Pressure-capable lid: use its relief valve.',
+      });
+    }
+  }
+  return list;
+}
+
+function kegs(): SeedEquipment[] {
+  const list: SeedEquipment[] = [];
+  for (let i = 1; i <= 60; i++) {
+    const lock = i <= 40 ? 'ball' : 'pin';
+    list.push({
+      code: `K-${pad(i, 3)}`,
+      kind: 'keg',
+      name: `19 L ${lock} lock keg ${i}`,
+      capacityLiters: 19,
+      attributes: { serial: `LY19-${lock === 'ball' ? 'B' : 'P'}${pad(1000 + i * 7, 5)}`, lock },
+      notes: '',
+    });
+  }
+  return list;
+}
+
+function taps(): SeedEquipment[] {
+  const list: SeedEquipment[] = [];
+  const lengths = [3.0, 3.0, 3.5, 3.5, 4.0, 4.0, 5.0, 5.0];
+  for (let i = 1; i <= 8; i++) {
+    list.push({
+      code: `T-${i}`,
+      kind: 'tap',
+      name: `Tap position ${i}`,
+      capacityLiters: null,
+      attributes: {
+        position: `Cold room, tap board ${i <= 4 ? 'left' : 'right'}, ${i}`,
+        lineLengthM: lengths[i - 1],
+        lineInsideDiameterMm: 4.8,
+        riseM: 0.6,
+        coldRoomTempC: 3,
+      },
+      notes: 'Cold room at 3 °C. CO2 displaces air in the closed cold room: keep the fan on and heed the CO2 alarm.',
+    });
+  }
+  return list;
+}
+
+function cylinders(): SeedEquipment[] {
+  const sizes = [6, 6, 6, 6, 10, 10];
+  const fills = [100, 85, 60, 35, 100, 90];
+  const due = ['2028-03-31', '2027-09-30', '2029-01-31', '2027-02-28', '2030-06-30', '2026-11-01'];
+  return sizes.map((sizeKg, i) => ({
+    code: `C-${i + 1}`,
+    kind: 'co2_cylinder' as const,
+    name: `${sizeKg} kg CO2 cylinder ${i + 1}`,
+    capacityLiters: null,
+    attributes: { sizeKg, fillPercent: fills[i], hydroTestDue: due[i] },
+    notes: 'Keep chained upright. Never exceed the regulator\'s rated pressure.',
+  }));
+}
+
+export const seedEquipment: SeedEquipment[] = [...fermenters(), ...kegs(), ...taps(), ...cylinders()];
+
+/** Whoever is on the brewers' rota made the seeded state changes. */
+export const rota = [userId('brewer'), userId('member5'), userId('member10')];
+
+const registeredAt = new Date('2026-08-15T09:00:00Z');
+
+/**
+ * The co-op's equipment as it came into service in late August: every vessel registered, cleaned
+ * and sanitized. The bookings seed then walks each item through three months of use.
+ */
+export async function seed(db: Database): Promise<void> {
+  const random = rng(2002);
+  await db
+    .insertInto('equipment')
+    .values(
+      seedEquipment.map((e) => ({
+        id: equipmentId(e.code),
+        code: e.code,
+        kind: e.kind,
+        name: e.name,
+        capacity_liters: e.capacityLiters,
+        state: 'ready' as VesselState,
+        attributes: sql`${JSON.stringify(e.attributes)}::jsonb`,
+        notes: e.notes,
+        state_changed_at: new Date('2026-08-29T15:00:00Z'),
+        created_at: registeredAt,
+        updated_at: registeredAt,
+      })),
+    )
+    .onConflict((oc) => oc.doNothing())
+    .execute();
+
+  const changes: { equipment_id: string; from_state: VesselState | null; to_state: VesselState; reason: string; actor_id: string; at: Date }[] = [];
+  for (const e of seedEquipment) {
+    const id = equipmentId(e.code);
+    const actor = () => rota[Math.floor(random() * rota.length)]!;
+    const hour = (d: string, h: number) => new Date(`${d}T${String(h).padStart(2, '0')}:00:00Z`);
+    if (e.kind === 'co2_cylinder') {
+      changes.push({ equipment_id: id, from_state: null, to_state: 'ready', reason: 'Added to the registry, filled and leak-checked', actor_id: userId('admin'), at: registeredAt });
+      continue;
+    }
+    changes.push({ equipment_id: id, from_state: null, to_state: 'needs_cleaning', reason: 'Added to the registry', actor_id: userId('admin'), at: registeredAt });
+    changes.push({
+      equipment_id: id,
+      from_state: 'needs_cleaning',
+      to_state: 'cleaned',
+      reason: e.kind === 'tap' ? 'Line flushed with alkaline line cleaner and rinsed' : 'Soaked in alkaline cleaner and rinsed',
+      actor_id: actor(),
+      at: hour('2026-08-28', 10 + Math.floor(random() * 6)),
+    });
+    changes.push({
+      equipment_id: id,
+      from_state: 'cleaned',
+      to_state: 'ready',
+      reason: e.kind === 'tap' ? 'Line sanitized with acid sanitizer' : 'Sanitized with acid sanitizer and purged with CO2',
+      actor_id: actor(),
+      at: new Date('2026-08-29T15:00:00Z'),
+    });
+  }
+  for (let i = 0; i < changes.length; i += 200) await db.insertInto('equipment_state_change').values(changes.slice(i, i + 200)).execute();
+}

@@ -1,0 +1,82 @@
+import { z } from 'zod';
+import { equipmentKinds, type EquipmentKind } from './equipment.ts';
+
+/**
+ * The co-op's settings: one section per key in the `setting` table. Each section has a schema
+ * (used by the Settings screen's form and by `PUT /api/settings/:key`) and defaults used until an
+ * admin saves it. Another capability adds its section to `settingSections` below.
+ */
+
+const hours = z.number().int('Whole hours').min(0, 'At least 0 hours').max(24 * 14, 'At most 14 days');
+const days = z.number().int('Whole days').min(1, 'At least 1 day').max(366, 'At most a year');
+
+export const bookingRulesSchema = z.object({
+  /** Time kept free after every booking of an item, so it can be cleaned before the next user. */
+  cleaningBufferHours: hours,
+  /** The longest booking allowed, per kind of equipment. */
+  maxDays: z.object(Object.fromEntries(equipmentKinds.map((k) => [k, days])) as Record<EquipmentKind, typeof days>),
+  /** How far ahead a booking may start. */
+  maxAdvanceDays: days,
+  /** How many bookings a member may hold that have not yet ended (booked or in use). */
+  maxActiveBookingsPerMember: z.number().int('A whole number').min(1, 'At least 1').max(200, 'At most 200'),
+  /** The co-op's time zone: the calendar's days and the times in e-mails. */
+  timeZone: z
+    .string()
+    .trim()
+    .min(1)
+    .refine((tz) => {
+      try {
+        new Intl.DateTimeFormat('en-GB', { timeZone: tz });
+        return true;
+      } catch {
+        return false;
+      }
+    }, 'Use a time zone name like Europe/Dublin or UTC'),
+});
+export type BookingRules = z.infer<typeof bookingRulesSchema>;
+
+export const defaultBookingRules: BookingRules = {
+  cleaningBufferHours: 24,
+  maxDays: { fermenter: 35, keg: 56, tap: 42, co2_cylinder: 56 },
+  maxAdvanceDays: 90,
+  maxActiveBookingsPerMember: 10,
+  timeZone: 'UTC',
+};
+
+export const bookingRuleLabels = {
+  cleaningBufferHours: 'Cleaning buffer',
+  maxDays: 'Longest booking',
+  maxAdvanceDays: 'How far ahead',
+  maxActiveBookingsPerMember: 'Bookings at once per member',
+  timeZone: 'Time zone',
+} as const;
+export type BookingRuleName = keyof typeof bookingRuleLabels;
+
+export interface SettingSection<S extends z.ZodType = z.ZodType> {
+  key: string;
+  title: string;
+  description: string;
+  schema: S;
+  defaults: z.infer<S>;
+}
+
+export const settingSections = {
+  booking_rules: {
+    key: 'booking_rules',
+    title: 'Booking rules',
+    description: 'How members may book fermenters, kegs, tap positions and CO2 cylinders. Checked on every new booking.',
+    schema: bookingRulesSchema,
+    defaults: defaultBookingRules,
+  } satisfies SettingSection<typeof bookingRulesSchema>,
+} as const;
+export type SettingKey = keyof typeof settingSections;
+export const settingKeys = Object.keys(settingSections) as SettingKey[];
+export const settingKeySchema = z.enum(settingKeys as [SettingKey, ...SettingKey[]]);
+
+/** What `GET /api/settings/:key` returns. */
+export interface SettingValue<T = unknown> {
+  key: string;
+  value: T;
+  updatedAt: string | null;
+  updatedBy: { id: string; name: string } | null;
+}
