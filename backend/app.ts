@@ -10,6 +10,9 @@ import type { Deps } from './lib/deps.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
+import { batchesRoutes } from './modules/batches/batches.routes.ts';
+import { productionRecordsRoutes } from './modules/batches/production-records.routes.ts';
+import { readingsRoutes } from './modules/batches/readings.routes.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
 import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
@@ -86,6 +89,9 @@ export function createApp(deps: Deps): Express {
   app.use('/api/equipment', equipmentRoutes(deps));
   app.use('/api/bookings', bookingsRoutes(deps));
   app.use('/api/settings', settingsRoutes(deps));
+  app.use('/api/batches', batchesRoutes(deps));
+  app.use('/api/readings', readingsRoutes(deps));
+  app.use('/api/production-records', productionRecordsRoutes(deps));
   app.use('/api', apiNotFound);
 
   // The built front end, with client-side routes falling back to index.html.

@@ -240,6 +240,19 @@ export function platoToSg(p: number): number {
   return invertIncreasing(plato, p);
 }
 
+/** Apparent extract accepted by {@link apparentPlatoToSg}: F2.1 over SG 0.980–1.200 spans about −5.26 to 43.9 °P. */
+const APPARENT_EXTRACT_MIN = -5;
+
+/**
+ * Apparent extract in °P (−5 to 40) → specific gravity: the numerical inverse of F2.1 like
+ * {@link platoToSg}, but also below 0 °P, where a hydrometer or digital hydrometer scaled in °P
+ * reads a dry finished beer (F2.1 gives −2.61 °P at SG 0.990).
+ */
+export function apparentPlatoToSg(p: number): number {
+  requireRange('plato', p, APPARENT_EXTRACT_MIN, EXTRACT_MAX, '°P');
+  return invertIncreasing(plato, p);
+}
+
 /**
  * Degrees Brix (0–40) → specific gravity: numerical inverse of the NBS-table fit F2.4,
  * °Bx = 182.4601·S³ − 775.6821·S² + 1262.7794·S − 669.5622 (fit range S 1.00000–1.17874).

@@ -93,7 +93,7 @@ const rolePermissions: Record<Role, (actor: Actor, b: Builder) => void> = {
     can(['create', 'cancel', 'readOwner'], 'Booking', own);
     can('create', 'Batch');
     can(['read', 'update'], 'Batch', own);
-    can(['create', 'read', 'import'], 'Reading', own);
+    can(['create', 'read', 'import', 'delete'], 'Reading', own); // delete: a mistyped reading
     can('read', 'Keg', mine);
     can('read', 'CarbonationPlan', mine);
     can('read', ['Invoice', 'Payment', 'CreditNote', 'Charge'], mine);
@@ -107,7 +107,7 @@ const rolePermissions: Record<Role, (actor: Actor, b: Builder) => void> = {
     can('update', 'Equipment'); // state changes, not the registry's details (see below)
     can(['read', 'readOwner'], 'Booking');
     can('read', 'Batch');
-    can(['create', 'read', 'import'], 'Reading');
+    can(['create', 'read', 'import', 'delete'], 'Reading');
     can(['create', 'read'], 'SanitationCycle');
     can(['create', 'read'], 'Transfer');
     can(['read', 'checkout', 'readOwner'], 'Keg');

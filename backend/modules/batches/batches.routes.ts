@@ -1,0 +1,134 @@
+import { ForbiddenError } from '@casl/ability';
+import { Router, type Request, type Response } from 'express';
+import multer from 'multer';
+import { z } from 'zod';
+import { subject } from '../../../shared/permissions/ability.ts';
+import {
+  batchListQuerySchema,
+  createBatchSchema,
+  createReadingSchema,
+  importQuerySchema,
+  readingListQuerySchema,
+  updateBatchSchema,
+  type ImportProgressDto,
+} from '../../../shared/schemas/batches.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { badRequest, notFound } from '../../lib/http-problem.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } from './batches.service.ts';
+import { loadCoopTimeZone, loadFermentationSettings } from './figures.ts';
+import { addReading, deleteReading, listReadings } from './readings.service.ts';
+import { importReadings, pruneImportProgress } from './readings-import.service.ts';
+
+/** Largest file one import takes (100,000 readings are about 5 MB of CSV). */
+export const IMPORT_MAX_BYTES = 16 * 1024 * 1024;
+
+const upload = multer({
+  storage: multer.memoryStorage(),
+  limits: { fileSize: IMPORT_MAX_BYTES, files: 1, fields: 10, fieldSize: 64 * 1024, parts: 12 },
+}).single('file');
+
+function receiveFile(req: Request, res: Response): Promise<void> {
+  return new Promise((resolve, reject) => upload(req, res, (err: unknown) => (err ? reject(err) : resolve())));
+}
+
+const progressIdSchema = z.uuid('progressId must be a uuid').optional();
+
+export function batchesRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/', async (req, res) => {
+    const q = batchListQuerySchema.parse(req.query);
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Batch');
+    res.json(await listBatches(db, req.ability, req.user!, q));
+  });
+
+  router.post('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'Batch');
+    const input = createBatchSchema.parse(req.body ?? {});
+    const row = await createBatch(db, req.ability, input, req.user!);
+    res.status(201).json({ batch: await batchDetail(db, req.ability, row) });
+  });
+
+  router.get('/:id', async (req, res) => {
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    const detail = await batchDetail(db, req.ability, row);
+    // The batch's fields at the top level, and under `batch` like the other batch answers.
+    res.json({ ...detail, batch: detail });
+  });
+
+  router.patch('/:id', async (req, res) => {
+    const input = updateBatchSchema.parse(req.body ?? {});
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    ForbiddenError.from(req.ability).throwUnlessCan('update', subject('Batch', { ownerId: row.owner_id }));
+    const updated = await updateBatch(db, row, input, req.user!);
+    res.json({ batch: await batchDetail(db, req.ability, updated) });
+  });
+
+  router.get('/:id/readings', async (req, res) => {
+    const q = readingListQuerySchema.parse(req.query);
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    ForbiddenError.from(req.ability).throwUnlessCan('read', subject('Reading', { ownerId: row.owner_id }));
+    res.json(await listReadings(db, row.id, q));
+  });
+
+  router.post('/:id/readings', async (req, res) => {
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    ForbiddenError.from(req.ability).throwUnlessCan('create', subject('Reading', { ownerId: row.owner_id }));
+    const input = createReadingSchema.parse(req.body ?? {});
+    const settings = await loadFermentationSettings(db);
+    const reading = await addReading(db, row, input, settings, req.user!);
+    res.status(201).json({ reading });
+  });
+
+  router.delete('/:id/readings/:readingId', async (req, res) => {
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    ForbiddenError.from(req.ability).throwUnlessCan('delete', subject('Reading', { ownerId: row.owner_id }));
+    const settings = await loadFermentationSettings(db);
+    await deleteReading(db, row, req.params.readingId, settings, req.user!);
+    res.status(204).end();
+  });
+
+  router.post('/:id/readings/import', async (req, res) => {
+    const { dryRun } = importQuerySchema.parse(req.query);
+    // Who may import is settled before the upload is read.
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    ForbiddenError.from(req.ability).throwUnlessCan('import', subject('Reading', { ownerId: row.owner_id }));
+    await receiveFile(req, res);
+    const file = req.file;
+    if (!file) throw badRequest('Send the readings file in the multipart form field “file”.');
+    const body = (req.body ?? {}) as Record<string, unknown>;
+    const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : (req.query.progressId as string | undefined));
+    const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
+    const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), loadCoopTimeZone(db)]);
+    void pruneImportProgress(db).catch(() => undefined);
+    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: req.user!, settings, timeZone });
+    res.json(result);
+  });
+
+  router.get('/:id/readings/import/progress/:progressId', async (req, res) => {
+    const row = await findVisibleBatch(db, req.ability, req.params.id);
+    const id = z.uuid().safeParse(req.params.progressId);
+    if (!id.success) throw notFound('Import');
+    const p = await db
+      .selectFrom('reading_import_progress')
+      .selectAll()
+      .where('id', '=', id.data)
+      .where('user_id', '=', req.user!.id)
+      .where('batch_id', '=', row.id)
+      .executeTakeFirst();
+    if (!p) throw notFound('Import');
+    const dto: ImportProgressDto = {
+      id: p.id,
+      phase: p.phase,
+      rowsDone: p.rows_done,
+      rowsTotal: p.rows_total,
+      message: p.message,
+      updatedAt: p.updated_at.toISOString(),
+    };
+    res.json({ progress: dto });
+  });
+
+  return router;
+}

@@ -1,0 +1,302 @@
+import { ForbiddenError } from '@casl/ability';
+import { sql } from 'kysely';
+import { subject, type AppAbility } from '../../../shared/permissions/ability.ts';
+import type { Actor } from '../../../shared/permissions/roles.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import {
+  nextBatchStatuses,
+  type BatchDetail,
+  type BatchListItem,
+  type BatchListQuery,
+  type createBatchSchema,
+  type updateBatchSchema,
+} from '../../../shared/schemas/batches.ts';
+import type { z } from 'zod';
+import type { Database } from '../../db/database.ts';
+import type { BatchStatus } from '../../db/tables/batches.ts';
+import { audit } from '../../lib/audit.ts';
+import { canAll } from '../../lib/authz.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { computeFigures, loadFermentationSettings, loadGravitySeries } from './figures.ts';
+
+export interface BatchRow {
+  id: string;
+  owner_id: string;
+  name: string;
+  style: string;
+  volume_liters: number;
+  target_og: number | null;
+  target_fg: number | null;
+  status: BatchStatus;
+  packaged_at: Date | null;
+  packaged_liters: number | null;
+  notes: string;
+  created_at: Date;
+  updated_at: Date;
+}
+
+const batchColumns = [
+  'batch.id',
+  'batch.owner_id',
+  'batch.name',
+  'batch.style',
+  'batch.volume_liters',
+  'batch.target_og',
+  'batch.target_fg',
+  'batch.status',
+  'batch.packaged_at',
+  'batch.packaged_liters',
+  'batch.notes',
+  'batch.created_at',
+  'batch.updated_at',
+] as const;
+
+const num = (v: unknown): number | null => (v === null || v === undefined ? null : Number(v));
+
+/** A batch the person may see, or 404 (a batch you may not see does not exist for you). */
+export async function findVisibleBatch(db: Database, ability: AppAbility, id: string): Promise<BatchRow> {
+  if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('Batch');
+  const row = await db.selectFrom('batch').select(batchColumns).where('batch.id', '=', id).executeTakeFirst();
+  if (!row || !ability.can('read', subject('Batch', { ownerId: row.owner_id }))) throw notFound('Batch');
+  return row as BatchRow;
+}
+
+const sortColumns = {
+  name: sql`batch.name`,
+  style: sql`batch.style`,
+  status: sql`batch.status`,
+  createdAt: sql`batch.created_at`,
+  volumeLiters: sql`batch.volume_liters`,
+  lastReadingAt: sql`last_reading.taken_at`,
+  owner: sql`app_user.name`,
+} as const;
+
+export async function listBatches(db: Database, ability: AppAbility, actor: Actor, q: BatchListQuery): Promise<Page<BatchListItem>> {
+  let base = db
+    .selectFrom('batch')
+    .innerJoin('app_user', 'app_user.id', 'batch.owner_id')
+    .leftJoinLateral(
+      (eb) =>
+        eb
+          .selectFrom('reading')
+          .select(['reading.taken_at', 'reading.gravity_sg'])
+          .whereRef('reading.batch_id', '=', 'batch.id')
+          .orderBy('reading.taken_at', 'desc')
+          .limit(1)
+          .as('last_reading'),
+      (join) => join.onTrue(),
+    );
+  // Whoever may read only their own batches sees only those rows.
+  if (!canAll(ability, 'read', 'Batch') || q.mine) base = base.where('batch.owner_id', '=', actor.id);
+  if (q.ownerId) base = base.where('batch.owner_id', '=', q.ownerId);
+  if (q.status) base = base.where('batch.status', '=', q.status);
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    base = base.where((eb) => eb.or([eb('batch.name', 'ilike', like), eb('batch.style', 'ilike', like), eb('app_user.name', 'ilike', like)]));
+  }
+  const [{ total }, rows] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .select([
+        ...batchColumns,
+        'app_user.name as owner_name',
+        'last_reading.taken_at as last_reading_at',
+        'last_reading.gravity_sg as current_gravity',
+        (eb) =>
+          eb
+            .selectFrom('reading')
+            .select('reading.gravity_sg')
+            .whereRef('reading.batch_id', '=', 'batch.id')
+            .orderBy('reading.taken_at', 'asc')
+            .limit(1)
+            .as('og'),
+        (eb) =>
+          eb
+            .selectFrom('reading')
+            .select((e) => e.fn.countAll<number>().as('n'))
+            .whereRef('reading.batch_id', '=', 'batch.id')
+            .as('readings_count'),
+      ])
+      .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
+      .orderBy('batch.id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return {
+    items: rows.map((r) => ({
+      ...toListItem(r as unknown as BatchRow, r.owner_name),
+      readingsCount: Number(r.readings_count ?? 0),
+      og: num(r.og),
+      currentGravity: num(r.current_gravity),
+      lastReadingAt: r.last_reading_at ? new Date(r.last_reading_at).toISOString() : null,
+    })),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+  };
+}
+
+function toListItem(r: BatchRow, ownerName: string): BatchListItem {
+  return {
+    id: r.id,
+    name: r.name,
+    style: r.style,
+    status: r.status,
+    volumeLiters: Number(r.volume_liters),
+    targetOg: num(r.target_og),
+    targetFg: num(r.target_fg),
+    ownerId: r.owner_id,
+    ownerName,
+    readingsCount: 0,
+    og: null,
+    currentGravity: null,
+    lastReadingAt: null,
+    createdAt: r.created_at.toISOString(),
+  };
+}
+
+export async function batchDetail(db: Database, ability: AppAbility, row: BatchRow): Promise<BatchDetail> {
+  const [owner, settings, series, bookings] = await Promise.all([
+    db.selectFrom('app_user').select('name').where('id', '=', row.owner_id).executeTakeFirst(),
+    loadFermentationSettings(db),
+    loadGravitySeries(db, row.id),
+    db
+      .selectFrom('booking')
+      .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
+      .select(['booking.id', 'booking.equipment_id', 'equipment.code', 'equipment.name', 'booking.starts_at', 'booking.ends_at', 'booking.state'])
+      .where('booking.batch_id', '=', row.id)
+      .orderBy('booking.starts_at')
+      .execute(),
+  ]);
+  const figures = computeFigures(series, row.status, num(row.target_fg), settings);
+  // subject() marks the object it is given, so each check gets its own.
+  const own = () => ({ ownerId: row.owner_id });
+  return {
+    ...toListItem(row, owner?.name ?? ''),
+    notes: row.notes,
+    packagedAt: row.packaged_at?.toISOString() ?? null,
+    packagedLiters: num(row.packaged_liters),
+    updatedAt: row.updated_at.toISOString(),
+    ...figures,
+    bookings: bookings.map((b) => ({
+      id: b.id,
+      equipmentId: b.equipment_id,
+      equipmentCode: b.code,
+      equipmentName: b.name,
+      startsAt: b.starts_at.toISOString(),
+      endsAt: b.ends_at.toISOString(),
+      state: b.state,
+    })),
+    can: {
+      update: ability.can('update', subject('Batch', own())),
+      addReading: ability.can('create', subject('Reading', own())),
+      importReadings: ability.can('import', subject('Reading', own())),
+      deleteReading: ability.can('delete', subject('Reading', own())),
+    },
+  };
+}
+
+/** Links a fermenter booking of the batch's owner to the batch (only one batch per booking). */
+async function linkBooking(trx: Database, batchId: string, ownerId: string, bookingId: string) {
+  const booking = await trx
+    .selectFrom('booking')
+    .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
+    .select(['booking.id', 'booking.owner_id', 'booking.batch_id', 'booking.state', 'equipment.kind'])
+    .where('booking.id', '=', bookingId)
+    .executeTakeFirst();
+  if (!booking || booking.owner_id !== ownerId) {
+    throw unprocessable('No such booking of the batch owner.', [{ path: 'bookingId', message: 'Pick one of the batch owner’s fermenter bookings' }]);
+  }
+  if (booking.kind !== 'fermenter') {
+    throw unprocessable('Only a fermenter booking holds a batch.', [{ path: 'bookingId', message: 'Pick a fermenter booking' }]);
+  }
+  if (booking.state === 'cancelled') {
+    throw unprocessable('That booking is cancelled.', [{ path: 'bookingId', message: 'Pick a booking that is not cancelled' }]);
+  }
+  if (booking.batch_id && booking.batch_id !== batchId) throw conflict('That booking already holds another batch.');
+  await trx.updateTable('booking').set({ batch_id: batchId, updated_at: new Date() }).where('id', '=', bookingId).execute();
+}
+
+export async function createBatch(
+  db: Database,
+  ability: AppAbility,
+  input: z.infer<typeof createBatchSchema>,
+  actor: Actor,
+): Promise<BatchRow> {
+  const ownerId = input.ownerId ?? actor.id;
+  // Someone else's batch: the admin only (create on the owner's record).
+  if (ownerId !== actor.id) ForbiddenError.from(ability).throwUnlessCan('update', subject('Batch', { ownerId }));
+  return db.transaction().execute(async (trx) => {
+    if (ownerId !== actor.id) {
+      const owner = await trx.selectFrom('app_user').select('id').where('id', '=', ownerId).where('is_active', '=', true).executeTakeFirst();
+      if (!owner) throw unprocessable('No such member.', [{ path: 'ownerId', message: 'Pick an active member' }]);
+    }
+    const row = await trx
+      .insertInto('batch')
+      .values({
+        owner_id: ownerId,
+        name: input.name,
+        style: input.style,
+        volume_liters: input.volumeLiters,
+        target_og: input.targetOg ?? null,
+        target_fg: input.targetFg ?? null,
+        notes: input.notes,
+        created_by: actor.id,
+      })
+      .returning(batchColumns.map((c) => c.replace('batch.', '')) as never)
+      .executeTakeFirstOrThrow();
+    const batch = row as unknown as BatchRow;
+    if (input.bookingId) await linkBooking(trx, batch.id, ownerId, input.bookingId);
+    await audit(trx, actor.id, 'created', 'Batch', batch.id, { name: input.name, volumeLiters: input.volumeLiters, bookingId: input.bookingId ?? null });
+    return batch;
+  });
+}
+
+export async function updateBatch(
+  db: Database,
+  batch: BatchRow,
+  input: z.infer<typeof updateBatchSchema>,
+  actor: Actor,
+): Promise<BatchRow> {
+  if (input.status && input.status !== batch.status && !nextBatchStatuses[batch.status].includes(input.status)) {
+    throw conflict(
+      `A ${batch.status} batch cannot become ${input.status}` +
+        (nextBatchStatuses[batch.status].length ? `; it can become ${nextBatchStatuses[batch.status].join(' or ')}.` : '; it is closed.'),
+    );
+  }
+  const targetOg = input.targetOg !== undefined ? input.targetOg : num(batch.target_og);
+  const targetFg = input.targetFg !== undefined ? input.targetFg : num(batch.target_fg);
+  if (targetOg != null && targetFg != null && targetFg >= targetOg) {
+    throw unprocessable('The target FG must be below the target OG.', [{ path: 'targetFg', message: 'The target FG must be below the target OG' }]);
+  }
+  const packaging = input.status === 'packaged' && batch.status !== 'packaged';
+  return db.transaction().execute(async (trx) => {
+    const updated = await trx
+      .updateTable('batch')
+      .set({
+        ...(input.name !== undefined ? { name: input.name } : {}),
+        ...(input.style !== undefined ? { style: input.style } : {}),
+        ...(input.volumeLiters !== undefined ? { volume_liters: input.volumeLiters } : {}),
+        ...(input.targetOg !== undefined ? { target_og: input.targetOg ?? null } : {}),
+        ...(input.targetFg !== undefined ? { target_fg: input.targetFg ?? null } : {}),
+        ...(input.notes !== undefined ? { notes: input.notes } : {}),
+        ...(input.status !== undefined ? { status: input.status } : {}),
+        ...(input.packagedLiters !== undefined ? { packaged_liters: input.packagedLiters ?? null } : {}),
+        ...(input.packagedAt !== undefined ? { packaged_at: input.packagedAt ?? null } : {}),
+        // Packaging without a time given: now.
+        ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: new Date() } : {}),
+        updated_at: new Date(),
+      })
+      .where('id', '=', batch.id)
+      .returning(batchColumns.map((c) => c.replace('batch.', '')) as never)
+      .executeTakeFirstOrThrow();
+    if (input.bookingId === null) {
+      await trx.updateTable('booking').set({ batch_id: null, updated_at: new Date() }).where('batch_id', '=', batch.id).execute();
+    } else if (input.bookingId) {
+      await linkBooking(trx, batch.id, batch.owner_id, input.bookingId);
+    }
+    await audit(trx, actor.id, input.status && input.status !== batch.status ? `status:${input.status}` : 'updated', 'Batch', batch.id, input);
+    return updated as unknown as BatchRow;
+  });
+}

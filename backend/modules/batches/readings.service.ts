@@ -1,0 +1,297 @@
+import { sql } from 'kysely';
+import { normaliseGravity, originalBrixOf, type NormalisedGravity } from '../../../shared/brewing/readings.ts';
+import type { Actor } from '../../../shared/permissions/roles.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type { FermentationSettings, GravityUnit, ReadingDto, readingListQuerySchema } from '../../../shared/schemas/batches.ts';
+import type { z } from 'zod';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import type { BatchRow } from './batches.service.ts';
+
+/** A reading ready to be normalised: what came in, with its time as epoch milliseconds. */
+export interface ReadingCandidate {
+  time: number;
+  value: number;
+  unit: GravityUnit;
+  temperatureC: number | null;
+  correctTemperature: boolean;
+  note: string;
+}
+
+export interface NormalisedCandidate extends ReadingCandidate {
+  gravity: NormalisedGravity;
+}
+
+export interface FirstReading {
+  time: number;
+  enteredValue: number;
+  enteredUnit: GravityUnit;
+  sg: number;
+}
+
+/** The batch's earliest stored reading (its OG), if any. */
+export async function firstReadingOf(db: Database, batchId: string): Promise<FirstReading | null> {
+  const r = await db
+    .selectFrom('reading')
+    .select(['taken_at', 'entered_value', 'entered_unit', 'gravity_sg'])
+    .where('batch_id', '=', batchId)
+    .orderBy('taken_at')
+    .limit(1)
+    .executeTakeFirst();
+  return r ? { time: r.taken_at.getTime(), enteredValue: Number(r.entered_value), enteredUnit: r.entered_unit, sg: Number(r.gravity_sg) } : null;
+}
+
+/**
+ * The earliest reading of a batch once `candidates` join it: a stored one, or the earliest
+ * candidate (normalised as wort, before fermentation). Brix readings after it are read through
+ * alcohol with its original Brix.
+ */
+export function normaliseAll<T extends ReadingCandidate>(
+  candidates: readonly T[],
+  existingFirst: FirstReading | null,
+  settings: FermentationSettings,
+  onError: (candidate: T, message: string) => void,
+): (T & { gravity: NormalisedGravity })[] {
+  const options = { calibrationC: settings.hydrometerCalibrationC, wortCorrectionFactor: settings.wortCorrectionFactor };
+  let earliest: T | null = null;
+  for (const c of candidates) if (!earliest || c.time < earliest.time) earliest = c;
+  let first: FirstReading | null = existingFirst;
+  let firstCandidate: T | null = null;
+  if (earliest && (!existingFirst || earliest.time < existingFirst.time)) {
+    firstCandidate = earliest;
+    try {
+      const g = normaliseGravity(earliest.value, earliest.unit, earliest.temperatureC, { ...options, correctTemperature: earliest.correctTemperature });
+      first = { time: earliest.time, enteredValue: earliest.value, enteredUnit: earliest.unit, sg: g.sg };
+    } catch {
+      first = existingFirst;
+    }
+  }
+  const originalBrix = originalBrixOf(first, settings.wortCorrectionFactor);
+  const out: (T & { gravity: NormalisedGravity })[] = [];
+  for (const c of candidates) {
+    try {
+      const isFirst = c === firstCandidate;
+      if (c.unit === 'brix' && !isFirst && originalBrix === null) {
+        throw new RangeError('A refractometer reading after the first one needs the batch’s original gravity above 1.000');
+      }
+      const gravity = normaliseGravity(c.value, c.unit, c.temperatureC, {
+        ...options,
+        correctTemperature: c.correctTemperature,
+        originalBrix: isFirst ? null : originalBrix,
+      });
+      out.push({ ...c, gravity });
+    } catch (err) {
+      onError(c, err instanceof Error ? err.message : String(err));
+    }
+  }
+  return out;
+}
+
+const CHUNK = 5000;
+
+/** Inserts normalised readings in chunks (one statement per chunk, columns as arrays). */
+export async function insertReadings(
+  trx: Database,
+  batchId: string,
+  rows: readonly NormalisedCandidate[],
+  source: 'manual' | 'import',
+  actorId: string,
+  onChunk?: (done: number) => Promise<void>,
+): Promise<string[]> {
+  const ids: string[] = [];
+  for (let i = 0; i < rows.length; i += CHUNK) {
+    const chunk = rows.slice(i, i + CHUNK);
+    const result = await sql<{ id: string }>`
+      insert into reading (batch_id, taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, source, note, created_by)
+      select ${batchId}::uuid, t.taken_at, t.gravity_sg, t.entered_value, t.entered_unit, t.temperature_c, t.corrected, t.raw_sg, ${source}, t.note, ${actorId}::uuid
+      from unnest(
+        ${chunk.map((r) => new Date(r.time).toISOString())}::timestamptz[],
+        ${chunk.map((r) => r.gravity.sg)}::numeric[],
+        ${chunk.map((r) => r.value)}::numeric[],
+        ${chunk.map((r) => r.unit)}::text[],
+        ${chunk.map((r) => r.temperatureC)}::numeric[],
+        ${chunk.map((r) => r.gravity.corrected)}::boolean[],
+        ${chunk.map((r) => r.gravity.rawSg)}::numeric[],
+        ${chunk.map((r) => r.note)}::text[]
+      ) as t(taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, note)
+      returning id`.execute(trx);
+    for (const r of result.rows) ids.push(r.id);
+    if (onChunk) await onChunk(Math.min(rows.length, i + CHUNK));
+  }
+  return ids;
+}
+
+/**
+ * When new readings come before the batch's old first reading, the original Brix changes: every
+ * later Brix reading is normalised again.
+ */
+export async function renormaliseBrix(trx: Database, batchId: string, settings: FermentationSettings): Promise<number> {
+  const first = await firstReadingOf(trx, batchId);
+  const brix = await trx
+    .selectFrom('reading')
+    .select(['id', 'taken_at', 'entered_value', 'temperature_c', 'gravity_sg'])
+    .where('batch_id', '=', batchId)
+    .where('entered_unit', '=', 'brix')
+    .execute();
+  if (!first || brix.length === 0) return 0;
+  const originalBrix = originalBrixOf(first, settings.wortCorrectionFactor);
+  let changed = 0;
+  for (const r of brix) {
+    const isFirst = r.taken_at.getTime() === first.time;
+    try {
+      const g = normaliseGravity(Number(r.entered_value), 'brix', null, {
+        wortCorrectionFactor: settings.wortCorrectionFactor,
+        originalBrix: isFirst ? null : originalBrix,
+      });
+      if (Math.abs(g.sg - Number(r.gravity_sg)) > 1e-9) {
+        await trx.updateTable('reading').set({ gravity_sg: g.sg, raw_sg: g.rawSg, corrected: g.corrected }).where('id', '=', r.id).execute();
+        changed += 1;
+      }
+    } catch {
+      // A Brix reading above the new original stays as it was; the batch page shows it on the chart.
+    }
+  }
+  return changed;
+}
+
+/** A planned batch starts fermenting with its first reading. */
+export async function startFermentingIfPlanned(trx: Database, batch: BatchRow, actorId: string) {
+  if (batch.status !== 'planned') return;
+  await trx.updateTable('batch').set({ status: 'fermenting', updated_at: new Date() }).where('id', '=', batch.id).where('status', '=', 'planned').execute();
+  await audit(trx, actorId, 'status:fermenting', 'Batch', batch.id, { reason: 'first reading' });
+}
+
+const MAX_FUTURE_MS = 10 * 60_000;
+
+export async function addReading(
+  db: Database,
+  batch: BatchRow,
+  input: { takenAt: string; gravity: number; unit: GravityUnit; temperatureC?: number | null; correctTemperature: boolean; note: string },
+  settings: FermentationSettings,
+  actor: Actor,
+): Promise<ReadingDto> {
+  const time = Date.parse(input.takenAt);
+  if (time > Date.now() + MAX_FUTURE_MS) {
+    throw unprocessable('The reading is dated in the future.', [{ path: 'takenAt', message: 'The time of the reading is in the future' }]);
+  }
+  if (batch.status === 'discarded') throw conflict('The batch is discarded; it takes no more readings.');
+  const candidate: ReadingCandidate = {
+    time,
+    value: input.gravity,
+    unit: input.unit,
+    temperatureC: input.temperatureC ?? null,
+    correctTemperature: input.correctTemperature,
+    note: input.note,
+  };
+  return db.transaction().execute(async (trx) => {
+    await sql`select pg_advisory_xact_lock(hashtext(${batch.id}))`.execute(trx);
+    const dup = await trx.selectFrom('reading').select('id').where('batch_id', '=', batch.id).where('taken_at', '=', new Date(time)).executeTakeFirst();
+    if (dup) throw conflict('This batch already has a reading at that time.', { readingId: dup.id });
+    const first = await firstReadingOf(trx, batch.id);
+    let problem: string | null = null;
+    const [normalised] = normaliseAll([candidate], first, settings, (_c, message) => {
+      problem = message;
+    });
+    if (!normalised) {
+      const message = problem ?? 'Not a valid gravity';
+      const path = /temperature/i.test(message) ? 'temperatureC' : 'gravity';
+      throw unprocessable(message, [{ path, message }]);
+    }
+    const [id] = await insertReadings(trx, batch.id, [normalised], 'manual', actor.id);
+    if (first && time < first.time) await renormaliseBrix(trx, batch.id, settings);
+    await startFermentingIfPlanned(trx, batch, actor.id);
+    await audit(trx, actor.id, 'reading:added', 'Batch', batch.id, { readingId: id, takenAt: input.takenAt, gravity: input.gravity, unit: input.unit });
+    return readingById(trx, id!);
+  });
+}
+
+async function readingById(db: Database, id: string): Promise<ReadingDto> {
+  const r = await readingSelect(db).where('reading.id', '=', id).executeTakeFirstOrThrow();
+  return toReadingDto(r);
+}
+
+function readingSelect(db: Database) {
+  return db
+    .selectFrom('reading')
+    .leftJoin('app_user', 'app_user.id', 'reading.created_by')
+    .select([
+      'reading.id',
+      'reading.taken_at',
+      'reading.gravity_sg',
+      'reading.entered_value',
+      'reading.entered_unit',
+      'reading.temperature_c',
+      'reading.corrected',
+      'reading.raw_sg',
+      'reading.source',
+      'reading.note',
+      'reading.created_by',
+      'app_user.name as created_by_name',
+      'reading.created_at',
+    ]);
+}
+
+type ReadingSelectRow = Awaited<ReturnType<ReturnType<typeof readingSelect>['executeTakeFirstOrThrow']>>;
+
+function toReadingDto(r: ReadingSelectRow): ReadingDto {
+  return {
+    id: r.id,
+    takenAt: r.taken_at.toISOString(),
+    gravitySg: Number(r.gravity_sg),
+    enteredValue: Number(r.entered_value),
+    enteredUnit: r.entered_unit,
+    temperatureC: r.temperature_c === null ? null : Number(r.temperature_c),
+    corrected: r.corrected,
+    rawSg: r.raw_sg === null ? null : Number(r.raw_sg),
+    source: r.source,
+    note: r.note,
+    createdBy: r.created_by,
+    createdByName: r.created_by_name ?? null,
+    createdAt: r.created_at.toISOString(),
+  };
+}
+
+const readingSort = {
+  takenAt: 'reading.taken_at',
+  gravitySg: 'reading.gravity_sg',
+  temperatureC: 'reading.temperature_c',
+  createdAt: 'reading.created_at',
+} as const;
+
+export async function listReadings(db: Database, batchId: string, q: z.infer<typeof readingListQuerySchema>): Promise<Page<ReadingDto>> {
+  let base = db.selectFrom('reading').where('reading.batch_id', '=', batchId);
+  if (q.source) base = base.where('reading.source', '=', q.source);
+  const [{ total }, rows] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    readingSelect(db)
+      .where('reading.batch_id', '=', batchId)
+      .$if(Boolean(q.source), (qb) => qb.where('reading.source', '=', q.source!))
+      .orderBy(readingSort[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
+      .orderBy('reading.id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return { items: rows.map(toReadingDto), total, page: q.page, pageSize: q.pageSize };
+}
+
+export async function deleteReading(db: Database, batch: BatchRow, readingId: string, settings: FermentationSettings, actor: Actor) {
+  if (!/^[0-9a-f-]{36}$/i.test(readingId)) throw notFound('Reading');
+  await db.transaction().execute(async (trx) => {
+    const gone = await trx
+      .deleteFrom('reading')
+      .where('id', '=', readingId)
+      .where('batch_id', '=', batch.id)
+      .returning(['id', 'taken_at', 'gravity_sg', 'entered_value', 'entered_unit'])
+      .executeTakeFirst();
+    if (!gone) throw notFound('Reading');
+    await renormaliseBrix(trx, batch.id, settings);
+    await audit(trx, actor.id, 'reading:deleted', 'Batch', batch.id, {
+      readingId,
+      takenAt: gone.taken_at.toISOString(),
+      gravitySg: Number(gone.gravity_sg),
+      entered: `${Number(gone.entered_value)} ${gone.entered_unit}`,
+    });
+  });
+}
