@@ -18,6 +18,7 @@ import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
 import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
 import { healthRoutes } from './modules/health/health.routes.ts';
+import { mountCellarOperations } from './modules/sanitation/cellar-operations.routes.ts';
 import { settingsRoutes } from './modules/settings/settings.routes.ts';
 import { usersRoutes } from './modules/users/users.routes.ts';
 
@@ -92,6 +93,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/batches', batchesRoutes(deps));
   app.use('/api/readings', readingsRoutes(deps));
   app.use('/api/production-records', productionRecordsRoutes(deps));
+  mountCellarOperations(app, deps);
   app.use('/api', apiNotFound);
 
   // The built front end, with client-side routes falling back to index.html.

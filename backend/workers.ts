@@ -1,9 +1,11 @@
 import type { Deps } from './lib/deps.ts';
 import { createTransport, deliverMail, type OutgoingMail } from './lib/mailer.ts';
 import { advanceBookingStates } from './modules/bookings/bookings.service.ts';
+import { startCellarWorkers } from './modules/sanitation/cellar-workers.ts';
 
 /** Registers the queue workers; every instance may run them, pg-boss hands each job to one. */
-export async function startWorkers({ config, queue, db }: Deps): Promise<void> {
+export async function startWorkers(deps: Deps): Promise<void> {
+  const { config, queue, db } = deps;
   const transport = createTransport(config);
   await queue.work<OutgoingMail>('email.send', { pollingIntervalSeconds: 0.5 }, async (jobs) => {
     for (const job of jobs) await deliverMail(config, transport, job.data);
@@ -13,4 +15,6 @@ export async function startWorkers({ config, queue, db }: Deps): Promise<void> {
     await advanceBookingStates(db);
   });
   await queue.schedule('bookings.advance', '*/5 * * * *');
+  // Cellar: the fast-start reminder to lower the pressure, and lapsing freshness windows.
+  await startCellarWorkers(deps);
 }

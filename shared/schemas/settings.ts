@@ -1,5 +1,11 @@
 import { z } from 'zod';
 import { equipmentKinds, type EquipmentKind } from './equipment.ts';
+import {
+  carbonationSettingsSchema,
+  defaultCarbonationSettings,
+  defaultSanitationSettings,
+  sanitationSettingsSchema,
+} from './cellar-settings.ts';
 
 /**
  * The co-op's settings: one section per key in the `setting` table. Each section has a schema
@@ -68,6 +74,21 @@ export const settingSections = {
     schema: bookingRulesSchema,
     defaults: defaultBookingRules,
   } satisfies SettingSection<typeof bookingRulesSchema>,
+  sanitation: {
+    key: 'sanitation',
+    title: 'Sanitation rules',
+    description:
+      'The co-op’s cleaners and sanitizers with their usual strengths, the minimum contact times, how long a sanitized vessel stays ready, and the CO2 recorded for purges.',
+    schema: sanitationSettingsSchema,
+    defaults: defaultSanitationSettings,
+  } satisfies SettingSection<typeof sanitationSettingsSchema>,
+  carbonation: {
+    key: 'carbonation',
+    title: 'Carbonation defaults',
+    description: 'What the carbonation planner proposes: cold-room temperature, altitude, pressure limit, times and CO2 volumes by style family.',
+    schema: carbonationSettingsSchema,
+    defaults: defaultCarbonationSettings,
+  } satisfies SettingSection<typeof carbonationSettingsSchema>,
 } as const;
 export type SettingKey = keyof typeof settingSections;
 export const settingKeys = Object.keys(settingSections) as SettingKey[];

@@ -1,0 +1,72 @@
+import { ForbiddenError } from '@casl/ability';
+import { Router, type Request } from 'express';
+import { z } from 'zod';
+import { subject } from '../../../shared/permissions/ability.ts';
+import {
+  carbonationPlanListQuerySchema,
+  createCarbonationPlanSchema,
+  previewCarbonationPlanSchema,
+  updateCarbonationPlanSchema,
+} from '../../../shared/schemas/carbonation.ts';
+import { canAll } from '../../lib/authz.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { notFound } from '../../lib/http-problem.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import { createPlan, listPlans, markPressureLowered, planMemberId, planViews, previewPlan, setPlanState } from './carbonation.service.ts';
+
+/** `/api/carbonation-plans`: target CO2 volumes → regulator pressure, ready date and the fast-start reminder. */
+export function carbonationRoutes({ db, queue }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.post('/preview', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
+    const input = previewCarbonationPlanSchema.parse(req.body ?? {});
+    res.json({ plan: await previewPlan(db, input) });
+  });
+
+  router.post('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'CarbonationPlan');
+    const input = createCarbonationPlanSchema.parse(req.body ?? {});
+    res.status(201).json({ plan: await createPlan(db, queue, input, req.user!) });
+  });
+
+  router.get('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
+    const q = carbonationPlanListQuerySchema.parse(req.query);
+    res.json(await listPlans(db, q, canAll(req.ability, 'read', 'CarbonationPlan') ? undefined : req.user!.id));
+  });
+
+  /** Loads a plan the person may see (404 otherwise) and checks `action` on it. */
+  async function visiblePlan(req: Request, action: 'read' | 'update') {
+    const id = z.uuid().safeParse(req.params.id);
+    if (!id.success) throw notFound('Carbonation plan');
+    const memberId = await planMemberId(db, id.data);
+    if (memberId === undefined || !req.ability.can('read', subject('CarbonationPlan', { memberId: memberId ?? '' }))) throw notFound('Carbonation plan');
+    ForbiddenError.from(req.ability).throwUnlessCan(action, subject('CarbonationPlan', { memberId: memberId ?? '' }));
+    return id.data;
+  }
+
+  router.get('/:id', async (req, res) => {
+    const id = await visiblePlan(req, 'read');
+    const [plan] = await planViews(db, [id]);
+    res.json({ plan });
+  });
+
+  router.post('/:id/pressure-lowered', async (req, res) => {
+    const id = await visiblePlan(req, 'update');
+    await markPressureLowered(db, queue, id, req.user!);
+    const [plan] = await planViews(db, [id]);
+    res.json({ plan });
+  });
+
+  router.patch('/:id', async (req, res) => {
+    const id = await visiblePlan(req, 'update');
+    const input = updateCarbonationPlanSchema.parse(req.body ?? {});
+    await setPlanState(db, queue, id, input.state, req.user!);
+    const [plan] = await planViews(db, [id]);
+    res.json({ plan });
+  });
+
+  return router;
+}

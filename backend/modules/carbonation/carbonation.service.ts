@@ -1,0 +1,381 @@
+import type PgBoss from 'pg-boss';
+import { z } from 'zod';
+import { checkLine, planCarbonation, PlanError } from '../../../shared/cellar/carbonation-planner.ts';
+import type { CarbonationSettings } from '../../../shared/schemas/cellar-settings.ts';
+import type { CarbonationPlanView, CreateCarbonationPlanInput, LineCheckView, previewCarbonationPlanSchema } from '../../../shared/schemas/carbonation.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { enqueueMail } from '../../lib/mailer.ts';
+import { getSetting } from '../settings/settings.service.ts';
+
+export const carbonationReminderQueue = 'cellar.carbonation-reminder';
+
+const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
+const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+const round = (v: number, d = 2) => Math.round(v * 10 ** d) / 10 ** d;
+
+export async function carbonationSettings(db: Database): Promise<CarbonationSettings> {
+  return (await getSetting(db, 'carbonation')).value;
+}
+
+type PlanFields = z.infer<typeof previewCarbonationPlanSchema>;
+
+interface Line {
+  tapId: string | null;
+  lengthM: number;
+  insideDiameterMm: number;
+  riseM: number;
+  resistanceKpaPerM?: number | undefined;
+}
+
+/** The plan's figures and its line check, from the inputs and the co-op's defaults. */
+export function computePlan(input: PlanFields, settings: CarbonationSettings, line: Line | null) {
+  const temperatureC = input.temperatureC ?? settings.coldRoomTempC;
+  const altitudeM = input.altitudeM ?? settings.altitudeM;
+  const fastStartPressureKpa = input.method === 'fast_start' ? (input.fastStartPressureKpa ?? settings.fastStartPressureKpa) : undefined;
+  const fastStartHours = input.method === 'fast_start' ? (input.fastStartHours ?? settings.fastStartHours) : undefined;
+  const settleDays = input.method === 'fast_start' ? (input.settleDays ?? settings.settleDays) : undefined;
+  const holdDays = input.holdDays ?? settings.holdDays;
+  let result;
+  try {
+    result = planCarbonation({
+      targetVolumes: input.targetVolumes,
+      temperatureC,
+      altitudeM,
+      method: input.method,
+      startedAt: input.startedAt ?? new Date(),
+      holdDays,
+      fastStartPressureKpa,
+      fastStartHours,
+      settleDays,
+      maxPressureKpa: settings.maxPlanPressureKpa,
+    });
+  } catch (e) {
+    if (e instanceof PlanError) throw unprocessable(e.message, [{ path: e.field, message: e.message }]);
+    throw e;
+  }
+  const lineCheck: LineCheckView | null = line
+    ? {
+        tapId: line.tapId,
+        lengthM: line.lengthM,
+        insideDiameterMm: line.insideDiameterMm,
+        riseM: line.riseM,
+        ...checkLine({
+          servingPressureKpa: result.servingPressureKpa,
+          lengthM: line.lengthM,
+          insideDiameterMm: line.insideDiameterMm,
+          riseM: line.riseM,
+          fixedKpa: settings.lineFixedKpa,
+          resistanceKpaPerM: line.resistanceKpaPerM,
+        }),
+      }
+    : null;
+  return { temperatureC, altitudeM, fastStartPressureKpa, fastStartHours, settleDays, holdDays, result, lineCheck };
+}
+
+/** The line to check: one given, else the named tap's, else the tap the keg is on. */
+async function resolveLine(db: Database, input: PlanFields): Promise<Line | null> {
+  if (input.line) return { tapId: null, ...input.line };
+  let tapId = input.tapId ?? null;
+  if (!tapId && input.kegId) {
+    const kw = await db.selectFrom('keg_whereabouts').select('tap_id').where('keg_id', '=', input.kegId).executeTakeFirst();
+    tapId = kw?.tap_id ?? null;
+  }
+  if (!tapId) return null;
+  const tap = await db.selectFrom('equipment').select(['id', 'kind', 'attributes']).where('id', '=', tapId).executeTakeFirst();
+  if (!tap || tap.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
+  const a = (tap.attributes ?? {}) as Record<string, unknown>;
+  if (typeof a.lineLengthM !== 'number' || typeof a.lineInsideDiameterMm !== 'number') return null;
+  return { tapId: tap.id, lengthM: a.lineLengthM, insideDiameterMm: a.lineInsideDiameterMm, riseM: typeof a.riseM === 'number' ? a.riseM : 0 };
+}
+
+export async function previewPlan(db: Database, input: PlanFields) {
+  const settings = await carbonationSettings(db);
+  const line = await resolveLine(db, input);
+  const p = computePlan(input, settings, line);
+  return {
+    servingPressureKpa: round(p.result.servingPressureKpa),
+    temperatureC: p.temperatureC,
+    altitudeM: p.altitudeM,
+    startedAt: p.result.startedAt,
+    lowerPressureAt: p.result.lowerPressureAt,
+    readyAt: p.result.readyAt,
+    fastStartPressureKpa: p.fastStartPressureKpa ?? null,
+    fastStartEquilibriumVolumes: p.result.fastStartEquilibriumVolumes,
+    warnings: p.result.warnings,
+    line: p.lineCheck,
+  };
+}
+
+export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbonationPlanInput, actor: { id: string }): Promise<CarbonationPlanView> {
+  const settings = await carbonationSettings(db);
+  const line = await resolveLine(db, input);
+  const p = computePlan(input, settings, line);
+  const { planId, superseded } = await db.transaction().execute(async (trx) => {
+    const keg = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.kegId).forUpdate().executeTakeFirst();
+    if (!keg || keg.kind !== 'keg') throw notFound('Keg');
+    if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer to carbonate.`);
+    const fill = await trx.selectFrom('keg_fill').select('id').where('keg_id', '=', keg.id).where('emptied_at', 'is', null).executeTakeFirst();
+    const old = await trx
+      .updateTable('carbonation_plan')
+      .set({ state: 'superseded', updated_at: new Date() })
+      .where('keg_id', '=', keg.id)
+      .where('state', '=', 'active')
+      .returning(['id', 'reminder_job_id'])
+      .execute();
+    const row = await trx
+      .insertInto('carbonation_plan')
+      .values({
+        keg_id: keg.id,
+        keg_fill_id: fill?.id ?? null,
+        method: input.method,
+        style_family: input.styleFamily ?? '',
+        target_volumes: input.targetVolumes,
+        temperature_c: p.temperatureC,
+        altitude_m: p.altitudeM,
+        serving_pressure_kpa: round(p.result.servingPressureKpa),
+        fast_pressure_kpa: p.fastStartPressureKpa ?? null,
+        fast_hours: p.fastStartHours ?? null,
+        hold_days: input.method === 'set_and_hold' ? p.holdDays : null,
+        settle_days: p.settleDays ?? null,
+        started_at: p.result.startedAt,
+        lower_pressure_at: p.result.lowerPressureAt,
+        ready_at: p.result.readyAt,
+        tap_id: p.lineCheck?.tapId ?? null,
+        line_length_m: p.lineCheck?.lengthM ?? null,
+        line_inside_diameter_mm: p.lineCheck?.insideDiameterMm ?? null,
+        line_rise_m: p.lineCheck?.riseM ?? null,
+        line_resistance_kpa_per_m: p.lineCheck?.resistanceKpaPerM !== null && p.lineCheck?.resistanceKpaPerM !== undefined ? round(p.lineCheck.resistanceKpaPerM) : null,
+        line_balanced_length_m: p.lineCheck?.balancedLengthM !== null && p.lineCheck?.balancedLengthM !== undefined ? round(p.lineCheck.balancedLengthM) : null,
+        notes: input.notes ?? '',
+        created_by: actor.id,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await audit(trx, actor.id, 'created', 'CarbonationPlan', row.id, {
+      kegId: keg.id,
+      code: keg.code,
+      method: input.method,
+      targetVolumes: input.targetVolumes,
+      servingPressureKpa: round(p.result.servingPressureKpa),
+    });
+    return { planId: row.id, superseded: old };
+  });
+
+  // Reminders live in the queue; a superseded plan's reminder is withdrawn.
+  for (const o of superseded) if (o.reminder_job_id) await queue.cancel(carbonationReminderQueue, o.reminder_job_id).catch(() => undefined);
+  if (p.result.lowerPressureAt) {
+    const jobId = await queue.sendAfter(carbonationReminderQueue, { planId }, { singletonKey: planId, retryLimit: 5, retryDelay: 30 }, new Date(p.result.lowerPressureAt));
+    if (jobId) await db.updateTable('carbonation_plan').set({ reminder_job_id: jobId }).where('id', '=', planId).execute();
+  }
+  const [view] = await planViews(db, [planId]);
+  return view!;
+}
+
+export async function planViews(db: Database, ids: string[]): Promise<CarbonationPlanView[]> {
+  if (!ids.length) return [];
+  const rows = await db
+    .selectFrom('carbonation_plan as cp')
+    .innerJoin('equipment as k', 'k.id', 'cp.keg_id')
+    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
+    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
+    .leftJoin('app_user as u', 'u.id', 'cp.created_by')
+    .selectAll('cp')
+    .select(['k.code as keg_code', 'b.name as batch_name', 'u.name as created_by_name'])
+    .where('cp.id', 'in', ids)
+    .execute();
+  const settings = await carbonationSettings(db);
+  const byId = new Map(
+    rows.map((r): [string, CarbonationPlanView] => {
+      // Warnings and the fast start's equilibrium are worked out again from the stored inputs.
+      let warnings: string[] = [];
+      let equilibrium: number | null = null;
+      try {
+        const again = planCarbonation({
+          targetVolumes: Number(r.target_volumes),
+          temperatureC: Number(r.temperature_c),
+          altitudeM: Number(r.altitude_m),
+          method: r.method,
+          startedAt: r.started_at,
+          holdDays: num(r.hold_days) ?? settings.holdDays,
+          fastStartPressureKpa: num(r.fast_pressure_kpa) ?? undefined,
+          fastStartHours: num(r.fast_hours) ?? undefined,
+          settleDays: num(r.settle_days) ?? undefined,
+          maxPressureKpa: Math.max(settings.maxPlanPressureKpa, Number(r.serving_pressure_kpa), num(r.fast_pressure_kpa) ?? 0),
+        });
+        warnings = again.warnings;
+        equilibrium = again.fastStartEquilibriumVolumes;
+      } catch {
+        warnings = [];
+      }
+      const line: LineCheckView | null =
+        r.line_length_m !== null && r.line_inside_diameter_mm !== null
+          ? {
+              tapId: r.tap_id,
+              lengthM: Number(r.line_length_m),
+              insideDiameterMm: Number(r.line_inside_diameter_mm),
+              riseM: Number(r.line_rise_m ?? 0),
+              ...checkLine({
+                servingPressureKpa: Number(r.serving_pressure_kpa),
+                lengthM: Number(r.line_length_m),
+                insideDiameterMm: Number(r.line_inside_diameter_mm),
+                riseM: Number(r.line_rise_m ?? 0),
+                fixedKpa: settings.lineFixedKpa,
+                resistanceKpaPerM: num(r.line_resistance_kpa_per_m) ?? undefined,
+              }),
+            }
+          : null;
+      return [
+        r.id,
+        {
+          id: r.id,
+          keg: { id: r.keg_id, code: r.keg_code },
+          fillId: r.keg_fill_id,
+          batchName: r.batch_name ?? null,
+          state: r.state,
+          method: r.method,
+          styleFamily: r.style_family,
+          targetVolumes: Number(r.target_volumes),
+          temperatureC: Number(r.temperature_c),
+          altitudeM: Number(r.altitude_m),
+          servingPressureKpa: Number(r.serving_pressure_kpa),
+          fastPressureKpa: num(r.fast_pressure_kpa),
+          fastHours: num(r.fast_hours),
+          holdDays: num(r.hold_days),
+          settleDays: num(r.settle_days),
+          startedAt: r.started_at.toISOString(),
+          lowerPressureAt: iso(r.lower_pressure_at),
+          pressureLoweredAt: iso(r.pressure_lowered_at),
+          reminderSentAt: iso(r.reminder_sent_at),
+          readyAt: r.ready_at.toISOString(),
+          fastStartEquilibriumVolumes: equilibrium,
+          warnings,
+          line,
+          notes: r.notes,
+          createdBy: r.created_by ? { id: r.created_by, name: r.created_by_name ?? '' } : null,
+          createdAt: r.created_at.toISOString(),
+        },
+      ];
+    }),
+  );
+  return ids.map((id) => byId.get(id)).filter((v): v is CarbonationPlanView => Boolean(v));
+}
+
+const planSort = { createdAt: 'cp.created_at', readyAt: 'cp.ready_at', lowerPressureAt: 'cp.lower_pressure_at' } as const;
+
+export async function listPlans(
+  db: Database,
+  q: { kegId?: string | undefined; state?: string | undefined; lowerDue?: boolean | undefined; sort: keyof typeof planSort; order: 'asc' | 'desc'; page: number; pageSize: number },
+  memberId?: string,
+): Promise<Page<CarbonationPlanView>> {
+  let base = db
+    .selectFrom('carbonation_plan as cp')
+    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
+    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
+    .leftJoin('batch as b', 'b.id', 'kf.batch_id');
+  if (memberId) base = base.where((eb) => eb.or([eb('kw.member_id', '=', memberId), eb('b.owner_id', '=', memberId)]));
+  if (q.kegId) base = base.where('cp.keg_id', '=', q.kegId);
+  if (q.state) base = base.where('cp.state', '=', q.state as never);
+  if (q.lowerDue) {
+    base = base.where('cp.state', '=', 'active').where('cp.method', '=', 'fast_start').where('cp.pressure_lowered_at', 'is', null).where('cp.lower_pressure_at', '<=', new Date());
+  }
+  const [{ total }, page] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .select('cp.id')
+      .orderBy(planSort[q.sort], q.order)
+      .orderBy('cp.id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return { items: await planViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
+}
+
+/** The member a plan's keg belongs to, for the permission policy. */
+export async function planMemberId(db: Database, planId: string): Promise<string | null | undefined> {
+  const r = await db
+    .selectFrom('carbonation_plan as cp')
+    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
+    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
+    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
+    .select(['cp.id', 'kw.member_id', 'b.owner_id'])
+    .where('cp.id', '=', planId)
+    .executeTakeFirst();
+  if (!r) return undefined;
+  return r.member_id ?? r.owner_id ?? null;
+}
+
+export async function markPressureLowered(db: Database, queue: PgBoss, planId: string, actor: { id: string }) {
+  const row = await db.transaction().execute(async (trx) => {
+    const plan = await trx.selectFrom('carbonation_plan').select(['id', 'state', 'method', 'pressure_lowered_at', 'reminder_job_id']).where('id', '=', planId).forUpdate().executeTakeFirst();
+    if (!plan) throw notFound('Carbonation plan');
+    if (plan.state !== 'active') throw conflict('This plan is no longer active.');
+    if (plan.method !== 'fast_start') throw conflict('Only a fast start has a pressure to lower.');
+    if (plan.pressure_lowered_at) throw conflict('The pressure was already lowered.');
+    await trx.updateTable('carbonation_plan').set({ pressure_lowered_at: new Date(), updated_at: new Date() }).where('id', '=', planId).execute();
+    await audit(trx, actor.id, 'pressure_lowered', 'CarbonationPlan', planId, {});
+    return plan;
+  });
+  if (row.reminder_job_id) await queue.cancel(carbonationReminderQueue, row.reminder_job_id).catch(() => undefined);
+}
+
+export async function setPlanState(db: Database, queue: PgBoss, planId: string, state: 'done' | 'cancelled', actor: { id: string }) {
+  const row = await db.transaction().execute(async (trx) => {
+    const plan = await trx.selectFrom('carbonation_plan').select(['id', 'state', 'reminder_job_id']).where('id', '=', planId).forUpdate().executeTakeFirst();
+    if (!plan) throw notFound('Carbonation plan');
+    if (plan.state !== 'active') throw conflict('This plan is no longer active.');
+    await trx.updateTable('carbonation_plan').set({ state, updated_at: new Date() }).where('id', '=', planId).execute();
+    await audit(trx, actor.id, state === 'done' ? 'completed' : 'cancelled', 'CarbonationPlan', planId, {});
+    return plan;
+  });
+  if (row.reminder_job_id) await queue.cancel(carbonationReminderQueue, row.reminder_job_id).catch(() => undefined);
+}
+
+const kpaToPsi = (kpa: number) => kpa / 6.894757293168361;
+
+/**
+ * The queued reminder at the end of a fast start: e-mails every brewer on duty to turn the
+ * regulator down, once, unless the plan was finished, replaced or the pressure already lowered.
+ */
+export async function sendLowerPressureReminder(db: Database, queue: PgBoss, planId: string): Promise<boolean> {
+  const claimed = await db.transaction().execute(async (trx) => {
+    const plan = await trx
+      .selectFrom('carbonation_plan as cp')
+      .innerJoin('equipment as k', 'k.id', 'cp.keg_id')
+      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
+      .leftJoin('equipment as t', 't.id', 'kw.tap_id')
+      .select(['cp.id', 'cp.state', 'cp.method', 'cp.pressure_lowered_at', 'cp.reminder_sent_at', 'cp.serving_pressure_kpa', 'cp.fast_pressure_kpa', 'k.code', 't.code as tap_code'])
+      .where('cp.id', '=', planId)
+      .forUpdate('cp')
+      .executeTakeFirst();
+    if (!plan || plan.state !== 'active' || plan.method !== 'fast_start' || plan.pressure_lowered_at || plan.reminder_sent_at) return null;
+    await trx.updateTable('carbonation_plan').set({ reminder_sent_at: new Date() }).where('id', '=', planId).execute();
+    await audit(trx, null, 'reminded', 'CarbonationPlan', planId, { code: plan.code });
+    return plan;
+  });
+  if (!claimed) return false;
+  const brewers = await db
+    .selectFrom('app_user')
+    .select(['email', 'name'])
+    .where('is_active', '=', true)
+    .where((eb) => eb(eb.val('brewer_on_duty'), '=', eb.fn.any('roles')))
+    .execute();
+  const serving = Number(claimed.serving_pressure_kpa);
+  const where = claimed.tap_code ? ` (on tap ${claimed.tap_code})` : '';
+  for (const b of brewers) {
+    await enqueueMail(queue, {
+      to: b.email,
+      subject: `Lower the pressure on keg ${claimed.code} to ${(serving / 100).toFixed(2)} bar (${kpaToPsi(serving).toFixed(1)} psi)`,
+      text:
+        `Hello ${b.name},\n\nThe fast start on keg ${claimed.code}${where} at ${Number(claimed.fast_pressure_kpa).toFixed(0)} kPa has run its time.\n` +
+        `Turn the regulator down to serving pressure: ${serving.toFixed(0)} kPa (${(serving / 100).toFixed(2)} bar, ${kpaToPsi(serving).toFixed(1)} psi), ` +
+        `vent the headspace to that pressure, and mark the plan "pressure lowered" in Cellarwright.\n\n` +
+        `Do not shake the keg at high pressure: that easily over-carbonates. Never exceed the keg's or regulator's rated pressure; ` +
+        `CO2 displaces air in the closed cold room, so keep it ventilated and heed its CO2 alarm. Local codes and licensed practice govern.\n`,
+    });
+  }
+  return true;
+}

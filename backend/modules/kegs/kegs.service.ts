@@ -1,0 +1,450 @@
+import { sql } from 'kysely';
+import type {
+  KegCheckOutInput,
+  KegHistoryEntry,
+  KegListQuery,
+  KegMoveInput,
+  KegView,
+  KegWhereabouts,
+  TapBoardEntry,
+} from '../../../shared/schemas/kegs.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { effectiveStateSql, freshUntilSql, setVesselState } from '../sanitation/vessel-state.ts';
+
+const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
+const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+const attr = (a: unknown, k: string) => (a && typeof a === 'object' ? (a as Record<string, unknown>)[k] : undefined);
+const attrNum = (a: unknown, k: string) => {
+  const v = attr(a, k);
+  return typeof v === 'number' ? v : null;
+};
+const attrStr = (a: unknown, k: string) => {
+  const v = attr(a, k);
+  return typeof v === 'string' ? v : null;
+};
+
+export interface KegVisibility {
+  /** Restrict to kegs this member has out or whose beer is theirs. */
+  memberId?: string | undefined;
+  /** Show who holds each keg. */
+  showOwner: boolean;
+}
+
+/** Everything a keg row shows, one query: whereabouts, tap, holder, contents, carbonation. */
+function kegBase(db: Database) {
+  return db
+    .selectFrom('equipment as e')
+    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
+    .leftJoin('equipment as tap', 'tap.id', 'kw.tap_id')
+    .leftJoin('app_user as m', 'm.id', 'kw.member_id')
+    .leftJoin('keg_fill as kf', (j) => j.onRef('kf.keg_id', '=', 'e.id').on('kf.emptied_at', 'is', null))
+    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
+    .leftJoin('carbonation_plan as cp', (j) => j.onRef('cp.keg_id', '=', 'e.id').on('cp.state', '=', 'active'))
+    .where('e.kind', '=', 'keg');
+}
+type KegBase = ReturnType<typeof kegBase>;
+
+function selectKeg(q: KegBase) {
+  return q.select((eb) => [
+    'e.id',
+    'e.code',
+    'e.name',
+    'e.capacity_liters',
+    'e.attributes',
+    'e.state as stored_state',
+    effectiveStateSql(eb.ref('e.id'), eb.ref('e.state')).as('state'),
+    freshUntilSql(eb.ref('e.id')).as('fresh_until'),
+    sql<KegWhereabouts>`coalesce(kw.whereabouts, 'cellar')`.as('whereabouts'),
+    'kw.since',
+    'kw.tap_id',
+    'tap.code as tap_code',
+    'tap.name as tap_name',
+    'tap.attributes as tap_attributes',
+    'kw.member_id',
+    'm.name as member_name',
+    'kw.checked_out_at',
+    'kw.due_at',
+    sql<boolean>`(kw.whereabouts = 'with_member' and kw.due_at < now())`.as('overdue'),
+    'kf.id as fill_id',
+    'kf.batch_id',
+    'b.name as batch_name',
+    'b.style as batch_style',
+    'b.owner_id as batch_owner_id',
+    'kf.volume_liters',
+    'kf.remaining_liters',
+    'kf.og',
+    'kf.fg',
+    'kf.abv',
+    'kf.filled_at',
+    'cp.id as plan_id',
+    'cp.method as plan_method',
+    'cp.target_volumes',
+    'cp.serving_pressure_kpa',
+    'cp.fast_pressure_kpa',
+    'cp.lower_pressure_at',
+    'cp.pressure_lowered_at',
+    'cp.ready_at',
+  ]);
+}
+type KegRow = Awaited<ReturnType<ReturnType<typeof selectKeg>['executeTakeFirstOrThrow']>>;
+
+/** The member a keg "belongs to" for the permission policy: who has it out, else whose beer is in it. */
+export function kegMemberId(r: Pick<KegRow, 'member_id' | 'batch_owner_id'>): string {
+  return r.member_id ?? r.batch_owner_id ?? '';
+}
+
+function toKegView(r: KegRow, showOwner: boolean): KegView {
+  return {
+    id: r.id,
+    code: r.code,
+    name: r.name,
+    capacityLiters: num(r.capacity_liters),
+    lock: attrStr(r.attributes, 'lock'),
+    serial: attrStr(r.attributes, 'serial'),
+    state: r.state,
+    whereabouts: r.whereabouts,
+    since: iso(r.since),
+    tap: r.tap_id ? { id: r.tap_id, code: r.tap_code ?? '', name: r.tap_name ?? '', position: attrStr(r.tap_attributes, 'position') } : null,
+    member: showOwner && r.member_id ? { id: r.member_id, name: r.member_name ?? '' } : null,
+    checkedOutAt: iso(r.checked_out_at),
+    dueAt: iso(r.due_at),
+    overdue: Boolean(r.overdue),
+    contents: r.fill_id
+      ? {
+          fillId: r.fill_id,
+          batchId: r.batch_id!,
+          batchName: r.batch_name ?? '',
+          style: r.batch_style ?? '',
+          volumeLiters: Number(r.volume_liters),
+          remainingLiters: Number(r.remaining_liters),
+          og: num(r.og),
+          fg: num(r.fg),
+          abv: num(r.abv),
+          filledAt: iso(r.filled_at)!,
+        }
+      : null,
+    carbonation: r.plan_id
+      ? {
+          planId: r.plan_id,
+          method: r.plan_method!,
+          targetVolumes: Number(r.target_volumes),
+          servingPressureKpa: Number(r.serving_pressure_kpa),
+          fastPressureKpa: num(r.fast_pressure_kpa),
+          lowerPressureAt: iso(r.lower_pressure_at),
+          pressureLoweredAt: iso(r.pressure_lowered_at),
+          readyAt: iso(r.ready_at)!,
+        }
+      : null,
+    freshUntil: iso(r.fresh_until),
+  };
+}
+
+const kegSort = {
+  code: sql.ref('e.code'),
+  state: sql.ref('state'),
+  whereabouts: sql.ref('whereabouts'),
+  dueAt: sql.ref('kw.due_at'),
+  remainingLiters: sql.ref('kf.remaining_liters'),
+} as const;
+
+export async function listKegs(db: Database, q: KegListQuery, vis: KegVisibility): Promise<Page<KegView>> {
+  let base = kegBase(db);
+  if (vis.memberId) {
+    const me = vis.memberId;
+    base = base.where((eb) => eb.or([eb('kw.member_id', '=', me), eb('b.owner_id', '=', me)]));
+  }
+  if (q.whereabouts === 'cellar') base = base.where((eb) => eb.or([eb('kw.whereabouts', 'is', null), eb('kw.whereabouts', '=', 'cellar')]));
+  else if (q.whereabouts) base = base.where('kw.whereabouts', '=', q.whereabouts);
+  if (q.state) base = base.where((eb) => eb(effectiveStateSql(eb.ref('e.id'), eb.ref('e.state')), '=', q.state!));
+  if (q.overdue !== undefined) {
+    base = q.overdue
+      ? base.where('kw.whereabouts', '=', 'with_member').where('kw.due_at', '<', new Date())
+      : base.where((eb) => eb.or([eb('kw.due_at', 'is', null), eb('kw.due_at', '>=', new Date())]));
+  }
+  if (q.memberId) base = base.where('kw.member_id', '=', q.memberId);
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    base = base.where((eb) => eb.or([eb('e.code', 'ilike', like), eb('e.name', 'ilike', like), eb('b.name', 'ilike', like)]));
+  }
+  const [{ total }, rows] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    selectKeg(base)
+      .orderBy(sql`${kegSort[q.sort]} ${sql.raw(q.order)} nulls last`)
+      .orderBy('e.code')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return { items: rows.map((r) => toKegView(r, vis.showOwner)), total, page: q.page, pageSize: q.pageSize };
+}
+
+export async function findKeg(db: Database, id: string): Promise<KegRow | undefined> {
+  return selectKeg(kegBase(db).where('e.id', '=', id)).executeTakeFirst();
+}
+
+export function kegView(r: KegRow, showOwner: boolean): KegView {
+  return toKegView(r, showOwner);
+}
+
+export async function tapBoard(db: Database, canSee: (row: KegRow) => boolean, showOwner: boolean): Promise<TapBoardEntry[]> {
+  const [taps, kegs] = await Promise.all([
+    db.selectFrom('equipment').select(['id', 'code', 'name', 'state', 'attributes']).where('kind', '=', 'tap').orderBy('code').execute(),
+    selectKeg(kegBase(db).where('kw.tap_id', 'is not', null)).execute(),
+  ]);
+  const byTap = new Map(kegs.map((k) => [k.tap_id!, k]));
+  return taps.map((t) => {
+    const k = byTap.get(t.id);
+    return {
+      id: t.id,
+      code: t.code,
+      name: t.name,
+      position: attrStr(t.attributes, 'position'),
+      lineLengthM: attrNum(t.attributes, 'lineLengthM'),
+      lineInsideDiameterMm: attrNum(t.attributes, 'lineInsideDiameterMm'),
+      riseM: attrNum(t.attributes, 'riseM'),
+      coldRoomTempC: attrNum(t.attributes, 'coldRoomTempC'),
+      state: t.state,
+      taken: Boolean(k),
+      keg: k && canSee(k) ? toKegView(k, showOwner) : null,
+    };
+  });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Changes: each in one transaction with a movement row and an audit row.
+// ---------------------------------------------------------------------------------------------
+
+async function lockKeg(trx: Database, id: string) {
+  const keg = await trx
+    .selectFrom('equipment as e')
+    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
+    .select(['e.id', 'e.code', 'e.kind', 'e.state', 'kw.whereabouts', 'kw.tap_id', 'kw.member_id', 'kw.due_at'])
+    .where('e.id', '=', id)
+    .forUpdate('e')
+    .executeTakeFirst();
+  if (!keg || keg.kind !== 'keg') throw notFound('Keg');
+  return { ...keg, whereabouts: (keg.whereabouts ?? 'cellar') as KegWhereabouts };
+}
+
+async function putWhereabouts(
+  trx: Database,
+  kegId: string,
+  w: { whereabouts: KegWhereabouts; tapId?: string | null; memberId?: string | null; checkedOutAt?: Date | null; dueAt?: Date | null },
+  actorId: string,
+) {
+  const values = {
+    whereabouts: w.whereabouts,
+    tap_id: w.tapId ?? null,
+    member_id: w.memberId ?? null,
+    checked_out_at: w.checkedOutAt ?? null,
+    due_at: w.dueAt ?? null,
+    since: new Date(),
+    updated_by: actorId,
+  };
+  await trx
+    .insertInto('keg_whereabouts')
+    .values({ keg_id: kegId, ...values })
+    .onConflict((oc) => oc.column('keg_id').doUpdateSet(values))
+    .execute();
+}
+
+async function closeFill(trx: Database, kegId: string, reason: string) {
+  await trx.updateTable('keg_fill').set({ emptied_at: new Date(), emptied_reason: reason, remaining_liters: 0 }).where('keg_id', '=', kegId).where('emptied_at', 'is', null).execute();
+  await trx.updateTable('carbonation_plan').set({ state: 'done', updated_at: new Date() }).where('keg_id', '=', kegId).where('state', '=', 'active').execute();
+}
+
+function mapTapTaken(err: unknown, tapCode: string): never {
+  if ((err as { code?: string })?.code === '23505') throw conflict(`Tap ${tapCode} already has a keg on it.`);
+  throw err;
+}
+
+export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOutInput, actor: { id: string }) {
+  const due = new Date(input.dueAt);
+  if (due.getTime() <= Date.now()) throw unprocessable('The due date must be in the future.', [{ path: 'dueAt', message: 'Pick a date after today' }]);
+  await db.transaction().execute(async (trx) => {
+    const keg = await lockKeg(trx, kegId);
+    if (keg.state === 'out_of_service') throw conflict(`${keg.code} is out of service.`);
+    if (keg.whereabouts === 'with_member') throw conflict(`${keg.code} is already out with a member.`);
+    if (keg.whereabouts === 'missing') throw conflict(`${keg.code} is marked missing: mark it found first.`);
+    const member = await trx.selectFrom('app_user').select(['id', 'name', 'roles', 'is_active']).where('id', '=', input.memberId).executeTakeFirst();
+    if (!member || !member.is_active || !member.roles.includes('member')) {
+      throw unprocessable('Kegs go out to active members only.', [{ path: 'memberId', message: 'Pick an active member' }]);
+    }
+    const now = new Date();
+    await putWhereabouts(trx, kegId, { whereabouts: 'with_member', memberId: member.id, checkedOutAt: now, dueAt: due }, actor.id);
+    await trx
+      .insertInto('keg_movement')
+      .values({ keg_id: kegId, action: 'checked_out', from_whereabouts: keg.whereabouts, to_whereabouts: 'with_member', member_id: member.id, due_at: due, tap_id: keg.tap_id, note: input.note ?? '', actor_id: actor.id, at: now })
+      .execute();
+    await audit(trx, actor.id, 'checked_out', 'Keg', kegId, { code: keg.code, memberId: member.id, dueAt: due.toISOString() });
+  });
+}
+
+export async function returnKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }) {
+  await db.transaction().execute(async (trx) => {
+    const keg = await lockKeg(trx, kegId);
+    if (keg.whereabouts !== 'with_member') throw conflict(`${keg.code} is not out with a member.`);
+    const member = keg.member_id ? await trx.selectFrom('app_user').select('name').where('id', '=', keg.member_id).executeTakeFirst() : undefined;
+    const now = new Date();
+    const late = keg.due_at && new Date(keg.due_at).getTime() < now.getTime();
+    await putWhereabouts(trx, kegId, { whereabouts: 'cellar' }, actor.id);
+    await trx
+      .insertInto('keg_movement')
+      .values({ keg_id: kegId, action: 'returned', from_whereabouts: 'with_member', to_whereabouts: 'cellar', member_id: keg.member_id, due_at: keg.due_at, note: input.note ?? (late ? 'Returned after its due date' : ''), actor_id: actor.id, at: now })
+      .execute();
+    await closeFill(trx, kegId, 'returned');
+    if (keg.state !== 'out_of_service') {
+      await setVesselState(trx, kegId, 'needs_cleaning', `Returned by ${member?.name ?? 'a member'}; clean before use`, actor.id);
+    }
+    await audit(trx, actor.id, 'returned', 'Keg', kegId, { code: keg.code, memberId: keg.member_id, late: Boolean(late) });
+  });
+}
+
+export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, actor: { id: string }) {
+  await db.transaction().execute(async (trx) => {
+    const keg = await lockKeg(trx, kegId);
+    const to = input.to;
+    let tap: { id: string; code: string } | undefined;
+    if (input.tapId) {
+      const t = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.tapId).executeTakeFirst();
+      if (!t || t.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
+      if (t.state === 'out_of_service') throw conflict(`Tap ${t.code} is out of service.`);
+      if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer: only a filled keg goes on a tap.`);
+      const other = await trx.selectFrom('keg_whereabouts as kw').innerJoin('equipment as e', 'e.id', 'kw.keg_id').select('e.code').where('kw.tap_id', '=', t.id).where('kw.keg_id', '<>', kegId).executeTakeFirst();
+      if (other) throw conflict(`Tap ${t.code} already has ${other.code} on it.`);
+      tap = t;
+    }
+    if (keg.whereabouts === to && (keg.tap_id ?? null) === (tap?.id ?? null)) throw conflict(`${keg.code} is already there.`);
+    const action =
+      to === 'missing'
+        ? 'marked_missing'
+        : keg.whereabouts === 'missing'
+          ? 'found'
+          : tap
+            ? 'tapped'
+            : keg.tap_id
+              ? 'untapped'
+              : 'moved';
+    await putWhereabouts(trx, kegId, { whereabouts: to, tapId: tap?.id ?? null }, actor.id).catch((e) => mapTapTaken(e, tap?.code ?? ''));
+    await trx
+      .insertInto('keg_movement')
+      .values({ keg_id: kegId, action, from_whereabouts: keg.whereabouts, to_whereabouts: to, tap_id: tap?.id ?? keg.tap_id, member_id: keg.member_id, note: input.note ?? '', actor_id: actor.id })
+      .execute();
+    await audit(trx, actor.id, action, 'Keg', kegId, { code: keg.code, from: keg.whereabouts, to, tapId: tap?.id ?? null });
+  });
+}
+
+export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }) {
+  await db.transaction().execute(async (trx) => {
+    const keg = await lockKeg(trx, kegId);
+    if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer.`);
+    await closeFill(trx, kegId, 'emptied');
+    if (keg.tap_id) await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id);
+    await trx
+      .insertInto('keg_movement')
+      .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id })
+      .execute();
+    await setVesselState(trx, kegId, 'needs_cleaning', 'Emptied; clean before use', actor.id);
+    await audit(trx, actor.id, 'emptied', 'Keg', kegId, { code: keg.code });
+  });
+}
+
+export async function setKegLevel(db: Database, kegId: string, remainingLiters: number, actor: { id: string }) {
+  await db.transaction().execute(async (trx) => {
+    const keg = await lockKeg(trx, kegId);
+    const fill = await trx.selectFrom('keg_fill').select(['id', 'volume_liters']).where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst();
+    if (!fill) throw conflict(`${keg.code} holds no beer.`);
+    if (remainingLiters > Number(fill.volume_liters)) {
+      throw unprocessable('More than was filled.', [{ path: 'remainingLiters', message: `At most ${Number(fill.volume_liters)} L` }]);
+    }
+    await trx.updateTable('keg_fill').set({ remaining_liters: remainingLiters }).where('id', '=', fill.id).execute();
+    await trx
+      .insertInto('keg_movement')
+      .values({ keg_id: kegId, action: 'level', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: `About ${remainingLiters.toFixed(1)} L left`, actor_id: actor.id })
+      .execute();
+    await audit(trx, actor.id, 'level', 'Keg', kegId, { code: keg.code, remainingLiters });
+  });
+}
+
+const movementTitles: Record<string, string> = {
+  checked_out: 'Checked out',
+  returned: 'Returned',
+  moved: 'Moved',
+  tapped: 'Put on tap',
+  untapped: 'Taken off tap',
+  marked_missing: 'Marked missing',
+  found: 'Found',
+  level: 'Level noted',
+  emptied: 'Emptied',
+};
+const whereLabel: Record<string, string> = { cellar: 'cellar', cold_room: 'cold room', with_member: 'with a member', missing: 'missing' };
+
+/** A keg's whole history, newest first: movements, state changes, cycles, fills, plans, one query. */
+export async function kegHistory(db: Database, kegId: string, page: number, pageSize: number): Promise<Page<KegHistoryEntry>> {
+  const events = sql<{ at: Date; kind: KegHistoryEntry['kind']; code: string; a: string | null; b: string | null; c: string | null; actor: string | null; ref_id: string | null }>`
+    select km.at, 'movement' as kind, km.action as code, km.from_whereabouts as a, km.to_whereabouts as b,
+      concat_ws(' · ', nullif(mu.name, ''), case when km.due_at is not null and km.action = 'checked_out' then 'due ' || to_char(km.due_at at time zone 'UTC', 'YYYY-MM-DD') end,
+        t.code, nullif(km.note, '')) as c,
+      au.name as actor, km.id::text as ref_id
+    from keg_movement km left join app_user mu on mu.id = km.member_id left join app_user au on au.id = km.actor_id left join equipment t on t.id = km.tap_id
+    where km.keg_id = ${kegId}
+    union all
+    select sc.at, 'state', sc.to_state, sc.from_state, sc.to_state, sc.reason, au.name, sc.id::text
+    from equipment_state_change sc left join app_user au on au.id = sc.actor_id where sc.equipment_id = ${kegId}
+    union all
+    select c.completed_at, 'sanitation', c.outcome, null, null,
+      (select string_agg(s.step || coalesce(' ' || s.chemical, '') || coalesce(' ' || s.contact_minutes::text || ' min', ''), ', ' order by s.position) from sanitation_step s where s.cycle_id = c.id),
+      au.name, c.id::text
+    from sanitation_cycle c left join app_user au on au.id = c.recorded_by where c.equipment_id = ${kegId}
+    union all
+    select kf.filled_at, 'fill', null, b.name, kf.volume_liters::text,
+      concat_ws(' · ', 'from ' || f.code, case when kf.abv is not null then kf.abv::text || ' % ABV' end), au.name, kf.id::text
+    from keg_fill kf join batch b on b.id = kf.batch_id left join transfer t on t.id = kf.transfer_id
+      left join equipment f on f.id = t.from_equipment_id left join app_user au on au.id = t.recorded_by
+    where kf.keg_id = ${kegId}
+    union all
+    select kf.emptied_at, 'emptied', kf.emptied_reason, b.name, null, null, null, kf.id::text
+    from keg_fill kf join batch b on b.id = kf.batch_id where kf.keg_id = ${kegId} and kf.emptied_at is not null
+    union all
+    select cp.created_at, 'carbonation', cp.method, cp.target_volumes::text, cp.serving_pressure_kpa::text, cp.state, au.name, cp.id::text
+    from carbonation_plan cp left join app_user au on au.id = cp.created_by where cp.keg_id = ${kegId}`;
+  const [count, rows] = await Promise.all([
+    sql<{ total: number }>`select count(*)::int as total from (${events}) x`.execute(db),
+    sql<{ at: Date; kind: KegHistoryEntry['kind']; code: string; a: string | null; b: string | null; c: string | null; actor: string | null; ref_id: string | null }>`
+      select * from (${events}) x order by at desc, kind limit ${pageSize} offset ${(page - 1) * pageSize}`.execute(db),
+  ]);
+  const items = rows.rows.map((r): KegHistoryEntry => {
+    let title = '';
+    let detail = '';
+    switch (r.kind) {
+      case 'movement':
+        title = movementTitles[r.code] ?? r.code;
+        detail = [r.a && r.b && r.a !== r.b ? `${whereLabel[r.a] ?? r.a} → ${whereLabel[r.b] ?? r.b}` : '', r.c ?? ''].filter(Boolean).join(' · ');
+        break;
+      case 'state':
+        title = `State: ${r.b?.replace('_', ' ')}`;
+        detail = r.c ?? '';
+        break;
+      case 'sanitation':
+        title = r.code === 'ready' ? 'Sanitation cycle, complete' : `Sanitation cycle, incomplete (${r.code.replace('_', ' ')})`;
+        detail = r.c ?? '';
+        break;
+      case 'fill':
+        title = `Filled with ${r.a}`;
+        detail = [`${Number(r.b).toFixed(1)} L`, r.c ?? ''].filter(Boolean).join(' · ');
+        break;
+      case 'emptied':
+        title = r.code === 'returned' ? `Returned empty (${r.a})` : `Emptied (${r.a})`;
+        break;
+      case 'carbonation':
+        title = `Carbonation plan, ${r.code === 'fast_start' ? 'fast start' : 'set and hold'} (${r.c})`;
+        detail = `${Number(r.a).toFixed(1)} volumes at ${Number(r.b).toFixed(0)} kPa`;
+        break;
+    }
+    return { at: r.at.toISOString(), kind: r.kind, title, detail, actor: r.actor, refId: r.ref_id };
+  });
+  return { items, total: count.rows[0]?.total ?? 0, page, pageSize };
+}

@@ -1,0 +1,79 @@
+import { ForbiddenError } from '@casl/ability';
+import { Router } from 'express';
+import { z } from 'zod';
+import {
+  createSanitationCycleSchema,
+  sanitationAuditQuerySchema,
+  sanitationCycleListQuerySchema,
+  sanitationStatusQuerySchema,
+} from '../../../shared/schemas/sanitation.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { notFound } from '../../lib/http-problem.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import { loadAuditData, renderAuditPdf } from './audit-report.ts';
+import { boundFrom, boundTo, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
+
+/** `/api/sanitation-cycles`: the sanitation log. */
+export function sanitationCycleRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.post('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'SanitationCycle');
+    const input = createSanitationCycleSchema.parse(req.body ?? {});
+    const result = await recordCycle(db, input, req.user!);
+    res.status(201).json(result);
+  });
+
+  router.get('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
+    const q = sanitationCycleListQuerySchema.parse(req.query);
+    res.json(await listCycles(db, q));
+  });
+
+  router.get('/:id', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
+    const id = z.uuid().safeParse(req.params.id);
+    if (!id.success) throw notFound('Sanitation cycle');
+    const [cycle] = await cycleViews(db, [id.data]);
+    if (!cycle) throw notFound('Sanitation cycle');
+    res.json({ cycle });
+  });
+
+  return router;
+}
+
+/** `/api/sanitation-status`: every fermenter and keg with its sanitation standing now. */
+export function sanitationStatusRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+  router.get('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
+    const q = sanitationStatusQuerySchema.parse(req.query);
+    res.json(await listVesselStatus(db, q));
+  });
+  return router;
+}
+
+/** `GET /api/reports/sanitation-audit.pdf`: the audit report (mounted under /api/reports; other reports pass through). */
+export function sanitationReportRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.get('/sanitation-audit.pdf', requireUser, async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationAudit');
+    const q = sanitationAuditQuerySchema.parse(req.query);
+    const settings = await sanitationSettings(db);
+    const from = boundFrom(q.from);
+    const to = boundTo(q.to);
+    const data = await loadAuditData(db, { from, to, filter: { ids: q.equipmentId, kind: q.kind }, settings });
+    if (q.equipmentId?.length && data.vessels.length === 0) throw notFound('Vessel');
+    const label = q.equipmentId?.length
+      ? data.vessels.map((v) => v.code).join(', ')
+      : q.kind
+        ? `every ${q.kind}`
+        : 'every fermenter and keg';
+    const pdf = await renderAuditPdf(data, label.length > 120 ? `${data.vessels.length} selected vessels` : label);
+    const name = `sanitation-audit-${q.from.slice(0, 10)}-to-${q.to.slice(0, 10)}.pdf`;
+    res.type('application/pdf').set('Content-Disposition', `inline; filename="${name}"`).set('Cache-Control', 'no-store').send(pdf);
+  });
+  return router;
+}

@@ -1,0 +1,354 @@
+import { sql } from 'kysely';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import { evaluateCycle, outcomeReason } from '../../../shared/cellar/sanitation-rules.ts';
+import type { SanitationSettings } from '../../../shared/schemas/cellar-settings.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type {
+  CreateSanitationCycleInput,
+  SanitationCycleListQuery,
+  SanitationCycleView,
+  SanitationStepView,
+  VesselSanitationStatus,
+} from '../../../shared/schemas/sanitation.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { getSetting } from '../settings/settings.service.ts';
+import { effectiveStateSql, freshUntilSql, lapsedSql, setVesselState } from './vessel-state.ts';
+
+/** A step may be recorded a little ahead of the server clock (phones drift), not more. */
+const FUTURE_SLACK_MS = 10 * 60_000;
+
+export async function sanitationSettings(db: Database): Promise<SanitationSettings> {
+  return (await getSetting(db, 'sanitation')).value;
+}
+
+const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
+const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+
+/** Records a cycle and sets the vessel's state from it, in one transaction. */
+export async function recordCycle(
+  db: Database,
+  input: CreateSanitationCycleInput,
+  actor: { id: string },
+): Promise<{ cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }> {
+  const settings = await sanitationSettings(db);
+  const now = Date.now();
+  input.steps.forEach((s, i) => {
+    if (new Date(s.at).getTime() > now + FUTURE_SLACK_MS) {
+      throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
+    }
+  });
+  const people = [...new Set(input.steps.map((s) => s.performedBy).filter((v): v is string => Boolean(v)))];
+  if (people.length) {
+    const found = await db.selectFrom('app_user').select('id').where('id', 'in', people).where('is_active', '=', true).execute();
+    const known = new Set(found.map((r) => r.id));
+    const bad = input.steps.findIndex((s) => s.performedBy && !known.has(s.performedBy));
+    if (bad >= 0) throw unprocessable('Unknown person on a step.', [{ path: `steps.${bad}.performedBy`, message: 'No active person with this id' }]);
+  }
+  const ev = evaluateCycle(input.steps, settings);
+
+  const cycleId = await db.transaction().execute(async (trx) => {
+    const vessel = await trx
+      .selectFrom('equipment')
+      .select(['id', 'code', 'kind', 'state'])
+      .where('id', '=', input.equipmentId)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!vessel) throw notFound('Vessel');
+    if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') {
+      throw unprocessable('Only fermenters and kegs have sanitation cycles.', [{ path: 'equipmentId', message: 'Pick a fermenter or a keg' }]);
+    }
+    if (vessel.state === 'holding') throw conflict(`${vessel.code} holds beer: empty it before cleaning it.`, { state: vessel.state });
+    if (vessel.state === 'out_of_service') throw conflict(`${vessel.code} is out of service.`, { state: vessel.state });
+
+    const cycle = await trx
+      .insertInto('sanitation_cycle')
+      .values({
+        equipment_id: vessel.id,
+        started_at: ev.startedAt,
+        completed_at: ev.completedAt,
+        outcome: ev.outcome,
+        complete: ev.complete,
+        issues: JSON.stringify(ev.issues),
+        freshness_days: ev.complete ? settings.freshnessDays : null,
+        fresh_until: ev.freshUntil,
+        recorded_by: actor.id,
+        notes: input.notes ?? '',
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await trx
+      .insertInto('sanitation_step')
+      .values(
+        ev.steps.map((st, position) => {
+          const raw = input.steps[st.index]!;
+          return {
+            cycle_id: cycle.id,
+            position,
+            step: st.step,
+            chemical_id: st.chemicalId,
+            chemical: st.chemicalName,
+            concentration: st.concentration,
+            concentration_unit: st.concentrationUnit,
+            contact_minutes: raw.contactMinutes ?? null,
+            minimum_contact_minutes: st.minimumContactMinutes,
+            purge_method: st.step === 'purge' ? (raw.purgeMethod ?? 'flush') : null,
+            co2_grams: st.step === 'purge' ? (raw.co2Grams ?? settings.co2GramsPerPurge) : null,
+            solution_liters: raw.solutionLiters ?? null,
+            performed_by: raw.performedBy ?? actor.id,
+            at: raw.at,
+            ok: st.ok,
+            note: raw.note ?? '',
+          };
+        }),
+      )
+      .execute();
+    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id);
+    await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycle.id, {
+      equipmentId: vessel.id,
+      code: vessel.code,
+      outcome: ev.outcome,
+      issues: ev.issues.map((i) => i.code),
+    });
+    return cycle.id;
+  });
+
+  const [cycle] = await cycleViews(db, [cycleId]);
+  const equipment = await db.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', input.equipmentId).executeTakeFirstOrThrow();
+  return { cycle: cycle!, equipment };
+}
+
+type CycleRow = {
+  id: string;
+  equipment_id: string;
+  code: string;
+  name: string;
+  kind: string;
+  outcome: 'ready' | 'cleaned' | 'needs_cleaning';
+  complete: boolean;
+  issues: unknown;
+  started_at: Date;
+  completed_at: Date;
+  fresh_until: Date | null;
+  recorded_by: string | null;
+  recorded_by_name: string | null;
+  notes: string;
+  created_at: Date;
+  steps: {
+    step: SanitationStepView['step'];
+    chemical_id: string | null;
+    chemical: string | null;
+    concentration: number | string | null;
+    concentration_unit: SanitationStepView['concentrationUnit'];
+    contact_minutes: number | string | null;
+    minimum_contact_minutes: number | string | null;
+    purge_method: 'flush' | 'push_out' | null;
+    co2_grams: number | string | null;
+    solution_liters: number | string | null;
+    at: string;
+    performed_by: string | null;
+    performed_by_name: string | null;
+    ok: boolean;
+    note: string;
+  }[];
+};
+
+function cycleQuery(db: Database) {
+  return db
+    .selectFrom('sanitation_cycle as c')
+    .innerJoin('equipment as e', 'e.id', 'c.equipment_id')
+    .leftJoin('app_user as r', 'r.id', 'c.recorded_by')
+    .select((eb) => [
+      'c.id',
+      'c.equipment_id',
+      'e.code',
+      'e.name',
+      'e.kind',
+      'c.outcome',
+      'c.complete',
+      'c.issues',
+      'c.started_at',
+      'c.completed_at',
+      'c.fresh_until',
+      'c.recorded_by',
+      'r.name as recorded_by_name',
+      'c.notes',
+      'c.created_at',
+      jsonArrayFrom(
+        eb
+          .selectFrom('sanitation_step as s')
+          .leftJoin('app_user as p', 'p.id', 's.performed_by')
+          .select([
+            's.step',
+            's.chemical_id',
+            's.chemical',
+            's.concentration',
+            's.concentration_unit',
+            's.contact_minutes',
+            's.minimum_contact_minutes',
+            's.purge_method',
+            's.co2_grams',
+            's.solution_liters',
+            's.at',
+            's.performed_by',
+            'p.name as performed_by_name',
+            's.ok',
+            's.note',
+          ])
+          .whereRef('s.cycle_id', '=', 'c.id')
+          .orderBy('s.position'),
+      ).as('steps'),
+    ]);
+}
+
+function toView(r: CycleRow): SanitationCycleView {
+  return {
+    id: r.id,
+    equipment: { id: r.equipment_id, code: r.code, name: r.name, kind: r.kind as 'fermenter' | 'keg' },
+    outcome: r.outcome,
+    complete: r.complete,
+    issues: (Array.isArray(r.issues) ? r.issues : []) as SanitationCycleView['issues'],
+    startedAt: r.started_at.toISOString(),
+    completedAt: r.completed_at.toISOString(),
+    freshUntil: iso(r.fresh_until),
+    recordedBy: r.recorded_by ? { id: r.recorded_by, name: r.recorded_by_name ?? '' } : null,
+    notes: r.notes,
+    createdAt: r.created_at.toISOString(),
+    steps: r.steps.map((s) => ({
+      step: s.step,
+      chemicalId: s.chemical_id,
+      chemical: s.chemical,
+      concentration: num(s.concentration),
+      concentrationUnit: s.concentration_unit,
+      contactMinutes: num(s.contact_minutes),
+      minimumContactMinutes: num(s.minimum_contact_minutes),
+      purgeMethod: s.purge_method,
+      co2Grams: num(s.co2_grams),
+      solutionLiters: num(s.solution_liters),
+      at: new Date(s.at).toISOString(),
+      performedBy: s.performed_by ? { id: s.performed_by, name: s.performed_by_name ?? '' } : null,
+      ok: s.ok,
+      note: s.note,
+    })),
+  };
+}
+
+export async function cycleViews(db: Database, ids: string[]): Promise<SanitationCycleView[]> {
+  if (!ids.length) return [];
+  const rows = (await cycleQuery(db).where('c.id', 'in', ids).execute()) as unknown as CycleRow[];
+  const byId = new Map(rows.map((r) => [r.id, toView(r)]));
+  return ids.map((id) => byId.get(id)).filter((v): v is SanitationCycleView => Boolean(v));
+}
+
+const cycleSort = {
+  completedAt: 'c.completed_at',
+  startedAt: 'c.started_at',
+  equipmentCode: 'e.code',
+  outcome: 'c.outcome',
+} as const;
+
+/** A date-only bound means the whole day (to: up to the end of that day, UTC). */
+export function boundFrom(v: string): Date {
+  return new Date(v.length === 10 ? `${v}T00:00:00Z` : v);
+}
+export function boundTo(v: string): Date {
+  return v.length === 10 ? new Date(new Date(`${v}T00:00:00Z`).getTime() + 86_400_000) : new Date(v);
+}
+
+export async function listCycles(db: Database, q: SanitationCycleListQuery): Promise<Page<SanitationCycleView>> {
+  let base = db.selectFrom('sanitation_cycle as c').innerJoin('equipment as e', 'e.id', 'c.equipment_id');
+  if (q.equipmentId) base = base.where('c.equipment_id', '=', q.equipmentId);
+  if (q.kind) base = base.where('e.kind', '=', q.kind);
+  if (q.outcome) base = base.where('c.outcome', '=', q.outcome);
+  if (q.from) base = base.where('c.completed_at', '>=', boundFrom(q.from));
+  if (q.to) base = base.where('c.completed_at', '<', boundTo(q.to));
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    base = base.where((eb) => eb.or([eb('e.code', 'ilike', like), eb('e.name', 'ilike', like)]));
+  }
+  const [{ total }, page] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .select('c.id')
+      .orderBy(cycleSort[q.sort], q.order)
+      .orderBy('c.id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  return { items: await cycleViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
+}
+
+const statusSortColumn = { code: 'code', state: 'effective_state', freshUntil: 'fresh_until', lastCycleAt: 'last_cycle_at' } as const;
+
+/** Every fermenter and keg with its sanitation standing, lapses applied. */
+export async function listVesselStatus(
+  db: Database,
+  q: { kind?: 'fermenter' | 'keg' | undefined; state?: string | undefined; q?: string | undefined; sort: keyof typeof statusSortColumn; order: 'asc' | 'desc'; page: number; pageSize: number },
+): Promise<Page<VesselSanitationStatus>> {
+  const inner = db
+    .selectFrom('equipment as e')
+    .where('e.kind', 'in', ['fermenter', 'keg'])
+    .select((eb) => [
+      'e.id',
+      'e.code',
+      'e.name',
+      'e.kind',
+      'e.state',
+      effectiveStateSql(eb.ref('e.id'), eb.ref('e.state')).as('effective_state'),
+      lapsedSql(eb.ref('e.id'), eb.ref('e.state')).as('lapsed'),
+      freshUntilSql(eb.ref('e.id')).as('fresh_until'),
+      eb
+        .selectFrom('equipment_state_change as sc')
+        .select('sc.reason')
+        .whereRef('sc.equipment_id', '=', 'e.id')
+        .orderBy('sc.at', 'desc')
+        .orderBy('sc.id', 'desc')
+        .limit(1)
+        .as('state_reason'),
+      sql<string | null>`(select lc.id::text from sanitation_cycle lc where lc.equipment_id = e.id order by lc.completed_at desc limit 1)`.as('last_cycle_id'),
+      sql<Date | null>`(select max(lc.completed_at) from sanitation_cycle lc where lc.equipment_id = e.id)`.as('last_cycle_at'),
+    ]);
+  let base = db.selectFrom(inner.as('v')).selectAll('v');
+  if (q.kind) base = base.where('v.kind', '=', q.kind);
+  if (q.state) base = base.where('v.effective_state', '=', q.state as never);
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    base = base.where((eb) => eb.or([eb('v.code', 'ilike', like), eb('v.name', 'ilike', like)]));
+  }
+  const sortRef = sql.ref(`v.${statusSortColumn[q.sort]}`);
+  const [{ total }, rows] = await Promise.all([
+    db.selectFrom(base.as('b')).select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .orderBy(sql`${sortRef} ${sql.raw(q.order)} nulls last`)
+      .orderBy('v.code')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
+  ]);
+  const lastIds = rows.map((r) => r.last_cycle_id).filter((v): v is string => Boolean(v));
+  const last = lastIds.length
+    ? await db.selectFrom('sanitation_cycle').select(['id', 'outcome', 'completed_at', 'fresh_until']).where('id', 'in', lastIds).execute()
+    : [];
+  const lastById = new Map(last.map((c) => [c.id, c]));
+  return {
+    items: rows.map((r) => {
+      const lc = r.last_cycle_id ? lastById.get(r.last_cycle_id) : undefined;
+      return {
+        id: r.id,
+        code: r.code,
+        name: r.name,
+        kind: r.kind as 'fermenter' | 'keg',
+        state: r.effective_state,
+        storedState: r.state,
+        stateReason: r.lapsed ? `Freshness window lapsed at ${iso(r.fresh_until)}` : (r.state_reason ?? null),
+        lastCycle: lc ? { id: lc.id, outcome: lc.outcome, completedAt: lc.completed_at.toISOString(), freshUntil: iso(lc.fresh_until) } : null,
+        freshUntil: iso(r.fresh_until),
+      };
+    }),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+  };
+}

@@ -1,0 +1,77 @@
+import { type Expression, sql } from 'kysely';
+import type { VesselState } from '../../db/tables/cellar.ts';
+import type { Database } from '../../db/database.ts';
+
+/**
+ * Vessel state changes made by cellar operations (sanitation, transfers, returns, lapses), each
+ * with a history row saying why. Call inside the transaction of the operation.
+ */
+export async function setVesselState(
+  trx: Database,
+  equipmentId: string,
+  toState: VesselState,
+  reason: string,
+  actorId: string | null,
+): Promise<{ from: VesselState; to: VesselState; changed: boolean }> {
+  const row = await trx
+    .selectFrom('equipment')
+    .select('state')
+    .where('id', '=', equipmentId)
+    .forUpdate()
+    .executeTakeFirstOrThrow();
+  const from = row.state;
+  if (from === toState) return { from, to: toState, changed: false };
+  const now = new Date();
+  await trx.updateTable('equipment').set({ state: toState, state_changed_at: now, updated_at: now }).where('id', '=', equipmentId).execute();
+  await trx
+    .insertInto('equipment_state_change')
+    .values({ equipment_id: equipmentId, from_state: from, to_state: toState, reason: reason.slice(0, 500), actor_id: actorId, at: now })
+    .execute();
+  return { from, to: toState, changed: true };
+}
+
+/**
+ * True when a vessel stored as `ready` has outlived its freshness window: it has complete
+ * cycles on record and none of them is still fresh. Reads use it so that a lapse shows at once,
+ * before the periodic job writes it down.
+ */
+export function lapsedSql(equipmentId: Expression<string>, state: Expression<string>) {
+  return sql<boolean>`(${state} = 'ready'
+    and exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete)
+    and not exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete and lc.fresh_until > now()))`;
+}
+
+/** The state the co-op should treat a vessel as having now. */
+export function effectiveStateSql(equipmentId: Expression<string>, state: Expression<string>) {
+  return sql<VesselState>`(case when ${lapsedSql(equipmentId, state)} then 'needs_cleaning' else ${state} end)`;
+}
+
+/** The freshest complete cycle's window end for a vessel (null when none on record). */
+export function freshUntilSql(equipmentId: Expression<string>) {
+  return sql<Date | null>`(select max(fc.fresh_until) from sanitation_cycle fc where fc.equipment_id = ${equipmentId} and fc.complete)`;
+}
+
+/**
+ * Writes lapsed freshness windows down: every vessel stored `ready` whose windows have all
+ * ended becomes `needs_cleaning`, with a history row. Run by the periodic queue job; safe to run
+ * on any instance at any time (one statement, idempotent).
+ */
+export async function applyFreshnessLapses(db: Database): Promise<number> {
+  const result = await sql<{ id: string }>`
+    with hit as (
+      select e.id, (select max(c.fresh_until) from sanitation_cycle c where c.equipment_id = e.id and c.complete) as fresh_until
+      from equipment e
+      where e.state = 'ready' and e.kind in ('fermenter', 'keg')
+    ), lapsed as (
+      update equipment e set state = 'needs_cleaning', state_changed_at = now(), updated_at = now()
+      from hit
+      where e.id = hit.id and e.state = 'ready' and hit.fresh_until is not null and hit.fresh_until <= now()
+      returning e.id, hit.fresh_until
+    )
+    insert into equipment_state_change (equipment_id, from_state, to_state, reason, actor_id)
+    select id, 'ready', 'needs_cleaning',
+      'Freshness window lapsed at ' || to_char(fresh_until at time zone 'UTC', 'YYYY-MM-DD HH24:MI') || ' UTC; clean and sanitize before use', null
+    from lapsed
+    returning equipment_id as id`.execute(db);
+  return result.rows.length;
+}

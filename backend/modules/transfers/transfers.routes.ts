@@ -1,0 +1,38 @@
+import { ForbiddenError } from '@casl/ability';
+import { Router } from 'express';
+import { z } from 'zod';
+import { createTransferSchema, transferListQuerySchema } from '../../../shared/schemas/transfers.ts';
+import { canAll } from '../../lib/authz.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { notFound } from '../../lib/http-problem.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import { listTransfers, recordTransfer, transferViews } from './transfers.service.ts';
+
+/** `/api/transfers`: beer from a fermenter into kegs, recorded on the brewer-on-duty's checklist. */
+export function transfersRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.post('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'Transfer');
+    const input = createTransferSchema.parse(req.body ?? {});
+    res.status(201).json(await recordTransfer(db, input, req.user!));
+  });
+
+  router.get('/', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Transfer');
+    const q = transferListQuerySchema.parse(req.query);
+    res.json(await listTransfers(db, q, canAll(req.ability, 'read', 'Transfer') ? undefined : req.user!.id));
+  });
+
+  router.get('/:id', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Transfer');
+    const id = z.uuid().safeParse(req.params.id);
+    if (!id.success) throw notFound('Transfer');
+    const [transfer] = await transferViews(db, [id.data]);
+    if (!transfer) throw notFound('Transfer');
+    res.json({ transfer });
+  });
+
+  return router;
+}

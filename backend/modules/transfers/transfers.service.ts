@@ -1,0 +1,323 @@
+import { sql } from 'kysely';
+import { transferChecklistItems, type CreateTransferInput, type DrawMethod, type TransferListQuery, type TransferView } from '../../../shared/schemas/transfers.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { batchGravityFigures } from '../batches/figures.ts';
+import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
+import { setVesselState } from '../sanitation/vessel-state.ts';
+
+const FUTURE_SLACK_MS = 10 * 60_000;
+const round2 = (v: number) => Math.round(v * 100) / 100;
+const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+
+/** Checklist items that apply to this draw method and were not confirmed. */
+export function unconfirmedItems(checklist: Record<string, unknown>, method: DrawMethod, hasFinings: boolean): string[] {
+  return transferChecklistItems
+    .filter((i) => !i.method || i.method === method)
+    .filter((i) => !(i.key === 'finingsAdded' && hasFinings))
+    .filter((i) => checklist[i.key] !== true)
+    .map((i) => i.key);
+}
+
+/** Splits the litres that reached the kegs evenly (to the centilitre, the last keg takes the rounding). */
+function shareEvenly(total: number, n: number): number[] {
+  const each = Math.floor((total / n) * 100) / 100;
+  const out = Array.from({ length: n }, () => each);
+  out[n - 1] = round2(total - each * (n - 1));
+  return out;
+}
+
+/**
+ * Records a transfer: every keg must be `ready` with a current sanitation cycle (else 409 and
+ * nothing changes); in one transaction the kegs are filled (holding, linked to the batch, OG/FG/ABV
+ * copied), the fermenter becomes `needs_cleaning`, the batch is marked packaged, and the audit
+ * trail notes it.
+ */
+export async function recordTransfer(db: Database, input: CreateTransferInput, actor: { id: string }): Promise<{ transfer: TransferView; warnings: string[] }> {
+  const at = input.transferredAt ? new Date(input.transferredAt) : new Date();
+  if (at.getTime() > Date.now() + FUTURE_SLACK_MS) throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
+  const settings = await sanitationSettings(db);
+
+  const transferId = await db
+    .transaction()
+    .execute(async (trx) => {
+    const batch = await trx.selectFrom('batch').select(['id', 'name', 'status', 'owner_id']).where('id', '=', input.batchId).forUpdate().executeTakeFirst();
+    if (!batch) throw notFound('Batch');
+    if (batch.status === 'planned') throw conflict(`${batch.name} has not been brewed yet.`);
+    if (batch.status === 'discarded') throw conflict(`${batch.name} was discarded.`);
+
+    const fermenter = await trx
+      .selectFrom('equipment')
+      .select(['id', 'code', 'kind', 'state', 'attributes'])
+      .where('id', '=', input.fromEquipmentId)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!fermenter) throw notFound('Fermenter');
+    if (fermenter.kind !== 'fermenter') throw unprocessable('Beer is transferred from a fermenter.', [{ path: 'fromEquipmentId', message: 'Pick a fermenter' }]);
+    if (fermenter.state === 'out_of_service') throw conflict(`${fermenter.code} is out of service.`);
+
+    // Lock the kegs in a fixed order so two transfers never deadlock.
+    const kegs = await trx
+      .selectFrom('equipment as e')
+      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
+      .select((eb) => [
+        'e.id',
+        'e.code',
+        'e.kind',
+        'e.state',
+        'e.capacity_liters',
+        'kw.whereabouts',
+        eb
+          .selectFrom('sanitation_cycle as c')
+          .select('c.id')
+          .whereRef('c.equipment_id', '=', 'e.id')
+          .orderBy('c.completed_at', 'desc')
+          .limit(1)
+          .as('last_cycle_id'),
+      ])
+      .where('e.id', 'in', input.toKegIds)
+      .orderBy('e.id')
+      .forUpdate('e')
+      .execute();
+    const missing = input.toKegIds.filter((id) => !kegs.some((k) => k.id === id));
+    if (missing.length) throw unprocessable('Unknown keg.', missing.map((id) => ({ path: `toKegIds.${input.toKegIds.indexOf(id)}`, message: 'No such keg' })));
+    const notKeg = kegs.find((k) => k.kind !== 'keg');
+    if (notKeg) throw unprocessable(`${notKeg.code} is not a keg.`, [{ path: `toKegIds.${input.toKegIds.indexOf(notKeg.id)}`, message: 'Pick a keg' }]);
+
+    const lastIds = kegs.map((k) => k.last_cycle_id).filter((v): v is string => Boolean(v));
+    const cycles = lastIds.length
+      ? await trx.selectFrom('sanitation_cycle').select(['id', 'complete', 'fresh_until', 'completed_at']).where('id', 'in', lastIds).execute()
+      : [];
+    const cycleById = new Map(cycles.map((c) => [c.id, c]));
+    const refused: { id: string; code: string; state: string; reason: string }[] = [];
+    for (const k of kegs) {
+      const c = k.last_cycle_id ? cycleById.get(k.last_cycle_id) : undefined;
+      let reason: string | null = null;
+      if (k.state !== 'ready') reason = `it is ${k.state.replace('_', ' ')}`;
+      else if (!c) reason = 'it has no sanitation cycle on record';
+      else if (!c.complete) reason = 'its last sanitation cycle is incomplete';
+      else if (!c.fresh_until || new Date(c.fresh_until).getTime() <= at.getTime()) reason = 'its freshness window has lapsed';
+      else if (new Date(c.completed_at).getTime() > at.getTime()) reason = 'it was sanitized after the transfer time';
+      else if (k.whereabouts === 'with_member' || k.whereabouts === 'missing') reason = `it is ${k.whereabouts === 'missing' ? 'missing' : 'out with a member'}`;
+      if (reason) refused.push({ id: k.id, code: k.code, state: k.state, reason });
+    }
+    if (refused.length) {
+      throw conflict(`Not ready to fill: ${refused.map((r) => `${r.code} (${r.reason})`).join('; ')}. Record a complete sanitation cycle first.`, { kegs: refused });
+    }
+
+    // Volumes: per keg as given, or the volume less the loss shared evenly.
+    const ordered = input.toKegIds.map((id) => kegs.find((k) => k.id === id)!);
+    let perKeg: number[];
+    let loss: number;
+    if (input.kegVolumesLiters) {
+      perKeg = input.kegVolumesLiters.map(round2);
+      const sum = round2(perKeg.reduce((s, v) => s + v, 0));
+      loss = round2(input.volumeLiters - sum);
+      if (loss < 0) throw unprocessable('The kegs hold more than was drawn from the fermenter.', [{ path: 'kegVolumesLiters', message: `They add up to ${sum} L, more than ${input.volumeLiters} L` }]);
+    } else {
+      loss = round2(input.lossLiters ?? 0);
+      if (loss >= input.volumeLiters) throw unprocessable('The loss is the whole volume.', [{ path: 'lossLiters', message: 'Less than the volume drawn' }]);
+      perKeg = shareEvenly(round2(input.volumeLiters - loss), ordered.length);
+    }
+    ordered.forEach((k, i) => {
+      const cap = num(k.capacity_liters);
+      if (cap !== null && perKeg[i]! > cap) {
+        throw unprocessable(`${k.code} holds ${cap} L.`, [{ path: input.kegVolumesLiters ? `kegVolumesLiters.${i}` : 'volumeLiters', message: `${k.code} holds at most ${cap} L` }]);
+      }
+    });
+    const packaged = round2(perKeg.reduce((s, v) => s + v, 0));
+    const volume = round2(packaged + loss);
+
+    const attrs = (fermenter.attributes ?? {}) as Record<string, unknown>;
+    const method: DrawMethod = input.checklist.drawMethod ?? (attrs.hasValve === false ? 'siphon' : 'bottom_valve');
+    const finings = input.finings
+      ? {
+          kind: input.finings.kind,
+          amount: round2(input.finings.amount ?? input.finings.dose!),
+          unit: input.finings.unit ?? (/silica|liquid/i.test(input.finings.kind) ? ('mL' as const) : ('g' as const)),
+        }
+      : null;
+    const unconfirmed = unconfirmedItems(input.checklist, method, Boolean(finings));
+    const co2 = input.co2Grams ?? settings.co2GramsPerKegFill * ordered.length;
+
+    // The batch is packaged from here on: its FG is the latest reading.
+    await trx.updateTable('batch').set({ status: 'packaged', updated_at: new Date() }).where('id', '=', batch.id).execute();
+    const figures = await batchGravityFigures(trx, batch.id);
+    const og = figures?.og ?? null;
+    const fg = figures?.fg ?? null;
+    const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;
+
+    const transfer = await trx
+      .insertInto('transfer')
+      .values({
+        batch_id: batch.id,
+        from_equipment_id: fermenter.id,
+        volume_liters: volume,
+        packaged_liters: packaged,
+        loss_liters: loss,
+        draw_method: method,
+        checklist: JSON.stringify({ ...input.checklist, drawMethod: method, unconfirmed }),
+        finings_kind: finings?.kind ?? null,
+        finings_amount: finings?.amount ?? null,
+        finings_unit: finings?.unit ?? null,
+        co2_grams: co2,
+        og,
+        fg,
+        abv,
+        transferred_at: at,
+        recorded_by: actor.id,
+        notes: input.notes ?? '',
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+
+    const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
+    for (const [i, k] of ordered.entries()) {
+      await trx
+        .insertInto('keg_fill')
+        .values({
+          transfer_id: transfer.id,
+          keg_id: k.id,
+          batch_id: batch.id,
+          volume_liters: perKeg[i]!,
+          remaining_liters: perKeg[i]!,
+          og,
+          fg,
+          abv,
+          sanitation_cycle_id: k.last_cycle_id,
+          co2_grams: perKegCo2,
+          filled_at: at,
+        })
+        .execute();
+      await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id);
+    }
+    await setVesselState(trx, fermenter.id, 'needs_cleaning', `Emptied by transfer of ${batch.name} to ${ordered.map((k) => k.code).join(', ')}`, actor.id);
+
+    const totals = await trx.selectFrom('transfer').select((eb) => eb.fn.sum<number>('packaged_liters').as('liters')).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
+    await trx
+      .updateTable('batch')
+      .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: new Date() })
+      .where('id', '=', batch.id)
+      .execute();
+
+    await audit(trx, actor.id, 'recorded', 'Transfer', transfer.id, {
+      batchId: batch.id,
+      from: fermenter.code,
+      kegs: ordered.map((k) => k.code),
+      volumeLiters: volume,
+      lossLiters: loss,
+      unconfirmed,
+    });
+    return transfer.id;
+    })
+    .catch((err: unknown) => {
+      // A keg filled meanwhile by another transfer: its open-fill index refuses the second one.
+      if ((err as { code?: string })?.code === '23505') throw conflict('One of the kegs was filled meanwhile; nothing was recorded. Reload and try again.');
+      throw err;
+    });
+
+  const [view] = await transferViews(db, [transferId]);
+  const warnings = view!.unconfirmed.map((key) => `Not confirmed: ${transferChecklistItems.find((i) => i.key === key)?.label ?? key}`);
+  return { transfer: view!, warnings };
+}
+
+export async function transferViews(db: Database, ids: string[]): Promise<TransferView[]> {
+  if (!ids.length) return [];
+  const [rows, fills] = await Promise.all([
+    db
+      .selectFrom('transfer as t')
+      .innerJoin('batch as b', 'b.id', 't.batch_id')
+      .innerJoin('equipment as f', 'f.id', 't.from_equipment_id')
+      .leftJoin('app_user as u', 'u.id', 't.recorded_by')
+      .select([
+        't.id',
+        't.batch_id',
+        'b.name as batch_name',
+        'b.style as batch_style',
+        'b.owner_id',
+        't.from_equipment_id',
+        'f.code as fermenter_code',
+        'f.name as fermenter_name',
+        't.volume_liters',
+        't.packaged_liters',
+        't.loss_liters',
+        't.draw_method',
+        't.checklist',
+        't.finings_kind',
+        't.finings_amount',
+        't.finings_unit',
+        't.co2_grams',
+        't.og',
+        't.fg',
+        't.abv',
+        't.transferred_at',
+        't.recorded_by',
+        'u.name as recorded_by_name',
+        't.notes',
+      ])
+      .where('t.id', 'in', ids)
+      .execute(),
+    db
+      .selectFrom('keg_fill as kf')
+      .innerJoin('equipment as k', 'k.id', 'kf.keg_id')
+      .select(['kf.id', 'kf.transfer_id', 'kf.keg_id', 'k.code', 'kf.volume_liters', 'kf.sanitation_cycle_id'])
+      .where('kf.transfer_id', 'in', ids)
+      .orderBy('k.code')
+      .execute(),
+  ]);
+  const byId = new Map(
+    rows.map((r): [string, TransferView] => {
+      const checklist = (r.checklist ?? {}) as Record<string, unknown>;
+      const { unconfirmed, ...items } = checklist;
+      return [
+        r.id,
+        {
+          id: r.id,
+          batch: { id: r.batch_id, name: r.batch_name, style: r.batch_style, ownerId: r.owner_id },
+          fermenter: { id: r.from_equipment_id, code: r.fermenter_code, name: r.fermenter_name },
+          volumeLiters: Number(r.volume_liters),
+          packagedLiters: Number(r.packaged_liters),
+          lossLiters: Number(r.loss_liters),
+          drawMethod: r.draw_method,
+          checklist: items,
+          unconfirmed: Array.isArray(unconfirmed) ? (unconfirmed as string[]) : [],
+          finings: r.finings_kind ? { kind: r.finings_kind, amount: Number(r.finings_amount), unit: r.finings_unit! } : null,
+          co2Grams: Number(r.co2_grams),
+          og: num(r.og),
+          fg: num(r.fg),
+          abv: num(r.abv),
+          transferredAt: r.transferred_at.toISOString(),
+          recordedBy: r.recorded_by ? { id: r.recorded_by, name: r.recorded_by_name ?? '' } : null,
+          notes: r.notes,
+          kegs: fills
+            .filter((f) => f.transfer_id === r.id)
+            .map((f) => ({ fillId: f.id, kegId: f.keg_id, code: f.code, volumeLiters: Number(f.volume_liters), sanitationCycleId: f.sanitation_cycle_id })),
+        },
+      ];
+    }),
+  );
+  return ids.map((id) => byId.get(id)).filter((v): v is TransferView => Boolean(v));
+}
+
+const transferSort = { transferredAt: 't.transferred_at', volumeLiters: 't.volume_liters' } as const;
+
+export async function listTransfers(db: Database, q: TransferListQuery, ownerId?: string): Promise<Page<TransferView>> {
+  let base = db.selectFrom('transfer as t').innerJoin('batch as b', 'b.id', 't.batch_id').innerJoin('equipment as f', 'f.id', 't.from_equipment_id');
+  if (ownerId) base = base.where('b.owner_id', '=', ownerId);
+  if (q.batchId) base = base.where('t.batch_id', '=', q.batchId);
+  if (q.fromEquipmentId) base = base.where('t.from_equipment_id', '=', q.fromEquipmentId);
+  if (q.kegId) base = base.where((eb) => eb.exists(eb.selectFrom('keg_fill as kf').select('kf.id').whereRef('kf.transfer_id', '=', 't.id').where('kf.keg_id', '=', q.kegId!)));
+  if (q.from) base = base.where('t.transferred_at', '>=', boundFrom(q.from));
+  if (q.to) base = base.where('t.transferred_at', '<', boundTo(q.to));
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    base = base.where((eb) => eb.or([eb('b.name', 'ilike', like), eb('f.code', 'ilike', like)]));
+  }
+  const [{ total }, page] = await Promise.all([
+    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base.select('t.id').orderBy(transferSort[q.sort], q.order).orderBy('t.id').limit(q.pageSize).offset((q.page - 1) * q.pageSize).execute(),
+  ]);
+  return { items: await transferViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
+}

@@ -1,0 +1,172 @@
+import { z } from 'zod';
+
+/**
+ * The co-op's cellar rules, two sections of the Settings screen: the sanitation rules (chemical
+ * list, minimum contact times, freshness window) and the carbonation defaults (cold room,
+ * altitude, presets by style family). Kept in the `setting` table under `sanitation` and
+ * `carbonation`.
+ */
+
+export const sanitationSteps = ['clean', 'rinse', 'sanitize', 'purge'] as const;
+export const sanitationStepSchema = z.enum(sanitationSteps);
+export type SanitationStep = z.infer<typeof sanitationStepSchema>;
+
+export const sanitationStepLabels: Record<SanitationStep, string> = {
+  clean: 'Clean',
+  rinse: 'Rinse',
+  sanitize: 'Sanitize',
+  purge: 'Purge with CO2',
+};
+
+/** Steps that use a chemical from the co-op's list. */
+export const chemicalSteps = ['clean', 'sanitize'] as const;
+export type ChemicalStep = (typeof chemicalSteps)[number];
+
+export const concentrationUnits = ['%', 'g/L', 'mL/L', 'ppm'] as const;
+export const concentrationUnitSchema = z.enum(concentrationUnits);
+export type ConcentrationUnit = z.infer<typeof concentrationUnitSchema>;
+
+const minutes = z.number().min(0, 'At least 0 minutes').max(24 * 60, 'At most a day');
+
+export const chemicalSchema = z.object({
+  /** Short stable id, e.g. `alkaline-cleaner`; steps record it with the name. */
+  id: z
+    .string()
+    .trim()
+    .min(2)
+    .max(40)
+    .regex(/^[a-z0-9-]+$/, 'Use lower-case letters, digits and dashes'),
+  name: z.string().trim().min(2, 'Enter a name').max(80, 'Keep the name under 80 characters'),
+  step: z.enum(chemicalSteps),
+  defaultConcentration: z.number().positive('More than 0').max(100_000),
+  unit: concentrationUnitSchema,
+  /** The soak or contact time the form proposes. */
+  recommendedContactMinutes: minutes,
+  /** A stricter minimum for this chemical than the step's, if its label asks for one. */
+  minimumContactMinutes: minutes.optional(),
+  active: z.boolean().default(true),
+});
+export type Chemical = z.infer<typeof chemicalSchema>;
+
+export const sanitationSettingsSchema = z
+  .object({
+    /** A sanitized vessel stays `ready` this long; then it needs cleaning again. */
+    freshnessDays: z.number().int('Whole days').min(1, 'At least 1 day').max(60, 'At most 60 days'),
+    /** A vessel emptied or returned should be cleaned within this many days (later cycles are flagged). */
+    cleanWithinDays: z.number().int('Whole days').min(1, 'At least 1 day').max(30, 'At most 30 days'),
+    /** The co-op's minimum contact times; a shorter one leaves the vessel not ready. */
+    minimumContactMinutes: z.object({ clean: minutes, sanitize: minutes }),
+    /** CO2 recorded for a purge when the brewer gives no figure (for billing). */
+    co2GramsPerPurge: z.number().min(0).max(5000),
+    /** CO2 recorded per keg filled in a transfer (headspace purge, push), for billing. */
+    co2GramsPerKegFill: z.number().min(0).max(5000),
+    chemicals: z.array(chemicalSchema).min(1, 'Keep at least one chemical').max(30),
+  })
+  .refine((s) => new Set(s.chemicals.map((c) => c.id)).size === s.chemicals.length, {
+    message: 'Each chemical needs its own id',
+    path: ['chemicals'],
+  })
+  .refine((s) => chemicalSteps.every((step) => s.chemicals.some((c) => c.step === step && c.active)), {
+    message: 'Keep at least one active cleaner and one active sanitizer',
+    path: ['chemicals'],
+  });
+export type SanitationSettings = z.infer<typeof sanitationSettingsSchema>;
+
+export const defaultSanitationSettings: SanitationSettings = {
+  freshnessDays: 7,
+  cleanWithinDays: 2,
+  minimumContactMinutes: { clean: 30, sanitize: 1 },
+  co2GramsPerPurge: 15,
+  co2GramsPerKegFill: 40,
+  chemicals: [
+    {
+      id: 'alkaline-cleaner',
+      name: 'Alkaline cleaner (oxygen-based powder)',
+      step: 'clean',
+      defaultConcentration: 1.5,
+      unit: '%',
+      recommendedContactMinutes: 60,
+      active: true,
+    },
+    {
+      id: 'caustic-cleaner',
+      name: 'Caustic cleaner (sodium hydroxide)',
+      step: 'clean',
+      defaultConcentration: 2,
+      unit: '%',
+      recommendedContactMinutes: 30,
+      minimumContactMinutes: 20,
+      active: true,
+    },
+    {
+      id: 'acid-sanitizer',
+      name: 'Acid sanitizer (no-rinse, phosphoric)',
+      step: 'sanitize',
+      defaultConcentration: 1.6,
+      unit: 'mL/L',
+      recommendedContactMinutes: 2,
+      active: true,
+    },
+    {
+      id: 'peracetic-sanitizer',
+      name: 'Peracetic acid sanitizer',
+      step: 'sanitize',
+      defaultConcentration: 150,
+      unit: 'ppm',
+      recommendedContactMinutes: 1,
+      active: true,
+    },
+  ],
+};
+
+export const stylePresetSchema = z.object({
+  family: z.string().trim().min(2).max(60),
+  volumes: z.number().min(1, 'At least 1 volume').max(4.5, 'At most 4.5 volumes'),
+});
+export type StylePreset = z.infer<typeof stylePresetSchema>;
+
+export const carbonationSettingsSchema = z.object({
+  /** The cold room's usual temperature, proposed by the planner. */
+  coldRoomTempC: z.number().min(-2).max(15),
+  /** The co-op's altitude above sea level (gauges read against the local atmosphere). */
+  altitudeM: z.number().min(-500).max(5000),
+  /** No plan may ask for more than this on the regulator (kegs, regulators and relief valves have ratings). */
+  maxPlanPressureKpa: z.number().min(50).max(400),
+  /** Set-and-hold: days at serving pressure until the beer is ready. */
+  holdDays: z.number().int().min(3).max(30),
+  /** Fast start: pressure and hours at it, then days at serving pressure. */
+  fastStartPressureKpa: z.number().min(50).max(400),
+  fastStartHours: z.number().int().min(6).max(120),
+  settleDays: z.number().int().min(0).max(14),
+  /** Faucet, shank and coupler allowance used in line balancing. */
+  lineFixedKpa: z.number().min(0).max(50),
+  stylePresets: z.array(stylePresetSchema).min(1).max(30),
+});
+export type CarbonationSettings = z.infer<typeof carbonationSettingsSchema>;
+
+export const defaultCarbonationSettings: CarbonationSettings = {
+  coldRoomTempC: 3,
+  altitudeM: 0,
+  maxPlanPressureKpa: 310,
+  holdDays: 14,
+  fastStartPressureKpa: 207,
+  fastStartHours: 72,
+  settleDays: 2,
+  lineFixedKpa: 7,
+  stylePresets: [
+    { family: 'British and Irish ales', volumes: 1.8 },
+    { family: 'Porters and stouts', volumes: 2.1 },
+    { family: 'American ales and IPAs', volumes: 2.4 },
+    { family: 'Lagers', volumes: 2.6 },
+    { family: 'Belgian ales', volumes: 2.9 },
+    { family: 'Wheat beers', volumes: 3.3 },
+    { family: 'Sours and saisons', volumes: 3.0 },
+  ],
+};
+
+/** A chemical the list knows, matched by id or (case-insensitive) name; brewers may type either. */
+export function findChemical(settings: Pick<SanitationSettings, 'chemicals'>, idOrName: string | null | undefined): Chemical | undefined {
+  if (!idOrName) return undefined;
+  const key = idOrName.trim().toLowerCase();
+  return settings.chemicals.find((c) => c.id === key || c.name.toLowerCase() === key);
+}

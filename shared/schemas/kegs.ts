@@ -1,0 +1,135 @@
+import { z } from 'zod';
+import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
+import { isoDateTimeSchema } from './sanitation.ts';
+
+/** Where a keg is (PRODUCT.md "Keg whereabouts"). */
+export const kegWhereabouts = ['cellar', 'cold_room', 'with_member', 'missing'] as const;
+export const kegWhereaboutsSchema = z.enum(kegWhereabouts);
+export type KegWhereabouts = z.infer<typeof kegWhereaboutsSchema>;
+
+export const kegWhereaboutsLabels: Record<KegWhereabouts, string> = {
+  cellar: 'Cellar',
+  cold_room: 'Cold room',
+  with_member: 'With a member',
+  missing: 'Missing',
+};
+
+const note = z.string().trim().max(500, 'Keep the note under 500 characters').optional();
+
+/** Body of `POST /api/kegs/:id/check-out`. */
+export const kegCheckOutSchema = z.object({
+  memberId: z.uuid('Pick a member'),
+  dueAt: isoDateTimeSchema,
+  note,
+});
+export type KegCheckOutInput = z.infer<typeof kegCheckOutSchema>;
+
+/** Body of `POST /api/kegs/:id/return`. */
+export const kegReturnSchema = z.object({ note }).default({});
+export type KegReturnInput = z.infer<typeof kegReturnSchema>;
+
+/** Body of `POST /api/kegs/:id/move`: within the co-op (check-out and return have their own routes). */
+export const kegMoveSchema = z
+  .object({
+    to: z.enum(['cellar', 'cold_room', 'missing']),
+    /** In the cold room: the tap position the keg is connected to, or none. */
+    tapId: z.uuid().nullable().optional(),
+    note,
+  })
+  .refine((b) => !b.tapId || b.to === 'cold_room', { message: 'Only a keg in the cold room can be on a tap', path: ['tapId'] });
+export type KegMoveInput = z.infer<typeof kegMoveSchema>;
+
+/** Body of `POST /api/kegs/:id/empty`. */
+export const kegEmptySchema = z.object({ note }).default({});
+
+/** Body of `PATCH /api/kegs/:id/level`: how much the co-op thinks is left. */
+export const kegLevelSchema = z.object({ remainingLiters: z.number().min(0, 'At least 0 L').max(1000) });
+export type KegLevelInput = z.infer<typeof kegLevelSchema>;
+
+export const kegSortFields = ['code', 'state', 'whereabouts', 'dueAt', 'remainingLiters'] as const;
+
+/** `GET /api/kegs?page&pageSize&sort&order&whereabouts&state&overdue&memberId&q`. */
+export const kegListQuerySchema = sortableListQuerySchema(kegSortFields, 'code').extend({
+  whereabouts: kegWhereaboutsSchema.optional(),
+  state: z.enum(['ready', 'needs_cleaning', 'cleaned', 'holding', 'out_of_service']).optional(),
+  overdue: queryBooleanSchema,
+  memberId: z.uuid().optional(),
+  q: searchTextSchema,
+});
+export type KegListQuery = z.infer<typeof kegListQuerySchema>;
+
+export const kegHistoryQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(100),
+});
+
+export interface KegContents {
+  fillId: string;
+  batchId: string;
+  batchName: string;
+  style: string;
+  volumeLiters: number;
+  remainingLiters: number;
+  og: number | null;
+  fg: number | null;
+  abv: number | null;
+  filledAt: string;
+}
+
+export interface KegCarbonation {
+  planId: string;
+  method: 'set_and_hold' | 'fast_start';
+  targetVolumes: number;
+  servingPressureKpa: number;
+  fastPressureKpa: number | null;
+  lowerPressureAt: string | null;
+  pressureLoweredAt: string | null;
+  readyAt: string;
+}
+
+export interface KegView {
+  id: string;
+  code: string;
+  name: string;
+  capacityLiters: number | null;
+  lock: string | null;
+  serial: string | null;
+  /** Effective state: a lapsed freshness window reads as needs_cleaning. */
+  state: 'ready' | 'needs_cleaning' | 'cleaned' | 'holding' | 'out_of_service';
+  whereabouts: KegWhereabouts;
+  since: string | null;
+  tap: { id: string; code: string; name: string; position: string | null } | null;
+  /** Who has it (only for those who may see it). */
+  member: { id: string; name: string } | null;
+  checkedOutAt: string | null;
+  dueAt: string | null;
+  overdue: boolean;
+  contents: KegContents | null;
+  carbonation: KegCarbonation | null;
+  freshUntil: string | null;
+}
+
+export interface KegHistoryEntry {
+  at: string;
+  kind: 'movement' | 'state' | 'sanitation' | 'fill' | 'emptied' | 'carbonation';
+  title: string;
+  detail: string;
+  actor: string | null;
+  refId: string | null;
+}
+
+export interface TapBoardEntry {
+  id: string;
+  code: string;
+  name: string;
+  position: string | null;
+  lineLengthM: number | null;
+  lineInsideDiameterMm: number | null;
+  riseM: number | null;
+  coldRoomTempC: number | null;
+  state: string;
+  /** Something is on this tap. */
+  taken: boolean;
+  /** The keg on it, when the viewer may see that keg. */
+  keg: KegView | null;
+}

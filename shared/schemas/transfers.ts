@@ -1,0 +1,127 @@
+import { z } from 'zod';
+import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
+import { isoDateTimeSchema } from './sanitation.ts';
+
+/**
+ * The transfer checklist: the trade's steps from fermenter to keg. The screen asks for every
+ * item; the API records what was confirmed and names what was not (a transfer that happened is
+ * recorded either way — the keg's readiness is the one hard gate, refused with 409).
+ */
+export const drawMethods = ['bottom_valve', 'siphon'] as const;
+export type DrawMethod = (typeof drawMethods)[number];
+
+export interface ChecklistItem {
+  key: string;
+  label: string;
+  help?: string;
+  /** Only for this way of drawing beer from the fermenter. */
+  method?: DrawMethod;
+}
+
+export const transferChecklistItems: readonly ChecklistItem[] = [
+  { key: 'kegsSanitizedAndPurged', label: 'Every keg sanitized and purged with CO2', help: 'The app checks each keg is ready and its sanitation current.' },
+  { key: 'airlockRemoved', label: 'Airlock removed before opening the bottom valve', help: 'So the fermenter does not suck air or sanitizer back in.', method: 'bottom_valve' },
+  { key: 'siphonStartedMidDepth', label: 'Siphon started mid-depth, lowered as the level falls', help: 'Keeps the cane clear of the yeast cake.', method: 'siphon' },
+  { key: 'tubeToKegBottom', label: 'Tube reaches the bottom of the keg: no splashing' },
+  { key: 'fittingsTight', label: 'Fittings tight: no air drawn in at a loose barb', help: 'Note any oxygen pick-up seen (bubbles in the line).' },
+  { key: 'finingsAdded', label: 'Finings added (or none planned)', help: 'Kind and dose below.' },
+  { key: 'headspacePurged', label: 'Headspace purged with CO2' },
+  { key: 'lidSealed', label: 'Lid o-ring and posts lubricated and seated' },
+  { key: 'gasInPostIdentified', label: 'Gas-in post identified' },
+  { key: 'leakChecked', label: 'Lid and posts leak-checked with sanitizer' },
+];
+
+export const transferChecklistSchema = z
+  .object({
+    drawMethod: z.enum(drawMethods).optional(),
+    kegsSanitizedAndPurged: z.boolean().optional(),
+    airlockRemoved: z.boolean().optional(),
+    siphonStartedMidDepth: z.boolean().optional(),
+    tubeToKegBottom: z.boolean().optional(),
+    fittingsTight: z.boolean().optional(),
+    /** What was seen at the fittings, e.g. "bubbles at the keg barb, tightened". */
+    oxygenPickupNote: z.string().trim().max(500).optional(),
+    finingsAdded: z.boolean().optional(),
+    headspacePurged: z.boolean().optional(),
+    lidSealed: z.boolean().optional(),
+    gasInPostIdentified: z.boolean().optional(),
+    leakChecked: z.boolean().optional(),
+  })
+  .catchall(z.union([z.boolean(), z.string().max(500), z.number()]));
+export type TransferChecklist = z.infer<typeof transferChecklistSchema>;
+
+export const finingsSchema = z
+  .object({
+    /** e.g. "silica finings", "gelatin". */
+    kind: z.string().trim().min(2, 'Name the finings').max(60),
+    amount: z.number().positive('More than 0').max(10_000).optional(),
+    /** Another name for amount. */
+    dose: z.number().positive('More than 0').max(10_000).optional(),
+    unit: z.enum(['g', 'mL']).optional(),
+  })
+  .refine((f) => f.amount !== undefined || f.dose !== undefined, { message: 'Give the dose', path: ['amount'] });
+export type FiningsInput = z.infer<typeof finingsSchema>;
+
+export const finingsKinds = ['silica finings', 'gelatin', 'isinglass', 'other'] as const;
+
+/** Body of `POST /api/transfers`. */
+export const createTransferSchema = z
+  .object({
+    batchId: z.uuid('Pick the batch'),
+    fromEquipmentId: z.uuid('Pick the fermenter'),
+    toKegIds: z
+      .array(z.uuid())
+      .min(1, 'Pick at least one keg')
+      .max(12, 'At most 12 kegs in one transfer')
+      .refine((ids) => new Set(ids).size === ids.length, 'Pick each keg once'),
+    /** Drawn from the fermenter. */
+    volumeLiters: z.number().positive('More than 0 L').max(10_000),
+    checklist: transferChecklistSchema,
+    finings: finingsSchema.nullable().optional(),
+    /** Litres in each keg, in the order of toKegIds; without it the volume less the loss is shared evenly. */
+    kegVolumesLiters: z.array(z.number().positive('More than 0 L').max(1000)).optional(),
+    /** Trub, samples and spills; worked out from kegVolumesLiters when those are given. */
+    lossLiters: z.number().min(0).max(10_000).optional(),
+    transferredAt: isoDateTimeSchema.optional(),
+    co2Grams: z.number().min(0).max(10_000).optional(),
+    notes: z.string().trim().max(2000).optional(),
+  })
+  .refine((b) => !b.kegVolumesLiters || b.kegVolumesLiters.length === b.toKegIds.length, {
+    message: 'Give one volume per keg',
+    path: ['kegVolumesLiters'],
+  });
+export type CreateTransferInput = z.infer<typeof createTransferSchema>;
+
+/** `GET /api/transfers?batchId&fromEquipmentId&kegId&from&to&…`. */
+export const transferListQuerySchema = sortableListQuerySchema(['transferredAt', 'volumeLiters'] as const, 'transferredAt').extend({
+  order: z.enum(['asc', 'desc']).default('desc'),
+  batchId: z.uuid().optional(),
+  fromEquipmentId: z.uuid().optional(),
+  kegId: z.uuid().optional(),
+  from: z.iso.date().or(z.iso.datetime({ offset: true })).optional(),
+  to: z.iso.date().or(z.iso.datetime({ offset: true })).optional(),
+  q: searchTextSchema,
+});
+export type TransferListQuery = z.infer<typeof transferListQuerySchema>;
+
+export interface TransferView {
+  id: string;
+  batch: { id: string; name: string; style: string; ownerId: string };
+  fermenter: { id: string; code: string; name: string };
+  volumeLiters: number;
+  packagedLiters: number;
+  lossLiters: number;
+  drawMethod: DrawMethod;
+  checklist: Record<string, unknown>;
+  /** Checklist items that were not confirmed. */
+  unconfirmed: string[];
+  finings: { kind: string; amount: number; unit: 'g' | 'mL' } | null;
+  co2Grams: number;
+  og: number | null;
+  fg: number | null;
+  abv: number | null;
+  transferredAt: string;
+  recordedBy: { id: string; name: string } | null;
+  notes: string;
+  kegs: { fillId: string; kegId: string; code: string; volumeLiters: number; sanitationCycleId: string | null }[];
+}

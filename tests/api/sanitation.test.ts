@@ -1,0 +1,283 @@
+import { execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { applyFreshnessLapses } from '../../backend/modules/sanitation/vessel-state.ts';
+import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+
+let ctx: TestContext;
+let brewer: ApiClient;
+let member: ApiClient;
+let treasurer: ApiClient;
+let admin: ApiClient;
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+  [brewer, member, treasurer, admin] = await Promise.all([
+    ctx.signIn('brewer@example.org'),
+    ctx.signIn('member@example.org'),
+    ctx.signIn('treasurer@example.org'),
+    ctx.signIn('admin@example.org'),
+  ]);
+});
+afterAll(async () => ctx?.close());
+
+const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
+
+/** The four steps of a cycle that meets the co-op's default rules. */
+function completeSteps(startMinutesAgo = 120) {
+  return [
+    { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: minutesAgo(startMinutesAgo) },
+    { step: 'rinse', at: minutesAgo(startMinutesAgo - 62) },
+    { step: 'sanitize', chemical: 'Acid sanitizer (no-rinse, phosphoric)', concentration: 1.6, contactMinutes: 2, at: minutesAgo(startMinutesAgo - 70) },
+    { step: 'purge', contactMinutes: 0.5, purgeMethod: 'flush', at: minutesAgo(startMinutesAgo - 75) },
+  ];
+}
+
+let spare: string[] = [];
+/** Seeded kegs that are empty, in the cellar and in service: each test takes its own. */
+async function takeKeg(): Promise<{ id: string; code: string }> {
+  if (!spare.length) {
+    const rows = await ctx.db
+      .selectFrom('equipment as e')
+      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
+      .select(['e.id'])
+      .where('e.kind', '=', 'keg')
+      .where('e.state', 'in', ['needs_cleaning', 'cleaned', 'ready'])
+      .where((eb) => eb.or([eb('kw.whereabouts', 'is', null), eb('kw.whereabouts', '=', 'cellar')]))
+      .orderBy('e.code', 'desc')
+      .execute();
+    spare = rows.map((r) => r.id);
+  }
+  const id = spare.shift();
+  if (!id) throw new Error('no spare keg in the seed');
+  return ctx.db.selectFrom('equipment').select(['id', 'code']).where('id', '=', id).executeTakeFirstOrThrow();
+}
+
+const stateOf = async (id: string) => (await ctx.db.selectFrom('equipment').select('state').where('id', '=', id).executeTakeFirstOrThrow()).state;
+
+describe('recording a sanitation cycle', () => {
+  it('makes a vessel ready when the cycle is complete, with who and when for every step', async () => {
+    const keg = await takeKeg();
+    await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps() });
+    expect(res.status).toBe(201);
+    expect(res.body.cycle).toMatchObject({ outcome: 'ready', complete: true, issues: [] });
+    expect(res.body.equipment).toMatchObject({ id: keg.id, state: 'ready' });
+    expect(res.body.cycle.steps.map((s: { step: string }) => s.step)).toEqual(['clean', 'rinse', 'sanitize', 'purge']);
+    const [clean, , sanitize, purge] = res.body.cycle.steps;
+    expect(clean).toMatchObject({ chemicalId: 'alkaline-cleaner', concentration: 1.5, concentrationUnit: '%', contactMinutes: 60, ok: true });
+    expect(sanitize).toMatchObject({ chemicalId: 'acid-sanitizer', concentrationUnit: 'mL/L', contactMinutes: 2 });
+    expect(purge).toMatchObject({ purgeMethod: 'flush', co2Grams: 15 });
+    expect(clean.performedBy).toMatchObject({ id: brewer.user.id, name: 'Ada Kettleby' });
+    // Fresh for the co-op's window from the last step.
+    const fresh = new Date(res.body.cycle.freshUntil).getTime() - new Date(res.body.cycle.completedAt).getTime();
+    expect(fresh).toBe(7 * 86_400_000);
+    expect(await stateOf(keg.id)).toBe('ready');
+    const change = await ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
+    expect(change).toMatchObject({ from_state: 'needs_cleaning', to_state: 'ready', actor_id: brewer.user.id });
+    expect(change.reason).toMatch(/complete/);
+    const trail = await ctx.db.selectFrom('audit_log').selectAll().where('subject_type', '=', 'SanitationCycle').where('subject_id', '=', res.body.cycle.id).execute();
+    expect(trail).toHaveLength(1);
+  });
+
+  it('records an incomplete cycle but leaves the vessel cleaned, saying what is missing', async () => {
+    const keg = await takeKeg();
+    await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
+    const steps = completeSteps().slice(0, 3); // no purge
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
+    expect(res.status).toBe(201);
+    expect(res.body.cycle).toMatchObject({ outcome: 'cleaned', complete: false, freshUntil: null });
+    expect(res.body.cycle.issues).toEqual([expect.objectContaining({ code: 'missing_step', step: 'purge' })]);
+    expect(await stateOf(keg.id)).toBe('cleaned');
+    const reason = await ctx.db.selectFrom('equipment_state_change').select('reason').where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
+    expect(reason.reason).toMatch(/incomplete.*No CO2 purge step/);
+  });
+
+  it('does not make a ready vessel of a cycle with a contact time below the minimum', async () => {
+    const keg = await takeKeg();
+    await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
+    const steps = completeSteps();
+    steps[0] = { ...steps[0]!, contactMinutes: 10 };
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
+    expect(res.status).toBe(201);
+    expect(res.body.cycle.outcome).toBe('needs_cleaning');
+    expect(res.body.cycle.issues[0]).toMatchObject({ code: 'short_contact', step: 'clean' });
+    expect(res.body.cycle.issues[0].message).toMatch(/10 min, below the co-op's minimum of 30 min/);
+    expect(res.body.cycle.steps[0].ok).toBe(false);
+    expect(await stateOf(keg.id)).toBe('needs_cleaning');
+  });
+
+  it('leaves a vessel cleaned when only the sanitize step is short, and flags steps out of order', async () => {
+    const keg = await takeKeg();
+    const steps = completeSteps();
+    steps[2] = { ...steps[2]!, contactMinutes: 0.25 };
+    const short = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
+    expect(short.body.cycle.outcome).toBe('cleaned');
+    expect(short.body.cycle.issues[0].message).toMatch(/15 s/);
+
+    const backwards = completeSteps();
+    backwards[1] = { ...backwards[1]!, at: minutesAgo(200) }; // rinse before the clean
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: backwards });
+    expect(res.body.cycle.outcome).toBe('needs_cleaning');
+    expect(res.body.cycle.issues).toEqual([expect.objectContaining({ code: 'out_of_order', step: 'rinse' })]);
+  });
+
+  it('refuses a vessel that holds beer or is out of service (409), and other kinds of equipment (422)', async () => {
+    const keg = await takeKeg();
+    await ctx.db.updateTable('equipment').set({ state: 'holding' }).where('id', '=', keg.id).execute();
+    const full = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps() });
+    expect(full.status).toBe(409);
+    expect(full.headers['content-type']).toMatch(/problem\+json/);
+    expect(full.body.detail).toMatch(/holds beer/);
+    await ctx.db.updateTable('equipment').set({ state: 'out_of_service' }).where('id', '=', keg.id).execute();
+    expect((await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps() })).status).toBe(409);
+    const tap = await ctx.db.selectFrom('equipment').select('id').where('kind', '=', 'tap').executeTakeFirstOrThrow();
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: tap.id, steps: completeSteps() });
+    expect(res.status).toBe(422);
+    expect(res.body.errors[0].path).toBe('equipmentId');
+  });
+
+  it('validates the body: step names, times with offsets, no future steps, known vessels', async () => {
+    const keg = await takeKeg();
+    const bad = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: [{ step: 'scrub', at: 'yesterday' }] });
+    expect(bad.status).toBe(422);
+    expect(bad.body.errors.map((e: { path: string }) => e.path).sort()).toEqual(['steps.0.at', 'steps.0.step']);
+    const future = completeSteps();
+    future[3] = { ...future[3]!, at: new Date(Date.now() + 3 * 3600_000).toISOString() };
+    const f = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: future });
+    expect(f.status).toBe(422);
+    expect(f.body.errors[0].path).toBe('steps.3.at');
+    const unknown = await brewer.post('/api/sanitation-cycles', { equipmentId: '00000000-0000-4000-8000-000000000000', steps: completeSteps() });
+    expect(unknown.status).toBe(404);
+  });
+
+  it('records who did a step when it was someone else on the rota', async () => {
+    const keg = await takeKeg();
+    const colleague = await ctx.db.selectFrom('app_user').select(['id', 'name']).where('email', '=', 'member5@example.org').executeTakeFirstOrThrow();
+    const steps = completeSteps().map((s) => (s.step === 'clean' ? { ...s, performedBy: colleague.id } : s));
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
+    expect(res.status).toBe(201);
+    expect(res.body.cycle.steps[0].performedBy).toEqual({ id: colleague.id, name: colleague.name });
+    expect(res.body.cycle.steps[1].performedBy.id).toBe(brewer.user.id);
+    expect(res.body.cycle.recordedBy.id).toBe(brewer.user.id);
+  });
+});
+
+describe('who may do what', () => {
+  it('lets neither a member nor the treasurer record a cycle (403), and nothing is written', async () => {
+    const keg = await takeKeg();
+    const before = await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    for (const who of [member, treasurer]) {
+      const res = await who.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps() });
+      expect(res.status).toBe(403);
+      expect(res.headers['content-type']).toMatch(/problem\+json/);
+    }
+    const after = await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    expect(after.n).toBe(before.n);
+  });
+
+  it('lets the treasurer read the log but not a member; nobody signed out', async () => {
+    expect((await treasurer.get('/api/sanitation-cycles')).status).toBe(200);
+    expect((await member.get('/api/sanitation-cycles')).status).toBe(403);
+    expect((await member.get('/api/sanitation-status')).status).toBe(403);
+    const anon = await (await import('supertest')).default(ctx.app).get('/api/sanitation-cycles');
+    expect(anon.status).toBe(401);
+  });
+
+  it('keeps the audit report from members (403) but gives it to the rota, the treasurer and the admin', async () => {
+    const url = '/api/reports/sanitation-audit.pdf?from=2026-09-01&to=2026-11-30';
+    expect((await member.get(url)).status).toBe(403);
+    for (const who of [brewer, treasurer, admin]) {
+      const res = await who.get(url).buffer(true);
+      expect(res.status).toBe(200);
+      expect(res.headers['content-type']).toMatch(/application\/pdf/);
+    }
+  });
+});
+
+describe('the log and the vessels’ standing', () => {
+  it('lists cycles newest first, filters by vessel and outcome, and pages', async () => {
+    const keg = await takeKeg();
+    await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
+    await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(200).slice(0, 2) });
+    const res = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}`);
+    expect(res.status).toBe(200);
+    expect(res.body.total).toBe(2);
+    expect(res.body.items.map((c: { outcome: string }) => c.outcome)).toEqual(['cleaned', 'ready']);
+    const ready = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}&outcome=ready`);
+    expect(ready.body.items).toHaveLength(1);
+    const paged = await brewer.get('/api/sanitation-cycles?pageSize=1&page=2&sort=equipmentCode&order=asc');
+    expect(paged.body).toMatchObject({ page: 2, pageSize: 1 });
+    expect(paged.body.items).toHaveLength(1);
+    const one = await treasurer.get(`/api/sanitation-cycles/${res.body.items[0].id}`);
+    expect(one.body.cycle.equipment.code).toBe(keg.code);
+    expect((await brewer.get('/api/sanitation-cycles?sort=colour')).status).toBe(422);
+  });
+
+  it('treats a lapsed freshness window as needs cleaning at once, and the periodic pass writes it down', async () => {
+    const keg = await takeKeg();
+    const old = completeSteps(10 * 24 * 60); // ten days ago
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: old });
+    expect(res.body.cycle.outcome).toBe('ready');
+    expect(await stateOf(keg.id)).toBe('ready');
+    const status = await brewer.get(`/api/sanitation-status?q=${keg.code}`);
+    expect(status.body.items[0]).toMatchObject({ code: keg.code, state: 'needs_cleaning', storedState: 'ready' });
+    expect(status.body.items[0].stateReason).toMatch(/lapsed/);
+    expect(await applyFreshnessLapses(ctx.db)).toBeGreaterThanOrEqual(1);
+    expect(await stateOf(keg.id)).toBe('needs_cleaning');
+    const change = await ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
+    expect(change).toMatchObject({ from_state: 'ready', to_state: 'needs_cleaning', actor_id: null });
+    expect(change.reason).toMatch(/Freshness window lapsed/);
+    // Once written down, a second pass changes nothing for it.
+    const again = await applyFreshnessLapses(ctx.db);
+    const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').execute();
+    expect(changes).toHaveLength(1);
+    expect(again).toBeGreaterThanOrEqual(0);
+  });
+});
+
+describe('the sanitation audit PDF', () => {
+  it('holds the vessels, cycles, people and exceptions of the period in its text layer', async () => {
+    const keg = await takeKeg();
+    const steps = completeSteps(500);
+    steps[0] = { ...steps[0]!, contactMinutes: 12 };
+    await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
+    await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
+    const today = new Date().toISOString().slice(0, 10);
+    const res = await treasurer.get(`/api/reports/sanitation-audit.pdf?from=${today}&to=${today}&equipmentId=${keg.id}`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(res.status).toBe(200);
+    const text = pdfText(res.body as Buffer);
+    expect(text).toContain('Sanitation audit');
+    expect(text).toContain('Larkspur Yard Brewing Co-op');
+    expect(text).toContain(keg.code);
+    expect(text).toContain('Ada Kettleby');
+    expect(text).toContain('Alkaline cleaner (oxygen-based powder)');
+    expect(text).toContain('Short contact time');
+    expect(text).toMatch(/12 min, below the co-op's minimum of 30 min/);
+    expect(text).toMatch(/Page 1 of \d+/);
+    expect(text).toMatch(/never water to chemical/);
+    expect(text).toMatch(/local codes/i);
+  });
+
+  it('answers 422 for a missing or reversed period', async () => {
+    expect((await brewer.get('/api/reports/sanitation-audit.pdf')).status).toBe(422);
+    expect((await brewer.get('/api/reports/sanitation-audit.pdf?from=2026-11-30&to=2026-09-01')).status).toBe(422);
+  });
+});
+
+export function pdfText(pdf: Buffer): string {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-'));
+  const file = path.join(dir, 'report.pdf');
+  fs.writeFileSync(file, pdf);
+  try {
+    return execFileSync('/usr/bin/pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
