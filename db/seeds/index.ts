@@ -3,12 +3,14 @@ import type { Database } from '../../backend/db/database.ts';
 import * as users from './0001_users.ts';
 import * as equipment from './0002_equipment.ts';
 import * as bookings from './0003_bookings.ts';
+import * as batches from './0004_batches.ts';
 
 /** Seeds in the order they run; each later capability appends its own. */
 export const seeds: { name: string; seed: (db: Database) => Promise<void> }[] = [
   { name: '0001_users', seed: users.seed },
   { name: '0002_equipment', seed: equipment.seed },
   { name: '0003_bookings', seed: bookings.seed },
+  { name: '0004_batches', seed: batches.seed },
 ];
 
 export async function runSeeds(db: Database): Promise<string[]> {
