@@ -10,10 +10,19 @@ import type { Deps } from './lib/deps.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
+import { auditRoutes } from './modules/audit/audit.routes.ts';
 import { batchesRoutes } from './modules/batches/batches.routes.ts';
 import { productionRecordsRoutes } from './modules/batches/production-records.routes.ts';
 import { readingsRoutes } from './modules/batches/readings.routes.ts';
-import { auditRoutes } from './modules/audit/audit.routes.ts';
+import {
+  billingRoutes,
+  invoiceRunsRoutes,
+  invoicesRoutes,
+  manualChargesRoutes,
+  paymentWebhookRoutes,
+  pricesRoutes,
+  taxRatesRoutes,
+} from './modules/billing/billing.routes.ts';
 import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
 import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
@@ -93,6 +102,13 @@ export function createApp(deps: Deps): Express {
   app.use('/api/batches', batchesRoutes(deps));
   app.use('/api/readings', readingsRoutes(deps));
   app.use('/api/production-records', productionRecordsRoutes(deps));
+  app.use('/api/invoice-runs', invoiceRunsRoutes(deps));
+  app.use('/api/invoices', invoicesRoutes(deps));
+  app.use('/api/prices', pricesRoutes(deps));
+  app.use('/api/tax-rates', taxRatesRoutes(deps));
+  app.use('/api/manual-charges', manualChargesRoutes(deps));
+  app.use('/api/billing', billingRoutes(deps));
+  app.use('/api/webhooks', paymentWebhookRoutes(deps));
   mountCellarOperations(app, deps);
   app.use('/api', apiNotFound);
 

@@ -6,6 +6,8 @@ import type { DB } from './schema.ts';
 // quantities fit a double, so parse them once here. Money stays integer cents in int/bigint columns.
 pg.types.setTypeParser(20, (v) => Number.parseInt(v, 10));
 pg.types.setTypeParser(1700, (v) => Number.parseFloat(v));
+// A `date` (no time, no zone) stays 'YYYY-MM-DD' text: turning it into a Date would pin it to a time zone.
+pg.types.setTypeParser(1082, (v) => v);
 
 export type Database = Kysely<DB>;
 

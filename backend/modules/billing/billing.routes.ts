@@ -1,0 +1,416 @@
+import { ForbiddenError } from '@casl/ability';
+import { Router, type Request } from 'express';
+import { z } from 'zod';
+import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
+import { formatMoney } from '../../../shared/billing/money.ts';
+import { subject } from '../../../shared/permissions/ability.ts';
+import {
+  ageingQuerySchema,
+  billingProfileSchema,
+  invoiceExportQuerySchema,
+  invoiceListQuerySchema,
+  invoiceRunInputSchema,
+  invoiceRunPreviewQuerySchema,
+  manualChargeInputSchema,
+  paymentInputSchema,
+  periodSchema,
+  priceInputSchema,
+  refundInputSchema,
+  taxRateInputSchema,
+  voidInvoiceSchema,
+} from '../../../shared/schemas/billing.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { canAll } from '../../lib/authz.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { badRequest, conflict, forbidden, notFound } from '../../lib/http-problem.ts';
+import { enqueueMail } from '../../lib/mailer.ts';
+import { requireUser } from '../../middleware/authenticate.ts';
+import { coopToday, getBillingProfile, putBillingProfile } from './billing-profile.service.ts';
+import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
+import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
+import { issueRunDrafts, listRuns, previewRun, runPeriod } from './invoice-runs.service.ts';
+import {
+  findInvoiceRow,
+  getDetail,
+  issueInvoice,
+  listInvoices,
+  markSent,
+  memberBalance,
+  recordManualPayment,
+  refundInvoice,
+  voidInvoice,
+} from './invoices.service.ts';
+import { verifyWebhook } from './payment-provider.ts';
+import { confirmCheckout, createCheckout, handleProviderEvent } from './payments.service.ts';
+import { addManualCharge, addPrice, addTaxRate, listManualCharges, listPrices, removeManualCharge, removePrice, removeTaxRate } from './prices.service.ts';
+import { ageingReport, billingSummary } from './reports.service.ts';
+
+const idParam = z.object({ id: z.string() });
+const can = (req: Request) => ForbiddenError.from(req.ability);
+
+/**
+ * An invoice as the person asking may see it, or a 404: a member sees only their own, and not
+ * while it is still a draft. Someone who may read no invoices at all (the brewer-on-duty) gets 403.
+ */
+async function visibleInvoice(req: Request, db: Database, id: string) {
+  can(req).throwUnlessCan('read', 'Invoice');
+  const row = await findInvoiceRow(db, id);
+  if (!row || !req.ability.can('read', subject('Invoice', { memberId: row.member_id }))) throw notFound('Invoice');
+  if (row.status === 'draft' && !canAll(req.ability, 'read', 'Invoice')) throw notFound('Invoice');
+  return row;
+}
+
+function requireEveryInvoice(req: Request) {
+  can(req).throwUnlessCan('read', 'Invoice');
+  if (!canAll(req.ability, 'read', 'Invoice')) throw forbidden('Only the treasurer sees every member’s invoices.');
+}
+
+export function invoiceRunsRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/', async (req, res) => {
+    can(req).throwUnlessCan('read', 'InvoiceRun');
+    const items = await listRuns(db, 100);
+    res.json({ items, total: items.length, page: 1, pageSize: 100 });
+  });
+
+  router.get('/preview', async (req, res) => {
+    can(req).throwUnlessCan('run', 'InvoiceRun');
+    const q = invoiceRunPreviewQuerySchema.parse(req.query);
+    res.json(await previewRun(db, q.period));
+  });
+
+  router.post('/', async (req, res) => {
+    can(req).throwUnlessCan('run', 'InvoiceRun');
+    const input = invoiceRunInputSchema.parse(req.body ?? {});
+    const result = await runPeriod(db, input, req.user!.id);
+    res.status(201).json(result);
+  });
+
+  router.post('/:id/issue', async (req, res) => {
+    can(req).throwUnlessCan('update', 'Invoice');
+    const { id } = idParam.parse(req.params);
+    const run = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
+    if (!run) throw notFound('Invoice run');
+    const issued = await issueRunDrafts(db, run.id, req.user!.id);
+    res.json({ issued: issued.length });
+  });
+
+  return router;
+}
+
+export function invoicesRoutes({ db, config, queue }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/', async (req, res) => {
+    can(req).throwUnlessCan('read', 'Invoice');
+    const q = invoiceListQuerySchema.parse(req.query);
+    const { today } = await coopToday(db);
+    const scope = canAll(req.ability, 'read', 'Invoice') ? {} : { ownerId: req.user!.id };
+    res.json(await listInvoices(db, q, scope, today));
+  });
+
+  // Before /:id, so "export" is not taken for an id.
+  router.get('/export', async (req, res) => {
+    can(req).throwUnlessCan('export', 'Invoice');
+    const q = invoiceExportQuerySchema.parse(req.query);
+    const sheets = await periodLedger(db, q.period);
+    await audit(db, req.user!.id, 'exported', 'Invoice', null, { period: q.period, format: q.format });
+    const name = `cellarwright-ledger-${q.period}`;
+    if (q.format === 'xlsx') {
+      const body = await ledgerXlsx(sheets, `Ledger ${periodLabel(q.period)}`);
+      res
+        .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')
+        .attachment(`${name}.xlsx`)
+        .send(body);
+      return;
+    }
+    res.type('text/csv; charset=utf-8').attachment(`${name}.csv`).send(ledgerCsv(sheets));
+  });
+
+  router.get('/:id', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    const row = await visibleInvoice(req, db, id);
+    const { today } = await coopToday(db);
+    res.json({ invoice: await getDetail(db, row.id, today) });
+  });
+
+  router.get('/:id/pdf', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    const row = await visibleInvoice(req, db, id);
+    const { today } = await coopToday(db);
+    const invoice = await getDetail(db, row.id, today);
+    const pdf = await renderInvoicePdf({ invoice, profile: await getBillingProfile(db), appUrl: config.publicUrl });
+    res
+      .type('application/pdf')
+      .set('Content-Disposition', `inline; filename="${invoicePdfFilename(invoice)}"`)
+      .set('Cache-Control', 'private, no-store')
+      .send(pdf);
+  });
+
+  router.post('/:id/issue', async (req, res) => {
+    can(req).throwUnlessCan('update', 'Invoice');
+    const { id } = idParam.parse(req.params);
+    const row = await visibleInvoice(req, db, id);
+    await db.transaction().execute(async (trx) => {
+      const { today } = await coopToday(trx);
+      await issueInvoice(trx, row.id, today, req.user!.id);
+    });
+    const { today } = await coopToday(db);
+    res.json({ invoice: await getDetail(db, row.id, today) });
+  });
+
+  router.post('/:id/send', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('send', 'Invoice');
+    const row = await visibleInvoice(req, db, id);
+    can(req).throwUnlessCan('send', subject('Invoice', { memberId: row.member_id }));
+    if (row.status === 'void') throw conflict('A void invoice is not sent; its credit note replaces it.');
+    await db.transaction().execute(async (trx) => {
+      // Sending a draft issues it first: a member only ever receives numbered invoices.
+      if (row.status === 'draft') {
+        const { today } = await coopToday(trx);
+        await issueInvoice(trx, row.id, today, req.user!.id);
+      }
+    });
+    const { today } = await coopToday(db);
+    const invoice = await getDetail(db, row.id, today);
+    const profile = await getBillingProfile(db);
+    const pdf = await renderInvoicePdf({ invoice, profile, appUrl: config.publicUrl });
+    const total = formatMoney(invoice.totalCents, invoice.currency, 'en-GB');
+    const due = formatMoney(invoice.amountDueCents, invoice.currency, 'en-GB');
+    await enqueueMail(queue, {
+      to: invoice.memberEmail,
+      subject: `Invoice ${invoice.number} from ${profile.coopName} — ${periodLabel(invoice.period)}`,
+      text: [
+        `Hello ${invoice.memberName},`,
+        '',
+        `Your invoice ${invoice.number} for ${periodLabel(invoice.period)} is attached: ${total} in all.`,
+        invoice.amountDueCents > 0 ? `Still to pay: ${due}, by ${longDate(invoice.dueOn!)}.` : 'Nothing is left to pay on it — thank you.',
+        '',
+        'How to pay:',
+        `- online: ${config.publicUrl}/billing/my-invoices/${invoice.id}`,
+        `- by bank transfer to ${profile.bankAccountName}, account ${profile.bankAccount}, quoting ${invoice.number}`,
+        '',
+        `Questions? Write to ${profile.email}.`,
+        '',
+        profile.coopName,
+      ].join('\n'),
+      attachments: [{ filename: invoicePdfFilename(invoice), contentType: 'application/pdf', contentBase64: pdf.toString('base64') }],
+    });
+    await db.transaction().execute((trx) => markSent(trx, invoice.id, req.user!.id, invoice.memberEmail));
+    res.status(202).json({ queued: true, to: invoice.memberEmail, invoice: await getDetail(db, row.id, today) });
+  });
+
+  router.post('/:id/checkout', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('pay', 'Invoice');
+    const row = await visibleInvoice(req, db, id);
+    // Paying online is for the member the invoice is addressed to.
+    if (row.member_id !== req.user!.id) throw forbidden('Only the member it is addressed to pays an invoice online; record a payment instead.');
+    can(req).throwUnlessCan('pay', subject('Invoice', { memberId: row.member_id }));
+    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }));
+  });
+
+  router.post('/:id/checkout/confirm', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('pay', 'Invoice');
+    const body = z.object({ sessionId: z.string().min(1).max(200) }).parse(req.body ?? {});
+    const row = await visibleInvoice(req, db, id);
+    if (row.member_id !== req.user!.id) throw forbidden();
+    const outcome = await confirmCheckout(db, config, row.id, body.sessionId);
+    const { today } = await coopToday(db);
+    res.json({ outcome, invoice: await getDetail(db, row.id, today) });
+  });
+
+  router.post('/:id/payments', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('create', 'Payment');
+    const input = paymentInputSchema.parse(req.body ?? {});
+    const row = await visibleInvoice(req, db, id);
+    can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
+    const payment = await db.transaction().execute((trx) => recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id));
+    const { today } = await coopToday(db);
+    res.status(201).json({ payment, invoice: await getDetail(db, row.id, today) });
+  });
+
+  router.post('/:id/void', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('create', 'CreditNote');
+    const input = voidInvoiceSchema.parse(req.body ?? {});
+    const row = await visibleInvoice(req, db, id);
+    can(req).throwUnlessCan('update', subject('Invoice', { memberId: row.member_id }));
+    const result = await db.transaction().execute(async (trx) => {
+      const { today } = await coopToday(trx);
+      return voidInvoice(trx, row.id, input, today, req.user!.id);
+    });
+    const { today } = await coopToday(db);
+    res.json({ ...result, invoice: await getDetail(db, row.id, today) });
+  });
+
+  router.post('/:id/refunds', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('create', 'CreditNote');
+    const input = refundInputSchema.parse(req.body ?? {});
+    const row = await visibleInvoice(req, db, id);
+    can(req).throwUnlessCan('create', subject('CreditNote', { memberId: row.member_id }));
+    const result = await db.transaction().execute(async (trx) => {
+      const { today } = await coopToday(trx);
+      return refundInvoice(trx, row.id, input, today, req.user!.id);
+    });
+    const { today } = await coopToday(db);
+    res.status(201).json({ ...result, invoice: await getDetail(db, row.id, today) });
+  });
+
+  return router;
+}
+
+export function pricesRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/', async (req, res) => {
+    can(req).throwUnlessCan('read', 'PriceList');
+    const { prices, taxRates, today } = await listPrices(db);
+    const profile = await getBillingProfile(db);
+    res.json({ items: prices, total: prices.length, page: 1, pageSize: Math.max(prices.length, 1), taxRates, currency: profile.currency, today });
+  });
+
+  router.post('/', async (req, res) => {
+    can(req).throwUnlessCan('create', 'PriceList');
+    const input = priceInputSchema.parse(req.body ?? {});
+    res.status(201).json({ price: await addPrice(db, input as Required<typeof input>, req.user!.id) });
+  });
+
+  router.delete('/:id', async (req, res) => {
+    can(req).throwUnlessCan('delete', 'PriceList');
+    const { id } = idParam.parse(req.params);
+    await removePrice(db, id, req.user!.id);
+    res.status(204).end();
+  });
+
+  return router;
+}
+
+export function taxRatesRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/', async (req, res) => {
+    can(req).throwUnlessCan('read', 'PriceList');
+    const { taxRates } = await listPrices(db);
+    res.json({ items: taxRates, total: taxRates.length, page: 1, pageSize: Math.max(taxRates.length, 1) });
+  });
+
+  router.post('/', async (req, res) => {
+    can(req).throwUnlessCan('create', 'PriceList');
+    const input = taxRateInputSchema.parse(req.body ?? {});
+    res.status(201).json({ taxRate: await addTaxRate(db, input, req.user!.id) });
+  });
+
+  router.delete('/:id', async (req, res) => {
+    can(req).throwUnlessCan('delete', 'PriceList');
+    const { id } = idParam.parse(req.params);
+    await removeTaxRate(db, id, req.user!.id);
+    res.status(204).end();
+  });
+
+  return router;
+}
+
+export function manualChargesRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+  const listQuery = z.object({ period: periodSchema.optional(), memberId: z.uuid().optional() });
+
+  router.get('/', async (req, res) => {
+    can(req).throwUnlessCan('read', 'Charge');
+    const q = listQuery.parse(req.query);
+    const own = canAll(req.ability, 'read', 'Charge') ? {} : { memberId: req.user!.id };
+    if (own.memberId && q.memberId && q.memberId !== own.memberId) {
+      res.json({ items: [], total: 0, page: 1, pageSize: 1 });
+      return;
+    }
+    const items = await listManualCharges(db, { ...q, ...own });
+    res.json({ items, total: items.length, page: 1, pageSize: Math.max(items.length, 1) });
+  });
+
+  router.post('/', async (req, res) => {
+    can(req).throwUnlessCan('create', 'Charge');
+    const input = manualChargeInputSchema.parse(req.body ?? {});
+    can(req).throwUnlessCan('create', subject('Charge', { memberId: input.memberId }));
+    res.status(201).json({ charge: await addManualCharge(db, input as Required<typeof input>, req.user!.id) });
+  });
+
+  router.delete('/:id', async (req, res) => {
+    can(req).throwUnlessCan('delete', 'Charge');
+    const { id } = idParam.parse(req.params);
+    await removeManualCharge(db, id, req.user!.id);
+    res.status(204).end();
+  });
+
+  return router;
+}
+
+export function billingRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/summary', async (req, res) => {
+    requireEveryInvoice(req);
+    res.json(await billingSummary(db));
+  });
+
+  router.get('/ageing', async (req, res) => {
+    requireEveryInvoice(req);
+    const q = ageingQuerySchema.parse(req.query);
+    res.json(await ageingReport(db, q.asOf));
+  });
+
+  /** A member's own balance; the treasurer may ask for anyone's with ?memberId=. */
+  router.get('/balance', async (req, res) => {
+    can(req).throwUnlessCan('read', 'Invoice');
+    const q = z.object({ memberId: z.uuid().optional() }).parse(req.query);
+    const memberId = q.memberId ?? req.user!.id;
+    if (!req.ability.can('read', subject('Invoice', { memberId }))) throw notFound('Member');
+    const [{ today }, profile] = await Promise.all([coopToday(db), getBillingProfile(db)]);
+    res.json(await memberBalance(db, memberId, today, profile.currency));
+  });
+
+  router.get('/profile', async (req, res) => {
+    can(req).throwUnlessCan('read', 'PriceList');
+    res.json({ profile: await getBillingProfile(db) });
+  });
+
+  router.put('/profile', async (req, res) => {
+    can(req).throwUnlessCan('update', 'PriceList');
+    const input = billingProfileSchema.parse(req.body ?? {});
+    const profile = await db.transaction().execute((trx) => putBillingProfile(trx, input, req.user!.id));
+    res.json({ profile });
+  });
+
+  return router;
+}
+
+/** The payment provider's webhook: no session, no CSRF token; the signature over the raw body is the check. */
+export function paymentWebhookRoutes({ db, config }: Deps): Router {
+  const router = Router();
+  router.post('/payments', async (req, res) => {
+    const signature = req.get('stripe-signature');
+    if (!signature) throw badRequest('The Stripe-Signature header is missing.');
+    if (!Buffer.isBuffer(req.body) || req.body.length === 0) throw badRequest('The webhook body is empty.');
+    let event;
+    try {
+      event = verifyWebhook(config, req.body, signature);
+    } catch (err) {
+      req.log?.warn({ err: (err as Error).message }, 'payment webhook with a bad signature');
+      throw badRequest('The signature does not match the body: the event is rejected.');
+    }
+    const result = await handleProviderEvent(db, event);
+    res.json({ received: true, ...result });
+  });
+  return router;
+}

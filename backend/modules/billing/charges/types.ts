@@ -1,0 +1,49 @@
+import type { LineItem } from '../../../../shared/schemas/billing.ts';
+import type { Database } from '../../../db/database.ts';
+import type { PriceBook } from '../price-book.ts';
+
+export interface ChargeContext {
+  period: string;
+  /** First day of the period, last day, first day of the next period ('YYYY-MM-DD'). */
+  first: string;
+  last: string;
+  next: string;
+  timeZone: string;
+  book: PriceBook;
+  /** Only these members (a preview for one member); all when absent. */
+  memberIds?: string[];
+}
+
+/** One charge before tax: derived from a record, pointing back to it. */
+export interface ChargeDraft {
+  memberId: string;
+  item: LineItem;
+  description: string;
+  /** The record it comes from ('booking', 'membership', 'manual_charge', …) and its id. */
+  sourceType: string;
+  sourceId: string;
+  /** How the invoice names the source: "F-07, 12–26 Nov, 14 days". */
+  sourceLabel: string;
+  /** First and last day of use covered (inclusive). */
+  serviceFrom: string;
+  serviceTo: string;
+  quantity: number;
+  unit: string;
+  unitPriceCents: number;
+  priceId: string | null;
+  /** False for a manual charge or credit marked as outside tax. */
+  taxable: boolean;
+}
+
+export interface SourceResult {
+  charges: ChargeDraft[];
+  /** Use that cannot be billed as things stand (a missing price), named for the treasurer. */
+  problems: string[];
+}
+
+/** One kind of record that gives rise to charges. Each derives its charges for a period on its own. */
+export interface ChargeSource {
+  key: string;
+  label: string;
+  derive(db: Database, ctx: ChargeContext): Promise<SourceResult>;
+}

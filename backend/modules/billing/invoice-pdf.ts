@@ -1,0 +1,233 @@
+import { createRequire } from 'node:module';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces';
+import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
+import { formatMoney, formatRate } from '../../../shared/billing/money.ts';
+import type { BillingProfile, CreditNote, InvoiceDetail } from '../../../shared/schemas/billing.ts';
+
+const require = createRequire(import.meta.url);
+// pdfmake 0.3's server build is one shared instance; it embeds WOFF/TTF fonts (not WOFF2).
+const pdfmake = require('pdfmake') as {
+  setFonts(fonts: Record<string, Record<string, string>>): void;
+  setUrlAccessPolicy(cb: (url: string) => boolean): void;
+  setLocalAccessPolicy(cb: (path: string) => boolean): void;
+  createPdf(doc: TDocumentDefinitions): { getBuffer(): Promise<Buffer> };
+};
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
+const fontDir = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files');
+const font = path.join(fontDir, 'roboto-flex-latin-400-normal.woff');
+let configured = false;
+function configure() {
+  if (configured) return;
+  pdfmake.setFonts({ RobotoFlex: { normal: font, bold: font, italics: font, bolditalics: font } });
+  // An invoice never fetches anything, and reads only the font files.
+  pdfmake.setUrlAccessPolicy(() => false);
+  pdfmake.setLocalAccessPolicy((p) => path.resolve(p).startsWith(fontDir));
+  configured = true;
+}
+
+const ink = '#1d1b18';
+const muted = '#5c564d';
+const copper = '#8f4520';
+const rule = '#c9bca8';
+
+const statusMarks: Record<InvoiceDetail['status'], string | null> = {
+  draft: 'DRAFT — not yet issued',
+  issued: null,
+  paid: 'PAID',
+  void: 'VOID — replaced by a credit note',
+};
+
+export interface InvoicePdfInput {
+  invoice: InvoiceDetail;
+  profile: BillingProfile;
+  /** Where members sign in to pay online. */
+  appUrl: string;
+}
+
+function money(cents: number, currency: string) {
+  return formatMoney(cents, currency, 'en-GB');
+}
+
+function quantity(q: number, unit: string): string {
+  const n = Number.isInteger(q) ? String(q) : q.toFixed(3).replace(/0+$/, '');
+  return `${n} ${unit}${q === 1 || unit === 'item' ? '' : 's'}`.replace(/ items?$/, '');
+}
+
+const th = (text: string, alignment: 'left' | 'right' = 'left'): TableCell => ({ text, color: muted, fontSize: 8, alignment, margin: [0, 2, 0, 2] });
+
+function linesTable(inv: InvoiceDetail): Content {
+  const c = inv.currency;
+  const body: TableCell[][] = [
+    [th('Charge'), th('From'), th('Quantity', 'right'), th('Unit price', 'right'), th('Tax', 'right'), th('Amount', 'right')],
+    ...inv.lines.map((l): TableCell[] => [
+      { text: l.description },
+      { text: l.sourceLabel, color: muted },
+      { text: quantity(l.quantity, l.unit), alignment: 'right', noWrap: true },
+      { text: money(l.unitPriceCents, c), alignment: 'right', noWrap: true },
+      { text: formatRate(l.taxRateBp), alignment: 'right', noWrap: true, color: muted },
+      { text: money(l.amountCents, c), alignment: 'right', noWrap: true },
+    ]),
+  ];
+  return {
+    table: { headerRows: 1, widths: ['*', '*', 'auto', 'auto', 'auto', 'auto'], body },
+    layout: {
+      hLineWidth: (i: number) => (i === 1 ? 0.8 : 0.3),
+      vLineWidth: () => 0,
+      hLineColor: () => rule,
+      paddingTop: () => 3,
+      paddingBottom: () => 3,
+    },
+    fontSize: 9,
+  };
+}
+
+function taxBreakdown(inv: InvoiceDetail): { rate: number; net: number; tax: number }[] {
+  const byRate = new Map<number, { rate: number; net: number; tax: number }>();
+  for (const l of inv.lines) {
+    const r = byRate.get(l.taxRateBp) ?? { rate: l.taxRateBp, net: 0, tax: 0 };
+    r.net += l.amountCents;
+    r.tax += l.taxCents;
+    byRate.set(l.taxRateBp, r);
+  }
+  return [...byRate.values()].sort((a, b) => a.rate - b.rate);
+}
+
+function totals(inv: InvoiceDetail): Content {
+  const c = inv.currency;
+  const row = (label: string, value: string, strong = false): TableCell[] => [
+    { text: label, color: strong ? ink : muted, fontSize: strong ? 11 : 9 },
+    { text: value, alignment: 'right', fontSize: strong ? 11 : 9, color: strong ? ink : ink, noWrap: true },
+  ];
+  const body: TableCell[][] = [row('Subtotal', money(inv.subtotalCents, c))];
+  for (const t of taxBreakdown(inv)) body.push(row(`Tax at ${formatRate(t.rate)} on ${money(t.net, c)}`, money(t.tax, c)));
+  body.push(row('Total', money(inv.totalCents, c), true));
+  if (inv.creditedCents) body.push(row('Credited (credit notes)', money(-inv.creditedCents, c)));
+  if (inv.paidCents) body.push(row('Paid', money(-inv.paidCents, c)));
+  if (inv.status !== 'draft') body.push(row(inv.amountDueCents < 0 ? 'In credit' : 'Amount due', money(inv.amountDueCents, c), true));
+  return {
+    columns: [
+      { width: '*', text: '' },
+      {
+        width: 260,
+        table: { widths: ['*', 'auto'], body },
+        layout: { hLineWidth: (i: number, node: { table: { body: unknown[] } }) => (i === node.table.body.length - 1 || i === 1 ? 0.3 : 0), vLineWidth: () => 0, hLineColor: () => rule },
+      },
+    ],
+    margin: [0, 10, 0, 0],
+  };
+}
+
+function creditNotesBlock(notes: CreditNote[]): Content[] {
+  if (notes.length === 0) return [];
+  return [
+    { text: 'Credit notes on this invoice', fontSize: 10, color: copper, margin: [0, 16, 0, 4] },
+    ...notes.map(
+      (n): Content => ({
+        text: `${n.number} of ${longDate(n.issuedOn)} (${n.kind === 'void' ? 'replaces the voided invoice' : 'refund or credit'}): ${money(n.totalCents, n.currency)} — ${n.reason}`,
+        fontSize: 9,
+      }),
+    ),
+  ];
+}
+
+function howToPay(inv: InvoiceDetail, profile: BillingProfile, appUrl: string): Content[] {
+  if (inv.status === 'void' || inv.status === 'draft' || inv.amountDueCents <= 0) return [];
+  const ref = inv.number ?? '';
+  return [
+    { text: 'How to pay', fontSize: 10, color: copper, margin: [0, 18, 0, 4] },
+    {
+      ul: [
+        `Online: sign in at ${appUrl}/billing/my-invoices and choose Pay online.`,
+        `Bank transfer to ${profile.bankAccountName}, account ${profile.bankAccount}, quoting ${ref} as the reference.`,
+        'Cash: hand it to the treasurer and ask for a receipt.',
+      ],
+      fontSize: 9,
+    },
+    ...(profile.paymentNote ? [{ text: profile.paymentNote, fontSize: 9, color: muted, margin: [0, 4, 0, 0] } as Content] : []),
+  ];
+}
+
+export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInput): TDocumentDefinitions {
+  const mark = statusMarks[inv.status];
+  const meta: [string, string][] = [
+    ['Invoice number', inv.number ?? 'not yet issued'],
+    ['Invoice date', inv.issuedOn ? longDate(inv.issuedOn) : '—'],
+    ['Due date', inv.dueOn ? longDate(inv.dueOn) : '—'],
+    ['Period', periodLabel(inv.period)],
+  ];
+  return {
+    info: { title: `Invoice ${inv.number ?? 'draft'} — ${profile.coopName}`, author: profile.coopName, subject: `Invoice for ${periodLabel(inv.period)}` },
+    pageSize: 'A4',
+    pageMargins: [48, 48, 48, 56],
+    defaultStyle: { font: 'RobotoFlex', fontSize: 10, color: ink, lineHeight: 1.15 },
+    ...(mark ? { watermark: { text: mark.split(' — ')[0]!, color: inv.status === 'paid' ? '#4b5a26' : '#8a8277', opacity: 0.12, fontSize: 80 } } : {}),
+    footer: (page: number, pages: number): Content => ({
+      columns: [
+        { text: `${profile.coopName} · ${profile.email}`, color: muted, fontSize: 8 },
+        { text: `${inv.number ?? 'Draft'} · page ${page} of ${pages}`, color: muted, fontSize: 8, alignment: 'right' },
+      ],
+      margin: [48, 16, 48, 0],
+    }),
+    content: [
+      {
+        columns: [
+          {
+            width: '*',
+            stack: [
+              { text: profile.coopName, fontSize: 16, color: copper },
+              ...profile.addressLines.map((l) => ({ text: l, color: muted, fontSize: 9 })),
+              { text: profile.email, color: muted, fontSize: 9 },
+            ],
+          },
+          {
+            width: 'auto',
+            stack: [
+              { text: 'Invoice', fontSize: 22, alignment: 'right' },
+              ...(mark ? [{ text: mark, fontSize: 9, alignment: 'right' as const, color: copper }] : []),
+            ],
+          },
+        ],
+      },
+      {
+        columns: [
+          {
+            width: '*',
+            stack: [
+              { text: 'Billed to', color: muted, fontSize: 8, margin: [0, 0, 0, 2] },
+              { text: inv.memberName },
+              { text: inv.memberEmail, color: muted, fontSize: 9 },
+            ],
+          },
+          {
+            width: 'auto',
+            table: { body: meta.map(([k, v]): TableCell[] => [{ text: k, color: muted, fontSize: 9 }, { text: v, fontSize: 9, alignment: 'right' }]) },
+            layout: 'noBorders',
+          },
+        ],
+        margin: [0, 24, 0, 18],
+      },
+      inv.lines.length ? linesTable(inv) : { text: 'No charges.', color: muted },
+      totals(inv),
+      ...creditNotesBlock(inv.creditNotes),
+      ...howToPay(inv, profile, appUrl),
+      {
+        text: `Amounts in ${inv.currency}. Each line is rounded to the cent on its own (halves away from zero), and so is its tax; the invoice's tax is the sum of its lines' tax.`,
+        fontSize: 7.5,
+        color: muted,
+        margin: [0, 18, 0, 0],
+      },
+    ],
+  };
+}
+
+export async function renderInvoicePdf(input: InvoicePdfInput): Promise<Buffer> {
+  configure();
+  return pdfmake.createPdf(invoiceDocument(input)).getBuffer();
+}
+
+export function invoicePdfFilename(inv: Pick<InvoiceDetail, 'number' | 'period' | 'id'>): string {
+  return `invoice-${inv.number ?? `draft-${inv.period}-${inv.id.slice(0, 8)}`}.pdf`;
+}
