@@ -6,6 +6,7 @@ import {
   defaultSanitationSettings,
   sanitationSettingsSchema,
 } from './cellar-settings.ts';
+import { defaultFermentationSettings, fermentationSettingsSchema } from './batches.ts';
 
 /**
  * The co-op's settings: one section per key in the `setting` table. Each section has a schema
@@ -89,6 +90,14 @@ export const settingSections = {
     schema: carbonationSettingsSchema,
     defaults: defaultCarbonationSettings,
   } satisfies SettingSection<typeof carbonationSettingsSchema>,
+  fermentation: {
+    key: 'fermentation',
+    title: 'Fermentation',
+    description:
+      'When a batch counts as finished (the same gravity within a tolerance over a span of days; common practice is 0.001 over 2–3 days), the hydrometers’ calibration temperature and the refractometer wort correction factor.',
+    schema: fermentationSettingsSchema,
+    defaults: defaultFermentationSettings,
+  } satisfies SettingSection<typeof fermentationSettingsSchema>,
 } as const;
 export type SettingKey = keyof typeof settingSections;
 export const settingKeys = Object.keys(settingSections) as SettingKey[];
