@@ -1,6 +1,6 @@
 import PgBoss from 'pg-boss';
 
-export const queues = ['email.send', 'bookings.advance', 'cellar.carbonation-reminder', 'cellar.freshness-lapse'] as const;
+export const queues = ['email.send', 'bookings.advance', 'cellar.carbonation-reminder', 'cellar.periodic'] as const;
 
 /** pg-boss on the application's own PostgreSQL: jobs survive restarts and are shared by all instances. */
 export async function createQueue(connectionString: string, extraQueues: string[] = []): Promise<PgBoss> {

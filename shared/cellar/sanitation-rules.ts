@@ -125,22 +125,25 @@ export function evaluateCycle(input: readonly StepForRules[], settings: Sanitati
   // The sequence: each required step must follow the one before it.
   const anyOf = (step: SanitationStep) => steps.some((st) => st.step === step);
   let position = -1;
+  let broken = false;
   const reached: Record<SanitationStep, boolean> = { clean: false, rinse: false, sanitize: false, purge: false };
   for (const step of stepOrder) {
     // The first good occurrence after the previous step.
     const i = steps.findIndex((st, j) => j > position && st.step === step && st.ok);
     if (i >= 0) {
-      reached[step] = true;
-      position = i;
+      if (!broken) {
+        reached[step] = true;
+        position = i;
+      }
       continue;
     }
+    broken = true;
     if (!anyOf(step)) {
       issues.push({ code: 'missing_step', step, message: `No ${stepNames[step]} step.` });
     } else if (steps.some((st) => st.step === step && st.ok)) {
       issues.push({ code: 'out_of_order', step, message: `The ${stepNames[step]} step came before the step it must follow.` });
     }
-    // A step that is present but not ok already has its issue; the sequence stops here.
-    break;
+    // A step that is present but not ok already has its issue.
   }
 
   const cleanedAndRinsed = reached.clean && reached.rinse;

@@ -379,3 +379,19 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
   }
   return true;
 }
+
+/** Reminders due by now that were never sent (their job lost, or the plan seeded): sent once each. */
+export async function sendDueReminders(db: Database, queue: PgBoss): Promise<number> {
+  const due = await db
+    .selectFrom('carbonation_plan')
+    .select('id')
+    .where('state', '=', 'active')
+    .where('method', '=', 'fast_start')
+    .where('pressure_lowered_at', 'is', null)
+    .where('reminder_sent_at', 'is', null)
+    .where('lower_pressure_at', '<=', new Date(Date.now() - 5 * 60_000))
+    .execute();
+  let sent = 0;
+  for (const p of due) if (await sendLowerPressureReminder(db, queue, p.id)) sent += 1;
+  return sent;
+}

@@ -1,20 +1,22 @@
 import type { Deps } from '../../lib/deps.ts';
-import { carbonationReminderQueue, sendLowerPressureReminder } from '../carbonation/carbonation.service.ts';
+import { carbonationReminderQueue, sendDueReminders, sendLowerPressureReminder } from '../carbonation/carbonation.service.ts';
 import { applyFreshnessLapses } from './vessel-state.ts';
 
-export const freshnessLapseQueue = 'cellar.freshness-lapse';
-export const cellarQueues = [carbonationReminderQueue, freshnessLapseQueue] as const;
+export const cellarPeriodicQueue = 'cellar.periodic';
+export const cellarQueues = [carbonationReminderQueue, cellarPeriodicQueue] as const;
 
 /**
  * The cellar's queued work: the fast-start reminder to lower the pressure, and a periodic pass
- * that writes lapsed freshness windows down (reads already treat them as lapsed).
+ * that writes lapsed freshness windows down (reads already treat them as lapsed) and sends any
+ * lowering reminder whose queued job never ran (a plan recorded with a past start, say).
  */
 export async function startCellarWorkers({ db, queue }: Deps): Promise<void> {
   await queue.work<{ planId: string }>(carbonationReminderQueue, { pollingIntervalSeconds: 2 }, async (jobs) => {
     for (const job of jobs) await sendLowerPressureReminder(db, queue, job.data.planId);
   });
-  await queue.work(freshnessLapseQueue, { pollingIntervalSeconds: 30 }, async () => {
+  await queue.work(cellarPeriodicQueue, { pollingIntervalSeconds: 30 }, async () => {
     await applyFreshnessLapses(db);
+    await sendDueReminders(db, queue);
   });
-  await queue.schedule(freshnessLapseQueue, '*/15 * * * *');
+  await queue.schedule(cellarPeriodicQueue, '*/15 * * * *');
 }
