@@ -1,6 +1,5 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
-import { periodBounds } from '../../../shared/billing/dates.ts';
 import { centsToDecimal } from '../../../shared/billing/money.ts';
 import { paymentMethodLabels } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
@@ -21,9 +20,12 @@ interface Sheet {
   rows: Record<string, Cell>[];
 }
 
-/** A period's invoice lines, the credit notes issued and the payments received in that month. */
+/**
+ * A period's ledger: the lines of its issued invoices, and the credit notes and payments on those
+ * invoices whenever they came. Each credit note and payment belongs to one invoice of one period,
+ * so a month-by-month export lists each exactly once.
+ */
 export async function periodLedger(db: Database, period: string): Promise<Sheet[]> {
-  const { first, next } = periodBounds(period);
   const lines = await db
     .selectFrom('invoice_line as l')
     .innerJoin('invoice as i', 'i.id', 'l.invoice_id')
@@ -61,8 +63,7 @@ export async function periodLedger(db: Database, period: string): Promise<Sheet[
     .innerJoin('invoice as i', 'i.id', 'c.invoice_id')
     .innerJoin('app_user as u', 'u.id', 'c.member_id')
     .select(['c.number', 'c.issued_on', 'c.kind', 'c.reason', 'c.currency', 'c.subtotal_cents', 'c.tax_cents', 'c.total_cents', 'i.number as invoice_number', 'u.name as member'])
-    .where('c.issued_on', '>=', first)
-    .where('c.issued_on', '<', next)
+    .where('i.period', '=', period)
     .orderBy('c.number_year')
     .orderBy('c.number_seq')
     .execute();
@@ -71,8 +72,7 @@ export async function periodLedger(db: Database, period: string): Promise<Sheet[
     .innerJoin('invoice as i', 'i.id', 'p.invoice_id')
     .innerJoin('app_user as u', 'u.id', 'p.member_id')
     .select(['p.received_on', 'p.method', 'p.amount_cents', 'p.currency', 'p.reference', 'p.note', 'i.number as invoice_number', 'u.name as member'])
-    .where('p.received_on', '>=', first)
-    .where('p.received_on', '<', next)
+    .where('i.period', '=', period)
     .orderBy('p.received_on')
     .orderBy('p.created_at')
     .execute();
