@@ -64,14 +64,21 @@ export function sumLines(lines: LineTotals[]): { subtotalCents: number; taxCents
   return { subtotalCents, taxCents: tax, totalCents: subtotalCents + tax };
 }
 
+const moneyFormats = new Map<string, Intl.NumberFormat | null>();
+
 /** "€1,234.50" style, in the reader's locale; cents stay exact (no floating arithmetic on the amount). */
 export function formatMoney(cents: number, currency: string, locale?: string): string {
-  const major = cents / 100;
-  try {
-    return new Intl.NumberFormat(locale ?? 'en-GB', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 }).format(major);
-  } catch {
-    return `${currency} ${major.toFixed(2)}`;
+  const key = `${locale ?? 'en-GB'}|${currency}`;
+  let format = moneyFormats.get(key);
+  if (format === undefined) {
+    try {
+      format = new Intl.NumberFormat(locale ?? 'en-GB', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
+    } catch {
+      format = null;
+    }
+    moneyFormats.set(key, format);
   }
+  return format ? format.format(cents / 100) : `${currency} ${centsToDecimal(cents)}`;
 }
 
 /** Cents as a plain decimal string for exports: 123456 → "1234.56", −5 → "-0.05". */
@@ -82,6 +89,7 @@ export function centsToDecimal(cents: number): string {
 }
 
 /** A tax rate in basis points as "8 %" or "7.5 %". */
+const rateFormat = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 2 });
 export function formatRate(rateBp: number): string {
-  return `${(rateBp / 100).toLocaleString('en-GB', { maximumFractionDigits: 2 })} %`;
+  return `${rateFormat.format(rateBp / 100)} %`;
 }
