@@ -1,0 +1,130 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import type { Booking, CreateBookingInput } from '../../../../shared/schemas/booking.ts';
+import { equipmentKindLabels, type Equipment } from '../../../../shared/schemas/equipment.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Dialog } from '@/components/ui/dialog';
+import { Field } from '@/components/ui/field';
+import { Input, Select } from '@/components/ui/input';
+import { createBookingSchema, useCreateBooking } from '@/features/bookings/api/create-booking';
+import { useBookingRules } from '@/features/bookings/api/get-booking-rules';
+import { isApiProblem } from '@/lib/api-client';
+import { applyProblemToForm } from '@/utils/problem-form';
+
+/** `2026-12-07T09:00` in the browser's time zone, as a datetime-local input shows it. */
+export function toLocalInput(iso: string): string {
+  const d = new Date(iso);
+  if (Number.isNaN(d.getTime())) return '';
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}T${pad(d.getHours())}:${pad(d.getMinutes())}`;
+}
+const fromLocalInput = (value: string) => {
+  const d = new Date(value);
+  return Number.isNaN(d.getTime()) ? value : d.toISOString();
+};
+
+export interface BookingDraft {
+  equipmentId: string;
+  startsAt: string;
+  endsAt: string;
+}
+
+export interface BookingFormDialogProps {
+  draft: BookingDraft | null;
+  items: Equipment[];
+  onClose: () => void;
+  onBooked: (booking: Booking) => void;
+}
+
+/** The booking form, opened from a free slot on the calendar (react-hook-form + the shared schema). */
+export const BookingFormDialog = ({ draft, items, onClose, onBooked }: BookingFormDialogProps) => (
+  <Dialog open={Boolean(draft)} onClose={onClose} title="Book equipment" description="The item stays free for cleaning for the co-op's buffer after your booking.">
+    {draft ? <BookingForm draft={draft} items={items} onBooked={onBooked} onCancel={onClose} /> : null}
+  </Dialog>
+);
+
+const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft; items: Equipment[]; onBooked: (b: Booking) => void; onCancel: () => void }) => {
+  const mutation = useCreateBooking();
+  const rules = useBookingRules();
+  const [problem, setProblem] = useState<{ title: string; lines: string[] } | null>(null);
+  const form = useForm<CreateBookingInput>({
+    resolver: zodResolver(createBookingSchema),
+    defaultValues: { equipmentId: draft.equipmentId, startsAt: draft.startsAt, endsAt: draft.endsAt, notes: '' },
+  });
+  const errors = form.formState.errors;
+  const selected = items.find((i) => i.id === form.watch('equipmentId'));
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    setProblem(null);
+    try {
+      const { booking } = await mutation.mutateAsync(values);
+      onBooked(booking);
+    } catch (error) {
+      const lines = applyProblemToForm(error, form.setError, ['equipmentId', 'startsAt', 'endsAt', 'notes']);
+      if (isApiProblem(error) && (error.status === 409 || error.status === 422)) {
+        setProblem({ title: error.status === 409 ? 'That slot is taken' : error.title, lines: error.status === 409 ? [error.detail ?? error.title] : lines });
+      } else if (lines.length) setProblem({ title: 'The booking was not made', lines });
+    }
+  });
+
+  return (
+    <form onSubmit={onSubmit} className="flex flex-col gap-4" noValidate aria-label="Booking">
+      {problem ? (
+        <Alert tone="error" title={problem.title}>
+          {problem.lines.join(' ')}
+        </Alert>
+      ) : null}
+      <Field label="Item" error={errors.equipmentId?.message}>
+        {(c) => (
+          <Select {...c} {...form.register('equipmentId')}>
+            {items.map((i) => (
+              <option key={i.id} value={i.id} disabled={i.state === 'out_of_service'}>
+                {i.code} · {i.name}
+                {i.state === 'out_of_service' ? ' (out of service)' : ''}
+              </option>
+            ))}
+          </Select>
+        )}
+      </Field>
+      <div className="grid gap-4 sm:grid-cols-2">
+        <Controller
+          control={form.control}
+          name="startsAt"
+          render={({ field }) => (
+            <Field label="From" error={errors.startsAt?.message}>
+              {(c) => <Input {...c} type="datetime-local" value={toLocalInput(field.value)} onChange={(e) => field.onChange(fromLocalInput(e.target.value))} onBlur={field.onBlur} />}
+            </Field>
+          )}
+        />
+        <Controller
+          control={form.control}
+          name="endsAt"
+          render={({ field }) => (
+            <Field label="Until" error={errors.endsAt?.message}>
+              {(c) => <Input {...c} type="datetime-local" value={toLocalInput(field.value)} onChange={(e) => field.onChange(fromLocalInput(e.target.value))} onBlur={field.onBlur} />}
+            </Field>
+          )}
+        />
+      </div>
+      <Field label="Notes" hint="Optional: the beer, a batch name, anything the brewer on duty should know." error={errors.notes?.message}>
+        {(c) => <Input {...c} {...form.register('notes')} autoComplete="off" />}
+      </Field>
+      {rules.data && selected ? (
+        <p className="text-xs text-ink-muted">
+          Co-op rules: a {equipmentKindLabels[selected.kind].toLowerCase()} for at most {rules.data.maxDays[selected.kind]} days, starting within {rules.data.maxAdvanceDays} days;
+          {' '}at most {rules.data.maxActiveBookingsPerMember} bookings at once; {rules.data.cleaningBufferHours} h kept free for cleaning after each booking.
+        </p>
+      ) : null}
+      <div className="flex justify-end gap-2">
+        <Button variant="ghost" onClick={onCancel}>
+          Close
+        </Button>
+        <Button type="submit" pending={mutation.isPending}>
+          Book
+        </Button>
+      </div>
+    </form>
+  );
+};

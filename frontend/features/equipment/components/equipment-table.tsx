@@ -1,0 +1,162 @@
+import {
+  createColumnHelper,
+  getCoreRowModel,
+  useReactTable,
+  type RowSelectionState,
+  type SortingState,
+  type Updater,
+} from '@tanstack/react-table';
+import { useMemo } from 'react';
+import { Link } from 'react-router-dom';
+import {
+  equipmentKindLabels,
+  equipmentSortFields,
+  type Equipment,
+  type EquipmentListQuery,
+  type EquipmentSortField,
+} from '../../../../shared/schemas/equipment.ts';
+import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { StateBadge } from '@/features/equipment/components/state-badge';
+import type { EquipmentListQueryPatch } from '@/features/equipment/hooks/use-equipment-search-params';
+import { useUnits } from '@/hooks/use-units';
+import { formatDateTime } from '@/utils/format';
+
+export interface EquipmentTableProps {
+  query: EquipmentListQuery;
+  data: Page<Equipment> | undefined;
+  isLoading: boolean;
+  isFetching: boolean;
+  isPlaceholderData: boolean;
+  onQueryChange: (patch: EquipmentListQueryPatch) => void;
+  selection: RowSelectionState;
+  onSelectionChange: (next: RowSelectionState) => void;
+}
+
+const column = createColumnHelper<Equipment>();
+const isSortField = (id: string): id is EquipmentSortField => (equipmentSortFields as readonly string[]).includes(id);
+
+/** The kind's facts in a few words: "conical, valve", "ball lock, LY19-…", "4.0 m × 4.8 mm line". */
+function facts(item: Equipment): string {
+  const a = item.attributes;
+  switch (item.kind) {
+    case 'fermenter':
+      return [a.style, a.hasValve ? 'bottom valve' : 'no valve'].filter(Boolean).join(', ');
+    case 'keg':
+      return [a.lock ? `${String(a.lock)} lock` : null, a.serial].filter(Boolean).join(', ');
+    case 'tap':
+      return [a.position, a.lineLengthM ? `${String(a.lineLengthM)} m × ${String(a.lineInsideDiameterMm)} mm line` : null].filter(Boolean).join(' · ');
+    case 'co2_cylinder':
+      return [a.sizeKg ? `${String(a.sizeKg)} kg` : null, a.fillPercent !== undefined ? `${String(a.fillPercent)} % full` : null, a.hydroTestDue ? `test due ${String(a.hydroTestDue)}` : null]
+        .filter(Boolean)
+        .join(', ');
+  }
+}
+
+export const EquipmentTable = ({ query, data, isLoading, isFetching, isPlaceholderData, onQueryChange, selection, onSelectionChange }: EquipmentTableProps) => {
+  const units = useUnits();
+  const columns = useMemo(
+    () => [
+      column.display({
+        id: 'select',
+        header: ({ table }) => (
+          <input
+            type="checkbox"
+            className="size-4 accent-copper"
+            aria-label="Select every item on this page"
+            checked={table.getIsAllPageRowsSelected()}
+            ref={(el) => {
+              if (el) el.indeterminate = table.getIsSomePageRowsSelected();
+            }}
+            onChange={table.getToggleAllPageRowsSelectedHandler()}
+          />
+        ),
+        cell: ({ row }) => (
+          <input
+            type="checkbox"
+            className="size-4 accent-copper"
+            aria-label={`Select ${row.original.code}`}
+            checked={row.getIsSelected()}
+            onChange={row.getToggleSelectedHandler()}
+          />
+        ),
+        meta: { className: 'w-px' },
+      }),
+      column.accessor('code', {
+        header: 'Code',
+        cell: ({ row }) => (
+          <Link to={`/cellar/${row.original.id}`} className="font-semibold whitespace-nowrap">
+            {row.original.code}
+          </Link>
+        ),
+      }),
+      column.accessor('name', { header: 'Name', meta: { className: 'min-w-44' } }),
+      column.accessor('kind', { header: 'Kind', cell: ({ getValue }) => equipmentKindLabels[getValue()] }),
+      column.accessor('capacityLiters', {
+        header: 'Capacity',
+        sortDescFirst: true,
+        cell: ({ getValue }) => (getValue() ? units.volume(getValue()) : <span className="text-ink-muted">—</span>),
+        meta: { className: 'text-right whitespace-nowrap' },
+      }),
+      column.accessor('state', { header: 'State', cell: ({ getValue }) => <StateBadge state={getValue()} /> }),
+      column.display({ id: 'facts', header: 'Details', cell: ({ row }) => <span className="text-ink-muted">{facts(row.original)}</span> }),
+      column.accessor('stateChangedAt', {
+        header: 'State since',
+        sortDescFirst: true,
+        cell: ({ getValue }) => (
+          <time dateTime={getValue()} className="whitespace-nowrap">
+            {formatDateTime(getValue())}
+          </time>
+        ),
+      }),
+    ],
+    [units],
+  );
+
+  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
+  const onSortingChange = (updater: Updater<SortingState>) => {
+    const next = typeof updater === 'function' ? updater(sorting) : updater;
+    const first = next[0];
+    if (!first || !isSortField(first.id)) return;
+    onQueryChange({ sort: first.id, order: first.desc ? 'desc' : 'asc' });
+  };
+
+  const table = useReactTable({
+    data: data?.items ?? [],
+    columns,
+    getRowId: (item) => item.id,
+    getCoreRowModel: getCoreRowModel(),
+    manualSorting: true,
+    manualPagination: true,
+    manualFiltering: true,
+    enableMultiSort: false,
+    enableSortingRemoval: false,
+    enableRowSelection: true,
+    rowCount: data?.total ?? 0,
+    state: { sorting, rowSelection: selection, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
+    onSortingChange,
+    onRowSelectionChange: (updater) => onSelectionChange(typeof updater === 'function' ? updater(selection) : updater),
+  });
+
+  return (
+    <div className="flex flex-col gap-3">
+      <DataTable
+        table={table}
+        caption="The co-op's equipment"
+        isLoading={isLoading}
+        isFetching={isFetching}
+        rowClassName={(row) => (row.original.state === 'out_of_service' ? 'text-ink-muted' : undefined)}
+        empty="No equipment matches these filters."
+      />
+      <DataTablePagination
+        page={query.page}
+        pageSize={query.pageSize}
+        total={data?.total ?? 0}
+        isPlaceholder={isPlaceholderData}
+        onPageChange={(page) => onQueryChange({ page })}
+        onPageSizeChange={(pageSize) => onQueryChange({ pageSize })}
+        noun="items"
+      />
+    </div>
+  );
+};

@@ -1,0 +1,89 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { equipmentKindLabels, equipmentKinds } from '../../../../shared/schemas/equipment.ts';
+import { bookingRulesSchema, type BookingRules } from '../../../../shared/schemas/settings.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import { Input } from '@/components/ui/input';
+import { Spinner } from '@/components/ui/spinner';
+import { useSaveSetting, useSetting } from '@/features/settings/api/setting';
+import { problemMessage } from '@/lib/api-client';
+import { formatDateTime } from '@/utils/format';
+import { applyProblemToForm } from '@/utils/problem-form';
+
+/** The Settings section for the co-op's booking rules (admin edits; the rota and treasurer read). */
+export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => {
+  const setting = useSetting<BookingRules>('booking_rules');
+  if (setting.isPending) return <Spinner label="Loading the booking rules" />;
+  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
+  return (
+    <>
+      <BookingRulesForm value={setting.data.value} canEdit={canEdit} />
+      {setting.data.updatedBy ? (
+        <p className="mt-2 text-xs text-ink-muted">
+          Last changed by {setting.data.updatedBy.name}, {formatDateTime(setting.data.updatedAt)}.
+        </p>
+      ) : null}
+    </>
+  );
+};
+
+const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
+
+const BookingRulesForm = ({ value, canEdit }: { value: BookingRules; canEdit: boolean }) => {
+  const save = useSaveSetting<BookingRules>('booking_rules');
+  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
+  const form = useForm<BookingRules>({ resolver: zodResolver(bookingRulesSchema), defaultValues: value });
+  const errors = form.formState.errors;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(null);
+    try {
+      const saved = await save.mutateAsync(values);
+      form.reset(saved.value);
+      setMessage({ tone: 'success', text: 'Booking rules saved. New bookings follow them from now on.' });
+    } catch (error) {
+      const left = applyProblemToForm(error, form.setError, ['cleaningBufferHours', 'maxDays', 'maxAdvanceDays', 'maxActiveBookingsPerMember', 'timeZone']);
+      if (left.length) setMessage({ tone: 'error', text: left.join(' ') });
+    }
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Booking rules">
+      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+      <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+        <Field label="Cleaning buffer (hours)" hint="Kept free after every booking." error={errors.cleaningBufferHours?.message}>
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('cleaningBufferHours', num)} />}
+        </Field>
+        <Field label="How far ahead (days)" hint="Latest start of a new booking." error={errors.maxAdvanceDays?.message}>
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxAdvanceDays', num)} />}
+        </Field>
+        <Field label="Bookings at once per member" hint="Booked or in use, not yet ended." error={errors.maxActiveBookingsPerMember?.message}>
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxActiveBookingsPerMember', num)} />}
+        </Field>
+        <Field label="Time zone" hint="For e-mails and the calendar's days." error={errors.timeZone?.message}>
+          {(c) => <Input {...c} {...form.register('timeZone')} autoComplete="off" />}
+        </Field>
+      </fieldset>
+      <fieldset disabled={!canEdit} className="flex flex-col gap-2">
+        <legend className="mb-1 text-sm font-medium">Longest booking (days)</legend>
+        <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+          {equipmentKinds.map((kind) => (
+            <Field key={kind} label={equipmentKindLabels[kind]} error={errors.maxDays?.[kind]?.message}>
+              {(c) => <Input {...c} type="number" min={1} step={1} {...form.register(`maxDays.${kind}`, num)} />}
+            </Field>
+          ))}
+        </div>
+      </fieldset>
+      {canEdit ? (
+        <div>
+          <Button type="submit" pending={save.isPending}>
+            Save booking rules
+          </Button>
+        </div>
+      ) : (
+        <p className="text-xs text-ink-muted">Only the admin changes these rules.</p>
+      )}
+    </form>
+  );
+};

@@ -1,0 +1,18 @@
+import type { ComponentType } from 'react';
+import type { SettingKey } from '../../../shared/schemas/settings.ts';
+import { settingSections } from '../../../shared/schemas/settings.ts';
+import { BookingRulesSection } from '@/features/settings/components/booking-rules-form';
+
+/**
+ * The Settings screen's sections, in order. Each capability adds one entry here: its key in the
+ * `setting` table (title and description come from shared/schemas/settings.ts) and its form.
+ */
+export interface SettingsScreenSection {
+  key: SettingKey;
+  Component: ComponentType<{ canEdit: boolean }>;
+}
+
+export const settingsScreenSections: SettingsScreenSection[] = [{ key: 'booking_rules', Component: BookingRulesSection }];
+
+export const sectionTitle = (key: SettingKey) => settingSections[key].title;
+export const sectionDescription = (key: SettingKey) => settingSections[key].description;

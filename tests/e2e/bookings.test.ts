@@ -1,0 +1,154 @@
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { desktop, launchBrowser, screenshot, serve } from '../helpers/browser.ts';
+import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+
+let ctx: TestContext;
+let server: Awaited<ReturnType<typeof serve>>;
+let browser: Browser;
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+  server = await serve(ctx);
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+  await ctx?.close();
+});
+
+/** Signs in through the form (the password box has a button labelled "Show password", hence exact). */
+async function signIn(email: string) {
+  const context = await browser.newContext({ viewport: desktop, baseURL: server.url, timezoneId: 'UTC' });
+  const page = await context.newPage();
+  await page.goto('/login');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: /sign in/i }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
+  return { context, page };
+}
+
+/** Clicks the calendar cell of an item's row on a day (month view), moving to the day's month first. */
+async function clickDay(page: Page, rowLabel: string, day: string) {
+  const header = page.locator(`.ec-col-head time[datetime="${day}"]`);
+  for (let i = 0; i < 3 && (await header.count()) === 0; i++) await page.locator('button.ec-next').click();
+  const col = await header.boundingBox();
+  const row = await page.getByText(rowLabel, { exact: true }).boundingBox();
+  if (!col || !row) throw new Error(`no cell for ${rowLabel} on ${day}`);
+  await page.mouse.click(col.x + col.width / 2, row.y + row.height / 2);
+}
+
+describe('booking a fermenter on the calendar', () => {
+  it('a member picks a free fermenter, books it, sees it in My bookings and cancels it', async () => {
+    const { page, context } = await signIn('member@example.org');
+    await page.getByRole('link', { name: 'Bookings' }).click();
+    await page.waitForURL('**/bookings');
+    const row = 'F-03 · 30 L bucket fermenter 3';
+    await page.getByText(row).waitFor();
+    // Let the bookings of the visible month load before looking for a free day.
+    await page.locator('.ec-event').first().waitFor();
+
+    const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
+    const f03 = await ctx.db.selectFrom('equipment').select('id').where('code', '=', 'F-03').executeTakeFirstOrThrow();
+    // A week from now F-03 is free (its December booking was cancelled).
+    const day = new Date(Date.now() + 7 * 24 * 3600_000).toISOString().slice(0, 10);
+    const clash = await ctx.db
+      .selectFrom('booking')
+      .select('id')
+      .where('equipment_id', '=', f03.id)
+      .where('state', '<>', 'cancelled')
+      .where('blocked_until', '>', new Date(`${day}T00:00:00Z`))
+      .where('starts_at', '<', new Date(new Date(`${day}T00:00:00Z`).getTime() + 16 * 24 * 3600_000))
+      .execute();
+    expect(clash).toEqual([]);
+
+    await screenshot(page, 'bookings-calendar');
+    await clickDay(page, row, day);
+
+    const dialog = page.getByRole('dialog', { name: 'Book equipment' });
+    await dialog.waitFor();
+    await expect.poll(() => dialog.getByLabel('Item').inputValue()).toBe(f03.id);
+    expect(await dialog.getByLabel('From').inputValue()).toBe(`${day}T10:00`);
+    await dialog.getByLabel('Notes').fill('Oatmeal stout');
+    await dialog.getByRole('button', { name: 'Book', exact: true }).click();
+    await page.getByText(/F-03 is yours from/).waitFor();
+    // The new booking shows on the calendar, in copper: "Yours".
+    await page.locator('.cw-booking-mine').filter({ hasText: 'Yours' }).first().waitFor();
+    await screenshot(page, 'bookings-calendar-booked');
+
+    const made = await ctx.db
+      .selectFrom('booking')
+      .selectAll()
+      .where('equipment_id', '=', f03.id)
+      .where('owner_id', '=', member.id)
+      .where('state', '=', 'booked')
+      .executeTakeFirstOrThrow();
+    expect(made.starts_at.toISOString()).toBe(`${day}T10:00:00.000Z`);
+    expect(made.notes).toBe('Oatmeal stout');
+
+    await page.getByRole('button', { name: 'Week' }).click();
+    await page.locator('.ec-title').filter({ hasText: /\d/ }).waitFor();
+    await screenshot(page, 'bookings-calendar-week');
+
+    await page.getByRole('navigation', { name: 'Bookings sections' }).getByRole('link', { name: 'My bookings' }).click();
+    await page.waitForURL('**/bookings/mine');
+    const line = page.locator(`tr[data-booking="${made.id}"]`);
+    await line.waitFor();
+    expect(await line.innerText()).toMatch(/F-03[\s\S]*Booked/);
+    await screenshot(page, 'bookings-mine');
+    await line.getByRole('button', { name: /^Cancel F-03/ }).click();
+    const confirm = page.getByRole('dialog', { name: 'Cancel this booking?' });
+    await confirm.getByRole('button', { name: 'Cancel booking' }).click();
+    await page.getByText(/Cancelled F-03 from .* The slot is free again\./).waitFor();
+    await expect.poll(() => line.innerText()).toMatch(/Cancelled/);
+
+    const after = await ctx.db.selectFrom('booking').select(['state', 'cancelled_by']).where('id', '=', made.id).executeTakeFirstOrThrow();
+    expect(after).toEqual({ state: 'cancelled', cancelled_by: member.id });
+    await context.close();
+  }, 90_000);
+
+  it('shows the brewer on duty every booking with its owner', async () => {
+    const { page, context } = await signIn('brewer@example.org');
+    await page.goto('/bookings');
+    await page.getByText('F-01 · 30 L bucket fermenter 1').waitFor();
+    // F-01 is held by the demo member: the brewer sees the name, not "Taken".
+    await page.locator('.cw-booking').filter({ hasText: 'Maren Holloway' }).first().waitFor();
+    expect(await page.locator('.cw-booking').filter({ hasText: /^Taken/ }).count()).toBe(0);
+    await page.getByRole('link', { name: 'All bookings' }).click();
+    await page.getByRole('cell', { name: 'Maren Holloway' }).first().waitFor();
+    await context.close();
+  });
+
+  it('lists the cellar with server-side filters, opens an item\'s page, and lets the admin change the booking rules', async () => {
+    const { page, context } = await signIn('admin@example.org');
+    await page.getByRole('link', { name: 'Cellar', exact: true }).click();
+    await page.getByRole('cell', { name: 'F-01', exact: true }).waitFor();
+    await page.getByLabel('Kind').selectOption('keg');
+    await page.getByLabel('State').selectOption('needs_cleaning');
+    await page.waitForURL(/kind=keg/);
+    await expect.poll(async () => (await page.locator('tbody tr').allInnerTexts()).every((t) => /Needs cleaning/.test(t))).toBe(true);
+    const first = page.locator('tbody tr').first();
+    const code = (await first.locator('a').first().innerText()).trim();
+    expect(code).toMatch(/^K-\d{3}$/);
+    await first.getByRole('checkbox').check();
+    await expect.poll(() => page.getByRole('link', { name: /Print 1 label/ }).getAttribute('href')).toMatch(/labels\.pdf\?ids=/);
+    await screenshot(page, 'cellar-kegs-needing-cleaning');
+    await first.locator('a').first().click();
+    await page.getByRole('heading', { name: new RegExp(code) }).waitFor();
+    await page.getByRole('heading', { name: 'History' }).waitFor();
+    await page.getByText(/rated pressure/).first().waitFor(); // the keg's safety caution
+    await screenshot(page, 'cellar-keg-page');
+
+    await page.getByRole('link', { name: 'Settings', exact: true }).click();
+    const buffer = page.getByLabel('Cleaning buffer (hours)');
+    await buffer.fill('36');
+    await page.getByRole('button', { name: 'Save booking rules' }).click();
+    await page.getByText('Booking rules saved.').waitFor();
+    await screenshot(page, 'settings-booking-rules');
+    const saved = await ctx.db.selectFrom('setting').select('value').where('key', '=', 'booking_rules').executeTakeFirstOrThrow();
+    expect((saved.value as { cleaningBufferHours: number }).cleaningBufferHours).toBe(36);
+    await context.close();
+  }, 90_000);
+});
