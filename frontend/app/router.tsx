@@ -1,0 +1,118 @@
+import type { QueryClient } from '@tanstack/react-query';
+import type { ComponentType } from 'react';
+import {
+  createBrowserRouter,
+  Outlet,
+  redirect,
+  RouterProvider,
+  ScrollRestoration,
+  type LoaderFunction,
+  type LoaderFunctionArgs,
+  type RouteObject,
+} from 'react-router-dom';
+import { ErrorPage } from '@/components/errors/error-page';
+import { PageLoader } from '@/components/ui/spinner';
+import { loginHref, paths } from '@/config/paths';
+import { getMeQueryOptions, safeNextPath } from '@/lib/auth';
+import { queryClient } from '@/lib/query-client';
+
+/** A route module: a default-exported screen, and optionally a loader that prefetches its data. */
+interface RouteModule {
+  default: ComponentType;
+  clientLoader?: (queryClient: QueryClient) => LoaderFunction;
+}
+
+/** Each screen is its own chunk, fetched the first time someone goes there. */
+const lazy = (load: () => Promise<RouteModule>) => async () => {
+  const module = await load();
+  return {
+    Component: module.default,
+    ...(module.clientLoader ? { loader: module.clientLoader(queryClient) } : {}),
+  };
+};
+
+async function requireUser({ request }: LoaderFunctionArgs) {
+  const user = await queryClient.ensureQueryData(getMeQueryOptions());
+  if (!user) {
+    const url = new URL(request.url);
+    throw redirect(loginHref(`${url.pathname}${url.search}`));
+  }
+  return null;
+}
+
+async function redirectIfSignedIn({ request }: LoaderFunctionArgs) {
+  const user = await queryClient.ensureQueryData(getMeQueryOptions());
+  if (user) throw redirect(safeNextPath(new URL(request.url).searchParams.get('next')) ?? paths.today);
+  return null;
+}
+
+const Root = () => (
+  <>
+    <Outlet />
+    <ScrollRestoration />
+  </>
+);
+
+export const routes: RouteObject[] = [
+  {
+    id: 'root',
+    element: <Root />,
+    errorElement: <ErrorPage />,
+    hydrateFallbackElement: (
+      <div className="flex min-h-dvh items-center justify-center">
+        <PageLoader />
+      </div>
+    ),
+    children: [
+      { path: paths.login, loader: redirectIfSignedIn, lazy: lazy(() => import('@/app/routes/auth/login')) },
+      { path: paths.forgotPassword, lazy: lazy(() => import('@/app/routes/auth/forgot-password')) },
+      { path: paths.resetPassword, lazy: lazy(() => import('@/app/routes/auth/reset-password')) },
+      { path: paths.invitation, lazy: lazy(() => import('@/app/routes/auth/invitation')) },
+      {
+        id: 'app',
+        path: paths.today,
+        loader: requireUser,
+        lazy: async () => ({ Component: (await import('@/components/layouts/app-frame')).AppFrame }),
+        children: [
+          {
+            // Errors inside a screen keep the frame and its navigation around them.
+            errorElement: <ErrorPage inFrame />,
+            children: [
+              { index: true, lazy: lazy(() => import('@/app/routes/today')) },
+              { path: paths.profile.slice(1), lazy: lazy(() => import('@/app/routes/profile')) },
+              {
+                path: paths.members.slice(1),
+                lazy: lazy(() => import('@/app/routes/members/members-layout')),
+                children: [
+                  { index: true, lazy: lazy(() => import('@/app/routes/members/members')) },
+                  { path: 'outbox', lazy: lazy(() => import('@/app/routes/members/outbox')) },
+                ],
+              },
+              { path: paths.cellar.slice(1), lazy: lazy(() => import('@/app/routes/cellar/cellar')) },
+              { path: `${paths.cellar.slice(1)}/:equipmentId`, lazy: lazy(() => import('@/app/routes/cellar/equipment')) },
+              {
+                path: paths.bookings.slice(1),
+                lazy: lazy(() => import('@/app/routes/bookings/bookings-layout')),
+                children: [
+                  { index: true, lazy: lazy(() => import('@/app/routes/bookings/calendar')) },
+                  { path: 'mine', lazy: lazy(() => import('@/app/routes/bookings/mine')) },
+                  { path: 'all', lazy: lazy(() => import('@/app/routes/bookings/all')) },
+                ],
+              },
+              { path: paths.batches.slice(1), lazy: lazy(() => import('@/app/routes/batches/batches')) },
+              { path: `${paths.batches.slice(1)}/:batchId`, lazy: lazy(() => import('@/app/routes/batches/batch')) },
+              { path: `${paths.batches.slice(1)}/:batchId/import`, lazy: lazy(() => import('@/app/routes/batches/import')) },
+              { path: paths.productionRecords.slice(1), lazy: lazy(() => import('@/app/routes/batches/production-records')) },
+              { path: paths.settings.slice(1), lazy: lazy(() => import('@/app/routes/settings/settings')) },
+              { path: '*', lazy: lazy(() => import('@/app/routes/not-found')) },
+            ],
+          },
+        ],
+      },
+    ],
+  },
+];
+
+const router = createBrowserRouter(routes);
+
+export const AppRouter = () => <RouterProvider router={router} />;

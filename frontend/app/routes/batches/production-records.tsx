@@ -1,0 +1,148 @@
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import { Alert } from '@/components/ui/alert';
+import { Field } from '@/components/ui/field';
+import { Input } from '@/components/ui/input';
+import { buttonClasses } from '@/components/ui/button';
+import { Spinner } from '@/components/ui/spinner';
+import { paths } from '@/config/paths';
+import { productionRecordsExportHref, useProductionRecords } from '@/features/batches/api/get-production-records';
+import { formatPercent, formatSg } from '@/features/batches/components/gravity-format';
+import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useUnits } from '@/hooks/use-units';
+import { useAppAbility } from '@/lib/ability';
+import { problemMessage } from '@/lib/api-client';
+
+const month = (offset: number) => {
+  const d = new Date();
+  return new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + offset, 1)).toISOString().slice(0, 7);
+};
+const bbl = (v: number) => v.toFixed(3);
+const monthLabel = (m: string) => new Intl.DateTimeFormat(undefined, { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${m}-01T00:00:00Z`));
+
+/** Volumes packaged and ABV per batch and month, in litres and US barrels, for the records licensing and excise rules ask for. */
+const ProductionRecordsRoute = () => {
+  useDocumentTitle('Production records');
+  const ability = useAppAbility();
+  const units = useUnits();
+  const [from, setFrom] = useState(() => month(-3));
+  const [to, setTo] = useState(() => month(0));
+  const valid = /^\d{4}-\d{2}$/.test(from) && /^\d{4}-\d{2}$/.test(to) && from <= to;
+  const records = useProductionRecords(valid ? from : month(-3), valid ? to : month(0));
+  const canExport = ability.can('export', 'ProductionRecord');
+  const data = records.data;
+  return (
+    <div className="flex flex-col gap-4">
+      <nav className="text-sm">
+        <Link to={paths.batches}>Batches</Link> <span className="text-ink-faint">/</span> Production records
+      </nav>
+      <header className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <h1 className="text-2xl">Production records</h1>
+          <p className="text-sm text-ink-muted">Volumes packaged and alcohol by volume, per batch and month.</p>
+        </div>
+        {canExport && valid ? (
+          <div className="flex gap-2">
+            <a className={buttonClasses('secondary')} href={productionRecordsExportHref(from, to, 'csv')} download>
+              Export CSV
+            </a>
+            <a className={buttonClasses('secondary')} href={productionRecordsExportHref(from, to, 'xlsx')} download>
+              Export XLSX
+            </a>
+          </div>
+        ) : null}
+      </header>
+      <Alert tone="info">{data?.note ?? 'Local licensing and excise rules govern which production records must be kept.'}</Alert>
+      <div className="flex flex-wrap items-end gap-3">
+        <Field label="From month">{(c) => <Input {...c} type="month" value={from} onChange={(e) => setFrom(e.target.value)} className="w-44" />}</Field>
+        <Field label="To month" error={valid ? undefined : 'Pick a “to” month on or after the “from” month'}>
+          {(c) => <Input {...c} type="month" value={to} onChange={(e) => setTo(e.target.value)} className="w-44" />}
+        </Field>
+        {records.isFetching ? <Spinner className="mb-3 size-4 text-copper" /> : null}
+      </div>
+      {records.isError ? <Alert tone="error">{problemMessage(records.error)}</Alert> : null}
+      {data ? (
+        <>
+          <dl className="flex flex-wrap gap-3 text-sm">
+            <div className="rounded-md border border-line bg-surface px-3 py-2">
+              <dt className="text-xs text-ink-muted uppercase">Batches</dt>
+              <dd className="text-xl font-semibold">{data.totals.batches}</dd>
+            </div>
+            <div className="rounded-md border border-line bg-surface px-3 py-2">
+              <dt className="text-xs text-ink-muted uppercase">Packaged</dt>
+              <dd className="text-xl font-semibold tabular-nums">{data.totals.packagedLiters.toFixed(1)} L</dd>
+              {units.units === 'us' ? <dd className="text-xs text-ink-muted">{units.volume(data.totals.packagedLiters)}</dd> : null}
+            </div>
+            <div className="rounded-md border border-line bg-surface px-3 py-2">
+              <dt className="text-xs text-ink-muted uppercase">US barrels (31 gal)</dt>
+              <dd className="text-xl font-semibold tabular-nums">{bbl(data.totals.usBarrels)}</dd>
+            </div>
+          </dl>
+          <div className="max-h-[65dvh] overflow-auto rounded-md border border-line bg-surface">
+            <table className="w-full border-separate border-spacing-0 text-sm">
+              <caption className="sr-only">Production records by month and batch</caption>
+              <thead>
+                <tr>
+                  {['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US bbl', 'OG', 'FG', 'ABV'].map((h) => (
+                    <th key={h} scope="col" className="sticky top-0 border-b border-line-strong bg-ground-deep px-3 py-2 text-left text-xs font-semibold text-ink-muted uppercase">
+                      {h}
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {data.rows.length === 0 ? (
+                  <tr>
+                    <td colSpan={9} className="px-3 py-8 text-center text-ink-muted">
+                      Nothing packaged in these months.
+                    </td>
+                  </tr>
+                ) : null}
+                {data.months.map((m) => (
+                  <MonthRows key={m.month} month={m} rows={data.rows.filter((r) => r.month === m.month)} />
+                ))}
+              </tbody>
+            </table>
+          </div>
+        </>
+      ) : null}
+    </div>
+  );
+};
+
+const td = 'border-b border-line px-3 py-1.5';
+const MonthRows = ({
+  month: m,
+  rows,
+}: {
+  month: { month: string; batches: number; packagedLiters: number; usBarrels: number };
+  rows: { batchId: string; batchName: string; style: string; ownerName: string; packagedLiters: number; usBarrels: number; og: number | null; fg: number | null; abv: number | null }[];
+}) => (
+  <>
+    {rows.map((r) => (
+      <tr key={`${m.month}-${r.batchId}`}>
+        <td className={`${td} whitespace-nowrap text-ink-muted`}>{monthLabel(m.month)}</td>
+        <td className={td}>
+          <Link to={`${paths.batches}/${r.batchId}`}>{r.batchName}</Link>
+        </td>
+        <td className={td}>{r.style}</td>
+        <td className={`${td} whitespace-nowrap`}>{r.ownerName}</td>
+        <td className={`${td} text-right tabular-nums`}>{r.packagedLiters.toFixed(1)}</td>
+        <td className={`${td} text-right tabular-nums`}>{bbl(r.usBarrels)}</td>
+        <td className={`${td} tabular-nums`}>{formatSg(r.og)}</td>
+        <td className={`${td} tabular-nums`}>{formatSg(r.fg)}</td>
+        <td className={`${td} text-right tabular-nums`}>{formatPercent(r.abv, 2)}</td>
+      </tr>
+    ))}
+    <tr className="bg-ground font-semibold">
+      <td className={td} colSpan={4}>
+        {monthLabel(m.month)}: {m.batches} batch{m.batches === 1 ? '' : 'es'}
+      </td>
+      <td className={`${td} text-right tabular-nums`}>{m.packagedLiters.toFixed(1)}</td>
+      <td className={`${td} text-right tabular-nums`}>{bbl(m.usBarrels)}</td>
+      <td className={td} colSpan={3} />
+    </tr>
+  </>
+);
+
+export default ProductionRecordsRoute;

@@ -1,0 +1,33 @@
+/** Every URL the client builds comes from here. */
+export const paths = {
+  today: '/',
+  profile: '/profile',
+  login: '/login',
+  forgotPassword: '/forgot-password',
+  resetPassword: '/reset-password',
+  invitation: '/invitation',
+  members: '/members',
+  outbox: '/members/outbox',
+  // Screens still to come; their nav entries stay hidden until `ready`.
+  cellar: '/cellar',
+  bookings: '/bookings',
+  batches: '/batches',
+  productionRecords: '/production-records',
+  kegs: '/kegs',
+  sanitation: '/sanitation',
+  billing: '/billing',
+  billingInvoices: '/billing/invoices',
+  billingRun: '/billing/run',
+  billingPrices: '/billing/prices',
+  billingExports: '/billing/exports',
+  myInvoices: '/billing/my-invoices',
+  settings: '/settings',
+} as const;
+
+export const invoiceHref = (id: string) => `${paths.billingInvoices}/${id}`;
+export const myInvoiceHref = (id: string) => `${paths.myInvoices}/${id}`;
+
+export function loginHref(next?: string): string {
+  if (!next || next === paths.today) return paths.login;
+  return `${paths.login}?${new URLSearchParams({ next })}`;
+}

@@ -1,0 +1,91 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { Link } from 'react-router-dom';
+import type { LoginInput } from '../../../../shared/schemas/auth.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import { Input, PasswordInput } from '@/components/ui/input';
+import { paths } from '@/config/paths';
+import { loginSchema, useLogin } from '@/features/auth/api/login';
+import { isApiProblem, problemMessage } from '@/lib/api-client';
+import { pluralize } from '@/utils/format';
+import { applyProblemToForm } from '@/utils/problem-form';
+
+export interface LoginFormProps {
+  onSignedIn: () => void;
+}
+
+function loginErrorMessage(error: unknown): string | null {
+  if (!isApiProblem(error)) return problemMessage(error);
+  if (error.status === 401) return 'E-mail or password is wrong.';
+  if (error.status === 429) {
+    if (error.retryAfterSeconds === undefined) return 'Too many attempts. Try again in a few minutes.';
+    const minutes = Math.max(1, Math.ceil(error.retryAfterSeconds / 60));
+    return `Too many attempts, try again in ${pluralize(minutes, 'minute')}.`;
+  }
+  if (error.status === 422) return null; // shown beside the fields
+  return problemMessage(error);
+}
+
+export const LoginForm = ({ onSignedIn }: LoginFormProps) => {
+  const login = useLogin();
+  const [formError, setFormError] = useState<string | null>(null);
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<LoginInput>({ resolver: zodResolver(loginSchema), defaultValues: { email: '', password: '' } });
+
+  const onSubmit = handleSubmit((values) => {
+    setFormError(null);
+    login.mutate(values, {
+      onSuccess: onSignedIn,
+      onError: (error) => {
+        const message = loginErrorMessage(error);
+        if (message) return setFormError(message);
+        const rest = applyProblemToForm(error, setError, ['email', 'password']);
+        if (rest.length) setFormError(rest.join(' '));
+      },
+    });
+  });
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      <Field label="E-mail" error={errors.email?.message}>
+        {({ invalid, ...control }) => (
+          <Input
+            {...control}
+            invalid={invalid}
+            type="email"
+            autoComplete="username"
+            inputMode="email"
+            autoCapitalize="none"
+            spellCheck={false}
+            autoFocus
+            {...register('email')}
+          />
+        )}
+      </Field>
+      <Field
+        label="Password"
+        error={errors.password?.message}
+        aside={
+          <Link to={paths.forgotPassword} className="text-sm">
+            Forgot password?
+          </Link>
+        }
+      >
+        {({ invalid, ...control }) => (
+          <PasswordInput {...control} invalid={invalid} autoComplete="current-password" {...register('password')} />
+        )}
+      </Field>
+      <Button type="submit" pending={login.isPending} className="mt-1 w-full">
+        Sign in
+      </Button>
+    </form>
+  );
+};

@@ -1,0 +1,127 @@
+import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState, type Updater } from '@tanstack/react-table';
+import { useMemo, useState } from 'react';
+import { gravityUnitLabels, type BatchDetail, type ReadingDto } from '../../../../shared/schemas/batches.ts';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { ConfirmDialog } from '@/components/ui/dialog';
+import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { useDeleteReading, useReadings, type ReadingsQuery } from '@/features/batches/api/readings';
+import { formatSg } from '@/features/batches/components/gravity-format';
+import { useUnits } from '@/hooks/use-units';
+import { problemMessage } from '@/lib/api-client';
+import { formatDateTime } from '@/utils/format';
+
+const column = createColumnHelper<ReadingDto>();
+const sortable = new Set(['takenAt', 'gravitySg', 'temperatureC', 'createdAt']);
+
+/** The batch's readings, paged and sorted on the server (a digital hydrometer logs thousands). */
+export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
+  const units = useUnits();
+  const [query, setQuery] = useState<ReadingsQuery>({ page: 1, pageSize: 25, sort: 'takenAt', order: 'desc' });
+  const readings = useReadings(batch.id, query);
+  const remove = useDeleteReading(batch.id);
+  const [deleting, setDeleting] = useState<ReadingDto | null>(null);
+  const columns = useMemo(
+    () => [
+      column.accessor('takenAt', { header: 'Taken', cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDateTime(getValue())}</span> }),
+      column.accessor('gravitySg', {
+        header: 'Gravity (SG)',
+        cell: ({ row }) => (
+          <span className="tabular-nums font-medium">
+            {formatSg(row.original.gravitySg, 4)}
+            {row.original.corrected ? (
+              <span className="ml-1.5 text-xs font-normal text-ink-muted" title={row.original.rawSg !== null ? `Before correction ${formatSg(row.original.rawSg, 4)}` : undefined}>
+                corrected
+              </span>
+            ) : null}
+          </span>
+        ),
+        meta: { className: 'text-right' },
+      }),
+      column.display({
+        id: 'entered',
+        header: 'As entered',
+        cell: ({ row }) => (
+          <span className="whitespace-nowrap tabular-nums text-ink-muted">
+            {row.original.enteredValue} {gravityUnitLabels[row.original.enteredUnit]}
+          </span>
+        ),
+      }),
+      column.accessor('temperatureC', {
+        header: 'Temp.',
+        cell: ({ getValue }) => <span className="whitespace-nowrap tabular-nums">{units.temperature(getValue())}</span>,
+        meta: { className: 'text-right' },
+      }),
+      column.accessor('source', {
+        header: 'Source',
+        enableSorting: false,
+        cell: ({ getValue }) => <Badge tone={getValue() === 'import' ? 'neutral' : 'muted'}>{getValue() === 'import' ? 'Imported' : 'By hand'}</Badge>,
+      }),
+      column.accessor('createdByName', { header: 'By', enableSorting: false, cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue() ?? '—'}</span> }),
+      column.accessor('note', { header: 'Note', enableSorting: false, cell: ({ getValue }) => <span className="text-ink-muted">{getValue()}</span>, meta: { className: 'min-w-32' } }),
+      ...(batch.can.deleteReading
+        ? [
+            column.display({
+              id: 'actions',
+              header: () => <span className="sr-only">Actions</span>,
+              cell: ({ row }) => (
+                <Button variant="ghost" size="sm" onClick={() => setDeleting(row.original)} aria-label={`Delete the reading of ${formatDateTime(row.original.takenAt)}`}>
+                  Delete
+                </Button>
+              ),
+              meta: { className: 'text-right w-px' },
+            }),
+          ]
+        : []),
+    ],
+    [units, batch.can.deleteReading],
+  );
+  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
+  const onSortingChange = (updater: Updater<SortingState>) => {
+    const next = typeof updater === 'function' ? updater(sorting) : updater;
+    const first = next[0];
+    if (!first || !sortable.has(first.id)) return;
+    setQuery((q) => ({ ...q, page: 1, sort: first.id as ReadingsQuery['sort'], order: first.desc ? 'desc' : 'asc' }));
+  };
+  const table = useReactTable({
+    data: readings.data?.items ?? [],
+    columns,
+    getRowId: (r) => r.id,
+    getCoreRowModel: getCoreRowModel(),
+    manualSorting: true,
+    manualPagination: true,
+    enableMultiSort: false,
+    enableSortingRemoval: false,
+    rowCount: readings.data?.total ?? 0,
+    state: { sorting, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
+    onSortingChange,
+  });
+  return (
+    <div className="flex flex-col gap-3">
+      <DataTable table={table} caption={`Readings of ${batch.name}`} isLoading={readings.isPending} isFetching={readings.isFetching} empty="No readings yet." />
+      <DataTablePagination
+        page={query.page}
+        pageSize={query.pageSize}
+        total={readings.data?.total ?? 0}
+        isPlaceholder={readings.isPlaceholderData}
+        onPageChange={(page) => setQuery((q) => ({ ...q, page }))}
+        onPageSizeChange={(pageSize) => setQuery((q) => ({ ...q, pageSize, page: 1 }))}
+        noun="readings"
+      />
+      <ConfirmDialog
+        open={deleting !== null}
+        title="Delete this reading?"
+        confirmLabel="Delete it"
+        pending={remove.isPending}
+        error={remove.isError ? problemMessage(remove.error) : null}
+        onClose={() => {
+          remove.reset();
+          setDeleting(null);
+        }}
+        onConfirm={() => deleting && remove.mutate(deleting.id, { onSuccess: () => setDeleting(null) })}
+      >
+        {deleting ? `${formatSg(deleting.gravitySg, 4)} SG taken ${formatDateTime(deleting.takenAt)}. The batch’s figures are worked out again without it.` : null}
+      </ConfirmDialog>
+    </div>
+  );
+};

@@ -1,0 +1,22 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { InviteUserInput, User } from '../../../../shared/schemas/user.ts';
+import { userKeys } from '@/features/users/api/get-users';
+import { api } from '@/lib/api-client';
+
+export { inviteUserSchema } from '../../../../shared/schemas/user.ts';
+
+/** 201 with the new (not yet active) person; the server e-mails them an invitation link. */
+export const inviteUser = (input: InviteUserInput) => api.post<{ user: User }>('/api/users/invitations', input);
+
+export function useInviteUser() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: inviteUser,
+    onSuccess: async () => {
+      await Promise.all([
+        queryClient.invalidateQueries({ queryKey: userKeys.all }),
+        queryClient.invalidateQueries({ queryKey: ['mailbox'] }),
+      ]);
+    },
+  });
+}

@@ -1,0 +1,109 @@
+import { useCallback, useEffect, useState } from 'react';
+import { Link } from 'react-router-dom';
+import type { User } from '../../../../shared/schemas/user.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { paths } from '@/config/paths';
+import { useUsers } from '@/features/users/api/get-users';
+import { EditRolesDialog } from '@/features/users/components/edit-roles-dialog';
+import { InviteUserDialog } from '@/features/users/components/invite-user-dialog';
+import { SetActiveDialog } from '@/features/users/components/set-active-dialog';
+import { UsersTable } from '@/features/users/components/users-table';
+import { UsersToolbar } from '@/features/users/components/users-toolbar';
+import { useUsersSearchParams } from '@/features/users/hooks/use-users-search-params';
+import { problemMessage } from '@/lib/api-client';
+import { useDevMailboxAvailable } from '@/lib/dev-mailbox';
+
+export interface MembersDirectoryProps {
+  currentUserId: string;
+}
+
+type Notice = { text: string; invited?: boolean } | null;
+
+/** The admin's list of people: search, filter, sort and page on the server; invite; roles; (de)activate. */
+export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
+  const { query, setQuery } = useUsersSearchParams();
+  const users = useUsers(query);
+  const mailbox = useDevMailboxAvailable();
+  const [inviting, setInviting] = useState(false);
+  const [editing, setEditing] = useState<User | null>(null);
+  const [toggling, setToggling] = useState<User | null>(null);
+  const [notice, setNotice] = useState<Notice>(null);
+
+  // Past the last page (after filtering or deactivating): go to the last one there is.
+  const total = users.data?.total ?? 0;
+  const itemCount = users.data?.items.length ?? 0;
+  useEffect(() => {
+    if (users.isPlaceholderData || !users.data || itemCount > 0 || query.page <= 1) return;
+    const lastPage = Math.max(1, Math.ceil(total / query.pageSize));
+    if (lastPage !== query.page) setQuery({ page: lastPage }, { replace: true });
+  }, [users.isPlaceholderData, users.data, itemCount, total, query.page, query.pageSize, setQuery]);
+
+  const onEditRoles = useCallback((user: User) => setEditing(user), []);
+  const onToggleActive = useCallback((user: User) => setToggling(user), []);
+
+  return (
+    <div className="flex flex-col gap-4">
+      <UsersToolbar query={query} onQueryChange={setQuery} onInvite={() => setInviting(true)} />
+
+      {notice ? (
+        <Alert tone="success">
+          <div className="flex flex-wrap items-center justify-between gap-2">
+            <span>
+              {notice.text}
+              {notice.invited && mailbox ? (
+                <>
+                  {' '}
+                  In development the e-mail lands in the <Link to={paths.outbox}>Outbox</Link>.
+                </>
+              ) : null}
+            </span>
+            <Button variant="ghost" size="sm" onClick={() => setNotice(null)}>
+              Dismiss
+            </Button>
+          </div>
+        </Alert>
+      ) : null}
+
+      {users.isError ? (
+        <Alert tone="error" title="The list could not be loaded">
+          {problemMessage(users.error)}{' '}
+          <Button variant="secondary" size="sm" className="ml-2" onClick={() => void users.refetch()}>
+            Try again
+          </Button>
+        </Alert>
+      ) : null}
+
+      <UsersTable
+        query={query}
+        data={users.data}
+        isLoading={users.isPending}
+        isFetching={users.isFetching}
+        isPlaceholderData={users.isPlaceholderData}
+        currentUserId={currentUserId}
+        onQueryChange={setQuery}
+        onEditRoles={onEditRoles}
+        onToggleActive={onToggleActive}
+        hasFilters={Boolean(query.q || query.role || query.active !== undefined)}
+      />
+
+      <InviteUserDialog
+        open={inviting}
+        onClose={() => setInviting(false)}
+        onInvited={(user) => {
+          setInviting(false);
+          setNotice({ text: `Invitation sent to ${user.name} (${user.email}).`, invited: true });
+        }}
+      />
+      <EditRolesDialog user={editing} currentUserId={currentUserId} onClose={() => setEditing(null)} />
+      <SetActiveDialog
+        user={toggling}
+        onClose={() => setToggling(null)}
+        onDone={(user) => {
+          setToggling(null);
+          setNotice({ text: `${user.name} is ${user.isActive ? 'active again' : 'deactivated'}.` });
+        }}
+      />
+    </div>
+  );
+};

@@ -1,0 +1,171 @@
+import {
+  createColumnHelper,
+  getCoreRowModel,
+  useReactTable,
+  type SortingState,
+  type Updater,
+} from '@tanstack/react-table';
+import { useMemo } from 'react';
+import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { userSortFields, type User, type UserListQuery, type UserSortField } from '../../../../shared/schemas/user.ts';
+import { RoleBadges } from '@/components/role-badges';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import type { UserListQueryPatch } from '@/features/users/hooks/use-users-search-params';
+import { formatDate, formatDateTime } from '@/utils/format';
+
+export interface UsersTableProps {
+  query: UserListQuery;
+  data: Page<User> | undefined;
+  isLoading: boolean;
+  isFetching: boolean;
+  isPlaceholderData: boolean;
+  currentUserId: string;
+  onQueryChange: (patch: UserListQueryPatch) => void;
+  onEditRoles: (user: User) => void;
+  onToggleActive: (user: User) => void;
+  hasFilters: boolean;
+}
+
+const column = createColumnHelper<User>();
+const isSortField = (id: string): id is UserSortField => (userSortFields as readonly string[]).includes(id);
+
+export const UsersTable = ({
+  query,
+  data,
+  isLoading,
+  isFetching,
+  isPlaceholderData,
+  currentUserId,
+  onQueryChange,
+  onEditRoles,
+  onToggleActive,
+  hasFilters,
+}: UsersTableProps) => {
+  const columns = useMemo(
+    () => [
+      column.accessor('name', {
+        header: 'Name',
+        cell: ({ row }) => (
+          <span className="font-medium text-ink">
+            {row.original.name}
+            {row.original.id === currentUserId ? <span className="ml-1.5 text-xs font-normal text-ink-muted">(you)</span> : null}
+          </span>
+        ),
+        meta: { className: 'min-w-40' },
+      }),
+      column.accessor('email', {
+        header: 'E-mail',
+        cell: ({ getValue }) => <span className="whitespace-nowrap text-ink-muted">{getValue()}</span>,
+      }),
+      column.accessor('roles', {
+        header: 'Roles',
+        enableSorting: false,
+        cell: ({ getValue }) => <RoleBadges roles={getValue()} />,
+        meta: { className: 'min-w-44' },
+      }),
+      column.accessor('isActive', {
+        header: 'Active',
+        enableSorting: false,
+        cell: ({ getValue }) =>
+          getValue() ? <Badge tone="ready">Active</Badge> : <Badge tone="muted">Inactive</Badge>,
+      }),
+      column.accessor('lastLoginAt', {
+        header: 'Last sign-in',
+        sortDescFirst: true,
+        cell: ({ getValue }) => {
+          const value = getValue();
+          return value ? (
+            <time dateTime={value} className="whitespace-nowrap">
+              {formatDateTime(value)}
+            </time>
+          ) : (
+            <span className="text-ink-muted">Never</span>
+          );
+        },
+      }),
+      column.accessor('createdAt', {
+        header: 'Created',
+        sortDescFirst: true,
+        cell: ({ getValue }) => (
+          <time dateTime={getValue()} className="whitespace-nowrap">
+            {formatDate(getValue())}
+          </time>
+        ),
+      }),
+      column.display({
+        id: 'actions',
+        header: () => <span className="sr-only">Actions</span>,
+        cell: ({ row }) => {
+          const user = row.original;
+          const self = user.id === currentUserId;
+          return (
+            <div className="flex justify-end gap-1.5">
+              <Button variant="secondary" size="sm" onClick={() => onEditRoles(user)} aria-label={`Edit roles of ${user.name}`}>
+                Edit roles
+              </Button>
+              <Button
+                variant="ghost"
+                size="sm"
+                onClick={() => onToggleActive(user)}
+                disabled={self}
+                title={self ? "You can't deactivate your own account" : undefined}
+                aria-label={`${user.isActive ? 'Deactivate' : 'Reactivate'} ${user.name}`}
+              >
+                {user.isActive ? 'Deactivate' : 'Reactivate'}
+              </Button>
+            </div>
+          );
+        },
+        meta: { className: 'text-right w-px whitespace-nowrap' },
+      }),
+    ],
+    [currentUserId, onEditRoles, onToggleActive],
+  );
+
+  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
+  const onSortingChange = (updater: Updater<SortingState>) => {
+    const next = typeof updater === 'function' ? updater(sorting) : updater;
+    const first = next[0];
+    if (!first || !isSortField(first.id)) return;
+    onQueryChange({ sort: first.id, order: first.desc ? 'desc' : 'asc' });
+  };
+
+  const table = useReactTable({
+    data: data?.items ?? [],
+    columns,
+    getRowId: (user) => user.id,
+    getCoreRowModel: getCoreRowModel(),
+    manualSorting: true,
+    manualPagination: true,
+    manualFiltering: true,
+    enableMultiSort: false,
+    enableSortingRemoval: false,
+    rowCount: data?.total ?? 0,
+    state: { sorting, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
+    onSortingChange,
+  });
+
+  return (
+    <div className="flex flex-col gap-3">
+      <DataTable
+        table={table}
+        caption="Members of the co-op"
+        isLoading={isLoading}
+        isFetching={isFetching}
+        rowClassName={(row) => (row.original.isActive ? undefined : 'text-ink-muted')}
+        empty={hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.'}
+      />
+      <DataTablePagination
+        page={query.page}
+        pageSize={query.pageSize}
+        total={data?.total ?? 0}
+        isPlaceholder={isPlaceholderData}
+        onPageChange={(page) => onQueryChange({ page })}
+        onPageSizeChange={(pageSize) => onQueryChange({ pageSize })}
+        noun={['person', 'people']}
+      />
+    </div>
+  );
+};

@@ -1,0 +1,16 @@
+import '@/styles.css';
+import { StrictMode } from 'react';
+import { createRoot } from 'react-dom/client';
+import { AppProvider } from '@/app/provider';
+import { AppRouter } from '@/app/router';
+
+const container = document.getElementById('root');
+if (!container) throw new Error('index.html has no #root element');
+
+createRoot(container).render(
+  <StrictMode>
+    <AppProvider>
+      <AppRouter />
+    </AppProvider>
+  </StrictMode>,
+);
