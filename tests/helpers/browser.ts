@@ -42,8 +42,8 @@ export async function signedInPage(
   const context = await browser.newContext({ viewport, baseURL: baseUrl });
   const page = await context.newPage();
   await page.goto('/login');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(password);
+  await page.getByLabel('E-mail', { exact: true }).fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
   await page.getByRole('button', { name: /sign in/i }).click();
   await page.waitForURL((u) => !u.pathname.startsWith('/login'));
   return { context, page };
