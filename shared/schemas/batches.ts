@@ -154,6 +154,8 @@ export interface BatchDetail extends BatchListItem {
   series: GravityPointDto[];
   bookings: { id: string; equipmentId: string; equipmentCode: string; equipmentName: string; startsAt: string; endsAt: string; state: string }[];
   can: { update: boolean; addReading: boolean; importReadings: boolean; deleteReading: boolean };
+  /** The co-op's correction settings, so the reading form shows the same correction the server applies. */
+  corrections: { hydrometerCalibrationC: number; wortCorrectionFactor: number };
 }
 
 /** Body of `POST /api/batches/:id/readings`. */

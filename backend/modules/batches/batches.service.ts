@@ -194,6 +194,7 @@ export async function batchDetail(db: Database, ability: AppAbility, row: BatchR
       importReadings: ability.can('import', subject('Reading', own())),
       deleteReading: ability.can('delete', subject('Reading', own())),
     },
+    corrections: { hydrometerCalibrationC: settings.hydrometerCalibrationC, wortCorrectionFactor: settings.wortCorrectionFactor },
   };
 }
 

@@ -1,0 +1,149 @@
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { desktop, launchBrowser, screenshot, serve } from '../helpers/browser.ts';
+import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+
+let ctx: TestContext;
+let server: Awaited<ReturnType<typeof serve>>;
+let browser: Browser;
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+  server = await serve(ctx);
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+  await ctx?.close();
+});
+
+async function signIn(email: string) {
+  const context = await browser.newContext({ viewport: desktop, baseURL: server.url, timezoneId: 'UTC' });
+  const page = await context.newPage();
+  await page.goto('/login');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: /sign in/i }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
+  return { context, page };
+}
+
+// A floating digital hydrometer's export, semicolon-separated with decimal commas, headers its own way.
+const exportCsv = [
+  'Timestamp;Specific gravity;Temp (°C);Comment',
+  '2026-11-02 08:00;1,056;20,1;pitched',
+  '2026-11-03 08:00;1,049;20,4;',
+  '2026-11-04 08:00;1,036;20,8;krausen',
+  '2026-11-05 08:00;1,026;20,6;',
+  '2026-11-06 08:00;1,019;20,2;',
+  '2026-11-07 08:00;1,015;20,0;',
+  '2026-11-08 08:00;1,013;19,8;',
+  '2026-11-09 08:00;1,012;19,8;',
+  '2026-11-10 08:00;1,012;19,7;',
+  '2026-11-11 08:00;1,012;19,7;steady',
+].join('\r\n');
+
+describe('importing readings in the browser', () => {
+  it('a member imports a CSV through the mapping and preview steps and sees the gravity chart', async () => {
+    const { page, context } = await signIn('member@example.org');
+
+    // A new batch, from the Batches screen.
+    await page.getByRole('link', { name: 'Batches', exact: true }).click();
+    await page.waitForURL('**/batches');
+    await page.getByRole('button', { name: 'New batch' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Name').fill('November test IPA');
+    await dialog.getByLabel('Style').fill('IPA');
+    await dialog.getByLabel(/Volume/).fill('23');
+    await dialog.getByLabel('Target OG').fill('1.056');
+    await dialog.getByLabel('Target FG').fill('1.012');
+    await dialog.getByRole('button', { name: 'Create the batch' }).click();
+    await page.waitForURL(/\/batches\/[0-9a-f-]{36}$/);
+    const batchId = page.url().split('/').pop()!;
+    await page.getByRole('heading', { name: /November test IPA/ }).waitFor();
+
+    // Upload: the server proposes a mapping from the headers.
+    await page.getByRole('link', { name: 'Import readings' }).click();
+    await page.waitForURL(`**/batches/${batchId}/import`);
+    await page.getByLabel('Readings file').setInputFiles({ name: 'hydrometer-export.csv', mimeType: 'text/csv', buffer: Buffer.from(exportCsv, 'utf8') });
+    await page.getByText(/proposed from the column names/).waitFor();
+    expect(await page.locator('select[data-field="takenAt"]').inputValue()).toBe('Timestamp');
+    expect(await page.locator('select[data-field="gravity"]').inputValue()).toBe('Specific gravity');
+    expect(await page.locator('select[data-field="temperature"]').inputValue()).toBe('Temp (°C)');
+    expect(await page.locator('select[data-field="note"]').inputValue()).toBe('Comment');
+    // The digital hydrometer compensates for temperature itself.
+    await page.getByLabel(/Correct hydrometer readings/).uncheck();
+    await screenshot(page, 'batches-import-mapping');
+
+    // Preview: every row fine, decimal commas read.
+    await page.getByRole('button', { name: 'Preview the rows' }).click();
+    const preview = page.getByTestId('import-preview');
+    await preview.waitFor();
+    await preview.getByText('No problems').waitFor();
+    expect(await preview.locator('tbody tr[data-status="ok"]').count()).toBe(10);
+    await preview.getByText('1.0560').first().waitFor();
+    await screenshot(page, 'batches-import-preview');
+
+    // Import, then the batch page with its chart.
+    await page.getByRole('button', { name: 'Import 10 readings' }).click();
+    await page.waitForURL(new RegExp(`/batches/${batchId}$`));
+    await page.getByText('Imported 10 readings').waitFor();
+    const chart = page.getByTestId('gravity-chart');
+    await chart.locator('svg .recharts-line').first().waitFor();
+    expect(await chart.locator('.recharts-line-dots circle, .recharts-dot').count()).toBeGreaterThanOrEqual(10);
+    await expect.poll(() => page.getByTestId('figure-og').textContent()).toContain('1.056');
+    expect(await page.getByTestId('figure-fg').textContent()).toContain('1.012');
+    expect(await page.getByTestId('stable-signal').textContent()).toMatch(/Stable since/);
+    await page.getByRole('cell', { name: 'steady' }).waitFor();
+    await page.mouse.move(0, 0);
+    await screenshot(page, 'batches-chart-after-import');
+
+    const stored = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+    expect(Number(stored.n)).toBe(10);
+    await context.close();
+  });
+
+  it('marks a malformed row in the preview and imports nothing', async () => {
+    const { page, context } = await signIn('member@example.org');
+    const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
+    const batch = await ctx.db.insertInto('batch').values({ owner_id: member.id, name: 'Bad file batch', volume_liters: 20, created_by: member.id }).returning('id').executeTakeFirstOrThrow();
+    await page.goto(`/batches/${batch.id}/import`);
+    const bad = 'Taken at,Gravity\n2026-11-02 08:00,1.050\n2026-11-03 08:00,one point oh\n';
+    await page.getByLabel('Readings file').setInputFiles({ name: 'bad.csv', mimeType: 'text/csv', buffer: Buffer.from(bad) });
+    await page.getByRole('button', { name: 'Preview the rows' }).click();
+    const preview = page.getByTestId('import-preview');
+    await preview.getByText('1 problem').waitFor();
+    expect(await preview.locator('tbody tr[data-status="error"]').count()).toBe(1);
+    expect(await page.getByTestId('import-problems').textContent()).toMatch(/Row 3, Gravity: Not a number/);
+    expect(await page.getByRole('button', { name: /^Import/ }).isDisabled()).toBe(true);
+    await screenshot(page, 'batches-import-problem');
+    const stored = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
+    expect(Number(stored.n)).toBe(0);
+    await context.close();
+  });
+
+  it('shows the brewer on duty every member’s batches, a digital-hydrometer log and the stuck batch', async () => {
+    const { page, context } = await signIn('brewer@example.org');
+    await page.goto('/batches?status=fermenting');
+    await page.getByRole('columnheader', { name: /Member/ }).waitFor();
+    await page.locator('tbody tr a').first().waitFor();
+    await screenshot(page, 'batches-list-brewer');
+
+    // The seeded batch logged every half hour by a floating hydrometer: drawn as bucket averages.
+    const digital = await ctx.db.selectFrom('batch').select('id').where('notes', 'like', '%digital hydrometer%').executeTakeFirstOrThrow();
+    await page.goto(`/batches/${digital.id}`);
+    await page.getByTestId('gravity-chart').locator('svg .recharts-line').first().waitFor();
+    expect(await page.getByTestId('gravity-chart').textContent()).toMatch(/averages over equal stretches of time|Readings/);
+    await page.mouse.move(0, 0);
+    await screenshot(page, 'batches-digital-hydrometer');
+
+    // The stuck one: stable, but far above its target.
+    const stuck = await ctx.db.selectFrom('batch').select('id').where('notes', 'like', '%sat at 1.030%').executeTakeFirstOrThrow();
+    await page.goto(`/batches/${stuck.id}`);
+    await expect.poll(() => page.getByTestId('stable-signal').textContent()).toMatch(/may be stuck/);
+    await page.mouse.move(0, 0);
+    await screenshot(page, 'batches-stuck');
+    await context.close();
+  });
+});
