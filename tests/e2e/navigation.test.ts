@@ -1,0 +1,78 @@
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { accountNav, mainNav, visibleNav } from '../../frontend/config/nav.ts';
+import { defineAbilityFor } from '../../shared/permissions/ability.ts';
+import type { Role } from '../../shared/permissions/roles.ts';
+import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { createTestContext, type TestContext } from '../helpers/context.ts';
+
+let ctx: TestContext;
+let server: Awaited<ReturnType<typeof serve>>;
+let browser: Browser;
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+  server = await serve(ctx);
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+  await ctx?.close();
+});
+
+const accounts: { email: string; role: Role; name: string; never: string[]; always: string[] }[] = [
+  { email: 'admin@example.org', role: 'admin', name: 'Greta Alder', never: [], always: ['Today', 'Members', 'Outbox'] },
+  { email: 'treasurer@example.org', role: 'treasurer', name: 'Milo Fenwick', never: ['Members', 'Outbox'], always: ['Today'] },
+  { email: 'brewer@example.org', role: 'brewer_on_duty', name: 'Ada Kettleby', never: ['Members', 'Outbox', 'Billing'], always: ['Today'] },
+  { email: 'member@example.org', role: 'member', name: 'Maren Holloway', never: ['Members', 'Outbox', 'Sanitation'], always: ['Today'] },
+];
+
+const flatten = (entries: ReturnType<typeof visibleNav>): string[] => entries.flatMap((e) => [e.label, ...flatten(e.children ?? [])]);
+
+describe('navigation by role', () => {
+  for (const account of accounts) {
+    it(`${account.role} signs in and sees only the navigation the shared ability allows`, async () => {
+      const { context, page } = await signedInPage(browser, server.url, account.email);
+      try {
+        await expect.poll(() => page.getByRole('heading', { level: 1 }).first().textContent()).toContain(account.name.split(' ')[0]);
+        const nav = page.getByRole('navigation', { name: /main/i });
+        const labels = (await nav.getByRole('link').allTextContents()).map((t) => t.trim());
+        const ability = defineAbilityFor({ id: 'x', roles: [account.role] });
+        const expected = [...flatten(visibleNav(mainNav, ability)), ...flatten(visibleNav(accountNav, ability))];
+        expect(labels).toEqual(expected);
+        for (const label of account.always) expect(labels).toContain(label);
+        for (const label of account.never) expect(labels).not.toContain(label);
+        await screenshot(page, `navigation-${account.role}`);
+      } finally {
+        await context.close();
+      }
+    });
+  }
+
+  it('a member typing the Members address gets no member list', async () => {
+    const { context, page } = await signedInPage(browser, server.url, 'member2@example.org');
+    try {
+      await page.goto('/members');
+      await expect.poll(async () => (await page.textContent('main')) ?? '').toMatch(/not for your role/i);
+      expect(await page.getByRole('cell', { name: 'admin@example.org' }).count()).toBe(0);
+    } finally {
+      await context.close();
+    }
+  });
+
+  it('a phone shows the menu behind a button; an unknown address shows the not-found page', async () => {
+    const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone });
+    try {
+      const menu = page.getByRole('button', { name: /menu/i });
+      await menu.click();
+      await expect.poll(() => page.getByRole('navigation', { name: /main/i }).getByRole('link', { name: 'Today' }).isVisible()).toBe(true);
+      await screenshot(page, 'navigation-phone-menu');
+      await page.goto('/no-such-screen');
+      await expect.poll(async () => (await page.textContent('body')) ?? '').toMatch(/nothing at this address/i);
+      await screenshot(page, 'not-found');
+    } finally {
+      await context.close();
+    }
+  });
+});
