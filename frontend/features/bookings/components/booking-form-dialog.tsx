@@ -1,4 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import type { Booking, CreateBookingInput } from '../../../../shared/schemas/booking.ts';
@@ -10,7 +11,9 @@ import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
 import { createBookingSchema, useCreateBooking } from '@/features/bookings/api/create-booking';
 import { useBookingRules } from '@/features/bookings/api/get-booking-rules';
-import { isApiProblem } from '@/lib/api-client';
+import { canOnEvery, useAppAbility } from '@/lib/ability';
+import { api, isApiProblem } from '@/lib/api-client';
+import { useSessionUser } from '@/lib/auth';
 import { applyProblemToForm } from '@/utils/problem-form';
 
 /** `2026-12-07T09:00` in the browser's time zone, as a datetime-local input shows it. */
@@ -48,6 +51,15 @@ export const BookingFormDialog = ({ draft, items, onClose, onBooked }: BookingFo
 const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft; items: Equipment[]; onBooked: (b: Booking) => void; onCancel: () => void }) => {
   const mutation = useCreateBooking();
   const rules = useBookingRules();
+  const me = useSessionUser();
+  // The admin may book for any member; everyone else books for themself.
+  const forAnyone = canOnEvery(useAppAbility(), 'create', 'Booking');
+  const members = useQuery({
+    queryKey: ['users', 'list', { role: 'member', active: true, pageSize: 100, for: 'booking' }],
+    queryFn: ({ signal }) =>
+      api.get<{ items: { id: string; name: string; email: string }[] }>('/api/users', { query: { role: 'member', active: 'true', pageSize: 100, sort: 'name' }, signal }),
+    enabled: forAnyone,
+  });
   const [problem, setProblem] = useState<{ title: string; lines: string[] } | null>(null);
   const form = useForm<CreateBookingInput>({
     resolver: zodResolver(createBookingSchema),
@@ -62,7 +74,7 @@ const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft
       const { booking } = await mutation.mutateAsync(values);
       onBooked(booking);
     } catch (error) {
-      const lines = applyProblemToForm(error, form.setError, ['equipmentId', 'startsAt', 'endsAt', 'notes']);
+      const lines = applyProblemToForm(error, form.setError, ['equipmentId', 'startsAt', 'endsAt', 'notes', 'ownerId']);
       if (isApiProblem(error) && (error.status === 409 || error.status === 422)) {
         setProblem({ title: error.status === 409 ? 'That slot is taken' : error.title, lines: error.status === 409 ? [error.detail ?? error.title] : lines });
       } else if (lines.length) setProblem({ title: 'The booking was not made', lines });
@@ -88,6 +100,22 @@ const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft
           </Select>
         )}
       </Field>
+      {forAnyone ? (
+        <Field label="For" hint="The member gets the confirmation e-mail." error={errors.ownerId?.message}>
+          {(c) => (
+            <Select {...c} {...form.register('ownerId', { setValueAs: (v: string) => v || undefined })}>
+              <option value="">{me ? `${me.name} (you)` : 'Yourself'}</option>
+              {members.data?.items
+                .filter((m) => m.id !== me?.id)
+                .map((m) => (
+                  <option key={m.id} value={m.id}>
+                    {m.name} · {m.email}
+                  </option>
+                ))}
+            </Select>
+          )}
+        </Field>
+      ) : null}
       <div className="grid gap-4 sm:grid-cols-2">
         <Controller
           control={form.control}
