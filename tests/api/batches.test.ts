@@ -95,15 +95,15 @@ describe('creating and changing batches', () => {
     expect((await admin.patch(`/api/batches/${b.id}`, { name: 'Renamed by the manager' })).body.batch.name).toBe('Renamed by the manager');
   });
 
-  it('links the owner’s fermenter booking and refuses someone else’s', async () => {
+  it('links the owner’s fermenter booking and refuses someone else’s, or one holding another batch', async () => {
     const own = await ctx.db
       .selectFrom('booking')
       .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-      .select(['booking.id', 'equipment.code'])
+      .select(['booking.id', 'equipment.code', 'booking.batch_id'])
       .where('booking.owner_id', '=', member.user.id)
       .where('equipment.kind', '=', 'fermenter')
       .where('booking.state', '<>', 'cancelled')
-      .where('booking.batch_id', 'is', null)
+      .orderBy('booking.starts_at')
       .executeTakeFirst();
     const others = await ctx.db
       .selectFrom('booking')
@@ -112,8 +112,12 @@ describe('creating and changing batches', () => {
       .where('booking.owner_id', '<>', member.user.id)
       .where('equipment.kind', '=', 'fermenter')
       .executeTakeFirst();
-    // The demo seed books fermenters for the members; without it there is nothing to link.
+    // The demo seed books fermenters for the members and links each to its batch.
     expect(own, 'the demo seed has a fermenter booking for member@example.org').toBeTruthy();
+    expect(own!.batch_id, 'the demo seed links the booking to its batch').toBeTruthy();
+    const taken = await member.post('/api/batches', { name: 'Second tenant', volumeLiters: 20, bookingId: own!.id });
+    expect(taken.status).toBe(409);
+    await ctx.db.updateTable('booking').set({ batch_id: null }).where('id', '=', own!.id).execute();
     const b = await newBatch(member, { bookingId: own!.id });
     const detail = await member.get(`/api/batches/${b.id}`);
     expect(detail.body.bookings).toEqual([expect.objectContaining({ id: own!.id, equipmentCode: own!.code })]);

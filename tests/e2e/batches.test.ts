@@ -146,4 +146,34 @@ describe('importing readings in the browser', () => {
     await screenshot(page, 'batches-stuck');
     await context.close();
   });
+
+  it('adds a reading by hand and shows the hydrometer correction before saving', async () => {
+    const { page, context } = await signIn('member@example.org');
+    const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
+    const batch = await ctx.db.insertInto('batch').values({ owner_id: member.id, name: 'Hand readings batch', volume_liters: 20, created_by: member.id }).returning('id').executeTakeFirstOrThrow();
+    await page.goto(`/batches/${batch.id}`);
+    await page.getByRole('button', { name: 'Add a reading' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Gravity').fill('1.050');
+    await dialog.getByLabel(/Sample temperature/).fill('30');
+    await expect.poll(() => dialog.getByTestId('correction-preview').textContent()).toMatch(/Stored as 1\.052\d SG — read 1\.0500 at 30\.0 °C, corrected to 20 °C/);
+    await screenshot(page, 'batches-reading-form');
+    await dialog.getByRole('button', { name: 'Add the reading' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+    await page.getByRole('cell', { name: /1\.052\d\s*corrected/ }).waitFor();
+    expect(await page.getByTestId('figure-og').textContent()).toMatch(/1\.05[23]/);
+    await context.close();
+  });
+
+  it('gives the treasurer the production records with litres, US barrels and the licensing note', async () => {
+    const { page, context } = await signIn('treasurer@example.org');
+    await page.goto('/production-records');
+    await page.getByLabel('From month').fill('2026-09');
+    await page.getByLabel('To month').fill('2026-11');
+    await page.getByRole('cell', { name: /batches?$/ }).first().waitFor();
+    expect(await page.getByRole('status').first().textContent()).toMatch(/Local licensing and excise rules govern/);
+    expect(await page.getByRole('link', { name: 'Export CSV' }).getAttribute('href')).toBe('/api/production-records/export?from=2026-09&to=2026-11&format=csv');
+    await screenshot(page, 'batches-production-records');
+    await context.close();
+  });
 });

@@ -134,8 +134,12 @@ export function computeFigures(
   const series = downsample(readings);
   let forecast: GravityFigures['forecast'] = null;
   try {
+    // The fit starts where the gravity starts to fall: the lag phase before it would bend the curve.
+    const peak = Math.max(...series.map((p) => p.sg));
+    let from = 0;
+    for (let i = 0; i < Math.floor(series.length / 2); i += 1) if (series[i]!.sg >= peak - 0.002) from = i;
     const f = forecastFinalGravity(
-      series.map((p) => ({ takenAt: p.takenAt, sg: p.sg })),
+      series.slice(from).map((p) => ({ takenAt: p.takenAt, sg: p.sg })),
       targetFg !== null && targetFg >= 0.98 && targetFg <= 1.2 ? { targetFg, curvePoints: 60 } : { curvePoints: 60 },
     );
     if (f) {

@@ -25,6 +25,16 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
   const pad = Math.max(0.002, (hi - lo) * 0.08);
   const times = [...readings.map((r) => r.t), ...forecast.map((f) => f.t)];
   const showDots = readings.length <= 60;
+  // One tick per day (or every few days on long series), at local midnight.
+  const start = Math.min(...times);
+  const end = Math.max(...times);
+  const spanDays = Math.max(1, (end - start) / 86_400_000);
+  const step = Math.max(1, Math.ceil(spanDays / 12));
+  const ticks: number[] = [];
+  const first = new Date(start);
+  first.setHours(0, 0, 0, 0);
+  for (let d = new Date(first); d.getTime() <= end; d.setDate(d.getDate() + step)) if (d.getTime() >= start) ticks.push(d.getTime());
+  if (ticks.length < 2) ticks.splice(0, ticks.length, start, end);
   return (
     <figure className="flex flex-col gap-1" aria-label={`Gravity of ${batch.name} over time`} data-testid="gravity-chart">
       <ResponsiveContainer width="100%" height={height}>
@@ -34,7 +44,8 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
             dataKey="t"
             type="number"
             scale="time"
-            domain={[Math.min(...times), Math.max(...times)]}
+            domain={[start, end]}
+            ticks={ticks}
             tickFormatter={(t: number) => dayFormat.format(new Date(t))}
             allowDuplicatedCategory={false}
             fontSize={12}

@@ -43,7 +43,8 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
         header: 'As entered',
         cell: ({ row }) => (
           <span className="whitespace-nowrap tabular-nums text-ink-muted">
-            {row.original.enteredValue} {gravityUnitLabels[row.original.enteredUnit]}
+            {row.original.enteredUnit === 'sg' ? formatSg(row.original.enteredValue, Math.max(3, (String(row.original.enteredValue).split('.')[1] ?? '').length)) : row.original.enteredValue}{' '}
+            {gravityUnitLabels[row.original.enteredUnit]}
           </span>
         ),
       }),
