@@ -176,4 +176,19 @@ describe('importing readings in the browser', () => {
     await screenshot(page, 'batches-production-records');
     await context.close();
   });
+
+  it('lets the admin set the stable-gravity test in Settings', async () => {
+    const { page, context } = await signIn('admin@example.org');
+    await page.goto('/settings#fermentation');
+    const form = page.getByRole('form', { name: 'Fermentation settings' });
+    await form.waitFor();
+    expect(await form.getByLabel('Stable within (SG)').inputValue()).toBe('0.001');
+    await form.getByLabel('Over (days)').fill('2');
+    await form.getByRole('button', { name: 'Save the fermentation settings' }).click();
+    await form.getByText('Fermentation settings saved').waitFor();
+    const row = await ctx.db.selectFrom('setting').select('value').where('key', '=', 'fermentation').executeTakeFirstOrThrow();
+    expect(row.value).toMatchObject({ stableToleranceSg: 0.001, stableSpanDays: 2 });
+    await form.screenshot({ path: 'test-artifacts/screenshots/batches-fermentation-settings.png' });
+    await context.close();
+  });
 });

@@ -2,6 +2,7 @@ import type { ComponentType } from 'react';
 import type { SettingKey } from '../../../shared/schemas/settings.ts';
 import { settingSections } from '../../../shared/schemas/settings.ts';
 import { BookingRulesSection } from '@/features/settings/components/booking-rules-form';
+import { FermentationSettingsSection } from '@/features/batches/components/fermentation-settings-form';
 
 /**
  * The Settings screen's sections, in order. Each capability adds one entry here: its key in the
@@ -12,7 +13,10 @@ export interface SettingsScreenSection {
   Component: ComponentType<{ canEdit: boolean }>;
 }
 
-export const settingsScreenSections: SettingsScreenSection[] = [{ key: 'booking_rules', Component: BookingRulesSection }];
+export const settingsScreenSections: SettingsScreenSection[] = [
+  { key: 'booking_rules', Component: BookingRulesSection },
+  { key: 'fermentation', Component: FermentationSettingsSection },
+];
 
 export const sectionTitle = (key: SettingKey) => settingSections[key].title;
 export const sectionDescription = (key: SettingKey) => settingSections[key].description;

@@ -1,0 +1,76 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { fermentationSettingsSchema, type FermentationSettings } from '../../../../shared/schemas/batches.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import { Input } from '@/components/ui/input';
+import { Spinner } from '@/components/ui/spinner';
+import { useSaveSetting, useSetting } from '@/features/settings/api/setting';
+import { problemMessage } from '@/lib/api-client';
+import { formatDateTime } from '@/utils/format';
+import { applyProblemToForm } from '@/utils/problem-form';
+
+const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(String(v).replace(',', '.'))) };
+
+/** Settings → Fermentation: the stable-gravity test (common practice ±0.001 over 3 days) and the correction defaults. */
+export const FermentationSettingsSection = ({ canEdit }: { canEdit: boolean }) => {
+  const setting = useSetting<FermentationSettings>('fermentation');
+  if (setting.isPending) return <Spinner label="Loading the fermentation settings" />;
+  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
+  return (
+    <>
+      <FermentationSettingsForm value={setting.data.value} canEdit={canEdit} />
+      {setting.data.updatedBy ? (
+        <p className="mt-2 text-xs text-ink-muted">
+          Last changed by {setting.data.updatedBy.name}, {formatDateTime(setting.data.updatedAt)}.
+        </p>
+      ) : null}
+    </>
+  );
+};
+
+const FermentationSettingsForm = ({ value, canEdit }: { value: FermentationSettings; canEdit: boolean }) => {
+  const save = useSaveSetting<FermentationSettings>('fermentation');
+  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
+  const form = useForm<FermentationSettings>({ resolver: zodResolver(fermentationSettingsSchema), defaultValues: value });
+  const errors = form.formState.errors;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(null);
+    try {
+      const saved = await save.mutateAsync(values);
+      form.reset(saved.value);
+      setMessage({ tone: 'success', text: 'Fermentation settings saved. Every batch page uses them from now on.' });
+    } catch (error) {
+      const left = applyProblemToForm(error, form.setError, ['stableToleranceSg', 'stableSpanDays', 'hydrometerCalibrationC', 'wortCorrectionFactor']);
+      if (left.length) setMessage({ tone: 'error', text: left.join(' ') });
+    }
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Fermentation settings">
+      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+      <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+        <Field label="Stable within (SG)" hint="Common practice: 0.001." error={errors.stableToleranceSg?.message}>
+          {(c) => <Input {...c} inputMode="decimal" {...form.register('stableToleranceSg', num)} />}
+        </Field>
+        <Field label="Over (days)" hint="Common practice: 2 to 3." error={errors.stableSpanDays?.message}>
+          {(c) => <Input {...c} inputMode="decimal" {...form.register('stableSpanDays', num)} />}
+        </Field>
+        <Field label="Hydrometer calibration (°C)" hint="Usually 20 °C (some read at 15.56 °C)." error={errors.hydrometerCalibrationC?.message}>
+          {(c) => <Input {...c} inputMode="decimal" {...form.register('hydrometerCalibrationC', num)} />}
+        </Field>
+        <Field label="Refractometer wort factor" hint="Common practice: 1.04." error={errors.wortCorrectionFactor?.message}>
+          {(c) => <Input {...c} inputMode="decimal" {...form.register('wortCorrectionFactor', num)} />}
+        </Field>
+      </fieldset>
+      {canEdit ? (
+        <div>
+          <Button type="submit" pending={save.isPending}>
+            Save the fermentation settings
+          </Button>
+        </div>
+      ) : null}
+    </form>
+  );
+};
