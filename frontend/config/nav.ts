@@ -49,7 +49,7 @@ export const mainNav: NavEntry[] = [
     ready: false,
     allowed: (a) => a.can('read', 'SanitationCycle'),
   },
-  { key: 'billing', label: 'Billing', to: paths.billing, ready: false, allowed: (a) => a.can('read', 'Invoice') },
+  { key: 'billing', label: 'Billing', to: paths.billing, ready: true, allowed: (a) => a.can('read', 'Invoice') },
   {
     key: 'members',
     label: 'Members',

@@ -1,8 +1,7 @@
 import { ForbiddenError } from '@casl/ability';
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
-import { formatMoney } from '../../../shared/billing/money.ts';
+import { periodLabel } from '../../../shared/billing/dates.ts';
 import { subject } from '../../../shared/permissions/ability.ts';
 import {
   ageingQuerySchema,
@@ -23,11 +22,11 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { badRequest, conflict, forbidden, notFound } from '../../lib/http-problem.ts';
-import { enqueueMail } from '../../lib/mailer.ts';
+import { badRequest, forbidden, notFound } from '../../lib/http-problem.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile, putBillingProfile } from './billing-profile.service.ts';
 import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
+import { sendInvoice } from './invoice-mail.service.ts';
 import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
 import { issueRunDrafts, listRuns, previewRun, runPeriod } from './invoice-runs.service.ts';
 import {
@@ -35,7 +34,6 @@ import {
   getDetail,
   issueInvoice,
   listInvoices,
-  markSent,
   memberBalance,
   recordManualPayment,
   refundInvoice,
@@ -66,7 +64,8 @@ function requireEveryInvoice(req: Request) {
   if (!canAll(req.ability, 'read', 'Invoice')) throw forbidden('Only the treasurer sees every member’s invoices.');
 }
 
-export function invoiceRunsRoutes({ db }: Deps): Router {
+export function invoiceRunsRoutes(deps: Deps): Router {
+  const { db } = deps;
   const router = Router();
   router.use(requireUser);
 
@@ -89,6 +88,24 @@ export function invoiceRunsRoutes({ db }: Deps): Router {
     res.status(201).json(result);
   });
 
+  /** E-mails every issued invoice of the run that has not been sent yet. */
+  router.post('/:id/send', async (req, res) => {
+    can(req).throwUnlessCan('send', 'Invoice');
+    const { id } = idParam.parse(req.params);
+    const run = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
+    if (!run) throw notFound('Invoice run');
+    const unsent = await db
+      .selectFrom('invoice')
+      .select('id')
+      .where('run_id', '=', run.id)
+      .where('status', 'in', ['issued', 'paid'])
+      .where('sent_at', 'is', null)
+      .orderBy('number_seq')
+      .execute();
+    for (const inv of unsent) await sendInvoice(deps, inv.id, req.user!.id);
+    res.status(202).json({ queued: unsent.length });
+  });
+
   router.post('/:id/issue', async (req, res) => {
     can(req).throwUnlessCan('update', 'Invoice');
     const { id } = idParam.parse(req.params);
@@ -101,7 +118,8 @@ export function invoiceRunsRoutes({ db }: Deps): Router {
   return router;
 }
 
-export function invoicesRoutes({ db, config, queue }: Deps): Router {
+export function invoicesRoutes(deps: Deps): Router {
+  const { db, config } = deps;
   const router = Router();
   router.use(requireUser);
 
@@ -168,41 +186,8 @@ export function invoicesRoutes({ db, config, queue }: Deps): Router {
     can(req).throwUnlessCan('send', 'Invoice');
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('send', subject('Invoice', { memberId: row.member_id }));
-    if (row.status === 'void') throw conflict('A void invoice is not sent; its credit note replaces it.');
-    await db.transaction().execute(async (trx) => {
-      // Sending a draft issues it first: a member only ever receives numbered invoices.
-      if (row.status === 'draft') {
-        const { today } = await coopToday(trx);
-        await issueInvoice(trx, row.id, today, req.user!.id);
-      }
-    });
-    const { today } = await coopToday(db);
-    const invoice = await getDetail(db, row.id, today);
-    const profile = await getBillingProfile(db);
-    const pdf = await renderInvoicePdf({ invoice, profile, appUrl: config.publicUrl });
-    const total = formatMoney(invoice.totalCents, invoice.currency, 'en-GB');
-    const due = formatMoney(invoice.amountDueCents, invoice.currency, 'en-GB');
-    await enqueueMail(queue, {
-      to: invoice.memberEmail,
-      subject: `Invoice ${invoice.number} from ${profile.coopName} — ${periodLabel(invoice.period)}`,
-      text: [
-        `Hello ${invoice.memberName},`,
-        '',
-        `Your invoice ${invoice.number} for ${periodLabel(invoice.period)} is attached: ${total} in all.`,
-        invoice.amountDueCents > 0 ? `Still to pay: ${due}, by ${longDate(invoice.dueOn!)}.` : 'Nothing is left to pay on it — thank you.',
-        '',
-        'How to pay:',
-        `- online: ${config.publicUrl}/billing/my-invoices/${invoice.id}`,
-        `- by bank transfer to ${profile.bankAccountName}, account ${profile.bankAccount}, quoting ${invoice.number}`,
-        '',
-        `Questions? Write to ${profile.email}.`,
-        '',
-        profile.coopName,
-      ].join('\n'),
-      attachments: [{ filename: invoicePdfFilename(invoice), contentType: 'application/pdf', contentBase64: pdf.toString('base64') }],
-    });
-    await db.transaction().execute((trx) => markSent(trx, invoice.id, req.user!.id, invoice.memberEmail));
-    res.status(202).json({ queued: true, to: invoice.memberEmail, invoice: await getDetail(db, row.id, today) });
+    const sent = await sendInvoice(deps, row.id, req.user!.id);
+    res.status(202).json({ queued: true, ...sent });
   });
 
   router.post('/:id/checkout', async (req, res) => {

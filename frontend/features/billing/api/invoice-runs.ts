@@ -28,3 +28,11 @@ export function useIssueRunDrafts() {
     onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
   });
 }
+
+export function useSendRun() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (runId: string) => api.post<{ queued: number }>(`/api/invoice-runs/${runId}/send`),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
+  });
+}

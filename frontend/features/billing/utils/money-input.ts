@@ -9,12 +9,28 @@ export function parseMoneyInput(text: unknown): number {
   if (!s) return Number.NaN;
   const negative = s.startsWith('-') || s.startsWith('−');
   s = s.replace(/^[-−+]/, '');
-  // "1,234.50" or "1.234,50": the last separator with one or two digits after it is the decimal one.
-  const m = /^(\d{1,3}(?:[.,]\d{3})*|\d+)(?:([.,])(\d{1,2}))?$/.exec(s);
-  if (!m) return Number.NaN;
-  const whole = Number(m[1]!.replace(/[.,]/g, ''));
-  const fraction = m[3] ? Number(m[3].padEnd(2, '0')) : 0;
-  const cents = whole * 100 + fraction;
+  // "1,234.50" and "1.234,50" group thousands; a lone "." or "," with one or two digits after it is the decimal point.
+  let whole: string;
+  let fraction = '';
+  const dot = s.lastIndexOf('.');
+  const comma = s.lastIndexOf(',');
+  if (dot >= 0 && comma >= 0) {
+    const decimal = dot > comma ? '.' : ',';
+    const group = decimal === '.' ? ',' : '.';
+    const [w, f, extra] = s.split(decimal);
+    if (extra !== undefined || !f || !/^\d{1,2}$/.test(f) || !new RegExp(`^\\d{1,3}(\\${group}\\d{3})*$`).test(w!)) return Number.NaN;
+    whole = w!.split(group).join('');
+    fraction = f;
+  } else if (dot >= 0 || comma >= 0) {
+    const [w, f, extra] = s.split(dot >= 0 ? '.' : ',');
+    if (extra !== undefined || !f || !/^\d{1,2}$/.test(f) || !/^\d+$/.test(w!)) return Number.NaN;
+    whole = w!;
+    fraction = f;
+  } else {
+    if (!/^\d+$/.test(s)) return Number.NaN;
+    whole = s;
+  }
+  const cents = Number(whole) * 100 + Number(fraction.padEnd(2, '0') || '0');
   return negative ? -cents : cents;
 }
 

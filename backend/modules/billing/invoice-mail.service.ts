@@ -1,0 +1,50 @@
+import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
+import { formatMoney } from '../../../shared/billing/money.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { conflict } from '../../lib/http-problem.ts';
+import { enqueueMail } from '../../lib/mailer.ts';
+import { coopToday, getBillingProfile } from './billing-profile.service.ts';
+import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
+import { getDetail, issueInvoice, markSent } from './invoices.service.ts';
+
+/**
+ * E-mails an invoice with its PDF through the mail queue (retried there until the mail server takes
+ * it). A draft is issued first, so a member only ever receives numbered invoices.
+ */
+export async function sendInvoice({ db, config, queue }: Deps, invoiceId: string, actorId: string) {
+  await db.transaction().execute(async (trx) => {
+    const row = await trx.selectFrom('invoice').select('status').where('id', '=', invoiceId).forUpdate().executeTakeFirstOrThrow();
+    if (row.status === 'void') throw conflict('A void invoice is not sent; its credit note replaces it.');
+    if (row.status === 'draft') {
+      const { today } = await coopToday(trx);
+      await issueInvoice(trx, invoiceId, today, actorId);
+    }
+  });
+  const { today } = await coopToday(db);
+  const invoice = await getDetail(db, invoiceId, today);
+  const profile = await getBillingProfile(db);
+  const pdf = await renderInvoicePdf({ invoice, profile, appUrl: config.publicUrl });
+  const total = formatMoney(invoice.totalCents, invoice.currency, 'en-GB');
+  const due = formatMoney(invoice.amountDueCents, invoice.currency, 'en-GB');
+  await enqueueMail(queue, {
+    to: invoice.memberEmail,
+    subject: `Invoice ${invoice.number} from ${profile.coopName} — ${periodLabel(invoice.period)}`,
+    text: [
+      `Hello ${invoice.memberName},`,
+      '',
+      `Your invoice ${invoice.number} for ${periodLabel(invoice.period)} is attached: ${total} in all.`,
+      invoice.amountDueCents > 0 ? `Still to pay: ${due}, by ${longDate(invoice.dueOn!)}.` : 'Nothing is left to pay on it — thank you.',
+      '',
+      'How to pay:',
+      `- online: ${config.publicUrl}/billing/my-invoices/${invoice.id}`,
+      `- by bank transfer to ${profile.bankAccountName}, account ${profile.bankAccount}, quoting ${invoice.number}`,
+      '',
+      `Questions? Write to ${profile.email}.`,
+      '',
+      profile.coopName,
+    ].join('\n'),
+    attachments: [{ filename: invoicePdfFilename(invoice), contentType: 'application/pdf', contentBase64: pdf.toString('base64') }],
+  });
+  await db.transaction().execute((trx) => markSent(trx, invoice.id, actorId, invoice.memberEmail));
+  return { to: invoice.memberEmail, invoice: await getDetail(db, invoiceId, today) };
+}

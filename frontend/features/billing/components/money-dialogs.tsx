@@ -1,0 +1,230 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { todayIn } from '../../../../shared/billing/dates.ts';
+import { splitGross } from '../../../../shared/billing/money.ts';
+import {
+  manualPaymentMethods,
+  paymentMethodLabels,
+  type InvoiceDetail,
+  type PaymentInput,
+  type RefundInput,
+  type VoidInvoiceInput,
+} from '../../../../shared/schemas/billing.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Dialog, DialogActions } from '@/components/ui/dialog';
+import { Field } from '@/components/ui/field';
+import { Input, Select } from '@/components/ui/input';
+import {
+  paymentInputSchema,
+  refundInputSchema,
+  useRecordPayment,
+  useRefundInvoice,
+  useVoidInvoice,
+  voidInvoiceSchema,
+} from '@/features/billing/api/invoice-actions';
+import { money } from '@/features/billing/components/money';
+import { centsToInput, parseMoneyInput } from '@/features/billing/utils/money-input';
+import { applyProblemToForm } from '@/utils/problem-form';
+
+interface DialogBaseProps {
+  invoice: InvoiceDetail;
+  open: boolean;
+  onClose: () => void;
+}
+
+const today = () => todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone);
+const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
+
+const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
+  const record = useRecordPayment(invoice.id);
+  const [formError, setFormError] = useState<string | null>(null);
+  const { register, handleSubmit, setError, formState: { errors } } = useForm<PaymentInput>({
+    resolver: zodResolver(paymentInputSchema),
+    defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
+  });
+  const submit = handleSubmit((values) => {
+    setFormError(null);
+    record.mutate(values, {
+      onSuccess: onClose,
+      onError: (e) => {
+        const rest = applyProblemToForm(e, setError, ['amountCents', 'method', 'receivedOn', 'reference', 'note']);
+        if (rest.length) setFormError(rest.join(' '));
+      },
+    });
+  });
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      <p className="text-sm text-ink-muted">Still to pay: {money(invoice.amountDueCents, invoice.currency)}. A smaller amount is recorded as a part payment.</p>
+      <Field label="Amount received" hint={moneyHint(invoice.currency)} error={errors.amountCents?.message}>
+        {({ invalid, ...c }) => (
+          <Input {...c} invalid={invalid} inputMode="decimal" defaultValue={centsToInput(invoice.amountDueCents)} autoFocus {...register('amountCents', { setValueAs: parseMoneyInput })} />
+        )}
+      </Field>
+      <Field label="How" error={errors.method?.message}>
+        {({ invalid, ...c }) => (
+          <Select {...c} invalid={invalid} {...register('method')}>
+            {manualPaymentMethods.map((m) => (
+              <option key={m} value={m}>
+                {paymentMethodLabels[m]}
+              </option>
+            ))}
+          </Select>
+        )}
+      </Field>
+      <Field label="Received on" error={errors.receivedOn?.message}>
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="date" {...register('receivedOn')} />}
+      </Field>
+      <Field label="Reference" hint="The bank's reference, or the receipt number for cash." error={errors.reference?.message}>
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" {...register('reference')} />}
+      </Field>
+      <DialogActions>
+        <Button variant="secondary" onClick={onClose} disabled={record.isPending}>
+          Cancel
+        </Button>
+        <Button type="submit" pending={record.isPending}>
+          Record payment
+        </Button>
+      </DialogActions>
+    </form>
+  );
+};
+
+export const RecordPaymentDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
+  <Dialog open={open} onClose={onClose} title={`Record a payment on ${invoice.number}`} description={`From ${invoice.memberName}, by bank transfer or cash.`}>
+    <PaymentForm invoice={invoice} onClose={onClose} />
+  </Dialog>
+);
+
+const invoiceRate = (invoice: InvoiceDetail) => {
+  const rates = [...new Set(invoice.lines.map((l) => l.taxRateBp))];
+  return rates.length === 1 ? rates[0]! : null;
+};
+
+const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
+  const refund = useRefundInvoice(invoice.id);
+  const [formError, setFormError] = useState<string | null>(null);
+  const creditable = invoice.totalCents - invoice.creditedCents;
+  const { register, handleSubmit, setError, watch, formState: { errors } } = useForm<RefundInput>({
+    resolver: zodResolver(refundInputSchema),
+    defaultValues: { reason: '', refundMethod: invoice.paidCents > 0 ? 'bank_transfer' : null },
+  });
+  const amount = watch('amountCents');
+  const rate = invoiceRate(invoice);
+  const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
+  const submit = handleSubmit((values) => {
+    setFormError(null);
+    refund.mutate(values, {
+      onSuccess: onClose,
+      onError: (e) => {
+        const rest = applyProblemToForm(e, setError, ['amountCents', 'reason', 'refundMethod']);
+        if (rest.length) setFormError(rest.join(' '));
+      },
+    });
+  });
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      {rate === null ? <Alert tone="info">This invoice has lines at several tax rates; void it instead of crediting part of it.</Alert> : null}
+      <Field
+        label="Amount to credit, tax included"
+        hint={split ? `Credit note: ${money(split.netCents, invoice.currency)} + ${money(split.taxCents, invoice.currency)} tax. At most ${money(creditable, invoice.currency)}.` : `At most ${money(creditable, invoice.currency)}.`}
+        error={errors.amountCents?.message}
+      >
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" autoFocus {...register('amountCents', { setValueAs: parseMoneyInput })} />}
+      </Field>
+      <Field label="Reason" hint="Shown on the credit note." error={errors.reason?.message}>
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" {...register('reason')} />}
+      </Field>
+      <Field label="Pay the money back" hint={`${money(invoice.paidCents, invoice.currency)} has been paid on this invoice.`} error={errors.refundMethod?.message}>
+        {({ invalid, ...c }) => (
+          <Select {...c} invalid={invalid} {...register('refundMethod', { setValueAs: (v: string | null) => (v ? v : null) })}>
+            <option value="">No — reduce what is owed (or keep it as credit)</option>
+            {manualPaymentMethods.map((m) => (
+              <option key={m} value={m}>
+                Yes, by {paymentMethodLabels[m].toLowerCase()}
+              </option>
+            ))}
+          </Select>
+        )}
+      </Field>
+      <DialogActions>
+        <Button variant="secondary" onClick={onClose} disabled={refund.isPending}>
+          Cancel
+        </Button>
+        <Button type="submit" pending={refund.isPending} disabled={rate === null}>
+          Issue the credit note
+        </Button>
+      </DialogActions>
+    </form>
+  );
+};
+
+export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
+  <Dialog open={open} onClose={onClose} title={`Credit or refund part of ${invoice.number}`} description="A credit note documents it; the invoice itself never changes.">
+    <RefundForm invoice={invoice} onClose={onClose} />
+  </Dialog>
+);
+
+const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
+  const voidIt = useVoidInvoice(invoice.id);
+  const [formError, setFormError] = useState<string | null>(null);
+  const { register, handleSubmit, setError, formState: { errors } } = useForm<VoidInvoiceInput>({
+    resolver: zodResolver(voidInvoiceSchema),
+    defaultValues: { reason: '', refundMethod: null },
+  });
+  const submit = handleSubmit((values) => {
+    setFormError(null);
+    voidIt.mutate(values, {
+      onSuccess: onClose,
+      onError: (e) => {
+        const rest = applyProblemToForm(e, setError, ['reason', 'refundMethod']);
+        if (rest.length) setFormError(rest.join(' '));
+      },
+    });
+  });
+  const draft = invoice.status === 'draft';
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
+      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      <p className="text-sm">
+        {draft
+          ? 'This draft was never issued, so no credit note is needed. Its charges stay billed to this period; correct them with a manual charge or credit on a later period.'
+          : `A credit note for ${money(invoice.totalCents - invoice.creditedCents, invoice.currency)} replaces ${invoice.number}. The invoice stays in the books, marked void. Bill any fair charges again as a manual charge on a later period.`}
+      </p>
+      <Field label="Reason" error={errors.reason?.message}>
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" autoFocus {...register('reason')} />}
+      </Field>
+      {invoice.paidCents > 0 ? (
+        <Field label="What was paid" hint={`${money(invoice.paidCents, invoice.currency)} has been paid.`} error={errors.refundMethod?.message}>
+          {({ invalid, ...c }) => (
+            <Select {...c} invalid={invalid} {...register('refundMethod', { setValueAs: (v: string | null) => (v ? v : null) })}>
+              <option value="">Keep it as credit on the member’s account</option>
+              {manualPaymentMethods.map((m) => (
+                <option key={m} value={m}>
+                  Pay it back by {paymentMethodLabels[m].toLowerCase()}
+                </option>
+              ))}
+            </Select>
+          )}
+        </Field>
+      ) : null}
+      <DialogActions>
+        <Button variant="secondary" onClick={onClose} disabled={voidIt.isPending}>
+          Keep the invoice
+        </Button>
+        <Button type="submit" pending={voidIt.isPending}>
+          {draft ? 'Void the draft' : 'Void and issue the credit note'}
+        </Button>
+      </DialogActions>
+    </form>
+  );
+};
+
+export const VoidDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
+  <Dialog open={open} onClose={onClose} title={`Void ${invoice.number ?? 'this draft'}`}>
+    <VoidForm invoice={invoice} onClose={onClose} />
+  </Dialog>
+);

@@ -1,0 +1,144 @@
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
+import { desktop, launchBrowser, phone, screenshot, serve } from '../helpers/browser.ts';
+import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+
+// A member pays an overdue invoice online: from My invoices, to the payment provider's page (the
+// local fake), back to the app, which shows it paid. Then the treasurer's Billing screens.
+
+let ctx: TestContext;
+let fake: PaymentsFake;
+let server: Awaited<ReturnType<typeof serve>>;
+let browser: Browser;
+
+beforeAll(async () => {
+  fake = await startPaymentsFake({ webhookRetries: 0 });
+  ctx = await createTestContext({ PAYMENTS_FAKE_PORT: String(fake.port) });
+  server = await serve(ctx);
+  fake.webhookUrl = `${server.url}/api/webhooks/payments`;
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+  await fake?.close();
+  await ctx?.close();
+});
+
+async function signIn(email: string, viewport = desktop) {
+  const context = await browser.newContext({ viewport, baseURL: server.url, timezoneId: 'UTC', locale: 'en-GB' });
+  const page = await context.newPage();
+  await page.goto('/login');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: /sign in/i }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
+  return { context, page };
+}
+
+describe('paying an invoice online', () => {
+  it('a member opens an unpaid invoice, pays on the provider’s page, returns and sees it paid', async () => {
+    const member = await ctx.db.selectFrom('app_user').select(['id', 'name']).where('email', '=', 'member12@example.org').executeTakeFirstOrThrow();
+    const unpaid = await ctx.db
+      .selectFrom('invoice')
+      .select(['id', 'number', 'total_cents'])
+      .where('member_id', '=', member.id)
+      .where('status', '=', 'issued')
+      .orderBy('issued_on')
+      .execute();
+    expect(unpaid.length).toBeGreaterThanOrEqual(2); // the demo leaves September and October unpaid
+    const target = unpaid[0]!;
+
+    const { page, context } = await signIn('member12@example.org');
+    await page.getByRole('link', { name: 'Billing', exact: true }).click();
+    await page.waitForURL('**/billing/my-invoices');
+    await expect.poll(() => page.getByTestId('balance').textContent()).toMatch(/€\d/);
+    await page.getByRole('row', { name: new RegExp(target.number!) }).getByText('Overdue').waitFor();
+    await screenshot(page, 'billing-member-my-invoices');
+
+    await page.getByRole('link', { name: target.number! }).click();
+    await page.waitForURL(`**/billing/my-invoices/${target.id}`);
+    await page.getByRole('heading', { name: new RegExp(target.number!) }).waitFor();
+    await page.getByText('Membership dues').first().waitFor();
+    await screenshot(page, 'billing-member-invoice-unpaid');
+
+    await page.getByRole('button', { name: /^Pay .* online$/ }).click();
+    await page.waitForURL((u) => u.href.startsWith(`${fake.url}/pay/`));
+    await page.getByText('Sandbox payment page').waitFor();
+    expect(await page.getByTestId('amount').textContent()).toBe(
+      new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'EUR' }).format(target.total_cents / 100),
+    );
+    await screenshot(page, 'billing-provider-checkout-page');
+
+    await page.getByRole('button', { name: /^Pay / }).click();
+    await page.waitForURL((u) => u.href.startsWith(`${server.url}/billing/my-invoices/${target.id}`) && u.searchParams.get('checkout') === 'success');
+    await page.getByText('Paid — thank you').waitFor();
+    await page.getByRole('heading', { name: new RegExp(target.number!) }).getByText('Paid').waitFor();
+    await screenshot(page, 'billing-member-invoice-paid');
+
+    const row = await ctx.db.selectFrom('invoice').select(['status', 'paid_cents']).where('id', '=', target.id).executeTakeFirstOrThrow();
+    expect(row).toEqual({ status: 'paid', paid_cents: target.total_cents });
+    const payment = await ctx.db.selectFrom('payment').select(['method', 'amount_cents']).where('invoice_id', '=', target.id).executeTakeFirstOrThrow();
+    expect(payment).toEqual({ method: 'online', amount_cents: target.total_cents });
+
+    // Back on the list, the paid invoice no longer shows as overdue and the balance went down.
+    await page.getByRole('link', { name: '← My invoices' }).click();
+    await page.getByRole('row', { name: new RegExp(target.number!) }).getByText('Paid').waitFor();
+    await context.close();
+  });
+
+  it('a member who cancels on the provider’s page comes back to an invoice still open', async () => {
+    const { page, context } = await signIn('member20@example.org', phone);
+    await page.goto('/billing/my-invoices?unpaid=true');
+    await page.getByRole('row').nth(1).getByRole('link').click();
+    await page.getByRole('button', { name: /^Pay .* online$/ }).click();
+    await page.waitForURL((u) => u.href.startsWith(`${fake.url}/pay/`));
+    await page.getByRole('button', { name: 'Cancel and go back' }).click();
+    await page.getByText('You cancelled on the payment page; nothing was charged.').waitFor();
+    await screenshot(page, 'billing-member-checkout-cancelled-phone');
+    await context.close();
+  });
+});
+
+describe('the treasurer’s billing screens', () => {
+  it('shows the overview with ageing, the invoice list, an invoice with its sources, the run preview and the price list', async () => {
+    const { page, context } = await signIn('treasurer@example.org');
+    await page.getByRole('link', { name: 'Billing', exact: true }).click();
+    await page.waitForURL('**/billing');
+    await page.getByRole('heading', { name: 'Open amounts by age' }).waitFor();
+    await page.getByText('November 2026 has ended and can be billed.').waitFor();
+    await page.locator('.recharts-bar-rectangle').first().waitFor();
+    await screenshot(page, 'billing-treasurer-overview');
+
+    await page.getByRole('link', { name: 'Invoices', exact: true }).click();
+    await page.getByRole('row').nth(1).waitFor();
+    await page.getByLabel('Status').selectOption('issued');
+    await page.waitForURL(/status=issued/);
+    await page.getByRole('button', { name: /To pay/ }).click();
+    await page.waitForURL(/sort=amountDue/);
+    await screenshot(page, 'billing-treasurer-invoices');
+    await page.getByRole('row').nth(1).getByRole('link').first().click();
+    await page.getByRole('heading', { name: /INV-2026-/ }).waitFor();
+    await page.getByRole('button', { name: 'Record payment' }).waitFor();
+    await screenshot(page, 'billing-treasurer-invoice');
+
+    await page.getByRole('link', { name: 'Run a period' }).click();
+    await page.getByRole('heading', { name: /Preview: \d+ invoices to make/ }).waitFor();
+    await page.getByRole('button', { name: /Run and issue \d+ invoices/ }).waitFor();
+    await screenshot(page, 'billing-treasurer-run-preview');
+
+    await page.getByRole('link', { name: 'Price list' }).click();
+    await page.getByRole('heading', { name: /Prices, in EUR/ }).waitFor();
+    await screenshot(page, 'billing-treasurer-price-list');
+    await context.close();
+  });
+
+  it('keeps the brewer-on-duty out of Billing', async () => {
+    const { page, context } = await signIn('brewer@example.org');
+    expect(await page.getByRole('link', { name: 'Billing', exact: true }).count()).toBe(0);
+    await page.goto('/billing');
+    await page.getByRole('heading', { name: 'Not for your role' }).waitFor();
+    await context.close();
+  });
+});
