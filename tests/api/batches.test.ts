@@ -1,7 +1,7 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { abv, apparentAttenuation, correctHydrometer, litersToUsBarrels, realAttenuation } from '../../shared/brewing/index.ts';
+import { abv, apparentAttenuation, brixToSg, convertGravity, correctHydrometer, litersToUsBarrels, realAttenuation, refractometerFinalGravity } from '../../shared/brewing/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -252,6 +252,39 @@ describe('readings and what they say', () => {
     expect(d.readingsCount).toBe(1);
     expect(d.og).toBe(1.05);
     expect(keep.status).toBe(201);
+  });
+});
+
+describe('fermentation settings and refractometer readings', () => {
+  it('applies the co-op’s stable-gravity rule from Settings → Fermentation', async () => {
+    const b = await newBatch(member);
+    for (const [i, sg] of [1.05, 1.03, 1.015, 1.012, 1.012, 1.012].entries()) {
+      await member.post(`/api/batches/${b.id}/readings`, { takenAt: at('2026-10-01T08:00:00Z', i), gravity: sg, unit: 'sg' });
+    }
+    // Common practice by default: within 0.001 over 3 days; the last three readings span only 2.
+    expect((await member.get(`/api/batches/${b.id}`)).body.stable).toMatchObject({ stable: false, toleranceSg: 0.001, spanDays: 3 });
+    expect((await member.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 2, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 })).status).toBe(403);
+    const put = await admin.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 2, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 });
+    expect(put.status).toBe(200);
+    const d = (await member.get(`/api/batches/${b.id}`)).body;
+    expect(d.stable).toMatchObject({ stable: true, spanDays: 2 });
+    expect(d.fg).toBe(1.012);
+    await admin.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 3, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 });
+  });
+
+  it('reads Brix again when an earlier original gravity arrives', async () => {
+    const b = await newBatch(member);
+    // A refractometer reading mid-fermentation first, the brew-day hydrometer OG typed in afterwards.
+    const later = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-05T09:00:00Z', gravity: 7, unit: 'brix' });
+    expect(later.status).toBe(201);
+    const asWort = later.body.reading.gravitySg;
+    expect(asWort).toBeCloseTo(brixToSg(7 / 1.04), 4); // alone, it can only be read as wort
+    expect((await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00Z', gravity: 1.056, unit: 'sg' })).status).toBe(201);
+    const page = await member.get(`/api/batches/${b.id}/readings?sort=takenAt&order=desc`);
+    const reread = page.body.items[0];
+    expect(reread.enteredUnit).toBe('brix');
+    expect(reread.gravitySg).toBeCloseTo(refractometerFinalGravity(convertGravity(1.056, 'sg', 'brix') * 1.04, 7, 1.04), 4); // Terrill cubic
+    expect(reread.gravitySg).toBeLessThan(asWort);
   });
 });
 

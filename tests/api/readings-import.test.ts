@@ -285,6 +285,15 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
     expect(await countReadings(batchId)).toBe(1);
   });
 
+  it('rejects a quoted field that is never closed', async () => {
+    const csv = [header, '2026-10-05 09:00,1.020,SG,20,"fine"', '2026-10-06 09:00,1.015,SG,20,"never closed', '2026-10-07 09:00,1.010,SG,20,'].join('\n');
+    const res = await upload(member, batchId, csv, 'bad.csv');
+    expect(res.status).toBe(422);
+    const errors = res.body.errors as ImportProblem[];
+    expect(errors.some((e) => e.row === 3 && /quoted field is not closed/i.test(e.message))).toBe(true);
+    expect(await countReadings(batchId)).toBe(1);
+  });
+
   it('rejects a mapping that is not JSON or names a column the file lacks', async () => {
     const notJson = await upload(member, batchId, goodCsv, 'readings.csv', { mapping: '{oops' });
     expect(notJson.status).toBe(422);
