@@ -1,6 +1,6 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { desktop, launchBrowser, screenshot, serve } from '../helpers/browser.ts';
+import { desktop, launchBrowser, phone, screenshot, serve } from '../helpers/browser.ts';
 import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -144,6 +144,10 @@ describe('importing readings in the browser', () => {
     await expect.poll(() => page.getByTestId('stable-signal').textContent()).toMatch(/may be stuck/);
     await page.mouse.move(0, 0);
     await screenshot(page, 'batches-stuck');
+    // The brewer on duty in the cellar, on a phone.
+    await page.setViewportSize(phone);
+    await page.getByTestId('gravity-chart').locator('svg').first().waitFor();
+    await screenshot(page, 'batches-stuck-phone');
     await context.close();
   });
 
