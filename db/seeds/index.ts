@@ -4,6 +4,7 @@ import * as users from './0001_users.ts';
 import * as equipment from './0002_equipment.ts';
 import * as bookings from './0003_bookings.ts';
 import * as batches from './0004_batches.ts';
+import * as cellar from './0005_cellar.ts';
 import * as billing from './0006_billing.ts';
 
 /** Seeds in the order they run; each later capability appends its own. */
@@ -12,6 +13,7 @@ export const seeds: { name: string; seed: (db: Database) => Promise<void> }[] = 
   { name: '0002_equipment', seed: equipment.seed },
   { name: '0003_bookings', seed: bookings.seed },
   { name: '0004_batches', seed: batches.seed },
+  { name: '0005_cellar', seed: cellar.seed },
   // Billing reads every other capability's records: it stays last.
   { name: '0006_billing', seed: billing.seed },
 ];

@@ -34,6 +34,12 @@ export const createSanitationCycleSchema = z.object({
 });
 export type CreateSanitationCycleInput = z.infer<typeof createSanitationCycleSchema>;
 
+/** Body of `POST /api/sanitation-cycles/:id/steps`: the steps still to come of an incomplete cycle. */
+export const continueSanitationCycleSchema = z.object({
+  steps: z.array(sanitationStepInputSchema).min(1, 'Record at least one step').max(20, 'At most 20 steps'),
+  notes: z.string().trim().max(2000).optional(),
+});
+
 export const cycleOutcomes = ['ready', 'cleaned', 'needs_cleaning'] as const;
 export const cycleOutcomeSchema = z.enum(cycleOutcomes);
 

@@ -2,6 +2,7 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyFreshnessLapses } from '../../backend/modules/sanitation/vessel-state.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
@@ -26,7 +27,7 @@ afterAll(async () => ctx?.close());
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
 
 /** The four steps of a cycle that meets the co-op's default rules. */
-function completeSteps(startMinutesAgo = 120) {
+function completeSteps(startMinutesAgo = 120): Record<string, string | number>[] {
   return [
     { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: minutesAgo(startMinutesAgo) },
     { step: 'rinse', at: minutesAgo(startMinutesAgo - 62) },
@@ -165,6 +166,27 @@ describe('recording a sanitation cycle', () => {
   });
 });
 
+describe('continuing a cycle', () => {
+  it('completes a cycle cleaned one day and sanitized the next, and refuses to continue a complete one', async () => {
+    const keg = await takeKeg();
+    const [clean, rinse, sanitize, purge] = completeSteps(26 * 60);
+    const first = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: [clean, rinse] });
+    expect(first.body.cycle.outcome).toBe('cleaned');
+    const later = [
+      { ...sanitize!, at: minutesAgo(20) },
+      { ...purge!, at: minutesAgo(15) },
+    ];
+    expect((await member.post(`/api/sanitation-cycles/${first.body.cycle.id}/steps`, { steps: later })).status).toBe(403);
+    const res = await brewer.post(`/api/sanitation-cycles/${first.body.cycle.id}/steps`, { steps: later });
+    expect(res.status).toBe(200);
+    expect(res.body.cycle).toMatchObject({ id: first.body.cycle.id, outcome: 'ready', complete: true });
+    expect(res.body.cycle.steps.map((s: { step: string }) => s.step)).toEqual(['clean', 'rinse', 'sanitize', 'purge']);
+    expect(await stateOf(keg.id)).toBe('ready');
+    const again = await brewer.post(`/api/sanitation-cycles/${first.body.cycle.id}/steps`, { steps: later });
+    expect(again.status).toBe(409);
+  });
+});
+
 describe('who may do what', () => {
   it('lets neither a member nor the treasurer record a cycle (403), and nothing is written', async () => {
     const keg = await takeKeg();
@@ -202,11 +224,13 @@ describe('the log and the vessels’ standing', () => {
     const keg = await takeKeg();
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(200).slice(0, 2) });
-    const res = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}`);
+    // Only this test's cycles: the seeded history ends before today.
+    const since = encodeURIComponent(new Date(Date.now() - 8 * 3600_000).toISOString());
+    const res = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}&from=${since}`);
     expect(res.status).toBe(200);
     expect(res.body.total).toBe(2);
     expect(res.body.items.map((c: { outcome: string }) => c.outcome)).toEqual(['cleaned', 'ready']);
-    const ready = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}&outcome=ready`);
+    const ready = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}&outcome=ready&from=${since}`);
     expect(ready.body.items).toHaveLength(1);
     const paged = await brewer.get('/api/sanitation-cycles?pageSize=1&page=2&sort=equipmentCode&order=asc');
     expect(paged.body).toMatchObject({ page: 2, pageSize: 1 });
@@ -217,7 +241,17 @@ describe('the log and the vessels’ standing', () => {
   });
 
   it('treats a lapsed freshness window as needs cleaning at once, and the periodic pass writes it down', async () => {
-    const keg = await takeKeg();
+    // A keg none of whose cycles is still fresh.
+    const keg = await ctx.db
+      .selectFrom('equipment as e')
+      .select(['e.id', 'e.code'])
+      .where('e.kind', '=', 'keg')
+      .where('e.state', '=', 'needs_cleaning')
+      .where((eb) => eb.not(eb.exists(eb.selectFrom('sanitation_cycle as c').select('c.id').whereRef('c.equipment_id', '=', 'e.id').where('c.fresh_until', '>', new Date()))))
+      .where((eb) => eb.not(eb.exists(eb.selectFrom('keg_whereabouts as w').select('w.keg_id').whereRef('w.keg_id', '=', 'e.id').where('w.whereabouts', '<>', 'cellar'))))
+      .orderBy('e.code')
+      .executeTakeFirstOrThrow();
+    spare = spare.filter((id) => id !== keg.id);
     const old = completeSteps(10 * 24 * 60); // ten days ago
     const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: old });
     expect(res.body.cycle.outcome).toBe('ready');
@@ -232,7 +266,7 @@ describe('the log and the vessels’ standing', () => {
     expect(change.reason).toMatch(/Freshness window lapsed/);
     // Once written down, a second pass changes nothing for it.
     const again = await applyFreshnessLapses(ctx.db);
-    const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').execute();
+    const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').where('at', '>', new Date(Date.now() - 3600_000)).execute();
     expect(changes).toHaveLength(1);
     expect(again).toBeGreaterThanOrEqual(0);
   });
@@ -246,11 +280,7 @@ describe('the sanitation audit PDF', () => {
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
     const today = new Date().toISOString().slice(0, 10);
-    const res = await treasurer.get(`/api/reports/sanitation-audit.pdf?from=${today}&to=${today}&equipmentId=${keg.id}`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const res = await treasurer.get(`/api/reports/sanitation-audit.pdf?from=${today}&to=${today}&equipmentId=${keg.id}`).buffer(true).parse(binary);
     expect(res.status).toBe(200);
     const text = pdfText(res.body as Buffer);
     expect(text).toContain('Sanitation audit');
@@ -265,11 +295,37 @@ describe('the sanitation audit PDF', () => {
     expect(text).toMatch(/local codes/i);
   });
 
+  it('covers the seeded autumn: every vessel, the rota, and the exceptions left in the demo records', async () => {
+    const res = await brewer.get('/api/reports/sanitation-audit.pdf?from=2026-09-01&to=2026-11-30').buffer(true).parse(binary);
+    expect(res.status).toBe(200);
+    const text = pdfText(res.body as Buffer);
+    const [{ n: cycles }] = [await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).where('completed_at', '>=', new Date('2026-09-01T00:00:00Z')).where('completed_at', '<', new Date('2026-12-01T00:00:00Z')).executeTakeFirstOrThrow()];
+    const vessels = await ctx.db.selectFrom('equipment').select('code').where('kind', 'in', ['fermenter', 'keg']).execute();
+    expect(text).toContain(`${vessels.length} vessels · ${cycles} cycles`);
+    expect(text).toContain('Period 2026-09-01 to 2026-11-30');
+    for (const v of vessels) expect(text).toContain(v.code);
+    for (const person of ['Ada Kettleby', 'Odile Marsh', 'Amadou Kestrel']) expect(text).toContain(person);
+    // The exceptions the demo history holds on purpose.
+    expect(text).toMatch(/K-017\s+2026-09-\d\d \d\d:\d\d\s+Fill with no cycle on record/);
+    expect(text).toMatch(/Short contact time\s+Contact time of the sanitize step was 30 s/);
+    expect(text).toMatch(/Fill after the freshness window lapsed/);
+    expect(text).toMatch(/F-06\s+2026-11-\d\d \d\d:\d\d\s+Incomplete cycle/);
+    expect(text).toMatch(/Late cycle\s+Cleaned \d+ hours after it was emptied/);
+    expect(text).toContain('Freshness window lapsed');
+  });
+
   it('answers 422 for a missing or reversed period', async () => {
     expect((await brewer.get('/api/reports/sanitation-audit.pdf')).status).toBe(422);
     expect((await brewer.get('/api/reports/sanitation-audit.pdf?from=2026-11-30&to=2026-09-01')).status).toBe(422);
   });
 });
+
+function binary(r: request.Response, cb: (err: Error | null, body: unknown) => void) {
+  const stream = r as unknown as NodeJS.ReadableStream;
+  const chunks: Buffer[] = [];
+  stream.on('data', (c: Buffer) => chunks.push(c));
+  stream.on('end', () => cb(null, Buffer.concat(chunks)));
+}
 
 export function pdfText(pdf: Buffer): string {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-'));

@@ -160,7 +160,7 @@ describe('refusals', () => {
     // A keg registered as ready with no cleaning on record (as imported history may have it).
     const bare = await ctx.db
       .insertInto('equipment')
-      .values({ code: 'K-901', kind: 'keg', name: '19 L ball lock keg, new', capacity_liters: 19, state: 'ready', attributes: JSON.stringify({ serial: 'LY19-B09901', lock: 'ball' }) })
+      .values({ code: 'K-901', kind: 'keg', name: '19 L ball lock keg, new', capacity_liters: 19, state: 'ready', attributes: sql`${JSON.stringify({ serial: 'LY19-B09901', lock: 'ball' })}::jsonb` })
       .returning(['id', 'code'])
       .executeTakeFirstOrThrow();
     const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [stale!.id, bare!.id], volumeLiters: 20, checklist: fullChecklist });

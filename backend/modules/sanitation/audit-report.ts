@@ -6,6 +6,7 @@ import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interface
 import { alcoholCaution, chemicalCautions, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
 import { sanitationStepLabels, type SanitationSettings, type SanitationStep } from '../../../shared/schemas/cellar-settings.ts';
 import type { Database } from '../../db/database.ts';
+import { ttfFromWoffFile } from './pdf-font.ts';
 
 /**
  * The sanitation audit: for a period and a set of vessels, every cycle with its steps, every
@@ -18,6 +19,7 @@ import type { Database } from '../../db/database.ts';
 const require = createRequire(import.meta.url);
 // pdfmake 0.3's server build is one shared instance: set the same fonts and policies as the other PDFs.
 const pdfmake = require('pdfmake') as {
+  virtualfs: { writeFileSync(name: string, data: Buffer): void; existsSync(name: string): boolean };
   setFonts(fonts: Record<string, Record<string, string>>): void;
   setUrlAccessPolicy(cb: (url: string) => boolean): void;
   setLocalAccessPolicy(cb: (path: string) => boolean): void;
@@ -27,8 +29,12 @@ const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '.
 const fontDir = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files');
 const font = path.join(fontDir, 'roboto-flex-latin-400-normal.woff');
 
+const virtualFont = 'cellarwright-roboto-flex-latin-400.ttf';
+
 function preparePdfmake() {
-  pdfmake.setFonts({ RobotoFlex: { normal: font, bold: font, italics: font, bolditalics: font } });
+  // The same font as the other PDFs, handed over unpacked (see pdf-font.ts).
+  if (!pdfmake.virtualfs.existsSync(virtualFont)) pdfmake.virtualfs.writeFileSync(virtualFont, ttfFromWoffFile(font));
+  pdfmake.setFonts({ RobotoFlex: { normal: virtualFont, bold: virtualFont, italics: virtualFont, bolditalics: virtualFont } });
   pdfmake.setUrlAccessPolicy(() => false);
   pdfmake.setLocalAccessPolicy((p) => path.resolve(p).startsWith(fontDir));
 }
@@ -325,7 +331,8 @@ export async function loadAuditData(
     for (const u of merged) {
       if (u.next) {
         const gap = u.next.startedAt.getTime() - u.at.getTime();
-        if (gap > allowance) add(u.next.startedAt, 'late_cycle', `Cleaned ${(gap / DAY).toFixed(1)} days after it was emptied on ${fmt(u.at)} (allowed ${settings.cleanWithinDays}).`);
+        const took = gap < 3 * DAY ? `${Math.round(gap / 3_600_000)} hours` : `${(gap / DAY).toFixed(1)} days`;
+        if (gap > allowance) add(u.next.startedAt, 'late_cycle', `Cleaned ${took} after it was emptied on ${fmt(u.at)} (allowed ${settings.cleanWithinDays} days).`);
       } else if (u.at.getTime() + allowance < horizon) {
         add(new Date(u.at.getTime() + allowance), 'not_cleaned', `Emptied on ${fmt(u.at)} and not cleaned within ${settings.cleanWithinDays} days.`);
       }
@@ -454,10 +461,10 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       ? {
           table: {
             headerRows: 1,
-            widths: [40, 66, 110, '*'],
+            widths: [40, 66, 150, '*'],
             body: [
               header(['Vessel', 'When', 'Exception', 'Detail']),
-              ...data.exceptions.map((e): TableCell[] => [e.vesselCode, when(e.at), { text: exceptionLabels[e.kind], color: danger }, e.message]),
+              ...data.exceptions.map((e): TableCell[] => [e.vesselCode, { text: when(e.at), noWrap: true }, { text: exceptionLabels[e.kind], color: danger, noWrap: true }, e.message]),
             ],
           },
           layout: compact,
@@ -472,17 +479,23 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       content.push({
         table: {
           headerRows: 1,
-          widths: [62, 52, '*'],
+          widths: [66, 44, '*'],
           body: [
             header(['Completed', 'Outcome', 'Steps (chemical · strength · contact · who, when) and recorded by']),
             ...v.cycles.map((c): TableCell[] => [
-              when(c.completedAt),
+              { text: when(c.completedAt), noWrap: true },
               { text: c.outcome.replace('_', ' '), color: c.complete ? hop : danger },
               {
-                text:
-                  c.steps.map(stepLine).join('\n') +
-                  `\nrecorded by ${c.recordedBy ?? 'unknown'}` +
-                  (c.complete ? `; fresh until ${when(c.freshUntil!)}` : `; ${c.issues.map((i) => i.message).join(' ')}`),
+                // One unbroken line per step: pdfmake lays out a line as one piece, which keeps a year's report fast.
+                stack: [
+                  ...c.steps.map((st) => (st.ok ? { text: stepLine(st), noWrap: true } : { text: stepLine(st), noWrap: true, color: danger })),
+                  {
+                    text: `recorded by ${c.recordedBy ?? 'unknown'}${c.complete ? `; fresh until ${when(c.freshUntil!)}` : ''}`,
+                    noWrap: true,
+                    color: muted,
+                  },
+                  ...(c.complete ? [] : [{ text: c.issues.map((i) => i.message).join(' '), color: danger }]),
+                ],
               },
             ]),
           ],
@@ -494,11 +507,11 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       content.push({
         table: {
           headerRows: 1,
-          widths: [62, '*', 40, '*'],
+          widths: [66, '*', 40, '*'],
           body: [
             header(['Filled', 'Batch', 'Litres', 'Preceding cycle']),
             ...v.fills.map((f): TableCell[] => [
-              when(f.at),
+              { text: when(f.at), noWrap: true },
               f.batch ?? '—',
               f.volumeLiters === null ? '—' : f.volumeLiters.toFixed(1),
               f.cycle

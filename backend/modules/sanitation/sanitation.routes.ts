@@ -2,6 +2,7 @@ import { ForbiddenError } from '@casl/ability';
 import { Router } from 'express';
 import { z } from 'zod';
 import {
+  continueSanitationCycleSchema,
   createSanitationCycleSchema,
   sanitationAuditQuerySchema,
   sanitationCycleListQuerySchema,
@@ -11,7 +12,7 @@ import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { loadAuditData, renderAuditPdf } from './audit-report.ts';
-import { boundFrom, boundTo, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
+import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
 
 /** `/api/sanitation-cycles`: the sanitation log. */
 export function sanitationCycleRoutes({ db }: Deps): Router {
@@ -38,6 +39,14 @@ export function sanitationCycleRoutes({ db }: Deps): Router {
     const [cycle] = await cycleViews(db, [id.data]);
     if (!cycle) throw notFound('Sanitation cycle');
     res.json({ cycle });
+  });
+
+  router.post('/:id/steps', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'SanitationCycle');
+    const id = z.uuid().safeParse(req.params.id);
+    if (!id.success) throw notFound('Sanitation cycle');
+    const input = continueSanitationCycleSchema.parse(req.body ?? {});
+    res.json(await continueCycle(db, id.data, input, req.user!));
   });
 
   return router;

@@ -119,6 +119,99 @@ export async function recordCycle(
   return { cycle: cycle!, equipment };
 }
 
+/**
+ * Adds steps to a vessel's latest cycle while it is incomplete and the vessel has not been used
+ * since (cleaned and rinsed today, sanitized and purged tomorrow): the whole cycle is evaluated
+ * again and the vessel's state follows it.
+ */
+export async function continueCycle(
+  db: Database,
+  cycleId: string,
+  input: { steps: CreateSanitationCycleInput['steps']; notes?: string | undefined },
+  actor: { id: string },
+): Promise<{ cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }> {
+  const settings = await sanitationSettings(db);
+  const now = Date.now();
+  input.steps.forEach((s, i) => {
+    if (new Date(s.at).getTime() > now + FUTURE_SLACK_MS) {
+      throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
+    }
+  });
+  const equipmentId = await db.transaction().execute(async (trx) => {
+    const cycle = await trx.selectFrom('sanitation_cycle').selectAll().where('id', '=', cycleId).forUpdate().executeTakeFirst();
+    if (!cycle) throw notFound('Sanitation cycle');
+    const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', cycle.equipment_id).forUpdate().executeTakeFirstOrThrow();
+    if (cycle.complete) throw conflict('This cycle is already complete; record a new one.');
+    const latest = await trx.selectFrom('sanitation_cycle').select('id').where('equipment_id', '=', vessel.id).orderBy('completed_at', 'desc').orderBy('created_at', 'desc').limit(1).executeTakeFirstOrThrow();
+    if (latest.id !== cycle.id) throw conflict('A later cycle was recorded for this vessel; continue that one.');
+    if (vessel.state !== cycle.outcome) throw conflict(`${vessel.code} has changed since this cycle (now ${vessel.state.replace('_', ' ')}); record a new cycle.`);
+    const old = await trx.selectFrom('sanitation_step').selectAll().where('cycle_id', '=', cycle.id).orderBy('position').execute();
+    const merged = [
+      ...old.map((o) => ({
+        step: o.step,
+        chemical: o.chemical ?? undefined,
+        concentration: o.concentration === null ? undefined : Number(o.concentration),
+        contactMinutes: o.contact_minutes === null ? undefined : Number(o.contact_minutes),
+        at: o.at.toISOString(),
+        purgeMethod: o.purge_method ?? undefined,
+        co2Grams: o.co2_grams === null ? undefined : Number(o.co2_grams),
+        solutionLiters: o.solution_liters === null ? undefined : Number(o.solution_liters),
+        performedBy: o.performed_by ?? undefined,
+        note: o.note,
+      })),
+      ...input.steps,
+    ];
+    const ev = evaluateCycle(merged, settings);
+    await trx
+      .updateTable('sanitation_cycle')
+      .set({
+        started_at: ev.startedAt,
+        completed_at: ev.completedAt,
+        outcome: ev.outcome,
+        complete: ev.complete,
+        issues: JSON.stringify(ev.issues),
+        freshness_days: ev.complete ? settings.freshnessDays : null,
+        fresh_until: ev.freshUntil,
+        notes: input.notes ? [cycle.notes, input.notes].filter(Boolean).join('\n') : cycle.notes,
+      })
+      .where('id', '=', cycle.id)
+      .execute();
+    await trx.deleteFrom('sanitation_step').where('cycle_id', '=', cycle.id).execute();
+    await trx
+      .insertInto('sanitation_step')
+      .values(
+        ev.steps.map((st, position) => {
+          const raw = merged[st.index]!;
+          return {
+            cycle_id: cycle.id,
+            position,
+            step: st.step,
+            chemical_id: st.chemicalId,
+            chemical: st.chemicalName,
+            concentration: st.concentration,
+            concentration_unit: st.concentrationUnit,
+            contact_minutes: raw.contactMinutes ?? null,
+            minimum_contact_minutes: st.minimumContactMinutes,
+            purge_method: st.step === 'purge' ? (raw.purgeMethod ?? 'flush') : null,
+            co2_grams: st.step === 'purge' ? (raw.co2Grams ?? settings.co2GramsPerPurge) : null,
+            solution_liters: raw.solutionLiters ?? null,
+            performed_by: raw.performedBy ?? actor.id,
+            at: raw.at,
+            ok: st.ok,
+            note: raw.note ?? '',
+          };
+        }),
+      )
+      .execute();
+    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id);
+    await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, { equipmentId: vessel.id, code: vessel.code, outcome: ev.outcome, added: input.steps.map((s) => s.step) });
+    return vessel.id;
+  });
+  const [cycle] = await cycleViews(db, [cycleId]);
+  const equipment = await db.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', equipmentId).executeTakeFirstOrThrow();
+  return { cycle: cycle!, equipment };
+}
+
 type CycleRow = {
   id: string;
   equipment_id: string;

@@ -1,0 +1,127 @@
+// The sanitation audit for a year of a fleet of 80 vessels (20 fermenters, 60 kegs): a cycle on
+// every vessel about every six days, a fill of every keg about every twelve, some exceptions.
+// Prints the time of the two set-based queries, of the PDF, the number of queries made, the PDF's
+// pages and size, and the peak memory. Figures only; tests assert behaviour elsewhere.
+import { Kysely, PostgresDialect, sql } from 'kysely';
+import type { DB } from '../db/schema.ts';
+import { loadAuditData, renderAuditPdf } from '../modules/sanitation/audit-report.ts';
+import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
+import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
+import { benchDatabase, peakRssMiB, time } from './bench-db.ts';
+
+const DAY = 86_400_000;
+const MIN = 60_000;
+const from = new Date('2025-12-01T00:00:00Z');
+const to = new Date('2026-12-01T00:00:00Z');
+
+const bench = await benchDatabase('audit', { seed: false });
+let queries = 0;
+const db = new Kysely<DB>({
+  dialect: new PostgresDialect({ pool: bench.pool }),
+  log: (e) => {
+    if (e.level === 'query') queries += 1;
+  },
+});
+
+try {
+  // People, vessels and a batch to fill kegs from.
+  const people = await db
+    .insertInto('app_user')
+    .values(['Ada Kettleby', 'Bram Whitlock', 'Amadou Kestrel'].map((name, i) => ({ email: `rota${i}@example.org`, name, roles: ['brewer_on_duty' as const] })))
+    .returning('id')
+    .execute();
+  const owner = await db.insertInto('app_user').values({ email: 'owner@example.org', name: 'Maren Holloway', roles: ['member'] }).returning('id').executeTakeFirstOrThrow();
+  const vessels = await db
+    .insertInto('equipment')
+    .values([
+      ...Array.from({ length: 20 }, (_, i) => ({ code: `F-${String(i + 1).padStart(2, '0')}`, kind: 'fermenter' as const, name: `Fermenter ${i + 1}`, capacity_liters: 60 })),
+      ...Array.from({ length: 60 }, (_, i) => ({ code: `K-${String(i + 1).padStart(3, '0')}`, kind: 'keg' as const, name: `19 L keg ${i + 1}`, capacity_liters: 19 })),
+    ])
+    .returning(['id', 'kind', 'code'])
+    .execute();
+  const batch = await db.insertInto('batch').values({ owner_id: owner.id, name: 'Yard pale', style: 'Pale ale', volume_liters: 50, status: 'packaged' }).returning('id').executeTakeFirstOrThrow();
+
+  const cycles: Record<string, unknown>[] = [];
+  const steps: Record<string, unknown>[] = [];
+  const fills: Record<string, unknown>[] = [];
+  let n = 0;
+  const t0 = performance.now();
+  for (const v of vessels) {
+    for (let t = from.getTime() + (n % 6) * DAY; t < to.getTime(); t += 6 * DAY) {
+      n += 1;
+      const by = people[n % people.length]!.id;
+      const short = n % 97 === 0;
+      const list = [
+        { step: 'clean' as const, chemical: 'alkaline-cleaner', contactMinutes: 60, at: new Date(t) },
+        { step: 'rinse' as const, at: new Date(t + 65 * MIN) },
+        { step: 'sanitize' as const, chemical: 'acid-sanitizer', contactMinutes: short ? 0.5 : 2, at: new Date(t + 75 * MIN) },
+        { step: 'purge' as const, contactMinutes: 0.5, at: new Date(t + 80 * MIN) },
+      ];
+      const ev = evaluateCycle(list, defaultSanitationSettings);
+      const id = crypto.randomUUID();
+      cycles.push({
+        id,
+        equipment_id: v.id,
+        started_at: ev.startedAt,
+        completed_at: ev.completedAt,
+        outcome: ev.outcome,
+        complete: ev.complete,
+        issues: JSON.stringify(ev.issues),
+        freshness_days: ev.complete ? 7 : null,
+        fresh_until: ev.freshUntil,
+        recorded_by: by,
+      });
+      ev.steps.forEach((st, position) => {
+        const raw = list[st.index]!;
+        steps.push({
+          cycle_id: id,
+          position,
+          step: st.step,
+          chemical_id: st.chemicalId,
+          chemical: st.chemicalName,
+          concentration: st.concentration,
+          concentration_unit: st.concentrationUnit,
+          contact_minutes: raw.contactMinutes ?? null,
+          minimum_contact_minutes: st.minimumContactMinutes,
+          purge_method: st.step === 'purge' ? 'flush' : null,
+          performed_by: by,
+          at: raw.at,
+          ok: st.ok,
+        });
+      });
+      // Every other cycle of a keg is followed by a fill a day later (one in 50 long after its window).
+      if (v.kind === 'keg' && n % 2 === 0) {
+        const late = n % 50 === 0;
+        fills.push({
+          keg_id: v.id,
+          batch_id: batch.id,
+          volume_liters: 18.5,
+          remaining_liters: 0,
+          sanitation_cycle_id: id,
+          filled_at: new Date(t + (late ? 8 : 1) * DAY),
+          emptied_at: new Date(t + (late ? 12 : 5) * DAY),
+          emptied_reason: 'returned',
+        });
+      }
+    }
+  }
+  for (let i = 0; i < cycles.length; i += 1000) await db.insertInto('sanitation_cycle').values(cycles.slice(i, i + 1000) as never).execute();
+  for (let i = 0; i < steps.length; i += 2000) await db.insertInto('sanitation_step').values(steps.slice(i, i + 2000) as never).execute();
+  for (let i = 0; i < fills.length; i += 1000) await db.insertInto('keg_fill').values(fills.slice(i, i + 1000) as never).execute();
+  await sql`analyze`.execute(db);
+  console.log(`  data: ${vessels.length} vessels, ${cycles.length} cycles, ${steps.length} steps, ${fills.length} fills (written in ${((performance.now() - t0) / 1000).toFixed(1)} s)`);
+
+  for (const round of [1, 2]) {
+    queries = 0;
+    const load = await time(() => loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings }));
+    const made = queries;
+    const pdf = await time(() => renderAuditPdf(load.value, 'every fermenter and keg'));
+    const pages = (pdf.value.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length;
+    console.log(
+      `  round ${round}: queries ${made} in ${load.ms.toFixed(0)} ms · PDF ${pdf.ms.toFixed(0)} ms · ${pages} pages, ${(pdf.value.length / 1024).toFixed(0)} KiB · ` +
+        `${load.value.exceptions.length} exceptions · total ${(load.ms + pdf.ms).toFixed(0)} ms · peak RSS ${peakRssMiB()} MiB`,
+    );
+  }
+} finally {
+  await bench.drop().catch(() => undefined);
+}
