@@ -151,9 +151,9 @@ describe('readings and what they say', () => {
     expect(d.fg).toBe(1.01);
     expect(d.figuresFrom).toBe('fg');
     expect(d.stable).toMatchObject({ stable: true, toleranceSg: 0.001, spanDays: 3, since: at(start, 6) });
-    expect(d.abv).toBeCloseTo(abv(1.05, 1.01), 2);
-    expect(d.apparentAttenuation).toBeCloseTo(apparentAttenuation(1.05, 1.01), 1);
-    expect(d.realAttenuation).toBeCloseTo(realAttenuation(1.05, 1.01), 1);
+    expect(d.abv).toBeCloseTo(abv(1.05, 1.01), 3);
+    expect(d.apparentAttenuation).toBeCloseTo(apparentAttenuation(1.05, 1.01), 3);
+    expect(d.realAttenuation).toBeCloseTo(realAttenuation(1.05, 1.01), 3);
     expect(d.abv).toBeGreaterThan(5.1);
     expect(d.abv).toBeLessThan(5.5);
     expect(d.series).toHaveLength(series.length);
@@ -172,7 +172,7 @@ describe('readings and what they say', () => {
     expect(d.fg).toBeNull();
     expect(d.stable.stable).toBe(false);
     expect(d.figuresFrom).toBe('current');
-    expect(d.abv).toBeCloseTo(abv(1.048, 1.03), 2);
+    expect(d.abv).toBeCloseTo(abv(1.048, 1.03), 3);
   });
 
   it('corrects a hydrometer reading for temperature and keeps what was entered', async () => {
@@ -341,7 +341,7 @@ describe('production records', () => {
     const row = res.body.rows.find((r: { batchId: string }) => r.batchId === batchId);
     expect(row).toMatchObject({ month: '2026-10', batchName: 'Records pale ale', packagedLiters: 57, og: 1.05, fg: 1.01 });
     expect(row.usBarrels).toBeCloseTo(litersToUsBarrels(57), 4);
-    expect(row.abv).toBeCloseTo(abv(1.05, 1.01), 2);
+    expect(row.abv).toBeCloseTo(abv(1.05, 1.01), 3);
     expect(res.body.note).toMatch(/local licensing and excise rules govern/i);
     const oct = res.body.months.find((m: { month: string }) => m.month === '2026-10');
     expect(oct.packagedLiters).toBeGreaterThanOrEqual(57);

@@ -84,9 +84,10 @@ function alcoholFigures(og: number | null, final: number | null) {
   if (og === null || final === null || !(og > 1) || final > og) return { abv: null, apparentAttenuation: null, realAttenuation: null };
   try {
     return {
-      abv: round(abv(og, final), 2),
-      apparentAttenuation: round(apparentAttenuation(og, final), 1),
-      realAttenuation: round(realAttenuation(og, final), 1),
+      // Full precision to four places: the screens round for display.
+      abv: round(abv(og, final), 4),
+      apparentAttenuation: round(apparentAttenuation(og, final), 4),
+      realAttenuation: round(realAttenuation(og, final), 4),
     };
   } catch {
     return { abv: null, apparentAttenuation: null, realAttenuation: null };

@@ -80,7 +80,7 @@ export async function productionRecords(
     let a: number | null = null;
     if (gr.og !== null && gr.fg !== null && gr.og > 1 && gr.fg <= gr.og) {
       try {
-        a = round(abv(gr.og, gr.fg), 2);
+        a = round(abv(gr.og, gr.fg), 4);
       } catch {
         a = null;
       }
