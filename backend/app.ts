@@ -16,6 +16,7 @@ import { productionRecordsRoutes } from './modules/batches/production-records.ro
 import { readingsRoutes } from './modules/batches/readings.routes.ts';
 import {
   billingRoutes,
+  creditNotesRoutes,
   invoiceRunsRoutes,
   invoicesRoutes,
   manualChargesRoutes,
@@ -108,6 +109,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/tax-rates', taxRatesRoutes(deps));
   app.use('/api/manual-charges', manualChargesRoutes(deps));
   app.use('/api/billing', billingRoutes(deps));
+  app.use('/api/credit-notes', creditNotesRoutes(deps));
   app.use('/api/webhooks', paymentWebhookRoutes(deps));
   mountCellarOperations(app, deps);
   app.use('/api', apiNotFound);

@@ -81,12 +81,12 @@ export async function seed(db: Database): Promise<void> {
   const september = await runPeriodIn(db, { period: '2026-09', issue: true }, treasurer, { today: '2026-10-01' });
   await settleMonth(db, september.invoices, { issuedOn: '2026-10-01', lastDay: '2026-10-31', paidShare: 0.85, unpaid: ['member12', 'member20'], partPaid: ['member9'] }, random);
 
-  // One September invoice billed a fermenter the co-op had itself taken out of service: voided,
-  // replaced by its credit note, and the fair charges re-billed on October's invoice.
+  // One September invoice carried keg check-outs and fills recorded against the wrong member:
+  // voided, replaced by its credit note, and the member's own charges re-billed on October's invoice.
   const voided = september.invoices.find((i) => i.memberId === userId('member15'));
   if (voided) {
     const fair = Math.round(voided.subtotalCents * 0.6);
-    await voidInvoice(db, voided.id, { reason: 'Billed days on a fermenter that was out of service; replaced by corrected charges on October’s invoice', refundMethod: 'bank_transfer' }, '2026-10-09', treasurer);
+    await voidInvoice(db, voided.id, { reason: 'Keg check-outs and fills were recorded against the wrong member; corrected charges follow on October’s invoice', refundMethod: 'bank_transfer' }, '2026-10-09', treasurer);
     await db
       .insertInto('manual_charge')
       .values({

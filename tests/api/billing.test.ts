@@ -427,6 +427,8 @@ describe('who sees what', () => {
       ['GET /api/billing/balance', () => brewer.get('/api/billing/balance')],
       ['GET /api/billing/profile', () => brewer.get('/api/billing/profile')],
       ['PUT /api/billing/profile', () => brewer.put('/api/billing/profile', {})],
+      ['GET /api/credit-notes/:id/pdf', () => brewer.get(`/api/credit-notes/${price.id}/pdf`)],
+      ['POST /api/invoice-runs/:id/send', () => brewer.post(`/api/invoice-runs/${run.id}/send`)],
     ];
     const statuses = await Promise.all(calls.map(async ([name, call]) => [name, (await call()).status] as const));
     expect(statuses.filter(([, s]) => s !== 403)).toEqual([]);
@@ -450,6 +452,27 @@ describe('documents', () => {
     expect(text).toContain('€27.96');
     expect(text).toMatch(/How to pay/);
     expect(text).toContain(`quoting ${inv.number}`);
+  });
+
+  it('renders a credit note PDF for the treasurer and the member it credits, and no one else', async () => {
+    const note = await ctx.db
+      .selectFrom('credit_note')
+      .innerJoin('app_user', 'app_user.id', 'credit_note.member_id')
+      .select(['credit_note.id', 'credit_note.number', 'credit_note.total_cents', 'app_user.email'])
+      .where('credit_note.kind', '=', 'refund')
+      .where('app_user.email', 'like', '%@example.org')
+      .where('credit_note.member_id', '<>', ids.b)
+      .executeTakeFirstOrThrow();
+    const res = await treasurer.get(`/api/credit-notes/${note.id}/pdf`).buffer(true).parse(binary);
+    expect(res.status).toBe(200);
+    const text = pdfText(res.body as Buffer).replace(/\s+/g, ' ');
+    expect(text).toContain('Credit note');
+    expect(text).toContain(note.number);
+    expect(text).toMatch(/was paid back by bank transfer/);
+    const owner = await ctx.signIn(note.email);
+    expect((await owner.get(`/api/credit-notes/${note.id}/pdf`)).status).toBe(200);
+    const other = await ctx.signIn(note.email === 'member@example.org' ? 'member2@example.org' : 'member@example.org');
+    expect((await other.get(`/api/credit-notes/${note.id}/pdf`)).status).toBe(404);
   });
 
   it('e-mails the invoice with its PDF attached, through the queue', async () => {

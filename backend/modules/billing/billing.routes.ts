@@ -27,7 +27,7 @@ import { requireUser } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile, putBillingProfile } from './billing-profile.service.ts';
 import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
 import { sendInvoice } from './invoice-mail.service.ts';
-import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
+import { invoicePdfFilename, renderCreditNotePdf, renderInvoicePdf } from './invoice-pdf.ts';
 import { issueRunDrafts, listRuns, previewRun, runPeriod } from './invoice-runs.service.ts';
 import {
   findInvoiceRow,
@@ -377,6 +377,32 @@ export function billingRoutes({ db }: Deps): Router {
     res.json({ profile });
   });
 
+  return router;
+}
+
+/** A credit note as a document: `GET /api/credit-notes/:id/pdf` (the member it credits, and the treasurer). */
+export function creditNotesRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+  router.get('/:id/pdf', async (req, res) => {
+    can(req).throwUnlessCan('read', 'CreditNote');
+    const { id } = idParam.parse(req.params);
+    const row = /^[0-9a-f-]{36}$/i.test(id)
+      ? await db.selectFrom('credit_note').select(['id', 'invoice_id', 'member_id', 'number']).where('id', '=', id).executeTakeFirst()
+      : undefined;
+    if (!row || !req.ability.can('read', subject('CreditNote', { memberId: row.member_id }))) throw notFound('Credit note');
+    const { today } = await coopToday(db);
+    const invoice = await getDetail(db, row.invoice_id, today);
+    const note = invoice.creditNotes.find((n) => n.id === row.id)!;
+    const payback = invoice.payments.find((p) => p.creditNoteId === row.id);
+    const pdf = await renderCreditNotePdf({
+      note,
+      invoice,
+      profile: await getBillingProfile(db),
+      refund: payback ? { amountCents: -payback.amountCents, method: payback.method === 'cash' ? 'cash' : 'bank transfer', on: payback.receivedOn } : null,
+    });
+    res.type('application/pdf').set('Content-Disposition', `inline; filename="credit-note-${row.number}.pdf"`).set('Cache-Control', 'private, no-store').send(pdf);
+  });
   return router;
 }
 

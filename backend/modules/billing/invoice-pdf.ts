@@ -203,7 +203,7 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
           },
           {
             width: 'auto',
-            table: { body: meta.map(([k, v]): TableCell[] => [{ text: k, color: muted, fontSize: 9 }, { text: v, fontSize: 9, alignment: 'right' }]) },
+            table: { body: meta.map(([k, v]): TableCell[] => [{ text: k, color: muted, fontSize: 9, noWrap: true }, { text: v, fontSize: 9, alignment: 'right', noWrap: true }]) },
             layout: 'noBorders',
           },
         ],
@@ -230,4 +230,116 @@ export async function renderInvoicePdf(input: InvoicePdfInput): Promise<Buffer> 
 
 export function invoicePdfFilename(inv: Pick<InvoiceDetail, 'number' | 'period' | 'id'>): string {
   return `invoice-${inv.number ?? `draft-${inv.period}-${inv.id.slice(0, 8)}`}.pdf`;
+}
+
+export interface CreditNotePdfInput {
+  note: CreditNote;
+  invoice: InvoiceDetail;
+  profile: BillingProfile;
+  /** Money paid back with this credit note, if any. */
+  refund: { amountCents: number; method: string; on: string } | null;
+}
+
+export function creditNoteDocument({ note, invoice, profile, refund }: CreditNotePdfInput): TDocumentDefinitions {
+  const c = note.currency;
+  const meta: [string, string][] = [
+    ['Credit note', note.number],
+    ['Date', longDate(note.issuedOn)],
+    ['For invoice', invoice.number ?? '—'],
+    ['Period', periodLabel(invoice.period)],
+  ];
+  const body: TableCell[][] = [
+    [th('Credited'), th('Tax', 'right'), th('Tax amount', 'right'), th('Amount', 'right')],
+    ...note.lines.map((l): TableCell[] => [
+      { text: l.description },
+      { text: formatRate(l.taxRateBp), alignment: 'right', color: muted, noWrap: true },
+      { text: money(l.taxCents, c), alignment: 'right', noWrap: true },
+      { text: money(l.amountCents, c), alignment: 'right', noWrap: true },
+    ]),
+  ];
+  const settled = refund
+    ? `${money(refund.amountCents, c)} was paid back by ${refund.method} on ${longDate(refund.on)}.`
+    : `The credit reduces what is owed on invoice ${invoice.number}; anything already paid beyond that stays as credit on your account.`;
+  return {
+    info: { title: `Credit note ${note.number} — ${profile.coopName}`, author: profile.coopName },
+    pageSize: 'A4',
+    pageMargins: [48, 48, 48, 56],
+    defaultStyle: { font: 'RobotoFlex', fontSize: 10, color: ink, lineHeight: 1.15 },
+    footer: (page: number, pages: number): Content => ({
+      columns: [
+        { text: `${profile.coopName} · ${profile.email}`, color: muted, fontSize: 8 },
+        { text: `${note.number} · page ${page} of ${pages}`, color: muted, fontSize: 8, alignment: 'right' },
+      ],
+      margin: [48, 16, 48, 0],
+    }),
+    content: [
+      {
+        columns: [
+          {
+            width: '*',
+            stack: [
+              { text: profile.coopName, fontSize: 16, color: copper },
+              ...profile.addressLines.map((l) => ({ text: l, color: muted, fontSize: 9 })),
+              { text: profile.email, color: muted, fontSize: 9 },
+            ],
+          },
+          {
+            width: 'auto',
+            stack: [
+              { text: 'Credit note', fontSize: 22, alignment: 'right' },
+              { text: note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : 'Refund or credit', fontSize: 9, alignment: 'right', color: copper },
+            ],
+          },
+        ],
+      },
+      {
+        columns: [
+          {
+            width: '*',
+            stack: [
+              { text: 'Credited to', color: muted, fontSize: 8, margin: [0, 0, 0, 2] },
+              { text: invoice.memberName },
+              { text: invoice.memberEmail, color: muted, fontSize: 9 },
+            ],
+          },
+          {
+            width: 'auto',
+            table: { body: meta.map(([k, v]): TableCell[] => [{ text: k, color: muted, fontSize: 9, noWrap: true }, { text: v, fontSize: 9, alignment: 'right', noWrap: true }]) },
+            layout: 'noBorders',
+          },
+        ],
+        margin: [0, 24, 0, 18],
+      },
+      { text: `Reason: ${note.reason}`, margin: [0, 0, 0, 10] },
+      {
+        table: { headerRows: 1, widths: ['*', 'auto', 'auto', 'auto'], body },
+        layout: { hLineWidth: (i: number) => (i === 1 ? 0.8 : 0.3), vLineWidth: () => 0, hLineColor: () => rule, paddingTop: () => 3, paddingBottom: () => 3 },
+        fontSize: 9,
+      },
+      {
+        columns: [
+          { width: '*', text: '' },
+          {
+            width: 240,
+            table: {
+              widths: ['*', 'auto'],
+              body: [
+                [{ text: 'Credited before tax', color: muted, fontSize: 9 }, { text: money(note.subtotalCents, c), alignment: 'right', fontSize: 9 }],
+                [{ text: 'Tax credited', color: muted, fontSize: 9 }, { text: money(note.taxCents, c), alignment: 'right', fontSize: 9 }],
+                [{ text: 'Total credited', fontSize: 11 }, { text: money(note.totalCents, c), alignment: 'right', fontSize: 11 }],
+              ],
+            },
+            layout: { hLineWidth: (i: number) => (i === 2 ? 0.3 : 0), vLineWidth: () => 0, hLineColor: () => rule },
+          },
+        ],
+        margin: [0, 10, 0, 0],
+      },
+      { text: settled, fontSize: 9, margin: [0, 16, 0, 0] },
+    ],
+  };
+}
+
+export async function renderCreditNotePdf(input: CreditNotePdfInput): Promise<Buffer> {
+  configure();
+  return pdfmake.createPdf(creditNoteDocument(input)).getBuffer();
 }

@@ -205,6 +205,11 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
                   <Money cents={n.totalCents} currency={n.currency} className="font-medium" />
                 </div>
                 <p className="mt-1 text-ink-muted">{n.reason}</p>
+                <p className="mt-1">
+                  <a href={`/api/credit-notes/${n.id}/pdf`} target="_blank" rel="noopener">
+                    Credit note PDF
+                  </a>
+                </p>
                 <p className="mt-1 text-xs text-ink-muted">
                   <Money cents={n.subtotalCents} currency={n.currency} /> + <Money cents={n.taxCents} currency={n.currency} /> tax, in {n.lines.length} line{n.lines.length === 1 ? '' : 's'}
                 </p>
