@@ -64,7 +64,7 @@ const goodCsv = [
   '2026-10-06 09:00,1.014,SG,20,',
 ].join('\n');
 
-describe('importing a good CSV', () => {
+describe('importing a good CSV', { timeout: 60_000 }, () => {
   it('previews with a proposed mapping and writes nothing, then imports every row in one go', async () => {
     const batchId = await newBatch();
     const preview = await upload(member, batchId, goodCsv, 'readings.csv', { dryRun: true });
@@ -317,7 +317,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
   });
 });
 
-describe('files that are not readings: 4xx problems, never 500', () => {
+describe('files that are not readings: 4xx problems, never 500', { timeout: 60_000 }, () => {
   let batchId: string;
   beforeAll(async () => {
     batchId = await newBatch(member, 'Junk cases');

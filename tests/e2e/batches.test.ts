@@ -44,7 +44,8 @@ const exportCsv = [
   '2026-11-11 08:00;1,012;19,7;steady',
 ].join('\r\n');
 
-describe('importing readings in the browser', () => {
+// Each test drives several screens on a shared 2-core machine: give them room.
+describe('importing readings in the browser', { timeout: 120_000 }, () => {
   it('a member imports a CSV through the mapping and preview steps and sees the gravity chart', async () => {
     const { page, context } = await signIn('member@example.org');
 
