@@ -5,10 +5,12 @@ import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interface
 import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney, formatRate } from '../../../shared/billing/money.ts';
 import type { BillingProfile, CreditNote, InvoiceDetail } from '../../../shared/schemas/billing.ts';
+import { trueTypeFromWoffFile } from './invoice-font.ts';
 
 const require = createRequire(import.meta.url);
 // pdfmake 0.3's server build is one shared instance; it embeds WOFF/TTF fonts (not WOFF2).
 const pdfmake = require('pdfmake') as {
+  virtualfs: { writeFileSync(name: string, data: Buffer): void; existsSync(name: string): boolean };
   setFonts(fonts: Record<string, Record<string, string>>): void;
   setUrlAccessPolicy(cb: (url: string) => boolean): void;
   setLocalAccessPolicy(cb: (path: string) => boolean): void;
@@ -18,14 +20,18 @@ const pdfmake = require('pdfmake') as {
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
 const fontDir = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files');
 const font = path.join(fontDir, 'roboto-flex-latin-400-normal.woff');
-let configured = false;
+const virtualFont = 'billing-roboto-flex-latin-400.ttf';
+
+/**
+ * pdfmake is one instance shared with the other PDFs of the app, so its fonts and policies are set
+ * again before each document (cheap), whatever another module set last.
+ */
 function configure() {
-  if (configured) return;
-  pdfmake.setFonts({ RobotoFlex: { normal: font, bold: font, italics: font, bolditalics: font } });
+  if (!pdfmake.virtualfs.existsSync(virtualFont)) pdfmake.virtualfs.writeFileSync(virtualFont, trueTypeFromWoffFile(font));
+  pdfmake.setFonts({ RobotoFlex: { normal: virtualFont, bold: virtualFont, italics: virtualFont, bolditalics: virtualFont } });
   // An invoice never fetches anything, and reads only the font files.
   pdfmake.setUrlAccessPolicy(() => false);
   pdfmake.setLocalAccessPolicy((p) => path.resolve(p).startsWith(fontDir));
-  configured = true;
 }
 
 const ink = '#1d1b18';
