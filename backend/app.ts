@@ -30,6 +30,7 @@ import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
 import { healthRoutes } from './modules/health/health.routes.ts';
 import { mountCellarOperations } from './modules/sanitation/cellar-operations.routes.ts';
 import { settingsRoutes } from './modules/settings/settings.routes.ts';
+import { todayRoutes } from './modules/today/today.routes.ts';
 import { usersRoutes } from './modules/users/users.routes.ts';
 
 const distDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
@@ -95,6 +96,7 @@ export function createApp(deps: Deps): Express {
 
   app.use('/api/auth', authRoutes(deps));
   app.use('/api/users', usersRoutes(deps));
+  app.use('/api/today', todayRoutes(deps));
   app.use('/api/audit', auditRoutes(deps));
   app.use('/api/dev', mailboxRoutes(deps));
   app.use('/api/equipment', equipmentRoutes(deps));
