@@ -145,9 +145,11 @@ export async function runPeriodIn(
   };
 }
 
-export async function listRuns(db: Database, limit = 24): Promise<InvoiceRun[]> {
-  const rows = await db
-    .selectFrom('invoice_run')
+export async function listRuns(db: Database, limit = 24, { madeInvoices = false } = {}): Promise<InvoiceRun[]> {
+  let q = db.selectFrom('invoice_run');
+  // A repeated run that found everyone billed already is kept in the log but is not "the last run".
+  if (madeInvoices) q = q.where('invoice_run.invoice_count', '>', 0);
+  const rows = await q
     .leftJoin('app_user', 'app_user.id', 'invoice_run.run_by')
     .selectAll('invoice_run')
     .select('app_user.name as run_by_name')

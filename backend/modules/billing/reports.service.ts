@@ -54,7 +54,7 @@ export async function ageingReport(db: Database, asOf?: string): Promise<AgeingR
 }
 
 export async function billingSummary(db: Database): Promise<BillingSummary> {
-  const [{ today }, profile, ageing, runs] = await Promise.all([coopToday(db), getBillingProfile(db), ageingReport(db), listRuns(db, 1)]);
+  const [{ today }, profile, ageing, runs] = await Promise.all([coopToday(db), getBillingProfile(db), ageingReport(db), listRuns(db, 1, { madeInvoices: true })]);
   const row = await db
     .selectFrom('invoice')
     .select([
