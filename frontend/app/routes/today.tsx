@@ -1,32 +1,26 @@
 import { Link } from 'react-router-dom';
-import { roleLabels, roles as roleOrder, type Role } from '../../../shared/permissions/roles.ts';
 import { RoleBadges } from '@/components/role-badges';
+import { Alert } from '@/components/ui/alert';
+import { Spinner } from '@/components/ui/spinner';
 import { coopName } from '@/config/app';
 import { paths } from '@/config/paths';
+import { useToday } from '@/features/today/api/get-today';
+import { CellarToday, MemberToday, MoneyToday } from '@/features/today/components/today-sections';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 import { useSessionUser } from '@/lib/auth';
 import { greetingFor } from '@/utils/format';
 
-/** What each role looks at first, in the co-op's own words. */
-const focus: Record<Role, string> = {
-  member:
-    'Your fermenter and keg bookings, the batches you have going and their latest readings, and whatever is left to pay.',
-  brewer_on_duty:
-    'The cellar round: vessels that need cleaning before their next booking, transfers due from fermenter to keg, and kegs overdue back from members.',
-  treasurer: 'Unpaid invoices and how old they are, payments that came in, and the month’s invoice run.',
-  admin: 'Who is waiting on an invitation, whether everyone has the roles they need, and the equipment registry.',
-};
-
+/** What needs doing today, for each role the person holds. */
 const TodayRoute = () => {
   useDocumentTitle('Today');
   const user = useSessionUser();
   const ability = useAppAbility();
+  const today = useToday();
   if (!user) return null;
-  const held = roleOrder.filter((role) => user.roles.includes(role));
 
   return (
-    <div className="flex max-w-3xl flex-col gap-6">
+    <div className="flex max-w-5xl flex-col gap-6">
       <header className="flex flex-col gap-2">
         <p className="text-sm text-ink-muted">{coopName}</p>
         <h1 className="text-2xl">
@@ -35,30 +29,46 @@ const TodayRoute = () => {
         <RoleBadges roles={user.roles} />
       </header>
 
-      <section aria-labelledby="today-focus" className="flex flex-col gap-3">
-        <h2 id="today-focus" className="text-base">
-          What to look at today
-        </h2>
-        {held.length === 0 ? (
-          <p className="text-ink-muted">
-            Your account has no role yet, so there is nothing for you here. Ask the co-op admin to add one.
+      {user.roles.length === 0 ? (
+        <p className="text-ink-muted">Your account has no role yet, so there is nothing for you here. Ask the co-op admin to add one.</p>
+      ) : null}
+      {today.isPending ? <Spinner label="Loading today’s list" /> : null}
+      {today.isError ? <Alert tone="error">Today’s list could not be loaded: {today.error.message}</Alert> : null}
+
+      {today.data?.cellar ? (
+        <section aria-labelledby="today-cellar" className="flex flex-col gap-3">
+          <h2 id="today-cellar" className="text-base">
+            The cellar round
+          </h2>
+          <CellarToday section={today.data.cellar} />
+        </section>
+      ) : null}
+      {today.data?.money ? (
+        <section aria-labelledby="today-money" className="flex flex-col gap-3">
+          <h2 id="today-money" className="text-base">
+            The books
+          </h2>
+          <MoneyToday section={today.data.money} />
+        </section>
+      ) : null}
+      {today.data?.member ? (
+        <section aria-labelledby="today-member" className="flex flex-col gap-3">
+          <h2 id="today-member" className="text-base">
+            Your brewing
+          </h2>
+          <MemberToday section={today.data.member} />
+        </section>
+      ) : null}
+      {canOnEvery(ability, 'update', 'User') ? (
+        <section aria-labelledby="today-admin" className="flex flex-col gap-2">
+          <h2 id="today-admin" className="text-base">
+            Running the co-op
+          </h2>
+          <p className="text-sm">
+            <Link to={paths.members}>Members and roles</Link> · <Link to={paths.cellar}>Equipment registry</Link> · <Link to={paths.settings}>Co-op settings</Link>
           </p>
-        ) : (
-          <ul className="grid gap-3 sm:grid-cols-2">
-            {held.map((role) => (
-              <li key={role} className="rounded-md border border-line bg-surface p-4">
-                <p className="text-xs font-semibold tracking-wide text-ink-muted uppercase">As {roleLabels[role]}</p>
-                <p className="mt-1.5 text-ink">{focus[role]}</p>
-                {role === 'admin' && canOnEvery(ability, 'update', 'User') ? (
-                  <p className="mt-2">
-                    <Link to={paths.members}>Open Members</Link>
-                  </p>
-                ) : null}
-              </li>
-            ))}
-          </ul>
-        )}
-      </section>
+        </section>
+      ) : null}
     </div>
   );
 };
