@@ -105,6 +105,28 @@ export const routes: RouteObject[] = [
               { path: paths.productionRecords.slice(1), lazy: lazy(() => import('@/app/routes/batches/production-records')) },
               { path: paths.settings.slice(1), lazy: lazy(() => import('@/app/routes/settings/settings')) },
               {
+                path: paths.sanitation.slice(1),
+                lazy: lazy(() => import('@/app/routes/sanitation/sanitation-layout')),
+                children: [
+                  { index: true, lazy: lazy(() => import('@/app/routes/sanitation/vessels')) },
+                  { path: 'log', lazy: lazy(() => import('@/app/routes/sanitation/log')) },
+                  { path: 'audit', lazy: lazy(() => import('@/app/routes/sanitation/audit')) },
+                ],
+              },
+              { path: `${paths.sanitation.slice(1)}/new`, lazy: lazy(() => import('@/app/routes/sanitation/new')) },
+              {
+                path: paths.kegs.slice(1),
+                lazy: lazy(() => import('@/app/routes/kegs/kegs-layout')),
+                children: [
+                  { index: true, lazy: lazy(() => import('@/app/routes/kegs/whereabouts')) },
+                  { path: 'overdue', lazy: lazy(() => import('@/app/routes/kegs/overdue')) },
+                  { path: 'tap-board', lazy: lazy(() => import('@/app/routes/kegs/tap-board')) },
+                ],
+              },
+              { path: `${paths.kegs.slice(1)}/:kegId`, lazy: lazy(() => import('@/app/routes/kegs/keg')) },
+              { path: `${paths.kegs.slice(1)}/:kegId/carbonation`, lazy: lazy(() => import('@/app/routes/kegs/carbonation')) },
+              { path: 'transfers/new', lazy: lazy(() => import('@/app/routes/transfers/new')) },
+              {
                 path: paths.billing.slice(1),
                 lazy: lazy(() => import('@/app/routes/billing/billing-layout')),
                 children: [

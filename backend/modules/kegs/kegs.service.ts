@@ -275,6 +275,7 @@ export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOu
     }
     const now = new Date();
     await putWhereabouts(trx, kegId, { whereabouts: 'with_member', memberId: member.id, checkedOutAt: now, dueAt: due }, actor.id);
+    if (keg.tap_id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected and checked out; clean the line`, actor.id);
     await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action: 'checked_out', from_whereabouts: keg.whereabouts, to_whereabouts: 'with_member', member_id: member.id, due_at: due, tap_id: keg.tap_id, note: input.note ?? '', actor_id: actor.id, at: now })
@@ -309,7 +310,7 @@ export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, 
     const to = input.to;
     let tap: { id: string; code: string } | undefined;
     if (input.tapId) {
-      const t = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.tapId).executeTakeFirst();
+      const t = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.tapId).forUpdate().executeTakeFirst();
       if (!t || t.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
       if (t.state === 'out_of_service') throw conflict(`Tap ${t.code} is out of service.`);
       if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer: only a filled keg goes on a tap.`);
@@ -329,6 +330,9 @@ export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, 
               ? 'untapped'
               : 'moved';
     await putWhereabouts(trx, kegId, { whereabouts: to, tapId: tap?.id ?? null }, actor.id).catch((e) => mapTapTaken(e, tap?.code ?? ''));
+    // The tap positions follow: a connected line holds beer, a disconnected one needs cleaning.
+    if (keg.tap_id && keg.tap_id !== tap?.id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected; clean the line`, actor.id);
+    if (tap && tap.id !== keg.tap_id) await setVesselState(trx, tap.id, 'holding', `${keg.code} connected`, actor.id);
     await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action, from_whereabouts: keg.whereabouts, to_whereabouts: to, tap_id: tap?.id ?? keg.tap_id, member_id: keg.member_id, note: input.note ?? '', actor_id: actor.id })
@@ -342,7 +346,10 @@ export async function emptyKeg(db: Database, kegId: string, input: { note?: stri
     const keg = await lockKeg(trx, kegId);
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer.`);
     await closeFill(trx, kegId, 'emptied');
-    if (keg.tap_id) await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id);
+    if (keg.tap_id) {
+      await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id);
+      await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} emptied and disconnected; clean the line`, actor.id);
+    }
     await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id })
@@ -396,7 +403,7 @@ export async function kegHistory(db: Database, kegId: string, page: number, page
     from equipment_state_change sc left join app_user au on au.id = sc.actor_id where sc.equipment_id = ${kegId}
     union all
     select c.completed_at, 'sanitation', c.outcome, null, null,
-      (select string_agg(s.step || coalesce(' ' || s.chemical, '') || coalesce(' ' || s.contact_minutes::text || ' min', ''), ', ' order by s.position) from sanitation_step s where s.cycle_id = c.id),
+      (select string_agg(s.step || coalesce(' ' || s.chemical, '') || coalesce(' ' || trim_scale(s.contact_minutes)::text || ' min', ''), ', ' order by s.position) from sanitation_step s where s.cycle_id = c.id),
       au.name, c.id::text
     from sanitation_cycle c left join app_user au on au.id = c.recorded_by where c.equipment_id = ${kegId}
     union all

@@ -6,7 +6,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
-import { listTransfers, recordTransfer, transferViews } from './transfers.service.ts';
+import { listTransfers, recordTransfer, transferCandidates, transferViews } from './transfers.service.ts';
 
 /** `/api/transfers`: beer from a fermenter into kegs, recorded on the brewer-on-duty's checklist. */
 export function transfersRoutes({ db }: Deps): Router {
@@ -23,6 +23,12 @@ export function transfersRoutes({ db }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Transfer');
     const q = transferListQuerySchema.parse(req.query);
     res.json(await listTransfers(db, q, canAll(req.ability, 'read', 'Transfer') ? undefined : req.user!.id));
+  });
+
+  /** What the transfer screen offers: batches still in a fermenter. */
+  router.get('/candidates', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'Transfer');
+    res.json({ items: await transferCandidates(db) });
   });
 
   router.get('/:id', async (req, res) => {

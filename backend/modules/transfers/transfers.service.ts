@@ -321,3 +321,50 @@ export async function listTransfers(db: Database, q: TransferListQuery, ownerId?
   ]);
   return { items: await transferViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
 }
+
+export interface TransferCandidate {
+  batchId: string;
+  name: string;
+  style: string;
+  status: string;
+  ownerName: string;
+  volumeLiters: number;
+  fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
+}
+
+/** Batches still in a fermenter (fermenting or conditioning), each with the fermenter its latest booking holds it in. */
+export async function transferCandidates(db: Database): Promise<TransferCandidate[]> {
+  const rows = await db
+    .selectFrom('batch as b')
+    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
+    .leftJoinLateral(
+      (eb) =>
+        eb
+          .selectFrom('booking as bk')
+          .innerJoin('equipment as f', 'f.id', 'bk.equipment_id')
+          .select(['f.id', 'f.code', 'f.name', 'f.state', 'f.attributes'])
+          .whereRef('bk.batch_id', '=', 'b.id')
+          .where('f.kind', '=', 'fermenter')
+          .where('bk.state', '<>', 'cancelled')
+          .orderBy('bk.starts_at', 'desc')
+          .limit(1)
+          .as('f'),
+      (join) => join.onTrue(),
+    )
+    .select(['b.id', 'b.name', 'b.style', 'b.status', 'b.volume_liters', 'u.name as owner_name', 'f.id as f_id', 'f.code as f_code', 'f.name as f_name', 'f.state as f_state', 'f.attributes as f_attributes'])
+    .where('b.status', 'in', ['fermenting', 'conditioning'])
+    .orderBy('f.code')
+    .orderBy('b.name')
+    .execute();
+  return rows.map((r) => ({
+    batchId: r.id,
+    name: r.name,
+    style: r.style,
+    status: r.status,
+    ownerName: r.owner_name,
+    volumeLiters: Number(r.volume_liters),
+    fermenter: r.f_id
+      ? { id: r.f_id, code: r.f_code!, name: r.f_name!, state: r.f_state!, hasValve: (r.f_attributes as { hasValve?: boolean } | null)?.hasValve !== false }
+      : null,
+  }));
+}

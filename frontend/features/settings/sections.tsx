@@ -3,6 +3,7 @@ import type { SettingKey } from '../../../shared/schemas/settings.ts';
 import { settingSections } from '../../../shared/schemas/settings.ts';
 import { BookingRulesSection } from '@/features/settings/components/booking-rules-form';
 import { FermentationSettingsSection } from '@/features/batches/components/fermentation-settings-form';
+import { CarbonationSettingsSection, SanitationSettingsSection } from '@/features/cellar-ops/components/cellar-settings-forms';
 
 /**
  * The Settings screen's sections, in order. Each capability adds one entry here: its key in the
@@ -16,6 +17,8 @@ export interface SettingsScreenSection {
 export const settingsScreenSections: SettingsScreenSection[] = [
   { key: 'booking_rules', Component: BookingRulesSection },
   { key: 'fermentation', Component: FermentationSettingsSection },
+  { key: 'sanitation', Component: SanitationSettingsSection },
+  { key: 'carbonation', Component: CarbonationSettingsSection },
 ];
 
 export const sectionTitle = (key: SettingKey) => settingSections[key].title;

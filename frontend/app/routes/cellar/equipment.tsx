@@ -11,6 +11,7 @@ import { labelSheetHref } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentEditDialog } from '@/features/equipment/components/equipment-edit-dialog';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { StateChangeDialog } from '@/features/equipment/components/state-change-dialog';
+import { VesselCellarActions } from '@/features/cellar-ops/components/vessel-actions';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
@@ -69,6 +70,7 @@ const EquipmentRoute = () => {
           </p>
         </div>
         <div className="flex flex-wrap gap-2">
+          <VesselCellarActions item={item} />
           {ability.can('create', 'Booking') && item.state !== 'out_of_service' ? (
             <Link to={`/bookings?equipmentId=${item.id}`} className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-medium text-white no-underline hover:bg-copper-strong hover:no-underline md:min-h-9">
               Book it

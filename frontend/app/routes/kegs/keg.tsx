@@ -1,0 +1,371 @@
+import { useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { subject } from '../../../../shared/permissions/ability.ts';
+import type { KegView } from '../../../../shared/schemas/kegs.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button, ButtonLink } from '@/components/ui/button';
+import { DataTablePagination } from '@/components/ui/data-table';
+import { Dialog } from '@/components/ui/dialog';
+import { PageLoader, Spinner } from '@/components/ui/spinner';
+import { useKeg, useKegAction, useKegHistory, useMemberOptions, useTapBoard } from '@/features/cellar-ops/api/kegs';
+import { usePlanAction } from '@/features/cellar-ops/api/carbonation';
+import { Cautions } from '@/features/cellar-ops/components/cautions';
+import { FillGauge, Whereabouts } from '@/features/cellar-ops/components/keg-bits';
+import { BigInput, BigSelect } from '@/features/cellar-ops/components/touch';
+import { cellarPaths } from '@/features/cellar-ops/paths';
+import { StateBadge } from '@/features/equipment/components/state-badge';
+import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useUnits } from '@/hooks/use-units';
+import { useAppAbility } from '@/lib/ability';
+import { problemMessage } from '@/lib/api-client';
+import { fromDisplay, toDisplay } from '@/lib/units';
+import { formatDate, formatDateTime } from '@/utils/format';
+
+type Open = null | 'check-out' | 'move' | 'level';
+
+const inDays = (d: number) => {
+  const t = new Date(Date.now() + d * 86_400_000);
+  return t.toISOString().slice(0, 10);
+};
+
+const CheckOutDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) => {
+  const members = useMemberOptions(true);
+  const act = useKegAction(keg.id);
+  const [memberId, setMemberId] = useState('');
+  const [due, setDue] = useState(inDays(21));
+  const [error, setError] = useState<string | null>(null);
+  return (
+    <Dialog open onClose={onClose} busy={act.isPending} title={`Check ${keg.code} out`} description="To a member, with the date it is due back.">
+      <form
+        className="flex flex-col gap-3"
+        onSubmit={async (e) => {
+          e.preventDefault();
+          setError(null);
+          try {
+            await act.mutateAsync({ action: 'check-out', body: { memberId, dueAt: new Date(`${due}T18:00:00`).toISOString() } });
+            onClose();
+          } catch (err) {
+            setError(problemMessage(err));
+          }
+        }}
+      >
+        {error ? <Alert tone="error">{error}</Alert> : null}
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          Member
+          <BigSelect value={memberId} onChange={(e) => setMemberId(e.target.value)} required>
+            <option value="">Pick a member…</option>
+            {members.data?.map((m) => (
+              <option key={m.id} value={m.id}>
+                {m.name}
+              </option>
+            ))}
+          </BigSelect>
+        </label>
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          Due back
+          <BigInput type="date" value={due} min={inDays(1)} onChange={(e) => setDue(e.target.value)} required />
+        </label>
+        <Button type="submit" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} disabled={!memberId}>
+          Check out
+        </Button>
+      </form>
+    </Dialog>
+  );
+};
+
+const MoveDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) => {
+  const board = useTapBoard();
+  const act = useKegAction(keg.id);
+  const [to, setTo] = useState<'cellar' | 'cold_room' | 'missing'>(keg.whereabouts === 'cold_room' ? 'cellar' : 'cold_room');
+  const [tapId, setTapId] = useState('');
+  const [error, setError] = useState<string | null>(null);
+  const free = board.data?.taps.filter((t) => (!t.taken || t.keg?.id === keg.id) && t.state !== 'out_of_service') ?? [];
+  return (
+    <Dialog open onClose={onClose} busy={act.isPending} title={`Move ${keg.code}`}>
+      <form
+        className="flex flex-col gap-3"
+        onSubmit={async (e) => {
+          e.preventDefault();
+          setError(null);
+          try {
+            await act.mutateAsync({ action: 'move', body: { to, tapId: to === 'cold_room' && tapId ? tapId : null } });
+            onClose();
+          } catch (err) {
+            setError(problemMessage(err));
+          }
+        }}
+      >
+        {error ? <Alert tone="error">{error}</Alert> : null}
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          To
+          <BigSelect value={to} onChange={(e) => setTo(e.target.value as typeof to)}>
+            <option value="cold_room">Cold room</option>
+            <option value="cellar">Cellar</option>
+            <option value="missing">Missing (not found)</option>
+          </BigSelect>
+        </label>
+        {to === 'cold_room' && keg.state === 'holding' ? (
+          <label className="flex flex-col gap-1 text-sm font-medium">
+            On tap
+            <BigSelect value={tapId} onChange={(e) => setTapId(e.target.value)}>
+              <option value="">Not connected</option>
+              {free.map((t) => (
+                <option key={t.id} value={t.id}>
+                  {t.code} · {t.position}
+                  {t.state === 'needs_cleaning' ? ' (line needs cleaning)' : ''}
+                </option>
+              ))}
+            </BigSelect>
+          </label>
+        ) : null}
+        <Button type="submit" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending}>
+          Move
+        </Button>
+      </form>
+    </Dialog>
+  );
+};
+
+const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) => {
+  const units = useUnits();
+  const act = useKegAction(keg.id);
+  const [value, setValue] = useState(keg.contents ? toDisplay.volume(keg.contents.remainingLiters, units.units).toFixed(1) : '');
+  const [error, setError] = useState<string | null>(null);
+  return (
+    <Dialog open onClose={onClose} busy={act.isPending} title={`How much is left in ${keg.code}?`} description="By weight or by eye; the tap board shows it.">
+      <form
+        className="flex flex-col gap-3"
+        onSubmit={async (e) => {
+          e.preventDefault();
+          setError(null);
+          try {
+            await act.mutateAsync({ action: 'level', body: { remainingLiters: Math.round(fromDisplay.volume(Number(value), units.units) * 100) / 100 } });
+            onClose();
+          } catch (err) {
+            setError(problemMessage(err));
+          }
+        }}
+      >
+        {error ? <Alert tone="error">{error}</Alert> : null}
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          Left ({units.labels.volume})
+          <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={value} onChange={(e) => setValue(e.target.value)} required />
+        </label>
+        <Button type="submit" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending}>
+          Save
+        </Button>
+      </form>
+    </Dialog>
+  );
+};
+
+/** A keg's page: what it holds, where it is, its carbonation, and its whole history. */
+const KegRoute = () => {
+  const { kegId = '' } = useParams();
+  const keg = useKeg(kegId);
+  const ability = useAppAbility();
+  const units = useUnits();
+  const [open, setOpen] = useState<Open>(null);
+  const [page, setPage] = useState(1);
+  const act = useKegAction(kegId);
+  const plan = usePlanAction();
+  const [error, setError] = useState<string | null>(null);
+  const memberId = keg.data?.keg.member?.id ?? '';
+  const canHistory = ability.can('readOwner', subject('Keg', { memberId }));
+  const history = useKegHistory(kegId, page, Boolean(keg.data) && canHistory);
+  useDocumentTitle(keg.data ? `${keg.data.keg.code} · Kegs` : 'Kegs');
+
+  if (keg.isPending) return <PageLoader />;
+  if (keg.isError) return <Alert tone="error" title="This keg could not be shown">{problemMessage(keg.error)}</Alert>;
+  const k = keg.data.keg;
+  const canMove = ability.can('checkout', subject('Keg', { memberId }));
+  const run = async (fn: () => Promise<unknown>) => {
+    setError(null);
+    try {
+      await fn();
+    } catch (e) {
+      setError(problemMessage(e));
+    }
+  };
+  const c = k.carbonation;
+  return (
+    <div className="flex flex-col gap-5">
+      <nav className="text-sm">
+        <Link to={cellarPaths.kegs}>Kegs</Link> <span className="text-ink-faint">/</span> {k.code}
+      </nav>
+      <header className="flex flex-wrap items-start justify-between gap-3">
+        <div>
+          <h1 className="flex flex-wrap items-center gap-3 text-2xl">
+            {k.code} <StateBadge state={k.state} />
+          </h1>
+          <p className="mt-1 text-ink-muted">
+            {k.name}
+            {k.capacityLiters ? ` · ${units.volume(k.capacityLiters)}` : ''}
+            {k.lock ? ` · ${k.lock} lock` : ''}
+            {k.serial ? ` · serial ${k.serial}` : ''}
+          </p>
+        </div>
+        <Link to={`/cellar/${k.id}`} className="text-sm">
+          Registry page and bookings
+        </Link>
+      </header>
+      {error ? <Alert tone="error">{error}</Alert> : null}
+
+      <div className="grid gap-4 lg:grid-cols-2">
+        <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="where-title">
+          <h2 id="where-title" className="text-base">
+            Where it is
+          </h2>
+          <div className="text-base">
+            <Whereabouts keg={k} />
+          </div>
+          {k.since ? <p className="text-xs text-ink-muted">Since {formatDateTime(k.since)}</p> : null}
+          {canMove ? (
+            <div className="flex flex-wrap gap-2">
+              {k.whereabouts === 'with_member' ? (
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} onClick={() => run(() => act.mutateAsync({ action: 'return', body: {} }))}>
+                  Returned
+                </Button>
+              ) : k.state !== 'out_of_service' && k.whereabouts !== 'missing' ? (
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('check-out')}>
+                  Check out to a member
+                </Button>
+              ) : null}
+              {k.whereabouts !== 'with_member' ? (
+                <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('move')}>
+                  {k.whereabouts === 'missing' ? 'Found it' : 'Move'}
+                </Button>
+              ) : null}
+            </div>
+          ) : null}
+        </section>
+
+        <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="holds-title">
+          <h2 id="holds-title" className="text-base">
+            What it holds
+          </h2>
+          {k.contents ? (
+            <>
+              <p className="text-base font-medium">{k.contents.batchName}</p>
+              <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
+                <dt className="text-ink-muted">Style</dt>
+                <dd>{k.contents.style || '—'}</dd>
+                <dt className="text-ink-muted">OG / FG</dt>
+                <dd>
+                  {k.contents.og?.toFixed(3) ?? '—'} / {k.contents.fg?.toFixed(3) ?? '—'}
+                </dd>
+                <dt className="text-ink-muted">ABV</dt>
+                <dd>{k.contents.abv !== null ? `${k.contents.abv.toFixed(1)} %` : '—'} <span className="text-xs text-ink-muted">(label and tax: local rules govern)</span></dd>
+                <dt className="text-ink-muted">Filled</dt>
+                <dd>
+                  {formatDateTime(k.contents.filledAt)} · {units.volume(k.contents.volumeLiters)}
+                </dd>
+                <dt className="text-ink-muted">Left</dt>
+                <dd>
+                  <FillGauge keg={k} />
+                </dd>
+              </dl>
+              {canMove ? (
+                <div className="flex flex-wrap gap-2">
+                  <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('level')}>
+                    Note the level
+                  </Button>
+                  {ability.can('update', 'Equipment') ? (
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} onClick={() => run(() => act.mutateAsync({ action: 'empty', body: {} }))}>
+                      Emptied
+                    </Button>
+                  ) : null}
+                </div>
+              ) : null}
+            </>
+          ) : (
+            <>
+              <p className="text-ink-muted">Empty.</p>
+              {ability.can('create', 'SanitationCycle') && k.state !== 'out_of_service' ? (
+                <div className="flex flex-wrap gap-2">
+                  <ButtonLink to={cellarPaths.recordCycle(k.id)} variant={k.state === 'ready' ? 'secondary' : 'primary'} className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
+                    Record a cycle
+                  </ButtonLink>
+                  {k.state === 'ready' && ability.can('create', 'Transfer') ? (
+                    <ButtonLink to={cellarPaths.newTransfer({ kegIds: [k.id] })} variant="primary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
+                      Transfer into it
+                    </ButtonLink>
+                  ) : null}
+                </div>
+              ) : null}
+              {k.freshUntil && k.state === 'ready' ? <p className="text-xs text-ink-muted">Ready until {formatDateTime(k.freshUntil)}</p> : null}
+            </>
+          )}
+        </section>
+      </div>
+
+      {k.contents ? (
+        <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="carb-title">
+          <h2 id="carb-title" className="text-base">
+            Carbonation
+          </h2>
+          {c ? (
+            <>
+              <p>
+                {c.method === 'fast_start' ? 'Fast start' : 'Set and hold'} to {c.targetVolumes.toFixed(1)} volumes at {units.pressure(c.servingPressureKpa)} serving pressure
+                {c.fastPressureKpa ? ` (fast start at ${units.pressure(c.fastPressureKpa)})` : ''}; ready about {formatDate(c.readyAt)}.
+              </p>
+              {c.lowerPressureAt && !c.pressureLoweredAt ? (
+                <Alert tone={new Date(c.lowerPressureAt) <= new Date() ? 'error' : 'info'} title={`Lower the pressure to ${units.pressure(c.servingPressureKpa)} at ${formatDateTime(c.lowerPressureAt)}`}>
+                  {ability.can('update', subject('CarbonationPlan', { memberId })) ? (
+                    <Button className="mt-2 min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={plan.isPending} onClick={() => run(() => plan.mutateAsync({ planId: c.planId, action: 'pressure-lowered' }))}>
+                      I lowered the pressure
+                    </Button>
+                  ) : null}
+                </Alert>
+              ) : null}
+            </>
+          ) : (
+            <p className="text-ink-muted">No carbonation plan yet.</p>
+          )}
+          {ability.can('create', 'CarbonationPlan') ? (
+            <div>
+              <ButtonLink to={cellarPaths.carbonation(k.id)} variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
+                {c ? 'Change the plan' : 'Plan carbonation'}
+              </ButtonLink>
+            </div>
+          ) : null}
+          <Cautions kind="carbonation" />
+        </section>
+      ) : null}
+
+      {canHistory ? (
+        <section className="rounded-lg border border-line bg-surface p-4" aria-labelledby="history-title">
+          <h2 id="history-title" className="text-base">
+            History
+          </h2>
+          {history.isPending ? (
+            <Spinner label="Loading the history" />
+          ) : (
+            <ol className="mt-2 divide-y divide-line text-sm">
+              {history.data?.items.map((h, i) => (
+                <li key={`${h.kind}-${h.refId}-${i}`} className="flex flex-wrap justify-between gap-2 py-2">
+                  <span>
+                    <span className="font-medium">{h.title}</span>
+                    {h.detail ? <span className="block text-xs text-ink-muted">{h.detail}</span> : null}
+                  </span>
+                  <span className="text-right text-xs text-ink-muted">
+                    {formatDateTime(h.at)}
+                    {h.actor ? <span className="block">{h.actor}</span> : null}
+                  </span>
+                </li>
+              ))}
+            </ol>
+          )}
+          <DataTablePagination page={page} pageSize={50} total={history.data?.total ?? 0} onPageChange={setPage} noun={['event', 'events']} />
+        </section>
+      ) : null}
+
+      {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
+      {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
+      {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
+    </div>
+  );
+};
+
+export default KegRoute;

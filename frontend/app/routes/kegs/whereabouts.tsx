@@ -1,0 +1,133 @@
+import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState, type Updater } from '@tanstack/react-table';
+import { useMemo, useState } from 'react';
+import { Link } from 'react-router-dom';
+import { vesselStateLabels } from '../../../../shared/schemas/equipment.ts';
+import { kegSortFields, kegWhereabouts, kegWhereaboutsLabels, type KegView } from '../../../../shared/schemas/kegs.ts';
+import { Alert } from '@/components/ui/alert';
+import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { Input, Select } from '@/components/ui/input';
+import { useKegs } from '@/features/cellar-ops/api/kegs';
+import { FillGauge, Whereabouts } from '@/features/cellar-ops/components/keg-bits';
+import { cellarPaths } from '@/features/cellar-ops/paths';
+import { StateBadge } from '@/features/equipment/components/state-badge';
+import { useDocumentTitle } from '@/hooks/use-document-title';
+import { problemMessage } from '@/lib/api-client';
+import { formatDate } from '@/utils/format';
+
+type SortField = (typeof kegSortFields)[number];
+const column = createColumnHelper<KegView>();
+
+/** The fleet: whereabouts, state, contents; sorted, filtered and paged on the server. */
+const KegWhereaboutsRoute = () => {
+  useDocumentTitle('Kegs');
+  const [sort, setSort] = useState<SortField>('code');
+  const [order, setOrder] = useState<'asc' | 'desc'>('asc');
+  const [page, setPage] = useState(1);
+  const [pageSize, setPageSize] = useState(50);
+  const [where, setWhere] = useState('');
+  const [state, setState] = useState('');
+  const [q, setQ] = useState('');
+  const kegs = useKegs({ sort, order, page, pageSize, whereabouts: (where || undefined) as never, state: (state || undefined) as never, q: q || undefined });
+
+  const columns = useMemo(
+    () => [
+      column.accessor('code', {
+        header: 'Keg',
+        cell: ({ row }) => (
+          <Link to={cellarPaths.keg(row.original.id)} className="font-semibold whitespace-nowrap">
+            {row.original.code}
+          </Link>
+        ),
+      }),
+      column.accessor('state', { header: 'State', cell: ({ row }) => <StateBadge state={row.original.state} /> }),
+      column.accessor('whereabouts', { header: 'Where', cell: ({ row }) => <Whereabouts keg={row.original} /> }),
+      column.display({
+        id: 'contents',
+        header: 'Holds',
+        cell: ({ row }) =>
+          row.original.contents ? (
+            <span className="flex flex-col">
+              <span>{row.original.contents.batchName}</span>
+              <span className="text-xs text-ink-muted">{row.original.contents.abv !== null ? `${row.original.contents.abv.toFixed(1)} % ABV` : row.original.contents.style}</span>
+            </span>
+          ) : (
+            <span className="text-ink-muted">—</span>
+          ),
+      }),
+      column.accessor((k) => k.contents?.remainingLiters ?? null, { id: 'remainingLiters', header: 'Left', cell: ({ row }) => <FillGauge keg={row.original} /> }),
+      column.accessor('dueAt', { header: 'Due back', cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span> }),
+      column.display({
+        id: 'carbonation',
+        header: 'Carbonated by',
+        cell: ({ row }) => <span className="whitespace-nowrap text-xs">{row.original.carbonation ? formatDate(row.original.carbonation.readyAt) : '—'}</span>,
+      }),
+    ],
+    [],
+  );
+  const sorting: SortingState = [{ id: sort, desc: order === 'desc' }];
+  const onSortingChange = (u: Updater<SortingState>) => {
+    const next = (typeof u === 'function' ? u(sorting) : u)[0];
+    if (!next || !(kegSortFields as readonly string[]).includes(next.id)) return;
+    setSort(next.id as SortField);
+    setOrder(next.desc ? 'desc' : 'asc');
+    setPage(1);
+  };
+  const table = useReactTable({
+    data: kegs.data?.items ?? [],
+    columns,
+    getRowId: (k) => k.id,
+    getCoreRowModel: getCoreRowModel(),
+    manualSorting: true,
+    manualPagination: true,
+    enableMultiSort: false,
+    enableSortingRemoval: false,
+    rowCount: kegs.data?.total ?? 0,
+    state: { sorting, pagination: { pageIndex: page - 1, pageSize } },
+    onSortingChange,
+  });
+  return (
+    <div className="flex flex-col gap-3">
+      <div className="grid gap-2 sm:grid-cols-[12rem_12rem_1fr]">
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          Where
+          <Select value={where} onChange={(e) => (setWhere(e.target.value), setPage(1))}>
+            <option value="">Anywhere</option>
+            {kegWhereabouts.map((w) => (
+              <option key={w} value={w}>
+                {kegWhereaboutsLabels[w]}
+              </option>
+            ))}
+          </Select>
+        </label>
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          State
+          <Select value={state} onChange={(e) => (setState(e.target.value), setPage(1))}>
+            <option value="">Any state</option>
+            {(['ready', 'needs_cleaning', 'cleaned', 'holding', 'out_of_service'] as const).map((s) => (
+              <option key={s} value={s}>
+                {vesselStateLabels[s]}
+              </option>
+            ))}
+          </Select>
+        </label>
+        <label className="flex flex-col gap-1 text-sm font-medium">
+          Find
+          <Input type="search" value={q} placeholder="Keg code or batch" onChange={(e) => (setQ(e.target.value), setPage(1))} />
+        </label>
+      </div>
+      {kegs.isError ? <Alert tone="error">{problemMessage(kegs.error)}</Alert> : null}
+      <DataTable table={table} caption="Kegs and where they are" isLoading={kegs.isPending} isFetching={kegs.isFetching} empty="No keg matches." />
+      <DataTablePagination
+        page={page}
+        pageSize={pageSize}
+        total={kegs.data?.total ?? 0}
+        onPageChange={setPage}
+        onPageSizeChange={(s) => (setPageSize(s), setPage(1))}
+        isPlaceholder={kegs.isPlaceholderData}
+        noun={['keg', 'kegs']}
+      />
+    </div>
+  );
+};
+
+export default KegWhereaboutsRoute;

@@ -1,0 +1,233 @@
+import { useMemo, useState } from 'react';
+import { Link, useSearchParams } from 'react-router-dom';
+import { transferChecklistItems, type DrawMethod, type TransferView } from '../../../../shared/schemas/transfers.ts';
+import { Forbidden } from '@/components/errors/forbidden';
+import { Alert } from '@/components/ui/alert';
+import { Button, ButtonLink } from '@/components/ui/button';
+import { PageLoader } from '@/components/ui/spinner';
+import { useKegs } from '@/features/cellar-ops/api/kegs';
+import { useRecordTransfer, useTransferCandidates } from '@/features/cellar-ops/api/transfers';
+import { Cautions } from '@/features/cellar-ops/components/cautions';
+import { BigCheck, BigChoice, BigInput, BigSelect } from '@/features/cellar-ops/components/touch';
+import { cellarPaths } from '@/features/cellar-ops/paths';
+import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useUnits } from '@/hooks/use-units';
+import { useAppAbility } from '@/lib/ability';
+import { problemMessage } from '@/lib/api-client';
+import { fromDisplay, toDisplay } from '@/lib/units';
+
+const n = (v: string) => (v.trim() === '' ? Number.NaN : Number(v));
+
+/** The transfer checklist: a batch from its fermenter into ready kegs, every step of the trade ticked on a phone. */
+const NewTransferRoute = () => {
+  useDocumentTitle('Transfer to kegs');
+  const ability = useAppAbility();
+  const [params] = useSearchParams();
+  const units = useUnits();
+  const u = units.units;
+  const candidates = useTransferCandidates();
+  const readyKegs = useKegs({ state: 'ready', pageSize: 100, sort: 'code', order: 'asc' });
+  const record = useRecordTransfer();
+
+  const [batchId, setBatchId] = useState(params.get('batchId') ?? '');
+  const [kegIds, setKegIds] = useState<string[]>(() => (params.get('kegIds') ?? '').split(',').filter(Boolean));
+  const [volume, setVolume] = useState('');
+  const [loss, setLoss] = useState('');
+  const [perKeg, setPerKeg] = useState<Record<string, string>>({});
+  const [split, setSplit] = useState(true);
+  const [method, setMethod] = useState<DrawMethod | null>(null);
+  const [ticks, setTicks] = useState<Record<string, boolean>>({});
+  const [oxygenNote, setOxygenNote] = useState('');
+  const [finings, setFinings] = useState<'none' | 'silica finings' | 'gelatin' | 'other'>('none');
+  const [finingsOther, setFiningsOther] = useState('');
+  const [finingsAmount, setFiningsAmount] = useState('');
+  const [error, setError] = useState<string | null>(null);
+  const [done, setDone] = useState<{ transfer: TransferView; warnings: string[] } | null>(null);
+
+  const candidate = candidates.data?.find((c) => c.batchId === batchId) ?? null;
+  const drawMethod: DrawMethod = method ?? (candidate?.fermenter && !candidate.fermenter.hasValve ? 'siphon' : 'bottom_valve');
+  const items = useMemo(() => transferChecklistItems.filter((i) => !i.method || i.method === drawMethod), [drawMethod]);
+  const unticked = items.filter((i) => !ticks[i.key]);
+  const kegs = readyKegs.data?.items ?? [];
+  const chosen = kegIds.map((id) => kegs.find((k) => k.id === id)).filter((k): k is NonNullable<typeof k> => Boolean(k));
+  const finingsKind = finings === 'other' ? finingsOther.trim() : finings;
+  const finingsUnit = finings === 'gelatin' ? 'g' : 'mL';
+
+  if (!ability.can('create', 'Transfer')) return <Forbidden what="recording transfers" />;
+  if (candidates.isPending || readyKegs.isPending) return <PageLoader />;
+
+  const ready =
+    Boolean(candidate?.fermenter) &&
+    chosen.length > 0 &&
+    n(volume) > 0 &&
+    unticked.length === 0 &&
+    (finings === 'none' || (finingsKind.length > 1 && n(finingsAmount) > 0)) &&
+    (split || chosen.every((k) => n(perKeg[k.id] ?? '') > 0));
+
+  const submit = async () => {
+    if (!candidate?.fermenter) return;
+    setError(null);
+    const L = (v: string) => Math.round(fromDisplay.volume(n(v), u) * 100) / 100;
+    try {
+      const result = await record.mutateAsync({
+        batchId: candidate.batchId,
+        fromEquipmentId: candidate.fermenter.id,
+        toKegIds: chosen.map((k) => k.id),
+        volumeLiters: L(volume),
+        ...(split ? (loss.trim() ? { lossLiters: L(loss) } : {}) : { kegVolumesLiters: chosen.map((k) => L(perKeg[k.id] ?? '')) }),
+        checklist: { drawMethod, ...Object.fromEntries(items.map((i) => [i.key, Boolean(ticks[i.key])])), ...(oxygenNote.trim() ? { oxygenPickupNote: oxygenNote.trim() } : {}) },
+        finings: finings === 'none' ? null : { kind: finingsKind, amount: n(finingsAmount), unit: finingsUnit },
+      });
+      setDone(result);
+      window.scrollTo({ top: 0 });
+    } catch (e) {
+      setError(problemMessage(e));
+    }
+  };
+
+  const label = 'flex flex-col gap-1 text-sm font-medium';
+  if (done) {
+    const t = done.transfer;
+    return (
+      <div className="mx-auto flex w-full max-w-xl flex-col gap-4">
+        <h1 className="text-2xl">Transfer recorded</h1>
+        <Alert tone="success" title={`${t.batch.name} from ${t.fermenter.code} into ${t.kegs.map((k) => k.code).join(', ')}`}>
+          {units.volume(t.packagedLiters)} in kegs, {units.volume(t.lossLiters)} lost{t.abv !== null ? ` · ${t.abv.toFixed(1)} % ABV on the labels` : ''}. {t.fermenter.code} now needs
+          cleaning.
+        </Alert>
+        {done.warnings.length ? (
+          <Alert tone="info" title="Noted">
+            {done.warnings.join(' ')}
+          </Alert>
+        ) : null}
+        <ul className="flex flex-col gap-2">
+          {t.kegs.map((k) => (
+            <li key={k.kegId} className="flex flex-wrap items-center justify-between gap-2 rounded-md border border-line bg-surface px-3 py-2">
+              <span>
+                <Link to={cellarPaths.keg(k.kegId)} className="font-semibold">
+                  {k.code}
+                </Link>{' '}
+                · {units.volume(k.volumeLiters)}
+              </span>
+              <ButtonLink to={cellarPaths.carbonation(k.kegId)} variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
+                Plan carbonation
+              </ButtonLink>
+            </li>
+          ))}
+        </ul>
+        <ButtonLink to={cellarPaths.recordCycle(t.fermenter.id)} variant="primary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
+          Clean {t.fermenter.code} now
+        </ButtonLink>
+      </div>
+    );
+  }
+
+  return (
+    <div className="mx-auto flex w-full max-w-xl flex-col gap-4">
+      <nav className="text-sm">
+        <Link to={cellarPaths.kegs}>Kegs</Link> <span className="text-ink-faint">/</span> Transfer
+      </nav>
+      <h1 className="text-2xl">Transfer to kegs</h1>
+
+      <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-3" aria-label="Batch and fermenter">
+        <label className={label}>
+          Batch and its fermenter
+          <BigSelect value={batchId} onChange={(e) => (setBatchId(e.target.value), setMethod(null))}>
+            <option value="">Pick the batch…</option>
+            {candidates.data?.map((c) => (
+              <option key={c.batchId} value={c.batchId} disabled={!c.fermenter}>
+                {c.fermenter ? `${c.fermenter.code} · ` : ''}
+                {c.name} ({c.ownerName}, {c.status})
+              </option>
+            ))}
+          </BigSelect>
+        </label>
+        <label className={label}>
+          Drawn from the fermenter ({units.labels.volume})
+          <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={volume} onChange={(e) => setVolume(e.target.value)} placeholder={candidate ? toDisplay.volume(candidate.volumeLiters, u).toFixed(1) : ''} />
+        </label>
+      </section>
+
+      <section className="flex flex-col gap-2 rounded-lg border border-line bg-surface p-3" aria-labelledby="kegs-title">
+        <h2 id="kegs-title" className="text-base">
+          Into these kegs (ready ones only)
+        </h2>
+        {kegs.length === 0 ? <Alert tone="info">No keg is ready: record a complete sanitation cycle first.</Alert> : null}
+        <div className="grid gap-2 sm:grid-cols-2">
+          {kegs.map((k) => (
+            <BigCheck
+              key={k.id}
+              label={k.code}
+              description={`${k.capacityLiters ? units.volume(k.capacityLiters) : ''}${k.freshUntil ? ` · ready until ${new Date(k.freshUntil).toLocaleDateString()}` : ''}`}
+              checked={kegIds.includes(k.id)}
+              onChange={(e) => setKegIds((ids) => (e.target.checked ? [...ids, k.id] : ids.filter((x) => x !== k.id)))}
+            />
+          ))}
+        </div>
+        {chosen.length > 0 ? (
+          <div className="flex flex-col gap-2">
+            <BigCheck label="Share the volume evenly" checked={split} onChange={(e) => setSplit(e.target.checked)} />
+            {split ? (
+              <label className={label}>
+                Lost: trub, samples, spills ({units.labels.volume})
+                <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={loss} onChange={(e) => setLoss(e.target.value)} placeholder="0" />
+              </label>
+            ) : (
+              chosen.map((k) => (
+                <label key={k.id} className={label}>
+                  In {k.code} ({units.labels.volume})
+                  <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={perKeg[k.id] ?? ''} onChange={(e) => setPerKeg((p) => ({ ...p, [k.id]: e.target.value }))} />
+                </label>
+              ))
+            )}
+          </div>
+        ) : null}
+      </section>
+
+      <section className="flex flex-col gap-2 rounded-lg border border-line bg-surface p-3" aria-labelledby="checklist-title">
+        <h2 id="checklist-title" className="text-base">
+          Checklist
+        </h2>
+        <fieldset className="flex flex-col gap-2">
+          <legend className="mb-1 text-sm font-medium">Drawing the beer</legend>
+          <div className="flex flex-col gap-2 sm:flex-row">
+            <BigChoice name="draw" label="Bottom valve" checked={drawMethod === 'bottom_valve'} onChange={() => setMethod('bottom_valve')} />
+            <BigChoice name="draw" label="Siphon" checked={drawMethod === 'siphon'} onChange={() => setMethod('siphon')} />
+          </div>
+        </fieldset>
+        {items.map((i) => (
+          <BigCheck key={i.key} label={i.label} description={i.help} checked={Boolean(ticks[i.key])} onChange={(e) => setTicks((t) => ({ ...t, [i.key]: e.target.checked }))} />
+        ))}
+        <label className={label}>
+          Oxygen pick-up seen at a fitting (optional)
+          <BigInput value={oxygenNote} onChange={(e) => setOxygenNote(e.target.value)} placeholder="e.g. bubbles at the keg barb, tightened" />
+        </label>
+        <fieldset className="flex flex-col gap-2">
+          <legend className="mb-1 text-sm font-medium">Finings</legend>
+          <BigSelect value={finings} onChange={(e) => setFinings(e.target.value as typeof finings)} aria-label="Finings">
+            <option value="none">None</option>
+            <option value="silica finings">Silica finings</option>
+            <option value="gelatin">Gelatin</option>
+            <option value="other">Other</option>
+          </BigSelect>
+          {finings === 'other' ? <BigInput aria-label="Which finings" value={finingsOther} onChange={(e) => setFiningsOther(e.target.value)} placeholder="Name the finings" /> : null}
+          {finings !== 'none' ? (
+            <label className={label}>
+              Dose ({finingsUnit})
+              <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={finingsAmount} onChange={(e) => setFiningsAmount(e.target.value)} />
+            </label>
+          ) : null}
+        </fieldset>
+      </section>
+
+      {error ? <Alert tone="error" title="Not recorded">{error}</Alert> : null}
+      {unticked.length ? <p className="text-sm text-ink-muted">Tick every step of the checklist to record the transfer ({unticked.length} to go).</p> : null}
+      <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12 w-full text-base" onClick={submit} pending={record.isPending} disabled={!ready}>
+        Record the transfer
+      </Button>
+      <Cautions kind="pressure" />
+    </div>
+  );
+};
+
+export default NewTransferRoute;

@@ -1,0 +1,42 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { CarbonationPlanView, CreateCarbonationPlanInput } from '../../../../shared/schemas/carbonation.ts';
+import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { api } from '@/lib/api-client';
+
+export const usePlansForKeg = (kegId: string, enabled = true) =>
+  useQuery({
+    queryKey: ['carbonation', 'keg', kegId],
+    queryFn: ({ signal }) => api.get<Page<CarbonationPlanView>>('/api/carbonation-plans', { query: { kegId, pageSize: 20 }, signal }),
+    enabled: enabled && Boolean(kegId),
+  });
+
+export const useLowerDuePlans = (enabled = true) =>
+  useQuery({
+    queryKey: ['carbonation', 'lower-due'],
+    queryFn: ({ signal }) => api.get<Page<CarbonationPlanView>>('/api/carbonation-plans', { query: { lowerDue: 'true', sort: 'lowerPressureAt', order: 'asc' }, signal }),
+    enabled,
+  });
+
+function useInvalidate() {
+  const queryClient = useQueryClient();
+  return () => Promise.all([queryClient.invalidateQueries({ queryKey: ['carbonation'] }), queryClient.invalidateQueries({ queryKey: ['kegs'] })]);
+}
+
+export function useCreatePlan() {
+  const invalidate = useInvalidate();
+  return useMutation({
+    mutationFn: (input: CreateCarbonationPlanInput) => api.post<{ plan: CarbonationPlanView }>('/api/carbonation-plans', input),
+    onSuccess: () => invalidate(),
+  });
+}
+
+export function usePlanAction() {
+  const invalidate = useInvalidate();
+  return useMutation({
+    mutationFn: ({ planId, action }: { planId: string; action: 'pressure-lowered' | 'done' | 'cancelled' }) =>
+      action === 'pressure-lowered'
+        ? api.post<{ plan: CarbonationPlanView }>(`/api/carbonation-plans/${encodeURIComponent(planId)}/pressure-lowered`)
+        : api.patch<{ plan: CarbonationPlanView }>(`/api/carbonation-plans/${encodeURIComponent(planId)}`, { state: action }),
+    onSuccess: () => invalidate(),
+  });
+}

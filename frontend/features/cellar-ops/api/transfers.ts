@@ -1,0 +1,30 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { CreateTransferInput, TransferView } from '../../../../shared/schemas/transfers.ts';
+import { api } from '@/lib/api-client';
+
+export interface TransferCandidate {
+  batchId: string;
+  name: string;
+  style: string;
+  status: string;
+  ownerName: string;
+  volumeLiters: number;
+  fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
+}
+
+export const useTransferCandidates = () =>
+  useQuery({
+    queryKey: ['transfers', 'candidates'],
+    queryFn: ({ signal }) => api.get<{ items: TransferCandidate[] }>('/api/transfers/candidates', { signal }).then((r) => r.items),
+  });
+
+export function useRecordTransfer() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateTransferInput) => api.post<{ transfer: TransferView; warnings: string[] }>('/api/transfers', input),
+    onSuccess: () =>
+      Promise.all(
+        [['transfers'], ['kegs'], ['equipment'], ['sanitation'], ['batches']].map((queryKey) => queryClient.invalidateQueries({ queryKey })),
+      ),
+  });
+}

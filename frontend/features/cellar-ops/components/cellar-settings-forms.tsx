@@ -1,0 +1,241 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useFieldArray, useForm } from 'react-hook-form';
+import {
+  carbonationSettingsSchema,
+  concentrationUnits,
+  sanitationSettingsSchema,
+  type CarbonationSettings,
+  type SanitationSettings,
+} from '../../../../shared/schemas/cellar-settings.ts';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import { Checkbox, Input, Select } from '@/components/ui/input';
+import { Spinner } from '@/components/ui/spinner';
+import { Cautions } from '@/features/cellar-ops/components/cautions';
+import { useSaveSetting, useSetting } from '@/features/settings/api/setting';
+import { problemMessage } from '@/lib/api-client';
+import { formatDateTime } from '@/utils/format';
+
+const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
+const optionalNum = { setValueAs: (v: string) => (v === '' ? undefined : Number(v)) };
+
+function Saved({ by, at }: { by: { name: string } | null; at: string | null }) {
+  return by ? (
+    <p className="mt-2 text-xs text-ink-muted">
+      Last changed by {by.name}, {formatDateTime(at)}.
+    </p>
+  ) : null;
+}
+
+/** Settings: the sanitation rules (chemical list, minimum contact times, freshness window). */
+export const SanitationSettingsSection = ({ canEdit }: { canEdit: boolean }) => {
+  const setting = useSetting<SanitationSettings>('sanitation');
+  if (setting.isPending) return <Spinner label="Loading the sanitation rules" />;
+  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
+  return (
+    <>
+      <SanitationForm value={setting.data.value} canEdit={canEdit} />
+      <Saved by={setting.data.updatedBy} at={setting.data.updatedAt} />
+    </>
+  );
+};
+
+const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit: boolean }) => {
+  const save = useSaveSetting<SanitationSettings>('sanitation');
+  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
+  const form = useForm<SanitationSettings>({ resolver: zodResolver(sanitationSettingsSchema) as never, defaultValues: value });
+  const chemicals = useFieldArray({ control: form.control, name: 'chemicals' });
+  const e = form.formState.errors;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(null);
+    try {
+      const saved = await save.mutateAsync(values);
+      form.reset(saved.value);
+      setMessage({ tone: 'success', text: 'Sanitation rules saved. New cycles are judged by them from now on.' });
+    } catch (err) {
+      setMessage({ tone: 'error', text: problemMessage(err) });
+    }
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Sanitation rules">
+      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+      <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+        <Field label="Freshness window (days)" hint="How long a sanitized vessel stays ready." error={e.freshnessDays?.message}>
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('freshnessDays', num)} />}
+        </Field>
+        <Field label="Clean within (days)" hint="After a vessel is emptied or returned; later cycles are flagged." error={e.cleanWithinDays?.message}>
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('cleanWithinDays', num)} />}
+        </Field>
+        <Field label="Minimum clean contact (min)" error={e.minimumContactMinutes?.clean?.message}>
+          {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.clean', num)} />}
+        </Field>
+        <Field label="Minimum sanitize contact (min)" error={e.minimumContactMinutes?.sanitize?.message}>
+          {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.sanitize', num)} />}
+        </Field>
+        <Field label="CO2 per purge (g)" hint="Recorded for billing when no figure is given." error={e.co2GramsPerPurge?.message}>
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerPurge', num)} />}
+        </Field>
+        <Field label="CO2 per keg filled (g)" error={e.co2GramsPerKegFill?.message}>
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerKegFill', num)} />}
+        </Field>
+      </fieldset>
+      <fieldset disabled={!canEdit} className="flex flex-col gap-2">
+        <legend className="mb-1 text-sm font-medium">Cleaners and sanitizers</legend>
+        {e.chemicals?.message || e.chemicals?.root?.message ? <Alert tone="error">{e.chemicals?.message ?? e.chemicals?.root?.message}</Alert> : null}
+        {chemicals.fields.map((f, i) => (
+          <div key={f.id} className="grid gap-2 rounded-md border border-line p-2 sm:grid-cols-[1fr_2fr_8rem_7rem_6rem_7rem_7rem_auto]">
+            <Field label="Id" error={e.chemicals?.[i]?.id?.message}>
+              {(c) => <Input {...c} {...form.register(`chemicals.${i}.id`)} />}
+            </Field>
+            <Field label="Name" error={e.chemicals?.[i]?.name?.message}>
+              {(c) => <Input {...c} {...form.register(`chemicals.${i}.name`)} />}
+            </Field>
+            <Field label="Step">
+              {(c) => (
+                <Select {...c} {...form.register(`chemicals.${i}.step`)}>
+                  <option value="clean">Clean</option>
+                  <option value="sanitize">Sanitize</option>
+                </Select>
+              )}
+            </Field>
+            <Field label="Strength" error={e.chemicals?.[i]?.defaultConcentration?.message}>
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.defaultConcentration`, num)} />}
+            </Field>
+            <Field label="Unit">
+              {(c) => (
+                <Select {...c} {...form.register(`chemicals.${i}.unit`)}>
+                  {concentrationUnits.map((u) => (
+                    <option key={u} value={u}>
+                      {u}
+                    </option>
+                  ))}
+                </Select>
+              )}
+            </Field>
+            <Field label="Usual contact" error={e.chemicals?.[i]?.recommendedContactMinutes?.message}>
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.recommendedContactMinutes`, num)} />}
+            </Field>
+            <Field label="Own minimum">
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minimumContactMinutes`, optionalNum)} />}
+            </Field>
+            <div className="flex items-end gap-2">
+              <Checkbox label="In use" {...form.register(`chemicals.${i}.active`)} />
+              {canEdit ? (
+                <Button variant="ghost" size="sm" onClick={() => chemicals.remove(i)} aria-label={`Remove ${f.name}`}>
+                  Remove
+                </Button>
+              ) : null}
+            </div>
+          </div>
+        ))}
+        {canEdit ? (
+          <div>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => chemicals.append({ id: `chemical-${chemicals.fields.length + 1}`, name: '', step: 'sanitize', defaultConcentration: 1, unit: 'mL/L', recommendedContactMinutes: 2, active: true })}
+            >
+              Add a chemical
+            </Button>
+          </div>
+        ) : null}
+      </fieldset>
+      <Cautions kind="chemicals" />
+      {canEdit ? (
+        <div>
+          <Button type="submit" pending={save.isPending}>
+            Save sanitation rules
+          </Button>
+        </div>
+      ) : null}
+    </form>
+  );
+};
+
+/** Settings: what the carbonation planner proposes. */
+export const CarbonationSettingsSection = ({ canEdit }: { canEdit: boolean }) => {
+  const setting = useSetting<CarbonationSettings>('carbonation');
+  if (setting.isPending) return <Spinner label="Loading the carbonation defaults" />;
+  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
+  return (
+    <>
+      <CarbonationForm value={setting.data.value} canEdit={canEdit} />
+      <Saved by={setting.data.updatedBy} at={setting.data.updatedAt} />
+    </>
+  );
+};
+
+const CarbonationForm = ({ value, canEdit }: { value: CarbonationSettings; canEdit: boolean }) => {
+  const save = useSaveSetting<CarbonationSettings>('carbonation');
+  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
+  const form = useForm<CarbonationSettings>({ resolver: zodResolver(carbonationSettingsSchema), defaultValues: value });
+  const presets = useFieldArray({ control: form.control, name: 'stylePresets' });
+  const e = form.formState.errors;
+  const onSubmit = form.handleSubmit(async (values) => {
+    setMessage(null);
+    try {
+      const saved = await save.mutateAsync(values);
+      form.reset(saved.value);
+      setMessage({ tone: 'success', text: 'Carbonation defaults saved.' });
+    } catch (err) {
+      setMessage({ tone: 'error', text: problemMessage(err) });
+    }
+  });
+  const fields: [keyof CarbonationSettings, string, string?][] = [
+    ['coldRoomTempC', 'Cold room (°C)'],
+    ['altitudeM', 'Altitude (m)', 'Gauges read against the local air pressure.'],
+    ['maxPlanPressureKpa', 'Highest regulator setting (kPa)', 'Below every keg’s and regulator’s rating.'],
+    ['holdDays', 'Set and hold (days)'],
+    ['fastStartPressureKpa', 'Fast-start pressure (kPa)'],
+    ['fastStartHours', 'Fast-start time (hours)'],
+    ['settleDays', 'Days at serving pressure after a fast start'],
+    ['lineFixedKpa', 'Faucet and coupler allowance (kPa)'],
+  ];
+  return (
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Carbonation defaults">
+      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+      <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+        {fields.map(([key, label, hint]) => (
+          <Field key={key} label={label} hint={hint} error={(e[key] as { message?: string } | undefined)?.message}>
+            {(c) => <Input {...c} type="number" step="any" {...form.register(key, num)} />}
+          </Field>
+        ))}
+      </fieldset>
+      <fieldset disabled={!canEdit} className="flex flex-col gap-2">
+        <legend className="mb-1 text-sm font-medium">CO2 volumes by style family</legend>
+        {presets.fields.map((f, i) => (
+          <div key={f.id} className="grid grid-cols-[1fr_8rem_auto] items-end gap-2">
+            <Field label="Family" error={e.stylePresets?.[i]?.family?.message}>
+              {(c) => <Input {...c} {...form.register(`stylePresets.${i}.family`)} />}
+            </Field>
+            <Field label="Volumes" error={e.stylePresets?.[i]?.volumes?.message}>
+              {(c) => <Input {...c} type="number" step="0.1" {...form.register(`stylePresets.${i}.volumes`, num)} />}
+            </Field>
+            {canEdit ? (
+              <Button variant="ghost" size="sm" onClick={() => presets.remove(i)}>
+                Remove
+              </Button>
+            ) : null}
+          </div>
+        ))}
+        {canEdit ? (
+          <div>
+            <Button variant="secondary" size="sm" onClick={() => presets.append({ family: '', volumes: 2.4 })}>
+              Add a style family
+            </Button>
+          </div>
+        ) : null}
+      </fieldset>
+      <Cautions kind="carbonation" />
+      {canEdit ? (
+        <div>
+          <Button type="submit" pending={save.isPending}>
+            Save carbonation defaults
+          </Button>
+        </div>
+      ) : null}
+    </form>
+  );
+};

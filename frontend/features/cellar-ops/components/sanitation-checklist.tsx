@@ -1,0 +1,259 @@
+import { useMemo, useState } from 'react';
+import { evaluateCycle, type StepForRules } from '../../../../shared/cellar/sanitation-rules.ts';
+import {
+  defaultSanitationSettings,
+  sanitationStepLabels,
+  sanitationSteps,
+  type SanitationSettings,
+  type SanitationStep,
+} from '../../../../shared/schemas/cellar-settings.ts';
+import type { SanitationCycleView, SanitationStepInput } from '../../../../shared/schemas/sanitation.ts';
+import { Alert } from '@/components/ui/alert';
+import { Badge } from '@/components/ui/badge';
+import { Button } from '@/components/ui/button';
+import { useContinueCycle, useRecordCycle } from '@/features/cellar-ops/api/sanitation';
+import { Cautions } from '@/features/cellar-ops/components/cautions';
+import { BigChoice, BigInput, BigSelect, bigButton } from '@/features/cellar-ops/components/touch';
+import { problemMessage } from '@/lib/api-client';
+import { formatDateTime } from '@/utils/format';
+
+interface StepDraft {
+  done: boolean;
+  /** `datetime-local` value in the phone's time zone. */
+  at: string;
+  chemical: string;
+  concentration: string;
+  contactMinutes: string;
+  purgeMethod: 'flush' | 'push_out';
+  purgeSeconds: string;
+}
+
+const pad = (n: number) => String(n).padStart(2, '0');
+export function localNow(d = new Date()): string {
+  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}T${pad(d.getHours())}:${pad(d.getMinutes())}`;
+}
+const toIso = (local: string) => new Date(local).toISOString();
+const num = (v: string) => (v.trim() === '' || Number.isNaN(Number(v)) ? undefined : Number(v));
+
+function initialDraft(step: SanitationStep, settings: SanitationSettings): StepDraft {
+  const first = settings.chemicals.find((c) => c.active && c.step === step);
+  return {
+    done: false,
+    at: localNow(),
+    chemical: first?.id ?? '',
+    concentration: first ? String(first.defaultConcentration) : '',
+    contactMinutes: first ? String(first.recommendedContactMinutes) : '',
+    purgeMethod: 'flush',
+    purgeSeconds: '30',
+  };
+}
+
+function toInput(step: SanitationStep, d: StepDraft): SanitationStepInput {
+  const at = toIso(d.at);
+  if (step === 'rinse') return { step, at };
+  if (step === 'purge') {
+    const seconds = num(d.purgeSeconds);
+    return d.purgeMethod === 'push_out'
+      ? { step, at, purgeMethod: 'push_out' }
+      : { step, at, purgeMethod: 'flush', ...(seconds !== undefined ? { contactMinutes: seconds / 60 } : {}) };
+  }
+  const concentration = num(d.concentration);
+  const contact = num(d.contactMinutes);
+  return {
+    step,
+    at,
+    ...(d.chemical ? { chemical: d.chemical } : {}),
+    ...(concentration !== undefined && concentration > 0 ? { concentration } : {}),
+    ...(contact !== undefined ? { contactMinutes: contact } : {}),
+  };
+}
+
+const outcomeText = {
+  ready: { label: 'Ready', tone: 'ready' as const, line: 'The vessel will be ready to fill.' },
+  cleaned: { label: 'Cleaned', tone: 'muted' as const, line: 'The vessel will be cleaned but not ready: it still needs a proper sanitize and purge.' },
+  needs_cleaning: { label: 'Needs cleaning', tone: 'due' as const, line: 'The vessel will still need cleaning.' },
+};
+
+export interface SanitationChecklistProps {
+  vessel: { id: string; code: string };
+  settings: SanitationSettings | undefined;
+  /** The vessel's latest cycle, when it is incomplete and can be continued. */
+  openCycle: SanitationCycleView | null;
+  onSaved: (result: { cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }) => void;
+}
+
+/** The phone checklist for one cycle: clean, rinse, sanitize, purge, each with who-and-when taken from the phone. */
+export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettings, openCycle, onSaved }: SanitationChecklistProps) => {
+  const [continuing, setContinuing] = useState(Boolean(openCycle));
+  const carried = useMemo(() => new Set(continuing && openCycle ? openCycle.steps.map((s) => s.step) : []), [continuing, openCycle]);
+  const [drafts, setDrafts] = useState<Record<SanitationStep, StepDraft>>(() => ({
+    clean: initialDraft('clean', settings),
+    rinse: initialDraft('rinse', settings),
+    sanitize: initialDraft('sanitize', settings),
+    purge: initialDraft('purge', settings),
+  }));
+  const record = useRecordCycle();
+  const cont = useContinueCycle();
+  const [error, setError] = useState<string | null>(null);
+
+  const set = (step: SanitationStep, patch: Partial<StepDraft>) => setDrafts((d) => ({ ...d, [step]: { ...d[step], ...patch } }));
+  const pickChemical = (step: SanitationStep, id: string) => {
+    const c = settings.chemicals.find((x) => x.id === id);
+    set(step, { chemical: id, ...(c ? { concentration: String(c.defaultConcentration), contactMinutes: String(c.recommendedContactMinutes) } : {}) });
+  };
+
+  const newSteps = sanitationSteps.filter((s) => drafts[s].done && !carried.has(s)).map((s) => toInput(s, drafts[s]));
+  const preview = useMemo(() => {
+    const previous: StepForRules[] =
+      continuing && openCycle
+        ? openCycle.steps.map((s) => ({ step: s.step, chemical: s.chemicalId ?? s.chemical, concentration: s.concentration, contactMinutes: s.contactMinutes, at: s.at, purgeMethod: s.purgeMethod }))
+        : [];
+    const all = [...previous, ...newSteps];
+    return all.length ? evaluateCycle(all, settings) : null;
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [JSON.stringify(newSteps), continuing, openCycle, settings]);
+
+  const save = async () => {
+    setError(null);
+    try {
+      const result =
+        continuing && openCycle
+          ? await cont.mutateAsync({ cycleId: openCycle.id, steps: newSteps })
+          : await record.mutateAsync({ equipmentId: vessel.id, steps: newSteps });
+      onSaved(result);
+    } catch (e) {
+      setError(problemMessage(e));
+    }
+  };
+
+  const chemicalsFor = (step: SanitationStep) => settings.chemicals.filter((c) => c.step === step && (c.active || c.id === drafts[step].chemical));
+  const unitOf = (step: SanitationStep) => settings.chemicals.find((c) => c.id === drafts[step].chemical)?.unit ?? '';
+  const minimum = (step: 'clean' | 'sanitize') => {
+    const chem = settings.chemicals.find((c) => c.id === drafts[step].chemical);
+    return Math.max(settings.minimumContactMinutes[step], chem?.minimumContactMinutes ?? 0);
+  };
+
+  return (
+    <div className="flex flex-col gap-4">
+      {openCycle ? (
+        <Alert tone="info" title={`Cleaned ${formatDateTime(openCycle.completedAt)}, not yet sanitized`}>
+          <p>The last cycle on {vessel.code} stopped after {openCycle.steps.map((s) => sanitationStepLabels[s.step].toLowerCase()).join(', ')}.</p>
+          <div className="mt-2 flex flex-wrap gap-2">
+            <Button variant={continuing ? 'primary' : 'secondary'} className={bigButton} onClick={() => setContinuing(true)} aria-pressed={continuing}>
+              Continue that cycle
+            </Button>
+            <Button variant={continuing ? 'secondary' : 'primary'} className={bigButton} onClick={() => setContinuing(false)} aria-pressed={!continuing}>
+              Start a new cycle
+            </Button>
+          </div>
+        </Alert>
+      ) : null}
+
+      <ol className="flex flex-col gap-3" aria-label={`Cycle steps for ${vessel.code}`}>
+        {sanitationSteps.map((step, i) => {
+          const d = drafts[step];
+          const isCarried = carried.has(step);
+          const stepId = `step-${step}`;
+          return (
+            <li key={step} className={`rounded-lg border bg-surface p-3 ${d.done || isCarried ? 'border-hop' : 'border-line'}`} aria-labelledby={`${stepId}-title`}>
+              <div className="flex items-center justify-between gap-3">
+                <h3 id={`${stepId}-title`} className="text-lg">
+                  <span className="mr-2 text-ink-muted">{i + 1}.</span>
+                  {sanitationStepLabels[step]}
+                </h3>
+                {isCarried ? (
+                  <Badge tone="ready">Done earlier</Badge>
+                ) : (
+                  <Button
+                    variant={d.done ? 'primary' : 'secondary'}
+                    className={`${bigButton} min-w-32`}
+                    aria-pressed={d.done}
+                    onClick={() => set(step, d.done ? { done: false } : { done: true, at: localNow() })}
+                  >
+                    {d.done ? 'Done ✓' : `Mark ${sanitationStepLabels[step].split(' ')[0]!.toLowerCase()} done`}
+                  </Button>
+                )}
+              </div>
+              {isCarried ? null : (
+                <div className="mt-3 grid gap-3 sm:grid-cols-2">
+                  {step === 'clean' || step === 'sanitize' ? (
+                    <>
+                      <label className="flex flex-col gap-1 text-sm font-medium sm:col-span-2">
+                        {step === 'clean' ? 'Cleaner' : 'Sanitizer'}
+                        <BigSelect value={d.chemical} onChange={(e) => pickChemical(step, e.target.value)}>
+                          {chemicalsFor(step).map((c) => (
+                            <option key={c.id} value={c.id}>
+                              {c.name}
+                            </option>
+                          ))}
+                        </BigSelect>
+                      </label>
+                      <label className="flex flex-col gap-1 text-sm font-medium">
+                        Strength {unitOf(step) ? `(${unitOf(step)})` : ''}
+                        <BigInput type="number" inputMode="decimal" step="any" min={0} value={d.concentration} onChange={(e) => set(step, { concentration: e.target.value })} />
+                      </label>
+                      <label className="flex flex-col gap-1 text-sm font-medium">
+                        {step === 'clean' ? 'Soak time (minutes)' : 'Contact time (minutes)'}
+                        <BigInput type="number" inputMode="decimal" step="any" min={0} value={d.contactMinutes} onChange={(e) => set(step, { contactMinutes: e.target.value })} />
+                        <span className="text-xs font-normal text-ink-muted">The co-op’s minimum: {minimum(step)} min</span>
+                      </label>
+                    </>
+                  ) : null}
+                  {step === 'purge' ? (
+                    <>
+                      <fieldset className="flex flex-col gap-2 sm:col-span-2">
+                        <legend className="mb-1 text-sm font-medium">How</legend>
+                        <div className="flex flex-col gap-2 sm:flex-row">
+                          <BigChoice name={`${vessel.id}-purge`} label="Timed CO2 flush" checked={d.purgeMethod === 'flush'} onChange={() => set(step, { purgeMethod: 'flush' })} />
+                          <BigChoice
+                            name={`${vessel.id}-purge`}
+                            label="Push the sanitizer out with CO2"
+                            description="Into another keg"
+                            checked={d.purgeMethod === 'push_out'}
+                            onChange={() => set(step, { purgeMethod: 'push_out' })}
+                          />
+                        </div>
+                      </fieldset>
+                      {d.purgeMethod === 'flush' ? (
+                        <label className="flex flex-col gap-1 text-sm font-medium">
+                          Flush (seconds)
+                          <BigInput type="number" inputMode="numeric" min={0} value={d.purgeSeconds} onChange={(e) => set(step, { purgeSeconds: e.target.value })} />
+                        </label>
+                      ) : null}
+                    </>
+                  ) : null}
+                  <label className="flex flex-col gap-1 text-sm font-medium">
+                    When
+                    <BigInput type="datetime-local" value={d.at} max={localNow(new Date(Date.now() + 5 * 60_000))} onChange={(e) => set(step, { at: e.target.value })} />
+                  </label>
+                </div>
+              )}
+            </li>
+          );
+        })}
+      </ol>
+
+      {preview ? (
+        <section aria-live="polite" className="rounded-lg border border-line bg-ground-deep p-3">
+          <p className="flex flex-wrap items-center gap-2 text-base">
+            This cycle leaves {vessel.code}: <Badge tone={outcomeText[preview.outcome].tone}>{outcomeText[preview.outcome].label}</Badge>
+          </p>
+          <p className="mt-1 text-sm text-ink-muted">{outcomeText[preview.outcome].line}</p>
+          {preview.issues.length ? (
+            <ul className="mt-2 list-disc pl-5 text-sm text-due-strong">
+              {preview.issues.map((i) => (
+                <li key={`${i.code}-${i.step}`}>{i.message}</li>
+              ))}
+            </ul>
+          ) : null}
+        </section>
+      ) : null}
+
+      {error ? <Alert tone="error" title="Not saved">{error}</Alert> : null}
+      <Button className={`${bigButton} w-full`} onClick={save} pending={record.isPending || cont.isPending} disabled={newSteps.length === 0}>
+        {newSteps.length === 0 ? 'Mark the steps you did' : continuing ? 'Save the rest of the cycle' : 'Save cycle'}
+      </Button>
+      <Cautions kind="chemicals" />
+    </div>
+  );
+};
