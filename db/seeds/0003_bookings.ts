@@ -179,7 +179,15 @@ interface Change {
  * and each item's history of states that follows from them: filled at the start, emptied at the
  * end, cleaned and sanitized before the next user.
  */
+/** Larkspur Yard's own limit: a 120 L batch alone goes into six kegs, so members may hold up to 24 bookings at once. */
+export const DEMO_MAX_ACTIVE_BOOKINGS = 24;
+
 export async function seed(db: Database): Promise<void> {
+  const rules = await db.selectFrom('setting').select('value').where('key', '=', 'booking_rules').executeTakeFirst();
+  if (rules) {
+    const value = { ...(rules.value as Record<string, unknown>), maxActiveBookingsPerMember: DEMO_MAX_ACTIVE_BOOKINGS };
+    await db.updateTable('setting').set({ value: JSON.stringify(value) }).where('key', '=', 'booking_rules').execute();
+  }
   const random = rng(3004);
   const bookings = plan();
   const rows = bookings.map((b, i) => {
