@@ -1,4 +1,5 @@
-import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState, type Updater } from '@tanstack/react-table';
+import { createColumnHelper } from '@tanstack/react-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { vesselStateLabels } from '../../../../shared/schemas/equipment.ts';
@@ -64,26 +65,13 @@ const KegWhereaboutsRoute = () => {
     ],
     [],
   );
-  const sorting: SortingState = [{ id: sort, desc: order === 'desc' }];
-  const onSortingChange = (u: Updater<SortingState>) => {
-    const next = (typeof u === 'function' ? u(sorting) : u)[0];
-    if (!next || !(kegSortFields as readonly string[]).includes(next.id)) return;
-    setSort(next.id as SortField);
-    setOrder(next.desc ? 'desc' : 'asc');
-    setPage(1);
-  };
-  const table = useReactTable({
-    data: kegs.data?.items ?? [],
+  const table = useServerTable({
+    data: kegs.data,
     columns,
+    query: { page, pageSize, sort, order },
+    onQueryChange: (q) => (setSort(q.sort), setOrder(q.order), setPage(1)),
+    isSortField: (id): id is SortField => (kegSortFields as readonly string[]).includes(id),
     getRowId: (k) => k.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualSorting: true,
-    manualPagination: true,
-    enableMultiSort: false,
-    enableSortingRemoval: false,
-    rowCount: kegs.data?.total ?? 0,
-    state: { sorting, pagination: { pageIndex: page - 1, pageSize } },
-    onSortingChange,
   });
   return (
     <div className="flex flex-col gap-3">

@@ -1,4 +1,5 @@
-import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState, type Updater } from '@tanstack/react-table';
+import { createColumnHelper } from '@tanstack/react-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import { useMemo, useState } from 'react';
 import { sanitationStepLabels } from '../../../../shared/schemas/cellar-settings.ts';
 import { sanitationCycleSortFields, type SanitationCycleView } from '../../../../shared/schemas/sanitation.ts';
@@ -73,26 +74,13 @@ const SanitationLogRoute = () => {
     ],
     [],
   );
-  const sorting: SortingState = [{ id: sort, desc: order === 'desc' }];
-  const onSortingChange = (u: Updater<SortingState>) => {
-    const next = (typeof u === 'function' ? u(sorting) : u)[0];
-    if (!next || !(sanitationCycleSortFields as readonly string[]).includes(next.id)) return;
-    setSort(next.id as SortField);
-    setOrder(next.desc ? 'desc' : 'asc');
-    setPage(1);
-  };
-  const table = useReactTable({
-    data: cycles.data?.items ?? [],
+  const table = useServerTable({
+    data: cycles.data,
     columns,
+    query: { page, pageSize, sort, order },
+    onQueryChange: (q) => (setSort(q.sort), setOrder(q.order), setPage(1)),
+    isSortField: (id): id is SortField => (sanitationCycleSortFields as readonly string[]).includes(id),
     getRowId: (c) => c.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualSorting: true,
-    manualPagination: true,
-    enableMultiSort: false,
-    enableSortingRemoval: false,
-    rowCount: cycles.data?.total ?? 0,
-    state: { sorting, pagination: { pageIndex: page - 1, pageSize } },
-    onSortingChange,
   });
   return (
     <div className="flex flex-col gap-3">

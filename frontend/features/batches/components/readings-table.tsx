@@ -1,4 +1,5 @@
-import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState, type Updater } from '@tanstack/react-table';
+import { createColumnHelper } from '@tanstack/react-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import { useMemo, useState } from 'react';
 import { gravityUnitLabels, type BatchDetail, type ReadingDto } from '../../../../shared/schemas/batches.ts';
 import { Badge } from '@/components/ui/badge';
@@ -77,25 +78,13 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
     ],
     [units, batch.can.deleteReading],
   );
-  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
-  const onSortingChange = (updater: Updater<SortingState>) => {
-    const next = typeof updater === 'function' ? updater(sorting) : updater;
-    const first = next[0];
-    if (!first || !sortable.has(first.id)) return;
-    setQuery((q) => ({ ...q, page: 1, sort: first.id as ReadingsQuery['sort'], order: first.desc ? 'desc' : 'asc' }));
-  };
-  const table = useReactTable({
-    data: readings.data?.items ?? [],
+  const table = useServerTable({
+    data: readings.data,
     columns,
+    query,
+    onQueryChange: (q) => setQuery((prev) => ({ ...prev, ...q, page: 1 })),
+    isSortField: (id): id is ReadingsQuery['sort'] => sortable.has(id),
     getRowId: (r) => r.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualSorting: true,
-    manualPagination: true,
-    enableMultiSort: false,
-    enableSortingRemoval: false,
-    rowCount: readings.data?.total ?? 0,
-    state: { sorting, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
-    onSortingChange,
   });
   return (
     <div className="flex flex-col gap-3">

@@ -1,4 +1,4 @@
-import { createColumnHelper, getCoreRowModel, useReactTable, type SortingState, type Updater } from '@tanstack/react-table';
+import { createColumnHelper } from '@tanstack/react-table';
 import { useEffect, useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
@@ -6,6 +6,7 @@ import { invoiceSortFields, invoiceStatuses, invoiceStatusLabels, type InvoiceLi
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { Button } from '@/components/ui/button';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import { Input, Select } from '@/components/ui/input';
 import { invoiceHref } from '@/config/paths';
 import { useBillableMembers } from '@/features/billing/api/manual-charges';
@@ -141,28 +142,7 @@ export const InvoicesTable = ({ query, data, isLoading, isFetching, isPlaceholde
     [hrefFor, own],
   );
 
-  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
-  const onSortingChange = (updater: Updater<SortingState>) => {
-    const next = typeof updater === 'function' ? updater(sorting) : updater;
-    const first = next[0];
-    if (!first || !isSortField(first.id)) return;
-    onQueryChange({ sort: first.id, order: first.desc ? 'desc' : 'asc' });
-  };
-
-  const table = useReactTable({
-    data: data?.items ?? [],
-    columns,
-    getRowId: (r) => r.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualSorting: true,
-    manualPagination: true,
-    manualFiltering: true,
-    enableMultiSort: false,
-    enableSortingRemoval: false,
-    rowCount: data?.total ?? 0,
-    state: { sorting, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
-    onSortingChange,
-  });
+  const table = useServerTable({ data, columns, query, onQueryChange, isSortField, getRowId: (r) => r.id });
 
   return (
     <div className="flex flex-col gap-3">

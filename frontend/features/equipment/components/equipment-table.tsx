@@ -1,11 +1,4 @@
-import {
-  createColumnHelper,
-  getCoreRowModel,
-  useReactTable,
-  type RowSelectionState,
-  type SortingState,
-  type Updater,
-} from '@tanstack/react-table';
+import { createColumnHelper, type RowSelectionState } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import {
@@ -17,6 +10,7 @@ import {
 } from '../../../../shared/schemas/equipment.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import type { EquipmentListQueryPatch } from '@/features/equipment/hooks/use-equipment-search-params';
 import { useUnits } from '@/hooks/use-units';
@@ -113,29 +107,18 @@ export const EquipmentTable = ({ query, data, isLoading, isFetching, isPlacehold
     [units],
   );
 
-  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
-  const onSortingChange = (updater: Updater<SortingState>) => {
-    const next = typeof updater === 'function' ? updater(sorting) : updater;
-    const first = next[0];
-    if (!first || !isSortField(first.id)) return;
-    onQueryChange({ sort: first.id, order: first.desc ? 'desc' : 'asc' });
-  };
-
-  const table = useReactTable({
-    data: data?.items ?? [],
+  const table = useServerTable({
+    data,
     columns,
+    query,
+    onQueryChange,
+    isSortField,
     getRowId: (item) => item.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualSorting: true,
-    manualPagination: true,
-    manualFiltering: true,
-    enableMultiSort: false,
-    enableSortingRemoval: false,
-    enableRowSelection: true,
-    rowCount: data?.total ?? 0,
-    state: { sorting, rowSelection: selection, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
-    onSortingChange,
-    onRowSelectionChange: (updater) => onSelectionChange(typeof updater === 'function' ? updater(selection) : updater),
+    extra: {
+      enableRowSelection: true,
+      state: { rowSelection: selection },
+      onRowSelectionChange: (updater) => onSelectionChange(typeof updater === 'function' ? updater(selection) : updater),
+    },
   });
 
   return (

@@ -1,10 +1,4 @@
-import {
-  createColumnHelper,
-  getCoreRowModel,
-  useReactTable,
-  type SortingState,
-  type Updater,
-} from '@tanstack/react-table';
+import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { userSortFields, type User, type UserListQuery, type UserSortField } from '../../../../shared/schemas/user.ts';
@@ -12,6 +6,7 @@ import { RoleBadges } from '@/components/role-badges';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import type { UserListQueryPatch } from '@/features/users/hooks/use-users-search-params';
 import { formatDate, formatDateTime } from '@/utils/format';
 
@@ -124,28 +119,7 @@ export const UsersTable = ({
     [currentUserId, onEditRoles, onToggleActive],
   );
 
-  const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
-  const onSortingChange = (updater: Updater<SortingState>) => {
-    const next = typeof updater === 'function' ? updater(sorting) : updater;
-    const first = next[0];
-    if (!first || !isSortField(first.id)) return;
-    onQueryChange({ sort: first.id, order: first.desc ? 'desc' : 'asc' });
-  };
-
-  const table = useReactTable({
-    data: data?.items ?? [],
-    columns,
-    getRowId: (user) => user.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualSorting: true,
-    manualPagination: true,
-    manualFiltering: true,
-    enableMultiSort: false,
-    enableSortingRemoval: false,
-    rowCount: data?.total ?? 0,
-    state: { sorting, pagination: { pageIndex: query.page - 1, pageSize: query.pageSize } },
-    onSortingChange,
-  });
+  const table = useServerTable({ data, columns, query, onQueryChange, isSortField, getRowId: (user) => user.id });
 
   return (
     <div className="flex flex-col gap-3">
