@@ -13,12 +13,18 @@ import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { effectiveStateSql, writeStateChange } from '../sanitation/vessel-state.ts';
 
 const columns = ['id', 'code', 'kind', 'name', 'capacity_liters', 'state', 'attributes', 'notes', 'state_changed_at', 'created_at', 'updated_at'] as const;
 
+const storedColumns = columns.filter((c) => c !== 'state');
+// The state a vessel has now: a lapsed freshness window reads as needs_cleaning at once, before the
+// periodic job writes it down.
+const currentState = effectiveStateSql(sql.ref('equipment.id'), sql.ref('equipment.state'));
+
 type EquipmentRow = Awaited<ReturnType<ReturnType<typeof selectEquipment>['executeTakeFirstOrThrow']>>;
 function selectEquipment(db: Database) {
-  return db.selectFrom('equipment').select(columns);
+  return db.selectFrom('equipment').select([...storedColumns, currentState.as('state')]);
 }
 
 export function toEquipmentDto(row: EquipmentRow): Equipment {
@@ -49,7 +55,7 @@ const sortColumns = {
 export async function listEquipment(db: Database, q: EquipmentListQuery): Promise<Page<Equipment>> {
   let base = db.selectFrom('equipment');
   if (q.kind) base = base.where('kind', '=', q.kind);
-  if (q.state) base = base.where('state', '=', q.state);
+  if (q.state) base = base.where(currentState, '=', q.state);
   if (q.q) {
     const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
     base = base.where((eb) => eb.or([eb('code', 'ilike', like), eb('name', 'ilike', like), eb('notes', 'ilike', like)]));
@@ -57,7 +63,7 @@ export async function listEquipment(db: Database, q: EquipmentListQuery): Promis
   const [{ total }, rows] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
     base
-      .select(columns)
+      .select([...storedColumns, currentState.as('state')])
       .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
       // Codes sort by their number within a prefix (K-2 before K-10).
       .orderBy(sql`split_part(code, '-', 1)`)
@@ -179,19 +185,9 @@ export async function changeEquipmentState(
   if (current.state === change.toState) {
     throw conflict(`${current.code} is already "${vesselStateLabels[change.toState]}".`, { title: 'No change' });
   }
-  const at = change.at ?? new Date();
-  const row = await trx
-    .updateTable('equipment')
-    .set({ state: change.toState, state_changed_at: at, updated_at: at })
-    .where('id', '=', current.id)
-    .returning(columns)
-    .executeTakeFirstOrThrow();
-  await trx
-    .insertInto('equipment_state_change')
-    .values({ equipment_id: current.id, from_state: current.state, to_state: change.toState, reason: change.reason, actor_id: change.actorId, at })
-    .execute();
+  await writeStateChange(trx, current.id, current.state, change.toState, change.reason, change.actorId, change.at);
   await audit(trx, change.actorId, 'state_changed', 'Equipment', current.id, { code: current.code, from: current.state, to: change.toState, reason: change.reason });
-  return toEquipmentDto(row);
+  return toEquipmentDto(await selectEquipment(trx).where('id', '=', current.id).executeTakeFirstOrThrow());
 }
 
 export async function equipmentByIds(db: Database, ids: string[]): Promise<Equipment[]> {

@@ -21,13 +21,28 @@ export async function setVesselState(
     .executeTakeFirstOrThrow();
   const from = row.state;
   if (from === toState) return { from, to: toState, changed: false };
-  const now = new Date();
-  await trx.updateTable('equipment').set({ state: toState, state_changed_at: now, updated_at: now }).where('id', '=', equipmentId).execute();
+  await writeStateChange(trx, equipmentId, from, toState, reason, actorId);
+  return { from, to: toState, changed: true };
+}
+
+/**
+ * Writes a vessel's new state and the history row saying why. The caller holds the row lock
+ * (select … for update) and decides whether the change is allowed; every state change goes through here.
+ */
+export async function writeStateChange(
+  trx: Database,
+  equipmentId: string,
+  fromState: VesselState,
+  toState: VesselState,
+  reason: string,
+  actorId: string | null,
+  at: Date = new Date(),
+): Promise<void> {
+  await trx.updateTable('equipment').set({ state: toState, state_changed_at: at, updated_at: at }).where('id', '=', equipmentId).execute();
   await trx
     .insertInto('equipment_state_change')
-    .values({ equipment_id: equipmentId, from_state: from, to_state: toState, reason: reason.slice(0, 500), actor_id: actorId, at: now })
+    .values({ equipment_id: equipmentId, from_state: fromState, to_state: toState, reason: reason.slice(0, 500), actor_id: actorId, at })
     .execute();
-  return { from, to: toState, changed: true };
 }
 
 /**
