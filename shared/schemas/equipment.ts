@@ -32,6 +32,17 @@ export const equipmentCodeSchema = z
   .toUpperCase()
   .regex(/^[A-Z]{1,3}-\d{1,4}$/, 'Use a code like F-07 or K-031');
 
+/** The letter each kind's codes start with: F-07 fermenters, K-031 kegs, T-3 tap positions, C-1 CO2 cylinders. */
+export const equipmentCodePrefixes: Record<EquipmentKind, string> = {
+  fermenter: 'F',
+  keg: 'K',
+  tap: 'T',
+  co2_cylinder: 'C',
+};
+
+/** `GET /api/equipment/next-code?kind=` (admin): the next free code for a kind, as a hint for the add form. */
+export const nextCodeQuerySchema = z.object({ kind: equipmentKindSchema });
+
 const nameSchema = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
 const notesSchema = z.string().trim().max(2000, 'Keep notes under 2000 characters');
 const capacitySchema = z.number().positive('Capacity must be more than 0 L').max(100_000);

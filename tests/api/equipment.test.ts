@@ -206,3 +206,40 @@ describe('QR label sheets', () => {
     expect((await member.get('/api/equipment/labels.pdf?ids=00000000-0000-4000-8000-000000000000')).status).toBe(404);
   });
 });
+
+describe('the next free code (admin hint for the add form)', () => {
+  it('suggests one past the highest code of each kind, padded like that kind\'s codes', async () => {
+    const admin = await ctx.signIn('admin@example.org');
+    const codes: Record<string, string> = {};
+    for (const kind of ['fermenter', 'keg', 'tap', 'co2_cylinder']) {
+      const res = await admin.get(`/api/equipment/next-code?kind=${kind}`);
+      expect(res.status).toBe(200);
+      codes[kind] = res.body.code;
+    }
+    // The demo co-op has F-01…F-12, K-001…K-060, T-1…T-8 and C-1…C-6; the registry test above may have added kegs.
+    const kegs = await ctx.db.selectFrom('equipment').select('code').where('kind', '=', 'keg').execute();
+    const highestKeg = Math.max(...kegs.map((k) => Number(k.code.split('-')[1])));
+    expect(highestKeg).toBeGreaterThanOrEqual(60);
+    expect(codes).toEqual({ fermenter: 'F-13', keg: `K-${String(highestKeg + 1).padStart(3, '0')}`, tap: 'T-9', co2_cylinder: 'C-7' });
+
+    // Taking the suggestion moves the hint on; a suggested code is free to create.
+    const created = await admin.post('/api/equipment', {
+      kind: 'tap',
+      code: codes.tap,
+      name: 'Tap 9',
+      attributes: { position: 'Cold room, right wall, 1', lineLengthM: 3, lineInsideDiameterMm: 4.8 },
+    });
+    expect(created.status).toBe(201);
+    expect((await admin.get('/api/equipment/next-code?kind=tap')).body.code).toBe('T-10');
+  });
+
+  it('is the admin\'s only and needs a known kind', async () => {
+    const admin = await ctx.signIn('admin@example.org');
+    expect((await admin.get('/api/equipment/next-code?kind=barrel')).status).toBe(422);
+    expect((await admin.get('/api/equipment/next-code')).status).toBe(422);
+    const member = await ctx.signIn('member@example.org');
+    expect((await member.get('/api/equipment/next-code?kind=keg')).status).toBe(403);
+    const brewer = await ctx.signIn('brewer@example.org');
+    expect((await brewer.get('/api/equipment/next-code?kind=keg')).status).toBe(403);
+  });
+});

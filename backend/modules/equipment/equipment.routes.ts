@@ -6,6 +6,7 @@ import {
   equipmentListQuerySchema,
   equipmentStateChangeSchema,
   labelSheetQuerySchema,
+  nextCodeQuerySchema,
   updateEquipmentSchema,
 } from '../../../shared/schemas/equipment.ts';
 import type { Deps } from '../../lib/deps.ts';
@@ -19,6 +20,7 @@ import {
   equipmentHistory,
   findEquipment,
   listEquipment,
+  nextEquipmentCode,
   updateEquipment,
 } from './equipment.service.ts';
 import { renderLabelSheet } from './labels-pdf.service.ts';
@@ -58,6 +60,13 @@ export function equipmentRoutes({ db, config }: Deps): Router {
       .set('Content-Disposition', `inline; filename="cellarwright-labels-${items.length}.pdf"`)
       .set('Cache-Control', 'no-store')
       .send(pdf);
+  });
+
+  router.get('/next-code', async (req, res) => {
+    // A hint for the admin's add form; the unique constraint on `code` is the guarantee.
+    ForbiddenError.from(req.ability).throwUnlessCan('create', 'Equipment');
+    const q = nextCodeQuerySchema.parse(req.query);
+    res.json({ kind: q.kind, code: await nextEquipmentCode(db, q.kind) });
   });
 
   router.get('/:id', async (req, res) => {

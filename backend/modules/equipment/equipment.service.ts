@@ -1,6 +1,8 @@
 import { sql } from 'kysely';
 import {
   attributesSchemaByKind,
+  equipmentCodePrefixes,
+  type EquipmentKind,
   type CreateEquipmentInput,
   type Equipment,
   type EquipmentListQuery,
@@ -105,6 +107,26 @@ export async function equipmentHistory(db: Database, equipmentId: string, limit 
     at: r.at.toISOString(),
     actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? '' } : null,
   }));
+}
+
+/**
+ * The next free code for a kind: one past the highest number under the kind's letter, padded like the
+ * registry's existing codes of that kind (K-060 → K-061, T-8 → T-9); the first of a kind is `X-1`.
+ */
+export async function nextEquipmentCode(db: Database, kind: EquipmentKind): Promise<string> {
+  const prefix = equipmentCodePrefixes[kind];
+  const row = await db
+    .selectFrom('equipment')
+    .select([
+      sql<number | null>`max(nullif(split_part(code, '-', 2), '')::int)`.as('highest'),
+      sql<number | null>`max(length(split_part(code, '-', 2)))`.as('width'),
+    ])
+    .where(sql<boolean>`split_part(code, '-', 1) = ${prefix}`)
+    .where(sql<boolean>`split_part(code, '-', 2) ~ '^[0-9]+$'`)
+    .executeTakeFirst();
+  const next = Number(row?.highest ?? 0) + 1;
+  const width = Number(row?.width ?? 1);
+  return `${prefix}-${String(next).padStart(width, '0')}`;
 }
 
 function isUniqueViolation(err: unknown): boolean {
