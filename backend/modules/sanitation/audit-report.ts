@@ -6,6 +6,7 @@ import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interface
 import { alcoholCaution, chemicalCautions, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
 import { sanitationStepLabels, type SanitationSettings, type SanitationStep } from '../../../shared/schemas/cellar-settings.ts';
 import type { Database } from '../../db/database.ts';
+import { renderPdfOffThread } from '../../lib/pdf-render.ts';
 import { ttfFromWoffFile } from './pdf-font.ts';
 
 /**
@@ -557,4 +558,13 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
 export async function renderAuditPdf(data: AuditData, vesselSetLabel: string): Promise<Buffer> {
   preparePdfmake();
   return pdfmake.createPdf(auditDocument(data, vesselSetLabel)).getBuffer();
+}
+
+/**
+ * The same PDF, laid out on a PDF render thread (backend/lib/pdf-render.ts) so a year's report does
+ * not hold up the app instance's other requests. The data is plain (Dates and strings); the thread
+ * builds the document definition, header and footer callbacks included, with auditDocument above.
+ */
+export function renderAuditPdfOffThread(data: AuditData, vesselSetLabel: string): Promise<Buffer> {
+  return renderPdfOffThread({ module: new URL(import.meta.url), exportName: 'renderAuditPdf', args: [data, vesselSetLabel] });
 }

@@ -11,7 +11,7 @@ import {
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
-import { loadAuditData, renderAuditPdf } from './audit-report.ts';
+import { loadAuditData, renderAuditPdfOffThread } from './audit-report.ts';
 import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
 
 /** `/api/sanitation-cycles`: the sanitation log. */
@@ -80,7 +80,8 @@ export function sanitationReportRoutes({ db }: Deps): Router {
       : q.kind
         ? `every ${q.kind}`
         : 'every fermenter and keg';
-    const pdf = await renderAuditPdf(data, label.length > 120 ? `${data.vessels.length} selected vessels` : label);
+    // The two queries ran here; the layout runs on a PDF render thread.
+    const pdf = await renderAuditPdfOffThread(data, label.length > 120 ? `${data.vessels.length} selected vessels` : label);
     const name = `sanitation-audit-${q.from.slice(0, 10)}-to-${q.to.slice(0, 10)}.pdf`;
     res.type('application/pdf').set('Content-Disposition', `inline; filename="${name}"`).set('Cache-Control', 'no-store').send(pdf);
   });
