@@ -1,10 +1,14 @@
 // The sanitation audit for a year of a fleet of 80 vessels (20 fermenters, 60 kegs): a cycle on
 // every vessel about every six days, a fill of every keg about every twelve, some exceptions.
 // Prints the time of the two set-based queries, of the PDF, the number of queries made, the PDF's
-// pages and size, and the peak memory. Figures only; tests assert behaviour elsewhere.
+// pages and size, and the peak memory. Then the event loop's worst delay while that PDF renders,
+// on the request's own thread (as before) and on a PDF render thread (as the route does now).
+// Figures only; tests assert behaviour elsewhere.
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { Kysely, PostgresDialect, sql } from 'kysely';
 import type { DB } from '../db/schema.ts';
-import { loadAuditData, renderAuditPdf } from '../modules/sanitation/audit-report.ts';
+import { pdfRenderPool } from '../lib/pdf-render.ts';
+import { loadAuditData, renderAuditPdf, renderAuditPdfOffThread, type AuditData } from '../modules/sanitation/audit-report.ts';
 import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
 import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
 import { benchDatabase, peakRssMiB, time } from './bench-db.ts';
@@ -122,6 +126,45 @@ try {
         `${load.value.exceptions.length} exceptions · total ${(load.ms + pdf.ms).toFixed(0)} ms · peak RSS ${peakRssMiB()} MiB`,
     );
   }
+
+  // The event loop's worst delay during one render: a histogram sampling every 10 ms, plus a
+  // timer ticking every 5 ms as a stand-in for other requests (how many got a turn meanwhile).
+  const data = (await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings })) as AuditData;
+  async function loopDuring(render: () => Promise<Buffer>) {
+    const h = monitorEventLoopDelay({ resolution: 10 });
+    let ticks = 0;
+    let last = performance.now();
+    let worstGap = 0;
+    const timer = setInterval(() => {
+      const now = performance.now();
+      worstGap = Math.max(worstGap, now - last);
+      last = now;
+      ticks += 1;
+    }, 5);
+    h.enable();
+    // Let the histogram's and the timer's first turns pass, so the render falls inside their sampling.
+    await new Promise((r) => setTimeout(r, 40));
+    last = performance.now();
+    const t = performance.now();
+    const pdf = await render();
+    const ms = performance.now() - t;
+    // A few more turns, so a delay that ends with the render is sampled too.
+    await new Promise((r) => setTimeout(r, 40));
+    h.disable();
+    clearInterval(timer);
+    return { maxMs: Math.max(h.max / 1e6, 0), worstGap, p99Ms: h.percentile(99) / 1e6, ticks, ms, bytes: pdf.length };
+  }
+  // Warm the thread once (it loads tsx and the report module on its first job), then measure both.
+  const warm = await time(() => renderAuditPdfOffThread(data, 'every fermenter and keg'));
+  console.log(`  render thread's first job (starts the thread, loads the report module): ${warm.ms.toFixed(0)} ms`);
+  const before = await loopDuring(() => renderAuditPdf(data, 'every fermenter and keg'));
+  const after = await loopDuring(() => renderAuditPdfOffThread(data, 'every fermenter and keg'));
+  const line = (label: string, r: typeof before) =>
+    `  ${label}: event loop worst delay ${r.maxMs.toFixed(1)} ms (p99 ${r.p99Ms.toFixed(1)} ms; longest gap between 5 ms timer turns ${r.worstGap.toFixed(0)} ms, ${r.ticks} turns) · PDF ${r.ms.toFixed(0)} ms, ${(r.bytes / 1024).toFixed(0)} KiB`;
+  console.log(line('before (on the request thread)', before));
+  console.log(line('after (on a PDF render thread)', after));
+  console.log(`  worst event-loop delay: before ${before.maxMs.toFixed(0)} ms / after ${after.maxMs.toFixed(1)} ms = ${(before.maxMs / after.maxMs).toFixed(0)}× lower on a render thread`);
 } finally {
+  await pdfRenderPool.close();
   await bench.drop().catch(() => undefined);
 }
