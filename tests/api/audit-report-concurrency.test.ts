@@ -1,0 +1,195 @@
+import { execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import express from 'express';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { PdfRenderPool, pdfRenderPool } from '../../backend/lib/pdf-render.ts';
+import { problemHandler } from '../../backend/middleware/problem-handler.ts';
+import type { AuditData } from '../../backend/modules/sanitation/audit-report.ts';
+import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
+import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
+import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+
+// The sanitation audit is laid out on a PDF render thread: while a long report renders, the same
+// app instance keeps answering other requests, and a failure in the thread is a 500 problem.
+
+let ctx: TestContext;
+let brewer: ApiClient;
+let vesselIds: string[] = [];
+let cycleCount = 0;
+const DAY = 86_400_000;
+const MIN = 60_000;
+const from = new Date('2025-12-01T00:00:00Z');
+const to = new Date('2026-12-01T00:00:00Z');
+const reportUrl = () => `/api/reports/sanitation-audit.pdf?from=2025-12-01&to=2026-11-30&equipmentId=${vesselIds.join(',')}`;
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+  brewer = await ctx.signIn('brewer@example.org');
+  // A year of a cycle every three days on twelve extra fermenters: a report of a hundred-odd pages.
+  const vessels = await ctx.db
+    .insertInto('equipment')
+    .values(Array.from({ length: 12 }, (_, i) => ({ code: `FY-${String(i + 1).padStart(2, '0')}`, kind: 'fermenter' as const, name: `Yard fermenter ${i + 1}`, capacity_liters: 60 })))
+    .returning('id')
+    .execute();
+  vesselIds = vessels.map((v) => v.id);
+  const cycles: Record<string, unknown>[] = [];
+  const steps: Record<string, unknown>[] = [];
+  for (const [k, v] of vessels.entries()) {
+    for (let t = from.getTime() + k * 3_600_000; t < to.getTime() - DAY; t += 3 * DAY) {
+      const list = [
+        { step: 'clean' as const, chemical: 'alkaline-cleaner', contactMinutes: 60, at: new Date(t) },
+        { step: 'rinse' as const, at: new Date(t + 65 * MIN) },
+        { step: 'sanitize' as const, chemical: 'acid-sanitizer', contactMinutes: 2, at: new Date(t + 75 * MIN) },
+        { step: 'purge' as const, contactMinutes: 0.5, at: new Date(t + 80 * MIN) },
+      ];
+      const ev = evaluateCycle(list, defaultSanitationSettings);
+      const id = crypto.randomUUID();
+      cycles.push({
+        id,
+        equipment_id: v.id,
+        started_at: ev.startedAt,
+        completed_at: ev.completedAt,
+        outcome: ev.outcome,
+        complete: ev.complete,
+        issues: JSON.stringify(ev.issues),
+        freshness_days: ev.complete ? 7 : null,
+        fresh_until: ev.freshUntil,
+        recorded_by: brewer.user.id,
+      });
+      ev.steps.forEach((st, position) => {
+        steps.push({
+          cycle_id: id,
+          position,
+          step: st.step,
+          chemical_id: st.chemicalId,
+          chemical: st.chemicalName,
+          concentration: st.concentration,
+          concentration_unit: st.concentrationUnit,
+          contact_minutes: list[st.index]!.contactMinutes ?? null,
+          minimum_contact_minutes: st.minimumContactMinutes,
+          purge_method: st.step === 'purge' ? 'flush' : null,
+          performed_by: brewer.user.id,
+          at: list[st.index]!.at,
+          ok: st.ok,
+        });
+      });
+    }
+  }
+  cycleCount = cycles.length;
+  for (let i = 0; i < cycles.length; i += 1000) await ctx.db.insertInto('sanitation_cycle').values(cycles.slice(i, i + 1000) as never).execute();
+  for (let i = 0; i < steps.length; i += 2000) await ctx.db.insertInto('sanitation_step').values(steps.slice(i, i + 2000) as never).execute();
+});
+afterAll(async () => ctx?.close());
+
+function binary(r: request.Response, cb: (err: Error | null, body: unknown) => void) {
+  const stream = r as unknown as NodeJS.ReadableStream;
+  const chunks: Buffer[] = [];
+  stream.on('data', (c: Buffer) => chunks.push(c));
+  stream.on('end', () => cb(null, Buffer.concat(chunks)));
+}
+
+function pdfText(pdf: Buffer): string {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-'));
+  try {
+    const file = path.join(dir, 'report.pdf');
+    fs.writeFileSync(file, pdf);
+    return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+describe('a long sanitation audit renders off the event loop', () => {
+  it('answers GET /api/health while a year of the audit is still being laid out', async () => {
+    const order: string[] = [];
+    const started = new Promise<void>((resolve) => pdfRenderPool.events.once('start', () => resolve()));
+    const report = brewer
+      .get(reportUrl())
+      .buffer(true)
+      .parse(binary)
+      .then((res) => {
+        order.push('audit');
+        return res;
+      });
+    // Once the queries have run and the layout has been handed to a render thread…
+    await started;
+    order.push('rendering');
+    // …the same app instance still answers, more than once, before the report is done.
+    for (let i = 0; i < 3; i++) {
+      const health = await request(ctx.app).get('/api/health');
+      expect(health.status).toBe(200);
+      expect(health.body).toEqual({ ok: true, db: 'up' });
+      order.push('health');
+    }
+    const res = await report;
+    expect(order).toEqual(['rendering', 'health', 'health', 'health', 'audit']);
+
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/application\/pdf/);
+    const text = pdfText(res.body as Buffer);
+    expect(text).toContain('Period 2025-12-01 to 2026-11-30');
+    expect(text).toContain(`12 vessels · ${cycleCount} cycles (${cycleCount} complete) · 0 fills`);
+    expect(text).toContain('FY-12 · Yard fermenter 12');
+    const pages = Number(/Page 1 of (\d+)/.exec(text)?.[1]);
+    expect(pages).toBeGreaterThan(50);
+    expect(text).toContain(`Page ${pages} of ${pages}`);
+    expect(text).toContain('Sanitation audit 2025-12-01 to 2026-11-30');
+  });
+
+  it('renders two reports asked for at once, each complete', async () => {
+    const [a, b] = await Promise.all([
+      brewer.get(reportUrl()).buffer(true).parse(binary),
+      brewer.get(`/api/reports/sanitation-audit.pdf?from=2026-03-01&to=2026-03-31&equipmentId=${vesselIds[0]}`).buffer(true).parse(binary),
+    ]);
+    expect(a.status).toBe(200);
+    expect(b.status).toBe(200);
+    expect(pdfText(a.body as Buffer)).toContain('12 vessels');
+    const small = pdfText(b.body as Buffer);
+    expect(small).toContain('1 vessels · ');
+    expect(small).toContain('Period 2026-03-01 to 2026-03-31');
+    expect(small).toContain('FY-01');
+  });
+});
+
+describe('failures on a render thread', () => {
+  const pool = new PdfRenderPool({ size: 1 });
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-render-'));
+  const stopper = path.join(dir, 'stops-thread.mjs');
+  fs.writeFileSync(stopper, 'export function render() { process.exit(3); }\n');
+  afterAll(async () => {
+    await pool.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+
+  const broken = { from, to, producedAt: new Date(), vessels: null, exceptions: [], settings: defaultSanitationSettings } as unknown as AuditData;
+  const auditModule = new URL('../../backend/modules/sanitation/audit-report.ts', import.meta.url);
+
+  it('reach the problem handler as a 500 problem, and the process and the pool carry on', async () => {
+    const app = express();
+    app.get('/render', async (_req, res) => {
+      const pdf = await pool.render({ module: auditModule, exportName: 'renderAuditPdf', args: [broken, 'every fermenter and keg'] });
+      res.type('application/pdf').send(pdf);
+    });
+    app.use(problemHandler);
+    const res = await request(app).get('/render');
+    expect(res.status).toBe(500);
+    expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
+    expect(res.body).toMatchObject({ status: 500, title: 'Internal server error' });
+
+    // The same thread renders a good report next.
+    const good = await pool.render({ module: auditModule, exportName: 'renderAuditPdf', args: [{ ...broken, vessels: [] }, 'every fermenter and keg'] });
+    expect(good.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect(pdfText(good)).toContain('0 vessels · 0 cycles');
+  });
+
+  it('reject only the job of a thread that stops, and start a new thread for the next', async () => {
+    await expect(pool.render({ module: pathToFileURL(stopper), exportName: 'render', args: [] })).rejects.toThrow(/stopped \(exit code 3\)/);
+    await expect(pool.render({ module: auditModule, exportName: 'noSuchExport', args: [] })).rejects.toThrow(/has no export noSuchExport/);
+    const good = await pool.render({ module: auditModule, exportName: 'renderAuditPdf', args: [{ ...broken, vessels: [] }, 'every keg'] });
+    expect(pdfText(good)).toContain('every keg');
+  });
+});
