@@ -10,6 +10,10 @@ export const litresPerUsGallon = 3.785411784; // 231 in³, exact
 export const kPaPerPsi = 6.894757293168361; // lbf/in², exact from the pound-force and the inch
 export const kPaPerBar = 100;
 
+export const metresPerFoot = 0.3048; // international foot, exact
+export const millimetresPerInch = 25.4; // international inch, exact
+export const kilogramsPerPound = 0.45359237; // international avoirdupois pound, exact
+
 export const litresToGallons = (litres: number) => litres / litresPerUsGallon;
 export const gallonsToLitres = (gallons: number) => gallons * litresPerUsGallon;
 export const celsiusToFahrenheit = (celsius: number) => celsius * 1.8 + 32;
@@ -20,15 +24,21 @@ export const kPaToBar = (kPa: number) => kPa / kPaPerBar;
 export const barToKPa = (bar: number) => bar * kPaPerBar;
 
 export const unitLabels = {
-  metric: { volume: 'L', temperature: '°C', pressure: 'bar' },
-  us: { volume: 'gal', temperature: '°F', pressure: 'psi' },
-} as const satisfies Record<UnitSystem, { volume: string; temperature: string; pressure: string }>;
+  metric: { volume: 'L', temperature: '°C', pressure: 'bar', length: 'm', smallLength: 'mm', mass: 'kg' },
+  us: { volume: 'gal', temperature: '°F', pressure: 'psi', length: 'ft', smallLength: 'in', mass: 'lb' },
+} as const satisfies Record<UnitSystem, { volume: string; temperature: string; pressure: string; length: string; smallLength: string; mass: string }>;
 
 /** API value → the number shown in the person's units. */
 export const toDisplay = {
   volume: (litres: number, units: UnitSystem) => (units === 'us' ? litresToGallons(litres) : litres),
   temperature: (celsius: number, units: UnitSystem) => (units === 'us' ? celsiusToFahrenheit(celsius) : celsius),
   pressure: (kPa: number, units: UnitSystem) => (units === 'us' ? kPaToPsi(kPa) : kPaToBar(kPa)),
+  /** Metres → m or ft (line lengths, rises). */
+  length: (metres: number, units: UnitSystem) => (units === 'us' ? metres / metresPerFoot : metres),
+  /** Millimetres → mm or in (a line's inside diameter). */
+  smallLength: (mm: number, units: UnitSystem) => (units === 'us' ? mm / millimetresPerInch : mm),
+  /** Kilograms → kg or lb (a CO2 cylinder's size). */
+  mass: (kg: number, units: UnitSystem) => (units === 'us' ? kg / kilogramsPerPound : kg),
 };
 
 /** A number typed in the person's units → the API value (L, °C, kPa gauge). */
@@ -36,6 +46,9 @@ export const fromDisplay = {
   volume: (value: number, units: UnitSystem) => (units === 'us' ? gallonsToLitres(value) : value),
   temperature: (value: number, units: UnitSystem) => (units === 'us' ? fahrenheitToCelsius(value) : value),
   pressure: (value: number, units: UnitSystem) => (units === 'us' ? psiToKPa(value) : barToKPa(value)),
+  length: (value: number, units: UnitSystem) => (units === 'us' ? value * metresPerFoot : value),
+  smallLength: (value: number, units: UnitSystem) => (units === 'us' ? value * millimetresPerInch : value),
+  mass: (value: number, units: UnitSystem) => (units === 'us' ? value * kilogramsPerPound : value),
 };
 
 const numberFormats = new Map<string, Intl.NumberFormat>();

@@ -1,5 +1,6 @@
 import type { RowSelectionState } from '@tanstack/react-table';
 import { useEffect, useState } from 'react';
+import { Link } from 'react-router-dom';
 import {
   equipmentKindLabels,
   equipmentKinds,
@@ -7,14 +8,17 @@ import {
   vesselStateLabels,
   vesselStates,
   vesselStateSchema,
+  type Equipment,
 } from '../../../../shared/schemas/equipment.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
 import { labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
+import { EquipmentAddDialog } from '@/features/equipment/components/equipment-add-dialog';
 import { EquipmentTable } from '@/features/equipment/components/equipment-table';
 import { useEquipmentSearchParams } from '@/features/equipment/hooks/use-equipment-search-params';
 import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { pluralize } from '@/utils/format';
 
@@ -26,6 +30,9 @@ const CellarRoute = () => {
   const { query, setQuery } = useEquipmentSearchParams();
   const list = useEquipmentList(query);
   const [selection, setSelection] = useState<RowSelectionState>({});
+  const ability = useAppAbility();
+  const [adding, setAdding] = useState(false);
+  const [added, setAdded] = useState<Equipment | null>(null);
   const [text, setText] = useState(query.q ?? '');
   useEffect(() => setText(query.q ?? ''), [query.q]);
   useEffect(() => {
@@ -38,10 +45,19 @@ const CellarRoute = () => {
   const selected = Object.keys(selection).filter((id) => selection[id]);
   return (
     <div className="flex flex-col gap-4">
-      <header>
-        <h1 className="text-2xl">Cellar</h1>
-        <p className="mt-1 text-ink-muted">Every vessel and where it stands. Tick items to print QR labels that open their page on a phone.</p>
+      <header className="flex flex-wrap items-start justify-between gap-3">
+        <div>
+          <h1 className="text-2xl">Cellar</h1>
+          <p className="mt-1 text-ink-muted">Every vessel and where it stands. Tick items to print QR labels that open their page on a phone.</p>
+        </div>
+        {ability.can('create', 'Equipment') ? <Button onClick={() => setAdding(true)}>Add equipment</Button> : null}
       </header>
+      {added ? (
+        <Alert tone="success" title={`${added.code} is in the registry`}>
+          {added.name}, {equipmentKindLabels[added.kind].toLowerCase()}, starts as “Needs cleaning”. <Link to={`/cellar/${added.id}`}>Open {added.code}</Link>
+        </Alert>
+      ) : null}
+      {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={setAdded} /> : null}
       <div className="flex flex-wrap items-end gap-3">
         <label className={`${labelClass} w-full sm:w-56`}>
           Search

@@ -1,65 +1,76 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
+import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
-import { z } from 'zod';
-import { updateEquipmentFieldsSchema, type Equipment } from '../../../../shared/schemas/equipment.ts';
+import type { z } from 'zod';
+import { attributesSchemaByKind, equipmentKindLabels, updateEquipmentFieldsSchema, type Equipment } from '../../../../shared/schemas/equipment.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Dialog } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { useUpdateEquipment } from '@/features/equipment/api/update-equipment';
-import { applyProblemToForm } from '@/utils/problem-form';
+import { EquipmentAttributeFields } from '@/features/equipment/components/attribute-fields';
+import { applyEquipmentProblem, equipmentResolver, formValuesOf, kindHasCapacity, type EquipmentFormValues } from '@/features/equipment/equipment-form';
+import { useUnits } from '@/hooks/use-units';
 
-/** The admin's edit of an item's registry details (the shared PATCH schema, attributes aside). */
-const editSchema = updateEquipmentFieldsSchema.pick({ code: true, name: true, notes: true }).extend({
-  code: z.string().trim().toUpperCase().regex(/^[A-Z]{1,3}-\d{1,4}$/, 'Use a code like F-07 or K-031'),
-  capacityLiters: z.number().positive('More than 0 L').max(100_000).nullable(),
-});
-type EditValues = z.infer<typeof editSchema>;
+/** The shared PATCH fields, with the attributes held to the item's own kind. */
+const editSchemaFor = (item: Equipment) => updateEquipmentFieldsSchema.extend({ attributes: attributesSchemaByKind[item.kind] });
+type EditOutput = z.infer<ReturnType<typeof editSchemaFor>>;
 
-export const EquipmentEditDialog = ({ item, open, onClose }: { item: Equipment; open: boolean; onClose: () => void }) => (
-  <Dialog open={open} onClose={onClose} title={`Edit ${item.code}`} description="Registry details. States change through “Change state”.">
-    <EditForm item={item} onDone={onClose} />
-  </Dialog>
-);
-
-const EditForm = ({ item, onDone }: { item: Equipment; onDone: () => void }) => {
+export const EquipmentEditDialog = ({ item, open, onClose }: { item: Equipment; open: boolean; onClose: () => void }) => {
   const mutation = useUpdateEquipment(item.id);
+  return (
+    <Dialog
+      open={open}
+      onClose={onClose}
+      busy={mutation.isPending}
+      title={`Edit ${item.code}`}
+      description={`${equipmentKindLabels[item.kind]}: registry details. The kind stays; states change through “Change state”.`}
+    >
+      <EditForm item={item} mutation={mutation} onDone={onClose} />
+    </Dialog>
+  );
+};
+
+const EditForm = ({ item, mutation, onDone }: { item: Equipment; mutation: ReturnType<typeof useUpdateEquipment>; onDone: () => void }) => {
+  const units = useUnits();
+  const resolver = useMemo(() => equipmentResolver<EditOutput>(editSchemaFor(item), units.units, item), [item, units.units]);
   const [message, setMessage] = useState<string[]>([]);
-  const form = useForm<EditValues>({
-    resolver: zodResolver(editSchema),
-    defaultValues: { code: item.code, name: item.name, notes: item.notes, capacityLiters: item.capacityLiters },
-  });
+  const form = useForm<EquipmentFormValues, unknown, EditOutput>({ resolver, defaultValues: formValuesOf(item, units.units) });
   const onSubmit = form.handleSubmit(async (values) => {
     setMessage([]);
     try {
       await mutation.mutateAsync(values);
       onDone();
     } catch (error) {
-      setMessage(applyProblemToForm(error, form.setError, ['code', 'name', 'notes', 'capacityLiters']));
+      setMessage(applyEquipmentProblem(error, form.setError));
     }
   });
   const errors = form.formState.errors;
   return (
     <form onSubmit={onSubmit} className="flex flex-col gap-4" noValidate>
       {message.length ? <Alert tone="error">{message.join(' ')}</Alert> : null}
-      <Field label="Code" error={errors.code?.message}>
-        {(c) => <Input {...c} {...form.register('code')} />}
-      </Field>
-      <Field label="Name" error={errors.name?.message}>
-        {(c) => <Input {...c} {...form.register('name')} />}
-      </Field>
-      <Field label="Capacity (L)" error={errors.capacityLiters?.message}>
-        {(c) => (
-          <Input
-            {...c}
-            type="number"
-            step="0.5"
-            {...form.register('capacityLiters', { setValueAs: (v: string) => (v === '' || v === null ? null : Number(v)) })}
-          />
-        )}
-      </Field>
+      <div className="grid gap-4 sm:grid-cols-2">
+        <Field label="Code" error={errors.code?.message}>
+          {(c) => <Input {...c} autoComplete="off" {...form.register('code')} />}
+        </Field>
+        <Field label="Name" error={errors.name?.message}>
+          {(c) => <Input {...c} autoComplete="off" {...form.register('name')} />}
+        </Field>
+      </div>
+      {kindHasCapacity(item.kind) ? (
+        <Field label={`Capacity (${units.labels.volume})`} error={errors.capacityLiters?.message}>
+          {(c) => (
+            <Input
+              {...c}
+              type="number"
+              step="any"
+              inputMode="decimal"
+              {...form.register('capacityLiters', { setValueAs: (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v)) })}
+            />
+          )}
+        </Field>
+      ) : null}
+      <EquipmentAttributeFields kind={item.kind} form={form} units={units.units} />
       <Field label="Notes" error={errors.notes?.message}>
         {(c) => <Input {...c} {...form.register('notes')} />}
       </Field>

@@ -1,0 +1,28 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { CreateEquipmentInput, Equipment, EquipmentKind } from '../../../../shared/schemas/equipment.ts';
+import { equipmentKeys } from '@/features/equipment/api/get-equipment-list';
+import { api } from '@/lib/api-client';
+
+export const createEquipment = (input: CreateEquipmentInput) => api.post<{ equipment: Equipment }>('/api/equipment', input);
+
+/** Adds an item to the registry (admin); every equipment list and page refetches. */
+export function useCreateEquipment() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: createEquipment,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: equipmentKeys.all }),
+  });
+}
+
+export const getNextEquipmentCode = (kind: EquipmentKind, signal?: AbortSignal) =>
+  api.get<{ kind: EquipmentKind; code: string }>('/api/equipment/next-code', { query: { kind }, ...(signal ? { signal } : {}) });
+
+/** The next free label code for a kind (a hint: the server's unique code is the guarantee). */
+export function useNextEquipmentCode(kind: EquipmentKind, enabled = true) {
+  return useQuery({
+    queryKey: [...equipmentKeys.all, 'next-code', kind] as const,
+    queryFn: ({ signal }) => getNextEquipmentCode(kind, signal),
+    enabled,
+    staleTime: 0,
+  });
+}

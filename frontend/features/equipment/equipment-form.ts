@@ -1,0 +1,159 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { FieldError, FieldErrors, Path, Resolver, UseFormSetError } from 'react-hook-form';
+import type { z } from 'zod';
+import type { Equipment, EquipmentKind } from '../../../shared/schemas/equipment.ts';
+import { ApiProblem, isApiProblem } from '@/lib/api-client';
+import { fromDisplay, toDisplay, type UnitSystem } from '@/lib/units';
+import { applyProblemToForm } from '@/utils/problem-form';
+
+/**
+ * The add and edit forms hold what the person sees and types: numbers in their own units under the API's
+ * field names (`capacityLiters`, `attributes.lineLengthM` …). The resolver converts to the API's units
+ * (litres, metres, millimetres, kilograms, °C) and validates with the shared schema, so its errors land on
+ * the same field names.
+ */
+export interface AttributeFormValues {
+  style?: 'bucket' | 'conical';
+  hasValve?: boolean;
+  serial?: string;
+  lock?: 'ball' | 'pin';
+  position?: string;
+  lineLengthM?: number | null;
+  lineInsideDiameterMm?: number | null;
+  riseM?: number | null;
+  coldRoomTempC?: number | null;
+  sizeKg?: number | null;
+  fillPercent?: number | null;
+  hydroTestDue?: string;
+}
+
+export interface EquipmentFormValues {
+  kind: EquipmentKind;
+  code: string;
+  name: string;
+  capacityLiters: number | null;
+  notes: string;
+  attributes: AttributeFormValues;
+}
+
+type Quantity = keyof typeof toDisplay | 'none';
+
+/** Each kind's attributes with the quantity its number is in (strings and choices are `none`). */
+export const attributeQuantities: Record<EquipmentKind, Partial<Record<keyof AttributeFormValues, Quantity>>> = {
+  fermenter: { style: 'none', hasValve: 'none' },
+  keg: { serial: 'none', lock: 'none' },
+  tap: { position: 'none', lineLengthM: 'length', lineInsideDiameterMm: 'smallLength', riseM: 'length', coldRoomTempC: 'temperature' },
+  co2_cylinder: { sizeKg: 'mass', fillPercent: 'none', hydroTestDue: 'none' },
+};
+
+/** Fermenters and kegs have a volume; taps and cylinders do not. */
+export const kindHasCapacity = (kind: EquipmentKind) => kind === 'fermenter' || kind === 'keg';
+
+export const defaultAttributes: Record<EquipmentKind, AttributeFormValues> = {
+  fermenter: { style: 'bucket', hasValve: false },
+  keg: { serial: '', lock: 'ball' },
+  tap: { position: '', lineLengthM: null, lineInsideDiameterMm: null, riseM: null, coldRoomTempC: null },
+  co2_cylinder: { sizeKg: null, fillPercent: 100, hydroTestDue: '' },
+};
+
+const rounded = (value: number) => Number(value.toFixed(3));
+
+/** An API number → the number shown in the form (rounded to three places). */
+function shown(value: unknown, quantity: Quantity, units: UnitSystem): unknown {
+  if (typeof value !== 'number' || quantity === 'none') return value;
+  return rounded(toDisplay[quantity](value, units));
+}
+
+/** A typed number → the API's unit; an untouched value keeps the stored number exactly (no drift through ft or gal). */
+function stored(value: unknown, quantity: Quantity, units: UnitSystem, initial: unknown): unknown {
+  if (value === null || value === '' || value === undefined) return undefined;
+  if (typeof value !== 'number' || quantity === 'none') return value;
+  if (typeof initial === 'number' && shown(initial, quantity, units) === value) return initial;
+  return fromDisplay[quantity](value, units);
+}
+
+/** An item as the edit form starts: in the person's units, every attribute of its kind present. */
+export function formValuesOf(item: Equipment, units: UnitSystem): EquipmentFormValues {
+  const attributes: AttributeFormValues = { ...defaultAttributes[item.kind] };
+  for (const [key, quantity] of Object.entries(attributeQuantities[item.kind])) {
+    const value = item.attributes[key];
+    if (value !== undefined) (attributes as Record<string, unknown>)[key] = shown(value, quantity, units);
+  }
+  return {
+    kind: item.kind,
+    code: item.code,
+    name: item.name,
+    capacityLiters: item.capacityLiters === null ? null : rounded(toDisplay.volume(item.capacityLiters, units)),
+    notes: item.notes,
+    attributes,
+  };
+}
+
+/** The form's values as the API takes them: only the kind's own attributes, in API units. */
+export function toApiValues(values: EquipmentFormValues, units: UnitSystem, initial?: Equipment) {
+  const attributes: Record<string, unknown> = {};
+  for (const [key, quantity] of Object.entries(attributeQuantities[values.kind])) {
+    const value = stored((values.attributes as Record<string, unknown>)[key], quantity, units, initial?.attributes[key]);
+    if (value !== undefined) attributes[key] = value;
+  }
+  const capacity = kindHasCapacity(values.kind) ? stored(values.capacityLiters, 'volume', units, initial?.capacityLiters) : undefined;
+  return {
+    kind: values.kind,
+    code: values.code,
+    name: values.name,
+    ...(capacity !== undefined ? { capacityLiters: capacity } : {}),
+    notes: values.notes,
+    attributes,
+  };
+}
+
+/** Every field name the forms show, for placing errors. */
+export const equipmentFieldNames = ['kind', 'code', 'name', 'capacityLiters', 'notes', 'attributes'] as const satisfies readonly Path<EquipmentFormValues>[];
+const attributeFieldNames = [...new Set(Object.values(attributeQuantities).flatMap((q) => Object.keys(q)))];
+
+/** An empty required number reads "Enter a number" rather than the schema's type message. */
+function friendlier(errors: FieldErrors<EquipmentFormValues>, values: EquipmentFormValues): FieldErrors<EquipmentFormValues> {
+  const empty = (v: unknown) => v === null || v === undefined || v === '';
+  const fix = (error: FieldError | undefined, value: unknown) => {
+    if (error && error.type === 'invalid_type' && empty(value)) error.message = 'Enter a number';
+  };
+  fix(errors.capacityLiters as FieldError | undefined, values.capacityLiters);
+  const attributeErrors = errors.attributes as Record<string, FieldError> | undefined;
+  if (attributeErrors) for (const key of Object.keys(attributeErrors)) fix(attributeErrors[key], (values.attributes as Record<string, unknown>)[key]);
+  return errors;
+}
+
+/**
+ * react-hook-form resolver over a shared schema: converts the form to API values, lets the schema parse them
+ * (`TOutput` is what `handleSubmit` hands on, ready to send).
+ */
+export function equipmentResolver<TOutput>(schema: z.ZodType<TOutput>, units: UnitSystem, initial?: Equipment): Resolver<EquipmentFormValues, unknown, TOutput> {
+  const inner = zodResolver(schema as never) as unknown as Resolver<Record<string, unknown>, unknown, TOutput>;
+  return async (values, context, options) => {
+    const result = await inner(toApiValues(values, units, initial), context, options as never);
+    if (Object.keys(result.errors).length) return { values: {}, errors: friendlier(result.errors as FieldErrors<EquipmentFormValues>, values) };
+    return result as Awaited<ReturnType<Resolver<EquipmentFormValues, unknown, TOutput>>>;
+  };
+}
+
+/**
+ * Places an API problem next to the form's fields: `attributes.x` on its own field, a taken code on Code,
+ * the rest through `applyProblemToForm`. Returns what belongs at the top of the form.
+ */
+export function applyEquipmentProblem(error: unknown, setError: UseFormSetError<EquipmentFormValues>): string[] {
+  if (!isApiProblem(error)) return applyProblemToForm(error, setError, equipmentFieldNames);
+  if (error.status === 409 && error.errors.length === 0 && /code/i.test(error.detail ?? '')) {
+    setError('code', { type: 'server', message: error.detail ?? 'This code is taken' });
+    return [];
+  }
+  const rest = error.errors.filter((item) => {
+    const path = item.path.replace(/^#?\//, '').replace(/\//g, '.').replace(/^body\./, '');
+    const [head, key] = path.split('.');
+    if (head !== 'attributes' || !key || !attributeFieldNames.includes(key)) return true;
+    setError(`attributes.${key}` as Path<EquipmentFormValues>, { type: 'server', message: item.message });
+    return false;
+  });
+  if (error.errors.length > 0 && rest.length === 0) return [];
+  const remaining = new ApiProblem({ status: error.status, title: error.title, type: error.type, errors: rest, ...(error.detail !== undefined ? { detail: error.detail } : {}) });
+  return applyProblemToForm(remaining, setError, equipmentFieldNames);
+}
