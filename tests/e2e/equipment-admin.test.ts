@@ -67,6 +67,8 @@ describe('the admin keeps the equipment registry', { timeout: 120_000 }, () => {
     // The list refreshed: the new fermenter is a row of the Cellar.
     await page.getByRole('searchbox', { name: 'Search' }).fill('F-13');
     const row = page.getByRole('row').filter({ hasText: 'F-13' });
+    await page.waitForURL((u) => u.searchParams.get('q') === 'F-13');
+    await expect.poll(() => page.getByRole('row').count()).toBe(2); // the header and F-13
     await row.getByText('60 L conical fermenter 13').waitFor();
     await screenshot(page, 'equipment-admin-cellar-list');
 
@@ -92,7 +94,10 @@ describe('the admin keeps the equipment registry', { timeout: 120_000 }, () => {
       .toEqual({ style: 'conical', hasValve: false });
     const after = (await api.get(`/api/equipment/${created.id}`)).body.equipment;
     expect(after).toMatchObject({ code: 'F-13', capacityLiters: 60, name: '60 L conical fermenter 13' });
-    await page.getByText('Bottom valve').first().waitFor();
+    // The page's details show the change.
+    const details = page.locator('section').filter({ has: page.getByRole('heading', { name: 'Details' }) });
+    await details.getByText('Conical').waitFor();
+    await expect.poll(() => details.locator('dt:has-text("Bottom valve") + dd').textContent()).toBe('No');
     await screenshot(page, 'equipment-admin-item-edited');
     await context.close();
   });
@@ -133,12 +138,17 @@ describe('the admin keeps the equipment registry', { timeout: 120_000 }, () => {
       await page.getByRole('button', { name: 'Edit details' }).click();
       const edit = page.getByRole('dialog', { name: 'Edit T-9' });
       expect(await edit.getByLabel('Line length (ft)').inputValue()).toBe('10');
+      expect(await edit.getByLabel('Line inside diameter (in)').inputValue()).toBe('0.1875');
       await edit.getByLabel('Name').fill('Tap 9, pale ale');
       await edit.getByRole('button', { name: 'Save' }).click();
       await edit.waitFor({ state: 'hidden' });
       const saved = await ctx.db.selectFrom('equipment').selectAll().where('id', '=', tap.id).executeTakeFirstOrThrow();
       expect(saved.name).toBe('Tap 9, pale ale');
       expect(saved.attributes).toEqual(tap.attributes);
+      // The item page shows the line in feet.
+      const details = page.locator('section').filter({ has: page.getByRole('heading', { name: 'Details' }) });
+      await expect.poll(() => details.locator('dt:has-text("Line length") + dd').textContent()).toBe('10 ft');
+      await screenshot(page, 'equipment-admin-tap-us-page');
       await context.close();
     } finally {
       await ctx.db.updateTable('app_user').set({ units: 'metric' }).where('email', '=', 'admin@example.org').execute();

@@ -3,7 +3,7 @@ import type { FieldError, FieldErrors, Path, Resolver, UseFormSetError } from 'r
 import type { z } from 'zod';
 import type { Equipment, EquipmentKind } from '../../../shared/schemas/equipment.ts';
 import { ApiProblem, isApiProblem } from '@/lib/api-client';
-import { fromDisplay, toDisplay, type UnitSystem } from '@/lib/units';
+import { fromDisplay, toDisplay, unitLabels, type UnitSystem } from '@/lib/units';
 import { applyProblemToForm } from '@/utils/problem-form';
 
 /**
@@ -56,9 +56,9 @@ export const defaultAttributes: Record<EquipmentKind, AttributeFormValues> = {
   co2_cylinder: { sizeKg: null, fillPercent: 100, hydroTestDue: '' },
 };
 
-const rounded = (value: number) => Number(value.toFixed(3));
+const rounded = (value: number) => Number(value.toFixed(4));
 
-/** An API number → the number shown in the form (rounded to three places). */
+/** An API number → the number shown in the form (rounded to four places). */
 function shown(value: unknown, quantity: Quantity, units: UnitSystem): unknown {
   if (typeof value !== 'number' || quantity === 'none') return value;
   return rounded(toDisplay[quantity](value, units));
@@ -156,4 +156,18 @@ export function applyEquipmentProblem(error: unknown, setError: UseFormSetError<
   if (error.errors.length > 0 && rest.length === 0) return [];
   const remaining = new ApiProblem({ status: error.status, title: error.title, type: error.type, errors: rest, ...(error.detail !== undefined ? { detail: error.detail } : {}) });
   return applyProblemToForm(remaining, setError, equipmentFieldNames);
+}
+
+const choiceLabels: Record<string, string> = { bucket: 'Bucket', conical: 'Conical', ball: 'Ball lock', pin: 'Pin lock' };
+
+/** One stored attribute as the item page shows it, in the person's units. */
+export function formatAttribute(kind: EquipmentKind, key: string, value: unknown, units: UnitSystem): string {
+  const quantity = (attributeQuantities[kind] as Record<string, Quantity | undefined>)[key];
+  if (typeof value === 'boolean') return value ? 'Yes' : 'No';
+  if (typeof value === 'number' && quantity && quantity !== 'none') {
+    return `${new Intl.NumberFormat(undefined, { maximumFractionDigits: quantity === 'smallLength' && units === 'us' ? 4 : 2 }).format(rounded(toDisplay[quantity](value, units)))} ${unitLabels[units][quantity]}`;
+  }
+  if (key === 'fillPercent' && typeof value === 'number') return `${value} %`;
+  if (typeof value === 'string') return choiceLabels[value] ?? value;
+  return String(value);
 }

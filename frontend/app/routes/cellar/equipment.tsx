@@ -11,6 +11,7 @@ import { labelSheetHref } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentEditDialog } from '@/features/equipment/components/equipment-edit-dialog';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { StateChangeDialog } from '@/features/equipment/components/state-change-dialog';
+import { formatAttribute } from '@/features/equipment/equipment-form';
 import { VesselCellarActions } from '@/features/cellar-ops/components/vessel-actions';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
@@ -19,17 +20,17 @@ import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 const attributeLabels: Record<string, string> = {
-  style: 'Type',
+  style: 'Shape',
   hasValve: 'Bottom valve',
   serial: 'Serial',
   lock: 'Lock',
   position: 'Position',
-  lineLengthM: 'Line length (m)',
-  lineInsideDiameterMm: 'Line inside diameter (mm)',
-  riseM: 'Rise to faucet (m)',
-  coldRoomTempC: 'Cold room (°C)',
-  sizeKg: 'Size (kg CO2)',
-  fillPercent: 'Fill (%)',
+  lineLengthM: 'Line length',
+  lineInsideDiameterMm: 'Line inside diameter',
+  riseM: 'Rise to faucet',
+  coldRoomTempC: 'Cold room',
+  sizeKg: 'Size (CO2)',
+  fillPercent: 'Fill',
   hydroTestDue: 'Hydrostatic test due',
 };
 
@@ -105,7 +106,7 @@ const EquipmentRoute = () => {
             {Object.entries(item.attributes).map(([key, value]) => (
               <div key={key} className="contents">
                 <dt className="text-ink-muted">{attributeLabels[key] ?? key}</dt>
-                <dd>{typeof value === 'boolean' ? (value ? 'Yes' : 'No') : String(value)}</dd>
+                <dd>{formatAttribute(item.kind, key, value, units.units)}</dd>
               </div>
             ))}
             <dt className="text-ink-muted">Notes</dt>
