@@ -2,13 +2,13 @@ import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { woffToTrueType } from '../invoice-font.ts';
+import { woffToTrueType } from '../pdf-font.ts';
 
 const require = createRequire(import.meta.url);
 const fontkit = require('fontkit') as { create(buffer: Buffer): { numGlyphs: number; familyName: string; layout(text: string): { glyphs: { id: number }[] } } };
 const woffFile = path.resolve('node_modules/@fontsource/roboto-flex/files/roboto-flex-latin-400-normal.woff');
 
-describe('the invoice font, unpacked from WOFF to TrueType', () => {
+describe('the PDF font, unpacked from WOFF to TrueType', () => {
   it('is the same font: same family, same glyphs for the text of an invoice', () => {
     const woff = fs.readFileSync(woffFile);
     const ttf = woffToTrueType(woff);

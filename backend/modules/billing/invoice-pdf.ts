@@ -1,38 +1,8 @@
-import { createRequire } from 'node:module';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces';
 import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney, formatRate } from '../../../shared/billing/money.ts';
 import type { BillingProfile, CreditNote, InvoiceDetail } from '../../../shared/schemas/billing.ts';
-import { trueTypeFromWoffFile } from './invoice-font.ts';
-
-const require = createRequire(import.meta.url);
-// pdfmake 0.3's server build is one shared instance; it embeds WOFF/TTF fonts (not WOFF2).
-const pdfmake = require('pdfmake') as {
-  virtualfs: { writeFileSync(name: string, data: Buffer): void; existsSync(name: string): boolean };
-  setFonts(fonts: Record<string, Record<string, string>>): void;
-  setUrlAccessPolicy(cb: (url: string) => boolean): void;
-  setLocalAccessPolicy(cb: (path: string) => boolean): void;
-  createPdf(doc: TDocumentDefinitions): { getBuffer(): Promise<Buffer> };
-};
-
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
-const fontDir = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files');
-const font = path.join(fontDir, 'roboto-flex-latin-400-normal.woff');
-const virtualFont = 'billing-roboto-flex-latin-400.ttf';
-
-/**
- * pdfmake is one instance shared with the other PDFs of the app, so its fonts and policies are set
- * again before each document (cheap), whatever another module set last.
- */
-function configure() {
-  if (!pdfmake.virtualfs.existsSync(virtualFont)) pdfmake.virtualfs.writeFileSync(virtualFont, trueTypeFromWoffFile(font));
-  pdfmake.setFonts({ RobotoFlex: { normal: virtualFont, bold: virtualFont, italics: virtualFont, bolditalics: virtualFont } });
-  // An invoice never fetches anything, and reads only the font files.
-  pdfmake.setUrlAccessPolicy(() => false);
-  pdfmake.setLocalAccessPolicy((p) => path.resolve(p).startsWith(fontDir));
-}
+import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 
 const ink = '#1d1b18';
 const muted = '#5c564d';
@@ -168,7 +138,7 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
     info: { title: `Invoice ${inv.number ?? 'draft'} — ${profile.coopName}`, author: profile.coopName, subject: `Invoice for ${periodLabel(inv.period)}` },
     pageSize: 'A4',
     pageMargins: [48, 48, 48, 56],
-    defaultStyle: { font: 'RobotoFlex', fontSize: 10, color: ink, lineHeight: 1.15 },
+    defaultStyle: { font: pdfFont, fontSize: 10, color: ink, lineHeight: 1.15 },
     ...(mark ? { watermark: { text: mark.split(' — ')[0]!, color: inv.status === 'paid' ? '#4b5a26' : '#8a8277', opacity: 0.12, fontSize: 80 } } : {}),
     footer: (page: number, pages: number): Content => ({
       columns: [
@@ -230,8 +200,7 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
 }
 
 export async function renderInvoicePdf(input: InvoicePdfInput): Promise<Buffer> {
-  configure();
-  return pdfmake.createPdf(invoiceDocument(input)).getBuffer();
+  return renderPdf(invoiceDocument(input));
 }
 
 export function invoicePdfFilename(inv: Pick<InvoiceDetail, 'number' | 'period' | 'id'>): string {
@@ -270,7 +239,7 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
     info: { title: `Credit note ${note.number} — ${profile.coopName}`, author: profile.coopName },
     pageSize: 'A4',
     pageMargins: [48, 48, 48, 56],
-    defaultStyle: { font: 'RobotoFlex', fontSize: 10, color: ink, lineHeight: 1.15 },
+    defaultStyle: { font: pdfFont, fontSize: 10, color: ink, lineHeight: 1.15 },
     footer: (page: number, pages: number): Content => ({
       columns: [
         { text: `${profile.coopName} · ${profile.email}`, color: muted, fontSize: 8 },
@@ -346,6 +315,5 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
 }
 
 export async function renderCreditNotePdf(input: CreditNotePdfInput): Promise<Buffer> {
-  configure();
-  return pdfmake.createPdf(creditNoteDocument(input)).getBuffer();
+  return renderPdf(creditNoteDocument(input));
 }

@@ -1,25 +1,7 @@
-import { createRequire } from 'node:module';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import QRCode from 'qrcode';
 import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
+import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 import { equipmentKindLabels, type Equipment } from '../../../shared/schemas/equipment.ts';
-
-const require = createRequire(import.meta.url);
-// pdfmake 0.3's server build: one shared instance; it embeds TTF/WOFF fonts (not WOFF2).
-const pdfmake = require('pdfmake') as {
-  setFonts(fonts: Record<string, Record<string, string>>): void;
-  setUrlAccessPolicy(cb: (url: string) => boolean): void;
-  setLocalAccessPolicy(cb: (file: string) => boolean): void;
-  createPdf(doc: TDocumentDefinitions): { getBuffer(): Promise<Buffer> };
-};
-
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
-const font = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files', 'roboto-flex-latin-400-normal.woff');
-pdfmake.setFonts({ RobotoFlex: { normal: font, bold: font, italics: font, bolditalics: font } });
-// Labels never fetch anything: every image is a data URL made here.
-pdfmake.setUrlAccessPolicy(() => false);
-pdfmake.setLocalAccessPolicy((file) => path.resolve(file) === font);
 
 /** The sheet: A4 portrait, 3 × 8 labels of 70 × 37 mm, edge to edge (a common adhesive label sheet). */
 export const labelSheet = { columns: 3, rows: 8, labelWidthMm: 70, labelHeightMm: 37, pageWidthMm: 210, pageHeightMm: 297 } as const;
@@ -99,8 +81,8 @@ export async function renderLabelSheet(items: Equipment[], publicUrl: string): P
     pageOrientation: 'portrait',
     pageMargins: [0, topMargin, 0, 0],
     info: { title: 'Cellarwright equipment labels', author: 'Larkspur Yard Brewing Co-op', creator: 'Cellarwright' },
-    defaultStyle: { font: 'RobotoFlex', fontSize: 8, lineHeight: 1.05 },
+    defaultStyle: { font: pdfFont, fontSize: 8, lineHeight: 1.05 },
     content: pages,
   };
-  return pdfmake.createPdf(doc).getBuffer();
+  return renderPdf(doc);
 }

@@ -1,13 +1,10 @@
-import { createRequire } from 'node:module';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { sql } from 'kysely';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces';
 import { alcoholCaution, chemicalCautions, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
 import { sanitationStepLabels, type SanitationSettings, type SanitationStep } from '../../../shared/schemas/cellar-settings.ts';
 import type { Database } from '../../db/database.ts';
 import { renderPdfOffThread } from '../../lib/pdf-render.ts';
-import { ttfFromWoffFile } from './pdf-font.ts';
+import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 
 /**
  * The sanitation audit: for a period and a set of vessels, every cycle with its steps, every
@@ -16,29 +13,6 @@ import { ttfFromWoffFile } from './pdf-font.ts';
  * × steps, one union of fill and emptying events with their neighbouring cycles); exceptions are
  * worked out in one pass per vessel.
  */
-
-const require = createRequire(import.meta.url);
-// pdfmake 0.3's server build is one shared instance: set the same fonts and policies as the other PDFs.
-const pdfmake = require('pdfmake') as {
-  virtualfs: { writeFileSync(name: string, data: Buffer): void; existsSync(name: string): boolean };
-  setFonts(fonts: Record<string, Record<string, string>>): void;
-  setUrlAccessPolicy(cb: (url: string) => boolean): void;
-  setLocalAccessPolicy(cb: (path: string) => boolean): void;
-  createPdf(doc: TDocumentDefinitions): { getBuffer(): Promise<Buffer> };
-};
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
-const fontDir = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files');
-const font = path.join(fontDir, 'roboto-flex-latin-400-normal.woff');
-
-const virtualFont = 'cellarwright-roboto-flex-latin-400.ttf';
-
-function preparePdfmake() {
-  // The same font as the other PDFs, handed over unpacked (see pdf-font.ts).
-  if (!pdfmake.virtualfs.existsSync(virtualFont)) pdfmake.virtualfs.writeFileSync(virtualFont, ttfFromWoffFile(font));
-  pdfmake.setFonts({ RobotoFlex: { normal: virtualFont, bold: virtualFont, italics: virtualFont, bolditalics: virtualFont } });
-  pdfmake.setUrlAccessPolicy(() => false);
-  pdfmake.setLocalAccessPolicy((p) => path.resolve(p).startsWith(fontDir));
-}
 
 export const coopName = 'Larkspur Yard Brewing Co-op';
 
@@ -539,7 +513,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
     pageSize: 'A4',
     pageMargins: [36, 40, 36, 40],
     info: { title: `Sanitation audit ${period}`, author: coopName, creator: 'Cellarwright' },
-    defaultStyle: { font: 'RobotoFlex', fontSize: 8, color: ink, lineHeight: 1.1 },
+    defaultStyle: { font: pdfFont, fontSize: 8, color: ink, lineHeight: 1.1 },
     header: (page) =>
       page === 1
         ? { text: '' }
@@ -556,8 +530,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
 }
 
 export async function renderAuditPdf(data: AuditData, vesselSetLabel: string): Promise<Buffer> {
-  preparePdfmake();
-  return pdfmake.createPdf(auditDocument(data, vesselSetLabel)).getBuffer();
+  return renderPdf(auditDocument(data, vesselSetLabel));
 }
 
 /**
