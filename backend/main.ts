@@ -2,6 +2,7 @@
 import { createApp } from './app.ts';
 import { loadConfig } from './config/env.ts';
 import { createDb } from './db/database.ts';
+import { pdfRenderPool } from './lib/pdf-render.ts';
 import { createQueue } from './lib/queue.ts';
 import { startWorkers } from './workers.ts';
 
@@ -20,6 +21,7 @@ async function shutdown() {
   if (closing) return;
   closing = true;
   server.close();
+  await pdfRenderPool.close();
   await queue.stop({ graceful: true, timeout: 5000 }).catch(() => undefined);
   await db.destroy();
   process.exit(0);
