@@ -66,7 +66,8 @@ function shown(value: unknown, quantity: Quantity, units: UnitSystem): unknown {
 
 /** A typed number → the API's unit; an untouched value keeps the stored number exactly (no drift through ft or gal). */
 function stored(value: unknown, quantity: Quantity, units: UnitSystem, initial: unknown): unknown {
-  if (value === null || value === '' || value === undefined) return undefined;
+  // An empty number box is "not given"; an empty text box stays '' so the schema says what it wants.
+  if (value === null || value === undefined || (value === '' && quantity !== 'none')) return undefined;
   if (typeof value !== 'number' || quantity === 'none') return value;
   if (typeof initial === 'number' && shown(initial, quantity, units) === value) return initial;
   return fromDisplay[quantity](value, units);
@@ -113,7 +114,7 @@ const attributeFieldNames = [...new Set(Object.values(attributeQuantities).flatM
 
 /** An empty required number reads "Enter a number" rather than the schema's type message. */
 function friendlier(errors: FieldErrors<EquipmentFormValues>, values: EquipmentFormValues): FieldErrors<EquipmentFormValues> {
-  const empty = (v: unknown) => v === null || v === undefined || v === '';
+  const empty = (v: unknown) => v === null || v === undefined;
   const fix = (error: FieldError | undefined, value: unknown) => {
     if (error && error.type === 'invalid_type' && empty(value)) error.message = 'Enter a number';
   };

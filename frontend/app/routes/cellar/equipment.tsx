@@ -11,7 +11,7 @@ import { labelSheetHref } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentEditDialog } from '@/features/equipment/components/equipment-edit-dialog';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { StateChangeDialog } from '@/features/equipment/components/state-change-dialog';
-import { formatAttribute } from '@/features/equipment/equipment-form';
+import { attributeQuantities, formatAttribute } from '@/features/equipment/equipment-form';
 import { VesselCellarActions } from '@/features/cellar-ops/components/vessel-actions';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
@@ -32,6 +32,13 @@ const attributeLabels: Record<string, string> = {
   sizeKg: 'Size (CO2)',
   fillPercent: 'Fill',
   hydroTestDue: 'Hydrostatic test due',
+};
+
+/** An item's attributes in the order its form asks for them (the database keeps its own key order). */
+const attributeEntries = (item: Equipment) => {
+  const order = Object.keys(attributeQuantities[item.kind]);
+  const rank = (key: string) => (order.includes(key) ? order.indexOf(key) : order.length);
+  return Object.entries(item.attributes).sort(([a], [b]) => rank(a) - rank(b));
 };
 
 const cautionFor = (item: Equipment): string | null => {
@@ -103,7 +110,7 @@ const EquipmentRoute = () => {
         <section className="rounded-lg border border-line bg-surface p-4">
           <h2 className="text-base">Details</h2>
           <dl className="mt-3 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1.5 text-sm">
-            {Object.entries(item.attributes).map(([key, value]) => (
+            {attributeEntries(item).map(([key, value]) => (
               <div key={key} className="contents">
                 <dt className="text-ink-muted">{attributeLabels[key] ?? key}</dt>
                 <dd>{formatAttribute(item.kind, key, value, units.units)}</dd>
