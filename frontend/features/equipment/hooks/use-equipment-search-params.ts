@@ -1,7 +1,7 @@
 import { useCallback, useMemo } from 'react';
-import { useSearchParams } from 'react-router-dom';
 import { equipmentListQuerySchema, type EquipmentListQuery } from '../../../../shared/schemas/equipment.ts';
 import { defaultPageSize } from '../../../../shared/schemas/pagination.ts';
+import { useSearchParamsState } from '@/hooks/use-search-params-state';
 
 const defaults = equipmentListQuerySchema.parse({});
 
@@ -33,12 +33,13 @@ export function equipmentListQueryToParams(query: EquipmentListQuery): URLSearch
 export type EquipmentListQueryPatch = { [K in keyof EquipmentListQuery]?: EquipmentListQuery[K] | undefined };
 
 export function useEquipmentSearchParams() {
-  const [searchParams, setSearchParams] = useSearchParams();
+  // Updates start from the URL as it is now, so two quick filter changes never undo each other.
+  const [searchParams, updateSearchParams] = useSearchParamsState();
   const query = useMemo(() => parseEquipmentListQuery(searchParams), [searchParams]);
   /** Merge a change in; anything but paging goes back to page 1. */
   const setQuery = useCallback(
     (patch: EquipmentListQueryPatch, options: { replace?: boolean } = {}) => {
-      setSearchParams(
+      updateSearchParams(
         (previous) => {
           const current = parseEquipmentListQuery(previous);
           const next = { ...current, ...patch, page: patch.page ?? 1 } as EquipmentListQuery;
@@ -48,7 +49,7 @@ export function useEquipmentSearchParams() {
         { replace: options.replace ?? false },
       );
     },
-    [setSearchParams],
+    [updateSearchParams],
   );
   return { query, setQuery };
 }
