@@ -35,7 +35,6 @@ export function ensureDebian(packages, probeFile) {
   const sudo = isRoot ? [] : ['sudo', '-n'];
   log(`installing ${packages.join(', ')} from Debian's packages…`);
   const exec = (args) => (sudo.length ? run(sudo[0], [...sudo.slice(1), ...args]) : run(args[0], args.slice(1)));
-  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   process.env.DEBIAN_FRONTEND = 'noninteractive';
   try {
     if (!aptUpdated) {
@@ -46,7 +45,6 @@ export function ensureDebian(packages, probeFile) {
   } catch (err) {
     throw new Error(`could not install ${packages.join(' ')} (${err.message}); install them by hand, as root: apt-get install ${packages.join(' ')}`);
   }
-  void env;
 }
 
 export function pgBinDir() {
