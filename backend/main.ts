@@ -3,6 +3,7 @@ import { createApp } from './app.ts';
 import { loadConfig } from './config/env.ts';
 import { createDb } from './db/database.ts';
 import { pdfRenderPool } from './lib/pdf-render.ts';
+import { warmAuditRenderer } from './modules/sanitation/audit-report.ts';
 import { createQueue } from './lib/queue.ts';
 import { startWorkers } from './workers.ts';
 
@@ -14,6 +15,8 @@ if (config.WORKERS) await startWorkers(deps);
 const app = createApp(deps);
 const server = app.listen(config.PORT, config.HOST, () => {
   console.log(`Cellarwright API and app on http://${config.HOST}:${config.PORT}`);
+  // Start the PDF render thread now rather than on the first audit report.
+  warmAuditRenderer().catch((err: Error) => console.error('PDF render thread did not start:', err.message));
 });
 
 let closing = false;

@@ -193,3 +193,13 @@ describe('failures on a render thread', () => {
     expect(pdfText(good)).toContain('every keg');
   });
 });
+
+describe('warming the render thread at start', () => {
+  it('lays out a small PDF in the thread, so the first audit does not pay the start-up', async () => {
+    const { warmAuditRenderer } = await import('../../backend/modules/sanitation/audit-report.ts');
+    const pdf = await warmAuditRenderer();
+    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    const text = execFileSync('pdftotext', ['-', '-'], { input: pdf }).toString();
+    expect(text).toContain('Larkspur Yard Brewing Co-op');
+  });
+});

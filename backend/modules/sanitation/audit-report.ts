@@ -538,6 +538,16 @@ export async function renderAuditPdf(data: AuditData, vesselSetLabel: string): P
  * not hold up the app instance's other requests. The data is plain (Dates and strings); the thread
  * builds the document definition, header and footer callbacks included, with auditDocument above.
  */
+/** A one-line PDF, laid out in the render thread so that module, pdfmake and the font are loaded there. */
+export function renderWarmUpPdf(): Promise<Buffer> {
+  return renderPdf({ content: [{ text: coopName }], defaultStyle: { font: pdfFont } });
+}
+
+/** Starts the render thread ahead of the first audit (about 2 s of start-up otherwise paid by that request). */
+export function warmAuditRenderer(): Promise<Buffer> {
+  return renderPdfOffThread({ module: new URL(import.meta.url), exportName: 'renderWarmUpPdf', args: [] });
+}
+
 export function renderAuditPdfOffThread(data: AuditData, vesselSetLabel: string): Promise<Buffer> {
   return renderPdfOffThread({ module: new URL(import.meta.url), exportName: 'renderAuditPdf', args: [data, vesselSetLabel] });
 }
