@@ -1,7 +1,7 @@
 import { sql } from 'kysely';
 import { addDays, dateSpan, daysBetween, maxDate, minDate, shortDate } from '../../../../shared/billing/dates.ts';
 import { priceItemInfo } from '../../../../shared/schemas/billing.ts';
-import type { ChargeContext, ChargeDraft, ChargeSource, SourceResult } from './types.ts';
+import { pricedCharge, type ChargeContext, type ChargeDraft, type ChargeSource, type SourceResult } from './types.ts';
 
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
 
@@ -78,21 +78,19 @@ function fermenterDays(ctx: ChargeContext, r: BookingFacts, start: string, end: 
   for (const s of segments) {
     const days = daysBetween(s.from, s.to);
     const note = split ? ` (booking ${dateSpan(start, end)}, split at month end)` : '';
-    charges.push({
-      memberId: r.owner_id,
-      item: 'fermenter_day',
-      description: `${priceItemInfo.fermenter_day.label}, fermenter up to ${band} L`,
-      sourceType: 'booking',
-      sourceId: r.id,
-      sourceLabel: `${r.code}, ${dateSpan(s.from, s.to)}, ${plural(days, 'day')}${note}`,
-      serviceFrom: s.from,
-      serviceTo: addDays(s.to, -1),
-      quantity: days,
-      unit: 'day',
-      unitPriceCents: s.price.unitCents,
-      priceId: s.price.id,
-      taxable: true,
-    });
+    charges.push(
+      pricedCharge('fermenter_day', s.price, {
+        memberId: r.owner_id,
+        description: `${priceItemInfo.fermenter_day.label}, fermenter up to ${band} L`,
+        sourceType: 'booking',
+        sourceId: r.id,
+        sourceLabel: `${r.code}, ${dateSpan(s.from, s.to)}, ${plural(days, 'day')}${note}`,
+        serviceFrom: s.from,
+        serviceTo: addDays(s.to, -1),
+        quantity: days,
+        unit: 'day',
+      }),
+    );
   }
 }
 
@@ -117,20 +115,17 @@ function tapWeeks(ctx: ChargeContext, r: BookingFacts, start: string, end: strin
     const firstStart = g.starts[0]!;
     const lastEnd = minDate(addDays(g.starts.at(-1)!, 7), end);
     const ofTotal = n === totalWeeks ? '' : ` of ${totalWeeks} (booking ${dateSpan(start, end)})`;
-    charges.push({
-      memberId: r.owner_id,
-      item: 'tap_week',
-      description: priceItemInfo.tap_week.label,
-      sourceType: 'booking',
-      sourceId: r.id,
-      sourceLabel: `${r.code}, ${dateSpan(firstStart, lastEnd)}, ${plural(n, 'week')}${ofTotal}`,
-      serviceFrom: firstStart,
-      serviceTo: addDays(lastEnd, -1),
-      quantity: n,
-      unit: 'week',
-      unitPriceCents: g.unitCents,
-      priceId: g.priceId,
-      taxable: true,
-    });
+    charges.push(
+      pricedCharge('tap_week', { id: g.priceId, unitCents: g.unitCents }, {
+        memberId: r.owner_id,
+        sourceType: 'booking',
+        sourceId: r.id,
+        sourceLabel: `${r.code}, ${dateSpan(firstStart, lastEnd)}, ${plural(n, 'week')}${ofTotal}`,
+        serviceFrom: firstStart,
+        serviceTo: addDays(lastEnd, -1),
+        quantity: n,
+        unit: 'week',
+      }),
+    );
   }
 }

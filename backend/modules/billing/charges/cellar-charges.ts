@@ -2,7 +2,7 @@ import { sql } from 'kysely';
 import { addDays, dateSpan, daysBetween, maxDate, minDate, shortDate } from '../../../../shared/billing/dates.ts';
 import { priceItemInfo } from '../../../../shared/schemas/billing.ts';
 import type { Database } from '../../../db/database.ts';
-import type { ChargeContext, ChargeDraft, ChargeSource, SourceResult } from './types.ts';
+import { pricedCharge, type ChargeContext, type ChargeDraft, type ChargeSource, type SourceResult } from './types.ts';
 
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
 const noMember = '00000000-0000-0000-0000-000000000000';
@@ -75,21 +75,18 @@ export const kegHoldCharges: ChargeSource = {
         const from = g.starts[0]!;
         const to = minDate(addDays(g.starts.at(-1)!, 7), end);
         const span = h.back_date ? `out ${dateSpan(h.out_date, h.back_date)}` : `out since ${shortDate(h.out_date)}`;
-        charges.push({
-          memberId: h.member_id,
-          item: 'keg_week',
-          description: priceItemInfo.keg_week.label,
-          sourceType: 'keg_checkout',
-          sourceId: h.id,
-          sourceLabel: `${h.code}, ${span}, ${plural(g.starts.length, 'week')} from ${shortDate(from)}`,
-          serviceFrom: from,
-          serviceTo: addDays(to, -1),
-          quantity: g.starts.length,
-          unit: 'week',
-          unitPriceCents: g.unitCents,
-          priceId: g.priceId,
-          taxable: true,
-        });
+        charges.push(
+          pricedCharge('keg_week', { id: g.priceId, unitCents: g.unitCents }, {
+            memberId: h.member_id,
+            sourceType: 'keg_checkout',
+            sourceId: h.id,
+            sourceLabel: `${h.code}, ${span}, ${plural(g.starts.length, 'week')} from ${shortDate(from)}`,
+            serviceFrom: from,
+            serviceTo: addDays(to, -1),
+            quantity: g.starts.length,
+            unit: 'week',
+          }),
+        );
       }
     }
     return { charges, problems };
@@ -120,21 +117,18 @@ export const lateKegCharges: ChargeSource = {
       const status = h.back_date ? `returned ${shortDate(h.back_date)}` : 'not yet returned';
       for (const s of segments) {
         const days = daysBetween(s.from, s.to);
-        charges.push({
-          memberId: h.member_id,
-          item: 'late_keg_day',
-          description: priceItemInfo.late_keg_day.label,
-          sourceType: 'keg_checkout',
-          sourceId: h.id,
-          sourceLabel: `${h.code}, due ${shortDate(h.due_date)}, ${status}: ${plural(days, 'day')} late (${dateSpan(s.from, addDays(s.to, -1))})`,
-          serviceFrom: s.from,
-          serviceTo: addDays(s.to, -1),
-          quantity: days,
-          unit: 'day',
-          unitPriceCents: s.price.unitCents,
-          priceId: s.price.id,
-          taxable: true,
-        });
+        charges.push(
+          pricedCharge('late_keg_day', s.price, {
+            memberId: h.member_id,
+            sourceType: 'keg_checkout',
+            sourceId: h.id,
+            sourceLabel: `${h.code}, due ${shortDate(h.due_date)}, ${status}: ${plural(days, 'day')} late (${dateSpan(s.from, addDays(s.to, -1))})`,
+            serviceFrom: s.from,
+            serviceTo: addDays(s.to, -1),
+            quantity: days,
+            unit: 'day',
+          }),
+        );
       }
     }
     return { charges, problems };
@@ -184,37 +178,31 @@ export const kegFillCharges: ChargeSource = {
       const grams = Number(r.co2_grams ?? 0);
       if (perKg && grams > 0) {
         const kg = Math.round(grams) / 1000;
-        charges.push({
-          memberId: r.owner_id,
-          item: 'co2_kg',
-          description: priceItemInfo.co2_kg.label,
-          sourceType: 'keg_fill',
-          sourceId: r.id,
-          sourceLabel: `${what}, ${kg} kg`,
-          serviceFrom: r.fill_date,
-          serviceTo: r.fill_date,
-          quantity: kg,
-          unit: 'kg',
-          unitPriceCents: perKg.unitCents,
-          priceId: perKg.id,
-          taxable: true,
-        });
+        charges.push(
+          pricedCharge('co2_kg', perKg, {
+            memberId: r.owner_id,
+            sourceType: 'keg_fill',
+            sourceId: r.id,
+            sourceLabel: `${what}, ${kg} kg`,
+            serviceFrom: r.fill_date,
+            serviceTo: r.fill_date,
+            quantity: kg,
+            unit: 'kg',
+          }),
+        );
       } else if (perFill) {
-        charges.push({
-          memberId: r.owner_id,
-          item: 'co2_fill',
-          description: priceItemInfo.co2_fill.label,
-          sourceType: 'keg_fill',
-          sourceId: r.id,
-          sourceLabel: what,
-          serviceFrom: r.fill_date,
-          serviceTo: r.fill_date,
-          quantity: 1,
-          unit: 'fill',
-          unitPriceCents: perFill.unitCents,
-          priceId: perFill.id,
-          taxable: true,
-        });
+        charges.push(
+          pricedCharge('co2_fill', perFill, {
+            memberId: r.owner_id,
+            sourceType: 'keg_fill',
+            sourceId: r.id,
+            sourceLabel: what,
+            serviceFrom: r.fill_date,
+            serviceTo: r.fill_date,
+            quantity: 1,
+            unit: 'fill',
+          }),
+        );
       } else {
         problems.push(`No CO2 price (per fill or per kg) on ${shortDate(r.fill_date)} (${r.keg_code}).`);
       }
@@ -225,21 +213,18 @@ export const kegFillCharges: ChargeSource = {
           problems.push(`No cleaning-fee price on ${shortDate(day)} (${r.keg_code}).`);
           continue;
         }
-        charges.push({
-          memberId: r.owner_id,
-          item: 'cleaning',
-          description: priceItemInfo.cleaning.label,
-          sourceType: 'sanitation_cycle',
-          sourceId: r.sanitation_cycle_id,
-          sourceLabel: `${r.keg_code}, cleaned and sanitized ${shortDate(day)} for the fill of ${shortDate(r.fill_date)}`,
-          serviceFrom: r.fill_date,
-          serviceTo: r.fill_date,
-          quantity: 1,
-          unit: 'vessel',
-          unitPriceCents: price.unitCents,
-          priceId: price.id,
-          taxable: true,
-        });
+        charges.push(
+          pricedCharge('cleaning', price, {
+            memberId: r.owner_id,
+            sourceType: 'sanitation_cycle',
+            sourceId: r.sanitation_cycle_id,
+            sourceLabel: `${r.keg_code}, cleaned and sanitized ${shortDate(day)} for the fill of ${shortDate(r.fill_date)}`,
+            serviceFrom: r.fill_date,
+            serviceTo: r.fill_date,
+            quantity: 1,
+            unit: 'vessel',
+          }),
+        );
       }
     }
     return { charges, problems };
@@ -281,21 +266,19 @@ export const finingsCharges: ChargeSource = {
         continue;
       }
       const amount = r.finings_amount !== null ? ` ${Number(r.finings_amount)} ${r.finings_unit ?? ''}`.trimEnd() : '';
-      charges.push({
-        memberId: r.owner_id,
-        item: 'finings_dose',
-        description: `${priceItemInfo.finings_dose.label}: ${r.finings_kind}`,
-        sourceType: 'transfer',
-        sourceId: r.id,
-        sourceLabel: `Transfer from ${r.from_code} on ${shortDate(r.day)} (${r.batch_name}),${amount}`.replace(/,$/, ''),
-        serviceFrom: r.day,
-        serviceTo: r.day,
-        quantity: 1,
-        unit: 'dose',
-        unitPriceCents: price.unitCents,
-        priceId: price.id,
-        taxable: true,
-      });
+      charges.push(
+        pricedCharge('finings_dose', price, {
+          memberId: r.owner_id,
+          description: `${priceItemInfo.finings_dose.label}: ${r.finings_kind}`,
+          sourceType: 'transfer',
+          sourceId: r.id,
+          sourceLabel: `Transfer from ${r.from_code} on ${shortDate(r.day)} (${r.batch_name}),${amount}`.replace(/,$/, ''),
+          serviceFrom: r.day,
+          serviceTo: r.day,
+          quantity: 1,
+          unit: 'dose',
+        }),
+      );
     }
     return { charges, problems };
   },
@@ -338,21 +321,18 @@ export const fermenterCleaningCharges: ChargeSource = {
         problems.push(`No cleaning-fee price on ${shortDate(r.day)} (${r.code}).`);
         continue;
       }
-      charges.push({
-        memberId: r.owner_id,
-        item: 'cleaning',
-        description: priceItemInfo.cleaning.label,
-        sourceType: 'sanitation_cycle',
-        sourceId: r.id,
-        sourceLabel: `${r.code}, cleaned and sanitized ${shortDate(r.day)} after your booking`,
-        serviceFrom: r.day,
-        serviceTo: r.day,
-        quantity: 1,
-        unit: 'vessel',
-        unitPriceCents: price.unitCents,
-        priceId: price.id,
-        taxable: true,
-      });
+      charges.push(
+        pricedCharge('cleaning', price, {
+          memberId: r.owner_id,
+          sourceType: 'sanitation_cycle',
+          sourceId: r.id,
+          sourceLabel: `${r.code}, cleaned and sanitized ${shortDate(r.day)} after your booking`,
+          serviceFrom: r.day,
+          serviceTo: r.day,
+          quantity: 1,
+          unit: 'vessel',
+        }),
+      );
     }
     return { charges, problems };
   },

@@ -1,4 +1,4 @@
-import type { LineItem } from '../../../../shared/schemas/billing.ts';
+import { priceItemInfo, type LineItem, type PriceItem } from '../../../../shared/schemas/billing.ts';
 import type { Database } from '../../../db/database.ts';
 import type { PriceBook } from '../price-book.ts';
 
@@ -46,4 +46,23 @@ export interface ChargeSource {
   key: string;
   label: string;
   derive(db: Database, ctx: ChargeContext): Promise<SourceResult>;
+}
+
+/**
+ * A charge at a price from the price book: the line's unit price, the price it came from and its
+ * label (unless the source names it more closely) follow from the price; such charges are taxable.
+ */
+export function pricedCharge(
+  item: PriceItem,
+  price: { id: string; unitCents: number },
+  line: Omit<ChargeDraft, 'item' | 'description' | 'unitPriceCents' | 'priceId' | 'taxable'> & { description?: string },
+): ChargeDraft {
+  return {
+    ...line,
+    item,
+    description: line.description ?? priceItemInfo[item].label,
+    unitPriceCents: price.unitCents,
+    priceId: price.id,
+    taxable: true,
+  };
 }
