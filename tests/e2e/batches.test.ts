@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { desktop, launchBrowser, phone, screenshot, serve } from '../helpers/browser.ts';
-import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
 let server: Awaited<ReturnType<typeof serve>>;
@@ -18,16 +18,7 @@ afterAll(async () => {
   await ctx?.close();
 });
 
-async function signIn(email: string) {
-  const context = await browser.newContext({ viewport: desktop, baseURL: server.url, timezoneId: 'UTC' });
-  const page = await context.newPage();
-  await page.goto('/login');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: /sign in/i }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
-  return { context, page };
-}
+const signIn = (email: string) => signedInPage(browser, server.url, email);
 
 // A floating digital hydrometer's export, semicolon-separated with decimal commas, headers its own way.
 const exportCsv = [

@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { desktop, launchBrowser, screenshot, serve } from '../helpers/browser.ts';
-import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+import { launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
 let server: Awaited<ReturnType<typeof serve>>;
@@ -18,17 +18,7 @@ afterAll(async () => {
   await ctx?.close();
 });
 
-/** Signs in through the form (the password box has a button labelled "Show password", hence exact). */
-async function signIn(email: string) {
-  const context = await browser.newContext({ viewport: desktop, baseURL: server.url, timezoneId: 'UTC' });
-  const page = await context.newPage();
-  await page.goto('/login');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: /sign in/i }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
-  return { context, page };
-}
+const signIn = (email: string) => signedInPage(browser, server.url, email);
 
 /** Clicks the calendar cell of an item's row on a day (month view), moving to the day's month first. */
 async function clickDay(page: Page, rowLabel: string, day: string) {

@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, phone, screenshot, serve } from '../helpers/browser.ts';
-import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
 let server: Awaited<ReturnType<typeof serve>>;
@@ -19,13 +19,7 @@ afterAll(async () => {
 });
 
 async function signInOnPhone(email: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: phone, baseURL: server.url, timezoneId: 'UTC', hasTouch: true, isMobile: true });
-  const page = await context.newPage();
-  await page.goto('/login');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: /sign in/i }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
+  const { page } = await signedInPage(browser, server.url, email, { viewport: phone, context: { hasTouch: true, isMobile: true } });
   return page;
 }
 

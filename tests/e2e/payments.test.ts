@@ -1,8 +1,8 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
-import { desktop, launchBrowser, phone, screenshot, serve } from '../helpers/browser.ts';
-import { createTestContext, DEMO_PASSWORD, type TestContext } from '../helpers/context.ts';
+import { desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // A member pays an overdue invoice online: from My invoices, to the payment provider's page (the
 // local fake), back to the app, which shows it paid. Then the treasurer's Billing screens.
@@ -26,16 +26,7 @@ afterAll(async () => {
   await ctx?.close();
 });
 
-async function signIn(email: string, viewport = desktop) {
-  const context = await browser.newContext({ viewport, baseURL: server.url, timezoneId: 'UTC', locale: 'en-GB' });
-  const page = await context.newPage();
-  await page.goto('/login');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: /sign in/i }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith('/login'));
-  return { context, page };
-}
+const signIn = (email: string, viewport = desktop) => signedInPage(browser, server.url, email, { viewport, context: { locale: 'en-GB' } });
 
 describe('paying an invoice online', () => {
   it('a member opens an unpaid invoice, pays on the provider’s page, returns and sees it paid', async () => {

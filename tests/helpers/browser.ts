@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
 import type { TestContext } from './context.ts';
 import { DEMO_PASSWORD } from './context.ts';
 
@@ -32,14 +32,18 @@ export function launchBrowser(): Promise<Browser> {
 export const phone = { width: 390, height: 844 };
 export const desktop = { width: 1366, height: 860 };
 
-/** A new browser context signed in through the sign-in form. */
+/** A new browser context (UTC unless told otherwise, so dates on screen are stable) signed in through the sign-in form. */
 export async function signedInPage(
   browser: Browser,
   baseUrl: string,
   email: string,
-  { viewport = desktop, password = DEMO_PASSWORD }: { viewport?: { width: number; height: number }; password?: string } = {},
+  {
+    viewport = desktop,
+    password = DEMO_PASSWORD,
+    context: extra = {},
+  }: { viewport?: { width: number; height: number }; password?: string; context?: BrowserContextOptions } = {},
 ): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport, baseURL: baseUrl });
+  const context = await browser.newContext({ viewport, baseURL: baseUrl, timezoneId: 'UTC', ...extra });
   const page = await context.newPage();
   await page.goto('/login');
   await page.getByLabel('E-mail', { exact: true }).fill(email);
