@@ -1,12 +1,13 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
-import { evaluateCycle, outcomeReason } from '../../../shared/cellar/sanitation-rules.ts';
+import { evaluateCycle, outcomeReason, type CycleEvaluation } from '../../../shared/cellar/sanitation-rules.ts';
 import type { SanitationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type {
   CreateSanitationCycleInput,
   SanitationCycleListQuery,
   SanitationCycleView,
+  SanitationStepInput,
   SanitationStepView,
   VesselSanitationStatus,
 } from '../../../shared/schemas/sanitation.ts';
@@ -78,32 +79,7 @@ export async function recordCycle(
       })
       .returning('id')
       .executeTakeFirstOrThrow();
-    await trx
-      .insertInto('sanitation_step')
-      .values(
-        ev.steps.map((st, position) => {
-          const raw = input.steps[st.index]!;
-          return {
-            cycle_id: cycle.id,
-            position,
-            step: st.step,
-            chemical_id: st.chemicalId,
-            chemical: st.chemicalName,
-            concentration: st.concentration,
-            concentration_unit: st.concentrationUnit,
-            contact_minutes: raw.contactMinutes ?? null,
-            minimum_contact_minutes: st.minimumContactMinutes,
-            purge_method: st.step === 'purge' ? (raw.purgeMethod ?? 'flush') : null,
-            co2_grams: st.step === 'purge' ? (raw.co2Grams ?? settings.co2GramsPerPurge) : null,
-            solution_liters: raw.solutionLiters ?? null,
-            performed_by: raw.performedBy ?? actor.id,
-            at: raw.at,
-            ok: st.ok,
-            note: raw.note ?? '',
-          };
-        }),
-      )
-      .execute();
+    await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, input.steps, settings, actor.id)).execute();
     await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id);
     await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycle.id, {
       equipmentId: vessel.id,
@@ -177,32 +153,7 @@ export async function continueCycle(
       .where('id', '=', cycle.id)
       .execute();
     await trx.deleteFrom('sanitation_step').where('cycle_id', '=', cycle.id).execute();
-    await trx
-      .insertInto('sanitation_step')
-      .values(
-        ev.steps.map((st, position) => {
-          const raw = merged[st.index]!;
-          return {
-            cycle_id: cycle.id,
-            position,
-            step: st.step,
-            chemical_id: st.chemicalId,
-            chemical: st.chemicalName,
-            concentration: st.concentration,
-            concentration_unit: st.concentrationUnit,
-            contact_minutes: raw.contactMinutes ?? null,
-            minimum_contact_minutes: st.minimumContactMinutes,
-            purge_method: st.step === 'purge' ? (raw.purgeMethod ?? 'flush') : null,
-            co2_grams: st.step === 'purge' ? (raw.co2Grams ?? settings.co2GramsPerPurge) : null,
-            solution_liters: raw.solutionLiters ?? null,
-            performed_by: raw.performedBy ?? actor.id,
-            at: raw.at,
-            ok: st.ok,
-            note: raw.note ?? '',
-          };
-        }),
-      )
-      .execute();
+    await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, merged, settings, actor.id)).execute();
     await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id);
     await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, { equipmentId: vessel.id, code: vessel.code, outcome: ev.outcome, added: input.steps.map((s) => s.step) });
     return vessel.id;
@@ -444,4 +395,35 @@ export async function listVesselStatus(
     page: q.page,
     pageSize: q.pageSize,
   };
+}
+
+/** The rows of a cycle's steps, as the co-op's rules judged them (`ev`), from the steps as entered (`raw`). */
+function stepRows(
+  cycleId: string,
+  ev: CycleEvaluation,
+  raw: readonly SanitationStepInput[],
+  settings: SanitationSettings,
+  actorId: string,
+) {
+  return ev.steps.map((st, position) => {
+    const entered = raw[st.index]!;
+    return {
+      cycle_id: cycleId,
+      position,
+      step: st.step,
+      chemical_id: st.chemicalId,
+      chemical: st.chemicalName,
+      concentration: st.concentration,
+      concentration_unit: st.concentrationUnit,
+      contact_minutes: entered.contactMinutes ?? null,
+      minimum_contact_minutes: st.minimumContactMinutes,
+      purge_method: st.step === 'purge' ? (entered.purgeMethod ?? 'flush') : null,
+      co2_grams: st.step === 'purge' ? (entered.co2Grams ?? settings.co2GramsPerPurge) : null,
+      solution_liters: entered.solutionLiters ?? null,
+      performed_by: entered.performedBy ?? actorId,
+      at: entered.at,
+      ok: st.ok,
+      note: entered.note ?? '',
+    };
+  });
 }
