@@ -6,30 +6,18 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { Spinner } from '@/components/ui/spinner';
-import { useSaveSetting, useSetting } from '@/features/settings/api/setting';
-import { problemMessage } from '@/lib/api-client';
-import { formatDateTime } from '@/utils/format';
+import { useSaveSetting } from '@/features/settings/api/setting';
+import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { applyProblemToForm } from '@/utils/problem-form';
 
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(String(v).replace(',', '.'))) };
 
 /** Settings → Fermentation: the stable-gravity test (common practice ±0.001 over 3 days) and the correction defaults. */
-export const FermentationSettingsSection = ({ canEdit }: { canEdit: boolean }) => {
-  const setting = useSetting<FermentationSettings>('fermentation');
-  if (setting.isPending) return <Spinner label="Loading the fermentation settings" />;
-  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
-  return (
-    <>
-      <FermentationSettingsForm value={setting.data.value} canEdit={canEdit} />
-      {setting.data.updatedBy ? (
-        <p className="mt-2 text-xs text-ink-muted">
-          Last changed by {setting.data.updatedBy.name}, {formatDateTime(setting.data.updatedAt)}.
-        </p>
-      ) : null}
-    </>
-  );
-};
+export const FermentationSettingsSection = ({ canEdit }: { canEdit: boolean }) => (
+  <SettingLoader<FermentationSettings> settingKey="fermentation" what="the fermentation settings">
+    {(value) => <FermentationSettingsForm value={value} canEdit={canEdit} />}
+  </SettingLoader>
+);
 
 const FermentationSettingsForm = ({ value, canEdit }: { value: FermentationSettings; canEdit: boolean }) => {
   const save = useSaveSetting<FermentationSettings>('fermentation');

@@ -12,35 +12,20 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Checkbox, Input, Select } from '@/components/ui/input';
-import { Spinner } from '@/components/ui/spinner';
 import { Cautions } from '@/features/cellar-ops/components/cautions';
-import { useSaveSetting, useSetting } from '@/features/settings/api/setting';
+import { useSaveSetting } from '@/features/settings/api/setting';
+import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { problemMessage } from '@/lib/api-client';
-import { formatDateTime } from '@/utils/format';
 
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
 const optionalNum = { setValueAs: (v: string) => (v === '' ? undefined : Number(v)) };
 
-function Saved({ by, at }: { by: { name: string } | null; at: string | null }) {
-  return by ? (
-    <p className="mt-2 text-xs text-ink-muted">
-      Last changed by {by.name}, {formatDateTime(at)}.
-    </p>
-  ) : null;
-}
-
 /** Settings: the sanitation rules (chemical list, minimum contact times, freshness window). */
-export const SanitationSettingsSection = ({ canEdit }: { canEdit: boolean }) => {
-  const setting = useSetting<SanitationSettings>('sanitation');
-  if (setting.isPending) return <Spinner label="Loading the sanitation rules" />;
-  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
-  return (
-    <>
-      <SanitationForm value={setting.data.value} canEdit={canEdit} />
-      <Saved by={setting.data.updatedBy} at={setting.data.updatedAt} />
-    </>
-  );
-};
+export const SanitationSettingsSection = ({ canEdit }: { canEdit: boolean }) => (
+  <SettingLoader<SanitationSettings> settingKey="sanitation" what="the sanitation rules">
+    {(value) => <SanitationForm value={value} canEdit={canEdit} />}
+  </SettingLoader>
+);
 
 const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit: boolean }) => {
   const save = useSaveSetting<SanitationSettings>('sanitation');
@@ -155,17 +140,11 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
 };
 
 /** Settings: what the carbonation planner proposes. */
-export const CarbonationSettingsSection = ({ canEdit }: { canEdit: boolean }) => {
-  const setting = useSetting<CarbonationSettings>('carbonation');
-  if (setting.isPending) return <Spinner label="Loading the carbonation defaults" />;
-  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
-  return (
-    <>
-      <CarbonationForm value={setting.data.value} canEdit={canEdit} />
-      <Saved by={setting.data.updatedBy} at={setting.data.updatedAt} />
-    </>
-  );
-};
+export const CarbonationSettingsSection = ({ canEdit }: { canEdit: boolean }) => (
+  <SettingLoader<CarbonationSettings> settingKey="carbonation" what="the carbonation defaults">
+    {(value) => <CarbonationForm value={value} canEdit={canEdit} />}
+  </SettingLoader>
+);
 
 const CarbonationForm = ({ value, canEdit }: { value: CarbonationSettings; canEdit: boolean }) => {
   const save = useSaveSetting<CarbonationSettings>('carbonation');

@@ -7,28 +7,16 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { Spinner } from '@/components/ui/spinner';
-import { useSaveSetting, useSetting } from '@/features/settings/api/setting';
-import { problemMessage } from '@/lib/api-client';
-import { formatDateTime } from '@/utils/format';
+import { useSaveSetting } from '@/features/settings/api/setting';
+import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { applyProblemToForm } from '@/utils/problem-form';
 
 /** The Settings section for the co-op's booking rules (admin edits; the rota and treasurer read). */
-export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => {
-  const setting = useSetting<BookingRules>('booking_rules');
-  if (setting.isPending) return <Spinner label="Loading the booking rules" />;
-  if (setting.isError) return <Alert tone="error">{problemMessage(setting.error)}</Alert>;
-  return (
-    <>
-      <BookingRulesForm value={setting.data.value} canEdit={canEdit} />
-      {setting.data.updatedBy ? (
-        <p className="mt-2 text-xs text-ink-muted">
-          Last changed by {setting.data.updatedBy.name}, {formatDateTime(setting.data.updatedAt)}.
-        </p>
-      ) : null}
-    </>
-  );
-};
+export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => (
+  <SettingLoader<BookingRules> settingKey="booking_rules" what="the booking rules">
+    {(value) => <BookingRulesForm value={value} canEdit={canEdit} />}
+  </SettingLoader>
+);
 
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
 
