@@ -4,13 +4,14 @@ import { loadConfig } from './config/env.ts';
 import { createDb } from './db/database.ts';
 import { pdfRenderPool } from './lib/pdf-render.ts';
 import { warmAuditRenderer } from './modules/sanitation/audit-report.ts';
+import { systemClock } from './lib/clock.ts';
 import { createQueue } from './lib/queue.ts';
 import { startWorkers } from './workers.ts';
 
 const config = loadConfig();
 const { db, pool } = createDb(config.DATABASE_URL, 20);
 const queue = await createQueue(config.DATABASE_URL);
-const deps = { config, db, pool, queue };
+const deps = { config, db, pool, queue, clock: systemClock };
 if (config.WORKERS) await startWorkers(deps);
 const app = createApp(deps);
 const server = app.listen(config.PORT, config.HOST, () => {

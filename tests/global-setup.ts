@@ -5,6 +5,7 @@ import { execFileSync } from 'node:child_process';
 import path from 'node:path';
 import pg from 'pg';
 import type { TestProject } from 'vitest/node';
+import { TEST_TODAY } from './helpers/time.ts';
 import { withDatabase } from './helpers/urls.ts';
 
 const tsx = path.resolve('node_modules/.bin/tsx');
@@ -32,7 +33,8 @@ export default async function setup(project: TestProject) {
   await admin.query(`drop database if exists ${template}`);
   await admin.query(`create database ${template}`);
   // The same commands `npm start` runs (global setup runs outside Vite, so .ts loads through tsx).
-  const env = { ...process.env, DATABASE_URL: withDatabase(adminUrl, template) };
+  // Seeded as of a fixed day, so what the tests find never depends on the day they run.
+  const env = { ...process.env, DATABASE_URL: withDatabase(adminUrl, template), SEED_TODAY: TEST_TODAY };
   for (const script of ['db/migrate.ts', 'db/seed.ts', 'db/prepare-queue.ts']) {
     execFileSync(tsx, [script], { env, stdio: ['ignore', 'ignore', 'inherit'] });
   }

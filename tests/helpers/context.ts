@@ -6,10 +6,12 @@ import { inject } from 'vitest';
 import { createApp } from '../../backend/app.ts';
 import { loadConfig, type Config } from '../../backend/config/env.ts';
 import { createDb, type Database } from '../../backend/db/database.ts';
+import { ManualClock } from '../../backend/lib/clock.ts';
 import type { Deps } from '../../backend/lib/deps.ts';
 import { createQueue } from '../../backend/lib/queue.ts';
 import { startSmtpFake, type SmtpFake } from '../../backend/fakes/smtp-fake.ts';
 import { startWorkers } from '../../backend/workers.ts';
+import { TEST_NOW } from './time.ts';
 import { withDatabase } from './urls.ts';
 
 export const DEMO_PASSWORD = 'cellar-demo';
@@ -30,6 +32,8 @@ export interface TestContext {
   config: Config;
   databaseUrl: string;
   smtp: SmtpFake;
+  /** This context's clock: starts at TEST_NOW (or the `now` asked for) and runs on; tests move it. */
+  clock: ManualClock;
   /** A signed-in client that sends its CSRF token on every non-GET request. */
   signIn(email: string, password?: string): Promise<ApiClient>;
   /** Waits until a message to `to` whose subject matches arrives at the SMTP fake. */
@@ -62,7 +66,7 @@ export class ApiClient {
 }
 
 /** A fresh database cloned from the seeded template, the app on it, its queue workers and an SMTP fake. */
-export async function createTestContext(env: Record<string, string> = {}): Promise<TestContext> {
+export async function createTestContext(env: Record<string, string> = {}, { now = TEST_NOW }: { now?: string | Date } = {}): Promise<TestContext> {
   const adminUrl = inject('adminUrl');
   if (!adminUrl) throw new Error('DATABASE_URL is not set: run the suite with `npm test`, which starts a PostgreSQL');
   const name = `${inject('dbPrefix')}${randomBytes(5).toString('hex')}`;
@@ -75,7 +79,8 @@ export async function createTestContext(env: Record<string, string> = {}): Promi
   const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: databaseUrl, SMTP_PORT: String(smtp.port), PUBLIC_URL: 'http://127.0.0.1:3000', ...env });
   const { db, pool } = createDb(databaseUrl, 10);
   const queue = await createQueue(databaseUrl);
-  const deps: Deps = { config, db, pool, queue };
+  const clock = new ManualClock(now);
+  const deps: Deps = { config, db, pool, queue, clock };
   await startWorkers(deps);
   const app = createApp(deps);
 
@@ -86,6 +91,7 @@ export async function createTestContext(env: Record<string, string> = {}): Promi
     config,
     databaseUrl,
     smtp,
+    clock,
     async signIn(email, password = DEMO_PASSWORD) {
       const agent = request.agent(app);
       const res = await agent.post('/api/auth/login').send({ email, password });
