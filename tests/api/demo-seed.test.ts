@@ -3,9 +3,10 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb, type Database } from '../../backend/db/database.ts';
 import { previewRun } from '../../backend/modules/billing/invoice-runs.service.ts';
+import { getBookingRules } from '../../backend/modules/settings/settings.service.ts';
 import { cellarSection, memberSection } from '../../backend/modules/today/today.service.ts';
 import { addDays, nextPeriod, periodBounds } from '../../shared/billing/dates.ts';
-import { demoCalendar, DESIGN_TODAY } from '../../db/seeds/demo-calendar.ts';
+import { demoCalendar, DESIGN_TODAY, seedToday } from '../../db/seeds/demo-calendar.ts';
 import { runSeeds } from '../../db/seeds/index.ts';
 import { withDatabase } from '../helpers/urls.ts';
 
@@ -14,7 +15,15 @@ import { withDatabase } from '../helpers/urls.ts';
 // and give every role a Today with something to do. Each date gets a fresh database, seeded in turn.
 
 const DAY = 86_400_000;
-const dates = [DESIGN_TODAY, '2027-01-31', '2027-12-31', '2028-02-29', '2029-03-29', '2031-07-15'];
+/** Days to seed on; one co-op keeps its books in a time zone that changes to summer time that weekend. */
+const dates: { today: string; timeZone?: string }[] = [
+  { today: DESIGN_TODAY },
+  { today: '2027-01-31' },
+  { today: '2027-12-31' },
+  { today: '2028-02-29' },
+  { today: '2029-03-29', timeZone: 'Europe/Berlin' },
+  { today: '2031-07-15' },
+];
 // The migrations as `npm run migrate` runs them (loaded through Vite, as the rest of this file is).
 const migrations = import.meta.glob<Migration>('../../db/migrations/*.ts', { eager: true });
 const migrator = (db: Database) =>
@@ -56,9 +65,9 @@ describe('the demo calendar', () => {
   });
 });
 
-describe.skipIf(!inject('adminUrl'))('the demo seeded on other days', () => {
-  for (const today of dates) {
-    describe(`as of ${today}`, () => {
+describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
+  for (const { today, timeZone } of dates) {
+    describe(`as of ${today}${timeZone ? ` in ${timeZone}` : ''}`, () => {
       const cal = demoCalendar(today);
       const now = cal.now;
       const name = `${inject('dbPrefix')}demo_${today.replaceAll('-', '')}`;
@@ -73,6 +82,10 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on other days', () => {
         db = createDb(withDatabase(inject('adminUrl'), name), 2).db;
         const { error } = await migrator(db).migrateToLatest();
         if (error) throw error;
+        if (timeZone) {
+          const rules = await getBookingRules(db);
+          await db.updateTable('setting').set({ value: JSON.stringify({ ...rules, timeZone }) }).where('key', '=', 'booking_rules').execute();
+        }
         const ran = await runSeeds(db, { today });
         expect(ran).toContain('0006_billing');
       }, 240_000);
@@ -83,6 +96,13 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on other days', () => {
         await admin.connect();
         await admin.query(`drop database if exists ${name} with (force)`);
         await admin.end();
+      });
+
+      it('is seeded as of SEED_TODAY when set, and otherwise as of the date in the co-op\'s time zone', async () => {
+        expect(await seedToday(db, { SEED_TODAY: today }, new Date('2020-01-01T12:00:00Z'))).toBe(today);
+        const lateEvening = new Date(`${addDays(today, -1)}T23:30:00Z`);
+        expect(await seedToday(db, {}, lateEvening)).toBe(timeZone === 'Europe/Berlin' ? today : addDays(today, -1));
+        expect((await getBookingRules(db)).timeZone).toBe(timeZone ?? 'UTC');
       });
 
       it('books no item twice, cleaning buffer included', async () => {
