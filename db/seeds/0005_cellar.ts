@@ -549,6 +549,8 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       filled_at: f.filled_at,
       emptied_at: keptOut.has(f.id) ? null : f.emptied_at,
       emptied_reason: f.emptied_at && !keptOut.has(f.id) ? 'returned' : null,
+      // Recorded with its transfer.
+      created_at: new Date(f.filled_at.getTime() + 20 * MIN),
     })),
     300,
     (part) => db.insertInto('keg_fill').values(part).execute(),

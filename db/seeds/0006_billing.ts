@@ -147,6 +147,17 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   await sql`update invoice set paid_at = (select max(p.received_on) + time '12:00' from payment p where p.invoice_id = invoice.id and p.amount_cents > 0)
             where paid_at is not null and exists (select 1 from payment p where p.invoice_id = invoice.id and p.amount_cents > 0)`.execute(db);
   await sql`update invoice set voided_at = ${day('2026-10-09')}::date + time '11:00' where status = 'void'`.execute(db);
+  await sql`update invoice set updated_at = greatest(created_at, sent_at, paid_at, voided_at,
+              (select max(p.created_at) from payment p where p.invoice_id = invoice.id),
+              (select max(c.created_at) from credit_note c where c.invoice_id = invoice.id))`.execute(db);
+  // The audit trail of this seed (written in its transaction) dated as the books are, not when the demo was seeded.
+  await sql`update audit_log a set at = coalesce(case a.action
+              when 'ran' then (select r.created_at from invoice_run r where r.id::text = a.subject_id)
+              when 'issued' then (select i.created_at from invoice i where i.id::text = a.subject_id)
+              when 'voided' then (select i.voided_at from invoice i where i.id::text = a.subject_id)
+              when 'credit_note_issued' then (select c.created_at from credit_note c where c.number = a.detail->>'creditNote')
+              else (select p.created_at from payment p where p.id::text = a.detail->>'paymentId') end, a.at)
+            where a.subject_type in ('Invoice', 'InvoiceRun') and a.at = now()`.execute(db);
 }
 
 async function settleMonth(
