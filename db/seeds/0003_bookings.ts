@@ -30,14 +30,15 @@ const addDays = (d: Date, days: number) => new Date(d.getTime() + days * DAY);
  * What each fermenter is doing on the demo's today, and when its last finished booking ended (dates
  * as designed, for a today of 1 December 2026; the demo's calendar moves them).
  */
-const fermenterPlan: Record<string, { final: VesselState; lastEnd?: string; currentOwner?: string; december?: { start: string; days: number; owner: string }[] }> = {
+const fermenterPlan: Record<string, { final: VesselState; lastEnd?: string; endsBy?: string; currentOwner?: string; december?: { start: string; days: number; owner: string }[] }> = {
   'F-01': { final: 'holding', currentOwner: 'member' },
   'F-02': { final: 'holding', december: [{ start: '2026-12-20', days: 21, owner: 'member7' }] },
   'F-03': { final: 'ready', lastEnd: '2026-11-19' },
   'F-04': { final: 'needs_cleaning', lastEnd: '2026-11-30' },
   'F-05': { final: 'out_of_service', lastEnd: '2026-10-20' },
   'F-06': { final: 'cleaned', lastEnd: '2026-11-29' },
-  'F-07': { final: 'holding' },
+  // F-07's batch has finished and its booking ends the day after tomorrow: the brewer's Today shows a transfer due.
+  'F-07': { final: 'holding', endsBy: '2026-12-03' },
   'F-08': { final: 'ready', lastEnd: '2026-11-24', december: [{ start: '2026-12-14', days: 21, owner: 'member' }] },
   'F-09': { final: 'holding' },
   'F-10': { final: 'needs_cleaning', lastEnd: '2026-11-30' },
@@ -71,8 +72,10 @@ function plan(cal: DemoCalendar): PlannedBooking[] {
     const own: PlannedBooking[] = [];
     let anchor: Date; // the start of the booking after the ones still to fill in
     if (p.final === 'holding') {
-      const startsAt = addDays(day10('2026-12-01'), -between(3, 16));
-      const endsAt = addDays(startsAt, Math.max(length(), Math.ceil((day10('2026-12-03').getTime() - startsAt.getTime()) / DAY)));
+      const plannedStart = addDays(day10('2026-12-01'), -between(3, 16));
+      const days = length();
+      const endsAt = p.endsBy ? day10(p.endsBy) : addDays(plannedStart, Math.max(days, Math.ceil((day10('2026-12-03').getTime() - plannedStart.getTime()) / DAY)));
+      const startsAt = plannedStart;
       own.push({ code, owner: p.currentOwner ?? pick(members), startsAt, endsAt });
       anchor = startsAt;
     } else {
