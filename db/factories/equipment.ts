@@ -1,10 +1,10 @@
 import { sql, type Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { EquipmentTable, EquipmentKind, VesselState } from '../../backend/db/tables/cellar.ts';
+import { nextEquipmentCode } from '../../backend/modules/equipment/equipment.service.ts';
 import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
 import {
   attributesSchemaByKind,
-  equipmentCodePrefixes,
   type Co2CylinderAttributes,
   type FermenterAttributes,
   type KegAttributes,
@@ -23,7 +23,7 @@ interface AttributesByKind {
 
 export interface EquipmentOverrides<K extends EquipmentKind = EquipmentKind> {
   id?: string;
-  /** Default: the kind's letter and a number unique in this process (`F-1001`, `K-1002`, …). */
+  /** Default: the next free code of the kind, as the add form suggests it (`F-05`, `K-013`, `T-5`, `C-3`). */
   code?: string;
   name?: string;
   /** Litres; default 30 for a fermenter, 19 for a keg, none for taps and cylinders. */
@@ -55,11 +55,11 @@ function defaultAttributes(kind: EquipmentKind, n: number, capacity: number | nu
   }
 }
 
-const kindName: Record<EquipmentKind, (n: number, cap: number | null) => string> = {
-  fermenter: (n, cap) => `${cap} L fermenter ${n}`,
-  keg: (n, cap) => `${cap} L ball lock keg ${n}`,
-  tap: (n) => `Tap position ${n}`,
-  co2_cylinder: (n) => `6 kg CO2 cylinder ${n}`,
+const kindName: Record<EquipmentKind, (code: string, cap: number | null) => string> = {
+  fermenter: (code, cap) => `${cap} L fermenter ${code}`,
+  keg: (code, cap) => `${cap} L keg ${code}`,
+  tap: (code) => `Tap position ${code}`,
+  co2_cylinder: (code) => `CO2 cylinder ${code}`,
 };
 
 /** A piece of equipment of any kind, with its kind's details and its registry history row. */
@@ -70,13 +70,14 @@ export async function createEquipment<K extends EquipmentKind>(db: Database, kin
   const state: VesselState = o.state ?? (kind === 'fermenter' || kind === 'keg' ? 'needs_cleaning' : 'ready');
   const at = toDate(o.at ?? LONG_AGO, 'at');
   return inTransaction(db, async (trx) => {
+    const code = o.code ?? (await nextEquipmentCode(trx, kind));
     const row = await trx
       .insertInto('equipment')
       .values({
         ...(o.id ? { id: o.id } : {}),
-        code: o.code ?? `${equipmentCodePrefixes[kind]}-${n}`,
+        code,
         kind,
-        name: o.name ?? kindName[kind](n, capacity),
+        name: o.name ?? kindName[kind](code, capacity),
         capacity_liters: capacity,
         state,
         attributes: sql`${JSON.stringify(attributes)}::jsonb`,

@@ -1,7 +1,7 @@
 /**
  * Typed factories over the Kysely `Database` (or a transaction): tests, benchmarks and seeds make
- * the records they need with these. Each takes `(db, overrides)`, fills sensible defaults (codes
- * and e-mails unique within the process, example.org addresses only), inserts, and returns the
+ * the records they need with these. Each takes `(db, overrides)`, fills sensible defaults (the next
+ * free equipment code, e-mails unique within the process, example.org addresses only), inserts, and returns the
  * typed row with its id. They never read the clock: every time is a parameter (`at`, `now`,
  * `startsAt`, `readyAt`, `today`, …) or, where nobody asked, the fixed LONG_AGO (2026-01-01).
  * Multi-row factories run in the caller's transaction, or in their own when given the database.
@@ -11,7 +11,7 @@
  *   createMember(db, same)                       — a member (`member.<n>@example.org`)
  * Equipment (equipment.ts)
  *   createEquipment(db, kind, { code?, name?, capacityLiters?, attributes?, state?, notes?, at?, actorId?, id? }) → equipment row
- *     defaults: F-/K-/T-/C-<n> codes, 30 L fermenter / 19 L keg, the kind's attributes (checked with
+ *     defaults: the kind's next free code (F-05, K-013, …), 30 L fermenter / 19 L keg, the kind's attributes (checked with
  *     shared/schemas/equipment.ts), state `needs_cleaning` for fermenters and kegs, `ready` for taps and cylinders
  *   createFermenter / createKeg / createTap / createCo2Cylinder(db, overrides)
  *   setEquipmentState(db, equipmentId, state, { at, reason?, actorId? })   — state + history row at `at`
