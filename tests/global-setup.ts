@@ -1,5 +1,7 @@
 // Runs once before all test files: migrates and seeds a template database on the throwaway
-// PostgreSQL that `npm test` started. Each test file then clones it (CREATE DATABASE … TEMPLATE),
+// PostgreSQL that `npm test` started. TEST_TEMPLATE picks what the template holds: `fixtures` (the
+// default: the small test fixture, db/fixtures, that each test adds to with the factories in
+// db/factories) or `demo` (the demo co-op, db/seeds). Each test file then clones it (CREATE DATABASE … TEMPLATE),
 // so files run in parallel without seeing each other's writes.
 import { execFileSync } from 'node:child_process';
 import path from 'node:path';
@@ -35,7 +37,10 @@ export default async function setup(project: TestProject) {
   // The same commands `npm start` runs (global setup runs outside Vite, so .ts loads through tsx).
   // Seeded as of a fixed day, so what the tests find never depends on the day they run.
   const env = { ...process.env, DATABASE_URL: withDatabase(adminUrl, template), SEED_TODAY: TEST_TODAY };
-  for (const script of ['db/migrate.ts', 'db/seed.ts', 'db/prepare-queue.ts']) {
+  const kind = process.env.TEST_TEMPLATE ?? 'fixtures';
+  if (kind !== 'demo' && kind !== 'fixtures') throw new Error(`TEST_TEMPLATE must be demo or fixtures, not ${kind}`);
+  const seed = kind === 'fixtures' ? 'db/fixture-seed.ts' : 'db/seed.ts';
+  for (const script of ['db/migrate.ts', seed, 'db/prepare-queue.ts']) {
     execFileSync(tsx, [script], { env, stdio: ['ignore', 'ignore', 'inherit'] });
   }
   project.provide('adminUrl', adminUrl);

@@ -2,6 +2,7 @@ import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { abv, apparentAttenuation, brixToSg, convertGravity, correctHydrometer, litersToUsBarrels, realAttenuation, refractometerFinalGravity } from '../../shared/brewing/index.ts';
+import { createBatch, createBooking, createFermenter } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -96,36 +97,26 @@ describe('creating and changing batches', () => {
   });
 
   it('links the owner’s fermenter booking and refuses someone else’s, or one holding another batch', async () => {
-    const own = await ctx.db
-      .selectFrom('booking')
-      .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-      .select(['booking.id', 'equipment.code', 'booking.batch_id'])
-      .where('booking.owner_id', '=', member.user.id)
-      .where('equipment.kind', '=', 'fermenter')
-      .where('booking.state', '<>', 'cancelled')
-      .orderBy('booking.starts_at')
-      .executeTakeFirst();
-    const others = await ctx.db
-      .selectFrom('booking')
-      .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-      .select(['booking.id'])
-      .where('booking.owner_id', '<>', member.user.id)
-      .where('equipment.kind', '=', 'fermenter')
-      .executeTakeFirst();
-    // The demo seed books fermenters for the members and links each to its batch.
-    expect(own, 'the demo seed has a fermenter booking for member@example.org').toBeTruthy();
-    expect(own!.batch_id, 'the demo seed links the booking to its batch').toBeTruthy();
+    // The member's batch in a fermenter they booked (the booking holds it), and another member's fermenter booking.
+    const now = ctx.clock.now().getTime();
+    const fermenter = await createFermenter(ctx.db, { capacityLiters: 60 });
+    const inIt = await createBatch(ctx.db, {
+      ownerId: member.user.id,
+      name: 'First tenant',
+      readings: [{ takenAt: new Date(now - 4 * DAY), value: 1.05 }],
+      fermenter: { equipmentId: fermenter.id, startsAt: new Date(now - 5 * DAY), endsAt: new Date(now + 9 * DAY), now: new Date(now) },
+    });
+    const own = { id: inIt.bookingId!, code: fermenter.code, batch_id: inIt.id };
+    const others = await createBooking(ctx.db, { ownerId: member2.user.id, equipmentId: (await createFermenter(ctx.db)).id, startsAt: new Date(now + DAY), endsAt: new Date(now + 15 * DAY), now: new Date(now) });
     const taken = await member.post('/api/batches', { name: 'Second tenant', volumeLiters: 20, bookingId: own!.id });
     expect(taken.status).toBe(409);
     await ctx.db.updateTable('booking').set({ batch_id: null }).where('id', '=', own!.id).execute();
     const b = await newBatch(member, { bookingId: own!.id });
     const detail = await member.get(`/api/batches/${b.id}`);
     expect(detail.body.bookings).toEqual([expect.objectContaining({ id: own!.id, equipmentCode: own!.code })]);
-    if (others) {
-      const res = await member.patch(`/api/batches/${b.id}`, { bookingId: others.id });
-      expect(res.status).toBe(422);
-      expect(res.body.errors[0].path).toBe('bookingId');
-    }
+    const res = await member.patch(`/api/batches/${b.id}`, { bookingId: others.id });
+    expect(res.status).toBe(422);
+    expect(res.body.errors[0].path).toBe('bookingId');
     const unlinked = await member.patch(`/api/batches/${b.id}`, { bookingId: null });
     expect(unlinked.body.batch.bookings).toEqual([]);
   });
@@ -214,7 +205,7 @@ describe('readings and what they say', () => {
     expect((await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00Z', gravity: 1.05, unit: 'sg' })).status).toBe(201);
     const dup = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T11:00:00+02:00', gravity: 1.049, unit: 'sg' });
     expect(dup.status).toBe(409);
-    const future = await member.post(`/api/batches/${b.id}/readings`, { takenAt: new Date(Date.now() + 3 * DAY).toISOString(), gravity: 1.04, unit: 'sg' });
+    const future = await member.post(`/api/batches/${b.id}/readings`, { takenAt: new Date(ctx.clock.now().getTime() + 3 * DAY).toISOString(), gravity: 1.04, unit: 'sg' });
     expect(future.status).toBe(422);
     expect(future.body.errors[0].path).toBe('takenAt');
     const high = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-02T09:00:00Z', gravity: 1.3, unit: 'sg' });
@@ -291,10 +282,12 @@ describe('fermentation settings and refractometer readings', () => {
 describe('the batches list', () => {
   it('shows a member only their own batches and the brewer on duty all, paged and sorted on the server', async () => {
     await newBatch(member2, { name: 'Second member stout' });
+    const ownLager = await createBatch(ctx.db, { ownerId: member.user.id, name: 'Own lager', style: 'Pilsner' });
     const mine = await member.get('/api/batches?pageSize=100');
     expect(mine.status).toBe(200);
     expect(mine.body.items.length).toBeGreaterThan(0);
     expect(mine.body.items.every((i: { ownerId: string }) => i.ownerId === member.user.id)).toBe(true);
+    expect(mine.body.items.map((i: { id: string }) => i.id)).toContain(ownLager.id);
     const all = await brewer.get('/api/batches?pageSize=100');
     const owners = new Set(all.body.items.map((i: { ownerId: string }) => i.ownerId));
     expect(owners.has(member.user.id) && owners.has(member2.user.id)).toBe(true);

@@ -1,7 +1,8 @@
 import { simpleParser } from 'mailparser';
-import { sql } from 'kysely';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createBooking, createFermenter, createKeg, createMember } from '../../db/factories/index.ts';
+import { fixtureEquipmentId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 import { icsUtc, parseIcs } from '../helpers/ics.ts';
 
@@ -10,9 +11,9 @@ let fermenters: { id: string; code: string }[];
 let kegs: { id: string; code: string }[];
 
 const DAY = 24 * 3600_000;
-/** A whole-hour UTC time `days` from now: far enough ahead that the seeded bookings are all over. */
+/** A whole-hour UTC time `days` from the test's now (its clock), at `hour`. */
 function at(days: number, hour = 10): string {
-  const d = new Date(Date.now() + days * DAY);
+  const d = new Date(ctx.clock.now().getTime() + days * DAY);
   d.setUTCHours(hour, 0, 0, 0);
   return d.toISOString();
 }
@@ -20,22 +21,28 @@ const plusHours = (iso: string, h: number) => new Date(Date.parse(iso) + h * 360
 
 beforeAll(async () => {
   ctx = await createTestContext();
-  const admin = await ctx.signIn('admin@example.org');
-  fermenters = (await admin.get('/api/equipment?kind=fermenter&pageSize=100')).body.items;
-  kegs = (await admin.get('/api/equipment?kind=keg&pageSize=100&state=ready')).body.items;
+  // The fixture's F-01…F-04, and the fermenters these tests book besides: F-05 is out of service, F-11 and F-12 are 120 L.
+  fermenters = ['F-01', 'F-02', 'F-03', 'F-04'].map((code) => ({ id: fixtureEquipmentId(code), code }));
+  for (let i = 5; i <= 12; i++) {
+    const code = `F-${String(i).padStart(2, '0')}`;
+    const row = await createFermenter(ctx.db, { code, capacityLiters: i >= 11 ? 120 : 60, ...(i === 5 ? { state: 'out_of_service' as const } : {}) });
+    fermenters.push({ id: row.id, code: row.code });
+  }
+  kegs = [];
+  for (let i = 0; i < 2; i++) {
+    const keg = await createKeg(ctx.db, { state: 'ready' });
+    kegs.push({ id: keg.id, code: keg.code });
+  }
 });
 afterAll(async () => ctx?.close());
 
 const byCode = (code: string) => fermenters.find((f) => f.code === code)!;
 
-/** Members with few bookings of their own, so the "bookings at once" rule stays out of the way. */
+/** New members with no bookings, so the "bookings at once" rule stays out of the way. */
 async function quietMembers(n: number): Promise<string[]> {
-  const rows = await sql<{ email: string }>`
-    select u.email from app_user u
-    where 'member' = any(u.roles) and not ('admin' = any(u.roles))
-    order by (select count(*) from booking b where b.owner_id = u.id and b.state in ('booked','in_use')), u.email
-    limit ${n}`.execute(ctx.db);
-  return rows.rows.map((r) => r.email);
+  const emails: string[] = [];
+  for (let i = 0; i < n; i++) emails.push((await createMember(ctx.db)).email);
+  return emails;
 }
 
 describe('booking a free item', () => {
@@ -204,18 +211,16 @@ describe('co-op rules', () => {
     const admin = await ctx.signIn('admin@example.org');
     const current = await admin.get('/api/settings/booking_rules');
     expect(current.status).toBe(200);
-    // The demo co-op's own limit (db/seeds/0003_bookings.ts): every seeded member is inside it.
+    // The co-op's own limit (as the demo sets it, db/seeds/0003_bookings.ts; the test fixture keeps it).
     expect(current.body.value).toMatchObject({ cleaningBufferHours: 24, maxAdvanceDays: 90, maxActiveBookingsPerMember: 24 });
 
+    // A member with one booking in use and one finished: only the first counts against the limit.
     const [email] = await quietMembers(1);
     const member = await ctx.signIn(email!);
-    const { active } = await ctx.db
-      .selectFrom('booking')
-      .select((eb) => eb.fn.countAll<number>().as('active'))
-      .where('owner_id', '=', member.user.id)
-      .where('state', 'in', ['booked', 'in_use'])
-      .where('ends_at', '>', new Date())
-      .executeTakeFirstOrThrow();
+    const now = ctx.clock.now();
+    await createBooking(ctx.db, { ownerId: member.user.id, equipmentId: byCode('F-09').id, startsAt: at(-3), endsAt: at(4), now });
+    await createBooking(ctx.db, { ownerId: member.user.id, equipmentId: byCode('F-10').id, startsAt: at(-20), endsAt: at(-10), now });
+    const active = 1;
     const saved = await admin.put('/api/settings/booking_rules', { ...current.body.value, maxActiveBookingsPerMember: active + 1, cleaningBufferHours: 48 });
     expect(saved.status).toBe(200);
     expect(saved.body.value.maxActiveBookingsPerMember).toBe(active + 1);
@@ -248,8 +253,8 @@ describe('who sees and does what', () => {
   let other: ApiClient;
 
   beforeAll(async () => {
-    owner = await ctx.signIn('member11@example.org');
-    other = await ctx.signIn('member12@example.org');
+    owner = await ctx.signIn((await createMember(ctx.db, { email: 'member11@example.org' })).email);
+    other = await ctx.signIn((await createMember(ctx.db, { email: 'member12@example.org' })).email);
     mine = (await owner.post('/api/bookings', { equipmentId: byCode('F-11').id, startsAt: at(61), endsAt: at(80) })).body.booking;
     theirs = (await other.post('/api/bookings', { equipmentId: byCode('F-12').id, startsAt: at(61), endsAt: at(80) })).body.booking;
     expect(mine?.id && theirs?.id).toBeTruthy();
@@ -345,7 +350,7 @@ describe('who sees and does what', () => {
 describe('bookings move with the clock', () => {
   it('turns booked into in use at the start and finished at the end', async () => {
     const { advanceBookingStates } = await import('../../backend/modules/bookings/bookings.service.ts');
-    const member = await ctx.signIn('member9@example.org');
+    const member = await ctx.signIn((await createMember(ctx.db)).email);
     const b = (await member.post('/api/bookings', { equipmentId: byCode('F-02').id, startsAt: at(64), endsAt: at(66) })).body.booking;
     await advanceBookingStates(ctx.db, new Date(at(65)));
     expect((await member.get(`/api/bookings/${b.id}`)).body.booking.state).toBe('in_use');

@@ -66,8 +66,13 @@ export async function listEquipment(db: Database, q: EquipmentListQuery, now: Da
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
     base
       .select([...storedColumns, currentState(now).as('state')])
+      // Codes sort by their number within a prefix (K-2 before K-10), as the sort key itself and as the tie-break.
+      .$if(q.sort === 'code', (qb) =>
+        qb
+          .orderBy(sql`split_part(code, '-', 1)`, (ob) => (q.order === 'desc' ? ob.desc() : ob.asc()))
+          .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`, (ob) => (q.order === 'desc' ? ob.desc() : ob.asc())),
+      )
       .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-      // Codes sort by their number within a prefix (K-2 before K-10).
       .orderBy(sql`split_part(code, '-', 1)`)
       .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`)
       .orderBy('id')

@@ -1,0 +1,122 @@
+import type { Selectable } from 'kysely';
+import type { Database } from '../../backend/db/database.ts';
+import type { SanitationCycleTable, SanitationStepTable } from '../../backend/db/tables/cellar-operations.ts';
+import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
+import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
+import { evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
+import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
+import { type At, inTransaction, MINUTE, toDate } from './common.ts';
+
+export type SanitationCycleRow = Selectable<SanitationCycleTable>;
+export type SanitationStepRow = Selectable<SanitationStepTable>;
+
+/**
+ * The four steps of a cycle that meets the co-op's default rules (clean 60 min, rinse, sanitize
+ * 2 min, purge), the purge at `readyAt`; with `until: 'cleaned'` only the clean and the rinse,
+ * the rinse at `readyAt`.
+ */
+export function cycleSteps(readyAt: At, o: { until?: 'ready' | 'cleaned'; performedBy?: string } = {}): SanitationStepInput[] {
+  const end = toDate(readyAt, 'readyAt').getTime();
+  const at = (minutesBefore: number) => new Date(end - minutesBefore * MINUTE).toISOString();
+  const by = o.performedBy ? { performedBy: o.performedBy } : {};
+  if (o.until === 'cleaned') {
+    return [
+      { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: at(65), ...by },
+      { step: 'rinse', at: at(0), ...by },
+    ] as SanitationStepInput[];
+  }
+  return [
+    { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: at(80), ...by },
+    { step: 'rinse', at: at(15), ...by },
+    { step: 'sanitize', chemical: 'acid-sanitizer', concentration: 1.6, contactMinutes: 2, at: at(5), ...by },
+    { step: 'purge', contactMinutes: 0.5, at: at(0), ...by },
+  ] as SanitationStepInput[];
+}
+
+export interface SanitationCycleOverrides {
+  equipmentId: string;
+  /** When the cycle ends (the purge of a complete cycle): the vessel's state changes then. Needed unless `steps` are given. */
+  readyAt?: At;
+  /** Default: a complete cycle (cycleSteps(readyAt)); 'cleaned' stops after the rinse. */
+  until?: 'ready' | 'cleaned';
+  /** The steps as the checklist sends them; evaluated by the co-op's rules like a recorded cycle. */
+  steps?: SanitationStepInput[];
+  /** Who recorded it (and performed steps that name nobody). */
+  recordedBy?: string | null;
+  notes?: string;
+  /** Default: two minutes after the last step. */
+  createdAt?: At;
+}
+
+export interface SanitationCycleWithSteps extends SanitationCycleRow {
+  steps: SanitationStepRow[];
+  evaluation: CycleEvaluation;
+}
+
+/**
+ * A recorded sanitation cycle on a fermenter or keg, evaluated by shared/cellar/sanitation-rules
+ * with the co-op's sanitation settings: the cycle row (outcome, issues, fresh_until), its steps,
+ * and the vessel's state set to the outcome at the cycle's end with a history row
+ * (writeStateChange from backend/modules/sanitation/vessel-state.ts).
+ */
+export async function createSanitationCycle(db: Database, o: SanitationCycleOverrides): Promise<SanitationCycleWithSteps> {
+  if (!o.steps && o.readyAt === undefined) throw new Error('createSanitationCycle: give readyAt or steps');
+  const steps = o.steps ?? cycleSteps(o.readyAt!, { until: o.until ?? 'ready' });
+  return inTransaction(db, async (trx) => {
+    const settings = await sanitationSettings(trx);
+    const ev = evaluateCycle(steps, settings);
+    const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', o.equipmentId).forUpdate().executeTakeFirstOrThrow();
+    if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') throw new Error(`createSanitationCycle: ${vessel.code} is a ${vessel.kind}`);
+    if (vessel.state === 'holding' || vessel.state === 'out_of_service') throw new Error(`createSanitationCycle: ${vessel.code} is ${vessel.state}`);
+    const recordedBy = o.recordedBy ?? null;
+    const cycle = await trx
+      .insertInto('sanitation_cycle')
+      .values({
+        equipment_id: vessel.id,
+        started_at: ev.startedAt,
+        completed_at: ev.completedAt,
+        outcome: ev.outcome,
+        complete: ev.complete,
+        issues: JSON.stringify(ev.issues),
+        freshness_days: ev.complete ? settings.freshnessDays : null,
+        fresh_until: ev.freshUntil,
+        recorded_by: recordedBy,
+        notes: o.notes ?? '',
+        created_at: toDate(o.createdAt ?? new Date(ev.completedAt.getTime() + 2 * MINUTE), 'createdAt'),
+      })
+      .returningAll()
+      .executeTakeFirstOrThrow();
+    // The same rows as the sanitation service's stepRows().
+    const stepRows = await trx
+      .insertInto('sanitation_step')
+      .values(
+        ev.steps.map((st, position) => {
+          const entered = steps[st.index]!;
+          return {
+            cycle_id: cycle.id,
+            position,
+            step: st.step,
+            chemical_id: st.chemicalId,
+            chemical: st.chemicalName,
+            concentration: st.concentration,
+            concentration_unit: st.concentrationUnit,
+            contact_minutes: entered.contactMinutes ?? null,
+            minimum_contact_minutes: st.minimumContactMinutes,
+            purge_method: st.step === 'purge' ? (entered.purgeMethod ?? 'flush') : null,
+            co2_grams: st.step === 'purge' ? (entered.co2Grams ?? settings.co2GramsPerPurge) : null,
+            solution_liters: entered.solutionLiters ?? null,
+            performed_by: entered.performedBy ?? recordedBy,
+            at: entered.at,
+            ok: st.ok,
+            note: entered.note ?? '',
+          };
+        }),
+      )
+      .returningAll()
+      .execute();
+    if (vessel.state !== ev.outcome) {
+      await writeStateChange(trx, vessel.id, vessel.state, ev.outcome, outcomeReason(ev, settings.freshnessDays), recordedBy, ev.completedAt);
+    }
+    return { ...cycle, steps: stepRows.sort((a, b) => a.position - b.position), evaluation: ev };
+  });
+}
