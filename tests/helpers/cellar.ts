@@ -1,17 +1,20 @@
+import type { Clock } from '../../backend/lib/clock.ts';
+import { createBatch, createFermenter, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import type { ApiClient, TestContext } from './context.ts';
 
 /** Helpers shared by the cellar operations tests: ready kegs, a batch in a fermenter, the transfer checklist. */
 
-const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
+/** An ISO time `m` minutes before the test clock's now. */
+export const minutesAgo = (clock: Clock, m: number) => new Date(clock.now().getTime() - m * 60_000).toISOString();
 
-/** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` ago. */
-export function completeSteps(endMinutesAgo = 30) {
+/** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` before the clock's now. */
+export function completeSteps(clock: Clock, endMinutesAgo = 30) {
   const s = endMinutesAgo + 80;
   return [
-    { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: minutesAgo(s) },
-    { step: 'rinse', at: minutesAgo(s - 65) },
-    { step: 'sanitize', chemical: 'acid-sanitizer', concentration: 1.6, contactMinutes: 2, at: minutesAgo(s - 75) },
-    { step: 'purge', contactMinutes: 0.5, at: minutesAgo(endMinutesAgo) },
+    { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: minutesAgo(clock, s) },
+    { step: 'rinse', at: minutesAgo(clock, s - 65) },
+    { step: 'sanitize', chemical: 'acid-sanitizer', concentration: 1.6, contactMinutes: 2, at: minutesAgo(clock, s - 75) },
+    { step: 'purge', contactMinutes: 0.5, at: minutesAgo(clock, endMinutesAgo) },
   ];
 }
 
@@ -28,54 +31,62 @@ export const fullChecklist = {
   leakChecked: true,
 } as const;
 
-/** Empty, in-service kegs in the cellar with no open fill, not yet used by this test file. */
+/**
+ * New kegs for a test: empty 19 L kegs in the cellar needing cleaning (no cycle on record), made
+ * with the factories on each call, so no two tests ever share one.
+ */
 export function kegPool(ctx: TestContext) {
-  const used = new Set<string>();
   return async function takeKegs(n: number): Promise<{ id: string; code: string }[]> {
-    const rows = await ctx.db
-      .selectFrom('equipment as e')
-      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
-      .select(['e.id', 'e.code'])
-      .where('e.kind', '=', 'keg')
-      .where('e.state', 'in', ['needs_cleaning', 'cleaned', 'ready'])
-      .where((eb) => eb.or([eb('kw.whereabouts', 'is', null), eb('kw.whereabouts', '=', 'cellar')]))
-      .where((eb) => eb.not(eb.exists(eb.selectFrom('keg_fill as kf').select('kf.id').whereRef('kf.keg_id', '=', 'e.id').where('kf.emptied_at', 'is', null))))
-      .orderBy('e.code')
-      .execute();
-    const free = rows.filter((r) => !used.has(r.id)).slice(0, n);
-    if (free.length < n) throw new Error(`only ${free.length} spare kegs`);
-    for (const k of free) used.add(k.id);
-    return free;
+    const kegs: { id: string; code: string }[] = [];
+    for (let i = 0; i < n; i++) {
+      const k = await createKeg(ctx.db);
+      kegs.push({ id: k.id, code: k.code });
+    }
+    return kegs;
   };
 }
 
-/** Makes kegs ready through the API, as the brewer on duty would. */
-export async function makeReady(brewer: ApiClient, ids: string[]) {
+/** Makes kegs ready through the API, as the brewer on duty would, finishing half an hour before the test clock's now. */
+export async function makeReady(brewer: ApiClient, ids: string[], clock: Clock) {
   for (const id of ids) {
-    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps() });
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps(clock) });
     if (res.status !== 201 || res.body.cycle.outcome !== 'ready') throw new Error(`could not ready ${id}: ${res.status} ${JSON.stringify(res.body)}`);
   }
 }
 
-/** Seeded batches still in a fermenter (fermenting or conditioning), with that fermenter, not yet used by this file. */
+export interface PooledBatch {
+  batchId: string;
+  name: string;
+  fermenterId: string;
+  fermenterCode: string;
+  volume: number;
+  ownerId: string;
+}
+
+/**
+ * A new batch fermenting in a new fermenter on each call, dated from the test clock: a member's
+ * (a new one unless `ownerId` is given) 50 L batch in a 60 L fermenter, sanitized the hour before, booked from 15 days ago to a
+ * week ahead, with readings from OG 1.052 (14 days ago) down to a steady 1.011 (3 days and 1 day ago).
+ */
 export function batchPool(ctx: TestContext) {
-  const used = new Set<string>();
-  return async function takeBatch(): Promise<{ batchId: string; name: string; fermenterId: string; fermenterCode: string; volume: number; ownerId: string }> {
-    const rows = await ctx.db
-      .selectFrom('batch as b')
-      .innerJoin('booking as bk', 'bk.batch_id', 'b.id')
-      .innerJoin('equipment as f', 'f.id', 'bk.equipment_id')
-      .select(['b.id as batchId', 'b.name', 'f.id as fermenterId', 'f.code as fermenterCode', 'b.volume_liters as volume', 'b.owner_id as ownerId'])
-      .where('b.status', 'in', ['fermenting', 'conditioning'])
-      .where('f.kind', '=', 'fermenter')
-      .where('f.state', '<>', 'out_of_service')
-      .where((eb) => eb.exists(eb.selectFrom('reading as r').select('r.id').whereRef('r.batch_id', '=', 'b.id')))
-      .orderBy('f.code')
-      .execute();
-    const row = rows.find((r) => !used.has(r.batchId));
-    if (!row) throw new Error('no seeded batch in a fermenter left');
-    used.add(row.batchId);
-    return { ...row, volume: Number(row.volume) };
+  return async function takeBatch(o: { ownerId?: string; volumeLiters?: number; capacityLiters?: number } = {}): Promise<PooledBatch> {
+    const now = ctx.clock.now().getTime();
+    const at = (days: number) => new Date(now + days * DAY);
+    const fermenter = await createFermenter(ctx.db, { capacityLiters: o.capacityLiters ?? 60 });
+    // Cleaned and sanitized the hour before the wort went in.
+    await createSanitationCycle(ctx.db, { equipmentId: fermenter.id, readyAt: new Date(at(-15).getTime() - HOUR) });
+    const batch = await createBatch(ctx.db, {
+      ...(o.ownerId ? { ownerId: o.ownerId } : {}),
+      volumeLiters: o.volumeLiters ?? 50,
+      readings: [
+        { takenAt: at(-14), value: 1.052 },
+        { takenAt: at(-7), value: 1.014 },
+        { takenAt: at(-3), value: 1.011 },
+        { takenAt: at(-1), value: 1.011 },
+      ],
+      fermenter: { equipmentId: fermenter.id, startsAt: at(-15), endsAt: at(7), now: at(0) },
+    });
+    return { batchId: batch.id, name: batch.name, fermenterId: fermenter.id, fermenterCode: fermenter.code, volume: Number(batch.volume_liters), ownerId: batch.owner_id };
   };
 }
 
