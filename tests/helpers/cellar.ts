@@ -1,21 +1,23 @@
 import type { Clock } from '../../backend/lib/clock.ts';
-import { createBatch, createFermenter, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
+import { createBatch, createFermenter, createKeg, createSanitationCycle, cycleSteps, DAY, HOUR, MINUTE } from '../../db/factories/index.ts';
 import type { ApiClient, TestContext } from './context.ts';
 
-/** Helpers shared by the cellar operations tests: ready kegs, a batch in a fermenter, the transfer checklist. */
+/**
+ * Helpers shared by the cellar operations tests: ready kegs, a batch in a fermenter, the transfer
+ * checklist. The kegs and batches are made with the factories (db/factories), dated from the
+ * test's clock, so they work on the fixture template whatever the machine's date.
+ */
 
-/** An ISO time `m` minutes before the test clock's now. */
-export const minutesAgo = (clock: Clock, m: number) => new Date(clock.now().getTime() - m * 60_000).toISOString();
+/** An instant, or the clock to read it from (a test context's `ctx.clock`). */
+export type NowSource = Date | Clock;
+const nowOf = (at: NowSource): Date => (at instanceof Date ? at : at.now());
 
-/** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` before the clock's now. */
-export function completeSteps(clock: Clock, endMinutesAgo = 30) {
-  const s = endMinutesAgo + 80;
-  return [
-    { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: minutesAgo(clock, s) },
-    { step: 'rinse', at: minutesAgo(clock, s - 65) },
-    { step: 'sanitize', chemical: 'acid-sanitizer', concentration: 1.6, contactMinutes: 2, at: minutesAgo(clock, s - 75) },
-    { step: 'purge', contactMinutes: 0.5, at: minutesAgo(clock, endMinutesAgo) },
-  ];
+/** An ISO time `m` minutes before `now` (a Date, or the test's clock read now). */
+export const minutesAgo = (now: NowSource, m: number) => new Date(nowOf(now).getTime() - m * MINUTE).toISOString();
+
+/** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` before `now` (the test's clock). */
+export function completeSteps(now: NowSource, endMinutesAgo = 30) {
+  return cycleSteps(minutesAgo(now, endMinutesAgo));
 }
 
 export const fullChecklist = {
@@ -31,25 +33,33 @@ export const fullChecklist = {
   leakChecked: true,
 } as const;
 
-/**
- * New kegs for a test: empty 19 L kegs in the cellar needing cleaning (no cycle on record), made
- * with the factories on each call, so no two tests ever share one.
- */
+/** New empty kegs in the cellar (19 L, needing cleaning, no cycle, no fill), made for the caller each time. */
 export function kegPool(ctx: TestContext) {
   return async function takeKegs(n: number): Promise<{ id: string; code: string }[]> {
     const kegs: { id: string; code: string }[] = [];
     for (let i = 0; i < n; i++) {
-      const k = await createKeg(ctx.db);
-      kegs.push({ id: k.id, code: k.code });
+      const keg = await createKeg(ctx.db);
+      kegs.push({ id: keg.id, code: keg.code });
     }
     return kegs;
   };
 }
 
-/** Makes kegs ready through the API, as the brewer on duty would, finishing half an hour before the test clock's now. */
-export async function makeReady(brewer: ApiClient, ids: string[], clock: Clock) {
+/** The server's "now" (its clock), as the Today screen reports it. */
+async function serverNow(client: ApiClient): Promise<Date> {
+  const res = await client.get('/api/today');
+  if (res.status !== 200 || !res.body.generatedAt) throw new Error(`no server time: ${res.status}`);
+  return new Date(res.body.generatedAt);
+}
+
+/**
+ * Makes kegs ready through the API, as the brewer on duty would, with a cycle finished half an
+ * hour before `now` (a Date or the test's clock; default: the server's clock).
+ */
+export async function makeReady(brewer: ApiClient, ids: string[], now?: NowSource) {
   for (const id of ids) {
-    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps(clock) });
+    const at = now === undefined ? await serverNow(brewer) : nowOf(now);
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps(at) });
     if (res.status !== 201 || res.body.cycle.outcome !== 'ready') throw new Error(`could not ready ${id}: ${res.status} ${JSON.stringify(res.body)}`);
   }
 }
@@ -64,27 +74,28 @@ export interface PooledBatch {
 }
 
 /**
- * A new batch fermenting in a new fermenter on each call, dated from the test clock: a member's
- * (a new one unless `ownerId` is given) 50 L batch in a 60 L fermenter, sanitized the hour before, booked from 15 days ago to a
- * week ahead, with readings from OG 1.052 (14 days ago) down to a steady 1.011 (3 days and 1 day ago).
+ * A batch still in its fermenter, made for the caller each time, dated from the test's clock: a
+ * member's (a new one unless `ownerId` is given) 50 L pale ale, in a new 60 L fermenter sanitized
+ * the hour before it was filled 15 days ago and booked for it until a week ahead (holding), with
+ * readings from OG 1.052 (14 days ago) down to a steady 1.011 (3 days and 1 day ago).
  */
 export function batchPool(ctx: TestContext) {
   return async function takeBatch(o: { ownerId?: string; volumeLiters?: number; capacityLiters?: number } = {}): Promise<PooledBatch> {
     const now = ctx.clock.now().getTime();
-    const at = (days: number) => new Date(now + days * DAY);
+    const t = (days: number) => new Date(now + days * DAY);
     const fermenter = await createFermenter(ctx.db, { capacityLiters: o.capacityLiters ?? 60 });
-    // Cleaned and sanitized the hour before the wort went in.
-    await createSanitationCycle(ctx.db, { equipmentId: fermenter.id, readyAt: new Date(at(-15).getTime() - HOUR) });
+    await createSanitationCycle(ctx.db, { equipmentId: fermenter.id, readyAt: new Date(t(-15).getTime() - HOUR) });
     const batch = await createBatch(ctx.db, {
       ...(o.ownerId ? { ownerId: o.ownerId } : {}),
+      style: 'Pale ale',
       volumeLiters: o.volumeLiters ?? 50,
       readings: [
-        { takenAt: at(-14), value: 1.052 },
-        { takenAt: at(-7), value: 1.014 },
-        { takenAt: at(-3), value: 1.011 },
-        { takenAt: at(-1), value: 1.011 },
+        { takenAt: t(-14), value: 1.052 },
+        { takenAt: t(-7), value: 1.014 },
+        { takenAt: t(-3), value: 1.011 },
+        { takenAt: t(-1), value: 1.011 },
       ],
-      fermenter: { equipmentId: fermenter.id, startsAt: at(-15), endsAt: at(7), now: at(0) },
+      fermenter: { equipmentId: fermenter.id, startsAt: t(-15), endsAt: t(7), now: t(0) },
     });
     return { batchId: batch.id, name: batch.name, fermenterId: fermenter.id, fermenterCode: fermenter.code, volume: Number(batch.volume_liters), ownerId: batch.owner_id };
   };
