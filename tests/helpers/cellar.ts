@@ -1,4 +1,5 @@
-import { createBatch, createFermenter, createKeg, createMember, cycleSteps, DAY, MINUTE } from '../../db/factories/index.ts';
+import type { Clock } from '../../backend/lib/clock.ts';
+import { createBatch, createFermenter, createKeg, createSanitationCycle, cycleSteps, DAY, HOUR, MINUTE } from '../../db/factories/index.ts';
 import type { ApiClient, TestContext } from './context.ts';
 
 /**
@@ -7,9 +8,16 @@ import type { ApiClient, TestContext } from './context.ts';
  * test's clock, so they work on the fixture template whatever the machine's date.
  */
 
+/** An instant, or the clock to read it from (a test context's `ctx.clock`). */
+export type NowSource = Date | Clock;
+const nowOf = (at: NowSource): Date => (at instanceof Date ? at : at.now());
+
+/** An ISO time `m` minutes before `now` (a Date, or the test's clock read now). */
+export const minutesAgo = (now: NowSource, m: number) => new Date(nowOf(now).getTime() - m * MINUTE).toISOString();
+
 /** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` before `now` (the test's clock). */
-export function completeSteps(now: Date, endMinutesAgo = 30) {
-  return cycleSteps(new Date(now.getTime() - endMinutesAgo * MINUTE));
+export function completeSteps(now: NowSource, endMinutesAgo = 30) {
+  return cycleSteps(minutesAgo(now, endMinutesAgo));
 }
 
 export const fullChecklist = {
@@ -25,7 +33,7 @@ export const fullChecklist = {
   leakChecked: true,
 } as const;
 
-/** New empty kegs in the cellar (19 L, needing cleaning, no fill), made for the caller each time. */
+/** New empty kegs in the cellar (19 L, needing cleaning, no cycle, no fill), made for the caller each time. */
 export function kegPool(ctx: TestContext) {
   return async function takeKegs(n: number): Promise<{ id: string; code: string }[]> {
     const kegs: { id: string; code: string }[] = [];
@@ -44,40 +52,52 @@ async function serverNow(client: ApiClient): Promise<Date> {
   return new Date(res.body.generatedAt);
 }
 
-/** Makes kegs ready through the API, as the brewer on duty would, with a cycle finished half an hour before `now` (default: the server's clock). */
-export async function makeReady(brewer: ApiClient, ids: string[], now?: Date) {
-  const at = now ?? (await serverNow(brewer));
+/**
+ * Makes kegs ready through the API, as the brewer on duty would, with a cycle finished half an
+ * hour before `now` (a Date or the test's clock; default: the server's clock).
+ */
+export async function makeReady(brewer: ApiClient, ids: string[], now?: NowSource) {
   for (const id of ids) {
+    const at = now === undefined ? await serverNow(brewer) : nowOf(now);
     const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps(at) });
     if (res.status !== 201 || res.body.cycle.outcome !== 'ready') throw new Error(`could not ready ${id}: ${res.status} ${JSON.stringify(res.body)}`);
   }
 }
 
+export interface PooledBatch {
+  batchId: string;
+  name: string;
+  fermenterId: string;
+  fermenterCode: string;
+  volume: number;
+  ownerId: string;
+}
+
 /**
- * A batch still in its fermenter, made for the caller each time: a new member's 50 L pale ale,
- * fermenting for ten days before the test's now and nearly done (OG 1.052, last readings 1.011),
- * in a new 60 L fermenter booked for it (holding).
+ * A batch still in its fermenter, made for the caller each time, dated from the test's clock: a
+ * member's (a new one unless `ownerId` is given) 50 L pale ale, in a new 60 L fermenter sanitized
+ * the hour before it was filled 15 days ago and booked for it until a week ahead (holding), with
+ * readings from OG 1.052 (14 days ago) down to a steady 1.011 (3 days and 1 day ago).
  */
 export function batchPool(ctx: TestContext) {
-  return async function takeBatch(): Promise<{ batchId: string; name: string; fermenterId: string; fermenterCode: string; volume: number; ownerId: string }> {
+  return async function takeBatch(o: { ownerId?: string; volumeLiters?: number; capacityLiters?: number } = {}): Promise<PooledBatch> {
     const now = ctx.clock.now().getTime();
     const t = (days: number) => new Date(now + days * DAY);
-    const owner = await createMember(ctx.db);
-    const fermenter = await createFermenter(ctx.db, { capacityLiters: 60 });
+    const fermenter = await createFermenter(ctx.db, { capacityLiters: o.capacityLiters ?? 60 });
+    await createSanitationCycle(ctx.db, { equipmentId: fermenter.id, readyAt: new Date(t(-15).getTime() - HOUR) });
     const batch = await createBatch(ctx.db, {
-      ownerId: owner.id,
+      ...(o.ownerId ? { ownerId: o.ownerId } : {}),
       style: 'Pale ale',
-      volumeLiters: 50,
+      volumeLiters: o.volumeLiters ?? 50,
       readings: [
-        { takenAt: t(-10), value: 1.052 },
-        { takenAt: t(-6), value: 1.02 },
-        { takenAt: t(-3), value: 1.012 },
-        { takenAt: t(-2), value: 1.011 },
+        { takenAt: t(-14), value: 1.052 },
+        { takenAt: t(-7), value: 1.014 },
+        { takenAt: t(-3), value: 1.011 },
         { takenAt: t(-1), value: 1.011 },
       ],
-      fermenter: { equipmentId: fermenter.id, startsAt: t(-11), endsAt: t(10), now: t(0) },
+      fermenter: { equipmentId: fermenter.id, startsAt: t(-15), endsAt: t(7), now: t(0) },
     });
-    return { batchId: batch.id, name: batch.name, fermenterId: fermenter.id, fermenterCode: fermenter.code, volume: Number(batch.volume_liters), ownerId: owner.id };
+    return { batchId: batch.id, name: batch.name, fermenterId: fermenter.id, fermenterCode: fermenter.code, volume: Number(batch.volume_liters), ownerId: batch.owner_id };
   };
 }
 
