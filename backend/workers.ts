@@ -5,14 +5,14 @@ import { startCellarWorkers } from './modules/sanitation/cellar-workers.ts';
 
 /** Registers the queue workers; every instance may run them, pg-boss hands each job to one. */
 export async function startWorkers(deps: Deps): Promise<void> {
-  const { config, queue, db } = deps;
+  const { config, queue, db, clock } = deps;
   const transport = createTransport(config);
   await queue.work<OutgoingMail>('email.send', { pollingIntervalSeconds: 0.5 }, async (jobs) => {
     for (const job of jobs) await deliverMail(config, transport, job.data);
   });
   // Bookings move along with the clock: booked → in use at the start, → finished at the end.
   await queue.work('bookings.advance', async () => {
-    await advanceBookingStates(db);
+    await advanceBookingStates(db, clock.now());
   });
   await queue.schedule('bookings.advance', '*/5 * * * *');
   // Cellar: the fast-start reminder to lower the pressure, and lapsing freshness windows.

@@ -2,6 +2,7 @@
 // rules, clash check, insert under the exclusion constraint), how it behaves when 40 requests
 // race for one slot, how long a month of the calendar takes to read, and how long a QR label
 // sheet for the whole cellar takes to render. Prints figures; not a test.
+import { systemClock } from '../lib/clock.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import { createBooking, listBookings } from '../modules/bookings/bookings.service.ts';
 import { equipmentByIds } from '../modules/equipment/equipment.service.ts';
@@ -36,7 +37,7 @@ try {
     const slot = Math.floor(i / kegs.length);
     const startsAt = new Date(base.getTime() + slot * 2 * DAY);
     const endsAt = new Date(startsAt.getTime() + DAY - 3600_000);
-    await createBooking(db, { equipmentId: keg, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! }, viewer);
+    await createBooking(db, { equipmentId: keg, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! }, viewer, systemClock.now());
     made++;
   }
   const sequentialMs = performance.now() - t0;
@@ -52,7 +53,7 @@ try {
     t0 = performance.now();
     const results = await Promise.allSettled(
       Array.from({ length: 40 }, (_, i) =>
-        createBooking(db, { equipmentId, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! }, viewer),
+        createBooking(db, { equipmentId, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! }, viewer, systemClock.now()),
       ),
     );
     raceMs.push(performance.now() - t0);
@@ -76,7 +77,7 @@ try {
   const calendarMs = (performance.now() - t0) / reads;
 
   // 4. A label sheet for every item in the cellar.
-  const all = await equipmentByIds(db, (await db.selectFrom('equipment').select('id').execute()).map((e) => e.id));
+  const all = await equipmentByIds(db, (await db.selectFrom('equipment').select('id').execute()).map((e) => e.id), systemClock.now());
   await renderLabelSheet(all.slice(0, 3), 'http://127.0.0.1:3000'); // warm-up: font load
   t0 = performance.now();
   const pdf = await renderLabelSheet(all, 'http://127.0.0.1:3000');

@@ -104,6 +104,7 @@ async function child(kind: string, url: string, batchId: string, file: string, a
       actor: { id: actorId, roles: ['member'] },
       settings,
       timeZone: 'UTC',
+      now: new Date(),
     });
     rows = kind.endsWith('-dry') ? (result.preview?.validRows ?? 0) : result.imported;
   }

@@ -2,7 +2,10 @@ import type { ClientRateLimitInfo, Options, Store } from 'express-rate-limit';
 import { sql } from 'kysely';
 import type { Database } from '../db/database.ts';
 
-/** express-rate-limit counters kept in PostgreSQL, so every app instance counts the same hits. */
+/**
+ * express-rate-limit counters kept in PostgreSQL, so every app instance counts the same hits. A window
+ * is real elapsed time, so it is measured by the database's own clock alone (one clock for every instance).
+ */
 export class PgRateLimitStore implements Store {
   localKeys = false;
   private windowMs = 60_000;
@@ -17,10 +20,9 @@ export class PgRateLimitStore implements Store {
 
   async increment(key: string): Promise<ClientRateLimitInfo> {
     const k = this.prefix + key;
-    const resetAt = new Date(Date.now() + this.windowMs);
     const row = await this.db
       .insertInto('rate_limit')
-      .values({ key: k, hits: 1, reset_at: resetAt })
+      .values({ key: k, hits: 1, reset_at: sql<Date>`now() + ${this.windowMs} * interval '1 millisecond'` })
       .onConflict((oc) =>
         oc.column('key').doUpdateSet({
           hits: sql`case when rate_limit.reset_at <= now() then 1 else rate_limit.hits + 1 end`,
@@ -37,7 +39,7 @@ export class PgRateLimitStore implements Store {
       .selectFrom('rate_limit')
       .select(['hits', 'reset_at'])
       .where('key', '=', this.prefix + key)
-      .where('reset_at', '>', new Date())
+      .where('reset_at', '>', sql<Date>`now()`)
       .executeTakeFirst();
     return row ? { totalHits: row.hits, resetTime: new Date(row.reset_at) } : undefined;
   }

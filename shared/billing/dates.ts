@@ -77,7 +77,7 @@ export function dateSpan(from: string, to: string): string {
 }
 
 /** Today's date in a time zone, as 'YYYY-MM-DD'. */
-export function todayIn(timeZone: string, now: Date = new Date()): string {
+export function todayIn(timeZone: string, now: Date): string {
   const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
   const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
   return `${get('year')}-${get('month')}-${get('day')}`;

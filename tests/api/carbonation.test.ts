@@ -109,7 +109,7 @@ describe('carbonation plans for a keg', () => {
     const sent = await brewer.get(`/api/carbonation-plans/${plan.id}`);
     expect(sent.body.plan.reminderSentAt).toBeTruthy();
     // Never twice, even if the periodic pass looks again.
-    expect(await sendDueReminders(ctx.db, ctx.deps.queue)).toBe(0);
+    expect(await sendDueReminders(ctx.db, ctx.deps.queue, ctx.clock.now())).toBe(0);
     const due = await brewer.get('/api/carbonation-plans?lowerDue=true');
     expect(due.body.items.map((p: { id: string }) => p.id)).toContain(plan.id);
     const lowered = await brewer.post(`/api/carbonation-plans/${plan.id}/pressure-lowered`);

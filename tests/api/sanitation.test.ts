@@ -259,13 +259,13 @@ describe('the log and the vessels’ standing', () => {
     const status = await brewer.get(`/api/sanitation-status?q=${keg.code}`);
     expect(status.body.items[0]).toMatchObject({ code: keg.code, state: 'needs_cleaning', storedState: 'ready' });
     expect(status.body.items[0].stateReason).toMatch(/lapsed/);
-    expect(await applyFreshnessLapses(ctx.db)).toBeGreaterThanOrEqual(1);
+    expect(await applyFreshnessLapses(ctx.db, ctx.clock.now())).toBeGreaterThanOrEqual(1);
     expect(await stateOf(keg.id)).toBe('needs_cleaning');
     const change = await ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
     expect(change).toMatchObject({ from_state: 'ready', to_state: 'needs_cleaning', actor_id: null });
     expect(change.reason).toMatch(/Freshness window lapsed/);
     // Once written down, a second pass changes nothing for it.
-    const again = await applyFreshnessLapses(ctx.db);
+    const again = await applyFreshnessLapses(ctx.db, ctx.clock.now());
     const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').where('at', '>', new Date(Date.now() - 3600_000)).execute();
     expect(changes).toHaveLength(1);
     expect(again).toBeGreaterThanOrEqual(0);

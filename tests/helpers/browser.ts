@@ -2,10 +2,14 @@ import fs from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
+import type { Clock } from '../../backend/lib/clock.ts';
 import type { TestContext } from './context.ts';
 import { DEMO_PASSWORD } from './context.ts';
 
 export const artifactsDir = path.resolve('test-artifacts', 'screenshots');
+
+/** The clock of the app served at each address, so the browser's clock can agree with the server's. */
+const servedClocks = new Map<string, Clock>();
 
 /** Serves the test context's app (API + built front end) on a free loopback port. */
 export async function serve(ctx: TestContext): Promise<{ url: string; close(): Promise<void> }> {
@@ -14,6 +18,7 @@ export async function serve(ctx: TestContext): Promise<{ url: string; close(): P
   await new Promise<void>((resolve) => server.once('listening', () => resolve()));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   ctx.config.publicUrl = url;
+  servedClocks.set(url, ctx.clock);
   return {
     url,
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
@@ -32,7 +37,19 @@ export function launchBrowser(): Promise<Browser> {
 export const phone = { width: 390, height: 844 };
 export const desktop = { width: 1366, height: 860 };
 
-/** A new browser context (UTC unless told otherwise, so dates on screen are stable) signed in through the sign-in form. */
+/**
+ * A new browser context on the app at `baseUrl` (UTC unless told otherwise, so dates on screen are
+ * stable) whose clock starts where the server's clock is now and runs on, so "today" on screen is the
+ * server's today whatever the machine's date.
+ */
+export async function newAppContext(browser: Browser, baseUrl: string, options: BrowserContextOptions = {}): Promise<BrowserContext> {
+  const context = await browser.newContext({ baseURL: baseUrl, timezoneId: 'UTC', ...options });
+  const clock = servedClocks.get(baseUrl);
+  if (clock) await context.clock.install({ time: clock.now() });
+  return context;
+}
+
+/** A new browser context (see newAppContext) signed in through the sign-in form. */
 export async function signedInPage(
   browser: Browser,
   baseUrl: string,
@@ -43,7 +60,7 @@ export async function signedInPage(
     context: extra = {},
   }: { viewport?: { width: number; height: number }; password?: string; context?: BrowserContextOptions } = {},
 ): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport, baseURL: baseUrl, timezoneId: 'UTC', ...extra });
+  const context = await newAppContext(browser, baseUrl, { viewport, ...extra });
   const page = await context.newPage();
   await page.goto('/login');
   await page.getByLabel('E-mail', { exact: true }).fill(email);

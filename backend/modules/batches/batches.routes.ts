@@ -34,7 +34,7 @@ function receiveFile(req: Request, res: Response): Promise<void> {
 
 const progressIdSchema = z.uuid('progressId must be a uuid').optional();
 
-export function batchesRoutes({ db }: Deps): Router {
+export function batchesRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
@@ -62,7 +62,7 @@ export function batchesRoutes({ db }: Deps): Router {
     const input = updateBatchSchema.parse(req.body ?? {});
     const row = await findVisibleBatch(db, req.ability, req.params.id);
     ForbiddenError.from(req.ability).throwUnlessCan('update', subject('Batch', { ownerId: row.owner_id }));
-    const updated = await updateBatch(db, row, input, req.user!);
+    const updated = await updateBatch(db, row, input, req.user!, clock.now());
     res.json({ batch: await batchDetail(db, req.ability, updated) });
   });
 
@@ -78,7 +78,7 @@ export function batchesRoutes({ db }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('create', subject('Reading', { ownerId: row.owner_id }));
     const input = createReadingSchema.parse(req.body ?? {});
     const settings = await loadFermentationSettings(db);
-    const reading = await addReading(db, row, input, settings, req.user!);
+    const reading = await addReading(db, row, input, settings, req.user!, clock.now());
     res.status(201).json({ reading });
   });
 
@@ -103,7 +103,7 @@ export function batchesRoutes({ db }: Deps): Router {
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
     const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), loadCoopTimeZone(db)]);
     void pruneImportProgress(db).catch(() => undefined);
-    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: req.user!, settings, timeZone });
+    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: req.user!, settings, timeZone, now: clock.now() });
     res.json(result);
   });
 

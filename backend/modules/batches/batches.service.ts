@@ -259,6 +259,7 @@ export async function updateBatch(
   batch: BatchRow,
   input: z.infer<typeof updateBatchSchema>,
   actor: Actor,
+  now: Date,
 ): Promise<BatchRow> {
   if (input.status && input.status !== batch.status && !nextBatchStatuses[batch.status].includes(input.status)) {
     throw conflict(
@@ -286,7 +287,7 @@ export async function updateBatch(
         ...(input.packagedLiters !== undefined ? { packaged_liters: input.packagedLiters ?? null } : {}),
         ...(input.packagedAt !== undefined ? { packaged_at: input.packagedAt ?? null } : {}),
         // Packaging without a time given: now.
-        ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: new Date() } : {}),
+        ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: now } : {}),
         updated_at: new Date(),
       })
       .where('id', '=', batch.id)

@@ -7,7 +7,7 @@ import { requireUser } from '../../middleware/authenticate.ts';
 import { loadCoopTimeZone } from './figures.ts';
 import { productionRecords, productionRecordsCsv, productionRecordsXlsx } from './production-records.service.ts';
 
-export function productionRecordsRoutes({ db }: Deps): Router {
+export function productionRecordsRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
@@ -18,7 +18,7 @@ export function productionRecordsRoutes({ db }: Deps): Router {
     // Whoever may read only their own records (a member) sees only their own batches.
     const ownerId = !canAll(req.ability, 'read', 'ProductionRecord') || q.mine ? req.user!.id : undefined;
     const timeZone = await loadCoopTimeZone(db);
-    const report = await productionRecords(db, { from: q.from, to: q.to, ownerId, timeZone });
+    const report = await productionRecords(db, { from: q.from, to: q.to, ownerId, timeZone, now: clock.now() });
     const name = `production-records-${report.from}-to-${report.to}`;
     if (format === 'csv') {
       res.type('text/csv; charset=utf-8').attachment(`${name}.csv`).send(productionRecordsCsv(report));

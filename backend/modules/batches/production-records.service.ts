@@ -1,3 +1,4 @@
+import { todayIn } from '../../../shared/billing/dates.ts';
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { sql } from 'kysely';
@@ -10,8 +11,8 @@ import { zonedTime } from './import-cells.ts';
 export function periodBounds(
   from: string | undefined,
   to: string | undefined,
-  timeZone = 'UTC',
-  now = new Date(),
+  timeZone: string,
+  now: Date,
 ): { start: Date; end: Date; from: string; to: string } {
   const parts = (s: string) => s.split('-').map(Number) as [number, number, number?];
   const startOf = (s: string) => {
@@ -23,8 +24,10 @@ export function periodBounds(
     const next = d === undefined ? new Date(Date.UTC(y, m, 1)) : new Date(Date.UTC(y, m - 1, d + 1));
     return new Date(zonedTime(next.getUTCFullYear(), next.getUTCMonth() + 1, next.getUTCDate(), 0, 0, 0, 0, timeZone));
   };
-  const defaultTo = now.toISOString().slice(0, 7);
-  const defaultFrom = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 11, 1)).toISOString().slice(0, 7);
+  // By default the twelve months up to this one, in the co-op's calendar.
+  const defaultTo = todayIn(timeZone, now).slice(0, 7);
+  const [ty, tm] = defaultTo.split('-').map(Number) as [number, number];
+  const defaultFrom = new Date(Date.UTC(ty, tm - 12, 1)).toISOString().slice(0, 7);
   const f = from ?? defaultFrom;
   const t = to ?? defaultTo;
   return { start: startOf(f), end: endOf(t), from: f, to: t };
@@ -38,9 +41,9 @@ const round = (v: number, d: number) => Math.round(v * 10 ** d) / 10 ** d;
  */
 export async function productionRecords(
   db: Database,
-  { from, to, ownerId, timeZone = 'UTC' }: { from?: string; to?: string; ownerId?: string; timeZone?: string },
+  { from, to, ownerId, timeZone = 'UTC', now }: { from?: string; to?: string; ownerId?: string; timeZone?: string; now: Date },
 ): Promise<ProductionRecords> {
-  const period = periodBounds(from, to, timeZone);
+  const period = periodBounds(from, to, timeZone, now);
   if (period.end <= period.start) {
     return { from: period.from, to: period.to, rows: [], months: [], totals: { batches: 0, packagedLiters: 0, usBarrels: 0 }, note: productionRecordsNote };
   }

@@ -35,6 +35,8 @@ export interface ImportRequest {
   settings: FermentationSettings;
   /** The co-op's time zone: times without an offset are read in it unless the mapping names one. */
   timeZone: string;
+  /** The clock's "now": readings dated after it are refused. */
+  now: Date;
 }
 
 type Progress = (phase: 'reading' | 'checking' | 'writing' | 'done' | 'failed', rowsDone: number, rowsTotal: number | null, message?: string) => Promise<void>;
@@ -118,11 +120,11 @@ interface CheckedRow {
 }
 
 /** Reads every row through the mapping; each problem names its row and column. */
-function checkRows(table: FileTable, mapping: ImportMapping): CheckedRow[] {
+function checkRows(table: FileTable, mapping: ImportMapping, nowDate: Date): CheckedRow[] {
   const idx = (h: string | null | undefined) => (h ? table.headers.indexOf(h) : -1);
   const col = { takenAt: idx(mapping.takenAt), gravity: idx(mapping.gravity), unit: idx(mapping.unit), temperature: idx(mapping.temperature), note: idx(mapping.note) };
   const order = mapping.dateOrder === 'auto' ? detectDateOrder(table.rows.map((r) => r.cells[col.takenAt] ?? null)) : mapping.dateOrder;
-  const now = Date.now();
+  const now = nowDate.getTime();
   const quoteProblems = new Map(table.problems.map((p) => [p.row, p.message]));
   return table.rows.map(({ row, cells }) => {
     const out: CheckedRow = { row, cells, candidate: null, problems: [], status: 'ok', takenAt: null, gravity: null, unit: null, temperatureC: null, note: '' };
@@ -215,7 +217,7 @@ export async function importReadings(db: Database, req: ImportRequest): Promise<
       ]);
     }
     await progress('checking', 0, table.rows.length);
-    const checked = checkRows(table, mapping);
+    const checked = checkRows(table, mapping, req.now);
 
     // Duplicates: within the file, and of readings the batch already has.
     const existing = new Set(
@@ -326,7 +328,7 @@ export async function importReadings(db: Database, req: ImportRequest): Promise<
       await sql`select pg_advisory_xact_lock(hashtext(${req.batch.id}))`.execute(trx);
       const ids = await insertReadings(trx, req.batch.id, normalised, 'import', req.actor.id, (done) => progress('writing', done, normalised.length));
       if (first && normalised.some((n) => n.time < first.time)) await renormaliseBrix(trx, req.batch.id, req.settings);
-      await startFermentingIfPlanned(trx, req.batch, req.actor.id);
+      await startFermentingIfPlanned(trx, req.batch, req.actor.id, req.now);
       await trx
         .insertInto('reading_import_mapping')
         .values({ user_id: req.actor.id, mapping: JSON.stringify(mapping), headers: table.headers })

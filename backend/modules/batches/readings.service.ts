@@ -156,9 +156,9 @@ export async function renormaliseBrix(trx: Database, batchId: string, settings: 
 }
 
 /** A planned batch starts fermenting with its first reading. */
-export async function startFermentingIfPlanned(trx: Database, batch: BatchRow, actorId: string) {
+export async function startFermentingIfPlanned(trx: Database, batch: BatchRow, actorId: string, now: Date) {
   if (batch.status !== 'planned') return;
-  await trx.updateTable('batch').set({ status: 'fermenting', updated_at: new Date() }).where('id', '=', batch.id).where('status', '=', 'planned').execute();
+  await trx.updateTable('batch').set({ status: 'fermenting', updated_at: now }).where('id', '=', batch.id).where('status', '=', 'planned').execute();
   await audit(trx, actorId, 'status:fermenting', 'Batch', batch.id, { reason: 'first reading' });
 }
 
@@ -170,9 +170,10 @@ export async function addReading(
   input: { takenAt: string; gravity: number; unit: GravityUnit; temperatureC?: number | null; correctTemperature: boolean; note: string },
   settings: FermentationSettings,
   actor: Actor,
+  now: Date,
 ): Promise<ReadingDto> {
   const time = Date.parse(input.takenAt);
-  if (time > Date.now() + MAX_FUTURE_MS) {
+  if (time > now.getTime() + MAX_FUTURE_MS) {
     throw unprocessable('The reading is dated in the future.', [{ path: 'takenAt', message: 'The time of the reading is in the future' }]);
   }
   if (batch.status === 'discarded') throw conflict('The batch is discarded; it takes no more readings.');
@@ -200,7 +201,7 @@ export async function addReading(
     }
     const [id] = await insertReadings(trx, batch.id, [normalised], 'manual', actor.id);
     if (first && time < first.time) await renormaliseBrix(trx, batch.id, settings);
-    await startFermentingIfPlanned(trx, batch, actor.id);
+    await startFermentingIfPlanned(trx, batch, actor.id, now);
     await audit(trx, actor.id, 'reading:added', 'Batch', batch.id, { readingId: id, takenAt: input.takenAt, gravity: input.gravity, unit: input.unit });
     return readingById(trx, id!);
   });

@@ -31,7 +31,7 @@ export async function coopTimeZone(db: Database): Promise<string> {
   return (await getBookingRules(db)).timeZone;
 }
 
-export async function coopToday(db: Database, now: Date = new Date()): Promise<{ today: string; timeZone: string }> {
+export async function coopToday(db: Database, now: Date): Promise<{ today: string; timeZone: string }> {
   const timeZone = await coopTimeZone(db);
   return { today: todayIn(timeZone, now), timeZone };
 }

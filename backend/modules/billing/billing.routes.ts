@@ -65,7 +65,7 @@ function requireEveryInvoice(req: Request) {
 }
 
 export function invoiceRunsRoutes(deps: Deps): Router {
-  const { db } = deps;
+  const { db, clock } = deps;
   const router = Router();
   router.use(requireUser);
 
@@ -78,13 +78,13 @@ export function invoiceRunsRoutes(deps: Deps): Router {
   router.get('/preview', async (req, res) => {
     can(req).throwUnlessCan('run', 'InvoiceRun');
     const q = invoiceRunPreviewQuerySchema.parse(req.query);
-    res.json(await previewRun(db, q.period));
+    res.json(await previewRun(db, q.period, { now: clock.now() }));
   });
 
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('run', 'InvoiceRun');
     const input = invoiceRunInputSchema.parse(req.body ?? {});
-    const result = await runPeriod(db, input, req.user!.id);
+    const result = await runPeriod(db, input, req.user!.id, { now: clock.now() });
     res.status(201).json(result);
   });
 
@@ -111,7 +111,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
     const { id } = idParam.parse(req.params);
     const run = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
     if (!run) throw notFound('Invoice run');
-    const issued = await issueRunDrafts(db, run.id, req.user!.id);
+    const issued = await issueRunDrafts(db, run.id, req.user!.id, clock.now());
     res.json({ issued: issued.length });
   });
 
@@ -119,14 +119,14 @@ export function invoiceRunsRoutes(deps: Deps): Router {
 }
 
 export function invoicesRoutes(deps: Deps): Router {
-  const { db, config } = deps;
+  const { db, config, clock } = deps;
   const router = Router();
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'Invoice');
     const q = invoiceListQuerySchema.parse(req.query);
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     const scope = canAll(req.ability, 'read', 'Invoice') ? {} : { ownerId: req.user!.id };
     res.json(await listInvoices(db, q, scope, today));
   });
@@ -152,14 +152,14 @@ export function invoicesRoutes(deps: Deps): Router {
   router.get('/:id', async (req, res) => {
     const { id } = idParam.parse(req.params);
     const row = await visibleInvoice(req, db, id);
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     res.json({ invoice: await getDetail(db, row.id, today) });
   });
 
   router.get('/:id/pdf', async (req, res) => {
     const { id } = idParam.parse(req.params);
     const row = await visibleInvoice(req, db, id);
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     const invoice = await getDetail(db, row.id, today);
     const pdf = await renderInvoicePdf({ invoice, profile: await getBillingProfile(db), appUrl: config.publicUrl });
     res
@@ -174,10 +174,10 @@ export function invoicesRoutes(deps: Deps): Router {
     const { id } = idParam.parse(req.params);
     const row = await visibleInvoice(req, db, id);
     await db.transaction().execute(async (trx) => {
-      const { today } = await coopToday(trx);
+      const { today } = await coopToday(trx, clock.now());
       await issueInvoice(trx, row.id, today, req.user!.id);
     });
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     res.json({ invoice: await getDetail(db, row.id, today) });
   });
 
@@ -206,8 +206,8 @@ export function invoicesRoutes(deps: Deps): Router {
     const body = z.object({ sessionId: z.string().min(1).max(200) }).parse(req.body ?? {});
     const row = await visibleInvoice(req, db, id);
     if (row.member_id !== req.user!.id) throw forbidden();
-    const outcome = await confirmCheckout(db, config, row.id, body.sessionId);
-    const { today } = await coopToday(db);
+    const outcome = await confirmCheckout(db, config, row.id, body.sessionId, clock.now());
+    const { today } = await coopToday(db, clock.now());
     res.json({ outcome, invoice: await getDetail(db, row.id, today) });
   });
 
@@ -218,7 +218,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
     const payment = await db.transaction().execute((trx) => recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id));
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     res.status(201).json({ payment, invoice: await getDetail(db, row.id, today) });
   });
 
@@ -229,10 +229,10 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('update', subject('Invoice', { memberId: row.member_id }));
     const result = await db.transaction().execute(async (trx) => {
-      const { today } = await coopToday(trx);
+      const { today } = await coopToday(trx, clock.now());
       return voidInvoice(trx, row.id, input, today, req.user!.id);
     });
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     res.json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
 
@@ -243,23 +243,23 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('CreditNote', { memberId: row.member_id }));
     const result = await db.transaction().execute(async (trx) => {
-      const { today } = await coopToday(trx);
+      const { today } = await coopToday(trx, clock.now());
       return refundInvoice(trx, row.id, input, today, req.user!.id);
     });
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     res.status(201).json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
 
   return router;
 }
 
-export function pricesRoutes({ db }: Deps): Router {
+export function pricesRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'PriceList');
-    const { prices, taxRates, today } = await listPrices(db);
+    const { prices, taxRates, today } = await listPrices(db, clock.now());
     const profile = await getBillingProfile(db);
     res.json({ items: prices, total: prices.length, page: 1, pageSize: Math.max(prices.length, 1), taxRates, currency: profile.currency, today });
   });
@@ -267,46 +267,46 @@ export function pricesRoutes({ db }: Deps): Router {
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('create', 'PriceList');
     const input = priceInputSchema.parse(req.body ?? {});
-    res.status(201).json({ price: await addPrice(db, input as Required<typeof input>, req.user!.id) });
+    res.status(201).json({ price: await addPrice(db, input as Required<typeof input>, req.user!.id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
     can(req).throwUnlessCan('delete', 'PriceList');
     const { id } = idParam.parse(req.params);
-    await removePrice(db, id, req.user!.id);
+    await removePrice(db, id, req.user!.id, clock.now());
     res.status(204).end();
   });
 
   return router;
 }
 
-export function taxRatesRoutes({ db }: Deps): Router {
+export function taxRatesRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'PriceList');
-    const { taxRates } = await listPrices(db);
+    const { taxRates } = await listPrices(db, clock.now());
     res.json({ items: taxRates, total: taxRates.length, page: 1, pageSize: Math.max(taxRates.length, 1) });
   });
 
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('create', 'PriceList');
     const input = taxRateInputSchema.parse(req.body ?? {});
-    res.status(201).json({ taxRate: await addTaxRate(db, input, req.user!.id) });
+    res.status(201).json({ taxRate: await addTaxRate(db, input, req.user!.id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
     can(req).throwUnlessCan('delete', 'PriceList');
     const { id } = idParam.parse(req.params);
-    await removeTaxRate(db, id, req.user!.id);
+    await removeTaxRate(db, id, req.user!.id, clock.now());
     res.status(204).end();
   });
 
   return router;
 }
 
-export function manualChargesRoutes({ db }: Deps): Router {
+export function manualChargesRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
   const listQuery = z.object({ period: periodSchema.optional(), memberId: z.uuid().optional() });
@@ -327,7 +327,7 @@ export function manualChargesRoutes({ db }: Deps): Router {
     can(req).throwUnlessCan('create', 'Charge');
     const input = manualChargeInputSchema.parse(req.body ?? {});
     can(req).throwUnlessCan('create', subject('Charge', { memberId: input.memberId }));
-    res.status(201).json({ charge: await addManualCharge(db, input as Required<typeof input>, req.user!.id) });
+    res.status(201).json({ charge: await addManualCharge(db, input as Required<typeof input>, req.user!.id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
@@ -340,19 +340,19 @@ export function manualChargesRoutes({ db }: Deps): Router {
   return router;
 }
 
-export function billingRoutes({ db }: Deps): Router {
+export function billingRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.get('/summary', async (req, res) => {
     requireEveryInvoice(req);
-    res.json(await billingSummary(db));
+    res.json(await billingSummary(db, clock.now()));
   });
 
   router.get('/ageing', async (req, res) => {
     requireEveryInvoice(req);
     const q = ageingQuerySchema.parse(req.query);
-    res.json(await ageingReport(db, q.asOf));
+    res.json(await ageingReport(db, clock.now(), q.asOf));
   });
 
   /** A member's own balance; the treasurer may ask for anyone's with ?memberId=. */
@@ -361,7 +361,7 @@ export function billingRoutes({ db }: Deps): Router {
     const q = z.object({ memberId: z.uuid().optional() }).parse(req.query);
     const memberId = q.memberId ?? req.user!.id;
     if (!req.ability.can('read', subject('Invoice', { memberId }))) throw notFound('Member');
-    const [{ today }, profile] = await Promise.all([coopToday(db), getBillingProfile(db)]);
+    const [{ today }, profile] = await Promise.all([coopToday(db, clock.now()), getBillingProfile(db)]);
     res.json(await memberBalance(db, memberId, today, profile.currency));
   });
 
@@ -381,7 +381,7 @@ export function billingRoutes({ db }: Deps): Router {
 }
 
 /** A credit note as a document: `GET /api/credit-notes/:id/pdf` (the member it credits, and the treasurer). */
-export function creditNotesRoutes({ db }: Deps): Router {
+export function creditNotesRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
   router.get('/:id/pdf', async (req, res) => {
@@ -391,7 +391,7 @@ export function creditNotesRoutes({ db }: Deps): Router {
       ? await db.selectFrom('credit_note').select(['id', 'invoice_id', 'member_id', 'number']).where('id', '=', id).executeTakeFirst()
       : undefined;
     if (!row || !req.ability.can('read', subject('CreditNote', { memberId: row.member_id }))) throw notFound('Credit note');
-    const { today } = await coopToday(db);
+    const { today } = await coopToday(db, clock.now());
     const invoice = await getDetail(db, row.invoice_id, today);
     const note = invoice.creditNotes.find((n) => n.id === row.id)!;
     const payback = invoice.payments.find((p) => p.creditNoteId === row.id);
@@ -407,7 +407,7 @@ export function creditNotesRoutes({ db }: Deps): Router {
 }
 
 /** The payment provider's webhook: no session, no CSRF token; the signature over the raw body is the check. */
-export function paymentWebhookRoutes({ db, config }: Deps): Router {
+export function paymentWebhookRoutes({ db, config, clock }: Deps): Router {
   const router = Router();
   router.post('/payments', async (req, res) => {
     const signature = req.get('stripe-signature');
@@ -420,7 +420,7 @@ export function paymentWebhookRoutes({ db, config }: Deps): Router {
       req.log?.warn({ err: (err as Error).message }, 'payment webhook with a bad signature');
       throw badRequest('The signature does not match the body: the event is rejected.');
     }
-    const result = await handleProviderEvent(db, event);
+    const result = await handleProviderEvent(db, event, clock.now());
     res.json({ received: true, ...result });
   });
   return router;

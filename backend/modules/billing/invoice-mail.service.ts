@@ -11,16 +11,17 @@ import { getDetail, issueInvoice, markSent } from './invoices.service.ts';
  * E-mails an invoice with its PDF through the mail queue (retried there until the mail server takes
  * it). A draft is issued first, so a member only ever receives numbered invoices.
  */
-export async function sendInvoice({ db, config, queue }: Deps, invoiceId: string, actorId: string) {
+export async function sendInvoice({ db, config, queue, clock }: Deps, invoiceId: string, actorId: string) {
+  const now = clock.now();
   await db.transaction().execute(async (trx) => {
     const row = await trx.selectFrom('invoice').select('status').where('id', '=', invoiceId).forUpdate().executeTakeFirstOrThrow();
     if (row.status === 'void') throw conflict('A void invoice is not sent; its credit note replaces it.');
     if (row.status === 'draft') {
-      const { today } = await coopToday(trx);
+      const { today } = await coopToday(trx, now);
       await issueInvoice(trx, invoiceId, today, actorId);
     }
   });
-  const { today } = await coopToday(db);
+  const { today } = await coopToday(db, now);
   const invoice = await getDetail(db, invoiceId, today);
   const profile = await getBillingProfile(db);
   const pdf = await renderInvoicePdf({ invoice, profile, appUrl: config.publicUrl });

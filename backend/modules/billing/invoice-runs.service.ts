@@ -1,11 +1,11 @@
 import { sql } from 'kysely';
-import { periodBounds, periodLabel } from '../../../shared/billing/dates.ts';
+import { periodBounds, periodLabel, todayIn } from '../../../shared/billing/dates.ts';
 import { sumLines } from '../../../shared/billing/money.ts';
 import type { InvoicePreview, InvoiceRun, InvoiceSummary, RunPreview } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { HttpProblem } from '../../lib/http-problem.ts';
-import { coopToday, getBillingProfile } from './billing-profile.service.ts';
+import { coopTimeZone, coopToday, getBillingProfile } from './billing-profile.service.ts';
 import { deriveCharges, type PricedCharge } from './charges/index.ts';
 import type { ChargeContext } from './charges/types.ts';
 import { createInvoice, getSummary, issueInvoice } from './invoices.service.ts';
@@ -14,13 +14,15 @@ import { PriceBook } from './price-book.ts';
 /** Advisory-lock namespace of billing periods. */
 export const BILLING_LOCK = 7206;
 
-export interface RunClock {
-  /** The co-op's date to run as (the demo seed runs past months on their own dates); today otherwise. */
-  today?: string;
-}
+/**
+ * When a run happens: the co-op's date to run as (the demo seed runs past months on their own
+ * dates), or the clock's instant, whose date in the co-op's time zone is the run's day.
+ */
+export type RunClock = { today: string; now?: Date } | { now: Date; today?: string };
 
-async function context(db: Database, period: string, memberIds?: string[]): Promise<ChargeContext & { today: string }> {
-  const { today, timeZone } = await coopToday(db);
+async function context(db: Database, period: string, clock: RunClock, memberIds?: string[]): Promise<ChargeContext & { today: string }> {
+  const timeZone = await coopTimeZone(db);
+  const today = clock.today ?? todayIn(timeZone, clock.now!);
   const { first, last, next } = periodBounds(period);
   return { period, first, last, next, timeZone, book: await PriceBook.load(db), today, ...(memberIds ? { memberIds } : {}) };
 }
@@ -31,9 +33,9 @@ function periodProblems(period: string, today: string): string[] {
 }
 
 /** What a run of the period would bill, member by member, without writing anything. */
-export async function previewRun(db: Database, period: string, clock: RunClock = {}): Promise<RunPreview> {
-  const ctx = await context(db, period);
-  const today = clock.today ?? ctx.today;
+export async function previewRun(db: Database, period: string, clock: RunClock): Promise<RunPreview> {
+  const ctx = await context(db, period, clock);
+  const today = ctx.today;
   const [{ byMember, problems, sources }, profile, existing] = await Promise.all([
     deriveCharges(db, ctx),
     getBillingProfile(db),
@@ -82,7 +84,7 @@ export async function runPeriod(
   db: Database,
   input: { period: string; issue: boolean },
   actorId: string,
-  clock: RunClock = {},
+  clock: RunClock,
 ): Promise<{ run: InvoiceRun; invoices: InvoiceSummary[] }> {
   return db.transaction().execute((trx) => runPeriodIn(trx, input, actorId, clock));
 }
@@ -92,14 +94,14 @@ export async function runPeriodIn(
   trx: Database,
   input: { period: string; issue: boolean },
   actorId: string,
-  clock: RunClock = {},
+  clock: RunClock,
 ): Promise<{ run: InvoiceRun; invoices: InvoiceSummary[] }> {
   const result = await (async () => {
     // Runs share this lock (so two runs really do race, and the unique constraint decides);
     // adding a manual charge takes it alone, so no charge slips in while a run reads the period.
     await sql`select pg_advisory_xact_lock_shared(${BILLING_LOCK}, hashtext(${input.period}))`.execute(trx);
-    const ctx = await context(trx, input.period);
-    const today = clock.today ?? ctx.today;
+    const ctx = await context(trx, input.period, clock);
+    const today = ctx.today;
     const { byMember, problems } = await deriveCharges(trx, ctx);
     const all = [...periodProblems(input.period, today), ...problems];
     if (all.length) {
@@ -168,9 +170,9 @@ export async function listRuns(db: Database, limit = 24, { madeInvoices = false 
 }
 
 /** Issues every draft of a run (for runs made as drafts to review first). */
-export async function issueRunDrafts(db: Database, runId: string, actorId: string): Promise<string[]> {
+export async function issueRunDrafts(db: Database, runId: string, actorId: string, now: Date): Promise<string[]> {
   return db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx);
+    const { today } = await coopToday(trx, now);
     const drafts = await trx
       .selectFrom('invoice')
       .select('id')

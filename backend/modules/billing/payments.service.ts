@@ -61,7 +61,7 @@ export async function createCheckout(
  * checkout-session id makes a second report of the same session (another event, or the member's
  * return) change nothing. Call inside a transaction.
  */
-export async function applyPaidSession(trx: Database, session: CheckoutSession): Promise<{ outcome: string; invoiceId: string | null }> {
+export async function applyPaidSession(trx: Database, session: CheckoutSession, now: Date): Promise<{ outcome: string; invoiceId: string | null }> {
   const known = await trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
   if (!known) return { outcome: 'unknown_session', invoiceId: null };
   if (session.payment_status !== 'paid') return { outcome: `not_paid:${session.payment_status}`, invoiceId: known.invoice_id };
@@ -72,7 +72,7 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession):
     return { outcome: `currency_mismatch:${session.currency}`, invoiceId: known.invoice_id };
   }
   await lockInvoice(trx, known.invoice_id);
-  const { today } = await coopToday(trx);
+  const { today } = await coopToday(trx, now);
   await recordPayment(
     trx,
     known.invoice_id,
@@ -86,7 +86,7 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession):
     },
     null,
   );
-  await trx.updateTable('checkout_session').set({ status: 'complete', completed_at: new Date() }).where('id', '=', session.id).execute();
+  await trx.updateTable('checkout_session').set({ status: 'complete', completed_at: now }).where('id', '=', session.id).execute();
   return { outcome: 'paid', invoiceId: known.invoice_id };
 }
 
@@ -94,7 +94,7 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession):
  * Handles one verified provider event, exactly once: its id goes into payment_event first, and a
  * replay (or a concurrent duplicate, which waits on that row) finds it there and does nothing.
  */
-export async function handleProviderEvent(db: Database, event: ProviderEvent): Promise<{ duplicate: boolean; outcome: string }> {
+export async function handleProviderEvent(db: Database, event: ProviderEvent, now: Date): Promise<{ duplicate: boolean; outcome: string }> {
   return db.transaction().execute(async (trx) => {
     const fresh = await trx
       .insertInto('payment_event')
@@ -105,7 +105,7 @@ export async function handleProviderEvent(db: Database, event: ProviderEvent): P
     if (!fresh) return { duplicate: true, outcome: 'duplicate' };
     let result: { outcome: string; invoiceId: string | null } = { outcome: 'ignored', invoiceId: null };
     if (event.type === 'checkout.session.completed' || event.type === 'checkout.session.async_payment_succeeded') {
-      result = await applyPaidSession(trx, event.data.object);
+      result = await applyPaidSession(trx, event.data.object, now);
     } else if (event.type === 'checkout.session.expired') {
       const s = event.data.object;
       const updated = await trx.updateTable('checkout_session').set({ status: 'expired' }).where('id', '=', s.id).where('status', '=', 'open').returning('invoice_id').executeTakeFirst();
@@ -118,7 +118,7 @@ export async function handleProviderEvent(db: Database, event: ProviderEvent): P
 }
 
 /** The member is back from the provider's page: ask the provider directly, in case its webhook is late. */
-export async function confirmCheckout(db: Database, config: Config, invoiceId: string, sessionId: string): Promise<string> {
+export async function confirmCheckout(db: Database, config: Config, invoiceId: string, sessionId: string, now: Date): Promise<string> {
   const known = await db.selectFrom('checkout_session').select(['id', 'invoice_id']).where('id', '=', sessionId).executeTakeFirst();
   if (!known || known.invoice_id !== invoiceId) return 'unknown_session';
   let session: CheckoutSession;
@@ -127,5 +127,5 @@ export async function confirmCheckout(db: Database, config: Config, invoiceId: s
   } catch (err) {
     throw new HttpProblem(502, 'Payment provider unavailable', `The payment provider did not answer: ${(err as Error).message}`);
   }
-  return db.transaction().execute(async (trx) => (await applyPaidSession(trx, session)).outcome);
+  return db.transaction().execute(async (trx) => (await applyPaidSession(trx, session, now)).outcome);
 }

@@ -13,8 +13,8 @@ import { PriceBook } from './price-book.ts';
 const isUuid = (id: string) => /^[0-9a-f-]{36}$/i.test(id);
 
 /** The whole price list, history included; `current` marks each item's (and band's) price in effect today. */
-export async function listPrices(db: Database): Promise<{ prices: Price[]; taxRates: TaxRate[]; today: string }> {
-  const { today } = await coopToday(db);
+export async function listPrices(db: Database, now: Date): Promise<{ prices: Price[]; taxRates: TaxRate[]; today: string }> {
+  const { today } = await coopToday(db, now);
   const [prices, taxes] = await Promise.all([
     db.selectFrom('price').selectAll().orderBy('item').orderBy('band_max_liters').orderBy('effective_from', 'desc').execute(),
     db.selectFrom('tax_rate').selectAll().orderBy('effective_from', 'desc').execute(),
@@ -48,9 +48,9 @@ function notBackdated(effectiveFrom: string, today: string) {
   }
 }
 
-export async function addPrice(db: Database, input: Required<PriceInput>, actorId: string): Promise<Price> {
+export async function addPrice(db: Database, input: Required<PriceInput>, actorId: string, now: Date): Promise<Price> {
   return db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx);
+    const { today } = await coopToday(trx, now);
     notBackdated(input.effectiveFrom, today);
     const row = await trx
       .insertInto('price')
@@ -81,10 +81,10 @@ export async function addPrice(db: Database, input: Required<PriceInput>, actorI
 }
 
 /** Only a price that has not started yet may be withdrawn; one that has applied is history. */
-export async function removePrice(db: Database, id: string, actorId: string): Promise<void> {
+export async function removePrice(db: Database, id: string, actorId: string, now: Date): Promise<void> {
   if (!isUuid(id)) throw notFound('Price');
   await db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx);
+    const { today } = await coopToday(trx, now);
     const row = await trx.selectFrom('price').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
     if (!row) throw notFound('Price');
     if (row.effective_from <= today) throw conflict('This price has already applied; it stays in the history. Add a new price from a later date instead.');
@@ -93,9 +93,9 @@ export async function removePrice(db: Database, id: string, actorId: string): Pr
   });
 }
 
-export async function addTaxRate(db: Database, input: TaxRateInput, actorId: string): Promise<TaxRate> {
+export async function addTaxRate(db: Database, input: TaxRateInput, actorId: string, now: Date): Promise<TaxRate> {
   return db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx);
+    const { today } = await coopToday(trx, now);
     notBackdated(input.effectiveFrom, today);
     const row = await trx
       .insertInto('tax_rate')
@@ -109,10 +109,10 @@ export async function addTaxRate(db: Database, input: TaxRateInput, actorId: str
   });
 }
 
-export async function removeTaxRate(db: Database, id: string, actorId: string): Promise<void> {
+export async function removeTaxRate(db: Database, id: string, actorId: string, now: Date): Promise<void> {
   if (!isUuid(id)) throw notFound('Tax rate');
   await db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx);
+    const { today } = await coopToday(trx, now);
     const row = await trx.selectFrom('tax_rate').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
     if (!row) throw notFound('Tax rate');
     if (row.effective_from <= today) throw conflict('This tax rate has already applied; it stays in the history.');
@@ -158,7 +158,7 @@ export async function listManualCharges(db: Database, filter: { period?: string;
  * still a draft it goes straight onto it; once issued, that period is closed for them (pick the
  * next one), so an issued invoice never changes.
  */
-export async function addManualCharge(db: Database, input: Required<ManualChargeInput>, actorId: string): Promise<ManualCharge> {
+export async function addManualCharge(db: Database, input: Required<ManualChargeInput>, actorId: string, now: Date): Promise<ManualCharge> {
   return db.transaction().execute(async (trx) => {
     await sql`select pg_advisory_xact_lock(${BILLING_LOCK}, hashtext(${input.period}))`.execute(trx);
     const member = await trx.selectFrom('app_user').select('id').where('id', '=', input.memberId).executeTakeFirst();
@@ -187,7 +187,7 @@ export async function addManualCharge(db: Database, input: Required<ManualCharge
       .returningAll()
       .executeTakeFirstOrThrow();
     if (invoice) {
-      const { timeZone } = await coopToday(trx);
+      const { timeZone } = await coopToday(trx, now);
       const { first, last, next } = periodBounds(input.period);
       const book = await PriceBook.load(trx);
       const line = priceCharge(

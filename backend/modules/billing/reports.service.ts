@@ -18,8 +18,8 @@ export function bucketFor(ageDays: number): AgeingBucket {
  * Open amounts by age: what is still due on each issued invoice, by how many days have passed
  * since its invoice date (as of `asOf`), per member and in total.
  */
-export async function ageingReport(db: Database, asOf?: string): Promise<AgeingReport> {
-  const [{ today }, profile] = await Promise.all([coopToday(db), getBillingProfile(db)]);
+export async function ageingReport(db: Database, now: Date, asOf?: string): Promise<AgeingReport> {
+  const [{ today }, profile] = await Promise.all([coopToday(db, now), getBillingProfile(db)]);
   const at = asOf ?? today;
   const rows = await db
     .selectFrom('invoice')
@@ -53,8 +53,8 @@ export async function ageingReport(db: Database, asOf?: string): Promise<AgeingR
   };
 }
 
-export async function billingSummary(db: Database): Promise<BillingSummary> {
-  const [{ today }, profile, ageing, runs] = await Promise.all([coopToday(db), getBillingProfile(db), ageingReport(db), listRuns(db, 1, { madeInvoices: true })]);
+export async function billingSummary(db: Database, now: Date): Promise<BillingSummary> {
+  const [{ today }, profile, ageing, runs] = await Promise.all([coopToday(db, now), getBillingProfile(db), ageingReport(db, now), listRuns(db, 1, { madeInvoices: true })]);
   const row = await db
     .selectFrom('invoice')
     .select([

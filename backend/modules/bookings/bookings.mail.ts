@@ -11,7 +11,7 @@ const coop = 'Larkspur Yard Brewing Co-op';
 export const bookingUid = (id: string) => `booking-${id}@cellarwright.example.org`;
 
 /** An RFC 5545 calendar holding one event for the booking (a request, or its cancellation). */
-export function bookingIcs(booking: Booking, owner: { name: string; email: string }, config: Config, cancelled = false): string {
+export function bookingIcs(booking: Booking, owner: { name: string; email: string }, config: Config, now: Date, cancelled = false): string {
   const calendar = ical({
     name: `${coop} bookings`,
     prodId: { company: coop, product: 'Cellarwright', language: 'EN' },
@@ -21,7 +21,7 @@ export function bookingIcs(booking: Booking, owner: { name: string; email: strin
   calendar.createEvent({
     id: bookingUid(booking.id),
     sequence: cancelled ? 1 : 0,
-    stamp: new Date(),
+    stamp: now,
     start: new Date(booking.startsAt),
     end: new Date(booking.endsAt),
     summary: `${cancelled ? 'Cancelled: ' : ''}${booking.equipment.code} ${booking.equipment.name}`,
@@ -45,7 +45,7 @@ function attachment(ics: string, cancelled: boolean) {
   };
 }
 
-export function confirmationMail(booking: Booking, owner: { name: string; email: string }, timeZone: string, config: Config, bookedBy?: string): OutgoingMail {
+export function confirmationMail(booking: Booking, owner: { name: string; email: string }, timeZone: string, config: Config, now: Date, bookedBy?: string): OutgoingMail {
   const { code, name, kind } = booking.equipment;
   const lines = [
     `Hello ${owner.name},`,
@@ -71,11 +71,11 @@ export function confirmationMail(booking: Booking, owner: { name: string; email:
     to: owner.email,
     subject: `Booked: ${code} ${name}, ${formatWhen(new Date(booking.startsAt), timeZone)}`,
     text: lines.join('\n'),
-    attachments: [attachment(bookingIcs(booking, owner, config), false)],
+    attachments: [attachment(bookingIcs(booking, owner, config, now), false)],
   };
 }
 
-export function cancellationMail(booking: Booking, owner: { name: string; email: string }, timeZone: string, config: Config, cancelledBy: string): OutgoingMail {
+export function cancellationMail(booking: Booking, owner: { name: string; email: string }, timeZone: string, config: Config, now: Date, cancelledBy: string): OutgoingMail {
   const { code, name } = booking.equipment;
   const lines = [
     `Hello ${owner.name},`,
@@ -91,6 +91,6 @@ export function cancellationMail(booking: Booking, owner: { name: string; email:
     to: owner.email,
     subject: `Cancelled: ${code} ${name}, ${formatWhen(new Date(booking.startsAt), timeZone)}`,
     text: lines.join('\n'),
-    attachments: [attachment(bookingIcs(booking, owner, config, true), true)],
+    attachments: [attachment(bookingIcs(booking, owner, config, now, true), true)],
   };
 }

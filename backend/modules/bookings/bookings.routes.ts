@@ -13,7 +13,7 @@ import { cancelBooking, createBooking, findBooking, listBookings, toBookingDto }
 
 const idSchema = z.uuid();
 
-export function bookingsRoutes({ db, config, queue }: Deps): Router {
+export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
@@ -56,10 +56,10 @@ export function bookingsRoutes({ db, config, queue }: Deps): Router {
         ownerId === actor.id ? 'Your roles do not include booking equipment.' : 'Only the admin may book for another member.',
       );
     }
-    const created = await createBooking(db, { ...input, ownerId }, { id: actor.id, ability: req.ability });
+    const created = await createBooking(db, { ...input, ownerId }, { id: actor.id, ability: req.ability }, clock.now());
     await queueMail(
       req.log,
-      confirmationMail(created.booking, created.owner, created.rules.timeZone, config, created.owner.id === actor.id ? undefined : actor.name),
+      confirmationMail(created.booking, created.owner, created.rules.timeZone, config, clock.now(), created.owner.id === actor.id ? undefined : actor.name),
     );
     res.status(201).json({ booking: created.booking });
   });
@@ -68,8 +68,8 @@ export function bookingsRoutes({ db, config, queue }: Deps): Router {
     const id = idSchema.safeParse(req.params.id);
     if (!id.success) throw notFound('Booking');
     const actor = req.user!;
-    const done = await cancelBooking(db, id.data, { id: actor.id, name: actor.name, ability: req.ability });
-    await queueMail(req.log, cancellationMail(done.booking, done.owner, done.timeZone, config, done.owner.id === actor.id ? 'you' : actor.name));
+    const done = await cancelBooking(db, id.data, { id: actor.id, name: actor.name, ability: req.ability }, clock.now());
+    await queueMail(req.log, cancellationMail(done.booking, done.owner, done.timeZone, config, clock.now(), done.owner.id === actor.id ? 'you' : actor.name));
     res.status(204).end();
   });
 

@@ -116,11 +116,11 @@ export async function findBooking(db: Database, id: string): Promise<BookingJoin
   return bookingQuery(db).where('b.id', '=', id).executeTakeFirst();
 }
 
-export async function upcomingBookingsFor(db: Database, equipmentId: string, viewer: Viewer, limit = 20): Promise<Booking[]> {
+export async function upcomingBookingsFor(db: Database, equipmentId: string, viewer: Viewer, now: Date, limit = 20): Promise<Booking[]> {
   const rows = await bookingQuery(db)
     .where('b.equipment_id', '=', equipmentId)
     .where('b.state', 'in', liveStates)
-    .where('b.blocked_until', '>', new Date())
+    .where('b.blocked_until', '>', now)
     .orderBy('b.starts_at')
     .limit(limit)
     .execute();
@@ -155,7 +155,7 @@ export function checkRules(
   rules: BookingRules,
   input: { startsAt: Date; endsAt: Date; kind: keyof BookingRules['maxDays'] },
   activeCount: number,
-  now = new Date(),
+  now: Date,
 ): void {
   if (input.startsAt.getTime() < now.getTime() - START_GRACE_MS) {
     throw new HttpProblem(422, 'Booking in the past', 'A booking cannot start in the past.', [{ path: 'startsAt', message: 'A booking cannot start in the past.' }], 'about:blank', {
@@ -254,7 +254,7 @@ export interface CreatedBooking {
  * is exact), the rules are checked, and the insert is guarded by the exclusion constraint
  * `booking_no_overlap` in any case.
  */
-export async function createBooking(db: Database, input: CreateBookingInput & { ownerId: string }, actor: Viewer): Promise<CreatedBooking> {
+export async function createBooking(db: Database, input: CreateBookingInput & { ownerId: string }, actor: Viewer, now: Date): Promise<CreatedBooking> {
   const startsAt = new Date(input.startsAt);
   const endsAt = new Date(input.endsAt);
   let context: { item: { id: string; code: string }; rules: BookingRules; blockedUntil: Date } | undefined;
@@ -285,9 +285,9 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
         .select((eb) => eb.fn.countAll<number>().as('active'))
         .where('owner_id', '=', owner.id)
         .where('state', 'in', liveStates)
-        .where('ends_at', '>', new Date())
+        .where('ends_at', '>', now)
         .executeTakeFirstOrThrow();
-      checkRules(rules, { startsAt, endsAt, kind: item.kind }, active);
+      checkRules(rules, { startsAt, endsAt, kind: item.kind }, active, now);
       if (input.batchId) await checkBatch(trx, input.batchId, owner.id);
 
       const blockedUntil = new Date(endsAt.getTime() + rules.cleaningBufferHours * HOUR);
@@ -304,7 +304,7 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
           starts_at: startsAt,
           ends_at: endsAt,
           blocked_until: blockedUntil,
-          state: startsAt.getTime() <= Date.now() ? 'in_use' : 'booked',
+          state: startsAt.getTime() <= now.getTime() ? 'in_use' : 'booked',
           notes: input.notes ?? '',
           created_by: actor.id,
         })
@@ -350,7 +350,7 @@ export interface CancelledBooking {
 }
 
 /** Cancels a booking (frees its slot at once) in one transaction with an audit row. */
-export async function cancelBooking(db: Database, id: string, actor: Viewer & { name: string }): Promise<CancelledBooking> {
+export async function cancelBooking(db: Database, id: string, actor: Viewer & { name: string }, now: Date): Promise<CancelledBooking> {
   return db.transaction().execute(async (trx) => {
     const row = await trx.selectFrom('booking').select(['id', 'owner_id', 'state', 'ends_at']).where('id', '=', id).forUpdate().executeTakeFirst();
     if (!row) throw notFound('Booking');
@@ -358,13 +358,13 @@ export async function cancelBooking(db: Database, id: string, actor: Viewer & { 
       throw new HttpProblem(403, 'Forbidden', 'Only the member who holds a booking, or the admin, may cancel it.');
     }
     if (row.state === 'cancelled') throw conflict('This booking is already cancelled.');
-    if (row.state === 'finished' || row.ends_at.getTime() <= Date.now()) throw conflict('This booking has already ended and cannot be cancelled.');
+    if (row.state === 'finished' || row.ends_at.getTime() <= now.getTime()) throw conflict('This booking has already ended and cannot be cancelled.');
     if (row.state === 'in_use' && !canAll(actor.ability, 'cancel', 'Booking')) {
       throw conflict('This booking is in use; ask the brewer on duty or the admin to end it.');
     }
     await trx
       .updateTable('booking')
-      .set({ state: 'cancelled', cancelled_at: new Date(), cancelled_by: actor.id, updated_at: new Date() })
+      .set({ state: 'cancelled', cancelled_at: now, cancelled_by: actor.id, updated_at: now })
       .where('id', '=', id)
       .execute();
     await audit(trx, actor.id, 'cancelled', 'Booking', id, { previousState: row.state });
@@ -383,7 +383,7 @@ export async function cancelBooking(db: Database, id: string, actor: Viewer & { 
  * Moves bookings along with the clock: `booked` becomes `in_use` at its start and `finished` at
  * its end. Run by a scheduled job; returns how many changed.
  */
-export async function advanceBookingStates(db: Database, now = new Date()): Promise<number> {
+export async function advanceBookingStates(db: Database, now: Date): Promise<number> {
   return db.transaction().execute(async (trx) => {
     const finished = await trx
       .updateTable('booking')

@@ -15,26 +15,26 @@ import { requireUser } from '../../middleware/authenticate.ts';
 import { createPlan, listPlans, markPressureLowered, planMemberId, planViews, previewPlan, setPlanState } from './carbonation.service.ts';
 
 /** `/api/carbonation-plans`: target CO2 volumes → regulator pressure, ready date and the fast-start reminder. */
-export function carbonationRoutes({ db, queue }: Deps): Router {
+export function carbonationRoutes({ db, queue, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.post('/preview', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
     const input = previewCarbonationPlanSchema.parse(req.body ?? {});
-    res.json({ plan: await previewPlan(db, input) });
+    res.json({ plan: await previewPlan(db, input, clock.now()) });
   });
 
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'CarbonationPlan');
     const input = createCarbonationPlanSchema.parse(req.body ?? {});
-    res.status(201).json({ plan: await createPlan(db, queue, input, req.user!) });
+    res.status(201).json({ plan: await createPlan(db, queue, input, req.user!, clock.now()) });
   });
 
   router.get('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
     const q = carbonationPlanListQuerySchema.parse(req.query);
-    res.json(await listPlans(db, q, canAll(req.ability, 'read', 'CarbonationPlan') ? undefined : req.user!.id));
+    res.json(await listPlans(db, q, clock.now(), canAll(req.ability, 'read', 'CarbonationPlan') ? undefined : req.user!.id));
   });
 
   /** Loads a plan the person may see (404 otherwise) and checks `action` on it. */
@@ -55,7 +55,7 @@ export function carbonationRoutes({ db, queue }: Deps): Router {
 
   router.post('/:id/pressure-lowered', async (req, res) => {
     const id = await visiblePlan(req, 'update');
-    await markPressureLowered(db, queue, id, req.user!);
+    await markPressureLowered(db, queue, id, req.user!, clock.now());
     const [plan] = await planViews(db, [id]);
     res.json({ plan });
   });
@@ -63,7 +63,7 @@ export function carbonationRoutes({ db, queue }: Deps): Router {
   router.patch('/:id', async (req, res) => {
     const id = await visiblePlan(req, 'update');
     const input = updateCarbonationPlanSchema.parse(req.body ?? {});
-    await setPlanState(db, queue, id, input.state, req.user!);
+    await setPlanState(db, queue, id, input.state, req.user!, clock.now());
     const [plan] = await planViews(db, [id]);
     res.json({ plan });
   });

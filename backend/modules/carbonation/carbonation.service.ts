@@ -31,7 +31,7 @@ interface Line {
 }
 
 /** The plan's figures and its line check, from the inputs and the co-op's defaults. */
-export function computePlan(input: PlanFields, settings: CarbonationSettings, line: Line | null) {
+export function computePlan(input: PlanFields, settings: CarbonationSettings, line: Line | null, now: Date) {
   const temperatureC = input.temperatureC ?? settings.coldRoomTempC;
   const altitudeM = input.altitudeM ?? settings.altitudeM;
   const fastStartPressureKpa = input.method === 'fast_start' ? (input.fastStartPressureKpa ?? settings.fastStartPressureKpa) : undefined;
@@ -45,7 +45,7 @@ export function computePlan(input: PlanFields, settings: CarbonationSettings, li
       temperatureC,
       altitudeM,
       method: input.method,
-      startedAt: input.startedAt ?? new Date(),
+      startedAt: input.startedAt ?? now,
       holdDays,
       fastStartPressureKpa,
       fastStartHours,
@@ -91,10 +91,10 @@ async function resolveLine(db: Database, input: PlanFields): Promise<Line | null
   return { tapId: tap.id, lengthM: a.lineLengthM, insideDiameterMm: a.lineInsideDiameterMm, riseM: typeof a.riseM === 'number' ? a.riseM : 0 };
 }
 
-export async function previewPlan(db: Database, input: PlanFields) {
+export async function previewPlan(db: Database, input: PlanFields, now: Date) {
   const settings = await carbonationSettings(db);
   const line = await resolveLine(db, input);
-  const p = computePlan(input, settings, line);
+  const p = computePlan(input, settings, line, now);
   return {
     servingPressureKpa: round(p.result.servingPressureKpa),
     temperatureC: p.temperatureC,
@@ -109,10 +109,10 @@ export async function previewPlan(db: Database, input: PlanFields) {
   };
 }
 
-export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbonationPlanInput, actor: { id: string }): Promise<CarbonationPlanView> {
+export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbonationPlanInput, actor: { id: string }, now: Date): Promise<CarbonationPlanView> {
   const settings = await carbonationSettings(db);
   const line = await resolveLine(db, input);
-  const p = computePlan(input, settings, line);
+  const p = computePlan(input, settings, line, now);
   const { planId, superseded } = await db.transaction().execute(async (trx) => {
     const keg = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.kegId).forUpdate().executeTakeFirst();
     if (!keg || keg.kind !== 'keg') throw notFound('Keg');
@@ -120,7 +120,7 @@ export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbo
     const fill = await trx.selectFrom('keg_fill').select('id').where('keg_id', '=', keg.id).where('emptied_at', 'is', null).executeTakeFirst();
     const old = await trx
       .updateTable('carbonation_plan')
-      .set({ state: 'superseded', updated_at: new Date() })
+      .set({ state: 'superseded', updated_at: now })
       .where('keg_id', '=', keg.id)
       .where('state', '=', 'active')
       .returning(['id', 'reminder_job_id'])
@@ -151,6 +151,8 @@ export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbo
         line_balanced_length_m: p.lineCheck?.balancedLengthM !== null && p.lineCheck?.balancedLengthM !== undefined ? round(p.lineCheck.balancedLengthM) : null,
         notes: input.notes ?? '',
         created_by: actor.id,
+        created_at: now,
+        updated_at: now,
       })
       .returning('id')
       .executeTakeFirstOrThrow();
@@ -164,10 +166,12 @@ export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbo
     return { planId: row.id, superseded: old };
   });
 
-  // Reminders live in the queue; a superseded plan's reminder is withdrawn.
+  // Reminders live in the queue; a superseded plan's reminder is withdrawn. The queue counts its own
+  // time, so the reminder waits as long as the clock says is left (none if it is already due).
   for (const o of superseded) if (o.reminder_job_id) await queue.cancel(carbonationReminderQueue, o.reminder_job_id).catch(() => undefined);
   if (p.result.lowerPressureAt) {
-    const jobId = await queue.sendAfter(carbonationReminderQueue, { planId }, { singletonKey: planId, retryLimit: 5, retryDelay: 30 }, new Date(p.result.lowerPressureAt));
+    const waitSeconds = Math.max(0, Math.ceil((new Date(p.result.lowerPressureAt).getTime() - now.getTime()) / 1000));
+    const jobId = await queue.sendAfter(carbonationReminderQueue, { planId }, { singletonKey: planId, retryLimit: 5, retryDelay: 30 }, waitSeconds);
     if (jobId) await db.updateTable('carbonation_plan').set({ reminder_job_id: jobId }).where('id', '=', planId).execute();
   }
   const [view] = await planViews(db, [planId]);
@@ -268,6 +272,7 @@ const planSort = { createdAt: 'cp.created_at', readyAt: 'cp.ready_at', lowerPres
 export async function listPlans(
   db: Database,
   q: { kegId?: string | undefined; state?: string | undefined; lowerDue?: boolean | undefined; sort: keyof typeof planSort; order: 'asc' | 'desc'; page: number; pageSize: number },
+  now: Date,
   memberId?: string,
 ): Promise<Page<CarbonationPlanView>> {
   let base = db
@@ -279,7 +284,7 @@ export async function listPlans(
   if (q.kegId) base = base.where('cp.keg_id', '=', q.kegId);
   if (q.state) base = base.where('cp.state', '=', q.state as never);
   if (q.lowerDue) {
-    base = base.where('cp.state', '=', 'active').where('cp.method', '=', 'fast_start').where('cp.pressure_lowered_at', 'is', null).where('cp.lower_pressure_at', '<=', new Date());
+    base = base.where('cp.state', '=', 'active').where('cp.method', '=', 'fast_start').where('cp.pressure_lowered_at', 'is', null).where('cp.lower_pressure_at', '<=', now);
   }
   const [{ total }, page] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
@@ -308,26 +313,26 @@ export async function planMemberId(db: Database, planId: string): Promise<string
   return r.member_id ?? r.owner_id ?? null;
 }
 
-export async function markPressureLowered(db: Database, queue: PgBoss, planId: string, actor: { id: string }) {
+export async function markPressureLowered(db: Database, queue: PgBoss, planId: string, actor: { id: string }, now: Date) {
   const row = await db.transaction().execute(async (trx) => {
     const plan = await trx.selectFrom('carbonation_plan').select(['id', 'state', 'method', 'pressure_lowered_at', 'reminder_job_id']).where('id', '=', planId).forUpdate().executeTakeFirst();
     if (!plan) throw notFound('Carbonation plan');
     if (plan.state !== 'active') throw conflict('This plan is no longer active.');
     if (plan.method !== 'fast_start') throw conflict('Only a fast start has a pressure to lower.');
     if (plan.pressure_lowered_at) throw conflict('The pressure was already lowered.');
-    await trx.updateTable('carbonation_plan').set({ pressure_lowered_at: new Date(), updated_at: new Date() }).where('id', '=', planId).execute();
+    await trx.updateTable('carbonation_plan').set({ pressure_lowered_at: now, updated_at: now }).where('id', '=', planId).execute();
     await audit(trx, actor.id, 'pressure_lowered', 'CarbonationPlan', planId, {});
     return plan;
   });
   if (row.reminder_job_id) await queue.cancel(carbonationReminderQueue, row.reminder_job_id).catch(() => undefined);
 }
 
-export async function setPlanState(db: Database, queue: PgBoss, planId: string, state: 'done' | 'cancelled', actor: { id: string }) {
+export async function setPlanState(db: Database, queue: PgBoss, planId: string, state: 'done' | 'cancelled', actor: { id: string }, now: Date) {
   const row = await db.transaction().execute(async (trx) => {
     const plan = await trx.selectFrom('carbonation_plan').select(['id', 'state', 'reminder_job_id']).where('id', '=', planId).forUpdate().executeTakeFirst();
     if (!plan) throw notFound('Carbonation plan');
     if (plan.state !== 'active') throw conflict('This plan is no longer active.');
-    await trx.updateTable('carbonation_plan').set({ state, updated_at: new Date() }).where('id', '=', planId).execute();
+    await trx.updateTable('carbonation_plan').set({ state, updated_at: now }).where('id', '=', planId).execute();
     await audit(trx, actor.id, state === 'done' ? 'completed' : 'cancelled', 'CarbonationPlan', planId, {});
     return plan;
   });
@@ -340,7 +345,7 @@ const kpaToPsi = (kpa: number) => kpa / 6.894757293168361;
  * The queued reminder at the end of a fast start: e-mails every brewer on duty to turn the
  * regulator down, once, unless the plan was finished, replaced or the pressure already lowered.
  */
-export async function sendLowerPressureReminder(db: Database, queue: PgBoss, planId: string): Promise<boolean> {
+export async function sendLowerPressureReminder(db: Database, queue: PgBoss, planId: string, now: Date): Promise<boolean> {
   const claimed = await db.transaction().execute(async (trx) => {
     const plan = await trx
       .selectFrom('carbonation_plan as cp')
@@ -352,7 +357,7 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
       .forUpdate('cp')
       .executeTakeFirst();
     if (!plan || plan.state !== 'active' || plan.method !== 'fast_start' || plan.pressure_lowered_at || plan.reminder_sent_at) return null;
-    await trx.updateTable('carbonation_plan').set({ reminder_sent_at: new Date() }).where('id', '=', planId).execute();
+    await trx.updateTable('carbonation_plan').set({ reminder_sent_at: now }).where('id', '=', planId).execute();
     await audit(trx, null, 'reminded', 'CarbonationPlan', planId, { code: plan.code });
     return plan;
   });
@@ -381,7 +386,7 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
 }
 
 /** Reminders due by now that were never sent (their job lost, or the plan seeded): sent once each. */
-export async function sendDueReminders(db: Database, queue: PgBoss): Promise<number> {
+export async function sendDueReminders(db: Database, queue: PgBoss, now: Date): Promise<number> {
   const due = await db
     .selectFrom('carbonation_plan')
     .select('id')
@@ -389,9 +394,9 @@ export async function sendDueReminders(db: Database, queue: PgBoss): Promise<num
     .where('method', '=', 'fast_start')
     .where('pressure_lowered_at', 'is', null)
     .where('reminder_sent_at', 'is', null)
-    .where('lower_pressure_at', '<=', new Date(Date.now() - 5 * 60_000))
+    .where('lower_pressure_at', '<=', new Date(now.getTime() - 5 * 60_000))
     .execute();
   let sent = 0;
-  for (const p of due) if (await sendLowerPressureReminder(db, queue, p.id)) sent += 1;
+  for (const p of due) if (await sendLowerPressureReminder(db, queue, p.id, now)) sent += 1;
   return sent;
 }

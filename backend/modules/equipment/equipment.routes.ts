@@ -28,13 +28,13 @@ import { renderLabelSheet } from './labels-pdf.service.ts';
 const idSchema = z.uuid();
 
 /** The equipment registry: everyone reads it, the admin keeps it, the brewer on duty changes states. */
-export function equipmentRoutes({ db, config }: Deps): Router {
+export function equipmentRoutes({ db, config, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   async function itemOr404(rawId: string) {
     const id = idSchema.safeParse(rawId);
-    const item = id.success ? await findEquipment(db, id.data) : undefined;
+    const item = id.success ? await findEquipment(db, id.data, clock.now()) : undefined;
     if (!item) throw notFound('Equipment');
     return item;
   }
@@ -42,13 +42,13 @@ export function equipmentRoutes({ db, config }: Deps): Router {
   router.get('/', async (req, res) => {
     const q = equipmentListQuerySchema.parse(req.query);
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
-    res.json(await listEquipment(db, q));
+    res.json(await listEquipment(db, q, clock.now()));
   });
 
   router.get('/labels.pdf', async (req, res) => {
     const q = labelSheetQuerySchema.parse(req.query);
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
-    const items = await equipmentByIds(db, [...new Set(q.ids)]);
+    const items = await equipmentByIds(db, [...new Set(q.ids)], clock.now());
     if (items.length !== new Set(q.ids).size) throw notFound('Equipment');
     // Keep the order asked for, so a sheet prints as picked.
     const order = new Map(q.ids.map((id, i) => [id, i]));
@@ -74,7 +74,7 @@ export function equipmentRoutes({ db, config }: Deps): Router {
     const item = await itemOr404(req.params.id);
     const [history, upcomingBookings] = await Promise.all([
       equipmentHistory(db, item.id),
-      upcomingBookingsFor(db, item.id, { id: req.user!.id, ability: req.ability }),
+      upcomingBookingsFor(db, item.id, { id: req.user!.id, ability: req.ability }, clock.now()),
     ]);
     res.json({ equipment: item, history, upcomingBookings });
   });
@@ -82,7 +82,7 @@ export function equipmentRoutes({ db, config }: Deps): Router {
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Equipment');
     const input = createEquipmentSchema.parse(req.body ?? {});
-    res.status(201).json({ equipment: await createEquipment(db, input, req.user!.id) });
+    res.status(201).json({ equipment: await createEquipment(db, input, req.user!.id, clock.now()) });
   });
 
   router.patch('/:id', async (req, res) => {
@@ -90,7 +90,7 @@ export function equipmentRoutes({ db, config }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('manage', 'Equipment');
     const input = updateEquipmentSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
-    res.json({ equipment: await updateEquipment(db, item, input, req.user!.id) });
+    res.json({ equipment: await updateEquipment(db, item, input, req.user!.id, clock.now()) });
   });
 
   router.post('/:id/state', async (req, res) => {
@@ -99,7 +99,7 @@ export function equipmentRoutes({ db, config }: Deps): Router {
     const item = await itemOr404(req.params.id);
     const equipment = await db
       .transaction()
-      .execute((trx) => changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: req.user!.id }));
+      .execute((trx) => changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: req.user!.id, at: clock.now() }));
     res.json({ equipment, history: await equipmentHistory(db, item.id, 20) });
   });
 

@@ -22,11 +22,11 @@ const columns = ['id', 'code', 'kind', 'name', 'capacity_liters', 'state', 'attr
 const storedColumns = columns.filter((c) => c !== 'state');
 // The state a vessel has now: a lapsed freshness window reads as needs_cleaning at once, before the
 // periodic job writes it down.
-const currentState = effectiveStateSql(sql.ref('equipment.id'), sql.ref('equipment.state'));
+const currentState = (now: Date) => effectiveStateSql(sql.ref('equipment.id'), sql.ref('equipment.state'), now);
 
 type EquipmentRow = Awaited<ReturnType<ReturnType<typeof selectEquipment>['executeTakeFirstOrThrow']>>;
-function selectEquipment(db: Database) {
-  return db.selectFrom('equipment').select([...storedColumns, currentState.as('state')]);
+function selectEquipment(db: Database, now: Date) {
+  return db.selectFrom('equipment').select([...storedColumns, currentState(now).as('state')]);
 }
 
 export function toEquipmentDto(row: EquipmentRow): Equipment {
@@ -54,10 +54,10 @@ const sortColumns = {
   stateChangedAt: 'state_changed_at',
 } as const;
 
-export async function listEquipment(db: Database, q: EquipmentListQuery): Promise<Page<Equipment>> {
+export async function listEquipment(db: Database, q: EquipmentListQuery, now: Date): Promise<Page<Equipment>> {
   let base = db.selectFrom('equipment');
   if (q.kind) base = base.where('kind', '=', q.kind);
-  if (q.state) base = base.where(currentState, '=', q.state);
+  if (q.state) base = base.where(currentState(now), '=', q.state);
   if (q.q) {
     const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
     base = base.where((eb) => eb.or([eb('code', 'ilike', like), eb('name', 'ilike', like), eb('notes', 'ilike', like)]));
@@ -65,7 +65,7 @@ export async function listEquipment(db: Database, q: EquipmentListQuery): Promis
   const [{ total }, rows] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
     base
-      .select([...storedColumns, currentState.as('state')])
+      .select([...storedColumns, currentState(now).as('state')])
       // Codes sort by their number within a prefix (K-2 before K-10), as the sort key itself and as the tie-break.
       .$if(q.sort === 'code', (qb) =>
         qb
@@ -83,13 +83,13 @@ export async function listEquipment(db: Database, q: EquipmentListQuery): Promis
   return { items: rows.map(toEquipmentDto), total, page: q.page, pageSize: q.pageSize };
 }
 
-export async function findEquipment(db: Database, id: string): Promise<Equipment | undefined> {
-  const row = await selectEquipment(db).where('id', '=', id).executeTakeFirst();
+export async function findEquipment(db: Database, id: string, now: Date): Promise<Equipment | undefined> {
+  const row = await selectEquipment(db, now).where('id', '=', id).executeTakeFirst();
   return row ? toEquipmentDto(row) : undefined;
 }
 
-export async function getEquipmentOrThrow(db: Database, id: string): Promise<Equipment> {
-  const item = await findEquipment(db, id);
+export async function getEquipmentOrThrow(db: Database, id: string, now: Date): Promise<Equipment> {
+  const item = await findEquipment(db, id, now);
   if (!item) throw notFound('Equipment');
   return item;
 }
@@ -138,7 +138,7 @@ function isUniqueViolation(err: unknown): boolean {
   return (err as { code?: string }).code === '23505';
 }
 
-export async function createEquipment(db: Database, input: CreateEquipmentInput, actorId: string): Promise<Equipment> {
+export async function createEquipment(db: Database, input: CreateEquipmentInput, actorId: string, now: Date): Promise<Equipment> {
   try {
     return await db.transaction().execute(async (trx) => {
       const state = input.state ?? 'needs_cleaning';
@@ -152,12 +152,13 @@ export async function createEquipment(db: Database, input: CreateEquipmentInput,
           state,
           attributes: sql`${JSON.stringify(input.attributes)}::jsonb`,
           notes: input.notes ?? '',
+          state_changed_at: now,
         })
         .returning(columns)
         .executeTakeFirstOrThrow();
       await trx
         .insertInto('equipment_state_change')
-        .values({ equipment_id: row.id, from_state: null, to_state: state, reason: 'Added to the registry', actor_id: actorId })
+        .values({ equipment_id: row.id, from_state: null, to_state: state, reason: 'Added to the registry', actor_id: actorId, at: now })
         .execute();
       await audit(trx, actorId, 'created', 'Equipment', row.id, { code: row.code, kind: row.kind });
       return toEquipmentDto(row);
@@ -168,7 +169,7 @@ export async function createEquipment(db: Database, input: CreateEquipmentInput,
   }
 }
 
-export async function updateEquipment(db: Database, current: Equipment, input: UpdateEquipmentInput, actorId: string): Promise<Equipment> {
+export async function updateEquipment(db: Database, current: Equipment, input: UpdateEquipmentInput, actorId: string, now: Date): Promise<Equipment> {
   // Attributes are merged onto the current ones and must still fit the item's kind.
   const attributes =
     input.attributes !== undefined ? attributesSchemaByKind[current.kind].parse({ ...current.attributes, ...input.attributes }) : undefined;
@@ -185,7 +186,7 @@ export async function updateEquipment(db: Database, current: Equipment, input: U
           ...(input.capacityLiters !== undefined ? { capacity_liters: input.capacityLiters } : {}),
           ...(input.notes !== undefined ? { notes: input.notes } : {}),
           ...(attributes !== undefined ? { attributes: sql`${JSON.stringify(attributes)}::jsonb` } : {}),
-          updated_at: new Date(),
+          updated_at: now,
         })
         .where('id', '=', current.id)
         .returning(columns)
@@ -205,7 +206,7 @@ export async function updateEquipment(db: Database, current: Equipment, input: U
  */
 export async function changeEquipmentState(
   trx: Database,
-  change: { equipmentId: string; toState: VesselState; reason: string; actorId: string | null; at?: Date },
+  change: { equipmentId: string; toState: VesselState; reason: string; actorId: string | null; at: Date },
 ): Promise<Equipment> {
   const current = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', change.equipmentId).forUpdate().executeTakeFirst();
   if (!current) throw notFound('Equipment');
@@ -214,12 +215,12 @@ export async function changeEquipmentState(
   }
   await writeStateChange(trx, current.id, current.state, change.toState, change.reason, change.actorId, change.at);
   await audit(trx, change.actorId, 'state_changed', 'Equipment', current.id, { code: current.code, from: current.state, to: change.toState, reason: change.reason });
-  return toEquipmentDto(await selectEquipment(trx).where('id', '=', current.id).executeTakeFirstOrThrow());
+  return toEquipmentDto(await selectEquipment(trx, change.at).where('id', '=', current.id).executeTakeFirstOrThrow());
 }
 
-export async function equipmentByIds(db: Database, ids: string[]): Promise<Equipment[]> {
+export async function equipmentByIds(db: Database, ids: string[], now: Date): Promise<Equipment[]> {
   if (!ids.length) return [];
-  const rows = await selectEquipment(db)
+  const rows = await selectEquipment(db, now)
     .where('id', 'in', ids)
     .orderBy(sql`split_part(code, '-', 1)`)
     .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`)

@@ -30,7 +30,7 @@ import {
 } from './kegs.service.ts';
 
 /** `/api/kegs`: whereabouts, check-out and return, overdue, a keg's page and history, the tap board. */
-export function kegsRoutes({ db }: Deps): Router {
+export function kegsRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
@@ -42,26 +42,26 @@ export function kegsRoutes({ db }: Deps): Router {
   router.get('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Keg');
     const q = kegListQuerySchema.parse(req.query);
-    res.json(await listKegs(db, q, visibility(req)));
+    res.json(await listKegs(db, q, visibility(req), clock.now()));
   });
 
   router.get('/overdue', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Keg');
     const q = kegListQuerySchema.parse({ sort: 'dueAt', ...req.query, overdue: 'true' });
-    res.json(await listKegs(db, q, visibility(req)));
+    res.json(await listKegs(db, q, visibility(req), clock.now()));
   });
 
   router.get('/tap-board', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
     const showOwner = req.ability.can('readOwner', 'Keg');
-    const taps = await tapBoard(db, (row) => req.ability.can('read', subject('Keg', { memberId: kegMemberId(row) })), showOwner);
+    const taps = await tapBoard(db, (row) => req.ability.can('read', subject('Keg', { memberId: kegMemberId(row) })), showOwner, clock.now());
     res.json({ taps });
   });
 
   const loadVisible = async (req: Request) => {
     const id = z.uuid().safeParse(req.params.id);
     if (!id.success) throw notFound('Keg');
-    const row = await findKeg(db, id.data);
+    const row = await findKeg(db, id.data, clock.now());
     if (!row || !req.ability.can('read', subject('Keg', { memberId: kegMemberId(row) }))) throw notFound('Keg');
     return row;
   };
@@ -80,7 +80,7 @@ export function kegsRoutes({ db }: Deps): Router {
   });
 
   const answer = async (req: Request, res: Response, status = 200) => {
-    const row = await findKeg(db, req.params.id as string);
+    const row = await findKeg(db, req.params.id as string, clock.now());
     res.status(status).json({ keg: kegView(row!, req.ability.can('readOwner', 'Keg')) });
   };
 
@@ -88,7 +88,7 @@ export function kegsRoutes({ db }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegCheckOutSchema.parse(req.body ?? {});
-    await checkOutKeg(db, row.id, input, req.user!);
+    await checkOutKeg(db, row.id, input, req.user!, clock.now());
     await answer(req, res);
   });
 
@@ -96,7 +96,7 @@ export function kegsRoutes({ db }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegReturnSchema.parse(req.body ?? {});
-    await returnKeg(db, row.id, input, req.user!);
+    await returnKeg(db, row.id, input, req.user!, clock.now());
     await answer(req, res);
   });
 
@@ -104,7 +104,7 @@ export function kegsRoutes({ db }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegMoveSchema.parse(req.body ?? {});
-    await moveKeg(db, row.id, input, req.user!);
+    await moveKeg(db, row.id, input, req.user!, clock.now());
     await answer(req, res);
   });
 
@@ -113,7 +113,7 @@ export function kegsRoutes({ db }: Deps): Router {
     // Emptying changes the vessel's state.
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     const input = kegEmptySchema.parse(req.body ?? {});
-    await emptyKeg(db, row.id, input, req.user!);
+    await emptyKeg(db, row.id, input, req.user!, clock.now());
     await answer(req, res);
   });
 
@@ -121,7 +121,7 @@ export function kegsRoutes({ db }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegLevelSchema.parse(req.body ?? {});
-    await setKegLevel(db, row.id, input.remainingLiters, req.user!);
+    await setKegLevel(db, row.id, input.remainingLiters, req.user!, clock.now());
     await answer(req, res);
   });
 

@@ -47,7 +47,7 @@ function kegBase(db: Database) {
 }
 type KegBase = ReturnType<typeof kegBase>;
 
-function selectKeg(q: KegBase) {
+function selectKeg(q: KegBase, now: Date) {
   return q.select((eb) => [
     'e.id',
     'e.code',
@@ -55,7 +55,7 @@ function selectKeg(q: KegBase) {
     'e.capacity_liters',
     'e.attributes',
     'e.state as stored_state',
-    effectiveStateSql(eb.ref('e.id'), eb.ref('e.state')).as('state'),
+    effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('state'),
     freshUntilSql(eb.ref('e.id')).as('fresh_until'),
     sql<KegWhereabouts>`coalesce(kw.whereabouts, 'cellar')`.as('whereabouts'),
     'kw.since',
@@ -67,7 +67,7 @@ function selectKeg(q: KegBase) {
     'm.name as member_name',
     'kw.checked_out_at',
     'kw.due_at',
-    sql<boolean>`(kw.whereabouts = 'with_member' and kw.due_at < now())`.as('overdue'),
+    sql<boolean>`(kw.whereabouts = 'with_member' and kw.due_at < ${now})`.as('overdue'),
     'kf.id as fill_id',
     'kf.batch_id',
     'b.name as batch_name',
@@ -150,7 +150,7 @@ const kegSort = {
   remainingLiters: sql.ref('kf.remaining_liters'),
 } as const;
 
-export async function listKegs(db: Database, q: KegListQuery, vis: KegVisibility): Promise<Page<KegView>> {
+export async function listKegs(db: Database, q: KegListQuery, vis: KegVisibility, now: Date): Promise<Page<KegView>> {
   let base = kegBase(db);
   if (vis.memberId) {
     const me = vis.memberId;
@@ -158,11 +158,11 @@ export async function listKegs(db: Database, q: KegListQuery, vis: KegVisibility
   }
   if (q.whereabouts === 'cellar') base = base.where((eb) => eb.or([eb('kw.whereabouts', 'is', null), eb('kw.whereabouts', '=', 'cellar')]));
   else if (q.whereabouts) base = base.where('kw.whereabouts', '=', q.whereabouts);
-  if (q.state) base = base.where((eb) => eb(effectiveStateSql(eb.ref('e.id'), eb.ref('e.state')), '=', q.state!));
+  if (q.state) base = base.where((eb) => eb(effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now), '=', q.state!));
   if (q.overdue !== undefined) {
     base = q.overdue
-      ? base.where('kw.whereabouts', '=', 'with_member').where('kw.due_at', '<', new Date())
-      : base.where((eb) => eb.or([eb('kw.due_at', 'is', null), eb('kw.due_at', '>=', new Date())]));
+      ? base.where('kw.whereabouts', '=', 'with_member').where('kw.due_at', '<', now)
+      : base.where((eb) => eb.or([eb('kw.due_at', 'is', null), eb('kw.due_at', '>=', now)]));
   }
   if (q.memberId) base = base.where('kw.member_id', '=', q.memberId);
   if (q.q) {
@@ -171,7 +171,7 @@ export async function listKegs(db: Database, q: KegListQuery, vis: KegVisibility
   }
   const [{ total }, rows] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    selectKeg(base)
+    selectKeg(base, now)
       .orderBy(sql`${kegSort[q.sort]} ${sql.raw(q.order)} nulls last`)
       .orderBy('e.code')
       .limit(q.pageSize)
@@ -181,18 +181,18 @@ export async function listKegs(db: Database, q: KegListQuery, vis: KegVisibility
   return { items: rows.map((r) => toKegView(r, vis.showOwner)), total, page: q.page, pageSize: q.pageSize };
 }
 
-export async function findKeg(db: Database, id: string): Promise<KegRow | undefined> {
-  return selectKeg(kegBase(db).where('e.id', '=', id)).executeTakeFirst();
+export async function findKeg(db: Database, id: string, now: Date): Promise<KegRow | undefined> {
+  return selectKeg(kegBase(db).where('e.id', '=', id), now).executeTakeFirst();
 }
 
 export function kegView(r: KegRow, showOwner: boolean): KegView {
   return toKegView(r, showOwner);
 }
 
-export async function tapBoard(db: Database, canSee: (row: KegRow) => boolean, showOwner: boolean): Promise<TapBoardEntry[]> {
+export async function tapBoard(db: Database, canSee: (row: KegRow) => boolean, showOwner: boolean, now: Date): Promise<TapBoardEntry[]> {
   const [taps, kegs] = await Promise.all([
     db.selectFrom('equipment').select(['id', 'code', 'name', 'state', 'attributes']).where('kind', '=', 'tap').orderBy('code').execute(),
-    selectKeg(kegBase(db).where('kw.tap_id', 'is not', null)).execute(),
+    selectKeg(kegBase(db).where('kw.tap_id', 'is not', null), now).execute(),
   ]);
   const byTap = new Map(kegs.map((k) => [k.tap_id!, k]));
   return taps.map((t) => {
@@ -234,6 +234,7 @@ async function putWhereabouts(
   kegId: string,
   w: { whereabouts: KegWhereabouts; tapId?: string | null; memberId?: string | null; checkedOutAt?: Date | null; dueAt?: Date | null },
   actorId: string,
+  now: Date,
 ) {
   const values = {
     whereabouts: w.whereabouts,
@@ -241,7 +242,7 @@ async function putWhereabouts(
     member_id: w.memberId ?? null,
     checked_out_at: w.checkedOutAt ?? null,
     due_at: w.dueAt ?? null,
-    since: new Date(),
+    since: now,
     updated_by: actorId,
   };
   await trx
@@ -251,9 +252,9 @@ async function putWhereabouts(
     .execute();
 }
 
-async function closeFill(trx: Database, kegId: string, reason: string) {
-  await trx.updateTable('keg_fill').set({ emptied_at: new Date(), emptied_reason: reason, remaining_liters: 0 }).where('keg_id', '=', kegId).where('emptied_at', 'is', null).execute();
-  await trx.updateTable('carbonation_plan').set({ state: 'done', updated_at: new Date() }).where('keg_id', '=', kegId).where('state', '=', 'active').execute();
+async function closeFill(trx: Database, kegId: string, reason: string, now: Date) {
+  await trx.updateTable('keg_fill').set({ emptied_at: now, emptied_reason: reason, remaining_liters: 0 }).where('keg_id', '=', kegId).where('emptied_at', 'is', null).execute();
+  await trx.updateTable('carbonation_plan').set({ state: 'done', updated_at: now }).where('keg_id', '=', kegId).where('state', '=', 'active').execute();
 }
 
 function mapTapTaken(err: unknown, tapCode: string): never {
@@ -261,9 +262,9 @@ function mapTapTaken(err: unknown, tapCode: string): never {
   throw err;
 }
 
-export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOutInput, actor: { id: string }) {
+export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOutInput, actor: { id: string }, now: Date) {
   const due = new Date(input.dueAt);
-  if (due.getTime() <= Date.now()) throw unprocessable('The due date must be in the future.', [{ path: 'dueAt', message: 'Pick a date after today' }]);
+  if (due.getTime() <= now.getTime()) throw unprocessable('The due date must be in the future.', [{ path: 'dueAt', message: 'Pick a date after today' }]);
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.state === 'out_of_service') throw conflict(`${keg.code} is out of service.`);
@@ -273,9 +274,8 @@ export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOu
     if (!member || !member.is_active || !member.roles.includes('member')) {
       throw unprocessable('Kegs go out to active members only.', [{ path: 'memberId', message: 'Pick an active member' }]);
     }
-    const now = new Date();
-    await putWhereabouts(trx, kegId, { whereabouts: 'with_member', memberId: member.id, checkedOutAt: now, dueAt: due }, actor.id);
-    if (keg.tap_id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected and checked out; clean the line`, actor.id);
+    await putWhereabouts(trx, kegId, { whereabouts: 'with_member', memberId: member.id, checkedOutAt: now, dueAt: due }, actor.id, now);
+    if (keg.tap_id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected and checked out; clean the line`, actor.id, now);
     await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action: 'checked_out', from_whereabouts: keg.whereabouts, to_whereabouts: 'with_member', member_id: member.id, due_at: due, tap_id: keg.tap_id, note: input.note ?? '', actor_id: actor.id, at: now })
@@ -284,27 +284,26 @@ export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOu
   });
 }
 
-export async function returnKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }) {
+export async function returnKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }, now: Date) {
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.whereabouts !== 'with_member') throw conflict(`${keg.code} is not out with a member.`);
     const member = keg.member_id ? await trx.selectFrom('app_user').select('name').where('id', '=', keg.member_id).executeTakeFirst() : undefined;
-    const now = new Date();
     const late = keg.due_at && new Date(keg.due_at).getTime() < now.getTime();
-    await putWhereabouts(trx, kegId, { whereabouts: 'cellar' }, actor.id);
+    await putWhereabouts(trx, kegId, { whereabouts: 'cellar' }, actor.id, now);
     await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action: 'returned', from_whereabouts: 'with_member', to_whereabouts: 'cellar', member_id: keg.member_id, due_at: keg.due_at, note: input.note ?? (late ? 'Returned after its due date' : ''), actor_id: actor.id, at: now })
       .execute();
-    await closeFill(trx, kegId, 'returned');
+    await closeFill(trx, kegId, 'returned', now);
     if (keg.state !== 'out_of_service') {
-      await setVesselState(trx, kegId, 'needs_cleaning', `Returned by ${member?.name ?? 'a member'}; clean before use`, actor.id);
+      await setVesselState(trx, kegId, 'needs_cleaning', `Returned by ${member?.name ?? 'a member'}; clean before use`, actor.id, now);
     }
     await audit(trx, actor.id, 'returned', 'Keg', kegId, { code: keg.code, memberId: keg.member_id, late: Boolean(late) });
   });
 }
 
-export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, actor: { id: string }) {
+export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, actor: { id: string }, now: Date) {
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     const to = input.to;
@@ -329,37 +328,37 @@ export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, 
             : keg.tap_id
               ? 'untapped'
               : 'moved';
-    await putWhereabouts(trx, kegId, { whereabouts: to, tapId: tap?.id ?? null }, actor.id).catch((e) => mapTapTaken(e, tap?.code ?? ''));
+    await putWhereabouts(trx, kegId, { whereabouts: to, tapId: tap?.id ?? null }, actor.id, now).catch((e) => mapTapTaken(e, tap?.code ?? ''));
     // The tap positions follow: a connected line holds beer, a disconnected one needs cleaning.
-    if (keg.tap_id && keg.tap_id !== tap?.id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected; clean the line`, actor.id);
-    if (tap && tap.id !== keg.tap_id) await setVesselState(trx, tap.id, 'holding', `${keg.code} connected`, actor.id);
+    if (keg.tap_id && keg.tap_id !== tap?.id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected; clean the line`, actor.id, now);
+    if (tap && tap.id !== keg.tap_id) await setVesselState(trx, tap.id, 'holding', `${keg.code} connected`, actor.id, now);
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action, from_whereabouts: keg.whereabouts, to_whereabouts: to, tap_id: tap?.id ?? keg.tap_id, member_id: keg.member_id, note: input.note ?? '', actor_id: actor.id })
+      .values({ keg_id: kegId, action, from_whereabouts: keg.whereabouts, to_whereabouts: to, tap_id: tap?.id ?? keg.tap_id, member_id: keg.member_id, note: input.note ?? '', actor_id: actor.id, at: now })
       .execute();
     await audit(trx, actor.id, action, 'Keg', kegId, { code: keg.code, from: keg.whereabouts, to, tapId: tap?.id ?? null });
   });
 }
 
-export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }) {
+export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }, now: Date) {
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer.`);
-    await closeFill(trx, kegId, 'emptied');
+    await closeFill(trx, kegId, 'emptied', now);
     if (keg.tap_id) {
-      await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id);
-      await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} emptied and disconnected; clean the line`, actor.id);
+      await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id, now);
+      await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} emptied and disconnected; clean the line`, actor.id, now);
     }
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id })
+      .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id, at: now })
       .execute();
-    await setVesselState(trx, kegId, 'needs_cleaning', 'Emptied; clean before use', actor.id);
+    await setVesselState(trx, kegId, 'needs_cleaning', 'Emptied; clean before use', actor.id, now);
     await audit(trx, actor.id, 'emptied', 'Keg', kegId, { code: keg.code });
   });
 }
 
-export async function setKegLevel(db: Database, kegId: string, remainingLiters: number, actor: { id: string }) {
+export async function setKegLevel(db: Database, kegId: string, remainingLiters: number, actor: { id: string }, now: Date) {
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     const fill = await trx.selectFrom('keg_fill').select(['id', 'volume_liters']).where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst();
@@ -370,7 +369,7 @@ export async function setKegLevel(db: Database, kegId: string, remainingLiters: 
     await trx.updateTable('keg_fill').set({ remaining_liters: remainingLiters }).where('id', '=', fill.id).execute();
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'level', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: `About ${remainingLiters.toFixed(1)} L left`, actor_id: actor.id })
+      .values({ keg_id: kegId, action: 'level', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: `About ${remainingLiters.toFixed(1)} L left`, actor_id: actor.id, at: now })
       .execute();
     await audit(trx, actor.id, 'level', 'Keg', kegId, { code: keg.code, remainingLiters });
   });

@@ -109,7 +109,7 @@ const DAY = 86_400_000;
 
 export async function loadAuditData(
   db: Database,
-  { from, to, filter, settings, now = new Date() }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now?: Date },
+  { from, to, filter, settings, now }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date },
 ): Promise<AuditData> {
   const [cycleRows, eventRows] = await Promise.all([
     sql<{

@@ -10,13 +10,13 @@ export const cellarQueues = [carbonationReminderQueue, cellarPeriodicQueue] as c
  * that writes lapsed freshness windows down (reads already treat them as lapsed) and sends any
  * lowering reminder whose queued job never ran (a plan recorded with a past start, say).
  */
-export async function startCellarWorkers({ db, queue }: Deps): Promise<void> {
+export async function startCellarWorkers({ db, queue, clock }: Deps): Promise<void> {
   await queue.work<{ planId: string }>(carbonationReminderQueue, { pollingIntervalSeconds: 2 }, async (jobs) => {
-    for (const job of jobs) await sendLowerPressureReminder(db, queue, job.data.planId);
+    for (const job of jobs) await sendLowerPressureReminder(db, queue, job.data.planId, clock.now());
   });
   await queue.work(cellarPeriodicQueue, { pollingIntervalSeconds: 30 }, async () => {
-    await applyFreshnessLapses(db);
-    await sendDueReminders(db, queue);
+    await applyFreshnessLapses(db, clock.now());
+    await sendDueReminders(db, queue, clock.now());
   });
   await queue.schedule(cellarPeriodicQueue, '*/15 * * * *');
 }

@@ -15,14 +15,14 @@ import { loadAuditData, renderAuditPdfOffThread } from './audit-report.ts';
 import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
 
 /** `/api/sanitation-cycles`: the sanitation log. */
-export function sanitationCycleRoutes({ db }: Deps): Router {
+export function sanitationCycleRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'SanitationCycle');
     const input = createSanitationCycleSchema.parse(req.body ?? {});
-    const result = await recordCycle(db, input, req.user!);
+    const result = await recordCycle(db, input, req.user!, clock.now());
     res.status(201).json(result);
   });
 
@@ -46,26 +46,26 @@ export function sanitationCycleRoutes({ db }: Deps): Router {
     const id = z.uuid().safeParse(req.params.id);
     if (!id.success) throw notFound('Sanitation cycle');
     const input = continueSanitationCycleSchema.parse(req.body ?? {});
-    res.json(await continueCycle(db, id.data, input, req.user!));
+    res.json(await continueCycle(db, id.data, input, req.user!, clock.now()));
   });
 
   return router;
 }
 
 /** `/api/sanitation-status`: every fermenter and keg with its sanitation standing now. */
-export function sanitationStatusRoutes({ db }: Deps): Router {
+export function sanitationStatusRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
   router.get('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
     const q = sanitationStatusQuerySchema.parse(req.query);
-    res.json(await listVesselStatus(db, q));
+    res.json(await listVesselStatus(db, q, clock.now()));
   });
   return router;
 }
 
 /** `GET /api/reports/sanitation-audit.pdf`: the audit report (mounted under /api/reports; other reports pass through). */
-export function sanitationReportRoutes({ db }: Deps): Router {
+export function sanitationReportRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.get('/sanitation-audit.pdf', requireUser, async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationAudit');
@@ -73,7 +73,7 @@ export function sanitationReportRoutes({ db }: Deps): Router {
     const settings = await sanitationSettings(db);
     const from = boundFrom(q.from);
     const to = boundTo(q.to);
-    const data = await loadAuditData(db, { from, to, filter: { ids: q.equipmentId, kind: q.kind }, settings });
+    const data = await loadAuditData(db, { from, to, filter: { ids: q.equipmentId, kind: q.kind }, settings, now: clock.now() });
     if (q.equipmentId?.length && data.vessels.length === 0) throw notFound('Vessel');
     const label = q.equipmentId?.length
       ? data.vessels.map((v) => v.code).join(', ')

@@ -32,11 +32,12 @@ export async function recordCycle(
   db: Database,
   input: CreateSanitationCycleInput,
   actor: { id: string },
+  now: Date,
 ): Promise<{ cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }> {
   const settings = await sanitationSettings(db);
-  const now = Date.now();
+  const latestAllowed = now.getTime() + FUTURE_SLACK_MS;
   input.steps.forEach((s, i) => {
-    if (new Date(s.at).getTime() > now + FUTURE_SLACK_MS) {
+    if (new Date(s.at).getTime() > latestAllowed) {
       throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
     }
   });
@@ -80,7 +81,7 @@ export async function recordCycle(
       .returning('id')
       .executeTakeFirstOrThrow();
     await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, input.steps, settings, actor.id)).execute();
-    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id);
+    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
     await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycle.id, {
       equipmentId: vessel.id,
       code: vessel.code,
@@ -105,11 +106,12 @@ export async function continueCycle(
   cycleId: string,
   input: { steps: CreateSanitationCycleInput['steps']; notes?: string | undefined },
   actor: { id: string },
+  now: Date,
 ): Promise<{ cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }> {
   const settings = await sanitationSettings(db);
-  const now = Date.now();
+  const latestAllowed = now.getTime() + FUTURE_SLACK_MS;
   input.steps.forEach((s, i) => {
-    if (new Date(s.at).getTime() > now + FUTURE_SLACK_MS) {
+    if (new Date(s.at).getTime() > latestAllowed) {
       throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
     }
   });
@@ -154,7 +156,7 @@ export async function continueCycle(
       .execute();
     await trx.deleteFrom('sanitation_step').where('cycle_id', '=', cycle.id).execute();
     await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, merged, settings, actor.id)).execute();
-    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id);
+    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
     await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, { equipmentId: vessel.id, code: vessel.code, outcome: ev.outcome, added: input.steps.map((s) => s.step) });
     return vessel.id;
   });
@@ -330,6 +332,7 @@ const statusSortColumn = { code: 'code', state: 'effective_state', freshUntil: '
 export async function listVesselStatus(
   db: Database,
   q: { kind?: 'fermenter' | 'keg' | undefined; state?: string | undefined; q?: string | undefined; sort: keyof typeof statusSortColumn; order: 'asc' | 'desc'; page: number; pageSize: number },
+  now: Date,
 ): Promise<Page<VesselSanitationStatus>> {
   const inner = db
     .selectFrom('equipment as e')
@@ -340,8 +343,8 @@ export async function listVesselStatus(
       'e.name',
       'e.kind',
       'e.state',
-      effectiveStateSql(eb.ref('e.id'), eb.ref('e.state')).as('effective_state'),
-      lapsedSql(eb.ref('e.id'), eb.ref('e.state')).as('lapsed'),
+      effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('effective_state'),
+      lapsedSql(eb.ref('e.id'), eb.ref('e.state'), now).as('lapsed'),
       freshUntilSql(eb.ref('e.id')).as('fresh_until'),
       eb
         .selectFrom('equipment_state_change as sc')

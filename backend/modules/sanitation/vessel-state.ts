@@ -12,6 +12,7 @@ export async function setVesselState(
   toState: VesselState,
   reason: string,
   actorId: string | null,
+  at: Date,
 ): Promise<{ from: VesselState; to: VesselState; changed: boolean }> {
   const row = await trx
     .selectFrom('equipment')
@@ -21,7 +22,7 @@ export async function setVesselState(
     .executeTakeFirstOrThrow();
   const from = row.state;
   if (from === toState) return { from, to: toState, changed: false };
-  await writeStateChange(trx, equipmentId, from, toState, reason, actorId);
+  await writeStateChange(trx, equipmentId, from, toState, reason, actorId, at);
   return { from, to: toState, changed: true };
 }
 
@@ -36,7 +37,7 @@ export async function writeStateChange(
   toState: VesselState,
   reason: string,
   actorId: string | null,
-  at: Date = new Date(),
+  at: Date,
 ): Promise<void> {
   await trx.updateTable('equipment').set({ state: toState, state_changed_at: at, updated_at: at }).where('id', '=', equipmentId).execute();
   await trx
@@ -50,15 +51,15 @@ export async function writeStateChange(
  * cycles on record and none of them is still fresh. Reads use it so that a lapse shows at once,
  * before the periodic job writes it down.
  */
-export function lapsedSql(equipmentId: Expression<string>, state: Expression<string>) {
+export function lapsedSql(equipmentId: Expression<string>, state: Expression<string>, now: Date) {
   return sql<boolean>`(${state} = 'ready'
     and exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete)
-    and not exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete and lc.fresh_until > now()))`;
+    and not exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete and lc.fresh_until > ${now}))`;
 }
 
-/** The state the co-op should treat a vessel as having now. */
-export function effectiveStateSql(equipmentId: Expression<string>, state: Expression<string>) {
-  return sql<VesselState>`(case when ${lapsedSql(equipmentId, state)} then 'needs_cleaning' else ${state} end)`;
+/** The state the co-op should treat a vessel as having at `now`. */
+export function effectiveStateSql(equipmentId: Expression<string>, state: Expression<string>, now: Date) {
+  return sql<VesselState>`(case when ${lapsedSql(equipmentId, state, now)} then 'needs_cleaning' else ${state} end)`;
 }
 
 /** The freshest complete cycle's window end for a vessel (null when none on record). */
@@ -71,21 +72,21 @@ export function freshUntilSql(equipmentId: Expression<string>) {
  * ended becomes `needs_cleaning`, with a history row. Run by the periodic queue job; safe to run
  * on any instance at any time (one statement, idempotent).
  */
-export async function applyFreshnessLapses(db: Database): Promise<number> {
+export async function applyFreshnessLapses(db: Database, now: Date): Promise<number> {
   const result = await sql<{ id: string }>`
     with hit as (
       select e.id, (select max(c.fresh_until) from sanitation_cycle c where c.equipment_id = e.id and c.complete) as fresh_until
       from equipment e
       where e.state = 'ready' and e.kind in ('fermenter', 'keg')
     ), lapsed as (
-      update equipment e set state = 'needs_cleaning', state_changed_at = now(), updated_at = now()
+      update equipment e set state = 'needs_cleaning', state_changed_at = ${now}, updated_at = ${now}
       from hit
-      where e.id = hit.id and e.state = 'ready' and hit.fresh_until is not null and hit.fresh_until <= now()
+      where e.id = hit.id and e.state = 'ready' and hit.fresh_until is not null and hit.fresh_until <= ${now}
       returning e.id, hit.fresh_until
     )
-    insert into equipment_state_change (equipment_id, from_state, to_state, reason, actor_id)
+    insert into equipment_state_change (equipment_id, from_state, to_state, reason, actor_id, at)
     select id, 'ready', 'needs_cleaning',
-      'Freshness window lapsed at ' || to_char(fresh_until at time zone 'UTC', 'YYYY-MM-DD HH24:MI') || ' UTC; clean and sanitize before use', null
+      'Freshness window lapsed at ' || to_char(fresh_until at time zone 'UTC', 'YYYY-MM-DD HH24:MI') || ' UTC; clean and sanitize before use', null, ${now}
     from lapsed
     returning equipment_id as id`.execute(db);
   return result.rows.length;

@@ -10,13 +10,13 @@ import { billingSummary } from '../billing/reports.service.ts';
 import { cellarSection, memberSection } from './today.service.ts';
 
 /** `GET /api/today`: one request for the Today screen; each section only for those whose abilities cover it. */
-export function todayRoutes({ db }: Deps): Router {
+export function todayRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
   router.get('/', async (req, res) => {
     const user = req.user!;
     const ability = req.ability;
-    const now = new Date();
+    const now = clock.now();
     const out: Today = { generatedAt: now.toISOString() };
     const tasks: Promise<void>[] = [];
 
@@ -26,7 +26,7 @@ export function todayRoutes({ db }: Deps): Router {
           const section = await memberSection(db, user.id, now);
           let balance = null;
           if (ability.can('read', subject('Invoice', { memberId: user.id }))) {
-            const [{ today }, profile] = await Promise.all([coopToday(db), getBillingProfile(db)]);
+            const [{ today }, profile] = await Promise.all([coopToday(db, now), getBillingProfile(db)]);
             balance = await memberBalance(db, user.id, today, profile.currency);
           }
           out.member = { ...section, balance };
@@ -42,7 +42,7 @@ export function todayRoutes({ db }: Deps): Router {
     }
     if (canAll(ability, 'read', 'Invoice')) {
       tasks.push(
-        billingSummary(db).then((s) => {
+        billingSummary(db, now).then((s) => {
           out.money = { currency: s.currency, unpaid: s.unpaid, overdue: s.overdue, drafts: s.drafts, ageing: s.ageing, lastRun: s.lastRun, suggestedPeriod: s.suggestedPeriod };
         }),
       );

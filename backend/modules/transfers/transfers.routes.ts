@@ -9,14 +9,14 @@ import { requireUser } from '../../middleware/authenticate.ts';
 import { listTransfers, recordTransfer, transferCandidates, transferViews } from './transfers.service.ts';
 
 /** `/api/transfers`: beer from a fermenter into kegs, recorded on the brewer-on-duty's checklist. */
-export function transfersRoutes({ db }: Deps): Router {
+export function transfersRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Transfer');
     const input = createTransferSchema.parse(req.body ?? {});
-    res.status(201).json(await recordTransfer(db, input, req.user!));
+    res.status(201).json(await recordTransfer(db, input, req.user!, clock.now()));
   });
 
   router.get('/', async (req, res) => {

@@ -35,9 +35,9 @@ function shareEvenly(total: number, n: number): number[] {
  * copied), the fermenter becomes `needs_cleaning`, the batch is marked packaged, and the audit
  * trail notes it.
  */
-export async function recordTransfer(db: Database, input: CreateTransferInput, actor: { id: string }): Promise<{ transfer: TransferView; warnings: string[] }> {
-  const at = input.transferredAt ? new Date(input.transferredAt) : new Date();
-  if (at.getTime() > Date.now() + FUTURE_SLACK_MS) throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
+export async function recordTransfer(db: Database, input: CreateTransferInput, actor: { id: string }, now: Date): Promise<{ transfer: TransferView; warnings: string[] }> {
+  const at = input.transferredAt ? new Date(input.transferredAt) : now;
+  if (at.getTime() > now.getTime() + FUTURE_SLACK_MS) throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
   const settings = await sanitationSettings(db);
 
   const transferId = await db
@@ -143,7 +143,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
     const co2 = input.co2Grams ?? settings.co2GramsPerKegFill * ordered.length;
 
     // The batch is packaged from here on: its FG is the latest reading.
-    await trx.updateTable('batch').set({ status: 'packaged', updated_at: new Date() }).where('id', '=', batch.id).execute();
+    await trx.updateTable('batch').set({ status: 'packaged', updated_at: now }).where('id', '=', batch.id).execute();
     const figures = await batchGravityFigures(trx, batch.id);
     const og = figures?.og ?? null;
     const fg = figures?.fg ?? null;
@@ -191,14 +191,14 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
           filled_at: at,
         })
         .execute();
-      await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id);
+      await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);
     }
-    await setVesselState(trx, fermenter.id, 'needs_cleaning', `Emptied by transfer of ${batch.name} to ${ordered.map((k) => k.code).join(', ')}`, actor.id);
+    await setVesselState(trx, fermenter.id, 'needs_cleaning', `Emptied by transfer of ${batch.name} to ${ordered.map((k) => k.code).join(', ')}`, actor.id, now);
 
     const totals = await trx.selectFrom('transfer').select((eb) => eb.fn.sum<number>('packaged_liters').as('liters')).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
     await trx
       .updateTable('batch')
-      .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: new Date() })
+      .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: now })
       .where('id', '=', batch.id)
       .execute();
 

@@ -13,7 +13,7 @@ const exportUrl = (period: string, format: 'csv' | 'xlsx') => `/api/invoices/exp
 const ExportsRoute = () => {
   useDocumentTitle('Exports');
   const ability = useAppAbility();
-  const [period, setPeriod] = useState(() => nextPeriod(todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone).slice(0, 7), -1));
+  const [period, setPeriod] = useState(() => nextPeriod(todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone, new Date()).slice(0, 7), -1));
   if (!ability.can('export', 'Invoice')) return <Navigate to={paths.myInvoices} replace />;
   return (
     <div className="flex max-w-2xl flex-col gap-4">

@@ -34,7 +34,7 @@ interface DialogBaseProps {
   onClose: () => void;
 }
 
-const today = () => todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone);
+const today = () => todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone, new Date());
 const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
 
 const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
