@@ -1,5 +1,7 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createBatch, createTransfer, DAY, HOUR, type ReadingInput } from '../../db/factories/index.ts';
+import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
@@ -7,8 +9,100 @@ let ctx: TestContext;
 let server: Awaited<ReturnType<typeof serve>>;
 let browser: Browser;
 
+/** 'YYYY-MM' of the month `offset` months from the one `at` is in (UTC). */
+const monthOf = (at: Date, offset = 0) => new Date(Date.UTC(at.getUTCFullYear(), at.getUTCMonth() + offset, 1)).toISOString().slice(0, 7);
+
+// What the brewer-on-duty and treasurer tests look at, made in beforeAll and dated from the test clock.
+const made = {
+  digitalId: '',
+  stuckId: '',
+  fermenting: [] as { name: string; owner: string }[],
+  packaged: [] as { name: string; month: string }[],
+};
+
 beforeAll(async () => {
   ctx = await createTestContext();
+  const now = ctx.clock.now().getTime();
+  const at = (ms: number) => new Date(now + ms);
+
+  // Two batches packaged in earlier months (the production records), from F-01 and F-02 into kegs.
+  for (const [i, p] of [
+    { name: 'Harvest brown ale', owner: 'member2', fermenter: 'F-01', keg: 'K-001', packagedAgo: 50 * DAY },
+    { name: 'Kellerbier', owner: 'member3', fermenter: 'F-02', keg: 'K-002', packagedAgo: 20 * DAY },
+  ].entries()) {
+    const packagedAt = at(-p.packagedAgo);
+    const batch = await createBatch(ctx.db, {
+      ownerId: fixtureUserId(p.owner),
+      name: p.name,
+      style: i === 0 ? 'Brown ale' : 'Lager',
+      volumeLiters: 20,
+      targetOg: 1.052,
+      targetFg: 1.012,
+      readings: [
+        { takenAt: new Date(packagedAt.getTime() - 16 * DAY), value: 1.052 },
+        { takenAt: new Date(packagedAt.getTime() - 10 * DAY), value: 1.018 },
+        { takenAt: new Date(packagedAt.getTime() - 4 * DAY), value: 1.012 },
+        { takenAt: new Date(packagedAt.getTime() - 2 * DAY), value: 1.012 },
+      ],
+    });
+    await createTransfer(ctx.db, { batchId: batch.id, fromEquipmentId: fixtureEquipmentId(p.fermenter), kegIds: [fixtureEquipmentId(p.keg)], at: packagedAt, kegVolumesLiters: [18.5], lossLiters: 1, recordedBy: fixtureUserId('brewer') });
+    made.packaged.push({ name: p.name, month: monthOf(packagedAt) });
+  }
+
+  // A member's batch fermenting in F-01, logged by hand.
+  const start = at(-6 * DAY);
+  await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member'),
+    name: 'Winter amber',
+    style: 'Amber ale',
+    targetOg: 1.054,
+    targetFg: 1.013,
+    readings: [
+      { takenAt: start, value: 1.054 },
+      { takenAt: at(-4 * DAY), value: 1.036 },
+      { takenAt: at(-2 * DAY), value: 1.022 },
+    ],
+    fermenter: { equipmentId: fixtureEquipmentId('F-01'), startsAt: new Date(start.getTime() - HOUR), endsAt: at(14 * DAY), now: at(0) },
+  });
+  made.fermenting.push({ name: 'Winter amber', owner: 'Maren Holloway' });
+
+  // Logged every half hour for ten days by a floating digital hydrometer, in F-03: more readings
+  // (some 480) than the chart draws points.
+  const digitalStart = at(-10 * DAY);
+  const digital: ReadingInput[] = [];
+  for (let t = digitalStart.getTime(); t <= now - HOUR; t += 30 * 60_000) {
+    const days = (t - digitalStart.getTime()) / DAY;
+    const sg = 1.012 + 0.048 * Math.exp(-days / 2) + 0.0003 * Math.sin(days * 9); // the float bobs a little
+    digital.push({ takenAt: new Date(t), value: Math.round(sg * 10_000) / 10_000, temperatureC: 19.5, correctTemperature: false, source: 'import' });
+  }
+  const logged = await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member4'),
+    name: 'Session pale (logged)',
+    style: 'Pale ale',
+    targetOg: 1.06,
+    targetFg: 1.012,
+    notes: 'Logged every half hour by a floating digital hydrometer.',
+    readings: digital,
+    fermenter: { equipmentId: fixtureEquipmentId('F-03'), startsAt: new Date(digitalStart.getTime() - HOUR), endsAt: at(10 * DAY), now: at(0) },
+  });
+  made.digitalId = logged.id;
+  made.fermenting.push({ name: 'Session pale (logged)', owner: 'Caspian Reyes' });
+
+  // The stuck one in F-04: stable for four days at 1.030, far above its 1.014 target.
+  const stuck = await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member6'),
+    name: 'Imperial porter',
+    style: 'Porter',
+    volumeLiters: 100,
+    targetOg: 1.074,
+    targetFg: 1.014,
+    notes: 'Gravity sat at 1.030 for four days.',
+    readings: [1.074, 1.058, 1.044, 1.034, 1.03, 1.03, 1.03, 1.03, 1.03].map((value, i, all) => ({ takenAt: at(-(all.length - i) * DAY + 2 * HOUR), value })),
+    fermenter: { equipmentId: fixtureEquipmentId('F-04'), startsAt: at(-10 * DAY), endsAt: at(12 * DAY), now: at(0) },
+  });
+  made.stuckId = stuck.id;
+  made.fermenting.push({ name: 'Imperial porter', owner: 'Bram Whitlock' });
+
   server = await serve(ctx);
   browser = await launchBrowser();
 });
@@ -99,7 +193,7 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
   it('marks a malformed row in the preview and imports nothing', async () => {
     const { page, context } = await signIn('member@example.org');
     const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
-    const batch = await ctx.db.insertInto('batch').values({ owner_id: member.id, name: 'Bad file batch', volume_liters: 20, created_by: member.id }).returning('id').executeTakeFirstOrThrow();
+    const batch = await createBatch(ctx.db, { ownerId: member.id, name: 'Bad file batch', volumeLiters: 20 });
     await page.goto(`/batches/${batch.id}/import`);
     const bad = 'Taken at,Gravity\n2026-11-02 08:00,1.050\n2026-11-03 08:00,one point oh\n';
     await page.getByLabel('Readings file').setInputFiles({ name: 'bad.csv', mimeType: 'text/csv', buffer: Buffer.from(bad) });
@@ -120,19 +214,20 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     await page.goto('/batches?status=fermenting');
     await page.getByRole('columnheader', { name: /Member/ }).waitFor();
     await page.locator('tbody tr a').first().waitFor();
+    // Every member's fermenting batch, each with its owner; the packaged ones are filtered out.
+    for (const b of made.fermenting) await page.getByRole('row').filter({ hasText: b.name }).filter({ hasText: b.owner }).waitFor();
+    for (const b of made.packaged) expect(await page.getByRole('row').filter({ hasText: b.name }).count()).toBe(0);
     await screenshot(page, 'batches-list-brewer');
 
-    // The seeded batch logged every half hour by a floating hydrometer: drawn as bucket averages.
-    const digital = await ctx.db.selectFrom('batch').select('id').where('notes', 'like', '%digital hydrometer%').executeTakeFirstOrThrow();
-    await page.goto(`/batches/${digital.id}`);
+    // The batch logged every half hour by a floating hydrometer: drawn as bucket averages.
+    await page.goto(`/batches/${made.digitalId}`);
     await page.getByTestId('gravity-chart').locator('svg .recharts-line').first().waitFor();
-    expect(await page.getByTestId('gravity-chart').textContent()).toMatch(/averages over equal stretches of time|Readings/);
+    expect(await page.getByTestId('gravity-chart').textContent()).toMatch(/4\d\d readings, drawn as \d+ averages over equal stretches of time/);
     await page.mouse.move(0, 0);
     await screenshot(page, 'batches-digital-hydrometer');
 
     // The stuck one: stable, but far above its target.
-    const stuck = await ctx.db.selectFrom('batch').select('id').where('notes', 'like', '%sat at 1.030%').executeTakeFirstOrThrow();
-    await page.goto(`/batches/${stuck.id}`);
+    await page.goto(`/batches/${made.stuckId}`);
     await expect.poll(() => page.getByTestId('stable-signal').textContent()).toMatch(/may be stuck/);
     await page.mouse.move(0, 0);
     await screenshot(page, 'batches-stuck');
@@ -146,7 +241,7 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
   it('adds a reading by hand and shows the hydrometer correction before saving', async () => {
     const { page, context } = await signIn('member@example.org');
     const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
-    const batch = await ctx.db.insertInto('batch').values({ owner_id: member.id, name: 'Hand readings batch', volume_liters: 20, created_by: member.id }).returning('id').executeTakeFirstOrThrow();
+    const batch = await createBatch(ctx.db, { ownerId: member.id, name: 'Hand readings batch', volumeLiters: 20 });
     await page.goto(`/batches/${batch.id}`);
     await page.getByRole('button', { name: 'Add a reading' }).click();
     const dialog = page.getByRole('dialog');
@@ -163,12 +258,24 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
 
   it('gives the treasurer the production records with litres, US barrels and the licensing note', async () => {
     const { page, context } = await signIn('treasurer@example.org');
+    // The three months before the server's current one.
+    const now = ctx.clock.now();
+    const from = monthOf(now, -3);
+    const to = monthOf(now, -1);
     await page.goto('/production-records');
-    await page.getByLabel('From month').fill('2026-09');
-    await page.getByLabel('To month').fill('2026-11');
-    await page.getByRole('cell', { name: /batches?$/ }).first().waitFor();
+    await page.getByLabel('From month').fill(from);
+    await page.getByLabel('To month').fill(to);
+    await page.getByRole('cell', { name: /: \d+ batch(es)?$/ }).first().waitFor();
+    // Each batch packaged in those months is a row of its month, with its litres; the month's subtotal counts it.
+    for (const b of made.packaged) {
+      const row = page.getByRole('row').filter({ has: page.getByRole('link', { name: b.name }) });
+      await row.waitFor();
+      expect(await row.innerText()).toMatch(/18\.5/);
+    }
+    expect(new Set(made.packaged.map((b) => b.month)).size).toBe(2); // in two different months
+    expect(await page.getByRole('cell', { name: /: 1 batch$/ }).count()).toBe(2);
     expect(await page.getByRole('status').first().textContent()).toMatch(/Local licensing and excise rules govern/);
-    expect(await page.getByRole('link', { name: 'Export CSV' }).getAttribute('href')).toBe('/api/production-records/export?from=2026-09&to=2026-11&format=csv');
+    expect(await page.getByRole('link', { name: 'Export CSV' }).getAttribute('href')).toBe(`/api/production-records/export?from=${from}&to=${to}&format=csv`);
     await screenshot(page, 'batches-production-records');
     await context.close();
   });

@@ -1,5 +1,7 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createBooking, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
+import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
@@ -9,6 +11,26 @@ let browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
+  const now = ctx.clock.now();
+  // This month on the calendar: F-01 in use by Maren Holloway (member@), F-02 booked by Ines Farrow
+  // (member3@) from the day after tomorrow; F-03 free for weeks. K-001 freshly sanitized (ready), the
+  // other kegs still needing cleaning.
+  await createBooking(ctx.db, {
+    equipmentId: fixtureEquipmentId('F-01'),
+    ownerId: fixtureUserId('member'),
+    startsAt: new Date(now.getTime() - 3 * DAY),
+    endsAt: new Date(now.getTime() + 10 * DAY),
+    now,
+    notes: 'Amber ale',
+  });
+  await createBooking(ctx.db, {
+    equipmentId: fixtureEquipmentId('F-02'),
+    ownerId: fixtureUserId('member3'),
+    startsAt: new Date(now.getTime() + 2 * DAY),
+    endsAt: new Date(now.getTime() + 16 * DAY),
+    now,
+  });
+  await createSanitationCycle(ctx.db, { equipmentId: fixtureEquipmentId('K-001'), readyAt: new Date(now.getTime() - HOUR), recordedBy: fixtureUserId('brewer') });
   server = await serve(ctx);
   browser = await launchBrowser();
 });
@@ -35,15 +57,15 @@ describe('booking a fermenter on the calendar', () => {
     const { page, context } = await signIn('member@example.org');
     await page.getByRole('link', { name: 'Bookings' }).click();
     await page.waitForURL('**/bookings');
-    const row = 'F-03 · 30 L bucket fermenter 3';
+    const row = 'F-03 · 60 L fermenter 1';
     await page.getByText(row).waitFor();
     // Let the bookings of the visible month load before looking for a free day.
     await page.locator('.ec-event').first().waitFor();
 
     const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
     const f03 = await ctx.db.selectFrom('equipment').select('id').where('code', '=', 'F-03').executeTakeFirstOrThrow();
-    // A week from now F-03 is free (its December booking was cancelled).
-    const day = new Date(Date.now() + 7 * 24 * 3600_000).toISOString().slice(0, 10);
+    // A week from the server's now F-03 is free (nothing booked on it).
+    const day = new Date(ctx.clock.now().getTime() + 7 * DAY).toISOString().slice(0, 10);
     const clash = await ctx.db
       .selectFrom('booking')
       .select('id')
@@ -103,11 +125,14 @@ describe('booking a fermenter on the calendar', () => {
     const { page, context } = await signIn('brewer@example.org');
     await page.goto('/bookings');
     await page.getByText('F-01 · 30 L bucket fermenter 1').waitFor();
-    // F-01 is held by the demo member: the brewer sees the name, not "Taken".
+    // F-01 is held by Maren Holloway, F-02 by Ines Farrow: the brewer sees the names, not "Taken".
     await page.locator('.cw-booking').filter({ hasText: 'Maren Holloway' }).first().waitFor();
+    await page.locator('.cw-booking').filter({ hasText: 'Ines Farrow' }).first().waitFor();
     expect(await page.locator('.cw-booking').filter({ hasText: /^Taken/ }).count()).toBe(0);
+    await screenshot(page, 'bookings-calendar-brewer');
     await page.getByRole('link', { name: 'All bookings' }).click();
     await page.getByRole('cell', { name: 'Maren Holloway' }).first().waitFor();
+    await page.getByRole('cell', { name: 'Ines Farrow' }).first().waitFor();
     await context.close();
   });
 
@@ -121,7 +146,8 @@ describe('booking a fermenter on the calendar', () => {
     await expect.poll(async () => (await page.locator('tbody tr').allInnerTexts()).every((t) => /Needs cleaning/.test(t))).toBe(true);
     const first = page.locator('tbody tr').first();
     const code = (await first.locator('a').first().innerText()).trim();
-    expect(code).toMatch(/^K-\d{3}$/);
+    // K-001 was sanitized and is ready, so the first keg needing cleaning is K-002.
+    expect(code).toBe('K-002');
     await first.getByRole('checkbox').check();
     await expect.poll(() => page.getByRole('link', { name: /Print 1 label/ }).getAttribute('href')).toMatch(/labels\.pdf\?ids=/);
     await screenshot(page, 'cellar-kegs-needing-cleaning');

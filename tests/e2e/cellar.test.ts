@@ -1,5 +1,7 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createBatch, createKegCheckout, createTransfer, DAY, HOUR } from '../../db/factories/index.ts';
+import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
@@ -7,8 +9,88 @@ let ctx: TestContext;
 let server: Awaited<ReturnType<typeof serve>>;
 let browser: Browser;
 
+const keg = (code: string) => ({ id: fixtureEquipmentId(code), code });
+
+// What the tests work on and look at, made in beforeAll and dated from the test clock.
+const made = {
+  /** A batch fermenting in F-01 (bottom valve), ready to transfer. */
+  batch: { id: '', name: 'Cellar round bitter', fermenter: 'F-01' },
+  /** A keg needing cleaning, in the cellar (no cycle on record). */
+  keg: keg('K-001'),
+  /** Filled kegs on taps T-1…T-3 (T-4 free). */
+  tapped: [keg('K-004'), keg('K-005'), keg('K-006')],
+  /** Kegs out with members, due back 3, 6, 10 and 15 days ago; and one due in a week. */
+  overdue: [
+    { ...keg('K-007'), member: 'member2', daysLate: 3 },
+    { ...keg('K-008'), member: 'member3', daysLate: 6 },
+    { ...keg('K-009'), member: 'member4', daysLate: 10 },
+    { ...keg('K-010'), member: 'member6', daysLate: 15 },
+  ],
+  notDue: { ...keg('K-011'), member: 'member' },
+};
+
 beforeAll(async () => {
   ctx = await createTestContext();
+  const now = ctx.clock.now().getTime();
+  const at = (ms: number) => new Date(now + ms);
+  const brewer = fixtureUserId('brewer');
+
+  const fermenting = await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member'),
+    name: made.batch.name,
+    style: 'Best bitter',
+    volumeLiters: 21,
+    targetOg: 1.044,
+    targetFg: 1.01,
+    readings: [
+      { takenAt: at(-12 * DAY), value: 1.044 },
+      { takenAt: at(-8 * DAY), value: 1.018 },
+      { takenAt: at(-4 * DAY), value: 1.011 },
+      { takenAt: at(-1 * DAY), value: 1.011 },
+    ],
+    fermenter: { equipmentId: fixtureEquipmentId(made.batch.fermenter), startsAt: at(-12 * DAY - HOUR), endsAt: at(3 * DAY), now: at(0) },
+  });
+  made.batch.id = fermenting.id;
+
+  // A pale ale packaged five days ago into three kegs now in the cold room, then tapped by the brewer
+  // on duty through the API.
+  const pale = await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member5'),
+    name: 'House pale',
+    style: 'Pale ale',
+    volumeLiters: 60,
+    readings: [
+      { takenAt: at(-20 * DAY), value: 1.048 },
+      { takenAt: at(-10 * DAY), value: 1.01 },
+      { takenAt: at(-7 * DAY), value: 1.01 },
+    ],
+  });
+  await createTransfer(ctx.db, { batchId: pale.id, fromEquipmentId: fixtureEquipmentId('F-03'), kegIds: made.tapped.map((k) => k.id), at: at(-5 * DAY), volumeLiters: 56, lossLiters: 2, whereabouts: 'cold_room', recordedBy: brewer });
+  const api = await ctx.signIn('brewer@example.org');
+  for (const [i, k] of made.tapped.entries()) {
+    const res = await api.post(`/api/kegs/${k.id}/move`, { to: 'cold_room', tapId: fixtureEquipmentId(`T-${i + 1}`) });
+    if (res.status !== 200) throw new Error(`could not tap ${k.code}: ${res.status} ${JSON.stringify(res.body)}`);
+  }
+
+  // A porter packaged six weeks ago; its kegs went home with members a month ago.
+  const porter = await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member3'),
+    name: 'Robust porter',
+    style: 'Porter',
+    volumeLiters: 100,
+    readings: [
+      { takenAt: at(-60 * DAY), value: 1.058 },
+      { takenAt: at(-50 * DAY), value: 1.016 },
+      { takenAt: at(-46 * DAY), value: 1.016 },
+    ],
+  });
+  const out = [...made.overdue, made.notDue];
+  await createTransfer(ctx.db, { batchId: porter.id, fromEquipmentId: fixtureEquipmentId('F-04'), kegIds: out.map((k) => k.id), at: at(-42 * DAY), recordedBy: brewer });
+  for (const k of made.overdue) {
+    await createKegCheckout(ctx.db, { kegId: k.id, memberId: fixtureUserId(k.member), at: at(-30 * DAY), dueAt: at(-k.daysLate * DAY), actorId: brewer });
+  }
+  await createKegCheckout(ctx.db, { kegId: made.notDue.id, memberId: fixtureUserId(made.notDue.member), at: at(-2 * DAY), dueAt: at(7 * DAY), actorId: brewer });
+
   server = await serve(ctx);
   browser = await launchBrowser();
 });
@@ -33,24 +115,9 @@ async function smallTargets(page: Page, scope: string): Promise<string[]> {
 describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, () => {
   it('records a sanitation cycle on a keg from its label page, then a transfer into it', async () => {
     // A keg that needs cleaning, in the cellar; a batch still in its fermenter.
-    const keg = await ctx.db
-      .selectFrom('equipment as e')
-      .leftJoin('keg_whereabouts as w', 'w.keg_id', 'e.id')
-      .select(['e.id', 'e.code'])
-      .where('e.kind', '=', 'keg')
-      .where('e.state', '=', 'needs_cleaning')
-      .where((eb) => eb.or([eb('w.whereabouts', 'is', null), eb('w.whereabouts', '=', 'cellar')]))
-      .orderBy('e.code')
-      .executeTakeFirstOrThrow();
-    const batch = await ctx.db
-      .selectFrom('batch as b')
-      .innerJoin('booking as bk', 'bk.batch_id', 'b.id')
-      .innerJoin('equipment as f', 'f.id', 'bk.equipment_id')
-      .select(['b.id', 'b.name', 'f.code as fermenter'])
-      .where('b.status', 'in', ['fermenting', 'conditioning'])
-      .where('f.kind', '=', 'fermenter')
-      .orderBy('f.code')
-      .executeTakeFirstOrThrow();
+    const { keg, batch } = made;
+    const before = await ctx.db.selectFrom('equipment').select('state').where('id', '=', keg.id).executeTakeFirstOrThrow();
+    expect(before.state).toBe('needs_cleaning');
 
     const page = await signInOnPhone('brewer@example.org');
 
@@ -121,12 +188,27 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
   it('shows the tap board and the overdue kegs to the brewer on duty', async () => {
     const page = await signInOnPhone('brewer@example.org');
     await page.goto('/kegs/tap-board');
-    await page.getByRole('list', { name: 'Taps' }).waitFor();
-    expect(await page.getByText('On tap').count()).toBeGreaterThanOrEqual(3);
+    const taps = page.getByRole('list', { name: 'Taps' });
+    await taps.waitFor();
+    // T-1…T-3 carry the pale ale's kegs, T-4 is free.
+    for (const [i, k] of made.tapped.entries()) {
+      const tap = taps.getByRole('listitem').filter({ has: page.getByRole('heading', { name: `T-${i + 1}` }) });
+      await tap.getByRole('link', { name: k.code }).waitFor();
+      expect(await tap.innerText()).toMatch(/On tap[\s\S]*House pale/);
+    }
+    expect(await taps.getByText('On tap').count()).toBe(3);
+    expect(await taps.getByRole('listitem').filter({ has: page.getByRole('heading', { name: 'T-4' }) }).innerText()).toMatch(/Free/);
     await screenshot(page, 'cellar-phone-7-tap-board');
     await page.getByRole('link', { name: 'Overdue' }).click();
-    await page.getByRole('list', { name: 'Overdue kegs' }).waitFor();
-    expect(await page.getByText(/days late/).count()).toBeGreaterThanOrEqual(4);
+    const overdue = page.getByRole('list', { name: 'Overdue kegs' });
+    await overdue.waitFor();
+    // The four kegs past their due date, each as many days late as the server's today says; the one due next week is not there.
+    expect(await overdue.getByText(/days late/).count()).toBe(4);
+    for (const k of made.overdue) {
+      const item = overdue.getByRole('listitem').filter({ has: page.getByRole('link', { name: k.code, exact: true }) });
+      expect(await item.innerText()).toMatch(new RegExp(`${k.daysLate} days late · Robust porter`));
+    }
+    expect(await overdue.getByRole('link', { name: made.notDue.code, exact: true }).count()).toBe(0);
     await screenshot(page, 'cellar-phone-8-overdue');
     await page.context().close();
   });

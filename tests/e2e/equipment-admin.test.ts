@@ -1,5 +1,7 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createFermenter, createTap } from '../../db/factories/index.ts';
+import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
@@ -9,6 +11,11 @@ let browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
+  // Besides the fixture's F-01…F-04 and T-1…T-4, a fermenter labelled F-12 and a tap labelled T-8:
+  // the next free code is one past the highest (F-13, T-9), not the first gap.
+  const at = ctx.clock.now();
+  await createFermenter(ctx.db, { code: 'F-12', name: '60 L fermenter 12', capacityLiters: 60, at, actorId: fixtureUserId('admin') });
+  await createTap(ctx.db, { code: 'T-8', name: 'Tap position 8', at, actorId: fixtureUserId('admin') });
   server = await serve(ctx);
   browser = await launchBrowser();
 });

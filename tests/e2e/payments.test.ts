@@ -1,6 +1,10 @@
+import { sql } from 'kysely';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
+import { createBooking, createInvoice, DAY, type InvoiceWithLines } from '../../db/factories/index.ts';
+import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
+import { nextPeriod, periodBounds, periodLabel } from '../../shared/billing/dates.ts';
 import { desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
@@ -12,9 +16,34 @@ let fake: PaymentsFake;
 let server: Awaited<ReturnType<typeof serve>>;
 let browser: Browser;
 
+// The invoices the tests pay and list, made in beforeAll as invoice runs would have made them, on the
+// first day after each period, for the three months before the server's current one.
+const made = {
+  /** The month that ended last (the one the overview offers to bill). */
+  lastPeriod: '',
+  /** Caspian Reyes (member4): dues for the two months before it, both invoices unpaid and past due. */
+  payer: { email: 'member4@example.org', invoices: [] as InvoiceWithLines[] },
+  /** Bram Whitlock (member6): one unpaid invoice. */
+  canceller: { email: 'member6@example.org', invoice: null as InvoiceWithLines | null },
+  /** Ines Farrow (member3): a fortnight in the 60 L fermenter on top of her dues, the largest amount to pay. */
+  largest: null as InvoiceWithLines | null,
+};
+
 beforeAll(async () => {
   fake = await startPaymentsFake({ webhookRetries: 0 });
   ctx = await createTestContext({ PAYMENTS_FAKE_PORT: String(fake.port) });
+  const today = ctx.clock.now().toISOString().slice(0, 10);
+  made.lastPeriod = nextPeriod(today.slice(0, 7), -1);
+  const older = nextPeriod(made.lastPeriod, -2);
+  const old = nextPeriod(made.lastPeriod, -1);
+  const issue = (member: string, period: string) =>
+    createInvoice(ctx.db, { memberId: fixtureUserId(member), period, today: periodBounds(period).next, actorId: fixtureUserId('treasurer') });
+
+  made.payer.invoices = [await issue('member4', older), await issue('member4', old)];
+  made.canceller.invoice = await issue('member6', old);
+  const start = new Date(`${periodBounds(old).first}T10:00:00Z`).getTime() + 4 * DAY;
+  await createBooking(ctx.db, { equipmentId: fixtureEquipmentId('F-03'), ownerId: fixtureUserId('member3'), startsAt: new Date(start), endsAt: new Date(start + 14 * DAY), now: ctx.clock.now() });
+  made.largest = await issue('member3', old);
   server = await serve(ctx);
   fake.webhookUrl = `${server.url}/api/webhooks/payments`;
   browser = await launchBrowser();
@@ -30,7 +59,7 @@ const signIn = (email: string, viewport = desktop) => signedInPage(browser, serv
 
 describe('paying an invoice online', () => {
   it('a member opens an unpaid invoice, pays on the provider’s page, returns and sees it paid', async () => {
-    const member = await ctx.db.selectFrom('app_user').select(['id', 'name']).where('email', '=', 'member12@example.org').executeTakeFirstOrThrow();
+    const member = await ctx.db.selectFrom('app_user').select(['id', 'name']).where('email', '=', made.payer.email).executeTakeFirstOrThrow();
     const unpaid = await ctx.db
       .selectFrom('invoice')
       .select(['id', 'number', 'total_cents'])
@@ -38,10 +67,10 @@ describe('paying an invoice online', () => {
       .where('status', '=', 'issued')
       .orderBy('issued_on')
       .execute();
-    expect(unpaid.length).toBeGreaterThanOrEqual(2); // the demo leaves September and October unpaid
+    expect(unpaid.map((i) => i.id)).toEqual(made.payer.invoices.map((i) => i.id)); // both months unpaid, the older first
     const target = unpaid[0]!;
 
-    const { page, context } = await signIn('member12@example.org');
+    const { page, context } = await signIn(made.payer.email);
     await page.getByRole('link', { name: 'Billing', exact: true }).click();
     await page.waitForURL('**/billing/my-invoices');
     await expect.poll(() => page.getByTestId('balance').textContent()).toMatch(/€\d/);
@@ -80,14 +109,19 @@ describe('paying an invoice online', () => {
   });
 
   it('a member who cancels on the provider’s page comes back to an invoice still open', async () => {
-    const { page, context } = await signIn('member20@example.org', phone);
+    const invoice = made.canceller.invoice!;
+    const { page, context } = await signIn(made.canceller.email, phone);
     await page.goto('/billing/my-invoices?unpaid=true');
-    await page.getByRole('row').nth(1).getByRole('link').click();
+    await page.getByRole('row').nth(1).getByRole('link', { name: invoice.number! }).click();
     await page.getByRole('button', { name: /^Pay .* online$/ }).click();
     await page.waitForURL((u) => u.href.startsWith(`${fake.url}/pay/`));
     await page.getByRole('button', { name: 'Cancel and go back' }).click();
     await page.getByText('You cancelled on the payment page; nothing was charged.').waitFor();
+    await page.getByRole('button', { name: /^Pay .* online$/ }).waitFor(); // still open: it can be paid again
     await screenshot(page, 'billing-member-checkout-cancelled-phone');
+    const row = await ctx.db.selectFrom('invoice').select(['status', 'paid_cents']).where('id', '=', invoice.id).executeTakeFirstOrThrow();
+    expect(row).toEqual({ status: 'issued', paid_cents: 0 });
+    expect(await ctx.db.selectFrom('payment').select('id').where('invoice_id', '=', invoice.id).execute()).toEqual([]);
     await context.close();
   });
 });
@@ -98,7 +132,7 @@ describe('the treasurer’s billing screens', () => {
     await page.getByRole('link', { name: 'Billing', exact: true }).click();
     await page.waitForURL('**/billing');
     await page.getByRole('heading', { name: 'Open amounts by age' }).waitFor();
-    await page.getByText('November 2026 has ended and can be billed.').waitFor();
+    await page.getByText(`${periodLabel(made.lastPeriod)} has ended and can be billed.`).waitFor();
     await page.locator('.recharts-bar-rectangle').first().waitFor();
     await screenshot(page, 'billing-treasurer-overview');
 
@@ -109,8 +143,14 @@ describe('the treasurer’s billing screens', () => {
     await page.getByRole('button', { name: /To pay/ }).click();
     await page.waitForURL(/sort=amountDue/);
     await screenshot(page, 'billing-treasurer-invoices');
+    // Most to pay first: Ines Farrow's month with the fermenter.
+    const largest = made.largest!;
+    const top = await ctx.db.selectFrom('invoice').select(['id', 'number']).where('status', '=', 'issued').orderBy(sql`total_cents - paid_cents - credited_cents`, 'desc').executeTakeFirstOrThrow();
+    expect(top.id).toBe(largest.id);
+    await expect.poll(() => page.getByRole('row').nth(1).getByRole('link').first().textContent()).toBe(largest.number);
     await page.getByRole('row').nth(1).getByRole('link').first().click();
-    await page.getByRole('heading', { name: /INV-2026-/ }).waitFor();
+    await page.getByRole('heading', { name: largest.number! }).waitFor();
+    await page.getByText(/F-03/).first().waitFor(); // its fermenter-days, with the booking they come from
     await page.getByRole('button', { name: 'Record payment' }).waitFor();
     await screenshot(page, 'billing-treasurer-invoice');
 
