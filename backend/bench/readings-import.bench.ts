@@ -10,6 +10,8 @@ import { Readable } from 'node:stream';
 import { fileURLToPath } from 'node:url';
 import ExcelJS from 'exceljs';
 import { from as copyFrom } from 'pg-copy-streams';
+import { systemClock } from '../lib/clock.ts';
+import { createBatch, createMember } from '../../db/factories/index.ts';
 import { createDb } from '../db/database.ts';
 import { loadFermentationSettings } from '../modules/batches/figures.ts';
 import { importReadings } from '../modules/batches/readings-import.service.ts';
@@ -104,7 +106,7 @@ async function child(kind: string, url: string, batchId: string, file: string, a
       actor: { id: actorId, roles: ['member'] },
       settings,
       timeZone: 'UTC',
-      now: new Date(),
+      now: systemClock.now(),
     });
     rows = kind.endsWith('-dry') ? (result.preview?.validRows ?? 0) : result.imported;
   }
@@ -119,9 +121,8 @@ async function main() {
   const bench = await benchDatabase('readings');
   try {
     const files = await writeFiles(dir);
-    const member = await bench.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
-    const newBatch = async (name: string) =>
-      (await bench.db.insertInto('batch').values({ owner_id: member.id, name, volume_liters: 1000, created_by: member.id }).returning('id').executeTakeFirstOrThrow()).id;
+    const member = await createMember(bench.db);
+    const newBatch = async (name: string) => (await createBatch(bench.db, { ownerId: member.id, name, volumeLiters: 1000 })).id;
     const runs: { label: string; kind: string; file: string }[] = [
       { label: 'PostgreSQL COPY (normalised rows)', kind: 'copy', file: files.copyPath },
       { label: 'CSV import', kind: 'csv', file: files.csvPath },

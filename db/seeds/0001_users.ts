@@ -1,6 +1,7 @@
 import { hash } from '@node-rs/argon2';
 import type { Database } from '../../backend/db/database.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
+import type { DemoCalendar } from './demo-calendar.ts';
 import { seedId } from './ids.ts';
 
 export const DEMO_PASSWORD = 'cellar-demo';
@@ -35,7 +36,7 @@ export const demoUsers: SeedUser[] = [
 
 export const userId = (key: string) => seedId('user', key);
 
-export async function seed(db: Database): Promise<void> {
+export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   // One hash for the shared demo password keeps seeding fast; real accounts each get their own salt.
   const passwordHash = await hash(DEMO_PASSWORD);
   await db
@@ -48,7 +49,7 @@ export async function seed(db: Database): Promise<void> {
         roles: u.roles,
         password_hash: passwordHash,
         units: u.key === 'member2' ? ('us' as const) : ('metric' as const),
-        created_at: new Date('2026-08-01T09:00:00Z'),
+        created_at: cal.at('2026-08-01T09:00:00Z'),
       })),
     )
     .onConflict((oc) => oc.doNothing())

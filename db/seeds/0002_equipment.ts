@@ -2,6 +2,7 @@ import { sql } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { EquipmentKind, VesselState } from '../../shared/schemas/equipment.ts';
 import { userId } from './0001_users.ts';
+import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
 
 /** The stable id of a seeded item, by its label code (`F-07`, `K-031`, `T-3`, `C-1`). */
@@ -92,6 +93,7 @@ function taps(): SeedEquipment[] {
   return list;
 }
 
+/** Cylinders' next hydrostatic tests as designed (the seed moves them with the demo's calendar): C-6's fell due a month ago. */
 function cylinders(): SeedEquipment[] {
   const sizes = [6, 6, 6, 6, 10, 10];
   const fills = [100, 85, 60, 35, 100, 90];
@@ -111,14 +113,15 @@ export const seedEquipment: SeedEquipment[] = [...fermenters(), ...kegs(), ...ta
 /** Whoever is on the brewers' rota made the seeded state changes. */
 export const rota = [userId('brewer'), userId('member5'), userId('member10')];
 
-const registeredAt = new Date('2026-08-15T09:00:00Z');
-
 /**
  * The co-op's equipment as it came into service in late August: every vessel registered, cleaned
  * and sanitized. The bookings seed then walks each item through three months of use.
  */
-export async function seed(db: Database): Promise<void> {
+export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const random = rng(2002);
+  const registeredAt = cal.at('2026-08-15T09:00:00Z');
+  const attributes = (e: SeedEquipment) =>
+    e.kind === 'co2_cylinder' ? { ...e.attributes, hydroTestDue: cal.date(e.attributes.hydroTestDue as string) } : e.attributes;
   await db
     .insertInto('equipment')
     .values(
@@ -129,9 +132,9 @@ export async function seed(db: Database): Promise<void> {
         name: e.name,
         capacity_liters: e.capacityLiters,
         state: 'ready' as VesselState,
-        attributes: sql`${JSON.stringify(e.attributes)}::jsonb`,
+        attributes: sql`${JSON.stringify(attributes(e))}::jsonb`,
         notes: e.notes,
-        state_changed_at: new Date('2026-08-29T15:00:00Z'),
+        state_changed_at: cal.at('2026-08-29T15:00:00Z'),
         created_at: registeredAt,
         updated_at: registeredAt,
       })),
@@ -143,7 +146,7 @@ export async function seed(db: Database): Promise<void> {
   for (const e of seedEquipment) {
     const id = equipmentId(e.code);
     const actor = () => rota[Math.floor(random() * rota.length)]!;
-    const hour = (d: string, h: number) => new Date(`${d}T${String(h).padStart(2, '0')}:00:00Z`);
+    const hour = (d: string, h: number) => cal.at(`${d}T${String(h).padStart(2, '0')}:00:00Z`);
     if (e.kind === 'co2_cylinder') {
       changes.push({ equipment_id: id, from_state: null, to_state: 'ready', reason: 'Added to the registry, filled and leak-checked', actor_id: userId('admin'), at: registeredAt });
       continue;
@@ -163,7 +166,7 @@ export async function seed(db: Database): Promise<void> {
       to_state: 'ready',
       reason: e.kind === 'tap' ? 'Line sanitized with acid sanitizer' : 'Sanitized with acid sanitizer and purged with CO2',
       actor_id: actor(),
-      at: new Date('2026-08-29T15:00:00Z'),
+      at: cal.at('2026-08-29T15:00:00Z'),
     });
   }
   for (let i = 0; i < changes.length; i += 200) await db.insertInto('equipment_state_change').values(changes.slice(i, i + 200)).execute();

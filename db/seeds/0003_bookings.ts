@@ -3,15 +3,13 @@ import type { BookingState } from '../../shared/schemas/booking.ts';
 import type { VesselState } from '../../shared/schemas/equipment.ts';
 import { demoUsers, userId } from './0001_users.ts';
 import { equipmentId, rota, seedEquipment } from './0002_equipment.ts';
+import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
 
-/** The demo's "today": bookings before it are finished or in use, those after it booked. */
-export const demoToday = new Date('2026-12-01T08:00:00Z');
 const HOUR = 3600_000;
 const DAY = 24 * HOUR;
 /** The co-op's cleaning buffer when these bookings were made (the booking_rules default). */
 const BUFFER = 24 * HOUR;
-const seasonStart = new Date('2026-09-01T10:00:00Z');
 
 export const bookingSeedId = (n: number) => seedId('booking', n);
 
@@ -26,18 +24,21 @@ interface PlannedBooking {
 }
 
 const members = demoUsers.filter((u) => u.roles.includes('member')).map((u) => u.key);
-const day10 = (iso: string) => new Date(`${iso}T10:00:00Z`);
 const addDays = (d: Date, days: number) => new Date(d.getTime() + days * DAY);
 
-/** What each fermenter is doing on the demo's today, and when its last finished booking ended. */
-const fermenterPlan: Record<string, { final: VesselState; lastEnd?: string; currentOwner?: string; december?: { start: string; days: number; owner: string }[] }> = {
+/**
+ * What each fermenter is doing on the demo's today, and when its last finished booking ended (dates
+ * as designed, for a today of 1 December 2026; the demo's calendar moves them).
+ */
+const fermenterPlan: Record<string, { final: VesselState; lastEnd?: string; endsBy?: string; currentOwner?: string; december?: { start: string; days: number; owner: string }[] }> = {
   'F-01': { final: 'holding', currentOwner: 'member' },
   'F-02': { final: 'holding', december: [{ start: '2026-12-20', days: 21, owner: 'member7' }] },
   'F-03': { final: 'ready', lastEnd: '2026-11-19' },
   'F-04': { final: 'needs_cleaning', lastEnd: '2026-11-30' },
   'F-05': { final: 'out_of_service', lastEnd: '2026-10-20' },
   'F-06': { final: 'cleaned', lastEnd: '2026-11-29' },
-  'F-07': { final: 'holding' },
+  // F-07's batch has finished and its booking ends the day after tomorrow: the brewer's Today shows a transfer due.
+  'F-07': { final: 'holding', endsBy: '2026-12-03' },
   'F-08': { final: 'ready', lastEnd: '2026-11-24', december: [{ start: '2026-12-14', days: 21, owner: 'member' }] },
   'F-09': { final: 'holding' },
   'F-10': { final: 'needs_cleaning', lastEnd: '2026-11-30' },
@@ -46,16 +47,20 @@ const fermenterPlan: Record<string, { final: VesselState; lastEnd?: string; curr
 };
 
 /** Items out of service on the demo's today, since when and why. */
-const outOfService: Record<string, { at: Date; reason: string }> = {
-  'F-05': { at: new Date('2026-10-23T11:00:00Z'), reason: 'Lid seal cracked; a replacement seal is on order' },
-  'K-058': { at: new Date('2026-09-12T14:00:00Z'), reason: 'Failed the leak test at the gas post; O-ring kit on order' },
-  'K-059': { at: new Date('2026-11-03T10:00:00Z'), reason: 'Dent in the shell near the base; to be pressure-tested by a licensed tester before reuse' },
-  'T-6': { at: new Date('2026-11-08T16:00:00Z'), reason: 'Faucet drips at the shank; new washer on order' },
-  'C-6': { at: new Date('2026-11-02T09:00:00Z'), reason: 'Hydrostatic test was due 2026-11-01; sent for testing' },
-};
+const outOfServiceOn = (cal: DemoCalendar): Record<string, { at: Date; reason: string }> => ({
+  'F-05': { at: cal.at('2026-10-23T11:00:00Z'), reason: 'Lid seal cracked; a replacement seal is on order' },
+  'K-058': { at: cal.at('2026-09-12T14:00:00Z'), reason: 'Failed the leak test at the gas post; O-ring kit on order' },
+  'K-059': { at: cal.at('2026-11-03T10:00:00Z'), reason: 'Dent in the shell near the base; to be pressure-tested by a licensed tester before reuse' },
+  'T-6': { at: cal.at('2026-11-08T16:00:00Z'), reason: 'Faucet drips at the shank; new washer on order' },
+  'C-6': { at: cal.at('2026-11-02T09:00:00Z'), reason: `Hydrostatic test was due ${cal.date('2026-11-01')}; sent for testing` },
+});
 
-function plan(): PlannedBooking[] {
+function plan(cal: DemoCalendar): PlannedBooking[] {
   const random = rng(3003);
+  const demoToday = cal.now;
+  const seasonStart = cal.at('2026-09-01T10:00:00Z');
+  const day10 = (iso: string) => cal.at(`${iso}T10:00:00Z`);
+  const outOfService = outOfServiceOn(cal);
   const between = (lo: number, hi: number) => lo + Math.floor(random() * (hi - lo + 1));
   const pick = <T>(list: T[]) => list[Math.floor(random() * list.length)]!;
   const bookings: PlannedBooking[] = [];
@@ -67,8 +72,10 @@ function plan(): PlannedBooking[] {
     const own: PlannedBooking[] = [];
     let anchor: Date; // the start of the booking after the ones still to fill in
     if (p.final === 'holding') {
-      const startsAt = addDays(day10('2026-12-01'), -between(3, 16));
-      const endsAt = addDays(startsAt, Math.max(length(), Math.ceil((day10('2026-12-03').getTime() - startsAt.getTime()) / DAY)));
+      const plannedStart = addDays(day10('2026-12-01'), -between(3, 16));
+      const days = length();
+      const endsAt = p.endsBy ? day10(p.endsBy) : addDays(plannedStart, Math.max(days, Math.ceil((day10('2026-12-03').getTime() - plannedStart.getTime()) / DAY)));
+      const startsAt = plannedStart;
       own.push({ code, owner: p.currentOwner ?? pick(members), startsAt, endsAt });
       anchor = startsAt;
     } else {
@@ -158,7 +165,7 @@ function plan(): PlannedBooking[] {
   return bookings;
 }
 
-function stateOf(b: PlannedBooking): BookingState {
+function stateOf(b: PlannedBooking, demoToday: Date): BookingState {
   if (b.cancelled) return 'cancelled';
   if (b.endsAt <= demoToday) return 'finished';
   if (b.startsAt <= demoToday) return 'in_use';
@@ -175,24 +182,27 @@ interface Change {
 }
 
 /**
- * Three months of bookings of the demo co-op (September to November 2026, and some in December),
+ * Three months of bookings of the demo co-op (September to November 2026, and some in December, as
+ * designed; the demo's calendar moves them to end on the seed's today),
  * and each item's history of states that follows from them: filled at the start, emptied at the
  * end, cleaned and sanitized before the next user.
  */
 /** Larkspur Yard's own limit: a 120 L batch alone goes into six kegs, so members may hold up to 24 bookings at once. */
 export const DEMO_MAX_ACTIVE_BOOKINGS = 24;
 
-export async function seed(db: Database): Promise<void> {
+export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
+  const demoToday = cal.now;
+  const outOfService = outOfServiceOn(cal);
   const rules = await db.selectFrom('setting').select('value').where('key', '=', 'booking_rules').executeTakeFirst();
   if (rules) {
     const value = { ...(rules.value as Record<string, unknown>), maxActiveBookingsPerMember: DEMO_MAX_ACTIVE_BOOKINGS };
     await db.updateTable('setting').set({ value: JSON.stringify(value) }).where('key', '=', 'booking_rules').execute();
   }
   const random = rng(3004);
-  const bookings = plan();
+  const bookings = plan(cal);
   const rows = bookings.map((b, i) => {
-    const createdAt = new Date(Math.max(new Date('2026-08-20T09:00:00Z').getTime(), b.startsAt.getTime() - (3 + Math.floor(random() * 18)) * DAY));
-    const state = stateOf(b);
+    const createdAt = new Date(Math.max(cal.at('2026-08-20T09:00:00Z').getTime(), b.startsAt.getTime() - (3 + Math.floor(random() * 18)) * DAY));
+    const state = stateOf(b, demoToday);
     return {
       id: bookingSeedId(i + 1),
       equipment_id: equipmentId(b.code),
@@ -221,7 +231,7 @@ export async function seed(db: Database): Promise<void> {
     const own = bookings.filter((b) => b.code === item.code && !b.cancelled && b.startsAt <= demoToday).sort((a, b) => a.startsAt.getTime() - b.startsAt.getTime());
     const next = (i: number) => own[i + 1]?.startsAt ?? bookings.filter((b) => b.code === item.code && !b.cancelled && b.startsAt > demoToday)[0]?.startsAt;
     let state: VesselState = 'ready';
-    let at = new Date('2026-08-29T15:00:00Z');
+    let at = cal.at('2026-08-29T15:00:00Z');
     const push = (to: VesselState, when: Date, reason: string) => {
       changes.push({ equipment_id: id, from_state: state, to_state: to, reason, actor_id: actor(), at: when });
       state = to;

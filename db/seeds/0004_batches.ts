@@ -3,10 +3,9 @@ import { normaliseGravity, originalBrixOf, type GravityUnit } from '../../shared
 import { convertGravity, sgToPlato } from '../../shared/brewing/index.ts';
 import { defaultFermentationSettings, type BatchStatus } from '../../shared/schemas/batches.ts';
 import { userId } from './0001_users.ts';
+import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
 
-/** The demo's "today" (as the bookings seed has it). */
-const demoToday = new Date('2026-12-01T08:00:00Z');
 const HOUR = 3_600_000;
 const DAY = 24 * HOUR;
 
@@ -46,12 +45,13 @@ interface SeedReading {
 const round = (v: number, d: number) => Math.round(v * 10 ** d) / 10 ** d;
 
 /**
- * Batches of the demo co-op, one per fermenter booking from September to November 2026 (linked to
+ * Batches of the demo co-op, one per fermenter booking of its last three months (linked to
  * that booking), with realistic gravity series: finished and packaged ones, ones still fermenting
  * or conditioning, one from a floating digital hydrometer every half hour, and one stuck well above
- * its target. December bookings get planned batches.
+ * its target. Bookings still to come get planned batches.
  */
-export async function seed(db: Database): Promise<void> {
+export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
+  const demoToday = cal.now;
   const random = rng(4004);
   const between = (lo: number, hi: number) => lo + random() * (hi - lo);
   const bookings = await db

@@ -8,18 +8,18 @@ import type { VesselState } from '../../shared/schemas/equipment.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
 import { userId } from './0001_users.ts';
 import { rota } from './0002_equipment.ts';
-import { demoToday } from './0003_bookings.ts';
+import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
 
 /**
- * The cellar's records for September to November 2026, written to agree with the states the
- * bookings seed walked every vessel through: a sanitation cycle for every cleaning (and a
- * fresh one wherever a vessel sat past its freshness window before its next use), a transfer
- * for every batch that came out of a fermenter into kegs, where each keg went (out with its
- * member, in the cold room, on a tap), and a carbonation plan per fill. A few exceptions are left
- * in on purpose so that the audit report has something to flag: a keg whose first cleaning was
- * never entered, a sanitize step that was too short, a keg filled after its window lapsed, and
- * kegs still out with members past their due dates.
+ * The cellar's records for the demo's last three months (September to November 2026 as designed),
+ * written to agree with the states the bookings seed walked every vessel through: a sanitation cycle
+ * for every cleaning (and a fresh one wherever a vessel sat past its freshness window before its
+ * next use), a transfer for every batch that came out of a fermenter into kegs, where each keg went
+ * (out with its member, in the cold room, on a tap), and a carbonation plan per fill. A few
+ * exceptions are left in on purpose so that the audit report has something to flag: a keg whose
+ * first cleaning was never entered, a sanitize step that was too short, a keg filled after its
+ * window lapsed, and kegs still out with members past their due dates.
  */
 
 const MIN = 60_000;
@@ -77,11 +77,11 @@ const styleVolumes: Record<string, { family: string; volumes: number }> = {
   'Amber lager': { family: 'Lagers', volumes: 2.5 },
 };
 
-export async function seed(db: Database): Promise<void> {
+export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const random = rng(5005);
   const between = (lo: number, hi: number) => lo + random() * (hi - lo);
   const pick = <T>(list: readonly T[]) => list[Math.floor(random() * list.length)]!;
-  const today = demoToday.getTime();
+  const today = cal.now.getTime();
 
   const equipment = await db.selectFrom('equipment').select(['id', 'code', 'kind', 'state', 'attributes', 'capacity_liters']).execute();
   if (!equipment.some((e) => e.kind === 'keg')) return;
@@ -200,7 +200,7 @@ export async function seed(db: Database): Promise<void> {
       if (c.to_state !== 'cleaned') continue;
       const next = chain[i + 1];
       const readyChange = next && next.to_state === 'ready' && next.from_state === 'cleaned' ? next : null;
-      const registry = c.at.getTime() < new Date('2026-09-01T00:00:00Z').getTime();
+      const registry = c.at.getTime() < cal.at('2026-09-01T00:00:00Z').getTime();
       if (registry && v.code === UNRECORDED_KEG) continue;
       addCycle(
         v.id,
@@ -218,7 +218,7 @@ export async function seed(db: Database): Promise<void> {
       }
       if (after.at.getTime() <= lapseAt.getTime()) continue;
       // Sat past its window before the next change.
-      if (after.to_state === 'holding' && !lapsedFillDone && v.kind === 'keg' && after.at.getTime() > new Date('2026-11-01T00:00:00Z').getTime()) {
+      if (after.to_state === 'holding' && !lapsedFillDone && v.kind === 'keg' && after.at.getTime() > cal.at('2026-11-01T00:00:00Z').getTime()) {
         // Left in on purpose: filled after its window had lapsed (the audit flags it).
         lapsedFillDone = true;
         continue;
@@ -231,7 +231,7 @@ export async function seed(db: Database): Promise<void> {
       // Re-cleaned within a day of the next fill.
       const end = new Date(Math.max(lapseAt.getTime() + 2 * HOUR, after.at.getTime() - Math.round(between(2, 20)) * HOUR));
       const by = pick(rota);
-      if (!shortSanitizeDone && v.kind === 'keg' && end.getTime() > new Date('2026-10-01T00:00:00Z').getTime()) {
+      if (!shortSanitizeDone && v.kind === 'keg' && end.getTime() > cal.at('2026-10-01T00:00:00Z').getTime()) {
         // First attempt with too short a sanitize contact: recorded, left the keg cleaned; done again properly.
         shortSanitizeDone = true;
         const first = new Date(end.getTime() - 50 * MIN);
@@ -460,7 +460,7 @@ export async function seed(db: Database): Promise<void> {
     .filter((e) => e.kind === 'keg' && !whereabouts.has(e.id) && finalStates.get(e.id)?.state === 'needs_cleaning')
     .sort((a, b) => b.code.localeCompare(a.code))[0];
   if (missing) {
-    const at = new Date('2026-11-16T17:00:00Z');
+    const at = cal.at('2026-11-16T17:00:00Z');
     move({ keg_id: missing.id, action: 'marked_missing', from_whereabouts: 'cellar', to_whereabouts: 'missing', actor_id: userId('brewer'), at, note: 'Not found at the monthly stock-take' });
     whereabouts.set(missing.id, { keg_id: missing.id, whereabouts: 'missing', tap_id: null, member_id: null, checked_out_at: null, due_at: null, since: at, updated_by: userId('brewer') });
   }
@@ -549,6 +549,8 @@ export async function seed(db: Database): Promise<void> {
       filled_at: f.filled_at,
       emptied_at: keptOut.has(f.id) ? null : f.emptied_at,
       emptied_reason: f.emptied_at && !keptOut.has(f.id) ? 'returned' : null,
+      // Recorded with its transfer.
+      created_at: new Date(f.filled_at.getTime() + 20 * MIN),
     })),
     300,
     (part) => db.insertInto('keg_fill').values(part).execute(),

@@ -11,7 +11,9 @@ import { problemHandler } from '../../backend/middleware/problem-handler.ts';
 import type { AuditData } from '../../backend/modules/sanitation/audit-report.ts';
 import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
 import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
+import { createFermenter } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { TEST_NOW } from '../helpers/time.ts';
 
 // The sanitation audit is laid out on a PDF render thread: while a long report renders, the same
 // app instance keeps answering other requests, and a failure in the thread is a 500 problem.
@@ -30,11 +32,11 @@ beforeAll(async () => {
   ctx = await createTestContext();
   brewer = await ctx.signIn('brewer@example.org');
   // A year of a cycle every three days on twelve extra fermenters: a report of a hundred-odd pages.
-  const vessels = await ctx.db
-    .insertInto('equipment')
-    .values(Array.from({ length: 12 }, (_, i) => ({ code: `FY-${String(i + 1).padStart(2, '0')}`, kind: 'fermenter' as const, name: `Yard fermenter ${i + 1}`, capacity_liters: 60 })))
-    .returning('id')
-    .execute();
+  // The cycles go in as rows in bulk (a thousand-odd through the factory would take most of the test's time).
+  const vessels = [];
+  for (let i = 0; i < 12; i++) {
+    vessels.push(await createFermenter(ctx.db, { code: `FY-${String(i + 1).padStart(2, '0')}`, name: `Yard fermenter ${i + 1}`, capacityLiters: 60, at: '2025-11-01T09:00:00Z' }));
+  }
   vesselIds = vessels.map((v) => v.id);
   const cycles: Record<string, unknown>[] = [];
   const steps: Record<string, unknown>[] = [];
@@ -165,7 +167,7 @@ describe('failures on a render thread', () => {
     fs.rmSync(dir, { recursive: true, force: true });
   });
 
-  const broken = { from, to, producedAt: new Date(), vessels: null, exceptions: [], settings: defaultSanitationSettings } as unknown as AuditData;
+  const broken = { from, to, producedAt: new Date(TEST_NOW), vessels: null, exceptions: [], settings: defaultSanitationSettings } as unknown as AuditData;
   const auditModule = new URL('../../backend/modules/sanitation/audit-report.ts', import.meta.url);
 
   it('reach the problem handler as a 500 problem, and the process and the pool carry on', async () => {

@@ -7,42 +7,32 @@ import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { addDays, longDate } from '../../shared/billing/dates.ts';
 import type { InvoiceDetail, InvoiceSummary } from '../../shared/schemas/billing.ts';
+import { createBooking, createFermenter, createInvoice, createKeg, createKegCheckout, createMember, createPrice, createTaxRate } from '../../db/factories/index.ts';
+import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
-// Hand-worked examples. The test database is the demo co-op (September and October already billed
-// at 8 % tax). This file adds four members of its own, a 60 L and a 120 L fermenter and a keg, and
-// two price-list changes that took effect in November: tax 7.5 % from 1 Nov, and 120 L fermenter-days
+// Hand-worked examples. The co-op is the test fixture (six members on the rota of dues since August,
+// 8 % tax) as of 1 December 2026, with September and October already billed to its own members on
+// 1 Oct and 1 Nov: two of September's paid (one of them partly refunded), one voided, the rest open.
+// This file adds four members of its own, a 60 L and a 120 L fermenter and two kegs, and two
+// price-list changes that took effect in November: tax 7.5 % from 1 Nov, and 120 L fermenter-days
 // from 4.00 to 4.50 from 15 Nov. Dues are 15.00 a month, 60 L days 2.75 (since 15 Oct), keg-weeks
 // 2.00, late returns 1.00 a day.
+
+/** The file's clock: 1 December 2026, the day the November run is made. */
+const FILE_NOW = '2026-12-01T10:00:00Z';
 
 let ctx: TestContext;
 let treasurer: ApiClient;
 const ids = { a: '', b: '', c: '', d: '' };
 const equipment = { f60: '', f120: '', keg: '', keg2: '' };
+/** The fixture's members (member@ … member6@), billed for September and October before this file's runs. */
+const fixtureMembers = ['member', 'member2', 'member3', 'member4', 'member5', 'member6'].map(fixtureUserId);
 
-async function member(name: string, email: string): Promise<string> {
-  const row = await ctx.db
-    .insertInto('app_user')
-    .values({ email, name, roles: ['member'], created_at: new Date('2026-08-01T09:00:00Z') })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  return row.id;
-}
-
-async function vessel(code: string, kind: 'fermenter' | 'keg', capacity: number): Promise<string> {
-  const row = await ctx.db
-    .insertInto('equipment')
-    .values({ code, kind, name: `${kind === 'keg' ? 'Test keg' : 'Test fermenter'} ${code}`, capacity_liters: capacity, state: 'ready' })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  return row.id;
-}
+const member = async (name: string, email: string) => (await createMember(ctx.db, { name, email, createdAt: '2026-08-01T09:00:00Z' })).id;
 
 async function booking(equipmentId: string, ownerId: string, startsAt: string, endsAt: string) {
-  await ctx.db
-    .insertInto('booking')
-    .values({ equipment_id: equipmentId, owner_id: ownerId, starts_at: startsAt, ends_at: endsAt, blocked_until: endsAt, state: 'finished' })
-    .execute();
+  await createBooking(ctx.db, { equipmentId, ownerId, startsAt, endsAt, now: FILE_NOW });
 }
 
 async function invoiceOf(memberId: string, period: string): Promise<InvoiceDetail> {
@@ -70,34 +60,51 @@ const binary = (res: import('superagent').Response, cb: (err: Error | null, body
 };
 
 beforeAll(async () => {
-  ctx = await createTestContext();
+  ctx = await createTestContext({}, { now: FILE_NOW });
   treasurer = await ctx.signIn('treasurer@example.org');
+  const brewer = await ctx.signIn('brewer@example.org');
+
+  // September and October for the fixture's members, each issued on the 1st of the next month
+  // (dues only: 15.00 + 8 % = 16.20 each).
+  const september: Record<string, string> = {};
+  for (const memberId of fixtureMembers) {
+    september[memberId] = (await createInvoice(ctx.db, { memberId, period: '2026-09', today: '2026-10-01' })).id;
+  }
+  for (const memberId of fixtureMembers) await createInvoice(ctx.db, { memberId, period: '2026-10', today: '2026-11-01' });
+  // Maren (member@) and Tobias (member2@) paid September; Maren was refunded 5.00 of it; Bram's (member6@) was voided.
+  for (const key of ['member', 'member2']) {
+    const paid = await treasurer.post(`/api/invoices/${september[fixtureUserId(key)]}/payments`, { amountCents: 1620, method: 'bank_transfer', receivedOn: '2026-10-12' });
+    expect(paid.status).toBe(201);
+  }
+  const refund = await treasurer.post(`/api/invoices/${september[fixtureUserId('member')]}/refunds`, { amountCents: 500, reason: 'Dues waived for a week away', refundMethod: 'bank_transfer' });
+  expect(refund.status).toBe(201);
+  const voided = await treasurer.post(`/api/invoices/${september[fixtureUserId('member6')]}/void`, { reason: 'Joined in October, not August' });
+  expect(voided.status).toBe(200);
+
   ids.a = await member('Test Member Alder', 'alder.test@example.org');
   ids.b = await member('Test Member Birch', 'birch.test@example.org');
   ids.c = await member('Test Member Cedar', 'cedar.test@example.org');
   ids.d = await member('Test Member Damson', 'damson.test@example.org');
-  equipment.f60 = await vessel('F-90', 'fermenter', 60);
-  equipment.f120 = await vessel('F-91', 'fermenter', 120);
-  equipment.keg = await vessel('K-900', 'keg', 19);
-  equipment.keg2 = await vessel('K-901', 'keg', 19);
+  equipment.f60 = (await createFermenter(ctx.db, { code: 'F-90', name: 'Test fermenter F-90', capacityLiters: 60, state: 'ready' })).id;
+  equipment.f120 = (await createFermenter(ctx.db, { code: 'F-91', name: 'Test fermenter F-91', capacityLiters: 120, state: 'ready' })).id;
+  equipment.keg = (await createKeg(ctx.db, { code: 'K-900', name: 'Test keg K-900', state: 'ready' })).id;
+  equipment.keg2 = (await createKeg(ctx.db, { code: 'K-901', name: 'Test keg K-901', state: 'ready' })).id;
 
   // The price list as it stood: both changes were entered before they took effect.
-  await ctx.db.insertInto('tax_rate').values({ rate_bp: 750, label: 'VAT', effective_from: '2026-11-01' }).execute();
-  await ctx.db.insertInto('price').values({ item: 'fermenter_day', band_max_liters: 120, unit_cents: 450, effective_from: '2026-11-15' }).execute();
+  await createTaxRate(ctx.db, { rateBp: 750, label: 'VAT', effectiveFrom: '2026-11-01' });
+  await createPrice(ctx.db, { item: 'fermenter_day', bandMaxLiters: 120, unitCents: 450, effectiveFrom: '2026-11-15' });
 
   // A: a 60 L fermenter from 28 Oct to 5 Nov, across the month boundary.
   await booking(equipment.f60, ids.a, '2026-10-28T10:00:00Z', '2026-11-05T10:00:00Z');
   // B: a 120 L fermenter from 10 to 20 Nov, across the price change on the 15th.
   await booking(equipment.f120, ids.b, '2026-11-10T09:00:00Z', '2026-11-20T09:00:00Z');
   // D: a keg out 3 Nov, due 17 Nov, back 20 Nov (three days late); another out 25 Nov, due 28 Nov, still out.
-  await ctx.db
-    .insertInto('keg_movement')
-    .values([
-      { keg_id: equipment.keg, action: 'checked_out', from_whereabouts: 'cellar', to_whereabouts: 'with_member', member_id: ids.d, due_at: '2026-11-17T18:00:00Z', at: new Date('2026-11-03T10:00:00Z') },
-      { keg_id: equipment.keg, action: 'returned', from_whereabouts: 'with_member', to_whereabouts: 'cellar', member_id: ids.d, at: new Date('2026-11-20T15:00:00Z') },
-      { keg_id: equipment.keg2, action: 'checked_out', from_whereabouts: 'cellar', to_whereabouts: 'with_member', member_id: ids.d, due_at: '2026-11-28T18:00:00Z', at: new Date('2026-11-25T10:00:00Z') },
-    ])
-    .execute();
+  await createKegCheckout(ctx.db, { kegId: equipment.keg, memberId: ids.d, at: '2026-11-03T10:00:00Z', dueAt: '2026-11-17T18:00:00Z' });
+  ctx.clock.set('2026-11-20T15:00:00Z'); // the brewer on duty takes it back that afternoon
+  const back = await brewer.post(`/api/kegs/${equipment.keg}/return`, {});
+  ctx.clock.set(FILE_NOW);
+  expect(back.status).toBe(200);
+  await createKegCheckout(ctx.db, { kegId: equipment.keg2, memberId: ids.d, at: '2026-11-25T10:00:00Z', dueAt: '2026-11-28T18:00:00Z' });
 });
 afterAll(async () => ctx?.close());
 
@@ -106,7 +113,7 @@ describe('invoice runs', () => {
     const first = await treasurer.post('/api/invoice-runs', { period: '2026-10' });
     expect(first.status).toBe(201);
     const made = (first.body.invoices as InvoiceSummary[]).map((i) => i.memberId).sort();
-    // The demo's members were billed for October by the demo seed; only this file's new members are left.
+    // The fixture's members were billed for October on 1 Nov; only this file's new members are left.
     expect(made).toEqual([ids.a, ids.b, ids.c, ids.d].sort());
     expect(first.body.invoices.every((i: InvoiceSummary) => i.status === 'issued' && /^INV-2026-\d{4}$/.test(i.number!))).toBe(true);
     const again = await treasurer.post('/api/invoice-runs', { period: '2026-10' });
@@ -122,7 +129,8 @@ describe('invoice runs', () => {
     ]);
     expect([r1.status, r2.status]).toEqual([201, 201]);
     const made = [...r1.body.invoices, ...r2.body.invoices] as InvoiceSummary[];
-    expect(made.length).toBeGreaterThan(20);
+    // Every member: the fixture's six and this file's four (dues at least), none left out.
+    expect(made.map((i) => i.memberId).sort()).toEqual([...fixtureMembers, ids.a, ids.b, ids.c, ids.d].sort());
     // Every invoice came from one of the two runs, never both.
     expect(new Set(made.map((i) => i.memberId)).size).toBe(made.length);
     const perMember = await ctx.db
@@ -549,8 +557,11 @@ describe('treasurer’s overview', () => {
     // 1 Oct → 61 days, 1 Nov → 30 days, 1 Dec → 0 days.
     expect(res.body.totals).toEqual({ '0-30': due('2026-11-01') + due('2026-12-01'), '31-60': 0, '61-90': due('2026-10-01'), '90+': 0 });
     expect(res.body.totalCents).toBe(open.reduce((s, o) => s + o.due, 0));
-    const member12 = res.body.rows.find((r: { memberName: string }) => r.memberName === 'Felix Arden');
-    expect(member12.buckets['61-90']).toBeGreaterThan(0);
+    // Ines (member3@) has left September (16.20, issued 1 Oct) and October open; Maren paid September.
+    const ines = res.body.rows.find((r: { memberName: string }) => r.memberName === 'Ines Farrow');
+    expect(ines.buckets['61-90']).toBe(1620);
+    const maren = res.body.rows.find((r: { memberName: string }) => r.memberName === 'Maren Holloway');
+    expect(maren.buckets['61-90']).toBe(0);
     const later = await treasurer.get('/api/billing/ageing?asOf=2027-01-15');
     expect(later.body.totals).toEqual({ '0-30': 0, '31-60': due('2026-12-01'), '61-90': due('2026-11-01'), '90+': due('2026-10-01') });
   });

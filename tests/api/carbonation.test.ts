@@ -23,7 +23,7 @@ const fToC = (f: number) => (f - 32) / 1.8;
 async function filledKeg() {
   const batch = await takeBatch();
   const [keg] = await takeKegs(1);
-  await makeReady(brewer, [keg!.id]);
+  await makeReady(brewer, [keg!.id], ctx.clock);
   const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [keg!.id], volumeLiters: 19, checklist: fullChecklist });
   if (res.status !== 201) throw new Error(JSON.stringify(res.body));
   return { keg: keg!, batch };
@@ -94,7 +94,7 @@ describe('carbonation plans for a keg', () => {
 
   it('queues the reminder to lower the pressure after a fast start, and e-mails the brewers on duty when it is due', async () => {
     const { keg } = await filledKeg();
-    const startedAt = new Date(Date.now() - 73 * 3600_000).toISOString();
+    const startedAt = new Date(ctx.clock.now().getTime() - 73 * 3600_000).toISOString();
     const res = await brewer.post('/api/carbonation-plans', { kegId: keg.id, targetVolumes: 2.5, method: 'fast_start', startedAt });
     expect(res.status).toBe(201);
     const plan = res.body.plan;

@@ -1,5 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DAY, fillKeg } from '../../db/factories/index.ts';
 import { batchPool, fullChecklist, kegPool, makeReady } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
@@ -24,13 +25,13 @@ beforeAll(async () => {
 });
 afterAll(async () => ctx?.close());
 
-const inDays = (d: number) => new Date(Date.now() + d * 86_400_000).toISOString();
+const inDays = (d: number) => new Date(ctx.clock.now().getTime() + d * DAY).toISOString();
 
-/** Kegs filled from a seeded batch through the API. */
+/** New kegs filled from a new batch through the API. */
 async function filledKegs(n: number) {
   const batch = await takeBatch();
   const kegs = await takeKegs(n);
-  await makeReady(brewer, kegs.map((k) => k.id));
+  await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
   const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), volumeLiters: 19 * n, checklist: fullChecklist });
   if (res.status !== 201) throw new Error(JSON.stringify(res.body));
   return { batch, kegs };
@@ -71,7 +72,7 @@ describe('check-out and return', () => {
     const { kegs } = await filledKegs(1);
     const keg = kegs[0]!;
     await brewer.post(`/api/kegs/${keg.id}/check-out`, { memberId: member2.user.id, dueAt: inDays(3) });
-    await ctx.db.updateTable('keg_whereabouts').set({ due_at: new Date(Date.now() - 2 * 86_400_000) }).where('keg_id', '=', keg.id).execute();
+    await ctx.db.updateTable('keg_whereabouts').set({ due_at: new Date(ctx.clock.now().getTime() - 2 * DAY) }).where('keg_id', '=', keg.id).execute();
     const overdue = await brewer.get('/api/kegs/overdue');
     expect(overdue.status).toBe(200);
     const hit = overdue.body.items.find((k: { id: string }) => k.id === keg.id);
@@ -161,13 +162,27 @@ describe('a keg’s page', () => {
   });
 
   it('lists, filters and sorts the fleet on the server', async () => {
+    // Three kegs of this test holding beer, beside the fleet the other tests left.
+    const filled = [];
+    for (let i = 0; i < 3; i++) {
+      const [keg] = await takeKegs(1);
+      await fillKeg(ctx.db, { kegId: keg!.id, at: new Date(ctx.clock.now().getTime() - (i + 1) * DAY) });
+      filled.push(keg!);
+    }
+    const kegRows = await ctx.db.selectFrom('equipment').select(['id', 'code', 'state']).where('kind', '=', 'keg').execute();
     const all = await brewer.get('/api/kegs?pageSize=100');
     expect(all.status).toBe(200);
-    expect(all.body.total).toBeGreaterThanOrEqual(60);
-    const holding = await brewer.get('/api/kegs?state=holding&sort=code&order=desc&pageSize=5');
-    expect(holding.body.items.every((k: { state: string }) => k.state === 'holding')).toBe(true);
+    expect(all.body.total).toBe(kegRows.length);
+    expect(all.body.items.map((k: { id: string }) => k.id).sort()).toEqual(kegRows.map((k) => k.id).sort());
+    const holdingIds = kegRows.filter((k) => k.state === 'holding').map((k) => k.id);
+    expect(holdingIds).toEqual(expect.arrayContaining(filled.map((k) => k.id)));
+    const holding = await brewer.get('/api/kegs?state=holding&sort=code&order=desc&pageSize=100');
+    expect(holding.body.total).toBe(holdingIds.length);
+    expect(holding.body.items.map((k: { id: string }) => k.id).sort()).toEqual([...holdingIds].sort());
     const codes = holding.body.items.map((k: { code: string }) => k.code);
     expect([...codes].sort().reverse()).toEqual(codes);
+    const page = await brewer.get('/api/kegs?state=holding&sort=code&order=desc&pageSize=2');
+    expect(page.body.items.map((k: { code: string }) => k.code)).toEqual(codes.slice(0, 2));
     expect((await brewer.get('/api/kegs?sort=colour')).status).toBe(422);
     expect((await request(ctx.app).get('/api/kegs')).status).toBe(401);
   });

@@ -5,6 +5,7 @@ import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
 import type { InvoiceDetail } from '../../shared/schemas/billing.ts';
+import { createInvoice, createMember } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 // Online payment end to end against the local fake of the payment provider: the app listens on a
@@ -15,6 +16,14 @@ let fake: PaymentsFake;
 let server: Server;
 let appUrl: string;
 const secret = 'whsec_cellarwright_local';
+/** Members with November's dues invoiced on 1 Dec and unpaid (16.20): one per story below. */
+const payers = { paid: '', cancels: '', late: '', webhook: '' };
+
+async function memberWithUnpaidInvoice(name: string): Promise<string> {
+  const m = await createMember(ctx.db, { name });
+  await createInvoice(ctx.db, { memberId: m.id, period: '2026-11', today: '2026-12-01' });
+  return m.email;
+}
 
 async function unpaidInvoiceOf(email: string): Promise<{ id: string; due: number; number: string }> {
   const row = await ctx.db
@@ -63,6 +72,10 @@ beforeAll(async () => {
   appUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   ctx.config.publicUrl = appUrl;
   fake.webhookUrl = `${appUrl}/api/webhooks/payments`;
+  payers.paid = await memberWithUnpaidInvoice('Pia Payer');
+  payers.cancels = await memberWithUnpaidInvoice('Cato Cancel');
+  payers.late = await memberWithUnpaidInvoice('Lorna Late');
+  payers.webhook = await memberWithUnpaidInvoice('Wim Webhook');
 });
 afterAll(async () => {
   await new Promise<void>((resolve) => server?.close(() => resolve()));
@@ -72,15 +85,15 @@ afterAll(async () => {
 
 describe('paying online', () => {
   it('takes a member from checkout to paid: the fake’s page, its signed webhook, back to the app', async () => {
-    const member = await ctx.signIn('member12@example.org');
-    const inv = await unpaidInvoiceOf('member12@example.org');
-    expect(inv.due).toBeGreaterThan(0);
+    const member = await ctx.signIn(payers.paid);
+    const inv = await unpaidInvoiceOf(payers.paid);
+    expect(inv.due).toBe(1620); // November's dues, 15.00 + 8 % tax
     const res = await member.post(`/api/invoices/${inv.id}/checkout`);
     expect(res.status).toBe(201);
     expect(res.body.url.startsWith(`${fake.url}/pay/cs_test_`)).toBe(true);
     // The session the app asked the provider for: what is due, in the invoice's currency.
     const session = fake.sessions.get(res.body.sessionId)!;
-    expect(session).toMatchObject({ amount_total: inv.due, currency: 'eur', client_reference_id: inv.id, customer_email: 'member12@example.org' });
+    expect(session).toMatchObject({ amount_total: inv.due, currency: 'eur', client_reference_id: inv.id, customer_email: payers.paid });
     const page = await (await fetch(res.body.url)).text();
     expect(page).toContain(inv.number);
 
@@ -97,8 +110,8 @@ describe('paying online', () => {
   });
 
   it('leaves the invoice open when the member cancels on the provider’s page', async () => {
-    const member = await ctx.signIn('member20@example.org');
-    const inv = await unpaidInvoiceOf('member20@example.org');
+    const member = await ctx.signIn(payers.cancels);
+    const inv = await unpaidInvoiceOf(payers.cancels);
     const { body } = await member.post(`/api/invoices/${inv.id}/checkout`);
     const html = await (await fetch(body.url)).text();
     const cancel = /action="([^"]+\/cancel)"/.exec(html)![1]!;
@@ -109,7 +122,7 @@ describe('paying online', () => {
   });
 
   it('is for the member the invoice is addressed to only', async () => {
-    const inv = await unpaidInvoiceOf('member20@example.org');
+    const inv = await unpaidInvoiceOf(payers.cancels);
     const other = await ctx.signIn('member@example.org');
     expect((await other.post(`/api/invoices/${inv.id}/checkout`)).status).toBe(404);
     const treasurer = await ctx.signIn('treasurer@example.org');
@@ -119,8 +132,8 @@ describe('paying online', () => {
   });
 
   it('still books the payment when the webhook is late: the member’s return asks the provider', async () => {
-    const member = await ctx.signIn('member3@example.org');
-    const inv = await unpaidInvoiceOf('member3@example.org');
+    const member = await ctx.signIn(payers.late);
+    const inv = await unpaidInvoiceOf(payers.late);
     const { body } = await member.post(`/api/invoices/${inv.id}/checkout`);
     fake.webhookUrl = 'http://127.0.0.1:9/api/webhooks/payments'; // nobody listens there
     try {
@@ -151,14 +164,14 @@ describe('the payment webhook', () => {
   let event: object;
 
   beforeAll(async () => {
-    const member = await ctx.signIn('member17@example.org');
-    const inv = await unpaidInvoiceOf('member17@example.org');
+    const member = await ctx.signIn(payers.webhook);
+    const inv = await unpaidInvoiceOf(payers.webhook);
     invoiceId = inv.id;
     const { body } = await member.post(`/api/invoices/${inv.id}/checkout`);
     sessionId = body.sessionId;
     // What the provider would send once the member paid (built here, not delivered by the fake).
     const session = { ...fake.sessions.get(sessionId)!, status: 'complete', payment_status: 'paid', payment_intent: 'pi_test_webhook' };
-    event = { id: 'evt_test_replayed', object: 'event', type: 'checkout.session.completed', created: Math.floor(Date.now() / 1000), data: { object: session } };
+    event = { id: 'evt_test_replayed', object: 'event', type: 'checkout.session.completed', created: Math.floor(ctx.clock.now().getTime() / 1000), data: { object: session } };
   });
 
   const paymentsOf = () => ctx.db.selectFrom('payment').select(['id', 'amount_cents']).where('invoice_id', '=', invoiceId).where('method', '=', 'online').execute();
@@ -172,6 +185,7 @@ describe('the payment webhook', () => {
     expect(res.status).toBe(400);
     expect(res.headers['content-type']).toMatch(/problem\+json/);
     expect((await postWebhook(good.payload)).status).toBe(400);
+    // The provider's SDK checks a signature's age against the machine's own clock (not the co-op's), so the stale one is an hour old by that clock.
     const stale = Stripe.webhooks.generateTestHeaderString({ payload: good.payload, secret, timestamp: Math.floor(Date.now() / 1000) - 3600 });
     expect((await postWebhook(good.payload, stale)).status).toBe(400);
     expect(await paymentsOf()).toHaveLength(0);

@@ -3,6 +3,7 @@ import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { correctHydrometer } from '../../shared/brewing/index.ts';
 import { IMPORT_MAX_BYTES } from '../../backend/modules/batches/batches.routes.ts';
+import { createBatch } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -29,10 +30,11 @@ interface ImportProblem {
   message: string;
 }
 
+/** A planned batch of the client's own, with no readings yet. */
 async function newBatch(client: ApiClient = member, name = 'Import test batch') {
-  const res = await client.post('/api/batches', { name, style: 'Pale ale', volumeLiters: 23 });
-  expect(res.status).toBe(201);
-  return res.body.batch.id as string;
+  const batch = await createBatch(ctx.db, { ownerId: client.user.id, name, style: 'Pale ale', volumeLiters: 23 });
+  expect(batch.status).toBe('planned');
+  return batch.id;
 }
 
 async function countReadings(batchId: string) {
@@ -83,7 +85,7 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
     const rows = await ctx.db.selectFrom('reading').selectAll().where('batch_id', '=', batchId).orderBy('taken_at').execute();
     expect(rows).toHaveLength(5);
     expect(rows[0]).toMatchObject({ source: 'import', entered_unit: 'sg', note: 'pitched', created_by: member.user.id });
-    expect(rows[0]!.taken_at.toISOString()).toBe('2026-10-01T09:00:00.000Z'); // the co-op's time zone (UTC in the demo)
+    expect(rows[0]!.taken_at.toISOString()).toBe('2026-10-01T09:00:00.000Z'); // the co-op's time zone (UTC in the fixture)
     expect(Number(rows[3]!.entered_value)).toBe(7.5);
     expect(rows[3]!.entered_unit).toBe('plato');
     const audit = await ctx.db.selectFrom('audit_log').select(['action', 'detail']).where('subject_id', '=', batchId).where('action', '=', 'readings:imported').executeTakeFirstOrThrow();

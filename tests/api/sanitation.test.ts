@@ -5,6 +5,8 @@ import path from 'node:path';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyFreshnessLapses } from '../../backend/modules/sanitation/vessel-state.ts';
+import { createBatch, createFermenter, createKeg, createSanitationCycle, createTransfer, createUser, cycleSteps, HOUR } from '../../db/factories/index.ts';
+import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -24,7 +26,7 @@ beforeAll(async () => {
 });
 afterAll(async () => ctx?.close());
 
-const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
+const minutesAgo = (m: number) => new Date(ctx.clock.now().getTime() - m * 60_000).toISOString();
 
 /** The four steps of a cycle that meets the co-op's default rules. */
 function completeSteps(startMinutesAgo = 120): Record<string, string | number>[] {
@@ -36,24 +38,10 @@ function completeSteps(startMinutesAgo = 120): Record<string, string | number>[]
   ];
 }
 
-let spare: string[] = [];
-/** Seeded kegs that are empty, in the cellar and in service: each test takes its own. */
+/** A new empty keg in the cellar, needing cleaning: each test takes its own. */
 async function takeKeg(): Promise<{ id: string; code: string }> {
-  if (!spare.length) {
-    const rows = await ctx.db
-      .selectFrom('equipment as e')
-      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
-      .select(['e.id'])
-      .where('e.kind', '=', 'keg')
-      .where('e.state', 'in', ['needs_cleaning', 'cleaned', 'ready'])
-      .where((eb) => eb.or([eb('kw.whereabouts', 'is', null), eb('kw.whereabouts', '=', 'cellar')]))
-      .orderBy('e.code', 'desc')
-      .execute();
-    spare = rows.map((r) => r.id);
-  }
-  const id = spare.shift();
-  if (!id) throw new Error('no spare keg in the seed');
-  return ctx.db.selectFrom('equipment').select(['id', 'code']).where('id', '=', id).executeTakeFirstOrThrow();
+  const keg = await createKeg(ctx.db);
+  return { id: keg.id, code: keg.code };
 }
 
 const stateOf = async (id: string) => (await ctx.db.selectFrom('equipment').select('state').where('id', '=', id).executeTakeFirstOrThrow()).state;
@@ -146,7 +134,7 @@ describe('recording a sanitation cycle', () => {
     expect(bad.status).toBe(422);
     expect(bad.body.errors.map((e: { path: string }) => e.path).sort()).toEqual(['steps.0.at', 'steps.0.step']);
     const future = completeSteps();
-    future[3] = { ...future[3]!, at: new Date(Date.now() + 3 * 3600_000).toISOString() };
+    future[3] = { ...future[3]!, at: new Date(ctx.clock.now().getTime() + 3 * 3600_000).toISOString() };
     const f = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: future });
     expect(f.status).toBe(422);
     expect(f.body.errors[0].path).toBe('steps.3.at');
@@ -224,8 +212,8 @@ describe('the log and the vessels’ standing', () => {
     const keg = await takeKeg();
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(200).slice(0, 2) });
-    // Only this test's cycles: the seeded history ends before today.
-    const since = encodeURIComponent(new Date(Date.now() - 8 * 3600_000).toISOString());
+    // This test's two cycles, from the last eight hours.
+    const since = encodeURIComponent(new Date(ctx.clock.now().getTime() - 8 * 3600_000).toISOString());
     const res = await brewer.get(`/api/sanitation-cycles?equipmentId=${keg.id}&from=${since}`);
     expect(res.status).toBe(200);
     expect(res.body.total).toBe(2);
@@ -242,16 +230,7 @@ describe('the log and the vessels’ standing', () => {
 
   it('treats a lapsed freshness window as needs cleaning at once, and the periodic pass writes it down', async () => {
     // A keg none of whose cycles is still fresh.
-    const keg = await ctx.db
-      .selectFrom('equipment as e')
-      .select(['e.id', 'e.code'])
-      .where('e.kind', '=', 'keg')
-      .where('e.state', '=', 'needs_cleaning')
-      .where((eb) => eb.not(eb.exists(eb.selectFrom('sanitation_cycle as c').select('c.id').whereRef('c.equipment_id', '=', 'e.id').where('c.fresh_until', '>', new Date()))))
-      .where((eb) => eb.not(eb.exists(eb.selectFrom('keg_whereabouts as w').select('w.keg_id').whereRef('w.keg_id', '=', 'e.id').where('w.whereabouts', '<>', 'cellar'))))
-      .orderBy('e.code')
-      .executeTakeFirstOrThrow();
-    spare = spare.filter((id) => id !== keg.id);
+    const keg = await takeKeg();
     const old = completeSteps(10 * 24 * 60); // ten days ago
     const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: old });
     expect(res.body.cycle.outcome).toBe('ready');
@@ -266,7 +245,7 @@ describe('the log and the vessels’ standing', () => {
     expect(change.reason).toMatch(/Freshness window lapsed/);
     // Once written down, a second pass changes nothing for it.
     const again = await applyFreshnessLapses(ctx.db, ctx.clock.now());
-    const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').where('at', '>', new Date(Date.now() - 3600_000)).execute();
+    const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').where('at', '>', new Date(ctx.clock.now().getTime() - 3600_000)).execute();
     expect(changes).toHaveLength(1);
     expect(again).toBeGreaterThanOrEqual(0);
   });
@@ -279,7 +258,7 @@ describe('the sanitation audit PDF', () => {
     steps[0] = { ...steps[0]!, contactMinutes: 12 };
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
-    const today = new Date().toISOString().slice(0, 10);
+    const today = ctx.clock.now().toISOString().slice(0, 10); // the report's days are UTC days
     const res = await treasurer.get(`/api/reports/sanitation-audit.pdf?from=${today}&to=${today}&equipmentId=${keg.id}`).buffer(true).parse(binary);
     expect(res.status).toBe(200);
     const text = pdfText(res.body as Buffer);
@@ -295,23 +274,64 @@ describe('the sanitation audit PDF', () => {
     expect(text).toMatch(/local codes/i);
   });
 
-  it('covers the seeded autumn: every vessel, the rota, and the exceptions left in the demo records', async () => {
+  it('covers an autumn of records: every vessel, the rota, and the exceptions in them', async () => {
+    // An autumn's records on new vessels, each with one lapse of the co-op's rules (7-day freshness
+    // window, cleaning within 2 days of emptying, sanitize contact of at least 1 min). Times are UTC, as the report prints them.
+    const ada = brewer.user.id;
+    const odile = fixtureUserId('member5');
+    const amadou = (await createUser(ctx.db, { name: 'Amadou Kestrel', roles: ['member', 'brewer_on_duty'] })).id;
+    const readings = (start: string) => [
+      { takenAt: new Date(new Date(start).getTime() + 2 * HOUR), value: 1.05 },
+      { takenAt: new Date(new Date(start).getTime() + 200 * HOUR), value: 1.011 },
+    ];
+
+    // F-a: sanitized 1 Sep, filled with wort, emptied 14 Sep 10:00 into a keg with no cycle on record,
+    // cleaned 60 hours later (14 Sep 10:00 + 60 h = 16 Sep 22:00; the purge 80 min on, 23:20), then left unused.
+    const fa = await createFermenter(ctx.db);
+    await createSanitationCycle(ctx.db, { equipmentId: fa.id, readyAt: '2026-09-01T08:00:00Z', recordedBy: ada });
+    const batchA = await createBatch(ctx.db, { readings: readings('2026-09-01T09:00:00Z'), fermenter: { equipmentId: fa.id, startsAt: '2026-09-01T09:00:00Z', endsAt: '2026-09-14T10:00:00Z' } });
+    const kegNoCycle = await createKeg(ctx.db);
+    await createTransfer(ctx.db, { batchId: batchA.id, fromEquipmentId: fa.id, kegIds: [kegNoCycle.id], at: '2026-09-14T10:00:00Z', sanitizeKegs: false, recordedBy: ada });
+    await createSanitationCycle(ctx.db, { equipmentId: fa.id, readyAt: '2026-09-16T23:20:00Z', recordedBy: odile });
+
+    // A keg whose sanitize step had 30 s, below the 1 min minimum.
+    const kegShort = await createKeg(ctx.db);
+    const shortSteps = cycleSteps('2026-10-07T11:00:00Z', { performedBy: amadou }).map((st) => (st.step === 'sanitize' ? { ...st, contactMinutes: 0.5 } : st));
+    await createSanitationCycle(ctx.db, { equipmentId: kegShort.id, steps: shortSteps, recordedBy: amadou });
+
+    // A keg sanitized 1 Oct 09:00 (fresh until 8 Oct 09:00) and filled on 20 Oct from F-b.
+    const fb = await createFermenter(ctx.db);
+    await createSanitationCycle(ctx.db, { equipmentId: fb.id, readyAt: '2026-10-05T08:00:00Z', recordedBy: odile });
+    const batchB = await createBatch(ctx.db, { readings: readings('2026-10-05T09:00:00Z'), fermenter: { equipmentId: fb.id, startsAt: '2026-10-05T09:00:00Z', endsAt: '2026-10-20T10:00:00Z' } });
+    const kegLapsed = await createKeg(ctx.db);
+    await createSanitationCycle(ctx.db, { equipmentId: kegLapsed.id, readyAt: '2026-10-01T09:00:00Z', recordedBy: ada });
+    await createTransfer(ctx.db, { batchId: batchB.id, fromEquipmentId: fb.id, kegIds: [kegLapsed.id], at: '2026-10-20T10:00:00Z', sanitizeKegs: false, recordedBy: ada });
+    await createSanitationCycle(ctx.db, { equipmentId: fb.id, readyAt: '2026-10-21T09:00:00Z', recordedBy: ada });
+
+    // F-c: cleaned and rinsed on 10 Nov, never sanitized.
+    const fc = await createFermenter(ctx.db);
+    await createSanitationCycle(ctx.db, { equipmentId: fc.id, readyAt: '2026-11-10T15:00:00Z', until: 'cleaned', recordedBy: amadou });
+
     const res = await brewer.get('/api/reports/sanitation-audit.pdf?from=2026-09-01&to=2026-11-30').buffer(true).parse(binary);
     expect(res.status).toBe(200);
     const text = pdfText(res.body as Buffer);
     const [{ n: cycles }] = [await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).where('completed_at', '>=', new Date('2026-09-01T00:00:00Z')).where('completed_at', '<', new Date('2026-12-01T00:00:00Z')).executeTakeFirstOrThrow()];
+    // Seven cycles above, and the one ten days before the test clock's now (22 Nov) from the lapsed-window test.
+    expect(cycles).toBe(8);
     const vessels = await ctx.db.selectFrom('equipment').select('code').where('kind', 'in', ['fermenter', 'keg']).execute();
     expect(text).toContain(`${vessels.length} vessels · ${cycles} cycles`);
     expect(text).toContain('Period 2026-09-01 to 2026-11-30');
     for (const v of vessels) expect(text).toContain(v.code);
     for (const person of ['Ada Kettleby', 'Odile Marsh', 'Amadou Kestrel']) expect(text).toContain(person);
-    // The exceptions the demo history holds on purpose.
-    expect(text).toMatch(/K-017\s+2026-09-\d\d \d\d:\d\d\s+Fill with no cycle on record/);
-    expect(text).toMatch(/Short contact time\s+Contact time of the sanitize step was 30 s/);
-    expect(text).toMatch(/Fill after the freshness window lapsed/);
-    expect(text).toMatch(/F-06\s+2026-11-\d\d \d\d:\d\d\s+Incomplete cycle/);
-    expect(text).toMatch(/Late cycle\s+Cleaned \d+ hours after it was emptied/);
-    expect(text).toContain('Freshness window lapsed');
+    // The exceptions built in above.
+    expect(text).toMatch(new RegExp(`${kegNoCycle.code}\\s+2026-09-14 10:00\\s+Fill with no cycle on record`));
+    expect(text).toMatch(new RegExp(`${kegShort.code}\\s+2026-10-07 11:00\\s+Short contact time\\s+Contact time of the sanitize step was 30 s`));
+    expect(text).toMatch(new RegExp(`${kegLapsed.code}\\s+2026-10-20 10:00\\s+Fill after the freshness window lapsed`));
+    expect(text).toMatch(new RegExp(`${fc.code}\\s+2026-11-10 15:00\\s+Incomplete cycle`));
+    // Cleaning started 16 Sep 22:00, 60 hours after the 14 Sep 10:00 transfer (2 days allowed).
+    expect(text).toMatch(new RegExp(`${fa.code}\\s+2026-09-16 22:00\\s+Late cycle\\s+Cleaned 60 hours after it was emptied`));
+    // F-a's window from that cycle ended 23 Sep 23:20 with no fill or cycle since.
+    expect(text).toMatch(new RegExp(`${fa.code}\\s+2026-09-23 23:20\\s+Freshness window lapsed`));
   });
 
   it('answers 422 for a missing or reversed period', async () => {

@@ -1,7 +1,8 @@
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { abv } from '../../shared/brewing/index.ts';
-import { batchPool, count, fullChecklist, kegPool, makeReady, states } from '../helpers/cellar.ts';
+import { createBatch, createKeg, DAY } from '../../db/factories/index.ts';
+import { batchPool, count, fullChecklist, kegPool, makeReady, minutesAgo, states } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -39,7 +40,7 @@ describe('a transfer from a fermenter into ready kegs', () => {
   it('fills the kegs with the batch (OG, FG, ABV copied), empties the fermenter and records volumes and loss, in one go', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id));
+    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
     const res = await brewer.post('/api/transfers', {
       batchId: batch.batchId,
       fromEquipmentId: batch.fermenterId,
@@ -103,7 +104,7 @@ describe('a transfer from a fermenter into ready kegs', () => {
   it('shares the volume less the loss evenly when no per-keg volumes are given, and names unconfirmed checklist items', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(3);
-    await makeReady(brewer, kegs.map((k) => k.id));
+    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
     const { leakChecked: _skip, ...partial } = fullChecklist;
     const res = await brewer.post('/api/transfers', {
       batchId: batch.batchId,
@@ -126,7 +127,7 @@ describe('refusals', () => {
   it('answers 409 when any keg is not ready, and changes nothing', async () => {
     const batch = refused;
     const kegs = await takeKegs(2);
-    await makeReady(brewer, [kegs[0]!.id]);
+    await makeReady(brewer, [kegs[0]!.id], ctx.clock);
     await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', kegs[1]!.id).execute();
     const before = await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId]);
     const res = await brewer.post('/api/transfers', {
@@ -146,7 +147,7 @@ describe('refusals', () => {
   it('answers 409 for a keg stored as ready whose freshness window has lapsed, or that has no cycle on record', async () => {
     const batch = refused;
     const [stale] = await takeKegs(1);
-    const old = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
+    const old = (m: number) => minutesAgo(ctx.clock, m);
     const days = 9 * 24 * 60;
     await brewer.post('/api/sanitation-cycles', {
       equipmentId: stale!.id,
@@ -158,11 +159,7 @@ describe('refusals', () => {
       ],
     });
     // A keg registered as ready with no cleaning on record (as imported history may have it).
-    const bare = await ctx.db
-      .insertInto('equipment')
-      .values({ code: 'K-901', kind: 'keg', name: '19 L ball lock keg, new', capacity_liters: 19, state: 'ready', attributes: sql`${JSON.stringify({ serial: 'LY19-B09901', lock: 'ball' })}::jsonb` })
-      .returning(['id', 'code'])
-      .executeTakeFirstOrThrow();
+    const bare = await createKeg(ctx.db, { name: '19 L ball lock keg, new', state: 'ready' });
     const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [stale!.id, bare!.id], volumeLiters: 20, checklist: fullChecklist });
     expect(res.status).toBe(409);
     const reasons = Object.fromEntries(res.body.kegs.map((k: { id: string; reason: string }) => [k.id, k.reason]));
@@ -173,7 +170,7 @@ describe('refusals', () => {
   it('lets neither a member nor the treasurer record a transfer (403), and nothing is written', async () => {
     const batch = refused;
     const kegs = await takeKegs(1);
-    await makeReady(brewer, kegs.map((k) => k.id));
+    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
     const before = await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId]);
     for (const who of [member, treasurer]) {
       const res = await who.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [kegs[0]!.id], volumeLiters: 19, checklist: fullChecklist });
@@ -186,7 +183,7 @@ describe('refusals', () => {
   it('validates volumes, kegs and the batch', async () => {
     const batch = refused;
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id));
+    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
     const base = { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), checklist: fullChecklist };
     const over = await brewer.post('/api/transfers', { ...base, volumeLiters: 20, kegVolumesLiters: [12, 12] });
     expect(over.status).toBe(422);
@@ -198,7 +195,7 @@ describe('refusals', () => {
     expect(twice.status).toBe(422);
     const fromKeg = await brewer.post('/api/transfers', { ...base, fromEquipmentId: kegs[1]!.id, toKegIds: [kegs[0]!.id], volumeLiters: 10 });
     expect(fromKeg.status).toBe(422);
-    const planned = await ctx.db.selectFrom('batch').select('id').where('status', '=', 'planned').executeTakeFirstOrThrow();
+    const planned = await createBatch(ctx.db, { status: 'planned' });
     const notBrewed = await brewer.post('/api/transfers', { ...base, batchId: planned.id, volumeLiters: 20 });
     expect(notBrewed.status).toBe(409);
     expect(await states(ctx, kegs.map((k) => k.id))).toEqual(Object.fromEntries(kegs.map((k) => [k.id, 'ready'])));
@@ -209,7 +206,7 @@ describe('all or nothing', () => {
   it('leaves no partial transfer when a write fails mid-way', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(3);
-    await makeReady(brewer, kegs.map((k) => k.id));
+    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
     const ids = kegs.map((k) => k.id);
     // The database refuses the third keg's fill, after the first two were written in the transaction.
     await sql`create or replace function cw_test_refuse_fill() returns trigger language plpgsql as $$
@@ -231,11 +228,11 @@ describe('all or nothing', () => {
 
   it('answers 409 and writes nothing when a keg turns out to hold a fill already', async () => {
     const batch = refused;
-    const other = await ctx.db.selectFrom('batch').select('id').where('status', '=', 'packaged').executeTakeFirstOrThrow();
+    const other = await createBatch(ctx.db, { status: 'packaged' });
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id));
+    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
     // Corrected history left an open fill on a keg that reads as ready.
-    await ctx.db.insertInto('keg_fill').values({ keg_id: kegs[1]!.id, batch_id: other.id, volume_liters: 5, remaining_liters: 5, filled_at: new Date(Date.now() - 86_400_000) }).execute();
+    await ctx.db.insertInto('keg_fill').values({ keg_id: kegs[1]!.id, batch_id: other.id, volume_liters: 5, remaining_liters: 5, filled_at: new Date(ctx.clock.now().getTime() - DAY) }).execute();
     const before = await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId]);
     const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), volumeLiters: 30, checklist: fullChecklist });
     expect(res.status).toBe(409);

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createKeg, createSanitationCycle, HOUR } from '../../db/factories/index.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -9,20 +10,16 @@ afterAll(async () => ctx?.close());
 
 describe('a lapsed freshness window', () => {
   it('shows a ready vessel as needs_cleaning in the registry at once, before the periodic pass writes it down', async () => {
-    const keg = await ctx.db
-      .selectFrom('equipment')
-      .innerJoin('sanitation_cycle', 'sanitation_cycle.equipment_id', 'equipment.id')
-      .select(['equipment.id', 'equipment.code'])
-      .where('equipment.kind', '=', 'keg')
-      .where('equipment.state', '=', 'ready')
-      .where('sanitation_cycle.complete', '=', true)
-      .executeTakeFirstOrThrow();
+    // A keg made ready by a complete cycle an hour ago.
+    const keg = await createKeg(ctx.db);
+    const cycle = await createSanitationCycle(ctx.db, { equipmentId: keg.id, readyAt: new Date(ctx.clock.now().getTime() - HOUR) });
+    expect(cycle.complete).toBe(true);
     const brewer = await ctx.signIn('brewer@example.org');
     const before = await brewer.get(`/api/equipment/${keg.id}`);
     expect(before.body.equipment.state).toBe('ready');
 
     // Every cycle of that keg went stale an hour ago (as if the window had run out).
-    await ctx.db.updateTable('sanitation_cycle').set({ fresh_until: new Date(Date.now() - 3600_000) }).where('equipment_id', '=', keg.id).where('complete', '=', true).execute();
+    await ctx.db.updateTable('sanitation_cycle').set({ fresh_until: new Date(ctx.clock.now().getTime() - HOUR) }).where('equipment_id', '=', keg.id).where('complete', '=', true).execute();
 
     const after = await brewer.get(`/api/equipment/${keg.id}`);
     expect(after.body.equipment.state).toBe('needs_cleaning');

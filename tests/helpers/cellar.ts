@@ -1,18 +1,23 @@
+import type { Clock } from '../../backend/lib/clock.ts';
+import { createBatch, createFermenter, createKeg, createSanitationCycle, cycleSteps, DAY, HOUR, MINUTE } from '../../db/factories/index.ts';
 import type { ApiClient, TestContext } from './context.ts';
 
-/** Helpers shared by the cellar operations tests: ready kegs, a batch in a fermenter, the transfer checklist. */
+/**
+ * Helpers shared by the cellar operations tests: ready kegs, a batch in a fermenter, the transfer
+ * checklist. The kegs and batches are made with the factories (db/factories), dated from the
+ * test's clock, so they work on the fixture template whatever the machine's date.
+ */
 
-const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
+/** An instant, or the clock to read it from (a test context's `ctx.clock`). */
+export type NowSource = Date | Clock;
+const nowOf = (at: NowSource): Date => (at instanceof Date ? at : at.now());
 
-/** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` ago. */
-export function completeSteps(endMinutesAgo = 30) {
-  const s = endMinutesAgo + 80;
-  return [
-    { step: 'clean', chemical: 'alkaline-cleaner', concentration: 1.5, contactMinutes: 60, at: minutesAgo(s) },
-    { step: 'rinse', at: minutesAgo(s - 65) },
-    { step: 'sanitize', chemical: 'acid-sanitizer', concentration: 1.6, contactMinutes: 2, at: minutesAgo(s - 75) },
-    { step: 'purge', contactMinutes: 0.5, at: minutesAgo(endMinutesAgo) },
-  ];
+/** An ISO time `m` minutes before `now` (a Date, or the test's clock read now). */
+export const minutesAgo = (now: NowSource, m: number) => new Date(nowOf(now).getTime() - m * MINUTE).toISOString();
+
+/** The four steps of a cycle that meets the co-op's default rules, finishing `endMinutesAgo` before `now` (the test's clock). */
+export function completeSteps(now: NowSource, endMinutesAgo = 30) {
+  return cycleSteps(minutesAgo(now, endMinutesAgo));
 }
 
 export const fullChecklist = {
@@ -28,54 +33,71 @@ export const fullChecklist = {
   leakChecked: true,
 } as const;
 
-/** Empty, in-service kegs in the cellar with no open fill, not yet used by this test file. */
+/** New empty kegs in the cellar (19 L, needing cleaning, no cycle, no fill), made for the caller each time. */
 export function kegPool(ctx: TestContext) {
-  const used = new Set<string>();
   return async function takeKegs(n: number): Promise<{ id: string; code: string }[]> {
-    const rows = await ctx.db
-      .selectFrom('equipment as e')
-      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
-      .select(['e.id', 'e.code'])
-      .where('e.kind', '=', 'keg')
-      .where('e.state', 'in', ['needs_cleaning', 'cleaned', 'ready'])
-      .where((eb) => eb.or([eb('kw.whereabouts', 'is', null), eb('kw.whereabouts', '=', 'cellar')]))
-      .where((eb) => eb.not(eb.exists(eb.selectFrom('keg_fill as kf').select('kf.id').whereRef('kf.keg_id', '=', 'e.id').where('kf.emptied_at', 'is', null))))
-      .orderBy('e.code')
-      .execute();
-    const free = rows.filter((r) => !used.has(r.id)).slice(0, n);
-    if (free.length < n) throw new Error(`only ${free.length} spare kegs`);
-    for (const k of free) used.add(k.id);
-    return free;
+    const kegs: { id: string; code: string }[] = [];
+    for (let i = 0; i < n; i++) {
+      const keg = await createKeg(ctx.db);
+      kegs.push({ id: keg.id, code: keg.code });
+    }
+    return kegs;
   };
 }
 
-/** Makes kegs ready through the API, as the brewer on duty would. */
-export async function makeReady(brewer: ApiClient, ids: string[]) {
+/** The server's "now" (its clock), as the Today screen reports it. */
+async function serverNow(client: ApiClient): Promise<Date> {
+  const res = await client.get('/api/today');
+  if (res.status !== 200 || !res.body.generatedAt) throw new Error(`no server time: ${res.status}`);
+  return new Date(res.body.generatedAt);
+}
+
+/**
+ * Makes kegs ready through the API, as the brewer on duty would, with a cycle finished half an
+ * hour before `now` (a Date or the test's clock; default: the server's clock).
+ */
+export async function makeReady(brewer: ApiClient, ids: string[], now?: NowSource) {
   for (const id of ids) {
-    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps() });
+    const at = now === undefined ? await serverNow(brewer) : nowOf(now);
+    const res = await brewer.post('/api/sanitation-cycles', { equipmentId: id, steps: completeSteps(at) });
     if (res.status !== 201 || res.body.cycle.outcome !== 'ready') throw new Error(`could not ready ${id}: ${res.status} ${JSON.stringify(res.body)}`);
   }
 }
 
-/** Seeded batches still in a fermenter (fermenting or conditioning), with that fermenter, not yet used by this file. */
+export interface PooledBatch {
+  batchId: string;
+  name: string;
+  fermenterId: string;
+  fermenterCode: string;
+  volume: number;
+  ownerId: string;
+}
+
+/**
+ * A batch still in its fermenter, made for the caller each time, dated from the test's clock: a
+ * member's (a new one unless `ownerId` is given) 50 L pale ale, in a new 60 L fermenter sanitized
+ * the hour before it was filled 15 days ago and booked for it until a week ahead (holding), with
+ * readings from OG 1.052 (14 days ago) down to a steady 1.011 (3 days and 1 day ago).
+ */
 export function batchPool(ctx: TestContext) {
-  const used = new Set<string>();
-  return async function takeBatch(): Promise<{ batchId: string; name: string; fermenterId: string; fermenterCode: string; volume: number; ownerId: string }> {
-    const rows = await ctx.db
-      .selectFrom('batch as b')
-      .innerJoin('booking as bk', 'bk.batch_id', 'b.id')
-      .innerJoin('equipment as f', 'f.id', 'bk.equipment_id')
-      .select(['b.id as batchId', 'b.name', 'f.id as fermenterId', 'f.code as fermenterCode', 'b.volume_liters as volume', 'b.owner_id as ownerId'])
-      .where('b.status', 'in', ['fermenting', 'conditioning'])
-      .where('f.kind', '=', 'fermenter')
-      .where('f.state', '<>', 'out_of_service')
-      .where((eb) => eb.exists(eb.selectFrom('reading as r').select('r.id').whereRef('r.batch_id', '=', 'b.id')))
-      .orderBy('f.code')
-      .execute();
-    const row = rows.find((r) => !used.has(r.batchId));
-    if (!row) throw new Error('no seeded batch in a fermenter left');
-    used.add(row.batchId);
-    return { ...row, volume: Number(row.volume) };
+  return async function takeBatch(o: { ownerId?: string; volumeLiters?: number; capacityLiters?: number } = {}): Promise<PooledBatch> {
+    const now = ctx.clock.now().getTime();
+    const t = (days: number) => new Date(now + days * DAY);
+    const fermenter = await createFermenter(ctx.db, { capacityLiters: o.capacityLiters ?? 60 });
+    await createSanitationCycle(ctx.db, { equipmentId: fermenter.id, readyAt: new Date(t(-15).getTime() - HOUR) });
+    const batch = await createBatch(ctx.db, {
+      ...(o.ownerId ? { ownerId: o.ownerId } : {}),
+      style: 'Pale ale',
+      volumeLiters: o.volumeLiters ?? 50,
+      readings: [
+        { takenAt: t(-14), value: 1.052 },
+        { takenAt: t(-7), value: 1.014 },
+        { takenAt: t(-3), value: 1.011 },
+        { takenAt: t(-1), value: 1.011 },
+      ],
+      fermenter: { equipmentId: fermenter.id, startsAt: t(-15), endsAt: t(7), now: t(0) },
+    });
+    return { batchId: batch.id, name: batch.name, fermenterId: fermenter.id, fermenterCode: fermenter.code, volume: Number(batch.volume_liters), ownerId: batch.owner_id };
   };
 }
 
