@@ -1,7 +1,7 @@
 import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { SanitationCycleTable, SanitationStepTable } from '../../backend/db/tables/cellar-operations.ts';
-import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
+import { sanitationSettings, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
 import { evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
 import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
@@ -86,32 +86,9 @@ export async function createSanitationCycle(db: Database, o: SanitationCycleOver
       })
       .returningAll()
       .executeTakeFirstOrThrow();
-    // The same rows as the sanitation service's stepRows().
     const stepRows = await trx
       .insertInto('sanitation_step')
-      .values(
-        ev.steps.map((st, position) => {
-          const entered = steps[st.index]!;
-          return {
-            cycle_id: cycle.id,
-            position,
-            step: st.step,
-            chemical_id: st.chemicalId,
-            chemical: st.chemicalName,
-            concentration: st.concentration,
-            concentration_unit: st.concentrationUnit,
-            contact_minutes: entered.contactMinutes ?? null,
-            minimum_contact_minutes: st.minimumContactMinutes,
-            purge_method: st.step === 'purge' ? (entered.purgeMethod ?? 'flush') : null,
-            co2_grams: st.step === 'purge' ? (entered.co2Grams ?? settings.co2GramsPerPurge) : null,
-            solution_liters: entered.solutionLiters ?? null,
-            performed_by: entered.performedBy ?? recordedBy,
-            at: entered.at,
-            ok: st.ok,
-            note: entered.note ?? '',
-          };
-        }),
-      )
+      .values(buildStepRows(cycle.id, ev, steps, settings, recordedBy))
       .returningAll()
       .execute();
     if (vessel.state !== ev.outcome) {

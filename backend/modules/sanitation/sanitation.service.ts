@@ -401,12 +401,12 @@ export async function listVesselStatus(
 }
 
 /** The rows of a cycle's steps, as the co-op's rules judged them (`ev`), from the steps as entered (`raw`). */
-function stepRows(
+export function stepRows(
   cycleId: string,
   ev: CycleEvaluation,
   raw: readonly SanitationStepInput[],
   settings: SanitationSettings,
-  actorId: string,
+  actorId: string | null,
 ) {
   return ev.steps.map((st, position) => {
     const entered = raw[st.index]!;
