@@ -8,6 +8,7 @@ import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import type { Deps } from './lib/deps.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
+import { inputHygiene } from './middleware/input-hygiene.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
@@ -93,6 +94,8 @@ export function createApp(deps: Deps): Express {
   );
   app.use(authenticate(db));
   app.use('/api', csrfProtection(['/webhooks/']));
+  // Control characters in any text sent (body, query, address) are refused before a handler sees them.
+  app.use('/api', inputHygiene);
 
   app.use('/api/auth', authRoutes(deps));
   app.use('/api/users', usersRoutes(deps));

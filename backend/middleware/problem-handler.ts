@@ -12,6 +12,11 @@ export function zodErrors(err: ZodError): ProblemFieldError[] {
   return err.issues.map((i) => ({ path: i.path.map(String).join('.'), message: i.message }));
 }
 
+/** PostgreSQL data exceptions caused by the value sent: invalid_text_representation, character_not_in_repertoire,
+ * untranslatable_character, numeric_value_out_of_range, string_data_right_truncation, invalid_datetime_format,
+ * datetime_field_overflow. */
+const PG_BAD_INPUT = new Set(['22P02', '22021', '22P05', '22003', '22001', '22007', '22008']);
+
 /** Every error leaves the API as RFC 9457 problem JSON. */
 export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (res.headersSent) return;
@@ -32,6 +37,12 @@ export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof multer.MulterError) {
     if (err.code === 'LIMIT_FILE_SIZE') return send(res, 413, { title: 'File too large', detail: err.message });
     return send(res, 400, { title: 'Bad upload', detail: err.message });
+  }
+  // Text PostgreSQL cannot read as the type asked for (a malformed uuid, a NUL byte, a number out of range):
+  // bad input that slipped past validation, never a server fault.
+  if (typeof err?.code === 'string' && PG_BAD_INPUT.has(err.code)) {
+    req.log?.warn({ err }, 'the database refused a value sent');
+    return send(res, 422, { title: 'Validation failed', detail: 'A value sent is not valid here.', errors: [{ path: '', message: 'A value sent is not valid here.' }] });
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500;
   if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${err.limit} bytes.` });

@@ -14,6 +14,7 @@ import {
 } from '../../../shared/schemas/batches.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { badRequest, notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } from './batches.service.ts';
 import { loadCoopTimeZone, loadFermentationSettings } from './figures.ts';
@@ -36,6 +37,7 @@ const progressIdSchema = z.uuid('progressId must be a uuid').optional();
 
 export function batchesRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Batch', readingId: 'Reading', progressId: 'Import' });
   router.use(requireUser);
 
   router.get('/', async (req, res) => {

@@ -23,6 +23,7 @@ import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { badRequest, forbidden, notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile, putBillingProfile } from './billing-profile.service.ts';
 import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
@@ -67,6 +68,7 @@ function requireEveryInvoice(req: Request) {
 export function invoiceRunsRoutes(deps: Deps): Router {
   const { db, clock } = deps;
   const router = Router();
+  uuidParams(router, { id: 'Invoice run' });
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
@@ -121,6 +123,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
 export function invoicesRoutes(deps: Deps): Router {
   const { db, config, clock } = deps;
   const router = Router();
+  uuidParams(router, { id: 'Invoice' });
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
@@ -255,6 +258,7 @@ export function invoicesRoutes(deps: Deps): Router {
 
 export function pricesRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Price' });
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
@@ -282,6 +286,7 @@ export function pricesRoutes({ db, clock }: Deps): Router {
 
 export function taxRatesRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Tax rate' });
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
@@ -308,6 +313,7 @@ export function taxRatesRoutes({ db, clock }: Deps): Router {
 
 export function manualChargesRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Charge' });
   router.use(requireUser);
   const listQuery = z.object({ period: periodSchema.optional(), memberId: z.uuid().optional() });
 
@@ -383,6 +389,7 @@ export function billingRoutes({ db, clock }: Deps): Router {
 /** A credit note as a document: `GET /api/credit-notes/:id/pdf` (the member it credits, and the treasurer). */
 export function creditNotesRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Credit note' });
   router.use(requireUser);
   router.get('/:id/pdf', async (req, res) => {
     can(req).throwUnlessCan('read', 'CreditNote');

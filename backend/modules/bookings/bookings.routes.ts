@@ -6,6 +6,7 @@ import { bookingListQuerySchema, createBookingSchema } from '../../../shared/sch
 import type { Deps } from '../../lib/deps.ts';
 import { HttpProblem, notFound } from '../../lib/http-problem.ts';
 import { enqueueMail, type OutgoingMail } from '../../lib/mailer.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
 import { cancellationMail, confirmationMail } from './bookings.mail.ts';
@@ -15,6 +16,7 @@ const idSchema = z.uuid();
 
 export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Booking' });
   router.use(requireUser);
 
   /** Queued after the commit; a mail that cannot be queued is logged, never the booking's failure. */

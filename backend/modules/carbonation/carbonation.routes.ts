@@ -11,12 +11,14 @@ import {
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { createPlan, listPlans, markPressureLowered, planMemberId, planViews, previewPlan, setPlanState } from './carbonation.service.ts';
 
 /** `/api/carbonation-plans`: target CO2 volumes → regulator pressure, ready date and the fast-start reminder. */
 export function carbonationRoutes({ db, queue, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Carbonation plan' });
   router.use(requireUser);
 
   router.post('/preview', async (req, res) => {

@@ -11,6 +11,7 @@ import {
 } from '../../../shared/schemas/equipment.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { upcomingBookingsFor } from '../bookings/bookings.service.ts';
 import {
@@ -30,6 +31,7 @@ const idSchema = z.uuid();
 /** The equipment registry: everyone reads it, the admin keeps it, the brewer on duty changes states. */
 export function equipmentRoutes({ db, config, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Equipment' });
   router.use(requireUser);
 
   async function itemOr404(rawId: string) {

@@ -14,6 +14,7 @@ import {
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import {
   checkOutKeg,
@@ -32,6 +33,7 @@ import {
 /** `/api/kegs`: whereabouts, check-out and return, overdue, a keg's page and history, the tap board. */
 export function kegsRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Keg' });
   router.use(requireUser);
 
   const visibility = (req: Request) => ({

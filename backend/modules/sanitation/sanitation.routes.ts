@@ -10,6 +10,7 @@ import {
 } from '../../../shared/schemas/sanitation.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { loadAuditData, renderAuditPdfOffThread } from './audit-report.ts';
 import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
@@ -17,6 +18,7 @@ import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselSt
 /** `/api/sanitation-cycles`: the sanitation log. */
 export function sanitationCycleRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Sanitation cycle' });
   router.use(requireUser);
 
   router.post('/', async (req, res) => {

@@ -5,12 +5,14 @@ import { createTransferSchema, transferListQuerySchema } from '../../../shared/s
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { listTransfers, recordTransfer, transferCandidates, transferViews } from './transfers.service.ts';
 
 /** `/api/transfers`: beer from a fermenter into kegs, recorded on the brewer-on-duty's checklist. */
 export function transfersRoutes({ db, clock }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'Transfer' });
   router.use(requireUser);
 
   router.post('/', async (req, res) => {

@@ -9,6 +9,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { conflict, notFound } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
+import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { endSessionsOf, issueToken } from '../auth/auth.service.ts';
 
@@ -23,6 +24,7 @@ const INVITATION_TTL_HOURS = 7 * 24;
 
 export function usersRoutes({ db, config, queue }: Deps): Router {
   const router = Router();
+  uuidParams(router, { id: 'User' });
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
