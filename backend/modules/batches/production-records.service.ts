@@ -5,6 +5,7 @@ import { sql } from 'kysely';
 import { abv, litersToUsBarrels } from '../../../shared/brewing/index.ts';
 import { productionRecordsNote, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
+import { csvCell, xlsxCell, type ExportCell } from '../../lib/export-cells.ts';
 import { zonedTime } from './import-cells.ts';
 
 /** Month or day bounds in the co-op's time zone → [start, end) instants. `to` is inclusive: a whole month or day. */
@@ -125,13 +126,14 @@ const columns = ['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrel
 const rowValues = (r: ProductionRecordRow) => [r.month, r.batchName, r.style, r.ownerName, r.packagedLiters, r.usBarrels, r.og, r.fg, r.abv];
 
 export function productionRecordsCsv(report: ProductionRecords): string {
-  const data: unknown[][] = [
+  const data: ExportCell[][] = [
     [...columns],
     ...report.rows.map(rowValues),
     ['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels, '', '', ''],
     ['Note', report.note, '', '', '', '', '', '', ''],
   ];
-  return `\uFEFF${Papa.unparse(data.map((r) => r.map((v) => (v === null || v === undefined ? '' : v))), { newline: '\r\n' })}\r\n`;
+  // Batch names, styles and members' names are as typed: text that a spreadsheet would run is neutralised.
+  return `\uFEFF${Papa.unparse(data.map((r) => r.map(csvCell)), { newline: '\r\n' })}\r\n`;
 }
 
 export async function productionRecordsXlsx(report: ProductionRecords): Promise<Buffer> {
@@ -150,11 +152,11 @@ export async function productionRecordsXlsx(report: ProductionRecords): Promise<
     { header: columns[8], key: 'abv', width: 9, style: { numFmt: '0.00' } },
   ];
   ws.getRow(1).font = { bold: true };
-  for (const r of report.rows) ws.addRow(rowValues(r));
+  for (const r of report.rows) ws.addRow(rowValues(r).map(xlsxCell));
   const total = ws.addRow(['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels]);
   total.font = { bold: true };
   ws.addRow([]);
-  ws.addRow(['Note', report.note]);
+  ws.addRow(['Note', xlsxCell(report.note)]);
   const months = wb.addWorksheet('By month');
   months.columns = [
     { header: 'Month', key: 'month', width: 10 },

@@ -3,6 +3,7 @@ import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { Router } from 'express';
 import type { Deps } from '../../lib/deps.ts';
+import { csvCell, xlsxCell } from '../../lib/export-cells.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 
 /** The template's columns: what the importer proposes a mapping for without being told. */
@@ -31,7 +32,7 @@ export function readingsRoutes(_deps: Deps): Router {
 
   router.get('/template.csv', (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('import', 'Reading');
-    const csv = Papa.unparse([templateHeaders, ...exampleRows], { newline: '\r\n' });
+    const csv = Papa.unparse([templateHeaders, ...exampleRows].map((r) => r.map(csvCell)), { newline: '\r\n' });
     res.type('text/csv; charset=utf-8').attachment('readings-template.csv').send(`\uFEFF${csv}\r\n`);
   });
 
@@ -50,12 +51,12 @@ export function readingsRoutes(_deps: Deps): Router {
     ws.getRow(1).font = { bold: true };
     for (const [t, g, u, temp, note] of exampleRows) {
       // Spreadsheet dates hold wall-clock time; exceljs writes a Date's UTC fields.
-      ws.addRow([new Date(`${t!.replace(' ', 'T')}:00Z`), Number(g), u, Number(temp), note]);
+      ws.addRow([new Date(`${t!.replace(' ', 'T')}:00Z`), Number(g), u, Number(temp), note].map(xlsxCell));
     }
     const help = wb.addWorksheet('How to fill in');
     help.getColumn(1).width = 18;
     help.getColumn(2).width = 110;
-    for (const line of instructions) help.addRow(line);
+    for (const line of instructions) help.addRow(line.map(xlsxCell));
     help.getRow(1).font = { bold: true };
     res
       .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')

@@ -3,15 +3,7 @@ import Papa from 'papaparse';
 import { centsToDecimal } from '../../../shared/billing/money.ts';
 import { paymentMethodLabels } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
-
-/**
- * A text cell that a spreadsheet could take for a formula (it begins with =, +, -, @, a tab or a
- * carriage return) gets a leading apostrophe, so it is shown as text and never evaluated.
- * Numbers the export itself writes (amounts, quantities) are numbers, not text, and stay as they are.
- */
-export function neutralise(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
+import { neutralise } from '../../lib/export-cells.ts';
 
 type Cell = string | number | null;
 interface Sheet {
@@ -197,6 +189,7 @@ export function ledgerCsv(sheets: Sheet[]): string {
   return `\ufeff${Papa.unparse({ fields: headers, data }, { newline: '\r\n' })}\r\n`;
 }
 
+/** Amounts as decimals in the currency, other numbers as they are, text through the shared neutraliser. */
 function csvCell(v: Cell, money = false): string {
   if (v === null) return '';
   if (typeof v === 'number') return money ? centsToDecimal(v) : String(v);

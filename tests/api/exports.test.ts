@@ -1,0 +1,188 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import ExcelJS from 'exceljs';
+import Papa from 'papaparse';
+import type { Response } from 'superagent';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createBatch, createInvoice, createKeg, createManualCharge, createMember, DAY, fillKeg } from '../../db/factories/index.ts';
+import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+
+/**
+ * Every spreadsheet the API hands out (CSV and XLSX), fetched with member-typed text that begins like
+ * a formula in every text column we can reach: no cell may start with =, +, -, @, a tab or a carriage
+ * return unless it is a plain number, no XLSX cell is a formula, and numbers stay numbers.
+ */
+
+let ctx: TestContext;
+let treasurer: ApiClient;
+let brewer: ApiClient;
+let period: string;
+
+const FORMULA_START = /^[=+\-@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/;
+const PLAIN_NUMBER = /^[+-]?(\d+([.,]\d+)?|[.,]\d+)([eE][+-]?\d+)?$/;
+/** Text a person types that a spreadsheet would otherwise run. */
+const hostile = {
+  member: '=HYPERLINK("http://example.org/x","Open me")',
+  batch1: '=1+2',
+  style1: '@SUM(A1:A9)',
+  batch2: '+44 brew',
+  style2: '-10% hops',
+  batch3: '\tTabbed lager',
+  style3: '\r=cmd',
+  batch4: '＝1+1 full-width',
+  charges: ['=2*3', '+1 extra', '-5 keg deposit', '@A1', '\t=tab'],
+  reference: '=ref(1)',
+  note: '@note',
+  reason: '+refund reason',
+};
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+  treasurer = await ctx.signIn('treasurer@example.org');
+  brewer = await ctx.signIn('brewer@example.org');
+  const now = ctx.clock.now();
+  const today = now.toISOString().slice(0, 10);
+  const last = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1));
+  period = last.toISOString().slice(0, 7);
+
+  const member = await createMember(ctx.db, { name: hostile.member });
+  // Batches packaged this month, named and styled as a member might.
+  const batches: [string, string][] = [
+    [hostile.batch1, hostile.style1],
+    [hostile.batch2, hostile.style2],
+    [hostile.batch3, hostile.style3],
+    [hostile.batch4, 'Pils'],
+    ['-3.5', 'A name that is just a number'],
+  ];
+  for (const [i, [name, style]] of batches.entries()) {
+    const at = new Date(now.getTime() - (i + 1) * 3600_000);
+    const batch = await createBatch(ctx.db, {
+      ownerId: member.id,
+      name,
+      style,
+      readings: [
+        { takenAt: new Date(at.getTime() - 9 * DAY), value: 1.052 },
+        { takenAt: new Date(at.getTime() - 2 * DAY), value: 1.011 },
+      ],
+    });
+    const keg = await createKeg(ctx.db, { state: 'ready' });
+    await fillKeg(ctx.db, { kegId: keg.id, at, batchId: batch.id, volumeLiters: 18.5 });
+  }
+
+  // Last month's invoice for the member: charges typed by the treasurer, one of them a credit (a negative amount).
+  for (const description of hostile.charges) {
+    await createManualCharge(ctx.db, { memberId: member.id, period, amountCents: 250, description, reason: '=reason' });
+  }
+  await createManualCharge(ctx.db, { memberId: member.id, period, amountCents: -350, description: 'Credit for a returned keg', reason: 'returned' });
+  const invoice = await createInvoice(ctx.db, { memberId: member.id, period, today });
+  const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, { amountCents: 300, method: 'bank_transfer', receivedOn: today, reference: hostile.reference, note: hostile.note });
+  expect(paid.status).toBe(201);
+  // A refund: a credit note (its reason typed) and a payment back, a negative amount.
+  const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { amountCents: 150, reason: hostile.reason, refundMethod: 'cash' });
+  expect(refund.status).toBe(201);
+});
+afterAll(async () => ctx?.close());
+
+const binary = (res: Response, cb: (err: Error | null, body: Buffer) => void) => {
+  const chunks: Buffer[] = [];
+  res.on('data', (c: Buffer) => chunks.push(c));
+  res.on('end', () => cb(null, Buffer.concat(chunks)));
+};
+
+/** Every CSV and XLSX the API serves, with who may fetch it. Kept complete by the check below. */
+const exportsList = () => [
+  { name: 'ledger CSV', client: treasurer, url: `/api/invoices/export?period=${period}&format=csv`, kind: 'csv' as const },
+  { name: 'ledger XLSX', client: treasurer, url: `/api/invoices/export?period=${period}&format=xlsx`, kind: 'xlsx' as const },
+  { name: 'production records CSV', client: treasurer, url: '/api/production-records?format=csv', kind: 'csv' as const },
+  { name: 'production records export CSV', client: treasurer, url: '/api/production-records/export', kind: 'csv' as const },
+  { name: 'production records XLSX', client: treasurer, url: '/api/production-records/export?format=xlsx', kind: 'xlsx' as const },
+  { name: 'readings template CSV', client: brewer, url: '/api/readings/template.csv', kind: 'csv' as const },
+  { name: 'readings template XLSX', client: brewer, url: '/api/readings/template.xlsx', kind: 'xlsx' as const },
+];
+
+/** The files in backend/ that send a download (`.attachment(`): each must be one of the exports above. */
+const exportSources = {
+  'modules/billing/billing.routes.ts': 2,
+  'modules/batches/production-records.routes.ts': 2,
+  'modules/batches/readings.routes.ts': 2,
+};
+
+function backendFiles(dir: string): string[] {
+  return fs.readdirSync(dir, { withFileTypes: true }).flatMap((e) => {
+    const p = path.join(dir, e.name);
+    if (e.isDirectory()) return e.name === '__tests__' ? [] : backendFiles(p);
+    return /\.(ts|mts|js|mjs)$/.test(e.name) ? [p] : [];
+  });
+}
+
+async function cellsOf(kind: 'csv' | 'xlsx', res: Response): Promise<{ text: string[]; numbers: number[]; formulas: number }> {
+  const text: string[] = [];
+  const numbers: number[] = [];
+  let formulas = 0;
+  if (kind === 'csv') {
+    const parsed = Papa.parse<string[]>(res.text.replace(/^\ufeff/, ''), { skipEmptyLines: true });
+    expect(parsed.errors).toEqual([]);
+    for (const row of parsed.data) for (const cell of row) (PLAIN_NUMBER.test(cell) ? numbers.push(Number(cell.replace(',', '.'))) : text.push(cell));
+    return { text, numbers, formulas };
+  }
+  const wb = new ExcelJS.Workbook();
+  await wb.xlsx.load(res.body as unknown as ArrayBuffer);
+  for (const ws of wb.worksheets) {
+    ws.eachRow((row) =>
+      row.eachCell((cell) => {
+        const v = cell.value;
+        if (cell.type === ExcelJS.ValueType.Formula || cell.formula) formulas++;
+        if (typeof v === 'number') numbers.push(v);
+        else if (typeof v === 'string') text.push(v);
+        else if (v && typeof v === 'object' && 'richText' in v) text.push(v.richText.map((t) => t.text).join(''));
+      }),
+    );
+  }
+  return { text, numbers, formulas };
+}
+
+describe('spreadsheet exports', () => {
+  it('the list of exports here is every download the backend serves', () => {
+    const root = path.resolve(import.meta.dirname, '../../backend');
+    const found: Record<string, number> = {};
+    for (const file of backendFiles(root)) {
+      const n = (fs.readFileSync(file, 'utf8').match(/\.attachment\(/g) ?? []).length;
+      if (n) found[path.relative(root, file)] = n;
+    }
+    expect(found).toEqual(exportSources);
+    expect(exportsList().length).toBeGreaterThanOrEqual(Object.values(exportSources).reduce((a, b) => a + b, 0));
+  });
+
+  it('neutralises every formula-like text in every CSV and XLSX, and keeps numbers numbers', async () => {
+    const seen = new Set<string>();
+    for (const e of exportsList()) {
+      const req = e.client.get(e.url);
+      const res = e.kind === 'xlsx' ? await req.buffer(true).parse(binary) : await req;
+      expect(res.status, e.name).toBe(200);
+      expect(res.headers['content-disposition'], e.name).toMatch(/^attachment;/);
+      expect(res.headers['content-type'], e.name).toMatch(e.kind === 'csv' ? /^text\/csv/ : /spreadsheetml/);
+      const { text, numbers, formulas } = await cellsOf(e.kind, res);
+      expect(formulas, `${e.name}: formula cells`).toBe(0);
+      const unsafe = text.filter((t) => FORMULA_START.test(t) && !PLAIN_NUMBER.test(t));
+      expect(unsafe, `${e.name}: cells a spreadsheet would run`).toEqual([]);
+      expect(numbers.length, `${e.name}: numbers`).toBeGreaterThan(0);
+      for (const t of text) seen.add(t);
+      if (e.name.startsWith('ledger')) {
+        // The credit line and the refund are negative numbers, written as numbers.
+        expect(numbers.some((n) => n < 0), `${e.name}: negative amounts`).toBe(true);
+        expect(text.some((t) => /^'?-\d/.test(t) && PLAIN_NUMBER.test(t.replace(/^'/, ''))), `${e.name}: no number written as text`).toBe(false);
+      }
+      if (e.name.startsWith('production')) {
+        // 18.5 L each, and the name that is just a number is still that number.
+        expect(numbers, e.name).toContain(18.5);
+        if (e.kind === 'csv') expect(numbers, e.name).toContain(-3.5);
+        else expect(text, e.name).toContain('-3.5');
+      }
+    }
+    // What was typed arrives, escaped and otherwise whole, in the files.
+    const escaped = (s: string) => `'${s}`;
+    for (const s of [hostile.member, hostile.batch1, hostile.style1, hostile.batch2, hostile.style2, hostile.batch3, hostile.style3, hostile.batch4, ...hostile.charges, hostile.reference, hostile.note, hostile.reason]) {
+      expect(seen.has(escaped(s)), `${JSON.stringify(s)} escaped`).toBe(true);
+    }
+  });
+});
