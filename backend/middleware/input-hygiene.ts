@@ -12,7 +12,7 @@ const LINE_TEXT = new RegExp(`[\\u0000-\\u001F\\u007F]|${LONE_SURROGATE}`);
 export const MAX_BODY_DEPTH = 32;
 const MAX_ERRORS = 20;
 
-const describe = (s: string) => {
+const named = (s: string) => {
   const m = /[\u0000-\u001F\u007F]/.exec(s);
   return m ? `U+${m[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}` : 'a lone surrogate';
 };
@@ -23,7 +23,7 @@ function walk(root: unknown, refused: RegExp, errors: ProblemFieldError[]): void
   while (stack.length && errors.length < MAX_ERRORS) {
     const { value, path } = stack.pop()!;
     if (typeof value === 'string') {
-      if (refused.test(value)) errors.push({ path: path.join('.'), message: `Contains a control character (${describe(value)}), which this field does not take.` });
+      if (refused.test(value)) errors.push({ path: path.join('.'), message: `Contains a control character (${named(value)}), which this field does not take.` });
       continue;
     }
     if (value === null || typeof value !== 'object' || Buffer.isBuffer(value)) continue;
@@ -35,7 +35,7 @@ function walk(root: unknown, refused: RegExp, errors: ProblemFieldError[]): void
     for (let i = entries.length - 1; i >= 0; i--) {
       const [key, v] = entries[i]!;
       if (!Array.isArray(value) && refused.test(key)) {
-        errors.push({ path: [...path, key].join('.'), message: `The field name contains a control character (${describe(key)}).` });
+        errors.push({ path: [...path, key].join('.'), message: `The field name contains a control character (${named(key)}).` });
         continue;
       }
       stack.push({ value: v, path: [...path, key] });
@@ -60,7 +60,7 @@ export const inputHygiene: RequestHandler = (req, _res, next) => {
       continue; // the router answers a malformed escape itself (400)
     }
     if (LINE_TEXT.test(decoded)) {
-      errors.push({ path: '', message: `The address contains a control character (${describe(decoded)}).` });
+      errors.push({ path: '', message: `The address contains a control character (${named(decoded)}).` });
       break;
     }
   }
