@@ -227,6 +227,10 @@ export interface Payment {
   note: string;
   creditNoteId: string | null;
   createdAt: string;
+  /** Of amountCents, what came in beyond what the invoice owed: not counted as paid, owed back to the member. */
+  overpaidCents: number;
+  /** When the treasurer paid that excess back (null while it is still owed). */
+  overpaymentRefundedOn: string | null;
 }
 
 export interface CreditNoteLine {

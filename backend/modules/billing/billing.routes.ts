@@ -197,7 +197,7 @@ export function invoicesRoutes(deps: Deps): Router {
     // Paying online is for the member the invoice is addressed to.
     if (row.member_id !== req.user!.id) throw forbidden('Only the member it is addressed to pays an invoice online; record a payment instead.');
     can(req).throwUnlessCan('pay', subject('Invoice', { memberId: row.member_id }));
-    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }));
+    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }, clock.now()));
   });
 
   router.post('/:id/checkout/confirm', async (req, res) => {
