@@ -590,5 +590,13 @@ export async function memberBalance(db: Database, memberId: string, today: strin
     .where('member_id', '=', memberId)
     .where(owed)
     .executeTakeFirstOrThrow();
-  return { currency, balanceCents: row.balance, openInvoices: row.open, overdueInvoices: row.overdue };
+  // Money paid online beyond what was due is owed back until the treasurer has refunded it.
+  const overpaid = await db
+    .selectFrom('payment')
+    .select(sql<number>`coalesce(sum(overpaid_cents), 0)::int`.as('total'))
+    .where('member_id', '=', memberId)
+    .where('overpaid_cents', '>', 0)
+    .where('overpayment_refunded_on', 'is', null)
+    .executeTakeFirstOrThrow();
+  return { currency, balanceCents: row.balance - overpaid.total, openInvoices: row.open, overdueInvoices: row.overdue };
 }

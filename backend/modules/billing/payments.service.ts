@@ -1,7 +1,8 @@
+import type { Overpayment } from '../../../shared/schemas/billing.ts';
 import type { Config } from '../../config/env.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
-import { conflict, HttpProblem } from '../../lib/http-problem.ts';
+import { conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
 import { coopToday } from './billing-profile.service.ts';
 import { lockInvoice, recordPayment } from './invoices.service.ts';
 import { paymentProvider, type CheckoutSession, type ProviderEvent } from './payment-provider.ts';
@@ -254,4 +255,63 @@ export async function confirmCheckout(db: Database, config: Config, invoiceId: s
     throw new HttpProblem(502, 'Payment provider unavailable', `The payment provider did not answer: ${(err as Error).message}`);
   }
   return db.transaction().execute(async (trx) => (await applyPaidSession(trx, session, now)).outcome);
+}
+
+/** Online payments that brought more than their invoice owed, newest first; `open` keeps those not yet refunded. */
+export async function listOverpayments(db: Database, q: { open?: boolean; memberId?: string; paymentId?: string }): Promise<Overpayment[]> {
+  let query = db
+    .selectFrom('payment')
+    .innerJoin('invoice', 'invoice.id', 'payment.invoice_id')
+    .innerJoin('app_user', 'app_user.id', 'payment.member_id')
+    .select([
+      'payment.id',
+      'payment.invoice_id',
+      'invoice.number',
+      'payment.member_id',
+      'app_user.name',
+      'payment.currency',
+      'payment.received_on',
+      'payment.amount_cents',
+      'payment.overpaid_cents',
+      'payment.reference',
+      'payment.overpayment_refunded_on',
+      'payment.overpayment_refund_reference',
+    ])
+    .where('payment.overpaid_cents', '>', 0);
+  if (q.open) query = query.where('payment.overpayment_refunded_on', 'is', null);
+  if (q.memberId) query = query.where('payment.member_id', '=', q.memberId);
+  if (q.paymentId) query = query.where('payment.id', '=', q.paymentId);
+  const rows = await query.orderBy('payment.received_on', 'desc').orderBy('payment.created_at', 'desc').execute();
+  return rows.map((r) => ({
+    paymentId: r.id,
+    invoiceId: r.invoice_id,
+    invoiceNumber: r.number,
+    memberId: r.member_id,
+    memberName: r.name,
+    currency: r.currency.trim(),
+    receivedOn: r.received_on,
+    amountCents: r.amount_cents,
+    overpaidCents: r.overpaid_cents,
+    reference: r.reference,
+    refundedOn: r.overpayment_refunded_on,
+    refundReference: r.overpayment_refund_reference,
+  }));
+}
+
+/** The treasurer paid an overpayment back (outside the app, e.g. by bank transfer): it is no longer owed. */
+export async function markOverpaymentRefunded(
+  trx: Database,
+  paymentId: string,
+  input: { refundedOn: string; reference: string },
+  actorId: string,
+): Promise<void> {
+  const row = await trx.selectFrom('payment').select(['id', 'invoice_id', 'overpaid_cents', 'overpayment_refunded_on']).where('id', '=', paymentId).forUpdate().executeTakeFirst();
+  if (!row || row.overpaid_cents <= 0) throw notFound('Overpayment');
+  if (row.overpayment_refunded_on) throw conflict(`This overpayment was already refunded on ${row.overpayment_refunded_on}.`);
+  await trx
+    .updateTable('payment')
+    .set({ overpayment_refunded_on: input.refundedOn, overpayment_refund_reference: input.reference, overpayment_refunded_by: actorId })
+    .where('id', '=', paymentId)
+    .execute();
+  await audit(trx, actorId, 'overpayment_refunded', 'Invoice', row.invoice_id, { paymentId, overpaidCents: row.overpaid_cents, refundedOn: input.refundedOn, reference: input.reference });
 }
