@@ -104,7 +104,7 @@ beforeAll(async () => {
   treasurer = await ctx.signIn('treasurer@example.org');
 });
 afterAll(async () => {
-  await new Promise<void>((resolve) => server?.close(() => resolve()));
+  if (server) await new Promise<void>((resolve) => server.close(() => resolve()));
   await fake?.close();
   await ctx?.close();
 });
