@@ -126,6 +126,8 @@ describe('one open checkout per invoice', () => {
     const old = await member.post(`/api/invoices/${invoiceId}/checkout`);
     const part = await treasurer.post(`/api/invoices/${invoiceId}/payments`, { amountCents: 500, method: 'bank_transfer', receivedOn: '2026-12-02' });
     expect(part.status).toBe(201);
+    // Recording the transfer already closed the checkout that asked for the whole amount.
+    expect(fake.sessions.get(old.body.sessionId)!.status).toBe('expired');
     const fresh = await member.post(`/api/invoices/${invoiceId}/checkout`);
     expect(fresh.status).toBe(201);
     expect(fresh.body.sessionId).not.toBe(old.body.sessionId);
@@ -138,12 +140,23 @@ describe('one open checkout per invoice', () => {
     ]);
   });
 
+  it('closes the open checkout when the invoice is voided, so it cannot be paid any more', async () => {
+    const { member, invoiceId } = await payer('Vera Void');
+    const open = await member.post(`/api/invoices/${invoiceId}/checkout`);
+    const voided = await treasurer.post(`/api/invoices/${invoiceId}/void`, { reason: 'Billed in error' });
+    expect(voided.status).toBe(200);
+    expect(fake.sessions.get(open.body.sessionId)!.status).toBe('expired');
+    expect((await sessionsOf(invoiceId)).map((r) => r.status)).toEqual(['expired']);
+  });
+
   it('opens no new checkout when the provider cannot expire the old one', async () => {
     const { member, invoiceId } = await payer('Otto Outage');
     const old = await member.post(`/api/invoices/${invoiceId}/checkout`);
-    await treasurer.post(`/api/invoices/${invoiceId}/payments`, { amountCents: 620, method: 'cash', receivedOn: '2026-12-02' });
     fake.failing.add('expire');
     try {
+      // The cash is booked though the checkout it makes stale cannot be closed now.
+      const cash = await treasurer.post(`/api/invoices/${invoiceId}/payments`, { amountCents: 620, method: 'cash', receivedOn: '2026-12-02' });
+      expect(cash.status).toBe(201);
       const refused = await member.post(`/api/invoices/${invoiceId}/checkout`);
       expect(refused.status).toBe(502);
       expect(refused.headers['content-type']).toMatch(/problem\+json/);
@@ -264,7 +277,7 @@ describe('webhooks replayed, reordered and raced', () => {
     const completed = await postEvent(paidAtProvider(body.sessionId, 'evt_test_reorder_completed'));
     expect(completed.body).toMatchObject({ duplicate: false, outcome: 'paid' });
     const late = await postEvent(eventFor({ ...s, status: 'expired' }, 'evt_test_reorder_expired_late', 'checkout.session.expired'));
-    expect(late.body).toMatchObject({ duplicate: false, outcome: 'unknown_session' });
+    expect(late.body).toMatchObject({ duplicate: false, outcome: 'already_complete' });
     expect((await sessionsOf(invoiceId)).map((r) => r.status)).toEqual(['complete']);
     // Delivered twice, and under another event id: nothing more.
     const twice = await postEvent(paidAtProvider(body.sessionId, 'evt_test_reorder_completed'));

@@ -41,7 +41,7 @@ import {
   voidInvoice,
 } from './invoices.service.ts';
 import { verifyWebhook } from './payment-provider.ts';
-import { confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded } from './payments.service.ts';
+import { closeStaleCheckouts, confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded } from './payments.service.ts';
 import { addManualCharge, addPrice, addTaxRate, listManualCharges, listPrices, removeManualCharge, removePrice, removeTaxRate } from './prices.service.ts';
 import { ageingReport, billingSummary } from './reports.service.ts';
 
@@ -219,6 +219,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
     const payment = await db.transaction().execute((trx) => recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id));
+    await closeStaleCheckouts(db, config, row.id, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.status(201).json({ payment, invoice: await getDetail(db, row.id, today) });
   });
@@ -233,6 +234,7 @@ export function invoicesRoutes(deps: Deps): Router {
       const { today } = await coopToday(trx, clock.now());
       return voidInvoice(trx, row.id, input, today, req.user!.id);
     });
+    await closeStaleCheckouts(db, config, row.id, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
@@ -247,6 +249,7 @@ export function invoicesRoutes(deps: Deps): Router {
       const { today } = await coopToday(trx, clock.now());
       return refundInvoice(trx, row.id, input, today, req.user!.id);
     });
+    await closeStaleCheckouts(db, config, row.id, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.status(201).json({ ...result, invoice: await getDetail(db, row.id, today) });
   });

@@ -116,6 +116,30 @@ export async function createCheckout(
   throw conflict('The invoice changed while its checkout was being opened; try again.');
 }
 
+/**
+ * After a payment by hand, a credit or a void: an open checkout that no longer asks for what is due is
+ * expired at the provider, so the member cannot pay it as well. Best effort: when the provider cannot
+ * be reached the session stays open (a new checkout then refuses), and money paid on it is booked.
+ */
+export async function closeStaleCheckouts(db: Database, config: Config, invoiceId: string, now: Date): Promise<{ closed: number; failed: number }> {
+  const inv = await db.selectFrom('invoice').select(['status', 'total_cents', 'paid_cents', 'credited_cents']).where('id', '=', invoiceId).executeTakeFirst();
+  if (!inv) return { closed: 0, failed: 0 };
+  const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
+  const open = await db.selectFrom('checkout_session').select(['id', 'amount_cents', 'currency', 'url']).where('invoice_id', '=', invoiceId).where('status', '=', 'open').execute();
+  let closed = 0;
+  let failed = 0;
+  for (const s of open) {
+    if (inv.status === 'issued' && s.amount_cents === due) continue;
+    try {
+      await expireAtProvider(db, config, s, now);
+      closed++;
+    } catch {
+      failed++;
+    }
+  }
+  return { closed, failed };
+}
+
 /** Expires an open session at the provider and here; refuses (502) when the provider cannot. */
 async function expireAtProvider(db: Database, config: Config, open: OpenSession, now: Date): Promise<void> {
   const provider = paymentProvider(config);
@@ -236,7 +260,12 @@ export async function handleProviderEvent(db: Database, event: ProviderEvent, no
     } else if (event.type === 'checkout.session.expired') {
       const s = event.data.object;
       const updated = await trx.updateTable('checkout_session').set({ status: 'expired' }).where('id', '=', s.id).where('status', '=', 'open').returning('invoice_id').executeTakeFirst();
-      result = { outcome: updated ? 'expired' : 'unknown_session', invoiceId: updated?.invoice_id ?? null };
+      if (updated) result = { outcome: 'expired', invoiceId: updated.invoice_id };
+      else {
+        // Already closed here (paid, or expired by us): an expiry arriving late changes nothing.
+        const known = await trx.selectFrom('checkout_session').select(['invoice_id', 'status']).where('id', '=', s.id).executeTakeFirst();
+        result = known ? { outcome: `already_${known.status}`, invoiceId: known.invoice_id } : { outcome: 'unknown_session', invoiceId: null };
+      }
     }
     await trx.updateTable('payment_event').set({ outcome: result.outcome, invoice_id: result.invoiceId }).where('event_id', '=', event.id).execute();
     if (result.invoiceId) await audit(trx, null, `provider_event:${event.type}`, 'Invoice', result.invoiceId, { eventId: event.id, outcome: result.outcome });
