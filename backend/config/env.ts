@@ -31,7 +31,27 @@ const envSchema = z.object({
   STRIPE_SECRET_KEY: z.string().default('sk_test_cellarwright_local'),
   STRIPE_WEBHOOK_SECRET: z.string().default('whsec_cellarwright_local'),
   STRIPE_API_HOST: z.string().optional(),
+  /** In production the payment SDK talks to the local fake only when this says so. */
+  PAYMENTS_FAKE_IN_PRODUCTION: bool.default(false),
 });
+
+/** Development values that are public (they are in this repository): never accepted in production. */
+export const developmentSecrets = {
+  SESSION_SECRET: ['cellarwright-development-only-secret'],
+  STRIPE_SECRET_KEY: ['sk_test_cellarwright_local'],
+  STRIPE_WEBHOOK_SECRET: ['whsec_cellarwright_local'],
+} as const;
+
+/** What is wrong with the secrets a production start was given, one line per variable. */
+function productionSecretProblems(source: Record<string, string | undefined>): string[] {
+  const problems: string[] = [];
+  for (const [name, known] of Object.entries(developmentSecrets)) {
+    const value = source[name]?.trim();
+    if (!value) problems.push(`  ${name}: required in production`);
+    else if ((known as readonly string[]).includes(value)) problems.push(`  ${name}: the development value is public and not accepted in production; set a real secret`);
+  }
+  return problems;
+}
 
 export type Env = z.infer<typeof envSchema>;
 
@@ -52,12 +72,21 @@ export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | u
   }
   const env = parsed.data;
   const isProduction = env.NODE_ENV === 'production';
-  if (isProduction && !env.SESSION_SECRET) throw new Error('Invalid environment:\n  SESSION_SECRET: required in production');
+  if (isProduction) {
+    const problems = productionSecretProblems(source);
+    if (env.STRIPE_API_HOST && /^(https?:\/\/)?(127\.|localhost|\[?::1\]?)/i.test(env.STRIPE_API_HOST) && !env.PAYMENTS_FAKE_IN_PRODUCTION) {
+      problems.push('  STRIPE_API_HOST: points at this machine (the local fake); unset it, or set PAYMENTS_FAKE_IN_PRODUCTION=true to mean it');
+    }
+    if (problems.length) throw new Error(`Invalid environment:\n${problems.join('\n')}`);
+  }
+  // A production instance pays through the real provider unless told in so many words to use the fake.
+  const fakePort = isProduction && !env.PAYMENTS_FAKE_IN_PRODUCTION ? undefined : env.PAYMENTS_FAKE_PORT;
   return {
     ...env,
+    PAYMENTS_FAKE_PORT: fakePort,
     isProduction,
     publicUrl: (env.PUBLIC_URL ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, ''),
-    sessionSecret: env.SESSION_SECRET ?? 'cellarwright-development-only-secret',
+    sessionSecret: env.SESSION_SECRET ?? developmentSecrets.SESSION_SECRET[0],
     cookieSecure: env.COOKIE_SECURE ?? isProduction,
     devMailbox: env.DEV_MAILBOX ?? !isProduction,
     mailboxDatabaseUrl: env.MAILBOX_DATABASE_URL ?? env.DATABASE_URL,

@@ -49,6 +49,8 @@ export interface PaymentsFake {
   sessions: Map<string, FakeSession>;
   /** Every webhook delivery attempt: event id, type, HTTP status (0 when unreachable). */
   deliveries: { eventId: string; type: string; status: number }[];
+  /** API calls the fake answers with a provider outage (HTTP 503) while listed, to test how the app copes. */
+  failing: Set<'create' | 'retrieve' | 'expire'>;
   close(): Promise<void>;
 }
 
@@ -139,6 +141,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
     webhookUrl: opts.webhookUrl ?? '',
     sessions,
     deliveries,
+    failing: new Set(),
     close: async () => {
       for (const t of timers) clearTimeout(t);
       await new Promise<void>((resolve) => server.close(() => resolve()));
@@ -245,6 +248,11 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
         const auth = req.headers.authorization ?? '';
         if (auth !== `Bearer ${secretKey}`) return apiError(res, 401, 'invalid_request_error', 'Invalid API Key provided.');
         if (parts[1] === 'checkout' && parts[2] === 'sessions') {
+          const op = req.method === 'POST' && parts.length === 3 ? 'create' : parts[4] === 'expire' ? 'expire' : 'retrieve';
+          if (fake.failing.has(op)) {
+            await readBody(req);
+            return apiError(res, 503, 'api_error', 'The provider is unavailable (simulated outage).');
+          }
           if (req.method === 'POST' && parts.length === 3) {
             const created = createSession(parseForm(await readBody(req)));
             if (typeof created === 'string') return apiError(res, 400, 'invalid_request_error', created);

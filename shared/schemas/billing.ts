@@ -227,6 +227,10 @@ export interface Payment {
   note: string;
   creditNoteId: string | null;
   createdAt: string;
+  /** Of amountCents, what came in beyond what the invoice owed: not counted as paid, owed back to the member. */
+  overpaidCents: number;
+  /** When the treasurer paid that excess back (null while it is still owed). */
+  overpaymentRefundedOn: string | null;
 }
 
 export interface CreditNoteLine {
@@ -364,10 +368,36 @@ export interface BillingSummary {
   overdue: { count: number; totalCents: number };
   drafts: number;
   ageing: Record<AgeingBucket, number>;
+  /** Online payments that brought more than was due: the excess, still to be paid back to the members. */
+  overpayments: { count: number; totalCents: number };
   lastRun: InvoiceRun | null;
   /** The most recent period that has ended and has no run yet, if any. */
   suggestedPeriod: string;
 }
+
+/** Money paid online beyond what its invoice owed (a second checkout paid, or a race): owed back to the member. */
+export interface Overpayment {
+  paymentId: string;
+  invoiceId: string;
+  invoiceNumber: string | null;
+  memberId: string;
+  memberName: string;
+  currency: string;
+  receivedOn: string;
+  /** The whole payment, and the part of it that was not due. */
+  amountCents: number;
+  overpaidCents: number;
+  reference: string;
+  refundedOn: string | null;
+  refundReference: string | null;
+}
+
+/** Body of `POST /api/billing/overpayments/:paymentId/refunded`: the treasurer paid the excess back. */
+export const overpaymentRefundSchema = z.object({
+  refundedOn: dateSchema,
+  reference: z.string().trim().max(120).default(''),
+});
+export type OverpaymentRefundInput = z.input<typeof overpaymentRefundSchema>;
 
 export interface MemberBalance {
   currency: string;

@@ -2,6 +2,8 @@ import { sql } from 'kysely';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
+import type { ProviderEvent } from '../../backend/modules/billing/payment-provider.ts';
+import { handleProviderEvent } from '../../backend/modules/billing/payments.service.ts';
 import { createBooking, createInvoice, DAY, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodBounds, periodLabel } from '../../shared/billing/dates.ts';
@@ -170,6 +172,41 @@ describe('the treasurer’s billing screens', () => {
     expect(await page.getByRole('link', { name: 'Billing', exact: true }).count()).toBe(0);
     await page.goto('/billing');
     await page.getByRole('heading', { name: 'Not for your role' }).waitFor();
+    await context.close();
+  });
+});
+
+describe('an invoice paid twice online', () => {
+  it('shows the treasurer the overpayment on the overview and on the invoice, until it is marked refunded', async () => {
+    // Two provider sessions for the payer's other invoice, both paid (one had been replaced but was paid all the same).
+    const invoice = made.payer.invoices[1]!;
+    for (const n of [1, 2]) {
+      const id = `cs_test_e2e_twice_${n}`;
+      await ctx.db
+        .insertInto('checkout_session')
+        .values({ id, invoice_id: invoice.id, amount_cents: invoice.total_cents, currency: invoice.currency, url: `${fake.url}/pay/${id}`, status: n === 1 ? 'expired' : 'open' })
+        .execute();
+      const session = { id, object: 'checkout.session', status: 'complete', payment_status: 'paid', amount_total: invoice.total_cents, currency: 'eur', payment_intent: `pi_test_e2e_${n}` };
+      const event = { id: `evt_test_e2e_twice_${n}`, object: 'event', type: 'checkout.session.completed', data: { object: session } } as unknown as ProviderEvent;
+      expect((await handleProviderEvent(ctx.db, event, ctx.clock.now())).outcome).toBe(n === 1 ? 'paid' : 'overpaid');
+    }
+    const { page, context } = await signIn('treasurer@example.org');
+    await page.goto('/billing');
+    const section = page.getByRole('region', { name: 'Overpayments to refund' });
+    await section.getByRole('row', { name: new RegExp(invoice.number!) }).waitFor();
+    await screenshot(page, 'billing-treasurer-overpayments');
+
+    await section.getByRole('link', { name: invoice.number! }).click();
+    await page.getByRole('heading', { name: invoice.number! }).waitFor();
+    const euros = new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'EUR' }).format(invoice.total_cents / 100);
+    expect(await page.getByTestId('overpayment').textContent()).toBe(`${euros} of it was more than was due: it is owed back to the member.`);
+    await screenshot(page, 'billing-treasurer-invoice-overpaid');
+
+    await page.goBack();
+    await section.getByRole('row', { name: new RegExp(invoice.number!) }).getByRole('button', { name: 'Refunded' }).click();
+    await section.waitFor({ state: 'detached' });
+    const row = await ctx.db.selectFrom('payment').select(['overpaid_cents', 'overpayment_refunded_on']).where('invoice_id', '=', invoice.id).where('overpaid_cents', '>', 0).executeTakeFirstOrThrow();
+    expect(row).toEqual({ overpaid_cents: invoice.total_cents, overpayment_refunded_on: expect.stringMatching(/^\d{4}-\d{2}-\d{2}$/) });
     await context.close();
   });
 });

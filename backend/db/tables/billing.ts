@@ -154,6 +154,11 @@ export interface PaymentTable {
   credit_note_id: string | null;
   recorded_by: string | null;
   created_at: Generated<Date>;
+  /** Of amount_cents, what came in beyond what the invoice still owed (not in its paid_cents). */
+  overpaid_cents: Generated<number>;
+  overpayment_refunded_on: DateOnly | null;
+  overpayment_refund_reference: string | null;
+  overpayment_refunded_by: string | null;
 }
 
 export interface PaymentEventTable {

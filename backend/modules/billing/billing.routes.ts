@@ -11,6 +11,7 @@ import {
   invoiceRunInputSchema,
   invoiceRunPreviewQuerySchema,
   manualChargeInputSchema,
+  overpaymentRefundSchema,
   paymentInputSchema,
   periodSchema,
   priceInputSchema,
@@ -41,7 +42,7 @@ import {
   voidInvoice,
 } from './invoices.service.ts';
 import { verifyWebhook } from './payment-provider.ts';
-import { confirmCheckout, createCheckout, handleProviderEvent } from './payments.service.ts';
+import { closeStaleCheckouts, confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded } from './payments.service.ts';
 import { addManualCharge, addPrice, addTaxRate, listManualCharges, listPrices, removeManualCharge, removePrice, removeTaxRate } from './prices.service.ts';
 import { ageingReport, billingSummary } from './reports.service.ts';
 
@@ -200,7 +201,7 @@ export function invoicesRoutes(deps: Deps): Router {
     // Paying online is for the member the invoice is addressed to.
     if (row.member_id !== req.user!.id) throw forbidden('Only the member it is addressed to pays an invoice online; record a payment instead.');
     can(req).throwUnlessCan('pay', subject('Invoice', { memberId: row.member_id }));
-    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }));
+    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }, clock.now()));
   });
 
   router.post('/:id/checkout/confirm', async (req, res) => {
@@ -221,6 +222,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
     const payment = await db.transaction().execute((trx) => recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id));
+    await closeStaleCheckouts(db, config, row.id, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.status(201).json({ payment, invoice: await getDetail(db, row.id, today) });
   });
@@ -235,6 +237,7 @@ export function invoicesRoutes(deps: Deps): Router {
       const { today } = await coopToday(trx, clock.now());
       return voidInvoice(trx, row.id, input, today, req.user!.id);
     });
+    await closeStaleCheckouts(db, config, row.id, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
@@ -249,6 +252,7 @@ export function invoicesRoutes(deps: Deps): Router {
       const { today } = await coopToday(trx, clock.now());
       return refundInvoice(trx, row.id, input, today, req.user!.id);
     });
+    await closeStaleCheckouts(db, config, row.id, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.status(201).json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
@@ -359,6 +363,26 @@ export function billingRoutes({ db, clock }: Deps): Router {
     requireEveryInvoice(req);
     const q = ageingQuerySchema.parse(req.query);
     res.json(await ageingReport(db, clock.now(), q.asOf));
+  });
+
+  /** Online payments beyond what was due, for the treasurer to refund: `?open=true` for those still owed. */
+  router.get('/overpayments', async (req, res) => {
+    requireEveryInvoice(req);
+    const q = z.object({ open: z.enum(['true', 'false']).optional(), memberId: z.uuid().optional() }).parse(req.query);
+    const items = await listOverpayments(db, { open: q.open === 'true', memberId: q.memberId });
+    res.json({ items, total: items.length, page: 1, pageSize: Math.max(items.length, 1) });
+  });
+
+  router.post('/overpayments/:id/refunded', async (req, res) => {
+    const { id } = idParam.parse(req.params);
+    can(req).throwUnlessCan('create', 'Payment');
+    const input = overpaymentRefundSchema.parse(req.body ?? {});
+    const row = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('payment').select(['id', 'member_id']).where('id', '=', id).executeTakeFirst() : undefined;
+    if (!row) throw notFound('Overpayment');
+    can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
+    await db.transaction().execute((trx) => markOverpaymentRefunded(trx, row.id, input as Required<typeof input>, req.user!.id));
+    const [item] = await listOverpayments(db, { paymentId: row.id });
+    res.json({ overpayment: item });
   });
 
   /** A member's own balance; the treasurer may ask for anyone's with ?memberId=. */

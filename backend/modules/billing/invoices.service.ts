@@ -143,6 +143,8 @@ function toPayment(p: {
   note: string;
   credit_note_id: string | null;
   created_at: Date;
+  overpaid_cents: number;
+  overpayment_refunded_on: string | null;
 }): Payment {
   return {
     id: p.id,
@@ -155,6 +157,8 @@ function toPayment(p: {
     note: p.note,
     creditNoteId: p.credit_note_id,
     createdAt: p.created_at.toISOString(),
+    overpaidCents: p.overpaid_cents,
+    overpaymentRefundedOn: p.overpayment_refunded_on,
   };
 }
 
@@ -361,6 +365,8 @@ export async function recordPayment(
     note?: string;
     checkoutSessionId?: string | null;
     creditNoteId?: string | null;
+    /** Of amountCents, what is beyond what the invoice owes: kept on the payment, not counted as paid. */
+    overpaidCents?: number;
   },
   actorId: string | null,
 ): Promise<Payment> {
@@ -379,12 +385,13 @@ export async function recordPayment(
       checkout_session_id: p.checkoutSessionId ?? null,
       credit_note_id: p.creditNoteId ?? null,
       recorded_by: actorId,
+      overpaid_cents: p.overpaidCents ?? 0,
     })
     .returningAll()
     .executeTakeFirstOrThrow();
   await trx
     .updateTable('invoice')
-    .set({ paid_cents: sql`paid_cents + ${p.amountCents}`, updated_at: new Date() })
+    .set({ paid_cents: sql`paid_cents + ${p.amountCents - (p.overpaidCents ?? 0)}`, updated_at: new Date() })
     .where('id', '=', invoiceId)
     .execute();
   await settle(trx, invoiceId);
@@ -583,5 +590,13 @@ export async function memberBalance(db: Database, memberId: string, today: strin
     .where('member_id', '=', memberId)
     .where(owed)
     .executeTakeFirstOrThrow();
-  return { currency, balanceCents: row.balance, openInvoices: row.open, overdueInvoices: row.overdue };
+  // Money paid online beyond what was due is owed back until the treasurer has refunded it.
+  const overpaid = await db
+    .selectFrom('payment')
+    .select(sql<number>`coalesce(sum(overpaid_cents), 0)::int`.as('total'))
+    .where('member_id', '=', memberId)
+    .where('overpaid_cents', '>', 0)
+    .where('overpayment_refunded_on', 'is', null)
+    .executeTakeFirstOrThrow();
+  return { currency, balanceCents: row.balance - overpaid.total, openInvoices: row.open, overdueInvoices: row.overdue };
 }

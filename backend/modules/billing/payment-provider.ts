@@ -4,7 +4,8 @@ import type { Config } from '../../config/env.ts';
 /**
  * The hosted payment provider's official SDK. In development and tests it talks to the local fake
  * (backend/fakes/payments-fake.ts): STRIPE_API_HOST ("http://127.0.0.1:4242" or "127.0.0.1:4242"),
- * or else PAYMENTS_FAKE_PORT on loopback. With neither, it talks to the real provider.
+ * or else PAYMENTS_FAKE_PORT on loopback. With neither, it talks to the real provider. A production
+ * config carries neither unless PAYMENTS_FAKE_IN_PRODUCTION says so (config/env.ts).
  */
 export function providerEndpoint(config: Config): { host: string; port: number; protocol: 'http' | 'https' } | null {
   if (config.STRIPE_API_HOST) {

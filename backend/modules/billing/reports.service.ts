@@ -65,6 +65,12 @@ export async function billingSummary(db: Database, now: Date): Promise<BillingSu
       sql<number>`count(*) filter (where status = 'draft')::int`.as('drafts'),
     ])
     .executeTakeFirstOrThrow();
+  const overpaid = await db
+    .selectFrom('payment')
+    .select([sql<number>`count(*)::int`.as('count'), sql<number>`coalesce(sum(overpaid_cents), 0)::int`.as('total')])
+    .where('overpaid_cents', '>', 0)
+    .where('overpayment_refunded_on', 'is', null)
+    .executeTakeFirstOrThrow();
   // The last month that has ended.
   let suggested = nextPeriod(today.slice(0, 7), -1);
   if (periodBounds(suggested).next > today) suggested = nextPeriod(suggested, -1);
@@ -75,6 +81,7 @@ export async function billingSummary(db: Database, now: Date): Promise<BillingSu
     overdue: { count: row.overdue_count, totalCents: row.overdue_total },
     drafts: row.drafts,
     ageing: ageing.totals,
+    overpayments: { count: overpaid.count, totalCents: overpaid.total },
     lastRun: runs[0] ?? null,
     suggestedPeriod: suggested,
   };

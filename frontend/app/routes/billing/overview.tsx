@@ -9,6 +9,7 @@ import { paths } from '@/config/paths';
 import { useAgeing, useBillingSummary } from '@/features/billing/api/billing-overview';
 import { AgeingChart } from '@/features/billing/components/ageing-chart';
 import { Money } from '@/features/billing/components/money';
+import { OverpaymentsList } from '@/features/billing/components/overpayments-list';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
@@ -65,6 +66,8 @@ const BillingOverviewRoute = () => {
           {s.drafts} draft invoice{s.drafts === 1 ? ' is' : 's are'} waiting to be issued. <Link to={`${paths.billingInvoices}?status=draft`}>Review the drafts</Link>
         </Alert>
       ) : null}
+
+      {s.overpayments.count ? <OverpaymentsList today={s.today} /> : null}
 
       <section aria-labelledby="ageing-title" className="grid gap-4 lg:grid-cols-[3fr_2fr]">
         <div className="rounded-md border border-line bg-surface p-4">

@@ -180,8 +180,19 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
                 <span>
                   {longDate(p.receivedOn)} · {paymentMethodLabels[p.method]}
                   {p.amountCents < 0 ? <Badge tone="muted" className="ml-2">Paid back</Badge> : null}
+                  {p.overpaidCents > 0 ? (
+                    <Badge tone={p.overpaymentRefundedOn ? 'muted' : 'due'} className="ml-2">
+                      {p.overpaymentRefundedOn ? 'Overpayment refunded' : 'Overpayment'}
+                    </Badge>
+                  ) : null}
                   {p.reference ? <span className="ml-2 text-ink-muted">{p.reference}</span> : null}
                   {p.note ? <span className="block text-xs text-ink-muted">{p.note}</span> : null}
+                  {p.overpaidCents > 0 ? (
+                    <span className="block text-xs" data-testid="overpayment">
+                      {money(p.overpaidCents, p.currency)} of it was more than was due:{' '}
+                      {p.overpaymentRefundedOn ? `paid back on ${longDate(p.overpaymentRefundedOn)}.` : 'it is owed back to the member.'}
+                    </span>
+                  ) : null}
                 </span>
                 <Money cents={p.amountCents} currency={p.currency} className="font-medium" />
               </li>

@@ -1,0 +1,54 @@
+import { describe, expect, it } from 'vitest';
+import { developmentSecrets, loadConfig } from '../env.ts';
+
+const base = { DATABASE_URL: 'postgres://cellar@127.0.0.1:5432/cellarwright' };
+const real = {
+  SESSION_SECRET: 'a-long-random-session-secret-for-production',
+  STRIPE_SECRET_KEY: 'sk_live_real_key_from_the_provider',
+  STRIPE_WEBHOOK_SECRET: 'whsec_real_signing_secret_from_the_provider',
+};
+const production = (env: Record<string, string | undefined>) => () => loadConfig({ ...base, NODE_ENV: 'production', ...env });
+
+describe('loadConfig', () => {
+  it('keeps the development defaults in development and tests', () => {
+    for (const NODE_ENV of [undefined, 'development', 'test']) {
+      const config = loadConfig({ ...base, NODE_ENV, PAYMENTS_FAKE_PORT: '4242' });
+      expect(config.isProduction).toBe(false);
+      expect(config.STRIPE_SECRET_KEY).toBe(developmentSecrets.STRIPE_SECRET_KEY[0]);
+      expect(config.STRIPE_WEBHOOK_SECRET).toBe(developmentSecrets.STRIPE_WEBHOOK_SECRET[0]);
+      expect(config.sessionSecret).toBe(developmentSecrets.SESSION_SECRET[0]);
+      expect(config.PAYMENTS_FAKE_PORT).toBe(4242);
+    }
+  });
+
+  it('starts in production with real secrets', () => {
+    const config = production(real)();
+    expect(config).toMatchObject({ isProduction: true, sessionSecret: real.SESSION_SECRET, ...real });
+  });
+
+  it('refuses a production start without the secrets, naming every missing one', () => {
+    expect(production({})).toThrow(/SESSION_SECRET: required in production[\s\S]*STRIPE_SECRET_KEY: required in production[\s\S]*STRIPE_WEBHOOK_SECRET: required in production/);
+    expect(production({ ...real, STRIPE_WEBHOOK_SECRET: undefined })).toThrow(/^Invalid environment:\n {2}STRIPE_WEBHOOK_SECRET: required in production$/);
+    expect(production({ ...real, STRIPE_SECRET_KEY: '  ' })).toThrow(/STRIPE_SECRET_KEY: required in production/);
+  });
+
+  it('refuses the public development values in production', () => {
+    for (const [name, [value]] of Object.entries(developmentSecrets)) {
+      const start = production({ ...real, [name]: value });
+      expect(start).toThrow(new RegExp(`${name}: the development value is public`));
+      // Only the variable that is wrong is named.
+      for (const other of Object.keys(developmentSecrets).filter((n) => n !== name)) {
+        expect(start).not.toThrow(new RegExp(other));
+      }
+    }
+  });
+
+  it('does not point a production instance at the local payment fake unless told to', () => {
+    expect(production({ ...real, PAYMENTS_FAKE_PORT: '4242' })().PAYMENTS_FAKE_PORT).toBeUndefined();
+    expect(production({ ...real, PAYMENTS_FAKE_PORT: '4242', PAYMENTS_FAKE_IN_PRODUCTION: 'true' })().PAYMENTS_FAKE_PORT).toBe(4242);
+    expect(production({ ...real, STRIPE_API_HOST: 'http://127.0.0.1:4242' })).toThrow(/STRIPE_API_HOST: points at this machine/);
+    expect(production({ ...real, STRIPE_API_HOST: 'localhost:4242' })).toThrow(/STRIPE_API_HOST/);
+    expect(production({ ...real, STRIPE_API_HOST: '127.0.0.1:4242', PAYMENTS_FAKE_IN_PRODUCTION: 'yes' })().STRIPE_API_HOST).toBe('127.0.0.1:4242');
+    expect(production({ ...real, STRIPE_API_HOST: 'https://payments-proxy.example.org' })().STRIPE_API_HOST).toBe('https://payments-proxy.example.org');
+  });
+});
