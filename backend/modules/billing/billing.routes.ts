@@ -353,6 +353,7 @@ export function manualChargesRoutes({ db, clock }: Deps): Router {
 export function billingRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
+  uuidParams(router, { id: 'Overpayment' });
 
   router.get('/summary', async (req, res) => {
     requireEveryInvoice(req);
@@ -377,7 +378,7 @@ export function billingRoutes({ db, clock }: Deps): Router {
     const { id } = idParam.parse(req.params);
     can(req).throwUnlessCan('create', 'Payment');
     const input = overpaymentRefundSchema.parse(req.body ?? {});
-    const row = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('payment').select(['id', 'member_id']).where('id', '=', id).executeTakeFirst() : undefined;
+    const row = await db.selectFrom('payment').select(['id', 'member_id']).where('id', '=', id).executeTakeFirst();
     if (!row) throw notFound('Overpayment');
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
     await db.transaction().execute((trx) => markOverpaymentRefunded(trx, row.id, input as Required<typeof input>, req.user!.id));
