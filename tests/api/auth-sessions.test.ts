@@ -76,7 +76,7 @@ describe('anonymous visitors leave no session behind', () => {
     const signedIn = await request(ctx.app).post('/api/auth/login').send({ email: 'member2@example.org', password: DEMO_PASSWORD });
     expect(signedIn.status).toBe(200);
     expect(await sessionRows()).toBe(before + 1);
-  });
+  }, 180_000);
 
   it('a session whose lifetime ended signs no one in, and the store prunes such rows', async () => {
     const api = await ctx.signIn('member3@example.org');

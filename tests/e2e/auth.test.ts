@@ -69,7 +69,7 @@ describe('signing in and out in the browser', () => {
     } finally {
       await context.close();
     }
-  });
+  }, 120_000);
 
   it('resets a forgotten password through the e-mailed link, then signs in with it', async () => {
     const member = await createMember(ctx.db);
@@ -91,7 +91,7 @@ describe('signing in and out in the browser', () => {
     } finally {
       await context.close();
     }
-  });
+  }, 120_000);
 });
 
 describe('a locked account', () => {
@@ -132,5 +132,5 @@ describe('a locked account', () => {
     } finally {
       await context.close();
     }
-  });
+  }, 120_000);
 });

@@ -79,10 +79,11 @@ export function authRoutes({ db, config, queue }: Deps): Router {
   });
   const refuse = (res: Response, refusal: LoginRefusal) => {
     const minutes = Math.ceil(refusal.retryAfterSeconds / 60);
+    const wait = `${minutes} minute${minutes === 1 ? '' : 's'}`;
     const [title, detail] =
       refusal.reason === 'locked'
-        ? ['Account locked', `Sign-in to this account is locked after many failed attempts; its owner has been e-mailed a link to unlock it. Otherwise try again in ${minutes} minutes.`]
-        : ['Too many attempts', `Too many sign-in attempts for this account from this address; try again in ${minutes} minutes.`];
+        ? ['Account locked', `Sign-in to this account is locked after many failed attempts; its owner has been e-mailed a link to unlock it. Otherwise try again in ${wait}.`]
+        : ['Too many attempts', `Too many sign-in attempts for this account from this address; try again in ${wait}.`];
     res.setHeader('Retry-After', String(refusal.retryAfterSeconds));
     res.status(429).type('application/problem+json').json({ type: 'about:blank', status: 429, title, detail });
   };
