@@ -1,7 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import connectPgSimple from 'connect-pg-simple';
 import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
@@ -11,6 +10,7 @@ import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { inputHygiene } from './middleware/input-hygiene.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
+import { sessionStore } from './modules/auth/session-store.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
 import { batchesRoutes } from './modules/batches/batches.routes.ts';
 import { productionRecordsRoutes } from './modules/batches/production-records.routes.ts';
@@ -38,7 +38,7 @@ const distDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..',
 
 /** Builds the Express app; never listens (main.ts does, tests use supertest). */
 export function createApp(deps: Deps): Express {
-  const { config, pool, db } = deps;
+  const { config, db } = deps;
   const app = express();
   app.disable('x-powered-by');
   if (config.TRUST_PROXY) app.set('trust proxy', /^\d+$/.test(config.TRUST_PROXY) ? Number(config.TRUST_PROXY) : config.TRUST_PROXY);
@@ -80,11 +80,10 @@ export function createApp(deps: Deps): Express {
   app.use('/api/webhooks', express.raw({ type: '*/*', limit: '1mb' }));
   app.use(express.json({ limit: '100kb' }));
 
-  const PgStore = connectPgSimple(session);
   app.use(
     session({
       name: 'cw.sid',
-      store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 }),
+      store: sessionStore(deps),
       secret: config.sessionSecret,
       resave: false,
       saveUninitialized: false,
@@ -93,7 +92,7 @@ export function createApp(deps: Deps): Express {
     }),
   );
   app.use(authenticate(db));
-  app.use('/api', csrfProtection(['/webhooks/']));
+  app.use('/api', csrfProtection(config.sessionSecret, ['/webhooks/']));
   // Control characters in any text sent (body, query, address) are refused before a handler sees them.
   app.use('/api', inputHygiene);
 

@@ -27,6 +27,8 @@ const envSchema = z.object({
   LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(100),
   LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
   LOGIN_LIMIT_WINDOW_MINUTES: z.coerce.number().int().positive().default(15),
+  LOGIN_LOCK_PER_ACCOUNT: z.coerce.number().int().positive().default(100),
+  LOGIN_LOCK_WINDOW_MINUTES: z.coerce.number().int().positive().default(60),
   PAYMENTS_FAKE_PORT: z.coerce.number().int().optional(),
   STRIPE_SECRET_KEY: z.string().default('sk_test_cellarwright_local'),
   STRIPE_WEBHOOK_SECRET: z.string().default('whsec_cellarwright_local'),

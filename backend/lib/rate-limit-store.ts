@@ -8,10 +8,11 @@ import type { Database } from '../db/database.ts';
  */
 export class PgRateLimitStore implements Store {
   localKeys = false;
-  private windowMs = 60_000;
   constructor(
     private readonly db: Database,
     public prefix: string,
+    /** The window; express-rate-limit sets it from its own options through `init`. */
+    private windowMs = 60_000,
   ) {}
 
   init(options: Options): void {
@@ -54,5 +55,10 @@ export class PgRateLimitStore implements Store {
 
   async resetKey(key: string): Promise<void> {
     await this.db.deleteFrom('rate_limit').where('key', '=', this.prefix + key).execute();
+  }
+
+  /** Deletes counters whose window ended (any prefix): each address and pair leaves a row behind otherwise. */
+  async pruneExpired(): Promise<void> {
+    await this.db.deleteFrom('rate_limit').where('reset_at', '<=', sql<Date>`now()`).execute();
   }
 }

@@ -3,6 +3,7 @@ import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Database } from '../db/database.ts';
 import { HttpProblem, unauthorized } from '../lib/http-problem.ts';
 import { findActiveUser } from '../modules/auth/auth.service.ts';
+import { anonymousCsrfCookieOf, csrfKey, isValidAnonymousCsrfToken, sameToken, sentByBrowser } from '../modules/auth/csrf.ts';
 
 /** Sets req.user and req.ability; nothing else builds an ability. A deactivated user's session ends here too. */
 export function authenticate(db: Database): RequestHandler {
@@ -25,15 +26,26 @@ export const requireUser: RequestHandler = (req, _res, next) => {
 
 const safeMethods = new Set(['GET', 'HEAD', 'OPTIONS']);
 
-/** A signed-in session must send its CSRF token on every state-changing request. */
-export function csrfProtection(exempt: string[] = []): RequestHandler {
+const csrfRefused = () =>
+  new HttpProblem(403, 'CSRF token missing or wrong', 'Fetch a token from GET /api/auth/csrf and send it as X-CSRF-Token.');
+
+/**
+ * Every state-changing request must send its CSRF token: a signed-in session the token kept in its session;
+ * an anonymous browser request (sign-in, reset, invitation, unlock) the signed token of its `cw.csrf` cookie.
+ * An anonymous request from a client that is no browser sends no cookies and needs none, unless it sends one.
+ */
+export function csrfProtection(sessionSecret: string, exempt: string[] = []): RequestHandler {
+  const key = csrfKey(sessionSecret);
   return (req, _res, next) => {
     if (safeMethods.has(req.method) || exempt.some((p) => req.path.startsWith(p))) return next();
-    if (!req.session?.userId) return next();
     const sent = req.get('x-csrf-token');
-    if (!sent || !req.session.csrfToken || sent !== req.session.csrfToken) {
-      throw new HttpProblem(403, 'CSRF token missing or wrong', 'Fetch a token from GET /api/auth/csrf and send it as X-CSRF-Token.');
+    if (req.session?.userId) {
+      if (!sameToken(sent, req.session.csrfToken)) throw csrfRefused();
+      return next();
     }
+    const cookie = anonymousCsrfCookieOf(req);
+    if (sent === undefined && cookie === undefined && !sentByBrowser(req)) return next();
+    if (!sameToken(sent, cookie) || !isValidAnonymousCsrfToken(key, sent)) throw csrfRefused();
     next();
   };
 }

@@ -68,6 +68,7 @@ export const routes: RouteObject[] = [
       { path: paths.forgotPassword, lazy: lazy(() => import('@/app/routes/auth/forgot-password')) },
       { path: paths.resetPassword, lazy: lazy(() => import('@/app/routes/auth/reset-password')) },
       { path: paths.invitation, lazy: lazy(() => import('@/app/routes/auth/invitation')) },
+      { path: paths.unlock, lazy: lazy(() => import('@/app/routes/auth/unlock')) },
       {
         id: 'app',
         path: paths.today,

@@ -6,6 +6,7 @@ export const paths = {
   forgotPassword: '/forgot-password',
   resetPassword: '/reset-password',
   invitation: '/invitation',
+  unlock: '/unlock',
   members: '/members',
   outbox: '/members/outbox',
   // Screens still to come; their nav entries stay hidden until `ready`.

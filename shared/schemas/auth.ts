@@ -56,3 +56,7 @@ export const acceptInvitationSchema = z.object({
   password: passwordSchema,
 });
 export type AcceptInvitationInput = z.infer<typeof acceptInvitationSchema>;
+
+/** Body of `POST /api/auth/unlock`: the token of the link e-mailed when an account was locked. */
+export const unlockAccountSchema = z.object({ token: tokenSchema });
+export type UnlockAccountInput = z.infer<typeof unlockAccountSchema>;

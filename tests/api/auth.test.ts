@@ -64,9 +64,16 @@ describe('sign-in', () => {
 
   it('regenerates the session id at sign-in', async () => {
     const agent = request.agent(ctx.app);
-    const before = await agent.get('/api/auth/csrf');
+    // A session id an attacker chose for the visitor is never taken on.
+    const planted = await request(ctx.app).post('/api/auth/login').set('Cookie', 'cw.sid=chosen-by-someone-else').send({ email: 'member2@example.org', password: 'cellar-demo' });
+    expect(planted.status).toBe(200);
+    expect(sessionCookie(planted)).not.toMatch(/chosen-by-someone-else/);
+    const before = await agent.post('/api/auth/login').send({ email: 'member2@example.org', password: 'cellar-demo' });
     const first = sessionCookie(before)!.split(';')[0];
-    const login = await agent.post('/api/auth/login').send({ email: 'brewer@example.org', password: 'cellar-demo' });
+    // Signing in again from a session that exists (as someone else, here) starts a new one.
+    const { token } = (await agent.get('/api/auth/csrf')).body;
+    const login = await agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email: 'brewer@example.org', password: 'cellar-demo' });
+    expect(login.status).toBe(200);
     const second = sessionCookie(login)!.split(';')[0];
     expect(first).toBeTruthy();
     expect(second).toBeTruthy();
@@ -78,7 +85,7 @@ describe('sign-in', () => {
     expect(me.body.user.email).toBe('brewer@example.org');
   });
 
-  it('locks an account after repeated failures, with 429 and Retry-After', async () => {
+  it('throttles an account from one address after repeated failures, with 429 and Retry-After', async () => {
     const attempt = () => request(ctx.app).post('/api/auth/login').send({ email: 'member3@example.org', password: 'wrong-password' });
     const statuses: number[] = [];
     for (let i = 0; i < 6; i++) statuses.push((await attempt()).status);
@@ -87,12 +94,13 @@ describe('sign-in', () => {
     expect(res.status).toBe(429);
     expect(Number(res.headers['retry-after'])).toBeGreaterThan(0);
     expect(res.body.title).toBe('Too many attempts');
-    // Even the right password waits out the window; other accounts are not affected.
+    // Even the right password waits out the window from this address; other accounts are not affected.
     expect((await request(ctx.app).post('/api/auth/login').send({ email: 'member3@example.org', password: 'cellar-demo' })).status).toBe(429);
     expect((await request(ctx.app).post('/api/auth/login').send({ email: 'member4@example.org', password: 'cellar-demo' })).status).toBe(200);
-    // The counter lives in PostgreSQL, shared by every instance.
-    const row = await ctx.db.selectFrom('rate_limit').selectAll().where('key', '=', 'login-account:member3@example.org').executeTakeFirstOrThrow();
-    expect(row.hits).toBeGreaterThanOrEqual(6);
+    // The counter lives in PostgreSQL, shared by every instance: one per account and address.
+    const rows = await ctx.db.selectFrom('rate_limit').selectAll().where(sql<boolean>`starts_with(key, 'login-pair:member3@example.org ')`).execute();
+    expect(rows).toHaveLength(1);
+    expect(rows[0]!.hits).toBeGreaterThanOrEqual(6);
   });
 });
 

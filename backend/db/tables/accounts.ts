@@ -18,7 +18,7 @@ export interface AppUserTable {
 export interface UserTokenTable {
   id: Generated<string>;
   user_id: string;
-  purpose: 'invitation' | 'password_reset';
+  purpose: 'invitation' | 'password_reset' | 'account_unlock';
   token_hash: string;
   expires_at: Timestamp;
   used_at: Date | null;

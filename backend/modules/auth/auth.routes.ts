@@ -1,11 +1,11 @@
-import { randomBytes } from 'node:crypto';
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { rateLimit, type Options } from 'express-rate-limit';
 import {
   acceptInvitationSchema,
   loginSchema,
   passwordResetConfirmSchema,
   passwordResetRequestSchema,
+  unlockAccountSchema,
   updateMeSchema,
 } from '../../../shared/schemas/auth.ts';
 import type { Deps } from '../../lib/deps.ts';
@@ -24,12 +24,22 @@ import {
   toSessionUser,
   type SessionUser,
 } from './auth.service.ts';
+import {
+  anonymousCsrfCookieOf,
+  csrfKey,
+  isValidAnonymousCsrfToken,
+  issueAnonymousCsrfToken,
+  newSessionCsrfToken,
+  setAnonymousCsrfCookie,
+} from './csrf.ts';
+import { clientAddressKey, LoginThrottle, type LoginRefusal } from './login-throttle.ts';
 
-const newCsrfToken = () => randomBytes(24).toString('base64url');
+/** How long an e-mailed unlock link works. */
+const unlockLinkHours = 24;
 
 /** Start a fresh session for `user`: a new id (no fixation), the CSRF token carried over. */
 function signIn(req: Request, user: SessionUser): Promise<void> {
-  const csrf = req.session.csrfToken ?? newCsrfToken();
+  const csrf = req.session.csrfToken ?? newSessionCsrfToken();
   return new Promise((resolve, reject) => {
     req.session.regenerate((err) => {
       if (err) return reject(err);
@@ -43,6 +53,8 @@ function signIn(req: Request, user: SessionUser): Promise<void> {
 export function authRoutes({ db, config, queue }: Deps): Router {
   const router = Router();
   const windowMs = config.LOGIN_LIMIT_WINDOW_MINUTES * 60_000;
+  const throttle = new LoginThrottle(db, config);
+  const anonymousCsrf = csrfKey(config.sessionSecret);
   const tooMany =
     (what: string): Options['handler'] =>
     (req, res) => {
@@ -60,29 +72,60 @@ export function authRoutes({ db, config, queue }: Deps): Router {
     limit: config.LOGIN_LIMIT_PER_IP,
     standardHeaders: 'draft-7',
     legacyHeaders: false,
+    keyGenerator: (req) => clientAddressKey(req.ip),
+    validate: { keyGeneratorIpFallback: false }, // clientAddressKey groups IPv6 addresses itself
     store: new PgRateLimitStore(db, 'login-ip:'),
     handler: tooMany('from this address'),
   });
-  const perAccount = rateLimit({
-    windowMs,
-    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
-    standardHeaders: false,
-    legacyHeaders: false,
-    skipSuccessfulRequests: true,
-    keyGenerator: (req) => String(req.body?.email ?? '').trim().toLowerCase() || 'unknown',
-    store: new PgRateLimitStore(db, 'login-account:'),
-    handler: tooMany('for this account'),
-  });
+  const refuse = (res: Response, refusal: LoginRefusal) => {
+    const minutes = Math.ceil(refusal.retryAfterSeconds / 60);
+    const wait = `${minutes} minute${minutes === 1 ? '' : 's'}`;
+    const [title, detail] =
+      refusal.reason === 'locked'
+        ? ['Account locked', `Sign-in to this account is locked after many failed attempts; its owner has been e-mailed a link to unlock it. Otherwise try again in ${wait}.`]
+        : ['Too many attempts', `Too many sign-in attempts for this account from this address; try again in ${wait}.`];
+    res.setHeader('Retry-After', String(refusal.retryAfterSeconds));
+    res.status(429).type('application/problem+json').json({ type: 'about:blank', status: 429, title, detail });
+  };
 
+  /** Mails the owner of a just-locked account a one-time link that lifts the lock. */
+  const sendUnlockLink = async (email: string) => {
+    const user = await db.selectFrom('app_user').select(['id', 'name', 'email']).where('email', '=', email).where('is_active', '=', true).executeTakeFirst();
+    if (!user) return;
+    const token = await issueToken(db, user.id, 'account_unlock', unlockLinkHours, null);
+    const link = `${config.publicUrl}/unlock?token=${token}`;
+    await audit(db, null, 'sign_in_locked', 'User', user.id, { failures: config.LOGIN_LOCK_PER_ACCOUNT });
+    await enqueueMail(queue, {
+      to: user.email,
+      subject: 'Unlock your Cellarwright account',
+      text: `Hello ${user.name},\n\nThere have been ${config.LOGIN_LOCK_PER_ACCOUNT} failed attempts to sign in to your Cellarwright account at Larkspur Yard Brewing Co-op, so sign-in to it is locked for ${config.LOGIN_LOCK_WINDOW_MINUTES} minutes.\nUnlock it here (the link works once, for ${unlockLinkHours} hours):\n\n${link}\n\nIf the attempts were not yours, someone may be guessing your password: after unlocking, consider choosing a new one ("Forgot password?" on the sign-in page).\n`,
+    });
+  };
+
+  // Signed in: the token kept in the session. Anonymous: a signed token in a cookie, and no session row.
   router.get('/csrf', (req, res) => {
-    req.session.csrfToken ??= newCsrfToken();
-    res.json({ token: req.session.csrfToken });
+    if (req.session?.userId) {
+      req.session.csrfToken ??= newSessionCsrfToken();
+      return res.json({ token: req.session.csrfToken });
+    }
+    let token = anonymousCsrfCookieOf(req);
+    if (!isValidAnonymousCsrfToken(anonymousCsrf, token)) {
+      token = issueAnonymousCsrfToken(anonymousCsrf);
+      setAnonymousCsrfCookie(res, token, config.cookieSecure);
+    }
+    res.json({ token });
   });
 
-  router.post('/login', perIp, perAccount, async (req, res) => {
+  router.post('/login', perIp, async (req, res) => {
     const input = loginSchema.parse(req.body ?? {});
+    const refusal = await throttle.admit(input.email, req.ip);
+    if (refusal) return refuse(res, refusal);
     const row = await checkCredentials(db, input.email, input.password);
-    if (!row) throw new HttpProblem(401, 'Sign-in failed', 'E-mail or password is wrong.');
+    if (!row) {
+      if (await throttle.failed(input.email)) await sendUnlockLink(input.email);
+      throw new HttpProblem(401, 'Sign-in failed', 'E-mail or password is wrong.');
+    }
+    await throttle.succeeded(input.email, req.ip);
     const user = toSessionUser(row);
     await signIn(req, user);
     await db.updateTable('app_user').set({ last_login_at: new Date() }).where('id', '=', user.id).execute();
@@ -136,7 +179,19 @@ export function authRoutes({ db, config, queue }: Deps): Router {
       const tok = await consumeToken(trx, input.token, 'password_reset');
       await trx.updateTable('app_user').set({ password_hash: passwordHash, updated_at: new Date() }).where('id', '=', tok.user_id).execute();
       await endSessionsOf(trx, tok.user_id);
+      // Whoever reads the owner's mail may sign in again: a new password lifts a sign-in lock too.
+      await throttle.unlock(trx, tok.email);
       await audit(trx, tok.user_id, 'password_reset', 'User', tok.user_id);
+    });
+    res.status(204).end();
+  });
+
+  router.post('/unlock', async (req, res) => {
+    const { token } = unlockAccountSchema.parse(req.body ?? {});
+    await db.transaction().execute(async (trx) => {
+      const tok = await consumeToken(trx, token, 'account_unlock');
+      await throttle.unlock(trx, tok.email);
+      await audit(trx, tok.user_id, 'sign_in_unlocked', 'User', tok.user_id);
     });
     res.status(204).end();
   });

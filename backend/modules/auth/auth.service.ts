@@ -50,11 +50,14 @@ export async function findActiveUser(db: Database, id: string): Promise<SessionU
 
 const sha256 = (s: string) => createHash('sha256').update(s).digest('hex');
 
+export type TokenPurpose = 'invitation' | 'password_reset' | 'account_unlock';
+const tokenLabels: Record<TokenPurpose, string> = { invitation: 'Invitation', password_reset: 'Reset link', account_unlock: 'Unlock link' };
+
 /** A single-use token; only its hash is stored. Returns the token to put in the link. */
 export async function issueToken(
   db: Database,
   userId: string,
-  purpose: 'invitation' | 'password_reset',
+  purpose: TokenPurpose,
   ttlHours: number,
   createdBy: string | null,
 ): Promise<string> {
@@ -74,7 +77,7 @@ export async function issueToken(
   return token;
 }
 
-async function findToken(db: Database, token: string, purpose: 'invitation' | 'password_reset', lock: boolean) {
+async function findToken(db: Database, token: string, purpose: TokenPurpose, lock: boolean) {
   let q = db
     .selectFrom('user_token')
     .innerJoin('app_user', 'app_user.id', 'user_token.user_id')
@@ -83,17 +86,17 @@ async function findToken(db: Database, token: string, purpose: 'invitation' | 'p
     .where('purpose', '=', purpose);
   if (lock) q = q.forUpdate();
   const row = await q.executeTakeFirst();
-  const label = purpose === 'invitation' ? 'Invitation' : 'Reset link';
+  const label = tokenLabels[purpose];
   if (!row || !row.is_active) throw notFound(label);
   if (row.used_at) throw gone(`${label} has already been used.`);
   if (new Date(row.expires_at) <= new Date()) throw gone(`${label} has expired.`);
   return row;
 }
 
-export const peekToken = (db: Database, token: string, purpose: 'invitation' | 'password_reset') => findToken(db, token, purpose, false);
+export const peekToken = (db: Database, token: string, purpose: TokenPurpose) => findToken(db, token, purpose, false);
 
 /** Marks the token used and returns its user id; call inside the transaction that acts on it. */
-export async function consumeToken(db: Database, token: string, purpose: 'invitation' | 'password_reset') {
+export async function consumeToken(db: Database, token: string, purpose: TokenPurpose) {
   const row = await findToken(db, token, purpose, true);
   await db.updateTable('user_token').set({ used_at: new Date() }).where('id', '=', row.id).execute();
   return row;

@@ -21,9 +21,13 @@ function loginErrorMessage(error: unknown): string | null {
   if (!isApiProblem(error)) return problemMessage(error);
   if (error.status === 401) return 'E-mail or password is wrong.';
   if (error.status === 429) {
-    if (error.retryAfterSeconds === undefined) return 'Too many attempts. Try again in a few minutes.';
+    const locked = error.title === 'Account locked';
+    const first = locked
+      ? 'Sign-in to this account is locked after many failed attempts. Its owner has been e-mailed a link to unlock it'
+      : 'Too many attempts';
+    if (error.retryAfterSeconds === undefined) return `${first}. Try again in a while.`;
     const minutes = Math.max(1, Math.ceil(error.retryAfterSeconds / 60));
-    return `Too many attempts, try again in ${pluralize(minutes, 'minute')}.`;
+    return `${first}${locked ? '; or' : ','} try again in ${pluralize(minutes, 'minute')}.`;
   }
   if (error.status === 422) return null; // shown beside the fields
   return problemMessage(error);
