@@ -7,7 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
 import { defaultBillingProfile } from '../../shared/schemas/billing.ts';
-import { settingSections } from '../../shared/schemas/settings.ts';
+import { settingKeys, settingSections } from '../../shared/schemas/settings.ts';
 import { createKeg, cycleSteps, DAY, HOUR } from '../../db/factories/index.ts';
 import { batchPool, fullChecklist, makeReady } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
@@ -48,6 +48,8 @@ interface FuzzEntry {
   record?: RecordKind;
   valid: (f: Fixtures) => Record<string, unknown>;
   endsSession?: true;
+  /** Fuzz each of several paths (every settings section), with that path's valid body. */
+  each?: () => { key: string; valid: Record<string, unknown> }[];
 }
 
 const iso = (d: Date) => d.toISOString();
@@ -70,7 +72,12 @@ const entries: Record<string, FuzzEntry> = {
   'POST /api/equipment/:id/state': { as: 'brewer', record: 'equipment', valid: () => ({ state: 'cleaned', reason: 'Soaked and rinsed' }) },
   'POST /api/bookings': { as: 'member', valid: (f) => ({ equipmentId: f.fermenterId, startsAt: iso(new Date(f.now.getTime() + 20 * DAY)), endsAt: iso(new Date(f.now.getTime() + 24 * DAY)), notes: 'Fuzz' }) },
   'DELETE /api/bookings/:id': { as: 'member', record: 'booking', valid: () => ({}) },
-  'PUT /api/settings/:key': { as: 'admin', record: 'setting', valid: () => ({ ...(settingSections.booking_rules.defaults as Record<string, unknown>), maxActiveBookingsPerMember: 24 }) },
+  'PUT /api/settings/:key': {
+    as: 'admin',
+    record: 'setting',
+    valid: () => ({ ...(settingSections.booking_rules.defaults as Record<string, unknown>), maxActiveBookingsPerMember: 24 }),
+    each: () => settingKeys.map((key) => ({ key, valid: { ...(settingSections[key].defaults as Record<string, unknown>), ...(key === 'booking_rules' ? { maxActiveBookingsPerMember: 24 } : {}) } })),
+  },
   'POST /api/batches': { as: 'member', valid: () => ({ name: 'Fuzz amber', style: 'Amber ale', volumeLiters: 23, targetOg: 1.052, targetFg: 1.012, notes: 'Fuzz' }) },
   'PATCH /api/batches/:id': { as: 'member', record: 'batch', valid: () => ({ name: 'Renamed amber', style: 'Amber ale', volumeLiters: 21, notes: 'Topped up' }) },
   'POST /api/batches/:id/readings': { as: 'member', record: 'batch', valid: (f) => ({ takenAt: iso(new Date(f.now.getTime() - HOUR)), gravity: 1.02, unit: 'sg', temperatureC: 20, note: 'Fuzz' }) },
@@ -275,7 +282,7 @@ describe('the write fuzzer', () => {
     const statuses: Record<string, number> = {};
     /** One generated body to one route; a request that throws is a failure too, never a stop. */
     async function probe(r: ServedRoute, entry: FuzzEntry, url: string, body: unknown) {
-      const where = `${routeKey(r)} with ${JSON.stringify(body).slice(0, 300)}`;
+      const where = `${r.method} ${url} with ${JSON.stringify(body).slice(0, 300)}`;
       try {
         let client: ApiClient | null = null;
         if (entry.as !== 'anonymous' && entry.as !== 'webhook') client = entry.endsSession ? await ctx.signIn(emails[entry.as]) : clients[entry.as];
@@ -299,14 +306,17 @@ describe('the write fuzzer', () => {
     for (const [i, r] of routes.entries()) {
       const entry = entries[routeKey(r)]!;
       const record = entry.record ? await records.make(entry.record, fixtureMember(entry.record === 'user' ? 'member2' : 'member')) : undefined;
-      const url = fillPath(r.path, record);
-      const valid = entry.valid({ ...base, record });
-      const numRuns = entry.endsSession ? Math.min(RUNS, 5) : RUNS;
-      await fc.assert(
-        fc.asyncProperty(bodies(valid), (body) => probe(r, entry, url, body)),
-        // Each route its own stream of inputs, reproducible from SEED.
-        { numRuns, seed: SEED + i, endOnFailure: true },
-      );
+      const targets = entry.each
+        ? entry.each().map((t) => ({ url: fillPath(r.path, { params: { key: t.key }, marks: [] }), valid: t.valid }))
+        : [{ url: fillPath(r.path, record), valid: entry.valid({ ...base, record }) }];
+      const numRuns = entry.endsSession ? Math.min(RUNS, 5) : entry.each ? Math.ceil(RUNS / 2) : RUNS;
+      for (const [j, { url, valid }] of targets.entries()) {
+        await fc.assert(
+          fc.asyncProperty(bodies(valid), (body) => probe(r, entry, url, body)),
+          // Each route (and path) its own stream of inputs, reproducible from SEED.
+          { numRuns, seed: SEED + i * 100 + j, endOnFailure: true },
+        );
+      }
     }
     // The refused writes said what was wrong; some generated bodies were also fine to take.
     console.info(`write fuzzer: ${sent} requests over ${routes.length} routes (${withNul} with NUL), seed ${SEED}; statuses ${JSON.stringify(statuses)}`);
