@@ -123,9 +123,9 @@ const entries: Record<string, FuzzEntry> = {
 
 // ---- Generators ----
 
-/** What JSON carries of a value (undefined dropped, -0 as 0, …), without NUL while HYGIENE_PENDING. */
 /** A NUL character as JSON text writes it (an escaped backslash before `u0000` is not one). */
 const nulInJson = () => /(?<!\\)((?:\\\\)*)\\u0000/g;
+/** What JSON carries of a value (undefined dropped, -0 as 0, …), without NUL while HYGIENE_PENDING. */
 const asJson = (v: unknown): unknown => {
   const text = JSON.stringify(v) ?? 'null';
   return JSON.parse(HYGIENE_PENDING ? text.replace(nulInJson(), '$1') : text);
