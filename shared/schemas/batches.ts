@@ -42,7 +42,7 @@ const batchNameSchema = z.string().trim().min(1, 'Name the batch').max(120, 'Kee
 const styleSchema = z.string().trim().max(80, 'Keep the style under 80 characters');
 const volumeSchema = z
   .number({ error: 'Enter the volume in litres' })
-  .positive('The volume must be above 0')
+  .min(0.01, 'The volume must be above 0') // litres are kept to two decimals
   .max(10_000, 'The volume must be at most 10,000 L');
 const notesSchema = z.string().max(4000, 'Keep the notes under 4,000 characters');
 const idSchema = z.uuid('Not a valid id');

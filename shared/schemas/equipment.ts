@@ -45,7 +45,8 @@ export const nextCodeQuerySchema = z.object({ kind: equipmentKindSchema });
 
 const nameSchema = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
 const notesSchema = z.string().trim().max(2000, 'Keep notes under 2000 characters');
-const capacitySchema = z.number().positive('Capacity must be more than 0 L').max(100_000);
+// At least the smallest amount the registry keeps (two decimals), so nothing rounds to 0 L.
+const capacitySchema = z.number().min(0.01, 'Capacity must be more than 0 L').max(100_000);
 
 export const fermenterAttributesSchema = z.object({
   style: z.enum(['bucket', 'conical']),

@@ -10,7 +10,7 @@ export const sanitationStepInputSchema = z.object({
   /** Chemical id or name from the co-op's list (or another name, recorded as given). */
   chemical: z.string().trim().min(1).max(80).optional(),
   /** Strength in the chemical's unit (%, g/L, mL/L or ppm as the co-op's list says). */
-  concentration: z.number().positive('More than 0').max(100_000).optional(),
+  concentration: z.number().min(0.001, 'More than 0').max(100_000).optional(), // kept to three decimals
   /** Soak or contact time; a purge may give seconds as a fraction of a minute. */
   contactMinutes: z.number().min(0, 'At least 0').max(24 * 60, 'At most a day').optional(),
   at: isoDateTimeSchema,
@@ -19,7 +19,7 @@ export const sanitationStepInputSchema = z.object({
   /** Purge only: CO2 used; the co-op's usual figure is recorded when absent. */
   co2Grams: z.number().min(0).max(5000).optional(),
   /** Litres of cleaning or sanitizing solution made up (for chemical use). */
-  solutionLiters: z.number().positive().max(1000).optional(),
+  solutionLiters: z.number().min(0.01, 'More than 0 L').max(1000).optional(), // kept to two decimals
   /** Who did the step, when it was not the person recording it. */
   performedBy: z.uuid().optional(),
   note: z.string().trim().max(500).optional(),

@@ -54,9 +54,9 @@ export const finingsSchema = z
   .object({
     /** e.g. "silica finings", "gelatin". */
     kind: z.string().trim().min(2, 'Name the finings').max(60),
-    amount: z.number().positive('More than 0').max(10_000).optional(),
+    amount: z.number().min(0.01, 'More than 0').max(10_000).optional(), // kept to two decimals
     /** Another name for amount. */
-    dose: z.number().positive('More than 0').max(10_000).optional(),
+    dose: z.number().min(0.01, 'More than 0').max(10_000).optional(),
     unit: z.enum(['g', 'mL']).optional(),
   })
   .refine((f) => f.amount !== undefined || f.dose !== undefined, { message: 'Give the dose', path: ['amount'] });
@@ -75,11 +75,11 @@ export const createTransferSchema = z
       .max(12, 'At most 12 kegs in one transfer')
       .refine((ids) => new Set(ids).size === ids.length, 'Pick each keg once'),
     /** Drawn from the fermenter. */
-    volumeLiters: z.number().positive('More than 0 L').max(10_000),
+    volumeLiters: z.number().min(0.01, 'More than 0 L').max(10_000), // litres are kept to two decimals
     checklist: transferChecklistSchema,
     finings: finingsSchema.nullable().optional(),
     /** Litres in each keg, in the order of toKegIds; without it the volume less the loss is shared evenly. */
-    kegVolumesLiters: z.array(z.number().positive('More than 0 L').max(1000)).optional(),
+    kegVolumesLiters: z.array(z.number().min(0.01, 'More than 0 L').max(1000)).optional(),
     /** Trub, samples and spills; worked out from kegVolumesLiters when those are given. */
     lossLiters: z.number().min(0).max(10_000).optional(),
     transferredAt: isoDateTimeSchema.optional(),

@@ -61,9 +61,9 @@ export function batchesRoutes({ db, clock }: Deps): Router {
   });
 
   router.patch('/:id', async (req, res) => {
-    const input = updateBatchSchema.parse(req.body ?? {});
     const row = await findVisibleBatch(db, req.ability, req.params.id);
     ForbiddenError.from(req.ability).throwUnlessCan('update', subject('Batch', { ownerId: row.owner_id }));
+    const input = updateBatchSchema.parse(req.body ?? {});
     const updated = await updateBatch(db, row, input, req.user!, clock.now());
     res.json({ batch: await batchDetail(db, req.ability, updated) });
   });

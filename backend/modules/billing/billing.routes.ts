@@ -207,9 +207,9 @@ export function invoicesRoutes(deps: Deps): Router {
   router.post('/:id/checkout/confirm', async (req, res) => {
     const { id } = idParam.parse(req.params);
     can(req).throwUnlessCan('pay', 'Invoice');
-    const body = z.object({ sessionId: z.string().min(1).max(200) }).parse(req.body ?? {});
     const row = await visibleInvoice(req, db, id);
     if (row.member_id !== req.user!.id) throw forbidden();
+    const body = z.object({ sessionId: z.string().min(1).max(200) }).parse(req.body ?? {});
     const outcome = await confirmCheckout(db, config, row.id, body.sessionId, clock.now());
     const { today } = await coopToday(db, clock.now());
     res.json({ outcome, invoice: await getDetail(db, row.id, today) });

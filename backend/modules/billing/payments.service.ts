@@ -1,8 +1,10 @@
+import { z } from 'zod';
 import type { Overpayment } from '../../../shared/schemas/billing.ts';
 import type { Config } from '../../config/env.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
-import { conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
+import { badRequest, conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
+import { isUuid } from '../../lib/uuid-params.ts';
 import { coopToday } from './billing-profile.service.ts';
 import { lockInvoice, recordPayment } from './invoices.service.ts';
 import { paymentProvider, type CheckoutSession, type ProviderEvent } from './payment-provider.ts';
@@ -230,7 +232,7 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession, 
  */
 async function adoptSession(trx: Database, session: CheckoutSession) {
   const invoiceId = session.client_reference_id;
-  if (!invoiceId || session.metadata?.invoiceId !== invoiceId || !/^[0-9a-f-]{36}$/i.test(invoiceId)) return undefined;
+  if (!invoiceId || session.metadata?.invoiceId !== invoiceId || !isUuid(invoiceId)) return undefined;
   const inv = await trx.selectFrom('invoice').select(['id', 'currency']).where('id', '=', invoiceId).executeTakeFirst();
   if (!inv || (session.currency ?? '').toUpperCase() !== inv.currency.trim().toUpperCase() || !session.amount_total) return undefined;
   await trx
@@ -241,11 +243,36 @@ async function adoptSession(trx: Database, session: CheckoutSession) {
   return trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
 }
 
+const sessionEvents = new Set(['checkout.session.completed', 'checkout.session.async_payment_succeeded', 'checkout.session.expired']);
+const eventEnvelopeSchema = z.object({
+  id: z.string().min(1).max(255),
+  type: z.string().min(1).max(255),
+  data: z.object({ object: z.record(z.string(), z.unknown()) }),
+});
+/** What this app reads of a checkout session; amounts fit the books' integer cents. */
+const sessionObjectSchema = z.object({
+  id: z.string().min(1).max(255),
+  payment_status: z.string().max(60).nullish(),
+  amount_total: z.number().int().min(0).max(2_147_483_647).nullish(),
+  currency: z.string().max(10).nullish(),
+  payment_intent: z.union([z.string().max(255), z.record(z.string(), z.unknown())]).nullish(),
+});
+
+/** A signed event this app cannot read (no id or type, or a checkout session without its fields) is refused, changing nothing. */
+function checkEventShape(event: ProviderEvent): void {
+  const envelope = eventEnvelopeSchema.safeParse(event);
+  if (!envelope.success) throw badRequest('The event has no id, type or object: it is not one this app reads.');
+  if (sessionEvents.has(envelope.data.type) && !sessionObjectSchema.safeParse(envelope.data.data.object).success) {
+    throw badRequest('The checkout session in the event is not one this app reads.');
+  }
+}
+
 /**
  * Handles one verified provider event, exactly once: its id goes into payment_event first, and a
  * replay (or a concurrent duplicate, which waits on that row) finds it there and does nothing.
  */
 export async function handleProviderEvent(db: Database, event: ProviderEvent, now: Date): Promise<{ duplicate: boolean; outcome: string }> {
+  checkEventShape(event);
   return db.transaction().execute(async (trx) => {
     const fresh = await trx
       .insertInto('payment_event')

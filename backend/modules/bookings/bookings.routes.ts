@@ -48,6 +48,7 @@ export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
   });
 
   router.post('/', async (req, res) => {
+    if (!req.ability.can('create', 'Booking')) throw new HttpProblem(403, 'Forbidden', 'Your roles do not include booking equipment.');
     const input = createBookingSchema.parse(req.body ?? {});
     const actor = req.user!;
     const ownerId = input.ownerId ?? actor.id;

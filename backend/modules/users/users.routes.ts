@@ -92,10 +92,10 @@ export function usersRoutes({ db, config, queue }: Deps): Router {
   });
 
   router.patch('/:id', async (req, res) => {
-    const input = updateUserSchema.parse(req.body ?? {});
     const target = await db.selectFrom('app_user').select(['id', 'roles', 'is_active']).where('id', '=', req.params.id).executeTakeFirst();
     if (!target || !req.ability.can('read', subject('User', { id: target.id }))) throw notFound('User');
     ForbiddenError.from(req.ability).throwUnlessCan('update', subject('User', { id: target.id }));
+    const input = updateUserSchema.parse(req.body ?? {});
     // Roles and activation are the manager's alone.
     if (input.roles !== undefined || input.isActive !== undefined) ForbiddenError.from(req.ability).throwUnlessCan('manage', 'User');
     const actor = req.user!;
