@@ -2,6 +2,7 @@ import { ForbiddenError } from '@casl/ability';
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import multer from 'multer';
 import { ZodError } from 'zod';
+import { isDatabaseUnavailable } from '../db/database.ts';
 import { HttpProblem, type ProblemFieldError } from '../lib/http-problem.ts';
 
 function send(res: Parameters<ErrorRequestHandler>[2], status: number, body: Record<string, unknown>) {
@@ -11,6 +12,9 @@ function send(res: Parameters<ErrorRequestHandler>[2], status: number, body: Rec
 export function zodErrors(err: ZodError): ProblemFieldError[] {
   return err.issues.map((i) => ({ path: i.path.map(String).join('.'), message: i.message }));
 }
+
+/** Seconds a client is asked to wait when the database is unreachable. */
+export const DB_RETRY_AFTER_SECONDS = 5;
 
 /** Every error leaves the API as RFC 9457 problem JSON. */
 export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
@@ -32,6 +36,11 @@ export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof multer.MulterError) {
     if (err.code === 'LIMIT_FILE_SIZE') return send(res, 413, { title: 'File too large', detail: err.message });
     return send(res, 400, { title: 'Bad upload', detail: err.message });
+  }
+  if (isDatabaseUnavailable(err)) {
+    req.log?.warn({ err: { message: err?.message, code: err?.code } }, 'database unavailable');
+    res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
+    return send(res, 503, { title: 'Service unavailable', detail: 'The database is unreachable; try again shortly.' });
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500;
   if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${err.limit} bytes.` });

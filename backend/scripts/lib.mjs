@@ -138,6 +138,67 @@ export function startChild(name, cmd, args, env = {}) {
   return child;
 }
 
+/**
+ * Keep a long-running child up: when it stops on its own it is started again after a pause that
+ * doubles with each quick failure (from `minDelayMs` up to `maxDelayMs`; a run longer than `stableMs`
+ * resets it), and every stop is logged with its exit code or signal. `stop()` ends it for good and
+ * resolves once it has exited (sending SIGKILL after `killAfterMs`).
+ */
+export function superviseChild(name, cmd, args, env = {}, { minDelayMs = 1000, maxDelayMs = 15_000, stableMs = 30_000, killAfterMs = 12_000, stdio = 'inherit', onStart } = {}) {
+  let child = null;
+  let stopped = false;
+  let timer = null;
+  let delay = minDelayMs;
+  let starts = 0;
+  const spawnOne = () => {
+    timer = null;
+    const startedAt = Date.now();
+    const c = spawn(cmd, args, { cwd: root, stdio, env: { ...process.env, ...env } });
+    child = c;
+    starts += 1;
+    onStart?.(c, starts);
+    let down = false;
+    const onDown = (why) => {
+      if (down) return;
+      down = true;
+      if (child === c) child = null;
+      if (stopped) return;
+      const ran = Date.now() - startedAt;
+      if (ran >= stableMs) delay = minDelayMs;
+      log(`${name} stopped (${why}) after ${(ran / 1000).toFixed(1)} s; starting it again in ${(delay / 1000).toFixed(1)} s`);
+      timer = setTimeout(spawnOne, delay);
+      delay = Math.min(delay * 2, maxDelayMs);
+    };
+    c.on('error', (err) => onDown(`could not run: ${err.message}`));
+    c.on('exit', (code, signal) => onDown(signal ? `signal ${signal}` : `exit code ${code}`));
+  };
+  spawnOne();
+  return {
+    name,
+    get child() {
+      return child;
+    },
+    get starts() {
+      return starts;
+    },
+    stop(signal = 'SIGTERM') {
+      stopped = true;
+      if (timer) clearTimeout(timer);
+      timer = null;
+      const c = child;
+      if (!c || c.exitCode !== null || c.signalCode !== null) return Promise.resolve();
+      return new Promise((resolve) => {
+        const kill = setTimeout(() => c.kill('SIGKILL'), killAfterMs);
+        c.once('exit', () => {
+          clearTimeout(kill);
+          resolve();
+        });
+        c.kill(signal);
+      });
+    },
+  };
+}
+
 export const tsx = path.join(root, 'node_modules', '.bin', 'tsx');
 export const vite = path.join(root, 'node_modules', '.bin', 'vite');
 
