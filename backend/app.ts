@@ -9,6 +9,7 @@ import { pinoHttp } from 'pino-http';
 import type { Deps } from './lib/deps.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
+import { reportLateSessionErrors } from './middleware/session-errors.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
 import { batchesRoutes } from './modules/batches/batches.routes.ts';
@@ -81,7 +82,7 @@ export function createApp(deps: Deps): Express {
 
   const PgStore = connectPgSimple(session);
   app.use(
-    session({
+    reportLateSessionErrors(session({
       name: 'cw.sid',
       store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 }),
       secret: config.sessionSecret,
@@ -89,7 +90,7 @@ export function createApp(deps: Deps): Express {
       saveUninitialized: false,
       rolling: true,
       cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: 12 * 3600_000, path: '/' },
-    }),
+    })),
   );
   app.use(authenticate(db));
   app.use('/api', csrfProtection(['/webhooks/']));

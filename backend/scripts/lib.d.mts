@@ -14,6 +14,8 @@ export function runSync(cmd: string, args: string[], env?: Record<string, string
 export interface StartedPostgres {
   url: string;
   stop(): void;
+  stopAsync(): Promise<void>;
+  startAsync(): Promise<void>;
 }
 export function startPostgres(opts: { dataDir: string; port: number; throwaway?: boolean }): Promise<StartedPostgres>;
 

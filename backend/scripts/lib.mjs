@@ -70,6 +70,17 @@ function pgExec(bin, args, opts = {}) {
   return run(full, args, opts);
 }
 
+/** pgExec without blocking the event loop (for a caller that keeps serving or measuring meanwhile). */
+function pgExecAsync(bin, args) {
+  const full = path.join(pgBinDir(), bin);
+  const [cmd, argv] = isRoot ? ['runuser', ['-u', 'postgres', '--', full, ...args]] : [full, args];
+  return new Promise((resolve, reject) => {
+    const child = spawn(cmd, argv, { stdio: ['ignore', 'ignore', 'inherit'] });
+    child.on('error', reject);
+    child.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`${bin} ${args.join(' ')} exited with ${code}`))));
+  });
+}
+
 function canPostgresEnter(dir) {
   if (!isRoot) return true;
   return spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-w', dir]).status === 0;
@@ -114,18 +125,22 @@ export async function startPostgres({ dataDir, port, throwaway = false }) {
   }
   const fast = throwaway ? ' -c fsync=off -c synchronous_commit=off -c full_page_writes=off' : '';
   const opts = `-c listen_addresses=127.0.0.1 -p ${port} -k ${dataDir} -c max_connections=200${fast}`;
-  pgExec('pg_ctl', ['-D', dataDir, '-o', opts, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start'], {
-    stdio: ['ignore', 'ignore', 'inherit'],
-  });
+  const startArgs = ['-D', dataDir, '-o', opts, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start'];
+  const stopArgs = ['-D', dataDir, '-m', 'fast', '-w', 'stop'];
+  pgExec('pg_ctl', startArgs, { stdio: ['ignore', 'ignore', 'inherit'] });
   return {
     url: `postgres://postgres@127.0.0.1:${port}/postgres`,
     stop() {
       try {
-        pgExec('pg_ctl', ['-D', dataDir, '-m', 'fast', '-w', 'stop'], { stdio: ['ignore', 'ignore', 'ignore'] });
+        pgExec('pg_ctl', stopArgs, { stdio: ['ignore', 'ignore', 'ignore'] });
       } catch {
         /* already stopped */
       }
     },
+    /** Fast shutdown (every connection is terminated); resolves once it is down. */
+    stopAsync: () => pgExecAsync('pg_ctl', stopArgs),
+    /** Start the stopped cluster again; resolves once it accepts connections. */
+    startAsync: () => pgExecAsync('pg_ctl', startArgs),
   };
 }
 
