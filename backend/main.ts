@@ -26,7 +26,12 @@ process.on('unhandledRejection', (reason) => {
 });
 // Any other uncaught exception may have left the process in a state nobody planned for: log it and
 // stop cleanly, so the supervisor (npm start, or the host's service manager) starts a fresh one.
+// Failing to start (no database at all, say) ends the process with code 1 so the supervisor tries again.
 process.on('uncaughtException', (err, origin) => {
+  if (!server) {
+    log.fatal({ err, origin }, 'could not start');
+    process.exit(1);
+  }
   if (isDatabaseUnavailable(err)) {
     log.warn({ err, origin }, 'database connection lost; still serving');
     return;
