@@ -9,6 +9,7 @@ import type { Deps } from './lib/deps.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { inputHygiene } from './middleware/input-hygiene.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
+import { reportLateSessionErrors } from './middleware/session-errors.ts';
 import { authRoutes } from './modules/auth/auth.routes.ts';
 import { sessionStore } from './modules/auth/session-store.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
@@ -81,7 +82,7 @@ export function createApp(deps: Deps): Express {
   app.use(express.json({ limit: '100kb' }));
 
   app.use(
-    session({
+    reportLateSessionErrors(session({
       name: 'cw.sid',
       store: sessionStore(deps),
       secret: config.sessionSecret,
@@ -89,7 +90,7 @@ export function createApp(deps: Deps): Express {
       saveUninitialized: false,
       rolling: true,
       cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: 12 * 3600_000, path: '/' },
-    }),
+    })),
   );
   app.use(authenticate(db));
   app.use('/api', csrfProtection(config.sessionSecret, ['/webhooks/']));

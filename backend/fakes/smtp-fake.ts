@@ -3,6 +3,7 @@
 import { simpleParser } from 'mailparser';
 import pg from 'pg';
 import { SMTPServer } from 'smtp-server';
+import { CONNECT_TIMEOUT_MS, guardPool } from '../db/database.ts';
 
 export interface SmtpFake {
   port: number;
@@ -10,7 +11,8 @@ export interface SmtpFake {
 }
 
 export async function startSmtpFake({ databaseUrl, port = 0, host = '127.0.0.1' }: { databaseUrl: string; port?: number; host?: string }): Promise<SmtpFake> {
-  const pool = new pg.Pool({ connectionString: databaseUrl, max: 2 });
+  // A lost connection fails the message it was storing (the sender retries); it must not end the process.
+  const pool = guardPool(new pg.Pool({ connectionString: databaseUrl, max: 2, connectionTimeoutMillis: CONNECT_TIMEOUT_MS }));
   await pool.query(`create table if not exists dev_mail_message (
     id uuid primary key default gen_random_uuid(),
     mail_from text not null,
@@ -49,6 +51,8 @@ export async function startSmtpFake({ databaseUrl, port = 0, host = '127.0.0.1' 
     server.once('error', reject);
     server.listen(port, host, () => resolve());
   });
+  // A sender that drops its connection is reported, not fatal.
+  server.on('error', (err: Error) => console.error('SMTP fake:', err.message));
   const address = server.server.address();
   const actualPort = typeof address === 'object' && address ? address.port : port;
   return {

@@ -2,6 +2,7 @@ import { ForbiddenError } from '@casl/ability';
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import multer from 'multer';
 import { ZodError } from 'zod';
+import { isDatabaseUnavailable } from '../db/database.ts';
 import { HttpProblem, type ProblemFieldError } from '../lib/http-problem.ts';
 
 function send(res: Parameters<ErrorRequestHandler>[2], status: number, body: Record<string, unknown>) {
@@ -16,6 +17,9 @@ export function zodErrors(err: ZodError): ProblemFieldError[] {
  * untranslatable_character, numeric_value_out_of_range, string_data_right_truncation, invalid_datetime_format,
  * datetime_field_overflow. */
 const PG_BAD_INPUT = new Set(['22P02', '22021', '22P05', '22003', '22001', '22007', '22008']);
+
+/** Seconds a client is asked to wait when the database is unreachable. */
+export const DB_RETRY_AFTER_SECONDS = 5;
 
 /** Every error leaves the API as RFC 9457 problem JSON. */
 export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
@@ -43,6 +47,11 @@ export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (typeof err?.code === 'string' && PG_BAD_INPUT.has(err.code)) {
     req.log?.warn({ err }, 'the database refused a value sent');
     return send(res, 422, { title: 'Validation failed', detail: 'A value sent is not valid here.', errors: [{ path: '', message: 'A value sent is not valid here.' }] });
+  }
+  if (isDatabaseUnavailable(err)) {
+    req.log?.warn({ err: { message: err?.message, code: err?.code } }, 'database unavailable');
+    res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
+    return send(res, 503, { title: 'Service unavailable', detail: 'The database is unreachable; try again shortly.' });
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500;
   if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${err.limit} bytes.` });

@@ -70,6 +70,17 @@ function pgExec(bin, args, opts = {}) {
   return run(full, args, opts);
 }
 
+/** pgExec without blocking the event loop (for a caller that keeps serving or measuring meanwhile). */
+function pgExecAsync(bin, args) {
+  const full = path.join(pgBinDir(), bin);
+  const [cmd, argv] = isRoot ? ['runuser', ['-u', 'postgres', '--', full, ...args]] : [full, args];
+  return new Promise((resolve, reject) => {
+    const child = spawn(cmd, argv, { stdio: ['ignore', 'ignore', 'inherit'] });
+    child.on('error', reject);
+    child.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`${bin} ${args.join(' ')} exited with ${code}`))));
+  });
+}
+
 function canPostgresEnter(dir) {
   if (!isRoot) return true;
   return spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-w', dir]).status === 0;
@@ -114,18 +125,22 @@ export async function startPostgres({ dataDir, port, throwaway = false }) {
   }
   const fast = throwaway ? ' -c fsync=off -c synchronous_commit=off -c full_page_writes=off' : '';
   const opts = `-c listen_addresses=127.0.0.1 -p ${port} -k ${dataDir} -c max_connections=200${fast}`;
-  pgExec('pg_ctl', ['-D', dataDir, '-o', opts, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start'], {
-    stdio: ['ignore', 'ignore', 'inherit'],
-  });
+  const startArgs = ['-D', dataDir, '-o', opts, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start'];
+  const stopArgs = ['-D', dataDir, '-m', 'fast', '-w', 'stop'];
+  pgExec('pg_ctl', startArgs, { stdio: ['ignore', 'ignore', 'inherit'] });
   return {
     url: `postgres://postgres@127.0.0.1:${port}/postgres`,
     stop() {
       try {
-        pgExec('pg_ctl', ['-D', dataDir, '-m', 'fast', '-w', 'stop'], { stdio: ['ignore', 'ignore', 'ignore'] });
+        pgExec('pg_ctl', stopArgs, { stdio: ['ignore', 'ignore', 'ignore'] });
       } catch {
         /* already stopped */
       }
     },
+    /** Fast shutdown (every connection is terminated); resolves once it is down. */
+    stopAsync: () => pgExecAsync('pg_ctl', stopArgs),
+    /** Start the stopped cluster again; resolves once it accepts connections. */
+    startAsync: () => pgExecAsync('pg_ctl', startArgs),
   };
 }
 
@@ -136,6 +151,67 @@ export function startChild(name, cmd, args, env = {}) {
     if (code !== 0 && signal == null) log(`${name} exited with ${code}`);
   });
   return child;
+}
+
+/**
+ * Keep a long-running child up: when it stops on its own it is started again after a pause that
+ * doubles with each quick failure (from `minDelayMs` up to `maxDelayMs`; a run longer than `stableMs`
+ * resets it), and every stop is logged with its exit code or signal. `stop()` ends it for good and
+ * resolves once it has exited (sending SIGKILL after `killAfterMs`).
+ */
+export function superviseChild(name, cmd, args, env = {}, { minDelayMs = 1000, maxDelayMs = 15_000, stableMs = 30_000, killAfterMs = 12_000, stdio = 'inherit', onStart } = {}) {
+  let child = null;
+  let stopped = false;
+  let timer = null;
+  let delay = minDelayMs;
+  let starts = 0;
+  const spawnOne = () => {
+    timer = null;
+    const startedAt = Date.now();
+    const c = spawn(cmd, args, { cwd: root, stdio, env: { ...process.env, ...env } });
+    child = c;
+    starts += 1;
+    onStart?.(c, starts);
+    let down = false;
+    const onDown = (why) => {
+      if (down) return;
+      down = true;
+      if (child === c) child = null;
+      if (stopped) return;
+      const ran = Date.now() - startedAt;
+      if (ran >= stableMs) delay = minDelayMs;
+      log(`${name} stopped (${why}) after ${(ran / 1000).toFixed(1)} s; starting it again in ${(delay / 1000).toFixed(1)} s`);
+      timer = setTimeout(spawnOne, delay);
+      delay = Math.min(delay * 2, maxDelayMs);
+    };
+    c.on('error', (err) => onDown(`could not run: ${err.message}`));
+    c.on('exit', (code, signal) => onDown(signal ? `signal ${signal}` : `exit code ${code}`));
+  };
+  spawnOne();
+  return {
+    name,
+    get child() {
+      return child;
+    },
+    get starts() {
+      return starts;
+    },
+    stop(signal = 'SIGTERM') {
+      stopped = true;
+      if (timer) clearTimeout(timer);
+      timer = null;
+      const c = child;
+      if (!c || c.exitCode !== null || c.signalCode !== null) return Promise.resolve();
+      return new Promise((resolve) => {
+        const kill = setTimeout(() => c.kill('SIGKILL'), killAfterMs);
+        c.once('exit', () => {
+          clearTimeout(kill);
+          resolve();
+        });
+        c.kill(signal);
+      });
+    },
+  };
 }
 
 export const tsx = path.join(root, 'node_modules', '.bin', 'tsx');

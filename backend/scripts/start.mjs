@@ -2,17 +2,18 @@
 // once, build the front end, start the local fakes of hosted services and serve the app.
 import fs from 'node:fs';
 import path from 'node:path';
-import { ensureNodeModules, freePort, log, root, runSync, startChild, startPostgres, tsx, vite, withDatabase } from './lib.mjs';
+import { ensureNodeModules, freePort, log, root, runSync, startPostgres, superviseChild, tsx, vite, withDatabase } from './lib.mjs';
 
 ensureNodeModules();
 
 const started = [];
 let pg = null;
 let stopping = false;
-function stopAll(code = 0) {
+async function stopAll(code = 0) {
   if (stopping) return;
   stopping = true;
-  for (const child of started.reverse()) child.kill('SIGTERM');
+  // Every child at once (none is started again from here on), then PostgreSQL once they are gone.
+  await Promise.all(started.map((child) => child.stop('SIGTERM')));
   if (pg) {
     log('stopping PostgreSQL…');
     pg.stop();
@@ -57,13 +58,13 @@ try {
     runSync(vite, ['build', '--logLevel', 'warn']);
   }
 
-  if (fakes) started.push(startChild('SMTP fake', tsx, ['backend/fakes/smtp-fake.ts'], env));
+  // Each child is started again if it stops on its own (logged, with a growing pause); only Ctrl-C
+  // or SIGTERM stops everything.
+  if (fakes) started.push(superviseChild('SMTP fake', tsx, ['backend/fakes/smtp-fake.ts'], env));
   if (fs.existsSync(path.join(root, 'backend/fakes/payments-fake.ts'))) {
-    started.push(startChild('payment provider fake', tsx, ['backend/fakes/payments-fake.ts'], env));
+    started.push(superviseChild('payment provider fake', tsx, ['backend/fakes/payments-fake.ts'], env));
   }
-  const server = startChild('server', tsx, ['backend/main.ts'], env);
-  started.push(server);
-  server.on('exit', (code) => stopAll(code ?? 0));
+  started.push(superviseChild('server', tsx, ['backend/main.ts'], env));
   // Announce once the server answers its health check.
   const deadline = Date.now() + 60_000;
   for (;;) {
