@@ -1,3 +1,4 @@
+import { EventEmitter } from 'node:events';
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { HttpProblem } from '../../lib/http-problem.ts';
@@ -20,9 +21,9 @@ import type { PrepareInput, PrepareProgress, PrepareResult } from './import-chec
  */
 
 /** Longest time one file may take to read and check on its thread. */
-export const IMPORT_TIME_LIMIT_MS = 20_000;
+export const IMPORT_TIME_LIMIT_MS = 30_000;
 /** Heap of one import thread, in MiB. */
-export const IMPORT_MEMORY_LIMIT_MB = 512;
+export const IMPORT_MEMORY_LIMIT_MB = 384;
 /** Most files waiting for a thread. */
 export const IMPORT_MAX_WAITING = 8;
 
@@ -49,6 +50,8 @@ type WorkerMessage =
 const workerFile = new URL('./import.worker.mjs', import.meta.url);
 
 export class ImportPool {
+  /** 'start' when a file is handed to a thread; 'done' ({ ok }) when it is settled. */
+  readonly events = new EventEmitter();
   timeLimitMs: number;
   memoryLimitMb: number;
   maxWaiting: number;
@@ -110,6 +113,7 @@ export class ImportPool {
       slot.worker.ref();
       const s = slot;
       s.timer = setTimeout(() => this.timeOut(s), this.timeLimitMs);
+      this.events.emit('start');
       // The bytes go over in a buffer of their own, handed over without another copy.
       const bytes = new Uint8Array(pending.input.file.bytes.byteLength);
       bytes.set(pending.input.file.bytes);
@@ -117,11 +121,12 @@ export class ImportPool {
     }
   }
 
-  private settle(slot: Slot): Pending | null {
+  private settle(slot: Slot, ok = false): Pending | null {
     const pending = slot.busy;
     slot.busy = null;
     if (slot.timer) clearTimeout(slot.timer);
     slot.timer = null;
+    if (pending) this.events.emit('done', { ok });
     return pending;
   }
 
@@ -158,7 +163,7 @@ export class ImportPool {
         void Promise.resolve(pending.onProgress?.(msg.progress.phase, msg.progress.done, msg.progress.total)).catch(() => undefined);
         return;
       }
-      this.settle(slot);
+      this.settle(slot, msg.ok);
       worker.unref();
       if (msg.ok) pending.resolve(msg.result);
       else {
