@@ -273,7 +273,7 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
           expect(await countReadings(batchId), f.kind).toBe(before);
         }
       }),
-      { numRuns: 850, seed: 20261204 },
+      { numRuns: Number(process.env.FUZZ_RUNS ?? 850), seed: 20261204 },
     );
   });
 

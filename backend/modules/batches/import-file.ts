@@ -3,7 +3,7 @@ import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { HttpProblem, badRequest } from '../../lib/http-problem.ts';
-import { inspectZip, unreadableXlsx, type ZipLimits } from './import-zip.ts';
+import { inspectZip, unreadableXlsx, verifyZip, type ZipLimits } from './import-zip.ts';
 
 /** A cell as it came out of the file: CSV gives text, XLSX also numbers, dates and booleans. */
 export type Cell = string | number | boolean | Date | null;
@@ -236,8 +236,9 @@ function cellValue(v: unknown): Cell {
 }
 
 async function readXlsx(file: UploadedFile, onRows?: (n: number) => Promise<void>): Promise<FileTable> {
-  // The ZIP's own directory first: too many entries or too much to unpack never reaches the reader.
-  inspectZip(file.buffer, IMPORT_ZIP_LIMITS);
+  // The ZIP's own directory first: too many entries or too much to unpack never reaches the reader;
+  // then every entry is unpacked once and checked, so a damaged one never reaches it either.
+  verifyZip(file.buffer, inspectZip(file.buffer, IMPORT_ZIP_LIMITS));
   const rows: FileTable['rows'] = [];
   let headers: string[] | null = null;
   let headerRow = 0;

@@ -130,14 +130,17 @@ export class ImportPool {
     return pending;
   }
 
-  private remove(slot: Slot) {
+  /** A thread lost to a file is replaced at once, so that the next file does not wait for its start-up. */
+  private remove(slot: Slot, replace: boolean) {
     const i = this.slots.indexOf(slot);
-    if (i >= 0) this.slots.splice(i, 1);
+    if (i < 0) return;
+    this.slots.splice(i, 1);
+    if (replace && !this.closed && this.slots.length === 0) this.spawn();
   }
 
   private timeOut(slot: Slot) {
     const pending = this.settle(slot);
-    this.remove(slot);
+    this.remove(slot, true);
     void slot.worker.terminate();
     pending?.reject(
       new HttpProblem(
@@ -173,8 +176,8 @@ export class ImportPool {
       this.pump();
     });
     const lost = (err: Error) => {
-      this.remove(slot);
       const pending = this.settle(slot);
+      this.remove(slot, pending !== null);
       pending?.reject(err);
       if (!this.closed) this.pump();
     };

@@ -1,3 +1,4 @@
+import zlib from 'node:zlib';
 import { HttpProblem } from '../../lib/http-problem.ts';
 
 /**
@@ -9,6 +10,8 @@ import { HttpProblem } from '../../lib/http-problem.ts';
  * The entries must also lie end to end from the start of the file to the central directory, each
  * local header naming the same entry as the directory does: the spreadsheet reader walks the local
  * headers in order, so nothing may hide between the entries that the directory does not count.
+ * Then `verifyZip` unpacks each entry once, never past the size the directory gives, and checks
+ * its CRC: a damaged workbook is refused here rather than left to stall the spreadsheet reader.
  */
 
 export interface ZipLimits {
@@ -24,6 +27,9 @@ export interface ZipLimits {
 export interface ZipEntry {
   name: string;
   method: number;
+  crc: number;
+  /** Where the packed data starts. */
+  dataOffset: number;
   compressedSize: number;
   uncompressedSize: number;
   offset: number;
@@ -67,6 +73,7 @@ export function inspectZip(buf: Buffer, limits: ZipLimits): ZipEntry[] {
   for (let n = 0; n < total; n += 1) {
     if (p + 46 > eocd || buf.readUInt32LE(p) !== CENTRAL) throw unreadable();
     const method = buf.readUInt16LE(p + 10);
+    const crc = buf.readUInt32LE(p + 16);
     const compressedSize = buf.readUInt32LE(p + 20);
     const uncompressedSize = buf.readUInt32LE(p + 24);
     const nameLength = buf.readUInt16LE(p + 28);
@@ -86,7 +93,7 @@ export function inspectZip(buf: Buffer, limits: ZipLimits): ZipEntry[] {
         `The workbook entry “${name.slice(0, 100)}” unpacks to ${Math.round(uncompressedSize / Math.max(1, compressedSize)).toLocaleString('en')} times its packed size; a workbook unpacks to at most ${limits.maxRatio} times. Save it again as .xlsx, or export it as CSV.`,
       );
     }
-    entries.push({ name, method, compressedSize, uncompressedSize, offset });
+    entries.push({ name, method, crc, dataOffset: 0, compressedSize, uncompressedSize, offset });
     p += 46 + nameLength + extraLength + commentLength;
   }
   if (p !== eocd) throw unreadable();
@@ -101,7 +108,8 @@ export function inspectZip(buf: Buffer, limits: ZipLimits): ZipEntry[] {
     const extraLength = buf.readUInt16LE(e.offset + 28);
     if (buf.toString('utf8', e.offset + 30, e.offset + 30 + nameLength) !== e.name) throw unreadable();
     if ((flags & 0x08) === 0 && (buf.readUInt32LE(e.offset + 18) !== e.compressedSize || buf.readUInt32LE(e.offset + 22) !== e.uncompressedSize)) throw unreadable();
-    let end = e.offset + 30 + nameLength + extraLength + e.compressedSize;
+    e.dataOffset = e.offset + 30 + nameLength + extraLength;
+    let end = e.dataOffset + e.compressedSize;
     if (end > cdOffset) throw unreadable();
     if (flags & 0x08) {
       // A data descriptor follows the data: with or without its signature.
@@ -112,6 +120,23 @@ export function inspectZip(buf: Buffer, limits: ZipLimits): ZipEntry[] {
   }
   if (expected !== cdOffset) throw unreadable();
   return entries;
+}
+
+/** Unpacks every entry (never past its stated size) and checks its CRC; throws the 415 problem otherwise. */
+export function verifyZip(buf: Buffer, entries: ZipEntry[]): void {
+  for (const e of entries) {
+    const packed = buf.subarray(e.dataOffset, e.dataOffset + e.compressedSize);
+    let data: Buffer;
+    if (e.method === 0) data = packed;
+    else {
+      try {
+        data = zlib.inflateRawSync(packed, { maxOutputLength: Math.max(1, e.uncompressedSize) });
+      } catch {
+        throw unreadable();
+      }
+    }
+    if (data.length !== e.uncompressedSize || zlib.crc32(data) !== e.crc) throw unreadable();
+  }
 }
 
 const tooManyEntries = (limits: ZipLimits) =>
