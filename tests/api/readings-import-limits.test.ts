@@ -1,5 +1,6 @@
 import zlib from 'node:zlib';
 import ExcelJS from 'exceljs';
+import type { FermentationSettings } from '../../shared/schemas/batches.ts';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { IMPORT_MAX_BYTES } from '../../backend/modules/batches/batches.routes.ts';
@@ -9,6 +10,7 @@ import { IMPORT_MAX_CELLS, IMPORT_MAX_COLUMNS, IMPORT_MAX_ROWS, IMPORT_ZIP_LIMIT
 import { ImportPool, importPool } from '../../backend/modules/batches/import-pool.ts';
 import { createBatch } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { TEST_NOW } from '../helpers/time.ts';
 import { makeZip } from '../helpers/zip.ts';
 
 // The limits of one import: every one is a 413 problem that names it, nothing is written, and the
@@ -194,14 +196,18 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
     expect(next.body).toEqual({ imported: 2, skipped: 0 });
   });
 
+  let settings: FermentationSettings;
+  beforeAll(async () => {
+    settings = await loadFermentationSettings(ctx.db);
+  });
+  const input = (csv: string): PrepareInput => {
+    const bytes = Buffer.from(csv);
+    return { file: { bytes, originalname: 'r.csv', mimetype: 'text/csv', size: bytes.length }, timeZone: 'UTC', now: Date.parse(TEST_NOW), existingTimes: [], first: null, settings, dryRun: false };
+  };
+
   it('a file that needs more memory than a thread may use is a 413, and the pool carries on', async () => {
     const pool = new ImportPool({ size: 1, memoryLimitMb: 64 });
     try {
-      const settings = await loadFermentationSettings(ctx.db);
-      const input = (csv: string): PrepareInput => {
-        const bytes = Buffer.from(csv);
-        return { file: { bytes, originalname: 'r.csv', mimetype: 'text/csv', size: bytes.length }, timeZone: 'UTC', now: Date.parse('2027-01-01T00:00:00Z'), existingTimes: [], first: null, settings, dryRun: false };
-      };
       const small = await pool.run(input(goodCsv));
       expect(small.readings.count).toBe(2);
       const big = pool.run(input(junkCsv(IMPORT_MAX_ROWS, 10)));
@@ -210,6 +216,20 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
         title: 'File needs too much memory',
         detail: 'Reading the file needed more than 64 MiB of memory, the most one import may use; split it into smaller files.',
       });
+      expect((await pool.run(input(goodCsv))).readings.count).toBe(2);
+    } finally {
+      await pool.close();
+    }
+  });
+
+  it('more files waiting for a thread than the pool takes is a 503 to retry later', async () => {
+    const pool = new ImportPool({ size: 1, maxWaiting: 1 });
+    try {
+      const running = pool.run(input(readingsCsv(5_000)));
+      const waiting = pool.run(input(goodCsv));
+      await expect(pool.run(input(goodCsv))).rejects.toMatchObject({ status: 503, title: 'Busy', detail: '1 import is waiting to be read; try again in a minute.' });
+      expect((await running).readings.count).toBe(5_000);
+      expect((await waiting).readings.count).toBe(2);
       expect((await pool.run(input(goodCsv))).readings.count).toBe(2);
     } finally {
       await pool.close();

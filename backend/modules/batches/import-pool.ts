@@ -73,7 +73,8 @@ export class ImportPool {
     if (this.closed) return Promise.reject(new HttpProblem(503, 'Service unavailable', 'The server is shutting down; try the import again in a moment.'));
     const free = this.slots.filter((s) => !s.busy).length + (this.size - this.slots.length);
     if (this.queue.length >= this.maxWaiting + free) {
-      return Promise.reject(new HttpProblem(503, 'Busy', `${this.queue.length} imports are waiting to be read; try again in a minute.`));
+      const n = this.queue.length;
+      return Promise.reject(new HttpProblem(503, 'Busy', `${n} import${n === 1 ? ' is' : 's are'} waiting to be read; try again in a minute.`));
     }
     return new Promise<PrepareResult>((resolve, reject) => {
       this.queue.push({ id: this.nextId++, input, onProgress, resolve, reject });
