@@ -3,6 +3,7 @@ import { createApp } from './app.ts';
 import { loadConfig } from './config/env.ts';
 import { createDb } from './db/database.ts';
 import { pdfRenderPool } from './lib/pdf-render.ts';
+import { importPool } from './modules/batches/import-pool.ts';
 import { warmAuditRenderer } from './modules/sanitation/audit-report.ts';
 import { systemClock } from './lib/clock.ts';
 import { createQueue } from './lib/queue.ts';
@@ -18,6 +19,8 @@ const server = app.listen(config.PORT, config.HOST, () => {
   console.log(`Cellarwright API and app on http://${config.HOST}:${config.PORT}`);
   // Start the PDF render thread now rather than on the first audit report.
   warmAuditRenderer().catch((err: Error) => console.error('PDF render thread did not start:', err.message));
+  // And an import thread, so that the first upload does not wait for one to start.
+  importPool.warm();
 });
 
 let closing = false;
@@ -26,6 +29,7 @@ async function shutdown() {
   closing = true;
   server.close();
   await pdfRenderPool.close();
+  await importPool.close();
   await queue.stop({ graceful: true, timeout: 5000 }).catch(() => undefined);
   await db.destroy();
   process.exit(0);

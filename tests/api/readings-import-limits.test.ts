@@ -210,7 +210,7 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
     try {
       const small = await pool.run(input(goodCsv));
       expect(small.readings.count).toBe(2);
-      const big = pool.run(input(junkCsv(IMPORT_MAX_ROWS, 10)));
+      const big = pool.run(input(junkCsv(IMPORT_MAX_ROWS, IMPORT_MAX_CELLS / IMPORT_MAX_ROWS - 1)));
       await expect(big).rejects.toMatchObject({
         status: 413,
         title: 'File needs too much memory',

@@ -18,7 +18,6 @@ import { requireUser } from '../../middleware/authenticate.ts';
 import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } from './batches.service.ts';
 import { loadCoopTimeZone, loadFermentationSettings } from './figures.ts';
 import { addReading, deleteReading, listReadings } from './readings.service.ts';
-import { importPool } from './import-pool.ts';
 import { importReadings, pruneImportProgress } from './readings-import.service.ts';
 
 /** Largest file one import takes (100,000 readings are about 5 MB of CSV). */
@@ -55,8 +54,6 @@ const progressIdSchema = z.uuid('progressId must be a uuid').optional();
 export function batchesRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
-  // An import thread starts now, so that the first upload does not wait for one.
-  importPool.warm();
 
   router.get('/', async (req, res) => {
     const q = batchListQuerySchema.parse(req.query);

@@ -7,7 +7,7 @@ import {
   type ImportPreviewRow,
   type ImportRowProblem,
 } from '../../../shared/schemas/batches.ts';
-import { HttpProblem, unprocessable } from '../../lib/http-problem.ts';
+import { unprocessable } from '../../lib/http-problem.ts';
 import { CellError, cellText, detectDateOrder, parseNumber, parseTakenAt, parseTemperature, parseUnit, proposeMapping } from './import-cells.ts';
 import { readTable, type Cell, type FileTable } from './import-file.ts';
 import { normaliseAll, type FirstReading, type NormalisedCandidate, type ReadingCandidate } from './readings.service.ts';

@@ -6,8 +6,9 @@ import { audit } from '../../lib/audit.ts';
 import { HttpProblem, conflict } from '../../lib/http-problem.ts';
 import type { BatchRow } from './batches.service.ts';
 import { fromColumns } from './import-check.ts';
-import type { UploadedFile } from './import-file.ts';
+import { IMPORT_ZIP_LIMITS, type UploadedFile } from './import-file.ts';
 import { importPool, type ImportPool } from './import-pool.ts';
+import { inspectZip } from './import-zip.ts';
 import { firstReadingOf, insertReadings, renormaliseBrix, startFermentingIfPlanned } from './readings.service.ts';
 
 export { MAX_LISTED_ERRORS, PREVIEW_ROWS } from './import-check.ts';
@@ -54,6 +55,10 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
   const progress = progressWriter(db, req);
   try {
     await progress('reading', 0, null);
+    // A workbook's ZIP directory is read here, in microseconds: one with too many entries or too much
+    // to unpack is refused without taking an import thread (the thread reads it again, and inflates it).
+    const head = req.file.buffer;
+    if (head.length >= 4 && head[0] === 0x50 && head[1] === 0x4b) inspectZip(head, IMPORT_ZIP_LIMITS);
     // What the file is checked against, looked up here; the file itself is read on an import thread.
     const [remembered, existing, first] = await Promise.all([
       db.selectFrom('reading_import_mapping').select(['mapping']).where('user_id', '=', req.actor.id).executeTakeFirst(),
