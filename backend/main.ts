@@ -6,6 +6,7 @@ import { createApp } from './app.ts';
 import { loadConfig } from './config/env.ts';
 import { createDb, isDatabaseUnavailable } from './db/database.ts';
 import { pdfRenderPool } from './lib/pdf-render.ts';
+import { importPool } from './modules/batches/import-pool.ts';
 import { warmAuditRenderer } from './modules/sanitation/audit-report.ts';
 import { systemClock } from './lib/clock.ts';
 import { createQueue } from './lib/queue.ts';
@@ -57,6 +58,8 @@ server = app.listen(config.PORT, config.HOST, () => {
   console.log(`Cellarwright API and app on http://${config.HOST}:${config.PORT}`);
   // Start the PDF render thread now rather than on the first audit report.
   warmAuditRenderer().catch((err: Error) => console.error('PDF render thread did not start:', err.message));
+  // And an import thread, so that the first upload does not wait for one to start.
+  importPool.warm();
 });
 
 async function shutdown(code = 0) {
@@ -66,6 +69,7 @@ async function shutdown(code = 0) {
   setTimeout(() => process.exit(code), 10_000).unref();
   server?.close();
   await pdfRenderPool.close().catch(() => undefined);
+  await importPool.close().catch(() => undefined);
   await queue?.stop({ graceful: true, timeout: 5000 }).catch(() => undefined);
   await db.destroy().catch(() => undefined);
   process.exit(code);

@@ -13,7 +13,7 @@ import {
   type ImportProgressDto,
 } from '../../../shared/schemas/batches.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { badRequest, notFound } from '../../lib/http-problem.ts';
+import { HttpProblem, badRequest, notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } from './batches.service.ts';
@@ -29,8 +29,25 @@ const upload = multer({
   limits: { fileSize: IMPORT_MAX_BYTES, files: 1, fields: 10, fieldSize: 64 * 1024, parts: 12 },
 }).single('file');
 
+const sendInFileField = 'Send the readings file in the multipart form field “file”.';
+
+/** Receives the upload; a malformed, cut-short or oversized form is a 400 or 413 problem in our words. */
 function receiveFile(req: Request, res: Response): Promise<void> {
-  return new Promise((resolve, reject) => upload(req, res, (err: unknown) => (err ? reject(err) : resolve())));
+  return new Promise((resolve, reject) =>
+    upload(req, res, (err: unknown) => {
+      if (!err) return resolve();
+      if (err instanceof multer.MulterError) {
+        if (err.code === 'LIMIT_FILE_SIZE') {
+          return reject(new HttpProblem(413, 'File too large', `One import takes a file of at most ${IMPORT_MAX_BYTES / 1024 / 1024} MiB; split the readings into smaller files.`));
+        }
+        if (err.code === 'LIMIT_UNEXPECTED_FILE') return reject(badRequest(`A file came in the form field “${String(err.field ?? '').slice(0, 60)}”. ${sendInFileField}`));
+        if (err.code === 'LIMIT_FILE_COUNT') return reject(badRequest(`Send one file only. ${sendInFileField}`));
+        return reject(badRequest(`The upload has more form fields or larger ones than an import takes. ${sendInFileField}`));
+      }
+      // Busboy's own errors: no boundary, a body cut short, a malformed part.
+      return reject(badRequest(`The upload is not a complete multipart form (it is cut short or malformed). ${sendInFileField}`));
+    }),
+  );
 }
 
 const progressIdSchema = z.uuid('progressId must be a uuid').optional();
@@ -99,7 +116,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('import', subject('Reading', { ownerId: row.owner_id }));
     await receiveFile(req, res);
     const file = req.file;
-    if (!file) throw badRequest('Send the readings file in the multipart form field “file”.');
+    if (!file) throw badRequest(sendInFileField);
     const body = (req.body ?? {}) as Record<string, unknown>;
     const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : (req.query.progressId as string | undefined));
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;

@@ -3,6 +3,7 @@ import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { HttpProblem, badRequest } from '../../lib/http-problem.ts';
+import { inspectZip, unreadableXlsx, verifyZip, type ZipLimits } from './import-zip.ts';
 
 /** A cell as it came out of the file: CSV gives text, XLSX also numbers, dates and booleans. */
 export type Cell = string | number | boolean | Date | null;
@@ -25,8 +26,22 @@ export interface UploadedFile {
   size: number;
 }
 
-/** Most data rows one import takes. */
-export const IMPORT_MAX_ROWS = 200_000;
+/**
+ * What one import takes. A season of a logger reading every few minutes is tens of thousands of
+ * rows; anything beyond these is refused with a 413 problem that names the limit, long before it
+ * could hold up the server (DEVELOPERS.md, "Imports").
+ */
+export const IMPORT_MAX_ROWS = 100_000;
+/** Most columns in one row, and most cells (rows × columns) in one file. */
+export const IMPORT_MAX_COLUMNS = 100;
+export const IMPORT_MAX_CELLS = 1_000_000;
+/** An XLSX workbook's ZIP archive: entries, bytes once unpacked, and how far one entry may unpack. */
+export const IMPORT_ZIP_LIMITS: ZipLimits = {
+  maxEntries: 500,
+  maxUncompressedBytes: 128 * 1024 * 1024,
+  maxRatio: 200,
+  ratioFloorBytes: 1024 * 1024,
+};
 
 const unsupported = (detail: string) => new HttpProblem(415, 'Unsupported file', detail);
 
@@ -122,21 +137,43 @@ function readCsv(file: UploadedFile): FileTable {
   const text = decodeText(file).replace(/^\uFEFF/, '');
   if (!text.trim()) throw badRequest('The file is empty.');
   const delimiter = detectDelimiter(text);
-  const parsed = Papa.parse<string[]>(text, { delimiter, skipEmptyLines: false, quoteChar: '"', escapeChar: '"' });
-  const data = parsed.data;
-  // Rows are records (a quoted field may span lines); row 1 is the first record.
-  let headerIndex = data.findIndex((r) => r.some((c) => c.trim() !== ''));
+  // Rows are records (a quoted field may span lines); row 1 is the first record. The parser hands
+  // over one record at a time, so a file over a limit stops at the first record past it.
+  const data: string[][] = [];
+  const problems: FileTable['problems'] = [];
+  let headerIndex = -1;
+  let cells = 0;
+  let over: HttpProblem | null = null;
+  try {
+    Papa.parse<string[]>(text, {
+      delimiter,
+      skipEmptyLines: false,
+      quoteChar: '"',
+      escapeChar: '"',
+      step: (results, parser) => {
+        const r = results.data;
+        const row = data.length + 1;
+        for (const e of results.errors) if (e.type === 'Quotes') problems.push({ row, message: 'A quoted field is not closed' });
+        if (r.length > IMPORT_MAX_COLUMNS) over = tooManyColumns(row);
+        else if ((cells += r.length) > IMPORT_MAX_CELLS) over = tooManyCells();
+        else if (headerIndex >= 0 && row - 1 - headerIndex > IMPORT_MAX_ROWS + 1) over = tooManyRows();
+        if (over) return parser.abort();
+        if (headerIndex < 0 && r.some((c) => c.trim() !== '')) headerIndex = data.length;
+        data.push(r);
+      },
+    });
+  } catch {
+    throw unreadableFile('CSV');
+  }
+  if (over) throw over;
   if (headerIndex < 0) throw badRequest('The file is empty.');
-  const problems = parsed.errors
-    .filter((e) => e.type === 'Quotes' || e.type === 'FieldMismatch')
-    .map((e) => ({ row: (e.row ?? 0) + 1, message: e.type === 'Quotes' ? 'A quoted field is not closed' : e.message }));
   const headers = uniqueHeaders(data[headerIndex]!.map((h) => h));
   const rows: FileTable['rows'] = [];
   for (let i = headerIndex + 1; i < data.length; i += 1) {
     const r = data[i]!;
     // Papa's last record of a file ending in a newline is [''].
     if (i === data.length - 1 && r.length === 1 && r[0] === '') break;
-    rows.push({ row: i + 1, cells: r.map((c) => c) });
+    rows.push({ row: i + 1, cells: r });
     if (rows.length > IMPORT_MAX_ROWS) throw tooManyRows();
   }
   headerIndex += 1;
@@ -144,7 +181,17 @@ function readCsv(file: UploadedFile): FileTable {
 }
 
 const tooManyRows = () =>
-  new HttpProblem(413, 'Too many rows', `One import takes at most ${IMPORT_MAX_ROWS.toLocaleString('en')} readings; split the file.`);
+  new HttpProblem(413, 'Too many rows', `One import takes at most ${IMPORT_MAX_ROWS.toLocaleString('en')} rows of readings; split the file.`);
+const tooManyColumns = (row: number) =>
+  new HttpProblem(413, 'Too many columns', `Row ${row} has more than ${IMPORT_MAX_COLUMNS} columns, the most one import takes; a readings file needs five.`);
+const tooManyCells = () =>
+  new HttpProblem(413, 'Too many cells', `One import takes at most ${IMPORT_MAX_CELLS.toLocaleString('en')} cells (rows × columns); leave out columns you do not import, or split the file.`);
+
+/** A file the parser could not make sense of; never the parser's own words. */
+export const unreadableFile = (kind: 'CSV' | 'XLSX') =>
+  kind === 'XLSX'
+    ? unreadableXlsx()
+    : new HttpProblem(415, 'Unsupported file', 'The file is not a readable CSV file. Export it again as CSV (comma, semicolon or tab separated) or as .xlsx.');
 
 /** Blank headers become "Column C"; repeated ones get " (2)". */
 function uniqueHeaders(raw: string[]): string[] {
@@ -189,9 +236,13 @@ function cellValue(v: unknown): Cell {
 }
 
 async function readXlsx(file: UploadedFile, onRows?: (n: number) => Promise<void>): Promise<FileTable> {
+  // The ZIP's own directory first: too many entries or too much to unpack never reaches the reader;
+  // then every entry is unpacked once and checked, so a damaged one never reaches it either.
+  verifyZip(file.buffer, inspectZip(file.buffer, IMPORT_ZIP_LIMITS));
   const rows: FileTable['rows'] = [];
   let headers: string[] | null = null;
   let headerRow = 0;
+  let cellCount = 0;
   try {
     const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from(file.buffer), {
       worksheets: 'emit',
@@ -206,27 +257,32 @@ async function readXlsx(file: UploadedFile, onRows?: (n: number) => Promise<void
       if (sheets > 1) continue; // only the first worksheet holds readings; later ones are drained
       for await (const row of worksheet as AsyncIterable<ExcelJS.Row>) {
         const values = (row.values as unknown[]) ?? [];
+        if (values.length - 1 > IMPORT_MAX_COLUMNS) throw tooManyColumns(row.number);
+        cellCount += Math.max(0, values.length - 1);
+        if (cellCount > IMPORT_MAX_CELLS) throw tooManyCells();
         const cells: Cell[] = [];
         for (let c = 1; c < values.length; c += 1) cells.push(cellValue(values[c]));
+        const blank = cells.every((c) => c === null || String(c).trim() === '');
         if (!headers) {
-          if (cells.every((c) => c === null || String(c).trim() === '')) continue;
+          if (blank) continue;
           headers = uniqueHeaders(cells.map((c) => (c instanceof Date ? c.toISOString() : c === null ? '' : String(c))));
           headerRow = row.number;
           continue;
         }
+        // Blank rows count only once a row with values follows them (trailing ones are no readings).
+        if (blank) continue;
+        if (row.number - headerRow > IMPORT_MAX_ROWS) throw tooManyRows();
         // Rows the sheet skips entirely (no cells) are blank rows too.
         const last = rows.length ? rows[rows.length - 1]!.row : headerRow;
         for (let gap = last + 1; gap < row.number; gap += 1) rows.push({ row: gap, cells: [] });
         rows.push({ row: row.number, cells });
-        if (rows.length > IMPORT_MAX_ROWS) throw tooManyRows();
         if (onRows && rows.length % 20_000 === 0) await onRows(rows.length);
       }
     }
   } catch (err) {
     if (err instanceof HttpProblem) throw err;
-    throw unsupported(`${file.originalname || 'The file'} could not be read as an XLSX workbook (${err instanceof Error ? err.message : 'unreadable'}).`);
+    throw unreadableFile('XLSX');
   }
   if (!headers) throw badRequest('The workbook’s first sheet is empty.');
-  while (rows.length && rows[rows.length - 1]!.cells.every((c) => c === null || String(c).trim() === '')) rows.pop();
   return { fileType: 'xlsx', delimiter: null, headers, rows, headerRow, problems: [] };
 }
