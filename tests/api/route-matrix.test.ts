@@ -53,6 +53,7 @@ const expected: Record<string, Entry> = {
   'POST /api/auth/password-reset/confirm': { cells: everyone },
   'GET /api/auth/invitations/:token': { cells: everyone, record: 'token' },
   'POST /api/auth/invitations/accept': { cells: everyone },
+  'POST /api/auth/unlock': { cells: everyone },
 
   'GET /api/users': { cells: signedIn },
   'POST /api/users/invitations': { cells: adminOnly },
@@ -123,6 +124,8 @@ const expected: Record<string, Entry> = {
   'DELETE /api/manual-charges/:id': { cells: books, record: 'manualCharge' },
   'GET /api/billing/summary': { cells: books },
   'GET /api/billing/ageing': { cells: books },
+  'GET /api/billing/overpayments': { cells: books },
+  'POST /api/billing/overpayments/:id/refunded': { cells: books, record: 'overpayment' },
   'GET /api/billing/balance': { cells: [401, ok, ok, 403, ok, ok] },
   'GET /api/billing/profile': { cells: books },
   'PUT /api/billing/profile': { cells: books, body: [] },

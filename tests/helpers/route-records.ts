@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { voidInvoice } from '../../backend/modules/billing/invoices.service.ts';
+import { recordPayment, voidInvoice } from '../../backend/modules/billing/invoices.service.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import {
   createBatch,
@@ -31,6 +31,7 @@ export type RecordKind =
   | 'reading'
   | 'importProgress'
   | 'invoice'
+  | 'overpayment'
   | 'creditNote'
   | 'invoiceRun'
   | 'price'
@@ -44,7 +45,7 @@ export type RecordKind =
   | 'token';
 
 /** Kinds whose records belong to one member (a member sees their own, not another's). */
-export const ownedKinds = new Set<RecordKind>(['user', 'booking', 'batch', 'reading', 'importProgress', 'invoice', 'creditNote', 'manualCharge', 'keg', 'plan']);
+export const ownedKinds = new Set<RecordKind>(['user', 'booking', 'batch', 'reading', 'importProgress', 'invoice', 'overpayment', 'creditNote', 'manualCharge', 'keg', 'plan']);
 
 export interface RouteRecord {
   params: Record<string, string>;
@@ -123,6 +124,16 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
       case 'invoice': {
         const { invoice, description } = await invoiceFor(owner);
         return { params: { id: invoice.id }, marks: [...who, description] };
+      }
+      case 'overpayment': {
+        // An online payment of the whole invoice and 5.00 more: the excess is kept to refund.
+        const { invoice, description } = await invoiceFor(owner);
+        const due = await ctx.db.selectFrom('invoice').select(['total_cents', 'paid_cents']).where('id', '=', invoice.id).executeTakeFirstOrThrow();
+        const owed = due.total_cents - due.paid_cents;
+        const payment = await ctx.db
+          .transaction()
+          .execute((trx) => recordPayment(trx, invoice.id, { amountCents: owed + 500, overpaidCents: 500, method: 'online', receivedOn: today(), reference: mark('payment') }, null));
+        return { params: { id: payment.id }, marks: [...who, description] };
       }
       case 'creditNote': {
         const { invoice, description } = await invoiceFor(owner);

@@ -254,7 +254,13 @@ async function readXlsx(file: UploadedFile, onRows?: (n: number) => Promise<void
     let sheets = 0;
     for await (const worksheet of reader) {
       sheets += 1;
-      if (sheets > 1) continue; // only the first worksheet holds readings; later ones are drained
+      if (sheets > 1) {
+        // Only the first worksheet holds readings. Later ones are read to their end all the same: the
+        // reader may have parked one in a temporary file, and leaving it unread lets the reader delete
+        // that file under a stream that still opens it.
+        for await (const _row of worksheet as AsyncIterable<ExcelJS.Row>) void _row;
+        continue;
+      }
       for await (const row of worksheet as AsyncIterable<ExcelJS.Row>) {
         const values = (row.values as unknown[]) ?? [];
         if (values.length - 1 > IMPORT_MAX_COLUMNS) throw tooManyColumns(row.number);

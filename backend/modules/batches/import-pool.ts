@@ -172,6 +172,7 @@ export class ImportPool {
       if (msg.ok) pending.resolve(msg.result);
       else {
         const p = msg.problem;
+        if (msg.internal && process.env.NODE_ENV !== 'test') console.warn('import thread could not read a file:', msg.internal);
         pending.reject(new HttpProblem(p.status, p.title, p.detail, p.errors, p.type, p.extra));
       }
       this.pump();
