@@ -246,6 +246,11 @@ describe('paid twice', () => {
     expect(list.status).toBe(200);
     const mine = list.body.items.filter((o: { invoiceId: string }) => o.invoiceId === invoiceId);
     expect(mine).toEqual([expect.objectContaining({ amountCents: DUE, overpaidCents: DUE, refundedOn: null, memberName: 'Tom Twice' })]);
+    // The list pages on the server: its total counts every open one, a page holds at most pageSize.
+    expect(list.body).toMatchObject({ page: 1, pageSize: 50, total: list.body.items.length });
+    const paged = await treasurer.get(`/api/billing/overpayments?open=true&pageSize=1&page=${list.body.total + 1}`);
+    expect(paged.body).toMatchObject({ items: [], total: list.body.total, page: list.body.total + 1, pageSize: 1 });
+    expect((await treasurer.get('/api/billing/overpayments?pageSize=1000')).status).toBe(422);
     // The member is owed it: their balance is in credit by that much.
     const balance = await member.get('/api/billing/balance');
     expect(balance.body.balanceCents).toBe(-DUE);

@@ -42,7 +42,8 @@ import {
   voidInvoice,
 } from './invoices.service.ts';
 import { verifyWebhook } from './payment-provider.ts';
-import { closeStaleCheckouts, confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded } from './payments.service.ts';
+import { closeStaleCheckouts, confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded, pageOverpayments } from './payments.service.ts';
+import { listQuerySchema } from '../../../shared/schemas/pagination.ts';
 import { addManualCharge, addPrice, addTaxRate, listManualCharges, listPrices, removeManualCharge, removePrice, removeTaxRate } from './prices.service.ts';
 import { ageingReport, billingSummary } from './reports.service.ts';
 
@@ -366,12 +367,14 @@ export function billingRoutes({ db, clock }: Deps): Router {
     res.json(await ageingReport(db, clock.now(), q.asOf));
   });
 
-  /** Online payments beyond what was due, for the treasurer to refund: `?open=true` for those still owed. */
+  /** Online payments beyond what was due, for the treasurer to refund, a page at a time: `?open=true` for those still owed. */
   router.get('/overpayments', async (req, res) => {
     requireEveryInvoice(req);
-    const q = z.object({ open: z.enum(['true', 'false']).optional(), memberId: z.uuid().optional() }).parse(req.query);
-    const items = await listOverpayments(db, { open: q.open === 'true', memberId: q.memberId });
-    res.json({ items, total: items.length, page: 1, pageSize: Math.max(items.length, 1) });
+    const q = listQuerySchema
+      .pick({ page: true, pageSize: true })
+      .extend({ open: z.enum(['true', 'false']).optional(), memberId: z.uuid().optional() })
+      .parse(req.query);
+    res.json(await pageOverpayments(db, { open: q.open === 'true', memberId: q.memberId, page: q.page, pageSize: q.pageSize }));
   });
 
   router.post('/overpayments/:id/refunded', async (req, res) => {

@@ -314,9 +314,30 @@ export async function confirmCheckout(db: Database, config: Config, invoiceId: s
 }
 
 /** Online payments that brought more than their invoice owed, newest first; `open` keeps those not yet refunded. */
-export async function listOverpayments(db: Database, q: { open?: boolean; memberId?: string; paymentId?: string }): Promise<Overpayment[]> {
-  let query = db
-    .selectFrom('payment')
+function overpaymentsQuery(db: Database, q: { open?: boolean; memberId?: string; paymentId?: string }) {
+  let query = db.selectFrom('payment').where('payment.overpaid_cents', '>', 0);
+  if (q.open) query = query.where('payment.overpayment_refunded_on', 'is', null);
+  if (q.memberId) query = query.where('payment.member_id', '=', q.memberId);
+  if (q.paymentId) query = query.where('payment.id', '=', q.paymentId);
+  return query;
+}
+
+/** One page of overpayments, newest first, with how many there are in all. */
+export async function pageOverpayments(
+  db: Database,
+  q: { open?: boolean; memberId?: string; page: number; pageSize: number },
+): Promise<{ items: Overpayment[]; total: number; page: number; pageSize: number }> {
+  const { total } = await overpaymentsQuery(db, q).select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow();
+  const items = await listOverpayments(db, q, { limit: q.pageSize, offset: (q.page - 1) * q.pageSize });
+  return { items, total: Number(total), page: q.page, pageSize: q.pageSize };
+}
+
+export async function listOverpayments(
+  db: Database,
+  q: { open?: boolean; memberId?: string; paymentId?: string },
+  window: { limit: number; offset: number } = { limit: 1, offset: 0 },
+): Promise<Overpayment[]> {
+  const query = overpaymentsQuery(db, q)
     .innerJoin('invoice', 'invoice.id', 'payment.invoice_id')
     .innerJoin('app_user', 'app_user.id', 'payment.member_id')
     .select([
@@ -332,12 +353,14 @@ export async function listOverpayments(db: Database, q: { open?: boolean; member
       'payment.reference',
       'payment.overpayment_refunded_on',
       'payment.overpayment_refund_reference',
-    ])
-    .where('payment.overpaid_cents', '>', 0);
-  if (q.open) query = query.where('payment.overpayment_refunded_on', 'is', null);
-  if (q.memberId) query = query.where('payment.member_id', '=', q.memberId);
-  if (q.paymentId) query = query.where('payment.id', '=', q.paymentId);
-  const rows = await query.orderBy('payment.received_on', 'desc').orderBy('payment.created_at', 'desc').execute();
+    ]);
+  const rows = await query
+    .orderBy('payment.received_on', 'desc')
+    .orderBy('payment.created_at', 'desc')
+    .orderBy('payment.id')
+    .limit(window.limit)
+    .offset(window.offset)
+    .execute();
   return rows.map((r) => ({
     paymentId: r.id,
     invoiceId: r.invoice_id,

@@ -60,6 +60,11 @@ export const OverpaymentsList = ({ today }: { today: string }) => {
           ))}
         </tbody>
       </table>
+      {list.data.total > list.data.items.length ? (
+        <p className="mt-2 text-sm text-ink-muted">
+          The {list.data.items.length} newest of {list.data.total}; mark these refunded to see the rest.
+        </p>
+      ) : null}
     </section>
   );
 };
