@@ -2,6 +2,7 @@ import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { BatchStatus, BatchTable, GravityUnit, ReadingTable } from '../../backend/db/tables/batches.ts';
 import { firstReadingOf, insertReadings, normaliseAll, renormaliseBrix, type ReadingCandidate } from '../../backend/modules/batches/readings.service.ts';
+import type { BrixMethod } from '../../shared/brewing/readings.ts';
 import { getSetting } from '../../backend/modules/settings/settings.service.ts';
 import { type At, HOUR, inTransaction, LONG_AGO, nextSeq, toDate } from './common.ts';
 import { createBooking } from './bookings.ts';
@@ -21,6 +22,10 @@ export interface ReadingInput {
   correctTemperature?: boolean;
   note?: string;
   source?: 'manual' | 'import';
+  /** How a Brix reading is converted; default as the service: wort first, alcohol-corrected after. */
+  method?: BrixMethod;
+  /** Store a reading beyond the plausible attenuation (as the user's confirmation). */
+  confirm?: boolean;
 }
 
 export interface BatchOverrides {
@@ -113,6 +118,8 @@ export async function addReadings(db: Database, batchId: string, readings: Readi
       correctTemperature: r.correctTemperature ?? (r.temperatureC !== undefined && r.temperatureC !== null),
       note: r.note ?? '',
       source: r.source ?? 'manual',
+      method: r.method ?? null,
+      confirm: r.confirm ?? false,
     }));
     const normalised = normaliseAll(candidates, first, settings, (c, message) => {
       throw new Error(`addReadings: ${c.value} ${c.unit} at ${new Date(c.time).toISOString()}: ${message}`);

@@ -20,7 +20,7 @@
  *     blocked_until = endsAt + the co-op's cleaning buffer; state from `now` when given, else `booked`
  * Batches and readings (batches.ts)
  *   createBatch(db, { ownerId?, name?, style?, volumeLiters?, targetOg?, targetFg?, status?, createdAt?,
- *                     readings?: [{ takenAt, value, unit? = 'sg', temperatureC?, correctTemperature?, note?, source? }],
+ *                     readings?: [{ takenAt, value, unit? = 'sg', temperatureC?, correctTemperature?, note?, source?, method?, confirm? }],
  *                     fermenter?: { equipmentId, startsAt, endsAt, now? } }) → batch row + readings + bookingId
  *     readings are normalised to SG exactly as the readings service does; a fermenter books it and sets it `holding`
  *   addReadings(db, batchId, readings, { actorId? }) → reading rows

@@ -37,6 +37,7 @@ interface SeedReading {
   temperature_c: number | null;
   corrected: boolean;
   raw_sg: number | null;
+  method: 'wort' | 'alcohol_corrected' | null;
   source: 'manual' | 'import';
   note: string;
   created_by: string;
@@ -124,6 +125,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         temperature_c: temperatureC,
         corrected: g.corrected,
         raw_sg: g.rawSg,
+        method: g.method,
         source,
         note,
         created_by: by,

@@ -167,6 +167,10 @@ export const createReadingSchema = z.object({
   /** Correct a hydrometer reading (SG or °P) to the calibration temperature; default yes when a temperature is given. */
   correctTemperature: z.boolean().default(true),
   note: z.string().trim().max(500, 'Keep the note under 500 characters').default(''),
+  /** Brix only: `wort` (no alcohol yet) or `alcohol_corrected`; default wort for a batch's first reading, alcohol-corrected after. */
+  method: z.enum(['wort', 'alcohol_corrected'], { error: 'The method is wort or alcohol_corrected' }).nullish(),
+  /** Store a reading beyond the plausible apparent attenuation anyway. */
+  confirm: z.boolean().default(false),
 });
 export type CreateReadingInput = z.input<typeof createReadingSchema>;
 
@@ -179,6 +183,8 @@ export interface ReadingDto {
   temperatureC: number | null;
   corrected: boolean;
   rawSg: number | null;
+  /** How a Brix reading was converted to a gravity; null for SG and °P. */
+  method: 'wort' | 'alcohol_corrected' | null;
   source: 'manual' | 'import';
   note: string;
   createdBy: string | null;

@@ -195,7 +195,12 @@ describe('readings and what they say', () => {
     expect(brix.body.reading.gravitySg).toBeLessThan(1.02);
     expect(brix.body.reading.gravitySg).toBeGreaterThan(1.0);
     expect(brix.body.reading.corrected).toBe(true);
-    const dry = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-07T09:00:00Z', gravity: -1.0, unit: 'plato' });
+    expect(brix.body.reading.method).toBe('alcohol_corrected');
+    // −1 °P is about 0.9961, 108 % apparent attenuation from 1.0484 [C:F4.1]: stored once the user confirms it.
+    const unconfirmed = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-07T09:00:00Z', gravity: -1.0, unit: 'plato' });
+    expect(unconfirmed.status).toBe(422);
+    expect(unconfirmed.body.detail).toMatch(/beyond the plausible 105 %/);
+    const dry = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-07T09:00:00Z', gravity: -1.0, unit: 'plato', confirm: true });
     expect(dry.status).toBe(201);
     expect(dry.body.reading.gravitySg).toBeLessThan(1.0);
   });
@@ -234,7 +239,7 @@ describe('readings and what they say', () => {
   it('deletes a mistyped reading (owner or brewer) and recomputes', async () => {
     const b = await newBatch(member);
     const keep = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00Z', gravity: 1.05, unit: 'sg' });
-    const typo = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-02T09:00:00Z', gravity: 1.15, unit: 'sg' });
+    const typo = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-02T09:00:00Z', gravity: 1.005, unit: 'sg' });
     expect((await member2.delete(`/api/batches/${b.id}/readings/${typo.body.reading.id}`)).status).toBe(404);
     expect((await treasurer.delete(`/api/batches/${b.id}/readings/${typo.body.reading.id}`)).status).toBe(403);
     expect((await member.delete(`/api/batches/${b.id}/readings/${typo.body.reading.id}`)).status).toBe(204);
@@ -263,19 +268,31 @@ describe('fermentation settings and refractometer readings', () => {
     await admin.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 3, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 });
   });
 
-  it('reads Brix again when an earlier original gravity arrives', async () => {
+  it('reads alcohol-corrected Brix again when an earlier original gravity arrives, and keeps a wort reading wort', async () => {
     const b = await newBatch(member);
-    // A refractometer reading mid-fermentation first, the brew-day hydrometer OG typed in afterwards.
-    const later = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-05T09:00:00Z', gravity: 7, unit: 'brix' });
-    expect(later.status).toBe(201);
-    const asWort = later.body.reading.gravitySg;
-    expect(asWort).toBeCloseTo(brixToSg(7 / 1.04), 4); // alone, it can only be read as wort
-    expect((await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00Z', gravity: 1.056, unit: 'sg' })).status).toBe(201);
-    const page = await member.get(`/api/batches/${b.id}/readings?sort=takenAt&order=desc`);
+    // A refractometer reading mid-fermentation cannot be corrected for alcohol before the batch has an OG.
+    const refused = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-05T09:00:00Z', gravity: 7, unit: 'brix', method: 'alcohol_corrected' });
+    expect(refused.status).toBe(422);
+    expect(refused.body.detail).toMatch(/needs the batch’s original gravity/);
+    // Alone, it can only be read as wort, and says so.
+    const asWortReading = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-05T09:00:00Z', gravity: 7, unit: 'brix' });
+    expect(asWortReading.body.reading).toMatchObject({ method: 'wort' });
+    const asWort = asWortReading.body.reading.gravitySg;
+    expect(asWort).toBeCloseTo(brixToSg(7 / 1.04), 4);
+    // The brew-day OG typed in afterwards, and a later Brix reading read through alcohol.
+    expect((await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00Z', gravity: 1.06, unit: 'sg' })).status).toBe(201);
+    const later = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-06T09:00:00Z', gravity: 6.5, unit: 'brix' });
+    expect(later.body.reading).toMatchObject({ method: 'alcohol_corrected' });
+    let page = await member.get(`/api/batches/${b.id}/readings?sort=takenAt&order=desc`);
+    expect(page.body.items.map((r: { method: string | null }) => r.method)).toEqual(['alcohol_corrected', 'wort', null]);
+    expect(page.body.items[1].gravitySg).toBeCloseTo(asWort, 4); // what the user saw and chose stays
+    // A still earlier OG changes the original Brix: the alcohol-corrected reading is read again.
+    expect((await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-09-30T09:00:00Z', gravity: 1.056, unit: 'sg' })).status).toBe(201);
+    page = await member.get(`/api/batches/${b.id}/readings?sort=takenAt&order=desc`);
     const reread = page.body.items[0];
     expect(reread.enteredUnit).toBe('brix');
-    expect(reread.gravitySg).toBeCloseTo(refractometerFinalGravity(convertGravity(1.056, 'sg', 'brix') * 1.04, 7, 1.04), 4); // Terrill cubic
-    expect(reread.gravitySg).toBeLessThan(asWort);
+    expect(reread.gravitySg).toBeCloseTo(refractometerFinalGravity(convertGravity(1.056, 'sg', 'brix') * 1.04, 6.5, 1.04), 4); // Terrill cubic
+    expect(reread.gravitySg).not.toBeCloseTo(later.body.reading.gravitySg, 4);
   });
 });
 

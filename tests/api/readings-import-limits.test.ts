@@ -54,11 +54,11 @@ function expectProblem(res: Res, status: number, title: string, detail?: string 
 
 const goodCsv = 'Taken at,Gravity,Unit\n2026-10-01 09:00,1.050,SG\n2026-10-02 09:00,1.040,SG\n';
 
-/** Readings a member would send: one every five minutes from the start of October 2025. */
+/** Readings a member would send: one every five minutes from the start of October 2025, falling from the OG 1.049 (never above it). */
 function readingsCsv(rows: number) {
   const lines = ['Taken at,Gravity,Unit,Temperature °C,Note'];
   const start = Date.UTC(2025, 9, 1);
-  for (let i = 0; i < rows; i += 1) lines.push(`${new Date(start + i * 300_000).toISOString().slice(0, 16).replace('T', ' ')},1.0${10 + (i % 40)},SG,20,`);
+  for (let i = 0; i < rows; i += 1) lines.push(`${new Date(start + i * 300_000).toISOString().slice(0, 16).replace('T', ' ')},1.0${49 - (i % 40)},SG,20,`);
   return `${lines.join('\n')}\n`;
 }
 

@@ -260,6 +260,38 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     await context.close();
   });
 
+  it('shows how a Brix reading is converted, stores the method and refuses a gravity above the OG', async () => {
+    const { page, context } = await signIn('member@example.org');
+    const member = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
+    const batch = await createBatch(ctx.db, {
+      ownerId: member.id,
+      name: 'Refractometer batch',
+      volumeLiters: 20,
+      readings: [{ takenAt: new Date(ctx.clock.now().getTime() - 3 * DAY).toISOString(), value: 1.05 }],
+    });
+    await page.goto(`/batches/${batch.id}`);
+    await page.getByRole('button', { name: 'Add a reading' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Scale').selectOption('brix');
+    await dialog.getByLabel('Gravity').fill('6');
+    // After the OG the default is alcohol-corrected, shown in the form and the preview.
+    expect(await dialog.getByLabel('Refractometer sample').inputValue()).toBe('alcohol_corrected');
+    await expect.poll(() => dialog.getByTestId('correction-preview').textContent()).toMatch(/Stored as 1\.0\d{3} SG — refractometer reading through alcohol/);
+    // Read as wort, 13.1 °Bx is above the OG 1.0500: refused before it is sent.
+    await dialog.getByLabel('Refractometer sample').selectOption('wort');
+    await dialog.getByLabel('Gravity').fill('13.1');
+    await expect.poll(() => dialog.getByTestId('correction-preview').textContent()).toMatch(/above the batch’s original gravity 1\.0500/);
+    await dialog.getByLabel('Refractometer sample').selectOption('alcohol_corrected');
+    await dialog.getByLabel('Gravity').fill('6');
+    await screenshot(page, 'batches-reading-brix-method');
+    await dialog.getByRole('button', { name: 'Add the reading' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+    await page.getByTestId('reading-method').filter({ hasText: 'alcohol-corrected' }).waitFor();
+    const stored = await ctx.db.selectFrom('reading').select('method').where('batch_id', '=', batch.id).where('entered_unit', '=', 'brix').executeTakeFirstOrThrow();
+    expect(stored.method).toBe('alcohol_corrected');
+    await context.close();
+  });
+
   it('gives the treasurer the production records with litres, US barrels and the licensing note', async () => {
     const { page, context } = await signIn('treasurer@example.org');
     // The three months before the server's current one.

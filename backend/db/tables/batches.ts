@@ -34,6 +34,8 @@ export interface ReadingTable {
   temperature_c: Numeric | null;
   corrected: Generated<boolean>;
   raw_sg: Numeric | null;
+  /** How a Brix reading was converted; null for SG and °P. */
+  method: Generated<'wort' | 'alcohol_corrected' | null>;
   source: Generated<ReadingSource>;
   note: Generated<string>;
   created_by: string | null;

@@ -58,6 +58,8 @@ export interface PreparedReadings {
   sg: Float64Array;
   rawSg: Float64Array;
   corrected: Uint8Array;
+  /** Brix method: 0 none (SG, °P), 1 wort, 2 alcohol-corrected. */
+  method: Uint8Array;
 }
 
 export interface PrepareResult {
@@ -350,6 +352,7 @@ function toColumns(rows: readonly NormalisedCandidate[]): PreparedReadings {
     sg: new Float64Array(n),
     rawSg: new Float64Array(n),
     corrected: new Uint8Array(n),
+    method: new Uint8Array(n),
   };
   rows.forEach((r, i) => {
     out.time[i] = r.time;
@@ -361,6 +364,7 @@ function toColumns(rows: readonly NormalisedCandidate[]): PreparedReadings {
     out.sg[i] = r.gravity.sg;
     out.rawSg[i] = r.gravity.rawSg ?? NaN;
     out.corrected[i] = r.gravity.corrected ? 1 : 0;
+    out.method[i] = r.gravity.method === 'wort' ? 1 : r.gravity.method === 'alcohol_corrected' ? 2 : 0;
   });
   return out;
 }
@@ -376,7 +380,10 @@ export function fromColumns(c: PreparedReadings): NormalisedCandidate[] {
       temperatureC: Number.isNaN(c.temperatureC[i]) ? null : c.temperatureC[i]!,
       correctTemperature: c.correctTemperature[i] === 1,
       note: c.note[i]!,
-      gravity: { sg: c.sg[i]!, rawSg: Number.isNaN(c.rawSg[i]) ? null : c.rawSg[i]!, corrected: c.corrected[i] === 1, correction: null },
+      gravity: { sg: c.sg[i]!, rawSg: Number.isNaN(c.rawSg[i]) ? null : c.rawSg[i]!, corrected: c.corrected[i] === 1,
+        correction: null,
+        method: c.method[i] === 1 ? 'wort' : c.method[i] === 2 ? 'alcohol_corrected' : null,
+      },
     };
   }
   return out;

@@ -58,7 +58,7 @@ port.on('message', async (job) => {
     if (current !== job) return;
     current = null;
     const r = result.readings;
-    const transfer = [r.time, r.value, r.temperatureC, r.correctTemperature, r.sg, r.rawSg, r.corrected].map((a) => a.buffer);
+    const transfer = [r.time, r.value, r.temperatureC, r.correctTemperature, r.sg, r.rawSg, r.corrected, r.method].map((a) => a.buffer);
     port.postMessage({ id: job.id, ok: true, result }, transfer);
   } catch (err) {
     await fail(job, err);

@@ -1,5 +1,5 @@
 import { sql } from 'kysely';
-import { normaliseGravity, originalBrixOf, type NormalisedGravity } from '../../../shared/brewing/readings.ts';
+import { checkAgainstOriginal, normaliseGravity, originalBrixOf, type BrixMethod, type NormalisedGravity } from '../../../shared/brewing/readings.ts';
 import type { Actor } from '../../../shared/permissions/roles.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { FermentationSettings, GravityUnit, ReadingDto, readingListQuerySchema } from '../../../shared/schemas/batches.ts';
@@ -17,6 +17,10 @@ export interface ReadingCandidate {
   temperatureC: number | null;
   correctTemperature: boolean;
   note: string;
+  /** How a Brix reading is converted, as the user chose; null: wort for the batch's first reading, alcohol-corrected after. */
+  method?: BrixMethod | null;
+  /** The user confirms a reading beyond the plausible attenuation. */
+  confirm?: boolean;
 }
 
 export interface NormalisedCandidate extends ReadingCandidate {
@@ -61,7 +65,11 @@ export function normaliseAll<T extends ReadingCandidate>(
   if (earliest && (!existingFirst || earliest.time < existingFirst.time)) {
     firstCandidate = earliest;
     try {
-      const g = normaliseGravity(earliest.value, earliest.unit, earliest.temperatureC, { ...options, correctTemperature: earliest.correctTemperature });
+      const g = normaliseGravity(earliest.value, earliest.unit, earliest.temperatureC, {
+        ...options,
+        correctTemperature: earliest.correctTemperature,
+        method: earliest.method ?? null,
+      });
       first = { time: earliest.time, enteredValue: earliest.value, enteredUnit: earliest.unit, sg: g.sg };
     } catch {
       first = existingFirst;
@@ -72,14 +80,20 @@ export function normaliseAll<T extends ReadingCandidate>(
   for (const c of candidates) {
     try {
       const isFirst = c === firstCandidate;
-      if (c.unit === 'brix' && !isFirst && originalBrix === null) {
+      const method = c.unit === 'brix' ? (c.method ?? (isFirst ? 'wort' : 'alcohol_corrected')) : null;
+      if (method === 'alcohol_corrected' && !isFirst && originalBrix === null) {
         throw new RangeError('A refractometer reading after the first one needs the batch’s original gravity above 1.000');
       }
       const gravity = normaliseGravity(c.value, c.unit, c.temperatureC, {
         ...options,
         correctTemperature: c.correctTemperature,
         originalBrix: isFirst ? null : originalBrix,
+        method,
       });
+      if (!isFirst && first) {
+        const check = checkAgainstOriginal(gravity.sg, first.sg, c.confirm ?? false);
+        if (check.refusal) throw new RangeError(check.refusal);
+      }
       out.push({ ...c, gravity });
     } catch (err) {
       onError(c, err instanceof Error ? err.message : String(err));
@@ -103,8 +117,8 @@ export async function insertReadings(
   for (let i = 0; i < rows.length; i += CHUNK) {
     const chunk = rows.slice(i, i + CHUNK);
     const result = await sql<{ id: string }>`
-      insert into reading (batch_id, taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, source, note, created_by)
-      select ${batchId}::uuid, t.taken_at, t.gravity_sg, t.entered_value, t.entered_unit, t.temperature_c, t.corrected, t.raw_sg, ${source}, t.note, ${actorId}::uuid
+      insert into reading (batch_id, taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, method, source, note, created_by)
+      select ${batchId}::uuid, t.taken_at, t.gravity_sg, t.entered_value, t.entered_unit, t.temperature_c, t.corrected, t.raw_sg, t.method, ${source}, t.note, ${actorId}::uuid
       from unnest(
         ${chunk.map((r) => new Date(r.time).toISOString())}::timestamptz[],
         ${chunk.map((r) => r.gravity.sg)}::numeric[],
@@ -113,8 +127,9 @@ export async function insertReadings(
         ${chunk.map((r) => r.temperatureC)}::numeric[],
         ${chunk.map((r) => r.gravity.corrected)}::boolean[],
         ${chunk.map((r) => r.gravity.rawSg)}::numeric[],
+        ${chunk.map((r) => r.gravity.method)}::text[],
         ${chunk.map((r) => r.note)}::text[]
-      ) as t(taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, note)
+      ) as t(taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, method, note)
       returning id`.execute(trx);
     for (const r of result.rows) ids.push(r.id);
     if (onChunk) await onChunk(Math.min(rows.length, i + CHUNK));
@@ -130,7 +145,7 @@ export async function renormaliseBrix(trx: Database, batchId: string, settings: 
   const first = await firstReadingOf(trx, batchId);
   const brix = await trx
     .selectFrom('reading')
-    .select(['id', 'taken_at', 'entered_value', 'temperature_c', 'gravity_sg'])
+    .select(['id', 'taken_at', 'entered_value', 'temperature_c', 'gravity_sg', 'method'])
     .where('batch_id', '=', batchId)
     .where('entered_unit', '=', 'brix')
     .execute();
@@ -143,6 +158,7 @@ export async function renormaliseBrix(trx: Database, batchId: string, settings: 
       const g = normaliseGravity(Number(r.entered_value), 'brix', null, {
         wortCorrectionFactor: settings.wortCorrectionFactor,
         originalBrix: isFirst ? null : originalBrix,
+        method: r.method,
       });
       if (Math.abs(g.sg - Number(r.gravity_sg)) > 1e-9) {
         await trx.updateTable('reading').set({ gravity_sg: g.sg, raw_sg: g.rawSg, corrected: g.corrected }).where('id', '=', r.id).execute();
@@ -167,7 +183,16 @@ const MAX_FUTURE_MS = 10 * 60_000;
 export async function addReading(
   db: Database,
   batch: BatchRow,
-  input: { takenAt: string; gravity: number; unit: GravityUnit; temperatureC?: number | null; correctTemperature: boolean; note: string },
+  input: {
+    takenAt: string;
+    gravity: number;
+    unit: GravityUnit;
+    temperatureC?: number | null;
+    correctTemperature: boolean;
+    note: string;
+    method?: BrixMethod | null;
+    confirm?: boolean;
+  },
   settings: FermentationSettings,
   actor: Actor,
   now: Date,
@@ -184,6 +209,8 @@ export async function addReading(
     temperatureC: input.temperatureC ?? null,
     correctTemperature: input.correctTemperature,
     note: input.note,
+    method: input.unit === 'brix' ? (input.method ?? null) : null,
+    confirm: input.confirm ?? false,
   };
   return db.transaction().execute(async (trx) => {
     await sql`select pg_advisory_xact_lock(hashtext(${batch.id}))`.execute(trx);
@@ -202,7 +229,14 @@ export async function addReading(
     const [id] = await insertReadings(trx, batch.id, [normalised], 'manual', actor.id);
     if (first && time < first.time) await renormaliseBrix(trx, batch.id, settings);
     await startFermentingIfPlanned(trx, batch, actor.id, now);
-    await audit(trx, actor.id, 'reading:added', 'Batch', batch.id, { readingId: id, takenAt: input.takenAt, gravity: input.gravity, unit: input.unit });
+    await audit(trx, actor.id, 'reading:added', 'Batch', batch.id, {
+      readingId: id,
+      takenAt: input.takenAt,
+      gravity: input.gravity,
+      unit: input.unit,
+      ...(normalised.gravity.method ? { method: normalised.gravity.method } : {}),
+      ...(input.confirm ? { confirmed: true } : {}),
+    });
     return readingById(trx, id!);
   });
 }
@@ -225,6 +259,7 @@ function readingSelect(db: Database) {
       'reading.temperature_c',
       'reading.corrected',
       'reading.raw_sg',
+      'reading.method',
       'reading.source',
       'reading.note',
       'reading.created_by',
@@ -245,6 +280,7 @@ function toReadingDto(r: ReadingSelectRow): ReadingDto {
     temperatureC: r.temperature_c === null ? null : Number(r.temperature_c),
     corrected: r.corrected,
     rawSg: r.raw_sg === null ? null : Number(r.raw_sg),
+    method: r.method,
     source: r.source,
     note: r.note,
     createdBy: r.created_by,

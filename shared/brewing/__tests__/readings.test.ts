@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { brixToSg, convertGravity, correctHydrometer, platoToSg, refractometerFinalGravity, sgToPlato, apparentPlatoToSg } from '../index.ts';
-import { normaliseGravity, originalBrixOf } from '../readings.ts';
+import { checkAgainstOriginal, defaultBrixMethod, MAX_PLAUSIBLE_ATTENUATION, normaliseGravity, originalBrixOf } from '../readings.ts';
 
 describe('apparentPlatoToSg (F2.1⁻¹ below 0 °P)', () => {
   it('inverts F2.1 for dry beers below 0 °P', () => {
@@ -23,7 +23,7 @@ describe('apparentPlatoToSg (F2.1⁻¹ below 0 °P)', () => {
 
 describe('normaliseGravity: from what was entered to the gravity the figures use', () => {
   it('keeps a plain SG reading as it is', () => {
-    expect(normaliseGravity(1.048, 'sg', null)).toEqual({ sg: 1.048, rawSg: null, corrected: false, correction: null });
+    expect(normaliseGravity(1.048, 'sg', null)).toEqual({ sg: 1.048, rawSg: null, corrected: false, correction: null, method: null });
   });
 
   it('applies the F3.1 hydrometer correction to SG and °P readings with a temperature', () => {
@@ -64,5 +64,76 @@ describe('originalBrixOf', () => {
     expect(originalBrixOf({ enteredValue: 1.048, enteredUnit: 'sg', sg: 1.048 }, 1.04)).toBeCloseTo(convertGravity(1.048, 'sg', 'brix') * 1.04, 9); // F2.4 × WCF
     expect(originalBrixOf({ enteredValue: 0.998, enteredUnit: 'sg', sg: 0.998 })).toBeNull();
     expect(originalBrixOf(null)).toBeNull();
+  });
+});
+
+describe('Brix readings by method: wort or alcohol-corrected', () => {
+  it('defaults to wort while the batch has no OG and to alcohol-corrected after', () => {
+    expect(defaultBrixMethod(null)).toBe('wort');
+    expect(defaultBrixMethod(12.5)).toBe('alcohol_corrected');
+    expect(normaliseGravity(12.5, 'brix', null).method).toBe('wort');
+    expect(normaliseGravity(6.5, 'brix', null, { originalBrix: 12.5 }).method).toBe('alcohol_corrected');
+    expect(normaliseGravity(1.048, 'sg', null).method).toBeNull();
+  });
+
+  it('reads wort by plain Brix → SG (F2.4⁻¹) with the wort correction factor', () => {
+    // WCF 1: the refractometer reads the sucrose scale itself.
+    expect(normaliseGravity(9.99325, 'brix', null, { method: 'wort', wortCorrectionFactor: 1 }).sg).toBeCloseTo(1.04, 4); // [P] S2 1.040 ↔ 9.99325 °Bx
+    expect(normaliseGravity(40, 'brix', null, { method: 'wort', wortCorrectionFactor: 1 }).sg).toBeCloseTo(1.1787, 4); // [P] S2 40 °Bx ↔ 1.17874
+    // WCF 1.04 (common practice): the same wort reads 1.04 times higher on the refractometer.
+    expect(normaliseGravity(9.99325 * 1.04, 'brix', null, { method: 'wort', wortCorrectionFactor: 1.04 }).sg).toBeCloseTo(1.04, 4); // [P] S2, scaled by the WCF [CP]
+    // Wort chosen explicitly on a batch with an OG stays wort (a second wort sample, e.g. after a top-up).
+    expect(normaliseGravity(12, 'brix', null, { method: 'wort', originalBrix: 12.5 })).toMatchObject({ method: 'wort', correction: 'refractometer-wort-factor' });
+  });
+
+  it('needs the original gravity for an alcohol-corrected reading, and refuses one that shows no fermentation', () => {
+    expect(() => normaliseGravity(6, 'brix', null, { method: 'alcohol_corrected' })).toThrow(/needs the batch’s original gravity/);
+    // 0 % attenuation: the sample still reads the original Brix. The cubic was fitted to fermented beer and is
+    // off by −9 to +90 points on wort (below), so the reading is refused and wort suggested.
+    expect(refractometerFinalGravity(12, 12)).toBeCloseTo(1.0374, 4); // [C:Terrill cubic] wort 12 °Bx is 1.0464 [C:F2.4⁻¹]
+    expect(refractometerFinalGravity(20, 20)).toBeCloseTo(1.17, 3); // [C:Terrill cubic] wort 20 °Bx is 1.0796 [C:F2.4⁻¹]
+    expect(() => normaliseGravity(12, 'brix', null, { method: 'alcohol_corrected', originalBrix: 12 })).toThrow(/shows no fermentation yet/);
+  });
+
+  it('refuses a mid-fermentation reading the correction puts above the OG (20 → 18 °Bx)', () => {
+    const og = normaliseGravity(20, 'brix', null).sg;
+    expect(og).toBeCloseTo(1.0796, 4); // [C:F2.4⁻¹] 20 °Bx ÷ 1.04
+    const r = normaliseGravity(18, 'brix', null, { originalBrix: 20 });
+    expect(r.sg).toBeCloseTo(1.1147, 4); // [C:Terrill cubic] far outside the range it was fitted to
+    const check = checkAgainstOriginal(r.sg, og);
+    expect(check.refusal).toMatch(/above the batch’s original gravity 1\.0796/);
+    expect(checkAgainstOriginal(r.sg, og, true)).toMatchObject({ confirmable: false, refusal: expect.any(String) }); // confirming does not lift it
+  });
+});
+
+describe('checkAgainstOriginal: apparent attenuation (F4.1) within a plausible range', () => {
+  it('accepts 0 %, 50 % and 80 % apparent attenuation', () => {
+    expect(checkAgainstOriginal(1.04, 1.04)).toMatchObject({ apparentAttenuation: 0, refusal: null }); // [C:F4.1] S8
+    expect(checkAgainstOriginal(1.02, 1.04).apparentAttenuation).toBeCloseTo(50, 9); // [C:F4.1] S8: (1.040 − 1.020)/(1.040 − 1)
+    expect(checkAgainstOriginal(1.02, 1.04).refusal).toBeNull();
+    expect(checkAgainstOriginal(1.01, 1.05).apparentAttenuation).toBeCloseTo(80, 9); // [C:F4.1] S8: (1.050 − 1.010)/(1.050 − 1)
+    expect(checkAgainstOriginal(1.01, 1.05).refusal).toBeNull();
+  });
+
+  it('reads a fermented refractometer sample through alcohol at about 50 % and 80 % attenuation', () => {
+    // OG 12 °Bx ÷ 1.04 → 1.0464 [C:F2.4⁻¹]; 6 °Bx later → 1.0114 [C:Terrill cubic, coefficients from memory], 75 % apparent.
+    const og = normaliseGravity(12, 'brix', null).sg;
+    const half = normaliseGravity(8.5, 'brix', null, { originalBrix: 12 });
+    const mostly = normaliseGravity(6, 'brix', null, { originalBrix: 12 });
+    expect(mostly.sg).toBeCloseTo(1.0114, 4); // [C:Terrill cubic] as in brewing.test.ts
+    expect(checkAgainstOriginal(mostly.sg, og)).toMatchObject({ refusal: null });
+    expect(checkAgainstOriginal(mostly.sg, og).apparentAttenuation).toBeGreaterThan(70);
+    expect(checkAgainstOriginal(half.sg, og).apparentAttenuation).toBeGreaterThan(35);
+    expect(checkAgainstOriginal(half.sg, og).apparentAttenuation).toBeLessThan(65);
+  });
+
+  it('refuses a gravity above the OG outright and an attenuation beyond 105 % unless confirmed', () => {
+    expect(checkAgainstOriginal(1.0401, 1.04)).toMatchObject({ confirmable: false, refusal: expect.stringMatching(/above the batch’s original gravity/) });
+    expect(MAX_PLAUSIBLE_ATTENUATION).toBe(105); // common practice: very dry beers finish a few percent past 100 %
+    expect(checkAgainstOriginal(0.998, 1.04).refusal).toBeNull(); // 105 % [C:F4.1]
+    const dry = checkAgainstOriginal(0.996, 1.04); // 110 % [C:F4.1]
+    expect(dry.apparentAttenuation).toBeCloseTo(110, 9);
+    expect(dry).toMatchObject({ confirmable: true, refusal: expect.stringMatching(/beyond the plausible 105 %/) });
+    expect(checkAgainstOriginal(0.996, 1.04, true).refusal).toBeNull();
   });
 });

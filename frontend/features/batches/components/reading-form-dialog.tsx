@@ -1,6 +1,14 @@
 import { useEffect, useMemo, useState } from 'react';
 import { convertGravity } from '../../../../shared/brewing/index.ts';
-import { gravityEntryRanges, normaliseGravity } from '../../../../shared/brewing/readings.ts';
+import {
+  brixMethodLabels,
+  brixMethods,
+  checkAgainstOriginal,
+  defaultBrixMethod,
+  gravityEntryRanges,
+  normaliseGravity,
+  type BrixMethod,
+} from '../../../../shared/brewing/readings.ts';
 import { createReadingSchema, gravityUnitLabels, gravityUnits, type BatchDetail, type GravityUnit } from '../../../../shared/schemas/batches.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -43,6 +51,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
   const [temperature, setTemperature] = useState('');
   const [correct, setCorrect] = useState(true);
   const [note, setNote] = useState('');
+  const [chosenMethod, setChosenMethod] = useState<BrixMethod | null>(null);
+  const [confirm, setConfirm] = useState(false);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [formError, setFormError] = useState<string | null>(null);
 
@@ -56,6 +66,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
     if (!afterFirst || batch.og === null || batch.og < 1 || batch.og > 1.17874) return null;
     return convertGravity(batch.og, 'sg', 'brix') * batch.corrections.wortCorrectionFactor;
   }, [afterFirst, batch.og, batch.corrections.wortCorrectionFactor]);
+  // Wort for a batch with no OG yet, alcohol-corrected after; the user may choose otherwise.
+  const method = chosenMethod ?? defaultBrixMethod(originalBrix);
 
   const preview = useMemo(() => {
     if (value === null || Number.isNaN(value)) return null;
@@ -66,12 +78,16 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           calibrationC: batch.corrections.hydrometerCalibrationC,
           wortCorrectionFactor: batch.corrections.wortCorrectionFactor,
           originalBrix,
+          method: unit === 'brix' ? method : null,
         }),
       };
     } catch (e) {
       return { error: e instanceof Error ? e.message : String(e) };
     }
-  }, [value, unit, tempC, correct, originalBrix, batch.corrections]);
+  }, [value, unit, tempC, correct, originalBrix, method, batch.corrections]);
+  // A later reading against the batch's OG: above it is refused, beyond the plausible attenuation needs a confirmation.
+  const check = preview && 'ok' in preview && preview.ok && afterFirst && batch.og !== null ? checkAgainstOriginal(preview.ok.sg, batch.og, confirm) : null;
+  const needsConfirm = preview && 'ok' in preview && preview.ok && afterFirst && batch.og !== null ? checkAgainstOriginal(preview.ok.sg, batch.og).confirmable : false;
 
   const submit = (event: React.FormEvent) => {
     event.preventDefault();
@@ -84,6 +100,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
       temperatureC: tempC === null ? null : Math.round(tempC * 100) / 100,
       correctTemperature: correct,
       note,
+      method: unit === 'brix' ? method : null,
+      confirm: needsConfirm && confirm,
     });
     if (!parsed.success) {
       const next: Record<string, string> = {};
@@ -93,6 +111,10 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
     }
     if (preview && 'error' in preview) {
       setErrors({ gravity: preview.error ?? 'Check the gravity' });
+      return;
+    }
+    if (check?.refusal) {
+      setErrors({ gravity: check.refusal });
       return;
     }
     setErrors({});
@@ -137,6 +159,19 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
       <Field label={`Sample temperature (${units.labels.temperature})`} hint="Optional." error={errors.temperatureC}>
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" value={temperature} onChange={(e) => setTemperature(e.target.value)} />}
       </Field>
+      {unit === 'brix' ? (
+        <Field label="Refractometer sample" hint="Wort has no alcohol yet; a fermenting or finished sample is corrected for alcohol with the batch’s original gravity." error={errors.method}>
+          {({ invalid, ...c }) => (
+            <Select {...c} invalid={invalid} value={method} onChange={(e) => setChosenMethod(e.target.value as BrixMethod)}>
+              {brixMethods.map((m) => (
+                <option key={m} value={m}>
+                  {brixMethodLabels[m]}
+                </option>
+              ))}
+            </Select>
+          )}
+        </Field>
+      ) : null}
       {unit !== 'brix' ? (
         <Checkbox
           label={`Correct to the hydrometer’s calibration temperature (${units.temperature(batch.corrections.hydrometerCalibrationC, { digits: 0 })})`}
@@ -149,6 +184,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           <span className="text-ink-muted">Enter a gravity to see what is stored.</span>
         ) : 'error' in preview ? (
           <span className="text-danger">{preview.error}</span>
+        ) : check?.refusal ? (
+          <span className="text-danger">{check.refusal}</span>
         ) : (
           <span>
             Stored as <strong className="tabular-nums">{formatSg(preview.ok.sg, 4)}</strong> SG
@@ -164,6 +201,9 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           </span>
         )}
       </div>
+      {needsConfirm ? (
+        <Checkbox label="I have checked this reading: store it anyway" checked={confirm} onChange={(e) => setConfirm(e.target.checked)} />
+      ) : null}
       <Field label="Note" error={errors.note}>
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} value={note} onChange={(e) => setNote(e.target.value)} autoComplete="off" />}
       </Field>

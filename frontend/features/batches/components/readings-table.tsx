@@ -46,6 +46,11 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
           <span className="whitespace-nowrap tabular-nums text-ink-muted">
             {row.original.enteredUnit === 'sg' ? formatSg(row.original.enteredValue, Math.max(3, (String(row.original.enteredValue).split('.')[1] ?? '').length)) : row.original.enteredValue}{' '}
             {gravityUnitLabels[row.original.enteredUnit]}
+            {row.original.method ? (
+              <span className="ml-1.5 text-xs" data-testid="reading-method">
+                {row.original.method === 'wort' ? 'wort' : 'alcohol-corrected'}
+              </span>
+            ) : null}
           </span>
         ),
       }),
