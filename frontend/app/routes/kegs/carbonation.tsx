@@ -98,17 +98,20 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
   const [tapId, setTapId] = useState(currentTapId);
   const tap = taps.find((t) => t.id === tapId);
   const tapLine = lineOfTap(tap);
-  const [lineType, setLineType] = useState<LineTubing | ''>(tapLine.tubing ?? '');
-  const [resistance, setResistance] = useState(tapLine.resistanceKpaPerM !== null ? resistanceToDisplay(tapLine.resistanceKpaPerM, u) : '');
+  const tapResistance = tapLine.resistanceKpaPerM !== null ? resistanceToDisplay(tapLine.resistanceKpaPerM, u) : '';
+  // null follows the tap's record (which may arrive after the form); a choice on screen overrides it.
+  const [lineTypeChoice, setLineTypeChoice] = useState<LineTubing | '' | null>(null);
+  const [resistanceChoice, setResistanceChoice] = useState<string | null>(null);
+  const lineType = lineTypeChoice ?? tapLine.tubing ?? '';
+  const resistance = resistanceChoice ?? tapResistance;
   const pickTap = (id: string) => {
     setTapId(id);
-    const line = lineOfTap(taps.find((t) => t.id === id));
-    setLineType(line.tubing ?? '');
-    setResistance(line.resistanceKpaPerM !== null ? resistanceToDisplay(line.resistanceKpaPerM, u) : '');
+    setLineTypeChoice(null);
+    setResistanceChoice(null);
   };
   const pickLineType = (t: LineTubing | '') => {
-    setLineType(t);
-    if (t) setResistance(resistanceToDisplay(lineResistanceKpaPerM[t], u));
+    setLineTypeChoice(t);
+    if (t) setResistanceChoice(resistanceToDisplay(lineResistanceKpaPerM[t], u));
   };
   const resistanceKpaPerM = resistance.trim() === '' ? undefined : u === 'us' ? (n(resistance) * PSI_KPA) / FT : n(resistance);
   const lineMaterial: LineMaterial | undefined = lineType ? lineTubingTable.find((r) => r.tubing === lineType)?.material : (tapLine.material ?? undefined);
@@ -149,10 +152,10 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
       return { plan: null, line: null, problem: e instanceof PlanError || e instanceof RangeError ? e.message : String(e) };
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [volumes, temp, altitude, method, fastPressure, fastHours, holdDays, startedAt, tapId, lineType, resistance, u]);
+  }, [volumes, temp, altitude, method, fastPressure, fastHours, holdDays, startedAt, tapId, taps, lineType, resistance, u]);
   // The line as checked on screen, sent with the tap when it differs from the tap's record.
   const lineChanged =
-    tap && tap.lineLengthM !== null && tap.lineInsideDiameterMm !== null && result.line && (lineMaterial !== (tapLine.material ?? undefined) || Math.abs((result.line.resistanceKpaPerM ?? 0) - (tapLine.resistanceKpaPerM ?? 0)) > 0.005)
+    tap && tap.lineLengthM !== null && tap.lineInsideDiameterMm !== null && result.line && (lineType !== (tapLine.tubing ?? '') || resistance !== tapResistance)
       ? {
           lengthM: tap.lineLengthM,
           insideDiameterMm: tap.lineInsideDiameterMm,
@@ -280,7 +283,7 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
             </label>
             <label className={label}>
               Line resistance ({u === 'us' ? 'psi/ft' : 'kPa/m'})
-              <BigInput type="number" inputMode="decimal" step="any" min={0} value={resistance} onChange={(e) => setResistance(e.target.value)} />
+              <BigInput type="number" inputMode="decimal" step="any" min={0} value={resistance} onChange={(e) => setResistanceChoice(e.target.value)} />
               <span className="text-xs font-normal text-ink-muted">
                 {lineType ? `Default for this line: ${lineTubingTable.find((r) => r.tubing === lineType)?.defaultBasis}. ` : ''}
                 Makers' figures differ; change it to what you measure.

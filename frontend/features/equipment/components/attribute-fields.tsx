@@ -79,6 +79,7 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
         <Field label="Line material" hint="Stainless is sized by its outside diameter" error={errors?.lineMaterial?.message}>
           {(c) => (
             <Select {...c} {...form.register('attributes.lineMaterial')}>
+              <option value="">Not recorded (taken as vinyl)</option>
               {lineMaterials.map((m) => (
                 <option key={m} value={m}>
                   {lineMaterialLabels[m]}
