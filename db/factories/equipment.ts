@@ -49,7 +49,7 @@ function defaultAttributes(kind: EquipmentKind, n: number, capacity: number | nu
     case 'keg':
       return { serial: `LY19-T${String(n).padStart(5, '0')}`, lock: 'ball' };
     case 'tap':
-      return { position: `Cold room, tap board, ${n}`, lineLengthM: 3, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 };
+      return { position: `Cold room, tap board, ${n}`, lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 };
     case 'co2_cylinder':
       return { sizeKg: 6, fillPercent: 100, hydroTestDue: '2029-01-31' };
   }

@@ -73,7 +73,8 @@ function kegs(): SeedEquipment[] {
 
 function taps(): SeedEquipment[] {
   const list: SeedEquipment[] = [];
-  const lengths = [3.0, 3.0, 3.5, 3.5, 4.0, 4.0, 5.0, 5.0];
+  // 3/16" vinyl balanced for the house ales (2.4 volumes at 3 °C, 0.6 m rise): about 1.75 m at the common-practice resistance.
+  const lengths = [1.7, 1.7, 1.8, 1.8, 1.9, 1.9, 2.0, 2.0];
   for (let i = 1; i <= 8; i++) {
     list.push({
       code: `T-${i}`,

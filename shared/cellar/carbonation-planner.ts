@@ -3,6 +3,8 @@ import {
   carbonationPressureKpa,
   co2Volumes,
   lineResistanceKpaPerM,
+  lineTubingFor,
+  type LineMaterial,
   type LineTubing,
 } from '../brewing/index.ts';
 
@@ -135,30 +137,32 @@ export function planCarbonation(input: PlanInput): PlanResult {
   };
 }
 
-/** Common tubing by inside diameter (mm), for guessing a line's resistance from the tap's attributes. */
-const vinylByInsideDiameterMm: { mm: number; tubing: LineTubing }[] = [
-  { mm: 4.76, tubing: 'vinyl-3/16' },
-  { mm: 6.35, tubing: 'vinyl-1/4' },
-  { mm: 7.94, tubing: 'vinyl-5/16' },
-  { mm: 9.53, tubing: 'vinyl-3/8' },
-  { mm: 12.7, tubing: 'vinyl-1/2' },
-];
-
-export const tubingLabels: Partial<Record<LineTubing, string>> = {
+/** Labels of the line types offered on screens (REFERENCE §6 table). */
+export const tubingLabels: Record<LineTubing, string> = {
   'vinyl-3/16': '3/16" (4.8 mm) inside, vinyl',
   'vinyl-1/4': '1/4" (6.4 mm) inside, vinyl',
   'vinyl-5/16': '5/16" (7.9 mm) inside, vinyl',
   'vinyl-3/8': '3/8" (9.5 mm) inside, vinyl',
   'vinyl-1/2': '1/2" (12.7 mm) inside, vinyl',
-  'polyethylene-3/16': '3/16" inside, polyethylene',
-  'barrier-3/16': '3/16" inside, barrier tubing',
-  'polyethylene-1/4': '1/4" inside, polyethylene',
-  'barrier-5/16': '5/16" inside, barrier tubing',
+  'polyethylene-3/16': '3/16" (4.8 mm) inside, polyethylene',
+  'polyethylene-1/4': '1/4" (6.4 mm) inside, polyethylene',
+  'barrier-3/16': '3/16" (4.8 mm) inside, barrier tubing',
+  'barrier-5/16': '5/16" (7.9 mm) inside, barrier tubing',
+  'stainless-1/4-od': '1/4" (6.4 mm) outside, stainless',
+  'stainless-5/16-od': '5/16" (7.9 mm) outside, stainless',
+  'stainless-3/8-od': '3/8" (9.5 mm) outside, stainless',
 };
 
-export function tubingForInsideDiameter(mm: number): LineTubing | null {
-  const hit = vinylByInsideDiameterMm.find((t) => Math.abs(t.mm - mm) <= 0.4);
-  return hit?.tubing ?? null;
+export const lineMaterialLabels: Record<LineMaterial, string> = {
+  vinyl: 'Vinyl',
+  polyethylene: 'Polyethylene',
+  barrier: 'Barrier tubing',
+  stainless: 'Stainless (outside diameter)',
+};
+
+/** The tubing kind of a line: its material (vinyl unless said) and diameter in mm. */
+export function tubingForInsideDiameter(mm: number, material: LineMaterial = 'vinyl'): LineTubing | null {
+  return lineTubingFor(material, mm);
 }
 
 export interface LineCheckInput {
@@ -167,6 +171,8 @@ export interface LineCheckInput {
   insideDiameterMm: number;
   riseM: number;
   fixedKpa: number;
+  /** What the line is made of; vinyl unless said. */
+  material?: LineMaterial | null | undefined;
   /** Override: measured or maker's resistance. */
   resistanceKpaPerM?: number | undefined;
 }
@@ -181,7 +187,7 @@ export interface LineCheck {
 
 /** Whether a tap's line suits the serving pressure (F6.1), and which length would. Within ±15 % or 0.3 m counts as suiting. */
 export function checkLine(input: LineCheckInput): LineCheck {
-  const tubing = tubingForInsideDiameter(input.insideDiameterMm);
+  const tubing = tubingForInsideDiameter(input.insideDiameterMm, input.material ?? 'vinyl');
   const resistance = input.resistanceKpaPerM ?? (tubing ? lineResistanceKpaPerM[tubing] : null);
   if (resistance === null || resistance === undefined) {
     return {
@@ -189,7 +195,7 @@ export function checkLine(input: LineCheckInput): LineCheck {
       tubing,
       balancedLengthM: null,
       suits: null,
-      verdict: `No resistance is known for ${input.insideDiameterMm} mm tubing: enter the maker's figure in kPa per metre.`,
+      verdict: `No resistance is known for ${input.insideDiameterMm} mm ${input.material ?? 'vinyl'} tubing: enter the maker's figure in kPa per metre.`,
     };
   }
   let balanced: number;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { lineMaterials } from '../brewing/index.ts';
 import { carbonationMethods } from '../cellar/carbonation-planner.ts';
 import { sortableListQuerySchema } from './pagination.ts';
 import { isoDateTimeSchema } from './sanitation.ts';
@@ -7,6 +8,8 @@ export const lineInputSchema = z.object({
   lengthM: z.number().positive('More than 0 m').max(50),
   insideDiameterMm: z.number().positive().max(20),
   riseM: z.number().min(-5).max(10).default(0),
+  /** What the line is made of; vinyl when not given. */
+  material: z.enum(lineMaterials).optional(),
   /** Measured or maker's figure; otherwise the nominal value for the tubing. */
   resistanceKpaPerM: z.number().positive().max(200).optional(),
 });
@@ -56,6 +59,8 @@ export interface LineCheckView {
   lengthM: number;
   insideDiameterMm: number;
   riseM: number;
+  material?: string | null;
+  tubing?: string | null;
   resistanceKpaPerM: number | null;
   balancedLengthM: number | null;
   suits: boolean | null;

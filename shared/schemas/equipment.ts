@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { lineMaterials } from '../brewing/index.ts';
 import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
 /** What the cellar holds: every item has a short label code, a kind and a vessel state. */
@@ -61,6 +62,10 @@ export const tapAttributesSchema = z.object({
   position: z.string().trim().min(1, 'Enter the position').max(120),
   lineLengthM: z.number().positive().max(50),
   lineInsideDiameterMm: z.number().positive().max(20),
+  /** What the line is made of (REFERENCE §6); vinyl when not given. Stainless sizes are outside diameters. */
+  lineMaterial: z.enum(lineMaterials).nullable().optional(),
+  /** Measured or maker's resistance, kPa/m; otherwise the default of the line type. */
+  lineResistanceKpaPerM: z.number().positive().max(200).nullable().optional(),
   /** Height from keg to faucet, for line balancing (m, may be negative below the keg). */
   riseM: z.number().min(-5).max(10).optional(),
   coldRoomTempC: z.number().min(-5).max(20).optional(),

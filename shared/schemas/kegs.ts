@@ -125,6 +125,10 @@ export interface TapBoardEntry {
   position: string | null;
   lineLengthM: number | null;
   lineInsideDiameterMm: number | null;
+  /** vinyl, polyethylene, barrier or stainless; null when not recorded (taken as vinyl). */
+  lineMaterial: string | null;
+  /** The tap's own measured or maker's resistance, kPa/m; null to use the line type's default. */
+  lineResistanceKpaPerM: number | null;
   riseM: number | null;
   coldRoomTempC: number | null;
   state: string;

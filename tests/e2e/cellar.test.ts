@@ -212,4 +212,28 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
     await screenshot(page, 'cellar-phone-8-overdue');
     await page.context().close();
   });
+
+  it('checks the tap’s line in the carbonation planner, with a line type that fills the resistance', async () => {
+    const page = await signInOnPhone('brewer@example.org');
+    const [k] = made.tapped;
+    await page.goto(`/kegs/${k!.id}/carbonation`);
+    await page.getByLabel('Target CO2 (volumes)').fill('2.4');
+    // T-1: 1.7 m of 3/16" vinyl, 0.6 m rise; the common-practice figure balances about 1.75 m at 2.4 volumes and 3 °C.
+    const lineType = page.getByLabel('Line type');
+    await lineType.waitFor();
+    expect(await lineType.inputValue()).toBe('vinyl-3/16');
+    const resistance = page.getByLabel(/Line resistance/);
+    expect(await resistance.inputValue()).toBe('31.1');
+    const plan = page.getByRole('region', { name: 'Plan' });
+    await plan.getByText(/line suits this pressure/).waitFor();
+    // Polyethylene of the same bore resists more (2.2 psi/ft, 49.8 kPa/m): the same line is now too long.
+    await lineType.selectOption('polyethylene-3/16');
+    expect(await resistance.inputValue()).toBe('49.8');
+    await plan.getByText(/too long/).waitFor();
+    // A measured figure overrides the type's.
+    await resistance.fill('31');
+    await plan.getByText(/line suits this pressure/).waitFor();
+    await screenshot(page, 'cellar-phone-9-line-balance');
+    await page.context().close();
+  });
 });

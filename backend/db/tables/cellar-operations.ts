@@ -137,6 +137,7 @@ export interface CarbonationPlanTable {
   line_length_m: Numeric | null;
   line_inside_diameter_mm: Numeric | null;
   line_rise_m: Numeric | null;
+  line_material: string | null;
   line_resistance_kpa_per_m: Numeric | null;
   line_balanced_length_m: Numeric | null;
   notes: Generated<string>;

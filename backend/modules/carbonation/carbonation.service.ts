@@ -1,5 +1,6 @@
 import type PgBoss from 'pg-boss';
 import { z } from 'zod';
+import { lineMaterials, type LineMaterial } from '../../../shared/brewing/index.ts';
 import { checkLine, planCarbonation, PlanError } from '../../../shared/cellar/carbonation-planner.ts';
 import type { CarbonationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { CarbonationPlanView, CreateCarbonationPlanInput, LineCheckView, previewCarbonationPlanSchema } from '../../../shared/schemas/carbonation.ts';
@@ -27,7 +28,8 @@ interface Line {
   lengthM: number;
   insideDiameterMm: number;
   riseM: number;
-  resistanceKpaPerM?: number | undefined;
+  material?: LineMaterial | null | undefined;
+  resistanceKpaPerM?: number | null | undefined;
 }
 
 /** The plan's figures and its line check, from the inputs and the co-op's defaults. */
@@ -62,13 +64,15 @@ export function computePlan(input: PlanFields, settings: CarbonationSettings, li
         lengthM: line.lengthM,
         insideDiameterMm: line.insideDiameterMm,
         riseM: line.riseM,
+        material: line.material ?? null,
         ...checkLine({
           servingPressureKpa: result.servingPressureKpa,
           lengthM: line.lengthM,
           insideDiameterMm: line.insideDiameterMm,
           riseM: line.riseM,
           fixedKpa: settings.lineFixedKpa,
-          resistanceKpaPerM: line.resistanceKpaPerM,
+          material: line.material,
+          resistanceKpaPerM: line.resistanceKpaPerM ?? undefined,
         }),
       }
     : null;
@@ -77,8 +81,15 @@ export function computePlan(input: PlanFields, settings: CarbonationSettings, li
 
 /** The line to check: one given, else the named tap's, else the tap the keg is on. */
 async function resolveLine(db: Database, input: PlanFields): Promise<Line | null> {
-  if (input.line) return { tapId: null, ...input.line };
   let tapId = input.tapId ?? null;
+  if (input.line) {
+    // A line given with a tap: the tap's line as checked on screen (another line type or resistance).
+    if (tapId) {
+      const tap = await db.selectFrom('equipment').select(['id', 'kind']).where('id', '=', tapId).executeTakeFirst();
+      if (!tap || tap.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
+    }
+    return { tapId, ...input.line };
+  }
   if (!tapId && input.kegId) {
     const kw = await db.selectFrom('keg_whereabouts').select('tap_id').where('keg_id', '=', input.kegId).executeTakeFirst();
     tapId = kw?.tap_id ?? null;
@@ -88,7 +99,14 @@ async function resolveLine(db: Database, input: PlanFields): Promise<Line | null
   if (!tap || tap.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
   const a = (tap.attributes ?? {}) as Record<string, unknown>;
   if (typeof a.lineLengthM !== 'number' || typeof a.lineInsideDiameterMm !== 'number') return null;
-  return { tapId: tap.id, lengthM: a.lineLengthM, insideDiameterMm: a.lineInsideDiameterMm, riseM: typeof a.riseM === 'number' ? a.riseM : 0 };
+  return {
+    tapId: tap.id,
+    lengthM: a.lineLengthM,
+    insideDiameterMm: a.lineInsideDiameterMm,
+    riseM: typeof a.riseM === 'number' ? a.riseM : 0,
+    material: (lineMaterials as readonly unknown[]).includes(a.lineMaterial) ? (a.lineMaterial as LineMaterial) : null,
+    resistanceKpaPerM: typeof a.lineResistanceKpaPerM === 'number' ? a.lineResistanceKpaPerM : undefined,
+  };
 }
 
 export async function previewPlan(db: Database, input: PlanFields, now: Date) {
@@ -147,6 +165,7 @@ export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbo
         line_length_m: p.lineCheck?.lengthM ?? null,
         line_inside_diameter_mm: p.lineCheck?.insideDiameterMm ?? null,
         line_rise_m: p.lineCheck?.riseM ?? null,
+        line_material: p.lineCheck?.material ?? null,
         line_resistance_kpa_per_m: p.lineCheck?.resistanceKpaPerM !== null && p.lineCheck?.resistanceKpaPerM !== undefined ? round(p.lineCheck.resistanceKpaPerM) : null,
         line_balanced_length_m: p.lineCheck?.balancedLengthM !== null && p.lineCheck?.balancedLengthM !== undefined ? round(p.lineCheck.balancedLengthM) : null,
         notes: input.notes ?? '',
@@ -221,12 +240,14 @@ export async function planViews(db: Database, ids: string[]): Promise<Carbonatio
               lengthM: Number(r.line_length_m),
               insideDiameterMm: Number(r.line_inside_diameter_mm),
               riseM: Number(r.line_rise_m ?? 0),
+              material: r.line_material,
               ...checkLine({
                 servingPressureKpa: Number(r.serving_pressure_kpa),
                 lengthM: Number(r.line_length_m),
                 insideDiameterMm: Number(r.line_inside_diameter_mm),
                 riseM: Number(r.line_rise_m ?? 0),
                 fixedKpa: settings.lineFixedKpa,
+                material: r.line_material as LineMaterial | null,
                 resistanceKpaPerM: num(r.line_resistance_kpa_per_m) ?? undefined,
               }),
             }

@@ -204,6 +204,8 @@ export async function tapBoard(db: Database, canSee: (row: KegRow) => boolean, s
       position: attrStr(t.attributes, 'position'),
       lineLengthM: attrNum(t.attributes, 'lineLengthM'),
       lineInsideDiameterMm: attrNum(t.attributes, 'lineInsideDiameterMm'),
+      lineMaterial: attrStr(t.attributes, 'lineMaterial'),
+      lineResistanceKpaPerM: attrNum(t.attributes, 'lineResistanceKpaPerM'),
       riseM: attrNum(t.attributes, 'riseM'),
       coldRoomTempC: attrNum(t.attributes, 'coldRoomTempC'),
       state: t.state,

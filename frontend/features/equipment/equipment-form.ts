@@ -20,6 +20,10 @@ export interface AttributeFormValues {
   position?: string;
   lineLengthM?: number | null;
   lineInsideDiameterMm?: number | null;
+  /** '' when not recorded (taken as vinyl). */
+  lineMaterial?: '' | 'vinyl' | 'polyethylene' | 'barrier' | 'stainless';
+  /** kPa per metre whatever the person's units (as the co-op's faucet allowance is in kPa). */
+  lineResistanceKpaPerM?: number | null;
   riseM?: number | null;
   coldRoomTempC?: number | null;
   sizeKg?: number | null;
@@ -42,7 +46,7 @@ type Quantity = keyof typeof toDisplay | 'none';
 export const attributeQuantities: Record<EquipmentKind, Partial<Record<keyof AttributeFormValues, Quantity>>> = {
   fermenter: { style: 'none', hasValve: 'none' },
   keg: { serial: 'none', lock: 'none' },
-  tap: { position: 'none', lineLengthM: 'length', lineInsideDiameterMm: 'smallLength', riseM: 'length', coldRoomTempC: 'temperature' },
+  tap: { position: 'none', lineLengthM: 'length', lineInsideDiameterMm: 'smallLength', lineMaterial: 'none', lineResistanceKpaPerM: 'none', riseM: 'length', coldRoomTempC: 'temperature' },
   co2_cylinder: { sizeKg: 'mass', fillPercent: 'none', hydroTestDue: 'none' },
 };
 
@@ -52,7 +56,7 @@ export const kindHasCapacity = (kind: EquipmentKind) => kind === 'fermenter' || 
 export const defaultAttributes: Record<EquipmentKind, AttributeFormValues> = {
   fermenter: { style: 'bucket', hasValve: false },
   keg: { serial: '', lock: 'ball' },
-  tap: { position: '', lineLengthM: null, lineInsideDiameterMm: null, riseM: null, coldRoomTempC: null },
+  tap: { position: '', lineLengthM: null, lineInsideDiameterMm: null, lineMaterial: '', lineResistanceKpaPerM: null, riseM: null, coldRoomTempC: null },
   co2_cylinder: { sizeKg: null, fillPercent: 100, hydroTestDue: '' },
 };
 
@@ -95,7 +99,8 @@ export function toApiValues(values: EquipmentFormValues, units: UnitSystem, init
   const attributes: Record<string, unknown> = {};
   for (const [key, quantity] of Object.entries(attributeQuantities[values.kind])) {
     const value = stored((values.attributes as Record<string, unknown>)[key], quantity, units, initial?.attributes[key]);
-    if (value !== undefined) attributes[key] = value;
+    // An unrecorded line material stays unrecorded.
+    if (value !== undefined && !(key === 'lineMaterial' && value === '')) attributes[key] = value;
   }
   const capacity = kindHasCapacity(values.kind) ? stored(values.capacityLiters, 'volume', units, initial?.capacityLiters) : undefined;
   return {

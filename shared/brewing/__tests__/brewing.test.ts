@@ -18,6 +18,9 @@ import {
   kpaToBar,
   kpaToPsi,
   lineResistanceKpaPerM,
+  lineTubingFor,
+  lineTubingTable,
+  publishedLineResistanceKpaPerM,
   lineVolumeMl,
   litersToUsBarrels,
   litersToUsGallons,
@@ -415,11 +418,46 @@ describe('§6 draught line balance', () => {
   it('tubing resistances reproduce the BA examples', () => {
     near(psi(lineResistanceKpaPerM['vinyl-1/4'] * feetToMetres(20)), 17, 1e-9); // [P] S34: 20 ft of 1/4" vinyl → 17 psi
     near(psi(lineResistanceKpaPerM['barrier-5/16'] * feetToMetres(20)), 2, 1e-9); // [P] S34: 20 ft 5/16" barrier → 2 psi
-    near(psi(lineResistanceKpaPerM['vinyl-3/16'] * feetToMetres(1)), 3.0, 1e-9); // [P2] S28, S30, S31 DBQM 3 psi/ft
+    near(psi(publishedLineResistanceKpaPerM('vinyl-3/16', 'S30') * feetToMetres(1)), 3.0, 1e-9); // [P2] S28, S30, S31 DBQM 3 psi/ft
+    near(psi(publishedLineResistanceKpaPerM('vinyl-3/16', 'S32') * feetToMetres(1)), 1.8, 1e-9); // [P2] S32 measured 1.8–2.7
+    near(psi(publishedLineResistanceKpaPerM('vinyl-3/16', 'S33') * feetToMetres(1)), 2.2, 1e-9); // [P2] S33 measured 2.2
     near(psi(lineResistanceKpaPerM['polyethylene-3/16'] * feetToMetres(1)), 2.2, 1e-9); // [P2] S30, S33
     near(psi(lineResistanceKpaPerM['vinyl-3/8'] * feetToMetres(1)), 0.2, 1e-9); // [P2] S33
-    near(lineResistanceKpaPerM['vinyl-3/16'], 67.86, 0.01); // [C] 3 psi/ft in kPa/m
+    near(publishedLineResistanceKpaPerM('vinyl-3/16', 'S31'), 67.86, 0.01); // [C] 3 psi/ft in kPa/m
     expect(Object.isFrozen(lineResistanceKpaPerM)).toBe(true);
+    expect(Object.isFrozen(lineTubingTable)).toBe(true);
+    expect(() => publishedLineResistanceKpaPerM('vinyl-1/4', 'S99')).toThrow(/No figure/);
+  });
+
+  it('names a source beside every figure of the table, and every tubing kind has one row', () => {
+    for (const row of lineTubingTable) {
+      expect(row.published.length).toBeGreaterThan(0);
+      for (const f of row.published) expect(f.source).toMatch(/^S\d+(, S\d+)*$/);
+      expect(row.defaultBasis).toMatch(/S\d+|common practice/);
+      near(lineResistanceKpaPerM[row.tubing], psiToKpa(row.defaultPsiPerFt) / feetToMetres(1), 1e-9);
+    }
+    expect(new Set(lineTubingTable.map((r) => r.tubing)).size).toBe(Object.keys(lineResistanceKpaPerM).length);
+    // Sources disagree on 3/16" vinyl (1.8–3.0 psi/ft): the default is marked common practice, not a source.
+    const vinyl = lineTubingTable.find((r) => r.tubing === 'vinyl-3/16')!;
+    expect(vinyl.defaultBasis).toMatch(/^common practice/);
+    expect(Math.min(...vinyl.published.map((p) => p.psiPerFt))).toBe(1.8); // [P2] S32
+    expect(Math.max(...vinyl.published.map((p) => p.psiPerFtMax ?? p.psiPerFt))).toBe(3.0); // [P2] S28, S30, S31
+  });
+
+  it('finds the tubing kind by material and diameter', () => {
+    expect(lineTubingFor('vinyl', 4.8)).toBe('vinyl-3/16');
+    expect(lineTubingFor('polyethylene', 4.76)).toBe('polyethylene-3/16');
+    expect(lineTubingFor('barrier', 7.9)).toBe('barrier-5/16');
+    expect(lineTubingFor('stainless', 9.53)).toBe('stainless-3/8-od');
+    expect(lineTubingFor('barrier', 12.7)).toBeNull();
+  });
+
+  it('the default for the common line gives the common-practice length (REFERENCE §8: ~8 ft of 3/16" vinyl at 10–12 psi)', () => {
+    // [CP] REFERENCE §8: 5–10 ft, often ~8 ft; with the usual 1 psi faucet and coupler allowance and no rise.
+    near(lengthFt(12, 0, lineResistanceKpaPerM['vinyl-3/16'], 1), 8.0, 0.01);
+    const at10 = lengthFt(10, 0, lineResistanceKpaPerM['vinyl-3/16'], 1);
+    expect(at10).toBeGreaterThanOrEqual(5); // [CP] REFERENCE §8 range 5–10 ft
+    expect(at10).toBeLessThanOrEqual(10);
   });
 
   const lengthFt = (psiApplied: number, riseFt: number, resistance: number, fixedPsi: number): number =>
@@ -433,8 +471,9 @@ describe('§6 draught line balance', () => {
     );
 
   it('balances the worked examples (F6.1)', () => {
-    near(lengthFt(12, 0, lineResistanceKpaPerM['vinyl-3/16'], 1), 3.67, 0.01); // [C:F6.1]; same example in S31
-    near(lengthFt(12, 4, lineResistanceKpaPerM['vinyl-3/16'], 1), 3.0, 0.01); // [C:F6.1]
+    const dbqm = publishedLineResistanceKpaPerM('vinyl-3/16', 'S31'); // [P2] 3.0 psi/ft, S28, S30, S31
+    near(lengthFt(12, 0, dbqm, 1), 3.67, 0.01); // [C:F6.1]; same example in S31
+    near(lengthFt(12, 4, dbqm, 1), 3.0, 0.01); // [C:F6.1]
     near(lengthFt(12, 0, lineResistanceKpaPerM['vinyl-1/4'], 0), 14.12, 0.01); // [C:F6.1]
     near(lengthFt(12, 0, lineResistanceKpaPerM['barrier-3/16'], 1), 5.0, 0.01); // [C:F6.1]
     near(
@@ -442,7 +481,7 @@ describe('§6 draught line balance', () => {
       14.12,
       0.01,
     ); // [C:F6.1] riseM and fixedKpa default to 0
-    expect(lengthFt(12, -4, lineResistanceKpaPerM['vinyl-3/16'], 1)).toBeGreaterThan(4.3); // [C:F6.1] a drop adds 0.5 psi/ft
+    expect(lengthFt(12, -4, dbqm, 1)).toBeGreaterThan(4.3); // [C:F6.1] a drop adds 0.5 psi/ft
   });
 
   it('line volume per foot (F6.2)', () => {

@@ -1,6 +1,7 @@
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import { carbonationMethodLabels, checkLine, planCarbonation, PlanError, type CarbonationMethod } from '../../../../shared/cellar/carbonation-planner.ts';
+import { lineMaterials, lineResistanceKpaPerM, lineTubingTable, type LineMaterial, type LineTubing } from '../../../../shared/brewing/index.ts';
+import { carbonationMethodLabels, checkLine, planCarbonation, PlanError, tubingForInsideDiameter, tubingLabels, type CarbonationMethod } from '../../../../shared/cellar/carbonation-planner.ts';
 import { defaultCarbonationSettings, type CarbonationSettings } from '../../../../shared/schemas/cellar-settings.ts';
 import { Forbidden } from '@/components/errors/forbidden';
 import { Alert } from '@/components/ui/alert';
@@ -53,10 +54,32 @@ interface PlannerFormProps {
   kegCode: string;
   holds: string | null;
   currentTapId: string;
-  taps: { id: string; code: string; position: string | null; lineLengthM: number | null; lineInsideDiameterMm: number | null; riseM: number | null; coldRoomTempC: number | null }[];
+  taps: {
+    id: string;
+    code: string;
+    position: string | null;
+    lineLengthM: number | null;
+    lineInsideDiameterMm: number | null;
+    lineMaterial?: string | null;
+    lineResistanceKpaPerM?: number | null;
+    riseM: number | null;
+    coldRoomTempC: number | null;
+  }[];
   settings: CarbonationSettings;
   onSaved: () => void;
 }
+
+const PSI_KPA = 6.894757293168361;
+
+/** A tap's line as recorded: its tubing kind (vinyl unless said) and its own resistance or the type's default. */
+function lineOfTap(tap: PlannerFormProps['taps'][number] | undefined): { tubing: LineTubing | null; material: LineMaterial | null; resistanceKpaPerM: number | null } {
+  if (!tap || tap.lineInsideDiameterMm === null) return { tubing: null, material: null, resistanceKpaPerM: null };
+  const material = (lineMaterials as readonly (string | null | undefined)[]).includes(tap.lineMaterial) ? (tap.lineMaterial as LineMaterial) : null;
+  const tubing = tubingForInsideDiameter(tap.lineInsideDiameterMm, material ?? 'vinyl');
+  return { tubing, material, resistanceKpaPerM: tap.lineResistanceKpaPerM ?? (tubing ? lineResistanceKpaPerM[tubing] : null) };
+}
+
+const resistanceToDisplay = (kPaPerM: number, u: 'metric' | 'us') => (u === 'us' ? ((kPaPerM * FT) / PSI_KPA).toFixed(3) : kPaPerM.toFixed(1));
 
 const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSaved }: PlannerFormProps) => {
   const units = useUnits();
@@ -74,6 +97,24 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
   const [startedAt, setStartedAt] = useState(localNow());
   const [tapId, setTapId] = useState(currentTapId);
   const tap = taps.find((t) => t.id === tapId);
+  const tapLine = lineOfTap(tap);
+  const tapResistance = tapLine.resistanceKpaPerM !== null ? resistanceToDisplay(tapLine.resistanceKpaPerM, u) : '';
+  // null follows the tap's record (which may arrive after the form); a choice on screen overrides it.
+  const [lineTypeChoice, setLineTypeChoice] = useState<LineTubing | '' | null>(null);
+  const [resistanceChoice, setResistanceChoice] = useState<string | null>(null);
+  const lineType = lineTypeChoice ?? tapLine.tubing ?? '';
+  const resistance = resistanceChoice ?? tapResistance;
+  const pickTap = (id: string) => {
+    setTapId(id);
+    setLineTypeChoice(null);
+    setResistanceChoice(null);
+  };
+  const pickLineType = (t: LineTubing | '') => {
+    setLineTypeChoice(t);
+    if (t) setResistanceChoice(resistanceToDisplay(lineResistanceKpaPerM[t], u));
+  };
+  const resistanceKpaPerM = resistance.trim() === '' ? undefined : u === 'us' ? (n(resistance) * PSI_KPA) / FT : n(resistance);
+  const lineMaterial: LineMaterial | undefined = lineType ? lineTubingTable.find((r) => r.tubing === lineType)?.material : (tapLine.material ?? undefined);
 
   const inputs = {
     targetVolumes: n(volumes),
@@ -96,14 +137,33 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
       });
       const line =
         tap && tap.lineLengthM !== null && tap.lineInsideDiameterMm !== null
-          ? checkLine({ servingPressureKpa: plan.servingPressureKpa, lengthM: tap.lineLengthM, insideDiameterMm: tap.lineInsideDiameterMm, riseM: tap.riseM ?? 0, fixedKpa: settings.lineFixedKpa })
+          ? checkLine({
+              servingPressureKpa: plan.servingPressureKpa,
+              lengthM: tap.lineLengthM,
+              insideDiameterMm: tap.lineInsideDiameterMm,
+              riseM: tap.riseM ?? 0,
+              fixedKpa: settings.lineFixedKpa,
+              material: lineMaterial,
+              resistanceKpaPerM: resistanceKpaPerM !== undefined && Number.isFinite(resistanceKpaPerM) && resistanceKpaPerM > 0 ? resistanceKpaPerM : undefined,
+            })
           : null;
       return { plan, line, problem: null as string | null };
     } catch (e) {
       return { plan: null, line: null, problem: e instanceof PlanError || e instanceof RangeError ? e.message : String(e) };
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [volumes, temp, altitude, method, fastPressure, fastHours, holdDays, startedAt, tapId, u]);
+  }, [volumes, temp, altitude, method, fastPressure, fastHours, holdDays, startedAt, tapId, taps, lineType, resistance, u]);
+  // The line as checked on screen, sent with the tap when it differs from the tap's record.
+  const lineChanged =
+    tap && tap.lineLengthM !== null && tap.lineInsideDiameterMm !== null && result.line && (lineType !== (tapLine.tubing ?? '') || resistance !== tapResistance)
+      ? {
+          lengthM: tap.lineLengthM,
+          insideDiameterMm: tap.lineInsideDiameterMm,
+          riseM: tap.riseM ?? 0,
+          ...(lineMaterial ? { material: lineMaterial } : {}),
+          ...(result.line.resistanceKpaPerM !== null ? { resistanceKpaPerM: Math.round(result.line.resistanceKpaPerM * 100) / 100 } : {}),
+        }
+      : null;
 
   const save = async () => {
     setError(null);
@@ -118,6 +178,7 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
         startedAt: new Date(startedAt).toISOString(),
         ...(method === 'fast_start' ? { fastStartPressureKpa: Math.round(inputs.fastStartPressureKpa * 10) / 10, fastStartHours: inputs.fastStartHours } : { holdDays: inputs.holdDays }),
         ...(tapId ? { tapId } : {}),
+        ...(lineChanged ? { line: lineChanged } : {}),
       });
       onSaved();
     } catch (e) {
@@ -197,7 +258,7 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
         </label>
         <label className={`${label} sm:col-span-2`}>
           Check the line of
-          <BigSelect value={tapId} onChange={(e) => setTapId(e.target.value)}>
+          <BigSelect value={tapId} onChange={(e) => pickTap(e.target.value)}>
             <option value="">No tap</option>
             {taps.map((t) => (
               <option key={t.id} value={t.id}>
@@ -207,6 +268,29 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
             ))}
           </BigSelect>
         </label>
+        {tap && tap.lineLengthM !== null ? (
+          <>
+            <label className={label}>
+              Line type
+              <BigSelect value={lineType} onChange={(e) => pickLineType(e.target.value as LineTubing | '')}>
+                <option value="">Not in the table</option>
+                {lineTubingTable.map((r) => (
+                  <option key={r.tubing} value={r.tubing}>
+                    {tubingLabels[r.tubing]}
+                  </option>
+                ))}
+              </BigSelect>
+            </label>
+            <label className={label}>
+              Line resistance ({u === 'us' ? 'psi/ft' : 'kPa/m'})
+              <BigInput type="number" inputMode="decimal" step="any" min={0} value={resistance} onChange={(e) => setResistanceChoice(e.target.value)} />
+              <span className="text-xs font-normal text-ink-muted">
+                {lineType ? `Default for this line: ${lineTubingTable.find((r) => r.tubing === lineType)?.defaultBasis}. ` : ''}
+                Makers' figures differ; change it to what you measure.
+              </span>
+            </label>
+          </>
+        ) : null}
       </section>
 
       <section aria-live="polite" className="flex flex-col gap-2 rounded-lg border border-copper/40 bg-copper-soft/40 p-4" aria-label="Plan">

@@ -1,4 +1,6 @@
 import type { UseFormReturn } from 'react-hook-form';
+import { lineMaterials } from '../../../../shared/brewing/index.ts';
+import { lineMaterialLabels } from '../../../../shared/cellar/carbonation-planner.ts';
 import type { EquipmentKind } from '../../../../shared/schemas/equipment.ts';
 import { Alert } from '@/components/ui/alert';
 import { Field } from '@/components/ui/field';
@@ -73,6 +75,21 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
         </Field>
         <Field label={`Line inside diameter (${labels.smallLength})`} error={errors?.lineInsideDiameterMm?.message}>
           {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.lineInsideDiameterMm', asNumber)} />}
+        </Field>
+        <Field label="Line material" hint="Stainless is sized by its outside diameter" error={errors?.lineMaterial?.message}>
+          {(c) => (
+            <Select {...c} {...form.register('attributes.lineMaterial')}>
+              <option value="">Not recorded (taken as vinyl)</option>
+              {lineMaterials.map((m) => (
+                <option key={m} value={m}>
+                  {lineMaterialLabels[m]}
+                </option>
+              ))}
+            </Select>
+          )}
+        </Field>
+        <Field label="Line resistance (kPa/m)" hint="Measured or the maker's figure; empty uses the line type's usual figure" error={errors?.lineResistanceKpaPerM?.message}>
+          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.lineResistanceKpaPerM', asNumber)} />}
         </Field>
         <Field label={`Rise, keg to faucet (${labels.length})`} hint="Negative when the faucet sits below the keg; optional" error={errors?.riseM?.message}>
           {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.riseM', asNumber)} />}
