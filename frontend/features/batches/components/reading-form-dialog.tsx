@@ -192,7 +192,7 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
             {preview.ok.correction === 'hydrometer-temperature' && tempC !== null
               ? ` — read ${formatSg(preview.ok.rawSg, 4)} at ${units.temperature(tempC)}, corrected to ${units.temperature(batch.corrections.hydrometerCalibrationC, { digits: 0 })} (${(preview.ok.sg - (preview.ok.rawSg ?? preview.ok.sg) >= 0 ? '+' : '')}${((preview.ok.sg - (preview.ok.rawSg ?? preview.ok.sg)) * 1000).toFixed(1)} points)`
               : preview.ok.correction === 'refractometer-alcohol'
-                ? ` — refractometer reading through alcohol, corrected from the original ${originalBrix?.toFixed(1)} °Bx (Terrill’s cubic, wort factor ${batch.corrections.wortCorrectionFactor})`
+                ? ` — refractometer reading through alcohol, corrected from the original ${originalBrix?.toFixed(1)} °Bx (alcohol correction for finished beer, wort factor ${batch.corrections.wortCorrectionFactor})`
                 : preview.ok.correction === 'refractometer-wort-factor'
                   ? ` — wort reading divided by the wort correction factor ${batch.corrections.wortCorrectionFactor}`
                   : unit !== 'sg'
