@@ -18,6 +18,7 @@ import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { computeFigures, loadFermentationSettings, loadGravitySeries } from './figures.ts';
+import { isUuid } from '../../lib/uuid-params.ts';
 
 export interface BatchRow {
   id: string;
@@ -55,7 +56,7 @@ const num = (v: unknown): number | null => (v === null || v === undefined ? null
 
 /** A batch the person may see, or 404 (a batch you may not see does not exist for you). */
 export async function findVisibleBatch(db: Database, ability: AppAbility, id: string): Promise<BatchRow> {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('Batch');
+  if (!isUuid(id)) throw notFound('Batch');
   const row = await db.selectFrom('batch').select(batchColumns).where('batch.id', '=', id).executeTakeFirst();
   if (!row || !ability.can('read', subject('Batch', { ownerId: row.owner_id }))) throw notFound('Batch');
   return row as BatchRow;

@@ -8,6 +8,7 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import type { BatchRow } from './batches.service.ts';
+import { isUuid } from '../../lib/uuid-params.ts';
 
 /** A reading ready to be normalised: what came in, with its time as epoch milliseconds. */
 export interface ReadingCandidate {
@@ -314,7 +315,7 @@ export async function listReadings(db: Database, batchId: string, q: z.infer<typ
 }
 
 export async function deleteReading(db: Database, batch: BatchRow, readingId: string, settings: FermentationSettings, actor: Actor) {
-  if (!/^[0-9a-f-]{36}$/i.test(readingId)) throw notFound('Reading');
+  if (!isUuid(readingId)) throw notFound('Reading');
   await db.transaction().execute(async (trx) => {
     const gone = await trx
       .deleteFrom('reading')

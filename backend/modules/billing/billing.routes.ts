@@ -24,7 +24,7 @@ import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { badRequest, forbidden, notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
+import { isUuid, uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile, putBillingProfile } from './billing-profile.service.ts';
 import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
@@ -96,7 +96,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
   router.post('/:id/send', async (req, res) => {
     can(req).throwUnlessCan('send', 'Invoice');
     const { id } = idParam.parse(req.params);
-    const run = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
+    const run = isUuid(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
     if (!run) throw notFound('Invoice run');
     const unsent = await db
       .selectFrom('invoice')
@@ -113,7 +113,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
   router.post('/:id/issue', async (req, res) => {
     can(req).throwUnlessCan('update', 'Invoice');
     const { id } = idParam.parse(req.params);
-    const run = /^[0-9a-f-]{36}$/i.test(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
+    const run = isUuid(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
     if (!run) throw notFound('Invoice run');
     const issued = await issueRunDrafts(db, run.id, req.user!.id, clock.now());
     res.json({ issued: issued.length });
@@ -422,7 +422,7 @@ export function creditNotesRoutes({ db, clock }: Deps): Router {
   router.get('/:id/pdf', async (req, res) => {
     can(req).throwUnlessCan('read', 'CreditNote');
     const { id } = idParam.parse(req.params);
-    const row = /^[0-9a-f-]{36}$/i.test(id)
+    const row = isUuid(id)
       ? await db.selectFrom('credit_note').select(['id', 'invoice_id', 'member_id', 'number']).where('id', '=', id).executeTakeFirst()
       : undefined;
     if (!row || !req.ability.can('read', subject('CreditNote', { memberId: row.member_id }))) throw notFound('Credit note');

@@ -19,6 +19,7 @@ import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { getBillingProfile } from './billing-profile.service.ts';
 import type { PricedCharge } from './charges/index.ts';
 import { takeNumber } from './numbering.ts';
+import { isUuid } from '../../lib/uuid-params.ts';
 
 const dueExpr = sql<number>`(invoice.total_cents - invoice.paid_cents - invoice.credited_cents)`;
 
@@ -122,7 +123,7 @@ export async function listInvoices(db: Database, q: InvoiceListQuery, scope: Inv
 }
 
 export async function findInvoiceRow(db: Database, id: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) return undefined;
+  if (!isUuid(id)) return undefined;
   return summaryQuery(db).where('invoice.id', '=', id).executeTakeFirst();
 }
 
@@ -239,7 +240,7 @@ export async function getDetail(db: Database, id: string, today: string): Promis
 
 /** Locks an invoice row for the rest of the transaction. */
 export async function lockInvoice(trx: Database, id: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('Invoice');
+  if (!isUuid(id)) throw notFound('Invoice');
   const row = await trx.selectFrom('invoice').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
   if (!row) throw notFound('Invoice');
   return row;

@@ -9,8 +9,8 @@ import { priceCharge } from './charges/index.ts';
 import { BILLING_LOCK } from './invoice-runs.service.ts';
 import { appendToDraft } from './invoices.service.ts';
 import { PriceBook } from './price-book.ts';
+import { isUuid } from '../../lib/uuid-params.ts';
 
-const isUuid = (id: string) => /^[0-9a-f-]{36}$/i.test(id);
 
 /** The whole price list, history included; `current` marks each item's (and band's) price in effect today. */
 export async function listPrices(db: Database, now: Date): Promise<{ prices: Price[]; taxRates: TaxRate[]; today: string }> {
