@@ -557,7 +557,7 @@ export const lineTubingTable: readonly LineTubingFigures[] = Object.freeze([
       { psiPerFt: 2.2, source: 'S33' },
     ],
     defaultPsiPerFt: 1.375,
-    defaultBasis: 'common practice: about 8 ft at 12 psi with a 1 psi allowance (REFERENCE §8)',
+    defaultBasis: 'common practice: about 8 ft at 12 psi with a 1 psi allowance',
   },
   { tubing: 'vinyl-1/4', material: 'vinyl', diameterIn: '1/4', diameterMm: 6.35, published: [{ psiPerFt: 0.85, source: 'S34' }], defaultPsiPerFt: 0.85, defaultBasis: 'S34' },
   { tubing: 'vinyl-5/16', material: 'vinyl', diameterIn: '5/16', diameterMm: 7.94, published: [{ psiPerFt: 0.4, source: 'S33' }], defaultPsiPerFt: 0.4, defaultBasis: 'S33' },

@@ -285,7 +285,7 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
               Line resistance ({u === 'us' ? 'psi/ft' : 'kPa/m'})
               <BigInput type="number" inputMode="decimal" step="any" min={0} value={resistance} onChange={(e) => setResistanceChoice(e.target.value)} />
               <span className="text-xs font-normal text-ink-muted">
-                {lineType ? `Default for this line: ${lineTubingTable.find((r) => r.tubing === lineType)?.defaultBasis}. ` : ''}
+                {lineType ? `Default for this line: ${lineDefaultBasis(lineTubingTable.find((r) => r.tubing === lineType)?.defaultBasis)}. ` : ''}
                 Makers' figures differ; change it to what you measure.
               </span>
             </label>
@@ -328,5 +328,10 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
     </div>
   );
 };
+
+
+/** What a line's default rests on, in words for the screen (the table's source ids are for the code). */
+const lineDefaultBasis = (basis: string | undefined) =>
+  !basis ? 'a published figure' : basis.startsWith('common practice') ? basis : `a published figure${basis.includes('low confidence') ? ' (sources differ)' : ''}`;
 
 export default CarbonationPlannerRoute;
