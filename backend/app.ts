@@ -15,6 +15,7 @@ import { sessionStore } from './modules/auth/session-store.ts';
 import { auditRoutes } from './modules/audit/audit.routes.ts';
 import { batchesRoutes } from './modules/batches/batches.routes.ts';
 import { productionRecordsRoutes } from './modules/batches/production-records.routes.ts';
+import { traceReportRoutes } from './modules/batches/trace.routes.ts';
 import { readingsRoutes } from './modules/batches/readings.routes.ts';
 import {
   billingRoutes,
@@ -108,6 +109,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/batches', batchesRoutes(deps));
   app.use('/api/readings', readingsRoutes(deps));
   app.use('/api/production-records', productionRecordsRoutes(deps));
+  app.use('/api/reports/trace', traceReportRoutes(deps));
   app.use('/api/invoice-runs', invoiceRunsRoutes(deps));
   app.use('/api/invoices', invoicesRoutes(deps));
   app.use('/api/prices', pricesRoutes(deps));

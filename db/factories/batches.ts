@@ -40,6 +40,10 @@ export interface BatchOverrides {
   /** Default: 'fermenting' when it has readings (the first reading starts fermentation), else 'planned'. */
   status?: BatchStatus;
   notes?: string;
+  /** Allergen notes, stored as the batches service stores them (e.g. ['gluten (barley)']). */
+  allergens?: string[];
+  /** Overrides the co-op's shelf life for this batch's fills. */
+  shelfLifeDays?: number | null;
   /** Default: an hour before the first reading, else LONG_AGO. */
   createdAt?: At;
   /** Stored exactly as the readings service stores them (SG normalised with shared/brewing). */
@@ -76,6 +80,8 @@ export async function createBatch(db: Database, o: BatchOverrides = {}): Promise
         target_fg: o.targetFg ?? null,
         status: o.status ?? (readings.length ? 'fermenting' : 'planned'),
         notes: o.notes ?? '',
+        ...(o.allergens ? { allergens: o.allergens } : {}),
+        shelf_life_days: o.shelfLifeDays ?? null,
         created_by: ownerId,
         created_at: createdAt,
         updated_at: createdAt,

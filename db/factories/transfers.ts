@@ -2,6 +2,7 @@ import { sql, type Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { KegFillTable, KegWhereabouts, TransferTable } from '../../backend/db/tables/cellar-operations.ts';
 import { batchGravityFigures } from '../../backend/modules/batches/figures.ts';
+import { fillBestBefore } from '../../backend/modules/batches/shelf-life.ts';
 import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
@@ -136,6 +137,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
       .executeTakeFirstOrThrow();
 
     const perKegCo2 = Math.round((co2 / kegs.length) * 10) / 10;
+    const bestBefore = await fillBestBefore(trx, batch.id, at);
     const fills: KegFillRow[] = [];
     for (const [i, k] of kegs.entries()) {
       fills.push(
@@ -153,6 +155,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
             sanitation_cycle_id: k.cycle_id,
             co2_grams: perKegCo2,
             filled_at: at,
+            best_before: bestBefore,
             created_at: new Date(at.getTime() + 20 * MINUTE),
           })
           .returningAll()

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { allergenListSchema } from '../cellar/trace.ts';
 import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
 /**
@@ -46,6 +47,8 @@ const volumeSchema = z
   .max(10_000, 'The volume must be at most 10,000 L');
 const notesSchema = z.string().max(4000, 'Keep the notes under 4,000 characters');
 const idSchema = z.uuid('Not a valid id');
+/** Days a fill of this batch keeps; null: the co-op's shelf life for its style. */
+const shelfLifeSchema = z.number({ error: 'Enter the shelf life in days' }).int('Whole days').min(1, 'At least 1 day').max(3650, 'At most 10 years');
 
 const targetsRefine = (b: { targetOg?: number | null; targetFg?: number | null }) =>
   b.targetOg == null || b.targetFg == null || b.targetFg < b.targetOg;
@@ -59,6 +62,9 @@ export const createBatchSchema = z
     targetOg: gravitySgSchema.nullish(),
     targetFg: gravitySgSchema.nullish(),
     notes: notesSchema.default(''),
+    /** Allergen notes (free list, e.g. "gluten (barley)", "lactose (milk)"); finings add theirs. */
+    allergens: allergenListSchema.default([]),
+    shelfLifeDays: shelfLifeSchema.nullish(),
     /** A fermenter booking of the batch's owner that will hold it. */
     bookingId: idSchema.nullish(),
     /** Admin only: create the batch for another member. */
@@ -76,6 +82,9 @@ export const updateBatchSchema = z
     targetOg: gravitySgSchema.nullish(),
     targetFg: gravitySgSchema.nullish(),
     notes: notesSchema.optional(),
+    allergens: allergenListSchema.optional(),
+    /** Applies to fills made from now on; a fill keeps the best-before it was given. */
+    shelfLifeDays: shelfLifeSchema.nullish(),
     status: batchStatusSchema.optional(),
     /** Volume packaged, L (recorded when the batch is packaged). */
     packagedLiters: z.number().min(0, 'The packaged volume cannot be negative').max(10_000).nullish(),
@@ -128,6 +137,9 @@ export interface GravityPointDto {
 /** `GET /api/batches/:id`: the batch and what its readings say. */
 export interface BatchDetail extends BatchListItem {
   notes: string;
+  allergens: string[];
+  /** The batch's own shelf life, or null for the co-op's. */
+  shelfLifeDays: number | null;
   packagedAt: string | null;
   packagedLiters: number | null;
   updatedAt: string;

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
+import type { BestBeforeState, FiningsDose } from '../cellar/trace.ts';
 import { isoDateTimeSchema } from './sanitation.ts';
 
 /** Where a keg is (PRODUCT.md "Keg whereabouts"). */
@@ -74,6 +75,14 @@ export interface KegContents {
   fg: number | null;
   abv: number | null;
   filledAt: string;
+  /** Stored when the keg was filled: filled_at plus the batch's shelf life. */
+  bestBefore: string | null;
+  bestBeforeState: BestBeforeState | null;
+  /** Finings dosed when this keg was filled. */
+  finings: FiningsDose[];
+  /** The batch's allergen notes and what the finings add. */
+  allergens: string[];
+  vegan: boolean;
 }
 
 export interface KegCarbonation {

@@ -7,6 +7,7 @@ import {
   sanitationSettingsSchema,
 } from './cellar-settings.ts';
 import { defaultFermentationSettings, fermentationSettingsSchema } from './batches.ts';
+import { defaultShelfLifeSettings, shelfLifeSettingsSchema } from '../cellar/trace.ts';
 
 /**
  * The co-op's settings: one section per key in the `setting` table. Each section has a schema
@@ -98,6 +99,14 @@ export const settingSections = {
     schema: fermentationSettingsSchema,
     defaults: defaultFermentationSettings,
   } satisfies SettingSection<typeof fermentationSettingsSchema>,
+  shelf_life: {
+    key: 'shelf_life',
+    title: 'Shelf life',
+    description:
+      'How long beer keeps in a keg: each fill gets a best-before of the day it was filled plus these days (a batch may set its own). Kegs within the warning days of it show on Today. Common practice for unpasteurised draught beer kept cold.',
+    schema: shelfLifeSettingsSchema,
+    defaults: defaultShelfLifeSettings,
+  } satisfies SettingSection<typeof shelfLifeSettingsSchema>,
 } as const;
 export type SettingKey = keyof typeof settingSections;
 export const settingKeys = Object.keys(settingSections) as SettingKey[];

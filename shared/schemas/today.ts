@@ -1,10 +1,19 @@
 import type { AgeingBucket, InvoiceRun, MemberBalance } from './billing.ts';
 
+/** Kegs still holding beer past or near their best-before (within `nearDays`), soonest first. */
+export interface TodayBestBefore {
+  total: number;
+  nearDays: number;
+  items: { kegId: string; code: string; batchId: string; batchName: string; bestBefore: string; state: 'near' | 'past'; whereabouts: string; tapCode: string | null; memberName: string | null }[];
+}
+
 /** `GET /api/today`: what needs doing today, one section per thing the person may see. */
 export interface TodayMemberSection {
   bookings: { id: string; equipmentId: string; equipmentCode: string; equipmentName: string; startsAt: string; endsAt: string; state: string }[];
   batches: { id: string; name: string; style: string; status: string; latestSg: number | null; latestAt: string | null }[];
   kegs: { id: string; code: string; dueAt: string | null; overdue: boolean }[];
+  /** Kegs they have out that are past or near best-before. */
+  bestBefore: TodayBestBefore;
   balance: MemberBalance | null;
 }
 
@@ -13,6 +22,8 @@ export interface TodayCellarSection {
   overdueKegs: { total: number; items: { id: string; code: string; memberName: string | null; dueAt: string }[] };
   transfersDue: { batchId: string; batchName: string; ownerName: string; fermenterId: string; fermenterCode: string; bookingEndsAt: string }[];
   handovers: { bookingId: string; equipmentId: string; equipmentCode: string; startsAt: string; equipmentState: string; ready: boolean }[];
+  /** Kegs anywhere that are past or near best-before. */
+  bestBefore: TodayBestBefore;
 }
 
 export interface TodayMoneySection {

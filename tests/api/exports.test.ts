@@ -17,6 +17,8 @@ let ctx: TestContext;
 let treasurer: ApiClient;
 let brewer: ApiClient;
 let period: string;
+let tracedBatchId: string;
+let traceDay: string;
 
 const FORMULA_START = /^[=+\-@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/;
 const PLAIN_NUMBER = /^[+-]?(\d+([.,]\d+)?|[.,]\d+)([eE][+-]?\d+)?$/;
@@ -67,6 +69,10 @@ beforeAll(async () => {
     });
     const keg = await createKeg(ctx.db, { state: 'ready' });
     await fillKeg(ctx.db, { kegId: keg.id, at, batchId: batch.id, volumeLiters: 18.5 });
+    if (i === 0) {
+      tracedBatchId = batch.id;
+      traceDay = at.toISOString().slice(0, 10);
+    }
   }
 
   // Last month's invoice for the member: charges typed by the treasurer, one of them a credit (a negative amount).
@@ -98,6 +104,8 @@ const exportsList = () => [
   { name: 'production records XLSX', client: treasurer, url: '/api/production-records/export?format=xlsx', kind: 'xlsx' as const },
   { name: 'readings template CSV', client: brewer, url: '/api/readings/template.csv', kind: 'csv' as const },
   { name: 'readings template XLSX', client: brewer, url: '/api/readings/template.xlsx', kind: 'xlsx' as const },
+  { name: 'trace of a batch CSV', client: brewer, url: `/api/batches/${tracedBatchId}/trace.csv`, kind: 'csv' as const },
+  { name: 'trace report CSV', client: treasurer, url: `/api/reports/trace?from=${traceDay}&to=${traceDay}&format=csv`, kind: 'csv' as const },
 ];
 
 /** The files in backend/ that send a download (`.attachment(`): each must be one of the exports above. */
@@ -105,6 +113,7 @@ const exportSources = {
   'modules/billing/billing.routes.ts': 2,
   'modules/batches/production-records.routes.ts': 2,
   'modules/batches/readings.routes.ts': 2,
+  'modules/batches/trace.routes.ts': 2,
 };
 
 function backendFiles(dir: string): string[] {

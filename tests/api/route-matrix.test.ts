@@ -91,6 +91,11 @@ const expected: Record<string, Entry> = {
   'DELETE /api/batches/:id/readings/:readingId': { cells: [401, ok, 404, ok, 403, ok], record: 'reading' },
   'POST /api/batches/:id/readings/import': { cells: [401, ok, 404, ok, 403, ok], record: 'batch' },
   'GET /api/batches/:id/readings/import/progress/:progressId': { cells: ownOrStaff, record: 'importProgress' },
+  'GET /api/batches/:id/trace': { cells: ownOrStaff, record: 'batch' },
+  'GET /api/batches/:id/trace.csv': { cells: ownOrStaff, record: 'batch' },
+  'GET /api/batches/:id/trace.pdf': { cells: ownOrStaff, record: 'batch' },
+  // A member's report holds only their own batches.
+  'GET /api/reports/trace': { cells: signedIn },
   'GET /api/readings/template.csv': { cells: [401, ok, ok, ok, 403, ok] },
   'GET /api/readings/template.xlsx': { cells: [401, ok, ok, ok, 403, ok] },
   'GET /api/production-records': { cells: signedIn },

@@ -1,4 +1,4 @@
-import type { Generated } from 'kysely';
+import type { ColumnType, Generated } from 'kysely';
 import type { Json, Numeric, Timestamp } from './types.ts';
 
 export const batchStatuses = ['planned', 'fermenting', 'conditioning', 'packaged', 'discarded'] as const;
@@ -19,6 +19,10 @@ export interface BatchTable {
   packaged_at: Timestamp | null;
   packaged_liters: Numeric | null;
   notes: Generated<string>;
+  /** Allergen notes as the owner wrote them (e.g. "gluten (barley)", "lactose (milk)"). */
+  allergens: Generated<string[]>;
+  /** Overrides the co-op's shelf life for this batch's fills. */
+  shelf_life_days: ColumnType<number | null, number | null | undefined, number | null>;
   created_by: string | null;
   created_at: Generated<Date>;
   updated_at: Generated<Date>;

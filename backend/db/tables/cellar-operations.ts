@@ -82,6 +82,8 @@ export interface KegFillTable {
   sanitation_cycle_id: string | null;
   co2_grams: NumericWithDefault;
   filled_at: Timestamp;
+  /** filled_at plus the batch's shelf life, stored when the keg is filled. */
+  best_before: Timestamp | null;
   emptied_at: Timestamp | null;
   emptied_reason: string | null;
   created_at: Generated<Date>;

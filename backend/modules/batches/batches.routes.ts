@@ -20,6 +20,7 @@ import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } 
 import { loadCoopTimeZone, loadFermentationSettings } from './figures.ts';
 import { addReading, deleteReading, listReadings } from './readings.service.ts';
 import { importReadings, pruneImportProgress } from './readings-import.service.ts';
+import { addBatchTraceRoutes } from './trace.routes.ts';
 
 /** Largest file one import takes (100,000 readings are about 5 MB of CSV). */
 export const IMPORT_MAX_BYTES = 16 * 1024 * 1024;
@@ -125,6 +126,8 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: req.user!, settings, timeZone, now: clock.now() });
     res.json(result);
   });
+
+  addBatchTraceRoutes(router, { db, clock });
 
   router.get('/:id/readings/import/progress/:progressId', async (req, res) => {
     const row = await findVisibleBatch(db, req.ability, req.params.id);

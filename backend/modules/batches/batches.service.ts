@@ -32,6 +32,8 @@ export interface BatchRow {
   packaged_at: Date | null;
   packaged_liters: number | null;
   notes: string;
+  allergens: string[];
+  shelf_life_days: number | null;
   created_at: Date;
   updated_at: Date;
 }
@@ -48,6 +50,8 @@ const batchColumns = [
   'batch.packaged_at',
   'batch.packaged_liters',
   'batch.notes',
+  'batch.allergens',
+  'batch.shelf_life_days',
   'batch.created_at',
   'batch.updated_at',
 ] as const;
@@ -176,6 +180,8 @@ export async function batchDetail(db: Database, ability: AppAbility, row: BatchR
   return {
     ...toListItem(row, owner?.name ?? ''),
     notes: row.notes,
+    allergens: row.allergens ?? [],
+    shelfLifeDays: row.shelf_life_days,
     packagedAt: row.packaged_at?.toISOString() ?? null,
     packagedLiters: num(row.packaged_liters),
     updatedAt: row.updated_at.toISOString(),
@@ -244,6 +250,8 @@ export async function createBatch(
         target_og: input.targetOg ?? null,
         target_fg: input.targetFg ?? null,
         notes: input.notes,
+        allergens: input.allergens,
+        shelf_life_days: input.shelfLifeDays ?? null,
         created_by: actor.id,
       })
       .returning(batchColumns.map((c) => c.replace('batch.', '')) as never)
@@ -284,6 +292,8 @@ export async function updateBatch(
         ...(input.targetOg !== undefined ? { target_og: input.targetOg ?? null } : {}),
         ...(input.targetFg !== undefined ? { target_fg: input.targetFg ?? null } : {}),
         ...(input.notes !== undefined ? { notes: input.notes } : {}),
+        ...(input.allergens !== undefined ? { allergens: input.allergens } : {}),
+        ...(input.shelfLifeDays !== undefined ? { shelf_life_days: input.shelfLifeDays ?? null } : {}),
         ...(input.status !== undefined ? { status: input.status } : {}),
         ...(input.packagedLiters !== undefined ? { packaged_liters: input.packagedLiters ?? null } : {}),
         ...(input.packagedAt !== undefined ? { packaged_at: input.packagedAt ?? null } : {}),

@@ -13,6 +13,7 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { effectiveStateSql, freshUntilSql, setVesselState } from '../sanitation/vessel-state.ts';
+import { beerFacts, defaultShelfLifeSettings, type BestBeforeState } from '../../../shared/cellar/trace.ts';
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
 const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
@@ -42,6 +43,7 @@ function kegBase(db: Database) {
     .leftJoin('app_user as m', 'm.id', 'kw.member_id')
     .leftJoin('keg_fill as kf', (j) => j.onRef('kf.keg_id', '=', 'e.id').on('kf.emptied_at', 'is', null))
     .leftJoin('batch as b', 'b.id', 'kf.batch_id')
+    .leftJoin('transfer as tr', 'tr.id', 'kf.transfer_id')
     .leftJoin('carbonation_plan as cp', (j) => j.onRef('cp.keg_id', '=', 'e.id').on('cp.state', '=', 'active'))
     .where('e.kind', '=', 'keg');
 }
@@ -79,6 +81,15 @@ function selectKeg(q: KegBase, now: Date) {
     'kf.fg',
     'kf.abv',
     'kf.filled_at',
+    'kf.best_before',
+    // Past, or within the co-op's warning days of it (Settings, shelf life).
+    sql<BestBeforeState | null>`(case when kf.best_before is null then null when kf.best_before <= ${now} then 'past'
+      when kf.best_before <= ${now}::timestamptz + make_interval(days => coalesce((select (s.value->>'nearDays')::int from setting s where s.key = 'shelf_life'), ${defaultShelfLifeSettings.nearDays})) then 'near'
+      else 'ok' end)`.as('best_before_state'),
+    'b.allergens',
+    'tr.finings_kind',
+    'tr.finings_amount',
+    'tr.finings_unit',
     'cp.id as plan_id',
     'cp.method as plan_method',
     'cp.target_volumes',
@@ -124,6 +135,9 @@ function toKegView(r: KegRow, showOwner: boolean): KegView {
           fg: num(r.fg),
           abv: num(r.abv),
           filledAt: iso(r.filled_at)!,
+          bestBefore: iso(r.best_before),
+          bestBeforeState: r.best_before_state,
+          ...beerFacts(r.allergens ?? [], r.finings_kind ? [{ kind: r.finings_kind, dose: Number(r.finings_amount), unit: r.finings_unit ?? '' }] : []),
         }
       : null,
     carbonation: r.plan_id

@@ -1,6 +1,7 @@
 import { sql } from 'kysely';
 import type { TodayCellarSection, TodayMemberSection } from '../../../shared/schemas/today.ts';
 import type { Database } from '../../db/database.ts';
+import { bestBeforeKegs } from './best-before.ts';
 
 const DAY = 24 * 3600_000;
 
@@ -39,7 +40,9 @@ export async function memberSection(db: Database, memberId: string, now: Date): 
       .orderBy('equipment.code')
       .execute(),
   ]);
+  const bestBefore = await bestBeforeKegs(db, now, { memberId, showOwners: true });
   return {
+    bestBefore,
     bookings: bookings.map((b) => ({
       id: b.id,
       equipmentId: b.equipment_id,
@@ -116,7 +119,9 @@ export async function cellarSection(db: Database, now: Date, showOwners: boolean
       .limit(20)
       .execute(),
   ]);
+  const bestBefore = await bestBeforeKegs(db, now, { showOwners });
   return {
+    bestBefore,
     needsCleaning: {
       total: dirtyTotal.n,
       items: dirtyItems.map((e) => ({

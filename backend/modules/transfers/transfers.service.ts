@@ -5,6 +5,7 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { batchGravityFigures } from '../batches/figures.ts';
+import { fillBestBefore } from '../batches/shelf-life.ts';
 import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
 import { setVesselState } from '../sanitation/vessel-state.ts';
 
@@ -174,6 +175,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
       .executeTakeFirstOrThrow();
 
     const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
+    const bestBefore = await fillBestBefore(trx, batch.id, at);
     for (const [i, k] of ordered.entries()) {
       await trx
         .insertInto('keg_fill')
@@ -189,6 +191,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
           sanitation_cycle_id: k.last_cycle_id,
           co2_grams: perKegCo2,
           filled_at: at,
+          best_before: bestBefore,
         })
         .execute();
       await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);

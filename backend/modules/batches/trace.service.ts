@@ -1,0 +1,358 @@
+import Papa from 'papaparse';
+import { sql } from 'kysely';
+import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
+import { beerFacts, bestBeforeState, type FiningsDose } from '../../../shared/cellar/trace.ts';
+import { alcoholCaution, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
+import type { KegWhereabouts } from '../../../shared/schemas/kegs.ts';
+import type { BatchTrace, TraceFill, TraceReport } from '../../../shared/schemas/trace.ts';
+import type { Database } from '../../db/database.ts';
+import type { BatchStatus } from '../../db/tables/batches.ts';
+import { csvCell, type ExportCell } from '../../lib/export-cells.ts';
+import { pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { effectiveStateSql } from '../sanitation/vessel-state.ts';
+import { loadShelfLifeSettings } from './shelf-life.ts';
+
+const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
+const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+const round2 = (v: number) => Math.round(v * 100) / 100;
+
+/** Who is looking: holders' names only for those who may see them (or the holder themself). */
+export interface TraceViewer {
+  id: string;
+  mayNameHolder: (memberId: string) => boolean;
+}
+
+interface FillScope {
+  batchIds: string[];
+  from?: Date;
+  to?: Date;
+}
+
+async function loadFills(db: Database, scope: FillScope, viewer: TraceViewer, now: Date, nearDays: number): Promise<Map<string, TraceFill[]>> {
+  const out = new Map<string, TraceFill[]>();
+  if (!scope.batchIds.length) return out;
+  let q = db
+    .selectFrom('keg_fill as kf')
+    .innerJoin('equipment as e', 'e.id', 'kf.keg_id')
+    .leftJoin('transfer as t', 't.id', 'kf.transfer_id')
+    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'kf.keg_id')
+    .leftJoin('equipment as tap', 'tap.id', 'kw.tap_id')
+    .leftJoin('app_user as m', 'm.id', 'kw.member_id')
+    .select((eb) => [
+      'kf.id',
+      'kf.batch_id',
+      'kf.keg_id',
+      'e.code',
+      'kf.filled_at',
+      'kf.volume_liters',
+      'kf.remaining_liters',
+      'kf.emptied_at',
+      'kf.best_before',
+      't.finings_kind',
+      't.finings_amount',
+      't.finings_unit',
+      effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('state'),
+      sql<KegWhereabouts>`coalesce(kw.whereabouts, 'cellar')`.as('whereabouts'),
+      'kw.tap_id',
+      'tap.code as tap_code',
+      'tap.name as tap_name',
+      'tap.attributes as tap_attributes',
+      'kw.member_id',
+      'm.name as member_name',
+      'kw.due_at',
+    ])
+    .where('kf.batch_id', 'in', scope.batchIds);
+  if (scope.from) q = q.where('kf.filled_at', '>=', scope.from);
+  if (scope.to) q = q.where('kf.filled_at', '<', scope.to);
+  const rows = await q.orderBy('kf.filled_at').orderBy('e.code').execute();
+  if (!rows.length) return out;
+
+  // Who took each keg out, and which taps it was on, while it held this fill.
+  const movements = await db
+    .selectFrom('keg_movement as km')
+    .leftJoin('app_user as u', 'u.id', 'km.member_id')
+    .leftJoin('equipment as tap', 'tap.id', 'km.tap_id')
+    .select(['km.keg_id', 'km.action', 'km.at', 'km.member_id', 'u.name as member_name', 'km.due_at', 'km.tap_id', 'tap.code as tap_code'])
+    .where('km.keg_id', 'in', [...new Set(rows.map((r) => r.keg_id))])
+    .where('km.action', 'in', ['checked_out', 'tapped'])
+    .orderBy('km.at')
+    .execute();
+
+  for (const r of rows) {
+    const open = r.emptied_at === null;
+    const start = new Date(r.filled_at).getTime();
+    const end = r.emptied_at ? new Date(r.emptied_at).getTime() : Infinity;
+    const during = movements.filter((m) => m.keg_id === r.keg_id && new Date(m.at).getTime() >= start && new Date(m.at).getTime() < end);
+    const finings: FiningsDose[] = r.finings_kind ? [{ kind: r.finings_kind, dose: Number(r.finings_amount), unit: r.finings_unit ?? '' }] : [];
+    const named = (id: string | null) => Boolean(id && viewer.mayNameHolder(id));
+    const fill: TraceFill = {
+      fillId: r.id,
+      kegId: r.keg_id,
+      code: r.code,
+      filledAt: iso(r.filled_at)!,
+      volumeLiters: Number(r.volume_liters),
+      remainingLiters: Number(r.remaining_liters),
+      holdsBatch: open,
+      emptiedAt: iso(r.emptied_at),
+      state: r.state,
+      whereabouts: r.whereabouts,
+      // Whereabouts says "with a member"; who, only for those who may know.
+      holder: open && r.member_id && named(r.member_id) ? { id: r.member_id, name: r.member_name ?? '' } : null,
+      dueAt: open ? iso(r.due_at) : null,
+      tap:
+        open && r.tap_id
+          ? { id: r.tap_id, code: r.tap_code ?? '', name: r.tap_name ?? '', position: ((r.tap_attributes ?? {}) as { position?: string }).position ?? null }
+          : null,
+      bestBefore: iso(r.best_before),
+      bestBeforeState: r.best_before && open ? bestBeforeState(r.best_before, now, nearDays) : null,
+      finings,
+      takenBy: during
+        .filter((m) => m.action === 'checked_out')
+        .map((m) => ({
+          memberId: named(m.member_id) ? m.member_id : null,
+          name: named(m.member_id) ? (m.member_name ?? null) : null,
+          at: iso(m.at)!,
+          dueAt: iso(m.due_at),
+        })),
+      servedOn: during.filter((m) => m.action === 'tapped' && m.tap_id).map((m) => ({ tapId: m.tap_id!, code: m.tap_code ?? '', at: iso(m.at)! })),
+    };
+    const list = out.get(r.batch_id) ?? [];
+    list.push(fill);
+    out.set(r.batch_id, list);
+  }
+  return out;
+}
+
+interface TraceBatchRow {
+  id: string;
+  name: string;
+  style: string;
+  status: BatchStatus;
+  owner_id: string;
+  owner_name: string;
+  packaged_at: Date | null;
+  packaged_liters: unknown;
+  shelf_life_days: number | null;
+  allergens: string[];
+}
+
+function batchTraceOf(b: TraceBatchRow, fills: TraceFill[], finings: FiningsDose[]): BatchTrace {
+  const facts = beerFacts(b.allergens ?? [], finings);
+  return {
+    batch: {
+      id: b.id,
+      name: b.name,
+      style: b.style,
+      status: b.status,
+      ownerId: b.owner_id,
+      ownerName: b.owner_name,
+      packagedAt: iso(b.packaged_at),
+      packagedLiters: num(b.packaged_liters),
+      shelfLifeDays: b.shelf_life_days,
+    },
+    fills,
+    finings: facts.finings,
+    allergens: facts.allergens,
+    vegan: facts.vegan,
+    totals: {
+      kegs: fills.length,
+      liters: round2(fills.reduce((s, f) => s + f.volumeLiters, 0)),
+      holding: fills.filter((f) => f.holdsBatch).length,
+      withMembers: fills.filter((f) => f.holdsBatch && f.whereabouts === 'with_member').length,
+      onTaps: fills.filter((f) => f.holdsBatch && f.tap).length,
+    },
+  };
+}
+
+function batchRows(db: Database) {
+  return db
+    .selectFrom('batch as b')
+    .innerJoin('app_user as o', 'o.id', 'b.owner_id')
+    .select(['b.id', 'b.name', 'b.style', 'b.status', 'b.owner_id', 'o.name as owner_name', 'b.packaged_at', 'b.packaged_liters', 'b.shelf_life_days', 'b.allergens']);
+}
+
+/** Every transfer's finings of these batches, oldest first. */
+async function loadFinings(db: Database, batchIds: string[]): Promise<Map<string, FiningsDose[]>> {
+  const out = new Map<string, FiningsDose[]>();
+  if (!batchIds.length) return out;
+  const rows = await db
+    .selectFrom('transfer')
+    .select(['batch_id', 'finings_kind', 'finings_amount', 'finings_unit'])
+    .where('batch_id', 'in', batchIds)
+    .where('finings_kind', 'is not', null)
+    .orderBy('transferred_at')
+    .execute();
+  for (const r of rows) {
+    const list = out.get(r.batch_id) ?? [];
+    list.push({ kind: r.finings_kind!, dose: Number(r.finings_amount), unit: r.finings_unit ?? '' });
+    out.set(r.batch_id, list);
+  }
+  return out;
+}
+
+/** Every keg a batch went into and where each is now, with what the beer carries (allergens, vegan, best-before). */
+export async function batchTrace(db: Database, batchId: string, viewer: TraceViewer, now: Date): Promise<BatchTrace> {
+  const settings = await loadShelfLifeSettings(db);
+  const [b, fills, finings] = await Promise.all([
+    batchRows(db).where('b.id', '=', batchId).executeTakeFirstOrThrow(),
+    loadFills(db, { batchIds: [batchId] }, viewer, now, settings.nearDays),
+    loadFinings(db, [batchId]),
+  ]);
+  return batchTraceOf(b as TraceBatchRow, fills.get(batchId) ?? [], finings.get(batchId) ?? []);
+}
+
+const dayStart = (d: string) => new Date(`${d}T00:00:00Z`);
+
+/** Every fill made in [from, to] (whole UTC days), by batch; `ownerId` limits it to one member's batches. */
+export async function traceReport(db: Database, q: { from: string; to: string; ownerId?: string | undefined }, viewer: TraceViewer, now: Date): Promise<TraceReport> {
+  const from = dayStart(q.from);
+  const to = new Date(dayStart(q.to).getTime() + 86_400_000);
+  let ids = db.selectFrom('keg_fill as kf').innerJoin('batch as b', 'b.id', 'kf.batch_id').select('kf.batch_id').distinct().where('kf.filled_at', '>=', from).where('kf.filled_at', '<', to);
+  if (q.ownerId) ids = ids.where('b.owner_id', '=', q.ownerId);
+  const batchIds = (await ids.execute()).map((r) => r.batch_id);
+  const settings = await loadShelfLifeSettings(db);
+  const [batches, fills, finings] = await Promise.all([
+    batchIds.length ? batchRows(db).where('b.id', 'in', batchIds).execute() : Promise.resolve([]),
+    loadFills(db, { batchIds, from, to }, viewer, now, settings.nearDays),
+    loadFinings(db, batchIds),
+  ]);
+  const traces = batches.map((b) => batchTraceOf(b as TraceBatchRow, fills.get(b.id) ?? [], finings.get(b.id) ?? []));
+  traces.sort((a, b) => a.fills[0]!.filledAt.localeCompare(b.fills[0]!.filledAt) || a.batch.name.localeCompare(b.batch.name));
+  return { from: q.from, to: q.to, generatedAt: now.toISOString(), batches: traces };
+}
+
+// ---------------------------------------------------------------------------------------------
+// CSV and PDF: one row per keg fill.
+// ---------------------------------------------------------------------------------------------
+
+const whereLabel: Record<string, string> = { cellar: 'cellar', cold_room: 'cold room', with_member: 'with a member', missing: 'missing' };
+const dosesText = (f: FiningsDose[]) => f.map((d) => `${d.kind} ${d.dose} ${d.unit}`.trim()).join('; ');
+const day = (v: string | null | undefined) => (v ? v.slice(0, 10) : '');
+
+const csvColumns = [
+  'Batch',
+  'Style',
+  'Owner',
+  'Allergens',
+  'Vegan',
+  'Keg',
+  'Filled',
+  'Litres filled',
+  'Litres left',
+  'Best before',
+  'Finings',
+  'Holds this beer now',
+  'Where now',
+  'Holder',
+  'Due back',
+  'Tap now',
+  'Taken out by',
+  'Served on taps',
+  'Emptied',
+] as const;
+
+function csvRows(t: BatchTrace): ExportCell[][] {
+  return t.fills.map((f) => [
+    t.batch.name,
+    t.batch.style,
+    t.batch.ownerName,
+    t.allergens.join('; '),
+    t.vegan ? 'yes' : 'no',
+    f.code,
+    f.filledAt,
+    f.volumeLiters,
+    f.remainingLiters,
+    day(f.bestBefore),
+    dosesText(f.finings),
+    f.holdsBatch ? 'yes' : 'no',
+    f.holdsBatch ? (whereLabel[f.whereabouts] ?? f.whereabouts) : '',
+    f.holder?.name ?? '',
+    day(f.dueAt),
+    f.tap?.code ?? '',
+    f.takenBy.map((m) => `${m.name ?? 'a member'} ${day(m.at)}`).join('; '),
+    f.servedOn.map((s) => `${s.code} ${day(s.at)}`).join('; '),
+    f.emptiedAt ?? '',
+  ]);
+}
+
+/** The trace as CSV, one row per keg fill; text as typed is neutralised (backend/lib/export-cells.ts). */
+export function traceCsv(traces: BatchTrace[]): string {
+  const data: ExportCell[][] = [[...csvColumns], ...traces.flatMap(csvRows)];
+  return `\uFEFF${Papa.unparse(data.map((r) => r.map(csvCell)), { newline: '\r\n' })}\r\n`;
+}
+
+const ink = '#1f2328';
+const muted = '#5b6470';
+const danger = '#9a2a1c';
+const coopName = 'Larkspur Yard Brewing Co-op';
+
+function batchBlock(t: BatchTrace): Content[] {
+  const header = ['Keg', 'Filled', 'L', 'Left', 'Best before', 'Now', 'Holder / tap', 'Taken out by', 'Served on'].map((text) => ({ text, color: muted, fontSize: 7 }));
+  const body = t.fills.map((f) => [
+    f.code,
+    day(f.filledAt),
+    f.volumeLiters.toFixed(1),
+    f.remainingLiters.toFixed(1),
+    `${day(f.bestBefore)}${f.bestBeforeState === 'past' ? ' (past)' : f.bestBeforeState === 'near' ? ' (near)' : ''}`,
+    f.holdsBatch ? (whereLabel[f.whereabouts] ?? f.whereabouts) : `emptied ${day(f.emptiedAt)}`,
+    [f.holder?.name, f.tap ? `tap ${f.tap.code}` : ''].filter(Boolean).join(' · '),
+    f.takenBy.map((m) => `${m.name ?? 'a member'} ${day(m.at)}`).join('\n'),
+    f.servedOn.map((s) => `${s.code} ${day(s.at)}`).join('\n'),
+  ]);
+  return [
+    { text: `${t.batch.name}${t.batch.style ? ` · ${t.batch.style}` : ''}`, fontSize: 12, margin: [0, 12, 0, 2] },
+    {
+      text: [
+        { text: 'Owner ', color: muted },
+        t.batch.ownerName,
+        { text: '   Allergens ', color: muted },
+        t.allergens.length ? t.allergens.join(', ') : 'none noted',
+        { text: '   Vegan ', color: muted },
+        t.vegan ? 'yes' : 'no',
+        { text: '   Finings ', color: muted },
+        t.finings.length ? dosesText(t.finings) : 'none',
+      ],
+    },
+    {
+      text: `${t.totals.kegs} keg${t.totals.kegs === 1 ? '' : 's'}, ${t.totals.liters.toFixed(1)} L; ${t.totals.holding} still holding it (${t.totals.withMembers} with members, ${t.totals.onTaps} on taps).`,
+      color: muted,
+      margin: [0, 2, 0, 4],
+    },
+    t.fills.length
+      ? { table: { headerRows: 1, widths: ['auto', 'auto', 'auto', 'auto', 'auto', 'auto', '*', '*', 'auto'], body: [header, ...body] }, layout: 'lightHorizontalLines' }
+      : { text: 'No kegs filled.', color: muted },
+  ];
+}
+
+/** The trace as a PDF (one batch, or every batch filled in a date range). */
+export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], now: Date): Promise<Buffer> {
+  const doc: TDocumentDefinitions = {
+    pageSize: 'A4',
+    pageOrientation: 'landscape',
+    pageMargins: [36, 40, 36, 40],
+    info: { title, author: coopName, creator: 'Cellarwright' },
+    defaultStyle: { font: pdfFont, fontSize: 8, color: ink, lineHeight: 1.1 },
+    footer: (page, pages) => ({
+      margin: [36, 10, 36, 0],
+      columns: [
+        { text: `Produced ${now.toISOString().slice(0, 16).replace('T', ' ')} UTC by Cellarwright`, fontSize: 7, color: muted },
+        { text: `Page ${page} of ${pages}`, alignment: 'right', fontSize: 7, color: muted },
+      ],
+    }),
+    content: [
+      { text: title, fontSize: 18 },
+      { text: coopName, fontSize: 11, color: '#a0522d', margin: [0, 2, 0, 0] },
+      { text: subtitle, color: muted, margin: [0, 4, 0, 0] },
+      ...(traces.length ? traces.flatMap(batchBlock) : [{ text: 'No kegs were filled in this range.', margin: [0, 12, 0, 0] } as Content]),
+      {
+        text: 'Allergens are the batch’s own notes and what its finings add (gelatin and isinglass are animal-derived, so not vegan; silica finings are vegan: common practice). Labels and recalls: local food rules govern what must be declared.',
+        color: muted,
+        margin: [0, 14, 0, 0],
+      },
+      { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 12, 0, 4] },
+      { ul: [...pressureCautions, alcoholCaution] },
+      { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
+    ],
+  };
+  return renderPdf(doc);
+}
