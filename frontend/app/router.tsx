@@ -104,6 +104,7 @@ export const routes: RouteObject[] = [
               { path: `${paths.batches.slice(1)}/:batchId`, lazy: lazy(() => import('@/app/routes/batches/batch')) },
               { path: `${paths.batches.slice(1)}/:batchId/import`, lazy: lazy(() => import('@/app/routes/batches/import')) },
               { path: paths.productionRecords.slice(1), lazy: lazy(() => import('@/app/routes/batches/production-records')) },
+              { path: paths.traceReport.slice(1), lazy: lazy(() => import('@/app/routes/batches/trace-report')) },
               { path: paths.settings.slice(1), lazy: lazy(() => import('@/app/routes/settings/settings')) },
               {
                 path: paths.sanitation.slice(1),

@@ -39,6 +39,7 @@ export const mainNav: NavEntry[] = [
         ready: true,
         allowed: (a) => a.can('read', 'ProductionRecord'),
       },
+      { key: 'trace-report', label: 'Trace report', to: paths.traceReport, ready: true, allowed: (a) => a.can('read', 'Batch') },
     ],
   },
   { key: 'kegs', label: 'Kegs', to: paths.kegs, ready: true, allowed: (a) => a.can('read', 'Keg') },

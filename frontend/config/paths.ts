@@ -14,6 +14,7 @@ export const paths = {
   bookings: '/bookings',
   batches: '/batches',
   productionRecords: '/production-records',
+  traceReport: '/trace-report',
   kegs: '/kegs',
   sanitation: '/sanitation',
   billing: '/billing',

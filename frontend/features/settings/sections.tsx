@@ -3,6 +3,7 @@ import type { SettingKey } from '../../../shared/schemas/settings.ts';
 import { settingSections } from '../../../shared/schemas/settings.ts';
 import { BookingRulesSection } from '@/features/settings/components/booking-rules-form';
 import { FermentationSettingsSection } from '@/features/batches/components/fermentation-settings-form';
+import { ShelfLifeSettingsSection } from '@/features/batches/components/shelf-life-settings-form';
 import { CarbonationSettingsSection, SanitationSettingsSection } from '@/features/cellar-ops/components/cellar-settings-forms';
 
 /**
@@ -19,6 +20,7 @@ export const settingsScreenSections: SettingsScreenSection[] = [
   { key: 'fermentation', Component: FermentationSettingsSection },
   { key: 'sanitation', Component: SanitationSettingsSection },
   { key: 'carbonation', Component: CarbonationSettingsSection },
+  { key: 'shelf_life', Component: ShelfLifeSettingsSection },
 ];
 
 export const sectionTitle = (key: SettingKey) => settingSections[key].title;

@@ -16,6 +16,7 @@ import { BatchStatusBadge } from '@/features/batches/components/batch-status-bad
 import { GravityChart } from '@/features/batches/components/gravity-chart';
 import { ReadingFormDialog } from '@/features/batches/components/reading-form-dialog';
 import { ReadingsTable } from '@/features/batches/components/readings-table';
+import { BatchTraceSection } from '@/features/batches/components/batch-trace-section';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { problemMessage } from '@/lib/api-client';
@@ -119,6 +120,8 @@ const BatchRoute = () => {
         <h2 className="text-lg">Readings</h2>
         <ReadingsTable batch={batch} />
       </section>
+
+      <BatchTraceSection batch={batch} />
 
       {batch.notes ? (
         <section className="flex flex-col gap-1">

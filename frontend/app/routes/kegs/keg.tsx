@@ -10,7 +10,7 @@ import { PageLoader, Spinner } from '@/components/ui/spinner';
 import { useKeg, useKegAction, useKegHistory, useMemberOptions, useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { usePlanAction } from '@/features/cellar-ops/api/carbonation';
 import { Cautions } from '@/features/cellar-ops/components/cautions';
-import { FillGauge, Whereabouts } from '@/features/cellar-ops/components/keg-bits';
+import { BeerNotes, BestBefore, FillGauge, Whereabouts } from '@/features/cellar-ops/components/keg-bits';
 import { BigInput, BigSelect } from '@/features/cellar-ops/components/touch';
 import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
@@ -260,6 +260,11 @@ const KegRoute = () => {
                 <dd>
                   {formatDateTime(k.contents.filledAt)} · {units.volume(k.contents.volumeLiters)}
                 </dd>
+                <dt className="text-ink-muted">Best before</dt>
+                <dd>
+                  <BestBefore contents={k.contents} />
+                </dd>
+                <BeerNotes contents={k.contents} />
                 <dt className="text-ink-muted">Left</dt>
                 <dd>
                   <FillGauge keg={k} />

@@ -4,7 +4,7 @@ import { Badge } from '@/components/ui/badge';
 import { Spinner } from '@/components/ui/spinner';
 import { useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { Cautions } from '@/features/cellar-ops/components/cautions';
-import { FillGauge } from '@/features/cellar-ops/components/keg-bits';
+import { BeerNotes, FillGauge } from '@/features/cellar-ops/components/keg-bits';
 import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -42,6 +42,12 @@ const TapBoardRoute = () => {
                       {t.keg.contents.abv !== null ? ` · ${t.keg.contents.abv.toFixed(1)} % ABV` : ''}
                     </p>
                     <FillGauge keg={t.keg} large />
+                    <BeerNotes contents={t.keg.contents} compact />
+                    {t.keg.contents.bestBefore ? (
+                      <p className={`text-xs ${t.keg.contents.bestBeforeState === 'past' ? 'font-medium text-danger' : 'text-ink-muted'}`}>
+                        {t.keg.contents.bestBeforeState === 'past' ? 'Past best-before' : 'Best before'} {formatDate(t.keg.contents.bestBefore)}
+                      </p>
+                    ) : null}
                   </>
                 ) : (
                   <p className="text-sm text-ink-muted">Empty</p>

@@ -3,6 +3,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
+import { allergenSuggestions } from '../../../../shared/cellar/trace.ts';
 import type { BatchDetail } from '../../../../shared/schemas/batches.ts';
 import type { Booking } from '../../../../shared/schemas/booking.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
@@ -27,6 +28,9 @@ const formSchema = z
     targetOg: z.number().min(0.98, 'From 0.980 to 1.200').max(1.2, 'From 0.980 to 1.200').nullable(),
     targetFg: z.number().min(0.98, 'From 0.980 to 1.200').max(1.2, 'From 0.980 to 1.200').nullable(),
     notes: z.string().max(4000, 'Keep the notes under 4,000 characters'),
+    /** Comma-separated allergen notes. */
+    allergens: z.string().max(1200, 'Keep the allergen notes shorter'),
+    shelfLifeDays: z.number().int('Whole days').min(1, 'At least 1 day').max(3650, 'At most 10 years').nullable(),
     bookingId: z.string(),
   })
   .refine((v) => v.targetOg == null || v.targetFg == null || v.targetFg < v.targetOg, { path: ['targetFg'], message: 'The target FG must be below the target OG' });
@@ -62,7 +66,7 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
   const [formError, setFormError] = useState<string | null>(null);
   const bookings = useFermenterBookings(batch?.ownerId, !batch);
   const linked = batch?.bookings[0]?.id ?? '';
-  const { register, handleSubmit, setError, formState: { errors } } = useForm<FormValues>({
+  const { register, handleSubmit, setError, getValues, setValue, formState: { errors } } = useForm<FormValues>({
     resolver: zodResolver(formSchema),
     defaultValues: {
       name: batch?.name ?? '',
@@ -71,9 +75,15 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
       targetOg: batch?.targetOg ?? null,
       targetFg: batch?.targetFg ?? null,
       notes: batch?.notes ?? '',
+      allergens: batch?.allergens.join(', ') ?? '',
+      shelfLifeDays: batch?.shelfLifeDays ?? null,
       bookingId: linked,
     },
   });
+  const addAllergen = (a: string) => {
+    const list = getValues('allergens').split(',').map((x) => x.trim()).filter(Boolean);
+    if (!list.some((x) => x.toLowerCase() === a)) setValue('allergens', [...list, a].join(', '), { shouldDirty: true });
+  };
   const choices = (bookings.data?.items ?? []).filter((b) => b.state !== 'cancelled' && (!b.batchId || b.batchId === batch?.id));
 
   const onSubmit = handleSubmit((v) => {
@@ -85,9 +95,11 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
       targetOg: v.targetOg,
       targetFg: v.targetFg,
       notes: v.notes,
+      allergens: v.allergens.split(',').map((x) => x.trim()).filter(Boolean),
+      shelfLifeDays: v.shelfLifeDays,
     };
     const onError = (error: unknown) => {
-      const rest = applyProblemToForm(error, setError, ['name', 'style', 'targetOg', 'targetFg', 'notes', 'bookingId']);
+      const rest = applyProblemToForm(error, setError, ['name', 'style', 'targetOg', 'targetFg', 'notes', 'allergens', 'shelfLifeDays', 'bookingId']);
       if (rest.length) setFormError(rest.join(' '));
     };
     if (batch) {
@@ -118,6 +130,19 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
           {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" {...register('targetFg', { setValueAs: numberOrNull })} />}
         </Field>
       </div>
+      <Field label="Allergens" hint="Comma-separated; finings recorded at transfer add theirs (gelatin and isinglass make the beer not vegan)." error={errors.allergens?.message}>
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" placeholder="e.g. gluten (barley), lactose (milk)" {...register('allergens')} />}
+      </Field>
+      <div className="-mt-2 flex flex-wrap gap-1.5" aria-label="Suggested allergens">
+        {allergenSuggestions.map((a) => (
+          <button key={a} type="button" className="rounded-sm border border-line-strong px-1.5 py-px text-xs text-ink-muted hover:text-ink" onClick={() => addAllergen(a)}>
+            + {a}
+          </button>
+        ))}
+      </div>
+      <Field label="Shelf life (days)" hint="Leave empty for the co-op’s shelf life for this style (Settings). Each keg filled gets a best-before from it." error={errors.shelfLifeDays?.message}>
+        {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="numeric" className="w-32" {...register('shelfLifeDays', { setValueAs: numberOrNull })} />}
+      </Field>
       <Field label="Fermenter booking" hint="The fermenter booking that holds this batch." error={errors.bookingId?.message}>
         {({ invalid, ...c }) => (
           <Select {...c} invalid={invalid} {...register('bookingId')}>

@@ -1,4 +1,4 @@
-import { kegWhereaboutsLabels, type KegView } from '../../../../shared/schemas/kegs.ts';
+import { kegWhereaboutsLabels, type KegContents, type KegView } from '../../../../shared/schemas/kegs.ts';
 import { Badge } from '@/components/ui/badge';
 import { useUnits } from '@/hooks/use-units';
 import { formatDate } from '@/utils/format';
@@ -39,5 +39,41 @@ export const FillGauge = ({ keg, large = false }: { keg: KegView; large?: boolea
       </span>
       <span className="whitespace-nowrap">{units.volume(keg.contents.remainingLiters)}</span>
     </span>
+  );
+};
+
+/** Best-before of a fill, with a badge once it is near or past. */
+export const BestBefore = ({ contents }: { contents: KegContents }) =>
+  contents.bestBefore ? (
+    <span className="inline-flex flex-wrap items-center gap-1.5">
+      <span>{formatDate(contents.bestBefore)}</span>
+      {contents.bestBeforeState === 'past' ? <Badge tone="danger">Past best-before</Badge> : contents.bestBeforeState === 'near' ? <Badge tone="due">Near best-before</Badge> : null}
+    </span>
+  ) : (
+    <span className="text-ink-muted">not recorded</span>
+  );
+
+/** Finings and allergen notes that came with the beer, and whether it is vegan. */
+export const BeerNotes = ({ contents, compact = false }: { contents: KegContents; compact?: boolean }) => {
+  const finings = contents.finings.length ? contents.finings.map((f) => `${f.kind} (${f.dose} ${f.unit})`).join(', ') : 'none';
+  const allergens = contents.allergens.length ? contents.allergens.join(', ') : 'none noted';
+  if (compact) {
+    return (
+      <p className="flex flex-wrap items-center gap-1.5 text-xs text-ink-muted">
+        <span>Allergens: {allergens}</span>
+        {contents.finings.length ? <span>· Finings: {finings}</span> : null}
+        <Badge tone={contents.vegan ? 'ready' : 'neutral'}>{contents.vegan ? 'Vegan' : 'Not vegan'}</Badge>
+      </p>
+    );
+  }
+  return (
+    <>
+      <dt className="text-ink-muted">Finings</dt>
+      <dd>{finings}</dd>
+      <dt className="text-ink-muted">Allergens</dt>
+      <dd>{allergens}</dd>
+      <dt className="text-ink-muted">Vegan</dt>
+      <dd>{contents.vegan ? 'Yes' : 'No'}</dd>
+    </>
   );
 };

@@ -1,6 +1,6 @@
 import { lazy, Suspense, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
-import type { TodayCellarSection, TodayMemberSection, TodayMoneySection } from '../../../../shared/schemas/today.ts';
+import type { TodayBestBefore, TodayCellarSection, TodayMemberSection, TodayMoneySection } from '../../../../shared/schemas/today.ts';
 import { Badge } from '@/components/ui/badge';
 import { paths } from '@/config/paths';
 import { Money } from '@/features/billing/components/money';
@@ -24,6 +24,32 @@ const Card = ({ title, count, tone, children, action }: { title: string; count?:
 const Empty = ({ children }: { children: ReactNode }) => <p className="text-ink-muted">{children}</p>;
 const rows = 'flex flex-col divide-y divide-line';
 const row = 'flex items-baseline justify-between gap-3 py-1.5';
+
+const whereWords: Record<string, string> = { cellar: 'cellar', cold_room: 'cold room', with_member: 'with a member', missing: 'missing' };
+
+/** Kegs still holding beer past or near their best-before (the co-op's warning days, Settings › Shelf life). */
+const BestBeforeCard = ({ list, mine = false }: { list: TodayBestBefore; mine?: boolean }) => (
+  <Card title={mine ? 'Your kegs near best-before' : 'Kegs near best-before'} count={list.total} tone={list.items.some((k) => k.state === 'past') ? 'danger' : 'due'}>
+    {list.total === 0 ? (
+      <Empty>{mine ? 'No keg with you is within' : 'No keg holding beer is within'} {pluralize(list.nearDays, 'day')} of its best-before.</Empty>
+    ) : (
+      <ul className={rows}>
+        {list.items.map((k) => (
+          <li key={k.kegId} className={row}>
+            <Link to={cellarPaths.keg(k.kegId)}>
+              {k.code} · {k.batchName}
+            </Link>
+            <span className={k.state === 'past' ? 'font-medium text-danger' : 'text-ink-muted'}>
+              {k.state === 'past' ? 'past best-before' : 'best before'} {formatDate(k.bestBefore)}
+              {mine ? '' : ` · ${k.tapCode ? `on ${k.tapCode}` : k.memberName ?? whereWords[k.whereabouts] ?? k.whereabouts}`}
+            </span>
+          </li>
+        ))}
+        {list.total > list.items.length ? <li className="py-1.5 text-ink-muted">and {list.total - list.items.length} more</li> : null}
+      </ul>
+    )}
+  </Card>
+);
 
 export const MemberToday = ({ section }: { section: TodayMemberSection }) => (
   <div className="grid gap-3 md:grid-cols-2">
@@ -77,6 +103,7 @@ export const MemberToday = ({ section }: { section: TodayMemberSection }) => (
         </ul>
       )}
     </Card>
+    {section.bestBefore.total > 0 ? <BestBeforeCard list={section.bestBefore} mine /> : null}
     {section.balance ? (
       <Card title="Your balance" action={<Link to={paths.myInvoices}>Your invoices</Link>}>
         <p className="text-xl">
@@ -164,6 +191,7 @@ export const CellarToday = ({ section }: { section: TodayCellarSection }) => (
         </ul>
       )}
     </Card>
+    <BestBeforeCard list={section.bestBefore} />
   </div>
 );
 

@@ -1,0 +1,31 @@
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import type { BatchTrace, TraceReport } from '../../../../shared/schemas/trace.ts';
+import { api, buildUrl } from '@/lib/api-client';
+import { batchKeys } from '@/features/batches/api/get-batches';
+
+export const getBatchTraceQueryOptions = (id: string) =>
+  queryOptions({
+    queryKey: [...batchKeys.detail(id), 'trace'],
+    queryFn: ({ signal }) => api.get<BatchTrace>(`/api/batches/${encodeURIComponent(id)}/trace`, { signal }),
+  });
+
+/** Every keg the batch went into and where each is now. */
+export function useBatchTrace(id: string) {
+  return useQuery(getBatchTraceQueryOptions(id));
+}
+
+export const batchTraceHref = (id: string, format: 'csv' | 'pdf') => `/api/batches/${encodeURIComponent(id)}/trace.${format}`;
+
+export const getTraceReportQueryOptions = (from: string, to: string) =>
+  queryOptions({
+    queryKey: ['trace-report', { from, to }],
+    queryFn: ({ signal }) => api.get<TraceReport>('/api/reports/trace', { query: { from, to }, signal }),
+    placeholderData: keepPreviousData,
+  });
+
+/** Every keg filled in a date range, by batch, and where each is now. */
+export function useTraceReport(from: string, to: string) {
+  return useQuery(getTraceReportQueryOptions(from, to));
+}
+
+export const traceReportHref = (from: string, to: string, format: 'csv' | 'pdf') => buildUrl('/api/reports/trace', { from, to, format });
