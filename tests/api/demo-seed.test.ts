@@ -218,6 +218,23 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         expect(overdue).toBeGreaterThan(0);
       });
 
+      it('has a batch fined with gelatin out with a member and on a tap, near its best-before on Today', async () => {
+        const kegs = await db
+          .selectFrom('keg_fill as kf')
+          .innerJoin('transfer as t', 't.id', 'kf.transfer_id')
+          .innerJoin('keg_whereabouts as kw', 'kw.keg_id', 'kf.keg_id')
+          .select(['kf.batch_id', 'kw.whereabouts', 'kw.tap_id', 'kf.best_before'])
+          .where('t.finings_kind', '=', 'gelatin')
+          .where('kf.emptied_at', 'is', null)
+          .execute();
+        const batchIds = [...new Set(kegs.map((k) => k.batch_id))];
+        const both = batchIds.filter((id) => kegs.some((k) => k.batch_id === id && k.whereabouts === 'with_member') && kegs.some((k) => k.batch_id === id && k.tap_id));
+        expect(both.length).toBeGreaterThan(0);
+        expect(await count(db, sql`select count(*) as n from keg_fill where best_before is null`)).toBe(0);
+        const section = await cellarSection(db, now, true);
+        expect(section.bestBefore.items.some((i) => both.includes(i.batchId))).toBe(true);
+      });
+
       it('records nothing after its today (only plans lie ahead)', async () => {
         const after = async (table: string, column: string) =>
           count(db, sql`select count(*) as n from ${sql.table(table)} where ${sql.ref(column)} > ${now}`);
