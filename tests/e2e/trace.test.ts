@@ -124,4 +124,27 @@ describe('trace and best-before on screen', () => {
       await context.close();
     }
   });
+
+  it('lets the admin set the shelf life and a style’s days in Settings', async () => {
+    const { context, page } = await signedInPage(browser, server.url, 'admin@example.org');
+    try {
+      await page.goto('/settings#shelf_life');
+      const form = page.getByRole('form', { name: 'Shelf life' });
+      await form.waitFor();
+      expect(await form.getByLabel('Shelf life (days)').inputValue()).toBe('60');
+      await form.getByLabel('Shelf life (days)').fill('50');
+      await form.getByRole('button', { name: 'Add a style' }).click();
+      await form.getByLabel('Style').last().fill('Best bitter');
+      await form.getByLabel('Days').last().fill('30');
+      await form.getByRole('button', { name: 'Save the shelf life' }).click();
+      await form.getByText('Shelf life saved').waitFor();
+      const row = await ctx.db.selectFrom('setting').select('value').where('key', '=', 'shelf_life').executeTakeFirstOrThrow();
+      expect(row.value).toMatchObject({ defaultDays: 50, nearDays: 7 });
+      expect((row.value as { byStyle: unknown[] }).byStyle).toContainEqual({ style: 'Best bitter', days: 30 });
+      fs.mkdirSync(shotsDir, { recursive: true });
+      await form.screenshot({ path: path.join(shotsDir, 'shelf-life-settings.png') });
+    } finally {
+      await context.close();
+    }
+  });
 });
