@@ -9,6 +9,7 @@ import type { Database } from '../../db/database.ts';
 import type { BatchStatus } from '../../db/tables/batches.ts';
 import { csvCell, type ExportCell } from '../../lib/export-cells.ts';
 import { pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { coopName } from '../sanitation/audit-report.ts';
 import { effectiveStateSql } from '../sanitation/vessel-state.ts';
 import { loadShelfLifeSettings } from './shelf-life.ts';
 
@@ -284,7 +285,6 @@ export function traceCsv(traces: BatchTrace[]): string {
 const ink = '#1f2328';
 const muted = '#5b6470';
 const danger = '#9a2a1c';
-const coopName = 'Larkspur Yard Brewing Co-op';
 
 function batchBlock(t: BatchTrace): Content[] {
   const header = ['Keg', 'Filled', 'L', 'Left', 'Best before', 'Now', 'Holder / tap', 'Taken out by', 'Served on'].map((text) => ({ text, color: muted, fontSize: 7 }));
