@@ -56,6 +56,7 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
     // Why, beside the step.
     const why = stepBox(page, 'sanitize').getByRole('alert');
     await why.getByText('Sanitize step: 0.2 mL/L is below the working strength of Acid sanitizer (no-rinse, phosphoric) (1.2–2 mL/L).').waitFor();
+    await page.getByText('This cycle cannot be saved as it stands.').waitFor();
     await shot(page, '2-weak-sanitizer');
     await page.getByRole('button', { name: 'Save cycle' }).click();
     await page.getByText(/Some steps break the co-op’s rules/).waitFor();
@@ -68,6 +69,7 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
 
     // Recorded as an exception, with the reason.
     await why.getByLabel('Reason to record it as an exception').fill('Last of the sanitizer; the keg is for the brewer’s own trial');
+    await page.getByText('The vessel will be ready to fill.').waitFor();
     await shot(page, '3-exception-reason');
     await page.getByRole('button', { name: 'Save cycle' }).click();
     await page.getByRole('heading', { name: new RegExp(`Cycle saved: ${keg.code} is now`) }).waitFor();

@@ -93,7 +93,7 @@ export interface AuditData {
   producedAt: Date;
   vessels: AuditVessel[];
   exceptions: AuditException[];
-  settings: Pick<SanitationSettings, 'freshnessDays' | 'cleanWithinDays' | 'minimumContactMinutes'>;
+  settings: Pick<SanitationSettings, 'freshnessDays' | 'cleanWithinDays' | 'minimumContactMinutes' | 'minimumPurgeSeconds'>;
 }
 
 interface VesselFilter {
@@ -341,7 +341,12 @@ export async function loadAuditData(
     producedAt: now,
     vessels,
     exceptions,
-    settings: { freshnessDays: settings.freshnessDays, cleanWithinDays: settings.cleanWithinDays, minimumContactMinutes: settings.minimumContactMinutes },
+    settings: {
+      freshnessDays: settings.freshnessDays,
+      cleanWithinDays: settings.cleanWithinDays,
+      minimumContactMinutes: settings.minimumContactMinutes,
+      minimumPurgeSeconds: settings.minimumPurgeSeconds,
+    },
   };
 }
 
@@ -407,7 +412,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       ],
     },
     {
-      text: `Rules in force: a complete cycle is clean (at least ${minutes(data.settings.minimumContactMinutes.clean)} contact), rinse, sanitize (at least ${minutes(data.settings.minimumContactMinutes.sanitize)}) and CO2 purge, in that order; it keeps a vessel ready for ${data.settings.freshnessDays} days; an emptied or returned vessel is due for cleaning within ${data.settings.cleanWithinDays} days.`,
+      text: `Rules in force: a complete cycle is clean (at least ${minutes(data.settings.minimumContactMinutes.clean)} contact), rinse, sanitize (at least ${minutes(data.settings.minimumContactMinutes.sanitize)}) and CO2 purge, in that order; it keeps a vessel ready for ${data.settings.freshnessDays} days; an emptied or returned vessel is due for cleaning within ${data.settings.cleanWithinDays} days. Each chemical is used within its working strength, a timed CO2 flush lasts at least ${data.settings.minimumPurgeSeconds} s, and a caustic clean follows a vent; a step done against one of these rules is recorded only with its reason and listed as a recorded exception.`,
       color: muted,
       fontSize: 7.5,
       margin: [0, 0, 0, 8],

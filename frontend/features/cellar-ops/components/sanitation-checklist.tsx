@@ -368,7 +368,12 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
         })}
       </ol>
 
-      {preview ? (
+      {preview && refused ? (
+        <section aria-live="polite" className="rounded-lg border border-danger/40 bg-danger-soft p-3 text-danger-strong">
+          <p className="text-base font-medium">This cycle cannot be saved as it stands.</p>
+          <p className="mt-1 text-sm">Correct the steps marked above, or give a reason where a step may be recorded as an exception.</p>
+        </section>
+      ) : preview ? (
         <section aria-live="polite" className="rounded-lg border border-line bg-ground-deep p-3">
           <p className="flex flex-wrap items-center gap-2 text-base">
             This cycle leaves {vessel.code}: <Badge tone={outcomeText[preview.outcome].tone}>{outcomeText[preview.outcome].label}</Badge>
