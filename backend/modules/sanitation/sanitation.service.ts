@@ -35,7 +35,7 @@ export function assertStepsChecked(steps: readonly StepForRules[], settings: San
   const blocking = violations.filter((v) => !v.exceptable || !steps[v.index]!.exceptionReason?.trim());
   const errors = blocking.map((v) => ({ path: `steps.${v.index - firstNew}.${v.field}`, message: v.message }));
   steps.forEach((s, i) => {
-    if (i >= firstNew && s.exceptionReason?.trim() && !violations.some((v) => v.index === i && v.exceptable)) {
+    if (i >= firstNew && s.exceptionReason?.trim() && !violations.some((v) => v.index === i)) {
       errors.push({ path: `steps.${i - firstNew}.exceptionReason`, message: `${s.step[0]!.toUpperCase()}${s.step.slice(1)} step: it breaks no rule, so it needs no exception; leave the reason out.` });
     }
   });

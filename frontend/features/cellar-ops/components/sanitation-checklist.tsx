@@ -203,11 +203,15 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
       setError('Some steps break the co-op’s rules: correct them, or give a reason to record them as exceptions (see the steps marked above).');
       return;
     }
+    // A reason typed for a rule the step no longer breaks (the value was corrected) is not sent.
+    const steps = newSteps.map(({ exceptionReason, ...rest }) =>
+      exceptionReason && (problems[rest.step] ?? []).some((v) => v.exceptable) ? { ...rest, exceptionReason } : rest,
+    );
     try {
       const result =
         continuing && openCycle
-          ? await cont.mutateAsync({ cycleId: openCycle.id, steps: newSteps })
-          : await record.mutateAsync({ equipmentId: vessel.id, steps: newSteps });
+          ? await cont.mutateAsync({ cycleId: openCycle.id, steps })
+          : await record.mutateAsync({ equipmentId: vessel.id, steps });
       onSaved(result);
     } catch (e) {
       setError(problemMessage(e));
