@@ -161,6 +161,7 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
 
   const set = (step: SanitationStep, patch: Partial<StepDraft>) => {
     setServerErrors((e) => ({ ...e, [step]: undefined }));
+    setError(null);
     setDrafts((d) => ({ ...d, [step]: { ...d[step], ...patch } }));
   };
   const pickChemical = (step: SanitationStep, id: string) => {
