@@ -74,6 +74,7 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
     await shot(page, '3-exception-reason');
     await page.getByRole('button', { name: 'Save cycle' }).click();
     await page.getByRole('heading', { name: new RegExp(`Cycle saved: ${keg.code} is now`) }).waitFor();
+    await page.getByRole('list', { name: 'Recorded exceptions' }).getByText(/Reason given: Last of the sanitizer/).waitFor();
     await shot(page, '4-saved');
     const step = await ctx.db
       .selectFrom('sanitation_step as s')
