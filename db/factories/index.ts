@@ -27,7 +27,8 @@
  * Sanitation (sanitation.ts)
  *   createSanitationCycle(db, { equipmentId, readyAt | steps, until? = 'ready' | 'cleaned', recordedBy?, notes?, createdAt? })
  *     → cycle row + steps + evaluation; evaluated by the co-op's rules, fresh_until set, the vessel's state
- *     changed at the cycle's end with a history row
+ *     changed at the cycle's end with a history row; steps the API would refuse throw (give a step that breaks an
+ *     exceptable rule an `exceptionReason` to record it as an exception, as the checklist does)
  *   cycleSteps(readyAt, { until?, performedBy? })  — the checklist steps of a good cycle ending at readyAt (for the API too)
  * Transfers and kegs (transfers.ts, kegs.ts)
  *   createTransfer(db, { batchId, fromEquipmentId, kegIds, at, kegVolumesLiters? | volumeLiters?, lossLiters?, recordedBy?,

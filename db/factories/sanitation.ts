@@ -3,7 +3,7 @@ import type { Database } from '../../backend/db/database.ts';
 import type { SanitationCycleTable, SanitationStepTable } from '../../backend/db/tables/cellar-operations.ts';
 import { sanitationSettings, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
-import { evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
+import { blockingViolations, evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
 import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
 import { type At, inTransaction, MINUTE, toDate } from './common.ts';
 
@@ -39,7 +39,11 @@ export interface SanitationCycleOverrides {
   readyAt?: At;
   /** Default: a complete cycle (cycleSteps(readyAt)); 'cleaned' stops after the rinse. */
   until?: 'ready' | 'cleaned';
-  /** The steps as the checklist sends them; evaluated by the co-op's rules like a recorded cycle. */
+  /**
+   * The steps as the checklist sends them; evaluated by the co-op's rules like a recorded cycle. A step
+   * that breaks a rule of `checkSteps` must carry an `exceptionReason` (and the rule must be exceptable),
+   * as the API requires; otherwise the factory throws.
+   */
   steps?: SanitationStepInput[];
   /** Who recorded it (and performed steps that name nobody). */
   recordedBy?: string | null;
@@ -64,6 +68,8 @@ export async function createSanitationCycle(db: Database, o: SanitationCycleOver
   const steps = o.steps ?? cycleSteps(o.readyAt!, { until: o.until ?? 'ready' });
   return inTransaction(db, async (trx) => {
     const settings = await sanitationSettings(trx);
+    const refused = blockingViolations(steps, settings);
+    if (refused.length) throw new Error(`createSanitationCycle: the API would refuse these steps: ${refused.map((v) => v.message).join(' ')}`);
     const ev = evaluateCycle(steps, settings);
     const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', o.equipmentId).forUpdate().executeTakeFirstOrThrow();
     if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') throw new Error(`createSanitationCycle: ${vessel.code} is a ${vessel.kind}`);

@@ -2,7 +2,7 @@ import { sql } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import { batchGravityFigures } from '../../backend/modules/batches/figures.ts';
 import { planCarbonation } from '../../shared/cellar/carbonation-planner.ts';
-import { evaluateCycle, type StepForRules } from '../../shared/cellar/sanitation-rules.ts';
+import { blockingViolations, evaluateCycle, type StepForRules } from '../../shared/cellar/sanitation-rules.ts';
 import { defaultCarbonationSettings, defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
 import type { VesselState } from '../../shared/schemas/equipment.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
@@ -113,6 +113,8 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
 
   /** A cycle from its steps, evaluated by the co-op's own rules. */
   function addCycle(vesselId: string, list: (StepForRules & { by: string; co2?: number })[], notes = '') {
+    const refused = blockingViolations(list, settings);
+    if (refused.length) throw new Error(`demo seed: a cycle the API would refuse: ${refused.map((v) => v.message).join(' ')}`);
     const ev = evaluateCycle(list, settings);
     const id = seedId('sanitation-cycle', ++cycleNo);
     const recorder = list[list.length - 1]!.by;
@@ -143,6 +145,8 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         contact_minutes: raw.contactMinutes ?? null,
         minimum_contact_minutes: st.minimumContactMinutes,
         purge_method: st.step === 'purge' ? (raw.purgeMethod ?? 'flush') : null,
+        pushed_into_equipment_id: st.step === 'purge' ? (raw.pushedIntoEquipmentId ?? null) : null,
+        vented: st.step === 'clean' ? (raw.vented ?? null) : null,
         co2_grams: st.step === 'purge' ? (raw.co2 ?? settings.co2GramsPerPurge) : null,
         solution_liters: st.step === 'clean' || st.step === 'sanitize' ? (byId.get(vesselId)!.kind === 'keg' ? 19 : Number(byId.get(vesselId)!.capacity_liters) / 2) : null,
         performed_by: raw.by,
@@ -155,13 +159,14 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   }
 
   /** Clean and rinse finishing at `cleanedAt`, sanitize and purge finishing at `readyAt` (or none). */
-  function cleaningSteps(vesselId: string, cleanedAt: Date, cleanBy: string, readyAt: Date | null, readyBy: string, opts: { shortSanitize?: boolean } = {}) {
+  function cleaningSteps(vesselId: string, cleanedAt: Date, cleanBy: string, readyAt: Date | null, readyBy: string) {
     const v = byId.get(vesselId)!;
     const conical = v.kind === 'fermenter' && Number(v.capacity_liters) >= 120;
     const cleaner = conical ? 'caustic-cleaner' : 'alkaline-cleaner';
     const soak = conical ? 30 : pick([45, 60, 60, 60, 75]);
     const list: (StepForRules & { by: string; co2?: number })[] = [
-      { step: 'clean', chemical: cleaner, concentration: conical ? 2 : pick([1.5, 1.5, 2]), contactMinutes: soak, at: new Date(cleanedAt.getTime() - (soak + 8) * MIN), by: cleanBy },
+      // Vented to atmospheric pressure before the caustic goes in.
+      { step: 'clean', chemical: cleaner, concentration: conical ? 2 : pick([1.5, 1.5, 2]), contactMinutes: soak, at: new Date(cleanedAt.getTime() - (soak + 8) * MIN), by: cleanBy, ...(conical ? { vented: true } : {}) },
       { step: 'rinse', at: new Date(cleanedAt.getTime() - 3 * MIN), by: cleanBy },
     ];
     if (readyAt) {
@@ -169,14 +174,18 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       list.push({
         step: 'sanitize',
         chemical: sanitizer,
-        contactMinutes: opts.shortSanitize ? 0.5 : pick([2, 2, 3]),
+        contactMinutes: pick([2, 2, 3]),
         at: new Date(readyAt.getTime() - 6 * MIN),
         by: readyBy,
       });
       const pushOut = v.kind === 'keg' && random() < 0.4;
+      // A push-out purge pushes the sanitizer into the next keg on the rack, which is sanitized by it.
+      const kegs = vessels.filter((k) => k.kind === 'keg');
+      const nextKeg = kegs[(kegs.findIndex((k) => k.id === vesselId) + 1) % kegs.length]!;
       list.push({
         step: 'purge',
         purgeMethod: pushOut ? 'push_out' : 'flush',
+        ...(pushOut ? { pushedIntoEquipmentId: nextKeg.id } : {}),
         contactMinutes: pushOut ? undefined : 0.5,
         at: readyAt,
         by: readyBy,
@@ -232,10 +241,10 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       const end = new Date(Math.max(lapseAt.getTime() + 2 * HOUR, after.at.getTime() - Math.round(between(2, 20)) * HOUR));
       const by = pick(rota);
       if (!shortSanitizeDone && v.kind === 'keg' && end.getTime() > cal.at('2026-10-01T00:00:00Z').getTime()) {
-        // First attempt with too short a sanitize contact: recorded, left the keg cleaned; done again properly.
+        // First attempt stopped after the rinse (the sanitizer had run out): left the keg cleaned; sanitized properly later.
         shortSanitizeDone = true;
         const first = new Date(end.getTime() - 50 * MIN);
-        const short = addCycle(v.id, cleaningSteps(v.id, new Date(first.getTime() - 15 * MIN), by, first, by, { shortSanitize: true }), 'Sanitizer drained too soon');
+        const short = addCycle(v.id, cleaningSteps(v.id, first, by, null, by), 'Sanitizer ran out; sanitized later');
         newChanges.push({ equipment_id: v.id, from_state: 'needs_cleaning', to_state: 'cleaned', reason: `Sanitation cycle incomplete, cleaned, not sanitized: ${short.ev.issues.map((i) => i.message).join(' ')}`, actor_id: by, at: first });
         addCycle(v.id, cleaningSteps(v.id, new Date(end.getTime() - 15 * MIN), by, end, by));
         newChanges.push({ equipment_id: v.id, from_state: 'cleaned', to_state: 'ready', reason: 'Sanitation cycle complete; ready for 7 days', actor_id: by, at: end });

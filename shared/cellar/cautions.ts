@@ -17,7 +17,12 @@ export const chemicalCautions = [
   'Wear gloves and eye protection when handling alkaline cleaners and acid sanitizers; mix to label strength.',
   'Add chemical to water, never water to chemical.',
   'Never mix chlorine-based products with acids (or with ammonia), and never mix alkaline cleaners with acids.',
+  'Vent a keg or fermenter to atmospheric pressure before a caustic clean: caustic absorbs CO2 and can collapse a closed vessel.',
 ] as const;
+
+/** The warning beside a clean with a caustic chemical (the checklist requires the vent to be confirmed). */
+export const causticCo2Warning =
+  'Caustic in a vessel still full of CO2 absorbs the gas and can pull a vacuum strong enough to collapse the vessel. Vent it to atmospheric pressure first, and leave it open to air while the caustic is in it. Caustic burns skin and eyes: wear eye protection and chemical-resistant gloves, and follow the label and local codes.';
 
 export const alcoholCaution = 'Alcohol figures for labels and tax: local rules govern what must be measured, shown and kept.';
 

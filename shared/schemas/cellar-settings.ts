@@ -44,8 +44,18 @@ export const chemicalSchema = z.object({
   recommendedContactMinutes: minutes,
   /** A stricter minimum for this chemical than the step's, if its label asks for one. */
   minimumContactMinutes: minutes.optional(),
+  /** The working strength range, in `unit`: a step outside it is refused unless recorded as an exception. */
+  minConcentration: z.number().positive('More than 0').max(100_000),
+  maxConcentration: z.number().positive('More than 0').max(100_000),
+  /** A caustic cleaner absorbs CO2: a clean with it needs the vessel vented first (see shared/cellar/sanitation-rules.ts). */
+  caustic: z.boolean().default(false),
   active: z.boolean().default(true),
-});
+})
+  .refine((c) => c.minConcentration <= c.maxConcentration, { message: 'The lowest strength must not be above the highest', path: ['maxConcentration'] })
+  .refine((c) => c.defaultConcentration >= c.minConcentration && c.defaultConcentration <= c.maxConcentration, {
+    message: 'The usual strength must lie within the working range',
+    path: ['defaultConcentration'],
+  });
 export type Chemical = z.infer<typeof chemicalSchema>;
 
 export const sanitationSettingsSchema = z
@@ -56,6 +66,8 @@ export const sanitationSettingsSchema = z
     cleanWithinDays: z.number().int('Whole days').min(1, 'At least 1 day').max(30, 'At most 30 days'),
     /** The co-op's minimum contact times; a shorter one leaves the vessel not ready. */
     minimumContactMinutes: z.object({ clean: minutes, sanitize: minutes }),
+    /** A timed CO2 flush shorter than this is refused unless recorded as an exception (a push-out names the keg instead). */
+    minimumPurgeSeconds: z.number().int('Whole seconds').min(0, 'At least 0 s').max(600, 'At most 10 minutes'),
     /** CO2 recorded for a purge when the brewer gives no figure (for billing). */
     co2GramsPerPurge: z.number().min(0).max(5000),
     /** CO2 recorded per keg filled in a transfer (headspace purge, push), for billing. */
@@ -76,6 +88,8 @@ export const defaultSanitationSettings: SanitationSettings = {
   freshnessDays: 7,
   cleanWithinDays: 2,
   minimumContactMinutes: { clean: 30, sanitize: 1 },
+  // Common practice: 15–30 s of CO2 through a 19 L keg's headspace; 20 s is the co-op's floor.
+  minimumPurgeSeconds: 20,
   co2GramsPerPurge: 15,
   co2GramsPerKegFill: 40,
   chemicals: [
@@ -86,6 +100,11 @@ export const defaultSanitationSettings: SanitationSettings = {
       defaultConcentration: 1.5,
       unit: '%',
       recommendedContactMinutes: 60,
+      minimumContactMinutes: 30,
+      // Common practice: about 0.75–3 % (w/v) for soaking kegs and fermenters.
+      minConcentration: 0.75,
+      maxConcentration: 3,
+      caustic: false,
       active: true,
     },
     {
@@ -96,6 +115,10 @@ export const defaultSanitationSettings: SanitationSettings = {
       unit: '%',
       recommendedContactMinutes: 30,
       minimumContactMinutes: 20,
+      // Common practice: 1–3 % sodium hydroxide for cleaning in place.
+      minConcentration: 1,
+      maxConcentration: 3,
+      caustic: true,
       active: true,
     },
     {
@@ -105,6 +128,11 @@ export const defaultSanitationSettings: SanitationSettings = {
       defaultConcentration: 1.6,
       unit: 'mL/L',
       recommendedContactMinutes: 2,
+      minimumContactMinutes: 1,
+      // Common practice: the label's no-rinse dose is about 1.6 mL/L (1 fl oz in 5 US gal); 1.2–2.0 around it.
+      minConcentration: 1.2,
+      maxConcentration: 2,
+      caustic: false,
       active: true,
     },
     {
@@ -114,6 +142,11 @@ export const defaultSanitationSettings: SanitationSettings = {
       defaultConcentration: 150,
       unit: 'ppm',
       recommendedContactMinutes: 1,
+      minimumContactMinutes: 1,
+      // Common practice: 100–200 ppm peracetic acid for no-rinse sanitizing of clean surfaces.
+      minConcentration: 100,
+      maxConcentration: 200,
+      caustic: false,
       active: true,
     },
   ],

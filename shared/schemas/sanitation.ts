@@ -16,6 +16,15 @@ export const sanitationStepInputSchema = z.object({
   at: isoDateTimeSchema,
   /** Purge only: a timed flush of the headspace, or a full push-out of sanitizer with CO2. */
   purgeMethod: z.enum(['flush', 'push_out']).optional(),
+  /** Push-out purge only: the keg the sanitizer (or beer) was pushed into. */
+  pushedIntoEquipmentId: z.uuid('Pick the keg it was pushed into').optional(),
+  /** Clean with a caustic chemical: the vessel was vented to atmospheric pressure first (required then). */
+  vented: z.boolean().optional(),
+  /**
+   * Why a step outside the co-op's rules (strength range, minimum contact, purge minimum, a chemical not
+   * in the list) was done anyway: with it the step is recorded as an exception, without it it is refused.
+   */
+  exceptionReason: z.string().trim().max(500, 'Keep the reason under 500 characters').optional(),
   /** Purge only: CO2 used; the co-op's usual figure is recorded when absent. */
   co2Grams: z.number().min(0).max(5000).optional(),
   /** Litres of cleaning or sanitizing solution made up (for chemical use). */
@@ -97,6 +106,11 @@ export interface SanitationStepView {
   performedBy: { id: string; name: string } | null;
   ok: boolean;
   note: string;
+  /** Set when the step broke an exceptable rule and was recorded with a reason. */
+  exceptionReason: string | null;
+  exceptionRules: string[];
+  vented: boolean | null;
+  pushedInto: { id: string; code: string } | null;
 }
 
 export interface SanitationCycleView {

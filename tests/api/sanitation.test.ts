@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyFreshnessLapses } from '../../backend/modules/sanitation/vessel-state.ts';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, createTransfer, createUser, cycleSteps, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
+import { count } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -84,27 +85,28 @@ describe('recording a sanitation cycle', () => {
     expect(reason.reason).toMatch(/incomplete.*No CO2 purge step/);
   });
 
-  it('does not make a ready vessel of a cycle with a contact time below the minimum', async () => {
+  it('refuses a contact time below the minimum (422 naming the step and the rule) and changes nothing', async () => {
     const keg = await takeKeg();
     await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
+    const before = await count(ctx, 'sanitation_cycle');
     const steps = completeSteps();
     steps[0] = { ...steps[0]!, contactMinutes: 10 };
     const res = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
-    expect(res.status).toBe(201);
-    expect(res.body.cycle.outcome).toBe('needs_cleaning');
-    expect(res.body.cycle.issues[0]).toMatchObject({ code: 'short_contact', step: 'clean' });
-    expect(res.body.cycle.issues[0].message).toMatch(/10 min, below the co-op's minimum of 30 min/);
-    expect(res.body.cycle.steps[0].ok).toBe(false);
+    expect(res.status).toBe(422);
+    expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
+    expect(res.body.detail).toMatch(/^Clean step: contact time 10 min is below the minimum of 30 min\./);
+    expect(res.body.errors).toEqual([{ path: 'steps.0.contactMinutes', message: 'Clean step: contact time 10 min is below the minimum of 30 min.' }]);
+    expect(await count(ctx, 'sanitation_cycle')).toBe(before);
     expect(await stateOf(keg.id)).toBe('needs_cleaning');
   });
 
-  it('leaves a vessel cleaned when only the sanitize step is short, and flags steps out of order', async () => {
+  it('refuses a short sanitize contact as well, and flags steps out of order', async () => {
     const keg = await takeKeg();
     const steps = completeSteps();
     steps[2] = { ...steps[2]!, contactMinutes: 0.25 };
     const short = await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
-    expect(short.body.cycle.outcome).toBe('cleaned');
-    expect(short.body.cycle.issues[0].message).toMatch(/15 s/);
+    expect(short.status).toBe(422);
+    expect(short.body.errors[0]).toMatchObject({ path: 'steps.2.contactMinutes', message: expect.stringMatching(/15 s is below the minimum of 1 min/) });
 
     const backwards = completeSteps();
     backwards[1] = { ...backwards[1]!, at: minutesAgo(200) }; // rinse before the clean
@@ -255,8 +257,8 @@ describe('the sanitation audit PDF', () => {
   it('holds the vessels, cycles, people and exceptions of the period in its text layer', async () => {
     const keg = await takeKeg();
     const steps = completeSteps(500);
-    steps[0] = { ...steps[0]!, contactMinutes: 12 };
-    await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps });
+    steps[0] = { ...steps[0]!, contactMinutes: 12, exceptionReason: 'Soak cut short by a power cut' };
+    expect((await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps })).status).toBe(201);
     await brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps(300) });
     const today = ctx.clock.now().toISOString().slice(0, 10); // the report's days are UTC days
     const res = await treasurer.get(`/api/reports/sanitation-audit.pdf?from=${today}&to=${today}&equipmentId=${keg.id}`).buffer(true).parse(binary);
@@ -267,8 +269,9 @@ describe('the sanitation audit PDF', () => {
     expect(text).toContain(keg.code);
     expect(text).toContain('Ada Kettleby');
     expect(text).toContain('Alkaline cleaner (oxygen-based powder)');
-    expect(text).toContain('Short contact time');
-    expect(text).toMatch(/12 min, below the co-op's minimum of 30 min/);
+    expect(text).toContain('Recorded exception');
+    expect(text).toMatch(/contact time 12 min is below\s+the minimum of 30 min/);
+    expect(text).toMatch(/Soak cut short by a power cut/);
     expect(text).toMatch(/Page 1 of \d+/);
     expect(text).toMatch(/never water to chemical/);
     expect(text).toMatch(/local codes/i);
@@ -294,9 +297,11 @@ describe('the sanitation audit PDF', () => {
     await createTransfer(ctx.db, { batchId: batchA.id, fromEquipmentId: fa.id, kegIds: [kegNoCycle.id], at: '2026-09-14T10:00:00Z', sanitizeKegs: false, recordedBy: ada });
     await createSanitationCycle(ctx.db, { equipmentId: fa.id, readyAt: '2026-09-16T23:20:00Z', recordedBy: odile });
 
-    // A keg whose sanitize step had 30 s, below the 1 min minimum.
+    // A keg whose sanitize step had 30 s, below the 1 min minimum, recorded as an exception with its reason.
     const kegShort = await createKeg(ctx.db);
-    const shortSteps = cycleSteps('2026-10-07T11:00:00Z', { performedBy: amadou }).map((st) => (st.step === 'sanitize' ? { ...st, contactMinutes: 0.5 } : st));
+    const shortSteps = cycleSteps('2026-10-07T11:00:00Z', { performedBy: amadou }).map((st) =>
+      st.step === 'sanitize' ? { ...st, contactMinutes: 0.5, exceptionReason: 'Sanitizer drained too soon' } : st,
+    );
     await createSanitationCycle(ctx.db, { equipmentId: kegShort.id, steps: shortSteps, recordedBy: amadou });
 
     // A keg sanitized 1 Oct 09:00 (fresh until 8 Oct 09:00) and filled on 20 Oct from F-b.
@@ -325,7 +330,8 @@ describe('the sanitation audit PDF', () => {
     for (const person of ['Ada Kettleby', 'Odile Marsh', 'Amadou Kestrel']) expect(text).toContain(person);
     // The exceptions built in above.
     expect(text).toMatch(new RegExp(`${kegNoCycle.code}\\s+2026-09-14 10:00\\s+Fill with no cycle on record`));
-    expect(text).toMatch(new RegExp(`${kegShort.code}\\s+2026-10-07 11:00\\s+Short contact time\\s+Contact time of the sanitize step was 30 s`));
+    expect(text).toMatch(new RegExp(`${kegShort.code}\\s+2026-10-07 11:00\\s+Recorded exception\\s+Recorded as an exception: Sanitize step: contact time 30 s`));
+    expect(text).toMatch(/Reason given: Sanitizer drained too soon/);
     expect(text).toMatch(new RegExp(`${kegLapsed.code}\\s+2026-10-20 10:00\\s+Fill after the freshness window lapsed`));
     expect(text).toMatch(new RegExp(`${fc.code}\\s+2026-11-10 15:00\\s+Incomplete cycle`));
     // Cleaning started 16 Sep 22:00, 60 hours after the 14 Sep 10:00 transfer (2 days allowed).

@@ -130,12 +130,19 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
     await screenshot(page, 'cellar-phone-1-cycle-checklist');
     expect(await smallTargets(page, 'main')).toEqual([]);
 
-    // Clean (the co-op's alkaline cleaner, an hour's soak), rinse, sanitize, purge: each marked done as it happens.
+    // Clean (the co-op's alkaline cleaner, an hour's soak), rinse, sanitize, purge: each marked done, with
+    // the time it began (the checklist holds each contact time to the gap before the next step).
+    const began = (step: string, minutesAgo: number) =>
+      page.locator(`li[aria-labelledby="step-${step}-title"]`).getByLabel('When').fill(new Date(ctx.clock.now().getTime() - minutesAgo * 60_000).toISOString().slice(0, 16));
     await page.getByRole('button', { name: 'Mark clean done' }).click();
+    await began('clean', 90);
     await page.getByRole('button', { name: 'Mark rinse done' }).click();
+    await began('rinse', 25);
     await page.getByText(/cleaned but not ready/).waitFor();
     await page.getByRole('button', { name: 'Mark sanitize done' }).click();
+    await began('sanitize', 10);
     await page.getByRole('button', { name: 'Mark purge done' }).click();
+    await began('purge', 5);
     await page.getByText('The vessel will be ready to fill.').waitFor();
     await screenshot(page, 'cellar-phone-2-cycle-complete');
     await page.getByRole('button', { name: 'Save cycle' }).click();

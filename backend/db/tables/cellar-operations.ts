@@ -45,6 +45,13 @@ export interface SanitationStepTable {
   at: Timestamp;
   ok: boolean;
   note: Generated<string>;
+  /** A step done against a rule, with the reason (shared/cellar/sanitation-rules.ts `checkSteps`). */
+  exception_reason: string | null;
+  exception_rules: Generated<string[]>;
+  /** Caustic clean: the vessel was vented to atmospheric pressure first. */
+  vented: boolean | null;
+  /** Push-out purge: the keg the sanitizer was pushed into. */
+  pushed_into_equipment_id: string | null;
 }
 
 export interface TransferTable {

@@ -24,6 +24,7 @@ export type ExceptionKind =
   | 'late_cycle'
   | 'not_cleaned'
   | 'short_contact'
+  | 'recorded_exception'
   | 'incomplete_cycle'
   | 'window_lapsed';
 
@@ -35,6 +36,7 @@ export const exceptionLabels: Record<ExceptionKind, string> = {
   late_cycle: 'Late cycle',
   not_cleaned: 'Not cleaned in time',
   short_contact: 'Short contact time',
+  recorded_exception: 'Recorded exception',
   incomplete_cycle: 'Incomplete cycle',
   window_lapsed: 'Freshness window lapsed',
 };
@@ -50,6 +52,8 @@ export interface AuditStep {
   at: Date;
   by: string | null;
   ok: boolean;
+  /** The reason a step outside the co-op's rules was done anyway (null: none). */
+  exceptionReason: string | null;
 }
 export interface AuditCycle {
   id: string;
@@ -89,7 +93,7 @@ export interface AuditData {
   producedAt: Date;
   vessels: AuditVessel[];
   exceptions: AuditException[];
-  settings: Pick<SanitationSettings, 'freshnessDays' | 'cleanWithinDays' | 'minimumContactMinutes'>;
+  settings: Pick<SanitationSettings, 'freshnessDays' | 'cleanWithinDays' | 'minimumContactMinutes' | 'minimumPurgeSeconds'>;
 }
 
 interface VesselFilter {
@@ -135,11 +139,12 @@ export async function loadAuditData(
       step_at: Date | null;
       ok: boolean | null;
       performed_by: string | null;
+      exception_reason: string | null;
     }>`
       select e.id as vessel_id, e.code, e.name, e.kind,
         c.id as cycle_id, c.started_at, c.completed_at, c.outcome, c.complete, c.issues, c.fresh_until, r.name as recorded_by,
         s.step, s.chemical, s.concentration, s.concentration_unit, s.contact_minutes, s.minimum_contact_minutes, s.purge_method,
-        s.at as step_at, s.ok, p.name as performed_by
+        s.at as step_at, s.ok, p.name as performed_by, s.exception_reason
       from equipment e
       left join sanitation_cycle c on c.equipment_id = e.id and c.completed_at >= ${from} and c.completed_at < ${to}
       left join app_user r on r.id = c.recorded_by
@@ -243,6 +248,7 @@ export async function loadAuditData(
         at: r.step_at!,
         by: r.performed_by,
         ok: Boolean(r.ok),
+        exceptionReason: r.exception_reason,
       });
     }
   }
@@ -276,8 +282,10 @@ export async function loadAuditData(
     for (const c of v.cycles) {
       const short = c.issues.filter((i) => i.code === 'short_contact');
       for (const i of short) add(c.completedAt, 'short_contact', i.message);
+      // Steps recorded against a rule with a reason (shared/cellar/sanitation-rules.ts `checkSteps`).
+      for (const i of c.issues.filter((i) => i.code === 'exception')) add(c.completedAt, 'recorded_exception', i.message);
       if (!c.complete) {
-        const other = c.issues.filter((i) => i.code !== 'short_contact').map((i) => i.message);
+        const other = c.issues.filter((i) => i.code !== 'short_contact' && i.code !== 'exception').map((i) => i.message);
         add(c.completedAt, 'incomplete_cycle', `Left the vessel ${c.outcome.replace('_', ' ')}${other.length ? `: ${other.join(' ')}` : short.length ? ' (short contact).' : '.'}`);
       }
     }
@@ -333,7 +341,12 @@ export async function loadAuditData(
     producedAt: now,
     vessels,
     exceptions,
-    settings: { freshnessDays: settings.freshnessDays, cleanWithinDays: settings.cleanWithinDays, minimumContactMinutes: settings.minimumContactMinutes },
+    settings: {
+      freshnessDays: settings.freshnessDays,
+      cleanWithinDays: settings.cleanWithinDays,
+      minimumContactMinutes: settings.minimumContactMinutes,
+      minimumPurgeSeconds: settings.minimumPurgeSeconds,
+    },
   };
 }
 
@@ -359,7 +372,8 @@ function stepLine(s: AuditStep): string {
   if (s.step === 'purge') parts.push(s.purgeMethod === 'push_out' ? 'push-out' : `flush ${minutes(s.contactMinutes)}`);
   else if (s.step !== 'rinse') parts.push(minutes(s.contactMinutes));
   parts.push(`${s.by ?? 'unknown'}, ${when(s.at).slice(5)}`);
-  return `${s.ok ? '' : '[!] '}${parts.join(' · ')}`;
+  if (s.exceptionReason) parts.push(`exception: ${s.exceptionReason}`);
+  return `${s.ok ? '' : '[!] '}${s.exceptionReason ? '[exception] ' : ''}${parts.join(' · ')}`;
 }
 
 const compact = {
@@ -398,7 +412,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       ],
     },
     {
-      text: `Rules in force: a complete cycle is clean (at least ${minutes(data.settings.minimumContactMinutes.clean)} contact), rinse, sanitize (at least ${minutes(data.settings.minimumContactMinutes.sanitize)}) and CO2 purge, in that order; it keeps a vessel ready for ${data.settings.freshnessDays} days; an emptied or returned vessel is due for cleaning within ${data.settings.cleanWithinDays} days.`,
+      text: `Rules in force: a complete cycle is clean (at least ${minutes(data.settings.minimumContactMinutes.clean)} contact), rinse, sanitize (at least ${minutes(data.settings.minimumContactMinutes.sanitize)}) and CO2 purge, in that order; it keeps a vessel ready for ${data.settings.freshnessDays} days; an emptied or returned vessel is due for cleaning within ${data.settings.cleanWithinDays} days. Each chemical is used within its working strength, a timed CO2 flush lasts at least ${data.settings.minimumPurgeSeconds} s, and a caustic clean follows a vent; a step done against one of these rules is recorded only with its reason and listed as a recorded exception.`,
       color: muted,
       fontSize: 7.5,
       margin: [0, 0, 0, 8],
@@ -463,7 +477,13 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
               {
                 // One unbroken line per step: pdfmake lays out a line as one piece, which keeps a year's report fast.
                 stack: [
-                  ...c.steps.map((st) => (st.ok ? { text: stepLine(st), noWrap: true } : { text: stepLine(st), noWrap: true, color: danger })),
+                  ...c.steps.map((st) =>
+                    st.exceptionReason
+                      ? { text: stepLine(st), color: danger }
+                      : st.ok
+                        ? { text: stepLine(st), noWrap: true }
+                        : { text: stepLine(st), noWrap: true, color: danger },
+                  ),
                   {
                     text: `recorded by ${c.recordedBy ?? 'unknown'}${c.complete ? `; fresh until ${when(c.freshUntil!)}` : ''}`,
                     noWrap: true,

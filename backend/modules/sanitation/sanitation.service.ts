@@ -1,6 +1,6 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
-import { evaluateCycle, outcomeReason, type CycleEvaluation } from '../../../shared/cellar/sanitation-rules.ts';
+import { checkSteps, evaluateCycle, outcomeReason, type CycleEvaluation, type StepForRules } from '../../../shared/cellar/sanitation-rules.ts';
 import type { SanitationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type {
@@ -22,6 +22,45 @@ const FUTURE_SLACK_MS = 10 * 60_000;
 
 export async function sanitationSettings(db: Database): Promise<SanitationSettings> {
   return (await getSetting(db, 'sanitation')).value;
+}
+
+/**
+ * Refuses (422, nothing written) steps that break the co-op's rules (shared/cellar/sanitation-rules.ts
+ * `checkSteps`) unless the rule is exceptable and the step gives a reason; and a reason on a step that
+ * breaks no rule. Only steps from `firstNew` on are judged (the earlier ones of a continued cycle were
+ * judged when recorded), except that their contact times must still fit before the new steps.
+ */
+export function assertStepsChecked(steps: readonly StepForRules[], settings: SanitationSettings, firstNew = 0): void {
+  const violations = checkSteps(steps, settings).filter((v) => v.index >= firstNew || v.rule === 'contact_exceeds_gap');
+  const blocking = violations.filter((v) => !v.exceptable || !steps[v.index]!.exceptionReason?.trim());
+  const errors = blocking.map((v) => ({ path: `steps.${v.index - firstNew}.${v.field}`, message: v.message }));
+  steps.forEach((s, i) => {
+    if (i >= firstNew && s.exceptionReason?.trim() && !violations.some((v) => v.index === i)) {
+      errors.push({ path: `steps.${i - firstNew}.exceptionReason`, message: `${s.step[0]!.toUpperCase()}${s.step.slice(1)} step: it breaks no rule, so it needs no exception; leave the reason out.` });
+    }
+  });
+  if (errors.length) {
+    const first = blocking[0];
+    throw unprocessable(
+      first ? `${first.message}${first.exceptable ? ' Correct it, or record the step as an exception with a reason.' : ''}` : errors[0]!.message,
+      errors,
+    );
+  }
+}
+
+/** A push-out purge's second keg must be a keg, and not the vessel being cleaned. */
+async function assertPushOutKegs(db: Database, steps: readonly SanitationStepInput[], vesselId: string, firstNew = 0): Promise<void> {
+  const ids = [...new Set(steps.map((s) => s.pushedIntoEquipmentId).filter((v): v is string => Boolean(v)))];
+  if (!ids.length) return;
+  const found = await db.selectFrom('equipment').select(['id', 'kind']).where('id', 'in', ids).execute();
+  const kegs = new Set(found.filter((r) => r.kind === 'keg').map((r) => r.id));
+  steps.forEach((s, i) => {
+    if (!s.pushedIntoEquipmentId) return;
+    const path = `steps.${i - firstNew}.pushedIntoEquipmentId`;
+    if (s.purgeMethod !== 'push_out') throw unprocessable('Only a push-out purge names a second keg.', [{ path, message: 'Only for a push-out purge' }]);
+    if (!kegs.has(s.pushedIntoEquipmentId)) throw unprocessable('Purge step: the keg it was pushed into is not a keg the co-op has.', [{ path, message: 'No keg with this id' }]);
+    if (s.pushedIntoEquipmentId === vesselId) throw unprocessable('Purge step: a keg cannot be pushed into itself.', [{ path, message: 'Pick another keg' }]);
+  });
 }
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
@@ -48,6 +87,8 @@ export async function recordCycle(
     const bad = input.steps.findIndex((s) => s.performedBy && !known.has(s.performedBy));
     if (bad >= 0) throw unprocessable('Unknown person on a step.', [{ path: `steps.${bad}.performedBy`, message: 'No active person with this id' }]);
   }
+  assertStepsChecked(input.steps, settings);
+  await assertPushOutKegs(db, input.steps, input.equipmentId);
   const ev = evaluateCycle(input.steps, settings);
 
   const cycleId = await db.transaction().execute(async (trx) => {
@@ -136,9 +177,14 @@ export async function continueCycle(
         solutionLiters: o.solution_liters === null ? undefined : Number(o.solution_liters),
         performedBy: o.performed_by ?? undefined,
         note: o.note,
+        pushedIntoEquipmentId: o.pushed_into_equipment_id ?? undefined,
+        vented: o.vented ?? undefined,
+        exceptionReason: o.exception_reason ?? undefined,
       })),
       ...input.steps,
     ];
+    assertStepsChecked(merged, settings, old.length);
+    await assertPushOutKegs(trx, merged, vessel.id, old.length);
     const ev = evaluateCycle(merged, settings);
     await trx
       .updateTable('sanitation_cycle')
@@ -197,6 +243,11 @@ type CycleRow = {
     performed_by_name: string | null;
     ok: boolean;
     note: string;
+    exception_reason: string | null;
+    exception_rules: string[] | null;
+    vented: boolean | null;
+    pushed_into_equipment_id: string | null;
+    pushed_into_code: string | null;
   }[];
 };
 
@@ -225,6 +276,7 @@ function cycleQuery(db: Database) {
         eb
           .selectFrom('sanitation_step as s')
           .leftJoin('app_user as p', 'p.id', 's.performed_by')
+          .leftJoin('equipment as pk', 'pk.id', 's.pushed_into_equipment_id')
           .select([
             's.step',
             's.chemical_id',
@@ -241,6 +293,11 @@ function cycleQuery(db: Database) {
             'p.name as performed_by_name',
             's.ok',
             's.note',
+            's.exception_reason',
+            's.exception_rules',
+            's.vented',
+            's.pushed_into_equipment_id',
+            'pk.code as pushed_into_code',
           ])
           .whereRef('s.cycle_id', '=', 'c.id')
           .orderBy('s.position'),
@@ -276,6 +333,10 @@ function toView(r: CycleRow): SanitationCycleView {
       performedBy: s.performed_by ? { id: s.performed_by, name: s.performed_by_name ?? '' } : null,
       ok: s.ok,
       note: s.note,
+      exceptionReason: s.exception_reason,
+      exceptionRules: s.exception_rules ?? [],
+      vented: s.vented,
+      pushedInto: s.pushed_into_equipment_id ? { id: s.pushed_into_equipment_id, code: s.pushed_into_code ?? '' } : null,
     })),
   };
 }
@@ -427,6 +488,10 @@ export function stepRows(
       at: entered.at,
       ok: st.ok,
       note: entered.note ?? '',
+      exception_reason: st.exception ? st.exception.reason : null,
+      exception_rules: st.exception ? st.exception.rules : [],
+      vented: st.step === 'clean' ? (entered.vented ?? null) : null,
+      pushed_into_equipment_id: st.step === 'purge' && entered.purgeMethod === 'push_out' ? (entered.pushedIntoEquipmentId ?? null) : null,
     };
   });
 }

@@ -102,7 +102,16 @@ const RecordCycleRoute = () => {
             Cycle saved: {saved.equipment.code} is now <Badge tone={outcomeTone[saved.cycle.outcome]}>{vesselStateLabels[saved.cycle.outcome]}</Badge>
           </h2>
           {saved.cycle.complete ? (
-            <p className="text-sm text-ink-muted">Ready until {formatDateTime(saved.cycle.freshUntil)}.</p>
+            <>
+              <p className="text-sm text-ink-muted">Ready until {formatDateTime(saved.cycle.freshUntil)}.</p>
+              {saved.cycle.issues.length ? (
+                <ul className="list-disc pl-5 text-sm text-due-strong" aria-label="Recorded exceptions">
+                  {saved.cycle.issues.map((i) => (
+                    <li key={`${i.code}-${i.step}`}>{i.message}</li>
+                  ))}
+                </ul>
+              ) : null}
+            </>
           ) : (
             <ul className="list-disc pl-5 text-sm text-due-strong">
               {saved.cycle.issues.map((i) => (

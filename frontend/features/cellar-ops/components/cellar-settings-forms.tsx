@@ -59,6 +59,9 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
         <Field label="Minimum sanitize contact (min)" error={e.minimumContactMinutes?.sanitize?.message}>
           {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.sanitize', num)} />}
         </Field>
+        <Field label="Minimum CO2 flush (s)" hint="A shorter timed flush must be recorded as an exception; a push-out purge names its second keg instead." error={e.minimumPurgeSeconds?.message}>
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('minimumPurgeSeconds', num)} />}
+        </Field>
         <Field label="CO2 per purge (g)" hint="Recorded for billing when no figure is given." error={e.co2GramsPerPurge?.message}>
           {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerPurge', num)} />}
         </Field>
@@ -70,7 +73,7 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
         <legend className="mb-1 text-sm font-medium">Cleaners and sanitizers</legend>
         {e.chemicals?.message || e.chemicals?.root?.message ? <Alert tone="error">{e.chemicals?.message ?? e.chemicals?.root?.message}</Alert> : null}
         {chemicals.fields.map((f, i) => (
-          <div key={f.id} className="grid gap-2 rounded-md border border-line p-2 sm:grid-cols-[1fr_2fr_8rem_7rem_6rem_7rem_7rem_auto]">
+          <div key={f.id} className="grid gap-2 rounded-md border border-line p-2 sm:grid-cols-3 lg:grid-cols-6" aria-label={`Chemical ${i + 1}`} role="group">
             <Field label="Id" error={e.chemicals?.[i]?.id?.message}>
               {(c) => <Input {...c} {...form.register(`chemicals.${i}.id`)} />}
             </Field>
@@ -85,7 +88,7 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
                 </Select>
               )}
             </Field>
-            <Field label="Strength" error={e.chemicals?.[i]?.defaultConcentration?.message}>
+            <Field label="Usual strength" error={e.chemicals?.[i]?.defaultConcentration?.message}>
               {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.defaultConcentration`, num)} />}
             </Field>
             <Field label="Unit">
@@ -102,11 +105,18 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
             <Field label="Usual contact" error={e.chemicals?.[i]?.recommendedContactMinutes?.message}>
               {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.recommendedContactMinutes`, num)} />}
             </Field>
-            <Field label="Own minimum">
+            <Field label="Lowest strength" error={e.chemicals?.[i]?.minConcentration?.message}>
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minConcentration`, num)} />}
+            </Field>
+            <Field label="Highest strength" error={e.chemicals?.[i]?.maxConcentration?.message}>
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.maxConcentration`, num)} />}
+            </Field>
+            <Field label="Minimum contact (min)" error={e.chemicals?.[i]?.minimumContactMinutes?.message}>
               {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minimumContactMinutes`, optionalNum)} />}
             </Field>
-            <div className="flex items-end gap-2">
+            <div className="flex flex-wrap items-end gap-2 sm:col-span-2">
               <Checkbox label="In use" {...form.register(`chemicals.${i}.active`)} />
+              <Checkbox label="Caustic (vent CO2 first)" {...form.register(`chemicals.${i}.caustic`)} />
               {canEdit ? (
                 <Button variant="ghost" size="sm" onClick={() => chemicals.remove(i)} aria-label={`Remove ${f.name}`}>
                   Remove
@@ -120,7 +130,7 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
             <Button
               variant="secondary"
               size="sm"
-              onClick={() => chemicals.append({ id: `chemical-${chemicals.fields.length + 1}`, name: '', step: 'sanitize', defaultConcentration: 1, unit: 'mL/L', recommendedContactMinutes: 2, active: true })}
+              onClick={() => chemicals.append({ id: `chemical-${chemicals.fields.length + 1}`, name: '', step: 'sanitize', defaultConcentration: 1, unit: 'mL/L', recommendedContactMinutes: 2, minConcentration: 1, maxConcentration: 1, caustic: false, active: true })}
             >
               Add a chemical
             </Button>

@@ -1,5 +1,6 @@
 import { useMemo, useState } from 'react';
-import { evaluateCycle, type StepForRules } from '../../../../shared/cellar/sanitation-rules.ts';
+import { causticCo2Warning } from '../../../../shared/cellar/cautions.ts';
+import { checkSteps, evaluateCycle, minimumContactFor, type StepForRules, type StepViolation } from '../../../../shared/cellar/sanitation-rules.ts';
 import {
   defaultSanitationSettings,
   sanitationStepLabels,
@@ -11,10 +12,11 @@ import type { SanitationCycleView, SanitationStepInput } from '../../../../share
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { useContinueCycle, useRecordCycle } from '@/features/cellar-ops/api/sanitation';
+import { Checkbox } from '@/components/ui/input';
+import { useContinueCycle, useRecordCycle, useVesselStatus } from '@/features/cellar-ops/api/sanitation';
 import { Cautions } from '@/features/cellar-ops/components/cautions';
 import { BigChoice, BigInput, BigSelect, bigButton } from '@/features/cellar-ops/components/touch';
-import { problemMessage } from '@/lib/api-client';
+import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 interface StepDraft {
@@ -26,6 +28,12 @@ interface StepDraft {
   contactMinutes: string;
   purgeMethod: 'flush' | 'push_out';
   purgeSeconds: string;
+  /** Push-out purge: the keg the sanitizer went into. */
+  pushedInto: string;
+  /** Caustic clean: vented to atmospheric pressure first. */
+  vented: boolean;
+  /** Why a step outside the co-op's rules was done anyway (recorded as an exception). */
+  exceptionReason: string;
 }
 
 const pad = (n: number) => String(n).padStart(2, '0');
@@ -45,28 +53,80 @@ function initialDraft(step: SanitationStep, settings: SanitationSettings): StepD
     contactMinutes: first ? String(first.recommendedContactMinutes) : '',
     purgeMethod: 'flush',
     purgeSeconds: '30',
+    pushedInto: '',
+    vented: false,
+    exceptionReason: '',
   };
 }
 
-function toInput(step: SanitationStep, d: StepDraft): SanitationStepInput {
+function toInput(step: SanitationStep, d: StepDraft, settings: SanitationSettings): SanitationStepInput {
   const at = toIso(d.at);
+  const exception = d.exceptionReason.trim() ? { exceptionReason: d.exceptionReason.trim() } : {};
   if (step === 'rinse') return { step, at };
   if (step === 'purge') {
     const seconds = num(d.purgeSeconds);
     return d.purgeMethod === 'push_out'
-      ? { step, at, purgeMethod: 'push_out' }
-      : { step, at, purgeMethod: 'flush', ...(seconds !== undefined ? { contactMinutes: seconds / 60 } : {}) };
+      ? { step, at, purgeMethod: 'push_out', ...(d.pushedInto ? { pushedIntoEquipmentId: d.pushedInto } : {}), ...exception }
+      : { step, at, purgeMethod: 'flush', ...(seconds !== undefined ? { contactMinutes: seconds / 60 } : {}), ...exception };
   }
   const concentration = num(d.concentration);
   const contact = num(d.contactMinutes);
+  const caustic = step === 'clean' && settings.chemicals.find((c) => c.id === d.chemical)?.caustic;
   return {
     step,
     at,
     ...(d.chemical ? { chemical: d.chemical } : {}),
     ...(concentration !== undefined && concentration > 0 ? { concentration } : {}),
     ...(contact !== undefined ? { contactMinutes: contact } : {}),
+    ...(caustic ? { vented: d.vented } : {}),
+    ...exception,
   };
 }
+
+/**
+ * Why a step would be refused, beside the step; for a rule that may be broken with a reason, the
+ * box for that reason (the step is then recorded as an exception and the audit report lists it).
+ */
+const StepProblems = ({
+  id,
+  problems,
+  server,
+  reason,
+  onReason,
+}: {
+  id: string;
+  problems: StepViolation[];
+  server: string[];
+  reason: string;
+  onReason: (v: string) => void;
+}) => {
+  const messages = [...new Set([...problems.map((p) => p.message), ...server])];
+  if (!messages.length) return null;
+  const exceptable = problems.length > 0 && problems.every((p) => p.exceptable);
+  return (
+    <div id={id} className="mt-3 flex flex-col gap-2 rounded-md border border-danger/40 bg-danger-soft px-3 py-2 text-sm text-danger-strong" role="alert">
+      <ul className="list-disc pl-5">
+        {messages.map((m) => (
+          <li key={m}>{m}</li>
+        ))}
+      </ul>
+      {exceptable ? (
+        <label className="flex flex-col gap-1 font-medium text-ink">
+          Reason to record it as an exception
+          <textarea
+            className="min-h-20 w-full rounded-md border border-line-strong bg-surface px-3 py-2 text-base text-ink"
+            value={reason}
+            maxLength={500}
+            onChange={(e) => onReason(e.target.value)}
+          />
+          <span className="text-xs font-normal text-ink-muted">Or correct the value above. An exception is listed in the audit report with its reason.</span>
+        </label>
+      ) : problems.length ? (
+        <p className="text-xs">This cannot be recorded as an exception: correct it.</p>
+      ) : null}
+    </div>
+  );
+};
 
 const outcomeText = {
   ready: { label: 'Ready', tone: 'ready' as const, line: 'The vessel will be ready to fill.' },
@@ -95,43 +155,81 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
   const record = useRecordCycle();
   const cont = useContinueCycle();
   const [error, setError] = useState<string | null>(null);
+  /** The server's field errors, by step (a 422 names steps by their index in what was sent). */
+  const [serverErrors, setServerErrors] = useState<Partial<Record<SanitationStep, string[]>>>({});
+  const kegs = useVesselStatus({ kind: 'keg', sort: 'code', order: 'asc', pageSize: 100 });
 
-  const set = (step: SanitationStep, patch: Partial<StepDraft>) => setDrafts((d) => ({ ...d, [step]: { ...d[step], ...patch } }));
+  const set = (step: SanitationStep, patch: Partial<StepDraft>) => {
+    setServerErrors((e) => ({ ...e, [step]: undefined }));
+    setError(null);
+    setDrafts((d) => ({ ...d, [step]: { ...d[step], ...patch } }));
+  };
   const pickChemical = (step: SanitationStep, id: string) => {
     const c = settings.chemicals.find((x) => x.id === id);
     set(step, { chemical: id, ...(c ? { concentration: String(c.defaultConcentration), contactMinutes: String(c.recommendedContactMinutes) } : {}) });
   };
 
-  const newSteps = sanitationSteps.filter((s) => drafts[s].done && !carried.has(s)).map((s) => toInput(s, drafts[s]));
-  const preview = useMemo(() => {
+  const newSteps = sanitationSteps.filter((s) => drafts[s].done && !carried.has(s)).map((s) => toInput(s, drafts[s], settings));
+  const { preview, problems } = useMemo(() => {
     const previous: StepForRules[] =
       continuing && openCycle
-        ? openCycle.steps.map((s) => ({ step: s.step, chemical: s.chemicalId ?? s.chemical, concentration: s.concentration, contactMinutes: s.contactMinutes, at: s.at, purgeMethod: s.purgeMethod }))
+        ? openCycle.steps.map((s) => ({
+            step: s.step,
+            chemical: s.chemicalId ?? s.chemical,
+            concentration: s.concentration,
+            contactMinutes: s.contactMinutes,
+            at: s.at,
+            purgeMethod: s.purgeMethod,
+            pushedIntoEquipmentId: s.pushedInto?.id,
+            vented: s.vented,
+            exceptionReason: s.exceptionReason,
+          }))
         : [];
     const all = [...previous, ...newSteps];
-    return all.length ? evaluateCycle(all, settings) : null;
+    // The same rules the server applies, shown beside each step before anything is sent.
+    const byStep: Partial<Record<SanitationStep, StepViolation[]>> = {};
+    for (const v of all.length ? checkSteps(all, settings) : []) {
+      if (v.index < previous.length) continue;
+      (byStep[v.step] ??= []).push(v);
+    }
+    return { preview: all.length ? evaluateCycle(all, settings) : null, problems: byStep };
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [JSON.stringify(newSteps), continuing, openCycle, settings]);
+  const refused = sanitationSteps.some((s) => (problems[s] ?? []).some((v) => !v.exceptable || !drafts[s].exceptionReason.trim()));
 
   const save = async () => {
     setError(null);
+    setServerErrors({});
+    if (refused) {
+      setError('Some steps break the co-op’s rules: correct them, or give a reason to record them as exceptions (see the steps marked above).');
+      return;
+    }
+    // A reason typed for a rule the step no longer breaks (the value was corrected) is not sent.
+    const steps = newSteps.map(({ exceptionReason, ...rest }) =>
+      exceptionReason && (problems[rest.step] ?? []).some((v) => v.exceptable) ? { ...rest, exceptionReason } : rest,
+    );
     try {
       const result =
         continuing && openCycle
-          ? await cont.mutateAsync({ cycleId: openCycle.id, steps: newSteps })
-          : await record.mutateAsync({ equipmentId: vessel.id, steps: newSteps });
+          ? await cont.mutateAsync({ cycleId: openCycle.id, steps })
+          : await record.mutateAsync({ equipmentId: vessel.id, steps });
       onSaved(result);
     } catch (e) {
       setError(problemMessage(e));
+      const byStep: Partial<Record<SanitationStep, string[]>> = {};
+      for (const fe of isApiProblem(e) ? e.errors : []) {
+        const m = /^steps\.(\d+)\./.exec(fe.path);
+        const step = m ? newSteps[Number(m[1])]?.step : undefined;
+        if (step) (byStep[step] ??= []).push(fe.message);
+      }
+      setServerErrors(byStep);
     }
   };
 
   const chemicalsFor = (step: SanitationStep) => settings.chemicals.filter((c) => c.step === step && (c.active || c.id === drafts[step].chemical));
   const unitOf = (step: SanitationStep) => settings.chemicals.find((c) => c.id === drafts[step].chemical)?.unit ?? '';
-  const minimum = (step: 'clean' | 'sanitize') => {
-    const chem = settings.chemicals.find((c) => c.id === drafts[step].chemical);
-    return Math.max(settings.minimumContactMinutes[step], chem?.minimumContactMinutes ?? 0);
-  };
+  const chemicalOf = (step: SanitationStep) => settings.chemicals.find((c) => c.id === drafts[step].chemical && c.step === step);
+  const minimum = (step: 'clean' | 'sanitize') => minimumContactFor(settings, step, chemicalOf(step));
 
   return (
     <div className="flex flex-col gap-4">
@@ -197,6 +295,24 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                         <BigInput type="number" inputMode="decimal" step="any" min={0} value={d.contactMinutes} onChange={(e) => set(step, { contactMinutes: e.target.value })} />
                         <span className="text-xs font-normal text-ink-muted">The co-op’s minimum: {minimum(step)} min</span>
                       </label>
+                      {chemicalOf(step) ? (
+                        <p className="text-xs text-ink-muted sm:col-span-2">
+                          Working strength of {chemicalOf(step)!.name}: {chemicalOf(step)!.minConcentration}–{chemicalOf(step)!.maxConcentration} {chemicalOf(step)!.unit}
+                        </p>
+                      ) : null}
+                      {step === 'clean' && chemicalOf(step)?.caustic ? (
+                        <div className="flex flex-col gap-2 sm:col-span-2">
+                          <Alert tone="error" title="Caustic: vent the CO2 first">
+                            {causticCo2Warning}
+                          </Alert>
+                          <Checkbox
+                            className="min-h-12 rounded-md border border-line-strong bg-surface px-3 py-2 text-base"
+                            label={`I vented ${vessel.code} to atmospheric pressure before the caustic went in`}
+                            checked={d.vented}
+                            onChange={(e) => set(step, { vented: e.target.checked })}
+                          />
+                        </div>
+                      ) : null}
                     </>
                   ) : null}
                   {step === 'purge' ? (
@@ -218,8 +334,23 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                         <label className="flex flex-col gap-1 text-sm font-medium">
                           Flush (seconds)
                           <BigInput type="number" inputMode="numeric" min={0} value={d.purgeSeconds} onChange={(e) => set(step, { purgeSeconds: e.target.value })} />
+                          <span className="text-xs font-normal text-ink-muted">The co-op’s minimum: {settings.minimumPurgeSeconds} s</span>
                         </label>
-                      ) : null}
+                      ) : (
+                        <label className="flex flex-col gap-1 text-sm font-medium">
+                          Pushed into keg
+                          <BigSelect value={d.pushedInto} onChange={(e) => set(step, { pushedInto: e.target.value })}>
+                            <option value="">Pick the keg…</option>
+                            {kegs.data?.items
+                              .filter((k) => k.id !== vessel.id)
+                              .map((k) => (
+                                <option key={k.id} value={k.id}>
+                                  {k.code}
+                                </option>
+                              ))}
+                          </BigSelect>
+                        </label>
+                      )}
                     </>
                   ) : null}
                   <label className="flex flex-col gap-1 text-sm font-medium">
@@ -228,12 +359,26 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                   </label>
                 </div>
               )}
+              {isCarried ? null : (
+                <StepProblems
+                  id={`${stepId}-problems`}
+                  problems={d.done ? (problems[step] ?? []) : []}
+                  server={serverErrors[step] ?? []}
+                  reason={d.exceptionReason}
+                  onReason={(v) => set(step, { exceptionReason: v })}
+                />
+              )}
             </li>
           );
         })}
       </ol>
 
-      {preview ? (
+      {preview && refused ? (
+        <section aria-live="polite" className="rounded-lg border border-danger/40 bg-danger-soft p-3 text-danger-strong">
+          <p className="text-base font-medium">This cycle cannot be saved as it stands.</p>
+          <p className="mt-1 text-sm">Correct the steps marked above, or give a reason where a step may be recorded as an exception.</p>
+        </section>
+      ) : preview ? (
         <section aria-live="polite" className="rounded-lg border border-line bg-ground-deep p-3">
           <p className="flex flex-wrap items-center gap-2 text-base">
             This cycle leaves {vessel.code}: <Badge tone={outcomeText[preview.outcome].tone}>{outcomeText[preview.outcome].label}</Badge>
