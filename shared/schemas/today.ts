@@ -1,4 +1,5 @@
 import type { AgeingBucket, InvoiceRun, MemberBalance } from './billing.ts';
+import type { MaintenanceItem } from './inspections.ts';
 
 /** `GET /api/today`: what needs doing today, one section per thing the person may see. */
 export interface TodayMemberSection {
@@ -13,6 +14,8 @@ export interface TodayCellarSection {
   overdueKegs: { total: number; items: { id: string; code: string; memberName: string | null; dueAt: string }[] };
   transfersDue: { batchId: string; batchName: string; ownerName: string; fermenterId: string; fermenterCode: string; bookingEndsAt: string }[];
   handovers: { bookingId: string; equipmentId: string; equipmentCode: string; startsAt: string; equipmentState: string; ready: boolean }[];
+  /** Kegs and cylinders whose inspection failed, is past due or due soon (most urgent first). */
+  inspectionsDue?: { total: number; items: MaintenanceItem[] };
 }
 
 export interface TodayMoneySection {
