@@ -6,6 +6,7 @@ import * as bookings from './0003_bookings.ts';
 import * as batches from './0004_batches.ts';
 import * as cellar from './0005_cellar.ts';
 import * as billing from './0006_billing.ts';
+import * as inspections from './0007_inspections.ts';
 import { demoCalendar, seedToday, type DemoCalendar } from './demo-calendar.ts';
 
 /** Seeds in the order they run; each later capability appends its own. */
@@ -15,6 +16,7 @@ export const seeds: { name: string; seed: (db: Database, calendar: DemoCalendar)
   { name: '0003_bookings', seed: bookings.seed },
   { name: '0004_batches', seed: batches.seed },
   { name: '0005_cellar', seed: cellar.seed },
+  { name: '0007_inspections', seed: inspections.seed },
   // Billing reads every other capability's records: it stays last.
   { name: '0006_billing', seed: billing.seed },
 ];
