@@ -88,30 +88,32 @@ export const InspectionsPanel = ({ item, inspections, inspectionsDue, cylinder }
       {cylinder ? <CylinderBlock item={item} cylinder={cylinder} /> : null}
       {ability.can('update', 'Equipment') ? <InspectionForm item={item} kinds={kinds} /> : null}
       {inspections.length ? (
-        <table className="mt-4 w-full text-sm">
-          <caption className="sr-only">Inspections of {item.code}, newest first</caption>
-          <thead>
-            <tr className="text-left text-xs text-ink-muted uppercase">
-              <th className="py-1.5 pr-3">When</th>
-              <th className="py-1.5 pr-3">Inspection</th>
-              <th className="py-1.5 pr-3">Result</th>
-              <th className="py-1.5">Next due</th>
-            </tr>
-          </thead>
-          <tbody className="divide-y divide-line">
-            {inspections.map((i) => (
-              <tr key={i.id}>
-                <td className="py-1.5 pr-3 whitespace-nowrap">{formatDateTime(i.at)}</td>
-                <td className="py-1.5 pr-3">
-                  {inspectionKindLabels[i.kind]}
-                  {i.note ? <span className="block text-xs text-ink-muted">{i.note}</span> : null}
-                </td>
-                <td className="py-1.5 pr-3">{i.passed ? <Badge tone="ready">Passed</Badge> : <Badge tone="danger">Failed</Badge>}</td>
-                <td className="py-1.5 whitespace-nowrap">{formatDate(i.nextDueAt)}</td>
+        <div className="mt-4 overflow-x-auto">
+          <table className="w-full text-sm">
+            <caption className="sr-only">Inspections of {item.code}, newest first</caption>
+            <thead>
+              <tr className="text-left text-xs text-ink-muted uppercase">
+                <th className="py-1.5 pr-3">When</th>
+                <th className="py-1.5 pr-3">Inspection</th>
+                <th className="py-1.5 pr-3">Result</th>
+                <th className="py-1.5 whitespace-nowrap">Next due</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody className="divide-y divide-line">
+              {inspections.map((i) => (
+                <tr key={i.id}>
+                  <td className="py-1.5 pr-3 whitespace-nowrap">{formatDate(i.at)}</td>
+                  <td className="py-1.5 pr-3">
+                    {inspectionKindLabels[i.kind]}
+                    {i.note ? <span className="block text-xs text-ink-muted">{i.note}</span> : null}
+                  </td>
+                  <td className="py-1.5 pr-3">{i.passed ? <Badge tone="ready">Passed</Badge> : <Badge tone="danger">Failed</Badge>}</td>
+                  <td className="py-1.5 whitespace-nowrap">{formatDate(i.nextDueAt)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
       ) : null}
     </section>
   );
