@@ -1,6 +1,6 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createCo2Cylinder, createInspection, createKeg, DAY } from '../../db/factories/index.ts';
+import { createCo2Cylinder, createInspection, createKeg, DAY, fillKeg } from '../../db/factories/index.ts';
 import { launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
@@ -61,6 +61,21 @@ describe('the brewer on duty keeps the pressure-vessel records', { timeout: 120_
     await page.getByRole('heading', { name: 'Maintenance' }).waitFor();
     await page.getByRole('row').filter({ hasText: 'C-44' }).waitFor();
     await page.screenshot({ path: '/tmp/insp-maintenance-phone.png', fullPage: true });
+    await context.close();
+  });
+
+  it('shows the keg’s rating and the pressure cautions in the planner, and the intervals in Settings', async () => {
+    const rated = await createKeg(ctx.db, { code: 'K-4402', attributes: { ratedPressureKpa: 200 } });
+    await fillKeg(ctx.db, { kegId: rated.id, at: new Date(ctx.clock.now().getTime() - 3600_000) });
+    const { page, context } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone });
+    await page.goto(`/kegs/${rated.id}/carbonation`);
+    const rating = page.getByTestId('keg-rating');
+    await rating.getByText(/200 kPa|2\.00 bar/).waitFor();
+    await page.getByRole('complementary', { name: 'Pressure and CO2 safety' }).waitFor();
+    await page.screenshot({ path: '/tmp/insp-planner-phone.png', fullPage: true });
+    await page.goto('/settings');
+    await page.getByRole('form', { name: 'Pressure-vessel settings' }).waitFor();
+    expect(await page.getByRole('form', { name: 'Pressure-vessel settings' }).getByLabel('Pressure test (months)').inputValue()).toBe('24');
     await context.close();
   });
 });

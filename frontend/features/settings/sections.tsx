@@ -4,6 +4,7 @@ import { settingSections } from '../../../shared/schemas/settings.ts';
 import { BookingRulesSection } from '@/features/settings/components/booking-rules-form';
 import { FermentationSettingsSection } from '@/features/batches/components/fermentation-settings-form';
 import { CarbonationSettingsSection, SanitationSettingsSection } from '@/features/cellar-ops/components/cellar-settings-forms';
+import { PressureSafetySettingsSection } from '@/features/equipment/components/pressure-safety-settings-form';
 
 /**
  * The Settings screen's sections, in order. Each capability adds one entry here: its key in the
@@ -19,6 +20,7 @@ export const settingsScreenSections: SettingsScreenSection[] = [
   { key: 'fermentation', Component: FermentationSettingsSection },
   { key: 'sanitation', Component: SanitationSettingsSection },
   { key: 'carbonation', Component: CarbonationSettingsSection },
+  { key: 'pressure_safety', Component: PressureSafetySettingsSection },
 ];
 
 export const sectionTitle = (key: SettingKey) => settingSections[key].title;
