@@ -4,12 +4,13 @@ import type { BatchTables } from './tables/batches.ts';
 import type { BillingTables } from './tables/billing.ts';
 import type { CellarTables } from './tables/cellar.ts';
 import type { CellarOperationsTables } from './tables/cellar-operations.ts';
+import type { InspectionTables } from './tables/inspections.ts';
 
 /**
  * The typed database: one interface of tables per capability, each in backend/db/tables/.
  * A capability adds its file there and one name to this list.
  */
-export interface DB extends AccountTables, CellarTables, BatchTables, BillingTables, CellarOperationsTables {}
+export interface DB extends AccountTables, CellarTables, BatchTables, BillingTables, CellarOperationsTables, InspectionTables {}
 
 export type AppUserRow = Selectable<AppUserTable>;
 export type NewAppUserRow = Insertable<AppUserTable>;

@@ -46,6 +46,9 @@
  *     the real charge sources for that member and period, priced, then issued on `today` (a draft with issue: false)
  * Settings (settings.ts)
  *   setSetting(db, key, patch)                    — merge fields into a settings section (e.g. booking_rules)
+ * Inspections and CO2 cylinders (inspections.ts)
+ *   createInspection(db, { equipmentId, kind, at, passed? = true, nextDueAt? (a year after `at` when passed), note?, recordedBy? })
+ *   setCylinderSupply(db, { cylinderId, remainingKg, connected? = false, at })   — contents; `connected` puts it on the gas line
  * Shared (common.ts)
  *   DEMO_PASSWORD, LONG_AGO, MINUTE, HOUR, DAY, addMs(at, ms)
  */
@@ -59,3 +62,4 @@ export * from './transfers.ts';
 export * from './kegs.ts';
 export * from './billing.ts';
 export * from './settings.ts';
+export * from './inspections.ts';

@@ -7,6 +7,7 @@ import * as batches from './0004_batches.ts';
 import * as cellar from './0005_cellar.ts';
 import * as billing from './0006_billing.ts';
 import * as trace from './0007_trace.ts';
+import * as inspections from './0008_inspections.ts';
 import { demoCalendar, seedToday, type DemoCalendar } from './demo-calendar.ts';
 
 /** Seeds in the order they run; each later capability appends its own. */
@@ -17,6 +18,7 @@ export const seeds: { name: string; seed: (db: Database, calendar: DemoCalendar)
   { name: '0004_batches', seed: batches.seed },
   { name: '0005_cellar', seed: cellar.seed },
   { name: '0007_trace', seed: trace.seed },
+  { name: '0008_inspections', seed: inspections.seed },
   // Billing reads every other capability's records: it stays last.
   { name: '0006_billing', seed: billing.seed },
 ];

@@ -90,6 +90,7 @@ export const routes: RouteObject[] = [
                 ],
               },
               { path: paths.cellar.slice(1), lazy: lazy(() => import('@/app/routes/cellar/cellar')) },
+              { path: `${paths.cellar.slice(1)}/maintenance`, lazy: lazy(() => import('@/app/routes/cellar/maintenance')) },
               { path: `${paths.cellar.slice(1)}/:equipmentId`, lazy: lazy(() => import('@/app/routes/cellar/equipment')) },
               {
                 path: paths.bookings.slice(1),

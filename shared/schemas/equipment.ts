@@ -56,6 +56,8 @@ export const fermenterAttributesSchema = z.object({
 export const kegAttributesSchema = z.object({
   serial: z.string().trim().min(1, 'Enter the serial').max(60),
   lock: z.enum(['ball', 'pin']),
+  /** Rated (maximum) working pressure stamped on the keg, kPa gauge; screens show psi beside it. */
+  ratedPressureKpa: z.number().positive('More than 0 kPa').max(2000, 'At most 2000 kPa').nullable().optional(),
 });
 export const tapAttributesSchema = z.object({
   /** Where the tap sits in the cold room, e.g. "Cold room, left wall, 1". */

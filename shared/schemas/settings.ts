@@ -8,6 +8,7 @@ import {
 } from './cellar-settings.ts';
 import { defaultFermentationSettings, fermentationSettingsSchema } from './batches.ts';
 import { defaultShelfLifeSettings, shelfLifeSettingsSchema } from '../cellar/trace.ts';
+import { defaultPressureSafetySettings, pressureSafetySettingsSchema } from './inspections.ts';
 
 /**
  * The co-op's settings: one section per key in the `setting` table. Each section has a schema
@@ -107,6 +108,14 @@ export const settingSections = {
     schema: shelfLifeSettingsSchema,
     defaults: defaultShelfLifeSettings,
   } satisfies SettingSection<typeof shelfLifeSettingsSchema>,
+  pressure_safety: {
+    key: 'pressure_safety',
+    title: 'Pressure vessels and gas',
+    description:
+      'How often kegs and CO2 cylinders are inspected when a record gives no next date, and how far ahead Today warns. Local pressure-vessel rules and the makers decide; these are the co-op’s defaults.',
+    schema: pressureSafetySettingsSchema,
+    defaults: defaultPressureSafetySettings,
+  } satisfies SettingSection<typeof pressureSafetySettingsSchema>,
 } as const;
 export type SettingKey = keyof typeof settingSections;
 export const settingKeys = Object.keys(settingSections) as SettingKey[];

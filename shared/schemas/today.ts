@@ -1,4 +1,5 @@
 import type { AgeingBucket, InvoiceRun, MemberBalance } from './billing.ts';
+import type { MaintenanceItem } from './inspections.ts';
 
 /** Kegs still holding beer past or near their best-before (within `nearDays`), soonest first. */
 export interface TodayBestBefore {
@@ -24,6 +25,8 @@ export interface TodayCellarSection {
   handovers: { bookingId: string; equipmentId: string; equipmentCode: string; startsAt: string; equipmentState: string; ready: boolean }[];
   /** Kegs anywhere that are past or near best-before. */
   bestBefore: TodayBestBefore;
+  /** Kegs and cylinders whose inspection failed, is past due or due soon (most urgent first). */
+  inspectionsDue?: { total: number; items: MaintenanceItem[] };
 }
 
 export interface TodayMoneySection {

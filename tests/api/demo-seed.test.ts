@@ -5,6 +5,7 @@ import { createDb, type Database } from '../../backend/db/database.ts';
 import { previewRun } from '../../backend/modules/billing/invoice-runs.service.ts';
 import { getBookingRules } from '../../backend/modules/settings/settings.service.ts';
 import { cellarSection, memberSection } from '../../backend/modules/today/today.service.ts';
+import { listMaintenance } from '../../backend/modules/equipment/inspections.service.ts';
 import { addDays, nextPeriod, periodBounds } from '../../shared/billing/dates.ts';
 import { demoCalendar, DESIGN_TODAY, seedToday } from '../../db/seeds/demo-calendar.ts';
 import { runSeeds } from '../../db/seeds/index.ts';
@@ -193,6 +194,18 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         const own = section.batches.find((b) => b.status === 'fermenting');
         expect(own?.latestAt).toBeTruthy();
         expect(now.getTime() - new Date(own!.latestAt!).getTime()).toBeLessThan(3 * DAY);
+      });
+
+      it('shows the brewer a keg past its pressure test and a cylinder past its test date, and neither is in use', async () => {
+        const due = await listMaintenance(db, { page: 1, pageSize: 50, sort: 'dueAt', order: 'asc', q: undefined, status: 'overdue' }, now);
+        const keg = due.items.find((i) => i.equipment.kind === 'keg' && i.kind === 'pressure_test');
+        const cylinder = due.items.find((i) => i.equipment.code === 'C-6' && i.kind === 'hydrostatic_test');
+        expect(keg).toBeTruthy();
+        expect(cylinder).toBeTruthy();
+        expect(keg!.equipment.state).not.toBe('holding');
+        expect(due.items.every((i) => i.equipment.code !== 'C-1')).toBe(true);
+        const line = await db.selectFrom('co2_cylinder_supply').select('cylinder_id').where('connected', '=', true).execute();
+        expect(line).toHaveLength(1);
       });
 
       it('gives the brewer vessels to clean, transfers due and overdue kegs', async () => {

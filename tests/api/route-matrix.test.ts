@@ -70,6 +70,10 @@ const expected: Record<string, Entry> = {
   'POST /api/equipment': { cells: adminOnly },
   'PATCH /api/equipment/:id': { cells: adminOnly, record: 'equipment' },
   'POST /api/equipment/:id/state': { cells: cellarRota, record: 'equipment' },
+  'GET /api/equipment/maintenance': { cells: signedIn },
+  'POST /api/equipment/:id/inspections': { cells: cellarRota, record: 'equipment' },
+  'POST /api/equipment/:id/connect': { cells: cellarRota, record: 'equipment' },
+  'POST /api/equipment/:id/refill': { cells: cellarRota, record: 'equipment' },
 
   'GET /api/bookings/rules': { cells: signedIn },
   'GET /api/bookings': { cells: signedIn },

@@ -67,6 +67,9 @@ const entries: Record<string, FuzzEntry> = {
   },
   'PATCH /api/equipment/:id': { as: 'admin', record: 'equipment', valid: () => ({ name: 'Renamed fermenter', notes: 'Lid replaced', attributes: { style: 'bucket', hasValve: true } }) },
   'POST /api/equipment/:id/state': { as: 'brewer', record: 'equipment', valid: () => ({ state: 'cleaned', reason: 'Soaked and rinsed' }) },
+  'POST /api/equipment/:id/inspections': { as: 'brewer', record: 'equipment', valid: (f) => ({ kind: 'pressure_test', at: iso(new Date(f.now.getTime() - HOUR)), passed: true, note: 'Fuzz' }) },
+  'POST /api/equipment/:id/connect': { as: 'brewer', record: 'equipment', valid: () => ({ note: 'Fuzz' }) },
+  'POST /api/equipment/:id/refill': { as: 'brewer', record: 'equipment', valid: () => ({ remainingKg: 5, note: 'Fuzz' }) },
   'POST /api/bookings': { as: 'member', valid: (f) => ({ equipmentId: f.fermenterId, startsAt: iso(new Date(f.now.getTime() + 20 * DAY)), endsAt: iso(new Date(f.now.getTime() + 24 * DAY)), notes: 'Fuzz' }) },
   'DELETE /api/bookings/:id': { as: 'member', record: 'booking', valid: () => ({}) },
   'PUT /api/settings/:key': {

@@ -11,6 +11,7 @@ import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import { conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
+import { assertInspected } from '../equipment/inspections.service.ts';
 
 /** Who is asking: their id and what the shared policy lets them do. */
 export interface Viewer {
@@ -279,6 +280,8 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
       if (item.state === 'out_of_service') {
         throw conflict(`${item.code} is out of service and cannot be booked.`, { title: 'Out of service', clash: { equipmentId: item.id, code: item.code } });
       }
+      // A CO2 cylinder past its hydrostatic test date (or failing it) may not be used.
+      if (item.kind === 'co2_cylinder') await assertInspected(trx, [item], 'booked', now);
       const rules = await getBookingRules(trx);
       const { active } = await trx
         .selectFrom('booking')

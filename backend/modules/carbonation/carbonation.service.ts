@@ -9,6 +9,7 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
+import { assertInspected } from '../equipment/inspections.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
 
 export const carbonationReminderQueue = 'cellar.carbonation-reminder';
@@ -109,10 +110,34 @@ async function resolveLine(db: Database, input: PlanFields): Promise<Line | null
   };
 }
 
+/** The keg's rated working pressure (kPa gauge) from the registry, null when not recorded. */
+async function kegRating(db: Database, kegId: string | undefined): Promise<number | null> {
+  if (!kegId) return null;
+  const keg = await db.selectFrom('equipment').select('attributes').where('id', '=', kegId).where('kind', '=', 'keg').executeTakeFirst();
+  const rated = (keg?.attributes as { ratedPressureKpa?: unknown } | undefined)?.ratedPressureKpa;
+  return typeof rated === 'number' && rated > 0 ? rated : null;
+}
+
+/** 422 when the plan would put more on the keg than its rated working pressure (fast start or serving). */
+function checkRating(p: ReturnType<typeof computePlan>, ratedKpa: number | null) {
+  if (ratedKpa === null) return;
+  const asked = [
+    { path: 'fastStartPressureKpa', kpa: p.fastStartPressureKpa ?? 0 },
+    { path: 'targetVolumes', kpa: p.result.servingPressureKpa },
+  ].filter((x) => x.kpa > ratedKpa);
+  if (!asked.length) return;
+  const psi = (kpa: number) => Math.round(kpa / 6.894757293);
+  const over = asked[0]!;
+  const message = `This plan needs ${Math.round(over.kpa)} kPa (${psi(over.kpa)} psi), above the keg's rated working pressure of ${Math.round(ratedKpa)} kPa (${psi(ratedKpa)} psi). Never exceed a keg's rating: choose a lower pressure or another keg.`;
+  throw unprocessable(message, asked.map((a) => ({ path: a.path, message: `Above the keg's rating of ${Math.round(ratedKpa)} kPa` })));
+}
+
 export async function previewPlan(db: Database, input: PlanFields, now: Date) {
   const settings = await carbonationSettings(db);
   const line = await resolveLine(db, input);
   const p = computePlan(input, settings, line, now);
+  const ratedPressureKpa = await kegRating(db, input.kegId);
+  checkRating(p, ratedPressureKpa);
   return {
     servingPressureKpa: round(p.result.servingPressureKpa),
     temperatureC: p.temperatureC,
@@ -124,6 +149,7 @@ export async function previewPlan(db: Database, input: PlanFields, now: Date) {
     fastStartEquilibriumVolumes: p.result.fastStartEquilibriumVolumes,
     warnings: p.result.warnings,
     line: p.lineCheck,
+    kegRatedPressureKpa: ratedPressureKpa,
   };
 }
 
@@ -135,6 +161,9 @@ export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbo
     const keg = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.kegId).forUpdate().executeTakeFirst();
     if (!keg || keg.kind !== 'keg') throw notFound('Keg');
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer to carbonate.`);
+    // A keg past its pressure test, relief-valve check or seal service (or failing one) is not put under pressure.
+    await assertInspected(trx, [keg], 'carbonated', now);
+    checkRating(p, await kegRating(trx, keg.id));
     const fill = await trx.selectFrom('keg_fill').select('id').where('keg_id', '=', keg.id).where('emptied_at', 'is', null).executeTakeFirst();
     const old = await trx
       .updateTable('carbonation_plan')

@@ -25,6 +25,9 @@ import {
   updateEquipment,
 } from './equipment.service.ts';
 import { renderLabelSheet } from './labels-pdf.service.ts';
+import { connectCylinderSchema, createInspectionSchema, maintenanceListQuerySchema, refillCylinderSchema } from '../../../shared/schemas/inspections.ts';
+import { connectCylinder, cylinderView, refillCylinder } from './cylinders.service.ts';
+import { inspectionsDue, listInspections, listMaintenance, recordInspection } from './inspections.service.ts';
 
 const idSchema = z.uuid();
 
@@ -71,14 +74,51 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     res.json({ kind: q.kind, code: await nextEquipmentCode(db, q.kind) });
   });
 
+  router.get('/maintenance', async (req, res) => {
+    // Inspections failed, past due or due soon (backend/modules/equipment/inspections.service.ts).
+    const q = maintenanceListQuerySchema.parse(req.query);
+    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
+    res.json(await listMaintenance(db, q, clock.now()));
+  });
+
   router.get('/:id', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
     const item = await itemOr404(req.params.id);
-    const [history, upcomingBookings] = await Promise.all([
+    const now = clock.now();
+    const [history, upcomingBookings, inspections, due, cylinder] = await Promise.all([
       equipmentHistory(db, item.id),
-      upcomingBookingsFor(db, item.id, { id: req.user!.id, ability: req.ability }, clock.now()),
+      upcomingBookingsFor(db, item.id, { id: req.user!.id, ability: req.ability }, now),
+      listInspections(db, item.id),
+      inspectionsDue(db, item.id, now),
+      item.kind === 'co2_cylinder' ? cylinderView(db, item) : Promise.resolve(undefined),
     ]);
-    res.json({ equipment: item, history, upcomingBookings });
+    res.json({ equipment: item, history, upcomingBookings, inspections, inspectionsDue: due, ...(cylinder ? { cylinder } : {}) });
+  });
+
+  router.post('/:id/inspections', async (req, res) => {
+    // The brewer on duty and the admin record inspections, as they change states.
+    ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
+    const input = createInspectionSchema.parse(req.body ?? {});
+    const item = await itemOr404(req.params.id);
+    const now = clock.now();
+    const inspection = await recordInspection(db, item, input, req.user!.id, now);
+    res.status(201).json({ inspection, equipment: await findEquipment(db, item.id, now), inspectionsDue: await inspectionsDue(db, item.id, now) });
+  });
+
+  router.post('/:id/connect', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
+    const input = connectCylinderSchema.parse(req.body ?? {});
+    const item = await itemOr404(req.params.id);
+    await connectCylinder(db, item, input, req.user!.id, clock.now());
+    res.json({ cylinder: await cylinderView(db, item) });
+  });
+
+  router.post('/:id/refill', async (req, res) => {
+    ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
+    const input = refillCylinderSchema.parse(req.body ?? {});
+    const item = await itemOr404(req.params.id);
+    await refillCylinder(db, item, input, req.user!.id, clock.now());
+    res.json({ cylinder: await cylinderView(db, await findEquipment(db, item.id, clock.now()) ?? item) });
   });
 
   router.post('/', async (req, res) => {

@@ -14,6 +14,7 @@ import type {
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { drawCo2, purgeGrams } from '../equipment/cylinders.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
 import { effectiveStateSql, freshUntilSql, lapsedSql, setVesselState } from './vessel-state.ts';
 
@@ -122,6 +123,7 @@ export async function recordCycle(
       .returning('id')
       .executeTakeFirstOrThrow();
     await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, input.steps, settings, actor.id)).execute();
+    await drawCo2(trx, { grams: purgeGrams(input.steps, settings.co2GramsPerPurge), sourceType: 'sanitation_cycle', sourceId: cycle.id, actorId: actor.id, at: now, now });
     await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
     await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycle.id, {
       equipmentId: vessel.id,
@@ -202,6 +204,7 @@ export async function continueCycle(
       .execute();
     await trx.deleteFrom('sanitation_step').where('cycle_id', '=', cycle.id).execute();
     await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, merged, settings, actor.id)).execute();
+    await drawCo2(trx, { grams: purgeGrams(input.steps, settings.co2GramsPerPurge), sourceType: 'sanitation_cycle', sourceId: cycle.id, actorId: actor.id, at: now, now });
     await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
     await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, { equipmentId: vessel.id, code: vessel.code, outcome: ev.outcome, added: input.steps.map((s) => s.step) });
     return vessel.id;

@@ -7,6 +7,7 @@ import { requireUser } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile } from '../billing/billing-profile.service.ts';
 import { memberBalance } from '../billing/invoices.service.ts';
 import { billingSummary } from '../billing/reports.service.ts';
+import { listMaintenance } from '../equipment/inspections.service.ts';
 import { cellarSection, memberSection } from './today.service.ts';
 
 /** `GET /api/today`: one request for the Today screen; each section only for those whose abilities cover it. */
@@ -35,8 +36,8 @@ export function todayRoutes({ db, clock }: Deps): Router {
     }
     if (ability.can('create', 'SanitationCycle')) {
       tasks.push(
-        cellarSection(db, now, ability.can('readOwner', 'Keg')).then((s) => {
-          out.cellar = s;
+        Promise.all([cellarSection(db, now, ability.can('readOwner', 'Keg')), listMaintenance(db, { page: 1, pageSize: 10, sort: 'dueAt', order: 'asc', q: undefined }, now)]).then(([s, due]) => {
+          out.cellar = { ...s, inspectionsDue: { total: due.total, items: due.items } };
         }),
       );
     }

@@ -8,6 +8,8 @@ import { batchGravityFigures } from '../batches/figures.ts';
 import { fillBestBefore } from '../batches/shelf-life.ts';
 import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
 import { setVesselState } from '../sanitation/vessel-state.ts';
+import { drawCo2 } from '../equipment/cylinders.service.ts';
+import { assertInspected } from '../equipment/inspections.service.ts';
 
 const FUTURE_SLACK_MS = 10 * 60_000;
 const round2 = (v: number) => Math.round(v * 100) / 100;
@@ -86,6 +88,8 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
     if (missing.length) throw unprocessable('Unknown keg.', missing.map((id) => ({ path: `toKegIds.${input.toKegIds.indexOf(id)}`, message: 'No such keg' })));
     const notKeg = kegs.find((k) => k.kind !== 'keg');
     if (notKeg) throw unprocessable(`${notKeg.code} is not a keg.`, [{ path: `toKegIds.${input.toKegIds.indexOf(notKeg.id)}`, message: 'Pick a keg' }]);
+    // A keg whose pressure test, relief-valve check or seals are past due (or failed) is not filled.
+    await assertInspected(trx, kegs, 'filled', now);
 
     const lastIds = kegs.map((k) => k.last_cycle_id).filter((v): v is string => Boolean(v));
     const cycles = lastIds.length
@@ -177,7 +181,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
     const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
     const bestBefore = await fillBestBefore(trx, batch.id, at);
     for (const [i, k] of ordered.entries()) {
-      await trx
+      const fill = await trx
         .insertInto('keg_fill')
         .values({
           transfer_id: transfer.id,
@@ -193,7 +197,10 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
           filled_at: at,
           best_before: bestBefore,
         })
-        .execute();
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      // The CO2 billed for the fill comes off the connected cylinder.
+      await drawCo2(trx, { grams: perKegCo2, sourceType: 'keg_fill', sourceId: fill.id, actorId: actor.id, at, now });
       await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);
     }
     await setVesselState(trx, fermenter.id, 'needs_cleaning', `Emptied by transfer of ${batch.name} to ${ordered.map((k) => k.code).join(', ')}`, actor.id, now);

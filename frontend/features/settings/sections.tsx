@@ -5,6 +5,7 @@ import { BookingRulesSection } from '@/features/settings/components/booking-rule
 import { FermentationSettingsSection } from '@/features/batches/components/fermentation-settings-form';
 import { ShelfLifeSettingsSection } from '@/features/batches/components/shelf-life-settings-form';
 import { CarbonationSettingsSection, SanitationSettingsSection } from '@/features/cellar-ops/components/cellar-settings-forms';
+import { PressureSafetySettingsSection } from '@/features/equipment/components/pressure-safety-settings-form';
 
 /**
  * The Settings screen's sections, in order. Each capability adds one entry here: its key in the
@@ -21,6 +22,7 @@ export const settingsScreenSections: SettingsScreenSection[] = [
   { key: 'sanitation', Component: SanitationSettingsSection },
   { key: 'carbonation', Component: CarbonationSettingsSection },
   { key: 'shelf_life', Component: ShelfLifeSettingsSection },
+  { key: 'pressure_safety', Component: PressureSafetySettingsSection },
 ];
 
 export const sectionTitle = (key: SettingKey) => settingSections[key].title;

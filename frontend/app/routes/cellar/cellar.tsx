@@ -49,6 +49,9 @@ const CellarRoute = () => {
         <div>
           <h1 className="text-2xl">Cellar</h1>
           <p className="mt-1 text-ink-muted">Every vessel and where it stands. Tick items to print QR labels that open their page on a phone.</p>
+          <Link to="/cellar/maintenance" className="text-sm">
+            Maintenance: inspections due
+          </Link>
         </div>
         {ability.can('create', 'Equipment') ? <Button onClick={() => setAdding(true)}>Add equipment</Button> : null}
       </header>

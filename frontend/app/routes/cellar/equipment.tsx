@@ -9,6 +9,7 @@ import { PageLoader } from '@/components/ui/spinner';
 import { useEquipment } from '@/features/equipment/api/get-equipment';
 import { labelSheetHref } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentEditDialog } from '@/features/equipment/components/equipment-edit-dialog';
+import { InspectionsPanel, ratingText } from '@/features/equipment/components/inspections-panel';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { StateChangeDialog } from '@/features/equipment/components/state-change-dialog';
 import { attributeQuantities, formatAttribute } from '@/features/equipment/equipment-form';
@@ -32,6 +33,7 @@ const attributeLabels: Record<string, string> = {
   sizeKg: 'Size (CO2)',
   fillPercent: 'Fill',
   hydroTestDue: 'Hydrostatic test due',
+  ratedPressureKpa: 'Rated working pressure',
 };
 
 /** An item's attributes in the order its form asks for them (the database keeps its own key order). */
@@ -113,7 +115,7 @@ const EquipmentRoute = () => {
             {attributeEntries(item).map(([key, value]) => (
               <div key={key} className="contents">
                 <dt className="text-ink-muted">{attributeLabels[key] ?? key}</dt>
-                <dd>{formatAttribute(item.kind, key, value, units.units)}</dd>
+                <dd>{key === 'ratedPressureKpa' && typeof value === 'number' ? ratingText(value) : formatAttribute(item.kind, key, value, units.units)}</dd>
               </div>
             ))}
             <dt className="text-ink-muted">Notes</dt>
@@ -143,6 +145,8 @@ const EquipmentRoute = () => {
           )}
         </section>
       </div>
+
+      <InspectionsPanel item={item} inspections={detail.data.inspections} inspectionsDue={detail.data.inspectionsDue} cylinder={detail.data.cylinder} />
 
       <section className="rounded-lg border border-line bg-surface p-4">
         <h2 className="text-base">History</h2>

@@ -10,6 +10,8 @@ import { PageLoader } from '@/components/ui/spinner';
 import { useCreatePlan } from '@/features/cellar-ops/api/carbonation';
 import { useKeg, useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { Cautions } from '@/features/cellar-ops/components/cautions';
+import { useEquipment } from '@/features/equipment/api/get-equipment';
+import { inspectionKindLabels } from '../../../../shared/schemas/inspections.ts';
 import { localNow } from '@/features/cellar-ops/components/sanitation-checklist';
 import { BigChoice, BigInput, BigSelect } from '@/features/cellar-ops/components/touch';
 import { cellarPaths } from '@/features/cellar-ops/paths';
@@ -30,6 +32,7 @@ const CarbonationPlannerRoute = () => {
   const navigate = useNavigate();
   const ability = useAppAbility();
   const keg = useKeg(kegId);
+  const item = useEquipment(kegId);
   const board = useTapBoard();
   const setting = useSetting<CarbonationSettings>('carbonation');
   useDocumentTitle(keg.data ? `Carbonation · ${keg.data.keg.code}` : 'Carbonation');
@@ -42,6 +45,8 @@ const CarbonationPlannerRoute = () => {
       kegCode={keg.data.keg.code}
       holds={keg.data.keg.contents?.batchName ?? null}
       currentTapId={keg.data.keg.tap?.id ?? ''}
+      ratedKpa={typeof item.data?.equipment.attributes.ratedPressureKpa === 'number' ? item.data.equipment.attributes.ratedPressureKpa : null}
+      blocked={(item.data?.inspectionsDue ?? []).filter((d) => d.failed || d.overdue).map((d) => inspectionKindLabels[d.kind])}
       taps={board.data?.taps ?? []}
       settings={setting.data?.value ?? defaultCarbonationSettings}
       onSaved={() => navigate(cellarPaths.keg(kegId))}
@@ -54,6 +59,10 @@ interface PlannerFormProps {
   kegCode: string;
   holds: string | null;
   currentTapId: string;
+  /** The keg's rated working pressure, kPa gauge (null when not recorded). */
+  ratedKpa?: number | null;
+  /** Inspections failed or past due: no plan may be saved. */
+  blocked?: string[];
   taps: {
     id: string;
     code: string;
@@ -81,7 +90,7 @@ function lineOfTap(tap: PlannerFormProps['taps'][number] | undefined): { tubing:
 
 const resistanceToDisplay = (kPaPerM: number, u: 'metric' | 'us') => (u === 'us' ? ((kPaPerM * FT) / PSI_KPA).toFixed(3) : kPaPerM.toFixed(1));
 
-const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSaved }: PlannerFormProps) => {
+const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blocked = [], taps, settings, onSaved }: PlannerFormProps) => {
   const units = useUnits();
   const u = units.units;
   const create = useCreatePlan();
@@ -196,7 +205,16 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
       <header>
         <h1 className="text-2xl">Carbonate {kegCode}</h1>
         {holds ? <p className="mt-1 text-ink-muted">{holds}</p> : null}
+        <p className="mt-1 text-sm" data-testid="keg-rating">
+          Keg rated working pressure: <strong>{ratedKpa !== null ? `${units.pressure(ratedKpa)} (${formatKPa(ratedKpa)})` : 'not recorded'}</strong>. Never set the
+          regulator above it; the keg’s relief valve must work. Local codes come first.
+        </p>
       </header>
+      {blocked.length ? (
+        <Alert tone="error" title={`${kegCode} may not be carbonated`}>
+          {blocked.join(', ')} failed or past due: record a passing inspection on the keg’s page first.
+        </Alert>
+      ) : null}
 
       <section className="grid gap-3 rounded-lg border border-line bg-surface p-4 sm:grid-cols-2" aria-label="Target">
         <label className={label}>
@@ -315,6 +333,9 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, taps, settings, onSa
               </p>
             ))}
             {result.line ? <p className={`text-sm ${result.line.suits ? 'text-hop-strong' : 'text-due-strong'}`}>{result.line.verdict}</p> : null}
+            {ratedKpa !== null && Math.max(result.plan.servingPressureKpa, method === 'fast_start' ? inputs.fastStartPressureKpa : 0) > ratedKpa ? (
+              <p className="text-sm font-semibold text-danger">Above the keg’s rated working pressure of {units.pressure(ratedKpa)}: the plan will be refused.</p>
+            ) : null}
           </>
         ) : (
           <p className="text-due-strong">{result.problem}</p>

@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { Booking } from '../../../../shared/schemas/booking.ts';
 import type { Equipment, EquipmentStateChange } from '../../../../shared/schemas/equipment.ts';
+import type { CylinderView, InspectionDue, InspectionView } from '../../../../shared/schemas/inspections.ts';
 import { equipmentKeys } from '@/features/equipment/api/get-equipment-list';
 import { api } from '@/lib/api-client';
 
@@ -8,6 +9,9 @@ export interface EquipmentDetail {
   equipment: Equipment;
   history: EquipmentStateChange[];
   upcomingBookings: Booking[];
+  inspections: InspectionView[];
+  inspectionsDue: InspectionDue[];
+  cylinder?: CylinderView;
 }
 
 export const getEquipment = (id: string, signal?: AbortSignal) =>

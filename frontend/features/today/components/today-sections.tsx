@@ -1,6 +1,7 @@
 import { lazy, Suspense, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import type { TodayBestBefore, TodayCellarSection, TodayMemberSection, TodayMoneySection } from '../../../../shared/schemas/today.ts';
+import { inspectionKindLabels } from '../../../../shared/schemas/inspections.ts';
 import { Badge } from '@/components/ui/badge';
 import { paths } from '@/config/paths';
 import { Money } from '@/features/billing/components/money';
@@ -192,7 +193,29 @@ export const CellarToday = ({ section }: { section: TodayCellarSection }) => (
       )}
     </Card>
     <BestBeforeCard list={section.bestBefore} />
+    {section.inspectionsDue ? <InspectionsDueCard due={section.inspectionsDue} /> : null}
   </div>
+);
+
+/** Kegs and cylinders whose pressure test, relief valve, seals or hydrostatic test failed, is past due or due soon. */
+const InspectionsDueCard = ({ due }: { due: NonNullable<TodayCellarSection['inspectionsDue']> }) => (
+  <Card title="Inspections due" count={due.total} tone={due.items.some((i) => i.status !== 'due_soon') ? 'danger' : 'due'} action={<Link to="/cellar/maintenance">Maintenance list</Link>}>
+    {due.total === 0 ? (
+      <Empty>Every keg and cylinder is inside its test dates.</Empty>
+    ) : (
+      <ul className={rows}>
+        {due.items.map((i) => (
+          <li key={`${i.equipment.id}-${i.kind}`} className={row}>
+            <Link to={`/cellar/${i.equipment.id}`}>{i.equipment.code}</Link>
+            <span className="flex items-center gap-2 text-ink-muted">
+              {inspectionKindLabels[i.kind]} {i.status === 'failed' ? 'failed' : `${i.status === 'overdue' ? 'was due' : 'due'} ${formatDate(i.dueAt)}`}
+              {i.status !== 'due_soon' ? <Badge tone="danger">Not to be used</Badge> : null}
+            </span>
+          </li>
+        ))}
+      </ul>
+    )}
+  </Card>
 );
 
 export const MoneyToday = ({ section }: { section: TodayMoneySection }) => (

@@ -1,0 +1,251 @@
+import { sql } from 'kysely';
+import {
+  inspectionKindLabels,
+  inspectionKindsByEquipment,
+  type CreateInspectionInput,
+  type InspectionBlock,
+  type InspectionDue,
+  type InspectionKind,
+  type InspectionView,
+  type MaintenanceItem,
+  type MaintenanceListQuery,
+  type MaintenanceStatus,
+  type PressureSafetySettings,
+} from '../../../shared/schemas/inspections.ts';
+import type { Equipment, EquipmentKind, VesselState } from '../../../shared/schemas/equipment.ts';
+import type { Page } from '../../../shared/schemas/pagination.ts';
+import type { Database } from '../../db/database.ts';
+import { audit } from '../../lib/audit.ts';
+import { conflict, unprocessable } from '../../lib/http-problem.ts';
+import { coopTimeZone } from '../billing/billing-profile.service.ts';
+import { getSetting } from '../settings/settings.service.ts';
+import { writeStateChange } from '../sanitation/vessel-state.ts';
+
+const FUTURE_SLACK_MS = 10 * 60_000;
+const DAY = 24 * 3600_000;
+/** The reason a failed inspection writes on the state change; a later passing one looks for it to put the item back. */
+const FAILED_REASON = 'Inspection failed';
+
+export async function pressureSafetySettings(db: Database): Promise<PressureSafetySettings> {
+  return (await getSetting(db, 'pressure_safety')).value;
+}
+
+const addMonths = (d: Date, months: number) => {
+  const out = new Date(d);
+  out.setUTCMonth(out.getUTCMonth() + months);
+  return out;
+};
+
+/**
+ * One row per item and inspection kind on record: the latest inspection (passed or failed) and
+ * when the next is due. A cylinder's hydrostatic test is due on its registry date
+ * (`attributes.hydroTestDue`, through the end of that day in the co-op's time zone), which a passing
+ * test moves on; a cylinder with that date and no test on record has a row too.
+ */
+function duesSql(timeZone: string) {
+  return sql`
+    with latest as (
+      select distinct on (i.equipment_id, i.kind) i.equipment_id, i.kind, i.at, i.passed, i.next_due_at
+      from equipment_inspection i
+      order by i.equipment_id, i.kind, i.at desc, i.created_at desc
+    ), cylinder_due as (
+      select e.id, ((((e.attributes->>'hydroTestDue')::date) + 1)::timestamp at time zone ${timeZone}) as due_at
+      from equipment e
+      where e.kind = 'co2_cylinder' and (e.attributes->>'hydroTestDue') ~ '^\\d{4}-\\d{2}-\\d{2}$'
+    )
+    select l.equipment_id, l.kind, l.at as last_at, not l.passed as failed,
+      coalesce(case when l.kind = 'hydrostatic_test' then cd.due_at end, l.next_due_at) as due_at
+    from latest l left join cylinder_due cd on cd.id = l.equipment_id
+    union all
+    select cd.id, 'hydrostatic_test', null, false, cd.due_at
+    from cylinder_due cd
+    where not exists (select 1 from latest l where l.equipment_id = cd.id and l.kind = 'hydrostatic_test')`;
+}
+
+interface DueRow {
+  equipment_id: string;
+  kind: InspectionKind;
+  last_at: Date | null;
+  failed: boolean;
+  due_at: Date | null;
+}
+
+async function dueRows(db: Database, ids: string[]): Promise<DueRow[]> {
+  if (!ids.length) return [];
+  const tz = await coopTimeZone(db);
+  const { rows } = await sql<DueRow>`select * from (${duesSql(tz)}) d where d.equipment_id = any(${ids}::uuid[]) order by d.equipment_id, d.kind`.execute(db);
+  return rows;
+}
+
+const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
+
+/** `inspectionsDue` of an item: each kind on record with its due time, failed and overdue flags. */
+export async function inspectionsDue(db: Database, equipmentId: string, now: Date): Promise<InspectionDue[]> {
+  return (await dueRows(db, [equipmentId])).map((r) => ({
+    kind: r.kind,
+    dueAt: iso(r.due_at),
+    failed: r.failed,
+    overdue: r.due_at !== null && new Date(r.due_at).getTime() <= now.getTime(),
+  }));
+}
+
+/** What stops each item from being filled, carbonated, booked or connected at `now` (items without a block are absent). */
+export async function inspectionBlocks(db: Database, ids: string[], now: Date): Promise<Map<string, InspectionBlock[]>> {
+  const out = new Map<string, InspectionBlock[]>();
+  for (const r of await dueRows(db, ids)) {
+    let reason: InspectionBlock['reason'] | null = null;
+    if (r.failed) reason = 'failed';
+    else if (r.due_at !== null && new Date(r.due_at).getTime() <= now.getTime()) reason = 'overdue';
+    if (!reason) continue;
+    const list = out.get(r.equipment_id) ?? [];
+    list.push({ kind: r.kind, reason, dueAt: iso(r.due_at) });
+    out.set(r.equipment_id, list);
+  }
+  return out;
+}
+
+/** "pressure test due 2026-11-01" / "relief-valve check failed", for 409 messages. */
+export function describeBlocks(blocks: InspectionBlock[]): string {
+  return blocks
+    .map((b) => `${inspectionKindLabels[b.kind].toLowerCase()} ${b.reason === 'failed' ? 'failed' : `was due ${b.dueAt!.slice(0, 10)}`}`)
+    .join(', ');
+}
+
+/** Throws 409 when any of the items is blocked by an inspection; `what` says what was refused ("filled"). */
+export async function assertInspected(db: Database, items: { id: string; code: string }[], what: string, now: Date): Promise<void> {
+  const blocks = await inspectionBlocks(db, items.map((i) => i.id), now);
+  const refused = items.filter((i) => blocks.has(i.id));
+  if (!refused.length) return;
+  throw conflict(
+    `Cannot be ${what}: ${refused.map((i) => `${i.code} (${describeBlocks(blocks.get(i.id)!)})`).join('; ')}. Record a passing inspection first.`,
+    { title: 'Inspection due', blocked: refused.map((i) => ({ equipmentId: i.id, code: i.code, inspections: blocks.get(i.id) })) },
+  );
+}
+
+export async function listInspections(db: Database, equipmentId: string, limit = 100): Promise<InspectionView[]> {
+  const rows = await db
+    .selectFrom('equipment_inspection as i')
+    .leftJoin('app_user as u', 'u.id', 'i.recorded_by')
+    .select(['i.id', 'i.kind', 'i.at', 'i.passed', 'i.next_due_at', 'i.note', 'i.recorded_by', 'u.name as recorder_name'])
+    .where('i.equipment_id', '=', equipmentId)
+    .orderBy('i.at', 'desc')
+    .orderBy('i.created_at', 'desc')
+    .limit(limit)
+    .execute();
+  return rows.map((r) => ({
+    id: r.id,
+    kind: r.kind,
+    at: r.at.toISOString(),
+    passed: r.passed,
+    nextDueAt: iso(r.next_due_at),
+    note: r.note,
+    recordedBy: r.recorded_by ? { id: r.recorded_by, name: r.recorder_name ?? '' } : null,
+  }));
+}
+
+/**
+ * Records an inspection in one transaction with its audit row. A failed one takes an idle item out
+ * of service (with a history row); a passing one that leaves nothing failed or past due puts an
+ * item taken out by a failed inspection back (kegs and fermenters to be cleaned, cylinders ready).
+ * A passing hydrostatic test moves the cylinder's registry test date.
+ */
+export async function recordInspection(db: Database, item: Equipment, input: CreateInspectionInput, actorId: string, now: Date): Promise<InspectionView> {
+  const allowed = inspectionKindsByEquipment[item.kind];
+  if (!allowed.includes(input.kind)) {
+    throw unprocessable(`A ${item.kind.replace('_', ' ')} takes ${allowed.length ? allowed.map((k) => inspectionKindLabels[k].toLowerCase()).join(', ') : 'no inspections'}.`, [
+      { path: 'kind', message: 'Not an inspection this item takes' },
+    ]);
+  }
+  const at = new Date(input.at);
+  if (at.getTime() > now.getTime() + FUTURE_SLACK_MS) throw unprocessable('An inspection cannot be recorded in the future.', [{ path: 'at', message: 'This time is in the future' }]);
+  const settings = await pressureSafetySettings(db);
+  let nextDue: Date | null = input.nextDueAt ? new Date(input.nextDueAt) : null;
+  if (nextDue && nextDue.getTime() <= at.getTime()) throw unprocessable('The next inspection is due after this one.', [{ path: 'nextDueAt', message: 'Pick a time after the inspection' }]);
+  if (input.passed && !nextDue) nextDue = addMonths(at, settings.intervalMonths[input.kind]);
+  const timeZone = await coopTimeZone(db);
+
+  const id = await db.transaction().execute(async (trx) => {
+    const current = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state', 'attributes']).where('id', '=', item.id).forUpdate().executeTakeFirstOrThrow();
+    const row = await trx
+      .insertInto('equipment_inspection')
+      .values({ equipment_id: item.id, kind: input.kind, at, passed: input.passed, next_due_at: nextDue, note: input.note ?? '', recorded_by: actorId })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    if (input.kind === 'hydrostatic_test' && input.passed && nextDue) {
+      // The registry's test date is the last day the cylinder may be used.
+      const lastDay = new Date(nextDue.getTime() - 1);
+      const date = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(lastDay);
+      await trx
+        .updateTable('equipment')
+        .set({ attributes: sql`jsonb_set(attributes, '{hydroTestDue}', to_jsonb(${date}::text))`, updated_at: now })
+        .where('id', '=', item.id)
+        .execute();
+    }
+    const label = inspectionKindLabels[input.kind].toLowerCase();
+    const idle: VesselState[] = ['ready', 'cleaned', 'needs_cleaning'];
+    if (!input.passed && idle.includes(current.state)) {
+      await writeStateChange(trx, item.id, current.state, 'out_of_service', `${FAILED_REASON}: ${label}${input.note ? ` (${input.note})` : ''}`, actorId, now);
+    } else if (input.passed && current.state === 'out_of_service') {
+      const last = await trx
+        .selectFrom('equipment_state_change')
+        .select('reason')
+        .where('equipment_id', '=', item.id)
+        .orderBy('at', 'desc')
+        .orderBy('id', 'desc')
+        .limit(1)
+        .executeTakeFirst();
+      const stillBlocked = (await inspectionBlocks(trx, [item.id], now)).has(item.id);
+      if (last?.reason.startsWith(FAILED_REASON) && !stillBlocked) {
+        const back: VesselState = current.kind === 'co2_cylinder' || current.kind === 'tap' ? 'ready' : 'needs_cleaning';
+        await writeStateChange(trx, item.id, 'out_of_service', back, `Back in service: ${label} passed`, actorId, now);
+      }
+    }
+    await audit(trx, actorId, 'inspected', 'Equipment', item.id, { code: current.code, kind: input.kind, passed: input.passed, at: at.toISOString(), nextDueAt: iso(nextDue) });
+    return row.id;
+  });
+  return (await listInspections(db, item.id)).find((i) => i.id === id)!;
+}
+
+
+/** Inspections failed, past due or due within the co-op's warning days, sorted, filtered and paged in SQL. */
+export async function listMaintenance(db: Database, q: MaintenanceListQuery, now: Date): Promise<Page<MaintenanceItem>> {
+  const [tz, settings] = await Promise.all([coopTimeZone(db), pressureSafetySettings(db)]);
+  const soon = new Date(now.getTime() + settings.dueSoonDays * DAY);
+  const like = q.q ? `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : null;
+  const base = sql`
+    from (
+      select d.*, case when d.failed then 'failed' when d.due_at <= ${now} then 'overdue' when d.due_at <= ${soon} then 'due_soon' end as status
+      from (${duesSql(tz)}) d
+    ) d
+    join equipment e on e.id = d.equipment_id
+    where d.status is not null
+      and (${q.status ?? null}::text is null or d.status = ${q.status ?? null})
+      and (${q.equipmentKind ?? null}::text is null or e.kind = ${q.equipmentKind ?? null})
+      and (${like}::text is null or e.code ilike ${like} or e.name ilike ${like})`;
+  const dir = q.order === 'desc' ? sql`desc` : sql`asc`;
+  const order =
+    q.sort === 'code'
+      ? sql`split_part(e.code, '-', 1) ${dir}, nullif(split_part(e.code, '-', 2), '')::int ${dir}`
+      : q.sort === 'kind'
+        ? sql`d.kind ${dir}`
+        : sql`d.due_at ${dir} nulls first`;
+  const [count, rows] = await Promise.all([
+    sql<{ total: number }>`select count(*)::int as total ${base}`.execute(db),
+    sql<{ id: string; code: string; name: string; equipment_kind: EquipmentKind; state: VesselState; kind: InspectionKind; due_at: Date | null; status: MaintenanceStatus; last_at: Date | null }>`
+      select e.id, e.code, e.name, e.kind as equipment_kind, e.state, d.kind, d.due_at, d.status, d.last_at ${base}
+      order by ${order}, d.due_at, split_part(e.code, '-', 1), nullif(split_part(e.code, '-', 2), '')::int, d.kind
+      limit ${q.pageSize} offset ${(q.page - 1) * q.pageSize}`.execute(db),
+  ]);
+  return {
+    items: rows.rows.map((r) => ({
+      equipment: { id: r.id, code: r.code, name: r.name, kind: r.equipment_kind, state: r.state },
+      kind: r.kind,
+      dueAt: iso(r.due_at),
+      status: r.status,
+      lastAt: iso(r.last_at),
+    })),
+    total: count.rows[0]!.total,
+    page: q.page,
+    pageSize: q.pageSize,
+  };
+}
