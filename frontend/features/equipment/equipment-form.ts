@@ -17,6 +17,8 @@ export interface AttributeFormValues {
   hasValve?: boolean;
   serial?: string;
   lock?: 'ball' | 'pin';
+  /** Rated working pressure: bar or psi on screen, kPa gauge in the API. */
+  ratedPressureKpa?: number | null;
   position?: string;
   lineLengthM?: number | null;
   lineInsideDiameterMm?: number | null;
@@ -45,7 +47,7 @@ type Quantity = keyof typeof toDisplay | 'none';
 /** Each kind's attributes with the quantity its number is in (strings and choices are `none`). */
 export const attributeQuantities: Record<EquipmentKind, Partial<Record<keyof AttributeFormValues, Quantity>>> = {
   fermenter: { style: 'none', hasValve: 'none' },
-  keg: { serial: 'none', lock: 'none' },
+  keg: { serial: 'none', lock: 'none', ratedPressureKpa: 'pressure' },
   tap: { position: 'none', lineLengthM: 'length', lineInsideDiameterMm: 'smallLength', lineMaterial: 'none', lineResistanceKpaPerM: 'none', riseM: 'length', coldRoomTempC: 'temperature' },
   co2_cylinder: { sizeKg: 'mass', fillPercent: 'none', hydroTestDue: 'none' },
 };
@@ -55,7 +57,7 @@ export const kindHasCapacity = (kind: EquipmentKind) => kind === 'fermenter' || 
 
 export const defaultAttributes: Record<EquipmentKind, AttributeFormValues> = {
   fermenter: { style: 'bucket', hasValve: false },
-  keg: { serial: '', lock: 'ball' },
+  keg: { serial: '', lock: 'ball', ratedPressureKpa: null },
   tap: { position: '', lineLengthM: null, lineInsideDiameterMm: null, lineMaterial: '', lineResistanceKpaPerM: null, riseM: null, coldRoomTempC: null },
   co2_cylinder: { sizeKg: null, fillPercent: 100, hydroTestDue: '' },
 };

@@ -43,6 +43,17 @@ describe('equipment form values and the API', () => {
     expect(api.attributes).toEqual({ style: 'conical', hasValve: true });
   });
 
+  it('shows a keg\'s rated pressure in psi or bar and sends kPa', () => {
+    const keg: Equipment = { ...tap, kind: 'keg', code: 'K-001', capacityLiters: 19, attributes: { serial: 'S-1', lock: 'ball', ratedPressureKpa: 896 } };
+    // 896 kPa ÷ 6.894757 kPa/psi = 129.9538 psi; 896 kPa ÷ 100 kPa/bar = 8.96 bar.
+    expect(formValuesOf(keg, 'us').attributes.ratedPressureKpa).toBe(129.9538);
+    expect(formValuesOf(keg, 'metric').attributes.ratedPressureKpa).toBe(8.96);
+    const typed = formValuesOf(keg, 'us');
+    typed.attributes.ratedPressureKpa = 130;
+    expect(toApiValues(typed, 'us', keg).attributes.ratedPressureKpa).toBeCloseTo(896.318, 3); // 130 psi × 6.894757
+    expect(toApiValues(formValuesOf(keg, 'metric'), 'metric', keg).attributes).toEqual(keg.attributes);
+  });
+
   it('validates with the shared schema and puts its errors on the form\'s fields', async () => {
     const resolver = equipmentResolver<CreateEquipmentInput>(createEquipmentSchema, 'metric');
     const bad = await resolver(

@@ -39,7 +39,7 @@ export const FermenterAttributeFields = ({ form }: AttributeFieldsProps) => {
   );
 };
 
-export const KegAttributeFields = ({ form }: AttributeFieldsProps) => {
+export const KegAttributeFields = ({ form, units }: AttributeFieldsProps) => {
   const errors = form.formState.errors.attributes;
   return (
     <>
@@ -54,6 +54,13 @@ export const KegAttributeFields = ({ form }: AttributeFieldsProps) => {
               <option value="pin">Pin lock</option>
             </Select>
           )}
+        </Field>
+        <Field
+          label={`Rated working pressure (${unitLabels[units].pressure})`}
+          hint="As stamped on the keg; the carbonation planner will not go above it"
+          error={errors?.ratedPressureKpa?.message}
+        >
+          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.ratedPressureKpa', asNumber)} />}
         </Field>
       </div>
       <p className="text-xs text-ink-muted">Never exceed the keg’s or the regulator’s rated pressure and keep the pressure-relief valve working. Local codes and licensed practice come first.</p>
