@@ -89,7 +89,7 @@ export const createTransferSchema = z
     /** Trub, samples and spills; worked out from kegVolumesLiters when those are given. */
     lossLiters: z.number().min(0).max(10_000).optional(),
     transferredAt: isoDateTimeSchema.optional(),
-    /** When drawing began and ended (given together); the end is the transfer's time (`transferredAt`). */
+    /** When drawing began and ended; the end is the transfer's time (`transferredAt`); a start alone ends now. */
     startedAt: isoDateTimeSchema.optional(),
     endedAt: isoDateTimeSchema.optional(),
     /** Why the beer goes into kegs before its gravity is stable; without it such a transfer is refused (422). */
@@ -109,9 +109,9 @@ export const createTransferSchema = z
     message: 'Give one reading (or none) per keg',
     path: ['kegDissolvedOxygenPpb'],
   })
-  .refine((b) => (b.startedAt === undefined) === (b.endedAt === undefined), {
-    message: 'Give both the start and the end',
-    path: ['endedAt'],
+  .refine((b) => b.endedAt === undefined || b.startedAt !== undefined, {
+    message: 'Give the start too',
+    path: ['startedAt'],
   })
   .refine((b) => !b.startedAt || !b.endedAt || new Date(b.endedAt).getTime() > new Date(b.startedAt).getTime(), {
     message: 'The end must be after the start',

@@ -338,6 +338,21 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
     const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [kegs[0]!.id], volumeLiters: 19, checklist: fullChecklist, unstableGravityReason: 'Just in case' });
     expect(res.status).toBe(201);
     expect(res.body.transfer).toMatchObject({ unstableGravityReason: null, startedAt: null, endedAt: null, dissolvedOxygenPpb: null });
+
+    // A start alone: the transfer ends when it is recorded, by the server's clock.
+    const batch2 = await takeBatch();
+    const kegs2 = await takeKegs(1);
+    await makeReady(brewer, kegs2.map((k) => k.id), ctx.clock);
+    ctx.clock.freeze();
+    try {
+      const startedAt = minutesAgo(ctx.clock, 30);
+      const now = ctx.clock.now().toISOString();
+      const res2 = await brewer.post('/api/transfers', { batchId: batch2.batchId, fromEquipmentId: batch2.fermenterId, toKegIds: [kegs2[0]!.id], volumeLiters: 19, checklist: fullChecklist, startedAt });
+      expect(res2.status).toBe(201);
+      expect(res2.body.transfer).toMatchObject({ startedAt, endedAt: now, transferredAt: now });
+    } finally {
+      ctx.clock.resume();
+    }
   });
 
   it('validates the times and the dissolved oxygen, and a refused transfer changes nothing', async () => {
@@ -353,7 +368,8 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
       [{ startedAt: iso(now - 10 * 60_000), endedAt: iso(now - 20 * 60_000) }, 'endedAt'], // end before start
       [{ startedAt: iso(now - 10 * 60_000), endedAt: iso(now - 10 * 60_000) }, 'endedAt'], // no time at all
       [{ startedAt: iso(now - 10 * 60_000), endedAt: iso(now + 60_000) }, 'endedAt'], // ends in the future by the clock
-      [{ startedAt: iso(now - 10 * 60_000) }, 'endedAt'], // only one of the two
+      [{ endedAt: iso(now - 10 * 60_000) }, 'startedAt'], // an end without a start
+      [{ startedAt: iso(now + 5 * 60_000) }, 'startedAt'], // a start alone ends now: it must come before
       [{ startedAt: iso(now - 30 * 3_600_000), endedAt: iso(now - 60_000) }, 'startedAt'], // more than a day
       [{ startedAt: iso(now - 20 * 60_000), endedAt: iso(now - 5 * 60_000), transferredAt: iso(now - 60_000) }, 'transferredAt'],
       [{ dissolvedOxygenPpb: -1 }, 'dissolvedOxygenPpb'],

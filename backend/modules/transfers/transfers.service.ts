@@ -7,6 +7,7 @@ import {
   type GravityStability,
   type TransferListQuery,
   type TransferView,
+  TRANSFER_MAX_HOURS,
 } from '../../../shared/schemas/transfers.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
@@ -98,9 +99,14 @@ function shareEvenly(total: number, n: number): number[] {
  */
 export async function recordTransfer(db: Database, input: CreateTransferInput, actor: { id: string }, now: Date): Promise<{ transfer: TransferView; warnings: string[] }> {
   // With start and end times, the end is the transfer's time and may not be after the clock's now.
+  // A start without an end ends now (recorded as it finishes).
   const startedAt = input.startedAt ? new Date(input.startedAt) : null;
-  const endedAt = input.endedAt ? new Date(input.endedAt) : null;
+  const endedAt = input.endedAt ? new Date(input.endedAt) : startedAt ? now : null;
   if (endedAt && endedAt.getTime() > now.getTime()) throw unprocessable('A transfer cannot end in the future.', [{ path: 'endedAt', message: 'This time is in the future' }]);
+  if (startedAt && endedAt && startedAt.getTime() >= endedAt.getTime()) throw unprocessable('A transfer starts before it ends.', [{ path: 'startedAt', message: 'The start must be before the end' }]);
+  if (startedAt && endedAt && endedAt.getTime() - startedAt.getTime() > TRANSFER_MAX_HOURS * 3_600_000) {
+    throw unprocessable(`A transfer takes at most ${TRANSFER_MAX_HOURS} hours.`, [{ path: 'startedAt', message: 'Check the dates' }]);
+  }
   const at = endedAt ?? (input.transferredAt ? new Date(input.transferredAt) : now);
   if (at.getTime() > now.getTime() + FUTURE_SLACK_MS) throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
   const settings = await sanitationSettings(db);
@@ -167,7 +173,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
       else if (!c) reason = 'it has no sanitation cycle on record';
       else if (!c.complete) reason = 'its last sanitation cycle is incomplete';
       else if (!c.fresh_until || new Date(c.fresh_until).getTime() <= at.getTime()) reason = 'its freshness window has lapsed';
-      else if (new Date(c.completed_at).getTime() > (startedAt ?? at).getTime()) reason = 'it was sanitized after the transfer began';
+      else if (new Date(c.completed_at).getTime() > at.getTime()) reason = 'it was sanitized after the transfer time';
       else if (k.whereabouts === 'with_member' || k.whereabouts === 'missing') reason = `it is ${k.whereabouts === 'missing' ? 'missing' : 'out with a member'}`;
       if (reason) refused.push({ id: k.id, code: k.code, state: k.state, reason });
     }
