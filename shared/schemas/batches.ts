@@ -381,6 +381,6 @@ export interface ProductionRecords {
 }
 
 export const productionRecordsNote =
-  'Local licensing and excise rules govern which production records must be kept, for how long and in which units; ' +
-  'these figures (volumes packaged, alcohol by volume by the ASBC/Balling method from the batch readings) support them and do not replace them. ' +
-  'Local licensing and excise rules decide what must be filed, and how removals, losses and inventory are to be counted.';
+  'Local licensing and excise rules govern which production records must be kept, for how long and in which units, ' +
+  'and decide what must be filed and how removals, losses and inventory are counted; ' +
+  'these figures (volumes brewed and packaged, removals, losses and inventory, alcohol by volume by the ASBC/Balling method from the batch readings) support them and do not replace them.';
