@@ -40,8 +40,9 @@ interface Holding {
   liters: number;
 }
 
-const round2 = (v: number) => Math.round(v * 100) / 100;
-const round4 = (v: number) => Math.round(v * 10_000) / 10_000;
+/** Rounded to the centilitre (never -0). */
+const round2 = (v: number) => Math.round(v * 100) / 100 || 0;
+const round4 = (v: number) => Math.round(v * 10_000) / 10_000 || 0;
 const bbl = (l: number) => round4(litersToUsBarrels(l));
 
 /** What the co-op held and what moved, from the records, for batches brewed before `until` (of one owner if given). */
