@@ -39,6 +39,8 @@ export interface BatchOverrides {
   targetFg?: number | null;
   /** Default: 'fermenting' when it has readings (the first reading starts fermentation), else 'planned'. */
   status?: BatchStatus;
+  /** When a discarded batch was discarded (its beer dumped); default: its last reading, else its creation. */
+  discardedAt?: At;
   notes?: string;
   /** Allergen notes, stored as the batches service stores them (e.g. ['gluten (barley)']). */
   allergens?: string[];
@@ -79,6 +81,10 @@ export async function createBatch(db: Database, o: BatchOverrides = {}): Promise
         target_og: o.targetOg ?? null,
         target_fg: o.targetFg ?? null,
         status: o.status ?? (readings.length ? 'fermenting' : 'planned'),
+        discarded_at:
+          o.status === 'discarded'
+            ? toDate(o.discardedAt ?? (readings.length ? new Date(Math.max(...readings.map((r) => toDate(r.takenAt, 'takenAt').getTime()))) : createdAt), 'discardedAt')
+            : null,
         notes: o.notes ?? '',
         ...(o.allergens ? { allergens: o.allergens } : {}),
         shelf_life_days: o.shelfLifeDays ?? null,

@@ -19,7 +19,7 @@
  *   createBooking(db, { startsAt, endsAt, equipmentId?, ownerId?, batchId?, state?, now?, bufferHours?, notes?, createdAt?, cancelledAt? })
  *     blocked_until = endsAt + the co-op's cleaning buffer; state from `now` when given, else `booked`
  * Batches and readings (batches.ts)
- *   createBatch(db, { ownerId?, name?, style?, volumeLiters?, targetOg?, targetFg?, status?, createdAt?, allergens?, shelfLifeDays?,
+ *   createBatch(db, { ownerId?, name?, style?, volumeLiters?, targetOg?, targetFg?, status?, discardedAt?, createdAt?, allergens?, shelfLifeDays?,
  *                     readings?: [{ takenAt, value, unit? = 'sg', temperatureC?, correctTemperature?, note?, source?, method?, confirm? }],
  *                     fermenter?: { equipmentId, startsAt, endsAt, now? } }) → batch row + readings + bookingId
  *     readings are normalised to SG exactly as the readings service does; a fermenter books it and sets it `holding`
@@ -32,8 +32,10 @@
  *   cycleSteps(readyAt, { until?, performedBy? })  — the checklist steps of a good cycle ending at readyAt (for the API too)
  * Transfers and kegs (transfers.ts, kegs.ts)
  *   createTransfer(db, { batchId, fromEquipmentId, kegIds, at, kegVolumesLiters? | volumeLiters?, lossLiters?, recordedBy?,
- *                        sanitizeKegs? = true, whereabouts? = 'cellar', co2Grams?, finings?, notes? }) → { transfer, fills }
+ *                        sanitizeKegs? = true, whereabouts? = 'cellar', co2Grams?, finings?, notes?,
+ *                        startedAt? = at − 40 min | null, unstableGravityReason?, dissolvedOxygenPpb?, kegDissolvedOxygenPpb? }) → { transfer, fills }
  *     kegs without a fresh cycle at `at` get one an hour before; kegs `holding`, fermenter `needs_cleaning`, batch packaged;
+ *     `at` is the end (ended_at = transferred_at); the stable-gravity guard is the service's, not applied here;
  *     each fill's best_before from the batch's shelf life (backend/modules/batches/shelf-life.ts)
  *   fillKeg(db, { kegId, at, batchId?, ownerId?, fromEquipmentId?, volumeLiters? = 18, recordedBy?, whereabouts? })
  *     → { transfer, fills, batchId, fermenterId } — a one-keg transfer, making a batch (OG 1.050 → 1.010) and fermenter if not given

@@ -19,8 +19,15 @@ export interface TransferOverrides {
   /** The fermenter drawn from. */
   fromEquipmentId: string;
   kegIds: string[];
-  /** When the beer went into the kegs. */
+  /** When the beer went into the kegs: the transfer's end (`ended_at` = `transferred_at`). */
   at: At;
+  /** When drawing began; default 40 minutes before `at`. `null` records no times (as transfers before times were kept). */
+  startedAt?: At | null;
+  /** Why it went ahead before the gravity was stable (the factory does not apply the guard). */
+  unstableGravityReason?: string | null;
+  /** Dissolved oxygen at fill, ppb; and per keg, in the order of kegIds. */
+  dissolvedOxygenPpb?: number | null;
+  kegDissolvedOxygenPpb?: (number | null)[];
   /** Litres per keg; default: the volume less the loss shared evenly, else 18 L each. */
   kegVolumesLiters?: number[];
   volumeLiters?: number;
@@ -53,6 +60,7 @@ const round2 = (v: number) => Math.round(v * 100) / 100;
 export async function createTransfer(db: Database, o: TransferOverrides): Promise<TransferResult> {
   if (o.kegIds.length === 0) throw new Error('createTransfer: no kegs');
   const at = toDate(o.at, 'at');
+  const startedAt = o.startedAt === null ? null : o.startedAt !== undefined ? toDate(o.startedAt, 'startedAt') : new Date(at.getTime() - 40 * MINUTE);
   return inTransaction(db, async (trx) => {
     const settings = await sanitationSettings(trx);
     const batch = await trx.selectFrom('batch').select(['id', 'name', 'volume_liters']).where('id', '=', o.batchId).forUpdate().executeTakeFirstOrThrow();
@@ -129,6 +137,10 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
         fg,
         abv,
         transferred_at: at,
+        started_at: startedAt,
+        ended_at: startedAt ? at : null,
+        unstable_gravity_reason: o.unstableGravityReason ?? null,
+        dissolved_oxygen_ppb: o.dissolvedOxygenPpb ?? null,
         recorded_by: o.recordedBy ?? null,
         notes: o.notes ?? '',
         created_at: new Date(at.getTime() + 20 * MINUTE),
@@ -156,6 +168,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
             co2_grams: perKegCo2,
             filled_at: at,
             best_before: bestBefore,
+            dissolved_oxygen_ppb: o.kegDissolvedOxygenPpb?.[i] ?? null,
             created_at: new Date(at.getTime() + 20 * MINUTE),
           })
           .returningAll()
@@ -183,7 +196,7 @@ export interface FillKegOverrides {
   kegId: string;
   /** When the keg was filled. */
   at: At;
-  /** Default: a new batch (OG 1.050 to FG 1.010 over the week before `at`) for `ownerId`, in a new fermenter. */
+  /** Default: a new batch (OG 1.050 to a stable FG 1.010 over the week before `at`) for `ownerId`, in a new fermenter. */
   batchId?: string;
   ownerId?: string;
   fromEquipmentId?: string;
@@ -204,7 +217,7 @@ export async function fillKeg(db: Database, o: FillKegOverrides): Promise<Transf
           ...(o.ownerId ? { ownerId: o.ownerId } : {}),
           readings: [
             { takenAt: new Date(at.getTime() - 9 * DAY), value: 1.05 },
-            { takenAt: new Date(at.getTime() - 5 * DAY), value: 1.012 },
+            { takenAt: new Date(at.getTime() - 5 * DAY), value: 1.01 },
             { takenAt: new Date(at.getTime() - 2 * DAY), value: 1.01 },
           ],
         })

@@ -359,6 +359,11 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       fg,
       abv,
       transferred_at: at,
+      // Drawing took 35 to 55 minutes; a meter read the dissolved oxygen on every third transfer.
+      started_at: new Date(at.getTime() - (35 + (transferNo % 5) * 5) * MIN),
+      ended_at: at,
+      unstable_gravity_reason: figures && !figures.stable ? 'Fermenter booked for the next brew; gravity at the recipe target' : null,
+      dissolved_oxygen_ppb: transferNo % 3 === 0 ? 40 + ((transferNo * 17) % 80) : null,
       recorded_by: recorder,
       notes: '',
       created_at: new Date(at.getTime() + 20 * MIN),

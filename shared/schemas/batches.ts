@@ -342,15 +342,57 @@ export interface ProductionRecordRow {
   packagings: number;
 }
 
+/**
+ * One month of the monthly production report, litres (and the same figures in US barrels): what
+ * was at the co-op at the month's start, what was brewed, what left its control, what was lost,
+ * and what was there at the month's end. `balanceLiters` is opening + produced − removals − losses
+ * − closing: zero when every litre is accounted for. Packaging moves beer from fermenters into kegs
+ * within the inventory, so it is shown but does not enter the balance.
+ */
+export interface ProductionMonth {
+  month: string;
+  openingLiters: number;
+  /** Batches brewed: their volume, counted the day of their first reading. */
+  producedLiters: number;
+  /** Into the co-op's kegs by transfers (and by hand, as recorded on the batch). */
+  packagedLiters: number;
+  removals: {
+    /** Kegs checked out to members: the whole fill, when it went out. */
+    checkedOutLiters: number;
+    /** Kegs emptied at the co-op (served on tap): the whole fill, when it was emptied. */
+    servedLiters: number;
+    /** Packaging recorded on a batch without a transfer (not into the co-op's kegs). */
+    packagedOtherwiseLiters: number;
+    totalLiters: number;
+  };
+  losses: {
+    /** Trub, samples and spills recorded on transfers. */
+    transferLiters: number;
+    /** A batch's volume less what its transfers drew (yeast cake, dead space). */
+    leftInFermenterLiters: number;
+    /** Kegs emptied as dumped. */
+    dumpedKegLiters: number;
+    /** Batches discarded in the fermenter. */
+    dumpedBatchLiters: number;
+    totalLiters: number;
+  };
+  closing: { fermentersLiters: number; kegsLiters: number; totalLiters: number };
+  balanceLiters: number;
+  usBarrels: { opening: number; produced: number; packaged: number; removals: number; losses: number; closing: number };
+}
+
 export interface ProductionRecords {
   from: string;
   to: string;
   rows: ProductionRecordRow[];
   months: { month: string; batches: number; packagedLiters: number; usBarrels: number }[];
   totals: { batches: number; packagedLiters: number; usBarrels: number };
+  /** Every month of the period, in order. */
+  monthly: ProductionMonth[];
   note: string;
 }
 
 export const productionRecordsNote =
-  'Local licensing and excise rules govern which production records must be kept, for how long and in which units; ' +
-  'these figures (volumes packaged, alcohol by volume by the ASBC/Balling method from the batch readings) support them and do not replace them.';
+  'Local licensing and excise rules govern which production records must be kept, for how long and in which units, ' +
+  'and decide what must be filed and how removals, losses and inventory are counted; ' +
+  'these figures (volumes brewed and packaged, removals, losses and inventory, alcohol by volume by the ASBC/Balling method from the batch readings) support them and do not replace them.';

@@ -40,8 +40,11 @@ export const kegMoveSchema = z
   .refine((b) => !b.tapId || b.to === 'cold_room', { message: 'Only a keg in the cold room can be on a tap', path: ['tapId'] });
 export type KegMoveInput = z.infer<typeof kegMoveSchema>;
 
-/** Body of `POST /api/kegs/:id/empty`. */
-export const kegEmptySchema = z.object({ note }).default({});
+/**
+ * Body of `POST /api/kegs/:id/empty`: served to the last drop, or `dumped` (poured away: spoiled,
+ * infected, flat), which the monthly production report counts as a loss.
+ */
+export const kegEmptySchema = z.object({ note, dumped: z.boolean().optional() }).default({});
 
 /** Body of `PATCH /api/kegs/:id/level`: how much the co-op thinks is left. */
 export const kegLevelSchema = z.object({ remainingLiters: z.number().min(0, 'At least 0 L').max(1000) });

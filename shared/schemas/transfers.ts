@@ -64,6 +64,12 @@ export type FiningsInput = z.infer<typeof finingsSchema>;
 
 export const finingsKinds = ['silica finings', 'gelatin', 'isinglass', 'other'] as const;
 
+/** Dissolved oxygen, ppb: a meter reads 0 to a few thousand; above 10,000 ppb (10 ppm) is not a reading of beer. */
+export const dissolvedOxygenSchema = z.number().min(0, 'At least 0 ppb').max(10_000, 'At most 10,000 ppb');
+
+/** Longest a transfer may take, start to end. */
+export const TRANSFER_MAX_HOURS = 24;
+
 /** Body of `POST /api/transfers`. */
 export const createTransferSchema = z
   .object({
@@ -83,12 +89,41 @@ export const createTransferSchema = z
     /** Trub, samples and spills; worked out from kegVolumesLiters when those are given. */
     lossLiters: z.number().min(0).max(10_000).optional(),
     transferredAt: isoDateTimeSchema.optional(),
+    /** When drawing began and ended; the end is the transfer's time (`transferredAt`); a start alone ends now. */
+    startedAt: isoDateTimeSchema.optional(),
+    endedAt: isoDateTimeSchema.optional(),
+    /** Why the beer goes into kegs before its gravity is stable; without it such a transfer is refused (422). */
+    unstableGravityReason: z.string().trim().min(3, 'Say why, in a few words').max(1000).optional(),
+    /** Dissolved oxygen read at fill, ppb (where a meter exists). */
+    dissolvedOxygenPpb: dissolvedOxygenSchema.optional(),
+    /** Dissolved oxygen read in each keg, ppb, in the order of toKegIds (null where not read). */
+    kegDissolvedOxygenPpb: z.array(dissolvedOxygenSchema.nullable()).optional(),
     co2Grams: z.number().min(0).max(10_000).optional(),
     notes: z.string().trim().max(2000).optional(),
   })
   .refine((b) => !b.kegVolumesLiters || b.kegVolumesLiters.length === b.toKegIds.length, {
     message: 'Give one volume per keg',
     path: ['kegVolumesLiters'],
+  })
+  .refine((b) => !b.kegDissolvedOxygenPpb || b.kegDissolvedOxygenPpb.length === b.toKegIds.length, {
+    message: 'Give one reading (or none) per keg',
+    path: ['kegDissolvedOxygenPpb'],
+  })
+  .refine((b) => b.endedAt === undefined || b.startedAt !== undefined, {
+    message: 'Give the start too',
+    path: ['startedAt'],
+  })
+  .refine((b) => !b.startedAt || !b.endedAt || new Date(b.endedAt).getTime() > new Date(b.startedAt).getTime(), {
+    message: 'The end must be after the start',
+    path: ['endedAt'],
+  })
+  .refine((b) => !b.startedAt || !b.endedAt || new Date(b.endedAt).getTime() - new Date(b.startedAt).getTime() <= TRANSFER_MAX_HOURS * 3_600_000, {
+    message: `A transfer takes at most ${TRANSFER_MAX_HOURS} hours: check the dates`,
+    path: ['startedAt'],
+  })
+  .refine((b) => !b.transferredAt || !b.endedAt || new Date(b.transferredAt).getTime() === new Date(b.endedAt).getTime(), {
+    message: 'The transfer time is its end: give one or the other',
+    path: ['transferredAt'],
   });
 export type CreateTransferInput = z.infer<typeof createTransferSchema>;
 
@@ -120,8 +155,26 @@ export interface TransferView {
   og: number | null;
   fg: number | null;
   abv: number | null;
+  /** The end of the transfer (its `endedAt` when times were recorded). */
   transferredAt: string;
+  startedAt: string | null;
+  endedAt: string | null;
+  unstableGravityReason: string | null;
+  dissolvedOxygenPpb: number | null;
   recordedBy: { id: string; name: string } | null;
   notes: string;
-  kegs: { fillId: string; kegId: string; code: string; volumeLiters: number; sanitationCycleId: string | null }[];
+  kegs: { fillId: string; kegId: string; code: string; volumeLiters: number; sanitationCycleId: string | null; dissolvedOxygenPpb: number | null }[];
+}
+
+/** What the co-op's "finished" rule says of a batch's gravity (Settings, fermentation), for the transfer guard. */
+export interface GravityStability {
+  stable: boolean;
+  /** First reading of the steady run, when stable. */
+  since: string | null;
+  toleranceSg: number;
+  spanDays: number;
+  /** Days the latest gravity has held within the tolerance (0 with fewer than two readings). */
+  heldDays: number;
+  /** The last readings, oldest first. */
+  readings: { takenAt: string; sg: number }[];
 }

@@ -3,6 +3,8 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb, type Database } from '../../backend/db/database.ts';
 import { previewRun } from '../../backend/modules/billing/invoice-runs.service.ts';
+import { loadCoopTimeZone } from '../../backend/modules/batches/figures.ts';
+import { productionRecords } from '../../backend/modules/batches/production-records.service.ts';
 import { getBookingRules } from '../../backend/modules/settings/settings.service.ts';
 import { cellarSection, memberSection } from '../../backend/modules/today/today.service.ts';
 import { listMaintenance } from '../../backend/modules/equipment/inspections.service.ts';
@@ -273,6 +275,15 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         // The history reaches back about three months, and its users and registry before it.
         const first = await db.selectFrom('booking').select((eb) => eb.fn.min('starts_at').as('first')).executeTakeFirstOrThrow();
         expect((now.getTime() - new Date(first.first as Date).getTime()) / DAY).toBeGreaterThan(80);
+      });
+
+      it('accounts for every litre in the monthly production report, and records transfer times that end at the transfer', async () => {
+        const report = await productionRecords(db, { timeZone: await loadCoopTimeZone(db), now });
+        expect(report.monthly.length).toBe(12); // the twelve months up to this one
+        for (const m of report.monthly) expect(m.balanceLiters, m.month).toBe(0);
+        expect(report.monthly.some((m) => m.producedLiters > 0 && m.removals.totalLiters > 0 && m.closing.totalLiters > 0)).toBe(true);
+        const odd = await count(db, sql`select count(*) as n from transfer where started_at is null or ended_at <> transferred_at or ended_at <= started_at`);
+        expect(odd).toBe(0);
       });
     });
   }

@@ -109,7 +109,8 @@ const entries: Record<string, FuzzEntry> = {
   'POST /api/sanitation-cycles/:id/steps': { as: 'brewer', record: 'cycle', valid: (f) => ({ steps: f.cycleSteps.slice(2), notes: 'Fuzz' }) },
   'POST /api/transfers': {
     as: 'brewer',
-    valid: (f) => ({ batchId: f.transfer.batchId, fromEquipmentId: f.transfer.fermenterId, toKegIds: f.transfer.kegIds, volumeLiters: 38, checklist: fullChecklist, finings: { kind: 'gelatin', amount: 2, unit: 'g' }, notes: 'Fuzz' }),
+    valid: (f) => ({ batchId: f.transfer.batchId, fromEquipmentId: f.transfer.fermenterId, toKegIds: f.transfer.kegIds, volumeLiters: 38, checklist: fullChecklist, finings: { kind: 'gelatin', amount: 2, unit: 'g' }, notes: 'Fuzz',
+      startedAt: iso(new Date(f.now.getTime() - 20 * 60_000)), endedAt: iso(new Date(f.now.getTime() - 2 * 60_000)), dissolvedOxygenPpb: 55, kegDissolvedOxygenPpb: f.transfer.kegIds.map(() => null) }),
   },
   'POST /api/kegs/:id/check-out': { as: 'brewer', record: 'keg', valid: (f) => ({ memberId: f.memberId, dueAt: iso(new Date(f.now.getTime() + 14 * DAY)), note: 'Fuzz' }) },
   'POST /api/kegs/:id/return': { as: 'brewer', record: 'keg', valid: () => ({ note: 'Back' }) },

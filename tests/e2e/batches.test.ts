@@ -313,6 +313,13 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     expect(await page.getByRole('status').first().textContent()).toMatch(/Local licensing and excise rules govern/);
     expect(await page.getByRole('link', { name: 'Export CSV' }).getAttribute('href')).toBe(`/api/production-records/export?from=${from}&to=${to}&format=csv`);
     await screenshot(page, 'batches-production-records');
+    // The monthly report: one row per month, each balanced, with the inventory chart.
+    const monthly = page.getByRole('region', { name: 'Monthly report' });
+    await monthly.getByRole('img', { name: /Month-end inventory/ }).waitFor();
+    const monthRows = monthly.getByRole('row').filter({ has: page.getByRole('rowheader') });
+    expect(await monthRows.count()).toBe(3);
+    for (const text of await monthRows.allInnerTexts()) expect(text).toMatch(/balances/);
+    await page.screenshot({ path: '/tmp/production-monthly-report.png', fullPage: true });
     await context.close();
   });
 

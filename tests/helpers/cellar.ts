@@ -77,7 +77,7 @@ export interface PooledBatch {
  * A batch still in its fermenter, made for the caller each time, dated from the test's clock: a
  * member's (a new one unless `ownerId` is given) 50 L pale ale, in a new 60 L fermenter sanitized
  * the hour before it was filled 15 days ago and booked for it until a week ahead (holding), with
- * readings from OG 1.052 (14 days ago) down to a steady 1.011 (3 days and 1 day ago).
+ * readings from OG 1.052 (14 days ago) down to a steady 1.011 (4 days and 1 day ago: stable by the co-op's default rule).
  */
 export function batchPool(ctx: TestContext) {
   return async function takeBatch(o: { ownerId?: string; volumeLiters?: number; capacityLiters?: number } = {}): Promise<PooledBatch> {
@@ -92,7 +92,7 @@ export function batchPool(ctx: TestContext) {
       readings: [
         { takenAt: t(-14), value: 1.052 },
         { takenAt: t(-7), value: 1.014 },
-        { takenAt: t(-3), value: 1.011 },
+        { takenAt: t(-4), value: 1.011 },
         { takenAt: t(-1), value: 1.011 },
       ],
       fermenter: { equipmentId: fermenter.id, startsAt: t(-15), endsAt: t(7), now: t(0) },

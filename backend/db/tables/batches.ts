@@ -18,6 +18,8 @@ export interface BatchTable {
   status: Generated<BatchStatus>;
   packaged_at: Timestamp | null;
   packaged_liters: Numeric | null;
+  /** Set when the batch is discarded (its beer dumped); null otherwise. */
+  discarded_at: Timestamp | null;
   notes: Generated<string>;
   /** Allergen notes as the owner wrote them (e.g. "gluten (barley)", "lactose (milk)"). */
   allergens: Generated<string[]>;

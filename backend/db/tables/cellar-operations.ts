@@ -71,6 +71,13 @@ export interface TransferTable {
   fg: Numeric | null;
   abv: Numeric | null;
   transferred_at: Timestamp;
+  /** When drawing began and ended; `ended_at` equals `transferred_at`. Both null on transfers recorded without times. */
+  started_at: Timestamp | null;
+  ended_at: Timestamp | null;
+  /** Why the transfer went ahead while the batch's gravity was not yet stable. */
+  unstable_gravity_reason: string | null;
+  /** Dissolved oxygen read at fill, ppb. */
+  dissolved_oxygen_ppb: Numeric | null;
   recorded_by: string | null;
   notes: Generated<string>;
   created_at: Generated<Date>;
@@ -93,6 +100,8 @@ export interface KegFillTable {
   best_before: Timestamp | null;
   emptied_at: Timestamp | null;
   emptied_reason: string | null;
+  /** Dissolved oxygen read in this keg at fill, ppb. */
+  dissolved_oxygen_ppb: Numeric | null;
   created_at: Generated<Date>;
 }
 

@@ -299,6 +299,8 @@ export async function updateBatch(
         ...(input.packagedAt !== undefined ? { packaged_at: input.packagedAt ?? null } : {}),
         // Packaging without a time given: now.
         ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: now } : {}),
+        // Discarding dumps the beer now (the monthly production report counts it as a loss then).
+        ...(input.status === 'discarded' && batch.status !== 'discarded' ? { discarded_at: now } : {}),
         updated_at: new Date(),
       })
       .where('id', '=', batch.id)

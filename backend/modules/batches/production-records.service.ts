@@ -3,10 +3,11 @@ import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { sql } from 'kysely';
 import { abv, litersToUsBarrels } from '../../../shared/brewing/index.ts';
-import { productionRecordsNote, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
+import { productionRecordsNote, type ProductionMonth, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
 import { csvCell, xlsxCell, type ExportCell } from '../../lib/export-cells.ts';
 import { zonedTime } from './import-cells.ts';
+import { monthlyProduction } from './production-report.ts';
 
 /** Month or day bounds in the co-op's time zone → [start, end) instants. `to` is inclusive: a whole month or day. */
 export function periodBounds(
@@ -46,8 +47,17 @@ export async function productionRecords(
 ): Promise<ProductionRecords> {
   const period = periodBounds(from, to, timeZone, now);
   if (period.end <= period.start) {
-    return { from: period.from, to: period.to, rows: [], months: [], totals: { batches: 0, packagedLiters: 0, usBarrels: 0 }, note: productionRecordsNote };
+    return { from: period.from, to: period.to, rows: [], months: [], totals: { batches: 0, packagedLiters: 0, usBarrels: 0 }, monthly: [], note: productionRecordsNote };
   }
+  // Every month of the period, whole, for the monthly report.
+  const monthList: { month: string; start: Date; end: Date }[] = [];
+  for (let m = period.from.slice(0, 7); m <= period.to.slice(0, 7) && monthList.length < 120; ) {
+    const b = periodBounds(m, m, timeZone, now);
+    monthList.push({ month: m, start: b.start, end: b.end });
+    const [y, mo] = m.split('-').map(Number) as [number, number];
+    m = new Date(Date.UTC(y, mo, 1)).toISOString().slice(0, 7);
+  }
+  const monthly = await monthlyProduction(db, monthList, ownerId);
   const grouped = await db
     .selectFrom('production_packaging as p')
     .innerJoin('batch as b', 'b.id', 'p.batch_id')
@@ -118,6 +128,7 @@ export async function productionRecords(
     rows: out,
     months: [...months.values()].map((m) => ({ month: m.month, batches: m.batches, packagedLiters: round(m.liters, 2), usBarrels: round(litersToUsBarrels(m.liters), 4) })),
     totals: { batches: new Set(out.map((r) => r.batchId)).size, packagedLiters: round(totalLiters, 2), usBarrels: round(litersToUsBarrels(totalLiters), 4) },
+    monthly,
     note: productionRecordsNote,
   };
 }
@@ -125,11 +136,66 @@ export async function productionRecords(
 const columns = ['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrels (31 gal)', 'OG', 'FG', 'ABV %'] as const;
 const rowValues = (r: ProductionRecordRow) => [r.month, r.batchName, r.style, r.ownerName, r.packagedLiters, r.usBarrels, r.og, r.fg, r.abv];
 
+/** The monthly report's columns: litres, then the main figures in US barrels (31 US gal). */
+const monthlyColumns = [
+  'Month',
+  'Opening (L)',
+  'Brewed (L)',
+  'Packaged (L)',
+  'Checked out (L)',
+  'Served (L)',
+  'Packaged otherwise (L)',
+  'Removals (L)',
+  'Transfer losses (L)',
+  'Left in fermenter (L)',
+  'Dumped kegs (L)',
+  'Dumped batches (L)',
+  'Losses (L)',
+  'In fermenters (L)',
+  'In kegs (L)',
+  'Closing (L)',
+  'Balance (L)',
+  'Opening (US bbl)',
+  'Brewed (US bbl)',
+  'Removals (US bbl)',
+  'Losses (US bbl)',
+  'Closing (US bbl)',
+] as const;
+const monthlyValues = (m: ProductionMonth) => [
+  m.month,
+  m.openingLiters,
+  m.producedLiters,
+  m.packagedLiters,
+  m.removals.checkedOutLiters,
+  m.removals.servedLiters,
+  m.removals.packagedOtherwiseLiters,
+  m.removals.totalLiters,
+  m.losses.transferLiters,
+  m.losses.leftInFermenterLiters,
+  m.losses.dumpedKegLiters,
+  m.losses.dumpedBatchLiters,
+  m.losses.totalLiters,
+  m.closing.fermentersLiters,
+  m.closing.kegsLiters,
+  m.closing.totalLiters,
+  m.balanceLiters,
+  m.usBarrels.opening,
+  m.usBarrels.produced,
+  m.usBarrels.removals,
+  m.usBarrels.losses,
+  m.usBarrels.closing,
+];
+
 export function productionRecordsCsv(report: ProductionRecords): string {
   const data: ExportCell[][] = [
     [...columns],
     ...report.rows.map(rowValues),
     ['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels, '', '', ''],
+    [],
+    ['Monthly report'],
+    [...monthlyColumns],
+    ...report.monthly.map(monthlyValues),
+    [],
     ['Note', report.note, '', '', '', '', '', '', ''],
   ];
   // Batch names, styles and members' names are as typed: text that a spreadsheet would run is neutralised.
@@ -166,5 +232,11 @@ export async function productionRecordsXlsx(report: ProductionRecords): Promise<
   ];
   months.getRow(1).font = { bold: true };
   for (const m of report.months) months.addRow([m.month, m.batches, m.packagedLiters, m.usBarrels]);
+  const monthly = wb.addWorksheet('Monthly report', { views: [{ state: 'frozen', ySplit: 1, xSplit: 1 }] });
+  monthly.columns = monthlyColumns.map((header, i) => ({ header, key: `c${i}`, width: i === 0 ? 10 : Math.max(12, header.length + 2), style: i === 0 ? {} : { numFmt: header.includes('bbl') ? '0.0000' : '0.00' } }));
+  monthly.getRow(1).font = { bold: true };
+  for (const m of report.monthly) monthly.addRow(monthlyValues(m).map(xlsxCell));
+  monthly.addRow([]);
+  monthly.addRow(['Note', xlsxCell(report.note)]);
   return Buffer.from(await wb.xlsx.writeBuffer());
 }

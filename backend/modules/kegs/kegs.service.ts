@@ -356,21 +356,21 @@ export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, 
   });
 }
 
-export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }, now: Date) {
+export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined; dumped?: boolean | undefined }, actor: { id: string }, now: Date) {
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer.`);
-    await closeFill(trx, kegId, 'emptied', now);
+    await closeFill(trx, kegId, input.dumped ? 'dumped' : 'emptied', now);
     if (keg.tap_id) {
       await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id, now);
       await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} emptied and disconnected; clean the line`, actor.id, now);
     }
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id, at: now })
+      .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (input.dumped ? 'Beer dumped' : keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id, at: now })
       .execute();
-    await setVesselState(trx, kegId, 'needs_cleaning', 'Emptied; clean before use', actor.id, now);
-    await audit(trx, actor.id, 'emptied', 'Keg', kegId, { code: keg.code });
+    await setVesselState(trx, kegId, 'needs_cleaning', input.dumped ? 'Beer dumped; clean before use' : 'Emptied; clean before use', actor.id, now);
+    await audit(trx, actor.id, 'emptied', 'Keg', kegId, { code: keg.code, ...(input.dumped ? { dumped: true } : {}) });
   });
 }
 

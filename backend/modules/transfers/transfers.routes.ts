@@ -30,7 +30,7 @@ export function transfersRoutes({ db, clock }: Deps): Router {
   /** What the transfer screen offers: batches still in a fermenter. */
   router.get('/candidates', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Transfer');
-    res.json({ items: await transferCandidates(db) });
+    res.json({ items: await transferCandidates(db, clock.now()) });
   });
 
   router.get('/:id', async (req, res) => {

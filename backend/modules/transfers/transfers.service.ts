@@ -1,10 +1,19 @@
 import { sql } from 'kysely';
-import { transferChecklistItems, type CreateTransferInput, type DrawMethod, type TransferListQuery, type TransferView } from '../../../shared/schemas/transfers.ts';
+import { stableGravity } from '../../../shared/brewing/index.ts';
+import {
+  transferChecklistItems,
+  type CreateTransferInput,
+  type DrawMethod,
+  type GravityStability,
+  type TransferListQuery,
+  type TransferView,
+  TRANSFER_MAX_HOURS,
+} from '../../../shared/schemas/transfers.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
-import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
-import { batchGravityFigures } from '../batches/figures.ts';
+import { conflict, HttpProblem, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { batchGravityFigures, loadFermentationSettings } from '../batches/figures.ts';
 import { fillBestBefore } from '../batches/shelf-life.ts';
 import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
 import { setVesselState } from '../sanitation/vessel-state.ts';
@@ -24,6 +33,59 @@ export function unconfirmedItems(checklist: Record<string, unknown>, method: Dra
     .map((i) => i.key);
 }
 
+const MS_PER_DAY = 86_400_000;
+/** How many of the latest readings a stability answer shows. */
+const STABILITY_READINGS = 5;
+
+/**
+ * The co-op's "finished" rule (Settings, fermentation: the same gravity within a tolerance over a
+ * span of days, shared/brewing stableGravity) applied to a batch's readings taken up to `at`.
+ */
+export async function gravityStability(db: Database, batchId: string, at: Date): Promise<GravityStability> {
+  const [settings, rows] = await Promise.all([
+    loadFermentationSettings(db),
+    db.selectFrom('reading').select(['taken_at', 'gravity_sg']).where('batch_id', '=', batchId).where('taken_at', '<=', at).orderBy('taken_at').execute(),
+  ]);
+  const readings = rows.map((r) => ({ takenAt: r.taken_at, sg: Number(r.gravity_sg) }));
+  const toleranceSg = settings.stableToleranceSg;
+  const spanDays = settings.stableSpanDays;
+  const result = stableGravity(readings, { toleranceSg, spanDays });
+  // How long the latest gravity has held: the trailing run within the tolerance, as the rule counts it.
+  let heldDays = 0;
+  const latest = readings[readings.length - 1];
+  if (latest && readings.length > 1) {
+    let start = latest;
+    for (let i = readings.length - 2; i >= 0; i -= 1) {
+      if (Math.abs(readings[i]!.sg - latest.sg) > toleranceSg + 1e-9) break;
+      start = readings[i]!;
+    }
+    heldDays = Math.round(((latest.takenAt.getTime() - start.takenAt.getTime()) / MS_PER_DAY) * 10) / 10;
+  }
+  return {
+    stable: result.stable,
+    since: result.since ?? null,
+    toleranceSg,
+    spanDays,
+    heldDays,
+    readings: readings.slice(-STABILITY_READINGS).map((r) => ({ takenAt: r.takenAt.toISOString(), sg: r.sg })),
+  };
+}
+
+/** The 422 of a transfer whose batch's gravity is not yet stable and that gives no reason. */
+export function gravityNotStable(batchName: string, s: GravityStability): HttpProblem {
+  const last = s.readings.map((r) => `${r.sg.toFixed(3)} on ${r.takenAt.slice(0, 10)}`).join(', ');
+  const needs = `the same gravity within ±${s.toleranceSg.toFixed(3)} over ${s.spanDays} day${s.spanDays === 1 ? '' : 's'}`;
+  const seen = s.readings.length < 2 ? `it has ${s.readings.length === 0 ? 'no readings' : 'one reading'}` : `the latest gravity has held ${s.heldDays} day${s.heldDays === 1 ? '' : 's'} (readings: ${last})`;
+  return new HttpProblem(
+    422,
+    'Gravity not stable',
+    `The gravity of ${batchName} is not stable yet: the co-op's rule needs ${needs}, and ${seen}. Transfer later, or give a reason to transfer now.`,
+    [{ path: 'unstableGravityReason', message: 'The gravity is not stable: say why the beer goes into kegs now' }],
+    'about:blank',
+    { code: 'gravity_not_stable', stability: s },
+  );
+}
+
 /** Splits the litres that reached the kegs evenly (to the centilitre, the last keg takes the rounding). */
 function shareEvenly(total: number, n: number): number[] {
   const each = Math.floor((total / n) * 100) / 100;
@@ -39,7 +101,16 @@ function shareEvenly(total: number, n: number): number[] {
  * trail notes it.
  */
 export async function recordTransfer(db: Database, input: CreateTransferInput, actor: { id: string }, now: Date): Promise<{ transfer: TransferView; warnings: string[] }> {
-  const at = input.transferredAt ? new Date(input.transferredAt) : now;
+  // With start and end times, the end is the transfer's time and may not be after the clock's now.
+  // A start without an end ends now (recorded as it finishes).
+  const startedAt = input.startedAt ? new Date(input.startedAt) : null;
+  const endedAt = input.endedAt ? new Date(input.endedAt) : startedAt ? now : null;
+  if (endedAt && endedAt.getTime() > now.getTime()) throw unprocessable('A transfer cannot end in the future.', [{ path: 'endedAt', message: 'This time is in the future' }]);
+  if (startedAt && endedAt && startedAt.getTime() >= endedAt.getTime()) throw unprocessable('A transfer starts before it ends.', [{ path: 'startedAt', message: 'The start must be before the end' }]);
+  if (startedAt && endedAt && endedAt.getTime() - startedAt.getTime() > TRANSFER_MAX_HOURS * 3_600_000) {
+    throw unprocessable(`A transfer takes at most ${TRANSFER_MAX_HOURS} hours.`, [{ path: 'startedAt', message: 'Check the dates' }]);
+  }
+  const at = endedAt ?? (input.transferredAt ? new Date(input.transferredAt) : now);
   if (at.getTime() > now.getTime() + FUTURE_SLACK_MS) throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
   const settings = await sanitationSettings(db);
 
@@ -50,6 +121,9 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
     if (!batch) throw notFound('Batch');
     if (batch.status === 'planned') throw conflict(`${batch.name} has not been brewed yet.`);
     if (batch.status === 'discarded') throw conflict(`${batch.name} was discarded.`);
+    // The guard: beer whose gravity is not yet stable goes into kegs only with a reason.
+    const stability = await gravityStability(trx, batch.id, startedAt ?? at);
+    if (!stability.stable && !input.unstableGravityReason) throw gravityNotStable(batch.name, stability);
 
     const fermenter = await trx
       .selectFrom('equipment')
@@ -172,6 +246,10 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
         fg,
         abv,
         transferred_at: at,
+        started_at: startedAt,
+        ended_at: endedAt,
+        unstable_gravity_reason: stability.stable ? null : input.unstableGravityReason!,
+        dissolved_oxygen_ppb: input.dissolvedOxygenPpb ?? null,
         recorded_by: actor.id,
         notes: input.notes ?? '',
       })
@@ -196,6 +274,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
           co2_grams: perKegCo2,
           filled_at: at,
           best_before: bestBefore,
+          dissolved_oxygen_ppb: input.kegDissolvedOxygenPpb?.[i] ?? null,
         })
         .returning('id')
         .executeTakeFirstOrThrow();
@@ -219,6 +298,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
       volumeLiters: volume,
       lossLiters: loss,
       unconfirmed,
+      ...(stability.stable ? {} : { unstableGravityReason: input.unstableGravityReason, stability: { heldDays: stability.heldDays, spanDays: stability.spanDays } }),
     });
     return transfer.id;
     })
@@ -263,6 +343,10 @@ export async function transferViews(db: Database, ids: string[]): Promise<Transf
         't.fg',
         't.abv',
         't.transferred_at',
+        't.started_at',
+        't.ended_at',
+        't.unstable_gravity_reason',
+        't.dissolved_oxygen_ppb',
         't.recorded_by',
         'u.name as recorded_by_name',
         't.notes',
@@ -272,7 +356,7 @@ export async function transferViews(db: Database, ids: string[]): Promise<Transf
     db
       .selectFrom('keg_fill as kf')
       .innerJoin('equipment as k', 'k.id', 'kf.keg_id')
-      .select(['kf.id', 'kf.transfer_id', 'kf.keg_id', 'k.code', 'kf.volume_liters', 'kf.sanitation_cycle_id'])
+      .select(['kf.id', 'kf.transfer_id', 'kf.keg_id', 'k.code', 'kf.volume_liters', 'kf.sanitation_cycle_id', 'kf.dissolved_oxygen_ppb'])
       .where('kf.transfer_id', 'in', ids)
       .orderBy('k.code')
       .execute(),
@@ -299,11 +383,22 @@ export async function transferViews(db: Database, ids: string[]): Promise<Transf
           fg: num(r.fg),
           abv: num(r.abv),
           transferredAt: r.transferred_at.toISOString(),
+          startedAt: r.started_at ? r.started_at.toISOString() : null,
+          endedAt: r.ended_at ? r.ended_at.toISOString() : null,
+          unstableGravityReason: r.unstable_gravity_reason,
+          dissolvedOxygenPpb: num(r.dissolved_oxygen_ppb),
           recordedBy: r.recorded_by ? { id: r.recorded_by, name: r.recorded_by_name ?? '' } : null,
           notes: r.notes,
           kegs: fills
             .filter((f) => f.transfer_id === r.id)
-            .map((f) => ({ fillId: f.id, kegId: f.keg_id, code: f.code, volumeLiters: Number(f.volume_liters), sanitationCycleId: f.sanitation_cycle_id })),
+            .map((f) => ({
+              fillId: f.id,
+              kegId: f.keg_id,
+              code: f.code,
+              volumeLiters: Number(f.volume_liters),
+              sanitationCycleId: f.sanitation_cycle_id,
+              dissolvedOxygenPpb: num(f.dissolved_oxygen_ppb),
+            })),
         },
       ];
     }),
@@ -340,10 +435,12 @@ export interface TransferCandidate {
   ownerName: string;
   volumeLiters: number;
   fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
+  /** The co-op's "finished" rule applied to its readings now. */
+  gravity: GravityStability;
 }
 
-/** Batches still in a fermenter (fermenting or conditioning), each with the fermenter its latest booking holds it in. */
-export async function transferCandidates(db: Database): Promise<TransferCandidate[]> {
+/** Batches still in a fermenter (fermenting or conditioning), each with the fermenter its latest booking holds it in and whether its gravity is stable. */
+export async function transferCandidates(db: Database, now: Date): Promise<TransferCandidate[]> {
   const rows = await db
     .selectFrom('batch as b')
     .innerJoin('app_user as u', 'u.id', 'b.owner_id')
@@ -366,7 +463,8 @@ export async function transferCandidates(db: Database): Promise<TransferCandidat
     .orderBy('f.code')
     .orderBy('b.name')
     .execute();
-  return rows.map((r) => ({
+  const gravity = await Promise.all(rows.map((r) => gravityStability(db, r.id, now)));
+  return rows.map((r, i) => ({
     batchId: r.id,
     name: r.name,
     style: r.style,
@@ -376,5 +474,6 @@ export async function transferCandidates(db: Database): Promise<TransferCandidat
     fermenter: r.f_id
       ? { id: r.f_id, code: r.f_code!, name: r.f_name!, state: r.f_state!, hasValve: (r.f_attributes as { hasValve?: boolean } | null)?.hasValve !== false }
       : null,
+    gravity: gravity[i]!,
   }));
 }

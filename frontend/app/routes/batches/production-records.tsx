@@ -12,6 +12,7 @@ import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
+import type { ProductionMonth } from '../../../../shared/schemas/batches.ts';
 
 const month = (offset: number) => {
   const d = new Date();
@@ -39,7 +40,7 @@ const ProductionRecordsRoute = () => {
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl">Production records</h1>
-          <p className="text-sm text-ink-muted">Volumes packaged and alcohol by volume, per batch and month.</p>
+          <p className="text-sm text-ink-muted">Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch.</p>
         </div>
         {canExport && valid ? (
           <div className="flex gap-2">
@@ -78,6 +79,8 @@ const ProductionRecordsRoute = () => {
               <dd className="text-xl font-semibold tabular-nums">{bbl(data.totals.usBarrels)}</dd>
             </div>
           </dl>
+          <MonthlyReport months={data.monthly} />
+          <h2 className="text-lg">Packaged per batch</h2>
           <div className="max-h-[65dvh] overflow-auto rounded-md border border-line bg-surface">
             <table className="w-full border-separate border-spacing-0 text-sm">
               <caption className="sr-only">Production records by month and batch</caption>
@@ -143,6 +146,117 @@ const MonthRows = ({
       <td className={td} colSpan={3} />
     </tr>
   </>
+);
+
+const litres = (v: number) => v.toFixed(1);
+const thBase = 'sticky top-0 border-b border-line-strong bg-ground-deep px-2 py-2 text-xs font-semibold text-ink-muted uppercase';
+const th = `${thBase} text-right`;
+
+/** Month-end inventory as bars, with what came in (brewed) and went out (removals and losses) beside each. */
+const InventoryChart = ({ months }: { months: ProductionMonth[] }) => {
+  const max = Math.max(1, ...months.flatMap((m) => [m.closing.totalLiters, m.producedLiters, m.removals.totalLiters + m.losses.totalLiters]));
+  const w = 56;
+  const h = 140;
+  const y = (v: number) => h - (v / max) * h;
+  return (
+    <figure className="overflow-x-auto rounded-md border border-line bg-surface p-3">
+      <svg role="img" aria-label="Month-end inventory, brewed and out, per month" width={months.length * w + 40} height={h + 36} className="text-ink">
+        {months.map((m, i) => {
+          const x = 36 + i * w;
+          const out = m.removals.totalLiters + m.losses.totalLiters;
+          return (
+            <g key={m.month}>
+              <rect x={x} y={y(m.producedLiters)} width={12} height={h - y(m.producedLiters)} className="fill-hop" />
+              <rect x={x + 14} y={y(m.closing.totalLiters)} width={16} height={h - y(m.closing.totalLiters)} className="fill-copper" />
+              <rect x={x + 32} y={y(out)} width={12} height={h - y(out)} className="fill-due" />
+              <text x={x + 22} y={h + 14} textAnchor="middle" className="fill-ink-muted text-[10px]">
+                {m.month.slice(2)}
+              </text>
+            </g>
+          );
+        })}
+        <text x={0} y={10} className="fill-ink-muted text-[10px]">
+          {litres(max)} L
+        </text>
+        <line x1={32} x2={months.length * w + 36} y1={h} y2={h} className="stroke-line-strong" />
+      </svg>
+      <figcaption className="mt-1 flex flex-wrap gap-3 text-xs text-ink-muted">
+        <span>
+          <span className="mr-1 inline-block size-2.5 bg-hop" aria-hidden="true" />
+          Brewed
+        </span>
+        <span>
+          <span className="mr-1 inline-block size-2.5 bg-copper" aria-hidden="true" />
+          At the co-op at month end
+        </span>
+        <span>
+          <span className="mr-1 inline-block size-2.5 bg-due" aria-hidden="true" />
+          Removed or lost
+        </span>
+      </figcaption>
+    </figure>
+  );
+};
+
+/** The monthly report: opening + brewed − removals − losses = closing, per month, litres and US barrels. */
+const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
+  <section aria-labelledby="monthly-title" className="flex flex-col gap-2">
+    <h2 id="monthly-title" className="text-lg">
+      Monthly report
+    </h2>
+    <p className="text-sm text-ink-muted">
+      Removals are kegs checked out to members and kegs emptied at the co-op (served); losses are transfer losses, what stayed in the fermenter, dumped kegs and discarded
+      batches. Inventory is the beer in fermenters and in kegs still at the co-op.
+    </p>
+    {months.length > 1 ? <InventoryChart months={months} /> : null}
+    <div className="overflow-auto rounded-md border border-line bg-surface">
+      <table className="w-full border-separate border-spacing-0 text-sm">
+        <caption className="sr-only">Monthly production report, litres</caption>
+        <thead>
+          <tr>
+            <th scope="col" className={`${thBase} text-left`}>
+              Month
+            </th>
+            {['Opening', 'Brewed', 'Packaged', 'Removals', 'Losses', 'In fermenters', 'In kegs', 'Closing', 'Balance', 'Closing US bbl'].map((h) => (
+              <th key={h} scope="col" className={th}>
+                {h}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {months.map((m) => (
+            <tr key={m.month}>
+              <th scope="row" className={`${td} whitespace-nowrap text-left font-normal text-ink-muted`}>
+                {monthLabel(m.month)}
+              </th>
+              <td className={`${td} text-right tabular-nums`}>{litres(m.openingLiters)}</td>
+              <td className={`${td} text-right tabular-nums`}>{litres(m.producedLiters)}</td>
+              <td className={`${td} text-right tabular-nums text-ink-muted`}>{litres(m.packagedLiters)}</td>
+              <td className={`${td} text-right tabular-nums`} title={`Checked out ${litres(m.removals.checkedOutLiters)} L · served ${litres(m.removals.servedLiters)} L · packaged otherwise ${litres(m.removals.packagedOtherwiseLiters)} L`}>
+                {litres(m.removals.totalLiters)}
+              </td>
+              <td
+                className={`${td} text-right tabular-nums`}
+                title={`Transfers ${litres(m.losses.transferLiters)} L · left in fermenter ${litres(m.losses.leftInFermenterLiters)} L · dumped kegs ${litres(m.losses.dumpedKegLiters)} L · discarded batches ${litres(m.losses.dumpedBatchLiters)} L`}
+              >
+                {litres(m.losses.totalLiters)}
+              </td>
+              <td className={`${td} text-right tabular-nums`}>{litres(m.closing.fermentersLiters)}</td>
+              <td className={`${td} text-right tabular-nums`}>{litres(m.closing.kegsLiters)}</td>
+              <td className={`${td} text-right font-semibold tabular-nums`}>{litres(m.closing.totalLiters)}</td>
+              <td className={`${td} text-right tabular-nums ${m.balanceLiters === 0 ? 'text-hop-strong' : 'text-danger-strong'}`}>{m.balanceLiters === 0 ? 'balances' : litres(m.balanceLiters)}</td>
+              <td className={`${td} text-right tabular-nums`}>{bbl(m.usBarrels.closing)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+    <p className="text-xs text-ink-muted">
+      Litres; each month opening + brewed − removals − losses = closing. US barrels of 31 US gallons (117.35 L). Packaging moves beer from fermenters into kegs within the inventory.
+      The CSV and XLSX downloads give every figure in detail.
+    </p>
+  </section>
 );
 
 export default ProductionRecordsRoute;

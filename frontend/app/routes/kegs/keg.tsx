@@ -280,6 +280,16 @@ const KegRoute = () => {
                       Emptied
                     </Button>
                   ) : null}
+                  {ability.can('update', 'Equipment') ? (
+                    <Button
+                      variant="secondary"
+                      className="min-h-12 md:min-h-12 pointer-coarse:min-h-12"
+                      pending={act.isPending}
+                      onClick={() => window.confirm(`Record the beer in ${k.code} as dumped (poured away)?`) && run(() => act.mutateAsync({ action: 'empty', body: { dumped: true } }))}
+                    >
+                      Dumped
+                    </Button>
+                  ) : null}
                 </div>
               ) : null}
             </>

@@ -13,10 +13,14 @@ import { cellarPaths } from '@/features/cellar-ops/paths';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
+import { ApiProblem, problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
 
 const n = (v: string) => (v.trim() === '' ? Number.NaN : Number(v));
+/** A `datetime-local` value (the page's local time, to the minute). */
+const localInput = (d: Date) => new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 16);
+const fromLocalInput = (v: string) => (v ? new Date(v) : null);
+const shortTime = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
 
 /** The transfer checklist: a batch from its fermenter into ready kegs, every step of the trade ticked on a phone. */
 const NewTransferRoute = () => {
@@ -41,6 +45,13 @@ const NewTransferRoute = () => {
   const [finings, setFinings] = useState<'none' | 'silica finings' | 'gelatin' | 'other'>('none');
   const [finingsOther, setFiningsOther] = useState('');
   const [finingsAmount, setFiningsAmount] = useState('');
+  // Opened as the beer starts to flow: the start is then; the end, left blank, is when the transfer is recorded.
+  const [startedAt, setStartedAt] = useState(() => localInput(new Date()));
+  const [endedAt, setEndedAt] = useState('');
+  const [reason, setReason] = useState('');
+  const [serverUnstable, setServerUnstable] = useState(false);
+  const [oxygen, setOxygen] = useState('');
+  const [kegOxygen, setKegOxygen] = useState<Record<string, string>>({});
   const [error, setError] = useState<string | null>(null);
   const [done, setDone] = useState<{ transfer: TransferView; warnings: string[] } | null>(null);
 
@@ -52,6 +63,19 @@ const NewTransferRoute = () => {
   const chosen = kegIds.map((id) => kegs.find((k) => k.id === id)).filter((k): k is NonNullable<typeof k> => Boolean(k));
   const finingsKind = finings === 'other' ? finingsOther.trim() : finings;
   const finingsUnit = finings === 'gelatin' ? 'g' : 'mL';
+  const unstable = Boolean(candidate && !candidate.gravity.stable) || serverUnstable;
+  const start = fromLocalInput(startedAt);
+  const end = fromLocalInput(endedAt);
+  const timesError = !start
+    ? 'Give the start'
+    : start.getTime() > Date.now()
+      ? 'The start cannot be in the future'
+      : end && end <= start
+        ? 'The end must be after the start'
+        : end && end.getTime() > Date.now()
+          ? 'The end cannot be in the future'
+          : null;
+  const oxygenOk = (v: string) => v.trim() === '' || (n(v) >= 0 && n(v) <= 10_000);
 
   if (!ability.can('create', 'Transfer')) return <Forbidden what="recording transfers" />;
   if (candidates.isPending || readyKegs.isPending) return <PageLoader />;
@@ -61,6 +85,10 @@ const NewTransferRoute = () => {
     chosen.length > 0 &&
     n(volume) > 0 &&
     unticked.length === 0 &&
+    !timesError &&
+    (!unstable || reason.trim().length >= 3) &&
+    oxygenOk(oxygen) &&
+    chosen.every((k) => oxygenOk(kegOxygen[k.id] ?? '')) &&
     (finings === 'none' || (finingsKind.length > 1 && n(finingsAmount) > 0)) &&
     (split || chosen.every((k) => n(perKeg[k.id] ?? '') > 0));
 
@@ -77,10 +105,17 @@ const NewTransferRoute = () => {
         ...(split ? (loss.trim() ? { lossLiters: L(loss) } : {}) : { kegVolumesLiters: chosen.map((k) => L(perKeg[k.id] ?? '')) }),
         checklist: { drawMethod, ...Object.fromEntries(items.map((i) => [i.key, Boolean(ticks[i.key])])), ...(oxygenNote.trim() ? { oxygenPickupNote: oxygenNote.trim() } : {}) },
         finings: finings === 'none' ? null : { kind: finingsKind, amount: n(finingsAmount), unit: finingsUnit },
+        startedAt: start!.toISOString(),
+        ...(end ? { endedAt: end.toISOString() } : {}),
+        ...(unstable && reason.trim() ? { unstableGravityReason: reason.trim() } : {}),
+        ...(oxygen.trim() ? { dissolvedOxygenPpb: n(oxygen) } : {}),
+        ...(chosen.some((k) => (kegOxygen[k.id] ?? '').trim()) ? { kegDissolvedOxygenPpb: chosen.map((k) => ((kegOxygen[k.id] ?? '').trim() ? n(kegOxygen[k.id]!) : null)) } : {}),
       });
       setDone(result);
       window.scrollTo({ top: 0 });
     } catch (e) {
+      // The gravity moved on since the page loaded: ask for the reason the server wants.
+      if (e instanceof ApiProblem && e.errors.some((x) => x.path === 'unstableGravityReason')) setServerUnstable(true);
       setError(problemMessage(e));
     }
   };
@@ -95,6 +130,28 @@ const NewTransferRoute = () => {
           {units.volume(t.packagedLiters)} in kegs, {units.volume(t.lossLiters)} lost{t.abv !== null ? ` · ${t.abv.toFixed(1)} % ABV on the labels` : ''}. {t.fermenter.code} now needs
           cleaning.
         </Alert>
+        <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
+          {t.startedAt && t.endedAt ? (
+            <>
+              <dt className="text-ink-muted">Drawn</dt>
+              <dd>
+                {shortTime(t.startedAt)} to {shortTime(t.endedAt)}
+              </dd>
+            </>
+          ) : null}
+          {t.dissolvedOxygenPpb !== null ? (
+            <>
+              <dt className="text-ink-muted">Dissolved oxygen</dt>
+              <dd>{t.dissolvedOxygenPpb} ppb at fill</dd>
+            </>
+          ) : null}
+          {t.unstableGravityReason ? (
+            <>
+              <dt className="text-ink-muted">Gravity not stable</dt>
+              <dd>{t.unstableGravityReason}</dd>
+            </>
+          ) : null}
+        </dl>
         {done.warnings.length ? (
           <Alert tone="info" title="Noted">
             {done.warnings.join(' ')}
@@ -108,6 +165,7 @@ const NewTransferRoute = () => {
                   {k.code}
                 </Link>{' '}
                 · {units.volume(k.volumeLiters)}
+                {k.dissolvedOxygenPpb !== null ? ` · DO ${k.dissolvedOxygenPpb} ppb` : ''}
               </span>
               <ButtonLink to={cellarPaths.carbonation(k.kegId)} variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
                 Plan carbonation
@@ -142,6 +200,37 @@ const NewTransferRoute = () => {
             ))}
           </BigSelect>
         </label>
+        {unstable ? (
+          <Alert tone="error" title="Gravity not stable yet">
+            <p>
+              The co-op counts a batch as finished when its gravity holds within ±{(candidate?.gravity.toleranceSg ?? 0.001).toFixed(3)} for {candidate?.gravity.spanDays ?? 3} days
+              {candidate ? `; ${candidate.name}'s has held ${candidate.gravity.heldDays} day${candidate.gravity.heldDays === 1 ? '' : 's'}` : ''}. Kegging it now may leave it
+              sweet or over-carbonate the kegs.
+            </p>
+            {candidate && candidate.gravity.readings.length ? (
+              <p className="mt-1">Last readings: {candidate.gravity.readings.map((r) => `${r.sg.toFixed(3)} (${new Date(r.takenAt).toLocaleDateString()})`).join(', ')}</p>
+            ) : candidate ? (
+              <p className="mt-1">It has no readings.</p>
+            ) : null}
+          </Alert>
+        ) : null}
+        {unstable ? (
+          <label className={label}>
+            Why transfer now? (required)
+            <BigInput value={reason} onChange={(e) => setReason(e.target.value)} placeholder="e.g. fermenter needed for the next brew; at target gravity" />
+          </label>
+        ) : null}
+        <div className="grid grid-cols-2 gap-2">
+          <label className={label}>
+            Started
+            <BigInput type="datetime-local" value={startedAt} onChange={(e) => setStartedAt(e.target.value)} />
+          </label>
+          <label className={label}>
+            Ended (blank: now)
+            <BigInput type="datetime-local" value={endedAt} onChange={(e) => setEndedAt(e.target.value)} aria-invalid={timesError ? true : undefined} />
+          </label>
+        </div>
+        {timesError ? <p className="text-sm text-danger-strong">{timesError}</p> : null}
         <label className={label}>
           Drawn from the fermenter ({units.labels.volume})
           <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={volume} onChange={(e) => setVolume(e.target.value)} placeholder={candidate ? toDisplay.volume(candidate.volumeLiters, u).toFixed(1) : ''} />
@@ -182,6 +271,32 @@ const NewTransferRoute = () => {
             )}
           </div>
         ) : null}
+      </section>
+
+      <section className="flex flex-col gap-2 rounded-lg border border-line bg-surface p-3" aria-labelledby="oxygen-title">
+        <h2 id="oxygen-title" className="text-base">
+          Dissolved oxygen (optional)
+        </h2>
+        <p className="text-sm text-ink-muted">Where a meter is at hand: ppb, 0 to 10,000.</p>
+        <label className={label}>
+          At fill (ppb)
+          <BigInput type="number" inputMode="decimal" step="1" min={0} max={10000} value={oxygen} onChange={(e) => setOxygen(e.target.value)} aria-invalid={oxygenOk(oxygen) ? undefined : true} />
+        </label>
+        {chosen.map((k) => (
+          <label key={k.id} className={label}>
+            In {k.code} (ppb)
+            <BigInput
+              type="number"
+              inputMode="decimal"
+              step="1"
+              min={0}
+              max={10000}
+              value={kegOxygen[k.id] ?? ''}
+              onChange={(e) => setKegOxygen((o) => ({ ...o, [k.id]: e.target.value }))}
+              aria-invalid={oxygenOk(kegOxygen[k.id] ?? '') ? undefined : true}
+            />
+          </label>
+        ))}
       </section>
 
       <section className="flex flex-col gap-2 rounded-lg border border-line bg-surface p-3" aria-labelledby="checklist-title">

@@ -45,7 +45,7 @@ type KegAction =
   | { action: 'check-out'; body: { memberId: string; dueAt: string; note?: string } }
   | { action: 'return'; body: { note?: string } }
   | { action: 'move'; body: { to: 'cellar' | 'cold_room' | 'missing'; tapId?: string | null; note?: string } }
-  | { action: 'empty'; body: { note?: string } }
+  | { action: 'empty'; body: { note?: string; dumped?: boolean } }
   | { action: 'level'; body: { remainingLiters: number } };
 
 /** Check-out, return, moves, emptying and levels: each answers with the keg as it is now. */

@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CreateTransferInput, TransferView } from '../../../../shared/schemas/transfers.ts';
+import type { CreateTransferInput, GravityStability, TransferView } from '../../../../shared/schemas/transfers.ts';
 import { api } from '@/lib/api-client';
 
 export interface TransferCandidate {
@@ -10,6 +10,8 @@ export interface TransferCandidate {
   ownerName: string;
   volumeLiters: number;
   fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
+  /** The co-op's "finished" rule applied to its readings. */
+  gravity: GravityStability;
 }
 
 export const useTransferCandidates = () =>
