@@ -1,3 +1,4 @@
+import { applyInspectionLapses } from '../../backend/modules/equipment/inspections.service.ts';
 import { sql } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { InspectionKind } from '../../backend/db/tables/inspections.ts';
@@ -73,4 +74,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       { cylinder_id: equipmentId('C-1'), action: 'connected', remaining_kg: 6, replaced_cylinder_id: equipmentId('C-4'), note: 'Leak-checked the fittings after the swap', actor_id: brewer, at: swapAt },
     ])
     .execute();
+
+  // The periodic pass has run: what is past due and idle is out of service, with its history row.
+  await applyInspectionLapses(db, cal.now);
 }

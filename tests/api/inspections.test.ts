@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createCo2Cylinder, createInspection, createKeg, createTap, DAY, setCylinderSupply } from '../../db/factories/index.ts';
 import { batchPool, completeSteps, count, fullChecklist, kegPool, makeReady, states } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { applyInspectionLapses } from '../../backend/modules/equipment/inspections.service.ts';
 
 let ctx: TestContext;
 let brewer: ApiClient;
@@ -151,6 +152,32 @@ describe('an item past an inspection, or failing one, is not filled or carbonate
     expect(await count(ctx, 'carbonation_plan')).toBe(plans);
     expect((await brewer.post(`/api/equipment/${keg!.id}/inspections`, { kind: 'seals', at: ago(0.01), passed: true })).status).toBe(201);
     expect((await brewer.post('/api/carbonation-plans', { kegId: keg!.id, targetVolumes: 2.4, method: 'set_and_hold' })).status).toBe(201);
+  });
+
+  it('the periodic pass takes an idle keg whose test has come due out of service with history, leaves a full one be, and a passing test puts it back', async () => {
+    const [idle, full] = await takeKegs(2);
+    await makeReady(brewer, [idle!.id, full!.id], ctx.clock);
+    const batch = await takeBatch();
+    expect((await brewer.post('/api/transfers', transferBody(batch, [full!.id]))).status).toBe(201);
+    await createInspection(ctx.db, { equipmentId: idle!.id, kind: 'pressure_test', at: ago(800), nextDueAt: ago(0.2) });
+    await createInspection(ctx.db, { equipmentId: full!.id, kind: 'pressure_test', at: ago(800), nextDueAt: ago(0.2) });
+
+    expect(await applyInspectionLapses(ctx.db, ctx.clock.now())).toBeGreaterThanOrEqual(1);
+    const page = await brewer.get(`/api/equipment/${idle!.id}`);
+    expect(page.body.equipment.state).toBe('out_of_service');
+    expect(page.body.history[0]).toMatchObject({ fromState: 'ready', toState: 'out_of_service', reason: `Inspection past due: pressure test was due ${dayOf(ago(0.2))}` });
+    // A keg holding beer keeps its state; the refusals still stop it being carbonated.
+    expect((await brewer.get(`/api/equipment/${full!.id}`)).body.equipment.state).toBe('holding');
+    // A second pass writes nothing more.
+    const historyRows = async () => (await ctx.db.selectFrom('equipment_state_change').select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow()).n;
+    const rows = await historyRows();
+    expect(await applyInspectionLapses(ctx.db, ctx.clock.now())).toBe(0);
+    expect(await historyRows()).toBe(rows);
+
+    const passed = await brewer.post(`/api/equipment/${idle!.id}/inspections`, { kind: 'pressure_test', at: ago(0.01), passed: true });
+    expect(passed.status).toBe(201);
+    expect(passed.body.equipment.state).toBe('needs_cleaning');
+    expect((await brewer.get(`/api/equipment/${idle!.id}`)).body.history[0]).toMatchObject({ toState: 'needs_cleaning', reason: 'Back in service: pressure test passed' });
   });
 });
 

@@ -25,6 +25,8 @@ const FUTURE_SLACK_MS = 10 * 60_000;
 const DAY = 24 * 3600_000;
 /** The reason a failed inspection writes on the state change; a later passing one looks for it to put the item back. */
 const FAILED_REASON = 'Inspection failed';
+/** The reason the periodic pass writes when an idle item's inspection has come due. */
+const OVERDUE_REASON = 'Inspection past due';
 
 export async function pressureSafetySettings(db: Database): Promise<PressureSafetySettings> {
   return (await getSetting(db, 'pressure_safety')).value;
@@ -122,6 +124,35 @@ export async function assertInspected(db: Database, items: { id: string; code: s
   );
 }
 
+/**
+ * The periodic pass: an idle item (ready, cleaned or waiting for cleaning) whose inspection has
+ * failed or come due by `now` goes out of service, with a history row saying which, so the registry
+ * and the item's history show it as well as the refusals (which read the due dates themselves). An
+ * item holding beer keeps its state until it is emptied; the next pass takes it then. A passing
+ * inspection puts it back (see {@link recordInspection}). Returns how many items it took out.
+ */
+export async function applyInspectionLapses(db: Database, now: Date): Promise<number> {
+  const tz = await coopTimeZone(db);
+  const { rows } = await sql<{ equipment_id: string }>`
+    select distinct d.equipment_id from (${duesSql(tz)}) d join equipment e on e.id = d.equipment_id
+    where e.state in ('ready', 'cleaned', 'needs_cleaning') and (d.failed or d.due_at <= ${now})`.execute(db);
+  let taken = 0;
+  for (const { equipment_id: id } of rows) {
+    // One transaction per item; inside a caller's transaction (the demo seed's), that one.
+    const inOne = <T,>(fn: (trx: Database) => Promise<T>) => (db.isTransaction ? fn(db) : db.transaction().execute(fn));
+    taken += await inOne(async (trx) => {
+      const item = await trx.selectFrom('equipment').select(['id', 'state']).where('id', '=', id).forUpdate().executeTakeFirst();
+      if (!item || !['ready', 'cleaned', 'needs_cleaning'].includes(item.state)) return 0;
+      const blocks = (await inspectionBlocks(trx, [id], now)).get(id);
+      if (!blocks?.length) return 0;
+      const prefix = blocks.some((b) => b.reason === 'failed') ? FAILED_REASON : OVERDUE_REASON;
+      await writeStateChange(trx, id, item.state, 'out_of_service', `${prefix}: ${describeBlocks(blocks)}`, null, now);
+      return 1;
+    });
+  }
+  return taken;
+}
+
 export async function listInspections(db: Database, equipmentId: string, limit = 100): Promise<InspectionView[]> {
   const rows = await db
     .selectFrom('equipment_inspection as i')
@@ -195,7 +226,7 @@ export async function recordInspection(db: Database, item: Equipment, input: Cre
         .limit(1)
         .executeTakeFirst();
       const stillBlocked = (await inspectionBlocks(trx, [item.id], now)).has(item.id);
-      if (last?.reason.startsWith(FAILED_REASON) && !stillBlocked) {
+      if ((last?.reason.startsWith(FAILED_REASON) || last?.reason.startsWith(OVERDUE_REASON)) && !stillBlocked) {
         const back: VesselState = current.kind === 'co2_cylinder' || current.kind === 'tap' ? 'ready' : 'needs_cleaning';
         await writeStateChange(trx, item.id, 'out_of_service', back, `Back in service: ${label} passed`, actorId, now);
       }
