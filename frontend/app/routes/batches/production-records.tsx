@@ -13,6 +13,7 @@ import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import type { ProductionMonth } from '../../../../shared/schemas/batches.ts';
+import { ProductionChart } from '@/features/batches/components/production-chart';
 
 const month = (offset: number) => {
   const d = new Date();
@@ -152,51 +153,6 @@ const litres = (v: number) => v.toFixed(1);
 const thBase = 'sticky top-0 border-b border-line-strong bg-ground-deep px-2 py-2 text-xs font-semibold text-ink-muted uppercase';
 const th = `${thBase} text-right`;
 
-/** Month-end inventory as bars, with what came in (brewed) and went out (removals and losses) beside each. */
-const InventoryChart = ({ months }: { months: ProductionMonth[] }) => {
-  const max = Math.max(1, ...months.flatMap((m) => [m.closing.totalLiters, m.producedLiters, m.removals.totalLiters + m.losses.totalLiters]));
-  const w = 56;
-  const h = 140;
-  const y = (v: number) => h - (v / max) * h;
-  return (
-    <figure className="overflow-x-auto rounded-md border border-line bg-surface p-3">
-      <svg role="img" aria-label="Month-end inventory, brewed and out, per month" width={months.length * w + 40} height={h + 36} className="text-ink">
-        {months.map((m, i) => {
-          const x = 36 + i * w;
-          const out = m.removals.totalLiters + m.losses.totalLiters;
-          return (
-            <g key={m.month}>
-              <rect x={x} y={y(m.producedLiters)} width={12} height={h - y(m.producedLiters)} className="fill-hop" />
-              <rect x={x + 14} y={y(m.closing.totalLiters)} width={16} height={h - y(m.closing.totalLiters)} className="fill-copper" />
-              <rect x={x + 32} y={y(out)} width={12} height={h - y(out)} className="fill-due" />
-              <text x={x + 22} y={h + 14} textAnchor="middle" className="fill-ink-muted text-[10px]">
-                {m.month.slice(2)}
-              </text>
-            </g>
-          );
-        })}
-        <text x={0} y={10} className="fill-ink-muted text-[10px]">
-          {litres(max)} L
-        </text>
-        <line x1={32} x2={months.length * w + 36} y1={h} y2={h} className="stroke-line-strong" />
-      </svg>
-      <figcaption className="mt-1 flex flex-wrap gap-3 text-xs text-ink-muted">
-        <span>
-          <span className="mr-1 inline-block size-2.5 bg-hop" aria-hidden="true" />
-          Brewed
-        </span>
-        <span>
-          <span className="mr-1 inline-block size-2.5 bg-copper" aria-hidden="true" />
-          At the co-op at month end
-        </span>
-        <span>
-          <span className="mr-1 inline-block size-2.5 bg-due" aria-hidden="true" />
-          Removed or lost
-        </span>
-      </figcaption>
-    </figure>
-  );
-};
 
 /** The monthly report: opening + brewed − removals − losses = closing, per month, litres and US barrels. */
 const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
@@ -208,7 +164,7 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
       Removals are kegs checked out to members and kegs emptied at the co-op (served); losses are transfer losses, what stayed in the fermenter, dumped kegs and discarded
       batches. Inventory is the beer in fermenters and in kegs still at the co-op.
     </p>
-    {months.length > 1 ? <InventoryChart months={months} /> : null}
+    {months.length > 1 ? <ProductionChart months={months} /> : null}
     <div className="overflow-auto rounded-md border border-line bg-surface">
       <table className="w-full border-separate border-spacing-0 text-sm">
         <caption className="sr-only">Monthly production report, litres</caption>
