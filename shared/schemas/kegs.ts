@@ -81,6 +81,8 @@ export interface KegContents {
   /** Stored when the keg was filled: filled_at plus the batch's shelf life. */
   bestBefore: string | null;
   bestBeforeState: BestBeforeState | null;
+  /** Dissolved oxygen measured in this keg at the fill, ppb (where the co-op has a meter). */
+  dissolvedOxygenPpb: number | null;
   /** Finings dosed when this keg was filled. */
   finings: FiningsDose[];
   /** The batch's allergen notes and what the finings add. */

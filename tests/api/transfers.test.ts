@@ -329,6 +329,9 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
     // Shown again on the transfer's own page.
     const again = await brewer.get(`/api/transfers/${t.id}`);
     expect(again.body.transfer).toMatchObject({ dissolvedOxygenPpb: 48, startedAt, endedAt, unstableGravityReason: expect.stringMatching(/next brew/) });
+    // And on each keg's page, while it holds the beer.
+    expect((await brewer.get(`/api/kegs/${kegs[0]!.id}`)).body.keg.contents.dissolvedOxygenPpb).toBe(35.5);
+    expect((await brewer.get(`/api/kegs/${kegs[1]!.id}`)).body.keg.contents.dissolvedOxygenPpb).toBeNull();
   });
 
   it('stores no reason when the gravity is stable, and no times when none are given', async () => {

@@ -82,6 +82,7 @@ function selectKeg(q: KegBase, now: Date) {
     'kf.abv',
     'kf.filled_at',
     'kf.best_before',
+    'kf.dissolved_oxygen_ppb',
     // Past, or within the co-op's warning days of it (Settings, shelf life).
     sql<BestBeforeState | null>`(case when kf.best_before is null then null when kf.best_before <= ${now} then 'past'
       when kf.best_before <= ${now}::timestamptz + make_interval(days => coalesce((select (s.value->>'nearDays')::int from setting s where s.key = 'shelf_life'), ${defaultShelfLifeSettings.nearDays})) then 'near'
@@ -137,6 +138,7 @@ function toKegView(r: KegRow, showOwner: boolean): KegView {
           filledAt: iso(r.filled_at)!,
           bestBefore: iso(r.best_before),
           bestBeforeState: r.best_before_state,
+          dissolvedOxygenPpb: num(r.dissolved_oxygen_ppb),
           ...beerFacts(r.allergens ?? [], r.finings_kind ? [{ kind: r.finings_kind, dose: Number(r.finings_amount), unit: r.finings_unit ?? '' }] : []),
         }
       : null,

@@ -265,6 +265,12 @@ const KegRoute = () => {
                   <BestBefore contents={k.contents} />
                 </dd>
                 <BeerNotes contents={k.contents} />
+                {k.contents.dissolvedOxygenPpb !== null ? (
+                  <>
+                    <dt className="text-ink-muted">Dissolved O₂</dt>
+                    <dd>{k.contents.dissolvedOxygenPpb} ppb at filling</dd>
+                  </>
+                ) : null}
                 <dt className="text-ink-muted">Left</dt>
                 <dd>
                   <FillGauge keg={k} />
