@@ -34,14 +34,17 @@ export function xlsxCell(value: ExportCell): string | number | boolean | Date | 
 /** How XLSX date cells show a day, and a moment (in UTC, as the API gives times). */
 export const XLSX_DATE_FORMAT = 'yyyy-mm-dd';
 export const XLSX_DATE_TIME_FORMAT = 'yyyy-mm-dd hh:mm';
+/** How XLSX date cells show a month (the cell holds its first day). */
+export const XLSX_MONTH_FORMAT = 'yyyy-mm';
 
 /**
  * A calendar day ('YYYY-MM-DD') as an XLSX date cell's value: midnight UTC of that day, which the
- * spreadsheet stores as that day's serial number whatever the reader's time zone. Nothing stays empty.
+ * spreadsheet stores as that day's serial number whatever the reader's time zone. A month ('YYYY-MM')
+ * is its first day (shown with XLSX_MONTH_FORMAT). Nothing stays empty.
  */
 export function xlsxDate(day: string | null | undefined): Date | null {
   if (!day) return null;
-  const d = new Date(`${day.slice(0, 10)}T00:00:00Z`);
+  const d = new Date(`${/^\d{4}-\d{2}$/.test(day) ? `${day}-01` : day.slice(0, 10)}T00:00:00Z`);
   if (Number.isNaN(d.getTime())) throw new Error(`xlsxDate: not a day: ${day}`);
   return d;
 }

@@ -31,6 +31,7 @@ describe('export cells', () => {
   it('types a day as a date at midnight UTC, and leaves no day empty', () => {
     expect(xlsxDate('2026-12-01')).toEqual(new Date('2026-12-01T00:00:00Z'));
     expect(xlsxDate('2028-02-29')).toEqual(new Date('2028-02-29T00:00:00Z'));
+    expect(xlsxDate('2026-09')).toEqual(new Date('2026-09-01T00:00:00Z'));
     expect(xlsxDate(null)).toBeNull();
     expect(xlsxDate('')).toBeNull();
     expect(() => xlsxDate('someday')).toThrow();
