@@ -30,3 +30,38 @@ export function xlsxCell(value: ExportCell): string | number | boolean | Date | 
   if (typeof value === 'string') return neutralise(value);
   return value;
 }
+
+/** How XLSX date cells show a day, and a moment (in UTC, as the API gives times). */
+export const XLSX_DATE_FORMAT = 'yyyy-mm-dd';
+export const XLSX_DATE_TIME_FORMAT = 'yyyy-mm-dd hh:mm';
+/** How XLSX date cells show a month (the cell holds its first day). */
+export const XLSX_MONTH_FORMAT = 'yyyy-mm';
+
+/**
+ * A calendar day ('YYYY-MM-DD') as an XLSX date cell's value: midnight UTC of that day, which the
+ * spreadsheet stores as that day's serial number whatever the reader's time zone. A month ('YYYY-MM')
+ * is its first day (shown with XLSX_MONTH_FORMAT). Nothing stays empty.
+ */
+export function xlsxDate(day: string | null | undefined): Date | null {
+  if (!day) return null;
+  const d = new Date(`${/^\d{4}-\d{2}$/.test(day) ? `${day}-01` : day.slice(0, 10)}T00:00:00Z`);
+  if (Number.isNaN(d.getTime())) throw new Error(`xlsxDate: not a day: ${day}`);
+  return d;
+}
+
+/**
+ * The number format of an amount in a currency (cells hold the amount in the currency's unit, 12.5 for
+ * 12.50): thousands grouped, two decimals, the currency's symbol in front ("€", "$", "£"; its code where
+ * it has no symbol of its own), negatives with a minus.
+ */
+export function xlsxMoneyFormat(currency: string): string {
+  const code = currency.trim().toUpperCase();
+  let symbol = code;
+  try {
+    symbol = new Intl.NumberFormat('en', { style: 'currency', currency: code, currencyDisplay: 'narrowSymbol' }).formatToParts(0).find((p) => p.type === 'currency')?.value ?? code;
+  } catch {
+    // Not a currency code Intl knows: show the code.
+  }
+  const quoted = `"${symbol.replaceAll('"', '')}${symbol.length > 1 ? ' ' : ''}"`;
+  return `${quoted}#,##0.00;-${quoted}#,##0.00`;
+}

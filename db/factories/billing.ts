@@ -3,7 +3,7 @@ import type { Database } from '../../backend/db/database.ts';
 import type { InvoiceLineTable, InvoiceTable, PriceTable, TaxRateTable } from '../../backend/db/tables/billing.ts';
 import { coopTimeZone, getBillingProfile } from '../../backend/modules/billing/billing-profile.service.ts';
 import { deriveCharges } from '../../backend/modules/billing/charges/index.ts';
-import { createInvoice as makeInvoice, issueInvoice } from '../../backend/modules/billing/invoices.service.ts';
+import { createInvoice as makeInvoice, issueInvoice, recordManualPayment } from '../../backend/modules/billing/invoices.service.ts';
 import { PriceBook } from '../../backend/modules/billing/price-book.ts';
 import { periodBounds, periodLabel } from '../../shared/billing/dates.ts';
 import type { PriceItem } from '../../shared/schemas/billing.ts';
@@ -112,4 +112,22 @@ export function createManualCharge(
     })
     .returningAll()
     .executeTakeFirstOrThrow();
+}
+
+/**
+ * A payment the treasurer received by hand on an issued invoice (whole or part, never more than is due),
+ * recorded as `POST /api/invoices/:id/payments` records it.
+ */
+export function createInvoicePayment(
+  db: Database,
+  o: { invoiceId: string; amountCents: number; receivedOn: string; method?: 'bank_transfer' | 'cash'; reference?: string; note?: string; actorId: string },
+) {
+  return inTransaction(db, (trx) =>
+    recordManualPayment(
+      trx,
+      o.invoiceId,
+      { amountCents: o.amountCents, method: o.method ?? 'bank_transfer', receivedOn: o.receivedOn, reference: o.reference ?? '', note: o.note ?? '' },
+      o.actorId,
+    ),
+  );
 }

@@ -46,6 +46,8 @@
  *   createManualCharge(db, { memberId, period, amountCents, description?, reason?, taxable?, createdBy?, createdAt? })
  *   createInvoice(db, { memberId, period, today, issue? = true, actorId? }) → invoice row + lines
  *     the real charge sources for that member and period, priced, then issued on `today` (a draft with issue: false)
+ *   createInvoicePayment(db, { invoiceId, amountCents, receivedOn, method? = 'bank_transfer', reference?, note?, actorId })
+ *     → payment — received by hand on an issued invoice, whole or part (a part payment leaves it issued)
  * Settings (settings.ts)
  *   setSetting(db, key, patch)                    — merge fields into a settings section (e.g. booking_rules)
  * Inspections and CO2 cylinders (inspections.ts)

@@ -155,7 +155,13 @@ describe('the monthly production report', () => {
     const values: unknown[][] = [];
     sheet.eachRow((r) => values.push((r.values as unknown[]).slice(1)));
     expect(values[0]![0]).toBe('Month');
-    const sep = values.find((r) => r[0] === '2026-09')!;
+    // Months are date cells (the first day) shown as months.
+    const sep = values.find((r) => r[0] instanceof Date && r[0].toISOString() === '2026-09-01T00:00:00.000Z')!;
+    let sepCell: ExcelJS.Cell | undefined;
+    sheet.eachRow((r) => {
+      if (r.getCell(1).value === sep[0]) sepCell = r.getCell(1);
+    });
+    expect(sepCell!.numFmt).toBe('yyyy-mm');
     expect(sep[(values[0] as string[]).indexOf('Dumped kegs (L)')]).toBe(18.5);
     expect(sep[(values[0] as string[]).indexOf('Dumped batches (L)')]).toBe(25);
     expect(sep[(values[0] as string[]).indexOf('Closing (L)')]).toBe(20);

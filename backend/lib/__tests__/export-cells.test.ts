@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { csvCell, neutralise, xlsxCell } from '../export-cells.ts';
+import { csvCell, neutralise, xlsxCell, xlsxDate, xlsxMoneyFormat } from '../export-cells.ts';
 
 describe('export cells', () => {
   it('prefixes text a spreadsheet would run as a formula', () => {
@@ -26,5 +26,21 @@ describe('export cells', () => {
     const d = new Date('2026-12-01T10:00:00Z');
     expect(xlsxCell(d)).toBe(d);
     expect(xlsxCell('@x')).toBe("'@x");
+  });
+
+  it('types a day as a date at midnight UTC, and leaves no day empty', () => {
+    expect(xlsxDate('2026-12-01')).toEqual(new Date('2026-12-01T00:00:00Z'));
+    expect(xlsxDate('2028-02-29')).toEqual(new Date('2028-02-29T00:00:00Z'));
+    expect(xlsxDate('2026-09')).toEqual(new Date('2026-09-01T00:00:00Z'));
+    expect(xlsxDate(null)).toBeNull();
+    expect(xlsxDate('')).toBeNull();
+    expect(() => xlsxDate('someday')).toThrow();
+  });
+
+  it('formats money with its currency’s symbol, two decimals and grouped thousands', () => {
+    expect(xlsxMoneyFormat('EUR')).toBe('"€"#,##0.00;-"€"#,##0.00');
+    expect(xlsxMoneyFormat('usd ')).toBe('"$"#,##0.00;-"$"#,##0.00');
+    expect(xlsxMoneyFormat('GBP')).toBe('"£"#,##0.00;-"£"#,##0.00');
+    expect(xlsxMoneyFormat('CHF')).toBe('"CHF "#,##0.00;-"CHF "#,##0.00');
   });
 });

@@ -5,7 +5,7 @@ import { sql } from 'kysely';
 import { abv, litersToUsBarrels } from '../../../shared/brewing/index.ts';
 import { productionRecordsNote, type ProductionMonth, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
-import { csvCell, xlsxCell, type ExportCell } from '../../lib/export-cells.ts';
+import { csvCell, XLSX_MONTH_FORMAT, xlsxCell, xlsxDate, type ExportCell } from '../../lib/export-cells.ts';
 import { zonedTime } from './import-cells.ts';
 import { monthlyProduction } from './production-report.ts';
 
@@ -207,7 +207,7 @@ export async function productionRecordsXlsx(report: ProductionRecords): Promise<
   wb.creator = 'Cellarwright';
   const ws = wb.addWorksheet('Production records', { views: [{ state: 'frozen', ySplit: 1 }] });
   ws.columns = [
-    { header: columns[0], key: 'month', width: 10 },
+    { header: columns[0], key: 'month', width: 10, style: { numFmt: XLSX_MONTH_FORMAT } },
     { header: columns[1], key: 'batch', width: 28 },
     { header: columns[2], key: 'style', width: 20 },
     { header: columns[3], key: 'member', width: 22 },
@@ -218,24 +218,25 @@ export async function productionRecordsXlsx(report: ProductionRecords): Promise<
     { header: columns[8], key: 'abv', width: 9, style: { numFmt: '0.00' } },
   ];
   ws.getRow(1).font = { bold: true };
-  for (const r of report.rows) ws.addRow(rowValues(r).map(xlsxCell));
+  // Months are date cells (their first day) shown as months.
+  for (const r of report.rows) ws.addRow([xlsxDate(r.month), ...rowValues(r).slice(1).map(xlsxCell)]);
   const total = ws.addRow(['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels]);
   total.font = { bold: true };
   ws.addRow([]);
   ws.addRow(['Note', xlsxCell(report.note)]);
   const months = wb.addWorksheet('By month');
   months.columns = [
-    { header: 'Month', key: 'month', width: 10 },
+    { header: 'Month', key: 'month', width: 10, style: { numFmt: XLSX_MONTH_FORMAT } },
     { header: 'Batches', key: 'batches', width: 10 },
     { header: 'Packaged (L)', key: 'liters', width: 14, style: { numFmt: '0.00' } },
     { header: 'US barrels (31 gal)', key: 'bbl', width: 18, style: { numFmt: '0.0000' } },
   ];
   months.getRow(1).font = { bold: true };
-  for (const m of report.months) months.addRow([m.month, m.batches, m.packagedLiters, m.usBarrels]);
+  for (const m of report.months) months.addRow([xlsxDate(m.month), m.batches, m.packagedLiters, m.usBarrels]);
   const monthly = wb.addWorksheet('Monthly report', { views: [{ state: 'frozen', ySplit: 1, xSplit: 1 }] });
-  monthly.columns = monthlyColumns.map((header, i) => ({ header, key: `c${i}`, width: i === 0 ? 10 : Math.max(12, header.length + 2), style: i === 0 ? {} : { numFmt: header.includes('bbl') ? '0.0000' : '0.00' } }));
+  monthly.columns = monthlyColumns.map((header, i) => ({ header, key: `c${i}`, width: i === 0 ? 10 : Math.max(12, header.length + 2), style: i === 0 ? { numFmt: XLSX_MONTH_FORMAT } : { numFmt: header.includes('bbl') ? '0.0000' : '0.00' } }));
   monthly.getRow(1).font = { bold: true };
-  for (const m of report.monthly) monthly.addRow(monthlyValues(m).map(xlsxCell));
+  for (const m of report.monthly) monthly.addRow([xlsxDate(m.month), ...monthlyValues(m).slice(1).map(xlsxCell)]);
   monthly.addRow([]);
   monthly.addRow(['Note', xlsxCell(report.note)]);
   return Buffer.from(await wb.xlsx.writeBuffer());

@@ -3,7 +3,7 @@ import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { Router } from 'express';
 import type { Deps } from '../../lib/deps.ts';
-import { csvCell, xlsxCell } from '../../lib/export-cells.ts';
+import { csvCell, XLSX_DATE_TIME_FORMAT, xlsxCell } from '../../lib/export-cells.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 
 /** The template's columns: what the importer proposes a mapping for without being told. */
@@ -42,7 +42,7 @@ export function readingsRoutes(_deps: Deps): Router {
     wb.creator = 'Cellarwright';
     const ws = wb.addWorksheet('Readings', { views: [{ state: 'frozen', ySplit: 1 }] });
     ws.columns = [
-      { header: templateHeaders[0], key: 'takenAt', width: 20, style: { numFmt: 'yyyy-mm-dd hh:mm' } },
+      { header: templateHeaders[0], key: 'takenAt', width: 20, style: { numFmt: XLSX_DATE_TIME_FORMAT } },
       { header: templateHeaders[1], key: 'gravity', width: 10 },
       { header: templateHeaders[2], key: 'unit', width: 8 },
       { header: templateHeaders[3], key: 'temperature', width: 16 },

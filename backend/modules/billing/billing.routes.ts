@@ -434,7 +434,7 @@ export function creditNotesRoutes({ db, clock }: Deps): Router {
       note,
       invoice,
       profile: await getBillingProfile(db),
-      refund: payback ? { amountCents: -payback.amountCents, method: payback.method === 'cash' ? 'cash' : 'bank transfer', on: payback.receivedOn } : null,
+      refund: payback ? { amountCents: -payback.amountCents, method: payback.method === 'cash' ? 'cash' : 'bank_transfer', on: payback.receivedOn } : null,
     });
     res.type('application/pdf').set('Content-Disposition', `inline; filename="credit-note-${row.number}.pdf"`).set('Cache-Control', 'private, no-store').send(pdf);
   });

@@ -3,12 +3,13 @@ import Papa from 'papaparse';
 import { centsToDecimal } from '../../../shared/billing/money.ts';
 import { paymentMethodLabels } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
-import { neutralise } from '../../lib/export-cells.ts';
+import { neutralise, XLSX_DATE_FORMAT, xlsxDate, xlsxMoneyFormat } from '../../lib/export-cells.ts';
 
 type Cell = string | number | null;
 interface Sheet {
   name: string;
-  columns: { header: string; key: string; money?: boolean }[];
+  /** `money`: cents, written as an amount in the row's `currency`; `date`: a day 'YYYY-MM-DD'. */
+  columns: { header: string; key: string; money?: boolean; date?: boolean }[];
   rows: Record<string, Cell>[];
 }
 
@@ -75,16 +76,16 @@ export async function periodLedger(db: Database, period: string): Promise<Sheet[
       columns: [
         { header: 'Invoice', key: 'invoice' },
         { header: 'Status', key: 'status' },
-        { header: 'Invoice date', key: 'issuedOn' },
-        { header: 'Due date', key: 'dueOn' },
+        { header: 'Invoice date', key: 'issuedOn', date: true },
+        { header: 'Due date', key: 'dueOn', date: true },
         { header: 'Member', key: 'member' },
         { header: 'E-mail', key: 'email' },
         { header: 'Line', key: 'line' },
         { header: 'Description', key: 'description' },
         { header: 'Source', key: 'source' },
         { header: 'Source record', key: 'sourceRecord' },
-        { header: 'From', key: 'from' },
-        { header: 'To', key: 'to' },
+        { header: 'From', key: 'from', date: true },
+        { header: 'To', key: 'to', date: true },
         { header: 'Quantity', key: 'quantity' },
         { header: 'Unit', key: 'unit' },
         { header: 'Unit price', key: 'unitPrice', money: true },
@@ -121,7 +122,7 @@ export async function periodLedger(db: Database, period: string): Promise<Sheet[
       name: 'Credit notes',
       columns: [
         { header: 'Credit note', key: 'number' },
-        { header: 'Date', key: 'issuedOn' },
+        { header: 'Date', key: 'issuedOn', date: true },
         { header: 'Invoice', key: 'invoice' },
         { header: 'Member', key: 'member' },
         { header: 'Kind', key: 'kind' },
@@ -147,7 +148,7 @@ export async function periodLedger(db: Database, period: string): Promise<Sheet[
     {
       name: 'Payments',
       columns: [
-        { header: 'Received', key: 'receivedOn' },
+        { header: 'Received', key: 'receivedOn', date: true },
         { header: 'Invoice', key: 'invoice' },
         { header: 'Member', key: 'member' },
         { header: 'Method', key: 'method' },
@@ -202,15 +203,24 @@ export async function ledgerXlsx(sheets: Sheet[], title: string): Promise<Buffer
   wb.title = title;
   for (const s of sheets) {
     const ws = wb.addWorksheet(s.name, { views: [{ state: 'frozen', ySplit: 1 }] });
-    ws.columns = s.columns.map((c) => ({ header: c.header, key: c.key, width: Math.max(10, c.header.length + 2), ...(c.money ? { style: { numFmt: '#,##0.00' } } : {}) }));
+    ws.columns = s.columns.map((c) => ({
+      header: c.header,
+      key: c.key,
+      width: Math.max(c.date || c.money ? 12 : 10, c.header.length + 2),
+      ...(c.date ? { style: { numFmt: XLSX_DATE_FORMAT } } : c.money ? { style: { numFmt: '#,##0.00' } } : {}),
+    }));
     ws.getRow(1).font = { bold: true };
     for (const row of s.rows) {
-      const values: Record<string, string | number | null> = {};
+      const values: Record<string, string | number | Date | null> = {};
       for (const c of s.columns) {
         const v = row[c.key] ?? null;
-        values[c.key] = typeof v === 'number' ? (c.money ? v / 100 : v) : v === null ? null : neutralise(v);
+        if (c.date) values[c.key] = xlsxDate(typeof v === 'string' ? v : null);
+        else values[c.key] = typeof v === 'number' ? (c.money ? v / 100 : v) : v === null ? null : neutralise(v);
       }
-      ws.addRow(values);
+      const added = ws.addRow(values);
+      // Amounts are numbers shown in their own currency, row by row.
+      const currency = typeof row.currency === 'string' ? row.currency : null;
+      for (const c of s.columns) if (c.money && currency) added.getCell(c.key).numFmt = xlsxMoneyFormat(currency);
     }
   }
   return Buffer.from(await wb.xlsx.writeBuffer());

@@ -211,8 +211,8 @@ export interface CreditNotePdfInput {
   note: CreditNote;
   invoice: InvoiceDetail;
   profile: BillingProfile;
-  /** Money paid back with this credit note, if any. */
-  refund: { amountCents: number; method: string; on: string } | null;
+  /** Money recorded as paid back with this credit note, if any; without it the note is a credit only. */
+  refund: { amountCents: number; method: 'bank_transfer' | 'cash'; on: string } | null;
 }
 
 export function creditNoteDocument({ note, invoice, profile, refund }: CreditNotePdfInput): TDocumentDefinitions {
@@ -233,7 +233,7 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
     ]),
   ];
   const settled = refund
-    ? `${money(refund.amountCents, c)} was paid back by ${refund.method} on ${longDate(refund.on)}.`
+    ? `${money(refund.amountCents, c)} was paid back ${refund.method === 'cash' ? 'in cash' : 'by bank transfer'} on ${longDate(refund.on)}.`
     : `The credit reduces what is owed on invoice ${invoice.number}; anything already paid beyond that stays as credit on your account.`;
   return {
     info: { title: `Credit note ${note.number} — ${profile.coopName}`, author: profile.coopName },
@@ -262,7 +262,7 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
             width: 'auto',
             stack: [
               { text: 'Credit note', fontSize: 22, alignment: 'right' },
-              { text: note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : 'Refund or credit', fontSize: 9, alignment: 'right', color: copper },
+              { text: note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : refund ? 'Credit and refund' : 'Credit', fontSize: 9, alignment: 'right', color: copper },
             ],
           },
         ],

@@ -15,7 +15,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
-import { Input, Select } from '@/components/ui/input';
+import { Input, Radio, Select } from '@/components/ui/input';
 import {
   paymentInputSchema,
   refundInputSchema,
@@ -109,14 +109,16 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const creditable = invoice.totalCents - invoice.creditedCents;
   const { register, handleSubmit, setError, watch, formState: { errors } } = useForm<RefundInput>({
     resolver: zodResolver(refundInputSchema),
-    defaultValues: { reason: '', refundMethod: invoice.paidCents > 0 ? 'bank_transfer' : null },
+    defaultValues: { reason: '', refundMethod: null },
   });
+  // Nothing is recorded as paid back unless the treasurer says it was, and how.
+  const [paidBack, setPaidBack] = useState<'no' | (typeof manualPaymentMethods)[number]>('no');
   const amount = watch('amountCents');
   const rate = invoiceRate(invoice);
   const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
   const submit = handleSubmit((values) => {
     setFormError(null);
-    refund.mutate(values, {
+    refund.mutate({ ...values, refundMethod: paidBack === 'no' ? null : paidBack }, {
       onSuccess: onClose,
       onError: (e) => {
         const rest = applyProblemToForm(e, setError, ['amountCents', 'reason', 'refundMethod']);
@@ -138,18 +140,33 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       <Field label="Reason" hint="Shown on the credit note." error={errors.reason?.message}>
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" {...register('reason')} />}
       </Field>
-      <Field label="Pay the money back" hint={`${money(invoice.paidCents, invoice.currency)} has been paid on this invoice.`} error={errors.refundMethod?.message}>
-        {({ invalid, ...c }) => (
-          <Select {...c} invalid={invalid} {...register('refundMethod', { setValueAs: (v: string | null) => (v ? v : null) })}>
-            <option value="">No — reduce what is owed (or keep it as credit)</option>
-            {manualPaymentMethods.map((m) => (
-              <option key={m} value={m}>
-                Yes, by {paymentMethodLabels[m].toLowerCase()}
-              </option>
-            ))}
-          </Select>
-        )}
-      </Field>
+      {invoice.paidCents > 0 ? (
+        <fieldset className="flex flex-col gap-1">
+          <legend className="mb-1 text-sm font-medium">Was money paid back to the member?</legend>
+          <p className="mb-1 text-xs text-ink-muted">{money(invoice.paidCents, invoice.currency)} has been paid on this invoice. Record a refund only once the money has gone back.</p>
+          <Radio
+            name="paidBack"
+            value="no"
+            label="No, a credit only"
+            description="It reduces what is owed; anything paid beyond that stays as credit on the member’s account."
+            checked={paidBack === 'no'}
+            onChange={() => setPaidBack('no')}
+          />
+          {manualPaymentMethods.map((m) => (
+            <Radio
+              key={m}
+              name="paidBack"
+              value={m}
+              label={m === 'cash' ? 'Yes, paid back in cash today' : `Yes, paid back by ${paymentMethodLabels[m].toLowerCase()} today`}
+              checked={paidBack === m}
+              onChange={() => setPaidBack(m)}
+            />
+          ))}
+          {errors.refundMethod?.message ? <p className="text-sm text-danger">{errors.refundMethod.message}</p> : null}
+        </fieldset>
+      ) : (
+        <p className="text-sm text-ink-muted">Nothing has been paid on this invoice, so the credit reduces what is owed.</p>
+      )}
       <DialogActions>
         <Button variant="secondary" onClick={onClose} disabled={refund.isPending}>
           Cancel
