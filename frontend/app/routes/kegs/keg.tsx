@@ -5,7 +5,7 @@ import type { KegView } from '../../../../shared/schemas/kegs.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
-import { Dialog } from '@/components/ui/dialog';
+import { ConfirmDialog, Dialog } from '@/components/ui/dialog';
 import { PageLoader, Spinner } from '@/components/ui/spinner';
 import { useKeg, useKegAction, useKegHistory, useMemberOptions, useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { usePlanAction } from '@/features/cellar-ops/api/carbonation';
@@ -21,7 +21,9 @@ import { problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
 import { formatDate, formatDateTime } from '@/utils/format';
 
-type Open = null | 'check-out' | 'move' | 'level';
+type Open = null | 'check-out' | 'move' | 'level' | Ending;
+/** The actions that end what the keg holds: each confirms what it will change first. */
+type Ending = 'return' | 'empty' | 'dump';
 
 const inDays = (d: number) => {
   const t = new Date(Date.now() + d * 86_400_000);
@@ -159,6 +161,61 @@ const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) =>
   );
 };
 
+const endingVerbs: Record<Ending, { title: (code: string) => string; confirm: string }> = {
+  return: { title: (code) => `Record ${code} as returned?`, confirm: 'Record it returned' },
+  empty: { title: (code) => `Record ${code} as emptied?`, confirm: 'Record it emptied' },
+  dump: { title: (code) => `Record the beer in ${code} as dumped (poured away)?`, confirm: 'Record it dumped' },
+};
+
+/** Says what returning, emptying or dumping a keg will change before anything is recorded. */
+const EndingDialog = ({ keg, ending, onClose }: { keg: KegView; ending: Ending; onClose: () => void }) => {
+  const units = useUnits();
+  const act = useKegAction(keg.id);
+  const [error, setError] = useState<string | null>(null);
+  const c = keg.carbonation;
+  const verbs = endingVerbs[ending];
+  return (
+    <ConfirmDialog
+      open
+      title={verbs.title(keg.code)}
+      confirmLabel={verbs.confirm}
+      pending={act.isPending}
+      error={error}
+      onClose={onClose}
+      onConfirm={async () => {
+        setError(null);
+        try {
+          await act.mutateAsync(ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} });
+          onClose();
+        } catch (err) {
+          setError(problemMessage(err));
+        }
+      }}
+    >
+      <ul className="flex list-disc flex-col gap-1 pl-5" aria-label="What this changes">
+        {ending === 'return' ? <li>{keg.code} comes back{keg.member ? ` from ${keg.member.name}` : ''} to the cellar.</li> : null}
+        {keg.contents ? (
+          <li>
+            {units.volume(keg.contents.remainingLiters)} of {keg.contents.batchName} recorded in it {ending === 'dump' ? 'are written off as dumped (a loss)' : 'are written off'}; the keg then holds nothing.
+          </li>
+        ) : (
+          <li>It holds no beer on record.</li>
+        )}
+        {c ? (
+          <li>
+            The carbonation plan ({c.method === 'fast_start' ? 'fast start' : 'set and hold'} to {c.targetVolumes.toFixed(1)} volumes) closes.
+          </li>
+        ) : (
+          <li>No carbonation plan is open.</li>
+        )}
+        {ending !== 'return' && keg.tap ? <li>It comes off tap {keg.tap.code}, whose line then needs cleaning.</li> : null}
+        {keg.state !== 'out_of_service' ? <li>{keg.code} needs cleaning before it is filled again.</li> : null}
+      </ul>
+      <p className="mt-2 font-medium">This cannot be undone from this screen.</p>
+    </ConfirmDialog>
+  );
+};
+
 /** A keg's page: what it holds, where it is, its carbonation, and its whole history. */
 const KegRoute = () => {
   const { kegId = '' } = useParams();
@@ -167,7 +224,6 @@ const KegRoute = () => {
   const units = useUnits();
   const [open, setOpen] = useState<Open>(null);
   const [page, setPage] = useState(1);
-  const act = useKegAction(kegId);
   const plan = usePlanAction();
   const [error, setError] = useState<string | null>(null);
   const memberId = keg.data?.keg.member?.id ?? '';
@@ -223,8 +279,8 @@ const KegRoute = () => {
           {canMove ? (
             <div className="flex flex-wrap gap-2">
               {k.whereabouts === 'with_member' ? (
-                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} onClick={() => run(() => act.mutateAsync({ action: 'return', body: {} }))}>
-                  Returned
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('return')}>
+                  Returned…
                 </Button>
               ) : k.state !== 'out_of_service' && k.whereabouts !== 'missing' ? (
                 <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('check-out')}>
@@ -282,18 +338,13 @@ const KegRoute = () => {
                     Note the level
                   </Button>
                   {ability.can('update', 'Equipment') ? (
-                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} onClick={() => run(() => act.mutateAsync({ action: 'empty', body: {} }))}>
-                      Emptied
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('empty')}>
+                      Emptied…
                     </Button>
                   ) : null}
                   {ability.can('update', 'Equipment') ? (
-                    <Button
-                      variant="secondary"
-                      className="min-h-12 md:min-h-12 pointer-coarse:min-h-12"
-                      pending={act.isPending}
-                      onClick={() => window.confirm(`Record the beer in ${k.code} as dumped (poured away)?`) && run(() => act.mutateAsync({ action: 'empty', body: { dumped: true } }))}
-                    >
-                      Dumped
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('dump')}>
+                      Dumped…
                     </Button>
                   ) : null}
                 </div>
@@ -385,6 +436,7 @@ const KegRoute = () => {
       {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
+      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} /> : null}
     </div>
   );
 };
