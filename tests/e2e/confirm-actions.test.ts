@@ -112,6 +112,7 @@ describe('a keg is returned, emptied or dumped only after saying what that chang
     await page.getByRole('button', { name: /^Returned/ }).click();
     await dialog.getByRole('button', { name: 'Record it returned' }).click();
     await dialog.waitFor({ state: 'hidden' });
+    await page.getByRole('status').getByText(`${returned.code} recorded as returned; clean it before it is filled again.`).waitFor();
     await page.getByText('Empty.').waitFor();
     const after = await kegNow(returned.id);
     expect(after).toMatchObject({ whereabouts: 'cellar', state: 'needs_cleaning', contents: null, carbonation: null });
@@ -138,6 +139,7 @@ describe('a keg is returned, emptied or dumped only after saying what that chang
     await page.getByRole('button', { name: /^Emptied/ }).click();
     await dialog.getByRole('button', { name: 'Record it emptied' }).click();
     await dialog.waitFor({ state: 'hidden' });
+    await page.getByRole('status').getByText(`${emptied.code} recorded as emptied`).waitFor();
     expect(await kegNow(emptied.id)).toMatchObject({ state: 'needs_cleaning', tap: null, contents: null });
     await context.close();
   });

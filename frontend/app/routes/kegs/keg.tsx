@@ -161,14 +161,14 @@ const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) =>
   );
 };
 
-const endingVerbs: Record<Ending, { title: (code: string) => string; confirm: string }> = {
-  return: { title: (code) => `Record ${code} as returned?`, confirm: 'Record it returned' },
-  empty: { title: (code) => `Record ${code} as emptied?`, confirm: 'Record it emptied' },
-  dump: { title: (code) => `Record the beer in ${code} as dumped (poured away)?`, confirm: 'Record it dumped' },
+const endingVerbs: Record<Ending, { title: (code: string) => string; confirm: string; done: (code: string) => string }> = {
+  return: { title: (code) => `Record ${code} as returned?`, confirm: 'Record it returned', done: (code) => `${code} recorded as returned; clean it before it is filled again.` },
+  empty: { title: (code) => `Record ${code} as emptied?`, confirm: 'Record it emptied', done: (code) => `${code} recorded as emptied; clean it before it is filled again.` },
+  dump: { title: (code) => `Record the beer in ${code} as dumped (poured away)?`, confirm: 'Record it dumped', done: (code) => `The beer in ${code} recorded as dumped; clean the keg before it is filled again.` },
 };
 
 /** Says what returning, emptying or dumping a keg will change before anything is recorded. */
-const EndingDialog = ({ keg, ending, onClose }: { keg: KegView; ending: Ending; onClose: () => void }) => {
+const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: Ending; onClose: () => void; onDone: (message: string) => void }) => {
   const units = useUnits();
   const act = useKegAction(keg.id);
   const [error, setError] = useState<string | null>(null);
@@ -186,6 +186,7 @@ const EndingDialog = ({ keg, ending, onClose }: { keg: KegView; ending: Ending; 
         setError(null);
         try {
           await act.mutateAsync(ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} });
+          onDone(verbs.done(keg.code));
           onClose();
         } catch (err) {
           setError(problemMessage(err));
@@ -226,6 +227,12 @@ const KegRoute = () => {
   const [page, setPage] = useState(1);
   const plan = usePlanAction();
   const [error, setError] = useState<string | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+  // A new action makes the last one's message stale.
+  const openDialog = (o: Open) => {
+    setNotice(null);
+    setOpen(o);
+  };
   const memberId = keg.data?.keg.member?.id ?? '';
   const canHistory = ability.can('readOwner', subject('Keg', { memberId }));
   const history = useKegHistory(kegId, page, Boolean(keg.data) && canHistory);
@@ -266,6 +273,7 @@ const KegRoute = () => {
         </Link>
       </header>
       {error ? <Alert tone="error">{error}</Alert> : null}
+      {notice ? <Alert tone="success">{notice}</Alert> : null}
 
       <div className="grid gap-4 lg:grid-cols-2">
         <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="where-title">
@@ -279,16 +287,16 @@ const KegRoute = () => {
           {canMove ? (
             <div className="flex flex-wrap gap-2">
               {k.whereabouts === 'with_member' ? (
-                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('return')}>
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('return')}>
                   Returned…
                 </Button>
               ) : k.state !== 'out_of_service' && k.whereabouts !== 'missing' ? (
-                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('check-out')}>
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('check-out')}>
                   Check out to a member
                 </Button>
               ) : null}
               {k.whereabouts !== 'with_member' ? (
-                <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('move')}>
+                <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('move')}>
                   {k.whereabouts === 'missing' ? 'Found it' : 'Move'}
                 </Button>
               ) : null}
@@ -334,16 +342,16 @@ const KegRoute = () => {
               </dl>
               {canMove ? (
                 <div className="flex flex-wrap gap-2">
-                  <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('level')}>
+                  <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('level')}>
                     Note the level
                   </Button>
                   {ability.can('update', 'Equipment') ? (
-                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('empty')}>
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('empty')}>
                       Emptied…
                     </Button>
                   ) : null}
                   {ability.can('update', 'Equipment') ? (
-                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('dump')}>
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('dump')}>
                       Dumped…
                     </Button>
                   ) : null}
@@ -436,7 +444,7 @@ const KegRoute = () => {
       {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
-      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} /> : null}
+      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={setNotice} /> : null}
     </div>
   );
 };
