@@ -218,4 +218,30 @@ describe('an invoice run issues nothing until the treasurer confirms the count a
     expect(await invoicesOfPeriod()).toBe(toBill.length);
     await context.close();
   });
+
+  it('made as drafts first, the run’s drafts are issued only after the same confirmation', async () => {
+    const period = nextPeriod(made.period, -1);
+    const count = async (status: 'draft' | 'issued') => (await treasurer.get(`/api/invoices?period=${period}&status=${status}`)).body.total as number;
+    expect(await count('draft')).toBe(0);
+
+    const { page, context } = await signedInPage(browser, server.url, 'treasurer@example.org', { viewport: desktop, context: { locale: 'en-GB' } });
+    await page.goto(`/billing/run?period=${period}`);
+    await page.getByRole('button', { name: 'Make drafts to review first' }).click();
+    await page.getByText(/invoices? made as drafts/).waitFor();
+    const drafts = await count('draft');
+    expect(drafts).toBeGreaterThan(0);
+
+    await page.getByRole('button', { name: 'Issue all drafts…' }).click();
+    const dialog = page.getByRole('dialog', { name: `Issue the ${drafts} invoice${drafts === 1 ? '' : 's'} of this run?` });
+    await dialog.getByText('cannot be taken back', { exact: false }).waitFor();
+    await dialog.getByRole('button', { name: 'Cancel' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+    expect([await count('draft'), await count('issued')]).toEqual([drafts, 0]);
+
+    await page.getByRole('button', { name: 'Issue all drafts…' }).click();
+    await dialog.getByRole('button', { name: /^Issue \d+ invoices?$/ }).click();
+    await page.getByText(/invoices? issued/).waitFor();
+    expect([await count('draft'), await count('issued')]).toEqual([0, drafts]);
+    await context.close();
+  });
 });
