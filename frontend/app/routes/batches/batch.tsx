@@ -141,8 +141,8 @@ const BatchRoute = () => {
         open={closing !== null}
         onClose={() => setClosing(null)}
         busy={update.isPending}
-        title={closing === 'packaged' ? 'Mark the batch packaged' : 'Discard the batch'}
-        description={closing === 'packaged' ? 'The packaged volume goes into the production records.' : 'A discarded batch takes no more readings and stays out of the production records.'}
+        title={closing === 'packaged' ? 'Mark the batch packaged' : `Discard ${batch.name}?`}
+        description={closing === 'packaged' ? 'The packaged volume goes into the production records.' : "A discarded batch takes no more readings, and what is left of it counts as dumped in the production records. This cannot be undone."}
       >
         <form
           className="flex flex-col gap-4"

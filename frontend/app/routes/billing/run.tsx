@@ -5,6 +5,7 @@ import type { InvoiceRun, InvoiceSummary } from '../../../../shared/schemas/bill
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
+import { ConfirmDialog } from '@/components/ui/dialog';
 import { Input } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
 import { invoiceHref, paths } from '@/config/paths';
@@ -36,6 +37,8 @@ const RunRoute = () => {
   const [addOpen, setAddOpen] = useState(false);
   const [expanded, setExpanded] = useState<string | null>(null);
   const [sentNote, setSentNote] = useState<string | null>(null);
+  /** Issuing cannot be taken back: the run, or the run's drafts, waits for a second yes. */
+  const [confirming, setConfirming] = useState<'run' | 'drafts' | null>(null);
   useEffect(() => setResult(null), [period]);
 
   if (!canOnEvery(ability, 'read', 'Invoice')) return <Navigate to={paths.myInvoices} replace />;
@@ -48,8 +51,10 @@ const RunRoute = () => {
   const doRun = (issue: boolean) => {
     if (!period) return;
     setSentNote(null);
-    run.mutate({ period, issue }, { onSuccess: (r) => setResult(r) });
+    run.mutate({ period, issue }, { onSuccess: (r) => { setResult(r); setConfirming(null); } });
   };
+  const members = (n: number) => `${n} member${n === 1 ? '' : 's'}`;
+  const invoices = (n: number) => `${n} invoice${n === 1 ? '' : 's'}`;
 
   return (
     <div className="flex flex-col gap-5">
@@ -141,14 +146,28 @@ const RunRoute = () => {
           )}
           {already.length ? <p className="text-sm text-ink-muted">{already.length} member{already.length === 1 ? ' has' : 's have'} an invoice for this period already; a run never bills them twice.</p> : null}
           <div className="flex flex-wrap gap-2">
-            <Button onClick={() => doRun(true)} pending={run.isPending && run.variables?.issue !== false} disabled={!p.canRun || toBill.length === 0 || run.isPending}>
-              Run and issue {toBill.length} invoice{toBill.length === 1 ? '' : 's'}
+            <Button onClick={() => setConfirming('run')} pending={run.isPending && run.variables?.issue !== false} disabled={!p.canRun || toBill.length === 0 || run.isPending}>
+              Run and issue {toBill.length} invoice{toBill.length === 1 ? '' : 's'}…
             </Button>
             <Button variant="secondary" onClick={() => doRun(false)} pending={run.isPending && run.variables?.issue === false} disabled={!p.canRun || toBill.length === 0 || run.isPending}>
               Make drafts to review first
             </Button>
           </div>
-          {run.isError ? <Alert tone="error">{problemMessage(run.error)}</Alert> : null}
+          {run.isError && !confirming ? <Alert tone="error">{problemMessage(run.error)}</Alert> : null}
+          <ConfirmDialog
+            open={confirming === 'run'}
+            title={`Issue ${invoices(toBill.length)} for ${periodLabel(p.period)}?`}
+            confirmLabel={`Issue ${invoices(toBill.length)}`}
+            pending={run.isPending}
+            error={run.isError ? problemMessage(run.error) : null}
+            onClose={() => setConfirming(null)}
+            onConfirm={() => doRun(true)}
+          >
+            <p>
+              {invoices(toBill.length)} to {members(new Set(toBill.map((i) => i.memberId)).size)}, <Money cents={toBill.reduce((sum, i) => sum + i.totalCents, 0)} currency={currency} /> in all.
+            </p>
+            <p className="mt-2">Issued invoices get their numbers and cannot be taken back: a mistake then needs a credit note. Make drafts first to review them.</p>
+          </ConfirmDialog>
         </section>
       ) : null}
 
@@ -168,12 +187,28 @@ const RunRoute = () => {
                 E-mail them to the members
               </Button>
             ) : (
-              <Button size="sm" pending={issueDrafts.isPending} onClick={() => issueDrafts.mutate(result.run.id, { onSuccess: () => setResult({ ...result, run: { ...result.run, issued: true } }) })}>
-                Issue all drafts
+              <Button size="sm" pending={issueDrafts.isPending} onClick={() => setConfirming('drafts')}>
+                Issue all drafts…
               </Button>
             )}
           </div>
           {sentNote ? <p className="mt-1">{sentNote}</p> : null}
+          <ConfirmDialog
+            open={confirming === 'drafts'}
+            title={`Issue the ${invoices(result.invoices.length)} of this run?`}
+            confirmLabel={`Issue ${invoices(result.invoices.length)}`}
+            pending={issueDrafts.isPending}
+            error={issueDrafts.isError ? problemMessage(issueDrafts.error) : null}
+            onClose={() => setConfirming(null)}
+            onConfirm={() =>
+              issueDrafts.mutate(result.run.id, { onSuccess: () => { setResult({ ...result, run: { ...result.run, issued: true } }); setConfirming(null); } })
+            }
+          >
+            <p>
+              {invoices(result.invoices.length)} to {members(new Set(result.invoices.map((i) => i.memberId)).size)}, <Money cents={result.run.totalCents} currency={currency} /> in all.
+            </p>
+            <p className="mt-2">Issued invoices get their numbers and cannot be taken back: a mistake then needs a credit note.</p>
+          </ConfirmDialog>
         </Alert>
       ) : null}
 

@@ -5,7 +5,7 @@ import type { KegView } from '../../../../shared/schemas/kegs.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
-import { Dialog } from '@/components/ui/dialog';
+import { ConfirmDialog, Dialog } from '@/components/ui/dialog';
 import { PageLoader, Spinner } from '@/components/ui/spinner';
 import { useKeg, useKegAction, useKegHistory, useMemberOptions, useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { usePlanAction } from '@/features/cellar-ops/api/carbonation';
@@ -21,7 +21,9 @@ import { problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
 import { formatDate, formatDateTime } from '@/utils/format';
 
-type Open = null | 'check-out' | 'move' | 'level';
+type Open = null | 'check-out' | 'move' | 'level' | Ending;
+/** The actions that end what the keg holds: each confirms what it will change first. */
+type Ending = 'return' | 'empty' | 'dump';
 
 const inDays = (d: number) => {
   const t = new Date(Date.now() + d * 86_400_000);
@@ -159,6 +161,62 @@ const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) =>
   );
 };
 
+const endingVerbs: Record<Ending, { title: (code: string) => string; confirm: string; done: (code: string) => string }> = {
+  return: { title: (code) => `Record ${code} as returned?`, confirm: 'Record it returned', done: (code) => `${code} recorded as returned; clean it before it is filled again.` },
+  empty: { title: (code) => `Record ${code} as emptied?`, confirm: 'Record it emptied', done: (code) => `${code} recorded as emptied; clean it before it is filled again.` },
+  dump: { title: (code) => `Record the beer in ${code} as dumped (poured away)?`, confirm: 'Record it dumped', done: (code) => `The beer in ${code} recorded as dumped; clean the keg before it is filled again.` },
+};
+
+/** Says what returning, emptying or dumping a keg will change before anything is recorded. */
+const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: Ending; onClose: () => void; onDone: (message: string) => void }) => {
+  const units = useUnits();
+  const act = useKegAction(keg.id);
+  const [error, setError] = useState<string | null>(null);
+  const c = keg.carbonation;
+  const verbs = endingVerbs[ending];
+  return (
+    <ConfirmDialog
+      open
+      title={verbs.title(keg.code)}
+      confirmLabel={verbs.confirm}
+      pending={act.isPending}
+      error={error}
+      onClose={onClose}
+      onConfirm={async () => {
+        setError(null);
+        try {
+          await act.mutateAsync(ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} });
+          onDone(verbs.done(keg.code));
+          onClose();
+        } catch (err) {
+          setError(problemMessage(err));
+        }
+      }}
+    >
+      <ul className="flex list-disc flex-col gap-1 pl-5" aria-label="What this changes">
+        {ending === 'return' ? <li>{keg.code} comes back{keg.member ? ` from ${keg.member.name}` : ''} to the cellar.</li> : null}
+        {keg.contents ? (
+          <li>
+            {units.volume(keg.contents.remainingLiters)} of {keg.contents.batchName} recorded in it {ending === 'dump' ? 'are written off as dumped (a loss)' : 'are written off'}; the keg then holds nothing.
+          </li>
+        ) : (
+          <li>It holds no beer on record.</li>
+        )}
+        {c ? (
+          <li>
+            The carbonation plan ({c.method === 'fast_start' ? 'fast start' : 'set and hold'} to {c.targetVolumes.toFixed(1)} volumes) closes.
+          </li>
+        ) : (
+          <li>No carbonation plan is open.</li>
+        )}
+        {ending !== 'return' && keg.tap ? <li>It comes off tap {keg.tap.code}, whose line then needs cleaning.</li> : null}
+        {keg.state !== 'out_of_service' ? <li>{keg.code} needs cleaning before it is filled again.</li> : null}
+      </ul>
+      <p className="mt-2 font-medium">This cannot be undone from this screen.</p>
+    </ConfirmDialog>
+  );
+};
+
 /** A keg's page: what it holds, where it is, its carbonation, and its whole history. */
 const KegRoute = () => {
   const { kegId = '' } = useParams();
@@ -167,9 +225,14 @@ const KegRoute = () => {
   const units = useUnits();
   const [open, setOpen] = useState<Open>(null);
   const [page, setPage] = useState(1);
-  const act = useKegAction(kegId);
   const plan = usePlanAction();
   const [error, setError] = useState<string | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+  // A new action makes the last one's message stale.
+  const openDialog = (o: Open) => {
+    setNotice(null);
+    setOpen(o);
+  };
   const memberId = keg.data?.keg.member?.id ?? '';
   const canHistory = ability.can('readOwner', subject('Keg', { memberId }));
   const history = useKegHistory(kegId, page, Boolean(keg.data) && canHistory);
@@ -210,6 +273,7 @@ const KegRoute = () => {
         </Link>
       </header>
       {error ? <Alert tone="error">{error}</Alert> : null}
+      {notice ? <Alert tone="success">{notice}</Alert> : null}
 
       <div className="grid gap-4 lg:grid-cols-2">
         <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="where-title">
@@ -223,16 +287,16 @@ const KegRoute = () => {
           {canMove ? (
             <div className="flex flex-wrap gap-2">
               {k.whereabouts === 'with_member' ? (
-                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} onClick={() => run(() => act.mutateAsync({ action: 'return', body: {} }))}>
-                  Returned
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('return')}>
+                  Returned…
                 </Button>
               ) : k.state !== 'out_of_service' && k.whereabouts !== 'missing' ? (
-                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('check-out')}>
+                <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('check-out')}>
                   Check out to a member
                 </Button>
               ) : null}
               {k.whereabouts !== 'with_member' ? (
-                <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('move')}>
+                <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('move')}>
                   {k.whereabouts === 'missing' ? 'Found it' : 'Move'}
                 </Button>
               ) : null}
@@ -278,22 +342,17 @@ const KegRoute = () => {
               </dl>
               {canMove ? (
                 <div className="flex flex-wrap gap-2">
-                  <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => setOpen('level')}>
+                  <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('level')}>
                     Note the level
                   </Button>
                   {ability.can('update', 'Equipment') ? (
-                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} onClick={() => run(() => act.mutateAsync({ action: 'empty', body: {} }))}>
-                      Emptied
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('empty')}>
+                      Emptied…
                     </Button>
                   ) : null}
                   {ability.can('update', 'Equipment') ? (
-                    <Button
-                      variant="secondary"
-                      className="min-h-12 md:min-h-12 pointer-coarse:min-h-12"
-                      pending={act.isPending}
-                      onClick={() => window.confirm(`Record the beer in ${k.code} as dumped (poured away)?`) && run(() => act.mutateAsync({ action: 'empty', body: { dumped: true } }))}
-                    >
-                      Dumped
+                    <Button variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" onClick={() => openDialog('dump')}>
+                      Dumped…
                     </Button>
                   ) : null}
                 </div>
@@ -385,6 +444,7 @@ const KegRoute = () => {
       {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
+      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={setNotice} /> : null}
     </div>
   );
 };
