@@ -128,7 +128,7 @@ describe('paying an invoice online', () => {
   });
 });
 
-describe('the treasurer’s billing screens', () => {
+describe('the treasurer’s billing screens', { timeout: 120_000 }, () => {
   it('shows the overview with ageing, the invoice list, an invoice with its sources, the run preview and the price list', async () => {
     const { page, context } = await signIn('treasurer@example.org');
     await page.getByRole('link', { name: 'Billing', exact: true }).click();
