@@ -23,14 +23,18 @@ const Stat = ({ label, children, hint, tone }: { label: string; children: ReactN
   </div>
 );
 
-/** The treasurer's home: what is unpaid, how old it is, and the last run. */
+/** The treasurer's home: what is unpaid, how old it is, and the last run. Anyone else goes to their own invoices. */
 const BillingOverviewRoute = () => {
   useDocumentTitle('Billing');
   const ability = useAppAbility();
-  const treasurer = canOnEvery(ability, 'read', 'Invoice');
+  // Only whoever may read every invoice asks for the books' totals: a member's visit sends no request the server refuses.
+  if (!canOnEvery(ability, 'read', 'Invoice')) return <Navigate to={paths.myInvoices} replace />;
+  return <TreasurerOverview />;
+};
+
+const TreasurerOverview = () => {
   const summary = useBillingSummary();
   const ageing = useAgeing();
-  if (!treasurer) return <Navigate to={paths.myInvoices} replace />;
   if (summary.isPending || ageing.isPending) return <Spinner className="size-5 text-copper" />;
   if (summary.isError || ageing.isError) return <Alert tone="error">{problemMessage(summary.error ?? ageing.error)}</Alert>;
   const s = summary.data;

@@ -27,7 +27,10 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
   const [page, setPage] = useState(1);
   const [pageSize, setPageSize] = useState(25);
   const [showPast, setShowPast] = useState(false);
-  const from = showPast ? undefined : new Date(Date.now() - 3600_000).toISOString();
+  // "Upcoming" starts an hour before the list was opened, fixed for as long as it stays open: a start
+  // read from the clock at every render would make every render a new query (and each answer a render).
+  const [since] = useState(() => new Date(Math.floor((Date.now() - 3600_000) / 60_000) * 60_000).toISOString());
+  const from = showPast ? undefined : since;
   const list = useBookings({ mine, page, pageSize, sort: 'startsAt', order: showPast ? 'desc' : 'asc', includeCancelled: true, ...(from ? { from } : {}) });
   const [cancelling, setCancelling] = useState<Booking | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
