@@ -59,7 +59,7 @@ afterAll(async () => {
 
 const signIn = (email: string, viewport = desktop) => signedInPage(browser, server.url, email, { viewport, context: { locale: 'en-GB' } });
 
-describe('paying an invoice online', () => {
+describe('paying an invoice online', { timeout: 120_000 }, () => {
   it('a member opens an unpaid invoice, pays on the provider’s page, returns and sees it paid', async () => {
     const member = await ctx.db.selectFrom('app_user').select(['id', 'name']).where('email', '=', made.payer.email).executeTakeFirstOrThrow();
     const unpaid = await ctx.db
@@ -176,7 +176,7 @@ describe('the treasurer’s billing screens', { timeout: 120_000 }, () => {
   });
 });
 
-describe('an invoice paid twice online', () => {
+describe('an invoice paid twice online', { timeout: 120_000 }, () => {
   it('shows the treasurer the overpayment on the overview and on the invoice, until it is marked refunded', async () => {
     // Two provider sessions for the payer's other invoice, both paid (one had been replaced but was paid all the same).
     const invoice = made.payer.invoices[1]!;
