@@ -55,6 +55,9 @@ describe('creating and changing batches', () => {
       abv: null,
       readingsCount: 0,
     });
+    // Created at the app's clock, not the database server's.
+    // (The test clock starts at TEST_NOW, on most days far from the machine's date, and moves on with the test.)
+    expect(Math.abs(Date.parse(res.body.batch.createdAt) - ctx.clock.now().getTime())).toBeLessThan(60_000);
     const audit = await ctx.db.selectFrom('audit_log').select(['action', 'actor_id']).where('subject_type', '=', 'Batch').where('subject_id', '=', res.body.batch.id).execute();
     expect(audit).toEqual([{ action: 'created', actor_id: member.user.id }]);
   });

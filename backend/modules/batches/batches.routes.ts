@@ -67,7 +67,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Batch');
     const input = createBatchSchema.parse(req.body ?? {});
-    const row = await createBatch(db, req.ability, input, req.user!);
+    const row = await createBatch(db, req.ability, input, req.user!, clock.now());
     res.status(201).json({ batch: await batchDetail(db, req.ability, row) });
   });
 

@@ -206,7 +206,7 @@ export async function batchDetail(db: Database, ability: AppAbility, row: BatchR
 }
 
 /** Links a fermenter booking of the batch's owner to the batch (only one batch per booking). */
-async function linkBooking(trx: Database, batchId: string, ownerId: string, bookingId: string) {
+async function linkBooking(trx: Database, batchId: string, ownerId: string, bookingId: string, now: Date) {
   const booking = await trx
     .selectFrom('booking')
     .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
@@ -223,7 +223,7 @@ async function linkBooking(trx: Database, batchId: string, ownerId: string, book
     throw unprocessable('That booking is cancelled.', [{ path: 'bookingId', message: 'Pick a booking that is not cancelled' }]);
   }
   if (booking.batch_id && booking.batch_id !== batchId) throw conflict('That booking already holds another batch.');
-  await trx.updateTable('booking').set({ batch_id: batchId, updated_at: new Date() }).where('id', '=', bookingId).execute();
+  await trx.updateTable('booking').set({ batch_id: batchId, updated_at: now }).where('id', '=', bookingId).execute();
 }
 
 export async function createBatch(
@@ -231,6 +231,7 @@ export async function createBatch(
   ability: AppAbility,
   input: z.infer<typeof createBatchSchema>,
   actor: Actor,
+  now: Date,
 ): Promise<BatchRow> {
   const ownerId = input.ownerId ?? actor.id;
   // Someone else's batch: the admin only (create on the owner's record).
@@ -253,11 +254,13 @@ export async function createBatch(
         allergens: input.allergens,
         shelf_life_days: input.shelfLifeDays ?? null,
         created_by: actor.id,
+        created_at: now,
+        updated_at: now,
       })
       .returning(batchColumns.map((c) => c.replace('batch.', '')) as never)
       .executeTakeFirstOrThrow();
     const batch = row as unknown as BatchRow;
-    if (input.bookingId) await linkBooking(trx, batch.id, ownerId, input.bookingId);
+    if (input.bookingId) await linkBooking(trx, batch.id, ownerId, input.bookingId, now);
     await audit(trx, actor.id, 'created', 'Batch', batch.id, { name: input.name, volumeLiters: input.volumeLiters, bookingId: input.bookingId ?? null });
     return batch;
   });
@@ -309,7 +312,7 @@ export async function updateBatch(
     if (input.bookingId === null) {
       await trx.updateTable('booking').set({ batch_id: null, updated_at: new Date() }).where('batch_id', '=', batch.id).execute();
     } else if (input.bookingId) {
-      await linkBooking(trx, batch.id, batch.owner_id, input.bookingId);
+      await linkBooking(trx, batch.id, batch.owner_id, input.bookingId, now);
     }
     await audit(trx, actor.id, input.status && input.status !== batch.status ? `status:${input.status}` : 'updated', 'Batch', batch.id, input);
     return updated as unknown as BatchRow;
