@@ -1,14 +1,10 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { fermentationSettingsSchema, type FermentationSettings } from '../../../../shared/schemas/batches.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { useSaveSetting } from '@/features/settings/api/setting';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
-import { applyProblemToForm } from '@/utils/problem-form';
+import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(String(v).replace(',', '.'))) };
 
@@ -20,21 +16,11 @@ export const FermentationSettingsSection = ({ canEdit }: { canEdit: boolean }) =
 );
 
 const FermentationSettingsForm = ({ value, canEdit }: { value: FermentationSettings; canEdit: boolean }) => {
-  const save = useSaveSetting<FermentationSettings>('fermentation');
-  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
-  const form = useForm<FermentationSettings>({ resolver: zodResolver(fermentationSettingsSchema), defaultValues: value });
-  const errors = form.formState.errors;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(null);
-    try {
-      const saved = await save.mutateAsync(values);
-      form.reset(saved.value);
-      setMessage({ tone: 'success', text: 'Fermentation settings saved. Every batch page uses them from now on.' });
-    } catch (error) {
-      const left = applyProblemToForm(error, form.setError, ['stableToleranceSg', 'stableSpanDays', 'hydrometerCalibrationC', 'wortCorrectionFactor']);
-      if (left.length) setMessage({ tone: 'error', text: left.join(' ') });
-    }
+  const { form, save, message, onSubmit } = useSettingForm<FermentationSettings>('fermentation', fermentationSettingsSchema, value, {
+    savedText: 'Fermentation settings saved. Every batch page uses them from now on.',
+    fields: ['stableToleranceSg', 'stableSpanDays', 'hydrometerCalibrationC', 'wortCorrectionFactor'],
   });
+  const errors = form.formState.errors;
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Fermentation settings">
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}

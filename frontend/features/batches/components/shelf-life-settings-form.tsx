@@ -1,14 +1,11 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useFieldArray, useForm } from 'react-hook-form';
+import { useFieldArray } from 'react-hook-form';
 import { shelfLifeSettingsSchema, type ShelfLifeSettings } from '../../../../shared/cellar/trace.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { useSaveSetting } from '@/features/settings/api/setting';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
-import { applyProblemToForm } from '@/utils/problem-form';
+import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const int = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
 
@@ -20,22 +17,12 @@ export const ShelfLifeSettingsSection = ({ canEdit }: { canEdit: boolean }) => (
 );
 
 const ShelfLifeSettingsForm = ({ value, canEdit }: { value: ShelfLifeSettings; canEdit: boolean }) => {
-  const save = useSaveSetting<ShelfLifeSettings>('shelf_life');
-  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
-  const form = useForm<ShelfLifeSettings>({ resolver: zodResolver(shelfLifeSettingsSchema), defaultValues: value });
+  const { form, save, message, onSubmit } = useSettingForm<ShelfLifeSettings>('shelf_life', shelfLifeSettingsSchema, value, {
+    savedText: 'Shelf life saved. Kegs filled from now on get best-before dates from it; kegs already filled keep theirs.',
+    fields: ['defaultDays', 'nearDays'],
+  });
   const styles = useFieldArray({ control: form.control, name: 'byStyle' });
   const errors = form.formState.errors;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(null);
-    try {
-      const saved = await save.mutateAsync(values);
-      form.reset(saved.value);
-      setMessage({ tone: 'success', text: 'Shelf life saved. Kegs filled from now on get best-before dates from it; kegs already filled keep theirs.' });
-    } catch (error) {
-      const left = applyProblemToForm(error, form.setError, ['defaultDays', 'nearDays']);
-      if (left.length) setMessage({ tone: 'error', text: left.join(' ') });
-    }
-  });
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Shelf life">
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}

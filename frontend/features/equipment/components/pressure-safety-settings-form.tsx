@@ -1,14 +1,10 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { inspectionKindLabels, inspectionKinds, pressureSafetySettingsSchema, type PressureSafetySettings } from '../../../../shared/schemas/inspections.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { useSaveSetting } from '@/features/settings/api/setting';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
-import { applyProblemToForm } from '@/utils/problem-form';
+import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(String(v).replace(',', '.'))) };
 const hints: Record<(typeof inspectionKinds)[number], string> = {
@@ -26,21 +22,11 @@ export const PressureSafetySettingsSection = ({ canEdit }: { canEdit: boolean })
 );
 
 const PressureSafetyForm = ({ value, canEdit }: { value: PressureSafetySettings; canEdit: boolean }) => {
-  const save = useSaveSetting<PressureSafetySettings>('pressure_safety');
-  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
-  const form = useForm<PressureSafetySettings>({ resolver: zodResolver(pressureSafetySettingsSchema), defaultValues: value });
-  const errors = form.formState.errors;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(null);
-    try {
-      const saved = await save.mutateAsync(values);
-      form.reset(saved.value);
-      setMessage({ tone: 'success', text: 'Saved. New inspections without a next date use these intervals.' });
-    } catch (error) {
-      const left = applyProblemToForm(error, form.setError, ['dueSoonDays']);
-      if (left.length) setMessage({ tone: 'error', text: left.join(' ') });
-    }
+  const { form, save, message, onSubmit } = useSettingForm<PressureSafetySettings>('pressure_safety', pressureSafetySettingsSchema, value, {
+    savedText: 'Saved. New inspections without a next date use these intervals.',
+    fields: ['dueSoonDays'],
   });
+  const errors = form.formState.errors;
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Pressure-vessel settings">
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
