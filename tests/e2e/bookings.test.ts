@@ -2,7 +2,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBooking, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
-import { launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -167,4 +167,65 @@ describe('booking a fermenter on the calendar', () => {
     expect((saved.value as { cleaningBufferHours: number }).cleaningBufferHours).toBe(36);
     await context.close();
   }, 90_000);
+});
+
+describe('the booking calendar on a phone', { timeout: 120_000 }, () => {
+  it('shows the week as a list of items, says "tap", and books an item from its first free time', async () => {
+    const { page, context } = await signedInPage(browser, server.url, 'member@example.org', { viewport: phone });
+    try {
+      await page.goto('/bookings');
+      const agenda = page.getByTestId('booking-agenda');
+      await agenda.waitFor();
+      // A week list, not the squeezed timeline; help that speaks of tapping.
+      expect(await page.locator('.ec').count()).toBe(0);
+      await page.getByText(/^Tap Book on an item/).waitFor();
+      expect(await page.getByText(/Click a free day/).count()).toBe(0);
+      // F-01 is Maren's and in use, F-02 is Ines Farrow's from the day after tomorrow (this week), F-04 is free.
+      const card = (code: string) => agenda.locator(`li[data-agenda-item="${code}"]`);
+      await card('F-01').locator('.cw-booking-mine').filter({ hasText: 'Yours · in use' }).waitFor();
+      await card('F-02').locator('.cw-booking-taken').filter({ hasText: /^Taken/ }).waitFor();
+      expect(await card('F-02').innerText()).not.toContain('Ines Farrow');
+      await card('F-04').getByText('Free all week').waitFor();
+      await screenshot(page, 'bookings-agenda-phone');
+
+      await card('F-04').getByRole('button', { name: 'Book F-04 · 120 L conical 1' }).click();
+      const dialog = page.getByRole('dialog', { name: 'Book equipment' });
+      await dialog.waitFor();
+      const f04 = fixtureEquipmentId('F-04');
+      await expect.poll(() => dialog.getByLabel('Item').inputValue()).toBe(f04);
+      // Free now: the booking starts at the next whole hour at least five minutes away (the server's now).
+      const now = ctx.clock.now().getTime();
+      const from = new Date(Math.ceil((now + 5 * 60_000) / HOUR) * HOUR).toISOString().slice(0, 16);
+      expect(await dialog.getByLabel('From').inputValue()).toBe(from);
+      await screenshot(page, 'bookings-agenda-phone-dialog');
+      await dialog.getByRole('button', { name: 'Book', exact: true }).click();
+      await page.getByText(/F-04 is yours from/).waitFor();
+      await card('F-04').locator('.cw-booking-mine').filter({ hasText: 'Yours' }).waitFor();
+      const made = await ctx.db.selectFrom('booking').select(['starts_at', 'owner_id']).where('equipment_id', '=', f04).where('state', '<>', 'cancelled').execute();
+      expect(made).toEqual([{ starts_at: new Date(`${from}:00Z`), owner_id: fixtureUserId('member') }]);
+
+      // The next week, and back.
+      const title = await agenda.getByRole('heading', { level: 2 }).innerText();
+      await agenda.getByRole('button', { name: 'Next week' }).click();
+      await expect.poll(() => agenda.getByRole('heading', { level: 2 }).innerText()).not.toBe(title);
+      await card('F-01').locator('.cw-booking-mine').first().waitFor(); // F-01 is held into next week too
+      await agenda.getByRole('button', { name: 'Back to this week' }).click();
+      await expect.poll(() => agenda.getByRole('heading', { level: 2 }).innerText()).toBe(title);
+      await screenshot(page, 'bookings-agenda-phone-booked');
+    } finally {
+      await context.close();
+    }
+  });
+
+  it('keeps the timeline and says "click" on a desktop', async () => {
+    const { page, context } = await signedInPage(browser, server.url, 'member@example.org');
+    try {
+      await page.goto('/bookings');
+      await page.locator('.ec').waitFor();
+      await page.getByText(/^Click a free day/).waitFor();
+      expect(await page.getByTestId('booking-agenda').count()).toBe(0);
+    } finally {
+      await context.close();
+    }
+  });
 });

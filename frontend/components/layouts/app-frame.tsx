@@ -99,8 +99,9 @@ export const AppFrame = () => {
             </svg>
             Menu
           </Button>
-          <NavLink to={paths.today} className="min-w-0 no-underline hover:no-underline" aria-label="Cellarwright, Today">
+          <NavLink to={paths.today} className="min-w-0 no-underline hover:no-underline">
             <Brand />
+            <span className="sr-only">, Today</span>
           </NavLink>
           <div className="ml-auto flex items-center gap-1">
             <NavLink

@@ -2,6 +2,7 @@ import { flexRender, type Header, type Row, type RowData, type Table } from '@ta
 import type { ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { Select } from '@/components/ui/input';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
 import { cn } from '@/utils/cn';
 
@@ -86,7 +87,8 @@ export const DataTable = <T,>({
   const rows = table.getRowModel().rows;
   const columnCount = table.getVisibleLeafColumns().length;
   return (
-    <div
+    <ScrollRegion
+      label={caption}
       className={cn('relative max-h-[70dvh] overflow-auto rounded-md border border-line bg-surface', className)}
       aria-busy={isLoading || isFetching || undefined}
     >
@@ -135,7 +137,7 @@ export const DataTable = <T,>({
           )}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 };
 

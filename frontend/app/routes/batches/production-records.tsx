@@ -14,6 +14,7 @@ import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import type { ProductionMonth } from '../../../../shared/schemas/batches.ts';
 import { ProductionChart } from '@/features/batches/components/production-chart';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const month = (offset: number) => {
   const d = new Date();
@@ -82,7 +83,7 @@ const ProductionRecordsRoute = () => {
           </dl>
           <MonthlyReport months={data.monthly} />
           <h2 className="text-lg">Packaged per batch</h2>
-          <div className="max-h-[65dvh] overflow-auto rounded-md border border-line bg-surface">
+          <ScrollRegion label="Production records by month and batch" className="max-h-[65dvh] overflow-auto rounded-md border border-line bg-surface">
             <table className="w-full border-separate border-spacing-0 text-sm">
               <caption className="sr-only">Production records by month and batch</caption>
               <thead>
@@ -107,7 +108,7 @@ const ProductionRecordsRoute = () => {
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
         </>
       ) : null}
     </div>
@@ -165,7 +166,7 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
       batches. Inventory is the beer in fermenters and in kegs still at the co-op.
     </p>
     {months.length > 1 ? <ProductionChart months={months} /> : null}
-    <div className="overflow-auto rounded-md border border-line bg-surface">
+    <ScrollRegion label="Monthly production report" className="overflow-auto rounded-md border border-line bg-surface">
       <table className="w-full border-separate border-spacing-0 text-sm">
         <caption className="sr-only">Monthly production report, litres</caption>
         <thead>
@@ -207,7 +208,7 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
     <p className="text-xs text-ink-muted">
       Litres; each month opening + brewed − removals − losses = closing. US barrels of 31 US gallons (117.35 L). Packaging moves beer from fermenters into kegs within the inventory.
       The CSV and XLSX downloads give every figure in detail.

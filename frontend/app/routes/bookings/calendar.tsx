@@ -1,15 +1,17 @@
-import { useState } from 'react';
+import { useCallback, useState } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import type { Booking } from '../../../../shared/schemas/booking.ts';
 import { equipmentKindLabels, equipmentKinds, equipmentKindSchema, type EquipmentKind } from '../../../../shared/schemas/equipment.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Select } from '@/components/ui/input';
+import { BookingAgenda } from '@/features/bookings/components/booking-agenda';
 import { BookingCalendar } from '@/features/bookings/components/booking-calendar';
 import { BookingFormDialog, type BookingDraft } from '@/features/bookings/components/booking-form-dialog';
 import { useEquipment } from '@/features/equipment/api/get-equipment';
 import { useEquipmentList } from '@/features/equipment/api/get-equipment-list';
 import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useMediaQuery } from '@/hooks/use-media-query';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
@@ -40,6 +42,24 @@ const BookingsCalendarRoute = () => {
   const [booked, setBooked] = useState<Booking | null>(null);
   const [error, setError] = useState<string | null>(null);
   const canBook = ability.can('create', 'Booking');
+  // Below the small breakpoint a week list replaces the timeline; on a touch screen one taps, not clicks.
+  const phone = useMediaQuery('(max-width: 639.98px)');
+  const touch = useMediaQuery('(pointer: coarse)');
+  const onError = useCallback((e: unknown) => setError(problemMessage(e)), []);
+  const pick = ({ equipmentId, start, end }: { equipmentId: string; start: Date; end?: Date }) => {
+    if (!canBook) return;
+    const startsAt = startFrom(start);
+    let endsAt: Date;
+    if (end && end.getTime() - start.getTime() > 24 * HOUR) {
+      endsAt = new Date(end.getTime() - 24 * HOUR);
+      endsAt.setHours(startsAt.getHours(), 0, 0, 0);
+    } else {
+      const item = items.data?.items.find((i) => i.id === equipmentId);
+      endsAt = new Date(startsAt.getTime() + defaultDays[item?.kind ?? kind] * 24 * HOUR);
+    }
+    setBooked(null);
+    setDraft({ equipmentId, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString() });
+  };
 
   return (
     <div className="flex flex-col gap-3">
@@ -67,14 +87,35 @@ const BookingsCalendarRoute = () => {
             <span className="inline-block size-3 rounded-sm bg-copper" /> Yours
           </span>
           <span className="inline-flex items-center gap-1.5">
-            <span className="inline-block size-3 rounded-sm bg-ink-faint" /> Taken
+            <span className="inline-block size-3 rounded-sm bg-ink-muted" /> Taken
           </span>
           <span className="inline-flex items-center gap-1.5">
             <span className="inline-block size-3 rounded-sm border border-due/40 bg-due-soft" /> Kept free for cleaning
           </span>
         </p>
       </div>
-      {canBook ? <p className="text-sm text-ink-muted">Click a free day in an item’s row (or drag across days) to book it.</p> : null}
+      {canBook ? (
+        phone ? (
+          <p className="text-sm text-ink-muted">Tap Book on an item to book it from its first free time in the week shown; you can change the dates before you confirm.</p>
+        ) : (
+          <div className="flex flex-wrap items-center justify-between gap-2">
+            <p className="text-sm text-ink-muted">
+              {touch ? 'Tap' : 'Click'} a free day in an item’s row (or drag across days) to book it, or book by dates with the form.
+            </p>
+            <Button
+              size="sm"
+              variant="secondary"
+              disabled={!items.data?.items.length}
+              onClick={() => {
+                const first = items.data?.items[0];
+                if (first) pick({ equipmentId: first.id, start: new Date() });
+              }}
+            >
+              Book by dates
+            </Button>
+          </div>
+        )
+      ) : null}
       {booked ? (
         <Alert tone="success" title="Booked">
           {booked.equipment.code} is yours from {formatDateTime(booked.startsAt)} until {formatDateTime(booked.endsAt)}. A confirmation with a calendar file is on its way by e-mail.{' '}
@@ -89,28 +130,20 @@ const BookingsCalendarRoute = () => {
           </Button>
         </Alert>
       ) : null}
-      <div className="overflow-x-auto rounded-lg border border-line bg-surface p-2">
-        <BookingCalendar
+      {phone ? (
+        <BookingAgenda
           items={items.data?.items ?? []}
           kind={kind}
           version={version}
-          onError={(e) => setError(problemMessage(e))}
-          onPick={({ equipmentId, start, end }) => {
-            if (!canBook) return;
-            const startsAt = startFrom(start);
-            let endsAt: Date;
-            if (end && end.getTime() - start.getTime() > 24 * HOUR) {
-              endsAt = new Date(end.getTime() - 24 * HOUR);
-              endsAt.setHours(startsAt.getHours(), 0, 0, 0);
-            } else {
-              const item = items.data?.items.find((i) => i.id === equipmentId);
-              endsAt = new Date(startsAt.getTime() + defaultDays[item?.kind ?? kind] * 24 * HOUR);
-            }
-            setBooked(null);
-            setDraft({ equipmentId, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString() });
-          }}
+          canBook={canBook}
+          onError={onError}
+          onPick={pick}
         />
-      </div>
+      ) : (
+        <div className="overflow-x-auto rounded-lg border border-line bg-surface p-2">
+          <BookingCalendar items={items.data?.items ?? []} kind={kind} version={version} onError={onError} onPick={pick} />
+        </div>
+      )}
       <BookingFormDialog
         draft={draft}
         items={items.data?.items ?? []}

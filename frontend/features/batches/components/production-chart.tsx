@@ -21,7 +21,7 @@ export const ProductionChart = ({ months }: { months: ProductionMonth[] }) => {
     <figure className="rounded-md border border-line bg-surface p-3" role="img" aria-label="Month-end inventory, brewed and out, per month">
       <div className="h-60 w-full" aria-hidden="true">
         <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
+          <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
             <CartesianGrid vertical={false} stroke="#e3dacb" />
             <XAxis dataKey="month" tick={{ fill: '#5c564d', fontSize: 12 }} axisLine={{ stroke: '#c9bca8' }} tickLine={false} />
             <YAxis tickFormatter={(v: number) => `${v} L`} tick={{ fill: '#5c564d', fontSize: 11 }} axisLine={false} tickLine={false} width={64} />

@@ -16,7 +16,7 @@ export const AgeingChart = ({ totals, currency }: AgeingChartProps) => {
   return (
     <div className="h-56 w-full" aria-hidden="true">
       <ResponsiveContainer width="100%" height="100%">
-        <BarChart data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
+        <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
           <CartesianGrid vertical={false} stroke="#e3dacb" />
           <XAxis dataKey="bucket" tick={{ fill: '#5c564d', fontSize: 12 }} axisLine={{ stroke: '#c9bca8' }} tickLine={false} />
           <YAxis tickFormatter={(v: number) => money(v, currency).replace(/\.00$/, '')} tick={{ fill: '#5c564d', fontSize: 11 }} axisLine={false} tickLine={false} width={72} />

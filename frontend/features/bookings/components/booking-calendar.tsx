@@ -19,9 +19,30 @@ export interface BookingCalendarProps {
 }
 
 // Our colours: copper for yours, warm grey for others' ("taken"), amber hatching for the cleaning buffer.
-const colours = { mine: '#b0592a', mineInUse: '#8f4520', taken: '#8a8277', takenInUse: '#5c564d', buffer: '#efd08f' };
+// White titles on each need 4.5:1 at least: copper 4.9:1, dark copper 6.9:1, ink-muted 7.3:1, darker 11.5:1.
+export const colours = { mine: '#b0592a', mineInUse: '#8f4520', taken: '#5c564d', takenInUse: '#3d3933', buffer: '#efd08f' };
 
-function toEvents(bookings: Booking[]): Calendar.EventInput[] {
+/** The calendar draws a grid of boxes, not a table: the table roles it gives them are wrong, so they go. */
+const gridRoles = ['table', 'row', 'rowgroup', 'rowheader', 'columnheader', 'cell', 'gridcell'];
+const gridRoleSelector = gridRoles.map((r) => `[role="${r}"]`).join(',');
+const gridAttributes = ['aria-colindex', 'aria-colspan', 'aria-rowindex', 'aria-rowspan', 'aria-colcount', 'aria-rowcount'];
+
+/**
+ * Corrects what the calendar draws for assistive technology: no table roles on a grid of boxes (the
+ * item names, day headers and bookings read as text in order), and its sideways-scrolling area a named
+ * region that takes focus so the arrow keys scroll it. Idempotent: it runs again after every redraw.
+ */
+export function correctCalendarMarkup(root: HTMLElement) {
+  for (const el of root.querySelectorAll(gridRoleSelector)) el.removeAttribute('role');
+  for (const attr of gridAttributes) for (const el of root.querySelectorAll(`[${attr}]`)) el.removeAttribute(attr);
+  for (const el of root.querySelectorAll<HTMLElement>('.ec-main')) {
+    if (el.getAttribute('tabindex') !== '0') el.setAttribute('tabindex', '0');
+    if (el.getAttribute('role') !== 'region') el.setAttribute('role', 'region');
+    if (el.getAttribute('aria-label') !== 'Bookings by item and day') el.setAttribute('aria-label', 'Bookings by item and day');
+  }
+}
+
+export function toEvents(bookings: Booking[]): Calendar.EventInput[] {
   const events: Calendar.EventInput[] = [];
   for (const b of bookings) {
     const who = b.mine ? 'Yours' : (b.owner?.name ?? 'Taken');
@@ -100,7 +121,12 @@ export const BookingCalendar = ({ items, kind, version, onPick, onError }: Booki
         calendar.current?.unselect();
       },
     });
+    const root = host.current;
+    correctCalendarMarkup(root);
+    const redrawn = new MutationObserver(() => correctCalendarMarkup(root));
+    redrawn.observe(root, { subtree: true, childList: true, attributes: true, attributeFilter: ['role', 'tabindex', 'aria-label', ...gridAttributes] });
     return () => {
+      redrawn.disconnect();
       if (calendar.current) void destroyCalendar(calendar.current);
       calendar.current = null;
     };
@@ -117,5 +143,5 @@ export const BookingCalendar = ({ items, kind, version, onPick, onError }: Booki
     calendar.current?.refetchEvents();
   }, [version, kind]);
 
-  return <div ref={host} className="cw-calendar" data-testid="booking-calendar" />;
+  return <div ref={host} className="cw-calendar" data-testid="booking-calendar" role="group" aria-label="Bookings calendar" />;
 };
