@@ -53,6 +53,8 @@
  * Inspections and CO2 cylinders (inspections.ts)
  *   createInspection(db, { equipmentId, kind, at, passed? = true, nextDueAt? (a year after `at` when passed), note?, recordedBy? })
  *   setCylinderSupply(db, { cylinderId, remainingKg, connected? = false, at })   — contents; `connected` puts it on the gas line
+ * Audit trail (audit.ts)
+ *   createAuditEntry(db, { at, action? = 'updated', subjectType? = 'Batch', subjectId?, actorId?, detail? }) → audit_log row
  * Shared (common.ts)
  *   DEMO_PASSWORD, LONG_AGO, MINUTE, HOUR, DAY, addMs(at, ms)
  */
@@ -67,3 +69,4 @@ export * from './kegs.ts';
 export * from './billing.ts';
 export * from './settings.ts';
 export * from './inspections.ts';
+export * from './audit.ts';

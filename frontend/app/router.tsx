@@ -107,6 +107,7 @@ export const routes: RouteObject[] = [
               { path: paths.productionRecords.slice(1), lazy: lazy(() => import('@/app/routes/batches/production-records')) },
               { path: paths.traceReport.slice(1), lazy: lazy(() => import('@/app/routes/batches/trace-report')) },
               { path: paths.settings.slice(1), lazy: lazy(() => import('@/app/routes/settings/settings')) },
+              { path: paths.audit.slice(1), lazy: lazy(() => import('@/app/routes/audit/audit')) },
               {
                 path: paths.sanitation.slice(1),
                 lazy: lazy(() => import('@/app/routes/sanitation/sanitation-layout')),

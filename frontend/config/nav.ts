@@ -62,7 +62,14 @@ export const mainNav: NavEntry[] = [
       { key: 'outbox', label: 'Outbox', to: paths.outbox, ready: true, allowed: (a) => a.can('read', 'Mailbox') },
     ],
   },
-  { key: 'settings', label: 'Settings', to: paths.settings, ready: true, allowed: (a) => a.can('update', 'Setting') },
+  {
+    key: 'settings',
+    label: 'Settings',
+    to: paths.settings,
+    ready: true,
+    allowed: (a) => a.can('update', 'Setting'),
+    children: [{ key: 'audit', label: 'Audit trail', to: paths.audit, ready: true, allowed: (a) => a.can('read', 'AuditLog') }],
+  },
 ];
 
 export const accountNav: NavEntry[] = [

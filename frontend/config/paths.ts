@@ -24,6 +24,7 @@ export const paths = {
   billingExports: '/billing/exports',
   myInvoices: '/billing/my-invoices',
   settings: '/settings',
+  audit: '/audit',
 } as const;
 
 export const invoiceHref = (id: string) => `${paths.billingInvoices}/${id}`;

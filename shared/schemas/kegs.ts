@@ -46,6 +46,16 @@ export type KegMoveInput = z.infer<typeof kegMoveSchema>;
  */
 export const kegEmptySchema = z.object({ note, dumped: z.boolean().optional() }).default({});
 
+/** Body of `POST /api/kegs/:id/undo`: the return, emptying or dump to undo (its `undo.id`); without it, the keg's latest. */
+export const kegUndoSchema = z.object({ actionId: z.uuid().optional() }).default({});
+
+/** Offered with the answer to a return, an emptying or a dump: undo it until `until` (the app's clock). */
+export interface KegUndoOfferView {
+  id: string;
+  action: 'returned' | 'emptied' | 'dumped';
+  until: string;
+}
+
 /** Body of `PATCH /api/kegs/:id/level`: how much the co-op thinks is left. */
 export const kegLevelSchema = z.object({ remainingLiters: z.number().min(0, 'At least 0 L').max(1000) });
 export type KegLevelInput = z.infer<typeof kegLevelSchema>;

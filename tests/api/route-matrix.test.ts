@@ -162,6 +162,7 @@ const expected: Record<string, Entry> = {
   'POST /api/kegs/:id/return': { cells: kegHandling, record: 'keg' },
   'POST /api/kegs/:id/move': { cells: kegHandling, record: 'keg' },
   'POST /api/kegs/:id/empty': { cells: kegHandling, record: 'keg' },
+  'POST /api/kegs/:id/undo': { cells: kegHandling, record: 'keg' },
   'PATCH /api/kegs/:id/level': { cells: kegHandling, record: 'keg' },
   'POST /api/carbonation-plans/preview': { cells: signedIn },
   'POST /api/carbonation-plans': { cells: cellarRota },

@@ -116,6 +116,7 @@ const entries: Record<string, FuzzEntry> = {
   'POST /api/kegs/:id/return': { as: 'brewer', record: 'keg', valid: () => ({ note: 'Back' }) },
   'POST /api/kegs/:id/move': { as: 'brewer', record: 'keg', valid: () => ({ to: 'cold_room', tapId: null, note: 'Fuzz' }) },
   'POST /api/kegs/:id/empty': { as: 'brewer', record: 'keg', valid: () => ({ note: 'Kicked' }) },
+  'POST /api/kegs/:id/undo': { as: 'brewer', record: 'keg', valid: () => ({ actionId: '00000000-0000-4000-8000-000000000000' }) },
   'PATCH /api/kegs/:id/level': { as: 'brewer', record: 'keg', valid: () => ({ remainingLiters: 12.5 }) },
   'POST /api/carbonation-plans/preview': { as: 'brewer', valid: () => ({ targetVolumes: 2.5, temperatureC: 3, altitudeM: 0, method: 'fast_start', line: { lengthM: 3, insideDiameterMm: 4.8, riseM: 0.6 } }) },
   'POST /api/carbonation-plans': { as: 'brewer', valid: (f) => ({ kegId: f.plannableKegId, targetVolumes: 2.4, method: 'set_and_hold', styleFamily: 'Ales', notes: 'Fuzz' }) },

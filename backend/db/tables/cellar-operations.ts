@@ -1,4 +1,5 @@
 import type { ColumnType, Generated } from 'kysely';
+import type { VesselState } from './cellar.ts';
 import type { Json, Numeric, Timestamp } from './types.ts';
 
 /** A numeric or jsonb column with a database default (optional on insert). */
@@ -8,7 +9,7 @@ type JsonWithDefault = ColumnType<unknown, string | undefined, string>;
 export type SanitationStepName = 'clean' | 'rinse' | 'sanitize' | 'purge';
 export type CycleOutcome = 'ready' | 'cleaned' | 'needs_cleaning';
 export type KegWhereabouts = 'cellar' | 'cold_room' | 'with_member' | 'missing';
-export type KegMovementAction = 'checked_out' | 'returned' | 'moved' | 'tapped' | 'untapped' | 'marked_missing' | 'found' | 'level' | 'emptied';
+export type KegMovementAction = 'checked_out' | 'returned' | 'moved' | 'tapped' | 'untapped' | 'marked_missing' | 'found' | 'level' | 'emptied' | 'undone';
 export type CarbonationPlanState = 'active' | 'done' | 'cancelled' | 'superseded';
 
 export interface SanitationCycleTable {
@@ -164,6 +165,35 @@ export interface CarbonationPlanTable {
   updated_at: Generated<Date>;
 }
 
+export type KegUndoableAction = 'returned' | 'emptied' | 'dumped';
+
+/** What undoing a keg's return, emptying or dump restores, and the rows that action wrote last. */
+export interface KegActionUndoTable {
+  id: Generated<string>;
+  keg_id: string;
+  action: KegUndoableAction;
+  movement_id: string;
+  keg_state_change_id: string | null;
+  keg_state: VesselState;
+  whereabouts: KegWhereabouts;
+  tap_id: string | null;
+  tap_state: VesselState | null;
+  tap_state_change_id: string | null;
+  member_id: string | null;
+  checked_out_at: Timestamp | null;
+  due_at: Timestamp | null;
+  since: Timestamp | null;
+  fill_id: string | null;
+  fill_remaining_liters: Numeric | null;
+  plan_ids: ColumnType<string[], string[] | undefined, string[]>;
+  actor_id: string | null;
+  at: Timestamp;
+  undo_until: Timestamp;
+  undone_at: Timestamp | null;
+  undone_by: string | null;
+  created_at: Generated<Date>;
+}
+
 export interface CellarOperationsTables {
   sanitation_cycle: SanitationCycleTable;
   sanitation_step: SanitationStepTable;
@@ -172,4 +202,5 @@ export interface CellarOperationsTables {
   keg_whereabouts: KegWhereaboutsTable;
   keg_movement: KegMovementTable;
   carbonation_plan: CarbonationPlanTable;
+  keg_action_undo: KegActionUndoTable;
 }

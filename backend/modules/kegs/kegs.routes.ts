@@ -10,6 +10,7 @@ import {
   kegListQuerySchema,
   kegMoveSchema,
   kegReturnSchema,
+  kegUndoSchema,
 } from '../../../shared/schemas/kegs.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
@@ -28,6 +29,8 @@ import {
   returnKeg,
   setKegLevel,
   tapBoard,
+  undoKegAction,
+  type KegUndoOffer,
 } from './kegs.service.ts';
 
 /** `/api/kegs`: whereabouts, check-out and return, overdue, a keg's page and history, the tap board. */
@@ -81,9 +84,9 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     res.json(await kegHistory(db, row.id, q.page, q.pageSize));
   });
 
-  const answer = async (req: Request, res: Response, status = 200) => {
+  const answer = async (req: Request, res: Response, status = 200, undo?: KegUndoOffer) => {
     const row = await findKeg(db, req.params.id as string, clock.now());
-    res.status(status).json({ keg: kegView(row!, req.ability.can('readOwner', 'Keg')) });
+    res.status(status).json({ keg: kegView(row!, req.ability.can('readOwner', 'Keg')), ...(undo ? { undo } : {}) });
   };
 
   router.post('/:id/check-out', async (req, res) => {
@@ -98,8 +101,8 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegReturnSchema.parse(req.body ?? {});
-    await returnKeg(db, row.id, input, req.user!, clock.now());
-    await answer(req, res);
+    const undo = await returnKeg(db, row.id, input, req.user!, clock.now());
+    await answer(req, res, 200, undo);
   });
 
   router.post('/:id/move', async (req, res) => {
@@ -115,7 +118,20 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     // Emptying changes the vessel's state.
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     const input = kegEmptySchema.parse(req.body ?? {});
-    await emptyKeg(db, row.id, input, req.user!, clock.now());
+    const undo = await emptyKeg(db, row.id, input, req.user!, clock.now());
+    await answer(req, res, 200, undo);
+  });
+
+  // Undo of a return, an emptying or a dump, for whoever may do that action, while nothing has touched the keg since.
+  router.post('/:id/undo', async (req, res) => {
+    const row = await loadVisible(req);
+    if (!req.ability.can('checkout', subject('Keg', { memberId: kegMemberId(row) }))) ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
+    const input = kegUndoSchema.parse(req.body ?? {});
+    const authorize = (action: 'returned' | 'emptied' | 'dumped') => {
+      if (action === 'returned') ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
+      else ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
+    };
+    await undoKegAction(db, row.id, input.actionId, authorize, req.user!, clock.now());
     await answer(req, res);
   });
 

@@ -10,6 +10,8 @@ import type {
 } from '../../../shared/schemas/kegs.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
+import type { VesselState } from '../../db/tables/cellar.ts';
+import type { KegUndoableAction } from '../../db/tables/cellar-operations.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { effectiveStateSql, freshUntilSql, setVesselState } from '../sanitation/vessel-state.ts';
@@ -302,22 +304,31 @@ export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOu
   });
 }
 
-export async function returnKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }, now: Date) {
-  await db.transaction().execute(async (trx) => {
+export async function returnKeg(db: Database, kegId: string, input: { note?: string | undefined }, actor: { id: string }, now: Date): Promise<KegUndoOffer> {
+  return db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.whereabouts !== 'with_member') throw conflict(`${keg.code} is not out with a member.`);
+    const before = await undoSnapshot(trx, kegId, keg.state);
     const member = keg.member_id ? await trx.selectFrom('app_user').select('name').where('id', '=', keg.member_id).executeTakeFirst() : undefined;
     const late = keg.due_at && new Date(keg.due_at).getTime() < now.getTime();
     await putWhereabouts(trx, kegId, { whereabouts: 'cellar' }, actor.id, now);
-    await trx
+    const movement = await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action: 'returned', from_whereabouts: 'with_member', to_whereabouts: 'cellar', member_id: keg.member_id, due_at: keg.due_at, note: input.note ?? (late ? 'Returned after its due date' : ''), actor_id: actor.id, at: now })
-      .execute();
+      .returning('id')
+      .executeTakeFirstOrThrow();
     await closeFill(trx, kegId, 'returned', now);
     if (keg.state !== 'out_of_service') {
       await setVesselState(trx, kegId, 'needs_cleaning', `Returned by ${member?.name ?? 'a member'}; clean before use`, actor.id, now);
     }
-    await audit(trx, actor.id, 'returned', 'Keg', kegId, { code: keg.code, memberId: keg.member_id, late: Boolean(late) });
+    await audit(trx, actor.id, 'returned', 'Keg', kegId, {
+      code: keg.code,
+      memberId: keg.member_id,
+      late: Boolean(late),
+      before: auditState(before),
+      after: { state: keg.state === 'out_of_service' ? keg.state : 'needs_cleaning', whereabouts: 'cellar', memberId: null, remainingLiters: before.fill ? 0 : null },
+    });
+    return recordUndo(trx, kegId, 'returned', before, movement.id, actor.id, now);
   });
 }
 
@@ -358,21 +369,29 @@ export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, 
   });
 }
 
-export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined; dumped?: boolean | undefined }, actor: { id: string }, now: Date) {
-  await db.transaction().execute(async (trx) => {
+export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined; dumped?: boolean | undefined }, actor: { id: string }, now: Date): Promise<KegUndoOffer> {
+  return db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer.`);
+    const before = await undoSnapshot(trx, kegId, keg.state);
     await closeFill(trx, kegId, input.dumped ? 'dumped' : 'emptied', now);
     if (keg.tap_id) {
       await putWhereabouts(trx, kegId, { whereabouts: 'cold_room' }, actor.id, now);
       await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} emptied and disconnected; clean the line`, actor.id, now);
     }
-    await trx
+    const movement = await trx
       .insertInto('keg_movement')
       .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (input.dumped ? 'Beer dumped' : keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id, at: now })
-      .execute();
+      .returning('id')
+      .executeTakeFirstOrThrow();
     await setVesselState(trx, kegId, 'needs_cleaning', input.dumped ? 'Beer dumped; clean before use' : 'Emptied; clean before use', actor.id, now);
-    await audit(trx, actor.id, 'emptied', 'Keg', kegId, { code: keg.code, ...(input.dumped ? { dumped: true } : {}) });
+    await audit(trx, actor.id, 'emptied', 'Keg', kegId, {
+      code: keg.code,
+      ...(input.dumped ? { dumped: true } : {}),
+      before: auditState(before),
+      after: { state: 'needs_cleaning', whereabouts: keg.whereabouts, tapId: null, remainingLiters: before.fill ? 0 : null },
+    });
+    return recordUndo(trx, kegId, input.dumped ? 'dumped' : 'emptied', before, movement.id, actor.id, now);
   });
 }
 
@@ -393,6 +412,203 @@ export async function setKegLevel(db: Database, kegId: string, remainingLiters: 
   });
 }
 
+// ---------------------------------------------------------------------------------------------
+// Undo of a return, an emptying or a dump: offered for KEG_UNDO_WINDOW_MS by the app's clock and
+// only while nothing else has touched the keg (or the tap it came off) since.
+// ---------------------------------------------------------------------------------------------
+
+/** How long after a return, an emptying or a dump it can be undone (the app's clock). */
+export const KEG_UNDO_WINDOW_MS = 10 * 60_000;
+
+export interface KegUndoOffer {
+  id: string;
+  action: KegUndoableAction;
+  until: string;
+}
+
+const undoTitles: Record<KegUndoableAction, string> = { returned: 'return', emptied: 'emptying', dumped: 'dump' };
+
+interface UndoSnapshot {
+  kegState: VesselState;
+  whereabouts: { whereabouts: KegWhereabouts; tap_id: string | null; member_id: string | null; checked_out_at: Date | null; due_at: Date | null; since: Date | null } | null;
+  tapState: VesselState | null;
+  fill: { id: string; remaining_liters: number } | null;
+  planIds: string[];
+}
+
+/** The keg as it is before a return or an emptying: what an undo puts back. */
+async function undoSnapshot(trx: Database, kegId: string, kegState: VesselState): Promise<UndoSnapshot> {
+  const [whereabouts, fill, plans] = await Promise.all([
+    trx.selectFrom('keg_whereabouts').select(['whereabouts', 'tap_id', 'member_id', 'checked_out_at', 'due_at', 'since']).where('keg_id', '=', kegId).executeTakeFirst(),
+    trx.selectFrom('keg_fill').select(['id', 'remaining_liters']).where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst(),
+    trx.selectFrom('carbonation_plan').select('id').where('keg_id', '=', kegId).where('state', '=', 'active').execute(),
+  ]);
+  const tap = whereabouts?.tap_id ? await trx.selectFrom('equipment').select('state').where('id', '=', whereabouts.tap_id).executeTakeFirst() : undefined;
+  return {
+    kegState,
+    whereabouts: whereabouts ?? null,
+    tapState: tap?.state ?? null,
+    fill: fill ? { id: fill.id, remaining_liters: Number(fill.remaining_liters) } : null,
+    planIds: plans.map((p) => p.id),
+  };
+}
+
+/** The fields an audit row shows as "before" for a keg action that can be undone. */
+function auditState(b: UndoSnapshot) {
+  return {
+    state: b.kegState,
+    whereabouts: b.whereabouts?.whereabouts ?? 'cellar',
+    ...(b.whereabouts?.tap_id ? { tapId: b.whereabouts.tap_id } : {}),
+    ...(b.whereabouts?.member_id ? { memberId: b.whereabouts.member_id } : {}),
+    remainingLiters: b.fill ? b.fill.remaining_liters : null,
+    ...(b.planIds.length ? { carbonationPlans: b.planIds.length } : {}),
+  };
+}
+
+const latestStateChange = (trx: Database, equipmentId: string) =>
+  trx.selectFrom('equipment_state_change').select((eb) => eb.fn.max('id').as('id')).where('equipment_id', '=', equipmentId).executeTakeFirst().then((r) => (r?.id == null ? null : String(r.id)));
+
+async function recordUndo(trx: Database, kegId: string, action: KegUndoableAction, b: UndoSnapshot, movementId: string, actorId: string, now: Date): Promise<KegUndoOffer> {
+  const until = new Date(now.getTime() + KEG_UNDO_WINDOW_MS);
+  const tapId = b.whereabouts?.tap_id ?? null;
+  const [kegChange, tapChange] = await Promise.all([latestStateChange(trx, kegId), tapId ? latestStateChange(trx, tapId) : Promise.resolve(null)]);
+  const row = await trx
+    .insertInto('keg_action_undo')
+    .values({
+      keg_id: kegId,
+      action,
+      movement_id: movementId,
+      keg_state_change_id: kegChange,
+      keg_state: b.kegState,
+      whereabouts: b.whereabouts?.whereabouts ?? 'cellar',
+      tap_id: tapId,
+      tap_state: tapId ? b.tapState : null,
+      tap_state_change_id: tapChange,
+      member_id: b.whereabouts?.member_id ?? null,
+      checked_out_at: b.whereabouts?.checked_out_at ?? null,
+      due_at: b.whereabouts?.due_at ?? null,
+      since: b.whereabouts?.since ?? null,
+      fill_id: b.fill?.id ?? null,
+      fill_remaining_liters: b.fill ? b.fill.remaining_liters : null,
+      plan_ids: b.planIds,
+      actor_id: actorId,
+      at: now,
+      undo_until: until,
+    })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  return { id: row.id, action, until: until.toISOString() };
+}
+
+/**
+ * Undoes a keg's latest return, emptying or dump (or the one named by `actionId`, which must be that one):
+ * the keg's state, whereabouts (the member who had it, the tap it came off), its fill with the litres it
+ * held and the carbonation plans the action closed come back, in one transaction with a movement and an
+ * audit row. 409 when there is nothing to undo, when the window has passed or when the keg or its tap was
+ * touched since. `authorize` is asked with the action found before anything is written.
+ */
+export async function undoKegAction(
+  db: Database,
+  kegId: string,
+  actionId: string | undefined,
+  authorize: (action: KegUndoableAction) => void,
+  actor: { id: string },
+  now: Date,
+): Promise<{ action: KegUndoableAction }> {
+  return db.transaction().execute(async (trx) => {
+    const keg = await lockKeg(trx, kegId);
+    const latest = await trx
+      .selectFrom('keg_action_undo')
+      .selectAll()
+      .where('keg_id', '=', kegId)
+      .orderBy('at', 'desc')
+      .orderBy('movement_id', 'desc')
+      .limit(1)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!latest || latest.undone_at || (actionId && latest.id !== actionId)) throw conflict(`Nothing to undo on ${keg.code}.`);
+    authorize(latest.action);
+    const what = undoTitles[latest.action];
+    if (now.getTime() > new Date(latest.undo_until).getTime()) {
+      throw conflict(`Too late to undo the ${what} of ${keg.code}: an undo is offered for ${KEG_UNDO_WINDOW_MS / 60_000} minutes.`);
+    }
+    const touched = () => conflict(`${keg.code} has changed since its ${what}, so it cannot be undone.`);
+    const [lastMovement, kegChange, openFill, cycles] = await Promise.all([
+      trx.selectFrom('keg_movement').select((eb) => eb.fn.max('id').as('id')).where('keg_id', '=', kegId).executeTakeFirst(),
+      latestStateChange(trx, kegId),
+      trx.selectFrom('keg_fill').select('id').where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst(),
+      trx.selectFrom('sanitation_cycle').select('id').where('equipment_id', '=', kegId).where('created_at', '>', latest.created_at).executeTakeFirst(),
+    ]);
+    if (String(lastMovement?.id) !== String(latest.movement_id) || kegChange !== (latest.keg_state_change_id === null ? null : String(latest.keg_state_change_id)) || openFill || cycles) {
+      throw touched();
+    }
+    if (latest.tap_id) {
+      const tap = await trx.selectFrom('equipment').select(['code', 'state']).where('id', '=', latest.tap_id).forUpdate().executeTakeFirstOrThrow();
+      const [tapChange, other] = await Promise.all([
+        latestStateChange(trx, latest.tap_id),
+        trx.selectFrom('keg_whereabouts').select('keg_id').where('tap_id', '=', latest.tap_id).executeTakeFirst(),
+      ]);
+      if (other || tapChange !== (latest.tap_state_change_id === null ? null : String(latest.tap_state_change_id))) {
+        throw conflict(`Tap ${tap.code} has changed since ${keg.code} came off it, so the ${what} cannot be undone.`);
+      }
+    }
+
+    const fromWhere = keg.whereabouts;
+    const values = {
+      whereabouts: latest.whereabouts,
+      tap_id: latest.tap_id,
+      member_id: latest.member_id,
+      checked_out_at: latest.checked_out_at,
+      due_at: latest.due_at,
+      since: latest.since ?? now,
+      updated_by: actor.id,
+    };
+    await trx
+      .insertInto('keg_whereabouts')
+      .values({ keg_id: kegId, ...values })
+      .onConflict((oc) => oc.column('keg_id').doUpdateSet(values))
+      .execute()
+      .catch((e) => mapTapTaken(e, ''));
+    let restoredLiters: number | null = null;
+    if (latest.fill_id) {
+      const fill = await trx
+        .updateTable('keg_fill')
+        .set({ emptied_at: null, emptied_reason: null, remaining_liters: latest.fill_remaining_liters! })
+        .where('id', '=', latest.fill_id)
+        .where('emptied_at', 'is not', null)
+        .returning('remaining_liters')
+        .executeTakeFirst();
+      if (!fill) throw touched();
+      restoredLiters = Number(fill.remaining_liters);
+    }
+    const plans = latest.plan_ids.length
+      ? await trx.updateTable('carbonation_plan').set({ state: 'active', updated_at: now }).where('id', 'in', latest.plan_ids).where('state', '=', 'done').returning('id').execute()
+      : [];
+    await setVesselState(trx, kegId, latest.keg_state, `Undo of the ${what}: back as it was`, actor.id, now);
+    if (latest.tap_id && latest.tap_state) await setVesselState(trx, latest.tap_id, latest.tap_state, `${keg.code} back on the line (undo of its ${what})`, actor.id, now);
+    await trx
+      .insertInto('keg_movement')
+      .values({ keg_id: kegId, action: 'undone', from_whereabouts: fromWhere, to_whereabouts: latest.whereabouts, tap_id: latest.tap_id, member_id: latest.member_id, due_at: latest.due_at, note: `Undid the ${what}`, actor_id: actor.id, at: now })
+      .execute();
+    await trx.updateTable('keg_action_undo').set({ undone_at: now, undone_by: actor.id }).where('id', '=', latest.id).execute();
+    await audit(trx, actor.id, 'undone', 'Keg', kegId, {
+      code: keg.code,
+      undid: latest.action,
+      undoId: latest.id,
+      before: { state: keg.state, whereabouts: fromWhere, remainingLiters: latest.fill_id ? 0 : null },
+      after: {
+        state: latest.keg_state,
+        whereabouts: latest.whereabouts,
+        ...(latest.tap_id ? { tapId: latest.tap_id } : {}),
+        ...(latest.member_id ? { memberId: latest.member_id } : {}),
+        remainingLiters: restoredLiters,
+        ...(plans.length ? { carbonationPlans: plans.length } : {}),
+      },
+    });
+    return { action: latest.action };
+  });
+}
+
 const movementTitles: Record<string, string> = {
   checked_out: 'Checked out',
   returned: 'Returned',
@@ -403,6 +619,7 @@ const movementTitles: Record<string, string> = {
   found: 'Found',
   level: 'Level noted',
   emptied: 'Emptied',
+  undone: 'Undone',
 };
 const whereLabel: Record<string, string> = { cellar: 'cellar', cold_room: 'cold room', with_member: 'with a member', missing: 'missing' };
 

@@ -17,8 +17,10 @@ import { GravityChart } from '@/features/batches/components/gravity-chart';
 import { ReadingFormDialog } from '@/features/batches/components/reading-form-dialog';
 import { ReadingsTable } from '@/features/batches/components/readings-table';
 import { BatchTraceSection } from '@/features/batches/components/batch-trace-section';
+import { cellarPaths } from '@/features/cellar-ops/paths';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
+import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
 import { formatDate, formatDateTime } from '@/utils/format';
@@ -36,6 +38,7 @@ const BatchRoute = () => {
   const detail = useBatch(batchId);
   const units = useUnits();
   const update = useUpdateBatch(batchId);
+  const ability = useAppAbility();
   const [adding, setAdding] = useState(false);
   const [editing, setEditing] = useState(false);
   const [closing, setClosing] = useState<'packaged' | 'discarded' | null>(null);
@@ -82,6 +85,9 @@ const BatchRoute = () => {
           ) : null}
         </div>
         <div className="flex flex-wrap gap-2">
+          {(batch.status === 'fermenting' || batch.status === 'conditioning') && ability.can('create', 'Transfer') ? (
+            <ButtonLink to={cellarPaths.newTransfer({ batchId: batch.id })}>Transfer to kegs</ButtonLink>
+          ) : null}
           {batch.can.addReading ? <Button onClick={() => setAdding(true)}>Add a reading</Button> : null}
           {batch.can.importReadings ? (
             <ButtonLink to={`${paths.batches}/${batch.id}/import`} variant="secondary">

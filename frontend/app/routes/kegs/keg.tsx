@@ -1,7 +1,7 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { subject } from '../../../../shared/permissions/ability.ts';
-import type { KegView } from '../../../../shared/schemas/kegs.ts';
+import type { KegUndoOfferView, KegView } from '../../../../shared/schemas/kegs.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
@@ -167,8 +167,58 @@ const endingVerbs: Record<Ending, { title: (code: string) => string; confirm: st
   dump: { title: (code) => `Record the beer in ${code} as dumped (poured away)?`, confirm: 'Record it dumped', done: (code) => `The beer in ${code} recorded as dumped; clean the keg before it is filled again.` },
 };
 
+/** A success message; after a return, an emptying or a dump it offers to undo it. */
+interface Notice {
+  text: string;
+  undo?: KegUndoOfferView | null;
+}
+
+/**
+ * The message after an action. "Undo" shows until the server's offer ends (the page's clock is the
+ * server's); any other action on the page clears the message, and the server refuses an undo once
+ * the keg was touched.
+ */
+const KegNotice = ({ kegId, notice, onUndone }: { kegId: string; notice: Notice; onUndone: (n: Notice | null, error?: string) => void }) => {
+  const act = useKegAction(kegId);
+  const until = notice.undo ? new Date(notice.undo.until).getTime() : 0;
+  const [open, setOpen] = useState(() => until > Date.now());
+  useEffect(() => {
+    if (!until) return;
+    const left = until - Date.now();
+    if (left <= 0) return setOpen(false);
+    const t = window.setTimeout(() => setOpen(false), left);
+    return () => window.clearTimeout(t);
+  }, [until]);
+  const undo = notice.undo;
+  return (
+    <Alert tone="success">
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <span>{notice.text}</span>
+        {undo && open ? (
+          <Button
+            variant="secondary"
+            className="min-h-11 md:min-h-9"
+            pending={act.isPending}
+            onClick={async () => {
+              try {
+                await act.mutateAsync({ action: 'undo', body: { actionId: undo.id } });
+                onUndone({ text: 'Undone: the keg is back as it was, with its beer, carbonation plan and place.' });
+              } catch (e) {
+                setOpen(false);
+                onUndone(null, problemMessage(e));
+              }
+            }}
+          >
+            Undo
+          </Button>
+        ) : null}
+      </div>
+    </Alert>
+  );
+};
+
 /** Says what returning, emptying or dumping a keg will change before anything is recorded. */
-const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: Ending; onClose: () => void; onDone: (message: string) => void }) => {
+const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: Ending; onClose: () => void; onDone: (notice: Notice) => void }) => {
   const units = useUnits();
   const act = useKegAction(keg.id);
   const [error, setError] = useState<string | null>(null);
@@ -185,8 +235,8 @@ const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: 
       onConfirm={async () => {
         setError(null);
         try {
-          await act.mutateAsync(ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} });
-          onDone(verbs.done(keg.code));
+          const result = await act.mutateAsync(ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} });
+          onDone({ text: verbs.done(keg.code), undo: result.undo ?? null });
           onClose();
         } catch (err) {
           setError(problemMessage(err));
@@ -212,7 +262,7 @@ const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: 
         {ending !== 'return' && keg.tap ? <li>It comes off tap {keg.tap.code}, whose line then needs cleaning.</li> : null}
         {keg.state !== 'out_of_service' ? <li>{keg.code} needs cleaning before it is filled again.</li> : null}
       </ul>
-      <p className="mt-2 font-medium">This cannot be undone from this screen.</p>
+      <p className="mt-2 font-medium">You can undo it for 10 minutes from the message that follows, as long as nothing else is done with the keg.</p>
     </ConfirmDialog>
   );
 };
@@ -227,7 +277,7 @@ const KegRoute = () => {
   const [page, setPage] = useState(1);
   const plan = usePlanAction();
   const [error, setError] = useState<string | null>(null);
-  const [notice, setNotice] = useState<string | null>(null);
+  const [notice, setNotice] = useState<Notice | null>(null);
   // A new action makes the last one's message stale.
   const openDialog = (o: Open) => {
     setNotice(null);
@@ -273,7 +323,17 @@ const KegRoute = () => {
         </Link>
       </header>
       {error ? <Alert tone="error">{error}</Alert> : null}
-      {notice ? <Alert tone="success">{notice}</Alert> : null}
+      {notice ? (
+        <KegNotice
+          key={notice.undo?.id ?? notice.text}
+          kegId={k.id}
+          notice={notice}
+          onUndone={(n, e) => {
+            setNotice(n);
+            setError(e ?? null);
+          }}
+        />
+      ) : null}
 
       <div className="grid gap-4 lg:grid-cols-2">
         <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="where-title">

@@ -1,4 +1,6 @@
+import { Link } from 'react-router-dom';
 import { Forbidden } from '@/components/errors/forbidden';
+import { paths } from '@/config/paths';
 import { sectionDescription, sectionTitle, settingsScreenSections } from '@/features/settings/sections';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
@@ -13,7 +15,10 @@ const SettingsRoute = () => {
     <div className="flex flex-col gap-5">
       <header>
         <h1 className="text-2xl">Settings</h1>
-        <p className="mt-1 text-ink-muted">The co-op’s rules. Changes apply from the moment they are saved and are kept in the audit trail.</p>
+        <p className="mt-1 text-ink-muted">
+          The co-op’s rules. Changes apply from the moment they are saved and are kept in the{' '}
+          {ability.can('read', 'AuditLog') ? <Link to={paths.audit}>audit trail</Link> : 'audit trail'}.
+        </p>
       </header>
       {settingsScreenSections.map(({ key, Component }) => (
         <section key={key} id={key} aria-labelledby={`${key}-title`} className="rounded-lg border border-line bg-surface p-4">

@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { KegHistoryEntry, KegListQuery, KegView, TapBoardEntry } from '../../../../shared/schemas/kegs.ts';
+import type { KegHistoryEntry, KegListQuery, KegUndoOfferView, KegView, TapBoardEntry } from '../../../../shared/schemas/kegs.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { api } from '@/lib/api-client';
 
@@ -46,18 +46,19 @@ type KegAction =
   | { action: 'return'; body: { note?: string } }
   | { action: 'move'; body: { to: 'cellar' | 'cold_room' | 'missing'; tapId?: string | null; note?: string } }
   | { action: 'empty'; body: { note?: string; dumped?: boolean } }
-  | { action: 'level'; body: { remainingLiters: number } };
+  | { action: 'level'; body: { remainingLiters: number } }
+  | { action: 'undo'; body: { actionId?: string } };
 
-/** Check-out, return, moves, emptying and levels: each answers with the keg as it is now. */
+/** Check-out, return, moves, emptying, levels and undo: each answers with the keg as it is now (a return, an emptying or a dump with its undo offer). */
 export function useKegAction(kegId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (a: KegAction) =>
       a.action === 'level'
-        ? api.patch<{ keg: KegView }>(`/api/kegs/${encodeURIComponent(kegId)}/level`, a.body)
-        : api.post<{ keg: KegView }>(`/api/kegs/${encodeURIComponent(kegId)}/${a.action}`, a.body),
+        ? api.patch<{ keg: KegView; undo?: KegUndoOfferView }>(`/api/kegs/${encodeURIComponent(kegId)}/level`, a.body)
+        : api.post<{ keg: KegView; undo?: KegUndoOfferView }>(`/api/kegs/${encodeURIComponent(kegId)}/${a.action}`, a.body),
     onSuccess: async (data) => {
-      queryClient.setQueryData(kegKeys.detail(kegId), data);
+      queryClient.setQueryData(kegKeys.detail(kegId), { keg: data.keg });
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: kegKeys.all }),
         queryClient.invalidateQueries({ queryKey: ['equipment'] }),

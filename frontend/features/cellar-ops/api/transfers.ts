@@ -14,10 +14,11 @@ export interface TransferCandidate {
   gravity: GravityStability;
 }
 
-export const useTransferCandidates = () =>
+export const useTransferCandidates = (enabled = true) =>
   useQuery({
     queryKey: ['transfers', 'candidates'],
     queryFn: ({ signal }) => api.get<{ items: TransferCandidate[] }>('/api/transfers/candidates', { signal }).then((r) => r.items),
+    enabled,
   });
 
 export function useRecordTransfer() {

@@ -1,5 +1,6 @@
 import type { Equipment } from '../../../../shared/schemas/equipment.ts';
 import { ButtonLink } from '@/components/ui/button';
+import { useTransferCandidates } from '@/features/cellar-ops/api/transfers';
 import { cellarPaths } from '@/features/cellar-ops/paths';
 import { useAppAbility } from '@/lib/ability';
 
@@ -9,6 +10,10 @@ import { useAppAbility } from '@/lib/ability';
  */
 export const VesselCellarActions = ({ item }: { item: Pick<Equipment, 'id' | 'kind' | 'state'> }) => {
   const ability = useAppAbility();
+  const canTransfer = item.kind === 'fermenter' && item.state === 'holding' && ability.can('create', 'Transfer');
+  // The batch this fermenter holds (its latest booking's), so the transfer form opens with it chosen.
+  const candidates = useTransferCandidates(canTransfer);
+  const held = candidates.data?.find((c) => c.fermenter?.id === item.id);
   if (item.kind !== 'keg' && item.kind !== 'fermenter') return null;
   const big = 'min-h-12 md:min-h-12 pointer-coarse:min-h-12 px-5 text-base';
   return (
@@ -18,9 +23,9 @@ export const VesselCellarActions = ({ item }: { item: Pick<Equipment, 'id' | 'ki
           Record a cycle
         </ButtonLink>
       ) : null}
-      {item.kind === 'fermenter' && item.state === 'holding' && ability.can('create', 'Transfer') ? (
-        <ButtonLink to={cellarPaths.newTransfer()} variant="primary" className={big}>
-          Transfer to kegs
+      {canTransfer ? (
+        <ButtonLink to={cellarPaths.newTransfer(held ? { batchId: held.batchId } : {})} variant="primary" className={big}>
+          {held ? `Transfer ${held.name} to kegs` : 'Transfer to kegs'}
         </ButtonLink>
       ) : null}
       {item.kind === 'keg' && ability.can('read', 'Keg') ? (

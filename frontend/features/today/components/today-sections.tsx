@@ -128,13 +128,16 @@ export const CellarToday = ({ section }: { section: TodayCellarSection }) => (
       ) : (
         <ul className={rows}>
           {section.transfersDue.map((t) => (
-            <li key={t.batchId} className={row}>
+            <li key={t.batchId} className={`${row} flex-wrap`}>
               <Link to={`${paths.batches}/${t.batchId}`}>
                 {t.fermenterCode} · {t.batchName}
               </Link>
               <span className="text-ink-muted">
                 {t.ownerName}, booking ends {formatDateTime(t.bookingEndsAt)}
               </span>
+              <Link to={cellarPaths.newTransfer({ batchId: t.batchId })} aria-label={`Transfer ${t.batchName} to kegs`}>
+                Transfer to kegs
+              </Link>
             </li>
           ))}
         </ul>

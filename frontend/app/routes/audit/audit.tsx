@@ -1,0 +1,264 @@
+import { createColumnHelper } from '@tanstack/react-table';
+import { useCallback, useMemo } from 'react';
+import { Link } from 'react-router-dom';
+import { z } from 'zod';
+import { auditSortFields, auditSubjectTypes, type AuditChange, type AuditEntry } from '../../../../shared/schemas/audit.ts';
+import { defaultPageSize, maxPageSize } from '../../../../shared/schemas/pagination.ts';
+import { Forbidden } from '@/components/errors/forbidden';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { Input, Select } from '@/components/ui/input';
+import { useServerTable } from '@/components/ui/use-server-table';
+import { paths, invoiceHref } from '@/config/paths';
+import { useAuditTrail } from '@/features/audit/api/get-audit';
+import { cellarPaths } from '@/features/cellar-ops/paths';
+import { useUsers } from '@/features/users/api/get-users';
+import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useSearchParamsState } from '@/hooks/use-search-params-state';
+import { useAppAbility } from '@/lib/ability';
+import { problemMessage } from '@/lib/api-client';
+import { formatDateTime } from '@/utils/format';
+
+type SortField = (typeof auditSortFields)[number];
+const day = z.iso.date();
+
+/** The screen's state, all of it in the URL: filters, sort and page. Bad values fall back to the defaults. */
+const screenQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).catch(1),
+  pageSize: z.coerce.number().int().min(1).max(maxPageSize).catch(defaultPageSize),
+  sort: z.enum(auditSortFields).catch('at'),
+  order: z.enum(['asc', 'desc']).catch('desc'),
+  actorId: z.uuid().optional().catch(undefined),
+  subjectType: z.string().max(40).optional().catch(undefined),
+  subjectId: z.string().max(80).optional().catch(undefined),
+  from: day.optional().catch(undefined),
+  to: day.optional().catch(undefined),
+});
+type ScreenQuery = z.infer<typeof screenQuerySchema>;
+const defaults = screenQuerySchema.parse({});
+
+function toParams(q: ScreenQuery): URLSearchParams {
+  const p = new URLSearchParams();
+  for (const k of ['actorId', 'subjectType', 'subjectId', 'from', 'to'] as const) if (q[k]) p.set(k, q[k]!);
+  if (q.sort !== defaults.sort) p.set('sort', q.sort);
+  if (q.order !== defaults.order) p.set('order', q.order);
+  if (q.page !== 1) p.set('page', String(q.page));
+  if (q.pageSize !== defaultPageSize) p.set('pageSize', String(q.pageSize));
+  return p;
+}
+
+/** A day in the browser's time zone as the instant it starts (`next`: the instant it ends). */
+const dayStart = (d: string, next = false) => {
+  const t = new Date(`${d}T00:00:00`);
+  if (next) t.setDate(t.getDate() + 1);
+  return t.toISOString();
+};
+
+/** Where a record of the trail has a screen of its own. */
+function recordHref(e: Pick<AuditEntry, 'subjectType' | 'subjectId'>): string | null {
+  const id = e.subjectId;
+  if (!id) return null;
+  switch (e.subjectType) {
+    case 'Batch':
+      return `${paths.batches}/${encodeURIComponent(id)}`;
+    case 'Equipment':
+      return `${paths.cellar}/${encodeURIComponent(id)}`;
+    case 'Keg':
+      return cellarPaths.keg(id);
+    case 'Invoice':
+      return invoiceHref(id);
+    case 'Setting':
+    case 'BillingProfile':
+      return paths.settings;
+    default:
+      return null;
+  }
+}
+
+const actionLabel = (a: string) => a.replace(/[_:]/g, ' ');
+const fieldLabel = (f: string) => f.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+function show(v: unknown): string {
+  if (v === null || v === undefined || v === '') return '—';
+  if (typeof v === 'boolean') return v ? 'yes' : 'no';
+  if (typeof v === 'string') return /^\d{4}-\d{2}-\d{2}T/.test(v) ? formatDateTime(v) : v;
+  if (typeof v === 'number') return String(v);
+  const s = JSON.stringify(v);
+  return s.length > 120 ? `${s.slice(0, 117)}…` : s;
+}
+
+/** Before and after, one changed field a line; a field the action only set shows its new value. */
+const Changes = ({ changes }: { changes: AuditChange[] }) =>
+  changes.length === 0 ? (
+    <span className="text-ink-muted">—</span>
+  ) : (
+    <ul className="flex min-w-56 flex-col gap-0.5 text-xs">
+      {changes.slice(0, 12).map((c) => (
+        <li key={c.field}>
+          <span className="font-medium">{c.field === 'from → to' ? 'changed' : fieldLabel(c.field)}</span>:{' '}
+          {c.before !== null ? (
+            <>
+              <del className="text-ink-muted">{show(c.before)}</del> → <ins className="no-underline">{show(c.after)}</ins>
+            </>
+          ) : (
+            show(c.after)
+          )}
+        </li>
+      ))}
+      {changes.length > 12 ? <li className="text-ink-muted">and {changes.length - 12} more</li> : null}
+    </ul>
+  );
+
+const column = createColumnHelper<AuditEntry>();
+
+/** The audit trail: who changed what and when, before and after; filtered, sorted and paged on the server. */
+const AuditRoute = () => {
+  useDocumentTitle('Audit trail');
+  const ability = useAppAbility();
+  const allowed = ability.can('read', 'AuditLog');
+  const [searchParams, updateSearchParams] = useSearchParamsState();
+  const query = useMemo(() => screenQuerySchema.parse(Object.fromEntries(searchParams)), [searchParams]);
+  const setQuery = useCallback(
+    (patch: Partial<ScreenQuery>) =>
+      updateSearchParams((previous) => {
+        const current = screenQuerySchema.parse(Object.fromEntries(previous));
+        return toParams({ ...current, ...patch, page: patch.page ?? 1 });
+      }),
+    [updateSearchParams],
+  );
+  const people = useUsers({ page: 1, pageSize: 100, sort: 'name', order: 'asc', q: undefined });
+  const trail = useAuditTrail(
+    allowed
+      ? {
+          page: query.page,
+          pageSize: query.pageSize,
+          sort: query.sort,
+          order: query.order,
+          actorId: query.actorId,
+          subjectType: query.subjectType,
+          subjectId: query.subjectId,
+          from: query.from ? dayStart(query.from) : undefined,
+          to: query.to ? dayStart(query.to, true) : undefined,
+        }
+      : {},
+  );
+
+  const columns = useMemo(
+    () => [
+      column.accessor('at', {
+        header: 'When',
+        sortDescFirst: true,
+        cell: ({ getValue }) => <time className="whitespace-nowrap">{formatDateTime(getValue())}</time>,
+      }),
+      column.accessor((e) => e.actorName ?? '', {
+        id: 'actor',
+        header: 'Who',
+        cell: ({ row }) =>
+          row.original.actorId ? (
+            <button type="button" className="text-left underline decoration-dotted" onClick={() => setQuery({ actorId: row.original.actorId! })} title="Show only this person">
+              {row.original.actorName ?? 'Removed account'}
+            </button>
+          ) : (
+            <span className="text-ink-muted">The system</span>
+          ),
+      }),
+      column.accessor('action', { header: 'What', cell: ({ getValue }) => <span className="whitespace-nowrap">{actionLabel(getValue())}</span> }),
+      column.accessor('subjectType', {
+        header: 'Record',
+        cell: ({ row }) => {
+          const e = row.original;
+          const href = recordHref(e);
+          const code = typeof (e.detail as { code?: unknown } | null)?.code === 'string' ? (e.detail as { code: string }).code : null;
+          const label = `${e.subjectType}${code ? ` ${code}` : e.subjectId ? ` ${e.subjectId.length > 13 ? `${e.subjectId.slice(0, 8)}…` : e.subjectId}` : ''}`;
+          return href ? (
+            <Link to={href} className="whitespace-nowrap">
+              {label}
+            </Link>
+          ) : (
+            <span className="whitespace-nowrap">{label}</span>
+          );
+        },
+      }),
+      column.display({ id: 'changes', header: 'Before → after', cell: ({ row }) => <Changes changes={row.original.changes} /> }),
+    ],
+    [setQuery],
+  );
+  const table = useServerTable({
+    data: trail.data,
+    columns,
+    query,
+    onQueryChange: (q) => setQuery({ sort: q.sort, order: q.order }),
+    isSortField: (id): id is SortField => (auditSortFields as readonly string[]).includes(id),
+    getRowId: (e) => e.id,
+  });
+
+  if (!allowed) return <Forbidden what="the audit trail" />;
+  const filtered = Boolean(query.actorId || query.subjectType || query.subjectId || query.from || query.to);
+  const label = 'flex flex-col gap-1 text-sm font-medium';
+  return (
+    <div className="flex flex-col gap-4">
+      <header>
+        <h1 className="text-2xl">Audit trail</h1>
+        <p className="mt-1 text-ink-muted">Every change to the co-op’s records: who made it, when, and what it changed. Newest first.</p>
+      </header>
+      <form className="grid gap-2 sm:grid-cols-2 lg:grid-cols-[14rem_12rem_1fr_10rem_10rem]" role="search" aria-label="Filter the audit trail" onSubmit={(e) => e.preventDefault()}>
+        <label className={label}>
+          Person
+          <Select value={query.actorId ?? ''} onChange={(e) => setQuery({ actorId: e.target.value || undefined })}>
+            <option value="">Anyone</option>
+            {people.data?.items.map((u) => (
+              <option key={u.id} value={u.id}>
+                {u.name}
+              </option>
+            ))}
+          </Select>
+        </label>
+        <label className={label}>
+          Record type
+          <Select value={query.subjectType ?? ''} onChange={(e) => setQuery({ subjectType: e.target.value || undefined })}>
+            <option value="">Any</option>
+            {auditSubjectTypes.map((t) => (
+              <option key={t} value={t}>
+                {t.replace(/([a-z])([A-Z])/g, '$1 $2')}
+              </option>
+            ))}
+          </Select>
+        </label>
+        <label className={label}>
+          Record id
+          <Input key={query.subjectId ?? ''} defaultValue={query.subjectId ?? ''} placeholder="The record's id" onBlur={(e) => setQuery({ subjectId: e.target.value.trim() || undefined })} onKeyDown={(e) => {
+            if (e.key === 'Enter') setQuery({ subjectId: e.currentTarget.value.trim() || undefined });
+          }} />
+        </label>
+        <label className={label}>
+          From
+          <Input type="date" value={query.from ?? ''} max={query.to} onChange={(e) => setQuery({ from: e.target.value || undefined })} />
+        </label>
+        <label className={label}>
+          To
+          <Input type="date" value={query.to ?? ''} min={query.from} onChange={(e) => setQuery({ to: e.target.value || undefined })} />
+        </label>
+      </form>
+      {filtered ? (
+        <div>
+          <Button variant="ghost" onClick={() => updateSearchParams(() => new URLSearchParams())}>
+            Clear the filters
+          </Button>
+        </div>
+      ) : null}
+      {trail.isError ? <Alert tone="error">{problemMessage(trail.error)}</Alert> : null}
+      <DataTable table={table} caption="Audit trail" isLoading={trail.isPending} isFetching={trail.isFetching} empty={filtered ? 'Nothing matches these filters.' : 'Nothing recorded yet.'} />
+      <DataTablePagination
+        page={query.page}
+        pageSize={query.pageSize}
+        total={trail.data?.total ?? 0}
+        onPageChange={(page) => setQuery({ page })}
+        onPageSizeChange={(pageSize) => setQuery({ pageSize })}
+        isPlaceholder={trail.isPlaceholderData}
+        noun={['change', 'changes']}
+      />
+    </div>
+  );
+};
+
+export default AuditRoute;
