@@ -31,6 +31,7 @@ import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
 import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
 import { healthRoutes } from './modules/health/health.routes.ts';
+import { invoiceRemindersRoutes, kegRemindersRoutes } from './modules/reminders/reminders.routes.ts';
 import { mountCellarOperations } from './modules/sanitation/cellar-operations.routes.ts';
 import { settingsRoutes } from './modules/settings/settings.routes.ts';
 import { todayRoutes } from './modules/today/today.routes.ts';
@@ -111,6 +112,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/production-records', productionRecordsRoutes(deps));
   app.use('/api/reports/trace', traceReportRoutes(deps));
   app.use('/api/invoice-runs', invoiceRunsRoutes(deps));
+  app.use('/api/invoices', invoiceRemindersRoutes(deps));
   app.use('/api/invoices', invoicesRoutes(deps));
   app.use('/api/prices', pricesRoutes(deps));
   app.use('/api/tax-rates', taxRatesRoutes(deps));
@@ -118,6 +120,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/billing', billingRoutes(deps));
   app.use('/api/credit-notes', creditNotesRoutes(deps));
   app.use('/api/webhooks', paymentWebhookRoutes(deps));
+  app.use('/api/kegs', kegRemindersRoutes(deps));
   mountCellarOperations(app, deps);
   app.use('/api', apiNotFound);
 
