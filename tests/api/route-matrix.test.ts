@@ -81,6 +81,9 @@ const expected: Record<string, Entry> = {
   'GET /api/bookings/:id': { cells: signedIn, record: 'booking' },
   'POST /api/bookings': { cells: [401, ok, ok, 403, 403, ok] },
   'DELETE /api/bookings/:id': { cells: [401, ok, 403, 403, 403, ok], record: 'booking' },
+  // A person's own calendar links; the rota's feed is for the brewer on duty (the treasurer has none).
+  'GET /api/calendar-feeds': { cells: signedIn },
+  'POST /api/calendar-feeds': { cells: [401, ok, ok, ok, 403, ok] },
 
   'GET /api/settings': { cells: [401, 403, 403, ok, ok, ok] },
   'GET /api/settings/:key': { cells: [401, 403, 403, ok, ok, ok], record: 'setting' },

@@ -72,6 +72,7 @@ const entries: Record<string, FuzzEntry> = {
   'POST /api/equipment/:id/refill': { as: 'brewer', record: 'equipment', valid: () => ({ remainingKg: 5, note: 'Fuzz' }) },
   'POST /api/bookings': { as: 'member', valid: (f) => ({ equipmentId: f.fermenterId, startsAt: iso(new Date(f.now.getTime() + 20 * DAY)), endsAt: iso(new Date(f.now.getTime() + 24 * DAY)), notes: 'Fuzz' }) },
   'DELETE /api/bookings/:id': { as: 'member', record: 'booking', valid: () => ({}) },
+  'POST /api/calendar-feeds': { as: 'member', valid: () => ({ kind: 'member' }) },
   'PUT /api/settings/:key': {
     as: 'admin',
     record: 'setting',
