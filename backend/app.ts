@@ -28,9 +28,11 @@ import {
   taxRatesRoutes,
 } from './modules/billing/billing.routes.ts';
 import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
+import { calendarFeedPublicRoutes, calendarFeedsRoutes } from './modules/calendar/calendar-feed.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
 import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
 import { healthRoutes } from './modules/health/health.routes.ts';
+import { invoiceRemindersRoutes, kegRemindersRoutes } from './modules/reminders/reminders.routes.ts';
 import { mountCellarOperations } from './modules/sanitation/cellar-operations.routes.ts';
 import { settingsRoutes } from './modules/settings/settings.routes.ts';
 import { todayRoutes } from './modules/today/today.routes.ts';
@@ -77,6 +79,8 @@ export function createApp(deps: Deps): Express {
 
   // Health answers before sessions so a load balancer's probes create none.
   app.use('/api/health', healthRoutes(deps));
+  // Private calendar feeds for calendar programs: the token in the address is the credential, no session.
+  app.use('/ical', calendarFeedPublicRoutes(deps));
 
   // Bodies: JSON everywhere except the payment webhook, which must see the raw bytes it was signed over.
   app.use('/api/webhooks', express.raw({ type: '*/*', limit: '1mb' }));
@@ -105,12 +109,14 @@ export function createApp(deps: Deps): Express {
   app.use('/api/dev', mailboxRoutes(deps));
   app.use('/api/equipment', equipmentRoutes(deps));
   app.use('/api/bookings', bookingsRoutes(deps));
+  app.use('/api/calendar-feeds', calendarFeedsRoutes(deps));
   app.use('/api/settings', settingsRoutes(deps));
   app.use('/api/batches', batchesRoutes(deps));
   app.use('/api/readings', readingsRoutes(deps));
   app.use('/api/production-records', productionRecordsRoutes(deps));
   app.use('/api/reports/trace', traceReportRoutes(deps));
   app.use('/api/invoice-runs', invoiceRunsRoutes(deps));
+  app.use('/api/invoices', invoiceRemindersRoutes(deps));
   app.use('/api/invoices', invoicesRoutes(deps));
   app.use('/api/prices', pricesRoutes(deps));
   app.use('/api/tax-rates', taxRatesRoutes(deps));
@@ -118,6 +124,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/billing', billingRoutes(deps));
   app.use('/api/credit-notes', creditNotesRoutes(deps));
   app.use('/api/webhooks', paymentWebhookRoutes(deps));
+  app.use('/api/kegs', kegRemindersRoutes(deps));
   mountCellarOperations(app, deps);
   app.use('/api', apiNotFound);
 

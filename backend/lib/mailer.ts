@@ -1,4 +1,5 @@
 import nodemailer from 'nodemailer';
+import { CompiledQuery, type Kysely } from 'kysely';
 import type PgBoss from 'pg-boss';
 import type { Config } from '../config/env.ts';
 
@@ -34,4 +35,19 @@ export async function deliverMail(config: Config, transport: ReturnType<typeof c
     html: mail.html,
     attachments: mail.attachments?.map((a) => ({ filename: a.filename, contentType: a.contentType, content: Buffer.from(a.contentBase64, 'base64') })),
   });
+}
+
+/**
+ * Queue an e-mail as part of a database transaction: the job is written on the transaction's own
+ * connection, so it exists exactly when the change that asked for it commits (a rolled-back or
+ * replayed change queues nothing).
+ */
+export async function enqueueMailIn(trx: Kysely<any>, queue: PgBoss, mail: OutgoingMail): Promise<void> {
+  const db = {
+    executeSql: async (text: string, values: unknown[] = []) => {
+      const result = await trx.executeQuery(CompiledQuery.raw(text, values));
+      return { rows: result.rows };
+    },
+  };
+  await queue.send('email.send', mail, { retryLimit: 10, retryDelay: 5, retryBackoff: true, db });
 }

@@ -21,12 +21,14 @@ export const actions = [
   'send', // invoices by e-mail
   'export', // ledgers and records for the accountant or the licensing office
   'run', // invoice runs
+  'remind', // overdue invoices and kegs, by e-mail
 ] as const;
 export type Action = (typeof actions)[number];
 
 type OwnedFacts = { ownerId: string };
 type MemberFacts = { memberId: string };
 type UserFacts = { id: string };
+type FeedFacts = { ownerId: string; kind: 'member' | 'rota' };
 
 export const subjectNames = [
   'User',
@@ -49,6 +51,7 @@ export const subjectNames = [
   'Invoice',
   'Payment',
   'CreditNote',
+  'CalendarFeed',
 ] as const;
 export type SubjectName = (typeof subjectNames)[number];
 
@@ -64,7 +67,8 @@ export type Subjects =
   | (MemberFacts & ForcedSubject<'Invoice'>)
   | (MemberFacts & ForcedSubject<'Payment'>)
   | (MemberFacts & ForcedSubject<'CreditNote'>)
-  | (MemberFacts & ForcedSubject<'Charge'>);
+  | (MemberFacts & ForcedSubject<'Charge'>)
+  | (FeedFacts & ForcedSubject<'CalendarFeed'>);
 
 export type AppAbility = MongoAbility<[Action, Subjects]>;
 type Builder = AbilityBuilder<AppAbility>;
@@ -99,6 +103,7 @@ const rolePermissions: Record<Role, (actor: Actor, b: Builder) => void> = {
     can('read', ['Invoice', 'Payment', 'CreditNote', 'Charge'], mine);
     can('pay', 'Invoice', mine);
     can('read', 'ProductionRecord', mine);
+    can(['read', 'update'], 'CalendarFeed', { ownerId: actor.id, kind: 'member' });
   },
   brewer_on_duty: (actor, { can }) => {
     can(['read', 'update'], 'User', { id: actor.id });
@@ -110,11 +115,12 @@ const rolePermissions: Record<Role, (actor: Actor, b: Builder) => void> = {
     can(['create', 'read', 'import', 'delete'], 'Reading');
     can(['create', 'read'], 'SanitationCycle');
     can(['create', 'read'], 'Transfer');
-    can(['read', 'checkout', 'readOwner'], 'Keg');
+    can(['read', 'checkout', 'readOwner', 'remind'], 'Keg');
     can(['create', 'read', 'update'], 'CarbonationPlan');
     can('read', 'SanitationAudit');
     can(['read', 'export'], 'ProductionRecord');
     can('read', 'Setting');
+    can(['read', 'update'], 'CalendarFeed', { ownerId: actor.id }); // their own and the rota's
   },
   treasurer: (actor, { can }) => {
     can('update', 'User', { id: actor.id });

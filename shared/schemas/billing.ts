@@ -196,6 +196,8 @@ export interface InvoiceSummary {
   paidAt: string | null;
   voidedAt: string | null;
   createdAt: string;
+  /** When the member was last reminded of it (overdue reminders), if ever. */
+  lastRemindedAt: string | null;
 }
 
 export interface InvoiceLine {

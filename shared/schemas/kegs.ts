@@ -128,6 +128,8 @@ export interface KegView {
   checkedOutAt: string | null;
   dueAt: string | null;
   overdue: boolean;
+  /** When the holder was last reminded to bring it back (during this check-out), if ever. */
+  lastRemindedAt: string | null;
   contents: KegContents | null;
   carbonation: KegCarbonation | null;
   freshUntil: string | null;

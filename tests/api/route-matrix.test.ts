@@ -81,6 +81,9 @@ const expected: Record<string, Entry> = {
   'GET /api/bookings/:id': { cells: signedIn, record: 'booking' },
   'POST /api/bookings': { cells: [401, ok, ok, 403, 403, ok] },
   'DELETE /api/bookings/:id': { cells: [401, ok, 403, 403, 403, ok], record: 'booking' },
+  // A person's own calendar links; the rota's feed is for the brewer on duty (the treasurer has none).
+  'GET /api/calendar-feeds': { cells: signedIn },
+  'POST /api/calendar-feeds': { cells: [401, ok, ok, ok, 403, ok] },
 
   'GET /api/settings': { cells: [401, 403, 403, ok, ok, ok] },
   'GET /api/settings/:key': { cells: [401, 403, 403, ok, ok, ok], record: 'setting' },
@@ -122,6 +125,9 @@ const expected: Record<string, Entry> = {
   'POST /api/invoices/:id/payments': { cells: books, record: 'invoice' },
   'POST /api/invoices/:id/void': { cells: books, record: 'invoice' },
   'POST /api/invoices/:id/refunds': { cells: books, record: 'invoice' },
+  'GET /api/invoices/reminders': { cells: books },
+  'POST /api/invoices/reminders': { cells: books },
+  'POST /api/invoices/:id/reminders': { cells: books, record: 'invoice' },
   'GET /api/prices': { cells: books },
   'POST /api/prices': { cells: books },
   'DELETE /api/prices/:id': { cells: books, record: 'price' },
@@ -164,6 +170,7 @@ const expected: Record<string, Entry> = {
   'POST /api/kegs/:id/empty': { cells: kegHandling, record: 'keg' },
   'POST /api/kegs/:id/undo': { cells: kegHandling, record: 'keg' },
   'PATCH /api/kegs/:id/level': { cells: kegHandling, record: 'keg' },
+  'POST /api/kegs/:id/reminders': { cells: kegHandling, record: 'keg' },
   'POST /api/carbonation-plans/preview': { cells: signedIn },
   'POST /api/carbonation-plans': { cells: cellarRota },
   'GET /api/carbonation-plans': { cells: signedIn },

@@ -188,7 +188,7 @@ describe('an invoice paid twice online', { timeout: 120_000 }, () => {
         .execute();
       const session = { id, object: 'checkout.session', status: 'complete', payment_status: 'paid', amount_total: invoice.total_cents, currency: 'eur', payment_intent: `pi_test_e2e_${n}` };
       const event = { id: `evt_test_e2e_twice_${n}`, object: 'event', type: 'checkout.session.completed', data: { object: session } } as unknown as ProviderEvent;
-      expect((await handleProviderEvent(ctx.db, event, ctx.clock.now())).outcome).toBe(n === 1 ? 'paid' : 'overpaid');
+      expect((await handleProviderEvent(ctx.db, event, ctx.clock.now(), ctx.deps.queue)).outcome).toBe(n === 1 ? 'paid' : 'overpaid');
     }
     const { page, context } = await signIn('treasurer@example.org');
     await page.goto('/billing');

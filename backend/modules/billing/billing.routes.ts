@@ -45,6 +45,7 @@ import { verifyWebhook } from './payment-provider.ts';
 import { closeStaleCheckouts, confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded, pageOverpayments } from './payments.service.ts';
 import { listQuerySchema } from '../../../shared/schemas/pagination.ts';
 import { addManualCharge, addPrice, addTaxRate, listManualCharges, listPrices, removeManualCharge, removePrice, removeTaxRate } from './prices.service.ts';
+import { queueReceipt } from './receipts.service.ts';
 import { ageingReport, billingSummary } from './reports.service.ts';
 
 const idParam = z.object({ id: z.string() });
@@ -123,7 +124,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
 }
 
 export function invoicesRoutes(deps: Deps): Router {
-  const { db, config, clock } = deps;
+  const { db, config, clock, queue } = deps;
   const router = Router();
   uuidParams(router, { id: 'Invoice' });
   router.use(requireUser);
@@ -202,7 +203,7 @@ export function invoicesRoutes(deps: Deps): Router {
     // Paying online is for the member the invoice is addressed to.
     if (row.member_id !== req.user!.id) throw forbidden('Only the member it is addressed to pays an invoice online; record a payment instead.');
     can(req).throwUnlessCan('pay', subject('Invoice', { memberId: row.member_id }));
-    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }, clock.now()));
+    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }, clock.now(), queue));
   });
 
   router.post('/:id/checkout/confirm', async (req, res) => {
@@ -211,7 +212,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     if (row.member_id !== req.user!.id) throw forbidden();
     const body = z.object({ sessionId: z.string().min(1).max(200) }).parse(req.body ?? {});
-    const outcome = await confirmCheckout(db, config, row.id, body.sessionId, clock.now());
+    const outcome = await confirmCheckout(db, config, row.id, body.sessionId, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
     res.json({ outcome, invoice: await getDetail(db, row.id, today) });
   });
@@ -222,8 +223,12 @@ export function invoicesRoutes(deps: Deps): Router {
     const input = paymentInputSchema.parse(req.body ?? {});
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
-    const payment = await db.transaction().execute((trx) => recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id));
-    await closeStaleCheckouts(db, config, row.id, clock.now());
+    const payment = await db.transaction().execute(async (trx) => {
+      const recorded = await recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id);
+      await queueReceipt(trx, queue, recorded.id);
+      return recorded;
+    });
+    await closeStaleCheckouts(db, config, row.id, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
     res.status(201).json({ payment, invoice: await getDetail(db, row.id, today) });
   });
@@ -238,7 +243,7 @@ export function invoicesRoutes(deps: Deps): Router {
       const { today } = await coopToday(trx, clock.now());
       return voidInvoice(trx, row.id, input, today, req.user!.id);
     });
-    await closeStaleCheckouts(db, config, row.id, clock.now());
+    await closeStaleCheckouts(db, config, row.id, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
     res.json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
@@ -253,7 +258,7 @@ export function invoicesRoutes(deps: Deps): Router {
       const { today } = await coopToday(trx, clock.now());
       return refundInvoice(trx, row.id, input, today, req.user!.id);
     });
-    await closeStaleCheckouts(db, config, row.id, clock.now());
+    await closeStaleCheckouts(db, config, row.id, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
     res.status(201).json({ ...result, invoice: await getDetail(db, row.id, today) });
   });
@@ -442,7 +447,7 @@ export function creditNotesRoutes({ db, clock }: Deps): Router {
 }
 
 /** The payment provider's webhook: no session, no CSRF token; the signature over the raw body is the check. */
-export function paymentWebhookRoutes({ db, config, clock }: Deps): Router {
+export function paymentWebhookRoutes({ db, config, clock, queue }: Deps): Router {
   const router = Router();
   router.post('/payments', async (req, res) => {
     const signature = req.get('stripe-signature');
@@ -455,7 +460,7 @@ export function paymentWebhookRoutes({ db, config, clock }: Deps): Router {
       req.log?.warn({ err: (err as Error).message }, 'payment webhook with a bad signature');
       throw badRequest('The signature does not match the body: the event is rejected.');
     }
-    const result = await handleProviderEvent(db, event, clock.now());
+    const result = await handleProviderEvent(db, event, clock.now(), queue);
     res.json({ received: true, ...result });
   });
   return router;

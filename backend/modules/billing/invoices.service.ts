@@ -61,6 +61,7 @@ function summaryQuery(db: Database) {
       'invoice.created_at',
       'invoice.void_reason',
       'invoice.run_id',
+      sql<Date | null>`(select max(r.sent_at) from reminder r where r.invoice_id = invoice.id)`.as('last_reminded_at'),
     ]);
 }
 
@@ -90,6 +91,7 @@ export function toSummary(r: SummaryRow, today: string): InvoiceSummary {
     paidAt: r.paid_at?.toISOString() ?? null,
     voidedAt: r.voided_at?.toISOString() ?? null,
     createdAt: r.created_at.toISOString(),
+    lastRemindedAt: r.last_reminded_at ? new Date(r.last_reminded_at).toISOString() : null,
   };
 }
 

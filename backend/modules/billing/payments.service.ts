@@ -1,3 +1,4 @@
+import type PgBoss from 'pg-boss';
 import { z } from 'zod';
 import type { Overpayment } from '../../../shared/schemas/billing.ts';
 import type { Config } from '../../config/env.ts';
@@ -8,6 +9,7 @@ import { isUuid } from '../../lib/uuid-params.ts';
 import { coopToday } from './billing-profile.service.ts';
 import { lockInvoice, recordPayment } from './invoices.service.ts';
 import { paymentProvider, type CheckoutSession, type ProviderEvent } from './payment-provider.ts';
+import { queueReceipt } from './receipts.service.ts';
 
 const providerDown = (err: unknown, what = 'The payment provider did not answer') =>
   new HttpProblem(502, 'Payment provider unavailable', `${what}: ${(err as Error).message}`);
@@ -29,6 +31,7 @@ export async function createCheckout(
   invoiceId: string,
   actor: { id: string; email: string },
   now: Date,
+  queue: PgBoss,
 ): Promise<{ url: string; sessionId: string; reused: boolean }> {
   const provider = paymentProvider(config);
   for (let attempt = 0; attempt < 4; attempt++) {
@@ -56,9 +59,9 @@ export async function createCheckout(
           throw providerDown(err);
         }
         if (remote.status === 'open') return { url: remote.url ?? open.url, sessionId: open.id, reused: true };
-        await settleClosedSession(db, remote, now);
+        await settleClosedSession(db, remote, now, queue);
       } else {
-        await expireAtProvider(db, config, open, now);
+        await expireAtProvider(db, config, open, now, queue);
       }
       continue;
     }
@@ -123,7 +126,7 @@ export async function createCheckout(
  * expired at the provider, so the member cannot pay it as well. Best effort: when the provider cannot
  * be reached the session stays open (a new checkout then refuses), and money paid on it is booked.
  */
-export async function closeStaleCheckouts(db: Database, config: Config, invoiceId: string, now: Date): Promise<{ closed: number; failed: number }> {
+export async function closeStaleCheckouts(db: Database, config: Config, invoiceId: string, now: Date, queue: PgBoss): Promise<{ closed: number; failed: number }> {
   const inv = await db.selectFrom('invoice').select(['status', 'total_cents', 'paid_cents', 'credited_cents']).where('id', '=', invoiceId).executeTakeFirst();
   if (!inv) return { closed: 0, failed: 0 };
   const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
@@ -133,7 +136,7 @@ export async function closeStaleCheckouts(db: Database, config: Config, invoiceI
   for (const s of open) {
     if (inv.status === 'issued' && s.amount_cents === due) continue;
     try {
-      await expireAtProvider(db, config, s, now);
+      await expireAtProvider(db, config, s, now, queue);
       closed++;
     } catch {
       failed++;
@@ -143,7 +146,7 @@ export async function closeStaleCheckouts(db: Database, config: Config, invoiceI
 }
 
 /** Expires an open session at the provider and here; refuses (502) when the provider cannot. */
-async function expireAtProvider(db: Database, config: Config, open: OpenSession, now: Date): Promise<void> {
+async function expireAtProvider(db: Database, config: Config, open: OpenSession, now: Date, queue: PgBoss): Promise<void> {
   const provider = paymentProvider(config);
   let closed: CheckoutSession;
   try {
@@ -159,13 +162,13 @@ async function expireAtProvider(db: Database, config: Config, open: OpenSession,
     if (remote.status === 'open') throw providerDown(err, 'The earlier checkout of this invoice could not be closed, so no new one was opened');
     closed = remote;
   }
-  await settleClosedSession(db, closed, now);
+  await settleClosedSession(db, closed, now, queue);
 }
 
 /** Brings our record of a session the provider reports as no longer open into line with it. */
-async function settleClosedSession(db: Database, remote: CheckoutSession, now: Date): Promise<void> {
+async function settleClosedSession(db: Database, remote: CheckoutSession, now: Date, queue: PgBoss): Promise<void> {
   if (remote.payment_status === 'paid') {
-    await db.transaction().execute((trx) => applyPaidSession(trx, remote, now));
+    await db.transaction().execute((trx) => applyPaidSession(trx, remote, now, queue));
     return;
   }
   const status = remote.status === 'complete' ? 'complete' : 'expired';
@@ -186,9 +189,10 @@ async function settleClosedSession(db: Database, remote: CheckoutSession, now: D
  * checkout-session id makes a second report of the same session (another event, or the member's
  * return) change nothing. Money beyond what the invoice still owes (a second session paid, or one
  * paid as it was being expired) is kept on the payment as overpaid, owed back to the member, so the
- * invoice never owes less than nothing. Call inside a transaction.
+ * invoice never owes less than nothing. The member's receipt is queued in the same transaction, so it
+ * is sent once with the payment. Call inside a transaction.
  */
-export async function applyPaidSession(trx: Database, session: CheckoutSession, now: Date): Promise<{ outcome: string; invoiceId: string | null }> {
+export async function applyPaidSession(trx: Database, session: CheckoutSession, now: Date, queue: PgBoss): Promise<{ outcome: string; invoiceId: string | null }> {
   let known = await trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
   if (!known && session.payment_status === 'paid') known = await adoptSession(trx, session);
   if (!known) return { outcome: 'unknown_session', invoiceId: null };
@@ -204,7 +208,7 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession, 
   const due = inv.status === 'issued' ? Math.max(inv.total_cents - inv.paid_cents - inv.credited_cents, 0) : 0;
   const overpaid = Math.max(amount - due, 0);
   const { today } = await coopToday(trx, now);
-  await recordPayment(
+  const payment = await recordPayment(
     trx,
     known.invoice_id,
     {
@@ -219,6 +223,7 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession, 
     null,
   );
   await trx.updateTable('checkout_session').set({ status: 'complete', completed_at: now }).where('id', '=', session.id).execute();
+  await queueReceipt(trx, queue, payment.id);
   if (overpaid > 0) {
     await audit(trx, null, 'overpayment_received', 'Invoice', known.invoice_id, { sessionId: session.id, amountCents: amount, overpaidCents: overpaid });
   }
@@ -271,7 +276,7 @@ function checkEventShape(event: ProviderEvent): void {
  * Handles one verified provider event, exactly once: its id goes into payment_event first, and a
  * replay (or a concurrent duplicate, which waits on that row) finds it there and does nothing.
  */
-export async function handleProviderEvent(db: Database, event: ProviderEvent, now: Date): Promise<{ duplicate: boolean; outcome: string }> {
+export async function handleProviderEvent(db: Database, event: ProviderEvent, now: Date, queue: PgBoss): Promise<{ duplicate: boolean; outcome: string }> {
   checkEventShape(event);
   return db.transaction().execute(async (trx) => {
     const fresh = await trx
@@ -283,7 +288,7 @@ export async function handleProviderEvent(db: Database, event: ProviderEvent, no
     if (!fresh) return { duplicate: true, outcome: 'duplicate' };
     let result: { outcome: string; invoiceId: string | null } = { outcome: 'ignored', invoiceId: null };
     if (event.type === 'checkout.session.completed' || event.type === 'checkout.session.async_payment_succeeded') {
-      result = await applyPaidSession(trx, event.data.object, now);
+      result = await applyPaidSession(trx, event.data.object, now, queue);
     } else if (event.type === 'checkout.session.expired') {
       const s = event.data.object;
       const updated = await trx.updateTable('checkout_session').set({ status: 'expired' }).where('id', '=', s.id).where('status', '=', 'open').returning('invoice_id').executeTakeFirst();
@@ -301,7 +306,7 @@ export async function handleProviderEvent(db: Database, event: ProviderEvent, no
 }
 
 /** The member is back from the provider's page: ask the provider directly, in case its webhook is late. */
-export async function confirmCheckout(db: Database, config: Config, invoiceId: string, sessionId: string, now: Date): Promise<string> {
+export async function confirmCheckout(db: Database, config: Config, invoiceId: string, sessionId: string, now: Date, queue: PgBoss): Promise<string> {
   const known = await db.selectFrom('checkout_session').select(['id', 'invoice_id']).where('id', '=', sessionId).executeTakeFirst();
   if (!known || known.invoice_id !== invoiceId) return 'unknown_session';
   let session: CheckoutSession;
@@ -310,7 +315,7 @@ export async function confirmCheckout(db: Database, config: Config, invoiceId: s
   } catch (err) {
     throw new HttpProblem(502, 'Payment provider unavailable', `The payment provider did not answer: ${(err as Error).message}`);
   }
-  return db.transaction().execute(async (trx) => (await applyPaidSession(trx, session, now)).outcome);
+  return db.transaction().execute(async (trx) => (await applyPaidSession(trx, session, now, queue)).outcome);
 }
 
 /** Online payments that brought more than their invoice owed, newest first; `open` keeps those not yet refunded. */

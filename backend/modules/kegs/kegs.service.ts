@@ -72,6 +72,9 @@ function selectKeg(q: KegBase, now: Date) {
     'kw.checked_out_at',
     'kw.due_at',
     sql<boolean>`(kw.whereabouts = 'with_member' and kw.due_at < ${now})`.as('overdue'),
+    // Reminders to bring it back, while it is out with the member reminded.
+    sql<Date | null>`(select max(r.sent_at) from reminder r where r.keg_id = e.id and kw.whereabouts = 'with_member'
+      and r.member_id = kw.member_id and r.sent_at >= kw.checked_out_at)`.as('last_reminded_at'),
     'kf.id as fill_id',
     'kf.batch_id',
     'b.name as batch_name',
@@ -126,6 +129,7 @@ function toKegView(r: KegRow, showOwner: boolean): KegView {
     checkedOutAt: iso(r.checked_out_at),
     dueAt: iso(r.due_at),
     overdue: Boolean(r.overdue),
+    lastRemindedAt: iso(r.last_reminded_at),
     contents: r.fill_id
       ? {
           fillId: r.fill_id,

@@ -1,6 +1,7 @@
 import { RoleBadges } from '@/components/role-badges';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { ProfileForm } from '@/features/auth/components/profile-form';
+import { CalendarFeedPanel } from '@/features/calendar/calendar-feed-panel';
 import { useSessionUser } from '@/lib/auth';
 
 const ProfileRoute = () => {
@@ -22,6 +23,7 @@ const ProfileRoute = () => {
         </dd>
       </dl>
       <ProfileForm key={user.id} user={user} />
+      <CalendarFeedPanel />
     </div>
   );
 };

@@ -9,6 +9,7 @@ import { useInvoice } from '@/features/billing/api/get-invoice';
 import { useIssueInvoice, useSendInvoice } from '@/features/billing/api/invoice-actions';
 import { InvoiceDetailView } from '@/features/billing/components/invoice-detail-view';
 import { RecordPaymentDialog, RefundDialog, VoidDialog } from '@/features/billing/components/money-dialogs';
+import { RemindInvoiceButton } from '@/features/reminders/reminders';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
@@ -72,6 +73,7 @@ const InvoiceRoute = () => {
         <Link to={paths.billingInvoices}>← Invoices</Link>
       </p>
       {notice ? <Alert tone="success">{notice}</Alert> : null}
+      {inv.overdue && ability.can('remind', 'Invoice') ? <RemindInvoiceButton invoiceId={inv.id} number={inv.number} lastRemindedAt={inv.lastRemindedAt} /> : null}
       <InvoiceDetailView invoice={inv} actions={actions} />
       <RecordPaymentDialog invoice={inv} open={open === 'payment'} onClose={() => setOpen(null)} />
       <RefundDialog invoice={inv} open={open === 'refund'} onClose={() => setOpen(null)} />

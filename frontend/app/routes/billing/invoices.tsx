@@ -3,6 +3,7 @@ import { paths } from '@/config/paths';
 import { useInvoices } from '@/features/billing/api/get-invoices';
 import { InvoicesTable, InvoicesToolbar } from '@/features/billing/components/invoices-table';
 import { useInvoicesSearchParams } from '@/features/billing/hooks/use-invoices-search-params';
+import { RemindAllOverdueInvoices } from '@/features/reminders/reminders';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 
@@ -16,6 +17,7 @@ const InvoicesRoute = () => {
   return (
     <div className="flex flex-col gap-4">
       <InvoicesToolbar query={query} onQueryChange={setQuery} hasFilters={hasFilters} />
+      {ability.can('remind', 'Invoice') ? <RemindAllOverdueInvoices /> : null}
       <InvoicesTable
         query={query}
         data={invoices.data}

@@ -14,6 +14,7 @@ import { BeerNotes, BestBefore, FillGauge, Whereabouts } from '@/features/cellar
 import { BigInput, BigSelect } from '@/features/cellar-ops/components/touch';
 import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
+import { RemindKegButton } from '@/features/reminders/reminders';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
@@ -344,6 +345,7 @@ const KegRoute = () => {
             <Whereabouts keg={k} />
           </div>
           {k.since ? <p className="text-xs text-ink-muted">Since {formatDateTime(k.since)}</p> : null}
+          {k.overdue && ability.can('remind', subject('Keg', { memberId })) ? <RemindKegButton kegId={k.id} code={k.code} lastRemindedAt={k.lastRemindedAt} /> : null}
           {canMove ? (
             <div className="flex flex-wrap gap-2">
               {k.whereabouts === 'with_member' ? (

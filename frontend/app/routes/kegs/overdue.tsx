@@ -5,7 +5,9 @@ import { DataTablePagination } from '@/components/ui/data-table';
 import { Spinner } from '@/components/ui/spinner';
 import { useOverdueKegs } from '@/features/cellar-ops/api/kegs';
 import { cellarPaths } from '@/features/cellar-ops/paths';
+import { RemindKegButton } from '@/features/reminders/reminders';
 import { useDocumentTitle } from '@/hooks/use-document-title';
+import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { formatDate } from '@/utils/format';
 
@@ -16,6 +18,7 @@ const OverdueKegsRoute = () => {
   useDocumentTitle('Overdue kegs');
   const [page, setPage] = useState(1);
   const overdue = useOverdueKegs({ page, pageSize: 25 });
+  const ability = useAppAbility();
   if (overdue.isPending) return <Spinner label="Loading overdue kegs" />;
   if (overdue.isError) return <Alert tone="error">{problemMessage(overdue.error)}</Alert>;
   return (
@@ -36,9 +39,12 @@ const OverdueKegsRoute = () => {
                   {k.contents ? ` · ${k.contents.batchName}` : ''}
                 </p>
               </div>
-              <Link to={cellarPaths.keg(k.id)} className="inline-flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 items-center rounded-md border border-line-strong px-4 text-sm no-underline hover:no-underline">
-                Open
-              </Link>
+              <div className="flex flex-wrap items-start gap-2">
+                {ability.can('remind', 'Keg') ? <RemindKegButton kegId={k.id} code={k.code} lastRemindedAt={k.lastRemindedAt} /> : null}
+                <Link to={cellarPaths.keg(k.id)} className="inline-flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 items-center rounded-md border border-line-strong px-4 text-sm no-underline hover:no-underline">
+                  Open
+                </Link>
+              </div>
             </li>
           ))}
         </ul>

@@ -1,0 +1,64 @@
+import type PgBoss from 'pg-boss';
+import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
+import { formatMoney } from '../../../shared/billing/money.ts';
+import { paymentMethodLabels } from '../../../shared/schemas/billing.ts';
+import type { Database } from '../../db/database.ts';
+import { enqueueMailIn } from '../../lib/mailer.ts';
+import { getBillingProfile } from './billing-profile.service.ts';
+
+/**
+ * Queues the member's receipt for a payment, inside the transaction that books it: the job commits
+ * with the payment row or not at all, and a payment row is made once (a replayed provider event or a
+ * second report of the same checkout finds it and books nothing), so each payment gets one receipt.
+ * Money paid back (a negative payment) gets none: its credit note says so.
+ */
+export async function queueReceipt(trx: Database, queue: PgBoss, paymentId: string): Promise<boolean> {
+  const p = await trx
+    .selectFrom('payment')
+    .innerJoin('invoice', 'invoice.id', 'payment.invoice_id')
+    .innerJoin('app_user', 'app_user.id', 'payment.member_id')
+    .select([
+      'payment.amount_cents',
+      'payment.overpaid_cents',
+      'payment.method',
+      'payment.received_on',
+      'payment.reference',
+      'payment.currency',
+      'invoice.id as invoice_id',
+      'invoice.number',
+      'invoice.period',
+      'invoice.total_cents',
+      'invoice.paid_cents',
+      'invoice.credited_cents',
+      'app_user.name',
+      'app_user.email',
+    ])
+    .where('payment.id', '=', paymentId)
+    .executeTakeFirstOrThrow();
+  if (p.amount_cents <= 0) return false;
+  const currency = p.currency.trim();
+  const money = (cents: number) => formatMoney(cents, currency, 'en-GB');
+  const remaining = Math.max(p.total_cents - p.paid_cents - p.credited_cents, 0);
+  const profile = await getBillingProfile(trx);
+  await enqueueMailIn(trx, queue, {
+    to: p.email,
+    subject: `Receipt: ${money(p.amount_cents)} received for invoice ${p.number}`,
+    text: [
+      `Hello ${p.name},`,
+      '',
+      `Thank you: we received your payment for invoice ${p.number} (${periodLabel(p.period)}).`,
+      '',
+      `  amount      ${money(p.amount_cents)}`,
+      `  received    ${longDate(p.received_on)}`,
+      `  method      ${paymentMethodLabels[p.method]}${p.reference ? ` (${p.reference})` : ''}`,
+      `  invoice     ${p.number}, ${money(p.total_cents)} in all`,
+      `  still due   ${money(remaining)}${remaining === 0 ? ' — the invoice is paid in full' : ''}`,
+      ...(p.overpaid_cents > 0 ? ['', `${money(p.overpaid_cents)} of it was more than the invoice owed; the treasurer will pay it back to you.`] : []),
+      '',
+      `Keep this e-mail as your receipt. Questions? Write to ${profile.email}.`,
+      '',
+      profile.coopName,
+    ].join('\n'),
+  });
+  return true;
+}
