@@ -19,7 +19,6 @@ import { EquipmentTable } from '@/features/equipment/components/equipment-table'
 import { useEquipmentSearchParams } from '@/features/equipment/hooks/use-equipment-search-params';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
 import { pluralize } from '@/utils/format';
 
 const labelClass = 'flex flex-col gap-1 text-xs font-medium text-ink-muted';
@@ -105,11 +104,12 @@ const CellarRoute = () => {
           </a>
         </div>
       </div>
-      {list.isError ? <Alert tone="error" title="The list could not be loaded">{problemMessage(list.error)}</Alert> : null}
       <EquipmentTable
         query={query}
         data={list.data}
         isLoading={list.isPending}
+        error={list.error}
+        onRetry={() => void list.refetch()}
         isFetching={list.isFetching}
         isPlaceholderData={list.isPlaceholderData}
         onQueryChange={setQuery}

@@ -6,6 +6,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
 import { ConfirmDialog, Dialog } from '@/components/ui/dialog';
+import { useNotice } from '@/components/ui/notice';
 import { PageLoader, Spinner } from '@/components/ui/spinner';
 import { useKeg, useKegAction, useKegHistory, useMemberOptions, useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { usePlanAction } from '@/features/cellar-ops/api/carbonation';
@@ -227,10 +228,10 @@ const KegRoute = () => {
   const [page, setPage] = useState(1);
   const plan = usePlanAction();
   const [error, setError] = useState<string | null>(null);
-  const [notice, setNotice] = useState<string | null>(null);
+  const notice = useNotice();
   // A new action makes the last one's message stale.
   const openDialog = (o: Open) => {
-    setNotice(null);
+    notice.clear();
     setOpen(o);
   };
   const memberId = keg.data?.keg.member?.id ?? '';
@@ -273,7 +274,6 @@ const KegRoute = () => {
         </Link>
       </header>
       {error ? <Alert tone="error">{error}</Alert> : null}
-      {notice ? <Alert tone="success">{notice}</Alert> : null}
 
       <div className="grid gap-4 lg:grid-cols-2">
         <section className="flex flex-col gap-3 rounded-lg border border-line bg-surface p-4" aria-labelledby="where-title">
@@ -444,7 +444,7 @@ const KegRoute = () => {
       {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
-      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={setNotice} /> : null}
+      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={(text) => notice.show({ text })} /> : null}
     </div>
   );
 };
