@@ -76,8 +76,10 @@ export function useNotice(): NoticeApi {
 /** Where the notice appears: once, at the top of the signed-in page. */
 export const NoticeOutlet = () => {
   const context = useContext(NoticeContext);
+  const location = useLocation();
   const ref = useRef<HTMLDivElement>(null);
-  const notice = context?.notice ?? null;
+  // Never shown on another page, even for the moment before the provider lets it go.
+  const notice = context?.notice && context.notice.path === location.pathname ? context.notice : null;
   const clear = context?.api.clear;
   const id = notice?.id;
   useEffect(() => {

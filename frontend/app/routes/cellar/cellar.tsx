@@ -10,9 +10,9 @@ import {
   vesselStateSchema,
   type Equipment,
 } from '../../../../shared/schemas/equipment.ts';
-import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
+import { useNotice } from '@/components/ui/notice';
 import { labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentAddDialog } from '@/features/equipment/components/equipment-add-dialog';
 import { EquipmentTable } from '@/features/equipment/components/equipment-table';
@@ -31,7 +31,16 @@ const CellarRoute = () => {
   const [selection, setSelection] = useState<RowSelectionState>({});
   const ability = useAppAbility();
   const [adding, setAdding] = useState(false);
-  const [added, setAdded] = useState<Equipment | null>(null);
+  const notice = useNotice();
+  const onCreated = (added: Equipment) =>
+    notice.show({
+      title: `${added.code} is in the registry`,
+      text: (
+        <>
+          {added.name}, {equipmentKindLabels[added.kind].toLowerCase()}, starts as “Needs cleaning”. <Link to={`/cellar/${added.id}`}>Open {added.code}</Link>
+        </>
+      ),
+    });
   const [text, setText] = useState(query.q ?? '');
   useEffect(() => setText(query.q ?? ''), [query.q]);
   useEffect(() => {
@@ -54,12 +63,7 @@ const CellarRoute = () => {
         </div>
         {ability.can('create', 'Equipment') ? <Button onClick={() => setAdding(true)}>Add equipment</Button> : null}
       </header>
-      {added ? (
-        <Alert tone="success" title={`${added.code} is in the registry`}>
-          {added.name}, {equipmentKindLabels[added.kind].toLowerCase()}, starts as “Needs cleaning”. <Link to={`/cellar/${added.id}`}>Open {added.code}</Link>
-        </Alert>
-      ) : null}
-      {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={setAdded} /> : null}
+      {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={onCreated} /> : null}
       <div className="flex flex-wrap items-end gap-3">
         <label className={`${labelClass} w-full sm:w-56`}>
           Search
