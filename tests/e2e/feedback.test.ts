@@ -70,7 +70,7 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       await page.getByRole('link', { name: '← Invoices' }).click();
       await page.waitForURL('**/billing/invoices');
       await page.getByRole('heading', { name: 'Billing', exact: true }).waitFor();
-      expect(await notice(page).count()).toBe(0);
+      await expect.poll(() => notice(page).count()).toBe(0);
 
       const credit = made.toCredit!;
       await page.goto(`/billing/invoices/${credit.id}`);
@@ -104,7 +104,7 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       await page.getByRole('link', { name: 'Settings' }).click();
       await page.waitForURL('**/settings');
       await page.getByRole('heading', { name: 'Settings', exact: true }).waitFor();
-      expect(await notice(page).count()).toBe(0);
+      await expect.poll(() => notice(page).count()).toBe(0);
     } finally {
       await context.close();
     }
@@ -146,6 +146,7 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       const error = page.getByRole('alert').filter({ hasText: 'could not be loaded' });
       await error.waitFor({ timeout: 20_000 });
       expect(await page.getByText('No batches yet').count()).toBe(0);
+      expect(await page.getByText(/^No batches/).count()).toBe(0);
       await screenshot(page, 'feedback-list-failed');
       await page.unroute('**/api/batches?**');
       await error.getByRole('button', { name: 'Retry' }).click();

@@ -22,7 +22,7 @@ declare module '@tanstack/react-table' {
  * (which would claim there is nothing).
  */
 export const LoadError = ({ error, onRetry, what = 'The list', className }: { error: unknown; onRetry?: () => void; what?: string; className?: string }) => (
-  <Alert tone="error" title={`${what} could not be loaded`} className={className}>
+  <Alert tone="error" title={`${what} could not be loaded`} className={cn('text-left', className)}>
     <div className="flex flex-wrap items-center justify-between gap-2">
       <span className="min-w-0">{problemMessage(error)}</span>
       {onRetry ? (
@@ -198,6 +198,8 @@ export interface DataTablePaginationProps {
   isPlaceholder?: boolean;
   /** What the rows are: one word, or [singular, plural]. */
   noun?: string | readonly [string, string];
+  /** The list could not be loaded: no count is claimed. */
+  failed?: boolean;
 }
 
 export const DataTablePagination = ({
@@ -209,6 +211,7 @@ export const DataTablePagination = ({
   pageSizeOptions = [25, 50, 100],
   isPlaceholder = false,
   noun = 'rows',
+  failed = false,
 }: DataTablePaginationProps) => {
   const pageCount = Math.max(1, Math.ceil(total / pageSize));
   const [one, many] = typeof noun === 'string' ? [noun, noun] : noun;
@@ -217,7 +220,7 @@ export const DataTablePagination = ({
   return (
     <nav aria-label="Pages" className="flex flex-wrap items-center justify-between gap-3 text-sm text-ink-muted">
       <p aria-live="polite">
-        {total === 0 ? `No ${many}` : `${first}–${last} of ${total} ${total === 1 ? one : many}`}
+        {total === 0 ? (failed ? null : `No ${many}`) : `${first}–${last} of ${total} ${total === 1 ? one : many}`}
         {pageCount > 1 ? ` · page ${page} of ${pageCount}` : null}
       </p>
       <div className="flex items-center gap-2">

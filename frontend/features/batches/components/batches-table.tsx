@@ -157,6 +157,7 @@ export const BatchesTable = ({ query, data, isLoading, error, onRetry, isFetchin
         empty={query.q || query.status ? 'No batch matches these filters.' : 'No batches yet.'}
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}

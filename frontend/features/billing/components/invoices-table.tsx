@@ -160,6 +160,7 @@ export const InvoicesTable = ({ query, data, isLoading, error, onRetry, isFetchi
         empty={hasFilters ? 'No invoice matches these filters.' : 'No invoices yet.'}
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}

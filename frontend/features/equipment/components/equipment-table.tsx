@@ -137,6 +137,7 @@ export const EquipmentTable = ({ query, data, isLoading, error, onRetry, isFetch
         empty="No equipment matches these filters."
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}

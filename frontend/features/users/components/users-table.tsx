@@ -139,6 +139,7 @@ export const UsersTable = ({
         empty={hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.'}
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}
