@@ -2,6 +2,7 @@ import { useEffect, useId, useMemo, useState } from 'react';
 import { Navigate, NavLink, Outlet, useLocation, useNavigation } from 'react-router-dom';
 import { Brand } from '@/components/brand';
 import { Button } from '@/components/ui/button';
+import { NoticeOutlet, NoticeProvider } from '@/components/ui/notice';
 import { accountNav, mainNav, visibleNav, type NavEntry } from '@/config/nav';
 import { loginHref, paths } from '@/config/paths';
 import { useAppAbility } from '@/lib/ability';
@@ -139,7 +140,10 @@ export const AppFrame = () => {
         </nav>
 
         <main id="main" tabIndex={-1} className="min-w-0 flex-1 px-3 py-5 focus:outline-none lg:px-8 lg:py-6">
-          <Outlet />
+          <NoticeProvider>
+            <NoticeOutlet />
+            <Outlet />
+          </NoticeProvider>
         </main>
       </div>
     </div>

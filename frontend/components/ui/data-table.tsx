@@ -1,9 +1,11 @@
-import { flexRender, type Header, type Row, type RowData, type Table } from '@tanstack/react-table';
+import { flexRender, type ColumnDef, type Header, type Row, type RowData, type Table } from '@tanstack/react-table';
 import type { ReactNode } from 'react';
+import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Select } from '@/components/ui/input';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
+import { problemMessage } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
 
 declare module '@tanstack/react-table' {
@@ -11,8 +13,27 @@ declare module '@tanstack/react-table' {
   interface ColumnMeta<TData extends RowData, TValue> {
     /** Classes for this column's header and cells (width, alignment). */
     className?: string;
+    /** The column's name on a phone's card, when its header is not plain text ('' for none). */
+    label?: string;
   }
 }
+
+/**
+ * A list that could not be loaded: what went wrong and a Retry, never the list's empty-state text
+ * (which would claim there is nothing).
+ */
+export const LoadError = ({ error, onRetry, what = 'The list', className }: { error: unknown; onRetry?: () => void; what?: string; className?: string }) => (
+  <Alert tone="error" title={`${what} could not be loaded`} className={cn('text-left', className)}>
+    <div className="flex flex-wrap items-center justify-between gap-2">
+      <span className="min-w-0">{problemMessage(error)}</span>
+      {onRetry ? (
+        <Button variant="secondary" size="sm" onClick={onRetry}>
+          Retry
+        </Button>
+      ) : null}
+    </div>
+  </Alert>
+);
 
 export interface DataTableProps<T> {
   /** A table made with `useReactTable` (manual sorting and paging: the page owns the data). */
@@ -23,6 +44,9 @@ export interface DataTableProps<T> {
   /** A newer page is on its way; the current rows stay (keepPreviousData) and dim a little. */
   isFetching?: boolean;
   empty?: ReactNode;
+  /** The last load failed: shown with Retry in place of the empty text (rows still held stay). */
+  error?: unknown;
+  onRetry?: () => void;
   rowClassName?: (row: Row<T>) => string | undefined;
   className?: string;
 }
@@ -75,24 +99,41 @@ const HeaderCell = <T,>({ header }: { header: Header<T, unknown> }) => {
   );
 };
 
+/** A column's name for a phone's card: its header when that is text, else `meta.label`. */
+function cellLabel<T>(def: ColumnDef<T, unknown>): string | undefined {
+  const label = def.meta?.label ?? (typeof def.header === 'string' ? def.header : undefined);
+  return label || undefined;
+}
+
+/**
+ * A server-sorted, paged list. Wide on a desk; below the `md` breakpoint each row is a card (the
+ * `card-table` rules in styles.css) with every cell on its own line under its column's name, so
+ * status and amount are never cut off the edge of a phone.
+ */
 export const DataTable = <T,>({
   table,
   caption,
   isLoading = false,
   isFetching = false,
   empty = 'Nothing to show.',
+  error,
+  onRetry,
   rowClassName,
   className,
 }: DataTableProps<T>) => {
   const rows = table.getRowModel().rows;
   const columnCount = table.getVisibleLeafColumns().length;
+  // Retrying after a failure shows the spinner, not the empty text.
+  const failed = Boolean(error) && !isFetching;
+  const loading = isLoading || (Boolean(error) && isFetching && rows.length === 0);
   return (
     <ScrollRegion
       label={caption}
-      className={cn('relative max-h-[70dvh] overflow-auto rounded-md border border-line bg-surface', className)}
+      className={cn('relative md:max-h-[70dvh] md:overflow-auto md:rounded-md md:border md:border-line md:bg-surface', className)}
       aria-busy={isLoading || isFetching || undefined}
     >
-      <table className="w-full border-separate border-spacing-0 text-sm">
+      {failed && rows.length > 0 ? <LoadError error={error} onRetry={onRetry} className="m-2" /> : null}
+      <table className="card-table w-full border-separate border-spacing-0 text-sm">
         <caption className="sr-only">{caption}</caption>
         <thead>
           {table.getHeaderGroups().map((group) => (
@@ -103,13 +144,19 @@ export const DataTable = <T,>({
             </tr>
           ))}
         </thead>
-        <tbody className={cn(isFetching && !isLoading && 'opacity-60 transition-opacity')}>
-          {isLoading ? (
+        <tbody className={cn(isFetching && !loading && 'opacity-60 transition-opacity')}>
+          {loading ? (
             <tr>
               <td colSpan={columnCount} className="px-3 py-8 text-center text-ink-muted">
                 <span className="inline-flex items-center gap-2">
                   <Spinner className="size-4 text-copper" /> Loading…
                 </span>
+              </td>
+            </tr>
+          ) : rows.length === 0 && failed ? (
+            <tr>
+              <td colSpan={columnCount} className="p-2">
+                <LoadError error={error} onRetry={onRetry} />
               </td>
             </tr>
           ) : rows.length === 0 ? (
@@ -124,6 +171,7 @@ export const DataTable = <T,>({
                 {row.getVisibleCells().map((cell) => (
                   <td
                     key={cell.id}
+                    data-label={cellLabel(cell.column.columnDef)}
                     className={cn(
                       'border-b border-line px-3 py-1.5 align-middle group-last:border-b-0',
                       cell.column.columnDef.meta?.className,
@@ -152,6 +200,8 @@ export interface DataTablePaginationProps {
   isPlaceholder?: boolean;
   /** What the rows are: one word, or [singular, plural]. */
   noun?: string | readonly [string, string];
+  /** The list could not be loaded: no count is claimed. */
+  failed?: boolean;
 }
 
 export const DataTablePagination = ({
@@ -163,6 +213,7 @@ export const DataTablePagination = ({
   pageSizeOptions = [25, 50, 100],
   isPlaceholder = false,
   noun = 'rows',
+  failed = false,
 }: DataTablePaginationProps) => {
   const pageCount = Math.max(1, Math.ceil(total / pageSize));
   const [one, many] = typeof noun === 'string' ? [noun, noun] : noun;
@@ -171,7 +222,7 @@ export const DataTablePagination = ({
   return (
     <nav aria-label="Pages" className="flex flex-wrap items-center justify-between gap-3 text-sm text-ink-muted">
       <p aria-live="polite">
-        {total === 0 ? `No ${many}` : `${first}–${last} of ${total} ${total === 1 ? one : many}`}
+        {total === 0 ? (failed ? null : `No ${many}`) : `${first}–${last} of ${total} ${total === 1 ? one : many}`}
         {pageCount > 1 ? ` · page ${page} of ${pageCount}` : null}
       </p>
       <div className="flex items-center gap-2">

@@ -1,6 +1,5 @@
 import { useEffect, useState } from 'react';
 import { useNavigate } from 'react-router-dom';
-import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { paths } from '@/config/paths';
 import { useBatches } from '@/features/batches/api/get-batches';
@@ -9,7 +8,6 @@ import { BatchFormDialog } from '@/features/batches/components/batch-form-dialog
 import { useBatchesSearchParams } from '@/features/batches/hooks/use-batches-search-params';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
 
 /** Batches: a member's own, or every member's for the brewer on duty, treasurer and admin. */
 const BatchesRoute = () => {
@@ -46,15 +44,12 @@ const BatchesRoute = () => {
         </div>
       </header>
       <BatchesToolbar query={query} onQueryChange={setQuery} showMine={seesAll && ability.can('create', 'Batch')} />
-      {batches.isError ? (
-        <Alert tone="error" title="The batches could not be loaded">
-          {problemMessage(batches.error)}
-        </Alert>
-      ) : null}
       <BatchesTable
         query={query}
         data={batches.data}
         isLoading={batches.isPending}
+        error={batches.error}
+        onRetry={() => void batches.refetch()}
         isFetching={batches.isFetching}
         isPlaceholderData={batches.isPlaceholderData}
         showOwner={seesAll}

@@ -40,7 +40,7 @@ const BillingLayout = () => {
           {treasurer ? 'What is owed and how old it is, the monthly invoice run, payments, the price list and the ledger for the accountant.' : 'Your invoices, what is left to pay, and paying online.'}
         </p>
       </header>
-      <nav aria-label="Billing sections" className="flex gap-1 overflow-x-auto border-b border-line">
+      <nav aria-label="Billing sections" className="flex flex-wrap gap-x-1 border-b border-line">
         {treasurer ? (
           <>
             <NavLink to={paths.billing} end className={tabClass}>

@@ -3,6 +3,7 @@ import { Link, useParams } from 'react-router-dom';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
+import { useNotice } from '@/components/ui/notice';
 import { Spinner } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { useInvoice } from '@/features/billing/api/get-invoice';
@@ -22,7 +23,7 @@ const InvoiceRoute = () => {
   const invoice = useInvoice(invoiceId);
   const ability = useAppAbility();
   const [open, setOpen] = useState<Open>(null);
-  const [notice, setNotice] = useState<string | null>(null);
+  const notice = useNotice();
   const issue = useIssueInvoice(invoiceId);
   const send = useSendInvoice(invoiceId);
   useDocumentTitle(invoice.data?.number ?? 'Invoice');
@@ -72,7 +73,6 @@ const InvoiceRoute = () => {
       <p className="text-sm">
         <Link to={paths.billingInvoices}>← Invoices</Link>
       </p>
-      {notice ? <Alert tone="success">{notice}</Alert> : null}
       {inv.overdue && ability.can('remind', 'Invoice') ? <RemindInvoiceButton invoiceId={inv.id} number={inv.number} lastRemindedAt={inv.lastRemindedAt} /> : null}
       <InvoiceDetailView invoice={inv} actions={actions} />
       <RecordPaymentDialog invoice={inv} open={open === 'payment'} onClose={() => setOpen(null)} />
@@ -85,7 +85,14 @@ const InvoiceRoute = () => {
         pending={issue.isPending}
         error={issue.error ? problemMessage(issue.error) : null}
         onClose={() => setOpen(null)}
-        onConfirm={() => issue.mutate(undefined, { onSuccess: () => setOpen(null) })}
+        onConfirm={() =>
+          issue.mutate(undefined, {
+            onSuccess: ({ invoice: issued }) => {
+              setOpen(null);
+              notice.show({ text: `Issued as ${issued.number}. ${issued.memberName} can see it now.` });
+            },
+          })
+        }
       >
         It takes the next invoice number, is dated today and becomes visible to {inv.memberName}. From then on it never changes; corrections are credit notes.
       </ConfirmDialog>
@@ -100,7 +107,7 @@ const InvoiceRoute = () => {
           send.mutate(undefined, {
             onSuccess: (r) => {
               setOpen(null);
-              setNotice(`Queued for ${r.to}, with the PDF attached. It is retried if the mail server is busy.`);
+              notice.show({ text: `Queued for ${r.to}, with the PDF attached. It is retried if the mail server is busy.` });
             },
           })
         }

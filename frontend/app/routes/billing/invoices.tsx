@@ -22,6 +22,8 @@ const InvoicesRoute = () => {
         query={query}
         data={invoices.data}
         isLoading={invoices.isPending}
+        error={invoices.error}
+        onRetry={() => void invoices.refetch()}
         isFetching={invoices.isFetching}
         isPlaceholderData={invoices.isPlaceholderData}
         hasFilters={hasFilters}

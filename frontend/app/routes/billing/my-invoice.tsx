@@ -2,6 +2,7 @@ import { useEffect, useRef } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
+import { useNotice } from '@/components/ui/notice';
 import { Spinner } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { useInvoice } from '@/features/billing/api/get-invoice';
@@ -20,12 +21,14 @@ const MyInvoiceRoute = () => {
   const returned = params.get('checkout');
   const sessionId = params.get('session_id');
   const invoice = useInvoice(invoiceId, {
-    // Just back from paying: look again until the payment shows.
-    refetchInterval: (returned === 'success' && invoiceId ? 1500 : false),
+    // Just back from paying: look again until the payment shows, then stop.
+    refetchInterval: (data) => (returned === 'success' && invoiceId && data?.status !== 'paid' ? 1500 : false),
   });
   const checkout = useStartCheckout(invoiceId);
   const confirm = useConfirmCheckout(invoiceId);
   const confirmed = useRef(false);
+  const notice = useNotice();
+  const thanked = useRef(false);
   useDocumentTitle(invoice.data?.number ?? 'Invoice');
 
   useEffect(() => {
@@ -33,6 +36,17 @@ const MyInvoiceRoute = () => {
     confirmed.current = true;
     confirm.mutate(sessionId);
   }, [returned, sessionId, confirm]);
+
+  const paidNow = returned === 'success' && invoice.data?.status === 'paid';
+  useEffect(() => {
+    const inv = invoice.data;
+    if (!paidNow || !inv || thanked.current) return;
+    thanked.current = true;
+    notice.show({
+      title: 'Paid — thank you',
+      text: `Your payment of ${money(inv.payments.at(-1)?.amountCents ?? inv.totalCents, inv.currency)} has been received and ${inv.number} is paid.`,
+    });
+  }, [paidNow, invoice.data, notice]);
 
   if (invoice.isPending) return <Spinner className="size-5 text-copper" />;
   if (invoice.isError) {
@@ -47,17 +61,11 @@ const MyInvoiceRoute = () => {
   }
   const inv = invoice.data;
   const payable = inv.status === 'issued' && inv.amountDueCents > 0 && inv.memberId === user?.id;
-  const paidNow = returned === 'success' && inv.status === 'paid';
   return (
     <div className="flex max-w-5xl flex-col gap-4">
       <p className="text-sm">
         <Link to={paths.myInvoices}>← My invoices</Link>
       </p>
-      {paidNow ? (
-        <Alert tone="success" title="Paid — thank you">
-          Your payment of {money(inv.payments.at(-1)?.amountCents ?? inv.totalCents, inv.currency)} has been received and {inv.number} is paid.
-        </Alert>
-      ) : null}
       {returned === 'success' && !paidNow ? (
         <Alert tone="info">
           <span className="inline-flex items-center gap-2">

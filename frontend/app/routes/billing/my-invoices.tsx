@@ -34,6 +34,8 @@ const MyInvoicesRoute = () => {
         query={query}
         data={invoices.data}
         isLoading={invoices.isPending}
+        error={invoices.error}
+        onRetry={() => void invoices.refetch()}
         isFetching={invoices.isFetching}
         isPlaceholderData={invoices.isPlaceholderData}
         hasFilters={hasFilters}

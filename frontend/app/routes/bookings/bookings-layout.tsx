@@ -17,7 +17,7 @@ const BookingsLayout = () => {
         <h1 className="text-2xl">Bookings</h1>
         <p className="mt-1 text-ink-muted">Pick a free slot on the calendar to book it. Each booking keeps the item free afterwards for cleaning.</p>
       </header>
-      <nav aria-label="Bookings sections" className="flex gap-1 border-b border-line">
+      <nav aria-label="Bookings sections" className="flex flex-wrap gap-x-1 border-b border-line">
         <NavLink to="/bookings" end className={tabClass}>
           Calendar
         </NavLink>

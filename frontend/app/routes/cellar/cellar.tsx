@@ -10,16 +10,15 @@ import {
   vesselStateSchema,
   type Equipment,
 } from '../../../../shared/schemas/equipment.ts';
-import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
+import { useNotice } from '@/components/ui/notice';
 import { labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentAddDialog } from '@/features/equipment/components/equipment-add-dialog';
 import { EquipmentTable } from '@/features/equipment/components/equipment-table';
 import { useEquipmentSearchParams } from '@/features/equipment/hooks/use-equipment-search-params';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
 import { pluralize } from '@/utils/format';
 
 const labelClass = 'flex flex-col gap-1 text-xs font-medium text-ink-muted';
@@ -32,7 +31,16 @@ const CellarRoute = () => {
   const [selection, setSelection] = useState<RowSelectionState>({});
   const ability = useAppAbility();
   const [adding, setAdding] = useState(false);
-  const [added, setAdded] = useState<Equipment | null>(null);
+  const notice = useNotice();
+  const onCreated = (added: Equipment) =>
+    notice.show({
+      title: `${added.code} is in the registry`,
+      text: (
+        <>
+          {added.name}, {equipmentKindLabels[added.kind].toLowerCase()}, starts as “Needs cleaning”. <Link to={`/cellar/${added.id}`}>Open {added.code}</Link>
+        </>
+      ),
+    });
   const [text, setText] = useState(query.q ?? '');
   useEffect(() => setText(query.q ?? ''), [query.q]);
   useEffect(() => {
@@ -55,12 +63,7 @@ const CellarRoute = () => {
         </div>
         {ability.can('create', 'Equipment') ? <Button onClick={() => setAdding(true)}>Add equipment</Button> : null}
       </header>
-      {added ? (
-        <Alert tone="success" title={`${added.code} is in the registry`}>
-          {added.name}, {equipmentKindLabels[added.kind].toLowerCase()}, starts as “Needs cleaning”. <Link to={`/cellar/${added.id}`}>Open {added.code}</Link>
-        </Alert>
-      ) : null}
-      {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={setAdded} /> : null}
+      {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={onCreated} /> : null}
       <div className="flex flex-wrap items-end gap-3">
         <label className={`${labelClass} w-full sm:w-56`}>
           Search
@@ -105,11 +108,12 @@ const CellarRoute = () => {
           </a>
         </div>
       </div>
-      {list.isError ? <Alert tone="error" title="The list could not be loaded">{problemMessage(list.error)}</Alert> : null}
       <EquipmentTable
         query={query}
         data={list.data}
         isLoading={list.isPending}
+        error={list.error}
+        onRetry={() => void list.refetch()}
         isFetching={list.isFetching}
         isPlaceholderData={list.isPlaceholderData}
         onQueryChange={setQuery}

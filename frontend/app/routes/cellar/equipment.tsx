@@ -150,7 +150,7 @@ const EquipmentRoute = () => {
 
       <section className="rounded-lg border border-line bg-surface p-4">
         <h2 className="text-base">History</h2>
-        <table className="mt-2 w-full text-sm">
+        <table className="card-table mt-2 w-full text-sm">
           <caption className="sr-only">State changes of {item.code}, newest first</caption>
           <thead>
             <tr className="text-left text-xs text-ink-muted uppercase">
@@ -163,13 +163,13 @@ const EquipmentRoute = () => {
           <tbody className="divide-y divide-line">
             {history.map((h) => (
               <tr key={h.id}>
-                <td className="py-1.5 pr-3 whitespace-nowrap">{formatDateTime(h.at)}</td>
-                <td className="py-1.5 pr-3 whitespace-nowrap">
+                <td data-label="When" className="py-1.5 pr-3 whitespace-nowrap">{formatDateTime(h.at)}</td>
+                <td data-label="Change" className="py-1.5 pr-3 whitespace-nowrap">
                   {h.fromState ? `${vesselStateLabels[h.fromState]} → ` : ''}
                   {vesselStateLabels[h.toState]}
                 </td>
-                <td className="py-1.5 pr-3">{h.reason}</td>
-                <td className="py-1.5 text-ink-muted">{h.actor?.name ?? '—'}</td>
+                <td data-label="Why" className="py-1.5 pr-3">{h.reason}</td>
+                <td data-label="Who" className="py-1.5 text-ink-muted">{h.actor?.name ?? '—'}</td>
               </tr>
             ))}
           </tbody>

@@ -3,7 +3,6 @@ import { useMemo } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { equipmentKindLabels } from '../../../../shared/schemas/equipment.ts';
 import { inspectionKindLabels, maintenanceListQuerySchema, maintenanceStatuses, type MaintenanceItem, type MaintenanceListQuery } from '../../../../shared/schemas/inspections.ts';
-import { Alert } from '@/components/ui/alert';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { Select } from '@/components/ui/input';
 import { useServerTable } from '@/components/ui/use-server-table';
@@ -11,7 +10,6 @@ import { useMaintenanceList } from '@/features/equipment/api/inspections';
 import { DueBadge } from '@/features/equipment/components/inspections-panel';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
-import { problemMessage } from '@/lib/api-client';
 import { formatDate } from '@/utils/format';
 
 const column = createColumnHelper<MaintenanceItem>();
@@ -92,8 +90,7 @@ const MaintenanceRoute = () => {
           </Select>
         </label>
       </div>
-      {list.isError ? <Alert tone="error" title="The list could not be loaded">{problemMessage(list.error)}</Alert> : null}
-      <DataTable table={table} caption="Inspections due" isLoading={list.isPending} isFetching={list.isFetching} empty="Nothing failed, past due or due soon." />
+      <DataTable table={table} caption="Inspections due" isLoading={list.isPending} error={list.error} onRetry={() => void list.refetch()} isFetching={list.isFetching} empty="Nothing failed, past due or due soon." />
       <DataTablePagination
         page={query.page}
         pageSize={query.pageSize}

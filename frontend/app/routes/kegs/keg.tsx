@@ -6,6 +6,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
 import { ConfirmDialog, Dialog } from '@/components/ui/dialog';
+import { useNotice } from '@/components/ui/notice';
 import { PageLoader, Spinner } from '@/components/ui/spinner';
 import { useKeg, useKegAction, useKegHistory, useMemberOptions, useTapBoard } from '@/features/cellar-ops/api/kegs';
 import { usePlanAction } from '@/features/cellar-ops/api/carbonation';
@@ -278,10 +279,13 @@ const KegRoute = () => {
   const [page, setPage] = useState(1);
   const plan = usePlanAction();
   const [error, setError] = useState<string | null>(null);
-  const [notice, setNotice] = useState<Notice | null>(null);
+  // The app's notice for most actions; a return, emptying or dump gets its own message, which offers Undo.
+  const notice = useNotice();
+  const [kegNotice, setKegNotice] = useState<Notice | null>(null);
   // A new action makes the last one's message stale.
   const openDialog = (o: Open) => {
-    setNotice(null);
+    notice.clear();
+    setKegNotice(null);
     setOpen(o);
   };
   const memberId = keg.data?.keg.member?.id ?? '';
@@ -324,13 +328,13 @@ const KegRoute = () => {
         </Link>
       </header>
       {error ? <Alert tone="error">{error}</Alert> : null}
-      {notice ? (
+      {kegNotice ? (
         <KegNotice
-          key={notice.undo?.id ?? notice.text}
+          key={kegNotice.undo?.id ?? kegNotice.text}
           kegId={k.id}
-          notice={notice}
+          notice={kegNotice}
           onUndone={(n, e) => {
-            setNotice(n);
+            setKegNotice(n);
             setError(e ?? null);
           }}
         />
@@ -506,7 +510,7 @@ const KegRoute = () => {
       {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
-      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={setNotice} /> : null}
+      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={(n) => setKegNotice(n)} /> : null}
     </div>
   );
 };

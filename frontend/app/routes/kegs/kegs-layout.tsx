@@ -23,7 +23,7 @@ const KegsLayout = () => {
           {everyone ? 'Where every keg is: the cellar, the cold room and its taps, out with a member, or missing.' : 'Your kegs: what is in them, where they are and when they are due back.'}
         </p>
       </header>
-      <nav aria-label="Kegs sections" className="flex gap-1 overflow-x-auto border-b border-line">
+      <nav aria-label="Kegs sections" className="flex flex-wrap gap-x-1 border-b border-line">
         <NavLink to={cellarPaths.kegs} end className={tabClass}>
           Whereabouts
         </NavLink>

@@ -4,7 +4,6 @@ import { useMemo, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { vesselStateLabels } from '../../../../shared/schemas/equipment.ts';
 import { kegSortFields, kegWhereabouts, kegWhereaboutsLabels, type KegView } from '../../../../shared/schemas/kegs.ts';
-import { Alert } from '@/components/ui/alert';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { Input, Select } from '@/components/ui/input';
 import { useKegs } from '@/features/cellar-ops/api/kegs';
@@ -12,7 +11,6 @@ import { FillGauge, Whereabouts } from '@/features/cellar-ops/components/keg-bit
 import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
-import { problemMessage } from '@/lib/api-client';
 import { formatDate } from '@/utils/format';
 
 type SortField = (typeof kegSortFields)[number];
@@ -103,8 +101,7 @@ const KegWhereaboutsRoute = () => {
           <Input type="search" value={q} placeholder="Keg code or batch" onChange={(e) => (setQ(e.target.value), setPage(1))} />
         </label>
       </div>
-      {kegs.isError ? <Alert tone="error">{problemMessage(kegs.error)}</Alert> : null}
-      <DataTable table={table} caption="Kegs and where they are" isLoading={kegs.isPending} isFetching={kegs.isFetching} empty="No keg matches." />
+      <DataTable table={table} caption="Kegs and where they are" isLoading={kegs.isPending} error={kegs.error} onRetry={() => void kegs.refetch()} isFetching={kegs.isFetching} empty="No keg matches." />
       <DataTablePagination
         page={page}
         pageSize={pageSize}

@@ -23,7 +23,7 @@ const MembersLayout = () => {
         <p className="mt-1 text-ink-muted">Everyone with an account, their roles, and invitations.</p>
       </header>
       {mailbox ? (
-        <nav aria-label="Members sections" className="flex gap-1 border-b border-line">
+        <nav aria-label="Members sections" className="flex flex-wrap gap-x-1 border-b border-line">
           <NavLink to={paths.members} end className={tabClass}>
             People
           </NavLink>

@@ -3,13 +3,11 @@ import { useServerTable } from '@/components/ui/use-server-table';
 import { useMemo, useState } from 'react';
 import { sanitationStepLabels } from '../../../../shared/schemas/cellar-settings.ts';
 import { sanitationCycleSortFields, type SanitationCycleView } from '../../../../shared/schemas/sanitation.ts';
-import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { Input, Select } from '@/components/ui/input';
 import { useCycles } from '@/features/cellar-ops/api/sanitation';
 import { useDocumentTitle } from '@/hooks/use-document-title';
-import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 type SortField = (typeof sanitationCycleSortFields)[number];
@@ -55,7 +53,7 @@ const SanitationLogRoute = () => {
         id: 'steps',
         header: 'Steps',
         cell: ({ row }) => (
-          <ul className="min-w-72 text-xs">
+          <ul className="text-xs md:min-w-72">
             {row.original.steps.map((s, i) => (
               <li key={i} className={s.ok ? undefined : 'text-due-strong'}>
                 <span className="font-medium">{sanitationStepLabels[s.step]}</span>
@@ -107,8 +105,7 @@ const SanitationLogRoute = () => {
           <Input type="search" value={q} placeholder="Code or name" onChange={(e) => (setQ(e.target.value), setPage(1))} />
         </label>
       </div>
-      {cycles.isError ? <Alert tone="error">{problemMessage(cycles.error)}</Alert> : null}
-      <DataTable table={table} caption="Sanitation cycles" isLoading={cycles.isPending} isFetching={cycles.isFetching} empty="No cycles match." />
+      <DataTable table={table} caption="Sanitation cycles" isLoading={cycles.isPending} error={cycles.error} onRetry={() => void cycles.refetch()} isFetching={cycles.isFetching} empty="No cycles match." />
       <DataTablePagination
         page={page}
         pageSize={pageSize}

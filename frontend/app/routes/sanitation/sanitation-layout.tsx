@@ -28,7 +28,7 @@ const SanitationLayout = () => {
           </ButtonLink>
         ) : null}
       </header>
-      <nav aria-label="Sanitation sections" className="flex gap-1 overflow-x-auto border-b border-line">
+      <nav aria-label="Sanitation sections" className="flex flex-wrap gap-x-1 border-b border-line">
         <NavLink to={cellarPaths.sanitation} end className={tabClass}>
           Vessels
         </NavLink>

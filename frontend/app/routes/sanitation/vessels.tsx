@@ -1,9 +1,8 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { vesselStateLabels, type VesselState } from '../../../../shared/schemas/equipment.ts';
-import { Alert } from '@/components/ui/alert';
 import { ButtonLink } from '@/components/ui/button';
-import { DataTablePagination } from '@/components/ui/data-table';
+import { DataTablePagination, LoadError } from '@/components/ui/data-table';
 import { Input, Select } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
 import { useVesselStatus } from '@/features/cellar-ops/api/sanitation';
@@ -11,7 +10,6 @@ import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 const states: VesselState[] = ['needs_cleaning', 'cleaned', 'ready', 'holding', 'out_of_service'];
@@ -53,8 +51,9 @@ const SanitationVesselsRoute = () => {
           <Input type="search" value={q} placeholder="Code or name, e.g. K-012" onChange={(e) => (setQ(e.target.value), setPage(1))} />
         </label>
       </div>
-      {list.isError ? <Alert tone="error">{problemMessage(list.error)}</Alert> : null}
-      {list.isPending ? (
+      {list.isError && !list.isFetching ? (
+        <LoadError what="The vessels" error={list.error} onRetry={() => void list.refetch()} />
+      ) : list.isPending || (list.isError && list.isFetching) ? (
         <Spinner label="Loading the vessels" />
       ) : (
         <ul className="divide-y divide-line rounded-lg border border-line bg-surface" aria-label="Vessels">

@@ -81,6 +81,9 @@ export interface BatchesTableProps {
   query: BatchListQuery;
   data: Page<BatchListItem> | undefined;
   isLoading: boolean;
+  /** The last load failed: the table shows it with Retry instead of its empty text. */
+  error?: unknown;
+  onRetry?: () => void;
   isFetching: boolean;
   isPlaceholderData: boolean;
   showOwner: boolean;
@@ -88,7 +91,7 @@ export interface BatchesTableProps {
 }
 
 /** Batches, sorted, filtered and paged on the server. */
-export const BatchesTable = ({ query, data, isLoading, isFetching, isPlaceholderData, showOwner, onQueryChange }: BatchesTableProps) => {
+export const BatchesTable = ({ query, data, isLoading, error, onRetry, isFetching, isPlaceholderData, showOwner, onQueryChange }: BatchesTableProps) => {
   const units = useUnits();
   const columns = useMemo(
     () => [
@@ -148,10 +151,13 @@ export const BatchesTable = ({ query, data, isLoading, isFetching, isPlaceholder
         table={table}
         caption="Batches"
         isLoading={isLoading}
+        error={error}
+        onRetry={onRetry}
         isFetching={isFetching}
         empty={query.q || query.status ? 'No batch matches these filters.' : 'No batches yet.'}
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}

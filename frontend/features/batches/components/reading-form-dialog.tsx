@@ -15,6 +15,7 @@ import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
 import { Checkbox, Input, Select } from '@/components/ui/input';
+import { useNotice } from '@/components/ui/notice';
 import { useCreateReading } from '@/features/batches/api/readings';
 import { formatSg } from '@/features/batches/components/gravity-format';
 import { useUnits } from '@/hooks/use-units';
@@ -44,6 +45,7 @@ export interface ReadingFormDialogProps {
 const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'open'> & { onBusy: (b: boolean) => void }) => {
   const units = useUnits();
   const create = useCreateReading(batch.id);
+  const notice = useNotice();
   useEffect(() => onBusy(create.isPending), [create.isPending, onBusy]);
   const [takenAt, setTakenAt] = useState(localNow);
   const [gravity, setGravity] = useState('');
@@ -119,7 +121,15 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
     }
     setErrors({});
     create.mutate(parsed.data, {
-      onSuccess: onClose,
+      onSuccess: (reading) => {
+        // The server moves a planned batch to Fermenting with its first reading: say so.
+        notice.show(
+          batch.status === 'planned'
+            ? { title: `${batch.name} is now Fermenting`, text: `Reading of ${formatSg(reading.gravitySg)} saved. A planned batch starts fermenting with its first reading.` }
+            : { text: `Reading of ${formatSg(reading.gravitySg)} saved.` },
+        );
+        onClose();
+      },
       onError: (error) => {
         if (isApiProblem(error) && error.errors.length) {
           const next: Record<string, string> = {};

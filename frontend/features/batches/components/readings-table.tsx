@@ -93,7 +93,7 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
   });
   return (
     <div className="flex flex-col gap-3">
-      <DataTable table={table} caption={`Readings of ${batch.name}`} isLoading={readings.isPending} isFetching={readings.isFetching} empty="No readings yet." />
+      <DataTable table={table} caption={`Readings of ${batch.name}`} isLoading={readings.isPending} isFetching={readings.isFetching} error={readings.error} onRetry={() => void readings.refetch()} empty="No readings yet." />
       <DataTablePagination
         page={query.page}
         pageSize={query.pageSize}

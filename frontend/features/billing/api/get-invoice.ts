@@ -9,8 +9,13 @@ export const getInvoice = (id: string, signal?: AbortSignal) =>
 export const getInvoiceQueryOptions = (id: string) =>
   queryOptions({ queryKey: billingKeys.invoice(id), queryFn: ({ signal }) => getInvoice(id, signal) });
 
-export function useInvoice(id: string, options: { refetchInterval?: number | false } = {}) {
-  return useQuery({ ...getInvoiceQueryOptions(id), refetchInterval: options.refetchInterval ?? false });
+/** `refetchInterval` may look at the invoice last fetched (to stop asking once it shows what is awaited). */
+export function useInvoice(id: string, options: { refetchInterval?: number | false | ((invoice: InvoiceDetail | undefined) => number | false) } = {}) {
+  const { refetchInterval = false } = options;
+  return useQuery({
+    ...getInvoiceQueryOptions(id),
+    refetchInterval: typeof refetchInterval === 'function' ? (query) => refetchInterval(query.state.data) : refetchInterval,
+  });
 }
 
 export const invoicePdfUrl = (id: string) => `/api/invoices/${encodeURIComponent(id)}/pdf`;

@@ -23,6 +23,9 @@ export interface InvoicesTableProps {
   query: InvoiceListQuery;
   data: Page<InvoiceSummary> | undefined;
   isLoading: boolean;
+  /** The last load failed: the table shows it with Retry instead of its empty text. */
+  error?: unknown;
+  onRetry?: () => void;
   isFetching: boolean;
   isPlaceholderData: boolean;
   hasFilters: boolean;
@@ -95,7 +98,7 @@ export const InvoicesToolbar = ({ query, onQueryChange, hasFilters, own = false 
   );
 };
 
-export const InvoicesTable = ({ query, data, isLoading, isFetching, isPlaceholderData, hasFilters, onQueryChange, hrefFor, own = false }: InvoicesTableProps) => {
+export const InvoicesTable = ({ query, data, isLoading, error, onRetry, isFetching, isPlaceholderData, hasFilters, onQueryChange, hrefFor, own = false }: InvoicesTableProps) => {
   const columns = useMemo(
     () => [
       column.accessor('number', {
@@ -150,11 +153,14 @@ export const InvoicesTable = ({ query, data, isLoading, isFetching, isPlaceholde
         table={table}
         caption="Invoices"
         isLoading={isLoading}
+        error={error}
+        onRetry={onRetry}
         isFetching={isFetching}
         rowClassName={(row) => (row.original.status === 'void' ? 'text-ink-muted' : undefined)}
         empty={hasFilters ? 'No invoice matches these filters.' : 'No invoices yet.'}
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}

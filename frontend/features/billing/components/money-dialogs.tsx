@@ -16,6 +16,7 @@ import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
 import { Input, Radio, Select } from '@/components/ui/input';
+import { useNotice } from '@/components/ui/notice';
 import {
   paymentInputSchema,
   refundInputSchema,
@@ -39,6 +40,7 @@ const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
 
 const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const record = useRecordPayment(invoice.id);
+  const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
   const { register, handleSubmit, setError, formState: { errors } } = useForm<PaymentInput>({
     resolver: zodResolver(paymentInputSchema),
@@ -47,7 +49,16 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const submit = handleSubmit((values) => {
     setFormError(null);
     record.mutate(values, {
-      onSuccess: onClose,
+      onSuccess: ({ payment, invoice: after }) => {
+        notice.show({
+          title: 'Payment recorded',
+          text:
+            after.amountDueCents > 0
+              ? `${money(payment.amountCents, after.currency)} from ${after.memberName} on ${after.number}; ${money(after.amountDueCents, after.currency)} is still due.`
+              : `${money(payment.amountCents, after.currency)} from ${after.memberName}; ${after.number} is paid.`,
+        });
+        onClose();
+      },
       onError: (e) => {
         const rest = applyProblemToForm(e, setError, ['amountCents', 'method', 'receivedOn', 'reference', 'note']);
         if (rest.length) setFormError(rest.join(' '));
@@ -105,6 +116,7 @@ const invoiceRate = (invoice: InvoiceDetail) => {
 
 const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const refund = useRefundInvoice(invoice.id);
+  const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
   const creditable = invoice.totalCents - invoice.creditedCents;
   const { register, handleSubmit, setError, watch, formState: { errors } } = useForm<RefundInput>({
@@ -119,7 +131,14 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const submit = handleSubmit((values) => {
     setFormError(null);
     refund.mutate({ ...values, refundMethod: paidBack === 'no' ? null : paidBack }, {
-      onSuccess: onClose,
+      onSuccess: ({ creditNoteId, invoice: after }) => {
+        const note = after.creditNotes.find((n) => n.id === creditNoteId);
+        notice.show({
+          title: `Credit note ${note?.number ?? ''} issued`.replace('  ', ' '),
+          text: `${money(values.amountCents, after.currency)} credited on ${after.number}${paidBack === 'no' ? '' : ', recorded as paid back'}. Its PDF is listed under Credit notes.`,
+        });
+        onClose();
+      },
       onError: (e) => {
         const rest = applyProblemToForm(e, setError, ['amountCents', 'reason', 'refundMethod']);
         if (rest.length) setFormError(rest.join(' '));
@@ -187,6 +206,7 @@ export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
 
 const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const voidIt = useVoidInvoice(invoice.id);
+  const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
   const { register, handleSubmit, setError, formState: { errors } } = useForm<VoidInvoiceInput>({
     resolver: zodResolver(voidInvoiceSchema),
@@ -195,7 +215,14 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const submit = handleSubmit((values) => {
     setFormError(null);
     voidIt.mutate(values, {
-      onSuccess: onClose,
+      onSuccess: ({ creditNoteId, invoice: after }) => {
+        const note = after.creditNotes.find((n) => n.id === creditNoteId);
+        notice.show({
+          title: creditNoteId ? `${after.number} voided` : 'Draft voided',
+          text: creditNoteId ? `Credit note ${note?.number ?? ''} replaces it; its PDF is listed under Credit notes.` : 'The draft is void; nothing was issued.',
+        });
+        onClose();
+      },
       onError: (e) => {
         const rest = applyProblemToForm(e, setError, ['reason', 'refundMethod']);
         if (rest.length) setFormError(rest.join(' '));

@@ -4,8 +4,9 @@ import { bookingStateLabels, type Booking } from '../../../../shared/schemas/boo
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { DataTablePagination } from '@/components/ui/data-table';
+import { DataTablePagination, LoadError } from '@/components/ui/data-table';
 import { Dialog } from '@/components/ui/dialog';
+import { useNotice } from '@/components/ui/notice';
 import { Spinner } from '@/components/ui/spinner';
 import { useCancelBooking } from '@/features/bookings/api/cancel-booking';
 import { useBookings } from '@/features/bookings/api/get-bookings';
@@ -33,7 +34,7 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
   const from = showPast ? undefined : since;
   const list = useBookings({ mine, page, pageSize, sort: 'startsAt', order: showPast ? 'desc' : 'asc', includeCancelled: true, ...(from ? { from } : {}) });
   const [cancelling, setCancelling] = useState<Booking | null>(null);
-  const [notice, setNotice] = useState<string | null>(null);
+  const notice = useNotice();
 
   return (
     <div className="flex flex-col gap-3">
@@ -44,10 +45,9 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
         </label>
         {list.isFetching ? <Spinner className="size-4" label="Loading" /> : null}
       </div>
-      {notice ? <Alert tone="success">{notice}</Alert> : null}
-      {list.isError ? <Alert tone="error" title="The bookings could not be loaded">{problemMessage(list.error)}</Alert> : null}
-      <div className="overflow-x-auto rounded-lg border border-line bg-surface">
-        <table className="w-full text-sm">
+      {list.isError && !list.isFetching ? <LoadError what="The bookings" error={list.error} onRetry={() => void list.refetch()} /> : null}
+      <div className="md:overflow-x-auto md:rounded-lg md:border md:border-line md:bg-surface">
+        <table className="card-table w-full text-sm">
           <caption className="sr-only">{mine ? 'My bookings' : 'All bookings'}</caption>
           <thead>
             <tr className="bg-ground-deep text-left text-xs font-semibold tracking-wide text-ink-muted uppercase">
@@ -63,7 +63,7 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
             </tr>
           </thead>
           <tbody className="divide-y divide-line">
-            {list.data?.items.length === 0 ? (
+            {list.data?.items.length === 0 && !list.isError ? (
               <tr>
                 <td colSpan={7} className="px-3 py-6 text-center text-ink-muted">
                   {mine ? 'No bookings yet. Pick a free slot on the calendar.' : 'No bookings.'}
@@ -80,11 +80,11 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
                     </Link>{' '}
                     <span className="text-ink-muted">{b.equipment.name}</span>
                   </td>
-                  <td className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.startsAt)}</td>
-                  <td className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.endsAt)}</td>
-                  <td className="px-3 py-2 whitespace-nowrap text-ink-muted">{formatDateTime(b.blockedUntil)}</td>
-                  {!mine ? <td className="px-3 py-2">{b.owner ? `${b.owner.name}` : 'Taken'}</td> : null}
-                  <td className="px-3 py-2">
+                  <td data-label="From" className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.startsAt)}</td>
+                  <td data-label="Until" className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.endsAt)}</td>
+                  <td data-label="Free again" className="px-3 py-2 whitespace-nowrap text-ink-muted">{formatDateTime(b.blockedUntil)}</td>
+                  {!mine ? <td data-label="Member" className="px-3 py-2">{b.owner ? `${b.owner.name}` : 'Taken'}</td> : null}
+                  <td data-label="State" className="px-3 py-2">
                     <Badge tone={stateTone[b.state]}>{bookingStateLabels[b.state]}</Badge>
                   </td>
                   <td className="px-3 py-2 text-right">
@@ -110,7 +110,7 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
         pageSizeOptions={[25, 50, 100]}
         noun="bookings"
       />
-      <CancelDialog booking={cancelling} onClose={() => setCancelling(null)} onDone={(b) => (setCancelling(null), setNotice(`Cancelled ${b.equipment.code} from ${formatDateTime(b.startsAt)}. The slot is free again.`))} />
+      <CancelDialog booking={cancelling} onClose={() => setCancelling(null)} onDone={(b) => (setCancelling(null), notice.show({ text: `Cancelled ${b.equipment.code} from ${formatDateTime(b.startsAt)}. The slot is free again.` }))} />
     </div>
   );
 };

@@ -1,6 +1,4 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useFieldArray, useForm } from 'react-hook-form';
+import { useFieldArray } from 'react-hook-form';
 import {
   carbonationSettingsSchema,
   concentrationUnits,
@@ -13,9 +11,8 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Checkbox, Input, Select } from '@/components/ui/input';
 import { Cautions } from '@/features/cellar-ops/components/cautions';
-import { useSaveSetting } from '@/features/settings/api/setting';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
-import { problemMessage } from '@/lib/api-client';
+import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
 const optionalNum = { setValueAs: (v: string) => (v === '' ? undefined : Number(v)) };
@@ -28,21 +25,12 @@ export const SanitationSettingsSection = ({ canEdit }: { canEdit: boolean }) => 
 );
 
 const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit: boolean }) => {
-  const save = useSaveSetting<SanitationSettings>('sanitation');
-  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
-  const form = useForm<SanitationSettings>({ resolver: zodResolver(sanitationSettingsSchema) as never, defaultValues: value });
+  const { form, save, message, onSubmit } = useSettingForm<SanitationSettings>('sanitation', sanitationSettingsSchema, value, {
+    savedText: 'Sanitation rules saved. New cycles are judged by them from now on.',
+    fields: ['freshnessDays', 'cleanWithinDays', 'minimumPurgeSeconds', 'co2GramsPerPurge', 'co2GramsPerKegFill'],
+  });
   const chemicals = useFieldArray({ control: form.control, name: 'chemicals' });
   const e = form.formState.errors;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(null);
-    try {
-      const saved = await save.mutateAsync(values);
-      form.reset(saved.value);
-      setMessage({ tone: 'success', text: 'Sanitation rules saved. New cycles are judged by them from now on.' });
-    } catch (err) {
-      setMessage({ tone: 'error', text: problemMessage(err) });
-    }
-  });
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Sanitation rules">
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
@@ -157,21 +145,12 @@ export const CarbonationSettingsSection = ({ canEdit }: { canEdit: boolean }) =>
 );
 
 const CarbonationForm = ({ value, canEdit }: { value: CarbonationSettings; canEdit: boolean }) => {
-  const save = useSaveSetting<CarbonationSettings>('carbonation');
-  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
-  const form = useForm<CarbonationSettings>({ resolver: zodResolver(carbonationSettingsSchema), defaultValues: value });
+  const { form, save, message, onSubmit } = useSettingForm<CarbonationSettings>('carbonation', carbonationSettingsSchema, value, {
+    savedText: 'Carbonation defaults saved.',
+    fields: ['coldRoomTempC', 'altitudeM', 'maxPlanPressureKpa', 'holdDays', 'fastStartPressureKpa', 'fastStartHours', 'settleDays', 'lineFixedKpa'],
+  });
   const presets = useFieldArray({ control: form.control, name: 'stylePresets' });
   const e = form.formState.errors;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(null);
-    try {
-      const saved = await save.mutateAsync(values);
-      form.reset(saved.value);
-      setMessage({ tone: 'success', text: 'Carbonation defaults saved.' });
-    } catch (err) {
-      setMessage({ tone: 'error', text: problemMessage(err) });
-    }
-  });
   const fields: [keyof CarbonationSettings, string, string?][] = [
     ['coldRoomTempC', 'Cold room (°C)'],
     ['altitudeM', 'Altitude (m)', 'Gauges read against the local air pressure.'],

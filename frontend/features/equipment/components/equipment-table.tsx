@@ -20,6 +20,9 @@ export interface EquipmentTableProps {
   query: EquipmentListQuery;
   data: Page<Equipment> | undefined;
   isLoading: boolean;
+  /** The last load failed: the table shows it with Retry instead of its empty text. */
+  error?: unknown;
+  onRetry?: () => void;
   isFetching: boolean;
   isPlaceholderData: boolean;
   onQueryChange: (patch: EquipmentListQueryPatch) => void;
@@ -47,7 +50,7 @@ function facts(item: Equipment): string {
   }
 }
 
-export const EquipmentTable = ({ query, data, isLoading, isFetching, isPlaceholderData, onQueryChange, selection, onSelectionChange }: EquipmentTableProps) => {
+export const EquipmentTable = ({ query, data, isLoading, error, onRetry, isFetching, isPlaceholderData, onQueryChange, selection, onSelectionChange }: EquipmentTableProps) => {
   const units = useUnits();
   const columns = useMemo(
     () => [
@@ -127,11 +130,14 @@ export const EquipmentTable = ({ query, data, isLoading, isFetching, isPlacehold
         table={table}
         caption="The co-op's equipment"
         isLoading={isLoading}
+        error={error}
+        onRetry={onRetry}
         isFetching={isFetching}
         rowClassName={(row) => (row.original.state === 'out_of_service' ? 'text-ink-muted' : undefined)}
         empty="No equipment matches these filters."
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}

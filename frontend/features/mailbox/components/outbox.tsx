@@ -7,7 +7,7 @@ import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { useMailbox, type MailboxMessage } from '@/features/mailbox/api/get-mailbox';
 import { useSearchParamsState } from '@/hooks/use-search-params-state';
 import { MessageText } from '@/features/mailbox/components/message-text';
-import { isApiProblem, problemMessage } from '@/lib/api-client';
+import { isApiProblem } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
 import { formatDateTime } from '@/utils/format';
 
@@ -105,11 +105,12 @@ export const Outbox = () => {
             Refresh
           </Button>
         </div>
-        {mailbox.isError ? <Alert tone="error">{problemMessage(mailbox.error)}</Alert> : null}
         <DataTable
           table={table}
           caption="Outbox"
           isLoading={mailbox.isPending}
+          error={mailbox.error}
+          onRetry={() => void mailbox.refetch()}
           isFetching={mailbox.isFetching}
           empty="No e-mails yet. Invite someone, or ask for a password reset, and it shows up here."
           rowClassName={(row) => cn(row.original.id === openId && 'bg-copper-soft/40')}

@@ -1,15 +1,11 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { equipmentKindLabels, equipmentKinds } from '../../../../shared/schemas/equipment.ts';
 import { bookingRulesSchema, type BookingRules } from '../../../../shared/schemas/settings.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { useSaveSetting } from '@/features/settings/api/setting';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
-import { applyProblemToForm } from '@/utils/problem-form';
+import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 /** The Settings section for the co-op's booking rules (admin edits; the rota and treasurer read). */
 export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => (
@@ -21,21 +17,11 @@ export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => (
 const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
 
 const BookingRulesForm = ({ value, canEdit }: { value: BookingRules; canEdit: boolean }) => {
-  const save = useSaveSetting<BookingRules>('booking_rules');
-  const [message, setMessage] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
-  const form = useForm<BookingRules>({ resolver: zodResolver(bookingRulesSchema), defaultValues: value });
-  const errors = form.formState.errors;
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage(null);
-    try {
-      const saved = await save.mutateAsync(values);
-      form.reset(saved.value);
-      setMessage({ tone: 'success', text: 'Booking rules saved. New bookings follow them from now on.' });
-    } catch (error) {
-      const left = applyProblemToForm(error, form.setError, ['cleaningBufferHours', 'maxDays', 'maxAdvanceDays', 'maxActiveBookingsPerMember', 'timeZone']);
-      if (left.length) setMessage({ tone: 'error', text: left.join(' ') });
-    }
+  const { form, save, message, onSubmit } = useSettingForm<BookingRules>('booking_rules', bookingRulesSchema, value, {
+    savedText: 'Booking rules saved. New bookings follow them from now on.',
+    fields: ['cleaningBufferHours', 'maxDays', 'maxAdvanceDays', 'maxActiveBookingsPerMember', 'timeZone'],
   });
+  const errors = form.formState.errors;
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Booking rules">
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}

@@ -1,11 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
-import { roles as roleOrder } from '../../../../shared/permissions/roles.ts';
+import { roleLabels, roles as roleOrder } from '../../../../shared/permissions/roles.ts';
 import type { User, UserRolesInput } from '../../../../shared/schemas/user.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
+import { useNotice } from '@/components/ui/notice';
 import { useUpdateUser, userRolesSchema } from '@/features/users/api/update-user';
 import { RoleCheckboxes } from '@/features/users/components/role-checkboxes';
 import { applyProblemToForm } from '@/utils/problem-form';
@@ -26,6 +27,7 @@ interface EditRolesFormProps {
 
 const EditRolesForm = ({ user, isSelf, onClose, onBusy }: EditRolesFormProps) => {
   const update = useUpdateUser();
+  const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
   useEffect(() => onBusy(update.isPending), [update.isPending, onBusy]);
   const {
@@ -45,7 +47,10 @@ const EditRolesForm = ({ user, isSelf, onClose, onBusy }: EditRolesFormProps) =>
     update.mutate(
       { id: user.id, roles: next },
       {
-        onSuccess: onClose,
+        onSuccess: () => {
+          notice.show({ title: 'Roles saved', text: `${user.name} is now ${next.map((role) => roleLabels[role]).join(', ') || 'without a role'}.` });
+          onClose();
+        },
         onError: (error) => {
           const rest = applyProblemToForm(error, setError, ['roles']);
           if (rest.length) setFormError(rest.join(' '));

@@ -1,8 +1,7 @@
 import { useCallback, useEffect, useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { User } from '../../../../shared/schemas/user.ts';
-import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
+import { useNotice } from '@/components/ui/notice';
 import { paths } from '@/config/paths';
 import { useUsers } from '@/features/users/api/get-users';
 import { EditRolesDialog } from '@/features/users/components/edit-roles-dialog';
@@ -11,14 +10,11 @@ import { SetActiveDialog } from '@/features/users/components/set-active-dialog';
 import { UsersTable } from '@/features/users/components/users-table';
 import { UsersToolbar } from '@/features/users/components/users-toolbar';
 import { useUsersSearchParams } from '@/features/users/hooks/use-users-search-params';
-import { problemMessage } from '@/lib/api-client';
 import { useDevMailboxAvailable } from '@/lib/dev-mailbox';
 
 export interface MembersDirectoryProps {
   currentUserId: string;
 }
-
-type Notice = { text: string; invited?: boolean } | null;
 
 /** The admin's list of people: search, filter, sort and page on the server; invite; roles; (de)activate. */
 export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
@@ -28,7 +24,7 @@ export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
   const [inviting, setInviting] = useState(false);
   const [editing, setEditing] = useState<User | null>(null);
   const [toggling, setToggling] = useState<User | null>(null);
-  const [notice, setNotice] = useState<Notice>(null);
+  const notice = useNotice();
 
   // Past the last page (after filtering or deactivating): go to the last one there is.
   const total = users.data?.total ?? 0;
@@ -46,38 +42,12 @@ export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
     <div className="flex flex-col gap-4">
       <UsersToolbar query={query} onQueryChange={setQuery} onInvite={() => setInviting(true)} />
 
-      {notice ? (
-        <Alert tone="success">
-          <div className="flex flex-wrap items-center justify-between gap-2">
-            <span>
-              {notice.text}
-              {notice.invited && mailbox ? (
-                <>
-                  {' '}
-                  In development the e-mail lands in the <Link to={paths.outbox}>Outbox</Link>.
-                </>
-              ) : null}
-            </span>
-            <Button variant="ghost" size="sm" onClick={() => setNotice(null)}>
-              Dismiss
-            </Button>
-          </div>
-        </Alert>
-      ) : null}
-
-      {users.isError ? (
-        <Alert tone="error" title="The list could not be loaded">
-          {problemMessage(users.error)}{' '}
-          <Button variant="secondary" size="sm" className="ml-2" onClick={() => void users.refetch()}>
-            Try again
-          </Button>
-        </Alert>
-      ) : null}
-
       <UsersTable
         query={query}
         data={users.data}
         isLoading={users.isPending}
+        error={users.error}
+        onRetry={() => void users.refetch()}
         isFetching={users.isFetching}
         isPlaceholderData={users.isPlaceholderData}
         currentUserId={currentUserId}
@@ -92,7 +62,19 @@ export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
         onClose={() => setInviting(false)}
         onInvited={(user) => {
           setInviting(false);
-          setNotice({ text: `Invitation sent to ${user.name} (${user.email}).`, invited: true });
+          notice.show({
+            text: (
+              <>
+                Invitation sent to {user.name} ({user.email}).
+                {mailbox ? (
+                  <>
+                    {' '}
+                    In development the e-mail lands in the <Link to={paths.outbox}>Outbox</Link>.
+                  </>
+                ) : null}
+              </>
+            ),
+          });
         }}
       />
       <EditRolesDialog user={editing} currentUserId={currentUserId} onClose={() => setEditing(null)} />
@@ -101,7 +83,7 @@ export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
         onClose={() => setToggling(null)}
         onDone={(user) => {
           setToggling(null);
-          setNotice({ text: `${user.name} is ${user.isActive ? 'active again' : 'deactivated'}.` });
+          notice.show({ text: `${user.name} is ${user.isActive ? 'active again' : 'deactivated'}.` });
         }}
       />
     </div>

@@ -14,6 +14,9 @@ export interface UsersTableProps {
   query: UserListQuery;
   data: Page<User> | undefined;
   isLoading: boolean;
+  /** The last load failed: the table shows it with Retry instead of its empty text. */
+  error?: unknown;
+  onRetry?: () => void;
   isFetching: boolean;
   isPlaceholderData: boolean;
   currentUserId: string;
@@ -30,6 +33,8 @@ export const UsersTable = ({
   query,
   data,
   isLoading,
+  error,
+  onRetry,
   isFetching,
   isPlaceholderData,
   currentUserId,
@@ -127,11 +132,14 @@ export const UsersTable = ({
         table={table}
         caption="Members of the co-op"
         isLoading={isLoading}
+        error={error}
+        onRetry={onRetry}
         isFetching={isFetching}
         rowClassName={(row) => (row.original.isActive ? undefined : 'text-ink-muted')}
         empty={hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.'}
       />
       <DataTablePagination
+        failed={Boolean(error)}
         page={query.page}
         pageSize={query.pageSize}
         total={data?.total ?? 0}
