@@ -12,7 +12,9 @@ import { systemClock } from './lib/clock.ts';
 import { createQueue } from './lib/queue.ts';
 import { startWorkers } from './workers.ts';
 
+// eslint-disable-next-line prefer-const -- set once below; the shutdown handlers above read it before then
 let server: Server | undefined;
+// eslint-disable-next-line prefer-const -- as above
 let queue: PgBoss | undefined;
 let closing = false;
 

@@ -74,7 +74,7 @@ async function child(kind: string, url: string, batchId: string, file: string, a
   const { db, pool } = createDb(url, 4);
   const baseline = peakRssMiB();
   const t0 = performance.now();
-  let rows = 0;
+  let rows: number;
   if (kind === 'copy') {
     const client = await pool.connect();
     try {
@@ -143,7 +143,7 @@ async function main() {
         throw new Error(`${run.label} failed`);
       }
       const line = r.stdout.trim().split('\n').pop()!;
-      results.push({ label: run.label, ...JSON.parse(line) });
+      results.push({ label: run.label, ...(JSON.parse(line) as Omit<(typeof results)[number], 'label'>) });
     }
     const copyMs = results[0]!.ms;
     const sizes = { csv: fs.statSync(files.csvPath).size, xlsx: fs.statSync(files.xlsxPath).size };

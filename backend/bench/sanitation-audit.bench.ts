@@ -8,7 +8,7 @@ import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { Kysely, PostgresDialect, sql } from 'kysely';
 import type { DB } from '../db/schema.ts';
 import { pdfRenderPool } from '../lib/pdf-render.ts';
-import { loadAuditData, renderAuditPdf, renderAuditPdfOffThread, type AuditData } from '../modules/sanitation/audit-report.ts';
+import { loadAuditData, renderAuditPdf, renderAuditPdfOffThread } from '../modules/sanitation/audit-report.ts';
 import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
 import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
 import { benchDatabase, peakRssMiB, time } from './bench-db.ts';
@@ -129,7 +129,7 @@ try {
 
   // The event loop's worst delay during one render: a histogram sampling every 10 ms, plus a
   // timer ticking every 5 ms as a stand-in for other requests (how many got a turn meanwhile).
-  const data = (await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to })) as AuditData;
+  const data = (await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to }));
   async function loopDuring(render: () => Promise<Buffer>) {
     const h = monitorEventLoopDelay({ resolution: 10 });
     let ticks = 0;

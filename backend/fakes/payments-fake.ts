@@ -151,7 +151,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
   async function deliverOnce(eventId: string, type: string, payload: string): Promise<boolean> {
     // Signed at each attempt, with the attempt's timestamp, as the provider does.
     const signature = Stripe.webhooks.generateTestHeaderString({ payload, secret: webhookSecret });
-    let status = 0;
+    let status: number;
     try {
       const r = await fetch(fake.webhookUrl, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': signature }, body: payload });
       status = r.status;
@@ -203,7 +203,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
       if (currency && currency !== pd.currency) return 'line_items: all items must share one currency';
       currency = pd.currency;
       total += unit * qty;
-      summary.push({ name: String(product.name ?? 'Item'), description: typeof product.description === 'string' ? product.description : null, quantity: qty, unit_amount: unit });
+      summary.push({ name: typeof product.name === 'string' ? product.name : 'Item', description: typeof product.description === 'string' ? product.description : null, quantity: qty, unit_amount: unit });
     }
     if (typeof params.success_url !== 'string' || typeof params.cancel_url !== 'string') return 'success_url and cancel_url are required';
     const sid = id('cs');

@@ -13,6 +13,7 @@ export const MAX_BODY_DEPTH = 32;
 const MAX_ERRORS = 20;
 
 const named = (s: string) => {
+  // eslint-disable-next-line no-control-regex -- finding control characters is this regex's job
   const m = /[\u0000-\u001F\u007F]/.exec(s);
   return m ? `U+${m[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}` : 'a lone surrogate';
 };
@@ -31,7 +32,7 @@ function walk(root: unknown, refused: RegExp, errors: ProblemFieldError[]): void
       errors.push({ path: path.join('.'), message: `Nested more than ${MAX_BODY_DEPTH} levels deep.` });
       continue;
     }
-    const entries = Array.isArray(value) ? value.map((v, i) => [String(i), v] as const) : Object.entries(value);
+    const entries = Array.isArray(value) ? value.map((v, i) => [String(i), v] as const) : Object.entries(value as Record<string, unknown>);
     for (let i = entries.length - 1; i >= 0; i--) {
       const [key, v] = entries[i]!;
       if (!Array.isArray(value) && refused.test(key)) {

@@ -22,8 +22,12 @@ const PG_BAD_INPUT = new Set(['22P02', '22021', '22P05', '22003', '22001', '2200
 export const DB_RETRY_AFTER_SECONDS = 5;
 
 /** Every error leaves the API as RFC 9457 problem JSON. */
-export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
+/** What the error handler reads from errors thrown by libraries (body parser, pg, http-errors). */
+type LooseError = { code?: unknown; message?: string; status?: unknown; statusCode?: unknown; type?: unknown; limit?: unknown } | null | undefined;
+
+export const problemHandler: ErrorRequestHandler = (thrown: unknown, req, res, _next) => {
   if (res.headersSent) return;
+  const err = thrown as LooseError;
   if (err instanceof HttpProblem) {
     return send(res, err.status, { type: err.type, title: err.title, detail: err.detail, errors: err.errors, ...err.extra });
   }
@@ -54,9 +58,9 @@ export const problemHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return send(res, 503, { title: 'Service unavailable', detail: 'The database is unreachable; try again shortly.' });
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500;
-  if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${err.limit} bytes.` });
+  if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${String(err.limit)} bytes.` });
   if (err?.type === 'entity.parse.failed') return send(res, 400, { title: 'Malformed JSON', detail: 'The request body is not valid JSON.' });
-  if (status >= 400 && status < 500) return send(res, status, { title: err.message ?? 'Bad request', detail: err.message });
+  if (status >= 400 && status < 500) return send(res, status, { title: err?.message ?? 'Bad request', detail: err?.message });
   req.log?.error({ err }, 'unhandled error');
   return send(res, 500, { title: 'Internal server error', detail: 'Something went wrong on our side.' });
 };

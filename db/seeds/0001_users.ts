@@ -25,12 +25,12 @@ export const demoUsers: SeedUser[] = [
   { key: 'admin', email: 'admin@example.org', name: 'Greta Alder', roles: ['admin'] },
   { key: 'treasurer', email: 'treasurer@example.org', name: 'Milo Fenwick', roles: ['treasurer'] },
   { key: 'brewer', email: 'brewer@example.org', name: 'Ada Kettleby', roles: ['brewer_on_duty'] },
-  ...memberNames.map((name, i) => ({
+  ...memberNames.map((name, i): SeedUser => ({
     key: i === 0 ? 'member' : `member${i + 1}`,
     email: i === 0 ? 'member@example.org' : `member${i + 1}@example.org`,
     name,
     // Two members also take turns on the brewers' rota.
-    roles: (i === 4 || i === 9 ? ['member', 'brewer_on_duty'] : ['member']) as Role[],
+    roles: i === 4 || i === 9 ? ['member', 'brewer_on_duty'] : ['member'],
   })),
 ];
 

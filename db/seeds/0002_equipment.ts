@@ -132,7 +132,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         kind: e.kind,
         name: e.name,
         capacity_liters: e.capacityLiters,
-        state: 'ready' as VesselState,
+        state: 'ready',
         attributes: sql`${JSON.stringify(attributes(e))}::jsonb`,
         notes: e.notes,
         state_changed_at: cal.at('2026-08-29T15:00:00Z'),

@@ -53,7 +53,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     (fills[0]!.finings_kind === 'gelatin' ? 1 : 0);
   const chosen = [...byTransfer.values()].sort((a, b) => score(b) - score(a))[0];
 
-  let chosenBatch: string | null = null;
+  let chosenBatch: string | null;
   if (chosen) {
     const t = await db.selectFrom('transfer').select(['id', 'packaged_liters', 'finings_kind']).where('id', '=', chosen[0]!.transfer_id!).executeTakeFirstOrThrow();
     chosenBatch = chosen[0]!.batch_id;

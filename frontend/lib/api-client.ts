@@ -118,7 +118,7 @@ function normalizeFieldErrors(raw: unknown): ProblemFieldError[] {
   for (const item of raw) {
     if (!item || typeof item !== 'object') continue;
     const entry = item as Record<string, unknown>;
-    const path = Array.isArray(entry.path) ? entry.path.join('.') : String(entry.path ?? '');
+    const path = Array.isArray(entry.path) ? entry.path.join('.') : (typeof entry.path === 'string' || typeof entry.path === 'number' ? String(entry.path) : '');
     const message = typeof entry.message === 'string' ? entry.message : 'Check this value';
     const error: ProblemFieldError = { path, message };
     if (typeof entry.row === 'number') error.row = entry.row;

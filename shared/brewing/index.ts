@@ -708,7 +708,7 @@ interface TimedReading {
 }
 
 function normaliseReadings(readings: readonly GravityReading[]): TimedReading[] {
-  if (!Array.isArray(readings)) {
+  if (!Array.isArray(readings as unknown)) {
     throw new RangeError('readings must be an array of { takenAt, sg }');
   }
   return readings
@@ -857,10 +857,8 @@ export function forecastFinalGravity(
   // Downward trend: the least-squares straight line must fall.
   const meanT = days.reduce((s, v) => s + v, 0) / days.length;
   const meanY = sg.reduce((s, v) => s + v, 0) / sg.length;
-  let stt = 0;
   let sty = 0;
   days.forEach((t, i) => {
-    stt += (t - meanT) ** 2;
     sty += (t - meanT) * ((sg[i] ?? 0) - meanY);
   });
   if (!(sty < 0)) return null;

@@ -91,7 +91,7 @@ describe('anonymous visitors leave no session behind', () => {
     try {
       await new Promise<void>((resolve, reject) => store.pruneSessions((err) => (err ? reject(err) : resolve())));
     } finally {
-      await store.close();
+      store.close();
     }
     const left = await sql<{ user_id: string }>`select sess->>'userId' as user_id from session`.execute(ctx.db);
     expect(left.rows.map((r) => r.user_id)).not.toContain(api.user.id);

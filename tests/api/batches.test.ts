@@ -111,12 +111,12 @@ describe('creating and changing batches', () => {
     });
     const own = { id: inIt.bookingId!, code: fermenter.code, batch_id: inIt.id };
     const others = await createBooking(ctx.db, { ownerId: member2.user.id, equipmentId: (await createFermenter(ctx.db)).id, startsAt: new Date(now + DAY), endsAt: new Date(now + 15 * DAY), now: new Date(now) });
-    const taken = await member.post('/api/batches', { name: 'Second tenant', volumeLiters: 20, bookingId: own!.id });
+    const taken = await member.post('/api/batches', { name: 'Second tenant', volumeLiters: 20, bookingId: own.id });
     expect(taken.status).toBe(409);
-    await ctx.db.updateTable('booking').set({ batch_id: null }).where('id', '=', own!.id).execute();
-    const b = await newBatch(member, { bookingId: own!.id });
+    await ctx.db.updateTable('booking').set({ batch_id: null }).where('id', '=', own.id).execute();
+    const b = await newBatch(member, { bookingId: own.id });
     const detail = await member.get(`/api/batches/${b.id}`);
-    expect(detail.body.bookings).toEqual([expect.objectContaining({ id: own!.id, equipmentCode: own!.code })]);
+    expect(detail.body.bookings).toEqual([expect.objectContaining({ id: own.id, equipmentCode: own.code })]);
     const res = await member.patch(`/api/batches/${b.id}`, { bookingId: others.id });
     expect(res.status).toBe(422);
     expect(res.body.errors[0].path).toBe('bookingId');

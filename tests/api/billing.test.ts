@@ -524,14 +524,14 @@ describe('documents', () => {
     const xlsx = await treasurer.get('/api/invoices/export?period=2026-09&format=xlsx').buffer(true).parse(binary);
     expect(xlsx.status).toBe(200);
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(xlsx.body as unknown as ArrayBuffer);
+    await wb.xlsx.load(xlsx.body);
     expect(wb.worksheets.map((w) => w.name)).toEqual(['Invoice lines', 'Credit notes', 'Payments']);
     const sheet = wb.getWorksheet('Invoice lines')!;
     const texts: string[] = [];
     const amounts: unknown[] = [];
     sheet.eachRow((row, n) => {
       if (n === 1) return;
-      texts.push(String(row.getCell(8).value));
+      texts.push(String(row.getCell(8).value as string));
       amounts.push(row.getCell(16).value);
     });
     expect(texts).toContain('\'=HYPERLINK("http://example.org","x")');

@@ -32,7 +32,7 @@ const migrations = import.meta.glob<Migration>('../../db/migrations/*.ts', { eag
 const migrator = (db: Database) =>
   new Migrator({
     db,
-    provider: { getMigrations: async () => Object.fromEntries(Object.entries(migrations).map(([file, m]) => [file.split('/').pop()!.replace(/\.ts$/, ''), m])) },
+    provider: { getMigrations: () => Promise.resolve(Object.fromEntries(Object.entries(migrations).map(([file, m]) => [file.split('/').pop()!.replace(/\.ts$/, ''), m]))) },
   });
 const count = async (db: Database, query: ReturnType<typeof sql>) => Number(((await query.execute(db)).rows[0] as { n: string | number }).n);
 
@@ -84,7 +84,7 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         await admin.end();
         db = createDb(withDatabase(inject('adminUrl'), name), 2).db;
         const { error } = await migrator(db).migrateToLatest();
-        if (error) throw error;
+        if (error) throw error as Error;
         if (timeZone) {
           const rules = await getBookingRules(db);
           await db.updateTable('setting').set({ value: JSON.stringify({ ...rules, timeZone }) }).where('key', '=', 'booking_rules').execute();
@@ -274,7 +274,7 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         }
         // The history reaches back about three months, and its users and registry before it.
         const first = await db.selectFrom('booking').select((eb) => eb.fn.min('starts_at').as('first')).executeTakeFirstOrThrow();
-        expect((now.getTime() - new Date(first.first as Date).getTime()) / DAY).toBeGreaterThan(80);
+        expect((now.getTime() - new Date(first.first).getTime()) / DAY).toBeGreaterThan(80);
       });
 
       it('accounts for every litre in the monthly production report, and records transfer times that end at the transfer', async () => {

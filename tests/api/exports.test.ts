@@ -131,11 +131,16 @@ async function cellsOf(kind: 'csv' | 'xlsx', res: Response): Promise<{ text: str
   if (kind === 'csv') {
     const parsed = Papa.parse<string[]>(res.text.replace(/^\ufeff/, ''), { skipEmptyLines: true });
     expect(parsed.errors).toEqual([]);
-    for (const row of parsed.data) for (const cell of row) (PLAIN_NUMBER.test(cell) ? numbers.push(Number(cell.replace(',', '.'))) : text.push(cell));
+    for (const row of parsed.data) {
+      for (const cell of row) {
+        if (PLAIN_NUMBER.test(cell)) numbers.push(Number(cell.replace(',', '.')));
+        else text.push(cell);
+      }
+    }
     return { text, numbers, formulas };
   }
   const wb = new ExcelJS.Workbook();
-  await wb.xlsx.load(res.body as unknown as ArrayBuffer);
+  await wb.xlsx.load(res.body);
   for (const ws of wb.worksheets) {
     ws.eachRow((row) =>
       row.eachCell((cell) => {

@@ -20,8 +20,8 @@ import { makeZip } from '../helpers/zip.ts';
 let ctx: TestContext;
 let member: ApiClient;
 let settings: FermentationSettings;
-let batchIds: string[] = [];
-let workbooks: Buffer[] = [];
+const batchIds: string[] = [];
+const workbooks: Buffer[] = [];
 let files = 0;
 const statuses = new Map<number, number>();
 

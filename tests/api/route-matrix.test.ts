@@ -332,7 +332,7 @@ describe('the route permission matrix', () => {
       for (const token of [undefined, 'not-the-token']) {
         let req = clients.admin.agent[r.method.toLowerCase() as 'post'](url);
         if (token) req = req.set('X-CSRF-Token', token);
-        const res = await (r.method === 'DELETE' ? req : req.send((entry.body ?? {}) as object));
+        const res = await (r.method === 'DELETE' ? req : req.send((entry.body ?? {})));
         if (res.status !== 403 || !/CSRF/.test(res.body?.title ?? '')) failures.push(`${routeKey(r)} ${token ? 'with a wrong token' : 'without a token'}: ${res.status}`);
       }
       if ((await audited()) !== before) failures.push(`${routeKey(r)}: a refused write left an audit row`);

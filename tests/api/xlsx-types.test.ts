@@ -34,7 +34,7 @@ async function workbook(client: ApiClient, url: string): Promise<ExcelJS.Workboo
   const res = await client.get(url).buffer(true).parse(binary);
   expect(res.status, url).toBe(200);
   const wb = new ExcelJS.Workbook();
-  await wb.xlsx.load(res.body as unknown as ArrayBuffer);
+  await wb.xlsx.load(res.body);
   return wb;
 }
 

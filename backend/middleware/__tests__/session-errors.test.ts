@@ -20,8 +20,8 @@ class FlakyStore extends session.MemoryStore {
     if (this.failWrite) return setImmediate(() => cb?.(refused()));
     super.set(sid, s, cb);
   }
-  override touch(sid: string, s: session.SessionData, cb?: () => void) {
-    if (this.failWrite) return setImmediate(() => (cb as ((err?: unknown) => void) | undefined)?.(refused()));
+  override touch(sid: string, s: session.SessionData, cb?: (err?: unknown) => void) {
+    if (this.failWrite) return setImmediate(() => cb?.(refused()));
     super.touch(sid, s, cb);
   }
 }

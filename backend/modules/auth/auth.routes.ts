@@ -42,10 +42,10 @@ function signIn(req: Request, user: SessionUser): Promise<void> {
   const csrf = req.session.csrfToken ?? newSessionCsrfToken();
   return new Promise((resolve, reject) => {
     req.session.regenerate((err) => {
-      if (err) return reject(err);
+      if (err) return reject(err as Error);
       req.session.userId = user.id;
       req.session.csrfToken = csrf;
-      req.session.save((e) => (e ? reject(e) : resolve()));
+      req.session.save((e) => (e ? reject(e as Error) : resolve()));
     });
   });
 }
@@ -134,7 +134,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
   });
 
   router.post('/logout', requireUser, async (req, res) => {
-    await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
+    await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err as Error) : resolve())));
     res.clearCookie('cw.sid', { path: '/' });
     res.status(204).end();
   });

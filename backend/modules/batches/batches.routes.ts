@@ -119,7 +119,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const file = req.file;
     if (!file) throw badRequest(sendInFileField);
     const body = (req.body ?? {}) as Record<string, unknown>;
-    const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : (req.query.progressId as string | undefined));
+    const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : (req.query.progressId));
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
     const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), loadCoopTimeZone(db)]);
     void pruneImportProgress(db).catch(() => undefined);

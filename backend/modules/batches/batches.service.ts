@@ -63,7 +63,7 @@ export async function findVisibleBatch(db: Database, ability: AppAbility, id: st
   if (!isUuid(id)) throw notFound('Batch');
   const row = await db.selectFrom('batch').select(batchColumns).where('batch.id', '=', id).executeTakeFirst();
   if (!row || !ability.can('read', subject('Batch', { ownerId: row.owner_id }))) throw notFound('Batch');
-  return row as BatchRow;
+  return row;
 }
 
 const sortColumns = {
@@ -315,6 +315,6 @@ export async function updateBatch(
       await linkBooking(trx, batch.id, batch.owner_id, input.bookingId, now);
     }
     await audit(trx, actor.id, input.status && input.status !== batch.status ? `status:${input.status}` : 'updated', 'Batch', batch.id, input);
-    return updated as unknown as BatchRow;
+    return updated;
   });
 }

@@ -175,7 +175,7 @@ export function parseTakenAt(c: Cell, order: 'dmy' | 'mdy' | 'ymd', tz: string):
   if (m) {
     const parts = [Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4] ?? 0), Number(m[5] ?? 0), Number(m[6] ?? 0), Number((m[7] ?? '0').padEnd(3, '0').slice(0, 3))];
     checkParts(parts[0]!, parts[1]!, parts[2]!, parts[3]!, parts[4]!, parts[5]!);
-    const wall = Date.UTC(parts[0]!, parts[1]! - 1, parts[2]!, parts[3]!, parts[4]!, parts[5]!, parts[6]!);
+    const wall = Date.UTC(parts[0]!, parts[1]! - 1, parts[2], parts[3], parts[4], parts[5], parts[6]);
     return applyOffset(wall, m[8], parts, tz);
   }
   m = NUMERIC.exec(s);
@@ -199,7 +199,7 @@ export function parseTakenAt(c: Cell, order: 'dmy' | 'mdy' | 'ymd', tz: string):
     }
     const parts = [y, mo, d, h, Number(m[5] ?? 0), Number(m[6] ?? 0), Number((m[7] ?? '0').padEnd(3, '0').slice(0, 3))];
     checkParts(parts[0]!, parts[1]!, parts[2]!, parts[3]!, parts[4]!, parts[5]!);
-    const wall = Date.UTC(parts[0]!, parts[1]! - 1, parts[2]!, parts[3]!, parts[4]!, parts[5]!, parts[6]!);
+    const wall = Date.UTC(parts[0]!, parts[1]! - 1, parts[2], parts[3], parts[4], parts[5], parts[6]);
     return applyOffset(wall, m[9], parts, tz);
   }
   throw new CellError(`Cannot read “${s}” as a date and time; use e.g. 2026-10-03 14:05`);

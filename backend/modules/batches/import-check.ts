@@ -97,7 +97,7 @@ function resolveMapping(
       throw unprocessable(errors.map((e) => `${e.path}: ${e.message}`).join('; '), errors);
     }
     const mapping = parsed.data;
-    const missing = (['takenAt', 'gravity', 'unit', 'temperature', 'note'] as const).filter((k) => mapping[k] && !headers.includes(mapping[k]!));
+    const missing = (['takenAt', 'gravity', 'unit', 'temperature', 'note'] as const).filter((k) => mapping[k] && !headers.includes(mapping[k]));
     if (missing.length) {
       const errors = missing.map((k) => ({ path: `mapping.${k}`, message: `The file has no column “${mapping[k]}”`, column: mapping[k]! }));
       throw unprocessable(`The file has no column ${missing.map((k) => `“${mapping[k]}”`).join(', ')}; its columns are ${headers.join(', ')}.`, errors);
@@ -371,7 +371,7 @@ function toColumns(rows: readonly NormalisedCandidate[]): PreparedReadings {
 
 /** The columns back as readings to insert (on the request thread, where the database is). */
 export function fromColumns(c: PreparedReadings): NormalisedCandidate[] {
-  const out: NormalisedCandidate[] = new Array(c.count);
+  const out = new Array<NormalisedCandidate>(c.count);
   for (let i = 0; i < c.count; i += 1) {
     out[i] = {
       time: c.time[i]!,

@@ -32,7 +32,7 @@ type Progress = (phase: 'reading' | 'checking' | 'writing' | 'done' | 'failed', 
 
 /** Progress rows live outside the import's transaction so that a poll on any instance sees them. */
 function progressWriter(db: Database, req: ImportRequest): Progress {
-  if (!req.progressId) return async () => undefined;
+  if (!req.progressId) return () => Promise.resolve();
   const id = req.progressId;
   let last = 0;
   return async (phase, rowsDone, rowsTotal, message = '') => {

@@ -199,7 +199,7 @@ export async function batchTrace(db: Database, batchId: string, viewer: TraceVie
     loadFills(db, { batchIds: [batchId] }, viewer, now, settings.nearDays),
     loadFinings(db, [batchId]),
   ]);
-  return batchTraceOf(b as TraceBatchRow, fills.get(batchId) ?? [], finings.get(batchId) ?? []);
+  return batchTraceOf(b, fills.get(batchId) ?? [], finings.get(batchId) ?? []);
 }
 
 const dayStart = (d: string) => new Date(`${d}T00:00:00Z`);

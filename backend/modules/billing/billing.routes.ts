@@ -19,7 +19,6 @@ import {
   taxRateInputSchema,
   voidInvoiceSchema,
 } from '../../../shared/schemas/billing.ts';
-import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
@@ -55,7 +54,7 @@ const can = (req: Request) => ForbiddenError.from(req.ability);
  * An invoice as the person asking may see it, or a 404: a member sees only their own, and not
  * while it is still a draft. Someone who may read no invoices at all (the brewer-on-duty) gets 403.
  */
-async function visibleInvoice(req: Request, db: Database, id: string) {
+async function visibleInvoice(req: Request, db: Deps['db'], id: string) {
   can(req).throwUnlessCan('read', 'Invoice');
   const row = await findInvoiceRow(db, id);
   if (!row || !req.ability.can('read', subject('Invoice', { memberId: row.member_id }))) throw notFound('Invoice');
@@ -281,7 +280,7 @@ export function pricesRoutes({ db, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('create', 'PriceList');
     const input = priceInputSchema.parse(req.body ?? {});
-    res.status(201).json({ price: await addPrice(db, input as Required<typeof input>, req.user!.id, clock.now()) });
+    res.status(201).json({ price: await addPrice(db, input, req.user!.id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
@@ -343,7 +342,7 @@ export function manualChargesRoutes({ db, clock }: Deps): Router {
     can(req).throwUnlessCan('create', 'Charge');
     const input = manualChargeInputSchema.parse(req.body ?? {});
     can(req).throwUnlessCan('create', subject('Charge', { memberId: input.memberId }));
-    res.status(201).json({ charge: await addManualCharge(db, input as Required<typeof input>, req.user!.id, clock.now()) });
+    res.status(201).json({ charge: await addManualCharge(db, input, req.user!.id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {

@@ -492,8 +492,8 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
     const remaining = inv.total_cents - inv.credited_cents;
     if (remaining > 0) {
       const lines = await trx.selectFrom('invoice_line').selectAll().where('invoice_id', '=', invoiceId).orderBy('position').execute();
-      const cnLines = lines.map((l) => ({
-        invoiceLineId: l.id as string | null,
+      const cnLines = lines.map((l): { invoiceLineId: string | null; description: string; amountCents: number; taxRateBp: number; taxCents: number } => ({
+        invoiceLineId: l.id,
         description: `${l.description} — ${l.source_label}`,
         amountCents: l.amount_cents,
         taxRateBp: l.tax_rate_bp,

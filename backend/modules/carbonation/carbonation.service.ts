@@ -242,7 +242,7 @@ export async function planViews(db: Database, ids: string[]): Promise<Carbonatio
   const byId = new Map(
     rows.map((r): [string, CarbonationPlanView] => {
       // Warnings and the fast start's equilibrium are worked out again from the stored inputs.
-      let warnings: string[] = [];
+      let warnings: string[];
       let equilibrium: number | null = null;
       try {
         const again = planCarbonation({

@@ -37,7 +37,7 @@ export function toEquipmentDto(row: EquipmentRow): Equipment {
     name: row.name,
     capacityLiters: row.capacity_liters,
     state: row.state,
-    attributes: (row.attributes ?? {}) as Record<string, unknown>,
+    attributes: (row.attributes ?? {}),
     notes: row.notes,
     stateChangedAt: row.state_changed_at.toISOString(),
     createdAt: row.created_at.toISOString(),

@@ -73,7 +73,7 @@ export async function renderLabelSheet(items: Equipment[], publicUrl: string): P
         body,
       },
       layout: { hLineWidth: () => 0, vLineWidth: () => 0, paddingLeft: () => 0, paddingRight: () => 0, paddingTop: () => 0, paddingBottom: () => 0 },
-    } as Content);
+    });
   }
   const topMargin = (mm(labelSheet.pageHeightMm) - mm(labelSheet.labelHeightMm) * labelSheet.rows) / 2;
   const doc: TDocumentDefinitions = {

@@ -250,7 +250,7 @@ async function lockKeg(trx: Database, id: string) {
     .forUpdate('e')
     .executeTakeFirst();
   if (!keg || keg.kind !== 'keg') throw notFound('Keg');
-  return { ...keg, whereabouts: (keg.whereabouts ?? 'cellar') as KegWhereabouts };
+  return { ...keg, whereabouts: (keg.whereabouts ?? 'cellar') };
 }
 
 async function putWhereabouts(

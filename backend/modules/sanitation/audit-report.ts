@@ -462,7 +462,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
   ];
 
   for (const v of data.vessels) {
-    content.push({ text: `${v.code} · ${v.name}`, fontSize: 11, color: ink, margin: [0, 12, 0, 3], headlineLevel: 1 } as Content);
+    content.push({ text: `${v.code} · ${v.name}`, fontSize: 11, color: ink, margin: [0, 12, 0, 3], headlineLevel: 1 });
     if (!v.cycles.length) content.push({ text: 'No cycles in this period.', color: muted });
     else
       content.push({

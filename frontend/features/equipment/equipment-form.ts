@@ -125,7 +125,7 @@ function friendlier(errors: FieldErrors<EquipmentFormValues>, values: EquipmentF
   const fix = (error: FieldError | undefined, value: unknown) => {
     if (error && error.type === 'invalid_type' && empty(value)) error.message = 'Enter a number';
   };
-  fix(errors.capacityLiters as FieldError | undefined, values.capacityLiters);
+  fix(errors.capacityLiters, values.capacityLiters);
   const attributeErrors = errors.attributes as Record<string, FieldError> | undefined;
   if (attributeErrors) for (const key of Object.keys(attributeErrors)) fix(attributeErrors[key], (values.attributes as Record<string, unknown>)[key]);
   return errors;
@@ -139,8 +139,8 @@ export function equipmentResolver<TOutput>(schema: z.ZodType<TOutput>, units: Un
   const inner = zodResolver(schema as never) as unknown as Resolver<Record<string, unknown>, unknown, TOutput>;
   return async (values, context, options) => {
     const result = await inner(toApiValues(values, units, initial), context, options as never);
-    if (Object.keys(result.errors).length) return { values: {}, errors: friendlier(result.errors as FieldErrors<EquipmentFormValues>, values) };
-    return result as Awaited<ReturnType<Resolver<EquipmentFormValues, unknown, TOutput>>>;
+    if (Object.keys(result.errors).length) return { values: {}, errors: friendlier(result.errors, values) };
+    return result;
   };
 }
 

@@ -60,7 +60,7 @@ const BatchesRoute = () => {
         onClose={() => setCreating(false)}
         onSaved={(batch) => {
           setCreating(false);
-          navigate(`${paths.batches}/${batch.id}`);
+          void navigate(`${paths.batches}/${batch.id}`);
         }}
       />
     </div>

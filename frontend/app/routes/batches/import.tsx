@@ -81,12 +81,12 @@ const ImportReadingsRoute = () => {
       }
       void queryClient.invalidateQueries({ queryKey: batchKeys.detail(batchId) });
       void queryClient.invalidateQueries({ queryKey: [...batchKeys.all, 'list'] });
-      navigate(`${paths.batches}/${batchId}`, { state: { imported: result.imported, skipped: result.skipped } });
+      void navigate(`${paths.batches}/${batchId}`, { state: { imported: result.imported, skipped: result.skipped } });
       return result;
     } catch (e) {
       setError({
         message: problemMessage(e),
-        problems: isApiProblem(e) ? e.errors.filter((x): x is ImportRowProblem => typeof x.row === 'number').map((x) => ({ ...x, column: String(x.column ?? '') }) as ImportRowProblem) : [],
+        problems: isApiProblem(e) ? e.errors.filter((x): x is ImportRowProblem => typeof x.row === 'number').map((x) => ({ ...x, column: String(x.column ?? '') })) : [],
       });
       return null;
     } finally {
@@ -110,7 +110,7 @@ const ImportReadingsRoute = () => {
   };
 
   const headers = preview?.headers ?? [];
-  const setField = (key: keyof ImportMapping, value: unknown) => setMapping((m) => (m ? ({ ...m, [key]: value === '' ? null : value } as ImportMappingInput) : m));
+  const setField = (key: keyof ImportMapping, value: unknown) => setMapping((m) => (m ? ({ ...m, [key]: value === '' ? null : value }) : m));
 
   if (batch.isPending) return <PageLoader />;
   if (batch.isError) return <Alert tone="error" title="This batch could not be shown">{problemMessage(batch.error)}</Alert>;
@@ -187,7 +187,7 @@ const ImportReadingsRoute = () => {
             {(Object.keys(fieldLabels) as (keyof typeof fieldLabels)[]).map((key) => (
               <Field key={key} label={fieldLabels[key]}>
                 {(c) => (
-                  <Select {...c} value={(mapping[key] as string | null | undefined) ?? ''} onChange={(e) => setField(key, e.target.value)} data-field={key}>
+                  <Select {...c} value={(mapping[key]) ?? ''} onChange={(e) => setField(key, e.target.value)} data-field={key}>
                     {key === 'takenAt' || key === 'gravity' ? null : <option value="">Not in the file</option>}
                     {headers.map((h) => (
                       <option key={h} value={h}>

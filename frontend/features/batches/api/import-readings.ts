@@ -70,7 +70,7 @@ export async function importReadings({ batchId, file, mapping, dryRun, onProgres
     xhr.onerror = () => reject(new ApiProblem({ status: 0, title: "Can't reach the server", detail: 'Check your connection and try again.' }));
     xhr.onabort = () => reject(new DOMException('Aborted', 'AbortError'));
     xhr.onload = () => {
-      let body: Record<string, unknown> = {};
+      let body: Record<string, unknown>;
       try {
         body = JSON.parse(xhr.responseText || '{}') as Record<string, unknown>;
       } catch {

@@ -36,7 +36,7 @@ const formSchema = z
   .refine((v) => v.targetOg == null || v.targetFg == null || v.targetFg < v.targetOg, { path: ['targetFg'], message: 'The target FG must be below the target OG' });
 type FormValues = z.infer<typeof formSchema>;
 
-const numberOrNull = (v: unknown) => (v === '' || v === null || v === undefined || Number.isNaN(v) ? null : Number(String(v).replace(',', '.')));
+const numberOrNull = (v: unknown) => (v === '' || v === null || v === undefined || Number.isNaN(v) ? null : typeof v === 'number' ? v : typeof v === 'string' ? Number(v.replace(',', '.')) : NaN);
 
 function useFermenterBookings(ownerId: string | undefined, mine: boolean) {
   return useQuery({
@@ -71,7 +71,7 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
     defaultValues: {
       name: batch?.name ?? '',
       style: batch?.style ?? '',
-      volume: batch ? Math.round(toDisplay.volume(batch.volumeLiters, units.units) * 100) / 100 : (undefined as unknown as number),
+      volume: batch ? Math.round(toDisplay.volume(batch.volumeLiters, units.units) * 100) / 100 : (undefined),
       targetOg: batch?.targetOg ?? null,
       targetFg: batch?.targetFg ?? null,
       notes: batch?.notes ?? '',

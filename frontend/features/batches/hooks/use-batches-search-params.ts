@@ -40,7 +40,7 @@ export function useBatchesSearchParams() {
       updateSearchParams(
         (previous) => {
           const current = parseBatchListQuery(previous);
-          const next = { ...current, ...patch, page: patch.page ?? 1 } as BatchListQuery;
+          const next = { ...current, ...patch, page: patch.page ?? 1 };
           if (patch.pageSize === undefined) next.pageSize = current.pageSize;
           return batchListQueryToParams(next);
         },

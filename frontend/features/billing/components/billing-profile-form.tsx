@@ -1,4 +1,3 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { BillingProfile } from '../../../../shared/schemas/billing.ts';
@@ -18,7 +17,7 @@ export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => 
   const [formError, setFormError] = useState<string | null>(null);
   const { register, handleSubmit, setError, formState: { errors } } = useForm<ProfileForm>({
     defaultValues: { ...profile, address: profile.addressLines.join('\n') },
-    resolver: async (values) => {
+    resolver: (values) => {
       const parsed = billingProfileSchema.safeParse({ ...values, paymentTermsDays: Number(values.paymentTermsDays), addressLines: values.address.split('\n').map((l) => l.trim()).filter(Boolean) });
       if (parsed.success) return { values: { ...values }, errors: {} };
       const errs: Record<string, { type: string; message: string }> = {};

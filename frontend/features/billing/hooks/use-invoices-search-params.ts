@@ -43,7 +43,7 @@ export function useInvoicesSearchParams() {
       updateSearchParams(
         (previous) => {
           const current = parseInvoiceListQuery(previous);
-          const next = { ...current, ...patch, page: patch.page ?? 1 } as InvoiceListQuery;
+          const next = { ...current, ...patch, page: patch.page ?? 1 };
           if (patch.pageSize === undefined) next.pageSize = current.pageSize;
           if ('sort' in patch && patch.sort === undefined) next.sort = defaults.sort;
           if ('order' in patch && patch.order === undefined) next.order = defaults.order;

@@ -34,17 +34,20 @@ const column = createColumnHelper<Equipment>();
 const isSortField = (id: string): id is EquipmentSortField => (equipmentSortFields as readonly string[]).includes(id);
 
 /** The kind's facts in a few words: "conical, valve", "ball lock, LY19-…", "4.0 m × 4.8 mm line". */
+/** An attribute as text; attributes are free-form JSON, so anything but a string or number shows as nothing. */
+const text = (v: unknown) => (typeof v === 'string' || typeof v === 'number' ? String(v) : '');
+
 function facts(item: Equipment): string {
   const a = item.attributes;
   switch (item.kind) {
     case 'fermenter':
       return [a.style, a.hasValve ? 'bottom valve' : 'no valve'].filter(Boolean).join(', ');
     case 'keg':
-      return [a.lock ? `${String(a.lock)} lock` : null, a.serial].filter(Boolean).join(', ');
+      return [a.lock ? `${text(a.lock)} lock` : null, a.serial].filter(Boolean).join(', ');
     case 'tap':
-      return [a.position, a.lineLengthM ? `${String(a.lineLengthM)} m × ${String(a.lineInsideDiameterMm)} mm line` : null].filter(Boolean).join(' · ');
+      return [a.position, a.lineLengthM ? `${text(a.lineLengthM)} m × ${text(a.lineInsideDiameterMm)} mm line` : null].filter(Boolean).join(' · ');
     case 'co2_cylinder':
-      return [a.sizeKg ? `${String(a.sizeKg)} kg` : null, a.fillPercent !== undefined ? `${String(a.fillPercent)} % full` : null, a.hydroTestDue ? `test due ${String(a.hydroTestDue)}` : null]
+      return [a.sizeKg ? `${text(a.sizeKg)} kg` : null, a.fillPercent !== undefined ? `${text(a.fillPercent)} % full` : null, a.hydroTestDue ? `test due ${text(a.hydroTestDue)}` : null]
         .filter(Boolean)
         .join(', ');
   }

@@ -42,7 +42,7 @@ export function useEquipmentSearchParams() {
       updateSearchParams(
         (previous) => {
           const current = parseEquipmentListQuery(previous);
-          const next = { ...current, ...patch, page: patch.page ?? 1 } as EquipmentListQuery;
+          const next = { ...current, ...patch, page: patch.page ?? 1 };
           if (patch.pageSize === undefined) next.pageSize = current.pageSize;
           return equipmentListQueryToParams(next);
         },

@@ -50,7 +50,7 @@ export function useUsersSearchParams() {
       updateSearchParams(
         (previous) => {
           const current = parseUserListQuery(previous);
-          const next: UserListQuery = { ...current, ...patch, page: patch.page ?? 1 } as UserListQuery;
+          const next: UserListQuery = { ...current, ...patch, page: patch.page ?? 1 };
           if (patch.sort === undefined && 'sort' in patch) next.sort = defaults.sort;
           if (patch.order === undefined && 'order' in patch) next.order = defaults.order;
           if (patch.pageSize === undefined) next.pageSize = current.pageSize;
