@@ -409,6 +409,12 @@ const ETHANOL_DENSITY_20C = 789.24;
 const WATER_DENSITY_20C = 998.2;
 
 /**
+ * The ABV method {@link abv} uses, named wherever an ABV is shown (screens, PDFs, exports): the
+ * density form of the Balling relations (F4.6 from F4.4 and F4.2), not the 131 × (OG − FG) shortcut.
+ */
+export const abvMethod = { id: 'F4.6', name: 'ASBC/Balling' } as const;
+
+/**
  * Alcohol by volume (% v/v), F4.6 density form: ABV = A × ρ_beer/ρ_ethanol with
  * ρ_beer = FG × ρ_water, i.e. ABV = A × FG × 998.20/789.24 = A × FG / 0.79066 (20/20 °C).
  * A by F4.4. Not the 131 × (OG − FG) shortcut, which under-reads at high gravity.
