@@ -10,6 +10,9 @@ export function setCoopTimeZone(timeZone: string | null | undefined): void {
   display.timeZone = timeZone || undefined;
 }
 
+/** The co-op's time zone (the browser's until the session says). */
+export const coopTimeZone = (): string => display.timeZone ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
+
 /** The locale and zone screens format with (add the person's units for quantities). */
 export const displayContext = (): shared.FormatContext => ({ ...display });
 

@@ -1,4 +1,5 @@
-import { isValid, parseISO } from 'date-fns';
+import { isValid } from 'date-fns/isValid';
+import { parseISO } from 'date-fns/parseISO';
 import { abvMethod, celsiusToFahrenheit, kpaToBar, kpaToPsi, litersToUsGallons } from '../brewing/index.ts';
 import type { UnitSystem } from '../schemas/user.ts';
 

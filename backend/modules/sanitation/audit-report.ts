@@ -5,7 +5,6 @@ import { sanitationStepLabels, type SanitationSettings, type SanitationStep } fr
 import type { Database } from '../../db/database.ts';
 import { renderPdfOffThread } from '../../lib/pdf-render.ts';
 import { keepHeadingsWithNext, pdfFont, renderPdf } from '../../lib/pdf.ts';
-import { getBookingRules } from '../settings/settings.service.ts';
 import { defaultLocale, formatDate, formatDateTime, formatDayMonth, formatTime, type FormatContext } from '../../../shared/format/index.ts';
 
 /**
@@ -117,9 +116,8 @@ const DAY = 86_400_000;
 
 export async function loadAuditData(
   db: Database,
-  { from, to, filter, settings, now }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date },
+  { from, to, filter, settings, now, timeZone = 'UTC' }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date; timeZone?: string },
 ): Promise<AuditData> {
-  const { timeZone } = await getBookingRules(db);
   const ctx = { locale: defaultLocale, timeZone };
   const [cycleRows, eventRows] = await Promise.all([
     sql<{

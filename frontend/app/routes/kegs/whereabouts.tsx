@@ -13,7 +13,7 @@ import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { problemMessage } from '@/lib/api-client';
-import { formatDate } from '@/utils/format';
+import { formatAbv, formatDate } from '@/utils/format';
 
 type SortField = (typeof kegSortFields)[number];
 const column = createColumnHelper<KegView>();
@@ -49,7 +49,7 @@ const KegWhereaboutsRoute = () => {
           row.original.contents ? (
             <span className="flex flex-col">
               <span>{row.original.contents.batchName}</span>
-              <span className="text-xs text-ink-muted">{row.original.contents.abv !== null ? `${row.original.contents.abv.toFixed(1)} % ABV` : row.original.contents.style}</span>
+              <span className="text-xs text-ink-muted">{row.original.contents.abv !== null ? formatAbv(row.original.contents.abv) : row.original.contents.style}</span>
             </span>
           ) : (
             <span className="text-ink-muted">—</span>
