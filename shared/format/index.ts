@@ -85,6 +85,11 @@ export function formatTime(value: DateInput, ctx: FormatContext = {}, empty = mi
   return formatWith(value, ctx, { timeStyle: 'short' }, empty);
 }
 
+/** "Thu": the day of the week, for booking times in e-mails. */
+export function formatWeekday(value: DateInput, ctx: FormatContext = {}, empty = missing): string {
+  return formatWith(value, ctx, { weekday: 'short' }, empty);
+}
+
 /** "3 Dec": a day without its year, for chart axes and short lists. */
 export function formatDayMonth(value: DateInput, ctx: FormatContext = {}, empty = missing): string {
   return formatWith(value, ctx, { day: 'numeric', month: 'short' }, empty);

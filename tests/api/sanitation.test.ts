@@ -270,7 +270,7 @@ describe('the sanitation audit PDF', () => {
     expect(text).toContain('Ada Kettleby');
     expect(text).toContain('Alkaline cleaner (oxygen-based powder)');
     expect(text).toContain('Recorded exception');
-    expect(text).toMatch(/contact time 12 min is below\s+the minimum of 30 min/);
+    expect(text).toMatch(/contact time 12 min is\s+below\s+the minimum of 30 min/);
     expect(text).toMatch(/Soak cut short by a power cut/);
     expect(text).toMatch(/Page 1 of \d+/);
     expect(text).toMatch(/never water to chemical/);
