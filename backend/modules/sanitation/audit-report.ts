@@ -461,7 +461,8 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       ? {
           table: {
             headerRows: 1,
-            widths: [40, 66, 150, '*'],
+            dontBreakRows: true,
+            widths: [40, 80, 150, '*'],
             body: [
               header(['Vessel', 'When', 'Exception', 'Detail']),
               ...data.exceptions.map((e): TableCell[] => [e.vesselCode, { text: when(e.at), noWrap: true }, { text: exceptionLabels[e.kind], color: danger, noWrap: true }, e.message]),
