@@ -331,7 +331,7 @@ describe('the sanitation audit PDF', () => {
     // The exceptions built in above.
     expect(text).toMatch(new RegExp(`${kegNoCycle.code}\\s+14 Sept? 2026, 10:00\\s*Fill with no cycle on record`));
     expect(text).toMatch(new RegExp(`${kegShort.code}\\s+7 Oct 2026, 11:00\\s*Recorded exception\\s+Recorded as an exception: Sanitize step: contact time 30 s`));
-    expect(text).toMatch(/Reason given: Sanitizer drained too\s+soon/);
+    expect(text).toMatch(/Reason given: Sanitizer\s+drained\s+too\s+soon/);
     expect(text).toMatch(new RegExp(`${kegLapsed.code}\\s+20 Oct 2026, 10:00\\s*Fill after the freshness window lapsed`));
     expect(text).toMatch(new RegExp(`${fc.code}\\s+10 Nov 2026, 15:00\\s*Incomplete cycle`));
     // Cleaning started 16 Sep 22:00, 60 hours after the 14 Sep 10:00 transfer (2 days allowed).
