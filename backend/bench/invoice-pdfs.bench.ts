@@ -2,8 +2,8 @@
 // download would. The demo co-op's issued invoices (September and October) are cycled through
 // until 500 are made: first with each invoice already loaded (pdfmake's layout and font
 // embedding alone), then end to end (read the invoice, its lines, payments and credit notes, then
-// render). The font is handed to pdfmake unpacked to TrueType once (backend/lib/pdf-font.ts), which made
-// each PDF about five times faster than embedding the WOFF. Prints times and peak memory; not a test.
+// render). The fonts are TrueType, read once into pdfmake's virtual file system (backend/lib/pdf.ts).
+// Prints times and peak memory; not a test.
 import { getBillingProfile } from '../modules/billing/billing-profile.service.ts';
 import { invoiceDocument, renderInvoicePdf } from '../modules/billing/invoice-pdf.ts';
 import { getDetail } from '../modules/billing/invoices.service.ts';

@@ -1,8 +1,8 @@
+import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { TDocumentDefinitions } from 'pdfmake/interfaces';
-import { trueTypeFromWoffFile } from './pdf-font.ts';
 
 const require = createRequire(import.meta.url);
 // pdfmake 0.3's server build is one shared instance per thread; it embeds TTF or WOFF (not WOFF2).
@@ -15,22 +15,40 @@ const pdfmake = require('pdfmake') as {
 };
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
-const fontDir = path.join(root, 'node_modules', '@fontsource', 'roboto-flex', 'files');
-const fontFile = path.join(fontDir, 'roboto-flex-latin-400-normal.woff');
-const virtualFont = 'cellarwright-roboto-flex-latin-400.ttf';
+const fontDir = path.join(root, 'node_modules', 'dejavu-fonts-ttf', 'ttf');
+/**
+ * DejaVu Sans Condensed as shipped in TrueType (free licence, see the package): Latin with Latin
+ * Extended-A/B, Greek and Cyrillic, the typographic marks (– — › ‘ ’ “ ” …), arrows and maths signs
+ * (→ ≤ ≥ ±), °, € and the other currency signs, in a real bold and oblique. pdfmake embeds the
+ * subset of glyphs each document uses.
+ */
+const fontFiles = {
+  normal: 'DejaVuSansCondensed.ttf',
+  bold: 'DejaVuSansCondensed-Bold.ttf',
+  italics: 'DejaVuSansCondensed-Oblique.ttf',
+  bolditalics: 'DejaVuSansCondensed-BoldOblique.ttf',
+} as const;
 
 /** The font family every Cellarwright PDF uses (`defaultStyle: { font: pdfFont }`). */
-export const pdfFont = 'RobotoFlex';
+export const pdfFont = 'DejaVuSansCondensed';
+
+/** The TrueType file of each style, for checks of what a PDF can print. */
+export const pdfFontFiles = Object.fromEntries(Object.entries(fontFiles).map(([style, file]) => [style, path.join(fontDir, file)])) as Record<keyof typeof fontFiles, string>;
 
 let configured = false;
 function configure() {
   if (configured) return;
-  // The shipped Roboto Flex, unpacked to TrueType once: pdfmake then skips re-inflating it per document.
-  pdfmake.virtualfs.writeFileSync(virtualFont, trueTypeFromWoffFile(fontFile));
-  pdfmake.setFonts({ [pdfFont]: { normal: virtualFont, bold: virtualFont, italics: virtualFont, bolditalics: virtualFont } });
-  // A PDF of ours never fetches anything and reads only the font files.
+  // Read once into pdfmake's virtual file system: no document reads a file or fetches anything.
+  const virtual = Object.fromEntries(
+    Object.entries(pdfFontFiles).map(([style, file]) => {
+      const name = `cellarwright-${path.basename(file)}`;
+      if (!pdfmake.virtualfs.existsSync(name)) pdfmake.virtualfs.writeFileSync(name, fs.readFileSync(file));
+      return [style, name];
+    }),
+  );
+  pdfmake.setFonts({ [pdfFont]: virtual });
   pdfmake.setUrlAccessPolicy(() => false);
-  pdfmake.setLocalAccessPolicy((p) => path.resolve(p).startsWith(fontDir));
+  pdfmake.setLocalAccessPolicy(() => false);
   configured = true;
 }
 
@@ -39,3 +57,11 @@ export function renderPdf(doc: TDocumentDefinitions): Promise<Buffer> {
   configure();
   return pdfmake.createPdf(doc).getBuffer();
 }
+
+/**
+ * `pageBreakBefore` for documents whose headings carry `headlineLevel`: a heading that would be the
+ * last thing on its page moves to the next page with what it heads, so no page ends on a title.
+ */
+// pdfmake 0.3 calls it as (nodeInfo, { getFollowingNodesOnPage, … }); the published types still describe 0.2's arguments.
+export const keepHeadingsWithNext = ((node: { headlineLevel?: number }, pages: { getFollowingNodesOnPage(): unknown[] }) =>
+  Boolean(node.headlineLevel) && pages.getFollowingNodesOnPage().length === 0) as unknown as NonNullable<TDocumentDefinitions['pageBreakBefore']>;

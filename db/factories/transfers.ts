@@ -109,7 +109,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
     const packaged = round2(perKeg.reduce((s, v) => s + v, 0));
 
     await trx.updateTable('batch').set({ status: 'packaged', updated_at: at }).where('id', '=', batch.id).execute();
-    const figures = await batchGravityFigures(trx, batch.id);
+    const figures = await batchGravityFigures(trx, batch.id, at);
     const og = figures?.og ?? null;
     const fg = figures?.fg ?? null;
     const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;

@@ -320,7 +320,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const perKeg = into.map((_, i) => (i === into.length - 1 ? Math.round((packaged - per * (into.length - 1)) * 100) / 100 : per));
     const total = Math.round(perKeg.reduce((s, v) => s + v, 0) * 100) / 100;
     const loss = Math.round((volume - total) * 100) / 100;
-    const figures = await batchGravityFigures(db, batch.id);
+    const figures = await batchGravityFigures(db, batch.id, at);
     const og = figures?.og ?? null;
     const fg = figures?.fg ?? figures?.currentGravity ?? null;
     const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;

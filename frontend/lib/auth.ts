@@ -1,6 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { SessionUser } from '../../shared/schemas/auth.ts';
 import { api, isApiProblem, resetCsrfToken } from '@/lib/api-client';
+import { setCoopTimeZone } from '@/utils/format';
 
 /**
  * The session as the client sees it: `['auth', 'me']` holds the signed-in person, or `null` when
@@ -13,7 +14,8 @@ export const authKeys = {
 
 export async function getMe(signal?: AbortSignal): Promise<SessionUser | null> {
   try {
-    const { user } = await api.get<{ user: SessionUser }>('/api/auth/me', signal ? { signal } : {});
+    const { user, coop } = await api.get<{ user: SessionUser; coop?: { timeZone?: string } }>('/api/auth/me', signal ? { signal } : {});
+    setCoopTimeZone(coop?.timeZone);
     return user;
   } catch (error) {
     if (isApiProblem(error) && error.status === 401) return null;

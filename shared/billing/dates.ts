@@ -1,10 +1,11 @@
+import { defaultLocale, formatDate, formatDayMonth } from '../format/index.ts';
+
 /**
  * Calendar dates as 'YYYY-MM-DD' text and billing periods as 'YYYY-MM'. All arithmetic is on the
  * calendar (UTC midnights), so no time zone or daylight-saving shift can move a day.
  */
 
 const DAY_MS = 86_400_000;
-const months = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'] as const;
 const monthNames = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'] as const;
 
 export const periodPattern = /^\d{4}-(0[1-9]|1[0-2])$/;
@@ -58,15 +59,14 @@ export function periodLabel(period: string): string {
   return `${monthNames[m - 1]} ${y}`;
 }
 
-/** "12 Nov". */
+/** "12 Nov": the one formatter's day and month, in the co-op's language. */
 export function shortDate(date: string): string {
-  const [, m, d] = date.split('-').map(Number) as [number, number, number];
-  return `${d} ${months[m - 1]}`;
+  return formatDayMonth(date, { locale: defaultLocale });
 }
 
-/** "12 Nov 2026". */
+/** "12 Nov 2026": the one formatter's date, in the co-op's language. */
 export function longDate(date: string): string {
-  return `${shortDate(date)} ${date.slice(0, 4)}`;
+  return formatDate(date, { locale: defaultLocale });
 }
 
 /** A span of dates for an invoice line: "12–26 Nov", "28 Oct–1 Nov", "3 Nov" (one day). */

@@ -1,3 +1,5 @@
+import { formatMoney as formatWithLocale } from '../format/index.ts';
+
 /**
  * Money maths for billing. Amounts are integer cents; quantities have at most three decimals;
  * tax rates are basis points (800 = 8.00 %).
@@ -64,21 +66,9 @@ export function sumLines(lines: LineTotals[]): { subtotalCents: number; taxCents
   return { subtotalCents, taxCents: tax, totalCents: subtotalCents + tax };
 }
 
-const moneyFormats = new Map<string, Intl.NumberFormat | null>();
-
-/** "€1,234.50" style, in the reader's locale; cents stay exact (no floating arithmetic on the amount). */
+/** "€1,234.50" style, in the reader's locale (the co-op's by default): the one formatter's. */
 export function formatMoney(cents: number, currency: string, locale?: string): string {
-  const key = `${locale ?? 'en-GB'}|${currency}`;
-  let format = moneyFormats.get(key);
-  if (format === undefined) {
-    try {
-      format = new Intl.NumberFormat(locale ?? 'en-GB', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
-    } catch {
-      format = null;
-    }
-    moneyFormats.set(key, format);
-  }
-  return format ? format.format(cents / 100) : `${currency} ${centsToDecimal(cents)}`;
+  return formatWithLocale(cents, currency, locale ? { locale } : {});
 }
 
 /** Cents as a plain decimal string for exports: 123456 → "1234.56", −5 → "-0.05". */

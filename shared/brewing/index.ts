@@ -409,6 +409,12 @@ const ETHANOL_DENSITY_20C = 789.24;
 const WATER_DENSITY_20C = 998.2;
 
 /**
+ * The ABV method {@link abv} uses, named wherever an ABV is shown (screens, PDFs, exports): the
+ * density form of the Balling relations (F4.6 from F4.4 and F4.2), not the 131 × (OG − FG) shortcut.
+ */
+export const abvMethod = { id: 'F4.6', name: 'ASBC/Balling' } as const;
+
+/**
  * Alcohol by volume (% v/v), F4.6 density form: ABV = A × ρ_beer/ρ_ethanol with
  * ρ_beer = FG × ρ_water, i.e. ABV = A × FG × 998.20/789.24 = A × FG / 0.79066 (20/20 °C).
  * A by F4.4. Not the 131 × (OG − FG) shortcut, which under-reads at high gravity.
@@ -931,4 +937,73 @@ export function forecastFinalGravity(
     }
   }
   return forecast;
+}
+
+/** Apparent attenuation assumed for the straight-line forecast when a batch has no target FG (common practice for ale yeasts). */
+export const TYPICAL_APPARENT_ATTENUATION_SG = 0.75;
+/** Readings a fermentation forecast needs at the least (at distinct times, on a falling curve). */
+export const FORECAST_MIN_READINGS = 3;
+
+/** A forecast as the screens show it: {@link GravityForecast} or, while the curve is still straight, the trend line. */
+export interface FermentationForecast {
+  model: 'exponential-decay' | 'linear-trend';
+  predictedFg: number;
+  readyAt: string;
+  /** k of the decay (per day); for the trend line, its fall in SG per day. */
+  decayPerDay: number;
+  targetReachedAt: string | null;
+  curve: GravityPoint[];
+}
+
+/**
+ * The forecast of a fermenting batch as of `now`, never dated before it:
+ * - the exponential decay of {@link forecastFinalGravity} when the readings bend towards an asymptote;
+ * - while they still fall on a straight line (no asymptote can be fitted yet), the least-squares
+ *   trend line, extended to the target FG, or without one to the FG of a typical apparent
+ *   attenuation (75 % in SG points of the first reading), so that steadily falling readings
+ *   yield a forecast as soon as there are {@link FORECAST_MIN_READINGS} of them.
+ * A forecast whose ready time has already passed (the readings stopped, or the curve says the
+ * beer is done) is null: the stable-gravity rule speaks then. A target time that has passed is null.
+ */
+export function fermentationForecast(
+  readings: readonly GravityReading[],
+  { now, targetFg, curvePoints = 50 }: ForecastOptions & { now: Date },
+): FermentationForecast | null {
+  const nowMs = now.getTime();
+  if (!Number.isFinite(nowMs)) throw new RangeError('now must be a valid date');
+  const sorted = normaliseReadings(readings);
+  if (new Set(sorted.map((r) => r.time)).size < FORECAST_MIN_READINGS) return null;
+  const notPast = (iso: string | null | undefined) => (iso && Date.parse(iso) > nowMs ? iso : null);
+  const decay = forecastFinalGravity(sorted.map((r) => ({ takenAt: new Date(r.time), sg: r.sg })), { ...(targetFg !== undefined ? { targetFg } : {}), curvePoints });
+  if (decay) {
+    if (!notPast(decay.readyAt)) return null;
+    return { ...decay, targetReachedAt: notPast(decay.targetReachedAt) };
+  }
+  const first = sorted[0]!;
+  const last = sorted[sorted.length - 1]!;
+  const days = sorted.map((r) => (r.time - first.time) / MS_PER_DAY);
+  const meanT = days.reduce((s, v) => s + v, 0) / days.length;
+  const meanY = sorted.reduce((s, r) => s + r.sg, 0) / sorted.length;
+  let stt = 0;
+  let sty = 0;
+  days.forEach((t, i) => {
+    stt += (t - meanT) ** 2;
+    sty += (t - meanT) * (sorted[i]!.sg - meanY);
+  });
+  const slope = sty / stt;
+  if (!(slope < 0)) return null;
+  const expected = targetFg ?? first.sg - TYPICAL_APPARENT_ATTENUATION_SG * (first.sg - 1);
+  const lineAt = (t: number) => meanY + slope * (t - meanT);
+  const lastDay = days[days.length - 1]!;
+  if (!(lineAt(lastDay) > expected)) return null;
+  const readyDays = meanT + (expected - meanY) / slope;
+  const readyTime = first.time + readyDays * MS_PER_DAY;
+  if (!(readyTime > nowMs)) return null;
+  const curve: GravityPoint[] = [];
+  for (let i = 0; i < curvePoints; i += 1) {
+    const time = last.time + ((readyTime - last.time) * i) / (curvePoints - 1);
+    curve.push({ takenAt: new Date(time).toISOString(), sg: lineAt((time - first.time) / MS_PER_DAY) });
+  }
+  const readyAt = new Date(readyTime).toISOString();
+  return { model: 'linear-trend', predictedFg: expected, readyAt, decayPerDay: -slope, targetReachedAt: targetFg !== undefined ? readyAt : null, curve };
 }

@@ -155,7 +155,8 @@ export interface BatchDetail extends BatchListItem {
   realAttenuation: number | null;
   stable: { stable: boolean; since: string | null; toleranceSg: number; spanDays: number };
   forecast: {
-    model: 'exponential-decay';
+    /** The decay fitted to a bending curve, or the trend of readings still falling on a straight line. */
+    model: 'exponential-decay' | 'linear-trend';
     predictedFg: number;
     readyAt: string;
     decayPerDay: number;

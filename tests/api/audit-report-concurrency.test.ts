@@ -133,13 +133,13 @@ describe('a long sanitation audit renders off the event loop', () => {
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toMatch(/application\/pdf/);
     const text = pdfText(res.body as Buffer);
-    expect(text).toContain('Period 2025-12-01 to 2026-11-30');
+    expect(text).toContain('Period 1 Dec 2025 to 30 Nov 2026');
     expect(text).toContain(`12 vessels · ${cycleCount} cycles (${cycleCount} complete) · 0 fills`);
     expect(text).toContain('FY-12 · Yard fermenter 12');
     const pages = Number(/Page 1 of (\d+)/.exec(text)?.[1]);
     expect(pages).toBeGreaterThan(50);
     expect(text).toContain(`Page ${pages} of ${pages}`);
-    expect(text).toContain('Sanitation audit 2025-12-01 to 2026-11-30');
+    expect(text).toContain('Sanitation audit 1 Dec 2025 to 30 Nov 2026');
   });
 
   it('renders two reports asked for at once, each complete', async () => {
@@ -152,7 +152,7 @@ describe('a long sanitation audit renders off the event loop', () => {
     expect(pdfText(a.body as Buffer)).toContain('12 vessels');
     const small = pdfText(b.body as Buffer);
     expect(small).toContain('1 vessels · ');
-    expect(small).toContain('Period 2026-03-01 to 2026-03-31');
+    expect(small).toContain('Period 1 Mar 2026 to 31 Mar 2026');
     expect(small).toContain('FY-01');
   });
 });

@@ -151,10 +151,8 @@ describe('readings and what they say', () => {
     expect(d.abv).toBeGreaterThan(5.1);
     expect(d.abv).toBeLessThan(5.5);
     expect(d.series).toHaveLength(series.length);
-    expect(d.forecast).toMatchObject({ model: 'exponential-decay' });
-    expect(d.forecast.predictedFg).toBeGreaterThan(1.006);
-    expect(d.forecast.predictedFg).toBeLessThan(1.012);
-    expect(d.forecast.curve.length).toBeGreaterThan(10);
+    // The curve levelled off in October, before the test's now: a forecast would be dated in the past, so there is none.
+    expect(d.forecast).toBeNull();
     expect(d.readingsCount).toBe(series.length);
   });
 
@@ -367,7 +365,7 @@ describe('production records', () => {
     expect(csv.status).toBe(200);
     expect(csv.headers['content-type']).toMatch(/text\/csv/);
     const parsed = Papa.parse<string[]>(csv.text.replace(/^\uFEFF/, ''), { skipEmptyLines: true }).data;
-    expect(parsed[0]).toEqual(['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrels (31 gal)', 'OG', 'FG', 'ABV %']);
+    expect(parsed[0]).toEqual(['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrels (31 gal)', 'OG', 'FG', 'ABV % (ASBC/Balling)']);
     expect(parsed.some((r) => r[1] === 'Records pale ale' && r[4] === '57')).toBe(true);
     expect(parsed[parsed.length - 1]![0]).toBe('Note');
 

@@ -13,6 +13,7 @@ import { audit } from '../../lib/audit.ts';
 import { HttpProblem, unauthorized } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { PgRateLimitStore } from '../../lib/rate-limit-store.ts';
+import { getBookingRules } from '../settings/settings.service.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import {
   checkCredentials,
@@ -139,9 +140,10 @@ export function authRoutes({ db, config, queue }: Deps): Router {
     res.status(204).end();
   });
 
-  router.get('/me', (req, res) => {
+  router.get('/me', async (req, res) => {
     if (!req.user) throw unauthorized();
-    res.json({ user: req.user });
+    // The co-op's time zone rides along so that every screen shows times as the co-op reads them.
+    res.json({ user: req.user, coop: { timeZone: (await getBookingRules(db)).timeZone } });
   });
 
   router.patch('/me', requireUser, async (req, res) => {

@@ -68,12 +68,12 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Batch');
     const input = createBatchSchema.parse(req.body ?? {});
     const row = await createBatch(db, req.ability, input, req.user!, clock.now());
-    res.status(201).json({ batch: await batchDetail(db, req.ability, row) });
+    res.status(201).json({ batch: await batchDetail(db, req.ability, row, clock.now()) });
   });
 
   router.get('/:id', async (req, res) => {
     const row = await findVisibleBatch(db, req.ability, req.params.id);
-    const detail = await batchDetail(db, req.ability, row);
+    const detail = await batchDetail(db, req.ability, row, clock.now());
     // The batch's fields at the top level, and under `batch` like the other batch answers.
     res.json({ ...detail, batch: detail });
   });
@@ -83,7 +83,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('update', subject('Batch', { ownerId: row.owner_id }));
     const input = updateBatchSchema.parse(req.body ?? {});
     const updated = await updateBatch(db, row, input, req.user!, clock.now());
-    res.json({ batch: await batchDetail(db, req.ability, updated) });
+    res.json({ batch: await batchDetail(db, req.ability, updated, clock.now()) });
   });
 
   router.get('/:id/readings', async (req, res) => {

@@ -161,7 +161,7 @@ function toListItem(r: BatchRow, ownerName: string): BatchListItem {
   };
 }
 
-export async function batchDetail(db: Database, ability: AppAbility, row: BatchRow): Promise<BatchDetail> {
+export async function batchDetail(db: Database, ability: AppAbility, row: BatchRow, now: Date): Promise<BatchDetail> {
   const [owner, settings, series, bookings] = await Promise.all([
     db.selectFrom('app_user').select('name').where('id', '=', row.owner_id).executeTakeFirst(),
     loadFermentationSettings(db),
@@ -174,7 +174,7 @@ export async function batchDetail(db: Database, ability: AppAbility, row: BatchR
       .orderBy('booking.starts_at')
       .execute(),
   ]);
-  const figures = computeFigures(series, row.status, num(row.target_fg), settings);
+  const figures = computeFigures(series, row.status, num(row.target_fg), settings, now);
   // subject() marks the object it is given, so each check gets its own.
   const own = () => ({ ownerId: row.owner_id });
   return {

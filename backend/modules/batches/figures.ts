@@ -1,7 +1,7 @@
 import {
   abv,
   apparentAttenuation,
-  forecastFinalGravity,
+  fermentationForecast,
   realAttenuation,
   stableGravity,
   type GravityReading,
@@ -98,13 +98,15 @@ function alcoholFigures(og: number | null, final: number | null) {
  * What the readings say, by the brewing maths of shared/brewing: OG is the first reading, the
  * current gravity the latest; FG is the latest once the gravity is stable (or the batch has moved
  * on to conditioning or packaging). ABV (F4.6) and apparent (F4.1) and real (F4.5) attenuation use
- * FG when known, else the current gravity ("so far"). The forecast fits an exponential decay.
+ * FG when known, else the current gravity ("so far"). The forecast fits an exponential decay (or, while the
+ * readings still fall on a straight line, extends their trend) and is never dated before `now`.
  */
 export function computeFigures(
   readings: readonly { time: number; sg: number }[],
   status: BatchStatus,
   targetFg: number | null,
   settings: FermentationSettings,
+  now: Date,
 ): GravityFigures {
   const stableSettings = { toleranceSg: settings.stableToleranceSg, spanDays: settings.stableSpanDays };
   const first = readings[0];
@@ -139,9 +141,9 @@ export function computeFigures(
     const peak = Math.max(...series.map((p) => p.sg));
     let from = 0;
     for (let i = 0; i < Math.floor(series.length / 2); i += 1) if (series[i]!.sg >= peak - 0.002) from = i;
-    const f = forecastFinalGravity(
+    const f = fermentationForecast(
       series.slice(from).map((p) => ({ takenAt: p.takenAt, sg: p.sg })),
-      targetFg !== null && targetFg >= 0.98 && targetFg <= 1.2 ? { targetFg, curvePoints: 60 } : { curvePoints: 60 },
+      targetFg !== null && targetFg >= 0.98 && targetFg <= 1.2 ? { targetFg, curvePoints: 60, now } : { curvePoints: 60, now },
     );
     if (f) {
       forecast = {
@@ -186,10 +188,10 @@ export async function loadGravitySeries(db: Database, batchId: string): Promise<
  * OG, FG and ABV of one batch, for other capabilities (transfers copy them to kegs; the
  * production records print them).
  */
-export async function batchGravityFigures(db: Database, batchId: string) {
+export async function batchGravityFigures(db: Database, batchId: string, now: Date) {
   const batch = await db.selectFrom('batch').select(['status', 'target_fg']).where('id', '=', batchId).executeTakeFirst();
   if (!batch) return null;
   const [settings, series] = await Promise.all([loadFermentationSettings(db), loadGravitySeries(db, batchId)]);
-  const f = computeFigures(series, batch.status, batch.target_fg, settings);
+  const f = computeFigures(series, batch.status, batch.target_fg, settings, now);
   return { og: f.og, fg: f.fg, currentGravity: f.currentGravity, abv: f.abv, apparentAttenuation: f.apparentAttenuation, realAttenuation: f.realAttenuation, stable: f.stable.stable };
 }

@@ -2,7 +2,7 @@ import { todayIn } from '../../../shared/billing/dates.ts';
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { sql } from 'kysely';
-import { abv, litersToUsBarrels } from '../../../shared/brewing/index.ts';
+import { abv, abvMethod, litersToUsBarrels } from '../../../shared/brewing/index.ts';
 import { productionRecordsNote, type ProductionMonth, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
 import { csvCell, XLSX_MONTH_FORMAT, xlsxCell, xlsxDate, type ExportCell } from '../../lib/export-cells.ts';
@@ -133,7 +133,7 @@ export async function productionRecords(
   };
 }
 
-const columns = ['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrels (31 gal)', 'OG', 'FG', 'ABV %'] as const;
+const columns = ['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrels (31 gal)', 'OG', 'FG', `ABV % (${abvMethod.name})`] as const;
 const rowValues = (r: ProductionRecordRow) => [r.month, r.batchName, r.style, r.ownerName, r.packagedLiters, r.usBarrels, r.og, r.fg, r.abv];
 
 /** The monthly report's columns: litres, then the main figures in US barrels (31 US gal). */

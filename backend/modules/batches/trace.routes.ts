@@ -5,6 +5,8 @@ import { traceReportQuerySchema, type BatchTrace } from '../../../shared/schemas
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
+import { defaultLocale, formatDate } from '../../../shared/format/index.ts';
+import { getBookingRules } from '../settings/settings.service.ts';
 import { findVisibleBatch } from './batches.service.ts';
 import { batchTrace, traceCsv, tracePdf, traceReport, type TraceViewer } from './trace.service.ts';
 
@@ -36,7 +38,9 @@ export function addBatchTraceRoutes(router: Router, { db, clock }: Pick<Deps, 'd
   router.get('/:id/trace.pdf', async (req, res) => {
     const trace = await load(req);
     const now = clock.now();
-    const pdf = await tracePdf(`Trace: ${trace.batch.name}`, `Every keg the batch went into and where each is now, as of ${now.toISOString().slice(0, 10)}.`, [trace], now);
+    const { timeZone } = await getBookingRules(db);
+    const asOf = formatDate(now, { locale: defaultLocale, timeZone });
+    const pdf = await tracePdf(`Trace: ${trace.batch.name}`, `Every keg the batch went into and where each is now, as of ${asOf}.`, [trace], now, timeZone);
     res.type('application/pdf').set('Content-Disposition', `inline; filename="trace-${safeName(trace.batch.name)}.pdf"`).set('Cache-Control', 'no-store').send(pdf);
   });
 }
@@ -58,7 +62,15 @@ export function traceReportRoutes({ db, clock }: Deps): Router {
     if (q.format === 'csv') {
       res.type('text/csv; charset=utf-8').attachment(`${name}.csv`).send(traceCsv(report.batches));
     } else if (q.format === 'pdf') {
-      const pdf = await tracePdf('Trace report', `Kegs filled ${q.from} to ${q.to}, by batch, and where each is now (as of ${now.toISOString().slice(0, 10)}).`, report.batches, now);
+      const { timeZone } = await getBookingRules(db);
+      const ctx = { locale: defaultLocale, timeZone };
+      const pdf = await tracePdf(
+        'Trace report',
+        `Kegs filled ${formatDate(q.from, ctx)} to ${formatDate(q.to, ctx)}, by batch, and where each is now (as of ${formatDate(now, ctx)}).`,
+        report.batches,
+        now,
+        timeZone,
+      );
       res.type('application/pdf').set('Content-Disposition', `inline; filename="${name}.pdf"`).set('Cache-Control', 'no-store').send(pdf);
     } else {
       res.json(report);

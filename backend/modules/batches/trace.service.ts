@@ -8,6 +8,7 @@ import type { BatchTrace, TraceFill, TraceReport } from '../../../shared/schemas
 import type { Database } from '../../db/database.ts';
 import type { BatchStatus } from '../../db/tables/batches.ts';
 import { csvCell, type ExportCell } from '../../lib/export-cells.ts';
+import { defaultLocale, formatDate, formatDateTime, formatNumber, formatVolume, type FormatContext } from '../../../shared/format/index.ts';
 import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 import { coopName } from '../sanitation/audit-report.ts';
 import { effectiveStateSql } from '../sanitation/vessel-state.ts';
@@ -286,13 +287,14 @@ const ink = '#1f2328';
 const muted = '#5b6470';
 const danger = '#9a2a1c';
 
-function batchBlock(t: BatchTrace): Content[] {
+function batchBlock(t: BatchTrace, ctx: FormatContext): Content[] {
+  const day = (v: string | null | undefined) => (v ? formatDate(v, ctx) : '');
   const header = ['Keg', 'Filled', 'L', 'Left', 'Best before', 'Now', 'Holder / tap', 'Taken out by', 'Served on'].map((text) => ({ text, color: muted, fontSize: 7 }));
   const body = t.fills.map((f) => [
     f.code,
     day(f.filledAt),
-    f.volumeLiters.toFixed(1),
-    f.remainingLiters.toFixed(1),
+    formatNumber(f.volumeLiters, 1, ctx),
+    formatNumber(f.remainingLiters, 1, ctx),
     `${day(f.bestBefore)}${f.bestBeforeState === 'past' ? ' (past)' : f.bestBeforeState === 'near' ? ' (near)' : ''}`,
     f.holdsBatch ? (whereLabel[f.whereabouts] ?? f.whereabouts) : `emptied ${day(f.emptiedAt)}`,
     [f.holder?.name, f.tap ? `tap ${f.tap.code}` : ''].filter(Boolean).join(' · '),
@@ -314,7 +316,7 @@ function batchBlock(t: BatchTrace): Content[] {
       ],
     },
     {
-      text: `${t.totals.kegs} keg${t.totals.kegs === 1 ? '' : 's'}, ${t.totals.liters.toFixed(1)} L; ${t.totals.holding} still holding it (${t.totals.withMembers} with members, ${t.totals.onTaps} on taps).`,
+      text: `${t.totals.kegs} keg${t.totals.kegs === 1 ? '' : 's'}, ${formatVolume(t.totals.liters, ctx)}; ${t.totals.holding} still holding it (${t.totals.withMembers} with members, ${t.totals.onTaps} on taps).`,
       color: muted,
       margin: [0, 2, 0, 4],
     },
@@ -325,7 +327,8 @@ function batchBlock(t: BatchTrace): Content[] {
 }
 
 /** The trace as a PDF (one batch, or every batch filled in a date range). */
-export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], now: Date): Promise<Buffer> {
+export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], now: Date, timeZone: string): Promise<Buffer> {
+  const ctx: FormatContext = { locale: defaultLocale, timeZone, units: 'metric' };
   const doc: TDocumentDefinitions = {
     pageSize: 'A4',
     pageOrientation: 'landscape',
@@ -335,7 +338,7 @@ export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], 
     footer: (page, pages) => ({
       margin: [36, 10, 36, 0],
       columns: [
-        { text: `Produced ${now.toISOString().slice(0, 16).replace('T', ' ')} UTC by Cellarwright`, fontSize: 7, color: muted },
+        { text: `Produced ${formatDateTime(now, ctx)} (${timeZone}) by Cellarwright`, fontSize: 7, color: muted },
         { text: `Page ${page} of ${pages}`, alignment: 'right', fontSize: 7, color: muted },
       ],
     }),
@@ -343,15 +346,20 @@ export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], 
       { text: title, fontSize: 18 },
       { text: coopName, fontSize: 11, color: '#a0522d', margin: [0, 2, 0, 0] },
       { text: subtitle, color: muted, margin: [0, 4, 0, 0] },
-      ...(traces.length ? traces.flatMap(batchBlock) : [{ text: 'No kegs were filled in this range.', margin: [0, 12, 0, 0] } as Content]),
+      ...(traces.length ? traces.flatMap((t) => batchBlock(t, ctx)) : [{ text: 'No kegs were filled in this range.', margin: [0, 12, 0, 0] } as Content]),
       {
         text: 'Allergens are the batch’s own notes and what its finings add (gelatin and isinglass are animal-derived, so not vegan; silica finings are vegan: common practice). Labels and recalls: local food rules govern what must be declared.',
         color: muted,
         margin: [0, 14, 0, 0],
       },
-      { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 12, 0, 4] },
-      { ul: [...pressureCautions, alcoholCaution] },
-      { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
+      {
+        stack: [
+          { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 12, 0, 4] },
+          { ul: [...pressureCautions, alcoholCaution] },
+          { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
+        ],
+        unbreakable: true,
+      },
     ],
   };
   return renderPdf(doc);

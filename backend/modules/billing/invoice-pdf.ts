@@ -2,7 +2,7 @@ import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interface
 import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney, formatRate } from '../../../shared/billing/money.ts';
 import type { BillingProfile, CreditNote, InvoiceDetail } from '../../../shared/schemas/billing.ts';
-import { pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { keepHeadingsWithNext, pdfFont, renderPdf } from '../../lib/pdf.ts';
 
 const ink = '#1d1b18';
 const muted = '#5c564d';
@@ -113,7 +113,7 @@ function howToPay(inv: InvoiceDetail, profile: BillingProfile, appUrl: string): 
   if (inv.status === 'void' || inv.status === 'draft' || inv.amountDueCents <= 0) return [];
   const ref = inv.number ?? '';
   return [
-    { text: 'How to pay', fontSize: 10, color: copper, margin: [0, 18, 0, 4] },
+    { text: 'How to pay', fontSize: 10, color: copper, margin: [0, 18, 0, 4], headlineLevel: 1 } as Content,
     {
       ul: [
         `Online: sign in at ${appUrl}/billing/my-invoices and choose Pay online.`,
@@ -139,6 +139,7 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
     pageSize: 'A4',
     pageMargins: [48, 48, 48, 56],
     defaultStyle: { font: pdfFont, fontSize: 10, color: ink, lineHeight: 1.15 },
+    pageBreakBefore: keepHeadingsWithNext,
     ...(mark ? { watermark: { text: mark.split(' — ')[0]!, color: inv.status === 'paid' ? '#4b5a26' : '#8a8277', opacity: 0.12, fontSize: 80 } } : {}),
     footer: (page: number, pages: number): Content => ({
       columns: [
@@ -188,12 +189,18 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
       inv.lines.length ? linesTable(inv) : { text: 'No charges.', color: muted },
       totals(inv),
       ...creditNotesBlock(inv.creditNotes),
-      ...howToPay(inv, profile, appUrl),
+      // How to pay and the closing note stay together: a page never starts with a lone bullet.
       {
-        text: `Amounts in ${inv.currency}. Each line is rounded to the cent on its own (halves away from zero), and so is its tax; the invoice's tax is the sum of its lines' tax.`,
-        fontSize: 7.5,
-        color: muted,
-        margin: [0, 18, 0, 0],
+        stack: [
+          ...howToPay(inv, profile, appUrl),
+          {
+            text: `Amounts in ${inv.currency}. Each line is rounded to the cent on its own (halves away from zero), and so is its tax; the invoice's tax is the sum of its lines' tax.`,
+            fontSize: 7.5,
+            color: muted,
+            margin: [0, 18, 0, 0],
+          },
+        ],
+        unbreakable: true,
       },
     ],
   };

@@ -11,7 +11,7 @@ const coop = 'Larkspur Yard Brewing Co-op';
 export const bookingUid = (id: string) => `booking-${id}@cellarwright.example.org`;
 
 /** An RFC 5545 calendar holding one event for the booking (a request, or its cancellation). */
-export function bookingIcs(booking: Booking, owner: { name: string; email: string }, config: Config, now: Date, cancelled = false): string {
+export function bookingIcs(booking: Booking, owner: { name: string; email: string }, config: Config, now: Date, cancelled = false, timeZone = 'UTC'): string {
   const calendar = ical({
     name: `${coop} bookings`,
     prodId: { company: coop, product: 'Cellarwright', language: 'EN' },
@@ -27,7 +27,7 @@ export function bookingIcs(booking: Booking, owner: { name: string; email: strin
     summary: `${cancelled ? 'Cancelled: ' : ''}${booking.equipment.code} ${booking.equipment.name}`,
     description:
       `${kind} ${booking.equipment.code} (${booking.equipment.name}) booked for ${owner.name} at ${coop}.\n` +
-      `The item is kept free for cleaning until ${new Date(booking.blockedUntil).toISOString()}.\n` +
+      `The item is kept free for cleaning until ${formatWhen(new Date(booking.blockedUntil), timeZone)}.\n` +
       `${config.publicUrl}/cellar/${booking.equipmentId}`,
     location: `${coop} cellar`,
     url: `${config.publicUrl}/cellar/${booking.equipmentId}`,
@@ -71,7 +71,7 @@ export function confirmationMail(booking: Booking, owner: { name: string; email:
     to: owner.email,
     subject: `Booked: ${code} ${name}, ${formatWhen(new Date(booking.startsAt), timeZone)}`,
     text: lines.join('\n'),
-    attachments: [attachment(bookingIcs(booking, owner, config, now), false)],
+    attachments: [attachment(bookingIcs(booking, owner, config, now, false, timeZone), false)],
   };
 }
 
@@ -91,6 +91,6 @@ export function cancellationMail(booking: Booking, owner: { name: string; email:
     to: owner.email,
     subject: `Cancelled: ${code} ${name}, ${formatWhen(new Date(booking.startsAt), timeZone)}`,
     text: lines.join('\n'),
-    attachments: [attachment(bookingIcs(booking, owner, config, now, true), true)],
+    attachments: [attachment(bookingIcs(booking, owner, config, now, true, timeZone), true)],
   };
 }

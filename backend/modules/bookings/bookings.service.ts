@@ -1,4 +1,5 @@
 import { sql } from 'kysely';
+import { defaultLocale, formatDateTime, formatWeekday } from '../../../shared/format/index.ts';
 import type { AppAbility } from '../../../shared/permissions/ability.ts';
 import { subject } from '../../../shared/permissions/ability.ts';
 import type { Booking, BookingListQuery, CreateBookingInput } from '../../../shared/schemas/booking.ts';
@@ -130,17 +131,8 @@ export async function upcomingBookingsFor(db: Database, equipmentId: string, vie
 
 /** Times in messages, in the co-op's time zone: "Thu 3 Dec 2026, 09:00". */
 export function formatWhen(at: Date, timeZone: string): string {
-  const text = new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    weekday: 'short',
-    day: 'numeric',
-    month: 'short',
-    year: 'numeric',
-    hour: '2-digit',
-    minute: '2-digit',
-    hourCycle: 'h23',
-  }).format(at);
-  return `${text} (${timeZone})`;
+  const ctx = { locale: defaultLocale, timeZone };
+  return `${formatWeekday(at, ctx)} ${formatDateTime(at, ctx)} (${timeZone})`;
 }
 
 function ruleBroken(rule: BookingRuleName, detail: string, path: string): HttpProblem {

@@ -4,7 +4,8 @@ import { alcoholCaution, chemicalCautions, deferToLocalCodes, pressureCautions }
 import { sanitationStepLabels, type SanitationSettings, type SanitationStep } from '../../../shared/schemas/cellar-settings.ts';
 import type { Database } from '../../db/database.ts';
 import { renderPdfOffThread } from '../../lib/pdf-render.ts';
-import { pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { keepHeadingsWithNext, pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { defaultLocale, formatDate, formatDateTime, formatDayMonth, formatTime, type FormatContext } from '../../../shared/format/index.ts';
 
 /**
  * The sanitation audit: for a period and a set of vessels, every cycle with its steps, every
@@ -94,6 +95,8 @@ export interface AuditData {
   vessels: AuditVessel[];
   exceptions: AuditException[];
   settings: Pick<SanitationSettings, 'freshnessDays' | 'cleanWithinDays' | 'minimumContactMinutes' | 'minimumPurgeSeconds'>;
+  /** The co-op's time zone: every time in the report is read in it (UTC when not given). */
+  timeZone?: string;
 }
 
 interface VesselFilter {
@@ -113,8 +116,9 @@ const DAY = 86_400_000;
 
 export async function loadAuditData(
   db: Database,
-  { from, to, filter, settings, now }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date },
+  { from, to, filter, settings, now, timeZone = 'UTC' }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date; timeZone?: string },
 ): Promise<AuditData> {
+  const ctx = { locale: defaultLocale, timeZone };
   const [cycleRows, eventRows] = await Promise.all([
     sql<{
       vessel_id: string;
@@ -273,7 +277,7 @@ export async function loadAuditData(
     }
   }
 
-  const fmt = (d: Date) => d.toISOString().slice(0, 16).replace('T', ' ');
+  const fmt = (d: Date) => formatDateTime(d, ctx);
   const horizon = Math.min(to.getTime(), now.getTime());
   for (const v of vessels) {
     v.fills.sort((a, b) => a.at.getTime() - b.at.getTime());
@@ -339,6 +343,7 @@ export async function loadAuditData(
     from,
     to,
     producedAt: now,
+    timeZone,
     vessels,
     exceptions,
     settings: {
@@ -361,8 +366,12 @@ const danger = '#b42318';
 const hop = '#4b5a26';
 const rule = '#c9bca8';
 
-const when = (d: Date) => d.toISOString().slice(0, 16).replace('T', ' ');
-const day = (d: Date) => d.toISOString().slice(0, 10);
+// Times through the one formatter in the report's time zone (set by auditDocument for the document it lays out).
+let reportContext: FormatContext = { locale: defaultLocale, timeZone: 'UTC' };
+const when = (d: Date) => formatDateTime(d, reportContext);
+const stepWhen = (d: Date) => `${formatDayMonth(d, reportContext)} ${formatTime(d, reportContext)}`;
+/** The period's bounds are UTC midnights of calendar days. */
+const day = (d: Date) => formatDate(d.toISOString().slice(0, 10), reportContext);
 const minutes = (m: number | null) => (m === null ? '—' : m < 1 ? `${Math.round(m * 60)} s` : `${Number.isInteger(m) ? m : m.toFixed(1)} min`);
 
 function stepLine(s: AuditStep): string {
@@ -371,7 +380,7 @@ function stepLine(s: AuditStep): string {
   if (s.concentration !== null) parts.push(`${s.concentration}${s.unit ? ` ${s.unit}` : ''}`);
   if (s.step === 'purge') parts.push(s.purgeMethod === 'push_out' ? 'push-out' : `flush ${minutes(s.contactMinutes)}`);
   else if (s.step !== 'rinse') parts.push(minutes(s.contactMinutes));
-  parts.push(`${s.by ?? 'unknown'}, ${when(s.at).slice(5)}`);
+  parts.push(`${s.by ?? 'unknown'}, ${stepWhen(s.at)}`);
   if (s.exceptionReason) parts.push(`exception: ${s.exceptionReason}`);
   return `${s.ok ? '' : '[!] '}${s.exceptionReason ? '[exception] ' : ''}${parts.join(' · ')}`;
 }
@@ -391,6 +400,8 @@ function header(cells: string[]): TableCell[] {
 }
 
 export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumentDefinitions {
+  reportContext = { locale: defaultLocale, timeZone: data.timeZone ?? 'UTC' };
+  const zone = reportContext.timeZone;
   const period = `${day(data.from)} to ${day(new Date(data.to.getTime() - 1))}`;
   const totals = data.vessels.reduce(
     (t, v) => ({
@@ -408,7 +419,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       margin: [0, 6, 0, 8],
       columns: [
         { width: '*', text: [{ text: 'Period ', color: muted }, period, { text: '   Vessels ', color: muted }, vesselSetLabel] },
-        { width: 'auto', text: [{ text: 'Produced ', color: muted }, `${when(data.producedAt)} UTC`] },
+        { width: 'auto', text: [{ text: 'Produced ', color: muted }, `${when(data.producedAt)} (${zone})`] },
       ],
     },
     {
@@ -445,12 +456,13 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       },
       layout: compact,
     },
-    { text: 'Exceptions', fontSize: 12, color: ink, margin: [0, 12, 0, 4], pageBreak: 'before' },
+    { text: 'Exceptions', fontSize: 12, color: ink, margin: [0, 12, 0, 4], headlineLevel: 1 },
     data.exceptions.length
       ? {
           table: {
             headerRows: 1,
-            widths: [40, 66, 150, '*'],
+            dontBreakRows: true,
+            widths: [40, 80, 150, '*'],
             body: [
               header(['Vessel', 'When', 'Exception', 'Detail']),
               ...data.exceptions.map((e): TableCell[] => [e.vesselCode, { text: when(e.at), noWrap: true }, { text: exceptionLabels[e.kind], color: danger, noWrap: true }, e.message]),
@@ -524,9 +536,14 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
   }
 
   content.push(
-    { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 16, 0, 4] },
-    { ul: [...chemicalCautions, ...pressureCautions, alcoholCaution], color: ink },
-    { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
+    {
+      stack: [
+        { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 16, 0, 4] },
+        { ul: [...chemicalCautions, ...pressureCautions, alcoholCaution], color: ink },
+        { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
+      ],
+      unbreakable: true,
+    },
   );
 
   return {
@@ -534,6 +551,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
     pageMargins: [36, 40, 36, 40],
     info: { title: `Sanitation audit ${period}`, author: coopName, creator: 'Cellarwright' },
     defaultStyle: { font: pdfFont, fontSize: 8, color: ink, lineHeight: 1.1 },
+    pageBreakBefore: keepHeadingsWithNext,
     header: (page) =>
       page === 1
         ? { text: '' }
@@ -541,7 +559,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
     footer: (page, pages) => ({
       margin: [36, 10, 36, 0],
       columns: [
-        { text: `Produced ${when(data.producedAt)} UTC by Cellarwright`, fontSize: 7, color: muted },
+        { text: `Produced ${when(data.producedAt)} (${zone}) by Cellarwright`, fontSize: 7, color: muted },
         { text: `Page ${page} of ${pages}`, alignment: 'right', fontSize: 7, color: muted },
       ],
     }),

@@ -14,6 +14,7 @@ import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 import { loadAuditData, renderAuditPdfOffThread } from './audit-report.ts';
 import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
+import { getBookingRules } from '../settings/settings.service.ts';
 
 /** `/api/sanitation-cycles`: the sanitation log. */
 export function sanitationCycleRoutes({ db, clock }: Deps): Router {
@@ -75,7 +76,8 @@ export function sanitationReportRoutes({ db, clock }: Deps): Router {
     const settings = await sanitationSettings(db);
     const from = boundFrom(q.from);
     const to = boundTo(q.to);
-    const data = await loadAuditData(db, { from, to, filter: { ids: q.equipmentId, kind: q.kind }, settings, now: clock.now() });
+    const { timeZone } = await getBookingRules(db);
+    const data = await loadAuditData(db, { from, to, filter: { ids: q.equipmentId, kind: q.kind }, settings, now: clock.now(), timeZone });
     if (q.equipmentId?.length && data.vessels.length === 0) throw notFound('Vessel');
     const label = q.equipmentId?.length
       ? data.vessels.map((v) => v.code).join(', ')

@@ -1,6 +1,7 @@
 import { sql } from 'kysely';
 import type { TodayCellarSection, TodayMemberSection } from '../../../shared/schemas/today.ts';
 import type { Database } from '../../db/database.ts';
+import { effectiveStateSql } from '../sanitation/vessel-state.ts';
 import { bestBeforeKegs } from './best-before.ts';
 
 const DAY = 24 * 3600_000;
@@ -75,7 +76,20 @@ export async function cellarSection(db: Database, now: Date, showOwners: boolean
   const tomorrow = new Date(now.getTime() + DAY);
   const nextBooking = sql<Date | null>`(select min(b.starts_at) from booking b
     where b.equipment_id = equipment.id and b.state = 'booked' and b.starts_at > ${now})`;
-  const dirty = db.selectFrom('equipment').where('equipment.state', 'in', ['needs_cleaning', 'cleaned']).where('equipment.kind', 'in', ['fermenter', 'keg']);
+  // One query for the count and the list: a vessel whose state (a lapsed freshness window read as
+  // needs_cleaning) says it needs cleaning, unless a complete cycle ended after its last use and is
+  // still fresh (it is clean and sanitized since; the state will catch up).
+  const state = effectiveStateSql(sql.ref('equipment.id'), sql.ref('equipment.state'), now);
+  const lastUse = sql<Date | null>`(select max(sc.at) from equipment_state_change sc
+    where sc.equipment_id = equipment.id and sc.to_state = 'needs_cleaning')`;
+  const dirty = db
+    .selectFrom('equipment')
+    .where(state, 'in', ['needs_cleaning', 'cleaned'])
+    .where('equipment.kind', 'in', ['fermenter', 'keg'])
+    .where(
+      sql<boolean>`not exists (select 1 from sanitation_cycle c where c.equipment_id = equipment.id and c.complete
+        and c.fresh_until > ${now} and c.completed_at >= coalesce(${lastUse}, '-infinity'::timestamptz))`,
+    );
   const overdue = db
     .selectFrom('keg_whereabouts')
     .innerJoin('equipment', 'equipment.id', 'keg_whereabouts.keg_id')
@@ -85,7 +99,7 @@ export async function cellarSection(db: Database, now: Date, showOwners: boolean
   const [dirtyTotal, dirtyItems, overdueTotal, overdueItems, transfers, handovers] = await Promise.all([
     dirty.select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow(),
     dirty
-      .select(['equipment.id', 'equipment.code', 'equipment.name', 'equipment.state', nextBooking.as('next_booking_at')])
+      .select(['equipment.id', 'equipment.code', 'equipment.name', state.as('state'), nextBooking.as('next_booking_at')])
       .orderBy(sql`next_booking_at`, (ob) => ob.asc().nullsLast())
       .orderBy('equipment.code')
       .limit(10)
@@ -110,7 +124,7 @@ export async function cellarSection(db: Database, now: Date, showOwners: boolean
     db
       .selectFrom('booking')
       .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-      .select(['booking.id', 'equipment.id as equipment_id', 'equipment.code', 'booking.starts_at', 'equipment.state'])
+      .select(['booking.id', 'equipment.id as equipment_id', 'equipment.code', 'booking.starts_at', state.as('state')])
       .where('booking.state', '=', 'booked')
       .where('booking.starts_at', '>=', now)
       .where('booking.starts_at', '<', tomorrow)

@@ -223,7 +223,7 @@ export async function recordTransfer(db: Database, input: CreateTransferInput, a
 
     // The batch is packaged from here on: its FG is the latest reading.
     await trx.updateTable('batch').set({ status: 'packaged', updated_at: now }).where('id', '=', batch.id).execute();
-    const figures = await batchGravityFigures(trx, batch.id);
+    const figures = await batchGravityFigures(trx, batch.id, now);
     const og = figures?.og ?? null;
     const fg = figures?.fg ?? null;
     const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;

@@ -23,7 +23,7 @@ import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
-import { formatDate, formatDateTime } from '@/utils/format';
+import { formatCount, formatDate, formatDateTime } from '@/utils/format';
 
 const actionLabels: Partial<Record<BatchStatus, string>> = {
   fermenting: 'Mark fermenting',
@@ -109,8 +109,8 @@ const BatchRoute = () => {
       {update.isError && !closing ? <Alert tone="error">{problemMessage(update.error)}</Alert> : null}
       {typeof imported?.imported === 'number' ? (
         <Alert tone="success">
-          Imported {imported.imported.toLocaleString()} reading{imported.imported === 1 ? '' : 's'}
-          {imported.skipped ? `; ${imported.skipped.toLocaleString()} row${imported.skipped === 1 ? '' : 's'} skipped` : ''}.
+          Imported {formatCount(imported.imported)} reading{imported.imported === 1 ? '' : 's'}
+          {imported.skipped ? `; ${formatCount(imported.skipped)} row${imported.skipped === 1 ? '' : 's'} skipped` : ''}.
         </Alert>
       ) : null}
 

@@ -24,7 +24,7 @@ import { useQueryClient } from '@tanstack/react-query';
 import { batchKeys } from '@/features/batches/api/get-batches';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
-import { formatDateTime } from '@/utils/format';
+import { formatCount, formatDateTime } from '@/utils/format';
 
 type Step = 'upload' | 'mapping' | 'preview';
 const steps: { key: Step; label: string }[] = [
@@ -180,7 +180,7 @@ const ImportReadingsRoute = () => {
         <section className="flex flex-col gap-4 rounded-md border border-line bg-surface p-4">
           <p className="text-sm">
             <strong>{file?.name}</strong>: {preview.fileType.toUpperCase()}
-            {preview.delimiter ? `, separated by ${preview.delimiter === '\t' ? 'tabs' : `“${preview.delimiter}”`}` : ''}, {preview.totalRows.toLocaleString()} rows. Columns{' '}
+            {preview.delimiter ? `, separated by ${preview.delimiter === '\t' ? 'tabs' : `“${preview.delimiter}”`}` : ''}, {formatCount(preview.totalRows)} rows. Columns{' '}
             {sourceLabels[preview.mappingSource]}.
           </p>
           <div className="grid gap-4 md:grid-cols-2">
@@ -282,9 +282,9 @@ const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPrevi
   return (
     <section className="flex flex-col gap-4 rounded-md border border-line bg-surface p-4" data-testid="import-preview">
       <div className="flex flex-wrap items-center gap-3 text-sm">
-        <Badge tone={ok ? 'ready' : 'danger'}>{ok ? 'No problems' : `${preview.errorCount.toLocaleString()} problem${preview.errorCount === 1 ? '' : 's'}`}</Badge>
+        <Badge tone={ok ? 'ready' : 'danger'}>{ok ? 'No problems' : `${formatCount(preview.errorCount)} problem${preview.errorCount === 1 ? '' : 's'}`}</Badge>
         <span>
-          {preview.validRows.toLocaleString()} of {preview.totalRows.toLocaleString()} rows ready to import. The first {preview.rows.length} are shown.
+          {formatCount(preview.validRows)} of {formatCount(preview.totalRows)} rows ready to import. The first {preview.rows.length} are shown.
         </span>
       </div>
       <div className="max-h-[50dvh] overflow-auto rounded-md border border-line">
@@ -344,7 +344,7 @@ const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPrevi
       ) : null}
       <div className="flex flex-wrap gap-2">
         <Button onClick={onImport} disabled={!ok || preview.validRows === 0} pending={busy === 'import'}>
-          Import {preview.validRows.toLocaleString()} reading{preview.validRows === 1 ? '' : 's'}
+          Import {formatCount(preview.validRows)} reading{preview.validRows === 1 ? '' : 's'}
         </Button>
         <Button variant="secondary" onClick={onBack} disabled={busy !== null}>
           Back to the columns

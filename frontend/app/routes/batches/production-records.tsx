@@ -12,7 +12,9 @@ import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
+import { abvMethod } from '../../../../shared/brewing/index.ts';
 import type { ProductionMonth } from '../../../../shared/schemas/batches.ts';
+import { formatMonth } from '@/utils/format';
 import { ProductionChart } from '@/features/batches/components/production-chart';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
@@ -21,7 +23,7 @@ const month = (offset: number) => {
   return new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + offset, 1)).toISOString().slice(0, 7);
 };
 const bbl = (v: number) => v.toFixed(3);
-const monthLabel = (m: string) => new Intl.DateTimeFormat(undefined, { month: 'long', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${m}-01T00:00:00Z`));
+const monthLabel = (m: string) => formatMonth(m);
 
 /** Volumes packaged and ABV per batch and month, in litres and US barrels, for the records licensing and excise rules ask for. */
 const ProductionRecordsRoute = () => {
@@ -88,7 +90,7 @@ const ProductionRecordsRoute = () => {
               <caption className="sr-only">Production records by month and batch</caption>
               <thead>
                 <tr>
-                  {['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US bbl', 'OG', 'FG', 'ABV'].map((h) => (
+                  {['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US bbl', 'OG', 'FG', `ABV (${abvMethod.name})`].map((h) => (
                     <th key={h} scope="col" className="sticky top-0 border-b border-line-strong bg-ground-deep px-3 py-2 text-left text-xs font-semibold text-ink-muted uppercase">
                       {h}
                     </th>

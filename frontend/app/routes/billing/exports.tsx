@@ -6,6 +6,7 @@ import { Input } from '@/components/ui/input';
 import { paths } from '@/config/paths';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
+import { coopTimeZone } from '@/utils/format';
 
 const exportUrl = (period: string, format: 'csv' | 'xlsx') => `/api/invoices/export?${new URLSearchParams({ period, format })}`;
 
@@ -13,7 +14,7 @@ const exportUrl = (period: string, format: 'csv' | 'xlsx') => `/api/invoices/exp
 const ExportsRoute = () => {
   useDocumentTitle('Exports');
   const ability = useAppAbility();
-  const [period, setPeriod] = useState(() => nextPeriod(todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone, new Date()).slice(0, 7), -1));
+  const [period, setPeriod] = useState(() => nextPeriod(todayIn(coopTimeZone(), new Date()).slice(0, 7), -1));
   if (!ability.can('export', 'Invoice')) return <Navigate to={paths.myInvoices} replace />;
   return (
     <div className="flex max-w-2xl flex-col gap-4">

@@ -21,7 +21,7 @@ import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
-import { formatDate, formatDateTime } from '@/utils/format';
+import { formatAbv, formatDate, formatDateTime } from '@/utils/format';
 
 type Open = null | 'check-out' | 'move' | 'level' | Ending;
 /** The actions that end what the keg holds: each confirms what it will change first. */
@@ -385,7 +385,7 @@ const KegRoute = () => {
                   {k.contents.og?.toFixed(3) ?? '—'} / {k.contents.fg?.toFixed(3) ?? '—'}
                 </dd>
                 <dt className="text-ink-muted">ABV</dt>
-                <dd>{k.contents.abv !== null ? `${k.contents.abv.toFixed(1)} %` : '—'} <span className="text-xs text-ink-muted">(label and tax: local rules govern)</span></dd>
+                <dd>{formatAbv(k.contents.abv)} <span className="text-xs text-ink-muted">(label and tax: local rules govern)</span></dd>
                 <dt className="text-ink-muted">Filled</dt>
                 <dd>
                   {formatDateTime(k.contents.filledAt)} · {units.volume(k.contents.volumeLiters)}

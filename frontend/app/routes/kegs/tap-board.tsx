@@ -10,7 +10,7 @@ import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { problemMessage } from '@/lib/api-client';
-import { formatDate } from '@/utils/format';
+import { formatAbv, formatDate } from '@/utils/format';
 
 /** The cold room's taps: which keg is on which, what it holds and how full the co-op thinks it is. */
 const TapBoardRoute = () => {
@@ -39,7 +39,7 @@ const TapBoardRoute = () => {
                     <p className="font-medium">{t.keg.contents.batchName}</p>
                     <p className="text-xs text-ink-muted">
                       {t.keg.contents.style}
-                      {t.keg.contents.abv !== null ? ` · ${t.keg.contents.abv.toFixed(1)} % ABV` : ''}
+                      {t.keg.contents.abv !== null ? ` · ${formatAbv(t.keg.contents.abv)}` : ''}
                     </p>
                     <FillGauge keg={t.keg} large />
                     <BeerNotes contents={t.keg.contents} compact />

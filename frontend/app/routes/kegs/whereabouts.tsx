@@ -11,7 +11,7 @@ import { FillGauge, Whereabouts } from '@/features/cellar-ops/components/keg-bit
 import { cellarPaths } from '@/features/cellar-ops/paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
-import { formatDate } from '@/utils/format';
+import { formatAbv, formatDate } from '@/utils/format';
 
 type SortField = (typeof kegSortFields)[number];
 const column = createColumnHelper<KegView>();
@@ -47,7 +47,7 @@ const KegWhereaboutsRoute = () => {
           row.original.contents ? (
             <span className="flex flex-col">
               <span>{row.original.contents.batchName}</span>
-              <span className="text-xs text-ink-muted">{row.original.contents.abv !== null ? `${row.original.contents.abv.toFixed(1)} % ABV` : row.original.contents.style}</span>
+              <span className="text-xs text-ink-muted">{row.original.contents.abv !== null ? formatAbv(row.original.contents.abv) : row.original.contents.style}</span>
             </span>
           ) : (
             <span className="text-ink-muted">—</span>

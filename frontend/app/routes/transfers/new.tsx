@@ -15,12 +15,12 @@ import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { ApiProblem, problemMessage } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
+import { formatAbv, formatDate, formatDateTime } from '@/utils/format';
 
 const n = (v: string) => (v.trim() === '' ? Number.NaN : Number(v));
 /** A `datetime-local` value (the page's local time, to the minute). */
 const localInput = (d: Date) => new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 16);
 const fromLocalInput = (v: string) => (v ? new Date(v) : null);
-const shortTime = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
 
 /** The transfer checklist: a batch from its fermenter into ready kegs, every step of the trade ticked on a phone. */
 const NewTransferRoute = () => {
@@ -127,7 +127,7 @@ const NewTransferRoute = () => {
       <div className="mx-auto flex w-full max-w-xl flex-col gap-4">
         <h1 className="text-2xl">Transfer recorded</h1>
         <Alert tone="success" title={`${t.batch.name} from ${t.fermenter.code} into ${t.kegs.map((k) => k.code).join(', ')}`}>
-          {units.volume(t.packagedLiters)} in kegs, {units.volume(t.lossLiters)} lost{t.abv !== null ? ` · ${t.abv.toFixed(1)} % ABV on the labels` : ''}. {t.fermenter.code} now needs
+          {units.volume(t.packagedLiters)} in kegs, {units.volume(t.lossLiters)} lost{t.abv !== null ? ` · ${formatAbv(t.abv)} on the labels` : ''}. {t.fermenter.code} now needs
           cleaning.
         </Alert>
         <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
@@ -135,7 +135,7 @@ const NewTransferRoute = () => {
             <>
               <dt className="text-ink-muted">Drawn</dt>
               <dd>
-                {shortTime(t.startedAt)} to {shortTime(t.endedAt)}
+                {formatDateTime(t.startedAt)} to {formatDateTime(t.endedAt)}
               </dd>
             </>
           ) : null}
@@ -208,7 +208,7 @@ const NewTransferRoute = () => {
               sweet or over-carbonate the kegs.
             </p>
             {candidate && candidate.gravity.readings.length ? (
-              <p className="mt-1">Last readings: {candidate.gravity.readings.map((r) => `${r.sg.toFixed(3)} (${new Date(r.takenAt).toLocaleDateString()})`).join(', ')}</p>
+              <p className="mt-1">Last readings: {candidate.gravity.readings.map((r) => `${r.sg.toFixed(3)} (${formatDate(r.takenAt)})`).join(', ')}</p>
             ) : candidate ? (
               <p className="mt-1">It has no readings.</p>
             ) : null}
@@ -247,7 +247,7 @@ const NewTransferRoute = () => {
             <BigCheck
               key={k.id}
               label={k.code}
-              description={`${k.capacityLiters ? units.volume(k.capacityLiters) : ''}${k.freshUntil ? ` · ready until ${new Date(k.freshUntil).toLocaleDateString()}` : ''}`}
+              description={`${k.capacityLiters ? units.volume(k.capacityLiters) : ''}${k.freshUntil ? ` · ready until ${formatDate(k.freshUntil)}` : ''}`}
               checked={kegIds.includes(k.id)}
               onChange={(e) => setKegIds((ids) => (e.target.checked ? [...ids, k.id] : ids.filter((x) => x !== k.id)))}
             />

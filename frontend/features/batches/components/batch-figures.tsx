@@ -1,3 +1,4 @@
+import { abvMethod } from '../../../../shared/brewing/index.ts';
 import type { BatchDetail } from '../../../../shared/schemas/batches.ts';
 import { formatPercent, formatPlato, formatSg } from '@/features/batches/components/gravity-format';
 import { formatDate, formatDateTime } from '@/utils/format';
@@ -23,7 +24,7 @@ export const BatchFigures = ({ batch }: { batch: BatchDetail }) => {
         sub={batch.fg !== null ? formatPlato(batch.fg) : batch.targetFg ? `target ${formatSg(batch.targetFg)}` : 'when stable'}
         testId="figure-fg"
       />
-      <Figure label={`ABV${soFar}`} value={formatPercent(batch.abv, 2)} sub="ASBC/Balling, by volume" testId="figure-abv" />
+      <Figure label={`ABV${soFar}`} value={formatPercent(batch.abv, 2)} sub={`${abvMethod.name} (${abvMethod.id}), by volume`} testId="figure-abv" />
       <Figure label={`Apparent att.${soFar}`} value={formatPercent(batch.apparentAttenuation)} />
       <Figure label={`Real att.${soFar}`} value={formatPercent(batch.realAttenuation)} />
     </dl>
@@ -63,9 +64,14 @@ export const StableSignal = ({ batch }: { batch: BatchDetail }) => {
           {batch.targetFg !== null
             ? forecast.targetReachedAt
               ? `; the ${formatSg(batch.targetFg)} target around ${formatDate(forecast.targetReachedAt)}`
-              : `; it is not heading for the ${formatSg(batch.targetFg)} target`
+              : forecast.predictedFg > batch.targetFg + 0.001
+                ? `; it is not heading for the ${formatSg(batch.targetFg)} target`
+                : `; the ${formatSg(batch.targetFg)} target is about reached`
             : ''}
-          . Fitted to the readings as an exponential decay toward a final gravity.
+          .{' '}
+          {forecast.model === 'linear-trend'
+            ? `The readings still fall on a straight line, so their trend is extended to ${batch.targetFg !== null ? 'the target' : 'a typical 75 % apparent attenuation'}.`
+            : 'Fitted to the readings as an exponential decay toward a final gravity.'}
         </p>
       ) : (
         <p className="text-ink-muted">No forecast yet: it needs three readings on a falling curve.</p>

@@ -1,11 +1,39 @@
 import { CartesianGrid, Legend, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { BatchDetail } from '../../../../shared/schemas/batches.ts';
+import { formatCount, formatDateTime, formatDayMonth, formatTime } from '@/utils/format';
 
 // recharts is heavy: this file is imported only by the batch page's route chunk.
 
 const colours = { readings: '#b0592a', forecast: '#5c564d', target: '#c2850f', stable: '#6b7f3a', grid: '#e3dacb' };
-const dayFormat = new Intl.DateTimeFormat(undefined, { month: 'short', day: 'numeric' });
-const timeFormat = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+const HOUR = 3_600_000;
+const DAY = 24 * HOUR;
+const forecastNames = { 'exponential-decay': 'fitted decay', 'linear-trend': 'trend so far' } as const;
+
+/**
+ * X-axis ticks: whole days (every few days on long series) labelled "3 Dec", or for less than two
+ * days every few hours labelled "14:00". Never two ticks with the same label; recharts then drops
+ * whichever would still collide at the chart's width (minTickGap).
+ */
+export function timeTicks(start: number, end: number): { ticks: number[]; label: (t: number) => string } {
+  const span = Math.max(end - start, HOUR);
+  const hours = span < 2 * DAY;
+  const label = hours ? (t: number) => formatTime(t) : (t: number) => formatDayMonth(t);
+  const stepMs = hours ? Math.max(1, Math.ceil(span / HOUR / 8)) * HOUR : Math.max(1, Math.ceil(span / DAY / 10)) * DAY;
+  const first = new Date(start);
+  if (hours) first.setMinutes(0, 0, 0);
+  else first.setHours(0, 0, 0, 0);
+  const ticks: number[] = [];
+  const seen = new Set<string>();
+  for (let t = first.getTime(); t <= end; t += stepMs) {
+    if (t < start) continue;
+    const text = label(t);
+    if (seen.has(text)) continue;
+    seen.add(text);
+    ticks.push(t);
+  }
+  if (ticks.length === 0) ticks.push(start);
+  return { ticks, label };
+}
 
 export interface GravityChartProps {
   batch: BatchDetail;
@@ -25,16 +53,9 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
   const pad = Math.max(0.002, (hi - lo) * 0.08);
   const times = [...readings.map((r) => r.t), ...forecast.map((f) => f.t)];
   const showDots = readings.length <= 60;
-  // One tick per day (or every few days on long series), at local midnight.
   const start = Math.min(...times);
   const end = Math.max(...times);
-  const spanDays = Math.max(1, (end - start) / 86_400_000);
-  const step = Math.max(1, Math.ceil(spanDays / 12));
-  const ticks: number[] = [];
-  const first = new Date(start);
-  first.setHours(0, 0, 0, 0);
-  for (let d = new Date(first); d.getTime() <= end; d.setDate(d.getDate() + step)) if (d.getTime() >= start) ticks.push(d.getTime());
-  if (ticks.length < 2) ticks.splice(0, ticks.length, start, end);
+  const { ticks, label } = timeTicks(start, end);
   return (
     <figure className="flex flex-col gap-1" aria-label={`Gravity of ${batch.name} over time`} data-testid="gravity-chart">
       <ResponsiveContainer width="100%" height={height}>
@@ -46,7 +67,9 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
             scale="time"
             domain={[start, end]}
             ticks={ticks}
-            tickFormatter={(t: number) => dayFormat.format(new Date(t))}
+            tickFormatter={label}
+            interval="preserveStartEnd"
+            minTickGap={12}
             allowDuplicatedCategory={false}
             fontSize={12}
           />
@@ -58,10 +81,10 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
             fontSize={12}
           />
           <Tooltip
-            labelFormatter={(t) => timeFormat.format(new Date(Number(t)))}
+            labelFormatter={(t) => formatDateTime(Number(t))}
             formatter={(v, name) => [Number(v).toFixed(4), name === 'forecast' ? 'Forecast' : 'Gravity (SG)']}
           />
-          <Legend formatter={(name) => (name === 'forecast' ? `Forecast (${batch.forecast?.model ?? 'fit'})` : 'Readings (SG)')} />
+          <Legend formatter={(name) => (name === 'forecast' ? `Forecast (${batch.forecast ? forecastNames[batch.forecast.model] : 'fit'})` : 'Readings (SG)')} />
           {batch.targetFg ? (
             <ReferenceLine y={batch.targetFg} stroke={colours.target} strokeDasharray="6 4" label={{ value: `Target FG ${batch.targetFg.toFixed(3)}`, position: 'insideTopRight', fontSize: 11, fill: '#7a4f00' }} />
           ) : null}
@@ -76,7 +99,7 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
       </ResponsiveContainer>
       {batch.series.length < batch.readingsCount ? (
         <figcaption className="text-xs text-ink-muted">
-          {batch.readingsCount.toLocaleString()} readings, drawn as {batch.series.length} averages over equal stretches of time.
+          {formatCount(batch.readingsCount)} readings, drawn as {batch.series.length} averages over equal stretches of time.
         </figcaption>
       ) : null}
     </figure>

@@ -1,4 +1,5 @@
 import type { UploadProgress } from '@/features/batches/api/import-readings';
+import { formatCount } from '@/utils/format';
 
 const phaseLabels = { reading: 'Reading the file', checking: 'Checking the rows', writing: 'Writing the readings', done: 'Done', failed: 'Stopped' } as const;
 
@@ -14,7 +15,7 @@ export const ImportProgress = ({ progress, label }: { progress: UploadProgress; 
   const text = uploading
     ? `Uploading… ${Math.round(progress.upload * 100)} %`
     : server
-      ? `${phaseLabels[server.phase]}${server.rowsTotal ? `: ${server.rowsDone.toLocaleString()} of ${server.rowsTotal.toLocaleString()} rows` : server.rowsDone ? `: ${server.rowsDone.toLocaleString()} rows` : ''}`
+      ? `${phaseLabels[server.phase]}${server.rowsTotal ? `: ${formatCount(server.rowsDone)} of ${formatCount(server.rowsTotal)} rows` : server.rowsDone ? `: ${formatCount(server.rowsDone)} rows` : ''}`
       : 'Uploaded; the server is reading the file…';
   return (
     <div className="flex flex-col gap-1" data-testid="import-progress">

@@ -1,10 +1,11 @@
 import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { ProductionMonth } from '../../../../shared/schemas/batches.ts';
+import { formatMonth } from '@/utils/format';
 
 // The palette's hop green (what came in), copper (what the co-op holds) and amber (what went out).
 const colours = { brewed: '#6b7f3a', held: '#b0592a', out: '#c2850f' } as const;
 
-const monthLabel = (month: string) => new Date(`${month}-01T12:00:00Z`).toLocaleDateString(undefined, { month: 'short', year: '2-digit', timeZone: 'UTC' });
+const monthLabel = (month: string) => formatMonth(month, 'short');
 
 /**
  * Month-end inventory as bars, with what was brewed and what went out (removals and losses) beside
@@ -23,7 +24,7 @@ export const ProductionChart = ({ months }: { months: ProductionMonth[] }) => {
         <ResponsiveContainer width="100%" height="100%">
           <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
             <CartesianGrid vertical={false} stroke="#e3dacb" />
-            <XAxis dataKey="month" tick={{ fill: '#5c564d', fontSize: 12 }} axisLine={{ stroke: '#c9bca8' }} tickLine={false} />
+            <XAxis dataKey="month" tick={{ fill: '#5c564d', fontSize: 12 }} axisLine={{ stroke: '#c9bca8' }} tickLine={false} interval="preserveStartEnd" minTickGap={12} />
             <YAxis tickFormatter={(v: number) => `${v} L`} tick={{ fill: '#5c564d', fontSize: 11 }} axisLine={false} tickLine={false} width={64} />
             <Tooltip formatter={(v) => `${Number(v).toFixed(1)} L`} cursor={{ fill: '#efe8dc' }} />
             <Legend wrapperStyle={{ fontSize: 12 }} />

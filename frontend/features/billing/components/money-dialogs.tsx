@@ -28,6 +28,7 @@ import {
 import { money } from '@/features/billing/components/money';
 import { centsToInput, parseMoneyInput } from '@/features/billing/utils/money-input';
 import { applyProblemToForm } from '@/utils/problem-form';
+import { coopTimeZone } from '@/utils/format';
 
 interface DialogBaseProps {
   invoice: InvoiceDetail;
@@ -35,7 +36,7 @@ interface DialogBaseProps {
   onClose: () => void;
 }
 
-const today = () => todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone, new Date());
+const today = () => todayIn(coopTimeZone(), new Date());
 const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
 
 const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {

@@ -1,5 +1,5 @@
-import { formatMoney } from '../../../../shared/billing/money.ts';
 import { cn } from '@/utils/cn';
+import { formatMoney } from '@/utils/format';
 
 export interface MoneyProps {
   cents: number;

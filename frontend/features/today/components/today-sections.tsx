@@ -143,7 +143,7 @@ export const CellarToday = ({ section }: { section: TodayCellarSection }) => (
         </ul>
       )}
     </Card>
-    <Card title="Hand-overs in the next 24 hours" count={section.handovers.filter((h) => !h.ready).length} tone="danger">
+    <Card title="Hand-overs in the next 24 hours" count={section.handovers.length} tone={section.handovers.some((h) => !h.ready) ? 'danger' : 'ready'}>
       {section.handovers.length === 0 ? (
         <Empty>No fermenter or keg changes hands today.</Empty>
       ) : (
