@@ -48,9 +48,11 @@ export default tseslint.config(
     files: ['frontend/**/*.{ts,tsx}'],
     plugins: { 'react-hooks': reactHooks },
     rules: {
-      ...reactHooks.configs.recommended.rules,
-      // The app does not run the React Compiler; TanStack Table and react-hook-form's watch are used as documented.
-      'react-hooks/incompatible-library': 'off',
+      // The rules of hooks and complete effect dependencies. The plugin's React Compiler diagnostics
+      // (purity, refs, set-state-in-effect, use-memo, incompatible-library) are left out: the app does not
+      // run the compiler, and resetting state when a route parameter changes is written as an effect here.
+      'react-hooks/rules-of-hooks': 'error',
+      'react-hooks/exhaustive-deps': 'error',
       'no-restricted-imports': ['error', { patterns: [{ group: ['**/backend/**', '**/db/**'], message: 'The front end talks to the back end over HTTP only.' }] }],
     },
   },

@@ -12,10 +12,8 @@ import { systemClock } from './lib/clock.ts';
 import { createQueue } from './lib/queue.ts';
 import { startWorkers } from './workers.ts';
 
-// eslint-disable-next-line prefer-const -- set once below; the shutdown handlers above read it before then
-let server: Server | undefined;
-// eslint-disable-next-line prefer-const -- as above
-let queue: PgBoss | undefined;
+/** What shutdown must stop, set once each has started (the handlers below may run before then). */
+const running: { server?: Server; queue?: PgBoss } = {};
 let closing = false;
 
 const config = loadConfig();
@@ -31,7 +29,7 @@ process.on('unhandledRejection', (reason) => {
 // stop cleanly, so the supervisor (npm start, or the host's service manager) starts a fresh one.
 // Failing to start (no database at all, say) ends the process with code 1 so the supervisor tries again.
 process.on('uncaughtException', (err, origin) => {
-  if (!server) {
+  if (!running.server) {
     log.fatal({ err, origin }, 'could not start');
     process.exit(1);
   }
@@ -52,11 +50,12 @@ const { db, pool } = createDb(config.DATABASE_URL, 20, {
     log.warn({ err: { message: err.message, code: (err as { code?: string }).code } }, 'database connection lost');
   },
 });
-queue = await createQueue(config.DATABASE_URL);
+const queue = await createQueue(config.DATABASE_URL);
+running.queue = queue;
 const deps = { config, db, pool, queue, clock: systemClock };
 if (config.WORKERS) await startWorkers(deps);
 const app = createApp(deps);
-server = app.listen(config.PORT, config.HOST, () => {
+running.server = app.listen(config.PORT, config.HOST, () => {
   console.log(`Cellarwright API and app on http://${config.HOST}:${config.PORT}`);
   // Start the PDF render thread now rather than on the first audit report.
   warmAuditRenderer().catch((err: Error) => console.error('PDF render thread did not start:', err.message));
@@ -69,10 +68,10 @@ async function shutdown(code = 0) {
   closing = true;
   // Never hang on the way out (a database that is down, a request that never ends).
   setTimeout(() => process.exit(code), 10_000).unref();
-  server?.close();
+  running.server?.close();
   await pdfRenderPool.close().catch(() => undefined);
   await importPool.close().catch(() => undefined);
-  await queue?.stop({ graceful: true, timeout: 5000 }).catch(() => undefined);
+  await running.queue?.stop({ graceful: true, timeout: 5000 }).catch(() => undefined);
   await db.destroy().catch(() => undefined);
   process.exit(code);
 }

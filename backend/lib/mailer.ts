@@ -1,5 +1,6 @@
 import nodemailer from 'nodemailer';
 import { CompiledQuery, type Kysely } from 'kysely';
+import type { DB } from '../db/schema.ts';
 import type PgBoss from 'pg-boss';
 import type { Config } from '../config/env.ts';
 
@@ -42,7 +43,7 @@ export async function deliverMail(config: Config, transport: ReturnType<typeof c
  * connection, so it exists exactly when the change that asked for it commits (a rolled-back or
  * replayed change queues nothing).
  */
-export async function enqueueMailIn(trx: Kysely<any>, queue: PgBoss, mail: OutgoingMail): Promise<void> {
+export async function enqueueMailIn(trx: Kysely<DB>, queue: PgBoss, mail: OutgoingMail): Promise<void> {
   const db = {
     executeSql: async (text: string, values: unknown[] = []) => {
       const result = await trx.executeQuery(CompiledQuery.raw(text, values));

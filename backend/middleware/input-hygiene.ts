@@ -32,7 +32,7 @@ function walk(root: unknown, refused: RegExp, errors: ProblemFieldError[]): void
       errors.push({ path: path.join('.'), message: `Nested more than ${MAX_BODY_DEPTH} levels deep.` });
       continue;
     }
-    const entries = Array.isArray(value) ? value.map((v, i) => [String(i), v] as const) : Object.entries(value as Record<string, unknown>);
+    const entries = Array.isArray(value) ? (value as unknown[]).map((v, i) => [String(i), v] as const) : Object.entries(value as Record<string, unknown>);
     for (let i = entries.length - 1; i >= 0; i--) {
       const [key, v] = entries[i]!;
       if (!Array.isArray(value) && refused.test(key)) {

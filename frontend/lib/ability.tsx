@@ -14,7 +14,7 @@ export function AppAbilityProvider({ children }: { children: ReactNode }) {
   const ability = useMemo(
     () => defineAbilityFor(id ? { id, roles: user?.roles ?? [] } : null),
     // Rebuild only when the person or their roles change, not on every refetch of /me.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- as above
     [id, rolesKey],
   );
   return <AbilityProvider value={ability}>{children}</AbilityProvider>;

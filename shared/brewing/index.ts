@@ -714,7 +714,8 @@ interface TimedReading {
 }
 
 function normaliseReadings(readings: readonly GravityReading[]): TimedReading[] {
-  if (!Array.isArray(readings as unknown)) {
+  const given: unknown = readings;
+  if (!Array.isArray(given)) {
     throw new RangeError('readings must be an array of { takenAt, sg }');
   }
   return readings

@@ -223,7 +223,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
     const payment = await db.transaction().execute(async (trx) => {
-      const recorded = await recordManualPayment(trx, row.id, input as Required<typeof input>, req.user!.id);
+      const recorded = await recordManualPayment(trx, row.id, input, req.user!.id);
       await queueReceipt(trx, queue, recorded.id);
       return recorded;
     });

@@ -113,7 +113,7 @@ function howToPay(inv: InvoiceDetail, profile: BillingProfile, appUrl: string): 
   if (inv.status === 'void' || inv.status === 'draft' || inv.amountDueCents <= 0) return [];
   const ref = inv.number ?? '';
   return [
-    { text: 'How to pay', fontSize: 10, color: copper, margin: [0, 18, 0, 4], headlineLevel: 1 } as Content,
+    { text: 'How to pay', fontSize: 10, color: copper, margin: [0, 18, 0, 4], headlineLevel: 1 },
     {
       ul: [
         `Online: sign in at ${appUrl}/billing/my-invoices and choose Pay online.`,

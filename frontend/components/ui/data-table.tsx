@@ -9,7 +9,7 @@ import { problemMessage } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
 
 declare module '@tanstack/react-table' {
-  // eslint-disable-next-line @typescript-eslint/no-unused-vars
+  // eslint-disable-next-line @typescript-eslint/no-unused-vars -- the augmented interface must repeat the library's type parameters
   interface ColumnMeta<TData extends RowData, TValue> {
     /** Classes for this column's header and cells (width, alignment). */
     className?: string;

@@ -18,7 +18,7 @@ export interface ServerTableQuery<S extends string> {
 export interface UseServerTableOptions<T, S extends string> {
   data: Page<T> | undefined;
   // Column value types differ per column; TanStack's own helpers produce this shape.
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- as above
   columns: ColumnDef<T, any>[];
   query: ServerTableQuery<S>;
   onQueryChange: (patch: { sort: S; order: 'asc' | 'desc' }) => void;

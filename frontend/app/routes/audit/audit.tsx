@@ -40,7 +40,7 @@ const defaults = screenQuerySchema.parse({});
 
 function toParams(q: ScreenQuery): URLSearchParams {
   const p = new URLSearchParams();
-  for (const k of ['actorId', 'subjectType', 'subjectId', 'from', 'to'] as const) if (q[k]) p.set(k, q[k]!);
+  for (const k of ['actorId', 'subjectType', 'subjectId', 'from', 'to'] as const) if (q[k]) p.set(k, q[k]);
   if (q.sort !== defaults.sort) p.set('sort', q.sort);
   if (q.order !== defaults.order) p.set('order', q.order);
   if (q.page !== 1) p.set('page', String(q.page));

@@ -160,7 +160,7 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
     } catch (e) {
       return { plan: null, line: null, problem: e instanceof PlanError || e instanceof RangeError ? e.message : String(e) };
     }
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- the unit helpers are rebuilt each render; `u` stands for them
   }, [volumes, temp, altitude, method, fastPressure, fastHours, holdDays, startedAt, tapId, taps, lineType, resistance, u]);
   // The line as checked on screen, sent with the tap when it differs from the tap's record.
   const lineChanged =

@@ -18,7 +18,6 @@ export interface BookingAgendaProps {
   onError: (error: unknown) => void;
 }
 
-const DAY = 86_400_000;
 
 /** Monday 00:00 (local) of the week holding `date`. */
 function weekStartOf(date: Date): Date {

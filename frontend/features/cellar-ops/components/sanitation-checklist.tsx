@@ -193,7 +193,7 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
       (byStep[v.step] ??= []).push(v);
     }
     return { preview: all.length ? evaluateCycle(all, settings) : null, problems: byStep };
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- the drafts are compared by value, not by identity
   }, [JSON.stringify(newSteps), continuing, openCycle, settings]);
   const refused = sanitationSteps.some((s) => (problems[s] ?? []).some((v) => !v.exceptable || !drafts[s].exceptionReason.trim()));
 

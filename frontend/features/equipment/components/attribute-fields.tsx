@@ -11,7 +11,7 @@ import { unitLabels, type UnitSystem } from '@/lib/units';
 /** What every kind's attribute fields get: the add or edit form, and the person's units. */
 export interface AttributeFieldsProps {
   // The third parameter (what a submit hands on) differs between the add and the edit form.
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- as above
   form: UseFormReturn<EquipmentFormValues, unknown, any>;
   units: UnitSystem;
 }

@@ -36,7 +36,7 @@ export function useSettingForm<T extends FieldValues>(
     async (values) => {
       setMessage(null);
       try {
-        const saved = await save.mutateAsync(values as T);
+        const saved = await save.mutateAsync(values);
         form.reset(saved.value);
         setMessage({ tone: 'success', text: savedText });
       } catch (error) {
