@@ -53,19 +53,28 @@ export default tseslint.config(
       // run the compiler, and resetting state when a route parameter changes is written as an effect here.
       'react-hooks/rules-of-hooks': 'error',
       'react-hooks/exhaustive-deps': 'error',
-      'no-restricted-imports': ['error', { patterns: [{ group: ['**/backend/**', '**/db/**'], message: 'The front end talks to the back end over HTTP only.' }] }],
+      'no-restricted-imports': [
+        'error',
+        { patterns: [{ group: ['**/backend/**', '**/db/**'], message: 'The front end talks to the back end over HTTP only.' }] },
+      ],
     },
   },
   {
     files: ['shared/**/*.ts'],
     rules: {
-      'no-restricted-imports': ['error', { patterns: [{ group: ['**/backend/**', '**/frontend/**', '**/db/**', '@/*'], message: 'shared/ is used by both sides and imports neither.' }] }],
+      'no-restricted-imports': [
+        'error',
+        { patterns: [{ group: ['**/backend/**', '**/frontend/**', '**/db/**', '@/*'], message: 'shared/ is used by both sides and imports neither.' }] },
+      ],
     },
   },
   {
     files: ['backend/**/*.routes.ts'],
     rules: {
-      'no-restricted-imports': ['error', { patterns: [{ group: ['**/db/database*', 'kysely', 'pg'], message: 'Routes call services; repositories hold the SQL.' }] }],
+      'no-restricted-imports': [
+        'error',
+        { patterns: [{ group: ['**/db/database*', 'kysely', 'pg'], message: 'Routes call services; repositories hold the SQL.' }] },
+      ],
     },
   },
   {

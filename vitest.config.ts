@@ -9,12 +9,7 @@ export default defineConfig({
     alias: [{ find: /^@\//, replacement: fileURLToPath(new URL('./frontend/', import.meta.url)) }],
   },
   test: {
-    include: [
-      'shared/**/__tests__/**/*.test.ts',
-      'backend/**/__tests__/**/*.test.ts',
-      'frontend/**/__tests__/**/*.test.{ts,tsx}',
-      'tests/**/*.test.ts',
-    ],
+    include: ['shared/**/__tests__/**/*.test.ts', 'backend/**/__tests__/**/*.test.ts', 'frontend/**/__tests__/**/*.test.{ts,tsx}', 'tests/**/*.test.ts'],
     globalSetup: ['tests/global-setup.ts'],
     testTimeout: 30_000,
     hookTimeout: 60_000,

@@ -87,15 +87,17 @@ export function createApp(deps: Deps): Express {
   app.use(express.json({ limit: '100kb' }));
 
   app.use(
-    reportLateSessionErrors(session({
-      name: 'cw.sid',
-      store: sessionStore(deps),
-      secret: config.sessionSecret,
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: 12 * 3600_000, path: '/' },
-    })),
+    reportLateSessionErrors(
+      session({
+        name: 'cw.sid',
+        store: sessionStore(deps),
+        secret: config.sessionSecret,
+        resave: false,
+        saveUninitialized: false,
+        rolling: true,
+        cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: 12 * 3600_000, path: '/' },
+      }),
+    ),
   );
   app.use(authenticate(db));
   app.use('/api', csrfProtection(config.sessionSecret, ['/webhooks/']));

@@ -20,10 +20,26 @@ try {
   const admin = await db.selectFrom('app_user').select(['id', 'roles']).where('email', '=', 'admin@example.org').executeTakeFirstOrThrow();
   const viewer = { id: admin.id, ability: defineAbilityFor({ id: admin.id, roles: admin.roles }) };
   const members = (await db.selectFrom('app_user').select('id').where('email', 'like', 'member%').orderBy('email').execute()).map((m) => m.id);
-  const kegs = (await db.selectFrom('equipment').select('id').where('kind', '=', 'keg').where('state', '<>', 'out_of_service').orderBy('code').execute()).map((k) => k.id);
-  const fermenters = (await db.selectFrom('equipment').select('id').where('kind', '=', 'fermenter').where('state', '<>', 'out_of_service').orderBy('code').execute()).map((f) => f.id);
+  const kegs = (await db.selectFrom('equipment').select('id').where('kind', '=', 'keg').where('state', '<>', 'out_of_service').orderBy('code').execute()).map(
+    (k) => k.id,
+  );
+  const fermenters = (
+    await db.selectFrom('equipment').select('id').where('kind', '=', 'fermenter').where('state', '<>', 'out_of_service').orderBy('code').execute()
+  ).map((f) => f.id);
   // Lift the per-member limit so that only the clock and the constraint decide.
-  await db.updateTable('setting').set({ value: JSON.stringify({ cleaningBufferHours: 24, maxDays: { fermenter: 35, keg: 56, tap: 42, co2_cylinder: 56 }, maxAdvanceDays: 90, maxActiveBookingsPerMember: 200, timeZone: 'UTC' }) }).where('key', '=', 'booking_rules').execute();
+  await db
+    .updateTable('setting')
+    .set({
+      value: JSON.stringify({
+        cleaningBufferHours: 24,
+        maxDays: { fermenter: 35, keg: 56, tap: 42, co2_cylinder: 56 },
+        maxAdvanceDays: 90,
+        maxActiveBookingsPerMember: 200,
+        timeZone: 'UTC',
+      }),
+    })
+    .where('key', '=', 'booking_rules')
+    .execute();
 
   // Far enough ahead that the demo's bookings are over, within the 90 days one may book ahead.
   const base = new Date(Date.now() + 60 * DAY);
@@ -37,7 +53,12 @@ try {
     const slot = Math.floor(i / kegs.length);
     const startsAt = new Date(base.getTime() + slot * 2 * DAY);
     const endsAt = new Date(startsAt.getTime() + DAY - 3600_000);
-    await createBooking(db, { equipmentId: keg, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! }, viewer, systemClock.now());
+    await createBooking(
+      db,
+      { equipmentId: keg, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! },
+      viewer,
+      systemClock.now(),
+    );
     made++;
   }
   const sequentialMs = performance.now() - t0;
@@ -53,7 +74,12 @@ try {
     t0 = performance.now();
     const results = await Promise.allSettled(
       Array.from({ length: 40 }, (_, i) =>
-        createBooking(db, { equipmentId, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! }, viewer, systemClock.now()),
+        createBooking(
+          db,
+          { equipmentId, startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString(), ownerId: members[i % members.length]! },
+          viewer,
+          systemClock.now(),
+        ),
       ),
     );
     raceMs.push(performance.now() - t0);
@@ -77,17 +103,29 @@ try {
   const calendarMs = (performance.now() - t0) / reads;
 
   // 4. A label sheet for every item in the cellar.
-  const all = await equipmentByIds(db, (await db.selectFrom('equipment').select('id').execute()).map((e) => e.id), systemClock.now());
+  const all = await equipmentByIds(
+    db,
+    (await db.selectFrom('equipment').select('id').execute()).map((e) => e.id),
+    systemClock.now(),
+  );
   await renderLabelSheet(all.slice(0, 3), 'http://127.0.0.1:3000'); // warm-up: font load
   t0 = performance.now();
   const pdf = await renderLabelSheet(all, 'http://127.0.0.1:3000');
   const labelsMs = performance.now() - t0;
 
   const sorted = [...raceMs].sort((a, b) => a - b);
-  console.log(`  ${made} bookings one after another: ${(sequentialMs / 1000).toFixed(2)} s, ${(sequentialMs / made).toFixed(1)} ms each, ${Math.round((made * 1000) / sequentialMs)} bookings/s`);
-  console.log(`  40 at once for one slot, ${ROUNDS} rounds: ${winners} booked, ${conflicts} answered 409; median ${sorted[Math.floor(sorted.length / 2)]!.toFixed(0)} ms, worst ${sorted.at(-1)!.toFixed(0)} ms a round`);
-  console.log(`  calendar read (kegs over ${Math.round((Date.parse(to) - Date.parse(from)) / DAY)} days, ${rows / reads} bookings): ${calendarMs.toFixed(1)} ms`);
-  console.log(`  label sheet for all ${all.length} items (${Math.ceil(all.length / 24)} A4 pages, ${(pdf.length / 1024).toFixed(0)} KiB): ${labelsMs.toFixed(0)} ms`);
+  console.log(
+    `  ${made} bookings one after another: ${(sequentialMs / 1000).toFixed(2)} s, ${(sequentialMs / made).toFixed(1)} ms each, ${Math.round((made * 1000) / sequentialMs)} bookings/s`,
+  );
+  console.log(
+    `  40 at once for one slot, ${ROUNDS} rounds: ${winners} booked, ${conflicts} answered 409; median ${sorted[Math.floor(sorted.length / 2)]!.toFixed(0)} ms, worst ${sorted.at(-1)!.toFixed(0)} ms a round`,
+  );
+  console.log(
+    `  calendar read (kegs over ${Math.round((Date.parse(to) - Date.parse(from)) / DAY)} days, ${rows / reads} bookings): ${calendarMs.toFixed(1)} ms`,
+  );
+  console.log(
+    `  label sheet for all ${all.length} items (${Math.ceil(all.length / 24)} A4 pages, ${(pdf.length / 1024).toFixed(0)} KiB): ${labelsMs.toFixed(0)} ms`,
+  );
   console.log(`  peak memory ${peakRssMiB()} MiB`);
 } finally {
   await bench.drop();

@@ -16,7 +16,9 @@ const bench = await benchDatabase('invoice_pdfs');
 try {
   const { db } = bench;
   const today = '2026-12-01';
-  const ids = (await db.selectFrom('invoice').select('id').where('status', '<>', 'draft').orderBy('number_year').orderBy('number_seq').execute()).map((r) => r.id);
+  const ids = (await db.selectFrom('invoice').select('id').where('status', '<>', 'draft').orderBy('number_year').orderBy('number_seq').execute()).map(
+    (r) => r.id,
+  );
   if (ids.length === 0) throw new Error('the demo seed made no invoices');
   const profile = await getBillingProfile(db);
   const details = await Promise.all(ids.map((id) => getDetail(db, id, today)));
@@ -46,7 +48,11 @@ try {
   const definitionMs = performance.now() - t0;
 
   const row = (label: string, ms: number) =>
-    console.log(`  ${label.padEnd(44)} ${(ms / 1000).toFixed(2).padStart(7)} s   ${(ms / COUNT).toFixed(1).padStart(6)} ms/PDF   ${Math.round((COUNT * 1000) / ms).toString().padStart(5)} PDFs/s`);
+    console.log(
+      `  ${label.padEnd(44)} ${(ms / 1000).toFixed(2).padStart(7)} s   ${(ms / COUNT).toFixed(1).padStart(6)} ms/PDF   ${Math.round((COUNT * 1000) / ms)
+        .toString()
+        .padStart(5)} PDFs/s`,
+    );
   row(`${COUNT} PDFs, invoices already loaded`, renderMs);
   row(`${COUNT} PDFs, read from PostgreSQL and rendered`, endToEndMs);
   console.log(`  building the ${COUNT} document definitions alone: ${definitionMs.toFixed(0)} ms`);

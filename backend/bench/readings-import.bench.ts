@@ -87,9 +87,14 @@ async function child(kind: string, url: string, batchId: string, file: string, a
       // The batch and actor ids go on every row.
       const tail = `,${batchId},${actorId}\n`;
       const lines = fs.readFileSync(file, 'utf8').split('\n').filter(Boolean);
-      await pipeline(Readable.from((function* () {
-        for (const l of lines) yield l + tail;
-      })()), stream);
+      await pipeline(
+        Readable.from(
+          (function* () {
+            for (const l of lines) yield l + tail;
+          })(),
+        ),
+        stream,
+      );
       await client.query('commit');
       rows = lines.length;
     } finally {
@@ -101,7 +106,12 @@ async function child(kind: string, url: string, batchId: string, file: string, a
     const settings = await loadFermentationSettings(db);
     const result = await importReadings(db, {
       batch,
-      file: { buffer, originalname: path.basename(file), mimetype: kind.startsWith('xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv', size: buffer.length },
+      file: {
+        buffer,
+        originalname: path.basename(file),
+        mimetype: kind.startsWith('xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
+        size: buffer.length,
+      },
       dryRun: kind.endsWith('-dry'),
       actor: { id: actorId, roles: ['member'] },
       settings,
@@ -111,7 +121,11 @@ async function child(kind: string, url: string, batchId: string, file: string, a
     rows = kind.endsWith('-dry') ? (result.preview?.validRows ?? 0) : result.imported;
   }
   const ms = performance.now() - t0;
-  const stored = await db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+  const stored = await db
+    .selectFrom('reading')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('batch_id', '=', batchId)
+    .executeTakeFirstOrThrow();
   await db.destroy();
   console.log(JSON.stringify({ kind, rows, stored: Number(stored.n), ms, baselineMiB: baseline, peakMiB: peakRssMiB() }));
 }
@@ -147,8 +161,19 @@ async function main() {
     }
     const copyMs = results[0]!.ms;
     const sizes = { csv: fs.statSync(files.csvPath).size, xlsx: fs.statSync(files.xlsxPath).size };
-    console.log(`\nReading import, ${ROWS.toLocaleString('en')} readings (CSV ${(sizes.csv / 1048576).toFixed(1)} MiB, XLSX ${(sizes.xlsx / 1048576).toFixed(1)} MiB), ${os.cpus().length} cores`);
-    console.log('run'.padEnd(36), 'rows'.padStart(8), 'stored'.padStart(8), 'time s'.padStart(8), 'rows/s'.padStart(9), '× COPY'.padStart(7), 'peak RSS MiB'.padStart(13), '(start)'.padStart(8));
+    console.log(
+      `\nReading import, ${ROWS.toLocaleString('en')} readings (CSV ${(sizes.csv / 1048576).toFixed(1)} MiB, XLSX ${(sizes.xlsx / 1048576).toFixed(1)} MiB), ${os.cpus().length} cores`,
+    );
+    console.log(
+      'run'.padEnd(36),
+      'rows'.padStart(8),
+      'stored'.padStart(8),
+      'time s'.padStart(8),
+      'rows/s'.padStart(9),
+      '× COPY'.padStart(7),
+      'peak RSS MiB'.padStart(13),
+      '(start)'.padStart(8),
+    );
     for (const r of results) {
       console.log(
         r.label.padEnd(36),

@@ -34,16 +34,34 @@ try {
     .values(['Ada Kettleby', 'Bram Whitlock', 'Amadou Kestrel'].map((name, i) => ({ email: `rota${i}@example.org`, name, roles: ['brewer_on_duty' as const] })))
     .returning('id')
     .execute();
-  const owner = await db.insertInto('app_user').values({ email: 'owner@example.org', name: 'Maren Holloway', roles: ['member'] }).returning('id').executeTakeFirstOrThrow();
+  const owner = await db
+    .insertInto('app_user')
+    .values({ email: 'owner@example.org', name: 'Maren Holloway', roles: ['member'] })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   const vessels = await db
     .insertInto('equipment')
     .values([
-      ...Array.from({ length: 20 }, (_, i) => ({ code: `F-${String(i + 1).padStart(2, '0')}`, kind: 'fermenter' as const, name: `Fermenter ${i + 1}`, capacity_liters: 60 })),
-      ...Array.from({ length: 60 }, (_, i) => ({ code: `K-${String(i + 1).padStart(3, '0')}`, kind: 'keg' as const, name: `19 L keg ${i + 1}`, capacity_liters: 19 })),
+      ...Array.from({ length: 20 }, (_, i) => ({
+        code: `F-${String(i + 1).padStart(2, '0')}`,
+        kind: 'fermenter' as const,
+        name: `Fermenter ${i + 1}`,
+        capacity_liters: 60,
+      })),
+      ...Array.from({ length: 60 }, (_, i) => ({
+        code: `K-${String(i + 1).padStart(3, '0')}`,
+        kind: 'keg' as const,
+        name: `19 L keg ${i + 1}`,
+        capacity_liters: 19,
+      })),
     ])
     .returning(['id', 'kind', 'code'])
     .execute();
-  const batch = await db.insertInto('batch').values({ owner_id: owner.id, name: 'Yard pale', style: 'Pale ale', volume_liters: 50, status: 'packaged' }).returning('id').executeTakeFirstOrThrow();
+  const batch = await db
+    .insertInto('batch')
+    .values({ owner_id: owner.id, name: 'Yard pale', style: 'Pale ale', volume_liters: 50, status: 'packaged' })
+    .returning('id')
+    .executeTakeFirstOrThrow();
 
   const cycles: Record<string, unknown>[] = [];
   const steps: Record<string, unknown>[] = [];
@@ -109,11 +127,25 @@ try {
       }
     }
   }
-  for (let i = 0; i < cycles.length; i += 1000) await db.insertInto('sanitation_cycle').values(cycles.slice(i, i + 1000) as never).execute();
-  for (let i = 0; i < steps.length; i += 2000) await db.insertInto('sanitation_step').values(steps.slice(i, i + 2000) as never).execute();
-  for (let i = 0; i < fills.length; i += 1000) await db.insertInto('keg_fill').values(fills.slice(i, i + 1000) as never).execute();
+  for (let i = 0; i < cycles.length; i += 1000)
+    await db
+      .insertInto('sanitation_cycle')
+      .values(cycles.slice(i, i + 1000) as never)
+      .execute();
+  for (let i = 0; i < steps.length; i += 2000)
+    await db
+      .insertInto('sanitation_step')
+      .values(steps.slice(i, i + 2000) as never)
+      .execute();
+  for (let i = 0; i < fills.length; i += 1000)
+    await db
+      .insertInto('keg_fill')
+      .values(fills.slice(i, i + 1000) as never)
+      .execute();
   await sql`analyze`.execute(db);
-  console.log(`  data: ${vessels.length} vessels, ${cycles.length} cycles, ${steps.length} steps, ${fills.length} fills (written in ${((performance.now() - t0) / 1000).toFixed(1)} s)`);
+  console.log(
+    `  data: ${vessels.length} vessels, ${cycles.length} cycles, ${steps.length} steps, ${fills.length} fills (written in ${((performance.now() - t0) / 1000).toFixed(1)} s)`,
+  );
 
   for (const round of [1, 2]) {
     queries = 0;
@@ -129,7 +161,7 @@ try {
 
   // The event loop's worst delay during one render: a histogram sampling every 10 ms, plus a
   // timer ticking every 5 ms as a stand-in for other requests (how many got a turn meanwhile).
-  const data = (await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to }));
+  const data = await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to });
   async function loopDuring(render: () => Promise<Buffer>) {
     const h = monitorEventLoopDelay({ resolution: 10 });
     let ticks = 0;
@@ -163,7 +195,9 @@ try {
     `  ${label}: event loop worst delay ${r.maxMs.toFixed(1)} ms (p99 ${r.p99Ms.toFixed(1)} ms; longest gap between 5 ms timer turns ${r.worstGap.toFixed(0)} ms, ${r.ticks} turns) · PDF ${r.ms.toFixed(0)} ms, ${(r.bytes / 1024).toFixed(0)} KiB`;
   console.log(line('before (on the request thread)', before));
   console.log(line('after (on a PDF render thread)', after));
-  console.log(`  worst event-loop delay: before ${before.maxMs.toFixed(0)} ms / after ${after.maxMs.toFixed(1)} ms = ${(before.maxMs / after.maxMs).toFixed(0)}× lower on a render thread`);
+  console.log(
+    `  worst event-loop delay: before ${before.maxMs.toFixed(0)} ms / after ${after.maxMs.toFixed(1)} ms = ${(before.maxMs / after.maxMs).toFixed(0)}× lower on a render thread`,
+  );
 } finally {
   await pdfRenderPool.close();
   await bench.drop().catch(() => undefined);

@@ -1,8 +1,6 @@
 import { z } from 'zod';
 
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
@@ -50,7 +48,8 @@ function productionSecretProblems(source: Record<string, string | undefined>): s
   for (const [name, known] of Object.entries(developmentSecrets)) {
     const value = source[name]?.trim();
     if (!value) problems.push(`  ${name}: required in production`);
-    else if ((known as readonly string[]).includes(value)) problems.push(`  ${name}: the development value is public and not accepted in production; set a real secret`);
+    else if ((known as readonly string[]).includes(value))
+      problems.push(`  ${name}: the development value is public and not accepted in production; set a real secret`);
   }
   return problems;
 }

@@ -28,11 +28,7 @@ export function guardPool(pool: pg.Pool, onError: (err: Error) => void = () => u
   return pool;
 }
 
-export function createDb(
-  connectionString: string,
-  max = 10,
-  { onError }: { onError?: (err: Error) => void } = {},
-): { db: Database; pool: pg.Pool } {
+export function createDb(connectionString: string, max = 10, { onError }: { onError?: (err: Error) => void } = {}): { db: Database; pool: pg.Pool } {
   const pool = guardPool(new pg.Pool({ connectionString, max, connectionTimeoutMillis: CONNECT_TIMEOUT_MS }), onError);
   const db = new Kysely<DB>({ dialect: new PostgresDialect({ pool }) });
   return { db, pool };

@@ -165,7 +165,16 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
 
   /** Sends an event; the first attempts are awaited, later ones (with backoff) run in the background. */
   async function sendEvent(type: string, object: FakeSession): Promise<boolean> {
-    const event = { id: id('evt'), object: 'event', api_version: '2026-11-01', created: Math.floor(Date.now() / 1000), livemode: false, pending_webhooks: 1, type, data: { object } };
+    const event = {
+      id: id('evt'),
+      object: 'event',
+      api_version: '2026-11-01',
+      created: Math.floor(Date.now() / 1000),
+      livemode: false,
+      pending_webhooks: 1,
+      type,
+      data: { object },
+    };
     const payload = JSON.stringify(event);
     if (!fake.webhookUrl) return false;
     for (let attempt = 0; attempt < 3; attempt++) {
@@ -175,10 +184,13 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
     let attempt = 0;
     const retry = () => {
       if (attempt++ >= retries) return;
-      const t = setTimeout(async () => {
-        timers.delete(t);
-        if (!(await deliverOnce(event.id, type, payload))) retry();
-      }, Math.min(30_000, 1000 * 2 ** attempt));
+      const t = setTimeout(
+        async () => {
+          timers.delete(t);
+          if (!(await deliverOnce(event.id, type, payload))) retry();
+        },
+        Math.min(30_000, 1000 * 2 ** attempt),
+      );
       timers.add(t);
     };
     retry();
@@ -203,7 +215,12 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
       if (currency && currency !== pd.currency) return 'line_items: all items must share one currency';
       currency = pd.currency;
       total += unit * qty;
-      summary.push({ name: typeof product.name === 'string' ? product.name : 'Item', description: typeof product.description === 'string' ? product.description : null, quantity: qty, unit_amount: unit });
+      summary.push({
+        name: typeof product.name === 'string' ? product.name : 'Item',
+        description: typeof product.description === 'string' ? product.description : null,
+        quantity: qty,
+        unit_amount: unit,
+      });
     }
     if (typeof params.success_url !== 'string' || typeof params.cancel_url !== 'string') return 'success_url and cancel_url are required';
     const sid = id('cs');

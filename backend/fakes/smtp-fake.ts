@@ -36,10 +36,14 @@ export async function startSmtpFake({ databaseUrl, port = 0, host = '127.0.0.1' 
           const parsed = await simpleParser(raw);
           const to = session.envelope.rcptTo.map((r) => r.address.toLowerCase());
           const from = session.envelope.mailFrom ? session.envelope.mailFrom.address : '';
-          await pool.query(
-            'insert into dev_mail_message (mail_from, mail_to, subject, text_body, html_body, raw) values ($1, $2, $3, $4, $5, $6)',
-            [from, to, parsed.subject ?? '', parsed.text ?? '', typeof parsed.html === 'string' ? parsed.html : null, raw],
-          );
+          await pool.query('insert into dev_mail_message (mail_from, mail_to, subject, text_body, html_body, raw) values ($1, $2, $3, $4, $5, $6)', [
+            from,
+            to,
+            parsed.subject ?? '',
+            parsed.text ?? '',
+            typeof parsed.html === 'string' ? parsed.html : null,
+            raw,
+          ]);
           callback();
         } catch (err) {
           callback(err as Error);

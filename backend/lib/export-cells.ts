@@ -58,7 +58,9 @@ export function xlsxMoneyFormat(currency: string): string {
   const code = currency.trim().toUpperCase();
   let symbol = code;
   try {
-    symbol = new Intl.NumberFormat('en', { style: 'currency', currency: code, currencyDisplay: 'narrowSymbol' }).formatToParts(0).find((p) => p.type === 'currency')?.value ?? code;
+    symbol =
+      new Intl.NumberFormat('en', { style: 'currency', currency: code, currencyDisplay: 'narrowSymbol' }).formatToParts(0).find((p) => p.type === 'currency')
+        ?.value ?? code;
   } catch {
     // Not a currency code Intl knows: show the code.
   }

@@ -36,7 +36,10 @@ interface Slot {
 }
 
 export class PdfRenderError extends Error {
-  constructor(message: string, readonly workerStack?: string) {
+  constructor(
+    message: string,
+    readonly workerStack?: string,
+  ) {
     super(message);
     this.name = 'PdfRenderError';
   }

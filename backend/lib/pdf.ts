@@ -33,7 +33,10 @@ const fontFiles = {
 export const pdfFont = 'DejaVuSansCondensed';
 
 /** The TrueType file of each style, for checks of what a PDF can print. */
-export const pdfFontFiles = Object.fromEntries(Object.entries(fontFiles).map(([style, file]) => [style, path.join(fontDir, file)])) as Record<keyof typeof fontFiles, string>;
+export const pdfFontFiles = Object.fromEntries(Object.entries(fontFiles).map(([style, file]) => [style, path.join(fontDir, file)])) as Record<
+  keyof typeof fontFiles,
+  string
+>;
 
 let configured = false;
 function configure() {

@@ -54,11 +54,17 @@ export class PgRateLimitStore implements Store {
   }
 
   async resetKey(key: string): Promise<void> {
-    await this.db.deleteFrom('rate_limit').where('key', '=', this.prefix + key).execute();
+    await this.db
+      .deleteFrom('rate_limit')
+      .where('key', '=', this.prefix + key)
+      .execute();
   }
 
   /** Deletes counters whose window ended (any prefix): each address and pair leaves a row behind otherwise. */
   async pruneExpired(): Promise<void> {
-    await this.db.deleteFrom('rate_limit').where('reset_at', '<=', sql<Date>`now()`).execute();
+    await this.db
+      .deleteFrom('rate_limit')
+      .where('reset_at', '<=', sql<Date>`now()`)
+      .execute();
   }
 }

@@ -26,8 +26,7 @@ export const requireUser: RequestHandler = (req, _res, next) => {
 
 const safeMethods = new Set(['GET', 'HEAD', 'OPTIONS']);
 
-const csrfRefused = () =>
-  new HttpProblem(403, 'CSRF token missing or wrong', 'Fetch a token from GET /api/auth/csrf and send it as X-CSRF-Token.');
+const csrfRefused = () => new HttpProblem(403, 'CSRF token missing or wrong', 'Fetch a token from GET /api/auth/csrf and send it as X-CSRF-Token.');
 
 /**
  * Every state-changing request must send its CSRF token: a signed-in session the token kept in its session;

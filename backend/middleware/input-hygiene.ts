@@ -24,7 +24,8 @@ function walk(root: unknown, refused: RegExp, errors: ProblemFieldError[]): void
   while (stack.length && errors.length < MAX_ERRORS) {
     const { value, path } = stack.pop()!;
     if (typeof value === 'string') {
-      if (refused.test(value)) errors.push({ path: path.join('.'), message: `Contains a control character (${named(value)}), which this field does not take.` });
+      if (refused.test(value))
+        errors.push({ path: path.join('.'), message: `Contains a control character (${named(value)}), which this field does not take.` });
       continue;
     }
     if (value === null || typeof value !== 'object' || Buffer.isBuffer(value)) continue;
@@ -68,12 +69,5 @@ export const inputHygiene: RequestHandler = (req, _res, next) => {
   walk(req.query, LINE_TEXT, errors);
   walk(req.body, BODY_TEXT, errors);
   if (!errors.length) return next();
-  next(
-    new HttpProblem(
-      422,
-      'Validation failed',
-      errors.map((e) => (e.path ? `${e.path}: ${e.message}` : e.message)).join('; '),
-      errors,
-    ),
-  );
+  next(new HttpProblem(422, 'Validation failed', errors.map((e) => (e.path ? `${e.path}: ${e.message}` : e.message)).join('; '), errors));
 };

@@ -6,7 +6,10 @@ import { isDatabaseUnavailable } from '../db/database.ts';
 import { HttpProblem, type ProblemFieldError } from '../lib/http-problem.ts';
 
 function send(res: Parameters<ErrorRequestHandler>[2], status: number, body: Record<string, unknown>) {
-  res.status(status).type('application/problem+json').json({ type: 'about:blank', status, ...body });
+  res
+    .status(status)
+    .type('application/problem+json')
+    .json({ type: 'about:blank', status, ...body });
 }
 
 export function zodErrors(err: ZodError): ProblemFieldError[] {
@@ -50,7 +53,11 @@ export const problemHandler: ErrorRequestHandler = (thrown: unknown, req, res, _
   // bad input that slipped past validation, never a server fault.
   if (typeof err?.code === 'string' && PG_BAD_INPUT.has(err.code)) {
     req.log?.warn({ err }, 'the database refused a value sent');
-    return send(res, 422, { title: 'Validation failed', detail: 'A value sent is not valid here.', errors: [{ path: '', message: 'A value sent is not valid here.' }] });
+    return send(res, 422, {
+      title: 'Validation failed',
+      detail: 'A value sent is not valid here.',
+      errors: [{ path: '', message: 'A value sent is not valid here.' }],
+    });
   }
   if (isDatabaseUnavailable(err)) {
     req.log?.warn({ err: { message: err?.message, code: err?.code } }, 'database unavailable');
@@ -58,7 +65,8 @@ export const problemHandler: ErrorRequestHandler = (thrown: unknown, req, res, _
     return send(res, 503, { title: 'Service unavailable', detail: 'The database is unreachable; try again shortly.' });
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500;
-  if (err?.type === 'entity.too.large') return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${String(err.limit)} bytes.` });
+  if (err?.type === 'entity.too.large')
+    return send(res, 413, { title: 'Request body too large', detail: `The body may be at most ${String(err.limit)} bytes.` });
   if (err?.type === 'entity.parse.failed') return send(res, 400, { title: 'Malformed JSON', detail: 'The request body is not valid JSON.' });
   if (status >= 400 && status < 500) return send(res, status, { title: err?.message ?? 'Bad request', detail: err?.message });
   req.log?.error({ err }, 'unhandled error');

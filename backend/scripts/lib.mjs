@@ -51,7 +51,10 @@ export function pgBinDir() {
   const base = '/usr/lib/postgresql';
   const pick = () => {
     if (!fs.existsSync(base)) return null;
-    const versions = fs.readdirSync(base).filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb'))).sort((a, b) => Number(b) - Number(a));
+    const versions = fs
+      .readdirSync(base)
+      .filter((v) => fs.existsSync(path.join(base, v, 'bin', 'initdb')))
+      .sort((a, b) => Number(b) - Number(a));
     return versions.length ? path.join(base, versions[0], 'bin') : null;
   };
   let dir = pick();
@@ -159,7 +162,13 @@ export function startChild(name, cmd, args, env = {}) {
  * resets it), and every stop is logged with its exit code or signal. `stop()` ends it for good and
  * resolves once it has exited (sending SIGKILL after `killAfterMs`).
  */
-export function superviseChild(name, cmd, args, env = {}, { minDelayMs = 1000, maxDelayMs = 15_000, stableMs = 30_000, killAfterMs = 12_000, stdio = 'inherit', onStart } = {}) {
+export function superviseChild(
+  name,
+  cmd,
+  args,
+  env = {},
+  { minDelayMs = 1000, maxDelayMs = 15_000, stableMs = 30_000, killAfterMs = 12_000, stdio = 'inherit', onStart } = {},
+) {
   let child = null;
   let stopped = false;
   let timer = null;

@@ -68,12 +68,17 @@ try {
   // Announce once the server answers its health check.
   const deadline = Date.now() + 60_000;
   for (;;) {
-    const ok = await fetch(`http://127.0.0.1:${appPort}/api/health`).then((r) => r.ok, () => false);
+    const ok = await fetch(`http://127.0.0.1:${appPort}/api/health`).then(
+      (r) => r.ok,
+      () => false,
+    );
     if (ok || Date.now() > deadline) break;
     await new Promise((r) => setTimeout(r, 300));
   }
   log(`Cellarwright is on http://127.0.0.1:${appPort}`);
-  log('demo accounts (password cellar-demo): admin@example.org, treasurer@example.org, brewer@example.org, member@example.org (and member2@ … member24@example.org)');
+  log(
+    'demo accounts (password cellar-demo): admin@example.org, treasurer@example.org, brewer@example.org, member@example.org (and member2@ … member24@example.org)',
+  );
   log('Ctrl-C stops everything this started.');
 } catch (err) {
   log(`start failed: ${err.message}`);

@@ -83,7 +83,10 @@ export async function createBatch(db: Database, o: BatchOverrides = {}): Promise
         status: o.status ?? (readings.length ? 'fermenting' : 'planned'),
         discarded_at:
           o.status === 'discarded'
-            ? toDate(o.discardedAt ?? (readings.length ? new Date(Math.max(...readings.map((r) => toDate(r.takenAt, 'takenAt').getTime()))) : createdAt), 'discardedAt')
+            ? toDate(
+                o.discardedAt ?? (readings.length ? new Date(Math.max(...readings.map((r) => toDate(r.takenAt, 'takenAt').getTime()))) : createdAt),
+                'discardedAt',
+              )
             : null,
         notes: o.notes ?? '',
         ...(o.allergens ? { allergens: o.allergens } : {}),
@@ -106,7 +109,11 @@ export async function createBatch(db: Database, o: BatchOverrides = {}): Promise
         ...(o.fermenter.now !== undefined ? { now: o.fermenter.now } : {}),
       });
       bookingId = booking.id;
-      await setEquipmentState(trx, o.fermenter.equipmentId, 'holding', { at: o.fermenter.startsAt, reason: `Filled with wort for ${batch.name}; airlock fitted`, actorId: ownerId });
+      await setEquipmentState(trx, o.fermenter.equipmentId, 'holding', {
+        at: o.fermenter.startsAt,
+        reason: `Filled with wort for ${batch.name}; airlock fitted`,
+        actorId: ownerId,
+      });
     }
     return { ...batch, readings: rows, bookingId };
   });
@@ -144,7 +151,11 @@ export async function addReadings(db: Database, batchId: string, readings: Readi
     if (first && candidates.some((c) => c.time < first.time)) await renormaliseBrix(trx, batchId, settings);
     if (ids.length === 0) return [];
     // Entered when taken: no wall-clock time in the rows.
-    await trx.updateTable('reading').set((eb) => ({ created_at: eb.ref('taken_at') })).where('id', 'in', ids).execute();
+    await trx
+      .updateTable('reading')
+      .set((eb) => ({ created_at: eb.ref('taken_at') }))
+      .where('id', 'in', ids)
+      .execute();
     return trx.selectFrom('reading').selectAll().where('id', 'in', ids).orderBy('taken_at').execute();
   });
 }

@@ -44,10 +44,19 @@ export function createPrice(db: Database, o: PriceOverrides): Promise<PriceRow> 
 }
 
 /** A tax rate (basis points: 800 is 8 %) from a date. */
-export function createTaxRate(db: Database, o: { rateBp: number; effectiveFrom: string; label?: string; createdBy?: string | null; createdAt?: At }): Promise<TaxRateRow> {
+export function createTaxRate(
+  db: Database,
+  o: { rateBp: number; effectiveFrom: string; label?: string; createdBy?: string | null; createdAt?: At },
+): Promise<TaxRateRow> {
   return db
     .insertInto('tax_rate')
-    .values({ rate_bp: o.rateBp, label: o.label ?? 'VAT', effective_from: o.effectiveFrom, created_by: o.createdBy ?? null, created_at: toDate(o.createdAt ?? LONG_AGO, 'createdAt') })
+    .values({
+      rate_bp: o.rateBp,
+      label: o.label ?? 'VAT',
+      effective_from: o.effectiveFrom,
+      created_by: o.createdBy ?? null,
+      created_at: toDate(o.createdAt ?? LONG_AGO, 'createdAt'),
+    })
     .returningAll()
     .executeTakeFirstOrThrow();
 }
@@ -96,7 +105,16 @@ export async function createInvoice(db: Database, o: InvoiceOverrides): Promise<
 /** A charge (positive) or credit (negative) entered by hand for a member's period, not yet invoiced. */
 export function createManualCharge(
   db: Database,
-  o: { memberId: string; period: string; amountCents: number; description?: string; reason?: string; taxable?: boolean; createdBy?: string | null; createdAt?: At },
+  o: {
+    memberId: string;
+    period: string;
+    amountCents: number;
+    description?: string;
+    reason?: string;
+    taxable?: boolean;
+    createdBy?: string | null;
+    createdAt?: At;
+  },
 ) {
   return db
     .insertInto('manual_charge')

@@ -44,8 +44,7 @@ export async function createBooking(db: Database, o: BookingOverrides): Promise<
     const equipmentId = o.equipmentId ?? (await createFermenter(trx)).id;
     const ownerId = o.ownerId ?? (await createMember(trx)).id;
     const now = o.now === undefined ? null : toDate(o.now, 'now');
-    const state: BookingState =
-      o.state ?? (now === null ? 'booked' : now < startsAt ? 'booked' : now < endsAt ? 'in_use' : 'finished');
+    const state: BookingState = o.state ?? (now === null ? 'booked' : now < startsAt ? 'booked' : now < endsAt ? 'in_use' : 'finished');
     const createdAt = toDate(o.createdAt ?? now ?? startsAt, 'createdAt');
     const cancelled = state === 'cancelled';
     return trx

@@ -16,10 +16,20 @@ export async function createInspection(
 ): Promise<InspectionRow> {
   const at = toDate(o.at, 'at');
   const passed = o.passed ?? true;
-  const nextDueAt = o.nextDueAt === null ? null : o.nextDueAt !== undefined ? toDate(o.nextDueAt, 'nextDueAt') : passed ? new Date(at.getTime() + 365 * DAY) : null;
+  const nextDueAt =
+    o.nextDueAt === null ? null : o.nextDueAt !== undefined ? toDate(o.nextDueAt, 'nextDueAt') : passed ? new Date(at.getTime() + 365 * DAY) : null;
   return db
     .insertInto('equipment_inspection')
-    .values({ equipment_id: o.equipmentId, kind: o.kind, at, passed, next_due_at: nextDueAt, note: o.note ?? '', recorded_by: o.recordedBy ?? null, created_at: at })
+    .values({
+      equipment_id: o.equipmentId,
+      kind: o.kind,
+      at,
+      passed,
+      next_due_at: nextDueAt,
+      note: o.note ?? '',
+      recorded_by: o.recordedBy ?? null,
+      created_at: at,
+    })
     .returningAll()
     .executeTakeFirstOrThrow();
 }
@@ -34,9 +44,17 @@ export async function setCylinderSupply(
     if (o.connected) await trx.updateTable('co2_cylinder_supply').set({ connected: false, connected_at: null }).where('connected', '=', true).execute();
     return trx
       .insertInto('co2_cylinder_supply')
-      .values({ cylinder_id: o.cylinderId, remaining_kg: o.remainingKg, connected: o.connected ?? false, connected_at: o.connected ? at : null, updated_at: at })
+      .values({
+        cylinder_id: o.cylinderId,
+        remaining_kg: o.remainingKg,
+        connected: o.connected ?? false,
+        connected_at: o.connected ? at : null,
+        updated_at: at,
+      })
       .onConflict((oc) =>
-        oc.column('cylinder_id').doUpdateSet({ remaining_kg: o.remainingKg, connected: o.connected ?? false, connected_at: o.connected ? at : null, updated_at: at }),
+        oc
+          .column('cylinder_id')
+          .doUpdateSet({ remaining_kg: o.remainingKg, connected: o.connected ?? false, connected_at: o.connected ? at : null, updated_at: at }),
       )
       .returningAll()
       .executeTakeFirstOrThrow();

@@ -33,7 +33,15 @@ export async function createKegCheckout(db: Database, o: KegCheckoutOverrides): 
       .forUpdate('e')
       .executeTakeFirstOrThrow();
     if (keg.kind !== 'keg') throw new Error(`createKegCheckout: ${keg.code} is not a keg`);
-    const values = { whereabouts: 'with_member' as const, tap_id: null, member_id: o.memberId, checked_out_at: at, due_at: due, since: at, updated_by: o.actorId ?? null };
+    const values = {
+      whereabouts: 'with_member' as const,
+      tap_id: null,
+      member_id: o.memberId,
+      checked_out_at: at,
+      due_at: due,
+      since: at,
+      updated_by: o.actorId ?? null,
+    };
     const row = await trx
       .insertInto('keg_whereabouts')
       .values({ keg_id: keg.id, ...values })
@@ -42,7 +50,8 @@ export async function createKegCheckout(db: Database, o: KegCheckoutOverrides): 
       .executeTakeFirstOrThrow();
     if (keg.tap_id) {
       const tap = await trx.selectFrom('equipment').select('state').where('id', '=', keg.tap_id).forUpdate().executeTakeFirstOrThrow();
-      if (tap.state !== 'needs_cleaning') await writeStateChange(trx, keg.tap_id, tap.state, 'needs_cleaning', `${keg.code} disconnected and checked out; clean the line`, o.actorId ?? null, at);
+      if (tap.state !== 'needs_cleaning')
+        await writeStateChange(trx, keg.tap_id, tap.state, 'needs_cleaning', `${keg.code} disconnected and checked out; clean the line`, o.actorId ?? null, at);
     }
     await trx
       .insertInto('keg_movement')

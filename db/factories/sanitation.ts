@@ -71,7 +71,12 @@ export async function createSanitationCycle(db: Database, o: SanitationCycleOver
     const refused = blockingViolations(steps, settings);
     if (refused.length) throw new Error(`createSanitationCycle: the API would refuse these steps: ${refused.map((v) => v.message).join(' ')}`);
     const ev = evaluateCycle(steps, settings);
-    const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', o.equipmentId).forUpdate().executeTakeFirstOrThrow();
+    const vessel = await trx
+      .selectFrom('equipment')
+      .select(['id', 'code', 'kind', 'state'])
+      .where('id', '=', o.equipmentId)
+      .forUpdate()
+      .executeTakeFirstOrThrow();
     if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') throw new Error(`createSanitationCycle: ${vessel.code} is a ${vessel.kind}`);
     if (vessel.state === 'holding' || vessel.state === 'out_of_service') throw new Error(`createSanitationCycle: ${vessel.code} is ${vessel.state}`);
     const recordedBy = o.recordedBy ?? null;

@@ -64,7 +64,12 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
   return inTransaction(db, async (trx) => {
     const settings = await sanitationSettings(trx);
     const batch = await trx.selectFrom('batch').select(['id', 'name', 'volume_liters']).where('id', '=', o.batchId).forUpdate().executeTakeFirstOrThrow();
-    const fermenter = await trx.selectFrom('equipment').select(['id', 'code', 'state', 'attributes']).where('id', '=', o.fromEquipmentId).forUpdate().executeTakeFirstOrThrow();
+    const fermenter = await trx
+      .selectFrom('equipment')
+      .select(['id', 'code', 'state', 'attributes'])
+      .where('id', '=', o.fromEquipmentId)
+      .forUpdate()
+      .executeTakeFirstOrThrow();
     const kegs = [];
     for (const id of o.kegIds) {
       if (o.sanitizeKegs !== false) {
@@ -84,7 +89,14 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
           'e.id',
           'e.code',
           'e.state',
-          eb.selectFrom('sanitation_cycle as c').select('c.id').whereRef('c.equipment_id', '=', 'e.id').where('c.completed_at', '<=', at).orderBy('c.completed_at', 'desc').limit(1).as('cycle_id'),
+          eb
+            .selectFrom('sanitation_cycle as c')
+            .select('c.id')
+            .whereRef('c.equipment_id', '=', 'e.id')
+            .where('c.completed_at', '<=', at)
+            .orderBy('c.completed_at', 'desc')
+            .limit(1)
+            .as('cycle_id'),
         ])
         .where('e.id', '=', id)
         .where('e.kind', '=', 'keg')
@@ -175,14 +187,39 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
           .executeTakeFirstOrThrow(),
       );
       const now = await trx.selectFrom('equipment').select('state').where('id', '=', k.id).executeTakeFirstOrThrow();
-      if (now.state !== 'holding') await writeStateChange(trx, k.id, now.state, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, o.recordedBy ?? null, at);
-      const values = { whereabouts: o.whereabouts ?? ('cellar' as const), tap_id: null, member_id: null, checked_out_at: null, due_at: null, since: at, updated_by: o.recordedBy ?? null };
-      await trx.insertInto('keg_whereabouts').values({ keg_id: k.id, ...values }).onConflict((oc) => oc.column('keg_id').doUpdateSet(values)).execute();
+      if (now.state !== 'holding')
+        await writeStateChange(trx, k.id, now.state, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, o.recordedBy ?? null, at);
+      const values = {
+        whereabouts: o.whereabouts ?? ('cellar' as const),
+        tap_id: null,
+        member_id: null,
+        checked_out_at: null,
+        due_at: null,
+        since: at,
+        updated_by: o.recordedBy ?? null,
+      };
+      await trx
+        .insertInto('keg_whereabouts')
+        .values({ keg_id: k.id, ...values })
+        .onConflict((oc) => oc.column('keg_id').doUpdateSet(values))
+        .execute();
     }
     if (fermenter.state !== 'needs_cleaning') {
-      await writeStateChange(trx, fermenter.id, fermenter.state, 'needs_cleaning', `Emptied by transfer of ${batch.name} to ${kegs.map((k) => k.code).join(', ')}`, o.recordedBy ?? null, at);
+      await writeStateChange(
+        trx,
+        fermenter.id,
+        fermenter.state,
+        'needs_cleaning',
+        `Emptied by transfer of ${batch.name} to ${kegs.map((k) => k.code).join(', ')}`,
+        o.recordedBy ?? null,
+        at,
+      );
     }
-    const totals = await trx.selectFrom('transfer').select((eb) => eb.fn.sum<number>('packaged_liters').as('liters')).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
+    const totals = await trx
+      .selectFrom('transfer')
+      .select((eb) => eb.fn.sum<number>('packaged_liters').as('liters'))
+      .where('batch_id', '=', batch.id)
+      .executeTakeFirstOrThrow();
     await trx
       .updateTable('batch')
       .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: at })

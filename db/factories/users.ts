@@ -25,7 +25,8 @@ export interface UserOverrides {
 /** An account that can sign in with `cellar-demo` (or the given password). */
 export async function createUser(db: Database, o: UserOverrides = {}): Promise<UserRow> {
   const n = nextSeq();
-  const passwordHash = o.password === null ? null : o.password === undefined || o.password === DEMO_PASSWORD ? await demoPasswordHash() : await hash(o.password);
+  const passwordHash =
+    o.password === null ? null : o.password === undefined || o.password === DEMO_PASSWORD ? await demoPasswordHash() : await hash(o.password);
   const createdAt = toDate(o.createdAt ?? LONG_AGO, 'createdAt');
   return db
     .insertInto('app_user')

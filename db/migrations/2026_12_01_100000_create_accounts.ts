@@ -16,7 +16,12 @@ export async function up(db: Kysely<any>): Promise<void> {
         .check(sql`cardinality(roles) > 0 and roles <@ array['member','brewer_on_duty','treasurer','admin']::text[]`),
     )
     .addColumn('is_active', 'boolean', (c) => c.notNull().defaultTo(true))
-    .addColumn('units', 'text', (c) => c.notNull().defaultTo('metric').check(sql`units in ('metric','us')`))
+    .addColumn('units', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('metric')
+        .check(sql`units in ('metric','us')`),
+    )
     .addColumn('last_login_at', 'timestamptz')
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))

@@ -9,7 +9,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('name', 'text', (c) => c.notNull())
     .addColumn('capacity_liters', sql`numeric(8,2)`, (c) => c.check(sql`capacity_liters is null or capacity_liters > 0`))
     .addColumn('state', 'text', (c) =>
-      c.notNull().defaultTo('needs_cleaning').check(sql`state in ('ready','needs_cleaning','cleaned','holding','out_of_service')`),
+      c
+        .notNull()
+        .defaultTo('needs_cleaning')
+        .check(sql`state in ('ready','needs_cleaning','cleaned','holding','out_of_service')`),
     )
     .addColumn('attributes', 'jsonb', (c) => c.notNull().defaultTo(sql`'{}'::jsonb`))
     .addColumn('notes', 'text', (c) => c.notNull().defaultTo(''))
@@ -40,7 +43,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('starts_at', 'timestamptz', (c) => c.notNull())
     .addColumn('ends_at', 'timestamptz', (c) => c.notNull())
     .addColumn('blocked_until', 'timestamptz', (c) => c.notNull())
-    .addColumn('state', 'text', (c) => c.notNull().defaultTo('booked').check(sql`state in ('booked','in_use','finished','cancelled')`))
+    .addColumn('state', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('booked')
+        .check(sql`state in ('booked','in_use','finished','cancelled')`),
+    )
     .addColumn('notes', 'text', (c) => c.notNull().defaultTo(''))
     .addColumn('created_by', 'uuid', (c) => c.references('app_user.id').onDelete('set null'))
     .addColumn('cancelled_by', 'uuid', (c) => c.references('app_user.id').onDelete('set null'))

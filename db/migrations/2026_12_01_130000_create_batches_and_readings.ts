@@ -16,7 +16,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('target_og', sql`numeric(5,4)`, (c) => c.check(sql`target_og is null or target_og between 0.980 and 1.200`))
     .addColumn('target_fg', sql`numeric(5,4)`, (c) => c.check(sql`target_fg is null or target_fg between 0.980 and 1.200`))
     .addColumn('status', 'text', (c) =>
-      c.notNull().defaultTo('planned').check(sql`status in ('planned','fermenting','conditioning','packaged','discarded')`),
+      c
+        .notNull()
+        .defaultTo('planned')
+        .check(sql`status in ('planned','fermenting','conditioning','packaged','discarded')`),
     )
     .addColumn('packaged_at', 'timestamptz')
     .addColumn('packaged_liters', sql`numeric(8,2)`, (c) => c.check(sql`packaged_liters is null or packaged_liters >= 0`))
@@ -47,7 +50,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     // Hydrometer temperature correction or refractometer alcohol correction applied; raw_sg is the gravity before it.
     .addColumn('corrected', 'boolean', (c) => c.notNull().defaultTo(false))
     .addColumn('raw_sg', sql`numeric(6,4)`)
-    .addColumn('source', 'text', (c) => c.notNull().defaultTo('manual').check(sql`source in ('manual','import')`))
+    .addColumn('source', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('manual')
+        .check(sql`source in ('manual','import')`),
+    )
     .addColumn('note', 'text', (c) => c.notNull().defaultTo(''))
     .addColumn('created_by', 'uuid', (c) => c.references('app_user.id').onDelete('set null'))
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
@@ -70,9 +78,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('id', 'uuid', (c) => c.primaryKey())
     .addColumn('user_id', 'uuid', (c) => c.notNull().references('app_user.id').onDelete('cascade'))
     .addColumn('batch_id', 'uuid', (c) => c.notNull().references('batch.id').onDelete('cascade'))
-    .addColumn('phase', 'text', (c) =>
-      c.notNull().check(sql`phase in ('reading','checking','writing','done','failed')`),
-    )
+    .addColumn('phase', 'text', (c) => c.notNull().check(sql`phase in ('reading','checking','writing','done','failed')`))
     .addColumn('rows_done', 'integer', (c) => c.notNull().defaultTo(0))
     .addColumn('rows_total', 'integer')
     .addColumn('message', 'text', (c) => c.notNull().defaultTo(''))

@@ -64,7 +64,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('finings_kind', 'text')
     .addColumn('finings_amount', sql`numeric(8,2)`, (c) => c.check(sql`finings_amount is null or finings_amount > 0`))
     .addColumn('finings_unit', 'text', (c) => c.check(sql`finings_unit is null or finings_unit in ('g','mL')`))
-    .addColumn('co2_grams', sql`numeric(8,1)`, (c) => c.notNull().defaultTo(0).check(sql`co2_grams >= 0`))
+    .addColumn('co2_grams', sql`numeric(8,1)`, (c) =>
+      c
+        .notNull()
+        .defaultTo(0)
+        .check(sql`co2_grams >= 0`),
+    )
     .addColumn('og', sql`numeric(5,4)`)
     .addColumn('fg', sql`numeric(5,4)`)
     .addColumn('abv', sql`numeric(5,2)`)
@@ -152,7 +157,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('id', 'uuid', (c) => c.primaryKey().defaultTo(sql`gen_random_uuid()`))
     .addColumn('keg_id', 'uuid', (c) => c.notNull().references('equipment.id'))
     .addColumn('keg_fill_id', 'uuid', (c) => c.references('keg_fill.id'))
-    .addColumn('state', 'text', (c) => c.notNull().defaultTo('active').check(sql`state in ('active','done','cancelled','superseded')`))
+    .addColumn('state', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('active')
+        .check(sql`state in ('active','done','cancelled','superseded')`),
+    )
     .addColumn('method', 'text', (c) => c.notNull().check(sql`method in ('set_and_hold','fast_start')`))
     .addColumn('style_family', 'text', (c) => c.notNull().defaultTo(''))
     .addColumn('target_volumes', sql`numeric(4,2)`, (c) => c.notNull().check(sql`target_volumes > 0 and target_volumes <= 6`))

@@ -61,7 +61,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('run_id', 'uuid', (c) => c.references('invoice_run.id'))
     .addColumn('member_id', 'uuid', (c) => c.notNull().references('app_user.id'))
     .addColumn('period', 'text', (c) => c.notNull().check(sql`period ~ '^[0-9]{4}-(0[1-9]|1[0-2])$'`))
-    .addColumn('status', 'text', (c) => c.notNull().defaultTo('draft').check(sql`status in ('draft','issued','paid','void')`))
+    .addColumn('status', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('draft')
+        .check(sql`status in ('draft','issued','paid','void')`),
+    )
     .addColumn('number', 'text', (c) => c.unique())
     .addColumn('number_year', 'integer')
     .addColumn('number_seq', 'integer')
@@ -120,12 +125,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .execute();
   await db.schema.createIndex('invoice_line_invoice_id_idx').on('invoice_line').columns(['invoice_id', 'position']).execute();
   // A piece of use (a source record's item from a date) is billed once, ever.
-  await db.schema
-    .createIndex('invoice_line_source_key')
-    .unique()
-    .on('invoice_line')
-    .columns(['source_type', 'source_id', 'item', 'service_from'])
-    .execute();
+  await db.schema.createIndex('invoice_line_source_key').unique().on('invoice_line').columns(['source_type', 'source_id', 'item', 'service_from']).execute();
 
   await db.schema
     .createTable('manual_charge')
@@ -188,7 +188,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('amount_cents', 'integer', (c) => c.notNull().check(sql`amount_cents > 0`))
     .addColumn('currency', 'char(3)', (c) => c.notNull())
     .addColumn('url', 'text', (c) => c.notNull())
-    .addColumn('status', 'text', (c) => c.notNull().defaultTo('open').check(sql`status in ('open','complete','expired')`))
+    .addColumn('status', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('open')
+        .check(sql`status in ('open','complete','expired')`),
+    )
     .addColumn('created_by', 'uuid', (c) => c.references('app_user.id').onDelete('set null'))
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('completed_at', 'timestamptz')

@@ -14,7 +14,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       add column vented boolean,
       add column pushed_into_equipment_id uuid references equipment(id)`.execute(db);
   await sql`alter table sanitation_step add constraint sanitation_step_exception_check
-    check ((exception_reason is null) = (cardinality(exception_rules) = 0) and (exception_reason is null or length(btrim(exception_reason)) between 1 and 500))`.execute(db);
+    check ((exception_reason is null) = (cardinality(exception_rules) = 0) and (exception_reason is null or length(btrim(exception_reason)) between 1 and 500))`.execute(
+    db,
+  );
   await sql`alter table sanitation_step add constraint sanitation_step_pushed_into_check
     check (pushed_into_equipment_id is null or purge_method = 'push_out')`.execute(db);
   await sql`alter table sanitation_step add constraint sanitation_step_vented_check check (vented is null or step = 'clean')`.execute(db);

@@ -39,7 +39,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('id', 'bigserial', (c) => c.primaryKey())
     .addColumn('cylinder_id', 'uuid', (c) => c.notNull().references('equipment.id').onDelete('cascade'))
     .addColumn('action', 'text', (c) => c.notNull().check(sql`action in ('connected','disconnected','refilled','drawn')`))
-    .addColumn('kg', sql`numeric(8,3)`, (c) => c.notNull().defaultTo(0).check(sql`kg >= 0`))
+    .addColumn('kg', sql`numeric(8,3)`, (c) =>
+      c
+        .notNull()
+        .defaultTo(0)
+        .check(sql`kg >= 0`),
+    )
     .addColumn('remaining_kg', sql`numeric(8,3)`, (c) => c.notNull().check(sql`remaining_kg >= 0`))
     .addColumn('replaced_cylinder_id', 'uuid', (c) => c.references('equipment.id').onDelete('set null'))
     .addColumn('source_type', 'text', (c) => c.check(sql`source_type in ('keg_fill','sanitation_cycle')`))

@@ -26,7 +26,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     const known = typeof c.id === 'string' ? shipped[c.id] : undefined;
     const min = Math.min(known?.min ?? usual / 2, usual);
     const max = Math.max(known?.max ?? usual * 2, usual);
-    const caustic = known?.caustic ?? /caustic|hydroxide/i.test((typeof c.name === 'string' ? c.name : ''));
+    const caustic = known?.caustic ?? /caustic|hydroxide/i.test(typeof c.name === 'string' ? c.name : '');
     return { ...c, minConcentration: min, maxConcentration: max, caustic: c.caustic ?? caustic };
   });
   if (!changed) return;

@@ -38,7 +38,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addCheckConstraint('keg_action_undo_window_check', sql`undo_until > at and undo_until <= at + interval '10 minutes'`)
     .addCheckConstraint('keg_action_undo_fill_check', sql`(fill_id is null) = (fill_remaining_liters is null)`)
     .addCheckConstraint('keg_action_undo_tap_check', sql`(tap_id is null) = (tap_state is null) and (tap_id is null or whereabouts = 'cold_room')`)
-    .addCheckConstraint('keg_action_undo_member_check', sql`(whereabouts = 'with_member') = (member_id is not null and due_at is not null and checked_out_at is not null)`)
+    .addCheckConstraint(
+      'keg_action_undo_member_check',
+      sql`(whereabouts = 'with_member') = (member_id is not null and due_at is not null and checked_out_at is not null)`,
+    )
     .addCheckConstraint('keg_action_undo_undone_check', sql`(undone_at is null) or (undone_at >= at and undone_at <= undo_until)`)
     .execute();
   await db.schema.createIndex('keg_action_undo_keg_idx').on('keg_action_undo').columns(['keg_id', 'at']).execute();

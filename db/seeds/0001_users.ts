@@ -8,10 +8,30 @@ export const DEMO_PASSWORD = 'cellar-demo';
 
 // The invented members of Larkspur Yard Brewing Co-op.
 const memberNames = [
-  'Maren Holloway', 'Tobias Quill', 'Ines Farrow', 'Caspian Reyes', 'Odile Marsh', 'Bram Whitlock',
-  'Priya Castellan', 'Jonah Feld', 'Lotte Brannigan', 'Amadou Kestrel', 'Saskia Thorne', 'Felix Arden',
-  'Rosalind Oakes', 'Henrik Dale', 'Noor Ashby', 'Wendell Pike', 'Clementine Vo', 'Dario Lindqvist',
-  'Hattie Morrow', 'Emeka Sorrel', 'Ysolde Grant', 'Rafferty Bell', 'Junie Calder', 'Osman Wilde',
+  'Maren Holloway',
+  'Tobias Quill',
+  'Ines Farrow',
+  'Caspian Reyes',
+  'Odile Marsh',
+  'Bram Whitlock',
+  'Priya Castellan',
+  'Jonah Feld',
+  'Lotte Brannigan',
+  'Amadou Kestrel',
+  'Saskia Thorne',
+  'Felix Arden',
+  'Rosalind Oakes',
+  'Henrik Dale',
+  'Noor Ashby',
+  'Wendell Pike',
+  'Clementine Vo',
+  'Dario Lindqvist',
+  'Hattie Morrow',
+  'Emeka Sorrel',
+  'Ysolde Grant',
+  'Rafferty Bell',
+  'Junie Calder',
+  'Osman Wilde',
 ];
 
 export interface SeedUser {

@@ -105,7 +105,7 @@ function cylinders(): SeedEquipment[] {
     name: `${sizeKg} kg CO2 cylinder ${i + 1}`,
     capacityLiters: null,
     attributes: { sizeKg, fillPercent: fills[i], hydroTestDue: due[i] },
-    notes: 'Keep chained upright. Never exceed the regulator\'s rated pressure.',
+    notes: "Keep chained upright. Never exceed the regulator's rated pressure.",
   }));
 }
 
@@ -149,10 +149,24 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const actor = () => rota[Math.floor(random() * rota.length)]!;
     const hour = (d: string, h: number) => cal.at(`${d}T${String(h).padStart(2, '0')}:00:00Z`);
     if (e.kind === 'co2_cylinder') {
-      changes.push({ equipment_id: id, from_state: null, to_state: 'ready', reason: 'Added to the registry, filled and leak-checked', actor_id: userId('admin'), at: registeredAt });
+      changes.push({
+        equipment_id: id,
+        from_state: null,
+        to_state: 'ready',
+        reason: 'Added to the registry, filled and leak-checked',
+        actor_id: userId('admin'),
+        at: registeredAt,
+      });
       continue;
     }
-    changes.push({ equipment_id: id, from_state: null, to_state: 'needs_cleaning', reason: 'Added to the registry', actor_id: userId('admin'), at: registeredAt });
+    changes.push({
+      equipment_id: id,
+      from_state: null,
+      to_state: 'needs_cleaning',
+      reason: 'Added to the registry',
+      actor_id: userId('admin'),
+      at: registeredAt,
+    });
     changes.push({
       equipment_id: id,
       from_state: 'needs_cleaning',
@@ -170,5 +184,9 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       at: cal.at('2026-08-29T15:00:00Z'),
     });
   }
-  for (let i = 0; i < changes.length; i += 200) await db.insertInto('equipment_state_change').values(changes.slice(i, i + 200)).execute();
+  for (let i = 0; i < changes.length; i += 200)
+    await db
+      .insertInto('equipment_state_change')
+      .values(changes.slice(i, i + 200))
+      .execute();
 }

@@ -30,7 +30,10 @@ const addDays = (d: Date, days: number) => new Date(d.getTime() + days * DAY);
  * What each fermenter is doing on the demo's today, and when its last finished booking ended (dates
  * as designed, for a today of 1 December 2026; the demo's calendar moves them).
  */
-const fermenterPlan: Record<string, { final: VesselState; lastEnd?: string; endsBy?: string; currentOwner?: string; december?: { start: string; days: number; owner: string }[] }> = {
+const fermenterPlan: Record<
+  string,
+  { final: VesselState; lastEnd?: string; endsBy?: string; currentOwner?: string; december?: { start: string; days: number; owner: string }[] }
+> = {
   'F-01': { final: 'holding', currentOwner: 'member' },
   'F-02': { final: 'holding', december: [{ start: '2026-12-20', days: 21, owner: 'member7' }] },
   'F-03': { final: 'ready', lastEnd: '2026-11-19' },
@@ -74,7 +77,9 @@ function plan(cal: DemoCalendar): PlannedBooking[] {
     if (p.final === 'holding') {
       const plannedStart = addDays(day10('2026-12-01'), -between(3, 16));
       const days = length();
-      const endsAt = p.endsBy ? day10(p.endsBy) : addDays(plannedStart, Math.max(days, Math.ceil((day10('2026-12-03').getTime() - plannedStart.getTime()) / DAY)));
+      const endsAt = p.endsBy
+        ? day10(p.endsBy)
+        : addDays(plannedStart, Math.max(days, Math.ceil((day10('2026-12-03').getTime() - plannedStart.getTime()) / DAY)));
       const startsAt = plannedStart;
       own.push({ code, owner: p.currentOwner ?? pick(members), startsAt, endsAt });
       anchor = startsAt;
@@ -196,7 +201,11 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const rules = await db.selectFrom('setting').select('value').where('key', '=', 'booking_rules').executeTakeFirst();
   if (rules) {
     const value = { ...(rules.value as Record<string, unknown>), maxActiveBookingsPerMember: DEMO_MAX_ACTIVE_BOOKINGS };
-    await db.updateTable('setting').set({ value: JSON.stringify(value) }).where('key', '=', 'booking_rules').execute();
+    await db
+      .updateTable('setting')
+      .set({ value: JSON.stringify(value) })
+      .where('key', '=', 'booking_rules')
+      .execute();
   }
   const random = rng(3004);
   const bookings = plan(cal);
@@ -219,7 +228,12 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       updated_at: createdAt,
     };
   });
-  for (let i = 0; i < rows.length; i += 200) await db.insertInto('booking').values(rows.slice(i, i + 200)).onConflict((oc) => oc.doNothing()).execute();
+  for (let i = 0; i < rows.length; i += 200)
+    await db
+      .insertInto('booking')
+      .values(rows.slice(i, i + 200))
+      .onConflict((oc) => oc.doNothing())
+      .execute();
 
   // Each item's states through its bookings, ending at the state it is in today.
   const changes: Change[] = [];
@@ -228,7 +242,9 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   for (const item of seedEquipment) {
     if (item.kind === 'co2_cylinder') continue;
     const id = equipmentId(item.code);
-    const own = bookings.filter((b) => b.code === item.code && !b.cancelled && b.startsAt <= demoToday).sort((a, b) => a.startsAt.getTime() - b.startsAt.getTime());
+    const own = bookings
+      .filter((b) => b.code === item.code && !b.cancelled && b.startsAt <= demoToday)
+      .sort((a, b) => a.startsAt.getTime() - b.startsAt.getTime());
     const next = (i: number) => own[i + 1]?.startsAt ?? bookings.filter((b) => b.code === item.code && !b.cancelled && b.startsAt > demoToday)[0]?.startsAt;
     let state: VesselState = 'ready';
     let at = cal.at('2026-08-29T15:00:00Z');
@@ -239,7 +255,12 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     };
     const override = fermenterPlan[item.code]?.final;
     own.forEach((b, i) => {
-      const filled = item.kind === 'keg' ? `Filled from ${b.filledFrom ?? 'a fermenter'}; headspace purged, lid and posts leak-checked` : item.kind === 'tap' ? 'Keg connected; line balanced' : 'Filled with wort; airlock fitted';
+      const filled =
+        item.kind === 'keg'
+          ? `Filled from ${b.filledFrom ?? 'a fermenter'}; headspace purged, lid and posts leak-checked`
+          : item.kind === 'tap'
+            ? 'Keg connected; line balanced'
+            : 'Filled with wort; airlock fitted';
       push('holding', b.startsAt, filled);
       if (b.endsAt > demoToday) return;
       push('needs_cleaning', b.endsAt, item.kind === 'keg' ? 'Returned empty' : item.kind === 'tap' ? 'Keg disconnected' : 'Emptied: beer transferred to kegs');
@@ -265,7 +286,11 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     changes.push({ equipment_id: id, from_state: 'ready', to_state: 'out_of_service', reason: oos.reason, actor_id: actor(), at: oos.at });
     finalState.set(id, { state: 'out_of_service', at: oos.at });
   }
-  for (let i = 0; i < changes.length; i += 200) await db.insertInto('equipment_state_change').values(changes.slice(i, i + 200)).execute();
+  for (let i = 0; i < changes.length; i += 200)
+    await db
+      .insertInto('equipment_state_change')
+      .values(changes.slice(i, i + 200))
+      .execute();
   for (const [id, s] of finalState) {
     await db.updateTable('equipment').set({ state: s.state, state_changed_at: s.at, updated_at: s.at }).where('id', '=', id).execute();
   }

@@ -109,7 +109,15 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
 
     const ownerId = b.owner_id;
     const readings: SeedReading[] = [];
-    const addReading = (takenAt: Date, value: number, unit: GravityUnit, temperatureC: number | null, note: string, source: 'manual' | 'import', by: string) => {
+    const addReading = (
+      takenAt: Date,
+      value: number,
+      unit: GravityUnit,
+      temperatureC: number | null,
+      note: string,
+      source: 'manual' | 'import',
+      by: string,
+    ) => {
       const first = readings[0];
       const firstInfo = first ? { enteredValue: first.entered_value, enteredUnit: first.entered_unit, sg: first.gravity_sg } : null;
       const g = normaliseGravity(value, unit, temperatureC, {

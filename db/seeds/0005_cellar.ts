@@ -91,7 +91,11 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const changeRows = await db
     .selectFrom('equipment_state_change')
     .select(['id', 'equipment_id', 'from_state', 'to_state', 'reason', 'actor_id', 'at'])
-    .where('equipment_id', 'in', vessels.map((v) => v.id))
+    .where(
+      'equipment_id',
+      'in',
+      vessels.map((v) => v.id),
+    )
     .orderBy('equipment_id')
     .orderBy('at')
     .orderBy('id')
@@ -148,7 +152,8 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         pushed_into_equipment_id: st.step === 'purge' ? (raw.pushedIntoEquipmentId ?? null) : null,
         vented: st.step === 'clean' ? (raw.vented ?? null) : null,
         co2_grams: st.step === 'purge' ? (raw.co2 ?? settings.co2GramsPerPurge) : null,
-        solution_liters: st.step === 'clean' || st.step === 'sanitize' ? (byId.get(vesselId)!.kind === 'keg' ? 19 : Number(byId.get(vesselId)!.capacity_liters) / 2) : null,
+        solution_liters:
+          st.step === 'clean' || st.step === 'sanitize' ? (byId.get(vesselId)!.kind === 'keg' ? 19 : Number(byId.get(vesselId)!.capacity_liters) / 2) : null,
         performed_by: raw.by,
         at: new Date(raw.at),
         ok: st.ok,
@@ -166,7 +171,15 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const soak = conical ? 30 : pick([45, 60, 60, 60, 75]);
     const list: (StepForRules & { by: string; co2?: number })[] = [
       // Vented to atmospheric pressure before the caustic goes in.
-      { step: 'clean', chemical: cleaner, concentration: conical ? 2 : pick([1.5, 1.5, 2]), contactMinutes: soak, at: new Date(cleanedAt.getTime() - (soak + 8) * MIN), by: cleanBy, ...(conical ? { vented: true } : {}) },
+      {
+        step: 'clean',
+        chemical: cleaner,
+        concentration: conical ? 2 : pick([1.5, 1.5, 2]),
+        contactMinutes: soak,
+        at: new Date(cleanedAt.getTime() - (soak + 8) * MIN),
+        by: cleanBy,
+        ...(conical ? { vented: true } : {}),
+      },
       { step: 'rinse', at: new Date(cleanedAt.getTime() - 3 * MIN), by: cleanBy },
     ];
     if (readyAt) {
@@ -195,8 +208,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     return list;
   }
 
-  const lapseReason = (fresh: Date) =>
-    `Freshness window lapsed at ${fresh.toISOString().slice(0, 16).replace('T', ' ')} UTC; clean and sanitize before use`;
+  const lapseReason = (fresh: Date) => `Freshness window lapsed at ${fresh.toISOString().slice(0, 16).replace('T', ' ')} UTC; clean and sanitize before use`;
 
   // Walk each vessel's states: every cleaning becomes a recorded cycle; lapses before a use get a fresh one.
   let shortSanitizeDone = false;
@@ -245,18 +257,41 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         shortSanitizeDone = true;
         const first = new Date(end.getTime() - 50 * MIN);
         const short = addCycle(v.id, cleaningSteps(v.id, first, by, null, by), 'Sanitizer ran out; sanitized later');
-        newChanges.push({ equipment_id: v.id, from_state: 'needs_cleaning', to_state: 'cleaned', reason: `Sanitation cycle incomplete, cleaned, not sanitized: ${short.ev.issues.map((i) => i.message).join(' ')}`, actor_id: by, at: first });
+        newChanges.push({
+          equipment_id: v.id,
+          from_state: 'needs_cleaning',
+          to_state: 'cleaned',
+          reason: `Sanitation cycle incomplete, cleaned, not sanitized: ${short.ev.issues.map((i) => i.message).join(' ')}`,
+          actor_id: by,
+          at: first,
+        });
         addCycle(v.id, cleaningSteps(v.id, new Date(end.getTime() - 15 * MIN), by, end, by));
-        newChanges.push({ equipment_id: v.id, from_state: 'cleaned', to_state: 'ready', reason: 'Sanitation cycle complete; ready for 7 days', actor_id: by, at: end });
+        newChanges.push({
+          equipment_id: v.id,
+          from_state: 'cleaned',
+          to_state: 'ready',
+          reason: 'Sanitation cycle complete; ready for 7 days',
+          actor_id: by,
+          at: end,
+        });
       } else {
         addCycle(v.id, cleaningSteps(v.id, new Date(end.getTime() - 15 * MIN), by, end, by));
-        newChanges.push({ equipment_id: v.id, from_state: 'needs_cleaning', to_state: 'ready', reason: 'Sanitation cycle complete; ready for 7 days', actor_id: by, at: end });
+        newChanges.push({
+          equipment_id: v.id,
+          from_state: 'needs_cleaning',
+          to_state: 'ready',
+          reason: 'Sanitation cycle complete; ready for 7 days',
+          actor_id: by,
+          at: end,
+        });
       }
     }
   }
 
   // Vessels idle at the end whose window has lapsed: the rota re-sanitized the fermenters and some kegs late in November.
-  const idleKegs = idleAtEnd.filter((x) => byId.get(x.vesselId)!.kind === 'keg').sort((a, b) => byId.get(a.vesselId)!.code.localeCompare(byId.get(b.vesselId)!.code));
+  const idleKegs = idleAtEnd
+    .filter((x) => byId.get(x.vesselId)!.kind === 'keg')
+    .sort((a, b) => byId.get(a.vesselId)!.code.localeCompare(byId.get(b.vesselId)!.code));
   const refreshed = new Set([...idleAtEnd.filter((x) => byId.get(x.vesselId)!.kind === 'fermenter'), ...idleKegs.slice(0, READY_POOL)].map((x) => x.vesselId));
   for (const x of idleAtEnd) {
     const lapseAt = new Date(x.readyAt.getTime() + FRESH);
@@ -265,7 +300,14 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       const end = new Date(Math.max(lapseAt.getTime() + 3 * HOUR, today - Math.round(between(14, 60)) * HOUR));
       const by = pick(rota);
       addCycle(x.vesselId, cleaningSteps(x.vesselId, new Date(end.getTime() - 15 * MIN), by, end, by));
-      newChanges.push({ equipment_id: x.vesselId, from_state: 'needs_cleaning', to_state: 'ready', reason: 'Sanitation cycle complete; ready for 7 days', actor_id: by, at: end });
+      newChanges.push({
+        equipment_id: x.vesselId,
+        from_state: 'needs_cleaning',
+        to_state: 'ready',
+        reason: 'Sanitation cycle complete; ready for 7 days',
+        actor_id: by,
+        at: end,
+      });
       finalStates.set(x.vesselId, { state: 'ready', at: end });
     } else {
       finalStates.set(x.vesselId, { state: 'needs_cleaning', at: lapseAt });
@@ -305,7 +347,22 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   };
 
   const transfers: Record<string, unknown>[] = [];
-  const fills: { id: string; keg_id: string; batch_id: string; volume: number; filled_at: Date; emptied_at: Date | null; transfer_id: string; cycle: string | null; og: number | null; fg: number | null; abv: number | null; co2: number; ownerId: string; booking: (typeof kegBookings)[number] }[] = [];
+  const fills: {
+    id: string;
+    keg_id: string;
+    batch_id: string;
+    volume: number;
+    filled_at: Date;
+    emptied_at: Date | null;
+    transfer_id: string;
+    cycle: string | null;
+    og: number | null;
+    fg: number | null;
+    abv: number | null;
+    co2: number;
+    ownerId: string;
+    booking: (typeof kegBookings)[number];
+  }[] = [];
   const batchUpdates: { id: string; liters: number; at: Date }[] = [];
   let transferNo = 0;
   for (const fb of fermenterBookings) {
@@ -339,7 +396,8 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     if (!finings) checklist.finingsAdded = true;
     if (random() < 0.12) checklist.oxygenPickupNote = 'Bubbles at the keg-side barb; clamped it tighter';
     checklist.unconfirmed = [];
-    const recorder = (chains.get(fb.equipment_id) ?? []).find((c) => c.to_state === 'needs_cleaning' && c.at.getTime() === at.getTime())?.actor_id ?? pick(rota);
+    const recorder =
+      (chains.get(fb.equipment_id) ?? []).find((c) => c.to_state === 'needs_cleaning' && c.at.getTime() === at.getTime())?.actor_id ?? pick(rota);
     const id = seedId('transfer', ++transferNo);
     const co2 = settings.co2GramsPerKegFill * into.length;
     transfers.push({
@@ -443,30 +501,109 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const tap = onTap.get(f.keg_id);
     const brewer = pick(rota);
     if (current && tap) {
-      move({ keg_id: f.keg_id, action: 'moved', from_whereabouts: 'cellar', to_whereabouts: 'cold_room', actor_id: brewer, at: new Date(f.filled_at.getTime() + HOUR), note: 'Into the cold room to carbonate' });
-      move({ keg_id: f.keg_id, action: 'tapped', from_whereabouts: 'cold_room', to_whereabouts: 'cold_room', tap_id: tap.tapId, actor_id: brewer, at: tap.since });
+      move({
+        keg_id: f.keg_id,
+        action: 'moved',
+        from_whereabouts: 'cellar',
+        to_whereabouts: 'cold_room',
+        actor_id: brewer,
+        at: new Date(f.filled_at.getTime() + HOUR),
+        note: 'Into the cold room to carbonate',
+      });
+      move({
+        keg_id: f.keg_id,
+        action: 'tapped',
+        from_whereabouts: 'cold_room',
+        to_whereabouts: 'cold_room',
+        tap_id: tap.tapId,
+        actor_id: brewer,
+        at: tap.since,
+      });
       const daysOn = (today - tap.since.getTime()) / DAY;
       const left = Math.max(2, Math.round((f.volume - daysOn * between(0.4, 0.9)) * 10) / 10);
       remaining.set(f.id, left);
-      move({ keg_id: f.keg_id, action: 'level', from_whereabouts: 'cold_room', to_whereabouts: 'cold_room', tap_id: tap.tapId, actor_id: pick(rota), at: new Date(today - Math.round(between(3, 20)) * HOUR), note: `About ${left.toFixed(1)} L left` });
-      whereabouts.set(f.keg_id, { keg_id: f.keg_id, whereabouts: 'cold_room', tap_id: tap.tapId, member_id: null, checked_out_at: null, due_at: null, since: tap.since, updated_by: brewer });
+      move({
+        keg_id: f.keg_id,
+        action: 'level',
+        from_whereabouts: 'cold_room',
+        to_whereabouts: 'cold_room',
+        tap_id: tap.tapId,
+        actor_id: pick(rota),
+        at: new Date(today - Math.round(between(3, 20)) * HOUR),
+        note: `About ${left.toFixed(1)} L left`,
+      });
+      whereabouts.set(f.keg_id, {
+        keg_id: f.keg_id,
+        whereabouts: 'cold_room',
+        tap_id: tap.tapId,
+        member_id: null,
+        checked_out_at: null,
+        due_at: null,
+        since: tap.since,
+        updated_by: brewer,
+      });
       continue;
     }
     if (current && !overdue && random() < 0.25) {
       const at = new Date(f.filled_at.getTime() + HOUR);
-      move({ keg_id: f.keg_id, action: 'moved', from_whereabouts: 'cellar', to_whereabouts: 'cold_room', actor_id: brewer, at, note: 'Into the cold room to carbonate' });
-      whereabouts.set(f.keg_id, { keg_id: f.keg_id, whereabouts: 'cold_room', tap_id: null, member_id: null, checked_out_at: null, due_at: null, since: at, updated_by: brewer });
+      move({
+        keg_id: f.keg_id,
+        action: 'moved',
+        from_whereabouts: 'cellar',
+        to_whereabouts: 'cold_room',
+        actor_id: brewer,
+        at,
+        note: 'Into the cold room to carbonate',
+      });
+      whereabouts.set(f.keg_id, {
+        keg_id: f.keg_id,
+        whereabouts: 'cold_room',
+        tap_id: null,
+        member_id: null,
+        checked_out_at: null,
+        due_at: null,
+        since: at,
+        updated_by: brewer,
+      });
       continue;
     }
     // Collected by the member some hours after filling, due back at the end of the keg booking.
     const out = new Date(f.filled_at.getTime() + Math.round(between(3, 30)) * HOUR);
     const due = kb.ends_at;
-    move({ keg_id: f.keg_id, action: 'checked_out', from_whereabouts: 'cellar', to_whereabouts: 'with_member', member_id: f.ownerId, due_at: due, actor_id: brewer, at: out });
+    move({
+      keg_id: f.keg_id,
+      action: 'checked_out',
+      from_whereabouts: 'cellar',
+      to_whereabouts: 'with_member',
+      member_id: f.ownerId,
+      due_at: due,
+      actor_id: brewer,
+      at: out,
+    });
     if (current) {
-      whereabouts.set(f.keg_id, { keg_id: f.keg_id, whereabouts: 'with_member', tap_id: null, member_id: f.ownerId, checked_out_at: out, due_at: due, since: out, updated_by: brewer });
+      whereabouts.set(f.keg_id, {
+        keg_id: f.keg_id,
+        whereabouts: 'with_member',
+        tap_id: null,
+        member_id: f.ownerId,
+        checked_out_at: out,
+        due_at: due,
+        since: out,
+        updated_by: brewer,
+      });
     } else {
       const late = f.emptied_at!.getTime() > due.getTime();
-      move({ keg_id: f.keg_id, action: 'returned', from_whereabouts: 'with_member', to_whereabouts: 'cellar', member_id: f.ownerId, due_at: due, actor_id: pick(rota), at: f.emptied_at, note: late ? 'Returned after its due date' : '' });
+      move({
+        keg_id: f.keg_id,
+        action: 'returned',
+        from_whereabouts: 'with_member',
+        to_whereabouts: 'cellar',
+        member_id: f.ownerId,
+        due_at: due,
+        actor_id: pick(rota),
+        at: f.emptied_at,
+        note: late ? 'Returned after its due date' : '',
+      });
     }
   }
   // One keg not found at the November stock-take.
@@ -475,8 +612,25 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     .sort((a, b) => b.code.localeCompare(a.code))[0];
   if (missing) {
     const at = cal.at('2026-11-16T17:00:00Z');
-    move({ keg_id: missing.id, action: 'marked_missing', from_whereabouts: 'cellar', to_whereabouts: 'missing', actor_id: userId('brewer'), at, note: 'Not found at the monthly stock-take' });
-    whereabouts.set(missing.id, { keg_id: missing.id, whereabouts: 'missing', tap_id: null, member_id: null, checked_out_at: null, due_at: null, since: at, updated_by: userId('brewer') });
+    move({
+      keg_id: missing.id,
+      action: 'marked_missing',
+      from_whereabouts: 'cellar',
+      to_whereabouts: 'missing',
+      actor_id: userId('brewer'),
+      at,
+      note: 'Not found at the monthly stock-take',
+    });
+    whereabouts.set(missing.id, {
+      keg_id: missing.id,
+      whereabouts: 'missing',
+      tap_id: null,
+      member_id: null,
+      checked_out_at: null,
+      due_at: null,
+      since: at,
+      updated_by: userId('brewer'),
+    });
   }
 
   // ---------------------------------------------------------------------------------------------
@@ -545,8 +699,18 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     for (let i = 0; i < rows.length; i += size) await write(rows.slice(i, i + size));
   };
   await chunk(cycles, 300, (part) => db.insertInto('sanitation_cycle').values(part).execute());
-  await chunk(steps, 500, (part) => db.insertInto('sanitation_step').values(part as never).execute());
-  await chunk(transfers, 200, (part) => db.insertInto('transfer').values(part as never).execute());
+  await chunk(steps, 500, (part) =>
+    db
+      .insertInto('sanitation_step')
+      .values(part as never)
+      .execute(),
+  );
+  await chunk(transfers, 200, (part) =>
+    db
+      .insertInto('transfer')
+      .values(part as never)
+      .execute(),
+  );
   await chunk(
     fills.map((f) => ({
       id: f.id,
@@ -572,9 +736,24 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   for (const b of batchUpdates) {
     await db.updateTable('batch').set({ packaged_liters: b.liters, packaged_at: b.at }).where('id', '=', b.id).execute();
   }
-  await chunk([...whereabouts.values()], 300, (part) => db.insertInto('keg_whereabouts').values(part as never).execute());
-  await chunk(movements, 300, (part) => db.insertInto('keg_movement').values(part as never).execute());
-  await chunk(plans, 300, (part) => db.insertInto('carbonation_plan').values(part as never).execute());
+  await chunk([...whereabouts.values()], 300, (part) =>
+    db
+      .insertInto('keg_whereabouts')
+      .values(part as never)
+      .execute(),
+  );
+  await chunk(movements, 300, (part) =>
+    db
+      .insertInto('keg_movement')
+      .values(part as never)
+      .execute(),
+  );
+  await chunk(plans, 300, (part) =>
+    db
+      .insertInto('carbonation_plan')
+      .values(part as never)
+      .execute(),
+  );
 
   // The states: lapses and fresh cycles added, overdue kegs never came back.
   if (deletedChanges.length) await db.deleteFrom('equipment_state_change').where('id', 'in', deletedChanges).execute();

@@ -91,14 +91,28 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
 
   const random = rng(6006);
   const september = await runPeriodIn(db, { period: cal.period('2026-09'), issue: true }, treasurer, { today: day('2026-10-01') });
-  await settleMonth(db, september.invoices, { issuedOn: day('2026-10-01'), lastDay: cal.lastDayOf('2026-10'), paidShare: 0.85, unpaid: ['member12', 'member20'], partPaid: ['member9'] }, random);
+  await settleMonth(
+    db,
+    september.invoices,
+    { issuedOn: day('2026-10-01'), lastDay: cal.lastDayOf('2026-10'), paidShare: 0.85, unpaid: ['member12', 'member20'], partPaid: ['member9'] },
+    random,
+  );
 
   // One September invoice carried keg check-outs and fills recorded against the wrong member:
   // voided, replaced by its credit note, and the member's own charges re-billed on the next month's invoice.
   const voided = september.invoices.find((i) => i.memberId === userId('member15'));
   if (voided) {
     const fair = Math.round(voided.subtotalCents * 0.6);
-    await voidInvoice(db, voided.id, { reason: `Keg check-outs and fills were recorded against the wrong member; corrected charges follow on ${month('2026-10')}’s invoice`, refundMethod: 'bank_transfer' }, day('2026-10-09'), treasurer);
+    await voidInvoice(
+      db,
+      voided.id,
+      {
+        reason: `Keg check-outs and fills were recorded against the wrong member; corrected charges follow on ${month('2026-10')}’s invoice`,
+        refundMethod: 'bank_transfer',
+      },
+      day('2026-10-09'),
+      treasurer,
+    );
     await db
       .insertInto('manual_charge')
       .values({
@@ -128,20 +142,33 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     .execute();
 
   const october = await runPeriodIn(db, { period: cal.period('2026-10'), issue: true }, treasurer, { today: day('2026-11-01') });
-  await settleMonth(db, october.invoices, { issuedOn: day('2026-11-01'), lastDay: cal.lastDayOf('2026-11'), paidShare: 0.6, unpaid: ['member12', 'member20', 'member3'], partPaid: ['member17'] }, random);
+  await settleMonth(
+    db,
+    october.invoices,
+    { issuedOn: day('2026-11-01'), lastDay: cal.lastDayOf('2026-11'), paidShare: 0.6, unpaid: ['member12', 'member20', 'member3'], partPaid: ['member17'] },
+    random,
+  );
 
   // A refund: a cleaning fee waived after the member had paid, paid back by bank transfer.
   const refunded = october.invoices.find((i) => i.memberId === userId('member4'));
   if (refunded) {
     const inv = await db.selectFrom('invoice').select(['status', 'paid_cents', 'total_cents']).where('id', '=', refunded.id).executeTakeFirstOrThrow();
     if (inv.status === 'paid' && inv.paid_cents >= 378) {
-      await refundInvoice(db, refunded.id, { amountCents: 378, reason: 'Cleaning fee waived: the vessel was cleaned by the member under supervision', refundMethod: 'bank_transfer' }, day('2026-11-18'), treasurer);
+      await refundInvoice(
+        db,
+        refunded.id,
+        { amountCents: 378, reason: 'Cleaning fee waived: the vessel was cleaned by the member under supervision', refundMethod: 'bank_transfer' },
+        day('2026-11-18'),
+        treasurer,
+      );
     }
   }
 
   // The books as they would look: documents dated when they were made, all sent on their issue day.
   await sql`update invoice set created_at = issued_on + time '08:00', sent_at = issued_on + time '09:30' where issued_on is not null`.execute(db);
-  await sql`update invoice_run set created_at = (case period when ${cal.period('2026-09')} then ${day('2026-10-01')}::date else ${day('2026-11-01')}::date end) + time '08:00'`.execute(db);
+  await sql`update invoice_run set created_at = (case period when ${cal.period('2026-09')} then ${day('2026-10-01')}::date else ${day('2026-11-01')}::date end) + time '08:00'`.execute(
+    db,
+  );
   await sql`update payment set created_at = received_on + time '12:00'`.execute(db);
   await sql`update credit_note set created_at = issued_on + time '12:00'`.execute(db);
   await sql`update invoice set paid_at = (select max(p.received_on) + time '12:00' from payment p where p.invoice_id = invoice.id and p.amount_cents > 0)

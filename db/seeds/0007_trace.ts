@@ -27,7 +27,12 @@ function allergensFor(style: string): string[] {
 export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const now = cal.now;
   const batches = await db.selectFrom('batch').select(['id', 'style', 'owner_id']).orderBy('id').execute();
-  for (const b of batches) await db.updateTable('batch').set({ allergens: allergensFor(b.style) }).where('id', '=', b.id).execute();
+  for (const b of batches)
+    await db
+      .updateTable('batch')
+      .set({ allergens: allergensFor(b.style) })
+      .where('id', '=', b.id)
+      .execute();
 
   // The gelatin batch: a transfer whose kegs still hold its beer, the demo member's if there is one.
   const open = await db
@@ -36,7 +41,20 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     .innerJoin('batch as b', 'b.id', 'kf.batch_id')
     .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'kf.keg_id')
     .innerJoin('equipment as e', 'e.id', 'kf.keg_id')
-    .select(['kf.id', 'kf.keg_id', 'kf.filled_at', 'kf.transfer_id', 'b.id as batch_id', 'b.owner_id', 't.finings_kind', 'kw.whereabouts', 'kw.tap_id', 'kw.member_id', 'kw.since', 'e.state'])
+    .select([
+      'kf.id',
+      'kf.keg_id',
+      'kf.filled_at',
+      'kf.transfer_id',
+      'b.id as batch_id',
+      'b.owner_id',
+      't.finings_kind',
+      'kw.whereabouts',
+      'kw.tap_id',
+      'kw.member_id',
+      'kw.since',
+      'e.state',
+    ])
     .where('kf.emptied_at', 'is', null)
     .where('e.state', '=', 'holding')
     .orderBy('kf.transfer_id')
@@ -55,7 +73,11 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
 
   let chosenBatch: string | null;
   if (chosen) {
-    const t = await db.selectFrom('transfer').select(['id', 'packaged_liters', 'finings_kind']).where('id', '=', chosen[0]!.transfer_id!).executeTakeFirstOrThrow();
+    const t = await db
+      .selectFrom('transfer')
+      .select(['id', 'packaged_liters', 'finings_kind'])
+      .where('id', '=', chosen[0]!.transfer_id!)
+      .executeTakeFirstOrThrow();
     chosenBatch = chosen[0]!.batch_id;
     if (t.finings_kind !== 'gelatin') {
       await db
@@ -80,7 +102,16 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
           .execute();
         await db
           .insertInto('keg_movement')
-          .values({ keg_id: f.keg_id, action: 'checked_out', from_whereabouts: f.whereabouts ?? 'cellar', to_whereabouts: 'with_member', member_id: demoMember, due_at: due, note: 'For a tasting at home', at: moveAt })
+          .values({
+            keg_id: f.keg_id,
+            action: 'checked_out',
+            from_whereabouts: f.whereabouts ?? 'cellar',
+            to_whereabouts: 'with_member',
+            member_id: demoMember,
+            due_at: due,
+            note: 'For a tasting at home',
+            at: moveAt,
+          })
           .execute();
         f.member_id = demoMember;
       }
@@ -100,26 +131,46 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         await db
           .insertInto('keg_whereabouts')
           .values({ keg_id: f.keg_id, whereabouts: 'cold_room', tap_id: tap.id, member_id: null, checked_out_at: null, due_at: null, since: moveAt })
-          .onConflict((oc) => oc.column('keg_id').doUpdateSet({ whereabouts: 'cold_room', tap_id: tap.id, member_id: null, checked_out_at: null, due_at: null, since: moveAt }))
+          .onConflict((oc) =>
+            oc.column('keg_id').doUpdateSet({ whereabouts: 'cold_room', tap_id: tap.id, member_id: null, checked_out_at: null, due_at: null, since: moveAt }),
+          )
           .execute();
-        await db.insertInto('keg_movement').values({ keg_id: f.keg_id, action: 'tapped', from_whereabouts: f.whereabouts ?? 'cellar', to_whereabouts: 'cold_room', tap_id: tap.id, at: moveAt }).execute();
+        await db
+          .insertInto('keg_movement')
+          .values({ keg_id: f.keg_id, action: 'tapped', from_whereabouts: f.whereabouts ?? 'cellar', to_whereabouts: 'cold_room', tap_id: tap.id, at: moveAt })
+          .execute();
         if (tap.state !== 'holding') {
           await db.updateTable('equipment').set({ state: 'holding', state_changed_at: moveAt }).where('id', '=', tap.id).execute();
-          await db.insertInto('equipment_state_change').values({ equipment_id: tap.id, from_state: tap.state, to_state: 'holding', reason: 'Keg connected', at: moveAt }).execute();
+          await db
+            .insertInto('equipment_state_change')
+            .values({ equipment_id: tap.id, from_state: tap.state, to_state: 'holding', reason: 'Keg connected', at: moveAt })
+            .execute();
         }
         f.tap_id = tap.id;
       }
     }
     // A short shelf life of its own (a light, delicate beer), so its kegs are near best-before today.
     const filledAgoDays = Math.ceil((now.getTime() - new Date(chosen[0]!.filled_at).getTime()) / DAY);
-    await db.updateTable('batch').set({ shelf_life_days: filledAgoDays + 4 }).where('id', '=', chosenBatch).execute();
+    await db
+      .updateTable('batch')
+      .set({ shelf_life_days: filledAgoDays + 4 })
+      .where('id', '=', chosenBatch)
+      .execute();
   }
 
   // Best-before on every fill, as a fill made today would get it.
-  const rows = await db.selectFrom('keg_fill as kf').innerJoin('batch as b', 'b.id', 'kf.batch_id').select(['kf.id', 'kf.filled_at', 'b.style', 'b.shelf_life_days']).execute();
+  const rows = await db
+    .selectFrom('keg_fill as kf')
+    .innerJoin('batch as b', 'b.id', 'kf.batch_id')
+    .select(['kf.id', 'kf.filled_at', 'b.style', 'b.shelf_life_days'])
+    .execute();
   for (const r of rows) {
     const days = shelfLifeDays({ style: r.style, shelfLifeDays: r.shelf_life_days }, defaultShelfLifeSettings).days;
-    await db.updateTable('keg_fill').set({ best_before: bestBeforeFrom(new Date(r.filled_at), days) }).where('id', '=', r.id).execute();
+    await db
+      .updateTable('keg_fill')
+      .set({ best_before: bestBeforeFrom(new Date(r.filled_at), days) })
+      .where('id', '=', r.id)
+      .execute();
   }
   await sql`analyze batch, keg_fill`.execute(db);
 }

@@ -32,7 +32,16 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const overdueKeg = idle.rows[0]?.id;
   const soonKeg = equipmentId('K-012');
 
-  const rows: { equipment_id: string; kind: InspectionKind; at: Date; passed: boolean; next_due_at: Date; note: string; recorded_by: string; created_at: Date }[] = [];
+  const rows: {
+    equipment_id: string;
+    kind: InspectionKind;
+    at: Date;
+    passed: boolean;
+    next_due_at: Date;
+    note: string;
+    recorded_by: string;
+    created_at: Date;
+  }[] = [];
   const months = (d: Date, n: number) => {
     const out = new Date(d);
     out.setUTCMonth(out.getUTCMonth() + n);
@@ -42,18 +51,63 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const id = equipmentId(k.code);
     if (id === overdueKeg) {
       const at = cal.at('2024-11-28T00:00:00Z');
-      rows.push({ equipment_id: id, kind: 'pressure_test', at, passed: true, next_due_at: overdueAt, note: 'Tested by the seller before we bought it second-hand', recorded_by: admin, created_at: commissioned });
+      rows.push({
+        equipment_id: id,
+        kind: 'pressure_test',
+        at,
+        passed: true,
+        next_due_at: overdueAt,
+        note: 'Tested by the seller before we bought it second-hand',
+        recorded_by: admin,
+        created_at: commissioned,
+      });
     } else {
-      rows.push({ equipment_id: id, kind: 'pressure_test', at: commissioned, passed: true, next_due_at: months(commissioned, 24), note: 'Held at 60 psi for 10 minutes, no drop', recorded_by: admin, created_at: commissioned });
+      rows.push({
+        equipment_id: id,
+        kind: 'pressure_test',
+        at: commissioned,
+        passed: true,
+        next_due_at: months(commissioned, 24),
+        note: 'Held at 60 psi for 10 minutes, no drop',
+        recorded_by: admin,
+        created_at: commissioned,
+      });
     }
-    rows.push({ equipment_id: id, kind: 'relief_valve', at: commissioned, passed: true, next_due_at: months(commissioned, 12), note: 'Pulls and reseats', recorded_by: admin, created_at: commissioned });
+    rows.push({
+      equipment_id: id,
+      kind: 'relief_valve',
+      at: commissioned,
+      passed: true,
+      next_due_at: months(commissioned, 12),
+      note: 'Pulls and reseats',
+      recorded_by: admin,
+      created_at: commissioned,
+    });
     const sealsDue = id === soonKeg ? cal.at('2026-12-10T00:00:00Z') : months(commissioned, 12);
-    rows.push({ equipment_id: id, kind: 'seals', at: id === soonKeg ? cal.at('2025-12-10T00:00:00Z') : commissioned, passed: true, next_due_at: sealsDue, note: 'Lid and post o-rings', recorded_by: admin, created_at: commissioned });
+    rows.push({
+      equipment_id: id,
+      kind: 'seals',
+      at: id === soonKeg ? cal.at('2025-12-10T00:00:00Z') : commissioned,
+      passed: true,
+      next_due_at: sealsDue,
+      note: 'Lid and post o-rings',
+      recorded_by: admin,
+      created_at: commissioned,
+    });
   }
   for (const c of seedEquipment.filter((e) => e.kind === 'co2_cylinder')) {
     const due = cal.date(c.attributes.hydroTestDue as string);
     const dueAt = new Date(`${due}T00:00:00Z`);
-    rows.push({ equipment_id: equipmentId(c.code), kind: 'hydrostatic_test', at: months(dueAt, -60), passed: true, next_due_at: dueAt, note: 'Stamped by the test station', recorded_by: admin, created_at: commissioned });
+    rows.push({
+      equipment_id: equipmentId(c.code),
+      kind: 'hydrostatic_test',
+      at: months(dueAt, -60),
+      passed: true,
+      next_due_at: dueAt,
+      note: 'Stamped by the test station',
+      recorded_by: admin,
+      created_at: commissioned,
+    });
   }
   await db.insertInto('equipment_inspection').values(rows).execute();
   await sql`update equipment set attributes = attributes || jsonb_build_object('ratedPressureKpa', ${KEG_RATED_KPA}::int) where kind = 'keg'`.execute(db);
@@ -71,7 +125,15 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     .insertInto('co2_cylinder_event')
     .values([
       { cylinder_id: equipmentId('C-4'), action: 'disconnected', remaining_kg: 2.1, note: 'Low: swapped for a full one', actor_id: brewer, at: swapAt },
-      { cylinder_id: equipmentId('C-1'), action: 'connected', remaining_kg: 6, replaced_cylinder_id: equipmentId('C-4'), note: 'Leak-checked the fittings after the swap', actor_id: brewer, at: swapAt },
+      {
+        cylinder_id: equipmentId('C-1'),
+        action: 'connected',
+        remaining_kg: 6,
+        replaced_cylinder_id: equipmentId('C-4'),
+        note: 'Leak-checked the fittings after the swap',
+        actor_id: brewer,
+        at: swapAt,
+      },
     ])
     .execute();
 

@@ -14,9 +14,7 @@ export const Brand = ({ className }: { className?: string }) => (
   <span className={cn('flex min-w-0 items-center gap-2.5', className)}>
     <BrandMark />
     <span className="flex min-w-0 flex-col leading-tight sm:flex-row sm:items-baseline sm:gap-2">
-      <span className="text-base font-semibold tracking-tight text-ink">
-        {productName}
-      </span>
+      <span className="text-base font-semibold tracking-tight text-ink">{productName}</span>
       <span className="truncate text-xs text-ink-muted">{coopName}</span>
     </span>
   </span>

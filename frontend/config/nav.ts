@@ -58,9 +58,7 @@ export const mainNav: NavEntry[] = [
     ready: true,
     end: true,
     allowed: (a) => canOnEvery(a, 'update', 'User'),
-    children: [
-      { key: 'outbox', label: 'Outbox', to: paths.outbox, ready: true, allowed: (a) => a.can('read', 'Mailbox') },
-    ],
+    children: [{ key: 'outbox', label: 'Outbox', to: paths.outbox, ready: true, allowed: (a) => a.can('read', 'Mailbox') }],
   },
   {
     key: 'settings',
@@ -72,16 +70,10 @@ export const mainNav: NavEntry[] = [
   },
 ];
 
-export const accountNav: NavEntry[] = [
-  { key: 'profile', label: 'Profile', to: paths.profile, ready: true, allowed: () => true },
-];
+export const accountNav: NavEntry[] = [{ key: 'profile', label: 'Profile', to: paths.profile, ready: true, allowed: () => true }];
 
 /** The entries a person sees: ready, allowed, and (for the outbox) available on this server. */
-export function visibleNav(
-  entries: NavEntry[],
-  ability: AppAbility,
-  hidden: ReadonlySet<string> = new Set(),
-): NavEntry[] {
+export function visibleNav(entries: NavEntry[], ability: AppAbility, hidden: ReadonlySet<string> = new Set()): NavEntry[] {
   return entries
     .filter((entry) => entry.ready && !hidden.has(entry.key) && entry.allowed(ability))
     .map((entry) => {

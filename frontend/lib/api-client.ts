@@ -29,14 +29,7 @@ export class ApiProblem extends Error {
   /** From the Retry-After header (seconds), when the server sent one. */
   readonly retryAfterSeconds: number | undefined;
 
-  constructor(init: {
-    status: number;
-    title: string;
-    type?: string;
-    detail?: string;
-    errors?: ProblemFieldError[];
-    retryAfterSeconds?: number;
-  }) {
+  constructor(init: { status: number; title: string; type?: string; detail?: string; errors?: ProblemFieldError[]; retryAfterSeconds?: number }) {
     super(init.detail ? `${init.title}: ${init.detail}` : init.title);
     this.name = 'ApiProblem';
     this.type = init.type ?? 'about:blank';
@@ -118,7 +111,7 @@ function normalizeFieldErrors(raw: unknown): ProblemFieldError[] {
   for (const item of raw) {
     if (!item || typeof item !== 'object') continue;
     const entry = item as Record<string, unknown>;
-    const path = Array.isArray(entry.path) ? entry.path.join('.') : (typeof entry.path === 'string' || typeof entry.path === 'number' ? String(entry.path) : '');
+    const path = Array.isArray(entry.path) ? entry.path.join('.') : typeof entry.path === 'string' || typeof entry.path === 'number' ? String(entry.path) : '';
     const message = typeof entry.message === 'string' ? entry.message : 'Check this value';
     const error: ProblemFieldError = { path, message };
     if (typeof entry.row === 'number') error.row = entry.row;

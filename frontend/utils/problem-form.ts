@@ -3,7 +3,10 @@ import { isApiProblem, problemMessage } from '@/lib/api-client';
 
 /** `/email`, `body.email`, `email` and `["email"]` all name the field `email`. */
 export function fieldOfPath(path: string): string {
-  const clean = path.replace(/^#?\//, '').replace(/\//g, '.').replace(/^body\./, '');
+  const clean = path
+    .replace(/^#?\//, '')
+    .replace(/\//g, '.')
+    .replace(/^body\./, '');
   return clean.split('.')[0] ?? '';
 }
 
@@ -11,11 +14,7 @@ export function fieldOfPath(path: string): string {
  * Put a problem's `errors[]` next to the form's own fields; return what could not be placed
  * (other paths, or the problem's title/detail when it named no field) for a message at the top.
  */
-export function applyProblemToForm<T extends FieldValues>(
-  error: unknown,
-  setError: UseFormSetError<T>,
-  fields: readonly Path<T>[],
-): string[] {
+export function applyProblemToForm<T extends FieldValues>(error: unknown, setError: UseFormSetError<T>, fields: readonly Path<T>[]): string[] {
   if (!isApiProblem(error)) return [problemMessage(error)];
   const leftovers: string[] = [];
   let placed = 0;

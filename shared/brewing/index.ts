@@ -66,14 +66,7 @@ function requireFinite(name: string, value: number): void {
   }
 }
 
-function requireRange(
-  name: string,
-  value: number,
-  min: number,
-  max: number,
-  unit: string,
-  digits?: number,
-): void {
+function requireRange(name: string, value: number, min: number, max: number, unit: string, digits?: number): void {
   if (typeof value !== 'number' || !Number.isFinite(value) || value < min || value > max) {
     const lo = digits === undefined ? String(min) : min.toFixed(digits);
     const hi = digits === undefined ? String(max) : max.toFixed(digits);
@@ -345,11 +338,7 @@ const WCF_MAX = 1.2;
  * mid-fermentation. Brix 0–40, finalBrix ≤ originalBrix, WCF 0.9–1.2 (1.04 is the usual
  * default, from memory).
  */
-export function refractometerFinalGravity(
-  originalBrix: number,
-  finalBrix: number,
-  wortCorrectionFactor = 1.04,
-): number {
+export function refractometerFinalGravity(originalBrix: number, finalBrix: number, wortCorrectionFactor = 1.04): number {
   requireExtract('originalBrix', originalBrix, '°Bx');
   requireExtract('finalBrix', finalBrix, '°Bx');
   requireRange('wortCorrectionFactor', wortCorrectionFactor, WCF_MIN, WCF_MAX, '');
@@ -358,15 +347,7 @@ export function refractometerFinalGravity(
   }
   const ri = originalBrix / wortCorrectionFactor;
   const rf = finalBrix / wortCorrectionFactor;
-  return (
-    1 -
-    0.0044993 * ri +
-    0.011774 * rf +
-    0.00027581 * ri ** 2 -
-    0.0012717 * rf ** 2 -
-    0.00000728 * ri ** 3 +
-    0.000063293 * rf ** 3
-  );
+  return 1 - 0.0044993 * ri + 0.011774 * rf + 0.00027581 * ri ** 2 - 0.0012717 * rf ** 2 - 0.00000728 * ri ** 3 + 0.000063293 * rf ** 3;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -434,7 +415,7 @@ export function abv(og: number, fg: number): number {
 export function realAttenuation(og: number, fg: number): number {
   const { oe, ae } = requireGravityPair(og, fg);
   const re = balling(oe, ae);
-  return ((100 * (oe - re)) / oe) / (1 - 0.005161 * re);
+  return (100 * (oe - re)) / oe / (1 - 0.005161 * re);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -443,14 +424,7 @@ export function realAttenuation(og: number, fg: number): number {
 
 /** F5.1 sea-level gauge pressure in psi, T in °F. */
 function carbonationPsig(volumes: number, tempF: number): number {
-  return (
-    -16.6999 -
-    0.0101059 * tempF +
-    0.00116512 * tempF * tempF +
-    0.173354 * tempF * volumes +
-    4.24267 * volumes -
-    0.0684226 * volumes * volumes
-  );
+  return -16.6999 - 0.0101059 * tempF + 0.00116512 * tempF * tempF + 0.173354 * tempF * volumes + 4.24267 * volumes - 0.0684226 * volumes * volumes;
 }
 
 /** F5.5: the drop of atmospheric pressure at `altitudeFt`, in psi (ISA troposphere). */
@@ -565,16 +539,88 @@ export const lineTubingTable: readonly LineTubingFigures[] = Object.freeze([
     defaultPsiPerFt: 1.375,
     defaultBasis: 'common practice: about 8 ft at 12 psi with a 1 psi allowance',
   },
-  { tubing: 'vinyl-1/4', material: 'vinyl', diameterIn: '1/4', diameterMm: 6.35, published: [{ psiPerFt: 0.85, source: 'S34' }], defaultPsiPerFt: 0.85, defaultBasis: 'S34' },
-  { tubing: 'vinyl-5/16', material: 'vinyl', diameterIn: '5/16', diameterMm: 7.94, published: [{ psiPerFt: 0.4, source: 'S33' }], defaultPsiPerFt: 0.4, defaultBasis: 'S33' },
-  { tubing: 'vinyl-3/8', material: 'vinyl', diameterIn: '3/8', diameterMm: 9.53, published: [{ psiPerFt: 0.2, source: 'S33' }], defaultPsiPerFt: 0.2, defaultBasis: 'S33' },
-  { tubing: 'vinyl-1/2', material: 'vinyl', diameterIn: '1/2', diameterMm: 12.7, published: [{ psiPerFt: 0.025, source: 'S32' }], defaultPsiPerFt: 0.025, defaultBasis: 'S32' },
-  { tubing: 'polyethylene-3/16', material: 'polyethylene', diameterIn: '3/16', diameterMm: 4.76, published: [{ psiPerFt: 2.2, source: 'S30, S33' }], defaultPsiPerFt: 2.2, defaultBasis: 'S30, S33' },
-  { tubing: 'polyethylene-1/4', material: 'polyethylene', diameterIn: '1/4', diameterMm: 6.35, published: [{ psiPerFt: 0.5, source: 'S33' }], defaultPsiPerFt: 0.5, defaultBasis: 'S33' },
-  { tubing: 'barrier-3/16', material: 'barrier', diameterIn: '3/16', diameterMm: 4.76, published: [{ psiPerFt: 2.2, source: 'S30, S33' }], defaultPsiPerFt: 2.2, defaultBasis: 'S30, S33' },
-  { tubing: 'barrier-5/16', material: 'barrier', diameterIn: '5/16', diameterMm: 7.94, published: [{ psiPerFt: 0.1, source: 'S34' }], defaultPsiPerFt: 0.1, defaultBasis: 'S34' },
+  {
+    tubing: 'vinyl-1/4',
+    material: 'vinyl',
+    diameterIn: '1/4',
+    diameterMm: 6.35,
+    published: [{ psiPerFt: 0.85, source: 'S34' }],
+    defaultPsiPerFt: 0.85,
+    defaultBasis: 'S34',
+  },
+  {
+    tubing: 'vinyl-5/16',
+    material: 'vinyl',
+    diameterIn: '5/16',
+    diameterMm: 7.94,
+    published: [{ psiPerFt: 0.4, source: 'S33' }],
+    defaultPsiPerFt: 0.4,
+    defaultBasis: 'S33',
+  },
+  {
+    tubing: 'vinyl-3/8',
+    material: 'vinyl',
+    diameterIn: '3/8',
+    diameterMm: 9.53,
+    published: [{ psiPerFt: 0.2, source: 'S33' }],
+    defaultPsiPerFt: 0.2,
+    defaultBasis: 'S33',
+  },
+  {
+    tubing: 'vinyl-1/2',
+    material: 'vinyl',
+    diameterIn: '1/2',
+    diameterMm: 12.7,
+    published: [{ psiPerFt: 0.025, source: 'S32' }],
+    defaultPsiPerFt: 0.025,
+    defaultBasis: 'S32',
+  },
+  {
+    tubing: 'polyethylene-3/16',
+    material: 'polyethylene',
+    diameterIn: '3/16',
+    diameterMm: 4.76,
+    published: [{ psiPerFt: 2.2, source: 'S30, S33' }],
+    defaultPsiPerFt: 2.2,
+    defaultBasis: 'S30, S33',
+  },
+  {
+    tubing: 'polyethylene-1/4',
+    material: 'polyethylene',
+    diameterIn: '1/4',
+    diameterMm: 6.35,
+    published: [{ psiPerFt: 0.5, source: 'S33' }],
+    defaultPsiPerFt: 0.5,
+    defaultBasis: 'S33',
+  },
+  {
+    tubing: 'barrier-3/16',
+    material: 'barrier',
+    diameterIn: '3/16',
+    diameterMm: 4.76,
+    published: [{ psiPerFt: 2.2, source: 'S30, S33' }],
+    defaultPsiPerFt: 2.2,
+    defaultBasis: 'S30, S33',
+  },
+  {
+    tubing: 'barrier-5/16',
+    material: 'barrier',
+    diameterIn: '5/16',
+    diameterMm: 7.94,
+    published: [{ psiPerFt: 0.1, source: 'S34' }],
+    defaultPsiPerFt: 0.1,
+    defaultBasis: 'S34',
+  },
   // Stainless: one source (S31); another lists 5/16" ID 0.3 and 3/8" 0.12 (S33), so low confidence.
-  { tubing: 'stainless-1/4-od', material: 'stainless', diameterIn: '1/4', diameterMm: 6.35, published: [{ psiPerFt: 2.0, source: 'S31' }], defaultPsiPerFt: 2.0, defaultBasis: 'S31 (low confidence)' },
+  {
+    tubing: 'stainless-1/4-od',
+    material: 'stainless',
+    diameterIn: '1/4',
+    diameterMm: 6.35,
+    published: [{ psiPerFt: 2.0, source: 'S31' }],
+    defaultPsiPerFt: 2.0,
+    defaultBasis: 'S31 (low confidence)',
+  },
   {
     tubing: 'stainless-5/16-od',
     material: 'stainless',
@@ -843,10 +889,7 @@ function fitAtK(days: readonly number[], sg: readonly number[], k: number): Deca
  * readings show no downward trend, or when they are still on a straight line so that no
  * asymptote can be fitted (best k at the slow end of the search, or FG∞ below 0.980).
  */
-export function forecastFinalGravity(
-  readings: readonly GravityReading[],
-  { targetFg, curvePoints = 50 }: ForecastOptions = {},
-): GravityForecast | null {
+export function forecastFinalGravity(readings: readonly GravityReading[], { targetFg, curvePoints = 50 }: ForecastOptions = {}): GravityForecast | null {
   if (targetFg !== undefined) requireGravity('targetFg', targetFg);
   if (!Number.isInteger(curvePoints) || curvePoints < 2 || curvePoints > 1000) {
     throw new RangeError(`curvePoints must be a whole number from 2 to 1000; got ${formatNumber(curvePoints)}`);
@@ -975,7 +1018,10 @@ export function fermentationForecast(
   const sorted = normaliseReadings(readings);
   if (new Set(sorted.map((r) => r.time)).size < FORECAST_MIN_READINGS) return null;
   const notPast = (iso: string | null | undefined) => (iso && Date.parse(iso) > nowMs ? iso : null);
-  const decay = forecastFinalGravity(sorted.map((r) => ({ takenAt: new Date(r.time), sg: r.sg })), { ...(targetFg !== undefined ? { targetFg } : {}), curvePoints });
+  const decay = forecastFinalGravity(
+    sorted.map((r) => ({ takenAt: new Date(r.time), sg: r.sg })),
+    { ...(targetFg !== undefined ? { targetFg } : {}), curvePoints },
+  );
   if (decay) {
     if (!notPast(decay.readyAt)) return null;
     return { ...decay, targetReachedAt: notPast(decay.targetReachedAt) };

@@ -3,13 +3,7 @@
  * specific gravity every figure uses. Used by the server when it stores a reading and by the
  * reading form to show the correction before it is saved.
  */
-import {
-  apparentPlatoToSg,
-  brixToSg,
-  convertGravity,
-  correctHydrometer,
-  refractometerFinalGravity,
-} from './index.ts';
+import { apparentPlatoToSg, brixToSg, convertGravity, correctHydrometer, refractometerFinalGravity } from './index.ts';
 
 export type GravityUnit = 'sg' | 'plato' | 'brix';
 
@@ -100,9 +94,7 @@ export function normaliseGravity(
       );
     }
     if (value > originalBrix + 1e-9) {
-      throw new RangeError(
-        `A refractometer reading after fermentation began cannot be above the original ${originalBrix.toFixed(1)} °Bx; got ${value}`,
-      );
+      throw new RangeError(`A refractometer reading after fermentation began cannot be above the original ${originalBrix.toFixed(1)} °Bx; got ${value}`);
     }
     if (value > originalBrix - 1e-9) {
       throw new RangeError(

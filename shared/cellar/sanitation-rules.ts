@@ -1,10 +1,4 @@
-import {
-  findChemical,
-  type Chemical,
-  type ConcentrationUnit,
-  type SanitationSettings,
-  type SanitationStep,
-} from '../schemas/cellar-settings.ts';
+import { findChemical, type Chemical, type ConcentrationUnit, type SanitationSettings, type SanitationStep } from '../schemas/cellar-settings.ts';
 
 /**
  * The co-op's sanitation rules as pure code, shared by the server (which records the outcome)
@@ -76,17 +70,14 @@ function formatMinutes(m: number): string {
 
 export function evaluateCycle(input: readonly StepForRules[], settings: SanitationSettings): CycleEvaluation {
   if (input.length === 0) throw new RangeError('a cycle needs at least one step');
-  const ordered = input
-    .map((s, index) => ({ s, index, time: new Date(s.at).getTime() }))
-    .sort((a, b) => a.time - b.time || a.index - b.index);
+  const ordered = input.map((s, index) => ({ s, index, time: new Date(s.at).getTime() })).sort((a, b) => a.time - b.time || a.index - b.index);
   const issues: CycleIssue[] = [];
   const excepted = exceptionsOf(input, settings);
 
   const steps: EvaluatedStep[] = ordered.map(({ s, index }) => {
     const known = s.step === 'clean' || s.step === 'sanitize' ? findChemical(settings, s.chemical) : undefined;
     const stepMinimum = s.step === 'clean' || s.step === 'sanitize' ? settings.minimumContactMinutes[s.step] : null;
-    const minimum =
-      stepMinimum === null ? null : Math.max(stepMinimum, known?.minimumContactMinutes ?? 0);
+    const minimum = stepMinimum === null ? null : Math.max(stepMinimum, known?.minimumContactMinutes ?? 0);
     return {
       index,
       step: s.step,
@@ -137,9 +128,7 @@ export function evaluateCycle(input: readonly StepForRules[], settings: Sanitati
   const violations = excepted.size ? checkSteps(input, settings) : [];
   steps.forEach((st) => {
     if (!st.exception) return;
-    const broken = violations
-      .filter((v) => v.index === st.index && v.exceptable)
-      .map((v) => v.message);
+    const broken = violations.filter((v) => v.index === st.index && v.exceptable).map((v) => v.message);
     issues.push({
       code: 'exception',
       step: st.step,
@@ -186,7 +175,10 @@ export function outcomeReason(ev: Pick<CycleEvaluation, 'outcome' | 'issues'>, f
     return `Sanitation cycle complete${freshnessDays ? `; ready for ${freshnessDays} day${freshnessDays === 1 ? '' : 's'}` : ''}`;
   }
   const what = ev.outcome === 'cleaned' ? 'cleaned, not sanitized' : 'still needs cleaning';
-  const why = ev.issues.filter((i) => i.code !== 'exception').map((i) => i.message).join(' ');
+  const why = ev.issues
+    .filter((i) => i.code !== 'exception')
+    .map((i) => i.message)
+    .join(' ');
   return `Sanitation cycle incomplete, ${what}: ${why || 'steps missing.'}`;
 }
 
@@ -264,7 +256,12 @@ export function checkSteps(input: readonly StepForRules[], settings: SanitationS
     const known = findChemical(settings, s.chemical);
     return known ? known.id : s.chemical?.trim().toLowerCase() || null;
   };
-  const cleanKeys = new Set(input.filter((s) => s.step === 'clean').map(keyOf).filter(Boolean));
+  const cleanKeys = new Set(
+    input
+      .filter((s) => s.step === 'clean')
+      .map(keyOf)
+      .filter(Boolean),
+  );
 
   input.forEach((s, i) => {
     if (s.step === 'clean' || s.step === 'sanitize') {
@@ -293,7 +290,12 @@ export function checkSteps(input: readonly StepForRules[], settings: SanitationS
         add(i, 'short_contact', 'contactMinutes', `contact time ${formatMinutes(s.contactMinutes)} is below the minimum of ${formatMinutes(minimum)}.`);
       }
       if (s.step === 'clean' && chem?.caustic && s.vented !== true) {
-        add(i, 'not_vented', 'vented', `${chem.name} is caustic: vent the vessel to atmospheric pressure first and confirm it (caustic absorbs CO2 and can collapse a closed vessel).`);
+        add(
+          i,
+          'not_vented',
+          'vented',
+          `${chem.name} is caustic: vent the vessel to atmospheric pressure first and confirm it (caustic absorbs CO2 and can collapse a closed vessel).`,
+        );
       }
     }
     if (s.step === 'purge') {
@@ -309,9 +311,7 @@ export function checkSteps(input: readonly StepForRules[], settings: SanitationS
   });
 
   // Times against stated contact times: each step's contact must end before the next step begins.
-  const ordered = input
-    .map((s, index) => ({ s, index, time: new Date(s.at).getTime() }))
-    .sort((a, b) => a.time - b.time || a.index - b.index);
+  const ordered = input.map((s, index) => ({ s, index, time: new Date(s.at).getTime() })).sort((a, b) => a.time - b.time || a.index - b.index);
   ordered.forEach((cur, k) => {
     const next = ordered[k + 1];
     const contact = cur.s.step === 'rinse' ? null : cur.s.contactMinutes;

@@ -131,7 +131,10 @@ export const defaultShelfLifeSettings: ShelfLifeSettings = {
 };
 
 /** The shelf life that applies to a batch: its own, else its style's, else the co-op's default. */
-export function shelfLifeDays(batch: { style: string; shelfLifeDays: number | null }, settings: ShelfLifeSettings): { days: number; from: 'batch' | 'style' | 'default' } {
+export function shelfLifeDays(
+  batch: { style: string; shelfLifeDays: number | null },
+  settings: ShelfLifeSettings,
+): { days: number; from: 'batch' | 'style' | 'default' } {
   if (batch.shelfLifeDays) return { days: batch.shelfLifeDays, from: 'batch' };
   const style = batch.style.toLowerCase();
   const hit = settings.byStyle.find((s) => style.includes(s.style.toLowerCase()));

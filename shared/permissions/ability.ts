@@ -74,16 +74,7 @@ export type AppAbility = MongoAbility<[Action, Subjects]>;
 type Builder = AbilityBuilder<AppAbility>;
 
 /** Cellar records anyone who keeps the books may read but never change. */
-const cellarRecords: SubjectName[] = [
-  'Equipment',
-  'Booking',
-  'Batch',
-  'Reading',
-  'SanitationCycle',
-  'Transfer',
-  'Keg',
-  'CarbonationPlan',
-];
+const cellarRecords: SubjectName[] = ['Equipment', 'Booking', 'Batch', 'Reading', 'SanitationCycle', 'Transfer', 'Keg', 'CarbonationPlan'];
 
 const rolePermissions: Record<Role, (actor: Actor, b: Builder) => void> = {
   member: (actor, { can }) => {

@@ -50,8 +50,7 @@ const idSchema = z.uuid('Not a valid id');
 /** Days a fill of this batch keeps; null: the co-op's shelf life for its style. */
 const shelfLifeSchema = z.number({ error: 'Enter the shelf life in days' }).int('Whole days').min(1, 'At least 1 day').max(3650, 'At most 10 years');
 
-const targetsRefine = (b: { targetOg?: number | null; targetFg?: number | null }) =>
-  b.targetOg == null || b.targetFg == null || b.targetFg < b.targetOg;
+const targetsRefine = (b: { targetOg?: number | null; targetFg?: number | null }) => b.targetOg == null || b.targetFg == null || b.targetFg < b.targetOg;
 
 /** Body of `POST /api/batches`. */
 export const createBatchSchema = z

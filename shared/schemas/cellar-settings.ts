@@ -26,31 +26,35 @@ export const concentrationUnits = ['%', 'g/L', 'mL/L', 'ppm'] as const;
 export const concentrationUnitSchema = z.enum(concentrationUnits);
 export type ConcentrationUnit = z.infer<typeof concentrationUnitSchema>;
 
-const minutes = z.number().min(0, 'At least 0 minutes').max(24 * 60, 'At most a day');
+const minutes = z
+  .number()
+  .min(0, 'At least 0 minutes')
+  .max(24 * 60, 'At most a day');
 
-export const chemicalSchema = z.object({
-  /** Short stable id, e.g. `alkaline-cleaner`; steps record it with the name. */
-  id: z
-    .string()
-    .trim()
-    .min(2)
-    .max(40)
-    .regex(/^[a-z0-9-]+$/, 'Use lower-case letters, digits and dashes'),
-  name: z.string().trim().min(2, 'Enter a name').max(80, 'Keep the name under 80 characters'),
-  step: z.enum(chemicalSteps),
-  defaultConcentration: z.number().positive('More than 0').max(100_000),
-  unit: concentrationUnitSchema,
-  /** The soak or contact time the form proposes. */
-  recommendedContactMinutes: minutes,
-  /** A stricter minimum for this chemical than the step's, if its label asks for one. */
-  minimumContactMinutes: minutes.optional(),
-  /** The working strength range, in `unit`: a step outside it is refused unless recorded as an exception. */
-  minConcentration: z.number().positive('More than 0').max(100_000),
-  maxConcentration: z.number().positive('More than 0').max(100_000),
-  /** A caustic cleaner absorbs CO2: a clean with it needs the vessel vented first (see shared/cellar/sanitation-rules.ts). */
-  caustic: z.boolean().default(false),
-  active: z.boolean().default(true),
-})
+export const chemicalSchema = z
+  .object({
+    /** Short stable id, e.g. `alkaline-cleaner`; steps record it with the name. */
+    id: z
+      .string()
+      .trim()
+      .min(2)
+      .max(40)
+      .regex(/^[a-z0-9-]+$/, 'Use lower-case letters, digits and dashes'),
+    name: z.string().trim().min(2, 'Enter a name').max(80, 'Keep the name under 80 characters'),
+    step: z.enum(chemicalSteps),
+    defaultConcentration: z.number().positive('More than 0').max(100_000),
+    unit: concentrationUnitSchema,
+    /** The soak or contact time the form proposes. */
+    recommendedContactMinutes: minutes,
+    /** A stricter minimum for this chemical than the step's, if its label asks for one. */
+    minimumContactMinutes: minutes.optional(),
+    /** The working strength range, in `unit`: a step outside it is refused unless recorded as an exception. */
+    minConcentration: z.number().positive('More than 0').max(100_000),
+    maxConcentration: z.number().positive('More than 0').max(100_000),
+    /** A caustic cleaner absorbs CO2: a clean with it needs the vessel vented first (see shared/cellar/sanitation-rules.ts). */
+    caustic: z.boolean().default(false),
+    active: z.boolean().default(true),
+  })
   .refine((c) => c.minConcentration <= c.maxConcentration, { message: 'The lowest strength must not be above the highest', path: ['maxConcentration'] })
   .refine((c) => c.defaultConcentration >= c.minConcentration && c.defaultConcentration <= c.maxConcentration, {
     message: 'The usual strength must lie within the working range',

@@ -117,10 +117,7 @@ export const updateEquipmentFieldsSchema = z.object({
   notes: notesSchema.optional(),
   attributes: z.record(z.string(), z.unknown()).optional(),
 });
-export const updateEquipmentSchema = updateEquipmentFieldsSchema.refine(
-  (body) => Object.values(body).some((v) => v !== undefined),
-  'Nothing to change',
-);
+export const updateEquipmentSchema = updateEquipmentFieldsSchema.refine((body) => Object.values(body).some((v) => v !== undefined), 'Nothing to change');
 export type UpdateEquipmentInput = z.infer<typeof updateEquipmentSchema>;
 
 /** Body of `POST /api/equipment/:id/state` (brewer on duty, admin). */
@@ -146,7 +143,12 @@ export const maxLabels = 240;
 export const labelSheetQuerySchema = z.object({
   ids: z
     .union([z.string(), z.array(z.string())])
-    .transform((v) => (Array.isArray(v) ? v : [v]).flatMap((s) => s.split(',')).map((s) => s.trim()).filter(Boolean))
+    .transform((v) =>
+      (Array.isArray(v) ? v : [v])
+        .flatMap((s) => s.split(','))
+        .map((s) => s.trim())
+        .filter(Boolean),
+    )
     .pipe(z.array(z.uuid('Each id must be an equipment id')).min(1, 'Pick at least one item').max(maxLabels, `At most ${maxLabels} labels at once`)),
 });
 

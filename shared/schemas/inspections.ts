@@ -94,7 +94,15 @@ export interface CylinderView {
   remainingKg: number;
   connected: boolean;
   connectedAt: string | null;
-  log: { id: string; action: 'connected' | 'disconnected' | 'refilled' | 'drawn'; kg: number; remainingKg: number; replacedCylinder: { id: string; code: string } | null; note: string; at: string }[];
+  log: {
+    id: string;
+    action: 'connected' | 'disconnected' | 'refilled' | 'drawn';
+    kg: number;
+    remainingKg: number;
+    replacedCylinder: { id: string; code: string } | null;
+    note: string;
+    at: string;
+  }[];
 }
 
 export const maintenanceStatuses = ['failed', 'overdue', 'due_soon'] as const;

@@ -24,10 +24,7 @@ export type ListQueryInput = z.input<typeof listQuerySchema>;
  * A list query whose `sort` must be one of `fields` (an allowlist the repository maps to columns,
  * so no user string ever reaches ORDER BY).
  */
-export function sortableListQuerySchema<const Fields extends readonly [string, ...string[]]>(
-  fields: Fields,
-  defaultSort: Fields[number],
-) {
+export function sortableListQuerySchema<const Fields extends readonly [string, ...string[]]>(fields: Fields, defaultSort: Fields[number]) {
   return listQuerySchema.extend({
     sort: z.enum(fields).default(defaultSort as never),
   });

@@ -12,7 +12,11 @@ export const sanitationStepInputSchema = z.object({
   /** Strength in the chemical's unit (%, g/L, mL/L or ppm as the co-op's list says). */
   concentration: z.number().min(0.001, 'More than 0').max(100_000).optional(), // kept to three decimals
   /** Soak or contact time; a purge may give seconds as a fraction of a minute. */
-  contactMinutes: z.number().min(0, 'At least 0').max(24 * 60, 'At most a day').optional(),
+  contactMinutes: z
+    .number()
+    .min(0, 'At least 0')
+    .max(24 * 60, 'At most a day')
+    .optional(),
   at: isoDateTimeSchema,
   /** Purge only: a timed flush of the headspace, or a full push-out of sanitizer with CO2. */
   purgeMethod: z.enum(['flush', 'push_out']).optional(),
@@ -77,7 +81,12 @@ export const sanitationStatusQuerySchema = sortableListQuerySchema(['code', 'sta
 
 const idList = z
   .union([z.string(), z.array(z.string())])
-  .transform((v) => (Array.isArray(v) ? v : [v]).flatMap((s) => s.split(',')).map((s) => s.trim()).filter(Boolean))
+  .transform((v) =>
+    (Array.isArray(v) ? v : [v])
+      .flatMap((s) => s.split(','))
+      .map((s) => s.trim())
+      .filter(Boolean),
+  )
   .pipe(z.array(z.uuid('Each vessel must be an equipment id')).max(500));
 
 /** `GET /api/reports/sanitation-audit.pdf?from&to&equipmentId` (equipmentId may repeat or be a comma list; none means every vessel). */

@@ -1,11 +1,6 @@
 import { z } from 'zod';
 import { equipmentKinds, type EquipmentKind } from './equipment.ts';
-import {
-  carbonationSettingsSchema,
-  defaultCarbonationSettings,
-  defaultSanitationSettings,
-  sanitationSettingsSchema,
-} from './cellar-settings.ts';
+import { carbonationSettingsSchema, defaultCarbonationSettings, defaultSanitationSettings, sanitationSettingsSchema } from './cellar-settings.ts';
 import { defaultFermentationSettings, fermentationSettingsSchema } from './batches.ts';
 import { defaultShelfLifeSettings, shelfLifeSettingsSchema } from '../cellar/trace.ts';
 import { defaultPressureSafetySettings, pressureSafetySettingsSchema } from './inspections.ts';
@@ -16,7 +11,11 @@ import { defaultPressureSafetySettings, pressureSafetySettingsSchema } from './i
  * admin saves it. Another capability adds its section to `settingSections` below.
  */
 
-const hours = z.number().int('Whole hours').min(0, 'At least 0 hours').max(24 * 14, 'At most 14 days');
+const hours = z
+  .number()
+  .int('Whole hours')
+  .min(0, 'At least 0 hours')
+  .max(24 * 14, 'At most 14 days');
 const days = z.number().int('Whole days').min(1, 'At least 1 day').max(366, 'At most a year');
 
 export const bookingRulesSchema = z.object({

@@ -5,7 +5,17 @@ import type { MaintenanceItem } from './inspections.ts';
 export interface TodayBestBefore {
   total: number;
   nearDays: number;
-  items: { kegId: string; code: string; batchId: string; batchName: string; bestBefore: string; state: 'near' | 'past'; whereabouts: string; tapCode: string | null; memberName: string | null }[];
+  items: {
+    kegId: string;
+    code: string;
+    batchId: string;
+    batchName: string;
+    bestBefore: string;
+    state: 'near' | 'past';
+    whereabouts: string;
+    tapCode: string | null;
+    memberName: string | null;
+  }[];
 }
 
 /** `GET /api/today`: what needs doing today, one section per thing the person may see. */

@@ -20,8 +20,18 @@ export interface ChecklistItem {
 
 export const transferChecklistItems: readonly ChecklistItem[] = [
   { key: 'kegsSanitizedAndPurged', label: 'Every keg sanitized and purged with CO2', help: 'The app checks each keg is ready and its sanitation current.' },
-  { key: 'airlockRemoved', label: 'Airlock removed before opening the bottom valve', help: 'So the fermenter does not suck air or sanitizer back in.', method: 'bottom_valve' },
-  { key: 'siphonStartedMidDepth', label: 'Siphon started mid-depth, lowered as the level falls', help: 'Keeps the cane clear of the yeast cake.', method: 'siphon' },
+  {
+    key: 'airlockRemoved',
+    label: 'Airlock removed before opening the bottom valve',
+    help: 'So the fermenter does not suck air or sanitizer back in.',
+    method: 'bottom_valve',
+  },
+  {
+    key: 'siphonStartedMidDepth',
+    label: 'Siphon started mid-depth, lowered as the level falls',
+    help: 'Keeps the cane clear of the yeast cake.',
+    method: 'siphon',
+  },
   { key: 'tubeToKegBottom', label: 'Tube reaches the bottom of the keg: no splashing' },
   { key: 'fittingsTight', label: 'Fittings tight: no air drawn in at a loose barb', help: 'Note any oxygen pick-up seen (bubbles in the line).' },
   { key: 'finingsAdded', label: 'Finings added (or none planned)', help: 'Kind and dose below.' },
@@ -133,8 +143,14 @@ export const transferListQuerySchema = sortableListQuerySchema(['transferredAt',
   batchId: z.uuid().optional(),
   fromEquipmentId: z.uuid().optional(),
   kegId: z.uuid().optional(),
-  from: z.iso.date().or(z.iso.datetime({ offset: true })).optional(),
-  to: z.iso.date().or(z.iso.datetime({ offset: true })).optional(),
+  from: z.iso
+    .date()
+    .or(z.iso.datetime({ offset: true }))
+    .optional(),
+  to: z.iso
+    .date()
+    .or(z.iso.datetime({ offset: true }))
+    .optional(),
   q: searchTextSchema,
 });
 export type TransferListQuery = z.infer<typeof transferListQuerySchema>;

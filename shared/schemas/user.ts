@@ -16,11 +16,7 @@ export const emailSchema = z
   .max(254, 'That e-mail address is too long')
   .pipe(z.email('Enter an e-mail address like name@example.org'));
 
-export const personNameSchema = z
-  .string()
-  .trim()
-  .min(1, 'Enter a name')
-  .max(120, 'Keep the name under 120 characters');
+export const personNameSchema = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
 
 export const rolesSchema = z
   .array(roleSchema)
@@ -43,10 +39,7 @@ export const updateUserFieldsSchema = z.object({
 });
 
 /** Body of `PATCH /api/users/:id` (admin). */
-export const updateUserSchema = updateUserFieldsSchema.refine(
-  (body) => Object.values(body).some((value) => value !== undefined),
-  'Nothing to change',
-);
+export const updateUserSchema = updateUserFieldsSchema.refine((body) => Object.values(body).some((value) => value !== undefined), 'Nothing to change');
 export type UpdateUserInput = z.infer<typeof updateUserSchema>;
 
 /** The edit-roles form: just the roles. */

@@ -35,7 +35,14 @@ beforeAll(async () => {
   // The cycles go in as rows in bulk (a thousand-odd through the factory would take most of the test's time).
   const vessels = [];
   for (let i = 0; i < 12; i++) {
-    vessels.push(await createFermenter(ctx.db, { code: `FY-${String(i + 1).padStart(2, '0')}`, name: `Yard fermenter ${i + 1}`, capacityLiters: 60, at: '2025-11-01T09:00:00Z' }));
+    vessels.push(
+      await createFermenter(ctx.db, {
+        code: `FY-${String(i + 1).padStart(2, '0')}`,
+        name: `Yard fermenter ${i + 1}`,
+        capacityLiters: 60,
+        at: '2025-11-01T09:00:00Z',
+      }),
+    );
   }
   vesselIds = vessels.map((v) => v.id);
   const cycles: Record<string, unknown>[] = [];
@@ -82,8 +89,16 @@ beforeAll(async () => {
     }
   }
   cycleCount = cycles.length;
-  for (let i = 0; i < cycles.length; i += 1000) await ctx.db.insertInto('sanitation_cycle').values(cycles.slice(i, i + 1000) as never).execute();
-  for (let i = 0; i < steps.length; i += 2000) await ctx.db.insertInto('sanitation_step').values(steps.slice(i, i + 2000) as never).execute();
+  for (let i = 0; i < cycles.length; i += 1000)
+    await ctx.db
+      .insertInto('sanitation_cycle')
+      .values(cycles.slice(i, i + 1000) as never)
+      .execute();
+  for (let i = 0; i < steps.length; i += 2000)
+    await ctx.db
+      .insertInto('sanitation_step')
+      .values(steps.slice(i, i + 2000) as never)
+      .execute();
 });
 afterAll(async () => ctx?.close());
 

@@ -32,9 +32,23 @@ beforeAll(async () => {
   now = ctx.clock.now().getTime();
   // Five days of one person's changes, one a day, and two of another's on the same record.
   for (let d = 5; d >= 1; d--) {
-    await createAuditEntry(ctx.db, { at: new Date(now - d * DAY), actorId: actor.id, action: d % 2 ? 'state_changed' : 'updated', subjectType: 'Equipment', subjectId: `eq-${d}`, detail: { from: 'ready', to: 'holding' } });
+    await createAuditEntry(ctx.db, {
+      at: new Date(now - d * DAY),
+      actorId: actor.id,
+      action: d % 2 ? 'state_changed' : 'updated',
+      subjectType: 'Equipment',
+      subjectId: `eq-${d}`,
+      detail: { from: 'ready', to: 'holding' },
+    });
   }
-  await createAuditEntry(ctx.db, { at: new Date(now - 3 * DAY + HOUR), actorId: other.id, action: 'payment_recorded', subjectType: 'Invoice', subjectId: recordId, detail: { amountCents: 4200 } });
+  await createAuditEntry(ctx.db, {
+    at: new Date(now - 3 * DAY + HOUR),
+    actorId: other.id,
+    action: 'payment_recorded',
+    subjectType: 'Invoice',
+    subjectId: recordId,
+    detail: { amountCents: 4200 },
+  });
   await createAuditEntry(ctx.db, {
     at: new Date(now - 2 * DAY + HOUR),
     actorId: other.id,
@@ -54,7 +68,13 @@ describe('the audit trail', () => {
     expect(res.status).toBe(200);
     expect(res.body.total).toBe(5);
     expect(ids(res.body)).toEqual(['eq-1', 'eq-2', 'eq-3', 'eq-4', 'eq-5']);
-    expect(res.body.items[0]).toMatchObject({ actorId: actor.id, actorName: 'Ingrid Tallow', action: 'state_changed', subjectType: 'Equipment', detail: { from: 'ready', to: 'holding' } });
+    expect(res.body.items[0]).toMatchObject({
+      actorId: actor.id,
+      actorName: 'Ingrid Tallow',
+      action: 'state_changed',
+      subjectType: 'Equipment',
+      detail: { from: 'ready', to: 'holding' },
+    });
     expect(res.body.items[0].changes).toEqual([{ field: 'from → to', before: 'ready', after: 'holding' }]);
   });
 

@@ -25,9 +25,13 @@ async function wrongPasswords(email: string, ip: string, times: number, app = ct
 }
 
 const mailsTo = async (email: string, subject: RegExp) =>
-  (await ctx.db.selectFrom('dev_mail_message').select(['subject']).where(sql<boolean>`${email} = any(mail_to)`).execute()).filter((m) =>
-    subject.test(m.subject),
-  ).length;
+  (
+    await ctx.db
+      .selectFrom('dev_mail_message')
+      .select(['subject'])
+      .where(sql<boolean>`${email} = any(mail_to)`)
+      .execute()
+  ).filter((m) => subject.test(m.subject)).length;
 
 describe('throttling per account and address', () => {
   it('10 wrong passwords from one address throttle that address only: the owner signs in from another', async () => {
@@ -135,7 +139,11 @@ describe('locking an account', () => {
     for (const ip of ['192.0.2.21', '192.0.2.22']) await wrongPasswords(member.email, ip, lockAt / 2);
     const { token } = linkFrom((await ctx.waitForMail(member.email, /Unlock/)).text_body);
     // Links count real elapsed time (a security lifetime, not the co-op's clock).
-    await ctx.db.updateTable('user_token').set({ expires_at: new Date('2000-01-01T00:00:00Z') }).where('user_id', '=', member.id).execute();
+    await ctx.db
+      .updateTable('user_token')
+      .set({ expires_at: new Date('2000-01-01T00:00:00Z') })
+      .where('user_id', '=', member.id)
+      .execute();
     expect((await request(ctx.app).post('/api/auth/unlock').send({ token })).status).toBe(410);
     expect((await signInFrom('192.0.2.23', member.email, DEMO_PASSWORD)).status).toBe(429);
   });

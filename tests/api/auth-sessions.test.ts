@@ -44,11 +44,7 @@ describe('anonymous visitors leave no session behind', () => {
           .set('X-CSRF-Token', token)
           .set('X-Forwarded-For', '198.51.100.1')
           .send({ email: 'member@example.org', password: 'not-the-password' }),
-      () =>
-        request(ctx.app)
-          .post('/api/auth/login')
-          .set('X-Forwarded-For', '198.51.100.2')
-          .send({ email: 'nobody@example.org', password: 'not-the-password' }),
+      () => request(ctx.app).post('/api/auth/login').set('X-Forwarded-For', '198.51.100.2').send({ email: 'nobody@example.org', password: 'not-the-password' }),
       () => fromBrowser(request(ctx.app).post('/api/auth/login')).send({ email: 'member@example.org', password: DEMO_PASSWORD }),
       () => request(ctx.app).post('/api/auth/password-reset').set('X-Forwarded-For', '198.51.100.3').send({ email: 'ghost@example.org' }),
     ];

@@ -10,8 +10,7 @@ beforeAll(async () => {
 });
 afterAll(async () => ctx?.close());
 
-const sessionCookie = (res: request.Response) =>
-  ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('cw.sid='));
+const sessionCookie = (res: request.Response) => ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('cw.sid='));
 
 describe('health', () => {
   it('reports the database up', async () => {
@@ -57,7 +56,9 @@ describe('sign-in', () => {
     const bad = await request(ctx.app).post('/api/auth/login').set('Content-Type', 'application/json').send('{"email":');
     expect(bad.status).toBe(400);
     expect(bad.headers['content-type']).toMatch(/problem\+json/);
-    const big = await request(ctx.app).post('/api/auth/login').send({ email: 'a@example.org', password: 'x'.repeat(200_000) });
+    const big = await request(ctx.app)
+      .post('/api/auth/login')
+      .send({ email: 'a@example.org', password: 'x'.repeat(200_000) });
     expect(big.status).toBe(413);
     expect(big.body.title).toMatch(/too large/i);
   });
@@ -65,7 +66,10 @@ describe('sign-in', () => {
   it('regenerates the session id at sign-in', async () => {
     const agent = request.agent(ctx.app);
     // A session id an attacker chose for the visitor is never taken on.
-    const planted = await request(ctx.app).post('/api/auth/login').set('Cookie', 'cw.sid=chosen-by-someone-else').send({ email: 'member2@example.org', password: 'cellar-demo' });
+    const planted = await request(ctx.app)
+      .post('/api/auth/login')
+      .set('Cookie', 'cw.sid=chosen-by-someone-else')
+      .send({ email: 'member2@example.org', password: 'cellar-demo' });
     expect(planted.status).toBe(200);
     expect(sessionCookie(planted)).not.toMatch(/chosen-by-someone-else/);
     const before = await agent.post('/api/auth/login').send({ email: 'member2@example.org', password: 'cellar-demo' });
@@ -98,7 +102,11 @@ describe('sign-in', () => {
     expect((await request(ctx.app).post('/api/auth/login').send({ email: 'member3@example.org', password: 'cellar-demo' })).status).toBe(429);
     expect((await request(ctx.app).post('/api/auth/login').send({ email: 'member4@example.org', password: 'cellar-demo' })).status).toBe(200);
     // The counter lives in PostgreSQL, shared by every instance: one per account and address.
-    const rows = await ctx.db.selectFrom('rate_limit').selectAll().where(sql<boolean>`starts_with(key, 'login-pair:member3@example.org ')`).execute();
+    const rows = await ctx.db
+      .selectFrom('rate_limit')
+      .selectAll()
+      .where(sql<boolean>`starts_with(key, 'login-pair:member3@example.org ')`)
+      .execute();
     expect(rows).toHaveLength(1);
     expect(rows[0]!.hits).toBeGreaterThanOrEqual(6);
   });
@@ -196,7 +204,11 @@ describe('invitations and password reset through the SMTP fake', () => {
     const mail6 = await ctx.waitForMail('member6@example.org', /Reset/);
     const t6 = linkFrom(mail6.text_body).token;
     // Links count real elapsed time (a security lifetime, not the co-op's clock): this one ran out long ago, whatever the machine's date.
-    await ctx.db.updateTable('user_token').set({ expires_at: new Date('2000-01-01T00:00:00Z') }).where('used_at', 'is', null).execute();
+    await ctx.db
+      .updateTable('user_token')
+      .set({ expires_at: new Date('2000-01-01T00:00:00Z') })
+      .where('used_at', 'is', null)
+      .execute();
     expect((await request(ctx.app).post('/api/auth/password-reset/confirm').send({ token: t6, password: 'brand-new-password-7' })).status).toBe(410);
   });
 });
@@ -206,7 +218,12 @@ describe('members administration', () => {
     // Members enough for two pages, and an account without the member role that the filter leaves out.
     for (const name of ['Quentin Abbot', 'Rhea Lomax', 'Sol Vance']) await createMember(ctx.db, { name });
     const treasurerOnly = await createMember(ctx.db, { name: 'Tamsin Ledger', roles: ['treasurer'] });
-    const members = await ctx.db.selectFrom('app_user').select('email').where(sql<boolean>`'member' = any(roles)`).orderBy('email').execute();
+    const members = await ctx.db
+      .selectFrom('app_user')
+      .select('email')
+      .where(sql<boolean>`'member' = any(roles)`)
+      .orderBy('email')
+      .execute();
     expect(members.length).toBeGreaterThan(5);
     const admin = await ctx.signIn('admin@example.org');
     const page1 = await admin.get('/api/users?pageSize=5&sort=email&order=asc&role=member');

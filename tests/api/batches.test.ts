@@ -1,7 +1,16 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { abv, apparentAttenuation, brixToSg, convertGravity, correctHydrometer, litersToUsBarrels, realAttenuation, refractometerFinalGravity } from '../../shared/brewing/index.ts';
+import {
+  abv,
+  apparentAttenuation,
+  brixToSg,
+  convertGravity,
+  correctHydrometer,
+  litersToUsBarrels,
+  realAttenuation,
+  refractometerFinalGravity,
+} from '../../shared/brewing/index.ts';
 import { createBatch, createBooking, createFermenter } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
@@ -34,7 +43,11 @@ async function newBatch(client: ApiClient, body: Record<string, unknown> = {}) {
 }
 
 async function readingsCount(batchId: string) {
-  const r = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+  const r = await ctx.db
+    .selectFrom('reading')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('batch_id', '=', batchId)
+    .executeTakeFirstOrThrow();
   return Number(r.n);
 }
 
@@ -58,7 +71,12 @@ describe('creating and changing batches', () => {
     // Created at the app's clock, not the database server's.
     // (The test clock starts at TEST_NOW, on most days far from the machine's date, and moves on with the test.)
     expect(Math.abs(Date.parse(res.body.batch.createdAt) - ctx.clock.now().getTime())).toBeLessThan(60_000);
-    const audit = await ctx.db.selectFrom('audit_log').select(['action', 'actor_id']).where('subject_type', '=', 'Batch').where('subject_id', '=', res.body.batch.id).execute();
+    const audit = await ctx.db
+      .selectFrom('audit_log')
+      .select(['action', 'actor_id'])
+      .where('subject_type', '=', 'Batch')
+      .where('subject_id', '=', res.body.batch.id)
+      .execute();
     expect(audit).toEqual([{ action: 'created', actor_id: member.user.id }]);
   });
 
@@ -81,7 +99,10 @@ describe('creating and changing batches', () => {
     const b = await newBatch(member);
     const bad = await member.patch(`/api/batches/${b.id}`, { status: 'conditioning' });
     expect(bad.status).toBe(409);
-    expect((await member.patch(`/api/batches/${b.id}`, { status: 'fermenting', notes: 'Pitched at 18 °C' })).body.batch).toMatchObject({ status: 'fermenting', notes: 'Pitched at 18 °C' });
+    expect((await member.patch(`/api/batches/${b.id}`, { status: 'fermenting', notes: 'Pitched at 18 °C' })).body.batch).toMatchObject({
+      status: 'fermenting',
+      notes: 'Pitched at 18 °C',
+    });
     expect((await member.patch(`/api/batches/${b.id}`, { status: 'conditioning' })).body.batch.status).toBe('conditioning');
     const packaged = await member.patch(`/api/batches/${b.id}`, { status: 'packaged', packagedLiters: 21.5 });
     expect(packaged.status).toBe(200);
@@ -110,7 +131,13 @@ describe('creating and changing batches', () => {
       fermenter: { equipmentId: fermenter.id, startsAt: new Date(now - 5 * DAY), endsAt: new Date(now + 9 * DAY), now: new Date(now) },
     });
     const own = { id: inIt.bookingId!, code: fermenter.code, batch_id: inIt.id };
-    const others = await createBooking(ctx.db, { ownerId: member2.user.id, equipmentId: (await createFermenter(ctx.db)).id, startsAt: new Date(now + DAY), endsAt: new Date(now + 15 * DAY), now: new Date(now) });
+    const others = await createBooking(ctx.db, {
+      ownerId: member2.user.id,
+      equipmentId: (await createFermenter(ctx.db)).id,
+      startsAt: new Date(now + DAY),
+      endsAt: new Date(now + 15 * DAY),
+      now: new Date(now),
+    });
     const taken = await member.post('/api/batches', { name: 'Second tenant', volumeLiters: 20, bookingId: own.id });
     expect(taken.status).toBe(409);
     await ctx.db.updateTable('booking').set({ batch_id: null }).where('id', '=', own.id).execute();
@@ -169,7 +196,13 @@ describe('readings and what they say', () => {
 
   it('corrects a hydrometer reading for temperature and keeps what was entered', async () => {
     const b = await newBatch(member);
-    const res = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00+02:00', gravity: 1.05, unit: 'sg', temperatureC: 30, note: 'warm sample' });
+    const res = await member.post(`/api/batches/${b.id}/readings`, {
+      takenAt: '2026-10-01T09:00:00+02:00',
+      gravity: 1.05,
+      unit: 'sg',
+      temperatureC: 30,
+      note: 'warm sample',
+    });
     expect(res.status).toBe(201);
     expect(res.body.reading).toMatchObject({
       takenAt: '2026-10-01T07:00:00.000Z',
@@ -182,7 +215,13 @@ describe('readings and what they say', () => {
       note: 'warm sample',
     });
     expect(res.body.reading.gravitySg).toBeCloseTo(correctHydrometer(1.05, 30), 4);
-    const raw = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-02T09:00:00Z', gravity: 1.04, unit: 'sg', temperatureC: 30, correctTemperature: false });
+    const raw = await member.post(`/api/batches/${b.id}/readings`, {
+      takenAt: '2026-10-02T09:00:00Z',
+      gravity: 1.04,
+      unit: 'sg',
+      temperatureC: 30,
+      correctTemperature: false,
+    });
     expect(raw.body.reading).toMatchObject({ gravitySg: 1.04, corrected: false, rawSg: null });
   });
 
@@ -211,7 +250,11 @@ describe('readings and what they say', () => {
     expect((await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T09:00:00Z', gravity: 1.05, unit: 'sg' })).status).toBe(201);
     const dup = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-01T11:00:00+02:00', gravity: 1.049, unit: 'sg' });
     expect(dup.status).toBe(409);
-    const future = await member.post(`/api/batches/${b.id}/readings`, { takenAt: new Date(ctx.clock.now().getTime() + 3 * DAY).toISOString(), gravity: 1.04, unit: 'sg' });
+    const future = await member.post(`/api/batches/${b.id}/readings`, {
+      takenAt: new Date(ctx.clock.now().getTime() + 3 * DAY).toISOString(),
+      gravity: 1.04,
+      unit: 'sg',
+    });
     expect(future.status).toBe(422);
     expect(future.body.errors[0].path).toBe('takenAt');
     const high = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-02T09:00:00Z', gravity: 1.3, unit: 'sg' });
@@ -260,8 +303,16 @@ describe('fermentation settings and refractometer readings', () => {
     }
     // Common practice by default: within 0.001 over 3 days; the last three readings span only 2.
     expect((await member.get(`/api/batches/${b.id}`)).body.stable).toMatchObject({ stable: false, toleranceSg: 0.001, spanDays: 3 });
-    expect((await member.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 2, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 })).status).toBe(403);
-    const put = await admin.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 2, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 });
+    expect(
+      (await member.put('/api/settings/fermentation', { stableToleranceSg: 0.001, stableSpanDays: 2, hydrometerCalibrationC: 20, wortCorrectionFactor: 1.04 }))
+        .status,
+    ).toBe(403);
+    const put = await admin.put('/api/settings/fermentation', {
+      stableToleranceSg: 0.001,
+      stableSpanDays: 2,
+      hydrometerCalibrationC: 20,
+      wortCorrectionFactor: 1.04,
+    });
     expect(put.status).toBe(200);
     const d = (await member.get(`/api/batches/${b.id}`)).body;
     expect(d.stable).toMatchObject({ stable: true, spanDays: 2 });
@@ -272,7 +323,12 @@ describe('fermentation settings and refractometer readings', () => {
   it('reads alcohol-corrected Brix again when an earlier original gravity arrives, and keeps a wort reading wort', async () => {
     const b = await newBatch(member);
     // A refractometer reading mid-fermentation cannot be corrected for alcohol before the batch has an OG.
-    const refused = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-05T09:00:00Z', gravity: 7, unit: 'brix', method: 'alcohol_corrected' });
+    const refused = await member.post(`/api/batches/${b.id}/readings`, {
+      takenAt: '2026-10-05T09:00:00Z',
+      gravity: 7,
+      unit: 'brix',
+      method: 'alcohol_corrected',
+    });
     expect(refused.status).toBe(422);
     expect(refused.body.detail).toMatch(/needs the batch’s original gravity/);
     // Alone, it can only be read as wort, and says so.
@@ -330,7 +386,13 @@ describe('the batches list', () => {
     await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-11-01T09:00:00Z', gravity: 1.062, unit: 'sg' });
     await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-11-04T09:00:00Z', gravity: 1.02, unit: 'sg' });
     const list = await member.get('/api/batches?q=Listed%20with%20readings');
-    expect(list.body.items[0]).toMatchObject({ og: 1.062, currentGravity: 1.02, readingsCount: 2, lastReadingAt: '2026-11-04T09:00:00.000Z', status: 'fermenting' });
+    expect(list.body.items[0]).toMatchObject({
+      og: 1.062,
+      currentGravity: 1.02,
+      readingsCount: 2,
+      lastReadingAt: '2026-11-04T09:00:00.000Z',
+      status: 'fermenting',
+    });
   });
 });
 
@@ -369,11 +431,14 @@ describe('production records', () => {
     expect(parsed.some((r) => r[1] === 'Records pale ale' && r[4] === '57')).toBe(true);
     expect(parsed[parsed.length - 1]![0]).toBe('Note');
 
-    const xlsx = await treasurer.get('/api/production-records?from=2026-10&to=2026-10&format=xlsx').buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const xlsx = await treasurer
+      .get('/api/production-records?from=2026-10&to=2026-10&format=xlsx')
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(xlsx.status).toBe(200);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(xlsx.body as never);

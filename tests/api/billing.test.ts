@@ -7,7 +7,16 @@ import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { addDays, longDate } from '../../shared/billing/dates.ts';
 import type { InvoiceDetail, InvoiceSummary } from '../../shared/schemas/billing.ts';
-import { createBooking, createFermenter, createInvoice, createKeg, createKegCheckout, createMember, createPrice, createTaxRate } from '../../db/factories/index.ts';
+import {
+  createBooking,
+  createFermenter,
+  createInvoice,
+  createKeg,
+  createKegCheckout,
+  createMember,
+  createPrice,
+  createTaxRate,
+} from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
@@ -73,10 +82,18 @@ beforeAll(async () => {
   for (const memberId of fixtureMembers) await createInvoice(ctx.db, { memberId, period: '2026-10', today: '2026-11-01' });
   // Maren (member@) and Tobias (member2@) paid September; Maren was refunded 5.00 of it; Bram's (member6@) was voided.
   for (const key of ['member', 'member2']) {
-    const paid = await treasurer.post(`/api/invoices/${september[fixtureUserId(key)]}/payments`, { amountCents: 1620, method: 'bank_transfer', receivedOn: '2026-10-12' });
+    const paid = await treasurer.post(`/api/invoices/${september[fixtureUserId(key)]}/payments`, {
+      amountCents: 1620,
+      method: 'bank_transfer',
+      receivedOn: '2026-10-12',
+    });
     expect(paid.status).toBe(201);
   }
-  const refund = await treasurer.post(`/api/invoices/${september[fixtureUserId('member')]}/refunds`, { amountCents: 500, reason: 'Dues waived for a week away', refundMethod: 'bank_transfer' });
+  const refund = await treasurer.post(`/api/invoices/${september[fixtureUserId('member')]}/refunds`, {
+    amountCents: 500,
+    reason: 'Dues waived for a week away',
+    refundMethod: 'bank_transfer',
+  });
   expect(refund.status).toBe(201);
   const voided = await treasurer.post(`/api/invoices/${september[fixtureUserId('member6')]}/void`, { reason: 'Joined in October, not August' });
   expect(voided.status).toBe(200);
@@ -144,9 +161,10 @@ describe('invoice runs', () => {
   });
 
   it('is guaranteed by the database: a second invoice for a member and period is refused', async () => {
-    await expect(
-      ctx.db.insertInto('invoice').values({ member_id: ids.a, period: '2026-11', currency: 'EUR' }).execute(),
-    ).rejects.toMatchObject({ code: '23505', constraint: 'invoice_member_id_period_key' });
+    await expect(ctx.db.insertInto('invoice').values({ member_id: ids.a, period: '2026-11', currency: 'EUR' }).execute()).rejects.toMatchObject({
+      code: '23505',
+      constraint: 'invoice_member_id_period_key',
+    });
   });
 
   it('numbers invoices 1, 2, 3 … in the year with no gaps', async () => {
@@ -165,11 +183,17 @@ describe('invoice runs', () => {
   });
 
   it('previews a period without writing anything', async () => {
-    const before = await ctx.db.selectFrom('invoice').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const before = await ctx.db
+      .selectFrom('invoice')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     const res = await treasurer.get('/api/invoice-runs/preview?period=2026-11');
     expect(res.status).toBe(200);
     expect(res.body.invoices.every((i: { alreadyInvoiced: boolean }) => i.alreadyInvoiced)).toBe(true);
-    const after = await ctx.db.selectFrom('invoice').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const after = await ctx.db
+      .selectFrom('invoice')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     expect(after.n).toBe(before.n);
   });
 });
@@ -260,7 +284,12 @@ describe('charges worked by hand', () => {
     const line = await ctx.db.selectFrom('invoice_line').selectAll().where('source_type', '=', 'booking').limit(1).executeTakeFirstOrThrow();
     const other = await ctx.db.selectFrom('invoice').select('id').where('id', '<>', line.invoice_id).limit(1).executeTakeFirstOrThrow();
     const { id: _id, ...copy } = line;
-    await expect(ctx.db.insertInto('invoice_line').values({ ...copy, invoice_id: other.id }).execute()).rejects.toMatchObject({
+    await expect(
+      ctx.db
+        .insertInto('invoice_line')
+        .values({ ...copy, invoice_id: other.id })
+        .execute(),
+    ).rejects.toMatchObject({
       code: '23505',
       constraint: 'invoice_line_source_key',
     });
@@ -270,7 +299,12 @@ describe('charges worked by hand', () => {
 describe('payments, credit notes and voids', () => {
   it('takes a part payment, refuses an overpayment, and is paid by the rest', async () => {
     const inv = await invoiceOf(ids.b, '2026-11');
-    const part = await treasurer.post(`/api/invoices/${inv.id}/payments`, { amountCents: 2000, method: 'bank_transfer', receivedOn: '2026-12-01', reference: 'Transfer 4411' });
+    const part = await treasurer.post(`/api/invoices/${inv.id}/payments`, {
+      amountCents: 2000,
+      method: 'bank_transfer',
+      receivedOn: '2026-12-01',
+      reference: 'Transfer 4411',
+    });
     expect(part.status).toBe(201);
     expect(part.body.invoice).toMatchObject({ status: 'issued', paidCents: 2000, amountDueCents: 4182 });
     const over = await treasurer.post(`/api/invoices/${inv.id}/payments`, { amountCents: 5000, method: 'cash', receivedOn: '2026-12-01' });
@@ -285,7 +319,11 @@ describe('payments, credit notes and voids', () => {
 
   it('refunds part of a paid invoice with a credit note: 10.00 including 7.5 % tax is 9.30 + 0.70', async () => {
     const inv = await invoiceOf(ids.b, '2026-11');
-    const res = await treasurer.post(`/api/invoices/${inv.id}/refunds`, { amountCents: 1000, reason: 'One day of F-91 waived: the lid seal leaked', refundMethod: 'bank_transfer' });
+    const res = await treasurer.post(`/api/invoices/${inv.id}/refunds`, {
+      amountCents: 1000,
+      reason: 'One day of F-91 waived: the lid seal leaked',
+      refundMethod: 'bank_transfer',
+    });
     expect(res.status).toBe(201);
     const after = res.body.invoice as InvoiceDetail;
     const note = after.creditNotes[0]!;
@@ -323,7 +361,11 @@ describe('payments, credit notes and voids', () => {
     const b = await treasurer.get(`/api/billing/balance?memberId=${ids.b}`);
     expect(b.body).toMatchObject({ balanceCents: 1620, openInvoices: 1 });
     const a = await treasurer.get(`/api/billing/balance?memberId=${ids.a}`);
-    const open = await ctx.db.selectFrom('invoice').select(sql<number>`sum(total_cents - paid_cents - credited_cents)::int`.as('due')).where('member_id', '=', ids.a).executeTakeFirstOrThrow();
+    const open = await ctx.db
+      .selectFrom('invoice')
+      .select(sql<number>`sum(total_cents - paid_cents - credited_cents)::int`.as('due'))
+      .where('member_id', '=', ids.a)
+      .executeTakeFirstOrThrow();
     expect(a.body.balanceCents).toBe(open.due);
     expect(a.body.openInvoices).toBe(2);
   });
@@ -357,7 +399,13 @@ describe('price list', () => {
   it('takes a manual charge only for a period not yet issued to the member', async () => {
     const closed = await treasurer.post('/api/manual-charges', { memberId: ids.a, period: '2026-11', description: 'Late fee', reason: 'x', amountCents: 500 });
     expect(closed.status).toBe(409);
-    const credit = await treasurer.post('/api/manual-charges', { memberId: ids.a, period: '2026-12', description: 'Goodwill credit', reason: 'Booking moved by the co-op', amountCents: -500 });
+    const credit = await treasurer.post('/api/manual-charges', {
+      memberId: ids.a,
+      period: '2026-12',
+      description: 'Goodwill credit',
+      reason: 'Booking moved by the co-op',
+      amountCents: -500,
+    });
     expect(credit.status).toBe(201);
     expect(credit.body.charge).toMatchObject({ amountCents: -500, invoiceId: null });
     const noReason = await treasurer.post('/api/manual-charges', { memberId: ids.a, period: '2026-12', description: 'x', reason: '', amountCents: 100 });
@@ -428,7 +476,10 @@ describe('who sees what', () => {
       ['POST /api/tax-rates', () => brewer.post('/api/tax-rates', { rateBp: 1, label: 'x', effectiveFrom: '2031-01-01' })],
       ['DELETE /api/tax-rates/:id', () => brewer.delete(`/api/tax-rates/${price.id}`)],
       ['GET /api/manual-charges', () => brewer.get('/api/manual-charges')],
-      ['POST /api/manual-charges', () => brewer.post('/api/manual-charges', { memberId: ids.a, period: '2026-12', description: 'x', reason: 'x', amountCents: 1 })],
+      [
+        'POST /api/manual-charges',
+        () => brewer.post('/api/manual-charges', { memberId: ids.a, period: '2026-12', description: 'x', reason: 'x', amountCents: 1 }),
+      ],
       ['DELETE /api/manual-charges/:id', () => brewer.delete(`/api/manual-charges/${charge.id}`)],
       ['GET /api/billing/summary', () => brewer.get('/api/billing/summary')],
       ['GET /api/billing/ageing', () => brewer.get('/api/billing/ageing')],
@@ -501,7 +552,13 @@ describe('documents', () => {
     // Charges whose text a spreadsheet would run, on an invoice of C's for September.
     const draft = await ctx.db.insertInto('invoice').values({ member_id: ids.c, period: '2026-09', currency: 'EUR' }).returning('id').executeTakeFirstOrThrow();
     for (const description of ['=HYPERLINK("http://example.org","x")', '@SUM(A1)', '+44 phone fee', '-10% spoilage']) {
-      const r = await treasurer.post('/api/manual-charges', { memberId: ids.c, period: '2026-09', description, reason: 'Typed by the treasurer', amountCents: 150 });
+      const r = await treasurer.post('/api/manual-charges', {
+        memberId: ids.c,
+        period: '2026-09',
+        description,
+        reason: 'Typed by the treasurer',
+        amountCents: 150,
+      });
       expect(r.status).toBe(201);
     }
     expect((await treasurer.post(`/api/invoices/${draft.id}/issue`)).status).toBe(200);

@@ -149,9 +149,20 @@ describe('booking a free item', () => {
 
   it('is guaranteed by the database: an overlapping insert that skips the service fails with 23P01', async () => {
     const owner = await ctx.db.selectFrom('app_user').select('id').where('email', '=', 'member@example.org').executeTakeFirstOrThrow();
-    const row = { equipment_id: byCode('F-09').id, owner_id: owner.id, starts_at: new Date(at(63)), ends_at: new Date(at(66)), blocked_until: new Date(at(67)) };
+    const row = {
+      equipment_id: byCode('F-09').id,
+      owner_id: owner.id,
+      starts_at: new Date(at(63)),
+      ends_at: new Date(at(66)),
+      blocked_until: new Date(at(67)),
+    };
     await ctx.db.insertInto('booking').values(row).execute();
-    await expect(ctx.db.insertInto('booking').values({ ...row, starts_at: new Date(at(65)), ends_at: new Date(at(68)), blocked_until: new Date(at(69)) }).execute()).rejects.toMatchObject({ code: '23P01' });
+    await expect(
+      ctx.db
+        .insertInto('booking')
+        .values({ ...row, starts_at: new Date(at(65)), ends_at: new Date(at(68)), blocked_until: new Date(at(69)) })
+        .execute(),
+    ).rejects.toMatchObject({ code: '23P01' });
   });
 });
 
@@ -260,7 +271,7 @@ describe('who sees and does what', () => {
     expect(mine?.id && theirs?.id).toBeTruthy();
   });
 
-  it('shows members the whole calendar, others\' bookings only as taken (no owner, e-mail or notes)', async () => {
+  it("shows members the whole calendar, others' bookings only as taken (no owner, e-mail or notes)", async () => {
     const res = await owner.get(`/api/bookings?from=${encodeURIComponent(at(55))}&to=${encodeURIComponent(at(90))}&kind=fermenter`);
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ page: 1, pageSize: 50 });
@@ -291,7 +302,7 @@ describe('who sees and does what', () => {
     }
   });
 
-  it('lists only one\'s own bookings with mine=1, sorted and paged on the server', async () => {
+  it("lists only one's own bookings with mine=1, sorted and paged on the server", async () => {
     const res = await owner.get('/api/bookings?mine=1&sort=startsAt&order=desc&pageSize=2&includeCancelled=true');
     expect(res.status).toBe(200);
     expect(res.body.pageSize).toBe(2);
@@ -304,7 +315,7 @@ describe('who sees and does what', () => {
     expect(res.body.items[0].id).toBe(mine.id);
   });
 
-  it('does not let a member cancel another member\'s booking, nor book for someone else', async () => {
+  it("does not let a member cancel another member's booking, nor book for someone else", async () => {
     const cancel = await owner.delete(`/api/bookings/${theirs.id}`);
     expect(cancel.status).toBe(403);
     const still = await ctx.db.selectFrom('booking').select('state').where('id', '=', theirs.id).executeTakeFirstOrThrow();
@@ -334,7 +345,7 @@ describe('who sees and does what', () => {
     expect(cal.components[0]!.get('STATUS')?.value).toBe('CANCELLED');
   });
 
-  it('lets the admin book for a member and cancel anyone\'s booking; the member gets the e-mails', async () => {
+  it("lets the admin book for a member and cancel anyone's booking; the member gets the e-mails", async () => {
     const admin = await ctx.signIn('admin@example.org');
     const made = await admin.post('/api/bookings', { equipmentId: byCode('F-07').id, startsAt: at(62), endsAt: at(70), ownerId: owner.user.id });
     expect(made.status).toBe(201);

@@ -68,7 +68,13 @@ describe('a leap year', () => {
     const fermenter = await createFermenter(c.db, { capacityLiters: 30 });
     // 00:00 CET on 1 Feb is 23:00 UTC on 31 Jan; 00:00 CET on 1 Mar is 23:00 UTC on 29 Feb. In the
     // co-op's days that is 1 Feb → 1 Mar: 29 days in 2028 (a UTC reading would put one of them in January).
-    await createBooking(c.db, { equipmentId: fermenter.id, ownerId: member.id, startsAt: '2028-02-01T00:00:00+01:00', endsAt: '2028-03-01T00:00:00+01:00', now: c.clock.now() });
+    await createBooking(c.db, {
+      equipmentId: fermenter.id,
+      ownerId: member.id,
+      startsAt: '2028-02-01T00:00:00+01:00',
+      endsAt: '2028-03-01T00:00:00+01:00',
+      now: c.clock.now(),
+    });
     const january = await treasurer.post('/api/invoice-runs', { period: '2028-01' });
     expect(january.status).toBe(201);
     const janInvoice = await invoiceOf(c, treasurer, member.id, '2028-01');
@@ -100,7 +106,13 @@ describe('the last day of a month', () => {
     const member = await createMember(c.db, { name: 'Jan Lastday' });
     const fermenter = await createFermenter(c.db, { capacityLiters: 30 });
     // 20 Jan 10:00 CET → 31 Jan 23:00 CET (22:00 UTC): co-op days 20 Jan → 31 Jan = 11 days, all January's.
-    await createBooking(c.db, { equipmentId: fermenter.id, ownerId: member.id, startsAt: '2027-01-20T10:00:00+01:00', endsAt: '2027-01-31T23:00:00+01:00', now: c.clock.now() });
+    await createBooking(c.db, {
+      equipmentId: fermenter.id,
+      ownerId: member.id,
+      startsAt: '2027-01-20T10:00:00+01:00',
+      endsAt: '2027-01-31T23:00:00+01:00',
+      now: c.clock.now(),
+    });
     expect((await treasurer.post('/api/invoice-runs', { period: '2027-01' })).status).toBe(201);
     const jan = await invoiceOf(c, treasurer, member.id, '2027-01');
     expect(jan.lines.filter((l) => l.item === 'fermenter_day').map((l) => [l.sourceLabel, l.quantity, l.amountCents, l.serviceFrom, l.serviceTo])).toEqual([
@@ -123,10 +135,28 @@ describe('summer time', () => {
     const member = await c.signIn('member@example.org');
     const cases = [
       // 10:00 CET = 09:00 UTC; 10:00 CEST = 08:00 UTC; blocked until 24 h later, 30 Mar 08:00 UTC = 10:00 CEST.
-      { now: '2027-03-20T10:00:00Z', startsAt: '2027-03-27T10:00:00+01:00', endsAt: '2027-03-29T10:00:00+02:00', start: '2027-03-27T09:00:00.000Z', end: '2027-03-29T08:00:00.000Z', blocked: '2027-03-30T08:00:00.000Z', from: 'Sat, 27 Mar 2027', until: 'Mon, 29 Mar 2027' },
+      {
+        now: '2027-03-20T10:00:00Z',
+        startsAt: '2027-03-27T10:00:00+01:00',
+        endsAt: '2027-03-29T10:00:00+02:00',
+        start: '2027-03-27T09:00:00.000Z',
+        end: '2027-03-29T08:00:00.000Z',
+        blocked: '2027-03-30T08:00:00.000Z',
+        from: 'Sat, 27 Mar 2027',
+        until: 'Mon, 29 Mar 2027',
+      },
       // Autumn: on Sun 31 Oct 2027 clocks go from 03:00 CEST back to 02:00 CET.
       // 10:00 CEST = 08:00 UTC; 10:00 CET = 09:00 UTC; blocked until 2 Nov 09:00 UTC = 10:00 CET.
-      { now: '2027-10-20T10:00:00Z', startsAt: '2027-10-30T10:00:00+02:00', endsAt: '2027-11-01T10:00:00+01:00', start: '2027-10-30T08:00:00.000Z', end: '2027-11-01T09:00:00.000Z', blocked: '2027-11-02T09:00:00.000Z', from: 'Sat, 30 Oct 2027', until: 'Mon, 1 Nov 2027' },
+      {
+        now: '2027-10-20T10:00:00Z',
+        startsAt: '2027-10-30T10:00:00+02:00',
+        endsAt: '2027-11-01T10:00:00+01:00',
+        start: '2027-10-30T08:00:00.000Z',
+        end: '2027-11-01T09:00:00.000Z',
+        blocked: '2027-11-02T09:00:00.000Z',
+        from: 'Sat, 30 Oct 2027',
+        until: 'Mon, 1 Nov 2027',
+      },
     ];
     for (const k of cases) {
       c.clock.set(k.now);
@@ -152,9 +182,21 @@ describe('summer time', () => {
     const member = await createMember(c.db, { name: 'Sommer Zeit' });
     const fermenter = await createFermenter(c.db, { capacityLiters: 30 });
     // Autumn 2026 (25 Oct): 20 Oct 10:00 CEST → 27 Oct 10:00 CET is 169 hours, 7 calendar days.
-    await createBooking(c.db, { equipmentId: fermenter.id, ownerId: member.id, startsAt: '2026-10-20T10:00:00+02:00', endsAt: '2026-10-27T10:00:00+01:00', now: c.clock.now() });
+    await createBooking(c.db, {
+      equipmentId: fermenter.id,
+      ownerId: member.id,
+      startsAt: '2026-10-20T10:00:00+02:00',
+      endsAt: '2026-10-27T10:00:00+01:00',
+      now: c.clock.now(),
+    });
     // Spring 2027 (28 Mar): 24 Mar 10:00 CET → 31 Mar 10:00 CEST is 167 hours, 7 calendar days.
-    await createBooking(c.db, { equipmentId: fermenter.id, ownerId: member.id, startsAt: '2027-03-24T10:00:00+01:00', endsAt: '2027-03-31T10:00:00+02:00', now: c.clock.now() });
+    await createBooking(c.db, {
+      equipmentId: fermenter.id,
+      ownerId: member.id,
+      startsAt: '2027-03-24T10:00:00+01:00',
+      endsAt: '2027-03-31T10:00:00+02:00',
+      now: c.clock.now(),
+    });
     const october = await createInvoice(c.db, { memberId: member.id, period: '2026-10', today: '2026-11-01' });
     const march = await createInvoice(c.db, { memberId: member.id, period: '2027-03', today: '2027-04-01' });
     const days = (lines: typeof october.lines) => lines.filter((l) => l.item === 'fermenter_day').map((l) => [l.source_label, l.quantity, l.amount_cents]);

@@ -91,7 +91,9 @@ describe('a member’s calendar feed', () => {
     const invoice = await createInvoice(ctx.db, { memberId: ann.user.id, period: '2026-11', today: '2026-12-01' });
 
     const before = await feedEvents(url);
-    expect(before.events.map((e) => e.uid)).toEqual(expect.arrayContaining([`booking-${kept.id}@cellarwright.example.org`, `booking-${dropped.id}@cellarwright.example.org`]));
+    expect(before.events.map((e) => e.uid)).toEqual(
+      expect.arrayContaining([`booking-${kept.id}@cellarwright.example.org`, `booking-${dropped.id}@cellarwright.example.org`]),
+    );
     expect((await ann.delete(`/api/bookings/${dropped.id}`)).status).toBe(204);
 
     const { calendar, events } = await feedEvents(url);
@@ -179,11 +181,19 @@ describe('the rota’s feed', () => {
     // The member feed's invoices are the member's business, not the rota's.
     expect(events.some((e) => e.uid.startsWith('invoice-due-'))).toBe(false);
     // A brewer who leaves the rota loses the rota feed at once.
-    await ctx.db.updateTable('app_user').set({ roles: ['member'] }).where('id', '=', brewer.user.id).execute();
+    await ctx.db
+      .updateTable('app_user')
+      .set({ roles: ['member'] })
+      .where('id', '=', brewer.user.id)
+      .execute();
     try {
       expect((await fetchFeed(made.body.feed.url)).status).toBe(404);
     } finally {
-      await ctx.db.updateTable('app_user').set({ roles: ['brewer_on_duty'] }).where('id', '=', brewer.user.id).execute();
+      await ctx.db
+        .updateTable('app_user')
+        .set({ roles: ['brewer_on_duty'] })
+        .where('id', '=', brewer.user.id)
+        .execute();
     }
     expect((await fetchFeed(made.body.feed.url)).status).toBe(200);
   });

@@ -24,7 +24,13 @@ async function filledKeg() {
   const batch = await takeBatch();
   const [keg] = await takeKegs(1);
   await makeReady(brewer, [keg!.id], ctx.clock);
-  const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [keg!.id], volumeLiters: 19, checklist: fullChecklist });
+  const res = await brewer.post('/api/transfers', {
+    batchId: batch.batchId,
+    fromEquipmentId: batch.fermenterId,
+    toKegIds: [keg!.id],
+    volumeLiters: 19,
+    checklist: fullChecklist,
+  });
   if (res.status !== 201) throw new Error(JSON.stringify(res.body));
   return { keg: keg!, batch };
 }
@@ -50,7 +56,12 @@ describe('the planner’s pressures against the published carbonation values (RE
 
   it('adds about 1 psi per 2,000 ft of altitude (REFERENCE §8)', async () => {
     const sea = await brewer.post('/api/carbonation-plans/preview', { targetVolumes: 2.5, temperatureC: fToC(38), altitudeM: 0, method: 'set_and_hold' });
-    const high = await brewer.post('/api/carbonation-plans/preview', { targetVolumes: 2.5, temperatureC: fToC(38), altitudeM: 2000 * 0.3048, method: 'set_and_hold' });
+    const high = await brewer.post('/api/carbonation-plans/preview', {
+      targetVolumes: 2.5,
+      temperatureC: fToC(38),
+      altitudeM: 2000 * 0.3048,
+      method: 'set_and_hold',
+    });
     expect(psi(high.body.plan.servingPressureKpa - sea.body.plan.servingPressureKpa)).toBeCloseTo(1.0, 1);
   });
 
@@ -74,11 +85,31 @@ describe('the planner’s pressures against the published carbonation values (RE
 describe('carbonation plans for a keg', () => {
   it('saves a set-and-hold plan with its ready date and the check of the tap’s line', async () => {
     const { keg } = await filledKeg();
-    const tap = await ctx.db.selectFrom('equipment').select(['id', 'attributes']).where('kind', '=', 'tap').where('state', '<>', 'out_of_service').orderBy('code').executeTakeFirstOrThrow();
-    const res = await brewer.post('/api/carbonation-plans', { kegId: keg.id, targetVolumes: 2.4, styleFamily: 'American ales and IPAs', method: 'set_and_hold', tapId: tap.id, startedAt: '2026-12-01T09:00:00+00:00' });
+    const tap = await ctx.db
+      .selectFrom('equipment')
+      .select(['id', 'attributes'])
+      .where('kind', '=', 'tap')
+      .where('state', '<>', 'out_of_service')
+      .orderBy('code')
+      .executeTakeFirstOrThrow();
+    const res = await brewer.post('/api/carbonation-plans', {
+      kegId: keg.id,
+      targetVolumes: 2.4,
+      styleFamily: 'American ales and IPAs',
+      method: 'set_and_hold',
+      tapId: tap.id,
+      startedAt: '2026-12-01T09:00:00+00:00',
+    });
     expect(res.status).toBe(201);
     const plan = res.body.plan;
-    expect(plan).toMatchObject({ state: 'active', method: 'set_and_hold', temperatureC: 3, holdDays: 14, readyAt: '2026-12-15T09:00:00.000Z', keg: { id: keg.id } });
+    expect(plan).toMatchObject({
+      state: 'active',
+      method: 'set_and_hold',
+      temperatureC: 3,
+      holdDays: 14,
+      readyAt: '2026-12-15T09:00:00.000Z',
+      keg: { id: keg.id },
+    });
     expect(plan.line).toMatchObject({ tapId: tap.id });
     expect(typeof plan.line.suits).toBe('boolean');
     expect(plan.line.balancedLengthM).toBeGreaterThan(0);

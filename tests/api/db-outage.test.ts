@@ -72,15 +72,31 @@ async function call(kind: Outcome['kind'], url: string, init: RequestInit = {}, 
     return { kind, name, t0, t1: performance.now(), status: res.status, type: res.headers.get('content-type') ?? '', body, retryAfter };
   } catch (err) {
     const cause = (err as Error & { cause?: { code?: string; message?: string } }).cause;
-    return { kind, name, t0, t1: performance.now(), status: 0, type: '', body: null, error: `${(err as Error).message}${cause ? ` (${cause.code ?? ''} ${cause.message ?? ''})` : ''} at ${Math.round(t0)}..${Math.round(performance.now())}` };
+    return {
+      kind,
+      name,
+      t0,
+      t1: performance.now(),
+      status: 0,
+      type: '',
+      body: null,
+      error: `${(err as Error).message}${cause ? ` (${cause.code ?? ''} ${cause.message ?? ''})` : ''} at ${Math.round(t0)}..${Math.round(performance.now())}`,
+    };
   }
 }
 
 /** A signed-in member: the session cookie and its CSRF token. */
 async function signIn(email: string) {
-  const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: PASSWORD }) });
+  const res = await fetch(`${base}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password: PASSWORD }),
+  });
   if (res.status !== 200) throw new Error(`sign-in as ${email}: ${res.status} ${await res.text()}`);
-  const cookie = res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  const cookie = res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
   const csrf = (await (await fetch(`${base}/api/auth/csrf`, { headers: { cookie } })).json()) as { token: string };
   return { email, cookie, csrf: csrf.token };
 }
@@ -161,7 +177,16 @@ describe('a database outage under load', () => {
       while (running) {
         const name = `Outage ${i}-${++seq}`;
         outcomes.push(
-          await call('write', '/api/batches', { method: 'POST', headers: { cookie: s.cookie, 'x-csrf-token': s.csrf, 'content-type': 'application/json' }, body: JSON.stringify({ name, volumeLiters: 20 }) }, name),
+          await call(
+            'write',
+            '/api/batches',
+            {
+              method: 'POST',
+              headers: { cookie: s.cookie, 'x-csrf-token': s.csrf, 'content-type': 'application/json' },
+              body: JSON.stringify({ name, volumeLiters: 20 }),
+            },
+            name,
+          ),
         );
         outcomes.push(await call('read', '/api/batches?pageSize=5', { headers: { cookie: s.cookie } }));
         await new Promise((r) => setTimeout(r, 25));
@@ -203,7 +228,10 @@ describe('a database outage under load', () => {
     const ms = (o: Outcome) => Math.round(o.t1 - o.t0);
     const unexpected = outcomes.filter((o) => !(o.status >= 200 && o.status < 300) && o.status !== 503);
     const marks = `stop ${Math.round(tStopCalled)}, down ${Math.round(tDown)}, start ${Math.round(tStartCalled)}, up ${Math.round(tUp)}`;
-    expect(unexpected.map((o) => `${o.kind} ${o.status} ${o.error ?? JSON.stringify(o.body)}`), `${marks}\n${report()}`).toEqual([]);
+    expect(
+      unexpected.map((o) => `${o.kind} ${o.status} ${o.error ?? JSON.stringify(o.body)}`),
+      `${marks}\n${report()}`,
+    ).toEqual([]);
     const slowest = Math.max(...outcomes.map(ms));
     expect(slowest).toBeLessThan(REQUEST_BOUND_MS);
     for (const o of outcomes.filter((x) => x.status === 503)) {
@@ -263,7 +291,11 @@ describe('a database outage under load', () => {
     }
 
     // 5. Queued work resumes on its own: a password-reset e-mail asked for after the outage is delivered.
-    const reset = await call('write', '/api/auth/password-reset', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'member4@example.org' }) });
+    const reset = await call('write', '/api/auth/password-reset', {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email: 'member4@example.org' }),
+    });
     expect(reset.status).toBe(202);
     const mail = new pg.Client({ connectionString: databaseUrl });
     await mail.connect();

@@ -32,7 +32,9 @@ const migrations = import.meta.glob<Migration>('../../db/migrations/*.ts', { eag
 const migrator = (db: Database) =>
   new Migrator({
     db,
-    provider: { getMigrations: () => Promise.resolve(Object.fromEntries(Object.entries(migrations).map(([file, m]) => [file.split('/').pop()!.replace(/\.ts$/, ''), m]))) },
+    provider: {
+      getMigrations: () => Promise.resolve(Object.fromEntries(Object.entries(migrations).map(([file, m]) => [file.split('/').pop()!.replace(/\.ts$/, ''), m]))),
+    },
   });
 const count = async (db: Database, query: ReturnType<typeof sql>) => Number(((await query.execute(db)).rows[0] as { n: string | number }).n);
 
@@ -87,7 +89,11 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         if (error) throw error as Error;
         if (timeZone) {
           const rules = await getBookingRules(db);
-          await db.updateTable('setting').set({ value: JSON.stringify({ ...rules, timeZone }) }).where('key', '=', 'booking_rules').execute();
+          await db
+            .updateTable('setting')
+            .set({ value: JSON.stringify({ ...rules, timeZone }) })
+            .where('key', '=', 'booking_rules')
+            .execute();
         }
         const ran = await runSeeds(db, { today });
         expect(ran).toContain('0006_billing');
@@ -101,7 +107,7 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
         await admin.end();
       });
 
-      it('is seeded as of SEED_TODAY when set, and otherwise as of the date in the co-op\'s time zone', async () => {
+      it("is seeded as of SEED_TODAY when set, and otherwise as of the date in the co-op's time zone", async () => {
         expect(await seedToday(db, { SEED_TODAY: today }, new Date('2020-01-01T12:00:00Z'))).toBe(today);
         const lateEvening = new Date(`${addDays(today, -1)}T23:30:00Z`);
         expect(await seedToday(db, {}, lateEvening)).toBe(timeZone === 'Europe/Berlin' ? today : addDays(today, -1));
@@ -178,7 +184,10 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
       it('has bookings in use and coming up, and the demo member has both and a batch fermenting now', async () => {
         const current = await count(db, sql`select count(*) as n from booking where state in ('in_use', 'booked') and ends_at > ${now}`);
         expect(current).toBeGreaterThan(0);
-        const soon = await count(db, sql`select count(*) as n from booking where state = 'booked' and starts_at > ${now} and starts_at <= ${new Date(now.getTime() + 30 * DAY)}`);
+        const soon = await count(
+          db,
+          sql`select count(*) as n from booking where state = 'booked' and starts_at > ${now} and starts_at <= ${new Date(now.getTime() + 30 * DAY)}`,
+        );
         expect(soon).toBeGreaterThan(0);
         const inUse = await count(db, sql`select count(*) as n from booking where state = 'in_use' and (starts_at > ${now} or ends_at <= ${now})`);
         expect(inUse).toBe(0);
@@ -243,7 +252,9 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
           .where('kf.emptied_at', 'is', null)
           .execute();
         const batchIds = [...new Set(kegs.map((k) => k.batch_id))];
-        const both = batchIds.filter((id) => kegs.some((k) => k.batch_id === id && k.whereabouts === 'with_member') && kegs.some((k) => k.batch_id === id && k.tap_id));
+        const both = batchIds.filter(
+          (id) => kegs.some((k) => k.batch_id === id && k.whereabouts === 'with_member') && kegs.some((k) => k.batch_id === id && k.tap_id),
+        );
         expect(both.length).toBeGreaterThan(0);
         expect(await count(db, sql`select count(*) as n from keg_fill where best_before is null`)).toBe(0);
         const section = await cellarSection(db, now, true);
@@ -251,8 +262,7 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
       });
 
       it('records nothing after its today (only plans lie ahead)', async () => {
-        const after = async (table: string, column: string) =>
-          count(db, sql`select count(*) as n from ${sql.table(table)} where ${sql.ref(column)} > ${now}`);
+        const after = async (table: string, column: string) => count(db, sql`select count(*) as n from ${sql.table(table)} where ${sql.ref(column)} > ${now}`);
         for (const [table, column] of [
           ['reading', 'taken_at'],
           ['transfer', 'transferred_at'],
@@ -273,7 +283,10 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
           expect(await count(db, sql`select count(*) as n from ${sql.table(table)} where ${sql.ref(column)} > ${today}::date`), `${table}.${column}`).toBe(0);
         }
         // The history reaches back about three months, and its users and registry before it.
-        const first = await db.selectFrom('booking').select((eb) => eb.fn.min('starts_at').as('first')).executeTakeFirstOrThrow();
+        const first = await db
+          .selectFrom('booking')
+          .select((eb) => eb.fn.min('starts_at').as('first'))
+          .executeTakeFirstOrThrow();
         expect((now.getTime() - new Date(first.first).getTime()) / DAY).toBeGreaterThan(80);
       });
 

@@ -39,7 +39,7 @@ function pdfFacts(pdf: Buffer): { text: string; pages: number; pageSize: string 
 }
 
 describe('the equipment list', () => {
-  it('lists the co-op\'s equipment, paged, for any signed-in person', async () => {
+  it("lists the co-op's equipment, paged, for any signed-in person", async () => {
     const member = await ctx.signIn('member@example.org');
     const res = await member.get('/api/equipment?pageSize=20');
     expect(res.status).toBe(200);
@@ -85,7 +85,7 @@ describe('the equipment list', () => {
   });
 });
 
-describe('an item\'s page', () => {
+describe("an item's page", () => {
   it('shows the item with its history of states and its upcoming bookings, owners hidden from members', async () => {
     // F-02 cleaned one day, sanitized the next, then filled with another member's batch; a later booking of it.
     const now = ctx.clock.now().getTime();
@@ -98,7 +98,13 @@ describe('an item\'s page', () => {
       readings: [{ takenAt: new Date(now - 4 * DAY + HOUR), value: 1.052 }],
       fermenter: { equipmentId: f02Id, startsAt: new Date(now - 4 * DAY), endsAt: new Date(now + 10 * DAY), now: new Date(now) },
     });
-    await createBooking(ctx.db, { equipmentId: f02Id, ownerId: fixtureUserId('member3'), startsAt: new Date(now + 12 * DAY), endsAt: new Date(now + 30 * DAY), now: new Date(now) });
+    await createBooking(ctx.db, {
+      equipmentId: f02Id,
+      ownerId: fixtureUserId('member3'),
+      startsAt: new Date(now + 12 * DAY),
+      endsAt: new Date(now + 30 * DAY),
+      now: new Date(now),
+    });
 
     const member = await ctx.signIn('member@example.org');
     const list = await member.get('/api/equipment?q=F-02');
@@ -142,7 +148,12 @@ describe('changing states', () => {
       reason: 'Soaked in alkaline cleaner and rinsed',
       actor: { id: brewer.user.id, name: brewer.user.name },
     });
-    const row = await ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', keg.id).orderBy('at', 'desc').executeTakeFirstOrThrow();
+    const row = await ctx.db
+      .selectFrom('equipment_state_change')
+      .selectAll()
+      .where('equipment_id', '=', keg.id)
+      .orderBy('at', 'desc')
+      .executeTakeFirstOrThrow();
     expect(row).toMatchObject({ to_state: 'cleaned', actor_id: brewer.user.id });
     const auditRow = await ctx.db.selectFrom('audit_log').selectAll().where('subject_id', '=', keg.id).where('action', '=', 'state_changed').executeTakeFirst();
     expect(auditRow).toBeTruthy();
@@ -170,7 +181,7 @@ describe('changing states', () => {
 });
 
 describe('the registry (admin)', () => {
-  it('lets the admin add an item with its kind\'s attributes, and refuses a taken code', async () => {
+  it("lets the admin add an item with its kind's attributes, and refuses a taken code", async () => {
     const admin = await ctx.signIn('admin@example.org');
     const body = { code: 'K-061', kind: 'keg', name: '19 L ball lock keg 61', capacityLiters: 19, attributes: { serial: 'LY19-B01427', lock: 'ball' } };
     const res = await admin.post('/api/equipment', body);
@@ -198,7 +209,16 @@ describe('the registry (admin)', () => {
     for (const email of ['brewer@example.org', 'member@example.org']) {
       const api = await ctx.signIn(email);
       expect((await api.patch(`/api/equipment/${tap.id}`, { notes: 'x' })).status).toBe(403);
-      expect((await api.post('/api/equipment', { code: 'T-9', kind: 'tap', name: 'Tap 9', attributes: { position: 'x', lineLengthM: 3, lineInsideDiameterMm: 4.8 } })).status).toBe(403);
+      expect(
+        (
+          await api.post('/api/equipment', {
+            code: 'T-9',
+            kind: 'tap',
+            name: 'Tap 9',
+            attributes: { position: 'x', lineLengthM: 3, lineInsideDiameterMm: 4.8 },
+          })
+        ).status,
+      ).toBe(403);
     }
   });
 });
@@ -240,7 +260,7 @@ describe('QR label sheets', () => {
 });
 
 describe('the next free code (admin hint for the add form)', () => {
-  it('suggests one past the highest code of each kind, padded like that kind\'s codes', async () => {
+  it("suggests one past the highest code of each kind, padded like that kind's codes", async () => {
     const admin = await ctx.signIn('admin@example.org');
     const codes: Record<string, string> = {};
     for (const kind of ['fermenter', 'keg', 'tap', 'co2_cylinder']) {
@@ -265,7 +285,7 @@ describe('the next free code (admin hint for the add form)', () => {
     expect((await admin.get('/api/equipment/next-code?kind=tap')).body.code).toBe('T-6');
   });
 
-  it('is the admin\'s only and needs a known kind', async () => {
+  it("is the admin's only and needs a known kind", async () => {
     const admin = await ctx.signIn('admin@example.org');
     expect((await admin.get('/api/equipment/next-code?kind=barrel')).status).toBe(422);
     expect((await admin.get('/api/equipment/next-code')).status).toBe(422);

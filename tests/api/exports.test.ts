@@ -81,7 +81,13 @@ beforeAll(async () => {
   }
   await createManualCharge(ctx.db, { memberId: member.id, period, amountCents: -350, description: 'Credit for a returned keg', reason: 'returned' });
   const invoice = await createInvoice(ctx.db, { memberId: member.id, period, today });
-  const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, { amountCents: 300, method: 'bank_transfer', receivedOn: today, reference: hostile.reference, note: hostile.note });
+  const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, {
+    amountCents: 300,
+    method: 'bank_transfer',
+    receivedOn: today,
+    reference: hostile.reference,
+    note: hostile.note,
+  });
   expect(paid.status).toBe(201);
   // A refund: a credit note (its reason typed) and a payment back, a negative amount.
   const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { amountCents: 150, reason: hostile.reason, refundMethod: 'cash' });
@@ -183,8 +189,14 @@ describe('spreadsheet exports', () => {
       for (const t of text) seen.add(t);
       if (e.name.startsWith('ledger')) {
         // The credit line and the refund are negative numbers, written as numbers.
-        expect(numbers.some((n) => n < 0), `${e.name}: negative amounts`).toBe(true);
-        expect(text.some((t) => /^'?-\d/.test(t) && PLAIN_NUMBER.test(t.replace(/^'/, ''))), `${e.name}: no number written as text`).toBe(false);
+        expect(
+          numbers.some((n) => n < 0),
+          `${e.name}: negative amounts`,
+        ).toBe(true);
+        expect(
+          text.some((t) => /^'?-\d/.test(t) && PLAIN_NUMBER.test(t.replace(/^'/, ''))),
+          `${e.name}: no number written as text`,
+        ).toBe(false);
       }
       if (e.name.startsWith('production')) {
         // 18.5 L each, and the name that is just a number is still that number.
@@ -195,7 +207,20 @@ describe('spreadsheet exports', () => {
     }
     // What was typed arrives, escaped and otherwise whole, in the files.
     const escaped = (s: string) => `'${s}`;
-    for (const s of [hostile.member, hostile.batch1, hostile.style1, hostile.batch2, hostile.style2, hostile.batch3, hostile.style3, hostile.batch4, ...hostile.charges, hostile.reference, hostile.note, hostile.reason]) {
+    for (const s of [
+      hostile.member,
+      hostile.batch1,
+      hostile.style1,
+      hostile.batch2,
+      hostile.style2,
+      hostile.batch3,
+      hostile.style3,
+      hostile.batch4,
+      ...hostile.charges,
+      hostile.reference,
+      hostile.note,
+      hostile.reason,
+    ]) {
       expect(seen.has(escaped(s)), `${JSON.stringify(s)} escaped`).toBe(true);
     }
   });

@@ -30,7 +30,10 @@ beforeAll(async () => {
 
   // Three hand-overs within a day: one vessel ready, two not.
   for (const [i, id] of [made.clean, made.dirty, made.lapsed].entries()) {
-    made.handovers.push((await createBooking(ctx.db, { ownerId: member, equipmentId: id, startsAt: new Date(t(0).getTime() + (2 + i * 5) * HOUR), endsAt: t(3 + i), now: t(0) })).id);
+    made.handovers.push(
+      (await createBooking(ctx.db, { ownerId: member, equipmentId: id, startsAt: new Date(t(0).getTime() + (2 + i * 5) * HOUR), endsAt: t(3 + i), now: t(0) }))
+        .id,
+    );
   }
 
   // Eight readings falling steadily, a day apart, the last an hour ago; and the same curve stopped a month ago.

@@ -31,7 +31,8 @@ function appRoutes(app: Express): RouteInfo[] {
         const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
         for (const p of paths) {
           for (const m of Object.keys(layer.route.methods)) {
-            if (['get', 'post', 'put', 'patch', 'delete'].includes(m)) out.push({ method: m as RouteInfo['method'], path: `${prefix}${p === '/' ? '' : p}` || '/' });
+            if (['get', 'post', 'put', 'patch', 'delete'].includes(m))
+              out.push({ method: m as RouteInfo['method'], path: `${prefix}${p === '/' ? '' : p}` || '/' });
           }
         }
       } else if (layer.handle?.stack && typeof layer.rawPath === 'string') {
@@ -161,7 +162,17 @@ describe('ids in the address', () => {
 
 describe('control characters', () => {
   it('refuses ?q=%00 (and other C0 controls, DEL) with 422 naming q on every list route, and on every other GET', async () => {
-    const searchLists = ['/api/batches', '/api/invoices', '/api/equipment', '/api/kegs', '/api/kegs/overdue', '/api/sanitation-cycles', '/api/sanitation-status', '/api/transfers', '/api/users'];
+    const searchLists = [
+      '/api/batches',
+      '/api/invoices',
+      '/api/equipment',
+      '/api/kegs',
+      '/api/kegs/overdue',
+      '/api/sanitation-cycles',
+      '/api/sanitation-status',
+      '/api/transfers',
+      '/api/users',
+    ];
     for (const path of searchLists) {
       // The search itself works.
       const ok = await admin.get(`${path}?q=${encodeURIComponent('café 🍺 50%_')}`);
@@ -226,11 +237,36 @@ describe('control characters', () => {
     const brewer = await ctx.signIn('brewer@example.org');
     const treasurer = await ctx.signIn('treasurer@example.org');
     const counts = async () => ({
-      batches: (await ctx.db.selectFrom('batch').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n,
-      readings: (await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n,
-      cycles: (await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n,
-      charges: (await ctx.db.selectFrom('manual_charge').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n,
-      bookings: (await ctx.db.selectFrom('booking').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n,
+      batches: (
+        await ctx.db
+          .selectFrom('batch')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+      readings: (
+        await ctx.db
+          .selectFrom('reading')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+      cycles: (
+        await ctx.db
+          .selectFrom('sanitation_cycle')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+      charges: (
+        await ctx.db
+          .selectFrom('manual_charge')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+      bookings: (
+        await ctx.db
+          .selectFrom('booking')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
     });
     const before = await counts();
     const cases: [Promise<{ status: number; headers: Record<string, string>; body: { status?: number; errors?: unknown[] } }>, string][] = [
@@ -240,10 +276,19 @@ describe('control characters', () => {
       [client.post(`/api/batches/${batch.id}/readings`, { takenAt: '2026-11-20T09:00:00Z', gravity: 1.05, unit: 'sg', note: 'a\u0008b' }), 'note'],
       [client.post('/api/bookings', { equipmentId: fermenter.id, startsAt: '2027-02-01T10:00:00Z', endsAt: '2027-02-03T10:00:00Z', notes: '\u001f' }), 'notes'],
       [
-        brewer.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: [{ step: 'clean', at: '2026-11-20T09:00:00Z', note: 'fine' }, { step: 'rinse', at: '2026-11-20T09:10:00Z', note: 'x\u0000' }] }),
+        brewer.post('/api/sanitation-cycles', {
+          equipmentId: keg.id,
+          steps: [
+            { step: 'clean', at: '2026-11-20T09:00:00Z', note: 'fine' },
+            { step: 'rinse', at: '2026-11-20T09:10:00Z', note: 'x\u0000' },
+          ],
+        }),
         'steps.1.note',
       ],
-      [treasurer.post('/api/manual-charges', { memberId: owner.id, period: '2026-11', description: 'Hops\u0000', reason: 'typed', amountCents: 100 }), 'description'],
+      [
+        treasurer.post('/api/manual-charges', { memberId: owner.id, period: '2026-11', description: 'Hops\u0000', reason: 'typed', amountCents: 100 }),
+        'description',
+      ],
       [client.patch('/api/auth/me', { name: 'Name\u007f' }), 'name'],
       [admin.put('/api/settings/booking_rules', { ['key\u0000']: 1 }), 'key\u0000'],
       [admin.put('/api/settings/booking_rules', { nested: { deeper: ['ok', 'lone \udc00 half'] } }), 'nested.deeper.1'],

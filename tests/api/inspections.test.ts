@@ -46,9 +46,21 @@ describe('POST /api/equipment/:id/inspections and GET /api/equipment/:id', () =>
   it('records an inspection (201) and the item lists its inspections newest first with when each kind is due', async () => {
     const [keg] = await takeKegs(1);
     const due = ahead(700);
-    const first = await brewer.post(`/api/equipment/${keg!.id}/inspections`, { kind: 'pressure_test', at: ago(30), passed: true, nextDueAt: due, note: 'Held 60 psi for 10 minutes' });
+    const first = await brewer.post(`/api/equipment/${keg!.id}/inspections`, {
+      kind: 'pressure_test',
+      at: ago(30),
+      passed: true,
+      nextDueAt: due,
+      note: 'Held 60 psi for 10 minutes',
+    });
     expect(first.status).toBe(201);
-    expect(first.body.inspection).toMatchObject({ kind: 'pressure_test', passed: true, nextDueAt: due, note: 'Held 60 psi for 10 minutes', recordedBy: { id: brewer.user.id } });
+    expect(first.body.inspection).toMatchObject({
+      kind: 'pressure_test',
+      passed: true,
+      nextDueAt: due,
+      note: 'Held 60 psi for 10 minutes',
+      recordedBy: { id: brewer.user.id },
+    });
     // No next date given: the co-op's interval for the kind (relief valves: 12 months, Settings "Pressure vessels and gas").
     const second = await admin.post(`/api/equipment/${keg!.id}/inspections`, { kind: 'relief_valve', at: '2026-11-20T10:00:00Z', passed: true });
     expect(second.status).toBe(201);
@@ -69,7 +81,10 @@ describe('POST /api/equipment/:id/inspections and GET /api/equipment/:id', () =>
   it('refuses what does not fit (422) and those not on the rota (403), changing nothing', async () => {
     const [keg] = await takeKegs(1);
     const tap = await createTap(ctx.db);
-    const before = await ctx.db.selectFrom('equipment_inspection').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const before = await ctx.db
+      .selectFrom('equipment_inspection')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     const cases: [ApiClient, string, object, number][] = [
       [brewer, tap.id, { kind: 'pressure_test', at: ago(1), passed: true }, 422],
       [brewer, keg!.id, { kind: 'hydrostatic_test', at: ago(1), passed: true }, 422],
@@ -83,7 +98,10 @@ describe('POST /api/equipment/:id/inspections and GET /api/equipment/:id', () =>
       expect(res.status, JSON.stringify(body)).toBe(status);
       expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
     }
-    const after = await ctx.db.selectFrom('equipment_inspection').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const after = await ctx.db
+      .selectFrom('equipment_inspection')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     expect(after.n).toBe(before.n);
   });
 });
@@ -94,12 +112,18 @@ describe('an item past an inspection, or failing one, is not filled or carbonate
     const keg = await overdueKeg();
     const [fresh] = await takeKegs(1);
     await makeReady(brewer, [fresh!.id], ctx.clock);
-    const before = { transfers: await count(ctx, 'transfer'), fills: await count(ctx, 'keg_fill'), states: await states(ctx, [keg.id, fresh!.id, batch.fermenterId]) };
+    const before = {
+      transfers: await count(ctx, 'transfer'),
+      fills: await count(ctx, 'keg_fill'),
+      states: await states(ctx, [keg.id, fresh!.id, batch.fermenterId]),
+    };
 
     const refused = await brewer.post('/api/transfers', transferBody(batch, [fresh!.id, keg.id]));
     expect(refused.status).toBe(409);
     expect(refused.body.detail).toContain(`${keg.code} (pressure test was due ${dayOf(ago(1))})`);
-    expect(refused.body.blocked).toEqual([expect.objectContaining({ equipmentId: keg.id, inspections: [expect.objectContaining({ kind: 'pressure_test', reason: 'overdue' })] })]);
+    expect(refused.body.blocked).toEqual([
+      expect.objectContaining({ equipmentId: keg.id, inspections: [expect.objectContaining({ kind: 'pressure_test', reason: 'overdue' })] }),
+    ]);
     expect(await count(ctx, 'transfer')).toBe(before.transfers);
     expect(await count(ctx, 'keg_fill')).toBe(before.fills);
     expect(await states(ctx, [keg.id, fresh!.id, batch.fermenterId])).toEqual(before.states);
@@ -121,7 +145,11 @@ describe('an item past an inspection, or failing one, is not filled or carbonate
     expect(failed.body.inspection.nextDueAt).toBeNull();
     expect(failed.body.equipment.state).toBe('out_of_service');
     const page = await brewer.get(`/api/equipment/${keg!.id}`);
-    expect(page.body.history[0]).toMatchObject({ fromState: 'ready', toState: 'out_of_service', reason: 'Inspection failed: relief-valve check (Valve stuck shut)' });
+    expect(page.body.history[0]).toMatchObject({
+      fromState: 'ready',
+      toState: 'out_of_service',
+      reason: 'Inspection failed: relief-valve check (Valve stuck shut)',
+    });
     expect(page.body.inspectionsDue).toEqual([expect.objectContaining({ kind: 'relief_valve', failed: true })]);
 
     const batch = await takeBatch();
@@ -133,7 +161,11 @@ describe('an item past an inspection, or failing one, is not filled or carbonate
     expect(passed.status).toBe(201);
     expect(passed.body.equipment.state).toBe('needs_cleaning');
     const after = await brewer.get(`/api/equipment/${keg!.id}`);
-    expect(after.body.history[0]).toMatchObject({ fromState: 'out_of_service', toState: 'needs_cleaning', reason: 'Back in service: relief-valve check passed' });
+    expect(after.body.history[0]).toMatchObject({
+      fromState: 'out_of_service',
+      toState: 'needs_cleaning',
+      reason: 'Back in service: relief-valve check passed',
+    });
     await makeReady(brewer, [keg!.id], ctx.clock);
     expect((await brewer.post('/api/transfers', transferBody(batch, [keg!.id]))).status).toBe(201);
   });
@@ -165,11 +197,21 @@ describe('an item past an inspection, or failing one, is not filled or carbonate
     expect(await applyInspectionLapses(ctx.db, ctx.clock.now())).toBeGreaterThanOrEqual(1);
     const page = await brewer.get(`/api/equipment/${idle!.id}`);
     expect(page.body.equipment.state).toBe('out_of_service');
-    expect(page.body.history[0]).toMatchObject({ fromState: 'ready', toState: 'out_of_service', reason: `Inspection past due: pressure test was due ${dayOf(ago(0.2))}` });
+    expect(page.body.history[0]).toMatchObject({
+      fromState: 'ready',
+      toState: 'out_of_service',
+      reason: `Inspection past due: pressure test was due ${dayOf(ago(0.2))}`,
+    });
     // A keg holding beer keeps its state; the refusals still stop it being carbonated.
     expect((await brewer.get(`/api/equipment/${full!.id}`)).body.equipment.state).toBe('holding');
     // A second pass writes nothing more.
-    const historyRows = async () => (await ctx.db.selectFrom('equipment_state_change').select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow()).n;
+    const historyRows = async () =>
+      (
+        await ctx.db
+          .selectFrom('equipment_state_change')
+          .select((eb) => eb.fn.countAll<string>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n;
     const rows = await historyRows();
     expect(await applyInspectionLapses(ctx.db, ctx.clock.now())).toBe(0);
     expect(await historyRows()).toBe(rows);
@@ -177,7 +219,10 @@ describe('an item past an inspection, or failing one, is not filled or carbonate
     const passed = await brewer.post(`/api/equipment/${idle!.id}/inspections`, { kind: 'pressure_test', at: ago(0.01), passed: true });
     expect(passed.status).toBe(201);
     expect(passed.body.equipment.state).toBe('needs_cleaning');
-    expect((await brewer.get(`/api/equipment/${idle!.id}`)).body.history[0]).toMatchObject({ toState: 'needs_cleaning', reason: 'Back in service: pressure test passed' });
+    expect((await brewer.get(`/api/equipment/${idle!.id}`)).body.history[0]).toMatchObject({
+      toState: 'needs_cleaning',
+      reason: 'Back in service: pressure test passed',
+    });
   });
 });
 
@@ -216,9 +261,24 @@ describe('CO2 cylinders: contents, the gas line and test dates', () => {
     // Two kegs with 80 g recorded for the fill: 40 g each off the cylinder.
     const batch = await takeBatch();
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock); // two purges at the co-op's 15 g
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    ); // two purges at the co-op's 15 g
     expect(await cylinderKg(c1.id)).toBe(8.97);
-    expect((await brewer.post('/api/transfers', transferBody(batch, kegs.map((k) => k.id), { co2Grams: 80 }))).status).toBe(201);
+    expect(
+      (
+        await brewer.post(
+          '/api/transfers',
+          transferBody(
+            batch,
+            kegs.map((k) => k.id),
+            { co2Grams: 80 },
+          ),
+        )
+      ).status,
+    ).toBe(201);
     const page = await brewer.get(`/api/equipment/${c1.id}`);
     expect(page.body.cylinder.remainingKg).toBe(8.89);
     expect(page.body.equipment.attributes.fillPercent).toBe(88.9);
@@ -269,7 +329,12 @@ describe('CO2 cylinders: contents, the gas line and test dates', () => {
     expect(booking.status).toBe(409);
     expect(await ctx.db.selectFrom('co2_cylinder_supply').select('cylinder_id').where('cylinder_id', '=', old.id).executeTakeFirst()).toBeUndefined();
 
-    const test = await brewer.post(`/api/equipment/${old.id}/inspections`, { kind: 'hydrostatic_test', at: ago(0.01), passed: true, nextDueAt: '2031-12-01T00:00:00Z' });
+    const test = await brewer.post(`/api/equipment/${old.id}/inspections`, {
+      kind: 'hydrostatic_test',
+      at: ago(0.01),
+      passed: true,
+      nextDueAt: '2031-12-01T00:00:00Z',
+    });
     expect(test.status).toBe(201);
     expect(test.body.equipment.attributes.hydroTestDue).toBe('2031-11-30');
     expect((await brewer.post(`/api/equipment/${old.id}/connect`, {})).status).toBe(200);
@@ -313,7 +378,12 @@ describe('maintenance list and Today', () => {
     ]);
     expect(all.body.total).toBe(3);
     const paged = await brewer.get('/api/equipment/maintenance?q=K-77&sort=code&order=desc&pageSize=2&page=2');
-    expect(paged.body).toMatchObject({ total: 3, page: 2, pageSize: 2, items: [expect.objectContaining({ equipment: expect.objectContaining({ code: 'K-7701' }) })] });
+    expect(paged.body).toMatchObject({
+      total: 3,
+      page: 2,
+      pageSize: 2,
+      items: [expect.objectContaining({ equipment: expect.objectContaining({ code: 'K-7701' }) })],
+    });
     const onlyOverdue = await brewer.get('/api/equipment/maintenance?q=K-77&status=overdue');
     expect(onlyOverdue.body.items.map((i: { equipment: { code: string } }) => i.equipment.code)).toEqual(['K-7701']);
     expect((await brewer.get('/api/equipment/maintenance?sort=nope')).status).toBe(422);

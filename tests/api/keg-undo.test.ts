@@ -127,7 +127,13 @@ describe('undo of an emptying or a dump', () => {
 
     const undone = await brewer.post(`/api/kegs/${keg.id}/undo`, {});
     expect(undone.status, JSON.stringify(undone.body)).toBe(200);
-    expect(undone.body.keg).toMatchObject({ state: 'holding', whereabouts: 'cold_room', tap: { id: tap.id }, contents: { fillId, remainingLiters: 11.5 }, carbonation: { planId } });
+    expect(undone.body.keg).toMatchObject({
+      state: 'holding',
+      whereabouts: 'cold_room',
+      tap: { id: tap.id },
+      contents: { fillId, remainingLiters: 11.5 },
+      carbonation: { planId },
+    });
     const tapNow = await ctx.db.selectFrom('equipment').select('state').where('id', '=', tap.id).executeTakeFirstOrThrow();
     expect(tapNow.state).toBe('holding');
   });

@@ -31,8 +31,18 @@ const inDays = (d: number) => new Date(ctx.clock.now().getTime() + d * DAY).toIS
 async function filledKegs(n: number) {
   const batch = await takeBatch();
   const kegs = await takeKegs(n);
-  await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
-  const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), volumeLiters: 19 * n, checklist: fullChecklist });
+  await makeReady(
+    brewer,
+    kegs.map((k) => k.id),
+    ctx.clock,
+  );
+  const res = await brewer.post('/api/transfers', {
+    batchId: batch.batchId,
+    fromEquipmentId: batch.fermenterId,
+    toKegIds: kegs.map((k) => k.id),
+    volumeLiters: 19 * n,
+    checklist: fullChecklist,
+  });
   if (res.status !== 201) throw new Error(JSON.stringify(res.body));
   return { batch, kegs };
 }
@@ -72,7 +82,11 @@ describe('check-out and return', () => {
     const { kegs } = await filledKegs(1);
     const keg = kegs[0]!;
     await brewer.post(`/api/kegs/${keg.id}/check-out`, { memberId: member2.user.id, dueAt: inDays(3) });
-    await ctx.db.updateTable('keg_whereabouts').set({ due_at: new Date(ctx.clock.now().getTime() - 2 * DAY) }).where('keg_id', '=', keg.id).execute();
+    await ctx.db
+      .updateTable('keg_whereabouts')
+      .set({ due_at: new Date(ctx.clock.now().getTime() - 2 * DAY) })
+      .where('keg_id', '=', keg.id)
+      .execute();
     const overdue = await brewer.get('/api/kegs/overdue');
     expect(overdue.status).toBe(200);
     const hit = overdue.body.items.find((k: { id: string }) => k.id === keg.id);
@@ -85,7 +99,12 @@ describe('check-out and return', () => {
     const back = await brewer.post(`/api/kegs/${keg.id}/return`, { note: 'Two days late' });
     expect(back.status).toBe(200);
     expect(back.body.keg).toMatchObject({ whereabouts: 'cellar', state: 'needs_cleaning', contents: null, member: null, dueAt: null });
-    const fill = await ctx.db.selectFrom('keg_fill').select(['emptied_at', 'emptied_reason']).where('keg_id', '=', keg.id).orderBy('filled_at', 'desc').executeTakeFirstOrThrow();
+    const fill = await ctx.db
+      .selectFrom('keg_fill')
+      .select(['emptied_at', 'emptied_reason'])
+      .where('keg_id', '=', keg.id)
+      .orderBy('filled_at', 'desc')
+      .executeTakeFirstOrThrow();
     expect(fill.emptied_reason).toBe('returned');
     expect(fill.emptied_at).not.toBeNull();
     expect((await brewer.post(`/api/kegs/${keg.id}/return`, {})).status).toBe(409);
@@ -152,7 +171,9 @@ describe('a keg’s page', () => {
     const res = await brewer.get(`/api/kegs/${keg.id}/history`);
     expect(res.status).toBe(200);
     const titles = res.body.items.map((e: { title: string }) => e.title);
-    expect(titles).toEqual(expect.arrayContaining(['Sanitation cycle, complete', `Filled with ${batch.name}`, 'Checked out', 'Returned', 'State: needs cleaning', 'State: holding']));
+    expect(titles).toEqual(
+      expect.arrayContaining(['Sanitation cycle, complete', `Filled with ${batch.name}`, 'Checked out', 'Returned', 'State: needs cleaning', 'State: holding']),
+    );
     // Newest first.
     const times = res.body.items.map((e: { at: string }) => e.at);
     expect([...times].sort().reverse()).toEqual(times);

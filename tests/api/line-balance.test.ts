@@ -30,7 +30,9 @@ async function tapRecord(id: string) {
 
 describe('the line of a tap', () => {
   it('balances the common line (3/16" vinyl, 0.6 m rise) at about 1.75 m for the house ale, so 1.8 m suits', async () => {
-    const tap = await createTap(ctx.db, { attributes: { position: 'Cold room, test board, 1', lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 } });
+    const tap = await createTap(ctx.db, {
+      attributes: { position: 'Cold room, test board, 1', lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 },
+    });
     const res = await brewer.post('/api/carbonation-plans/preview', { ...houseAle, tapId: tap.id });
     expect(res.status).toBe(200);
     expect(res.body.plan.line).toMatchObject({ tapId: tap.id, tubing: 'vinyl-3/16', suits: true });
@@ -40,7 +42,9 @@ describe('the line of a tap', () => {
   });
 
   it('lets the admin set the line material and the measured resistance per tap, and the planner uses them', async () => {
-    const tap = await createTap(ctx.db, { attributes: { position: 'Cold room, test board, 2', lineLengthM: 1.5, lineInsideDiameterMm: 4.76, riseM: 0, coldRoomTempC: 3 } });
+    const tap = await createTap(ctx.db, {
+      attributes: { position: 'Cold room, test board, 2', lineLengthM: 1.5, lineInsideDiameterMm: 4.76, riseM: 0, coldRoomTempC: 3 },
+    });
     const set = await admin.patch(`/api/equipment/${tap.id}`, { attributes: { lineMaterial: 'polyethylene' } });
     expect(set.status).toBe(200);
     expect(set.body.equipment.attributes).toMatchObject({ lineMaterial: 'polyethylene', lineLengthM: 1.5, lineInsideDiameterMm: 4.76 });
@@ -65,7 +69,9 @@ describe('the line of a tap', () => {
   });
 
   it('refuses an unknown material or an impossible resistance and changes nothing; only the admin may set them', async () => {
-    const tap = await createTap(ctx.db, { attributes: { position: 'Cold room, test board, 3', lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 } });
+    const tap = await createTap(ctx.db, {
+      attributes: { position: 'Cold room, test board, 3', lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 },
+    });
     const before = await tapRecord(tap.id);
     for (const attributes of [{ lineMaterial: 'copper' }, { lineResistanceKpaPerM: 0 }, { lineResistanceKpaPerM: 500 }, { lineResistanceKpaPerM: 'high' }]) {
       const res = await admin.patch(`/api/equipment/${tap.id}`, { attributes });
@@ -81,7 +87,9 @@ describe('the line of a tap', () => {
 
 describe('the line checked in the planner', () => {
   it('takes another line type and resistance for a tap, and the saved plan remembers the material', async () => {
-    const tap = await createTap(ctx.db, { attributes: { position: 'Cold room, test board, 4', lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 } });
+    const tap = await createTap(ctx.db, {
+      attributes: { position: 'Cold room, test board, 4', lineLengthM: 1.8, lineInsideDiameterMm: 4.8, riseM: 0.6, coldRoomTempC: 3 },
+    });
     const line = { lengthM: 1.8, insideDiameterMm: 4.76, riseM: 0.6, material: 'barrier', resistanceKpaPerM: psiPerFt(2.2) };
     const preview = await brewer.post('/api/carbonation-plans/preview', { ...houseAle, tapId: tap.id, line });
     expect(preview.status).toBe(200);
@@ -90,7 +98,13 @@ describe('the line checked in the planner', () => {
     const batch = await takeBatch();
     const [keg] = await takeKegs(1);
     await makeReady(brewer, [keg!.id], ctx.clock);
-    const filled = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [keg!.id], volumeLiters: 19, checklist: fullChecklist });
+    const filled = await brewer.post('/api/transfers', {
+      batchId: batch.batchId,
+      fromEquipmentId: batch.fermenterId,
+      toKegIds: [keg!.id],
+      volumeLiters: 19,
+      checklist: fullChecklist,
+    });
     expect(filled.status).toBe(201);
     const saved = await brewer.post('/api/carbonation-plans', { kegId: keg!.id, ...houseAle, tapId: tap.id, line });
     expect(saved.status).toBe(201);

@@ -192,7 +192,10 @@ describe('one open checkout per invoice', () => {
     const { member, invoiceId } = await payer('Dora Database');
     await member.post(`/api/invoices/${invoiceId}/checkout`);
     await expect(
-      ctx.db.insertInto('checkout_session').values({ id: 'cs_test_second_open', invoice_id: invoiceId, amount_cents: DUE, currency: 'EUR', url: 'http://x' }).execute(),
+      ctx.db
+        .insertInto('checkout_session')
+        .values({ id: 'cs_test_second_open', invoice_id: invoiceId, amount_cents: DUE, currency: 'EUR', url: 'http://x' })
+        .execute(),
     ).rejects.toMatchObject({ code: '23505', constraint: 'checkout_session_one_open_per_invoice_key' });
   });
 
@@ -228,7 +231,12 @@ describe('paid twice', () => {
     });
     await pay(a.body.url);
     await pay(b.url!);
-    expect(fake.deliveries.filter((d) => d.type === 'checkout.session.completed').slice(-2).map((d) => d.status)).toEqual([200, 200]);
+    expect(
+      fake.deliveries
+        .filter((d) => d.type === 'checkout.session.completed')
+        .slice(-2)
+        .map((d) => d.status),
+    ).toEqual([200, 200]);
     expect(await books(invoiceId)).toEqual({ status: 'paid', due: 0, paid: DUE, received: 2 * DUE, overpaid: DUE, payments: 2 });
     const events = await ctx.db.selectFrom('payment_event').select(['outcome']).where('invoice_id', '=', invoiceId).orderBy('received_at').execute();
     expect(events.map((e) => e.outcome)).toEqual(['paid', 'overpaid']);
@@ -257,7 +265,10 @@ describe('paid twice', () => {
     expect((await member.get('/api/billing/overpayments')).status).toBe(403);
 
     // Paid back by the treasurer: no longer owed, once.
-    const refunded = await treasurer.post(`/api/billing/overpayments/${mine[0].paymentId}/refunded`, { refundedOn: '2026-12-03', reference: 'Bank transfer 4471' });
+    const refunded = await treasurer.post(`/api/billing/overpayments/${mine[0].paymentId}/refunded`, {
+      refundedOn: '2026-12-03',
+      reference: 'Bank transfer 4471',
+    });
     expect(refunded.status).toBe(200);
     expect(refunded.body.overpayment).toMatchObject({ refundedOn: '2026-12-03', refundReference: 'Bank transfer 4471' });
     expect((await treasurer.post(`/api/billing/overpayments/${mine[0].paymentId}/refunded`, { refundedOn: '2026-12-03' })).status).toBe(409);
@@ -310,7 +321,11 @@ describe('webhooks replayed, reordered and raced', () => {
     expect(outcomes.filter((o) => o !== 'paid').every((o) => o === 'duplicate' || o === 'already_recorded')).toBe(true);
     expect(results.slice(0, 8).filter((r) => r.body.duplicate === false)).toHaveLength(1);
     expect(await books(invoiceId)).toEqual({ status: 'paid', due: 0, paid: DUE, received: DUE, overpaid: 0, payments: 1 });
-    const events = await ctx.db.selectFrom('payment_event').select('event_id').where('event_id', 'in', ['evt_test_concurrent', 'evt_test_concurrent_async']).execute();
+    const events = await ctx.db
+      .selectFrom('payment_event')
+      .select('event_id')
+      .where('event_id', 'in', ['evt_test_concurrent', 'evt_test_concurrent_async'])
+      .execute();
     expect(events).toHaveLength(2);
   });
 
@@ -327,7 +342,10 @@ describe('webhooks replayed, reordered and raced', () => {
       success_url: `${appUrl}/ok`,
       cancel_url: `${appUrl}/cancel`,
     });
-    await ctx.db.insertInto('checkout_session').values({ id: b.id, invoice_id: invoiceId, amount_cents: DUE, currency: 'EUR', url: b.url!, status: 'expired' }).execute();
+    await ctx.db
+      .insertInto('checkout_session')
+      .values({ id: b.id, invoice_id: invoiceId, amount_cents: DUE, currency: 'EUR', url: b.url!, status: 'expired' })
+      .execute();
     const ea = paidAtProvider(a.body.sessionId, 'evt_test_double_a');
     const eb = paidAtProvider(b.id, 'evt_test_double_b');
     const results = await Promise.all([
@@ -356,7 +374,16 @@ describe('webhook secrets', () => {
         .insertInto('checkout_session')
         .values({ id: 'cs_test_forged', invoice_id: inv.id, amount_cents: DUE, currency: 'EUR', url: 'http://x' })
         .execute();
-      const session = { id: 'cs_test_forged', object: 'checkout.session', status: 'complete', payment_status: 'paid', amount_total: DUE, currency: 'eur', client_reference_id: inv.id, metadata: { invoiceId: inv.id } };
+      const session = {
+        id: 'cs_test_forged',
+        object: 'checkout.session',
+        status: 'complete',
+        payment_status: 'paid',
+        amount_total: DUE,
+        currency: 'eur',
+        client_reference_id: inv.id,
+        metadata: { invoiceId: inv.id },
+      };
       const event = { id: 'evt_test_forged', object: 'event', type: 'checkout.session.completed', data: { object: session } };
       const forged = await postEvent(event, secret, other.app);
       expect(forged.status).toBe(400);

@@ -171,10 +171,17 @@ describe('the payment webhook', () => {
     sessionId = body.sessionId;
     // What the provider would send once the member paid (built here, not delivered by the fake).
     const session = { ...fake.sessions.get(sessionId)!, status: 'complete', payment_status: 'paid', payment_intent: 'pi_test_webhook' };
-    event = { id: 'evt_test_replayed', object: 'event', type: 'checkout.session.completed', created: Math.floor(ctx.clock.now().getTime() / 1000), data: { object: session } };
+    event = {
+      id: 'evt_test_replayed',
+      object: 'event',
+      type: 'checkout.session.completed',
+      created: Math.floor(ctx.clock.now().getTime() / 1000),
+      data: { object: session },
+    };
   });
 
-  const paymentsOf = () => ctx.db.selectFrom('payment').select(['id', 'amount_cents']).where('invoice_id', '=', invoiceId).where('method', '=', 'online').execute();
+  const paymentsOf = () =>
+    ctx.db.selectFrom('payment').select(['id', 'amount_cents']).where('invoice_id', '=', invoiceId).where('method', '=', 'online').execute();
 
   it('rejects a bad signature, a tampered body and a missing signature with 400, recording nothing', async () => {
     const wrongSecret = signed(event, 'whsec_someone_else');

@@ -81,9 +81,21 @@ beforeAll(async () => {
   // A typical month: a fermenter and a keg booked, dues, and a charge whose text uses the marks.
   const fermenter = await createFermenter(ctx.db);
   const keg = await createKeg(ctx.db);
-  await createBooking(ctx.db, { equipmentId: fermenter.id, ownerId: member.id, startsAt: '2026-11-03T09:00:00Z', endsAt: '2026-11-17T09:00:00Z', now: FILE_NOW });
+  await createBooking(ctx.db, {
+    equipmentId: fermenter.id,
+    ownerId: member.id,
+    startsAt: '2026-11-03T09:00:00Z',
+    endsAt: '2026-11-17T09:00:00Z',
+    now: FILE_NOW,
+  });
   await createBooking(ctx.db, { equipmentId: keg.id, ownerId: member.id, startsAt: '2026-11-17T09:00:00Z', endsAt: '2026-11-28T09:00:00Z', now: FILE_NOW });
-  await createManualCharge(ctx.db, { memberId: member.id, period: '2026-11', amountCents: 450, description: 'Cold room › 2 °C – one extra week', reason: 'Asked for at the hand-over' });
+  await createManualCharge(ctx.db, {
+    memberId: member.id,
+    period: '2026-11',
+    amountCents: 450,
+    description: 'Cold room › 2 °C – one extra week',
+    reason: 'Asked for at the hand-over',
+  });
   const invoice = await createInvoice(ctx.db, { memberId: member.id, period: '2026-11', today: '2026-12-01', actorId: fixtureUserId('treasurer') });
   made.invoice = invoice.id;
   const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { amountCents: 300, reason: 'Keg returned warm › 12 °C – Zoë’s week away' });
@@ -93,7 +105,15 @@ beforeAll(async () => {
   // A keg cleaned and sanitized, then filled from a batch with an accented name.
   const filled = await createKeg(ctx.db);
   await createSanitationCycle(ctx.db, { equipmentId: filled.id, readyAt: new Date(FILE_NOW.getTime() - 3 * DAY) });
-  const batch = await createBatch(ctx.db, { ownerId: member.id, name: 'Bière de garde – Château', style: 'Bière de garde', readings: [{ takenAt: new Date(FILE_NOW.getTime() - 20 * DAY), value: 1.06 }, { takenAt: new Date(FILE_NOW.getTime() - 5 * DAY), value: 1.01 }] });
+  const batch = await createBatch(ctx.db, {
+    ownerId: member.id,
+    name: 'Bière de garde – Château',
+    style: 'Bière de garde',
+    readings: [
+      { takenAt: new Date(FILE_NOW.getTime() - 20 * DAY), value: 1.06 },
+      { takenAt: new Date(FILE_NOW.getTime() - 5 * DAY), value: 1.01 },
+    ],
+  });
   await fillKeg(ctx.db, { kegId: filled.id, at: new Date(FILE_NOW.getTime() - 2 * DAY), batchId: batch.id, ownerId: member.id });
   made.keg = filled.id;
   made.batch = batch.id;

@@ -35,13 +35,40 @@ beforeAll(async () => {
   ctx = await createTestContext();
   [treasurer, brewer, member] = await Promise.all([ctx.signIn('treasurer@example.org'), ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org')]);
   const owner = fixtureUserId('member');
-  const readings = (brewed: string, ...later: [string, number][]) => [{ takenAt: at(brewed), value: 1.05 }, ...later.map(([t, v]) => ({ takenAt: at(t), value: v }))];
+  const readings = (brewed: string, ...later: [string, number][]) => [
+    { takenAt: at(brewed), value: 1.05 },
+    ...later.map(([t, v]) => ({ takenAt: at(t), value: v })),
+  ];
   for (const k of ['K1', 'K2', 'K3'] as const) kegs[k] = (await createKeg(ctx.db)).id;
 
-  const a = await createBatch(ctx.db, { ownerId: owner, name: 'Report A', volumeLiters: 40, readings: readings('2026-07-03T09:00:00Z', ['2026-07-10T09:00:00Z', 1.01], ['2026-07-13T09:00:00Z', 1.01]) });
-  await createTransfer(ctx.db, { batchId: a.id, fromEquipmentId: (await createFermenter(ctx.db)).id, kegIds: [kegs.K1, kegs.K2], kegVolumesLiters: [18, 18], volumeLiters: 37.5, at: '2026-07-20T12:00:00Z' });
-  const b = await createBatch(ctx.db, { ownerId: owner, name: 'Report B', volumeLiters: 30, readings: readings('2026-07-25T09:00:00Z', ['2026-08-10T09:00:00Z', 1.012], ['2026-08-14T09:00:00Z', 1.012]) });
-  await createTransfer(ctx.db, { batchId: b.id, fromEquipmentId: (await createFermenter(ctx.db)).id, kegIds: [kegs.K3], kegVolumesLiters: [18.5], volumeLiters: 19.5, at: '2026-08-20T12:00:00Z' });
+  const a = await createBatch(ctx.db, {
+    ownerId: owner,
+    name: 'Report A',
+    volumeLiters: 40,
+    readings: readings('2026-07-03T09:00:00Z', ['2026-07-10T09:00:00Z', 1.01], ['2026-07-13T09:00:00Z', 1.01]),
+  });
+  await createTransfer(ctx.db, {
+    batchId: a.id,
+    fromEquipmentId: (await createFermenter(ctx.db)).id,
+    kegIds: [kegs.K1, kegs.K2],
+    kegVolumesLiters: [18, 18],
+    volumeLiters: 37.5,
+    at: '2026-07-20T12:00:00Z',
+  });
+  const b = await createBatch(ctx.db, {
+    ownerId: owner,
+    name: 'Report B',
+    volumeLiters: 30,
+    readings: readings('2026-07-25T09:00:00Z', ['2026-08-10T09:00:00Z', 1.012], ['2026-08-14T09:00:00Z', 1.012]),
+  });
+  await createTransfer(ctx.db, {
+    batchId: b.id,
+    fromEquipmentId: (await createFermenter(ctx.db)).id,
+    kegIds: [kegs.K3],
+    kegVolumesLiters: [18.5],
+    volumeLiters: 19.5,
+    at: '2026-08-20T12:00:00Z',
+  });
   const c = await createBatch(ctx.db, { ownerId: owner, name: 'Report C', volumeLiters: 25, readings: readings('2026-08-15T09:00:00Z') });
   await createBatch(ctx.db, { ownerId: owner, name: 'Report D', volumeLiters: 20, readings: readings('2026-09-12T09:00:00Z') });
   // Another member's planned batch was never brewed: it counts nowhere.
@@ -123,7 +150,9 @@ describe('the monthly production report', () => {
     const own = await ctx.signIn('member2@example.org');
     const mine = await own.get('/api/production-records?from=2026-07&to=2026-09');
     expect(mine.status).toBe(200);
-    expect(mine.body.monthly.every((m: { producedLiters: number; closing: { totalLiters: number } }) => m.producedLiters === 0 && m.closing.totalLiters === 0)).toBe(true);
+    expect(
+      mine.body.monthly.every((m: { producedLiters: number; closing: { totalLiters: number } }) => m.producedLiters === 0 && m.closing.totalLiters === 0),
+    ).toBe(true);
 
     const csv = await treasurer.get('/api/production-records/export?from=2026-07&to=2026-09&format=csv');
     expect(csv.status).toBe(200);

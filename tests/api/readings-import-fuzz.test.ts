@@ -29,7 +29,8 @@ beforeAll(async () => {
   ctx = await createTestContext();
   member = await ctx.signIn('member@example.org');
   settings = await loadFermentationSettings(ctx.db);
-  for (let i = 0; i < 4; i += 1) batchIds.push((await createBatch(ctx.db, { ownerId: member.user.id, name: `Fuzz batch ${i + 1}`, style: 'Pale ale', volumeLiters: 23 })).id);
+  for (let i = 0; i < 4; i += 1)
+    batchIds.push((await createBatch(ctx.db, { ownerId: member.user.id, name: `Fuzz batch ${i + 1}`, style: 'Pale ale', volumeLiters: 23 })).id);
   // Good workbooks to damage.
   for (const rows of [3, 40]) {
     const wb = new ExcelJS.Workbook();
@@ -38,7 +39,12 @@ beforeAll(async () => {
     for (let r = 0; r < rows; r += 1) ws.addRow([new Date(Date.UTC(2026, 9, 1, r)), 1.05 - r / 2000, 'SG', 20, `row ${r}`]);
     workbooks.push(Buffer.from(await wb.xlsx.writeBuffer()));
   }
-  workbooks.push(makeZip([{ name: '[Content_Types].xml', data: Buffer.from('<Types/>') }, { name: 'xl/workbook.xml', data: Buffer.from('<workbook><sheets/></workbook>') }]));
+  workbooks.push(
+    makeZip([
+      { name: '[Content_Types].xml', data: Buffer.from('<Types/>') },
+      { name: 'xl/workbook.xml', data: Buffer.from('<workbook><sheets/></workbook>') },
+    ]),
+  );
 });
 afterAll(async () => ctx?.close());
 
@@ -60,9 +66,28 @@ const dateCell = fc.oneof(
   when.map((d) => d.toISOString()),
   when.map((d) => `${d.getUTCFullYear()}-${pad(d.getUTCMonth() + 1)}-${pad(d.getUTCDate())} ${pad(d.getUTCHours())}:${pad(d.getUTCMinutes())}`),
   when.map((d) => `${pad(d.getUTCDate())}.${pad(d.getUTCMonth() + 1)}.${d.getUTCFullYear()} ${pad(d.getUTCHours())}:${pad(d.getUTCMinutes())}`),
-  when.map((d) => `${d.getUTCMonth() + 1}/${d.getUTCDate()}/${d.getUTCFullYear()} ${d.getUTCHours() % 12 || 12}:${pad(d.getUTCMinutes())} ${d.getUTCHours() < 12 ? 'AM' : 'PM'}`),
+  when.map(
+    (d) =>
+      `${d.getUTCMonth() + 1}/${d.getUTCDate()}/${d.getUTCFullYear()} ${d.getUTCHours() % 12 || 12}:${pad(d.getUTCMinutes())} ${d.getUTCHours() < 12 ? 'AM' : 'PM'}`,
+  ),
   when.map((d) => String(d.getTime() / 86_400_000 + 25_569)),
-  fc.constantFrom('2026-02-30 09:00', '2099-01-01 00:00', '1899-12-31', '0', '-1', '1e308', 'next tuesday', '', '  ', '31/31/2031', '2026-13-01', '24:61', 'T', '+', '2026-10-03T14:05:00+99:00'),
+  fc.constantFrom(
+    '2026-02-30 09:00',
+    '2099-01-01 00:00',
+    '1899-12-31',
+    '0',
+    '-1',
+    '1e308',
+    'next tuesday',
+    '',
+    '  ',
+    '31/31/2031',
+    '2026-13-01',
+    '24:61',
+    'T',
+    '+',
+    '2026-10-03T14:05:00+99:00',
+  ),
   fc.integer({ min: -2_000_000, max: 2_000_000 }).map(String),
 );
 const numberCell = fc.oneof(
@@ -94,7 +119,9 @@ const headerRow: fc.Arbitrary<string[]> = fc.oneof(
 const csvFile: fc.Arbitrary<FuzzFile> = fc
   .record({
     header: headerRow,
-    rows: fc.array(fc.oneof({ weight: 3, arbitrary: templateRow.map((r) => [...r]) }, { weight: 1, arbitrary: fc.array(anyCell, { maxLength: 9 }) }), { maxLength: 30 }),
+    rows: fc.array(fc.oneof({ weight: 3, arbitrary: templateRow.map((r) => [...r]) }, { weight: 1, arbitrary: fc.array(anyCell, { maxLength: 9 }) }), {
+      maxLength: 30,
+    }),
     delimiter: fc.constantFrom(',', ';', '\t', '|'),
     quote: fc.constantFrom('needed', 'always', 'broken'),
     eol: fc.constantFrom('\n', '\r\n', '\r'),
@@ -113,7 +140,10 @@ const csvFile: fc.Arbitrary<FuzzFile> = fc
     let text = [header, ...rows].map((r: string[]) => r.map(field).join(delimiter)).join(eol);
     if (truncate !== undefined) text = text.slice(0, truncate % (text.length + 1));
     if (bom) text = `\uFEFF${text}`;
-    const bytes = encoding === 'utf16le' ? Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text.replace(/^\uFEFF/, ''), 'utf16le')]) : Buffer.from(text, encoding as BufferEncoding);
+    const bytes =
+      encoding === 'utf16le'
+        ? Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text.replace(/^\uFEFF/, ''), 'utf16le')])
+        : Buffer.from(text, encoding as BufferEncoding);
     return { kind: 'csv', name, bytes, dryRun };
   });
 
@@ -135,7 +165,13 @@ const xlsxCell = fc.oneof(
 const xlsxFile: fc.Arbitrary<FuzzFile> = fc
   .record({
     header: headerRow,
-    rows: fc.array(fc.oneof(templateRow.map((r) => [...r] as unknown[]), fc.array(xlsxCell, { maxLength: 8 })), { maxLength: 25 }),
+    rows: fc.array(
+      fc.oneof(
+        templateRow.map((r) => [...r] as unknown[]),
+        fc.array(xlsxCell, { maxLength: 8 }),
+      ),
+      { maxLength: 25 },
+    ),
     skip: fc.nat({ max: 3 }),
     sheets: fc.nat({ max: 2 }),
     dryRun: fc.boolean(),
@@ -180,7 +216,12 @@ const damagedZip: fc.Arbitrary<FuzzFile> = fc
   });
 
 const randomBytes: fc.Arbitrary<FuzzFile> = fc
-  .record({ bytes: fc.uint8Array({ maxLength: 3000 }), zipMagic: fc.boolean(), name: fc.constantFrom('readings.csv', 'readings.xlsx', 'readings.bin', 'readings.xls'), dryRun: fc.boolean() })
+  .record({
+    bytes: fc.uint8Array({ maxLength: 3000 }),
+    zipMagic: fc.boolean(),
+    name: fc.constantFrom('readings.csv', 'readings.xlsx', 'readings.bin', 'readings.xls'),
+    dryRun: fc.boolean(),
+  })
   .map(({ bytes, zipMagic, name, dryRun }) => ({
     kind: 'bytes',
     name,
@@ -190,20 +231,22 @@ const randomBytes: fc.Arbitrary<FuzzFile> = fc
 
 const mappingField = fc.option(
   fc.oneof(
-    fc.record(
-      {
-        takenAt: fc.constantFrom('Taken at', 'Date', 'Time', 'nope', ''),
-        gravity: fc.constantFrom('Gravity', 'SG', 'x'),
-        unit: fc.constantFrom('Unit', null),
-        temperature: fc.constantFrom('Temperature °C', null),
-        gravityUnit: fc.constantFrom('sg', 'plato', 'brix', 'oechsle'),
-        dateOrder: fc.constantFrom('auto', 'dmy', 'mdy', 'ymd', 'yyy'),
-        timeZone: fc.constantFrom('UTC', 'Europe/Berlin', 'America/Chicago', 'Mars/Olympus'),
-        onDuplicate: fc.constantFrom('error', 'skip'),
-        correctTemperature: fc.boolean(),
-      },
-      { requiredKeys: ['takenAt', 'gravity'] },
-    ).map((m) => JSON.stringify(m)),
+    fc
+      .record(
+        {
+          takenAt: fc.constantFrom('Taken at', 'Date', 'Time', 'nope', ''),
+          gravity: fc.constantFrom('Gravity', 'SG', 'x'),
+          unit: fc.constantFrom('Unit', null),
+          temperature: fc.constantFrom('Temperature °C', null),
+          gravityUnit: fc.constantFrom('sg', 'plato', 'brix', 'oechsle'),
+          dateOrder: fc.constantFrom('auto', 'dmy', 'mdy', 'ymd', 'yyy'),
+          timeZone: fc.constantFrom('UTC', 'Europe/Berlin', 'America/Chicago', 'Mars/Olympus'),
+          onDuplicate: fc.constantFrom('error', 'skip'),
+          correctTemperature: fc.boolean(),
+        },
+        { requiredKeys: ['takenAt', 'gravity'] },
+      )
+      .map((m) => JSON.stringify(m)),
     fc.jsonValue().map((v) => JSON.stringify(v)),
     fc.string({ maxLength: 20 }),
   ),
@@ -212,7 +255,12 @@ const mappingField = fc.option(
 
 const fuzzFile = fc
   .tuple(
-    fc.oneof({ weight: 5, arbitrary: csvFile }, { weight: 2, arbitrary: xlsxFile }, { weight: 2, arbitrary: damagedZip }, { weight: 1, arbitrary: randomBytes }),
+    fc.oneof(
+      { weight: 5, arbitrary: csvFile },
+      { weight: 2, arbitrary: xlsxFile },
+      { weight: 2, arbitrary: damagedZip },
+      { weight: 1, arbitrary: randomBytes },
+    ),
     mappingField,
     fc.nat({ max: 3 }),
   )
@@ -223,12 +271,17 @@ async function materialise(f: FuzzFile & { build?: Parameters<typeof buildXlsx>[
 }
 
 async function countReadings(batchId: string) {
-  const r = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+  const r = await ctx.db
+    .selectFrom('reading')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('batch_id', '=', batchId)
+    .executeTakeFirstOrThrow();
   return Number(r.n);
 }
 
 /** What a refusal may never say: a library's or the runtime's own words. */
-const internals = /cannot read propert|is not a function|undefined is not|typeerror|rangeerror|invalid (?:block|distance|signature|stored)|unexpected end|end of (?:data|central)|unzip|sax|papa|exceljs|multipart:|\bat \S+\.(?:js|ts|mjs):\d+/i;
+const internals =
+  /cannot read propert|is not a function|undefined is not|typeerror|rangeerror|invalid (?:block|distance|signature|stored)|unexpected end|end of (?:data|central)|unzip|sax|papa|exceljs|multipart:|\bat \S+\.(?:js|ts|mjs):\d+/i;
 
 function checkRefusal(status: number, body: { title?: string; detail?: string; errors?: { message: string; row?: number; column?: string }[] }, kind: string) {
   expect([400, 409, 413, 415, 422], `${kind}: ${status} ${JSON.stringify(body).slice(0, 300)}`).toContain(status);
@@ -254,7 +307,12 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
         try {
           const result = await importReadings(ctx.db, {
             batch,
-            file: { buffer: bytes, originalname: f.name, mimetype: f.name.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv', size: bytes.length },
+            file: {
+              buffer: bytes,
+              originalname: f.name,
+              mimetype: f.name.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
+              size: bytes.length,
+            },
             mappingField: f.mapping,
             dryRun: f.dryRun,
             actor: { id: member.user.id, roles: ['member'] },
@@ -286,7 +344,10 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
         files += 1;
         let req = member.post(`/api/batches/${batchId}/readings/import${f.dryRun ? '?dryRun=1' : ''}`);
         if (f.mapping !== undefined) req = req.field('mapping', f.mapping);
-        const res = await req.attach('file', bytes, { filename: f.name, contentType: f.name.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv' });
+        const res = await req.attach('file', bytes, {
+          filename: f.name,
+          contentType: f.name.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
+        });
         statuses.set(res.status, (statuses.get(res.status) ?? 0) + 1);
         const after = await countReadings(batchId);
         if (res.status === 200) {

@@ -30,7 +30,11 @@ async function newBatch(name = 'Limits batch') {
 }
 
 async function countReadings(batchId: string) {
-  const r = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+  const r = await ctx.db
+    .selectFrom('reading')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('batch_id', '=', batchId)
+    .executeTakeFirstOrThrow();
   return Number(r.n);
 }
 
@@ -40,7 +44,10 @@ function upload(batchId: string, content: string | Buffer, filename: string) {
   const buffer = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
   return member
     .post(importUrl(batchId))
-    .attach('file', buffer, { filename, contentType: filename.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv' });
+    .attach('file', buffer, {
+      filename,
+      contentType: filename.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
+    });
 }
 
 type Res = { status: number; headers: Record<string, string>; body: { title?: string; detail?: string; status?: number } };
@@ -98,7 +105,12 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
   it(`more than ${IMPORT_MAX_COLUMNS} columns in a row, or more than ${IMPORT_MAX_CELLS.toLocaleString('en')} cells`, async () => {
     const batchId = await newBatch();
     const wide = `${Array.from({ length: IMPORT_MAX_COLUMNS + 1 }, (_, i) => `c${i}`).join(',')}\n1,2\n`;
-    expectProblem(await upload(batchId, wide, 'wide.csv'), 413, 'Too many columns', `Row 1 has more than ${IMPORT_MAX_COLUMNS} columns, the most one import takes; a readings file needs five.`);
+    expectProblem(
+      await upload(batchId, wide, 'wide.csv'),
+      413,
+      'Too many columns',
+      `Row 1 has more than ${IMPORT_MAX_COLUMNS} columns, the most one import takes; a readings file needs five.`,
+    );
     const rows = Math.ceil(IMPORT_MAX_CELLS / IMPORT_MAX_COLUMNS) + 1;
     const cells = `${'a,'.repeat(IMPORT_MAX_COLUMNS - 1)}a\n`.repeat(rows);
     expectProblem(
@@ -108,7 +120,10 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
       `One import takes at most ${IMPORT_MAX_CELLS.toLocaleString('en')} cells (rows × columns); leave out columns you do not import, or split the file.`,
     );
     const wb = new ExcelJS.Workbook();
-    wb.addWorksheet('Readings').getRow(1).getCell(IMPORT_MAX_COLUMNS + 50).value = 'far right';
+    wb
+      .addWorksheet('Readings')
+      .getRow(1)
+      .getCell(IMPORT_MAX_COLUMNS + 50).value = 'far right';
     expectProblem(await upload(batchId, Buffer.from(await wb.xlsx.writeBuffer()), 'wide.xlsx'), 413, 'Too many columns', /^Row 1 has more than 100 columns/);
     expect(await countReadings(batchId)).toBe(0);
   });
@@ -169,11 +184,13 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
     ]);
     const res = await upload(batchId, garbled, 'garbled.xlsx');
     expectProblem(res, 415, 'Unsupported file', detail);
-    const real = Buffer.from(await (() => {
-      const wb = new ExcelJS.Workbook();
-      wb.addWorksheet('R').addRow(['Taken at', 'Gravity']);
-      return wb.xlsx.writeBuffer();
-    })());
+    const real = Buffer.from(
+      await (() => {
+        const wb = new ExcelJS.Workbook();
+        wb.addWorksheet('R').addRow(['Taken at', 'Gravity']);
+        return wb.xlsx.writeBuffer();
+      })(),
+    );
     expectProblem(await upload(batchId, real.subarray(0, real.length - 40), 'cut.xlsx'), 415, 'Unsupported file', detail);
     expect(await countReadings(batchId)).toBe(0);
   });
@@ -186,7 +203,12 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
     importPool.timeLimitMs = 300;
     try {
       const res = await upload(batchId, readingsCsv(60_000), 'slow.csv');
-      expectProblem(res, 413, 'File takes too long to read', 'Reading the file took longer than 0.3 seconds, the most one import may take; split it into smaller files.');
+      expectProblem(
+        res,
+        413,
+        'File takes too long to read',
+        'Reading the file took longer than 0.3 seconds, the most one import may take; split it into smaller files.',
+      );
     } finally {
       importPool.timeLimitMs = limit;
     }
@@ -202,7 +224,15 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
   });
   const input = (csv: string): PrepareInput => {
     const bytes = Buffer.from(csv);
-    return { file: { bytes, originalname: 'r.csv', mimetype: 'text/csv', size: bytes.length }, timeZone: 'UTC', now: Date.parse(TEST_NOW), existingTimes: [], first: null, settings, dryRun: false };
+    return {
+      file: { bytes, originalname: 'r.csv', mimetype: 'text/csv', size: bytes.length },
+      timeZone: 'UTC',
+      now: Date.parse(TEST_NOW),
+      existingTimes: [],
+      first: null,
+      settings,
+      dryRun: false,
+    };
   };
 
   it('a file that needs more memory than a thread may use is a 413, and the pool carries on', async () => {
@@ -227,7 +257,11 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
     try {
       const running = pool.run(input(readingsCsv(5_000)));
       const waiting = pool.run(input(goodCsv));
-      await expect(pool.run(input(goodCsv))).rejects.toMatchObject({ status: 503, title: 'Busy', detail: '1 import is waiting to be read; try again in a minute.' });
+      await expect(pool.run(input(goodCsv))).rejects.toMatchObject({
+        status: 503,
+        title: 'Busy',
+        detail: '1 import is waiting to be read; try again in a minute.',
+      });
       expect((await running).readings.count).toBe(5_000);
       expect((await waiting).readings.count).toBe(2);
       expect((await pool.run(input(goodCsv))).readings.count).toBe(2);
@@ -306,6 +340,11 @@ describe('malformed uploads are 400 problems, never 500', () => {
 
   it(`a file over ${IMPORT_MAX_BYTES / 1048576} MiB names the limit`, async () => {
     const big = Buffer.alloc(IMPORT_MAX_BYTES + 1, 'a');
-    expectProblem(await upload(batchId, big, 'big.csv'), 413, 'File too large', `One import takes a file of at most ${IMPORT_MAX_BYTES / 1048576} MiB; split the readings into smaller files.`);
+    expectProblem(
+      await upload(batchId, big, 'big.csv'),
+      413,
+      'File too large',
+      `One import takes a file of at most ${IMPORT_MAX_BYTES / 1048576} MiB; split the readings into smaller files.`,
+    );
   });
 });

@@ -38,7 +38,11 @@ async function newBatch(client: ApiClient = member, name = 'Import test batch') 
 }
 
 async function countReadings(batchId: string) {
-  const r = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+  const r = await ctx.db
+    .selectFrom('reading')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('batch_id', '=', batchId)
+    .executeTakeFirstOrThrow();
   return Number(r.n);
 }
 
@@ -54,7 +58,10 @@ function upload(
   if (opts.mapping !== undefined) req = req.field('mapping', typeof opts.mapping === 'string' ? opts.mapping : JSON.stringify(opts.mapping));
   if (opts.progressId) req = req.field('progressId', opts.progressId);
   const buffer = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
-  return req.attach('file', buffer, { filename, contentType: opts.contentType ?? (filename.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv') });
+  return req.attach('file', buffer, {
+    filename,
+    contentType: opts.contentType ?? (filename.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv'),
+  });
 }
 
 const goodCsv = [
@@ -88,7 +95,12 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
     expect(rows[0]!.taken_at.toISOString()).toBe('2026-10-01T09:00:00.000Z'); // the co-op's time zone (UTC in the fixture)
     expect(Number(rows[3]!.entered_value)).toBe(7.5);
     expect(rows[3]!.entered_unit).toBe('plato');
-    const audit = await ctx.db.selectFrom('audit_log').select(['action', 'detail']).where('subject_id', '=', batchId).where('action', '=', 'readings:imported').executeTakeFirstOrThrow();
+    const audit = await ctx.db
+      .selectFrom('audit_log')
+      .select(['action', 'detail'])
+      .where('subject_id', '=', batchId)
+      .where('action', '=', 'readings:imported')
+      .executeTakeFirstOrThrow();
     expect(audit.detail).toMatchObject({ imported: 5, file: 'readings.csv' });
     const batch = (await member.get(`/api/batches/${batchId}`)).body;
     expect(batch.og).toBe(1.052);
@@ -101,7 +113,12 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
     const mapping = { takenAt: 'When', gravity: 'Reading', temperature: 'Temp F', temperatureUnit: 'f', gravityUnit: 'sg' };
     const first = await upload(member, batchId, csv, 'a.csv', { mapping });
     expect(first.status, JSON.stringify(first.body)).toBe(200);
-    const t = await ctx.db.selectFrom('reading').select(['temperature_c', 'gravity_sg']).where('batch_id', '=', batchId).orderBy('taken_at').executeTakeFirstOrThrow();
+    const t = await ctx.db
+      .selectFrom('reading')
+      .select(['temperature_c', 'gravity_sg'])
+      .where('batch_id', '=', batchId)
+      .orderBy('taken_at')
+      .executeTakeFirstOrThrow();
     expect(Number(t.temperature_c)).toBe(20);
     expect(Number(t.gravity_sg)).toBeCloseTo(correctHydrometer(1.05, 20), 4);
     const next = await upload(member, await newBatch(), csv, 'b.csv', { dryRun: true });
@@ -114,7 +131,8 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
 
   it('reads semicolons with decimal commas and a BOM, tabs, quoted fields and Excel date serials', async () => {
     const batchId = await newBatch();
-    const semicolon = '\uFEFFDatum;Gravity (SG);Temperatur °C;Note\r\n03.10.2026 08:30;1,048;19,5;"a; b"\r\n04.10.2026 08:30;1,040;19,0;"line one\nline two"\r\n';
+    const semicolon =
+      '\uFEFFDatum;Gravity (SG);Temperatur °C;Note\r\n03.10.2026 08:30;1,048;19,5;"a; b"\r\n04.10.2026 08:30;1,040;19,0;"line one\nline two"\r\n';
     const r1 = await upload(member, batchId, semicolon, 'semicolon.csv', { dryRun: true });
     expect(r1.status, JSON.stringify(r1.body)).toBe(200);
     const p1 = r1.body.preview;
@@ -129,7 +147,12 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
     const r2 = await upload(member, batchId, tab, 'tabs.tsv');
     expect(r2.status, JSON.stringify(r2.body)).toBe(200);
     expect(r2.body).toEqual({ imported: 2, skipped: 1 }); // the blank line is skipped
-    const t = await ctx.db.selectFrom('reading').select('taken_at').where('batch_id', '=', batchId).where('note', '=', 'after dry hop').executeTakeFirstOrThrow();
+    const t = await ctx.db
+      .selectFrom('reading')
+      .select('taken_at')
+      .where('batch_id', '=', batchId)
+      .where('note', '=', 'after dry hop')
+      .executeTakeFirstOrThrow();
     expect(t.taken_at.toISOString()).toBe('2026-10-05T06:00:00.000Z');
 
     // 46302.5 is 2026-10-07 12:00 in Excel's 1900 date system.
@@ -213,11 +236,14 @@ describe('importing a good XLSX', () => {
     expect(csv.status).toBe(200);
     expect(csv.headers['content-type']).toMatch(/text\/csv/);
     expect(csv.headers['content-disposition']).toMatch(/readings-template\.csv/);
-    const xlsx = await member.get('/api/readings/template.xlsx').buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const xlsx = await member
+      .get('/api/readings/template.xlsx')
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(xlsx.status).toBe(200);
     const a = await upload(member, await newBatch(), csv.text, 'readings-template.csv');
     expect(a.body, JSON.stringify(a.body)).toEqual({ imported: 3, skipped: 0 });
@@ -352,7 +378,10 @@ describe('files that are not readings: 4xx problems, never 500', { timeout: 60_0
 
   it('a file named .xlsx that is not a workbook is a 415, and so is a workbook named .csv', async () => {
     expectProblem(await upload(member, batchId, goodCsv, 'readings.xlsx'), 415);
-    const real = await xlsxOf([['Taken at', 'Gravity'], [new Date('2026-10-09T09:00:00Z'), 1.02]]);
+    const real = await xlsxOf([
+      ['Taken at', 'Gravity'],
+      [new Date('2026-10-09T09:00:00Z'), 1.02],
+    ]);
     expectProblem(await upload(member, batchId, real, 'readings.csv'), 415);
     // A ZIP that is no workbook, and a workbook cut short.
     const zipOnly = Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), Buffer.alloc(200, 1)]);

@@ -31,8 +31,16 @@ async function newBatch(readings: { days: number; value: number; unit?: 'sg' | '
 
 async function counts(batchId: string) {
   const [readings, audits] = await Promise.all([
-    ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow(),
-    ctx.db.selectFrom('audit_log').select((eb) => eb.fn.countAll<number>().as('n')).where('subject_id', '=', batchId).executeTakeFirstOrThrow(),
+    ctx.db
+      .selectFrom('reading')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('batch_id', '=', batchId)
+      .executeTakeFirstOrThrow(),
+    ctx.db
+      .selectFrom('audit_log')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('subject_id', '=', batchId)
+      .executeTakeFirstOrThrow(),
   ]);
   return { readings: Number(readings.n), audits: Number(audits.n) };
 }
@@ -90,21 +98,33 @@ describe('readings that cannot be true are refused and change nothing', () => {
     expectRefused(res, /above the batch’s original gravity 1\.0796/);
     expect(await counts(batchId)).toEqual(before);
     // Confirming does not make it possible.
-    expectRefused(await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(2), gravity: 18, unit: 'brix', confirm: true }), /above the batch’s original gravity/);
+    expectRefused(
+      await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(2), gravity: 18, unit: 'brix', confirm: true }),
+      /above the batch’s original gravity/,
+    );
     expect(await counts(batchId)).toEqual(before);
   });
 
   it('refuses a hydrometer reading above the OG', async () => {
-    const batchId = await newBatch([{ days: 0, value: 1.05 }, { days: 3, value: 1.03 }]);
+    const batchId = await newBatch([
+      { days: 0, value: 1.05 },
+      { days: 3, value: 1.03 },
+    ]);
     const before = await counts(batchId);
-    expectRefused(await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(4), gravity: 1.055, unit: 'sg' }), /above the batch’s original gravity 1\.0500/);
+    expectRefused(
+      await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(4), gravity: 1.055, unit: 'sg' }),
+      /above the batch’s original gravity 1\.0500/,
+    );
     expect(await counts(batchId)).toEqual(before);
   });
 
   it('refuses an alcohol-corrected reading on a batch with no OG yet, and an unfermented one', async () => {
     const empty = await newBatch();
     const before = await counts(empty);
-    expectRefused(await member.post(`/api/batches/${empty}/readings`, { takenAt: at(1), gravity: 6, unit: 'brix', method: 'alcohol_corrected' }), /needs the batch’s original gravity/);
+    expectRefused(
+      await member.post(`/api/batches/${empty}/readings`, { takenAt: at(1), gravity: 6, unit: 'brix', method: 'alcohol_corrected' }),
+      /needs the batch’s original gravity/,
+    );
     expect(await counts(empty)).toEqual(before);
     const status = await ctx.db.selectFrom('batch').select('status').where('id', '=', empty).executeTakeFirstOrThrow();
     expect(status.status).toBe('planned');
@@ -112,7 +132,10 @@ describe('readings that cannot be true are refused and change nothing', () => {
     const batchId = await newBatch([{ days: 0, value: 12, unit: 'brix' }]);
     const b2 = await counts(batchId);
     // 0 % attenuation: the correction was fitted to fermented beer; on wort it is off by several points.
-    expectRefused(await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(1), gravity: 12, unit: 'brix', method: 'alcohol_corrected' }), /shows no fermentation yet/);
+    expectRefused(
+      await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(1), gravity: 12, unit: 'brix', method: 'alcohol_corrected' }),
+      /shows no fermentation yet/,
+    );
     expect(await counts(batchId)).toEqual(b2);
   });
 
@@ -120,11 +143,19 @@ describe('readings that cannot be true are refused and change nothing', () => {
     const batchId = await newBatch([{ days: 0, value: 1.04 }]);
     const before = await counts(batchId);
     // (1.040 − 0.996)/(1.040 − 1) = 110 % [C:F4.1] S8
-    expectRefused(await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(10), gravity: 0.996, unit: 'sg' }), /apparent attenuation of 110 %.*confirm/);
+    expectRefused(
+      await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(10), gravity: 0.996, unit: 'sg' }),
+      /apparent attenuation of 110 %.*confirm/,
+    );
     expect(await counts(batchId)).toEqual(before);
     const confirmed = await member.post(`/api/batches/${batchId}/readings`, { takenAt: at(10), gravity: 0.996, unit: 'sg', confirm: true });
     expect(confirmed.status, JSON.stringify(confirmed.body)).toBe(201);
-    const audit = await ctx.db.selectFrom('audit_log').select('detail').where('subject_id', '=', batchId).where('action', '=', 'reading:added').executeTakeFirstOrThrow();
+    const audit = await ctx.db
+      .selectFrom('audit_log')
+      .select('detail')
+      .where('subject_id', '=', batchId)
+      .where('action', '=', 'reading:added')
+      .executeTakeFirstOrThrow();
     expect(audit.detail).toMatchObject({ confirmed: true });
     // 50 % and 80 % [C:F4.1] need nothing.
     const other = await newBatch([{ days: 0, value: 1.05 }]);
@@ -144,7 +175,9 @@ describe('imported readings follow the same rules', { timeout: 60_000 }, () => {
       .field('mapping', JSON.stringify({ takenAt: 'Taken at', gravity: 'Gravity', unit: 'Unit', gravityUnit: 'sg', timeZone: 'UTC' }))
       .attach('file', Buffer.from(csv), { filename: 'r.csv', contentType: 'text/csv' });
     expect(res.status, JSON.stringify(res.body)).toBe(422);
-    expect(res.body.errors).toEqual([expect.objectContaining({ row: 3, path: 'gravity', message: expect.stringMatching(/above the batch’s original gravity/) })]);
+    expect(res.body.errors).toEqual([
+      expect.objectContaining({ row: 3, path: 'gravity', message: expect.stringMatching(/above the batch’s original gravity/) }),
+    ]);
     expect(await counts(batchId)).toEqual(before);
   });
 });

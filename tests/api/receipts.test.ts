@@ -26,7 +26,10 @@ async function payer(name: string) {
 
 /** Receipts queued for an address (sent or not yet): what the member will get. */
 async function receiptsTo(email: string): Promise<{ subject: string; text: string }[]> {
-  const r = await ctx.deps.pool.query(`select data from pgboss.job where name = 'email.send' and data->>'to' = $1 and data->>'subject' like 'Receipt:%' order by created_on`, [email]);
+  const r = await ctx.deps.pool.query(
+    `select data from pgboss.job where name = 'email.send' and data->>'to' = $1 and data->>'subject' like 'Receipt:%' order by created_on`,
+    [email],
+  );
   return r.rows.map((row) => row.data);
 }
 
@@ -63,7 +66,12 @@ afterAll(async () => {
 describe('payment receipts', () => {
   it('e-mails a receipt for a payment recorded by the treasurer: amount, date, invoice, balance left, method', async () => {
     const p = await payer('Rita Receipt');
-    const res = await treasurer.post(`/api/invoices/${p.invoiceId}/payments`, { amountCents: 620, method: 'bank_transfer', receivedOn: '2026-12-02', reference: 'Transfer 77' });
+    const res = await treasurer.post(`/api/invoices/${p.invoiceId}/payments`, {
+      amountCents: 620,
+      method: 'bank_transfer',
+      receivedOn: '2026-12-02',
+      reference: 'Transfer 77',
+    });
     expect(res.status).toBe(201);
     const mail = await ctx.waitForMail(p.email, /^Receipt:/);
     expect(mail.subject).toContain(p.number);

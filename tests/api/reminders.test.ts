@@ -29,9 +29,12 @@ async function overdueInvoice(name: string) {
   return { member: m, invoice: inv };
 }
 
-const remindersOf = (column: 'invoice_id' | 'keg_id', id: string) => ctx.db.selectFrom('reminder').selectAll().where(column, '=', id).orderBy('sent_at').execute();
+const remindersOf = (column: 'invoice_id' | 'keg_id', id: string) =>
+  ctx.db.selectFrom('reminder').selectAll().where(column, '=', id).orderBy('sent_at').execute();
 const mailsTo = async (to: string, subject: RegExp) =>
-  (await ctx.deps.pool.query<{ subject: string }>('select subject from dev_mail_message where $1 = any(mail_to)', [to.toLowerCase()])).rows.filter((m) => subject.test(m.subject));
+  (await ctx.deps.pool.query<{ subject: string }>('select subject from dev_mail_message where $1 = any(mail_to)', [to.toLowerCase()])).rows.filter((m) =>
+    subject.test(m.subject),
+  );
 const queuedTo = async (to: string) => {
   const r = await ctx.deps.pool.query(`select count(*)::int as n from pgboss.job where name = 'email.send' and data->>'to' = $1`, [to]);
   return r.rows[0].n as number;
@@ -85,8 +88,16 @@ describe('invoice reminders', () => {
     const { member: m, invoice } = await overdueInvoice('Constraint Cora');
     const row = { kind: 'invoice' as const, invoice_id: invoice.id, member_id: m.id, sent_to: m.email, sent_by: null };
     const at = now();
-    await ctx.db.insertInto('reminder').values({ ...row, sent_at: at, quiet_until: new Date(at.getTime() + DAY) }).execute();
-    await expect(ctx.db.insertInto('reminder').values({ ...row, sent_at: new Date(at.getTime() + HOUR), quiet_until: new Date(at.getTime() + 25 * HOUR) }).execute()).rejects.toMatchObject({
+    await ctx.db
+      .insertInto('reminder')
+      .values({ ...row, sent_at: at, quiet_until: new Date(at.getTime() + DAY) })
+      .execute();
+    await expect(
+      ctx.db
+        .insertInto('reminder')
+        .values({ ...row, sent_at: new Date(at.getTime() + HOUR), quiet_until: new Date(at.getTime() + 25 * HOUR) })
+        .execute(),
+    ).rejects.toMatchObject({
       code: '23P01',
     });
   });

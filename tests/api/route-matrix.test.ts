@@ -254,7 +254,9 @@ describe('the route permission matrix', () => {
   it('has an entry for every route the app serves, and a route for every entry', () => {
     const served = new Set(routes.map(routeKey));
     const missing = [...served].filter((k) => !expected[k]).map((k) => `route ${k} has no entry`);
-    const stale = Object.keys(expected).filter((k) => !served.has(k)).map((k) => `entry ${k} has no route`);
+    const stale = Object.keys(expected)
+      .filter((k) => !served.has(k))
+      .map((k) => `entry ${k} has no route`);
     expect([...missing, ...stale]).toEqual([]);
     for (const r of routes) {
       const params = r.path.match(/:\w+/g) ?? [];
@@ -285,8 +287,10 @@ describe('the route permission matrix', () => {
         calls++;
         const where = `${routeKey(r)} as ${call.role}${call.owner ? ` on ${call.owner.key}'s record` : ''}`;
         if (res.status >= 500) failures.push(`${where}: ${res.status} ${res.text.slice(0, 200)}`);
-        else if (call.expect === ok ? refused(res.status) : res.status !== call.expect) failures.push(`${where}: expected ${call.expect}, got ${res.status} ${res.text.slice(0, 160)}`);
-        if (res.status >= 400 && !/application\/problem\+json/.test(res.get('content-type') ?? '')) failures.push(`${where}: ${res.status} is not problem JSON`);
+        else if (call.expect === ok ? refused(res.status) : res.status !== call.expect)
+          failures.push(`${where}: expected ${call.expect}, got ${res.status} ${res.text.slice(0, 160)}`);
+        if (res.status >= 400 && !/application\/problem\+json/.test(res.get('content-type') ?? ''))
+          failures.push(`${where}: ${res.status} is not problem JSON`);
         // Nothing of the owner's reaches whoever the record is refused or hidden from, nor another member.
         if (record && (call.expect !== ok || call.foreign)) {
           const text = res.text ?? '';
@@ -310,7 +314,10 @@ describe('the route permission matrix', () => {
     const lists = routes.filter((r) => r.method === 'GET' && !r.path.includes(':') && expected[routeKey(r)]?.cells[1] === ok);
     expect(lists.length).toBeGreaterThan(15);
     for (const r of lists) {
-      for (const [me, them] of [['member', 'member2'], ['member2', 'member']] as const) {
+      for (const [me, them] of [
+        ['member', 'member2'],
+        ['member2', 'member'],
+      ] as const) {
         const res = await clients[me].get(r.path);
         if (res.status >= 500 || refused(res.status)) failures.push(`${routeKey(r)} as ${me}: ${res.status}`);
         for (const m of new Set(made[them])) if ((res.text ?? '').includes(m)) failures.push(`${routeKey(r)} as ${me} shows ${them}'s "${m}"`);
@@ -322,7 +329,13 @@ describe('the route permission matrix', () => {
   it('refuses every write without a valid CSRF token from a signed-in session (403), changing nothing', { timeout: 120_000 }, async () => {
     const writes = routes.filter((r) => isWrite(r) && !r.path.startsWith('/api/webhooks/'));
     expect(writes.length).toBeGreaterThan(40);
-    const audited = async () => (await ctx.db.selectFrom('audit_log').select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow()).n;
+    const audited = async () =>
+      (
+        await ctx.db
+          .selectFrom('audit_log')
+          .select((eb) => eb.fn.countAll<string>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n;
     const failures: string[] = [];
     for (const r of writes) {
       const entry = expected[routeKey(r)]!;
@@ -332,8 +345,9 @@ describe('the route permission matrix', () => {
       for (const token of [undefined, 'not-the-token']) {
         let req = clients.admin.agent[r.method.toLowerCase() as 'post'](url);
         if (token) req = req.set('X-CSRF-Token', token);
-        const res = await (r.method === 'DELETE' ? req : req.send((entry.body ?? {})));
-        if (res.status !== 403 || !/CSRF/.test(res.body?.title ?? '')) failures.push(`${routeKey(r)} ${token ? 'with a wrong token' : 'without a token'}: ${res.status}`);
+        const res = await (r.method === 'DELETE' ? req : req.send(entry.body ?? {}));
+        if (res.status !== 403 || !/CSRF/.test(res.body?.title ?? ''))
+          failures.push(`${routeKey(r)} ${token ? 'with a wrong token' : 'without a token'}: ${res.status}`);
       }
       if ((await audited()) !== before) failures.push(`${routeKey(r)}: a refused write left an audit row`);
     }

@@ -65,10 +65,20 @@ describe('recording a sanitation cycle', () => {
     const fresh = new Date(res.body.cycle.freshUntil).getTime() - new Date(res.body.cycle.completedAt).getTime();
     expect(fresh).toBe(7 * 86_400_000);
     expect(await stateOf(keg.id)).toBe('ready');
-    const change = await ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
+    const change = await ctx.db
+      .selectFrom('equipment_state_change')
+      .selectAll()
+      .where('equipment_id', '=', keg.id)
+      .orderBy('id', 'desc')
+      .executeTakeFirstOrThrow();
     expect(change).toMatchObject({ from_state: 'needs_cleaning', to_state: 'ready', actor_id: brewer.user.id });
     expect(change.reason).toMatch(/complete/);
-    const trail = await ctx.db.selectFrom('audit_log').selectAll().where('subject_type', '=', 'SanitationCycle').where('subject_id', '=', res.body.cycle.id).execute();
+    const trail = await ctx.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('subject_type', '=', 'SanitationCycle')
+      .where('subject_id', '=', res.body.cycle.id)
+      .execute();
     expect(trail).toHaveLength(1);
   });
 
@@ -81,7 +91,12 @@ describe('recording a sanitation cycle', () => {
     expect(res.body.cycle).toMatchObject({ outcome: 'cleaned', complete: false, freshUntil: null });
     expect(res.body.cycle.issues).toEqual([expect.objectContaining({ code: 'missing_step', step: 'purge' })]);
     expect(await stateOf(keg.id)).toBe('cleaned');
-    const reason = await ctx.db.selectFrom('equipment_state_change').select('reason').where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
+    const reason = await ctx.db
+      .selectFrom('equipment_state_change')
+      .select('reason')
+      .where('equipment_id', '=', keg.id)
+      .orderBy('id', 'desc')
+      .executeTakeFirstOrThrow();
     expect(reason.reason).toMatch(/incomplete.*No CO2 purge step/);
   });
 
@@ -180,13 +195,19 @@ describe('continuing a cycle', () => {
 describe('who may do what', () => {
   it('lets neither a member nor the treasurer record a cycle (403), and nothing is written', async () => {
     const keg = await takeKeg();
-    const before = await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const before = await ctx.db
+      .selectFrom('sanitation_cycle')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     for (const who of [member, treasurer]) {
       const res = await who.post('/api/sanitation-cycles', { equipmentId: keg.id, steps: completeSteps() });
       expect(res.status).toBe(403);
       expect(res.headers['content-type']).toMatch(/problem\+json/);
     }
-    const after = await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const after = await ctx.db
+      .selectFrom('sanitation_cycle')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     expect(after.n).toBe(before.n);
   });
 
@@ -242,12 +263,23 @@ describe('the log and the vessels’ standing', () => {
     expect(status.body.items[0].stateReason).toMatch(/lapsed/);
     expect(await applyFreshnessLapses(ctx.db, ctx.clock.now())).toBeGreaterThanOrEqual(1);
     expect(await stateOf(keg.id)).toBe('needs_cleaning');
-    const change = await ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', keg.id).orderBy('id', 'desc').executeTakeFirstOrThrow();
+    const change = await ctx.db
+      .selectFrom('equipment_state_change')
+      .selectAll()
+      .where('equipment_id', '=', keg.id)
+      .orderBy('id', 'desc')
+      .executeTakeFirstOrThrow();
     expect(change).toMatchObject({ from_state: 'ready', to_state: 'needs_cleaning', actor_id: null });
     expect(change.reason).toMatch(/Freshness window lapsed/);
     // Once written down, a second pass changes nothing for it.
     const again = await applyFreshnessLapses(ctx.db, ctx.clock.now());
-    const changes = await ctx.db.selectFrom('equipment_state_change').select('id').where('equipment_id', '=', keg.id).where('reason', 'like', 'Freshness%').where('at', '>', new Date(ctx.clock.now().getTime() - 3600_000)).execute();
+    const changes = await ctx.db
+      .selectFrom('equipment_state_change')
+      .select('id')
+      .where('equipment_id', '=', keg.id)
+      .where('reason', 'like', 'Freshness%')
+      .where('at', '>', new Date(ctx.clock.now().getTime() - 3600_000))
+      .execute();
     expect(changes).toHaveLength(1);
     expect(again).toBeGreaterThanOrEqual(0);
   });
@@ -292,9 +324,19 @@ describe('the sanitation audit PDF', () => {
     // cleaned 60 hours later (14 Sep 10:00 + 60 h = 16 Sep 22:00; the purge 80 min on, 23:20), then left unused.
     const fa = await createFermenter(ctx.db);
     await createSanitationCycle(ctx.db, { equipmentId: fa.id, readyAt: '2026-09-01T08:00:00Z', recordedBy: ada });
-    const batchA = await createBatch(ctx.db, { readings: readings('2026-09-01T09:00:00Z'), fermenter: { equipmentId: fa.id, startsAt: '2026-09-01T09:00:00Z', endsAt: '2026-09-14T10:00:00Z' } });
+    const batchA = await createBatch(ctx.db, {
+      readings: readings('2026-09-01T09:00:00Z'),
+      fermenter: { equipmentId: fa.id, startsAt: '2026-09-01T09:00:00Z', endsAt: '2026-09-14T10:00:00Z' },
+    });
     const kegNoCycle = await createKeg(ctx.db);
-    await createTransfer(ctx.db, { batchId: batchA.id, fromEquipmentId: fa.id, kegIds: [kegNoCycle.id], at: '2026-09-14T10:00:00Z', sanitizeKegs: false, recordedBy: ada });
+    await createTransfer(ctx.db, {
+      batchId: batchA.id,
+      fromEquipmentId: fa.id,
+      kegIds: [kegNoCycle.id],
+      at: '2026-09-14T10:00:00Z',
+      sanitizeKegs: false,
+      recordedBy: ada,
+    });
     await createSanitationCycle(ctx.db, { equipmentId: fa.id, readyAt: '2026-09-16T23:20:00Z', recordedBy: odile });
 
     // A keg whose sanitize step had 30 s, below the 1 min minimum, recorded as an exception with its reason.
@@ -307,10 +349,20 @@ describe('the sanitation audit PDF', () => {
     // A keg sanitized 1 Oct 09:00 (fresh until 8 Oct 09:00) and filled on 20 Oct from F-b.
     const fb = await createFermenter(ctx.db);
     await createSanitationCycle(ctx.db, { equipmentId: fb.id, readyAt: '2026-10-05T08:00:00Z', recordedBy: odile });
-    const batchB = await createBatch(ctx.db, { readings: readings('2026-10-05T09:00:00Z'), fermenter: { equipmentId: fb.id, startsAt: '2026-10-05T09:00:00Z', endsAt: '2026-10-20T10:00:00Z' } });
+    const batchB = await createBatch(ctx.db, {
+      readings: readings('2026-10-05T09:00:00Z'),
+      fermenter: { equipmentId: fb.id, startsAt: '2026-10-05T09:00:00Z', endsAt: '2026-10-20T10:00:00Z' },
+    });
     const kegLapsed = await createKeg(ctx.db);
     await createSanitationCycle(ctx.db, { equipmentId: kegLapsed.id, readyAt: '2026-10-01T09:00:00Z', recordedBy: ada });
-    await createTransfer(ctx.db, { batchId: batchB.id, fromEquipmentId: fb.id, kegIds: [kegLapsed.id], at: '2026-10-20T10:00:00Z', sanitizeKegs: false, recordedBy: ada });
+    await createTransfer(ctx.db, {
+      batchId: batchB.id,
+      fromEquipmentId: fb.id,
+      kegIds: [kegLapsed.id],
+      at: '2026-10-20T10:00:00Z',
+      sanitizeKegs: false,
+      recordedBy: ada,
+    });
     await createSanitationCycle(ctx.db, { equipmentId: fb.id, readyAt: '2026-10-21T09:00:00Z', recordedBy: ada });
 
     // F-c: cleaned and rinsed on 10 Nov, never sanitized.
@@ -320,7 +372,14 @@ describe('the sanitation audit PDF', () => {
     const res = await brewer.get('/api/reports/sanitation-audit.pdf?from=2026-09-01&to=2026-11-30').buffer(true).parse(binary);
     expect(res.status).toBe(200);
     const text = pdfText(res.body as Buffer);
-    const [{ n: cycles }] = [await ctx.db.selectFrom('sanitation_cycle').select((eb) => eb.fn.countAll<number>().as('n')).where('completed_at', '>=', new Date('2026-09-01T00:00:00Z')).where('completed_at', '<', new Date('2026-12-01T00:00:00Z')).executeTakeFirstOrThrow()];
+    const [{ n: cycles }] = [
+      await ctx.db
+        .selectFrom('sanitation_cycle')
+        .select((eb) => eb.fn.countAll<number>().as('n'))
+        .where('completed_at', '>=', new Date('2026-09-01T00:00:00Z'))
+        .where('completed_at', '<', new Date('2026-12-01T00:00:00Z'))
+        .executeTakeFirstOrThrow(),
+    ];
     // Seven cycles above, and the one ten days before the test clock's now (22 Nov) from the lapsed-window test.
     expect(cycles).toBe(8);
     const vessels = await ctx.db.selectFrom('equipment').select('code').where('kind', 'in', ['fermenter', 'keg']).execute();
@@ -330,7 +389,9 @@ describe('the sanitation audit PDF', () => {
     for (const person of ['Ada Kettleby', 'Odile Marsh', 'Amadou Kestrel']) expect(text).toContain(person);
     // The exceptions built in above.
     expect(text).toMatch(new RegExp(`${kegNoCycle.code}\\s+14 Sept? 2026, 10:00\\s*Fill with no cycle on record`));
-    expect(text).toMatch(new RegExp(`${kegShort.code}\\s+7 Oct 2026, 11:00\\s*Recorded exception\\s+Recorded as an exception: Sanitize step: contact time 30 s`));
+    expect(text).toMatch(
+      new RegExp(`${kegShort.code}\\s+7 Oct 2026, 11:00\\s*Recorded exception\\s+Recorded as an exception: Sanitize step: contact time 30 s`),
+    );
     expect(text).toMatch(/Reason given: Sanitizer\s+drained\s+too\s+soon/);
     expect(text).toMatch(new RegExp(`${kegLapsed.code}\\s+20 Oct 2026, 10:00\\s*Fill after the freshness window lapsed`));
     expect(text).toMatch(new RegExp(`${fc.code}\\s+10 Nov 2026, 15:00\\s*Incomplete cycle`));

@@ -44,7 +44,18 @@ beforeAll(async () => {
 
   // Batches: planned and fermenting ones count; a packaged one does not.
   made.openBatches.push((await createBatch(ctx.db, { ownerId: member, name: 'Winter porter (planned)' })).id);
-  made.openBatches.push((await createBatch(ctx.db, { ownerId: member, name: 'Amber in the fermenter', readings: [{ takenAt: t(-2), value: 1.054 }, { takenAt: t(-1), value: 1.03 }] })).id);
+  made.openBatches.push(
+    (
+      await createBatch(ctx.db, {
+        ownerId: member,
+        name: 'Amber in the fermenter',
+        readings: [
+          { takenAt: t(-2), value: 1.054 },
+          { takenAt: t(-1), value: 1.03 },
+        ],
+      })
+    ).id,
+  );
   made.packagedBatch = (await createBatch(ctx.db, { ownerId: member, name: 'Packaged pils', status: 'packaged' })).id;
 
   // Kegs out with the member: one due next week, one two days overdue; another member's keg not yet due.

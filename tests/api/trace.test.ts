@@ -42,7 +42,11 @@ async function transferred(n: number, finings: { kind: string; amount: number; u
     expect(res.status, JSON.stringify(res.body)).toBe(200);
   }
   const kegs = await takeKegs(n);
-  await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+  await makeReady(
+    brewer,
+    kegs.map((k) => k.id),
+    ctx.clock,
+  );
   const res = await brewer.post('/api/transfers', {
     batchId: batch.batchId,
     fromEquipmentId: batch.fermenterId,
@@ -73,12 +77,21 @@ describe('best-before stored at fill', () => {
     const saved = await admin.put('/api/settings/shelf_life', { defaultDays: 60, nearDays: 7, byStyle: [{ style: 'pale', days: 20 }] });
     expect(saved.status, JSON.stringify(saved.body)).toBe(200);
     const after = await transferred(1, null);
-    const fills = await ctx.db.selectFrom('keg_fill').select(['keg_id', 'filled_at', 'best_before']).where('keg_id', 'in', [before.kegs[0]!.id, after.kegs[0]!.id]).execute();
+    const fills = await ctx.db
+      .selectFrom('keg_fill')
+      .select(['keg_id', 'filled_at', 'best_before'])
+      .where('keg_id', 'in', [before.kegs[0]!.id, after.kegs[0]!.id])
+      .execute();
     const byKeg = new Map(fills.map((f) => [f.keg_id, f]));
     expect(byKeg.get(before.kegs[0]!.id)!.best_before).toEqual(stored.best_before);
     const a = byKeg.get(after.kegs[0]!.id)!;
     expect(a.best_before!.getTime() - a.filled_at.getTime()).toBe(20 * DAY);
-    await setSetting(ctx.db, 'shelf_life', { byStyle: [{ style: 'IPA', days: 45 }, { style: 'Pale ale', days: 45 }] });
+    await setSetting(ctx.db, 'shelf_life', {
+      byStyle: [
+        { style: 'IPA', days: 45 },
+        { style: 'Pale ale', days: 45 },
+      ],
+    });
   });
 
   it('refuses a shelf life or allergen list out of range and changes nothing', async () => {
@@ -113,7 +126,9 @@ describe('GET /api/batches/:id/trace', () => {
     expect(res.body.fills).toHaveLength(3);
     const byKeg = new Map(res.body.fills.map((f: { kegId: string }) => [f.kegId, f]));
     for (const f of res.body.fills) {
-      expect(Object.keys(f)).toEqual(expect.arrayContaining(['kegId', 'code', 'filledAt', 'volumeLiters', 'state', 'whereabouts', 'holder', 'tap', 'bestBefore']));
+      expect(Object.keys(f)).toEqual(
+        expect.arrayContaining(['kegId', 'code', 'filledAt', 'volumeLiters', 'state', 'whereabouts', 'holder', 'tap', 'bestBefore']),
+      );
       expect(f.volumeLiters).toBe(19);
       expect(new Date(f.bestBefore).getTime() - new Date(f.filledAt).getTime()).toBe(45 * DAY);
     }
@@ -156,7 +171,10 @@ describe('GET /api/batches/:id/trace', () => {
     expect(csv.status).toBe(200);
     expect(csv.headers['content-type']).toMatch(/^text\/csv/);
     expect(csv.headers['content-disposition']).toMatch(/^attachment;.*\.csv/);
-    const lines = csv.text.replace(/^\ufeff/, '').trim().split('\r\n');
+    const lines = csv.text
+      .replace(/^\ufeff/, '')
+      .trim()
+      .split('\r\n');
     expect(lines).toHaveLength(3);
     expect(lines[0]).toMatch(/^Batch,Style,Owner,Allergens,Vegan,Keg,Filled/);
     for (const k of kegs) expect(csv.text).toContain(k.code);
@@ -208,7 +226,12 @@ describe('what follows the beer onto the keg, the tap board and Today', () => {
     expect((await brewer.post(`/api/kegs/${kegs[0]!.id}/check-out`, { memberId: owner.user.id, dueAt: inDays(10) })).status).toBe(200);
     const held = await owner.get(`/api/kegs/${kegs[0]!.id}`);
     expect(held.status).toBe(200);
-    expect(held.body.keg.contents).toMatchObject({ finings: [{ kind: 'gelatin', dose: 4, unit: 'g' }], allergens: ['gluten (barley)'], vegan: false, bestBeforeState: 'ok' });
+    expect(held.body.keg.contents).toMatchObject({
+      finings: [{ kind: 'gelatin', dose: 4, unit: 'g' }],
+      allergens: ['gluten (barley)'],
+      vegan: false,
+      bestBeforeState: 'ok',
+    });
     expect(held.body.keg.contents.bestBefore).toBeTruthy();
     const tap = await createTap(ctx.db);
     expect((await brewer.post(`/api/kegs/${kegs[1]!.id}/move`, { to: 'cold_room', tapId: tap.id })).status).toBe(200);

@@ -31,8 +31,19 @@ async function snapshot(batchId: string, vesselIds: string[]) {
     fills: await count(ctx, 'keg_fill'),
     states: await states(ctx, vesselIds),
     batch,
-    changes: (await ctx.db.selectFrom('equipment_state_change').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n,
-    audits: (await ctx.db.selectFrom('audit_log').select((eb) => eb.fn.countAll<number>().as('n')).where('subject_type', '=', 'Transfer').executeTakeFirstOrThrow()).n,
+    changes: (
+      await ctx.db
+        .selectFrom('equipment_state_change')
+        .select((eb) => eb.fn.countAll<number>().as('n'))
+        .executeTakeFirstOrThrow()
+    ).n,
+    audits: (
+      await ctx.db
+        .selectFrom('audit_log')
+        .select((eb) => eb.fn.countAll<number>().as('n'))
+        .where('subject_type', '=', 'Transfer')
+        .executeTakeFirstOrThrow()
+    ).n,
   };
 }
 
@@ -40,7 +51,11 @@ describe('a transfer from a fermenter into ready kegs', () => {
   it('fills the kegs with the batch (OG, FG, ABV copied), empties the fermenter and records volumes and loss, in one go', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const res = await brewer.post('/api/transfers', {
       batchId: batch.batchId,
       fromEquipmentId: batch.fermenterId,
@@ -52,7 +67,14 @@ describe('a transfer from a fermenter into ready kegs', () => {
     });
     expect(res.status).toBe(201);
     const t = res.body.transfer;
-    expect(t).toMatchObject({ volumeLiters: 21, packagedLiters: 20, lossLiters: 1, drawMethod: 'bottom_valve', finings: { kind: 'gelatin', amount: 2, unit: 'g' }, unconfirmed: [] });
+    expect(t).toMatchObject({
+      volumeLiters: 21,
+      packagedLiters: 20,
+      lossLiters: 1,
+      drawMethod: 'bottom_valve',
+      finings: { kind: 'gelatin', amount: 2, unit: 'g' },
+      unconfirmed: [],
+    });
     expect(t.kegs.map((k: { code: string; volumeLiters: number }) => [k.code, k.volumeLiters]).sort()).toEqual(
       [
         [kegs[0]!.code, 10.5],
@@ -104,7 +126,11 @@ describe('a transfer from a fermenter into ready kegs', () => {
   it('shares the volume less the loss evenly when no per-keg volumes are given, and names unconfirmed checklist items', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(3);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const { leakChecked: _skip, ...partial } = fullChecklist;
     const res = await brewer.post('/api/transfers', {
       batchId: batch.batchId,
@@ -160,7 +186,13 @@ describe('refusals', () => {
     });
     // A keg registered as ready with no cleaning on record (as imported history may have it).
     const bare = await createKeg(ctx.db, { name: '19 L ball lock keg, new', state: 'ready' });
-    const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [stale!.id, bare.id], volumeLiters: 20, checklist: fullChecklist });
+    const res = await brewer.post('/api/transfers', {
+      batchId: batch.batchId,
+      fromEquipmentId: batch.fermenterId,
+      toKegIds: [stale!.id, bare.id],
+      volumeLiters: 20,
+      checklist: fullChecklist,
+    });
     expect(res.status).toBe(409);
     const reasons = Object.fromEntries(res.body.kegs.map((k: { id: string; reason: string }) => [k.id, k.reason]));
     expect(reasons[stale!.id]).toMatch(/freshness window has lapsed/);
@@ -170,10 +202,20 @@ describe('refusals', () => {
   it('lets neither a member nor the treasurer record a transfer (403), and nothing is written', async () => {
     const batch = refused;
     const kegs = await takeKegs(1);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const before = await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId]);
     for (const who of [member, treasurer]) {
-      const res = await who.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [kegs[0]!.id], volumeLiters: 19, checklist: fullChecklist });
+      const res = await who.post('/api/transfers', {
+        batchId: batch.batchId,
+        fromEquipmentId: batch.fermenterId,
+        toKegIds: [kegs[0]!.id],
+        volumeLiters: 19,
+        checklist: fullChecklist,
+      });
       expect(res.status).toBe(403);
     }
     expect(await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId])).toEqual(before);
@@ -183,7 +225,11 @@ describe('refusals', () => {
   it('validates volumes, kegs and the batch', async () => {
     const batch = refused;
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const base = { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), checklist: fullChecklist };
     const over = await brewer.post('/api/transfers', { ...base, volumeLiters: 20, kegVolumesLiters: [12, 12] });
     expect(over.status).toBe(422);
@@ -198,7 +244,12 @@ describe('refusals', () => {
     const planned = await createBatch(ctx.db, { status: 'planned' });
     const notBrewed = await brewer.post('/api/transfers', { ...base, batchId: planned.id, volumeLiters: 20 });
     expect(notBrewed.status).toBe(409);
-    expect(await states(ctx, kegs.map((k) => k.id))).toEqual(Object.fromEntries(kegs.map((k) => [k.id, 'ready'])));
+    expect(
+      await states(
+        ctx,
+        kegs.map((k) => k.id),
+      ),
+    ).toEqual(Object.fromEntries(kegs.map((k) => [k.id, 'ready'])));
   });
 });
 
@@ -206,7 +257,11 @@ describe('all or nothing', () => {
   it('leaves no partial transfer when a write fails mid-way', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(3);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const ids = kegs.map((k) => k.id);
     // The database refuses the third keg's fill, after the first two were written in the transaction.
     await sql`create or replace function cw_test_refuse_fill() returns trigger language plpgsql as $$
@@ -214,7 +269,13 @@ describe('all or nothing', () => {
     await sql`create trigger cw_test_refuse_fill before insert on keg_fill for each row execute function cw_test_refuse_fill()`.execute(ctx.db);
     const before = await snapshot(batch.batchId, [...ids, batch.fermenterId]);
     try {
-      const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: ids, volumeLiters: 45, checklist: fullChecklist });
+      const res = await brewer.post('/api/transfers', {
+        batchId: batch.batchId,
+        fromEquipmentId: batch.fermenterId,
+        toKegIds: ids,
+        volumeLiters: 45,
+        checklist: fullChecklist,
+      });
       expect(res.status).toBe(500);
       expect(res.headers['content-type']).toMatch(/problem\+json/);
     } finally {
@@ -222,7 +283,13 @@ describe('all or nothing', () => {
     }
     expect(await snapshot(batch.batchId, [...ids, batch.fermenterId])).toEqual(before);
     // And it goes through once the fault is gone.
-    const retry = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: ids, volumeLiters: 45, checklist: fullChecklist });
+    const retry = await brewer.post('/api/transfers', {
+      batchId: batch.batchId,
+      fromEquipmentId: batch.fermenterId,
+      toKegIds: ids,
+      volumeLiters: 45,
+      checklist: fullChecklist,
+    });
     expect(retry.status).toBe(201);
   });
 
@@ -230,11 +297,24 @@ describe('all or nothing', () => {
     const batch = refused;
     const other = await createBatch(ctx.db, { status: 'packaged' });
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     // Corrected history left an open fill on a keg that reads as ready.
-    await ctx.db.insertInto('keg_fill').values({ keg_id: kegs[1]!.id, batch_id: other.id, volume_liters: 5, remaining_liters: 5, filled_at: new Date(ctx.clock.now().getTime() - DAY) }).execute();
+    await ctx.db
+      .insertInto('keg_fill')
+      .values({ keg_id: kegs[1]!.id, batch_id: other.id, volume_liters: 5, remaining_liters: 5, filled_at: new Date(ctx.clock.now().getTime() - DAY) })
+      .execute();
     const before = await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId]);
-    const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), volumeLiters: 30, checklist: fullChecklist });
+    const res = await brewer.post('/api/transfers', {
+      batchId: batch.batchId,
+      fromEquipmentId: batch.fermenterId,
+      toKegIds: kegs.map((k) => k.id),
+      volumeLiters: 30,
+      checklist: fullChecklist,
+    });
     expect(res.status).toBe(409);
     expect(await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId])).toEqual(before);
   });
@@ -257,9 +337,19 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
   it('answers 422 with the last readings and what the rule needs when the gravity is not stable, and changes nothing', async () => {
     const batch = await fallingBatch();
     const kegs = await takeKegs(1);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const before = await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId]);
-    const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [kegs[0]!.id], volumeLiters: 19, checklist: fullChecklist });
+    const res = await brewer.post('/api/transfers', {
+      batchId: batch.batchId,
+      fromEquipmentId: batch.fermenterId,
+      toKegIds: [kegs[0]!.id],
+      volumeLiters: 19,
+      checklist: fullChecklist,
+    });
     expect(res.status).toBe(422);
     expect(res.headers['content-type']).toMatch(/problem\+json/);
     expect(res.body).toMatchObject({ title: 'Gravity not stable', code: 'gravity_not_stable' });
@@ -293,7 +383,11 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
   it('records the transfer with the reason given, its start and end, and dissolved oxygen at fill and per keg', async () => {
     const batch = await fallingBatch();
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const startedAt = minutesAgo(ctx.clock, 25);
     const endedAt = minutesAgo(ctx.clock, 5);
     const res = await brewer.post('/api/transfers', {
@@ -337,20 +431,42 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
   it('stores no reason when the gravity is stable, and no times when none are given', async () => {
     const batch = await takeBatch();
     const kegs = await takeKegs(1);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
-    const res = await brewer.post('/api/transfers', { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: [kegs[0]!.id], volumeLiters: 19, checklist: fullChecklist, unstableGravityReason: 'Just in case' });
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
+    const res = await brewer.post('/api/transfers', {
+      batchId: batch.batchId,
+      fromEquipmentId: batch.fermenterId,
+      toKegIds: [kegs[0]!.id],
+      volumeLiters: 19,
+      checklist: fullChecklist,
+      unstableGravityReason: 'Just in case',
+    });
     expect(res.status).toBe(201);
     expect(res.body.transfer).toMatchObject({ unstableGravityReason: null, startedAt: null, endedAt: null, dissolvedOxygenPpb: null });
 
     // A start alone: the transfer ends when it is recorded, by the server's clock.
     const batch2 = await takeBatch();
     const kegs2 = await takeKegs(1);
-    await makeReady(brewer, kegs2.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs2.map((k) => k.id),
+      ctx.clock,
+    );
     ctx.clock.freeze();
     try {
       const startedAt = minutesAgo(ctx.clock, 30);
       const now = ctx.clock.now().toISOString();
-      const res2 = await brewer.post('/api/transfers', { batchId: batch2.batchId, fromEquipmentId: batch2.fermenterId, toKegIds: [kegs2[0]!.id], volumeLiters: 19, checklist: fullChecklist, startedAt });
+      const res2 = await brewer.post('/api/transfers', {
+        batchId: batch2.batchId,
+        fromEquipmentId: batch2.fermenterId,
+        toKegIds: [kegs2[0]!.id],
+        volumeLiters: 19,
+        checklist: fullChecklist,
+        startedAt,
+      });
       expect(res2.status).toBe(201);
       expect(res2.body.transfer).toMatchObject({ startedAt, endedAt: now, transferredAt: now });
     } finally {
@@ -361,7 +477,11 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
   it('validates the times and the dissolved oxygen, and a refused transfer changes nothing', async () => {
     const batch = refused;
     const kegs = await takeKegs(2);
-    await makeReady(brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const base = { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), volumeLiters: 30, checklist: fullChecklist };
     const ids = [...kegs.map((k) => k.id), batch.fermenterId];
     const before = await snapshot(batch.batchId, ids);
@@ -383,12 +503,21 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
     for (const [extra, path] of cases) {
       const res = await brewer.post('/api/transfers', { ...base, ...extra });
       expect(res.status, JSON.stringify(extra)).toBe(422);
-      expect(res.body.errors.map((e: { path: string }) => e.path), JSON.stringify(extra)).toContain(path);
+      expect(
+        res.body.errors.map((e: { path: string }) => e.path),
+        JSON.stringify(extra),
+      ).toContain(path);
     }
     expect(await snapshot(batch.batchId, ids)).toEqual(before);
     // The database holds the same rules.
     const t = await ctx.db.selectFrom('transfer').select('id').limit(1).executeTakeFirstOrThrow();
     await expect(ctx.db.updateTable('transfer').set({ dissolved_oxygen_ppb: 10_001 }).where('id', '=', t.id).execute()).rejects.toThrow(/dissolved_oxygen/);
-    await expect(ctx.db.updateTable('transfer').set({ started_at: new Date(now), ended_at: new Date(now - 60_000) }).where('id', '=', t.id).execute()).rejects.toThrow(/transfer_times/);
+    await expect(
+      ctx.db
+        .updateTable('transfer')
+        .set({ started_at: new Date(now), ended_at: new Date(now - 60_000) })
+        .where('id', '=', t.id)
+        .execute(),
+    ).rejects.toThrow(/transfer_times/);
   });
 });

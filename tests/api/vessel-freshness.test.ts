@@ -19,7 +19,12 @@ describe('a lapsed freshness window', () => {
     expect(before.body.equipment.state).toBe('ready');
 
     // Every cycle of that keg went stale an hour ago (as if the window had run out).
-    await ctx.db.updateTable('sanitation_cycle').set({ fresh_until: new Date(ctx.clock.now().getTime() - HOUR) }).where('equipment_id', '=', keg.id).where('complete', '=', true).execute();
+    await ctx.db
+      .updateTable('sanitation_cycle')
+      .set({ fresh_until: new Date(ctx.clock.now().getTime() - HOUR) })
+      .where('equipment_id', '=', keg.id)
+      .where('complete', '=', true)
+      .execute();
 
     const after = await brewer.get(`/api/equipment/${keg.id}`);
     expect(after.body.equipment.state).toBe('needs_cleaning');

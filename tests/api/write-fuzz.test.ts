@@ -65,23 +65,54 @@ const entries: Record<string, FuzzEntry> = {
     as: 'admin',
     valid: () => ({ code: 'K-901', kind: 'keg', name: '19 L ball lock keg 901', capacityLiters: 19, attributes: { serial: 'LY19-B09011', lock: 'ball' } }),
   },
-  'PATCH /api/equipment/:id': { as: 'admin', record: 'equipment', valid: () => ({ name: 'Renamed fermenter', notes: 'Lid replaced', attributes: { style: 'bucket', hasValve: true } }) },
+  'PATCH /api/equipment/:id': {
+    as: 'admin',
+    record: 'equipment',
+    valid: () => ({ name: 'Renamed fermenter', notes: 'Lid replaced', attributes: { style: 'bucket', hasValve: true } }),
+  },
   'POST /api/equipment/:id/state': { as: 'brewer', record: 'equipment', valid: () => ({ state: 'cleaned', reason: 'Soaked and rinsed' }) },
-  'POST /api/equipment/:id/inspections': { as: 'brewer', record: 'equipment', valid: (f) => ({ kind: 'pressure_test', at: iso(new Date(f.now.getTime() - HOUR)), passed: true, note: 'Fuzz' }) },
+  'POST /api/equipment/:id/inspections': {
+    as: 'brewer',
+    record: 'equipment',
+    valid: (f) => ({ kind: 'pressure_test', at: iso(new Date(f.now.getTime() - HOUR)), passed: true, note: 'Fuzz' }),
+  },
   'POST /api/equipment/:id/connect': { as: 'brewer', record: 'equipment', valid: () => ({ note: 'Fuzz' }) },
   'POST /api/equipment/:id/refill': { as: 'brewer', record: 'equipment', valid: () => ({ remainingKg: 5, note: 'Fuzz' }) },
-  'POST /api/bookings': { as: 'member', valid: (f) => ({ equipmentId: f.fermenterId, startsAt: iso(new Date(f.now.getTime() + 20 * DAY)), endsAt: iso(new Date(f.now.getTime() + 24 * DAY)), notes: 'Fuzz' }) },
+  'POST /api/bookings': {
+    as: 'member',
+    valid: (f) => ({
+      equipmentId: f.fermenterId,
+      startsAt: iso(new Date(f.now.getTime() + 20 * DAY)),
+      endsAt: iso(new Date(f.now.getTime() + 24 * DAY)),
+      notes: 'Fuzz',
+    }),
+  },
   'DELETE /api/bookings/:id': { as: 'member', record: 'booking', valid: () => ({}) },
   'POST /api/calendar-feeds': { as: 'member', valid: () => ({ kind: 'member' }) },
   'PUT /api/settings/:key': {
     as: 'admin',
     record: 'setting',
     valid: () => ({ ...(settingSections.booking_rules.defaults as Record<string, unknown>), maxActiveBookingsPerMember: 24 }),
-    each: () => settingKeys.map((key) => ({ key, valid: { ...(settingSections[key].defaults as Record<string, unknown>), ...(key === 'booking_rules' ? { maxActiveBookingsPerMember: 24 } : {}) } })),
+    each: () =>
+      settingKeys.map((key) => ({
+        key,
+        valid: { ...(settingSections[key].defaults as Record<string, unknown>), ...(key === 'booking_rules' ? { maxActiveBookingsPerMember: 24 } : {}) },
+      })),
   },
-  'POST /api/batches': { as: 'member', valid: () => ({ name: 'Fuzz amber', style: 'Amber ale', volumeLiters: 23, targetOg: 1.052, targetFg: 1.012, notes: 'Fuzz' }) },
-  'PATCH /api/batches/:id': { as: 'member', record: 'batch', valid: () => ({ name: 'Renamed amber', style: 'Amber ale', volumeLiters: 21, notes: 'Topped up' }) },
-  'POST /api/batches/:id/readings': { as: 'member', record: 'batch', valid: (f) => ({ takenAt: iso(new Date(f.now.getTime() - HOUR)), gravity: 1.02, unit: 'sg', temperatureC: 20, note: 'Fuzz' }) },
+  'POST /api/batches': {
+    as: 'member',
+    valid: () => ({ name: 'Fuzz amber', style: 'Amber ale', volumeLiters: 23, targetOg: 1.052, targetFg: 1.012, notes: 'Fuzz' }),
+  },
+  'PATCH /api/batches/:id': {
+    as: 'member',
+    record: 'batch',
+    valid: () => ({ name: 'Renamed amber', style: 'Amber ale', volumeLiters: 21, notes: 'Topped up' }),
+  },
+  'POST /api/batches/:id/readings': {
+    as: 'member',
+    record: 'batch',
+    valid: (f) => ({ takenAt: iso(new Date(f.now.getTime() - HOUR)), gravity: 1.02, unit: 'sg', temperatureC: 20, note: 'Fuzz' }),
+  },
   'DELETE /api/batches/:id/readings/:readingId': { as: 'member', record: 'reading', valid: () => ({}) },
   'POST /api/batches/:id/readings/import': { as: 'member', record: 'batch', valid: () => ({ mapping: { takenAt: 'Taken at', gravity: 'Gravity' } }) },
   'POST /api/invoice-runs': { as: 'treasurer', valid: () => ({ period: '2026-11', issue: false }) },
@@ -93,37 +124,87 @@ const entries: Record<string, FuzzEntry> = {
   'POST /api/invoices/reminders': { as: 'treasurer', valid: () => ({}) },
   'POST /api/invoices/:id/checkout': { as: 'member', record: 'invoice', valid: () => ({}) },
   'POST /api/invoices/:id/checkout/confirm': { as: 'member', record: 'invoice', valid: () => ({ sessionId: 'cs_test_not_a_session' }) },
-  'POST /api/invoices/:id/payments': { as: 'treasurer', record: 'invoice', valid: (f) => ({ amountCents: 100, method: 'bank_transfer', receivedOn: day(f.now, 0), reference: 'Transfer 1', note: 'Fuzz' }) },
-  'POST /api/billing/overpayments/:id/refunded': { as: 'treasurer', record: 'overpayment', valid: (f) => ({ refundedOn: day(f.now, 0), reference: 'Refund 1' }) },
+  'POST /api/invoices/:id/payments': {
+    as: 'treasurer',
+    record: 'invoice',
+    valid: (f) => ({ amountCents: 100, method: 'bank_transfer', receivedOn: day(f.now, 0), reference: 'Transfer 1', note: 'Fuzz' }),
+  },
+  'POST /api/billing/overpayments/:id/refunded': {
+    as: 'treasurer',
+    record: 'overpayment',
+    valid: (f) => ({ refundedOn: day(f.now, 0), reference: 'Refund 1' }),
+  },
   'POST /api/invoices/:id/void': { as: 'treasurer', record: 'invoice', valid: () => ({ reason: 'Billed by mistake', refundMethod: null }) },
-  'POST /api/invoices/:id/refunds': { as: 'treasurer', record: 'invoice', valid: () => ({ amountCents: 100, reason: 'Goodwill', refundMethod: 'bank_transfer' }) },
+  'POST /api/invoices/:id/refunds': {
+    as: 'treasurer',
+    record: 'invoice',
+    valid: () => ({ amountCents: 100, reason: 'Goodwill', refundMethod: 'bank_transfer' }),
+  },
   'POST /api/prices': { as: 'treasurer', valid: (f) => ({ item: 'keg_week', unitCents: 250, effectiveFrom: day(f.now, 400), note: 'Fuzz' }) },
   'DELETE /api/prices/:id': { as: 'treasurer', record: 'price', valid: () => ({}) },
   'POST /api/tax-rates': { as: 'treasurer', valid: (f) => ({ rateBp: 900, label: 'VAT', effectiveFrom: day(f.now, 500) }) },
   'DELETE /api/tax-rates/:id': { as: 'treasurer', record: 'taxRate', valid: () => ({}) },
-  'POST /api/manual-charges': { as: 'treasurer', valid: (f) => ({ memberId: f.memberId, period: '2026-11', description: 'Part supplied', reason: 'Fuzz', amountCents: 500, taxable: true }) },
+  'POST /api/manual-charges': {
+    as: 'treasurer',
+    valid: (f) => ({ memberId: f.memberId, period: '2026-11', description: 'Part supplied', reason: 'Fuzz', amountCents: 500, taxable: true }),
+  },
   'DELETE /api/manual-charges/:id': { as: 'treasurer', record: 'manualCharge', valid: () => ({}) },
   'PUT /api/billing/profile': { as: 'treasurer', valid: () => ({ ...defaultBillingProfile }) },
   'POST /api/webhooks/payments': {
     as: 'webhook',
-    valid: () => ({ id: 'evt_fuzz', object: 'event', type: 'checkout.session.completed', data: { object: { id: 'cs_fuzz', object: 'checkout.session', payment_status: 'paid', amount_total: 100, currency: 'eur', metadata: { invoiceId: '00000000-0000-4000-8000-000000000000' } } } }),
+    valid: () => ({
+      id: 'evt_fuzz',
+      object: 'event',
+      type: 'checkout.session.completed',
+      data: {
+        object: {
+          id: 'cs_fuzz',
+          object: 'checkout.session',
+          payment_status: 'paid',
+          amount_total: 100,
+          currency: 'eur',
+          metadata: { invoiceId: '00000000-0000-4000-8000-000000000000' },
+        },
+      },
+    }),
   },
   'POST /api/sanitation-cycles': { as: 'brewer', valid: (f) => ({ equipmentId: f.fermenterId, steps: f.cycleSteps, notes: 'Fuzz' }) },
   'POST /api/sanitation-cycles/:id/steps': { as: 'brewer', record: 'cycle', valid: (f) => ({ steps: f.cycleSteps.slice(2), notes: 'Fuzz' }) },
   'POST /api/transfers': {
     as: 'brewer',
-    valid: (f) => ({ batchId: f.transfer.batchId, fromEquipmentId: f.transfer.fermenterId, toKegIds: f.transfer.kegIds, volumeLiters: 38, checklist: fullChecklist, finings: { kind: 'gelatin', amount: 2, unit: 'g' }, notes: 'Fuzz',
-      startedAt: iso(new Date(f.now.getTime() - 20 * 60_000)), endedAt: iso(new Date(f.now.getTime() - 2 * 60_000)), dissolvedOxygenPpb: 55, kegDissolvedOxygenPpb: f.transfer.kegIds.map(() => null) }),
+    valid: (f) => ({
+      batchId: f.transfer.batchId,
+      fromEquipmentId: f.transfer.fermenterId,
+      toKegIds: f.transfer.kegIds,
+      volumeLiters: 38,
+      checklist: fullChecklist,
+      finings: { kind: 'gelatin', amount: 2, unit: 'g' },
+      notes: 'Fuzz',
+      startedAt: iso(new Date(f.now.getTime() - 20 * 60_000)),
+      endedAt: iso(new Date(f.now.getTime() - 2 * 60_000)),
+      dissolvedOxygenPpb: 55,
+      kegDissolvedOxygenPpb: f.transfer.kegIds.map(() => null),
+    }),
   },
-  'POST /api/kegs/:id/check-out': { as: 'brewer', record: 'keg', valid: (f) => ({ memberId: f.memberId, dueAt: iso(new Date(f.now.getTime() + 14 * DAY)), note: 'Fuzz' }) },
+  'POST /api/kegs/:id/check-out': {
+    as: 'brewer',
+    record: 'keg',
+    valid: (f) => ({ memberId: f.memberId, dueAt: iso(new Date(f.now.getTime() + 14 * DAY)), note: 'Fuzz' }),
+  },
   'POST /api/kegs/:id/return': { as: 'brewer', record: 'keg', valid: () => ({ note: 'Back' }) },
   'POST /api/kegs/:id/move': { as: 'brewer', record: 'keg', valid: () => ({ to: 'cold_room', tapId: null, note: 'Fuzz' }) },
   'POST /api/kegs/:id/empty': { as: 'brewer', record: 'keg', valid: () => ({ note: 'Kicked' }) },
   'POST /api/kegs/:id/undo': { as: 'brewer', record: 'keg', valid: () => ({ actionId: '00000000-0000-4000-8000-000000000000' }) },
   'PATCH /api/kegs/:id/level': { as: 'brewer', record: 'keg', valid: () => ({ remainingLiters: 12.5 }) },
   'POST /api/kegs/:id/reminders': { as: 'brewer', record: 'keg', valid: () => ({}) },
-  'POST /api/carbonation-plans/preview': { as: 'brewer', valid: () => ({ targetVolumes: 2.5, temperatureC: 3, altitudeM: 0, method: 'fast_start', line: { lengthM: 3, insideDiameterMm: 4.8, riseM: 0.6 } }) },
-  'POST /api/carbonation-plans': { as: 'brewer', valid: (f) => ({ kegId: f.plannableKegId, targetVolumes: 2.4, method: 'set_and_hold', styleFamily: 'Ales', notes: 'Fuzz' }) },
+  'POST /api/carbonation-plans/preview': {
+    as: 'brewer',
+    valid: () => ({ targetVolumes: 2.5, temperatureC: 3, altitudeM: 0, method: 'fast_start', line: { lengthM: 3, insideDiameterMm: 4.8, riseM: 0.6 } }),
+  },
+  'POST /api/carbonation-plans': {
+    as: 'brewer',
+    valid: (f) => ({ kegId: f.plannableKegId, targetVolumes: 2.4, method: 'set_and_hold', styleFamily: 'Ales', notes: 'Fuzz' }),
+  },
   'POST /api/carbonation-plans/:id/pressure-lowered': { as: 'brewer', record: 'plan', valid: () => ({}) },
   'PATCH /api/carbonation-plans/:id': { as: 'brewer', record: 'plan', valid: () => ({ state: 'done' }) },
 };
@@ -144,7 +225,29 @@ const deep = (depth: number, leaf: unknown = 1, asArray = false): unknown => {
 const anyJson = fc.jsonValue({ maxDepth: 4, stringUnit: 'binary' });
 const oddString = fc.oneof(
   fc.string({ unit: 'binary', maxLength: 40 }),
-  fc.constantFrom('', ' ', '\t\n', '💥🍺', 'ı̇ß', '\u202e', '\ud800', '-1', '1e400', 'NaN', 'null', 'true', '[]', '{}', '2026-13-45T99:99:99Z', '9999-12-31', '0000-00-00', "'; drop table batch; --", '../../etc/passwd', '%00', '\\u0000'),
+  fc.constantFrom(
+    '',
+    ' ',
+    '\t\n',
+    '💥🍺',
+    'ı̇ß',
+    '\u202e',
+    '\ud800',
+    '-1',
+    '1e400',
+    'NaN',
+    'null',
+    'true',
+    '[]',
+    '{}',
+    '2026-13-45T99:99:99Z',
+    '9999-12-31',
+    '0000-00-00',
+    "'; drop table batch; --",
+    '../../etc/passwd',
+    '%00',
+    '\\u0000',
+  ),
   fc.constant('x'.repeat(20_000)),
   fc.constant('ä'.repeat(60_000)), // over the body limit once encoded
   fc.constant('\u0000'),
@@ -182,8 +285,20 @@ function mutated(valid: Record<string, unknown>): fc.Arbitrary<unknown> {
     } else c[head] = set(c[head], rest, value, drop);
     return copy;
   };
-  const wholeBody = fc.constantFrom<unknown>([valid], [valid, valid], deep(3000, valid), Object.values(valid), { ...valid, extra: deep(50) }, { ...valid, __proto__: { admin: true } }, { ...valid, constructor: { prototype: { x: 1 } } });
-  if (paths.length === 0) return fc.oneof(wholeBody, fc.record({ v: wrongValue }).map(({ v }) => ({ anything: v })));
+  const wholeBody = fc.constantFrom<unknown>(
+    [valid],
+    [valid, valid],
+    deep(3000, valid),
+    Object.values(valid),
+    { ...valid, extra: deep(50) },
+    { ...valid, __proto__: { admin: true } },
+    { ...valid, constructor: { prototype: { x: 1 } } },
+  );
+  if (paths.length === 0)
+    return fc.oneof(
+      wholeBody,
+      fc.record({ v: wrongValue }).map(({ v }) => ({ anything: v })),
+    );
   return fc.oneof(
     { weight: 6, arbitrary: fc.tuple(fc.constantFrom(...paths), wrongValue).map(([p, v]) => set(valid, p, v)) },
     { weight: 1, arbitrary: fc.constantFrom(...paths).map((p) => set(valid, p, undefined, true)) },
@@ -261,7 +376,11 @@ describe('the write fuzzer', () => {
   it('has a writer and a valid body for every write route the app serves', () => {
     const served = routes.map(routeKey);
     expect(served.filter((k) => !entries[k]).map((k) => `route ${k} has no fuzz entry`)).toEqual([]);
-    expect(Object.keys(entries).filter((k) => !served.includes(k)).map((k) => `entry ${k} has no route`)).toEqual([]);
+    expect(
+      Object.keys(entries)
+        .filter((k) => !served.includes(k))
+        .map((k) => `entry ${k} has no route`),
+    ).toEqual([]);
   });
 
   it('never answers 5xx, answers every 4xx with problem JSON, and a refused write changes no row', { timeout: 400_000 }, async () => {
@@ -269,7 +388,11 @@ describe('the write fuzzer', () => {
     const takeBatch = batchPool(ctx);
     const batch = await takeBatch({ ownerId: fixtureMember('member').id });
     const kegs = [await createKeg(ctx.db), await createKeg(ctx.db)];
-    await makeReady(clients.brewer, kegs.map((k) => k.id), ctx.clock);
+    await makeReady(
+      clients.brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
     const plannable = await records.filledKeg(fixtureMember('member'));
     const fermenter = await records.make('equipment', fixtureMember('member'));
     const base: Omit<Fixtures, 'record'> = {
@@ -297,7 +420,8 @@ describe('the write fuzzer', () => {
         if (nulInJson().test(JSON.stringify(body))) withNul++;
         statuses[res.status] = (statuses[res.status] ?? 0) + 1;
         if (res.status >= 500) failures.push(`${where}: ${res.status} ${res.text.slice(0, 300)}`);
-        if (res.status >= 400 && !/^application\/problem\+json/.test(res.get('content-type') ?? '')) failures.push(`${where}: ${res.status} as ${res.get('content-type')}`);
+        if (res.status >= 400 && !/^application\/problem\+json/.test(res.get('content-type') ?? ''))
+          failures.push(`${where}: ${res.status} as ${res.get('content-type')}`);
         if (res.status >= 400) {
           const after = await rowCounts();
           const changed = tables.filter((t) => before[t] !== after[t]).map((t) => `${t} ${before[t]}→${after[t]}`);
@@ -313,7 +437,11 @@ describe('the write fuzzer', () => {
     const fixtureSettings = await ctx.db.selectFrom('setting').selectAll().execute();
     const restoreSettings = async () => {
       await ctx.db.deleteFrom('setting').execute();
-      if (fixtureSettings.length) await ctx.db.insertInto('setting').values(fixtureSettings.map((row) => ({ ...row, value: JSON.stringify(row.value) }))).execute();
+      if (fixtureSettings.length)
+        await ctx.db
+          .insertInto('setting')
+          .values(fixtureSettings.map((row) => ({ ...row, value: JSON.stringify(row.value) })))
+          .execute();
     };
     for (const [i, r] of routes.entries()) {
       const entry = entries[routeKey(r)]!;

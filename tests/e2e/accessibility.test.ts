@@ -54,7 +54,12 @@ beforeAll(async () => {
   });
   batchId = batch.id;
   await fillKeg(ctx.db, { kegId, at: new Date(now.getTime() - 3 * DAY), ownerId: fixtureUserId('member'), recordedBy: fixtureUserId('brewer') });
-  await createKegCheckout(ctx.db, { kegId, memberId: fixtureUserId('member'), at: new Date(now.getTime() - 2 * DAY), dueAt: new Date(now.getTime() + 12 * DAY) });
+  await createKegCheckout(ctx.db, {
+    kegId,
+    memberId: fixtureUserId('member'),
+    at: new Date(now.getTime() - 2 * DAY),
+    dueAt: new Date(now.getTime() + 12 * DAY),
+  });
   await createBooking(ctx.db, {
     equipmentId: fixtureEquipmentId('F-02'),
     ownerId: fixtureUserId('member'),
@@ -69,7 +74,12 @@ beforeAll(async () => {
     endsAt: new Date(now.getTime() + 9 * DAY),
     now,
   });
-  const invoice = await createInvoice(ctx.db, { memberId: fixtureUserId('member'), period: '2026-11', today: '2026-12-01', actorId: fixtureUserId('treasurer') });
+  const invoice = await createInvoice(ctx.db, {
+    memberId: fixtureUserId('member'),
+    period: '2026-11',
+    today: '2026-12-01',
+    actorId: fixtureUserId('treasurer'),
+  });
   memberInvoiceId = invoice.id;
   server = await serve(ctx);
   browser = await launchBrowser();
@@ -106,9 +116,7 @@ async function check(page: Page, where: { page: string; who: string; size: SizeN
 const allFindings: Finding[] = [];
 
 function failing(findings: Finding[]): string[] {
-  return findings
-    .filter((f) => FAILING.has(f.impact))
-    .map((f) => `${f.rule} (${f.impact}) on ${f.page} as ${f.who} at ${f.size}: ${f.targets.join(' | ')}`);
+  return findings.filter((f) => FAILING.has(f.impact)).map((f) => `${f.rule} (${f.impact}) on ${f.page} as ${f.who} at ${f.size}: ${f.targets.join(' | ')}`);
 }
 
 const navPaths = (entries: NavEntry[]): string[] => entries.flatMap((e) => [e.to, ...navPaths(e.children ?? [])]);

@@ -45,7 +45,15 @@ beforeAll(async () => {
         { takenAt: new Date(packagedAt.getTime() - 2 * DAY), value: 1.012 },
       ],
     });
-    await createTransfer(ctx.db, { batchId: batch.id, fromEquipmentId: fixtureEquipmentId(p.fermenter), kegIds: [fixtureEquipmentId(p.keg)], at: packagedAt, kegVolumesLiters: [18.5], lossLiters: 1, recordedBy: fixtureUserId('brewer') });
+    await createTransfer(ctx.db, {
+      batchId: batch.id,
+      fromEquipmentId: fixtureEquipmentId(p.fermenter),
+      kegIds: [fixtureEquipmentId(p.keg)],
+      at: packagedAt,
+      kegVolumesLiters: [18.5],
+      lossLiters: 1,
+      recordedBy: fixtureUserId('brewer'),
+    });
     made.packaged.push({ name: p.name, month: monthOf(packagedAt) });
   }
 
@@ -185,7 +193,11 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     await page.mouse.move(0, 0);
     await screenshot(page, 'batches-chart-after-import');
 
-    const stored = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batchId).executeTakeFirstOrThrow();
+    const stored = await ctx.db
+      .selectFrom('reading')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('batch_id', '=', batchId)
+      .executeTakeFirstOrThrow();
     expect(Number(stored.n)).toBe(10);
     await context.close();
   });
@@ -204,7 +216,11 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     expect(await page.getByTestId('import-problems').textContent()).toMatch(/Row 3, Gravity: Not a number/);
     expect(await page.getByRole('button', { name: /^Import/ }).isDisabled()).toBe(true);
     await screenshot(page, 'batches-import-problem');
-    const stored = await ctx.db.selectFrom('reading').select((eb) => eb.fn.countAll<number>().as('n')).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
+    const stored = await ctx.db
+      .selectFrom('reading')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('batch_id', '=', batch.id)
+      .executeTakeFirstOrThrow();
     expect(Number(stored.n)).toBe(0);
     await context.close();
   });
@@ -247,7 +263,9 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     const dialog = page.getByRole('dialog');
     await dialog.getByLabel('Gravity').fill('1.050');
     await dialog.getByLabel(/Sample temperature/).fill('30');
-    await expect.poll(() => dialog.getByTestId('correction-preview').textContent()).toMatch(/Stored as 1\.052\d SG — read 1\.0500 at 30\.0 °C, corrected to 20 °C/);
+    await expect
+      .poll(() => dialog.getByTestId('correction-preview').textContent())
+      .toMatch(/Stored as 1\.052\d SG — read 1\.0500 at 30\.0 °C, corrected to 20 °C/);
     await screenshot(page, 'batches-reading-form');
     await dialog.getByRole('button', { name: 'Add the reading' }).click();
     await dialog.waitFor({ state: 'hidden' });
@@ -287,7 +305,12 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     await dialog.getByRole('button', { name: 'Add the reading' }).click();
     await dialog.waitFor({ state: 'hidden' });
     await page.getByTestId('reading-method').filter({ hasText: 'alcohol-corrected' }).waitFor();
-    const stored = await ctx.db.selectFrom('reading').select('method').where('batch_id', '=', batch.id).where('entered_unit', '=', 'brix').executeTakeFirstOrThrow();
+    const stored = await ctx.db
+      .selectFrom('reading')
+      .select('method')
+      .where('batch_id', '=', batch.id)
+      .where('entered_unit', '=', 'brix')
+      .executeTakeFirstOrThrow();
     expect(stored.method).toBe('alcohol_corrected');
     await context.close();
   });
@@ -301,7 +324,10 @@ describe('importing readings in the browser', { timeout: 120_000 }, () => {
     await page.goto('/production-records');
     await page.getByLabel('From month').fill(from);
     await page.getByLabel('To month').fill(to);
-    await page.getByRole('cell', { name: /: \d+ batch(es)?$/ }).first().waitFor();
+    await page
+      .getByRole('cell', { name: /: \d+ batch(es)?$/ })
+      .first()
+      .waitFor();
     // Each batch packaged in those months is a row of its month, with its litres; the month's subtotal counts it.
     for (const b of made.packaged) {
       const row = page.getByRole('row').filter({ has: page.getByRole('link', { name: b.name }) });

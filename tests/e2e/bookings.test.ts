@@ -30,7 +30,11 @@ beforeAll(async () => {
     endsAt: new Date(now.getTime() + 16 * DAY),
     now,
   });
-  await createSanitationCycle(ctx.db, { equipmentId: fixtureEquipmentId('K-001'), readyAt: new Date(now.getTime() - HOUR), recordedBy: fixtureUserId('brewer') });
+  await createSanitationCycle(ctx.db, {
+    equipmentId: fixtureEquipmentId('K-001'),
+    readyAt: new Date(now.getTime() - HOUR),
+    recordedBy: fixtureUserId('brewer'),
+  });
   server = await serve(ctx);
   browser = await launchBrowser();
 });
@@ -128,7 +132,12 @@ describe('booking a fermenter on the calendar', () => {
     // F-01 is held by Maren Holloway, F-02 by Ines Farrow: the brewer sees the names, not "Taken".
     await page.locator('.cw-booking').filter({ hasText: 'Maren Holloway' }).first().waitFor();
     await page.locator('.cw-booking').filter({ hasText: 'Ines Farrow' }).first().waitFor();
-    expect(await page.locator('.cw-booking').filter({ hasText: /^Taken/ }).count()).toBe(0);
+    expect(
+      await page
+        .locator('.cw-booking')
+        .filter({ hasText: /^Taken/ })
+        .count(),
+    ).toBe(0);
     await screenshot(page, 'bookings-calendar-brewer');
     await page.getByRole('link', { name: 'All bookings' }).click();
     await page.getByRole('cell', { name: 'Maren Holloway' }).first().waitFor();
@@ -136,7 +145,7 @@ describe('booking a fermenter on the calendar', () => {
     await context.close();
   });
 
-  it('lists the cellar with server-side filters, opens an item\'s page, and lets the admin change the booking rules', async () => {
+  it("lists the cellar with server-side filters, opens an item's page, and lets the admin change the booking rules", async () => {
     const { page, context } = await signIn('admin@example.org');
     await page.getByRole('link', { name: 'Cellar', exact: true }).click();
     await page.getByRole('cell', { name: 'F-01', exact: true }).waitFor();
@@ -154,7 +163,10 @@ describe('booking a fermenter on the calendar', () => {
     await first.locator('a').first().click();
     await page.getByRole('heading', { name: new RegExp(code) }).waitFor();
     await page.getByRole('heading', { name: 'History' }).waitFor();
-    await page.getByText(/rated pressure/).first().waitFor(); // the keg's safety caution
+    await page
+      .getByText(/rated pressure/)
+      .first()
+      .waitFor(); // the keg's safety caution
     await screenshot(page, 'cellar-keg-page');
 
     await page.getByRole('link', { name: 'Settings', exact: true }).click();
@@ -183,7 +195,10 @@ describe('the booking calendar on a phone', { timeout: 120_000 }, () => {
       // F-01 is Maren's and in use, F-02 is Ines Farrow's from the day after tomorrow (this week), F-04 is free.
       const card = (code: string) => agenda.locator(`li[data-agenda-item="${code}"]`);
       await card('F-01').locator('.cw-booking-mine').filter({ hasText: 'Yours · in use' }).waitFor();
-      await card('F-02').locator('.cw-booking-taken').filter({ hasText: /^Taken/ }).waitFor();
+      await card('F-02')
+        .locator('.cw-booking-taken')
+        .filter({ hasText: /^Taken/ })
+        .waitFor();
       expect(await card('F-02').innerText()).not.toContain('Ines Farrow');
       await card('F-04').getByText('Free all week').waitFor();
       await screenshot(page, 'bookings-agenda-phone');
@@ -201,7 +216,12 @@ describe('the booking calendar on a phone', { timeout: 120_000 }, () => {
       await dialog.getByRole('button', { name: 'Book', exact: true }).click();
       await page.getByText(/F-04 is yours from/).waitFor();
       await card('F-04').locator('.cw-booking-mine').filter({ hasText: 'Yours' }).waitFor();
-      const made = await ctx.db.selectFrom('booking').select(['starts_at', 'owner_id']).where('equipment_id', '=', f04).where('state', '<>', 'cancelled').execute();
+      const made = await ctx.db
+        .selectFrom('booking')
+        .select(['starts_at', 'owner_id'])
+        .where('equipment_id', '=', f04)
+        .where('state', '<>', 'cancelled')
+        .execute();
       expect(made).toEqual([{ starts_at: new Date(`${from}:00Z`), owner_id: fixtureUserId('member') }]);
 
       // The next week, and back.

@@ -1,6 +1,17 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createAuditEntry, createBatch, createFermenter, createKeg, createKegCheckout, createSanitationCycle, createUser, DAY, fillKeg, HOUR } from '../../db/factories/index.ts';
+import {
+  createAuditEntry,
+  createBatch,
+  createFermenter,
+  createKeg,
+  createKegCheckout,
+  createSanitationCycle,
+  createUser,
+  DAY,
+  fillKeg,
+  HOUR,
+} from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
@@ -50,15 +61,35 @@ beforeAll(async () => {
   // A keg out with a member, 18 L of their beer in it.
   const out = await createKeg(ctx.db);
   await fillKeg(ctx.db, { kegId: out.id, at: at(-5 * DAY), ownerId: fixtureUserId('member') });
-  await createKegCheckout(ctx.db, { kegId: out.id, memberId: fixtureUserId('member'), at: at(-2 * DAY), dueAt: at(10 * DAY), actorId: fixtureUserId('brewer') });
+  await createKegCheckout(ctx.db, {
+    kegId: out.id,
+    memberId: fixtureUserId('member'),
+    at: at(-2 * DAY),
+    dueAt: at(10 * DAY),
+    actorId: fixtureUserId('brewer'),
+  });
   made.returned = { id: out.id, code: out.code };
   // Someone's changes in the trail: six days of equipment changes and one invoice change with before and after.
   const auditor = await createUser(ctx.db, { name: made.auditor.name, roles: ['brewer_on_duty'] });
   made.auditor.id = auditor.id;
   for (let d = 6; d >= 1; d--) {
-    await createAuditEntry(ctx.db, { at: at(-d * DAY), actorId: auditor.id, action: 'state_changed', subjectType: 'Equipment', subjectId: fermenter.id, detail: { code: fermenter.code, from: 'ready', to: d % 2 ? 'holding' : 'needs_cleaning' } });
+    await createAuditEntry(ctx.db, {
+      at: at(-d * DAY),
+      actorId: auditor.id,
+      action: 'state_changed',
+      subjectType: 'Equipment',
+      subjectId: fermenter.id,
+      detail: { code: fermenter.code, from: 'ready', to: d % 2 ? 'holding' : 'needs_cleaning' },
+    });
   }
-  await createAuditEntry(ctx.db, { at: at(-HOUR), actorId: auditor.id, action: 'updated', subjectType: 'Batch', subjectId: batch.id, detail: { before: { volumeLiters: 20 }, after: { volumeLiters: 21 } } });
+  await createAuditEntry(ctx.db, {
+    at: at(-HOUR),
+    actorId: auditor.id,
+    action: 'updated',
+    subjectType: 'Batch',
+    subjectId: batch.id,
+    detail: { before: { volumeLiters: 20 }, after: { volumeLiters: 21 } },
+  });
   server = await serve(ctx);
   browser = await launchBrowser();
 });
@@ -132,7 +163,13 @@ describe('a keg action can be undone from its message', { timeout: 120_000 }, ()
     await message.getByRole('button', { name: 'Undo' }).click();
     await page.getByRole('status').filter({ hasText: 'Undone' }).waitFor();
     const after = await kegNow();
-    expect(after).toMatchObject({ state: 'holding', whereabouts: 'with_member', member: { id: fixtureUserId('member') }, dueAt: before.dueAt, contents: { fillId: before.contents.fillId, remainingLiters: before.contents.remainingLiters } });
+    expect(after).toMatchObject({
+      state: 'holding',
+      whereabouts: 'with_member',
+      member: { id: fixtureUserId('member') },
+      dueAt: before.dueAt,
+      contents: { fillId: before.contents.fillId, remainingLiters: before.contents.remainingLiters },
+    });
     // The Undo button is gone with the message it belonged to.
     expect(await page.getByRole('button', { name: 'Undo' }).count()).toBe(0);
     await screenshot(page, 'keg-undone-phone');

@@ -65,7 +65,16 @@ beforeAll(async () => {
       { takenAt: at(-7 * DAY), value: 1.01 },
     ],
   });
-  await createTransfer(ctx.db, { batchId: pale.id, fromEquipmentId: fixtureEquipmentId('F-03'), kegIds: made.tapped.map((k) => k.id), at: at(-5 * DAY), volumeLiters: 56, lossLiters: 2, whereabouts: 'cold_room', recordedBy: brewer });
+  await createTransfer(ctx.db, {
+    batchId: pale.id,
+    fromEquipmentId: fixtureEquipmentId('F-03'),
+    kegIds: made.tapped.map((k) => k.id),
+    at: at(-5 * DAY),
+    volumeLiters: 56,
+    lossLiters: 2,
+    whereabouts: 'cold_room',
+    recordedBy: brewer,
+  });
   const api = await ctx.signIn('brewer@example.org');
   for (const [i, k] of made.tapped.entries()) {
     const res = await api.post(`/api/kegs/${k.id}/move`, { to: 'cold_room', tapId: fixtureEquipmentId(`T-${i + 1}`) });
@@ -85,11 +94,23 @@ beforeAll(async () => {
     ],
   });
   const out = [...made.overdue, made.notDue];
-  await createTransfer(ctx.db, { batchId: porter.id, fromEquipmentId: fixtureEquipmentId('F-04'), kegIds: out.map((k) => k.id), at: at(-42 * DAY), recordedBy: brewer });
+  await createTransfer(ctx.db, {
+    batchId: porter.id,
+    fromEquipmentId: fixtureEquipmentId('F-04'),
+    kegIds: out.map((k) => k.id),
+    at: at(-42 * DAY),
+    recordedBy: brewer,
+  });
   for (const k of made.overdue) {
     await createKegCheckout(ctx.db, { kegId: k.id, memberId: fixtureUserId(k.member), at: at(-30 * DAY), dueAt: at(-k.daysLate * DAY), actorId: brewer });
   }
-  await createKegCheckout(ctx.db, { kegId: made.notDue.id, memberId: fixtureUserId(made.notDue.member), at: at(-2 * DAY), dueAt: at(7 * DAY), actorId: brewer });
+  await createKegCheckout(ctx.db, {
+    kegId: made.notDue.id,
+    memberId: fixtureUserId(made.notDue.member),
+    at: at(-2 * DAY),
+    dueAt: at(7 * DAY),
+    actorId: brewer,
+  });
 
   server = await serve(ctx);
   browser = await launchBrowser();
@@ -107,9 +128,9 @@ async function signInOnPhone(email: string): Promise<Page> {
 
 /** Every visible button and checkbox row on the page is at least 48 px tall. */
 async function smallTargets(page: Page, scope: string): Promise<string[]> {
-  return page.locator(`${scope} button:visible, ${scope} label:has(input[type=checkbox]):visible, ${scope} label:has(input[type=radio]):visible`).evaluateAll((els) =>
-    els.filter((el) => el.getBoundingClientRect().height < 47.5).map((el) => (el.textContent ?? '').trim().slice(0, 40)),
-  );
+  return page
+    .locator(`${scope} button:visible, ${scope} label:has(input[type=checkbox]):visible, ${scope} label:has(input[type=radio]):visible`)
+    .evaluateAll((els) => els.filter((el) => el.getBoundingClientRect().height < 47.5).map((el) => (el.textContent ?? '').trim().slice(0, 40)));
 }
 
 describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, () => {
@@ -123,7 +144,10 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
 
     // The keg's QR label opens its page; the brewer starts a cycle from there.
     await page.goto(`/cellar/${keg.id}`);
-    await page.getByRole('heading', { name: new RegExp(keg.code) }).first().waitFor();
+    await page
+      .getByRole('heading', { name: new RegExp(keg.code) })
+      .first()
+      .waitFor();
     await page.getByRole('link', { name: 'Record a cycle' }).click();
     await page.waitForURL(`**/sanitation/new?equipmentId=${keg.id}`);
     await page.getByRole('heading', { name: `Clean ${keg.code}` }).waitFor();
@@ -133,7 +157,10 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
     // Clean (the co-op's alkaline cleaner, an hour's soak), rinse, sanitize, purge: each marked done, with
     // the time it began (the checklist holds each contact time to the gap before the next step).
     const began = (step: string, minutesAgo: number) =>
-      page.locator(`li[aria-labelledby="step-${step}-title"]`).getByLabel('When').fill(new Date(ctx.clock.now().getTime() - minutesAgo * 60_000).toISOString().slice(0, 16));
+      page
+        .locator(`li[aria-labelledby="step-${step}-title"]`)
+        .getByLabel('When')
+        .fill(new Date(ctx.clock.now().getTime() - minutesAgo * 60_000).toISOString().slice(0, 16));
     await page.getByRole('button', { name: 'Mark clean done' }).click();
     await began('clean', 90);
     await page.getByRole('button', { name: 'Mark rinse done' }).click();
@@ -152,7 +179,12 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
 
     const stored = await ctx.db.selectFrom('equipment').select('state').where('id', '=', keg.id).executeTakeFirstOrThrow();
     expect(stored.state).toBe('ready');
-    const cycle = await ctx.db.selectFrom('sanitation_cycle').select(['id', 'outcome', 'recorded_by']).where('equipment_id', '=', keg.id).orderBy('created_at', 'desc').executeTakeFirstOrThrow();
+    const cycle = await ctx.db
+      .selectFrom('sanitation_cycle')
+      .select(['id', 'outcome', 'recorded_by'])
+      .where('equipment_id', '=', keg.id)
+      .orderBy('created_at', 'desc')
+      .executeTakeFirstOrThrow();
     expect(cycle.outcome).toBe('ready');
 
     // Straight on to the transfer into it, keg already picked.
@@ -177,10 +209,19 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
 
     const after = await ctx.db.selectFrom('equipment').select('state').where('id', '=', keg.id).executeTakeFirstOrThrow();
     expect(after.state).toBe('holding');
-    const fill = await ctx.db.selectFrom('keg_fill').select(['batch_id', 'volume_liters', 'sanitation_cycle_id']).where('keg_id', '=', keg.id).where('emptied_at', 'is', null).executeTakeFirstOrThrow();
+    const fill = await ctx.db
+      .selectFrom('keg_fill')
+      .select(['batch_id', 'volume_liters', 'sanitation_cycle_id'])
+      .where('keg_id', '=', keg.id)
+      .where('emptied_at', 'is', null)
+      .executeTakeFirstOrThrow();
     expect(fill).toMatchObject({ batch_id: batch.id, sanitation_cycle_id: cycle.id });
     expect(Number(fill.volume_liters)).toBeCloseTo(18.7, 2);
-    const transfer = await ctx.db.selectFrom('transfer').select(['finings_kind', 'finings_amount', 'loss_liters']).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
+    const transfer = await ctx.db
+      .selectFrom('transfer')
+      .select(['finings_kind', 'finings_amount', 'loss_liters'])
+      .where('batch_id', '=', batch.id)
+      .executeTakeFirstOrThrow();
     expect(transfer).toMatchObject({ finings_kind: 'gelatin' });
     expect(Number(transfer.loss_liters)).toBeCloseTo(0.8, 2);
 
@@ -204,7 +245,12 @@ describe('the brewer on duty in the cellar, on a phone', { timeout: 180_000 }, (
       expect(await tap.innerText()).toMatch(/On tap[\s\S]*House pale/);
     }
     expect(await taps.getByText('On tap').count()).toBe(3);
-    expect(await taps.getByRole('listitem').filter({ has: page.getByRole('heading', { name: 'T-4' }) }).innerText()).toMatch(/Free/);
+    expect(
+      await taps
+        .getByRole('listitem')
+        .filter({ has: page.getByRole('heading', { name: 'T-4' }) })
+        .innerText(),
+    ).toMatch(/Free/);
     await screenshot(page, 'cellar-phone-7-tap-board');
     await page.getByRole('link', { name: 'Overdue' }).click();
     const overdue = page.getByRole('list', { name: 'Overdue kegs' });

@@ -40,7 +40,13 @@ beforeAll(async () => {
   if (plan.status !== 201) throw new Error(`could not plan carbonation: ${plan.status} ${JSON.stringify(plan.body)}`);
   const level = await brewer.patch(`/api/kegs/${made.returned.id}/level`, { remainingLiters: 16 });
   if (level.status !== 200) throw new Error(`could not note the level: ${level.status} ${JSON.stringify(level.body)}`);
-  await createKegCheckout(ctx.db, { kegId: made.returned.id, memberId: fixtureUserId('member4'), at: at(-2 * DAY), dueAt: at(12 * DAY), actorId: fixtureUserId('brewer') });
+  await createKegCheckout(ctx.db, {
+    kegId: made.returned.id,
+    memberId: fixtureUserId('member4'),
+    at: at(-2 * DAY),
+    dueAt: at(12 * DAY),
+    actorId: fixtureUserId('brewer'),
+  });
   made.returned.batchName = (await ctx.db.selectFrom('batch').select('name').where('id', '=', returned.batchId).executeTakeFirstOrThrow()).name;
 
   const emptied = await fillKeg(ctx.db, { kegId: made.emptied.id, at: at(-4 * DAY), whereabouts: 'cold_room' });
@@ -75,12 +81,21 @@ afterAll(async () => {
 const kegNow = async (id: string) => {
   const res = await brewer.get(`/api/kegs/${id}`);
   expect(res.status).toBe(200);
-  return res.body.keg as { state: string; whereabouts: string; tap: { code: string } | null; contents: { remainingLiters: number } | null; carbonation: unknown };
+  return res.body.keg as {
+    state: string;
+    whereabouts: string;
+    tap: { code: string } | null;
+    contents: { remainingLiters: number } | null;
+    carbonation: unknown;
+  };
 };
 
 async function openKeg(page: Page, code: string, id: string) {
   await page.goto(`/kegs/${id}`);
-  await page.getByRole('heading', { name: new RegExp(code) }).first().waitFor();
+  await page
+    .getByRole('heading', { name: new RegExp(code) })
+    .first()
+    .waitFor();
 }
 
 describe('a keg is returned, emptied or dumped only after saying what that changes', { timeout: 180_000 }, () => {
@@ -159,7 +174,12 @@ describe('a keg is returned, emptied or dumped only after saying what that chang
     await page.getByRole('button', { name: /^Dumped/ }).click();
     await dialog.getByRole('button', { name: 'Record it dumped' }).click();
     await dialog.waitFor({ state: 'hidden' });
-    const fill = await ctx.db.selectFrom('keg_fill').select(['emptied_reason']).where('keg_id', '=', dumped.id).orderBy('filled_at', 'desc').executeTakeFirstOrThrow();
+    const fill = await ctx.db
+      .selectFrom('keg_fill')
+      .select(['emptied_reason'])
+      .where('keg_id', '=', dumped.id)
+      .orderBy('filled_at', 'desc')
+      .executeTakeFirstOrThrow();
     expect(fill.emptied_reason).toBe('dumped');
     await context.close();
   });

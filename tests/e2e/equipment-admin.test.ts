@@ -87,9 +87,7 @@ describe('the admin keeps the equipment registry', { timeout: 120_000 }, () => {
 
     // The API now answers with the valve gone, the rest as it was.
     const api = await ctx.signIn('admin@example.org');
-    await expect
-      .poll(async () => (await api.get(`/api/equipment/${created.id}`)).body.equipment.attributes)
-      .toEqual({ style: 'conical', hasValve: false });
+    await expect.poll(async () => (await api.get(`/api/equipment/${created.id}`)).body.equipment.attributes).toEqual({ style: 'conical', hasValve: false });
     const after = (await api.get(`/api/equipment/${created.id}`)).body.equipment;
     expect(after).toMatchObject({ code: 'F-13', capacityLiters: 60, name: '60 L conical fermenter 13' });
     // The page's details show the change.

@@ -28,11 +28,23 @@ beforeAll(async () => {
   ctx = await createTestContext();
   const now = ctx.clock.now();
   const period = nextPeriod(now.toISOString().slice(0, 7), -1);
-  const issue = (member: string) => createInvoice(ctx.db, { memberId: fixtureUserId(member), period, today: periodBounds(period).next, actorId: fixtureUserId('treasurer') });
+  const issue = (member: string) =>
+    createInvoice(ctx.db, { memberId: fixtureUserId(member), period, today: periodBounds(period).next, actorId: fixtureUserId('treasurer') });
   made.toPay = await issue('member4');
   made.toCredit = await issue('member6');
-  await createInvoicePayment(ctx.db, { invoiceId: made.toCredit.id, amountCents: 500, receivedOn: periodBounds(period).next, actorId: fixtureUserId('treasurer') });
-  const planned = await createBatch(ctx.db, { ownerId: fixtureUserId('member'), name: 'Notice saison', style: 'Saison', status: 'planned', createdAt: new Date(now.getTime() - DAY) });
+  await createInvoicePayment(ctx.db, {
+    invoiceId: made.toCredit.id,
+    amountCents: 500,
+    receivedOn: periodBounds(period).next,
+    actorId: fixtureUserId('treasurer'),
+  });
+  const planned = await createBatch(ctx.db, {
+    ownerId: fixtureUserId('member'),
+    name: 'Notice saison',
+    style: 'Saison',
+    status: 'planned',
+    createdAt: new Date(now.getTime() - DAY),
+  });
   made.plannedId = planned.id;
   server = await serve(ctx);
   browser = await launchBrowser();
@@ -140,7 +152,11 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
     const { context, page } = await signedInPage(browser, server.url, 'member@example.org', { viewport: phone });
     try {
       await page.route('**/api/batches?**', (route) =>
-        route.fulfill({ status: 503, contentType: 'application/problem+json', body: JSON.stringify({ type: 'about:blank', title: 'Service unavailable', status: 503, detail: 'The database is busy.' }) }),
+        route.fulfill({
+          status: 503,
+          contentType: 'application/problem+json',
+          body: JSON.stringify({ type: 'about:blank', title: 'Service unavailable', status: 503, detail: 'The database is busy.' }),
+        }),
       );
       await page.goto('/batches');
       const error = page.getByRole('alert').filter({ hasText: 'could not be loaded' });

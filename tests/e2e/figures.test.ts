@@ -73,11 +73,15 @@ function expectApart(ticks: { text: string; left: number; right: number }[]) {
   expect(ticks.length).toBeGreaterThan(1);
   expect(new Set(ticks.map((t) => t.text)).size, ticks.map((t) => t.text).join(' | ')).toBe(ticks.length);
   const sorted = [...ticks].sort((a, b) => a.left - b.left);
-  for (let i = 1; i < sorted.length; i += 1) expect(sorted[i]!.left, `${sorted[i - 1]!.text} | ${sorted[i]!.text}`).toBeGreaterThanOrEqual(sorted[i - 1]!.right);
+  for (let i = 1; i < sorted.length; i += 1)
+    expect(sorted[i]!.left, `${sorted[i - 1]!.text} | ${sorted[i]!.text}`).toBeGreaterThanOrEqual(sorted[i - 1]!.right);
 }
 
 describe('figures that add up', { timeout: 120_000 }, () => {
-  for (const [size, viewport] of [['desktop', desktop], ['phone', phone]] as const) {
+  for (const [size, viewport] of [
+    ['desktop', desktop],
+    ['phone', phone],
+  ] as const) {
     it(`draws chart ticks that never repeat or overlap, and forecasts steady readings (${size})`, async () => {
       const { context, page } = await signedInPage(browser, server.url, 'member@example.org', { viewport });
       const errors: string[] = [];
@@ -107,7 +111,10 @@ describe('figures that add up', { timeout: 120_000 }, () => {
   }
 
   it('shows as many hand-overs as it counts on Today, at both sizes', async () => {
-    for (const [size, viewport] of [['desktop', desktop], ['phone', phone]] as const) {
+    for (const [size, viewport] of [
+      ['desktop', desktop],
+      ['phone', phone],
+    ] as const) {
       const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport });
       try {
         await page.goto('/');

@@ -14,7 +14,10 @@ beforeAll(async () => {
   const now = ctx.clock.now().getTime();
   keg = await createKeg(ctx.db, { code: 'K-4401', attributes: { ratedPressureKpa: 896 } });
   await createInspection(ctx.db, { equipmentId: keg.id, kind: 'pressure_test', at: new Date(now - 740 * DAY), nextDueAt: new Date(now - 10 * DAY) });
-  await createCo2Cylinder(ctx.db, { code: 'C-44', attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: new Date(now - 5 * DAY).toISOString().slice(0, 10) } });
+  await createCo2Cylinder(ctx.db, {
+    code: 'C-44',
+    attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: new Date(now - 5 * DAY).toISOString().slice(0, 10) },
+  });
   server = await serve(ctx);
   browser = await launchBrowser();
 });

@@ -44,7 +44,13 @@ beforeAll(async () => {
   made.payer.invoices = [await issue('member4', older), await issue('member4', old)];
   made.canceller.invoice = await issue('member6', old);
   const start = new Date(`${periodBounds(old).first}T10:00:00Z`).getTime() + 4 * DAY;
-  await createBooking(ctx.db, { equipmentId: fixtureEquipmentId('F-03'), ownerId: fixtureUserId('member3'), startsAt: new Date(start), endsAt: new Date(start + 14 * DAY), now: ctx.clock.now() });
+  await createBooking(ctx.db, {
+    equipmentId: fixtureEquipmentId('F-03'),
+    ownerId: fixtureUserId('member3'),
+    startsAt: new Date(start),
+    endsAt: new Date(start + 14 * DAY),
+    now: ctx.clock.now(),
+  });
   made.largest = await issue('member3', old);
   server = await serve(ctx);
   fake.webhookUrl = `${server.url}/api/webhooks/payments`;
@@ -76,7 +82,10 @@ describe('paying an invoice online', { timeout: 120_000 }, () => {
     await page.getByRole('link', { name: 'Billing', exact: true }).click();
     await page.waitForURL('**/billing/my-invoices');
     await expect.poll(() => page.getByTestId('balance').textContent()).toMatch(/€\d/);
-    await page.getByRole('row', { name: new RegExp(target.number!) }).getByText('Overdue').waitFor();
+    await page
+      .getByRole('row', { name: new RegExp(target.number!) })
+      .getByText('Overdue')
+      .waitFor();
     await screenshot(page, 'billing-member-my-invoices');
 
     await page.getByRole('link', { name: target.number! }).click();
@@ -96,7 +105,10 @@ describe('paying an invoice online', { timeout: 120_000 }, () => {
     await page.getByRole('button', { name: /^Pay / }).click();
     await page.waitForURL((u) => u.href.startsWith(`${server.url}/billing/my-invoices/${target.id}`) && u.searchParams.get('checkout') === 'success');
     await page.getByText('Paid — thank you').waitFor();
-    await page.getByRole('heading', { name: new RegExp(target.number!) }).getByText('Paid').waitFor();
+    await page
+      .getByRole('heading', { name: new RegExp(target.number!) })
+      .getByText('Paid')
+      .waitFor();
     await screenshot(page, 'billing-member-invoice-paid');
 
     const row = await ctx.db.selectFrom('invoice').select(['status', 'paid_cents']).where('id', '=', target.id).executeTakeFirstOrThrow();
@@ -106,7 +118,10 @@ describe('paying an invoice online', { timeout: 120_000 }, () => {
 
     // Back on the list, the paid invoice no longer shows as overdue and the balance went down.
     await page.getByRole('link', { name: '← My invoices' }).click();
-    await page.getByRole('row', { name: new RegExp(target.number!) }).getByText('Paid').waitFor();
+    await page
+      .getByRole('row', { name: new RegExp(target.number!) })
+      .getByText('Paid')
+      .waitFor();
     await context.close();
   });
 
@@ -147,7 +162,12 @@ describe('the treasurer’s billing screens', { timeout: 120_000 }, () => {
     await screenshot(page, 'billing-treasurer-invoices');
     // Most to pay first: Ines Farrow's month with the fermenter.
     const largest = made.largest!;
-    const top = await ctx.db.selectFrom('invoice').select(['id', 'number']).where('status', '=', 'issued').orderBy(sql`total_cents - paid_cents - credited_cents`, 'desc').executeTakeFirstOrThrow();
+    const top = await ctx.db
+      .selectFrom('invoice')
+      .select(['id', 'number'])
+      .where('status', '=', 'issued')
+      .orderBy(sql`total_cents - paid_cents - credited_cents`, 'desc')
+      .executeTakeFirstOrThrow();
     expect(top.id).toBe(largest.id);
     await expect.poll(() => page.getByRole('row').nth(1).getByRole('link').first().textContent()).toBe(largest.number);
     await page.getByRole('row').nth(1).getByRole('link').first().click();
@@ -184,10 +204,30 @@ describe('an invoice paid twice online', { timeout: 120_000 }, () => {
       const id = `cs_test_e2e_twice_${n}`;
       await ctx.db
         .insertInto('checkout_session')
-        .values({ id, invoice_id: invoice.id, amount_cents: invoice.total_cents, currency: invoice.currency, url: `${fake.url}/pay/${id}`, status: n === 1 ? 'expired' : 'open' })
+        .values({
+          id,
+          invoice_id: invoice.id,
+          amount_cents: invoice.total_cents,
+          currency: invoice.currency,
+          url: `${fake.url}/pay/${id}`,
+          status: n === 1 ? 'expired' : 'open',
+        })
         .execute();
-      const session = { id, object: 'checkout.session', status: 'complete', payment_status: 'paid', amount_total: invoice.total_cents, currency: 'eur', payment_intent: `pi_test_e2e_${n}` };
-      const event = { id: `evt_test_e2e_twice_${n}`, object: 'event', type: 'checkout.session.completed', data: { object: session } } as unknown as ProviderEvent;
+      const session = {
+        id,
+        object: 'checkout.session',
+        status: 'complete',
+        payment_status: 'paid',
+        amount_total: invoice.total_cents,
+        currency: 'eur',
+        payment_intent: `pi_test_e2e_${n}`,
+      };
+      const event = {
+        id: `evt_test_e2e_twice_${n}`,
+        object: 'event',
+        type: 'checkout.session.completed',
+        data: { object: session },
+      } as unknown as ProviderEvent;
       expect((await handleProviderEvent(ctx.db, event, ctx.clock.now(), ctx.deps.queue)).outcome).toBe(n === 1 ? 'paid' : 'overpaid');
     }
     const { page, context } = await signIn('treasurer@example.org');
@@ -203,9 +243,17 @@ describe('an invoice paid twice online', { timeout: 120_000 }, () => {
     await screenshot(page, 'billing-treasurer-invoice-overpaid');
 
     await page.goBack();
-    await section.getByRole('row', { name: new RegExp(invoice.number!) }).getByRole('button', { name: 'Refunded' }).click();
+    await section
+      .getByRole('row', { name: new RegExp(invoice.number!) })
+      .getByRole('button', { name: 'Refunded' })
+      .click();
     await section.waitFor({ state: 'detached' });
-    const row = await ctx.db.selectFrom('payment').select(['overpaid_cents', 'overpayment_refunded_on']).where('invoice_id', '=', invoice.id).where('overpaid_cents', '>', 0).executeTakeFirstOrThrow();
+    const row = await ctx.db
+      .selectFrom('payment')
+      .select(['overpaid_cents', 'overpayment_refunded_on'])
+      .where('invoice_id', '=', invoice.id)
+      .where('overpaid_cents', '>', 0)
+      .executeTakeFirstOrThrow();
     expect(row).toEqual({ overpaid_cents: invoice.total_cents, overpayment_refunded_on: expect.stringMatching(/^\d{4}-\d{2}-\d{2}$/) });
     await context.close();
   });

@@ -118,7 +118,10 @@ function smallTargets(page: Page, selector: string) {
     ({ selector, min }) =>
       [...document.querySelectorAll(selector)]
         .filter((e) => (e as HTMLElement).offsetParent !== null && !(e as HTMLButtonElement).disabled)
-        .map((e) => ({ text: (e.textContent ?? '').trim().slice(0, 40) || e.getAttribute('aria-label') || e.tagName, height: e.getBoundingClientRect().height }))
+        .map((e) => ({
+          text: (e.textContent ?? '').trim().slice(0, 40) || e.getAttribute('aria-label') || e.tagName,
+          height: e.getBoundingClientRect().height,
+        }))
         .filter((b) => b.height < min - 0.5),
     { selector, min: TOUCH_PX },
   );
@@ -145,7 +148,9 @@ describe('phone layout', { timeout: 120_000 }, () => {
             const wide = await overflow(page);
             if (wide) problems.push(`${where}: ${wide.scrollWidth} px wide at ${wide.width} px: ${wide.wide.join(' | ')}`);
             // The tabs of a section (Bookings, Kegs, Sanitation, Billing, Members) are pages too.
-            const tabs = await page.locator('main nav[aria-label$="sections"] a').evaluateAll((links) => links.map((a) => new URL((a as HTMLAnchorElement).href).pathname));
+            const tabs = await page
+              .locator('main nav[aria-label$="sections"] a')
+              .evaluateAll((links) => links.map((a) => new URL((a as HTMLAnchorElement).href).pathname));
             for (const tab of tabs) {
               if (!seen.has(tab)) {
                 seen.add(tab);
@@ -156,7 +161,10 @@ describe('phone layout', { timeout: 120_000 }, () => {
             if (shot && size.width === 390) await page.screenshot({ path: path.join(screensDir, `${account.name}-${shot}.png`), fullPage: true });
 
             if (where.startsWith('/sanitation/new') || where.startsWith('/transfers/new') || /^\/kegs\/[0-9a-f-]{36}$/.test(where)) {
-              const small = await smallTargets(page, 'main button, main a[class*="min-h"], main label:has(> input[type="checkbox"]), main label:has(> input[type="radio"])');
+              const small = await smallTargets(
+                page,
+                'main button, main a[class*="min-h"], main label:has(> input[type="checkbox"]), main label:has(> input[type="radio"])',
+              );
               if (small.length) problems.push(`${where}: below ${TOUCH_PX} px: ${small.map((b) => `${b.text} (${b.height} px)`).join(', ')}`);
             }
           }

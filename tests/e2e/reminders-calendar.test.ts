@@ -46,7 +46,8 @@ afterAll(async () => {
   await ctx?.close();
 });
 
-const remindersOf = (column: 'invoice_id' | 'keg_id', id: string) => ctx.db.selectFrom('reminder').select(['sent_to', 'sent_at']).where(column, '=', id).execute();
+const remindersOf = (column: 'invoice_id' | 'keg_id', id: string) =>
+  ctx.db.selectFrom('reminder').select(['sent_to', 'sent_at']).where(column, '=', id).execute();
 
 describe('remind buttons and the calendar link', { timeout: 120_000 }, () => {
   it('lets the treasurer remind one overdue invoice, then confirms how many the “all overdue” button sends', async () => {
@@ -71,7 +72,13 @@ describe('remind buttons and the calendar link', { timeout: 120_000 }, () => {
     await shot(page, 'remind-all-confirm-desktop');
     await dialog.getByRole('button', { name: 'Cancel' }).click();
     await dialog.waitFor({ state: 'hidden' });
-    const counted = async () => (await ctx.db.selectFrom('reminder').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n;
+    const counted = async () =>
+      (
+        await ctx.db
+          .selectFrom('reminder')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n;
     expect(Number(await counted())).toBe(1);
     await all.click();
     await dialog.getByRole('button', { name: /^Send \d+ reminders?$/ }).click();
@@ -103,7 +110,10 @@ describe('remind buttons and the calendar link', { timeout: 120_000 }, () => {
       [phone, 'phone'],
       [desktop, 'desktop'],
     ] as const) {
-      const { page, context } = await signedInPage(browser, server.url, made.memberEmail, { viewport, context: { permissions: ['clipboard-read', 'clipboard-write'] } });
+      const { page, context } = await signedInPage(browser, server.url, made.memberEmail, {
+        viewport,
+        context: { permissions: ['clipboard-read', 'clipboard-write'] },
+      });
       await page.goto('/profile');
       const panel = page.getByRole('region', { name: 'My calendar' });
       if (name === 'phone') await panel.getByRole('button', { name: 'Make a link' }).click();

@@ -37,18 +37,30 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
     await stepBox(page, 'clean').getByRole('button', { name: 'Mark clean done' }).click();
     await stepBox(page, 'clean').getByLabel('Cleaner').selectOption('caustic-cleaner');
     await stepBox(page, 'clean').getByText('Caustic: vent the CO2 first').waitFor();
-    await stepBox(page, 'clean').getByText(/can pull a vacuum strong enough to collapse the vessel/).waitFor();
-    await stepBox(page, 'clean').getByText(/Caustic cleaner \(sodium hydroxide\) is caustic: vent the vessel/).waitFor();
+    await stepBox(page, 'clean')
+      .getByText(/can pull a vacuum strong enough to collapse the vessel/)
+      .waitFor();
+    await stepBox(page, 'clean')
+      .getByText(/Caustic cleaner \(sodium hydroxide\) is caustic: vent the vessel/)
+      .waitFor();
     await shot(page, '1-caustic-warning');
-    await stepBox(page, 'clean').getByLabel(/I vented .* to atmospheric pressure/).check();
-    expect(await stepBox(page, 'clean').getByText(/is caustic: vent the vessel/).count()).toBe(0);
+    await stepBox(page, 'clean')
+      .getByLabel(/I vented .* to atmospheric pressure/)
+      .check();
+    expect(
+      await stepBox(page, 'clean')
+        .getByText(/is caustic: vent the vessel/)
+        .count(),
+    ).toBe(0);
 
     // The steps with their real times; the sanitizer made up far too weak.
     await stepBox(page, 'clean').getByLabel('When').fill(local(90));
     await stepBox(page, 'rinse').getByRole('button', { name: 'Mark rinse done' }).click();
     await stepBox(page, 'rinse').getByLabel('When').fill(local(50));
     await stepBox(page, 'sanitize').getByRole('button', { name: 'Mark sanitize done' }).click();
-    await stepBox(page, 'sanitize').getByLabel(/Strength/).fill('0.2');
+    await stepBox(page, 'sanitize')
+      .getByLabel(/Strength/)
+      .fill('0.2');
     await stepBox(page, 'sanitize').getByLabel('When').fill(local(20));
     await stepBox(page, 'purge').getByRole('button', { name: 'Mark purge done' }).click();
     await stepBox(page, 'purge').getByLabel('When').fill(local(10));
@@ -63,9 +75,15 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
     expect(await ctx.db.selectFrom('sanitation_cycle').select('id').where('equipment_id', '=', keg.id).execute()).toEqual([]);
 
     // The server says the same when the form's own check is bypassed: the purge time that does not fit.
-    await stepBox(page, 'sanitize').getByLabel(/Contact time/).fill('15');
-    await stepBox(page, 'sanitize').getByText(/15 min does not fit before the CO2 purge step, 10 min later/).waitFor();
-    await stepBox(page, 'sanitize').getByLabel(/Contact time/).fill('2');
+    await stepBox(page, 'sanitize')
+      .getByLabel(/Contact time/)
+      .fill('15');
+    await stepBox(page, 'sanitize')
+      .getByText(/15 min does not fit before the CO2 purge step, 10 min later/)
+      .waitFor();
+    await stepBox(page, 'sanitize')
+      .getByLabel(/Contact time/)
+      .fill('2');
 
     // Recorded as an exception, with the reason.
     await why.getByLabel('Reason to record it as an exception').fill('Last of the sanitizer; the keg is for the brewer’s own trial');
@@ -74,7 +92,10 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
     await shot(page, '3-exception-reason');
     await page.getByRole('button', { name: 'Save cycle' }).click();
     await page.getByRole('heading', { name: new RegExp(`Cycle saved: ${keg.code} is now`) }).waitFor();
-    await page.getByRole('list', { name: 'Recorded exceptions' }).getByText(/Reason given: Last of the sanitizer/).waitFor();
+    await page
+      .getByRole('list', { name: 'Recorded exceptions' })
+      .getByText(/Reason given: Last of the sanitizer/)
+      .waitFor();
     await shot(page, '4-saved');
     const step = await ctx.db
       .selectFrom('sanitation_step as s')
@@ -85,7 +106,11 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
       .execute();
     expect(step.map((s) => s.step)).toEqual(['clean', 'rinse', 'sanitize', 'purge']);
     expect(step[0]).toMatchObject({ vented: true, exception_reason: null });
-    expect(step[2]).toMatchObject({ exception_reason: 'Last of the sanitizer; the keg is for the brewer’s own trial', exception_rules: ['strength_low'], outcome: 'ready' });
+    expect(step[2]).toMatchObject({
+      exception_reason: 'Last of the sanitizer; the keg is for the brewer’s own trial',
+      exception_rules: ['strength_low'],
+      outcome: 'ready',
+    });
     expect(Number(step[2]!.concentration)).toBe(0.2);
   });
 
@@ -96,15 +121,23 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
     await page.goto(`/sanitation/new?equipmentId=${keg.id}`);
     await page.getByRole('heading', { name: `Clean ${keg.code}` }).waitFor();
     await stepBox(page, 'clean').getByRole('button', { name: 'Mark clean done' }).click();
-    await stepBox(page, 'clean').getByLabel(/Strength/).fill('0.1');
+    await stepBox(page, 'clean')
+      .getByLabel(/Strength/)
+      .fill('0.1');
     await stepBox(page, 'clean').getByLabel('When').fill(local(30));
     await stepBox(page, 'rinse').getByRole('button', { name: 'Mark rinse done' }).click();
     await stepBox(page, 'rinse').getByLabel('When').fill(local(25));
     // 60 min soak does not fit in the 5 min before the rinse; 0.1 % is too weak.
-    await stepBox(page, 'clean').getByText(/0\.1 % is below the working strength/).waitFor();
-    await stepBox(page, 'clean').getByText(/60 min does not fit before the rinse step, 5 min later/).waitFor();
+    await stepBox(page, 'clean')
+      .getByText(/0\.1 % is below the working strength/)
+      .waitFor();
+    await stepBox(page, 'clean')
+      .getByText(/60 min does not fit before the rinse step, 5 min later/)
+      .waitFor();
     await stepBox(page, 'clean').getByText('This cannot be recorded as an exception: correct it.').waitFor();
-    await stepBox(page, 'clean').getByLabel(/Strength/).fill('1.5');
+    await stepBox(page, 'clean')
+      .getByLabel(/Strength/)
+      .fill('1.5');
     await stepBox(page, 'clean').getByLabel('When').fill(local(100));
     expect(await stepBox(page, 'clean').getByRole('alert').count()).toBe(0);
     await page.getByRole('button', { name: 'Save cycle' }).click();

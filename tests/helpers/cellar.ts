@@ -97,12 +97,22 @@ export function batchPool(ctx: TestContext) {
       ],
       fermenter: { equipmentId: fermenter.id, startsAt: t(-15), endsAt: t(7), now: t(0) },
     });
-    return { batchId: batch.id, name: batch.name, fermenterId: fermenter.id, fermenterCode: fermenter.code, volume: Number(batch.volume_liters), ownerId: batch.owner_id };
+    return {
+      batchId: batch.id,
+      name: batch.name,
+      fermenterId: fermenter.id,
+      fermenterCode: fermenter.code,
+      volume: Number(batch.volume_liters),
+      ownerId: batch.owner_id,
+    };
   };
 }
 
 export async function count(ctx: TestContext, table: 'transfer' | 'keg_fill' | 'sanitation_cycle' | 'keg_movement' | 'carbonation_plan') {
-  const r = await ctx.db.selectFrom(table).select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+  const r = await ctx.db
+    .selectFrom(table)
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .executeTakeFirstOrThrow();
   return r.n;
 }
 

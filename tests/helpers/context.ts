@@ -55,10 +55,16 @@ export class ApiClient {
     return body === undefined ? r : r.send(body);
   }
   patch(url: string, body?: object) {
-    return this.agent.patch(url).set('X-CSRF-Token', this.csrf).send(body ?? {});
+    return this.agent
+      .patch(url)
+      .set('X-CSRF-Token', this.csrf)
+      .send(body ?? {});
   }
   put(url: string, body?: object) {
-    return this.agent.put(url).set('X-CSRF-Token', this.csrf).send(body ?? {});
+    return this.agent
+      .put(url)
+      .set('X-CSRF-Token', this.csrf)
+      .send(body ?? {});
   }
   delete(url: string) {
     return this.agent.delete(url).set('X-CSRF-Token', this.csrf);

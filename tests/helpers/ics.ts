@@ -30,7 +30,10 @@ function component(type: string): IcsComponent {
 
 export function parseIcs(text: string): IcsComponent {
   if (!/\r\n/.test(text)) throw new Error('iCalendar lines must end with CRLF');
-  const lines = text.replace(/\r\n[ \t]/g, '').split('\r\n').filter((l) => l.length > 0);
+  const lines = text
+    .replace(/\r\n[ \t]/g, '')
+    .split('\r\n')
+    .filter((l) => l.length > 0);
   const stack: IcsComponent[] = [];
   let root: IcsComponent | undefined;
   for (const line of lines) {

@@ -45,7 +45,19 @@ export type RecordKind =
   | 'token';
 
 /** Kinds whose records belong to one member (a member sees their own, not another's). */
-export const ownedKinds = new Set<RecordKind>(['user', 'booking', 'batch', 'reading', 'importProgress', 'invoice', 'overpayment', 'creditNote', 'manualCharge', 'keg', 'plan']);
+export const ownedKinds = new Set<RecordKind>([
+  'user',
+  'booking',
+  'batch',
+  'reading',
+  'importProgress',
+  'invoice',
+  'overpayment',
+  'creditNote',
+  'manualCharge',
+  'keg',
+  'plan',
+]);
 
 export interface RouteRecord {
   params: Record<string, string>;
@@ -79,7 +91,10 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
   const now = () => ctx.clock.now();
   const at = (ms: number) => new Date(now().getTime() + ms);
   const today = () => now().toISOString().slice(0, 10);
-  const dayAhead = (days: number) => at(days * DAY).toISOString().slice(0, 10);
+  const dayAhead = (days: number) =>
+    at(days * DAY)
+      .toISOString()
+      .slice(0, 10);
   const mark = (what: string) => `${what}-mark-${++seq}-${randomUUID().slice(0, 8)}`;
   const treasurerId = fixtureUserId('treasurer');
 
@@ -94,7 +109,14 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
   async function filledKeg(owner: Owner) {
     const keg = await createKeg(ctx.db);
     const name = mark('batch');
-    const batch = await createBatch(ctx.db, { ownerId: owner.id, name, readings: [{ takenAt: at(-9 * DAY), value: 1.05 }, { takenAt: at(-3 * DAY), value: 1.011 }] });
+    const batch = await createBatch(ctx.db, {
+      ownerId: owner.id,
+      name,
+      readings: [
+        { takenAt: at(-9 * DAY), value: 1.05 },
+        { takenAt: at(-3 * DAY), value: 1.011 },
+      ],
+    });
     await fillKeg(ctx.db, { kegId: keg.id, at: at(-2 * DAY), batchId: batch.id, ownerId: owner.id });
     return { kegId: keg.id, batchName: name };
   }
@@ -118,7 +140,15 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
       case 'reading':
       case 'importProgress': {
         const name = mark('batch');
-        const b = await createBatch(ctx.db, { ownerId: owner.id, name, notes: mark('notes'), readings: [{ takenAt: at(-3 * DAY), value: 1.052 }, { takenAt: at(-DAY), value: 1.03 }] });
+        const b = await createBatch(ctx.db, {
+          ownerId: owner.id,
+          name,
+          notes: mark('notes'),
+          readings: [
+            { takenAt: at(-3 * DAY), value: 1.052 },
+            { takenAt: at(-DAY), value: 1.03 },
+          ],
+        });
         return { params: { id: b.id, readingId: b.readings[0]!.id, progressId: randomUUID() }, marks: [...who, name] };
       }
       case 'invoice': {
@@ -132,7 +162,14 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
         const owed = due.total_cents - due.paid_cents;
         const payment = await ctx.db
           .transaction()
-          .execute((trx) => recordPayment(trx, invoice.id, { amountCents: owed + 500, overpaidCents: 500, method: 'online', receivedOn: today(), reference: mark('payment') }, null));
+          .execute((trx) =>
+            recordPayment(
+              trx,
+              invoice.id,
+              { amountCents: owed + 500, overpaidCents: 500, method: 'online', receivedOn: today(), reference: mark('payment') },
+              null,
+            ),
+          );
         return { params: { id: payment.id }, marks: [...who, description] };
       }
       case 'creditNote': {
@@ -142,7 +179,11 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
         return { params: { id: note.id }, marks: [...who, description] };
       }
       case 'invoiceRun': {
-        const run = await ctx.db.insertInto('invoice_run').values({ period: nextPeriod(), issued: false, run_by: treasurerId }).returning('id').executeTakeFirstOrThrow();
+        const run = await ctx.db
+          .insertInto('invoice_run')
+          .values({ period: nextPeriod(), issued: false, run_by: treasurerId })
+          .returning('id')
+          .executeTakeFirstOrThrow();
         return { params: { id: run.id }, marks: [] };
       }
       case 'price': {

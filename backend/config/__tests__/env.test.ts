@@ -27,7 +27,9 @@ describe('loadConfig', () => {
   });
 
   it('refuses a production start without the secrets, naming every missing one', () => {
-    expect(production({})).toThrow(/SESSION_SECRET: required in production[\s\S]*STRIPE_SECRET_KEY: required in production[\s\S]*STRIPE_WEBHOOK_SECRET: required in production/);
+    expect(production({})).toThrow(
+      /SESSION_SECRET: required in production[\s\S]*STRIPE_SECRET_KEY: required in production[\s\S]*STRIPE_WEBHOOK_SECRET: required in production/,
+    );
     expect(production({ ...real, STRIPE_WEBHOOK_SECRET: undefined })).toThrow(/^Invalid environment:\n {2}STRIPE_WEBHOOK_SECRET: required in production$/);
     expect(production({ ...real, STRIPE_SECRET_KEY: '  ' })).toThrow(/STRIPE_SECRET_KEY: required in production/);
   });

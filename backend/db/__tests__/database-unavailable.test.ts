@@ -45,7 +45,10 @@ describe('isDatabaseUnavailable', () => {
     ['a statement timeout (57014)', pgError('57014', 'canceling statement due to statement timeout')],
     ['an invalid input (22P02)', pgError('22P02')],
     ['a programming error', new TypeError("Cannot read properties of undefined (reading 'id')")],
-    ['a client that hung up mid-body (an HTTP error)', Object.assign(new Error('request aborted'), { code: 'ECONNABORTED', status: 400, type: 'request.aborted' })],
+    [
+      'a client that hung up mid-body (an HTTP error)',
+      Object.assign(new Error('request aborted'), { code: 'ECONNABORTED', status: 400, type: 'request.aborted' }),
+    ],
     ['an HTTP error with a socket code', Object.assign(new Error('reset'), { code: 'ECONNRESET', statusCode: 400 })],
     ['an HttpProblem', new HttpProblem(409, 'Conflict', 'taken')],
     ['an AggregateError of mixed causes', new AggregateError([sysError('ECONNREFUSED'), new Error('bad')])],
@@ -135,7 +138,11 @@ describe('queueErrorReporter', () => {
   it('writes other errors every time and an outage once per quiet period, with a count', () => {
     const lines: string[] = [];
     let t = 0;
-    const report = queueErrorReporter((m) => lines.push(m), 30_000, () => t);
+    const report = queueErrorReporter(
+      (m) => lines.push(m),
+      30_000,
+      () => t,
+    );
     report(new Error('job handler bug'));
     report(pgError('57P01', 'terminating connection due to administrator command'));
     t = 1000;

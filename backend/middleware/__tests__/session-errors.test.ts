@@ -63,7 +63,10 @@ describe('session store failures', () => {
     try {
       const signIn = await fetch(`${base}/sign-in`, { method: 'POST' });
       expect(signIn.status).toBe(200);
-      const cookie = signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+      const cookie = signIn.headers
+        .getSetCookie()
+        .map((c) => c.split(';')[0])
+        .join('; ');
       await signIn.text();
       store.failWrite = true;
       // One kept-alive connection carries these in turn: a connection cut after an answer would make the

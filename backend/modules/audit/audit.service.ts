@@ -21,7 +21,16 @@ export async function listAudit(db: Deps['db'], q: AuditQuery, order: 'asc' | 'd
   const [{ total }, rows] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
     base
-      .select(['audit_log.id', 'audit_log.action', 'audit_log.subject_type', 'audit_log.subject_id', 'audit_log.detail', 'audit_log.at', 'audit_log.actor_id', 'app_user.name as actor_name'])
+      .select([
+        'audit_log.id',
+        'audit_log.action',
+        'audit_log.subject_type',
+        'audit_log.subject_id',
+        'audit_log.detail',
+        'audit_log.at',
+        'audit_log.actor_id',
+        'app_user.name as actor_name',
+      ])
       .orderBy(sql`${auditSort[q.sort]} ${sql.raw(order)} nulls last`)
       .orderBy('audit_log.id', order)
       .limit(q.pageSize)

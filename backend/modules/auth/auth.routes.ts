@@ -15,24 +15,8 @@ import { enqueueMail } from '../../lib/mailer.ts';
 import { PgRateLimitStore } from '../../lib/rate-limit-store.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
-import {
-  checkCredentials,
-  consumeToken,
-  endSessionsOf,
-  hashPassword,
-  issueToken,
-  peekToken,
-  toSessionUser,
-  type SessionUser,
-} from './auth.service.ts';
-import {
-  anonymousCsrfCookieOf,
-  csrfKey,
-  isValidAnonymousCsrfToken,
-  issueAnonymousCsrfToken,
-  newSessionCsrfToken,
-  setAnonymousCsrfCookie,
-} from './csrf.ts';
+import { checkCredentials, consumeToken, endSessionsOf, hashPassword, issueToken, peekToken, toSessionUser, type SessionUser } from './auth.service.ts';
+import { anonymousCsrfCookieOf, csrfKey, isValidAnonymousCsrfToken, issueAnonymousCsrfToken, newSessionCsrfToken, setAnonymousCsrfCookie } from './csrf.ts';
 import { clientAddressKey, LoginThrottle, type LoginRefusal } from './login-throttle.ts';
 
 /** How long an e-mailed unlock link works. */
@@ -65,7 +49,12 @@ export function authRoutes({ db, config, queue }: Deps): Router {
       res
         .status(429)
         .type('application/problem+json')
-        .json({ type: 'about:blank', status: 429, title: 'Too many attempts', detail: `Too many sign-in attempts ${what}; try again in ${Math.ceil(seconds / 60)} minutes.` });
+        .json({
+          type: 'about:blank',
+          status: 429,
+          title: 'Too many attempts',
+          detail: `Too many sign-in attempts ${what}; try again in ${Math.ceil(seconds / 60)} minutes.`,
+        });
     };
 
   const perIp = rateLimit({
@@ -83,7 +72,10 @@ export function authRoutes({ db, config, queue }: Deps): Router {
     const wait = `${minutes} minute${minutes === 1 ? '' : 's'}`;
     const [title, detail] =
       refusal.reason === 'locked'
-        ? ['Account locked', `Sign-in to this account is locked after many failed attempts; its owner has been e-mailed a link to unlock it. Otherwise try again in ${wait}.`]
+        ? [
+            'Account locked',
+            `Sign-in to this account is locked after many failed attempts; its owner has been e-mailed a link to unlock it. Otherwise try again in ${wait}.`,
+          ]
         : ['Too many attempts', `Too many sign-in attempts for this account from this address; try again in ${wait}.`];
     res.setHeader('Retry-After', String(refusal.retryAfterSeconds));
     res.status(429).type('application/problem+json').json({ type: 'about:blank', status: 429, title, detail });

@@ -54,13 +54,7 @@ export type TokenPurpose = 'invitation' | 'password_reset' | 'account_unlock';
 const tokenLabels: Record<TokenPurpose, string> = { invitation: 'Invitation', password_reset: 'Reset link', account_unlock: 'Unlock link' };
 
 /** A single-use token; only its hash is stored. Returns the token to put in the link. */
-export async function issueToken(
-  db: Database,
-  userId: string,
-  purpose: TokenPurpose,
-  ttlHours: number,
-  createdBy: string | null,
-): Promise<string> {
+export async function issueToken(db: Database, userId: string, purpose: TokenPurpose, ttlHours: number, createdBy: string | null): Promise<string> {
   const token = randomBytes(32).toString('base64url');
   // A newer link replaces older unused ones of the same kind.
   await db

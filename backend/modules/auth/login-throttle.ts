@@ -10,8 +10,7 @@ export interface LoginRefusal {
   retryAfterSeconds: number;
 }
 
-const secondsUntil = (at: Date | undefined, fallbackMs: number) =>
-  Math.max(1, Math.ceil(((at?.getTime() ?? Date.now() + fallbackMs) - Date.now()) / 1000));
+const secondsUntil = (at: Date | undefined, fallbackMs: number) => Math.max(1, Math.ceil(((at?.getTime() ?? Date.now() + fallbackMs) - Date.now()) / 1000));
 
 /**
  * Sign-in throttling that a stranger cannot turn against a member. Wrong passwords are counted per account
@@ -69,10 +68,7 @@ export class LoginThrottle {
     await db
       .deleteFrom('rate_limit')
       .where((eb) =>
-        eb.or([
-          eb('key', 'in', [this.locks.prefix + email, this.accounts.prefix + email]),
-          sql<boolean>`starts_with(key, ${this.pairs.prefix + email + ' '})`,
-        ]),
+        eb.or([eb('key', 'in', [this.locks.prefix + email, this.accounts.prefix + email]), sql<boolean>`starts_with(key, ${this.pairs.prefix + email + ' '})`]),
       )
       .execute();
   }

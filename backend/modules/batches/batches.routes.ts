@@ -39,9 +39,16 @@ function receiveFile(req: Request, res: Response): Promise<void> {
       if (!err) return resolve();
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') {
-          return reject(new HttpProblem(413, 'File too large', `One import takes a file of at most ${IMPORT_MAX_BYTES / 1024 / 1024} MiB; split the readings into smaller files.`));
+          return reject(
+            new HttpProblem(
+              413,
+              'File too large',
+              `One import takes a file of at most ${IMPORT_MAX_BYTES / 1024 / 1024} MiB; split the readings into smaller files.`,
+            ),
+          );
         }
-        if (err.code === 'LIMIT_UNEXPECTED_FILE') return reject(badRequest(`A file came in the form field “${String(err.field ?? '').slice(0, 60)}”. ${sendInFileField}`));
+        if (err.code === 'LIMIT_UNEXPECTED_FILE')
+          return reject(badRequest(`A file came in the form field “${String(err.field ?? '').slice(0, 60)}”. ${sendInFileField}`));
         if (err.code === 'LIMIT_FILE_COUNT') return reject(badRequest(`Send one file only. ${sendInFileField}`));
         return reject(badRequest(`The upload has more form fields or larger ones than an import takes. ${sendInFileField}`));
       }
@@ -119,7 +126,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const file = req.file;
     if (!file) throw badRequest(sendInFileField);
     const body = (req.body ?? {}) as Record<string, unknown>;
-    const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : (req.query.progressId));
+    const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : req.query.progressId);
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
     const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), loadCoopTimeZone(db)]);
     void pruneImportProgress(db).catch(() => undefined);

@@ -226,13 +226,7 @@ async function linkBooking(trx: Database, batchId: string, ownerId: string, book
   await trx.updateTable('booking').set({ batch_id: batchId, updated_at: now }).where('id', '=', bookingId).execute();
 }
 
-export async function createBatch(
-  db: Database,
-  ability: AppAbility,
-  input: z.infer<typeof createBatchSchema>,
-  actor: Actor,
-  now: Date,
-): Promise<BatchRow> {
+export async function createBatch(db: Database, ability: AppAbility, input: z.infer<typeof createBatchSchema>, actor: Actor, now: Date): Promise<BatchRow> {
   const ownerId = input.ownerId ?? actor.id;
   // Someone else's batch: the admin only (create on the owner's record).
   if (ownerId !== actor.id) ForbiddenError.from(ability).throwUnlessCan('update', subject('Batch', { ownerId }));
@@ -266,13 +260,7 @@ export async function createBatch(
   });
 }
 
-export async function updateBatch(
-  db: Database,
-  batch: BatchRow,
-  input: z.infer<typeof updateBatchSchema>,
-  actor: Actor,
-  now: Date,
-): Promise<BatchRow> {
+export async function updateBatch(db: Database, batch: BatchRow, input: z.infer<typeof updateBatchSchema>, actor: Actor, now: Date): Promise<BatchRow> {
   if (input.status && input.status !== batch.status && !nextBatchStatuses[batch.status].includes(input.status)) {
     throw conflict(
       `A ${batch.status} batch cannot become ${input.status}` +

@@ -1,11 +1,4 @@
-import {
-  abv,
-  apparentAttenuation,
-  fermentationForecast,
-  realAttenuation,
-  stableGravity,
-  type GravityReading,
-} from '../../../shared/brewing/index.ts';
+import { abv, apparentAttenuation, fermentationForecast, realAttenuation, stableGravity, type GravityReading } from '../../../shared/brewing/index.ts';
 import {
   defaultFermentationSettings,
   fermentationSettingsSchema,
@@ -175,12 +168,7 @@ export function computeFigures(
 
 /** Loads a batch's readings (time, gravity) in time order. */
 export async function loadGravitySeries(db: Database, batchId: string): Promise<{ time: number; sg: number }[]> {
-  const rows = await db
-    .selectFrom('reading')
-    .select(['taken_at', 'gravity_sg'])
-    .where('batch_id', '=', batchId)
-    .orderBy('taken_at')
-    .execute();
+  const rows = await db.selectFrom('reading').select(['taken_at', 'gravity_sg']).where('batch_id', '=', batchId).orderBy('taken_at').execute();
   return rows.map((r) => ({ time: r.taken_at.getTime(), sg: Number(r.gravity_sg) }));
 }
 
@@ -193,5 +181,13 @@ export async function batchGravityFigures(db: Database, batchId: string, now: Da
   if (!batch) return null;
   const [settings, series] = await Promise.all([loadFermentationSettings(db), loadGravitySeries(db, batchId)]);
   const f = computeFigures(series, batch.status, batch.target_fg, settings, now);
-  return { og: f.og, fg: f.fg, currentGravity: f.currentGravity, abv: f.abv, apparentAttenuation: f.apparentAttenuation, realAttenuation: f.realAttenuation, stable: f.stable.stable };
+  return {
+    og: f.og,
+    fg: f.fg,
+    currentGravity: f.currentGravity,
+    abv: f.abv,
+    apparentAttenuation: f.apparentAttenuation,
+    realAttenuation: f.realAttenuation,
+    stable: f.stable.stable,
+  };
 }

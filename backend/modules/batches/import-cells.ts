@@ -19,7 +19,9 @@ export function parseNumber(c: Cell): { value: number; suffix: string } | null {
     return { value: c, suffix: '' };
   }
   if (typeof c === 'boolean' || c instanceof Date) throw new CellError(`Not a number: ${cellText(c)}`);
-  const s = String(c).trim().replace(/[\u00a0\u202f ]/g, '');
+  const s = String(c)
+    .trim()
+    .replace(/[\u00a0\u202f ]/g, '');
   const m = /^([+-]?(?:\d+(?:[.,]\d+)?|[.,]\d+))(?:e([+-]?\d+))?(.*)$/i.exec(s);
   if (!m) throw new CellError(`Not a number: “${String(c).trim()}”`);
   const mantissa = m[1]!.replace(',', '.');
@@ -84,7 +86,11 @@ function zoneOffset(t: number, tz: string): number {
   const key = `${tz}|${Math.floor(t / 3_600_000)}`;
   const hit = offsetCache.get(key);
   if (hit !== undefined) return hit;
-  const parts = Object.fromEntries(formatterFor(tz).formatToParts(new Date(t)).map((p) => [p.type, p.value]));
+  const parts = Object.fromEntries(
+    formatterFor(tz)
+      .formatToParts(new Date(t))
+      .map((p) => [p.type, p.value]),
+  );
   const asUtc = Date.UTC(Number(parts.year), Number(parts.month) - 1, Number(parts.day), Number(parts.hour), Number(parts.minute), Number(parts.second));
   const offset = asUtc - Math.floor(t / 1000) * 1000;
   if (offsetCache.size > 50_000) offsetCache.clear();
@@ -137,7 +143,8 @@ function applyOffset(wall: number, offset: string | undefined, parts: number[], 
 }
 
 const ISO = /^(\d{4})-(\d{1,2})-(\d{1,2})(?:[T\s]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,6}))?)?)?\s*(Z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?$/i;
-const NUMERIC = /^(\d{1,4})[./-](\d{1,2})[./-](\d{1,4})(?:[T\s,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,6}))?)?\s*(am|pm)?)?\s*(Z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?$/i;
+const NUMERIC =
+  /^(\d{1,4})[./-](\d{1,2})[./-](\d{1,4})(?:[T\s,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,6}))?)?\s*(am|pm)?)?\s*(Z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?$/i;
 
 /** For `auto`: reads the slash or dot dates of a whole column to tell day-first from month-first. */
 export function detectDateOrder(cells: Cell[]): 'dmy' | 'mdy' | 'ymd' {
@@ -165,7 +172,16 @@ export function parseTakenAt(c: Cell, order: 'dmy' | 'mdy' | 'ymd', tz: string):
   if (c instanceof Date) {
     // Spreadsheet dates carry the wall-clock time in their UTC fields.
     if (Number.isNaN(c.getTime())) throw new CellError('Not a date');
-    return zonedTime(c.getUTCFullYear(), c.getUTCMonth() + 1, c.getUTCDate(), c.getUTCHours(), c.getUTCMinutes(), c.getUTCSeconds(), c.getUTCMilliseconds(), tz);
+    return zonedTime(
+      c.getUTCFullYear(),
+      c.getUTCMonth() + 1,
+      c.getUTCDate(),
+      c.getUTCHours(),
+      c.getUTCMinutes(),
+      c.getUTCSeconds(),
+      c.getUTCMilliseconds(),
+      tz,
+    );
   }
   if (typeof c === 'number') return fromNumber(c, tz);
   if (typeof c === 'boolean') throw new CellError('Not a date');
@@ -173,7 +189,15 @@ export function parseTakenAt(c: Cell, order: 'dmy' | 'mdy' | 'ymd', tz: string):
   if (/^\d+(?:[.,]\d+)?$/.test(s)) return fromNumber(Number(s.replace(',', '.')), tz);
   let m = ISO.exec(s);
   if (m) {
-    const parts = [Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4] ?? 0), Number(m[5] ?? 0), Number(m[6] ?? 0), Number((m[7] ?? '0').padEnd(3, '0').slice(0, 3))];
+    const parts = [
+      Number(m[1]),
+      Number(m[2]),
+      Number(m[3]),
+      Number(m[4] ?? 0),
+      Number(m[5] ?? 0),
+      Number(m[6] ?? 0),
+      Number((m[7] ?? '0').padEnd(3, '0').slice(0, 3)),
+    ];
     checkParts(parts[0]!, parts[1]!, parts[2]!, parts[3]!, parts[4]!, parts[5]!);
     const wall = Date.UTC(parts[0]!, parts[1]! - 1, parts[2], parts[3], parts[4], parts[5], parts[6]);
     return applyOffset(wall, m[8], parts, tz);

@@ -80,10 +80,7 @@ export interface PrepareResult {
 export type PrepareProgress = (phase: 'reading' | 'checking', rowsDone: number, rowsTotal: number | null) => void | Promise<void>;
 
 /** The mapping to use: the one sent, else the member's last one if the file has its columns, else a guess from the headers. */
-function resolveMapping(
-  req: PrepareInput,
-  headers: string[],
-): { mapping: ImportMapping; source: ImportPreview['mappingSource']; complete: boolean } {
+function resolveMapping(req: PrepareInput, headers: string[]): { mapping: ImportMapping; source: ImportPreview['mappingSource']; complete: boolean } {
   if (req.mappingField !== undefined && req.mappingField.trim() !== '') {
     let raw: unknown;
     try {
@@ -138,7 +135,13 @@ interface CheckedRow {
 /** Reads every row through the mapping; each problem names its row and column. */
 function checkRows(table: FileTable, mapping: ImportMapping, nowDate: Date): CheckedRow[] {
   const idx = (h: string | null | undefined) => (h ? table.headers.indexOf(h) : -1);
-  const col = { takenAt: idx(mapping.takenAt), gravity: idx(mapping.gravity), unit: idx(mapping.unit), temperature: idx(mapping.temperature), note: idx(mapping.note) };
+  const col = {
+    takenAt: idx(mapping.takenAt),
+    gravity: idx(mapping.gravity),
+    unit: idx(mapping.unit),
+    temperature: idx(mapping.temperature),
+    note: idx(mapping.note),
+  };
   const order = mapping.dateOrder === 'auto' ? detectDateOrder(table.rows.map((r) => r.cells[col.takenAt] ?? null)) : mapping.dateOrder;
   const now = nowDate.getTime();
   const quoteProblems = new Map(table.problems.map((p) => [p.row, p.message]));
@@ -217,7 +220,6 @@ function checkRows(table: FileTable, mapping: ImportMapping, nowDate: Date): Che
   });
 }
 
-
 /** Reads and checks an uploaded file; throws a 4xx HttpProblem for a file it cannot take. */
 export async function prepareImport(req: PrepareInput, progress: PrepareProgress = () => undefined): Promise<PrepareResult> {
   const buffer = Buffer.from(req.file.bytes.buffer, req.file.bytes.byteOffset, req.file.bytes.byteLength);
@@ -225,7 +227,9 @@ export async function prepareImport(req: PrepareInput, progress: PrepareProgress
   await progress('reading', 0, null);
   const table = await readTable(file, async (n) => progress('reading', n, null));
   if (table.rows.every((r) => r.cells.every((c) => c === null || (typeof c === 'string' && c.trim() === '')))) {
-    throw unprocessable('The file has a header row but no readings.', [{ path: 'file', message: 'No readings below the header row', row: table.headerRow + 1, column: '' }]);
+    throw unprocessable('The file has a header row but no readings.', [
+      { path: 'file', message: 'No readings below the header row', row: table.headerRow + 1, column: '' },
+    ]);
   }
   const { mapping, source, complete } = resolveMapping(req, table.headers);
   if (!complete && !req.dryRun) {
@@ -380,7 +384,10 @@ export function fromColumns(c: PreparedReadings): NormalisedCandidate[] {
       temperatureC: Number.isNaN(c.temperatureC[i]) ? null : c.temperatureC[i]!,
       correctTemperature: c.correctTemperature[i] === 1,
       note: c.note[i]!,
-      gravity: { sg: c.sg[i]!, rawSg: Number.isNaN(c.rawSg[i]) ? null : c.rawSg[i]!, corrected: c.corrected[i] === 1,
+      gravity: {
+        sg: c.sg[i]!,
+        rawSg: Number.isNaN(c.rawSg[i]) ? null : c.rawSg[i]!,
+        corrected: c.corrected[i] === 1,
         correction: null,
         method: c.method[i] === 1 ? 'wort' : c.method[i] === 2 ? 'alcohol_corrected' : null,
       },

@@ -66,7 +66,7 @@ function declaredType(file: UploadedFile): 'csv' | 'xlsx' | 'xls' | null {
 /** Reads an uploaded CSV or XLSX into a header and rows; every unreadable file is a 4xx problem. */
 export async function readTable(file: UploadedFile, onRows?: (n: number) => Promise<void>): Promise<FileTable> {
   const buf = file.buffer;
-  if (!buf || buf.length === 0 || /^[\s\uFEFF]*$/.test(buf.subarray(0, 4096).toString('utf8')) && buf.length <= 4096) {
+  if (!buf || buf.length === 0 || (/^[\s\uFEFF]*$/.test(buf.subarray(0, 4096).toString('utf8')) && buf.length <= 4096)) {
     throw badRequest('The file is empty.');
   }
   const declared = declaredType(file);
@@ -75,7 +75,9 @@ export async function readTable(file: UploadedFile, onRows?: (n: number) => Prom
     throw unsupported('This looks like an old Excel .xls workbook; save it as .xlsx or CSV and upload it again.');
   }
   if (declared === 'xlsx' && !zip) {
-    throw unsupported(`${file.originalname} is named as an XLSX workbook but is not one (an XLSX file is a ZIP archive). Export it again, or upload it as CSV.`);
+    throw unsupported(
+      `${file.originalname} is named as an XLSX workbook but is not one (an XLSX file is a ZIP archive). Export it again, or upload it as CSV.`,
+    );
   }
   if (declared === 'csv' && zip) {
     throw unsupported(`${file.originalname} is named as CSV but holds a ZIP archive (an XLSX workbook?). Upload it with the .xlsx name.`);
@@ -186,7 +188,11 @@ const tooManyRows = () =>
 const tooManyColumns = (row: number) =>
   new HttpProblem(413, 'Too many columns', `Row ${row} has more than ${IMPORT_MAX_COLUMNS} columns, the most one import takes; a readings file needs five.`);
 const tooManyCells = () =>
-  new HttpProblem(413, 'Too many cells', `One import takes at most ${IMPORT_MAX_CELLS.toLocaleString('en')} cells (rows × columns); leave out columns you do not import, or split the file.`);
+  new HttpProblem(
+    413,
+    'Too many cells',
+    `One import takes at most ${IMPORT_MAX_CELLS.toLocaleString('en')} cells (rows × columns); leave out columns you do not import, or split the file.`,
+  );
 
 /** A file the parser could not make sense of; never the parser's own words. */
 export const unreadableFile = (kind: 'CSV' | 'XLSX') =>
@@ -198,7 +204,10 @@ export const unreadableFile = (kind: 'CSV' | 'XLSX') =>
 function uniqueHeaders(raw: string[]): string[] {
   const seen = new Map<string, number>();
   return raw.map((h, i) => {
-    let name = String(h ?? '').replace(/^\uFEFF/, '').trim() || `Column ${columnLetter(i)}`;
+    let name =
+      String(h ?? '')
+        .replace(/^\uFEFF/, '')
+        .trim() || `Column ${columnLetter(i)}`;
     const n = (seen.get(name.toLowerCase()) ?? 0) + 1;
     seen.set(name.toLowerCase(), n);
     if (n > 1) name = `${name} (${n})`;

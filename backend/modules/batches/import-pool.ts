@@ -45,7 +45,12 @@ type WorkerMessage =
   | { ready: true }
   | { id: number; progress: { phase: 'reading' | 'checking'; done: number; total: number | null } }
   | { id: number; ok: true; result: PrepareResult }
-  | { id: number; ok: false; problem: { status: number; title: string; detail?: string; errors?: HttpProblem['errors']; type: string; extra: Record<string, unknown> }; internal?: string };
+  | {
+      id: number;
+      ok: false;
+      problem: { status: number; title: string; detail?: string; errors?: HttpProblem['errors']; type: string; extra: Record<string, unknown> };
+      internal?: string;
+    };
 
 const workerFile = new URL('./import.worker.mjs', import.meta.url);
 
@@ -61,7 +66,12 @@ export class ImportPool {
   private nextId = 1;
   private closed = false;
 
-  constructor({ size, timeLimitMs = IMPORT_TIME_LIMIT_MS, memoryLimitMb = IMPORT_MEMORY_LIMIT_MB, maxWaiting = IMPORT_MAX_WAITING }: { size?: number; timeLimitMs?: number; memoryLimitMb?: number; maxWaiting?: number } = {}) {
+  constructor({
+    size,
+    timeLimitMs = IMPORT_TIME_LIMIT_MS,
+    memoryLimitMb = IMPORT_MEMORY_LIMIT_MB,
+    maxWaiting = IMPORT_MAX_WAITING,
+  }: { size?: number; timeLimitMs?: number; memoryLimitMb?: number; maxWaiting?: number } = {}) {
     this.size = Math.max(1, size ?? Math.min(2, Math.max(1, os.availableParallelism() - 1)));
     this.timeLimitMs = timeLimitMs;
     this.memoryLimitMb = memoryLimitMb;

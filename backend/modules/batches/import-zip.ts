@@ -44,7 +44,11 @@ const mib = (n: number) => `${Math.round(n / 1048576).toLocaleString('en')} MiB`
 
 /** The workbook cannot be read as a ZIP archive at all. */
 export const unreadableXlsx = () =>
-  new HttpProblem(415, 'Unsupported file', 'The file is not a readable XLSX workbook (it is damaged or cut short). Save it again as .xlsx, or export it as CSV.');
+  new HttpProblem(
+    415,
+    'Unsupported file',
+    'The file is not a readable XLSX workbook (it is damaged or cut short). Save it again as .xlsx, or export it as CSV.',
+  );
 const unreadable = unreadableXlsx;
 
 /** Checks the archive against the limits and returns its entries; throws a 413/422 problem otherwise. */
@@ -107,7 +111,8 @@ export function inspectZip(buf: Buffer, limits: ZipLimits): ZipEntry[] {
     const nameLength = buf.readUInt16LE(e.offset + 26);
     const extraLength = buf.readUInt16LE(e.offset + 28);
     if (buf.toString('utf8', e.offset + 30, e.offset + 30 + nameLength) !== e.name) throw unreadable();
-    if ((flags & 0x08) === 0 && (buf.readUInt32LE(e.offset + 18) !== e.compressedSize || buf.readUInt32LE(e.offset + 22) !== e.uncompressedSize)) throw unreadable();
+    if ((flags & 0x08) === 0 && (buf.readUInt32LE(e.offset + 18) !== e.compressedSize || buf.readUInt32LE(e.offset + 22) !== e.uncompressedSize))
+      throw unreadable();
     e.dataOffset = e.offset + 30 + nameLength + extraLength;
     let end = e.dataOffset + e.compressedSize;
     if (end > cdOffset) throw unreadable();

@@ -28,7 +28,12 @@ async function fail(job, err) {
   current = null;
   const loaded = await modules.catch(() => null);
   if (!loaded) {
-    port.postMessage({ id: job.id, ok: false, problem: { status: 500, title: 'Internal server error', detail: 'Something went wrong on our side.', type: 'about:blank', extra: {} }, internal: 'the import modules failed to load' });
+    port.postMessage({
+      id: job.id,
+      ok: false,
+      problem: { status: 500, title: 'Internal server error', detail: 'Something went wrong on our side.', type: 'about:blank', extra: {} },
+      internal: 'the import modules failed to load',
+    });
     return;
   }
   const [, { unreadableFile }, { HttpProblem }] = loaded;

@@ -47,11 +47,19 @@ export async function productionRecords(
 ): Promise<ProductionRecords> {
   const period = periodBounds(from, to, timeZone, now);
   if (period.end <= period.start) {
-    return { from: period.from, to: period.to, rows: [], months: [], totals: { batches: 0, packagedLiters: 0, usBarrels: 0 }, monthly: [], note: productionRecordsNote };
+    return {
+      from: period.from,
+      to: period.to,
+      rows: [],
+      months: [],
+      totals: { batches: 0, packagedLiters: 0, usBarrels: 0 },
+      monthly: [],
+      note: productionRecordsNote,
+    };
   }
   // Every month of the period, whole, for the monthly report.
   const monthList: { month: string; start: Date; end: Date }[] = [];
-  for (let m = period.from.slice(0, 7); m <= period.to.slice(0, 7) && monthList.length < 120; ) {
+  for (let m = period.from.slice(0, 7); m <= period.to.slice(0, 7) && monthList.length < 120;) {
     const b = periodBounds(m, m, timeZone, now);
     monthList.push({ month: m, start: b.start, end: b.end });
     const [y, mo] = m.split('-').map(Number) as [number, number];
@@ -126,7 +134,12 @@ export async function productionRecords(
     from: period.from,
     to: period.to,
     rows: out,
-    months: [...months.values()].map((m) => ({ month: m.month, batches: m.batches, packagedLiters: round(m.liters, 2), usBarrels: round(litersToUsBarrels(m.liters), 4) })),
+    months: [...months.values()].map((m) => ({
+      month: m.month,
+      batches: m.batches,
+      packagedLiters: round(m.liters, 2),
+      usBarrels: round(litersToUsBarrels(m.liters), 4),
+    })),
     totals: { batches: new Set(out.map((r) => r.batchId)).size, packagedLiters: round(totalLiters, 2), usBarrels: round(litersToUsBarrels(totalLiters), 4) },
     monthly,
     note: productionRecordsNote,
@@ -199,7 +212,10 @@ export function productionRecordsCsv(report: ProductionRecords): string {
     ['Note', report.note, '', '', '', '', '', '', ''],
   ];
   // Batch names, styles and members' names are as typed: text that a spreadsheet would run is neutralised.
-  return `\uFEFF${Papa.unparse(data.map((r) => r.map(csvCell)), { newline: '\r\n' })}\r\n`;
+  return `\uFEFF${Papa.unparse(
+    data.map((r) => r.map(csvCell)),
+    { newline: '\r\n' },
+  )}\r\n`;
 }
 
 export async function productionRecordsXlsx(report: ProductionRecords): Promise<Buffer> {
@@ -234,7 +250,12 @@ export async function productionRecordsXlsx(report: ProductionRecords): Promise<
   months.getRow(1).font = { bold: true };
   for (const m of report.months) months.addRow([xlsxDate(m.month), m.batches, m.packagedLiters, m.usBarrels]);
   const monthly = wb.addWorksheet('Monthly report', { views: [{ state: 'frozen', ySplit: 1, xSplit: 1 }] });
-  monthly.columns = monthlyColumns.map((header, i) => ({ header, key: `c${i}`, width: i === 0 ? 10 : Math.max(12, header.length + 2), style: i === 0 ? { numFmt: XLSX_MONTH_FORMAT } : { numFmt: header.includes('bbl') ? '0.0000' : '0.00' } }));
+  monthly.columns = monthlyColumns.map((header, i) => ({
+    header,
+    key: `c${i}`,
+    width: i === 0 ? 10 : Math.max(12, header.length + 2),
+    style: i === 0 ? { numFmt: XLSX_MONTH_FORMAT } : { numFmt: header.includes('bbl') ? '0.0000' : '0.00' },
+  }));
   monthly.getRow(1).font = { bold: true };
   for (const m of report.monthly) monthly.addRow([xlsxDate(m.month), ...monthlyValues(m).slice(1).map(xlsxCell)]);
   monthly.addRow([]);

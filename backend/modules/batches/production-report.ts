@@ -58,7 +58,12 @@ async function cellarLedger(db: Database, until: Date, ownerId?: string): Promis
       'b.packaged_liters',
       'b.discarded_at',
       'b.updated_at',
-      (eb) => eb.selectFrom('reading as r').select((e) => e.fn.min('r.taken_at').as('t')).whereRef('r.batch_id', '=', 'b.id').as('first_reading_at'),
+      (eb) =>
+        eb
+          .selectFrom('reading as r')
+          .select((e) => e.fn.min('r.taken_at').as('t'))
+          .whereRef('r.batch_id', '=', 'b.id')
+          .as('first_reading_at'),
     ])
     .where('b.status', '<>', 'planned')
     .$if(Boolean(ownerId), (qb) => qb.where('b.owner_id', '=', ownerId!))
@@ -160,7 +165,12 @@ export async function monthlyProduction(db: Database, months: { month: string; s
     const packaged = sum('packaged');
     const removals = { checkedOutLiters: sum('checkedOut'), servedLiters: sum('served'), packagedOtherwiseLiters: sum('packagedOtherwise') };
     const removalsTotal = removals.checkedOutLiters + removals.servedLiters + removals.packagedOtherwiseLiters;
-    const losses = { transferLiters: sum('transferLoss'), leftInFermenterLiters: sum('leftInFermenter'), dumpedKegLiters: sum('dumpedKeg'), dumpedBatchLiters: sum('dumpedBatch') };
+    const losses = {
+      transferLiters: sum('transferLoss'),
+      leftInFermenterLiters: sum('leftInFermenter'),
+      dumpedKegLiters: sum('dumpedKeg'),
+      dumpedBatchLiters: sum('dumpedBatch'),
+    };
     const lossesTotal = losses.transferLiters + losses.leftInFermenterLiters + losses.dumpedKegLiters + losses.dumpedBatchLiters;
     const closing = fermenters + kegs;
     return {
@@ -183,7 +193,14 @@ export async function monthlyProduction(db: Database, months: { month: string; s
       },
       closing: { fermentersLiters: round2(fermenters), kegsLiters: round2(kegs), totalLiters: round2(closing) },
       balanceLiters: round2(opening + produced - removalsTotal - lossesTotal - closing),
-      usBarrels: { opening: bbl(opening), produced: bbl(produced), packaged: bbl(packaged), removals: bbl(removalsTotal), losses: bbl(lossesTotal), closing: bbl(closing) },
+      usBarrels: {
+        opening: bbl(opening),
+        produced: bbl(produced),
+        packaged: bbl(packaged),
+        removals: bbl(removalsTotal),
+        losses: bbl(lossesTotal),
+        closing: bbl(closing),
+      },
     };
   });
 }

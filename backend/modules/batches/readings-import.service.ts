@@ -44,7 +44,10 @@ function progressWriter(db: Database, req: ImportRequest): Progress {
       .insertInto('reading_import_progress')
       .values({ id, user_id: req.actor.id, batch_id: req.batch.id, phase, rows_done: rowsDone, rows_total: rowsTotal, message })
       .onConflict((oc) =>
-        oc.column('id').doUpdateSet({ phase, rows_done: rowsDone, rows_total: rowsTotal, message, updated_at: new Date() }).where('reading_import_progress.user_id', '=', req.actor.id),
+        oc
+          .column('id')
+          .doUpdateSet({ phase, rows_done: rowsDone, rows_total: rowsTotal, message, updated_at: new Date() })
+          .where('reading_import_progress.user_id', '=', req.actor.id),
       )
       .execute();
   };
@@ -62,7 +65,11 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
     // What the file is checked against, looked up here; the file itself is read on an import thread.
     const [remembered, existing, first] = await Promise.all([
       db.selectFrom('reading_import_mapping').select(['mapping']).where('user_id', '=', req.actor.id).executeTakeFirst(),
-      db.selectFrom('reading').select(sql<string>`(extract(epoch from taken_at) * 1000)::bigint`.as('ms')).where('batch_id', '=', req.batch.id).execute(),
+      db
+        .selectFrom('reading')
+        .select(sql<string>`(extract(epoch from taken_at) * 1000)::bigint`.as('ms'))
+        .where('batch_id', '=', req.batch.id)
+        .execute(),
       firstReadingOf(db, req.batch.id),
     ]);
     const prepared = await pool.run(
@@ -103,28 +110,31 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
     }
 
     await progress('writing', 0, normalised.length);
-    const imported = await db.transaction().execute(async (trx) => {
-      await sql`select pg_advisory_xact_lock(hashtext(${req.batch.id}))`.execute(trx);
-      const ids = await insertReadings(trx, req.batch.id, normalised, 'import', req.actor.id, (done) => progress('writing', done, normalised.length));
-      if (first && normalised.some((n) => n.time < first.time)) await renormaliseBrix(trx, req.batch.id, req.settings);
-      await startFermentingIfPlanned(trx, req.batch, req.actor.id, req.now);
-      await trx
-        .insertInto('reading_import_mapping')
-        .values({ user_id: req.actor.id, mapping: JSON.stringify(mapping), headers: prepared.headers })
-        .onConflict((oc) => oc.column('user_id').doUpdateSet({ mapping: JSON.stringify(mapping), headers: prepared.headers, updated_at: new Date() }))
-        .execute();
-      await audit(trx, req.actor.id, 'readings:imported', 'Batch', req.batch.id, {
-        file: req.file.originalname,
-        fileType: prepared.fileType,
-        imported: ids.length,
-        skipped,
-        mapping,
+    const imported = await db
+      .transaction()
+      .execute(async (trx) => {
+        await sql`select pg_advisory_xact_lock(hashtext(${req.batch.id}))`.execute(trx);
+        const ids = await insertReadings(trx, req.batch.id, normalised, 'import', req.actor.id, (done) => progress('writing', done, normalised.length));
+        if (first && normalised.some((n) => n.time < first.time)) await renormaliseBrix(trx, req.batch.id, req.settings);
+        await startFermentingIfPlanned(trx, req.batch, req.actor.id, req.now);
+        await trx
+          .insertInto('reading_import_mapping')
+          .values({ user_id: req.actor.id, mapping: JSON.stringify(mapping), headers: prepared.headers })
+          .onConflict((oc) => oc.column('user_id').doUpdateSet({ mapping: JSON.stringify(mapping), headers: prepared.headers, updated_at: new Date() }))
+          .execute();
+        await audit(trx, req.actor.id, 'readings:imported', 'Batch', req.batch.id, {
+          file: req.file.originalname,
+          fileType: prepared.fileType,
+          imported: ids.length,
+          skipped,
+          mapping,
+        });
+        return ids.length;
+      })
+      .catch((err: { code?: string }) => {
+        if (err?.code === '23505') throw conflict('A reading at one of these times was added meanwhile; nothing was imported. Try again.');
+        throw err;
       });
-      return ids.length;
-    }).catch((err: { code?: string }) => {
-      if (err?.code === '23505') throw conflict('A reading at one of these times was added meanwhile; nothing was imported. Try again.');
-      throw err;
-    });
     await progress('done', imported, imported, `${imported} imported`);
     return { imported, skipped };
   } catch (err) {
@@ -135,5 +145,8 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
 
 /** Forget progress rows older than a day. */
 export async function pruneImportProgress(db: Database) {
-  await db.deleteFrom('reading_import_progress').where('updated_at', '<', new Date(Date.now() - 86_400_000)).execute();
+  await db
+    .deleteFrom('reading_import_progress')
+    .where('updated_at', '<', new Date(Date.now() - 86_400_000))
+    .execute();
 }

@@ -17,7 +17,10 @@ const exampleRows = [
 const instructions = [
   ['How to fill in the readings template'],
   [''],
-  ['Taken at', 'Date and time of the reading, e.g. 2026-10-03 14:05 (or a spreadsheet date). Times without an offset are read in the time zone you pick when importing.'],
+  [
+    'Taken at',
+    'Date and time of the reading, e.g. 2026-10-03 14:05 (or a spreadsheet date). Times without an offset are read in the time zone you pick when importing.',
+  ],
   ['Gravity', 'The number you read: specific gravity (1.048), degrees Plato (12.0) or Brix (12.5). A decimal comma (1,048) works too.'],
   ['Unit', 'SG, °P or °Bx for each row. Leave the column out and pick one unit for the whole file when importing.'],
   ['Temperature °C', 'Sample temperature, optional. Hydrometer readings (SG, °P) are corrected to the hydrometer’s calibration temperature.'],
@@ -32,7 +35,10 @@ export function readingsRoutes(_deps: Deps): Router {
 
   router.get('/template.csv', (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('import', 'Reading');
-    const csv = Papa.unparse([templateHeaders, ...exampleRows].map((r) => r.map(csvCell)), { newline: '\r\n' });
+    const csv = Papa.unparse(
+      [templateHeaders, ...exampleRows].map((r) => r.map(csvCell)),
+      { newline: '\r\n' },
+    );
     res.type('text/csv; charset=utf-8').attachment('readings-template.csv').send(`\uFEFF${csv}\r\n`);
   });
 

@@ -15,7 +15,11 @@ const viewerOf = (req: Request): TraceViewer => ({
   mayNameHolder: (memberId) => memberId === req.user!.id || req.ability.can('readOwner', subject('Keg', { memberId })),
 });
 
-const safeName = (s: string) => s.replace(/[^A-Za-z0-9-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60) || 'batch';
+const safeName = (s: string) =>
+  s
+    .replace(/[^A-Za-z0-9-]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .slice(0, 60) || 'batch';
 
 /**
  * `GET /api/batches/:id/trace` (and `.csv`, `.pdf`): every keg the batch went into and where each
@@ -33,7 +37,10 @@ export function addBatchTraceRoutes(router: Router, { db, clock }: Pick<Deps, 'd
   });
   router.get('/:id/trace.csv', async (req, res) => {
     const trace = await load(req);
-    res.type('text/csv; charset=utf-8').attachment(`trace-${safeName(trace.batch.name)}.csv`).send(traceCsv([trace]));
+    res
+      .type('text/csv; charset=utf-8')
+      .attachment(`trace-${safeName(trace.batch.name)}.csv`)
+      .send(traceCsv([trace]));
   });
   router.get('/:id/trace.pdf', async (req, res) => {
     const trace = await load(req);
@@ -41,7 +48,11 @@ export function addBatchTraceRoutes(router: Router, { db, clock }: Pick<Deps, 'd
     const { timeZone } = await getBookingRules(db);
     const asOf = formatDate(now, { locale: defaultLocale, timeZone });
     const pdf = await tracePdf(`Trace: ${trace.batch.name}`, `Every keg the batch went into and where each is now, as of ${asOf}.`, [trace], now, timeZone);
-    res.type('application/pdf').set('Content-Disposition', `inline; filename="trace-${safeName(trace.batch.name)}.pdf"`).set('Cache-Control', 'no-store').send(pdf);
+    res
+      .type('application/pdf')
+      .set('Content-Disposition', `inline; filename="trace-${safeName(trace.batch.name)}.pdf"`)
+      .set('Cache-Control', 'no-store')
+      .send(pdf);
   });
 }
 

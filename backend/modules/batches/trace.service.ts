@@ -170,7 +170,18 @@ function batchRows(db: Database) {
   return db
     .selectFrom('batch as b')
     .innerJoin('app_user as o', 'o.id', 'b.owner_id')
-    .select(['b.id', 'b.name', 'b.style', 'b.status', 'b.owner_id', 'o.name as owner_name', 'b.packaged_at', 'b.packaged_liters', 'b.shelf_life_days', 'b.allergens']);
+    .select([
+      'b.id',
+      'b.name',
+      'b.style',
+      'b.status',
+      'b.owner_id',
+      'o.name as owner_name',
+      'b.packaged_at',
+      'b.packaged_liters',
+      'b.shelf_life_days',
+      'b.allergens',
+    ]);
 }
 
 /** Every transfer's finings of these batches, oldest first. */
@@ -206,10 +217,21 @@ export async function batchTrace(db: Database, batchId: string, viewer: TraceVie
 const dayStart = (d: string) => new Date(`${d}T00:00:00Z`);
 
 /** Every fill made in [from, to] (whole UTC days), by batch; `ownerId` limits it to one member's batches. */
-export async function traceReport(db: Database, q: { from: string; to: string; ownerId?: string | undefined }, viewer: TraceViewer, now: Date): Promise<TraceReport> {
+export async function traceReport(
+  db: Database,
+  q: { from: string; to: string; ownerId?: string | undefined },
+  viewer: TraceViewer,
+  now: Date,
+): Promise<TraceReport> {
   const from = dayStart(q.from);
   const to = new Date(dayStart(q.to).getTime() + 86_400_000);
-  let ids = db.selectFrom('keg_fill as kf').innerJoin('batch as b', 'b.id', 'kf.batch_id').select('kf.batch_id').distinct().where('kf.filled_at', '>=', from).where('kf.filled_at', '<', to);
+  let ids = db
+    .selectFrom('keg_fill as kf')
+    .innerJoin('batch as b', 'b.id', 'kf.batch_id')
+    .select('kf.batch_id')
+    .distinct()
+    .where('kf.filled_at', '>=', from)
+    .where('kf.filled_at', '<', to);
   if (q.ownerId) ids = ids.where('b.owner_id', '=', q.ownerId);
   const batchIds = (await ids.execute()).map((r) => r.batch_id);
   const settings = await loadShelfLifeSettings(db);
@@ -280,7 +302,10 @@ function csvRows(t: BatchTrace): ExportCell[][] {
 /** The trace as CSV, one row per keg fill; text as typed is neutralised (backend/lib/export-cells.ts). */
 export function traceCsv(traces: BatchTrace[]): string {
   const data: ExportCell[][] = [[...csvColumns], ...traces.flatMap(csvRows)];
-  return `\uFEFF${Papa.unparse(data.map((r) => r.map(csvCell)), { newline: '\r\n' })}\r\n`;
+  return `\uFEFF${Papa.unparse(
+    data.map((r) => r.map(csvCell)),
+    { newline: '\r\n' },
+  )}\r\n`;
 }
 
 const ink = '#1f2328';
@@ -289,7 +314,11 @@ const danger = '#9a2a1c';
 
 function batchBlock(t: BatchTrace, ctx: FormatContext): Content[] {
   const day = (v: string | null | undefined) => (v ? formatDate(v, ctx) : '');
-  const header = ['Keg', 'Filled', 'L', 'Left', 'Best before', 'Now', 'Holder / tap', 'Taken out by', 'Served on'].map((text) => ({ text, color: muted, fontSize: 7 }));
+  const header = ['Keg', 'Filled', 'L', 'Left', 'Best before', 'Now', 'Holder / tap', 'Taken out by', 'Served on'].map((text) => ({
+    text,
+    color: muted,
+    fontSize: 7,
+  }));
   const body = t.fills.map((f) => [
     f.code,
     day(f.filledAt),
@@ -321,7 +350,10 @@ function batchBlock(t: BatchTrace, ctx: FormatContext): Content[] {
       margin: [0, 2, 0, 4],
     },
     t.fills.length
-      ? { table: { headerRows: 1, widths: ['auto', 'auto', 'auto', 'auto', 'auto', 'auto', '*', '*', 'auto'], body: [header, ...body] }, layout: 'lightHorizontalLines' }
+      ? {
+          table: { headerRows: 1, widths: ['auto', 'auto', 'auto', 'auto', 'auto', 'auto', '*', '*', 'auto'], body: [header, ...body] },
+          layout: 'lightHorizontalLines',
+        }
       : { text: 'No kegs filled.', color: muted },
   ];
 }

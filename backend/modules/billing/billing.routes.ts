@@ -30,18 +30,17 @@ import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
 import { sendInvoice } from './invoice-mail.service.ts';
 import { invoicePdfFilename, renderCreditNotePdf, renderInvoicePdf } from './invoice-pdf.ts';
 import { issueRunDrafts, listRuns, previewRun, runPeriod } from './invoice-runs.service.ts';
-import {
-  findInvoiceRow,
-  getDetail,
-  issueInvoice,
-  listInvoices,
-  memberBalance,
-  recordManualPayment,
-  refundInvoice,
-  voidInvoice,
-} from './invoices.service.ts';
+import { findInvoiceRow, getDetail, issueInvoice, listInvoices, memberBalance, recordManualPayment, refundInvoice, voidInvoice } from './invoices.service.ts';
 import { verifyWebhook } from './payment-provider.ts';
-import { closeStaleCheckouts, confirmCheckout, createCheckout, handleProviderEvent, listOverpayments, markOverpaymentRefunded, pageOverpayments } from './payments.service.ts';
+import {
+  closeStaleCheckouts,
+  confirmCheckout,
+  createCheckout,
+  handleProviderEvent,
+  listOverpayments,
+  markOverpaymentRefunded,
+  pageOverpayments,
+} from './payments.service.ts';
 import { listQuerySchema } from '../../../shared/schemas/pagination.ts';
 import { addManualCharge, addPrice, addTaxRate, listManualCharges, listPrices, removeManualCharge, removePrice, removeTaxRate } from './prices.service.ts';
 import { queueReceipt } from './receipts.service.ts';
@@ -145,10 +144,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const name = `cellarwright-ledger-${q.period}`;
     if (q.format === 'xlsx') {
       const body = await ledgerXlsx(sheets, `Ledger ${periodLabel(q.period)}`);
-      res
-        .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')
-        .attachment(`${name}.xlsx`)
-        .send(body);
+      res.type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet').attachment(`${name}.xlsx`).send(body);
       return;
     }
     res.type('text/csv; charset=utf-8').attachment(`${name}.csv`).send(ledgerCsv(sheets));
@@ -440,7 +436,11 @@ export function creditNotesRoutes({ db, clock }: Deps): Router {
       profile: await getBillingProfile(db),
       refund: payback ? { amountCents: -payback.amountCents, method: payback.method === 'cash' ? 'cash' : 'bank_transfer', on: payback.receivedOn } : null,
     });
-    res.type('application/pdf').set('Content-Disposition', `inline; filename="credit-note-${row.number}.pdf"`).set('Cache-Control', 'private, no-store').send(pdf);
+    res
+      .type('application/pdf')
+      .set('Content-Disposition', `inline; filename="credit-note-${row.number}.pdf"`)
+      .set('Cache-Control', 'private, no-store')
+      .send(pdf);
   });
   return router;
 }

@@ -55,7 +55,18 @@ export async function periodLedger(db: Database, period: string): Promise<Sheet[
     .selectFrom('credit_note as c')
     .innerJoin('invoice as i', 'i.id', 'c.invoice_id')
     .innerJoin('app_user as u', 'u.id', 'c.member_id')
-    .select(['c.number', 'c.issued_on', 'c.kind', 'c.reason', 'c.currency', 'c.subtotal_cents', 'c.tax_cents', 'c.total_cents', 'i.number as invoice_number', 'u.name as member'])
+    .select([
+      'c.number',
+      'c.issued_on',
+      'c.kind',
+      'c.reason',
+      'c.currency',
+      'c.subtotal_cents',
+      'c.tax_cents',
+      'c.total_cents',
+      'i.number as invoice_number',
+      'u.name as member',
+    ])
     .where('i.period', '=', period)
     .orderBy('c.number_year')
     .orderBy('c.number_seq')

@@ -89,7 +89,11 @@ function totals(inv: InvoiceDetail): Content {
       {
         width: 260,
         table: { widths: ['*', 'auto'], body },
-        layout: { hLineWidth: (i: number, node: { table: { body: unknown[] } }) => (i === node.table.body.length - 1 || i === 1 ? 0.3 : 0), vLineWidth: () => 0, hLineColor: () => rule },
+        layout: {
+          hLineWidth: (i: number, node: { table: { body: unknown[] } }) => (i === node.table.body.length - 1 || i === 1 ? 0.3 : 0),
+          vLineWidth: () => 0,
+          hLineColor: () => rule,
+        },
       },
     ],
     margin: [0, 10, 0, 0],
@@ -100,12 +104,10 @@ function creditNotesBlock(notes: CreditNote[]): Content[] {
   if (notes.length === 0) return [];
   return [
     { text: 'Credit notes on this invoice', fontSize: 10, color: copper, margin: [0, 16, 0, 4] },
-    ...notes.map(
-      (n): Content => ({
-        text: `${n.number} of ${longDate(n.issuedOn)} (${n.kind === 'void' ? 'replaces the voided invoice' : 'refund or credit'}): ${money(n.totalCents, n.currency)} — ${n.reason}`,
-        fontSize: 9,
-      }),
-    ),
+    ...notes.map((n): Content => ({
+      text: `${n.number} of ${longDate(n.issuedOn)} (${n.kind === 'void' ? 'replaces the voided invoice' : 'refund or credit'}): ${money(n.totalCents, n.currency)} — ${n.reason}`,
+      fontSize: 9,
+    })),
   ];
 }
 
@@ -180,7 +182,12 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
           },
           {
             width: 'auto',
-            table: { body: meta.map(([k, v]): TableCell[] => [{ text: k, color: muted, fontSize: 9, noWrap: true }, { text: v, fontSize: 9, alignment: 'right', noWrap: true }]) },
+            table: {
+              body: meta.map(([k, v]): TableCell[] => [
+                { text: k, color: muted, fontSize: 9, noWrap: true },
+                { text: v, fontSize: 9, alignment: 'right', noWrap: true },
+              ]),
+            },
             layout: 'noBorders',
           },
         ],
@@ -269,7 +276,12 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
             width: 'auto',
             stack: [
               { text: 'Credit note', fontSize: 22, alignment: 'right' },
-              { text: note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : refund ? 'Credit and refund' : 'Credit', fontSize: 9, alignment: 'right', color: copper },
+              {
+                text: note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : refund ? 'Credit and refund' : 'Credit',
+                fontSize: 9,
+                alignment: 'right',
+                color: copper,
+              },
             ],
           },
         ],
@@ -286,7 +298,12 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
           },
           {
             width: 'auto',
-            table: { body: meta.map(([k, v]): TableCell[] => [{ text: k, color: muted, fontSize: 9, noWrap: true }, { text: v, fontSize: 9, alignment: 'right', noWrap: true }]) },
+            table: {
+              body: meta.map(([k, v]): TableCell[] => [
+                { text: k, color: muted, fontSize: 9, noWrap: true },
+                { text: v, fontSize: 9, alignment: 'right', noWrap: true },
+              ]),
+            },
             layout: 'noBorders',
           },
         ],
@@ -306,9 +323,18 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
             table: {
               widths: ['*', 'auto'],
               body: [
-                [{ text: 'Credited before tax', color: muted, fontSize: 9 }, { text: money(note.subtotalCents, c), alignment: 'right', fontSize: 9 }],
-                [{ text: 'Tax credited', color: muted, fontSize: 9 }, { text: money(note.taxCents, c), alignment: 'right', fontSize: 9 }],
-                [{ text: 'Total credited', fontSize: 11 }, { text: money(note.totalCents, c), alignment: 'right', fontSize: 11 }],
+                [
+                  { text: 'Credited before tax', color: muted, fontSize: 9 },
+                  { text: money(note.subtotalCents, c), alignment: 'right', fontSize: 9 },
+                ],
+                [
+                  { text: 'Tax credited', color: muted, fontSize: 9 },
+                  { text: money(note.taxCents, c), alignment: 'right', fontSize: 9 },
+                ],
+                [
+                  { text: 'Total credited', fontSize: 11 },
+                  { text: money(note.totalCents, c), alignment: 'right', fontSize: 11 },
+                ],
               ],
             },
             layout: { hLineWidth: (i: number) => (i === 2 ? 0.3 : 0), vLineWidth: () => 0, hLineColor: () => rule },

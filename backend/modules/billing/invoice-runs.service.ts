@@ -173,13 +173,7 @@ export async function listRuns(db: Database, limit = 24, { madeInvoices = false 
 export async function issueRunDrafts(db: Database, runId: string, actorId: string, now: Date): Promise<string[]> {
   return db.transaction().execute(async (trx) => {
     const { today } = await coopToday(trx, now);
-    const drafts = await trx
-      .selectFrom('invoice')
-      .select('id')
-      .where('run_id', '=', runId)
-      .where('status', '=', 'draft')
-      .orderBy('member_id')
-      .execute();
+    const drafts = await trx.selectFrom('invoice').select('id').where('run_id', '=', runId).where('status', '=', 'draft').orderBy('member_id').execute();
     for (const d of drafts) await issueInvoice(trx, d.id, today, actorId);
     await audit(trx, actorId, 'issued_drafts', 'InvoiceRun', runId, { count: drafts.length });
     return drafts.map((d) => d.id);

@@ -113,7 +113,10 @@ export async function listInvoices(db: Database, q: InvoiceListQuery, scope: Inv
   }
   const dir = q.order === 'desc' ? sql`desc nulls last` : sql`asc nulls last`;
   const [{ total }, rows] = await Promise.all([
-    base.clearSelect().select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .clearSelect()
+      .select((eb) => eb.fn.countAll<number>().as('total'))
+      .executeTakeFirstOrThrow(),
     base
       .orderBy(sql`${sortColumns[q.sort]} ${dir}`)
       .orderBy('invoice.id')
@@ -560,7 +563,12 @@ export async function refundInvoice(trx: Database, invoiceId: string, input: Req
   const creditNoteId = await issueCreditNote(
     trx,
     inv,
-    { kind: 'refund', reason: input.reason, today, lines: [{ invoiceLineId: null, description: `Credit: ${input.reason}`, amountCents: netCents, taxRateBp: rateBp, taxCents }] },
+    {
+      kind: 'refund',
+      reason: input.reason,
+      today,
+      lines: [{ invoiceLineId: null, description: `Credit: ${input.reason}`, amountCents: netCents, taxRateBp: rateBp, taxCents }],
+    },
     actorId,
   );
   if (input.refundMethod) {

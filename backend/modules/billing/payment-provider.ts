@@ -9,7 +9,9 @@ import type { Config } from '../../config/env.ts';
  */
 export function providerEndpoint(config: Config): { host: string; port: number; protocol: 'http' | 'https' } | null {
   if (config.STRIPE_API_HOST) {
-    const raw = config.STRIPE_API_HOST.includes('://') ? config.STRIPE_API_HOST : `${/^(127\.|localhost)/.test(config.STRIPE_API_HOST) ? 'http' : 'https'}://${config.STRIPE_API_HOST}`;
+    const raw = config.STRIPE_API_HOST.includes('://')
+      ? config.STRIPE_API_HOST
+      : `${/^(127\.|localhost)/.test(config.STRIPE_API_HOST) ? 'http' : 'https'}://${config.STRIPE_API_HOST}`;
     const u = new URL(raw);
     const protocol = u.protocol === 'http:' ? 'http' : 'https';
     return { host: u.hostname, port: u.port ? Number(u.port) : protocol === 'http' ? 80 : 443, protocol };

@@ -111,7 +111,11 @@ export async function createCheckout(
     if (opened) return { url: session.url, sessionId: session.id, reused: false };
     // Another checkout or a payment won the race: keep a record of this session (so money paid on it
     // is still booked), close it at the provider, and look again.
-    await db.insertInto('checkout_session').values({ ...row, status: 'expired' }).onConflict((oc) => oc.column('id').doNothing()).execute();
+    await db
+      .insertInto('checkout_session')
+      .values({ ...row, status: 'expired' })
+      .onConflict((oc) => oc.column('id').doNothing())
+      .execute();
     try {
       await provider.checkout.sessions.expire(session.id);
     } catch {
@@ -126,11 +130,22 @@ export async function createCheckout(
  * expired at the provider, so the member cannot pay it as well. Best effort: when the provider cannot
  * be reached the session stays open (a new checkout then refuses), and money paid on it is booked.
  */
-export async function closeStaleCheckouts(db: Database, config: Config, invoiceId: string, now: Date, queue: PgBoss): Promise<{ closed: number; failed: number }> {
+export async function closeStaleCheckouts(
+  db: Database,
+  config: Config,
+  invoiceId: string,
+  now: Date,
+  queue: PgBoss,
+): Promise<{ closed: number; failed: number }> {
   const inv = await db.selectFrom('invoice').select(['status', 'total_cents', 'paid_cents', 'credited_cents']).where('id', '=', invoiceId).executeTakeFirst();
   if (!inv) return { closed: 0, failed: 0 };
   const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
-  const open = await db.selectFrom('checkout_session').select(['id', 'amount_cents', 'currency', 'url']).where('invoice_id', '=', invoiceId).where('status', '=', 'open').execute();
+  const open = await db
+    .selectFrom('checkout_session')
+    .select(['id', 'amount_cents', 'currency', 'url'])
+    .where('invoice_id', '=', invoiceId)
+    .where('status', '=', 'open')
+    .execute();
   let closed = 0;
   let failed = 0;
   for (const s of open) {
@@ -192,7 +207,12 @@ async function settleClosedSession(db: Database, remote: CheckoutSession, now: D
  * invoice never owes less than nothing. The member's receipt is queued in the same transaction, so it
  * is sent once with the payment. Call inside a transaction.
  */
-export async function applyPaidSession(trx: Database, session: CheckoutSession, now: Date, queue: PgBoss): Promise<{ outcome: string; invoiceId: string | null }> {
+export async function applyPaidSession(
+  trx: Database,
+  session: CheckoutSession,
+  now: Date,
+  queue: PgBoss,
+): Promise<{ outcome: string; invoiceId: string | null }> {
   let known = await trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
   if (!known && session.payment_status === 'paid') known = await adoptSession(trx, session);
   if (!known) return { outcome: 'unknown_session', invoiceId: null };
@@ -217,7 +237,12 @@ export async function applyPaidSession(trx: Database, session: CheckoutSession, 
       method: 'online',
       receivedOn: today,
       reference: typeof session.payment_intent === 'string' ? session.payment_intent : session.id,
-      note: overpaid > 0 ? (overpaid === amount ? 'Paid online when nothing was due: to refund' : 'Paid online, more than was due: the excess is to refund') : 'Paid online',
+      note:
+        overpaid > 0
+          ? overpaid === amount
+            ? 'Paid online when nothing was due: to refund'
+            : 'Paid online, more than was due: the excess is to refund'
+          : 'Paid online',
       checkoutSessionId: session.id,
     },
     null,
@@ -242,7 +267,15 @@ async function adoptSession(trx: Database, session: CheckoutSession) {
   if (!inv || (session.currency ?? '').toUpperCase() !== inv.currency.trim().toUpperCase() || !session.amount_total) return undefined;
   await trx
     .insertInto('checkout_session')
-    .values({ id: session.id, invoice_id: inv.id, amount_cents: session.amount_total, currency: inv.currency, url: session.url ?? '', status: 'complete', created_by: null })
+    .values({
+      id: session.id,
+      invoice_id: inv.id,
+      amount_cents: session.amount_total,
+      currency: inv.currency,
+      url: session.url ?? '',
+      status: 'complete',
+      created_by: null,
+    })
     .onConflict((oc) => oc.column('id').doNothing())
     .execute();
   return trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
@@ -291,7 +324,13 @@ export async function handleProviderEvent(db: Database, event: ProviderEvent, no
       result = await applyPaidSession(trx, event.data.object, now, queue);
     } else if (event.type === 'checkout.session.expired') {
       const s = event.data.object;
-      const updated = await trx.updateTable('checkout_session').set({ status: 'expired' }).where('id', '=', s.id).where('status', '=', 'open').returning('invoice_id').executeTakeFirst();
+      const updated = await trx
+        .updateTable('checkout_session')
+        .set({ status: 'expired' })
+        .where('id', '=', s.id)
+        .where('status', '=', 'open')
+        .returning('invoice_id')
+        .executeTakeFirst();
       if (updated) result = { outcome: 'expired', invoiceId: updated.invoice_id };
       else {
         // Already closed here (paid, or expired by us): an expiry arriving late changes nothing.
@@ -332,7 +371,9 @@ export async function pageOverpayments(
   db: Database,
   q: { open?: boolean; memberId?: string; page: number; pageSize: number },
 ): Promise<{ items: Overpayment[]; total: number; page: number; pageSize: number }> {
-  const { total } = await overpaymentsQuery(db, q).select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow();
+  const { total } = await overpaymentsQuery(db, q)
+    .select((eb) => eb.fn.countAll<number>().as('total'))
+    .executeTakeFirstOrThrow();
   const items = await listOverpayments(db, q, { limit: q.pageSize, offset: (q.page - 1) * q.pageSize });
   return { items, total: Number(total), page: q.page, pageSize: q.pageSize };
 }
@@ -389,7 +430,12 @@ export async function markOverpaymentRefunded(
   input: { refundedOn: string; reference: string },
   actorId: string,
 ): Promise<void> {
-  const row = await trx.selectFrom('payment').select(['id', 'invoice_id', 'overpaid_cents', 'overpayment_refunded_on']).where('id', '=', paymentId).forUpdate().executeTakeFirst();
+  const row = await trx
+    .selectFrom('payment')
+    .select(['id', 'invoice_id', 'overpaid_cents', 'overpayment_refunded_on'])
+    .where('id', '=', paymentId)
+    .forUpdate()
+    .executeTakeFirst();
   if (!row || row.overpaid_cents <= 0) throw notFound('Overpayment');
   if (row.overpayment_refunded_on) throw conflict(`This overpayment was already refunded on ${row.overpayment_refunded_on}.`);
   await trx
@@ -397,5 +443,10 @@ export async function markOverpaymentRefunded(
     .set({ overpayment_refunded_on: input.refundedOn, overpayment_refund_reference: input.reference, overpayment_refunded_by: actorId })
     .where('id', '=', paymentId)
     .execute();
-  await audit(trx, actorId, 'overpayment_refunded', 'Invoice', row.invoice_id, { paymentId, overpaidCents: row.overpaid_cents, refundedOn: input.refundedOn, reference: input.reference });
+  await audit(trx, actorId, 'overpayment_refunded', 'Invoice', row.invoice_id, {
+    paymentId,
+    overpaidCents: row.overpaid_cents,
+    refundedOn: input.refundedOn,
+    reference: input.reference,
+  });
 }

@@ -11,7 +11,6 @@ import { appendToDraft } from './invoices.service.ts';
 import { PriceBook } from './price-book.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
 
-
 /** The whole price list, history included; `current` marks each item's (and band's) price in effect today. */
 export async function listPrices(db: Database, now: Date): Promise<{ prices: Price[]; taxRates: TaxRate[]; today: string }> {
   const { today } = await coopToday(db, now);
@@ -128,7 +127,18 @@ function manualQuery(db: Database) {
     .selectFrom('manual_charge as m')
     .innerJoin('app_user as u', 'u.id', 'm.member_id')
     .leftJoin('invoice_line as l', 'l.id', 'm.invoice_line_id')
-    .select(['m.id', 'm.member_id', 'u.name as member_name', 'm.period', 'm.description', 'm.reason', 'm.amount_cents', 'm.taxable', 'l.invoice_id', 'm.created_at']);
+    .select([
+      'm.id',
+      'm.member_id',
+      'u.name as member_name',
+      'm.period',
+      'm.description',
+      'm.reason',
+      'm.amount_cents',
+      'm.taxable',
+      'l.invoice_id',
+      'm.created_at',
+    ]);
 }
 
 function toManual(r: Awaited<ReturnType<ReturnType<typeof manualQuery>['executeTakeFirstOrThrow']>>): ManualCharge {

@@ -54,14 +54,25 @@ export async function ageingReport(db: Database, now: Date, asOf?: string): Prom
 }
 
 export async function billingSummary(db: Database, now: Date): Promise<BillingSummary> {
-  const [{ today }, profile, ageing, runs] = await Promise.all([coopToday(db, now), getBillingProfile(db), ageingReport(db, now), listRuns(db, 1, { madeInvoices: true })]);
+  const [{ today }, profile, ageing, runs] = await Promise.all([
+    coopToday(db, now),
+    getBillingProfile(db),
+    ageingReport(db, now),
+    listRuns(db, 1, { madeInvoices: true }),
+  ]);
   const row = await db
     .selectFrom('invoice')
     .select([
       sql<number>`count(*) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0)::int`.as('unpaid_count'),
-      sql<number>`coalesce(sum(total_cents - paid_cents - credited_cents) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0), 0)::int`.as('unpaid_total'),
-      sql<number>`count(*) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0 and due_on < ${today}::date)::int`.as('overdue_count'),
-      sql<number>`coalesce(sum(total_cents - paid_cents - credited_cents) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0 and due_on < ${today}::date), 0)::int`.as('overdue_total'),
+      sql<number>`coalesce(sum(total_cents - paid_cents - credited_cents) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0), 0)::int`.as(
+        'unpaid_total',
+      ),
+      sql<number>`count(*) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0 and due_on < ${today}::date)::int`.as(
+        'overdue_count',
+      ),
+      sql<number>`coalesce(sum(total_cents - paid_cents - credited_cents) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0 and due_on < ${today}::date), 0)::int`.as(
+        'overdue_total',
+      ),
       sql<number>`count(*) filter (where status = 'draft')::int`.as('drafts'),
     ])
     .executeTakeFirstOrThrow();

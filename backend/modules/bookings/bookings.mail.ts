@@ -45,7 +45,14 @@ function attachment(ics: string, cancelled: boolean) {
   };
 }
 
-export function confirmationMail(booking: Booking, owner: { name: string; email: string }, timeZone: string, config: Config, now: Date, bookedBy?: string): OutgoingMail {
+export function confirmationMail(
+  booking: Booking,
+  owner: { name: string; email: string },
+  timeZone: string,
+  config: Config,
+  now: Date,
+  bookedBy?: string,
+): OutgoingMail {
   const { code, name, kind } = booking.equipment;
   const lines = [
     `Hello ${owner.name},`,
@@ -60,7 +67,7 @@ export function confirmationMail(booking: Booking, owner: { name: string; email:
     '',
     ...(kind === 'keg' || kind === 'co2_cylinder' || kind === 'tap'
       ? [
-          'Safety: never exceed a keg\'s or regulator\'s rated pressure, keep pressure-relief valves working and chain cylinders upright.',
+          "Safety: never exceed a keg's or regulator's rated pressure, keep pressure-relief valves working and chain cylinders upright.",
           'CO2 displaces air in the closed cold room: keep it ventilated and mind the CO2 alarm. Local codes and licensed practice come first.',
           '',
         ]
@@ -75,7 +82,14 @@ export function confirmationMail(booking: Booking, owner: { name: string; email:
   };
 }
 
-export function cancellationMail(booking: Booking, owner: { name: string; email: string }, timeZone: string, config: Config, now: Date, cancelledBy: string): OutgoingMail {
+export function cancellationMail(
+  booking: Booking,
+  owner: { name: string; email: string },
+  timeZone: string,
+  config: Config,
+  now: Date,
+  cancelledBy: string,
+): OutgoingMail {
   const { code, name } = booking.equipment;
   const lines = [
     `Hello ${owner.name},`,

@@ -102,7 +102,10 @@ export async function listBookings(db: Database, q: BookingListQuery, viewer: Vi
   else if (!q.includeCancelled) base = base.where('b.state', '<>', 'cancelled');
 
   const [{ total }, rows] = await Promise.all([
-    base.clearSelect().select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    base
+      .clearSelect()
+      .select((eb) => eb.fn.countAll<number>().as('total'))
+      .executeTakeFirstOrThrow(),
     base
       .orderBy(sortColumns[q.sort], q.order)
       .orderBy('e.code')
@@ -151,13 +154,24 @@ export function checkRules(
   now: Date,
 ): void {
   if (input.startsAt.getTime() < now.getTime() - START_GRACE_MS) {
-    throw new HttpProblem(422, 'Booking in the past', 'A booking cannot start in the past.', [{ path: 'startsAt', message: 'A booking cannot start in the past.' }], 'about:blank', {
-      rule: 'notInPast',
-    });
+    throw new HttpProblem(
+      422,
+      'Booking in the past',
+      'A booking cannot start in the past.',
+      [{ path: 'startsAt', message: 'A booking cannot start in the past.' }],
+      'about:blank',
+      {
+        rule: 'notInPast',
+      },
+    );
   }
   const latestStart = now.getTime() + rules.maxAdvanceDays * DAY;
   if (input.startsAt.getTime() > latestStart) {
-    throw ruleBroken('maxAdvanceDays', `Bookings may start at most ${plural(rules.maxAdvanceDays, 'day')} ahead (co-op rule "${bookingRuleLabels.maxAdvanceDays}").`, 'startsAt');
+    throw ruleBroken(
+      'maxAdvanceDays',
+      `Bookings may start at most ${plural(rules.maxAdvanceDays, 'day')} ahead (co-op rule "${bookingRuleLabels.maxAdvanceDays}").`,
+      'startsAt',
+    );
   }
   const maxDays = rules.maxDays[input.kind];
   const lengthMs = input.endsAt.getTime() - input.startsAt.getTime();
@@ -267,7 +281,9 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
         .forUpdate()
         .executeTakeFirst();
       if (!owner || !owner.is_active) {
-        throw new HttpProblem(422, 'Validation failed', 'That member has no active account.', [{ path: 'ownerId', message: 'That member has no active account.' }]);
+        throw new HttpProblem(422, 'Validation failed', 'That member has no active account.', [
+          { path: 'ownerId', message: 'That member has no active account.' },
+        ]);
       }
       if (item.state === 'out_of_service') {
         throw conflict(`${item.code} is out of service and cannot be booked.`, { title: 'Out of service', clash: { equipmentId: item.id, code: item.code } });
@@ -357,11 +373,7 @@ export async function cancelBooking(db: Database, id: string, actor: Viewer & { 
     if (row.state === 'in_use' && !canAll(actor.ability, 'cancel', 'Booking')) {
       throw conflict('This booking is in use; ask the brewer on duty or the admin to end it.');
     }
-    await trx
-      .updateTable('booking')
-      .set({ state: 'cancelled', cancelled_at: now, cancelled_by: actor.id, updated_at: now })
-      .where('id', '=', id)
-      .execute();
+    await trx.updateTable('booking').set({ state: 'cancelled', cancelled_at: now, cancelled_by: actor.id, updated_at: now }).where('id', '=', id).execute();
     await audit(trx, actor.id, 'cancelled', 'Booking', id, { previousState: row.state });
     const after = await findBooking(trx, id);
     const rules = await getBookingRules(trx);

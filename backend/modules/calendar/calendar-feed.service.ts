@@ -38,7 +38,13 @@ export interface CalendarFeedView {
 /** The person's live feeds of the kinds asked for (a kind without a link yet has `url: null`). */
 export async function listFeeds(db: Database, config: Config, ownerId: string, kinds: CalendarFeedKind[]): Promise<CalendarFeedView[]> {
   if (kinds.length === 0) return [];
-  const rows = await db.selectFrom('calendar_feed').select(['id', 'kind', 'created_at']).where('owner_id', '=', ownerId).where('revoked_at', 'is', null).where('kind', 'in', kinds).execute();
+  const rows = await db
+    .selectFrom('calendar_feed')
+    .select(['id', 'kind', 'created_at'])
+    .where('owner_id', '=', ownerId)
+    .where('revoked_at', 'is', null)
+    .where('kind', 'in', kinds)
+    .execute();
   return kinds.map((kind) => {
     const row = rows.find((r) => r.kind === kind);
     return { kind, url: row ? feedUrl(config, feedToken(config, row.id)) : null, createdAt: row ? row.created_at.toISOString() : null };
@@ -60,7 +66,11 @@ export async function renewFeed(db: Database, config: Config, ownerId: string, k
       .execute();
     const id = randomUUID();
     const token = feedToken(config, id);
-    const row = await trx.insertInto('calendar_feed').values({ id, owner_id: ownerId, kind, token_hash: hashToken(token) }).returning('created_at').executeTakeFirstOrThrow();
+    const row = await trx
+      .insertInto('calendar_feed')
+      .values({ id, owner_id: ownerId, kind, token_hash: hashToken(token) })
+      .returning('created_at')
+      .executeTakeFirstOrThrow();
     await audit(trx, ownerId, revoked.length ? 'calendar_feed_renewed' : 'calendar_feed_created', 'CalendarFeed', id, { kind });
     return { kind, url: feedUrl(config, token), createdAt: row.created_at.toISOString() };
   });

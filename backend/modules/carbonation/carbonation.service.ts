@@ -129,7 +129,10 @@ function checkRating(p: ReturnType<typeof computePlan>, ratedKpa: number | null)
   const psi = (kpa: number) => Math.round(kpa / 6.894757293);
   const over = asked[0]!;
   const message = `This plan needs ${Math.round(over.kpa)} kPa (${psi(over.kpa)} psi), above the keg's rated working pressure of ${Math.round(ratedKpa)} kPa (${psi(ratedKpa)} psi). Never exceed a keg's rating: choose a lower pressure or another keg.`;
-  throw unprocessable(message, asked.map((a) => ({ path: a.path, message: `Above the keg's rating of ${Math.round(ratedKpa)} kPa` })));
+  throw unprocessable(
+    message,
+    asked.map((a) => ({ path: a.path, message: `Above the keg's rating of ${Math.round(ratedKpa)} kPa` })),
+  );
 }
 
 export async function previewPlan(db: Database, input: PlanFields, now: Date) {
@@ -153,7 +156,13 @@ export async function previewPlan(db: Database, input: PlanFields, now: Date) {
   };
 }
 
-export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbonationPlanInput, actor: { id: string }, now: Date): Promise<CarbonationPlanView> {
+export async function createPlan(
+  db: Database,
+  queue: PgBoss,
+  input: CreateCarbonationPlanInput,
+  actor: { id: string },
+  now: Date,
+): Promise<CarbonationPlanView> {
   const settings = await carbonationSettings(db);
   const line = await resolveLine(db, input);
   const p = computePlan(input, settings, line, now);
@@ -195,7 +204,8 @@ export async function createPlan(db: Database, queue: PgBoss, input: CreateCarbo
         line_inside_diameter_mm: p.lineCheck?.insideDiameterMm ?? null,
         line_rise_m: p.lineCheck?.riseM ?? null,
         line_material: p.lineCheck?.material ?? null,
-        line_resistance_kpa_per_m: p.lineCheck?.resistanceKpaPerM !== null && p.lineCheck?.resistanceKpaPerM !== undefined ? round(p.lineCheck.resistanceKpaPerM) : null,
+        line_resistance_kpa_per_m:
+          p.lineCheck?.resistanceKpaPerM !== null && p.lineCheck?.resistanceKpaPerM !== undefined ? round(p.lineCheck.resistanceKpaPerM) : null,
         line_balanced_length_m: p.lineCheck?.balancedLengthM !== null && p.lineCheck?.balancedLengthM !== undefined ? round(p.lineCheck.balancedLengthM) : null,
         notes: input.notes ?? '',
         created_by: actor.id,
@@ -321,7 +331,15 @@ const planSort = { createdAt: 'cp.created_at', readyAt: 'cp.ready_at', lowerPres
 
 export async function listPlans(
   db: Database,
-  q: { kegId?: string | undefined; state?: string | undefined; lowerDue?: boolean | undefined; sort: keyof typeof planSort; order: 'asc' | 'desc'; page: number; pageSize: number },
+  q: {
+    kegId?: string | undefined;
+    state?: string | undefined;
+    lowerDue?: boolean | undefined;
+    sort: keyof typeof planSort;
+    order: 'asc' | 'desc';
+    page: number;
+    pageSize: number;
+  },
   now: Date,
   memberId?: string,
 ): Promise<Page<CarbonationPlanView>> {
@@ -334,7 +352,11 @@ export async function listPlans(
   if (q.kegId) base = base.where('cp.keg_id', '=', q.kegId);
   if (q.state) base = base.where('cp.state', '=', q.state as never);
   if (q.lowerDue) {
-    base = base.where('cp.state', '=', 'active').where('cp.method', '=', 'fast_start').where('cp.pressure_lowered_at', 'is', null).where('cp.lower_pressure_at', '<=', now);
+    base = base
+      .where('cp.state', '=', 'active')
+      .where('cp.method', '=', 'fast_start')
+      .where('cp.pressure_lowered_at', 'is', null)
+      .where('cp.lower_pressure_at', '<=', now);
   }
   const [{ total }, page] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
@@ -346,7 +368,15 @@ export async function listPlans(
       .offset((q.page - 1) * q.pageSize)
       .execute(),
   ]);
-  return { items: await planViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
+  return {
+    items: await planViews(
+      db,
+      page.map((r) => r.id),
+    ),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+  };
 }
 
 /** The member a plan's keg belongs to, for the permission policy. */
@@ -365,7 +395,12 @@ export async function planMemberId(db: Database, planId: string): Promise<string
 
 export async function markPressureLowered(db: Database, queue: PgBoss, planId: string, actor: { id: string }, now: Date) {
   const row = await db.transaction().execute(async (trx) => {
-    const plan = await trx.selectFrom('carbonation_plan').select(['id', 'state', 'method', 'pressure_lowered_at', 'reminder_job_id']).where('id', '=', planId).forUpdate().executeTakeFirst();
+    const plan = await trx
+      .selectFrom('carbonation_plan')
+      .select(['id', 'state', 'method', 'pressure_lowered_at', 'reminder_job_id'])
+      .where('id', '=', planId)
+      .forUpdate()
+      .executeTakeFirst();
     if (!plan) throw notFound('Carbonation plan');
     if (plan.state !== 'active') throw conflict('This plan is no longer active.');
     if (plan.method !== 'fast_start') throw conflict('Only a fast start has a pressure to lower.');
@@ -402,7 +437,17 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
       .innerJoin('equipment as k', 'k.id', 'cp.keg_id')
       .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
       .leftJoin('equipment as t', 't.id', 'kw.tap_id')
-      .select(['cp.id', 'cp.state', 'cp.method', 'cp.pressure_lowered_at', 'cp.reminder_sent_at', 'cp.serving_pressure_kpa', 'cp.fast_pressure_kpa', 'k.code', 't.code as tap_code'])
+      .select([
+        'cp.id',
+        'cp.state',
+        'cp.method',
+        'cp.pressure_lowered_at',
+        'cp.reminder_sent_at',
+        'cp.serving_pressure_kpa',
+        'cp.fast_pressure_kpa',
+        'k.code',
+        't.code as tap_code',
+      ])
       .where('cp.id', '=', planId)
       .forUpdate('cp')
       .executeTakeFirst();

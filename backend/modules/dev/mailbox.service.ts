@@ -27,7 +27,14 @@ export async function listMailbox(mailDb: Db, q: ListQuery, to: string | undefin
       .execute(),
   ]);
   return {
-    items: rows.map((r) => ({ id: r.id, from: r.mail_from, to: r.mail_to.join(', '), subject: r.subject, text: r.text_body, receivedAt: r.received_at.toISOString() })),
+    items: rows.map((r) => ({
+      id: r.id,
+      from: r.mail_from,
+      to: r.mail_to.join(', '),
+      subject: r.subject,
+      text: r.text_body,
+      receivedAt: r.received_at.toISOString(),
+    })),
     total,
     page: q.page,
     pageSize: q.pageSize,

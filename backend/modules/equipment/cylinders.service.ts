@@ -87,20 +87,41 @@ export async function connectCylinder(db: Database, item: Equipment, input: { no
     if (num(supply.remaining_kg) <= 0) throw conflict(`${current.code} is empty; refill it first.`);
     const note = input.note ?? '';
     if (on) {
-      await trx.updateTable('co2_cylinder_supply').set({ connected: false, connected_at: null, updated_at: now }).where('cylinder_id', '=', on.cylinder_id).execute();
-      await trx.insertInto('co2_cylinder_event').values({ cylinder_id: on.cylinder_id, action: 'disconnected', remaining_kg: on.remaining_kg, note, actor_id: actorId, at: now }).execute();
+      await trx
+        .updateTable('co2_cylinder_supply')
+        .set({ connected: false, connected_at: null, updated_at: now })
+        .where('cylinder_id', '=', on.cylinder_id)
+        .execute();
+      await trx
+        .insertInto('co2_cylinder_event')
+        .values({ cylinder_id: on.cylinder_id, action: 'disconnected', remaining_kg: on.remaining_kg, note, actor_id: actorId, at: now })
+        .execute();
     }
     await trx.updateTable('co2_cylinder_supply').set({ connected: true, connected_at: now, updated_at: now }).where('cylinder_id', '=', item.id).execute();
     await trx
       .insertInto('co2_cylinder_event')
-      .values({ cylinder_id: item.id, action: 'connected', remaining_kg: supply.remaining_kg, replaced_cylinder_id: on?.cylinder_id ?? null, note, actor_id: actorId, at: now })
+      .values({
+        cylinder_id: item.id,
+        action: 'connected',
+        remaining_kg: supply.remaining_kg,
+        replaced_cylinder_id: on?.cylinder_id ?? null,
+        note,
+        actor_id: actorId,
+        at: now,
+      })
       .execute();
     await audit(trx, actorId, 'connected', 'Equipment', item.id, { code: current.code, replaced: on?.cylinder_id ?? null });
   });
 }
 
 /** Records a cylinder back from the gas supplier: full (its size) or with the kg given. */
-export async function refillCylinder(db: Database, item: Equipment, input: { remainingKg?: number | undefined; note?: string | undefined }, actorId: string, now: Date): Promise<void> {
+export async function refillCylinder(
+  db: Database,
+  item: Equipment,
+  input: { remainingKg?: number | undefined; note?: string | undefined },
+  actorId: string,
+  now: Date,
+): Promise<void> {
   assertCylinder(item);
   const size = sizeOf(item);
   const kg = round3(input.remainingKg ?? size);
@@ -111,7 +132,15 @@ export async function refillCylinder(db: Database, item: Equipment, input: { rem
     await setRemaining(trx, item.id, kg, now);
     await trx
       .insertInto('co2_cylinder_event')
-      .values({ cylinder_id: item.id, action: 'refilled', kg: round3(Math.max(0, kg - num(supply.remaining_kg))), remaining_kg: kg, note: input.note ?? '', actor_id: actorId, at: now })
+      .values({
+        cylinder_id: item.id,
+        action: 'refilled',
+        kg: round3(Math.max(0, kg - num(supply.remaining_kg))),
+        remaining_kg: kg,
+        note: input.note ?? '',
+        actor_id: actorId,
+        at: now,
+      })
       .execute();
     await audit(trx, actorId, 'refilled', 'Equipment', item.id, { code: item.code, remainingKg: kg });
   });
@@ -131,19 +160,34 @@ export async function drawCo2(
   if (!on) return;
   const cylinder = await trx.selectFrom('equipment').select(['id', 'code']).where('id', '=', on.cylinder_id).executeTakeFirstOrThrow();
   const blocks = (await inspectionBlocks(trx, [cylinder.id], draw.now)).get(cylinder.id);
-  if (blocks) throw conflict(`The connected cylinder ${cylinder.code} may not be used (${describeBlocks(blocks)}); connect another cylinder. Nothing was recorded.`, { title: 'Inspection due' });
+  if (blocks)
+    throw conflict(`The connected cylinder ${cylinder.code} may not be used (${describeBlocks(blocks)}); connect another cylinder. Nothing was recorded.`, {
+      title: 'Inspection due',
+    });
   const supply = await lockSupply(trx, cylinder.id);
   const kg = round3(draw.grams / 1000);
   const left = round3(num(supply.remaining_kg) - kg);
   if (left < 0) {
-    throw conflict(`The connected cylinder ${cylinder.code} has ${num(supply.remaining_kg)} kg left, less than the ${kg} kg recorded; connect a full cylinder. Nothing was recorded.`, {
-      title: 'Cylinder empty',
-    });
+    throw conflict(
+      `The connected cylinder ${cylinder.code} has ${num(supply.remaining_kg)} kg left, less than the ${kg} kg recorded; connect a full cylinder. Nothing was recorded.`,
+      {
+        title: 'Cylinder empty',
+      },
+    );
   }
   await setRemaining(trx, cylinder.id, left, draw.now);
   await trx
     .insertInto('co2_cylinder_event')
-    .values({ cylinder_id: cylinder.id, action: 'drawn', kg, remaining_kg: left, source_type: draw.sourceType, source_id: draw.sourceId, actor_id: draw.actorId, at: draw.at })
+    .values({
+      cylinder_id: cylinder.id,
+      action: 'drawn',
+      kg,
+      remaining_kg: left,
+      source_type: draw.sourceType,
+      source_id: draw.sourceId,
+      actor_id: draw.actorId,
+      at: draw.at,
+    })
     .execute();
 }
 

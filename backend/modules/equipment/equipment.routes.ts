@@ -118,7 +118,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     const input = refillCylinderSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
     await refillCylinder(db, item, input, req.user!.id, clock.now());
-    res.json({ cylinder: await cylinderView(db, await findEquipment(db, item.id, clock.now()) ?? item) });
+    res.json({ cylinder: await cylinderView(db, (await findEquipment(db, item.id, clock.now())) ?? item) });
   });
 
   router.post('/', async (req, res) => {
@@ -141,10 +141,11 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     const item = await itemOr404(req.params.id);
     const equipment = await db
       .transaction()
-      .execute((trx) => changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: req.user!.id, at: clock.now() }));
+      .execute((trx) =>
+        changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: req.user!.id, at: clock.now() }),
+      );
     res.json({ equipment, history: await equipmentHistory(db, item.id, 20) });
   });
 
   return router;
 }
-

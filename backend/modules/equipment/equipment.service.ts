@@ -37,7 +37,7 @@ export function toEquipmentDto(row: EquipmentRow): Equipment {
     name: row.name,
     capacityLiters: row.capacity_liters,
     state: row.state,
-    attributes: (row.attributes ?? {}),
+    attributes: row.attributes ?? {},
     notes: row.notes,
     stateChangedAt: row.state_changed_at.toISOString(),
     createdAt: row.created_at.toISOString(),
@@ -171,8 +171,7 @@ export async function createEquipment(db: Database, input: CreateEquipmentInput,
 
 export async function updateEquipment(db: Database, current: Equipment, input: UpdateEquipmentInput, actorId: string, now: Date): Promise<Equipment> {
   // Attributes are merged onto the current ones and must still fit the item's kind.
-  const attributes =
-    input.attributes !== undefined ? attributesSchemaByKind[current.kind].parse({ ...current.attributes, ...input.attributes }) : undefined;
+  const attributes = input.attributes !== undefined ? attributesSchemaByKind[current.kind].parse({ ...current.attributes, ...input.attributes }) : undefined;
   if ((current.kind === 'fermenter' || current.kind === 'keg') && input.capacityLiters === null) {
     throw unprocessable(`A ${current.kind} needs its capacity.`, [{ path: 'capacityLiters', message: 'Enter the capacity in litres' }]);
   }
@@ -214,7 +213,12 @@ export async function changeEquipmentState(
     throw conflict(`${current.code} is already "${vesselStateLabels[change.toState]}".`, { title: 'No change' });
   }
   await writeStateChange(trx, current.id, current.state, change.toState, change.reason, change.actorId, change.at);
-  await audit(trx, change.actorId, 'state_changed', 'Equipment', current.id, { code: current.code, from: current.state, to: change.toState, reason: change.reason });
+  await audit(trx, change.actorId, 'state_changed', 'Equipment', current.id, {
+    code: current.code,
+    from: current.state,
+    to: change.toState,
+    reason: change.reason,
+  });
   return toEquipmentDto(await selectEquipment(trx, change.at).where('id', '=', current.id).executeTakeFirstOrThrow());
 }
 

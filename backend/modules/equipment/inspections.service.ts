@@ -108,14 +108,16 @@ export async function inspectionBlocks(db: Database, ids: string[], now: Date): 
 
 /** "pressure test due 2026-11-01" / "relief-valve check failed", for 409 messages. */
 export function describeBlocks(blocks: InspectionBlock[]): string {
-  return blocks
-    .map((b) => `${inspectionKindLabels[b.kind].toLowerCase()} ${b.reason === 'failed' ? 'failed' : `was due ${b.dueAt!.slice(0, 10)}`}`)
-    .join(', ');
+  return blocks.map((b) => `${inspectionKindLabels[b.kind].toLowerCase()} ${b.reason === 'failed' ? 'failed' : `was due ${b.dueAt!.slice(0, 10)}`}`).join(', ');
 }
 
 /** Throws 409 when any of the items is blocked by an inspection; `what` says what was refused ("filled"). */
 export async function assertInspected(db: Database, items: { id: string; code: string }[], what: string, now: Date): Promise<void> {
-  const blocks = await inspectionBlocks(db, items.map((i) => i.id), now);
+  const blocks = await inspectionBlocks(
+    db,
+    items.map((i) => i.id),
+    now,
+  );
   const refused = items.filter((i) => blocks.has(i.id));
   if (!refused.length) return;
   throw conflict(
@@ -139,7 +141,7 @@ export async function applyInspectionLapses(db: Database, now: Date): Promise<nu
   let taken = 0;
   for (const { equipment_id: id } of rows) {
     // One transaction per item; inside a caller's transaction (the demo seed's), that one.
-    const inOne = <T,>(fn: (trx: Database) => Promise<T>) => (db.isTransaction ? fn(db) : db.transaction().execute(fn));
+    const inOne = <T>(fn: (trx: Database) => Promise<T>) => (db.isTransaction ? fn(db) : db.transaction().execute(fn));
     taken += await inOne(async (trx) => {
       const item = await trx.selectFrom('equipment').select(['id', 'state']).where('id', '=', id).forUpdate().executeTakeFirst();
       if (!item || !['ready', 'cleaned', 'needs_cleaning'].includes(item.state)) return 0;
@@ -183,20 +185,28 @@ export async function listInspections(db: Database, equipmentId: string, limit =
 export async function recordInspection(db: Database, item: Equipment, input: CreateInspectionInput, actorId: string, now: Date): Promise<InspectionView> {
   const allowed = inspectionKindsByEquipment[item.kind];
   if (!allowed.includes(input.kind)) {
-    throw unprocessable(`A ${item.kind.replace('_', ' ')} takes ${allowed.length ? allowed.map((k) => inspectionKindLabels[k].toLowerCase()).join(', ') : 'no inspections'}.`, [
-      { path: 'kind', message: 'Not an inspection this item takes' },
-    ]);
+    throw unprocessable(
+      `A ${item.kind.replace('_', ' ')} takes ${allowed.length ? allowed.map((k) => inspectionKindLabels[k].toLowerCase()).join(', ') : 'no inspections'}.`,
+      [{ path: 'kind', message: 'Not an inspection this item takes' }],
+    );
   }
   const at = new Date(input.at);
-  if (at.getTime() > now.getTime() + FUTURE_SLACK_MS) throw unprocessable('An inspection cannot be recorded in the future.', [{ path: 'at', message: 'This time is in the future' }]);
+  if (at.getTime() > now.getTime() + FUTURE_SLACK_MS)
+    throw unprocessable('An inspection cannot be recorded in the future.', [{ path: 'at', message: 'This time is in the future' }]);
   const settings = await pressureSafetySettings(db);
   let nextDue: Date | null = input.nextDueAt ? new Date(input.nextDueAt) : null;
-  if (nextDue && nextDue.getTime() <= at.getTime()) throw unprocessable('The next inspection is due after this one.', [{ path: 'nextDueAt', message: 'Pick a time after the inspection' }]);
+  if (nextDue && nextDue.getTime() <= at.getTime())
+    throw unprocessable('The next inspection is due after this one.', [{ path: 'nextDueAt', message: 'Pick a time after the inspection' }]);
   if (input.passed && !nextDue) nextDue = addMonths(at, settings.intervalMonths[input.kind]);
   const timeZone = await coopTimeZone(db);
 
   const id = await db.transaction().execute(async (trx) => {
-    const current = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state', 'attributes']).where('id', '=', item.id).forUpdate().executeTakeFirstOrThrow();
+    const current = await trx
+      .selectFrom('equipment')
+      .select(['id', 'code', 'kind', 'state', 'attributes'])
+      .where('id', '=', item.id)
+      .forUpdate()
+      .executeTakeFirstOrThrow();
     const row = await trx
       .insertInto('equipment_inspection')
       .values({ equipment_id: item.id, kind: input.kind, at, passed: input.passed, next_due_at: nextDue, note: input.note ?? '', recorded_by: actorId })
@@ -231,12 +241,17 @@ export async function recordInspection(db: Database, item: Equipment, input: Cre
         await writeStateChange(trx, item.id, 'out_of_service', back, `Back in service: ${label} passed`, actorId, now);
       }
     }
-    await audit(trx, actorId, 'inspected', 'Equipment', item.id, { code: current.code, kind: input.kind, passed: input.passed, at: at.toISOString(), nextDueAt: iso(nextDue) });
+    await audit(trx, actorId, 'inspected', 'Equipment', item.id, {
+      code: current.code,
+      kind: input.kind,
+      passed: input.passed,
+      at: at.toISOString(),
+      nextDueAt: iso(nextDue),
+    });
     return row.id;
   });
   return (await listInspections(db, item.id)).find((i) => i.id === id)!;
 }
-
 
 /** Inspections failed, past due or due within the co-op's warning days, sorted, filtered and paged in SQL. */
 export async function listMaintenance(db: Database, q: MaintenanceListQuery, now: Date): Promise<Page<MaintenanceItem>> {
@@ -262,7 +277,17 @@ export async function listMaintenance(db: Database, q: MaintenanceListQuery, now
         : sql`d.due_at ${dir} nulls first`;
   const [count, rows] = await Promise.all([
     sql<{ total: number }>`select count(*)::int as total ${base}`.execute(db),
-    sql<{ id: string; code: string; name: string; equipment_kind: EquipmentKind; state: VesselState; kind: InspectionKind; due_at: Date | null; status: MaintenanceStatus; last_at: Date | null }>`
+    sql<{
+      id: string;
+      code: string;
+      name: string;
+      equipment_kind: EquipmentKind;
+      state: VesselState;
+      kind: InspectionKind;
+      due_at: Date | null;
+      status: MaintenanceStatus;
+      last_at: Date | null;
+    }>`
       select e.id, e.code, e.name, e.kind as equipment_kind, e.state, d.kind, d.due_at, d.status, d.last_at ${base}
       order by ${order}, d.due_at, split_part(e.code, '-', 1), nullif(split_part(e.code, '-', 2), '')::int, d.kind
       limit ${q.pageSize} offset ${(q.page - 1) * q.pageSize}`.execute(db),

@@ -10,7 +10,7 @@ const perPage = labelSheet.columns * labelSheet.rows;
 
 const cautions: Partial<Record<Equipment['kind'], string>> = {
   keg: 'Pressure vessel: never exceed its rated pressure; keep the relief valve working.',
-  co2_cylinder: 'Chain upright. Never exceed a regulator\'s rated pressure. CO2 displaces air: ventilate.',
+  co2_cylinder: "Chain upright. Never exceed a regulator's rated pressure. CO2 displaces air: ventilate.",
   tap: 'Cold room: CO2 displaces air. Ventilate; heed the CO2 alarm.',
 };
 

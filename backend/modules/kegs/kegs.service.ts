@@ -1,13 +1,5 @@
 import { sql } from 'kysely';
-import type {
-  KegCheckOutInput,
-  KegHistoryEntry,
-  KegListQuery,
-  KegMoveInput,
-  KegView,
-  KegWhereabouts,
-  TapBoardEntry,
-} from '../../../shared/schemas/kegs.ts';
+import type { KegCheckOutInput, KegHistoryEntry, KegListQuery, KegMoveInput, KegView, KegWhereabouts, TapBoardEntry } from '../../../shared/schemas/kegs.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import type { VesselState } from '../../db/tables/cellar.ts';
@@ -250,7 +242,7 @@ async function lockKeg(trx: Database, id: string) {
     .forUpdate('e')
     .executeTakeFirst();
   if (!keg || keg.kind !== 'keg') throw notFound('Keg');
-  return { ...keg, whereabouts: (keg.whereabouts ?? 'cellar') };
+  return { ...keg, whereabouts: keg.whereabouts ?? 'cellar' };
 }
 
 async function putWhereabouts(
@@ -277,7 +269,12 @@ async function putWhereabouts(
 }
 
 async function closeFill(trx: Database, kegId: string, reason: string, now: Date) {
-  await trx.updateTable('keg_fill').set({ emptied_at: now, emptied_reason: reason, remaining_liters: 0 }).where('keg_id', '=', kegId).where('emptied_at', 'is', null).execute();
+  await trx
+    .updateTable('keg_fill')
+    .set({ emptied_at: now, emptied_reason: reason, remaining_liters: 0 })
+    .where('keg_id', '=', kegId)
+    .where('emptied_at', 'is', null)
+    .execute();
   await trx.updateTable('carbonation_plan').set({ state: 'done', updated_at: now }).where('keg_id', '=', kegId).where('state', '=', 'active').execute();
 }
 
@@ -302,7 +299,18 @@ export async function checkOutKeg(db: Database, kegId: string, input: KegCheckOu
     if (keg.tap_id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected and checked out; clean the line`, actor.id, now);
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'checked_out', from_whereabouts: keg.whereabouts, to_whereabouts: 'with_member', member_id: member.id, due_at: due, tap_id: keg.tap_id, note: input.note ?? '', actor_id: actor.id, at: now })
+      .values({
+        keg_id: kegId,
+        action: 'checked_out',
+        from_whereabouts: keg.whereabouts,
+        to_whereabouts: 'with_member',
+        member_id: member.id,
+        due_at: due,
+        tap_id: keg.tap_id,
+        note: input.note ?? '',
+        actor_id: actor.id,
+        at: now,
+      })
       .execute();
     await audit(trx, actor.id, 'checked_out', 'Keg', kegId, { code: keg.code, memberId: member.id, dueAt: due.toISOString() });
   });
@@ -318,7 +326,17 @@ export async function returnKeg(db: Database, kegId: string, input: { note?: str
     await putWhereabouts(trx, kegId, { whereabouts: 'cellar' }, actor.id, now);
     const movement = await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'returned', from_whereabouts: 'with_member', to_whereabouts: 'cellar', member_id: keg.member_id, due_at: keg.due_at, note: input.note ?? (late ? 'Returned after its due date' : ''), actor_id: actor.id, at: now })
+      .values({
+        keg_id: kegId,
+        action: 'returned',
+        from_whereabouts: 'with_member',
+        to_whereabouts: 'cellar',
+        member_id: keg.member_id,
+        due_at: keg.due_at,
+        note: input.note ?? (late ? 'Returned after its due date' : ''),
+        actor_id: actor.id,
+        at: now,
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     await closeFill(trx, kegId, 'returned', now);
@@ -330,7 +348,12 @@ export async function returnKeg(db: Database, kegId: string, input: { note?: str
       memberId: keg.member_id,
       late: Boolean(late),
       before: auditState(before),
-      after: { state: keg.state === 'out_of_service' ? keg.state : 'needs_cleaning', whereabouts: 'cellar', memberId: null, remainingLiters: before.fill ? 0 : null },
+      after: {
+        state: keg.state === 'out_of_service' ? keg.state : 'needs_cleaning',
+        whereabouts: 'cellar',
+        memberId: null,
+        remainingLiters: before.fill ? 0 : null,
+      },
     });
     return recordUndo(trx, kegId, 'returned', before, movement.id, actor.id, now);
   });
@@ -346,34 +369,48 @@ export async function moveKeg(db: Database, kegId: string, input: KegMoveInput, 
       if (!t || t.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
       if (t.state === 'out_of_service') throw conflict(`Tap ${t.code} is out of service.`);
       if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer: only a filled keg goes on a tap.`);
-      const other = await trx.selectFrom('keg_whereabouts as kw').innerJoin('equipment as e', 'e.id', 'kw.keg_id').select('e.code').where('kw.tap_id', '=', t.id).where('kw.keg_id', '<>', kegId).executeTakeFirst();
+      const other = await trx
+        .selectFrom('keg_whereabouts as kw')
+        .innerJoin('equipment as e', 'e.id', 'kw.keg_id')
+        .select('e.code')
+        .where('kw.tap_id', '=', t.id)
+        .where('kw.keg_id', '<>', kegId)
+        .executeTakeFirst();
       if (other) throw conflict(`Tap ${t.code} already has ${other.code} on it.`);
       tap = t;
     }
     if (keg.whereabouts === to && (keg.tap_id ?? null) === (tap?.id ?? null)) throw conflict(`${keg.code} is already there.`);
-    const action =
-      to === 'missing'
-        ? 'marked_missing'
-        : keg.whereabouts === 'missing'
-          ? 'found'
-          : tap
-            ? 'tapped'
-            : keg.tap_id
-              ? 'untapped'
-              : 'moved';
+    const action = to === 'missing' ? 'marked_missing' : keg.whereabouts === 'missing' ? 'found' : tap ? 'tapped' : keg.tap_id ? 'untapped' : 'moved';
     await putWhereabouts(trx, kegId, { whereabouts: to, tapId: tap?.id ?? null }, actor.id, now).catch((e) => mapTapTaken(e, tap?.code ?? ''));
     // The tap positions follow: a connected line holds beer, a disconnected one needs cleaning.
-    if (keg.tap_id && keg.tap_id !== tap?.id) await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected; clean the line`, actor.id, now);
+    if (keg.tap_id && keg.tap_id !== tap?.id)
+      await setVesselState(trx, keg.tap_id, 'needs_cleaning', `${keg.code} disconnected; clean the line`, actor.id, now);
     if (tap && tap.id !== keg.tap_id) await setVesselState(trx, tap.id, 'holding', `${keg.code} connected`, actor.id, now);
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action, from_whereabouts: keg.whereabouts, to_whereabouts: to, tap_id: tap?.id ?? keg.tap_id, member_id: keg.member_id, note: input.note ?? '', actor_id: actor.id, at: now })
+      .values({
+        keg_id: kegId,
+        action,
+        from_whereabouts: keg.whereabouts,
+        to_whereabouts: to,
+        tap_id: tap?.id ?? keg.tap_id,
+        member_id: keg.member_id,
+        note: input.note ?? '',
+        actor_id: actor.id,
+        at: now,
+      })
       .execute();
     await audit(trx, actor.id, action, 'Keg', kegId, { code: keg.code, from: keg.whereabouts, to, tapId: tap?.id ?? null });
   });
 }
 
-export async function emptyKeg(db: Database, kegId: string, input: { note?: string | undefined; dumped?: boolean | undefined }, actor: { id: string }, now: Date): Promise<KegUndoOffer> {
+export async function emptyKeg(
+  db: Database,
+  kegId: string,
+  input: { note?: string | undefined; dumped?: boolean | undefined },
+  actor: { id: string },
+  now: Date,
+): Promise<KegUndoOffer> {
   return db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer.`);
@@ -385,7 +422,16 @@ export async function emptyKeg(db: Database, kegId: string, input: { note?: stri
     }
     const movement = await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'emptied', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: input.note ?? (input.dumped ? 'Beer dumped' : keg.tap_id ? 'Emptied and taken off its tap' : ''), actor_id: actor.id, at: now })
+      .values({
+        keg_id: kegId,
+        action: 'emptied',
+        from_whereabouts: keg.whereabouts,
+        to_whereabouts: keg.whereabouts,
+        tap_id: keg.tap_id,
+        note: input.note ?? (input.dumped ? 'Beer dumped' : keg.tap_id ? 'Emptied and taken off its tap' : ''),
+        actor_id: actor.id,
+        at: now,
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     await setVesselState(trx, kegId, 'needs_cleaning', input.dumped ? 'Beer dumped; clean before use' : 'Emptied; clean before use', actor.id, now);
@@ -402,7 +448,12 @@ export async function emptyKeg(db: Database, kegId: string, input: { note?: stri
 export async function setKegLevel(db: Database, kegId: string, remainingLiters: number, actor: { id: string }, now: Date) {
   await db.transaction().execute(async (trx) => {
     const keg = await lockKeg(trx, kegId);
-    const fill = await trx.selectFrom('keg_fill').select(['id', 'volume_liters']).where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst();
+    const fill = await trx
+      .selectFrom('keg_fill')
+      .select(['id', 'volume_liters'])
+      .where('keg_id', '=', kegId)
+      .where('emptied_at', 'is', null)
+      .executeTakeFirst();
     if (!fill) throw conflict(`${keg.code} holds no beer.`);
     if (remainingLiters > Number(fill.volume_liters)) {
       throw unprocessable('More than was filled.', [{ path: 'remainingLiters', message: `At most ${Number(fill.volume_liters)} L` }]);
@@ -410,7 +461,16 @@ export async function setKegLevel(db: Database, kegId: string, remainingLiters: 
     await trx.updateTable('keg_fill').set({ remaining_liters: remainingLiters }).where('id', '=', fill.id).execute();
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'level', from_whereabouts: keg.whereabouts, to_whereabouts: keg.whereabouts, tap_id: keg.tap_id, note: `About ${remainingLiters.toFixed(1)} L left`, actor_id: actor.id, at: now })
+      .values({
+        keg_id: kegId,
+        action: 'level',
+        from_whereabouts: keg.whereabouts,
+        to_whereabouts: keg.whereabouts,
+        tap_id: keg.tap_id,
+        note: `About ${remainingLiters.toFixed(1)} L left`,
+        actor_id: actor.id,
+        at: now,
+      })
       .execute();
     await audit(trx, actor.id, 'level', 'Keg', kegId, { code: keg.code, remainingLiters });
   });
@@ -434,7 +494,14 @@ const undoTitles: Record<KegUndoableAction, string> = { returned: 'return', empt
 
 interface UndoSnapshot {
   kegState: VesselState;
-  whereabouts: { whereabouts: KegWhereabouts; tap_id: string | null; member_id: string | null; checked_out_at: Date | null; due_at: Date | null; since: Date | null } | null;
+  whereabouts: {
+    whereabouts: KegWhereabouts;
+    tap_id: string | null;
+    member_id: string | null;
+    checked_out_at: Date | null;
+    due_at: Date | null;
+    since: Date | null;
+  } | null;
   tapState: VesselState | null;
   fill: { id: string; remaining_liters: number } | null;
   planIds: string[];
@@ -443,7 +510,11 @@ interface UndoSnapshot {
 /** The keg as it is before a return or an emptying: what an undo puts back. */
 async function undoSnapshot(trx: Database, kegId: string, kegState: VesselState): Promise<UndoSnapshot> {
   const [whereabouts, fill, plans] = await Promise.all([
-    trx.selectFrom('keg_whereabouts').select(['whereabouts', 'tap_id', 'member_id', 'checked_out_at', 'due_at', 'since']).where('keg_id', '=', kegId).executeTakeFirst(),
+    trx
+      .selectFrom('keg_whereabouts')
+      .select(['whereabouts', 'tap_id', 'member_id', 'checked_out_at', 'due_at', 'since'])
+      .where('keg_id', '=', kegId)
+      .executeTakeFirst(),
     trx.selectFrom('keg_fill').select(['id', 'remaining_liters']).where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst(),
     trx.selectFrom('carbonation_plan').select('id').where('keg_id', '=', kegId).where('state', '=', 'active').execute(),
   ]);
@@ -470,9 +541,22 @@ function auditState(b: UndoSnapshot) {
 }
 
 const latestStateChange = (trx: Database, equipmentId: string) =>
-  trx.selectFrom('equipment_state_change').select((eb) => eb.fn.max('id').as('id')).where('equipment_id', '=', equipmentId).executeTakeFirst().then((r) => (r?.id == null ? null : String(r.id)));
+  trx
+    .selectFrom('equipment_state_change')
+    .select((eb) => eb.fn.max('id').as('id'))
+    .where('equipment_id', '=', equipmentId)
+    .executeTakeFirst()
+    .then((r) => (r?.id == null ? null : String(r.id)));
 
-async function recordUndo(trx: Database, kegId: string, action: KegUndoableAction, b: UndoSnapshot, movementId: string, actorId: string, now: Date): Promise<KegUndoOffer> {
+async function recordUndo(
+  trx: Database,
+  kegId: string,
+  action: KegUndoableAction,
+  b: UndoSnapshot,
+  movementId: string,
+  actorId: string,
+  now: Date,
+): Promise<KegUndoOffer> {
   const until = new Date(now.getTime() + KEG_UNDO_WINDOW_MS);
   const tapId = b.whereabouts?.tap_id ?? null;
   const [kegChange, tapChange] = await Promise.all([latestStateChange(trx, kegId), tapId ? latestStateChange(trx, tapId) : Promise.resolve(null)]);
@@ -538,12 +622,21 @@ export async function undoKegAction(
     }
     const touched = () => conflict(`${keg.code} has changed since its ${what}, so it cannot be undone.`);
     const [lastMovement, kegChange, openFill, cycles] = await Promise.all([
-      trx.selectFrom('keg_movement').select((eb) => eb.fn.max('id').as('id')).where('keg_id', '=', kegId).executeTakeFirst(),
+      trx
+        .selectFrom('keg_movement')
+        .select((eb) => eb.fn.max('id').as('id'))
+        .where('keg_id', '=', kegId)
+        .executeTakeFirst(),
       latestStateChange(trx, kegId),
       trx.selectFrom('keg_fill').select('id').where('keg_id', '=', kegId).where('emptied_at', 'is', null).executeTakeFirst(),
       trx.selectFrom('sanitation_cycle').select('id').where('equipment_id', '=', kegId).where('created_at', '>', latest.created_at).executeTakeFirst(),
     ]);
-    if (String(lastMovement?.id) !== String(latest.movement_id) || kegChange !== (latest.keg_state_change_id === null ? null : String(latest.keg_state_change_id)) || openFill || cycles) {
+    if (
+      String(lastMovement?.id) !== String(latest.movement_id) ||
+      kegChange !== (latest.keg_state_change_id === null ? null : String(latest.keg_state_change_id)) ||
+      openFill ||
+      cycles
+    ) {
       throw touched();
     }
     if (latest.tap_id) {
@@ -586,13 +679,31 @@ export async function undoKegAction(
       restoredLiters = Number(fill.remaining_liters);
     }
     const plans = latest.plan_ids.length
-      ? await trx.updateTable('carbonation_plan').set({ state: 'active', updated_at: now }).where('id', 'in', latest.plan_ids).where('state', '=', 'done').returning('id').execute()
+      ? await trx
+          .updateTable('carbonation_plan')
+          .set({ state: 'active', updated_at: now })
+          .where('id', 'in', latest.plan_ids)
+          .where('state', '=', 'done')
+          .returning('id')
+          .execute()
       : [];
     await setVesselState(trx, kegId, latest.keg_state, `Undo of the ${what}: back as it was`, actor.id, now);
-    if (latest.tap_id && latest.tap_state) await setVesselState(trx, latest.tap_id, latest.tap_state, `${keg.code} back on the line (undo of its ${what})`, actor.id, now);
+    if (latest.tap_id && latest.tap_state)
+      await setVesselState(trx, latest.tap_id, latest.tap_state, `${keg.code} back on the line (undo of its ${what})`, actor.id, now);
     await trx
       .insertInto('keg_movement')
-      .values({ keg_id: kegId, action: 'undone', from_whereabouts: fromWhere, to_whereabouts: latest.whereabouts, tap_id: latest.tap_id, member_id: latest.member_id, due_at: latest.due_at, note: `Undid the ${what}`, actor_id: actor.id, at: now })
+      .values({
+        keg_id: kegId,
+        action: 'undone',
+        from_whereabouts: fromWhere,
+        to_whereabouts: latest.whereabouts,
+        tap_id: latest.tap_id,
+        member_id: latest.member_id,
+        due_at: latest.due_at,
+        note: `Undid the ${what}`,
+        actor_id: actor.id,
+        at: now,
+      })
       .execute();
     await trx.updateTable('keg_action_undo').set({ undone_at: now, undone_by: actor.id }).where('id', '=', latest.id).execute();
     await audit(trx, actor.id, 'undone', 'Keg', kegId, {
@@ -629,7 +740,16 @@ const whereLabel: Record<string, string> = { cellar: 'cellar', cold_room: 'cold 
 
 /** A keg's whole history, newest first: movements, state changes, cycles, fills, plans, one query. */
 export async function kegHistory(db: Database, kegId: string, page: number, pageSize: number): Promise<Page<KegHistoryEntry>> {
-  const events = sql<{ at: Date; kind: KegHistoryEntry['kind']; code: string; a: string | null; b: string | null; c: string | null; actor: string | null; ref_id: string | null }>`
+  const events = sql<{
+    at: Date;
+    kind: KegHistoryEntry['kind'];
+    code: string;
+    a: string | null;
+    b: string | null;
+    c: string | null;
+    actor: string | null;
+    ref_id: string | null;
+  }>`
     select km.at, 'movement' as kind, km.action as code, km.from_whereabouts as a, km.to_whereabouts as b,
       concat_ws(' · ', nullif(mu.name, ''), case when km.due_at is not null and km.action = 'checked_out' then 'due ' || to_char(km.due_at at time zone 'UTC', 'YYYY-MM-DD') end,
         t.code, nullif(km.note, '')) as c,
@@ -658,7 +778,16 @@ export async function kegHistory(db: Database, kegId: string, page: number, page
     from carbonation_plan cp left join app_user au on au.id = cp.created_by where cp.keg_id = ${kegId}`;
   const [count, rows] = await Promise.all([
     sql<{ total: number }>`select count(*)::int as total from (${events}) x`.execute(db),
-    sql<{ at: Date; kind: KegHistoryEntry['kind']; code: string; a: string | null; b: string | null; c: string | null; actor: string | null; ref_id: string | null }>`
+    sql<{
+      at: Date;
+      kind: KegHistoryEntry['kind'];
+      code: string;
+      a: string | null;
+      b: string | null;
+      c: string | null;
+      actor: string | null;
+      ref_id: string | null;
+    }>`
       select * from (${events}) x order by at desc, kind limit ${pageSize} offset ${(page - 1) * pageSize}`.execute(db),
   ]);
   const items = rows.rows.map((r): KegHistoryEntry => {

@@ -67,7 +67,10 @@ export async function remindInvoice(deps: ReminderDeps, invoiceId: string, actor
     const { today, timeZone } = await coopToday(trx, now);
     const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
     if (inv.status !== 'issued' || due <= 0 || !inv.due_on || inv.due_on >= today) {
-      throw conflict(`Only an overdue invoice is reminded; ${inv.number ?? 'this one'} is ${inv.status === 'issued' && due > 0 ? `due on ${inv.due_on}` : inv.status}.`, { code: 'not_overdue' });
+      throw conflict(
+        `Only an overdue invoice is reminded; ${inv.number ?? 'this one'} is ${inv.status === 'issued' && due > 0 ? `due on ${inv.due_on}` : inv.status}.`,
+        { code: 'not_overdue' },
+      );
     }
     const last = await quietReminder(trx, { invoiceId }, now);
     if (last) throw tooSoon(`Invoice ${inv.number}`, last);
@@ -124,7 +127,11 @@ export async function overdueInvoices(db: Database, now: Date): Promise<{ id: st
 }
 
 /** Reminds every overdue invoice not reminded within the quiet time; each in its own transaction. */
-export async function remindAllOverdueInvoices(deps: ReminderDeps, actorId: string, now: Date): Promise<{ sent: number; skipped: number; reminders: SentReminder[] }> {
+export async function remindAllOverdueInvoices(
+  deps: ReminderDeps,
+  actorId: string,
+  now: Date,
+): Promise<{ sent: number; skipped: number; reminders: SentReminder[] }> {
   const overdue = await overdueInvoices(deps.db, now);
   const reminders: SentReminder[] = [];
   let skipped = 0;

@@ -116,7 +116,14 @@ const DAY = 86_400_000;
 
 export async function loadAuditData(
   db: Database,
-  { from, to, filter, settings, now, timeZone = 'UTC' }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date; timeZone?: string },
+  {
+    from,
+    to,
+    filter,
+    settings,
+    now,
+    timeZone = 'UTC',
+  }: { from: Date; to: Date; filter: VesselFilter; settings: SanitationSettings; now: Date; timeZone?: string },
 ): Promise<AuditData> {
   const ctx = { locale: defaultLocale, timeZone };
   const [cycleRows, eventRows] = await Promise.all([
@@ -267,7 +274,13 @@ export async function loadAuditData(
         batch: e.batch,
         volumeLiters: n(e.volume_liters),
         cycle: e.cycle_id
-          ? { id: e.cycle_id, completedAt: e.cycle_completed_at!, complete: Boolean(e.cycle_complete), freshUntil: e.cycle_fresh_until, outcome: e.cycle_outcome! }
+          ? {
+              id: e.cycle_id,
+              completedAt: e.cycle_completed_at!,
+              complete: Boolean(e.cycle_complete),
+              freshUntil: e.cycle_fresh_until,
+              outcome: e.cycle_outcome!,
+            }
           : null,
       });
     } else {
@@ -290,14 +303,19 @@ export async function loadAuditData(
       for (const i of c.issues.filter((i) => i.code === 'exception')) add(c.completedAt, 'recorded_exception', i.message);
       if (!c.complete) {
         const other = c.issues.filter((i) => i.code !== 'short_contact' && i.code !== 'exception').map((i) => i.message);
-        add(c.completedAt, 'incomplete_cycle', `Left the vessel ${c.outcome.replace('_', ' ')}${other.length ? `: ${other.join(' ')}` : short.length ? ' (short contact).' : '.'}`);
+        add(
+          c.completedAt,
+          'incomplete_cycle',
+          `Left the vessel ${c.outcome.replace('_', ' ')}${other.length ? `: ${other.join(' ')}` : short.length ? ' (short contact).' : '.'}`,
+        );
       }
     }
 
     let previousFillCycle: string | null = null;
     for (const f of v.fills) {
       if (!f.cycle) add(f.at, 'fill_without_cycle', `Filled${f.batch ? ` with ${f.batch}` : ''} with no sanitation cycle on record before it.`);
-      else if (!f.cycle.complete) add(f.at, 'fill_after_incomplete_cycle', `Filled after a cycle that left it ${f.cycle.outcome.replace('_', ' ')} (${fmt(f.cycle.completedAt)}).`);
+      else if (!f.cycle.complete)
+        add(f.at, 'fill_after_incomplete_cycle', `Filled after a cycle that left it ${f.cycle.outcome.replace('_', ' ')} (${fmt(f.cycle.completedAt)}).`);
       else if (f.cycle.freshUntil && f.cycle.freshUntil.getTime() < f.at.getTime()) {
         add(f.at, 'fill_after_lapse', `Filled after its freshness window ended at ${fmt(f.cycle.freshUntil)}.`);
       } else if (previousFillCycle && previousFillCycle === f.cycle.id) {
@@ -319,7 +337,8 @@ export async function loadAuditData(
       if (u.next) {
         const gap = u.next.startedAt.getTime() - u.at.getTime();
         const took = gap < 3 * DAY ? `${Math.round(gap / 3_600_000)} hours` : `${(gap / DAY).toFixed(1)} days`;
-        if (gap > allowance) add(u.next.startedAt, 'late_cycle', `Cleaned ${took} after it was emptied on ${fmt(u.at)} (allowed ${settings.cleanWithinDays} days).`);
+        if (gap > allowance)
+          add(u.next.startedAt, 'late_cycle', `Cleaned ${took} after it was emptied on ${fmt(u.at)} (allowed ${settings.cleanWithinDays} days).`);
       } else if (u.at.getTime() + allowance < horizon) {
         add(new Date(u.at.getTime() + allowance), 'not_cleaned', `Emptied on ${fmt(u.at)} and not cleaned within ${settings.cleanWithinDays} days.`);
       }
@@ -465,7 +484,12 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
             widths: [40, 80, 150, '*'],
             body: [
               header(['Vessel', 'When', 'Exception', 'Detail']),
-              ...data.exceptions.map((e): TableCell[] => [e.vesselCode, { text: when(e.at), noWrap: true }, { text: exceptionLabels[e.kind], color: danger, noWrap: true }, e.message]),
+              ...data.exceptions.map((e): TableCell[] => [
+                e.vesselCode,
+                { text: when(e.at), noWrap: true },
+                { text: exceptionLabels[e.kind], color: danger, noWrap: true },
+                e.message,
+              ]),
             ],
           },
           layout: compact,
@@ -535,16 +559,14 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
     }
   }
 
-  content.push(
-    {
-      stack: [
-        { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 16, 0, 4] },
-        { ul: [...chemicalCautions, ...pressureCautions, alcoholCaution], color: ink },
-        { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
-      ],
-      unbreakable: true,
-    },
-  );
+  content.push({
+    stack: [
+      { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 16, 0, 4] },
+      { ul: [...chemicalCautions, ...pressureCautions, alcoholCaution], color: ink },
+      { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
+    ],
+    unbreakable: true,
+  });
 
   return {
     pageSize: 'A4',
@@ -552,10 +574,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
     info: { title: `Sanitation audit ${period}`, author: coopName, creator: 'Cellarwright' },
     defaultStyle: { font: pdfFont, fontSize: 8, color: ink, lineHeight: 1.1 },
     pageBreakBefore: keepHeadingsWithNext,
-    header: (page) =>
-      page === 1
-        ? { text: '' }
-        : { text: `${coopName} · Sanitation audit ${period}`, fontSize: 7, color: muted, margin: [36, 20, 36, 0] },
+    header: (page) => (page === 1 ? { text: '' } : { text: `${coopName} · Sanitation audit ${period}`, fontSize: 7, color: muted, margin: [36, 20, 36, 0] }),
     footer: (page, pages) => ({
       margin: [36, 10, 36, 0],
       columns: [

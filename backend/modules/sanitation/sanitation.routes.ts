@@ -79,11 +79,7 @@ export function sanitationReportRoutes({ db, clock }: Deps): Router {
     const { timeZone } = await getBookingRules(db);
     const data = await loadAuditData(db, { from, to, filter: { ids: q.equipmentId, kind: q.kind }, settings, now: clock.now(), timeZone });
     if (q.equipmentId?.length && data.vessels.length === 0) throw notFound('Vessel');
-    const label = q.equipmentId?.length
-      ? data.vessels.map((v) => v.code).join(', ')
-      : q.kind
-        ? `every ${q.kind}`
-        : 'every fermenter and keg';
+    const label = q.equipmentId?.length ? data.vessels.map((v) => v.code).join(', ') : q.kind ? `every ${q.kind}` : 'every fermenter and keg';
     // The two queries ran here; the layout runs on a PDF render thread.
     const pdf = await renderAuditPdfOffThread(data, label.length > 120 ? `${data.vessels.length} selected vessels` : label);
     const name = `sanitation-audit-${q.from.slice(0, 10)}-to-${q.to.slice(0, 10)}.pdf`;

@@ -37,7 +37,10 @@ export function assertStepsChecked(steps: readonly StepForRules[], settings: San
   const errors = blocking.map((v) => ({ path: `steps.${v.index - firstNew}.${v.field}`, message: v.message }));
   steps.forEach((s, i) => {
     if (i >= firstNew && s.exceptionReason?.trim() && !violations.some((v) => v.index === i)) {
-      errors.push({ path: `steps.${i - firstNew}.exceptionReason`, message: `${s.step[0]!.toUpperCase()}${s.step.slice(1)} step: it breaks no rule, so it needs no exception; leave the reason out.` });
+      errors.push({
+        path: `steps.${i - firstNew}.exceptionReason`,
+        message: `${s.step[0]!.toUpperCase()}${s.step.slice(1)} step: it breaks no rule, so it needs no exception; leave the reason out.`,
+      });
     }
   });
   if (errors.length) {
@@ -59,7 +62,8 @@ async function assertPushOutKegs(db: Database, steps: readonly SanitationStepInp
     if (!s.pushedIntoEquipmentId) return;
     const path = `steps.${i - firstNew}.pushedIntoEquipmentId`;
     if (s.purgeMethod !== 'push_out') throw unprocessable('Only a push-out purge names a second keg.', [{ path, message: 'Only for a push-out purge' }]);
-    if (!kegs.has(s.pushedIntoEquipmentId)) throw unprocessable('Purge step: the keg it was pushed into is not a keg the co-op has.', [{ path, message: 'No keg with this id' }]);
+    if (!kegs.has(s.pushedIntoEquipmentId))
+      throw unprocessable('Purge step: the keg it was pushed into is not a keg the co-op has.', [{ path, message: 'No keg with this id' }]);
     if (s.pushedIntoEquipmentId === vesselId) throw unprocessable('Purge step: a keg cannot be pushed into itself.', [{ path, message: 'Pick another keg' }]);
   });
 }
@@ -93,12 +97,7 @@ export async function recordCycle(
   const ev = evaluateCycle(input.steps, settings);
 
   const cycleId = await db.transaction().execute(async (trx) => {
-    const vessel = await trx
-      .selectFrom('equipment')
-      .select(['id', 'code', 'kind', 'state'])
-      .where('id', '=', input.equipmentId)
-      .forUpdate()
-      .executeTakeFirst();
+    const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.equipmentId).forUpdate().executeTakeFirst();
     if (!vessel) throw notFound('Vessel');
     if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') {
       throw unprocessable('Only fermenters and kegs have sanitation cycles.', [{ path: 'equipmentId', message: 'Pick a fermenter or a keg' }]);
@@ -122,8 +121,18 @@ export async function recordCycle(
       })
       .returning('id')
       .executeTakeFirstOrThrow();
-    await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, input.steps, settings, actor.id)).execute();
-    await drawCo2(trx, { grams: purgeGrams(input.steps, settings.co2GramsPerPurge), sourceType: 'sanitation_cycle', sourceId: cycle.id, actorId: actor.id, at: now, now });
+    await trx
+      .insertInto('sanitation_step')
+      .values(stepRows(cycle.id, ev, input.steps, settings, actor.id))
+      .execute();
+    await drawCo2(trx, {
+      grams: purgeGrams(input.steps, settings.co2GramsPerPurge),
+      sourceType: 'sanitation_cycle',
+      sourceId: cycle.id,
+      actorId: actor.id,
+      at: now,
+      now,
+    });
     await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
     await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycle.id, {
       equipmentId: vessel.id,
@@ -163,9 +172,17 @@ export async function continueCycle(
     if (!cycle) throw notFound('Sanitation cycle');
     const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', cycle.equipment_id).forUpdate().executeTakeFirstOrThrow();
     if (cycle.complete) throw conflict('This cycle is already complete; record a new one.');
-    const latest = await trx.selectFrom('sanitation_cycle').select('id').where('equipment_id', '=', vessel.id).orderBy('completed_at', 'desc').orderBy('created_at', 'desc').limit(1).executeTakeFirstOrThrow();
+    const latest = await trx
+      .selectFrom('sanitation_cycle')
+      .select('id')
+      .where('equipment_id', '=', vessel.id)
+      .orderBy('completed_at', 'desc')
+      .orderBy('created_at', 'desc')
+      .limit(1)
+      .executeTakeFirstOrThrow();
     if (latest.id !== cycle.id) throw conflict('A later cycle was recorded for this vessel; continue that one.');
-    if (vessel.state !== cycle.outcome) throw conflict(`${vessel.code} has changed since this cycle (now ${vessel.state.replace('_', ' ')}); record a new cycle.`);
+    if (vessel.state !== cycle.outcome)
+      throw conflict(`${vessel.code} has changed since this cycle (now ${vessel.state.replace('_', ' ')}); record a new cycle.`);
     const old = await trx.selectFrom('sanitation_step').selectAll().where('cycle_id', '=', cycle.id).orderBy('position').execute();
     const merged = [
       ...old.map((o) => ({
@@ -203,10 +220,25 @@ export async function continueCycle(
       .where('id', '=', cycle.id)
       .execute();
     await trx.deleteFrom('sanitation_step').where('cycle_id', '=', cycle.id).execute();
-    await trx.insertInto('sanitation_step').values(stepRows(cycle.id, ev, merged, settings, actor.id)).execute();
-    await drawCo2(trx, { grams: purgeGrams(input.steps, settings.co2GramsPerPurge), sourceType: 'sanitation_cycle', sourceId: cycle.id, actorId: actor.id, at: now, now });
+    await trx
+      .insertInto('sanitation_step')
+      .values(stepRows(cycle.id, ev, merged, settings, actor.id))
+      .execute();
+    await drawCo2(trx, {
+      grams: purgeGrams(input.steps, settings.co2GramsPerPurge),
+      sourceType: 'sanitation_cycle',
+      sourceId: cycle.id,
+      actorId: actor.id,
+      at: now,
+      now,
+    });
     await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
-    await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, { equipmentId: vessel.id, code: vessel.code, outcome: ev.outcome, added: input.steps.map((s) => s.step) });
+    await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, {
+      equipmentId: vessel.id,
+      code: vessel.code,
+      outcome: ev.outcome,
+      added: input.steps.map((s) => s.step),
+    });
     return vessel.id;
   });
   const [cycle] = await cycleViews(db, [cycleId]);
@@ -387,7 +419,15 @@ export async function listCycles(db: Database, q: SanitationCycleListQuery): Pro
       .offset((q.page - 1) * q.pageSize)
       .execute(),
   ]);
-  return { items: await cycleViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
+  return {
+    items: await cycleViews(
+      db,
+      page.map((r) => r.id),
+    ),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+  };
 }
 
 const statusSortColumn = { code: 'code', state: 'effective_state', freshUntil: 'fresh_until', lastCycleAt: 'last_cycle_at' } as const;
@@ -395,7 +435,15 @@ const statusSortColumn = { code: 'code', state: 'effective_state', freshUntil: '
 /** Every fermenter and keg with its sanitation standing, lapses applied. */
 export async function listVesselStatus(
   db: Database,
-  q: { kind?: 'fermenter' | 'keg' | undefined; state?: string | undefined; q?: string | undefined; sort: keyof typeof statusSortColumn; order: 'asc' | 'desc'; page: number; pageSize: number },
+  q: {
+    kind?: 'fermenter' | 'keg' | undefined;
+    state?: string | undefined;
+    q?: string | undefined;
+    sort: keyof typeof statusSortColumn;
+    order: 'asc' | 'desc';
+    page: number;
+    pageSize: number;
+  },
   now: Date,
 ): Promise<Page<VesselSanitationStatus>> {
   const inner = db
@@ -430,7 +478,10 @@ export async function listVesselStatus(
   }
   const sortRef = sql.ref(`v.${statusSortColumn[q.sort]}`);
   const [{ total }, rows] = await Promise.all([
-    db.selectFrom(base.as('b')).select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
+    db
+      .selectFrom(base.as('b'))
+      .select((eb) => eb.fn.countAll<number>().as('total'))
+      .executeTakeFirstOrThrow(),
     base
       .orderBy(sql`${sortRef} ${sql.raw(q.order)} nulls last`)
       .orderBy('v.code')
@@ -465,13 +516,7 @@ export async function listVesselStatus(
 }
 
 /** The rows of a cycle's steps, as the co-op's rules judged them (`ev`), from the steps as entered (`raw`). */
-export function stepRows(
-  cycleId: string,
-  ev: CycleEvaluation,
-  raw: readonly SanitationStepInput[],
-  settings: SanitationSettings,
-  actorId: string | null,
-) {
+export function stepRows(cycleId: string, ev: CycleEvaluation, raw: readonly SanitationStepInput[], settings: SanitationSettings, actorId: string | null) {
   return ev.steps.map((st, position) => {
     const entered = raw[st.index]!;
     return {

@@ -14,12 +14,7 @@ export async function setVesselState(
   actorId: string | null,
   at: Date,
 ): Promise<{ from: VesselState; to: VesselState; changed: boolean }> {
-  const row = await trx
-    .selectFrom('equipment')
-    .select('state')
-    .where('id', '=', equipmentId)
-    .forUpdate()
-    .executeTakeFirstOrThrow();
+  const row = await trx.selectFrom('equipment').select('state').where('id', '=', equipmentId).forUpdate().executeTakeFirstOrThrow();
   const from = row.state;
   if (from === toState) return { from, to: toState, changed: false };
   await writeStateChange(trx, equipmentId, from, toState, reason, actorId, at);

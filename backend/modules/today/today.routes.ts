@@ -36,7 +36,10 @@ export function todayRoutes({ db, clock }: Deps): Router {
     }
     if (ability.can('create', 'SanitationCycle')) {
       tasks.push(
-        Promise.all([cellarSection(db, now, ability.can('readOwner', 'Keg')), listMaintenance(db, { page: 1, pageSize: 10, sort: 'dueAt', order: 'asc', q: undefined }, now)]).then(([s, due]) => {
+        Promise.all([
+          cellarSection(db, now, ability.can('readOwner', 'Keg')),
+          listMaintenance(db, { page: 1, pageSize: 10, sort: 'dueAt', order: 'asc', q: undefined }, now),
+        ]).then(([s, due]) => {
           out.cellar = { ...s, inspectionsDue: { total: due.total, items: due.items } };
         }),
       );
@@ -44,7 +47,15 @@ export function todayRoutes({ db, clock }: Deps): Router {
     if (canAll(ability, 'read', 'Invoice')) {
       tasks.push(
         billingSummary(db, now).then((s) => {
-          out.money = { currency: s.currency, unpaid: s.unpaid, overdue: s.overdue, drafts: s.drafts, ageing: s.ageing, lastRun: s.lastRun, suggestedPeriod: s.suggestedPeriod };
+          out.money = {
+            currency: s.currency,
+            unpaid: s.unpaid,
+            overdue: s.overdue,
+            drafts: s.drafts,
+            ageing: s.ageing,
+            lastRun: s.lastRun,
+            suggestedPeriod: s.suggestedPeriod,
+          };
         }),
       );
     }

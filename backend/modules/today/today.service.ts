@@ -22,7 +22,14 @@ export async function memberSection(db: Database, memberId: string, now: Date): 
     db
       .selectFrom('batch')
       .leftJoinLateral(
-        (eb) => eb.selectFrom('reading').select(['reading.gravity_sg', 'reading.taken_at']).whereRef('reading.batch_id', '=', 'batch.id').orderBy('reading.taken_at', 'desc').limit(1).as('latest'),
+        (eb) =>
+          eb
+            .selectFrom('reading')
+            .select(['reading.gravity_sg', 'reading.taken_at'])
+            .whereRef('reading.batch_id', '=', 'batch.id')
+            .orderBy('reading.taken_at', 'desc')
+            .limit(1)
+            .as('latest'),
         (join) => join.onTrue(),
       )
       .select(['batch.id', 'batch.name', 'batch.style', 'batch.status', 'latest.gravity_sg', 'latest.taken_at'])

@@ -75,7 +75,10 @@ export async function gravityStability(db: Database, batchId: string, at: Date):
 export function gravityNotStable(batchName: string, s: GravityStability): HttpProblem {
   const last = s.readings.map((r) => `${r.sg.toFixed(3)} on ${r.takenAt.slice(0, 10)}`).join(', ');
   const needs = `the same gravity within ±${s.toleranceSg.toFixed(3)} over ${s.spanDays} day${s.spanDays === 1 ? '' : 's'}`;
-  const seen = s.readings.length < 2 ? `it has ${s.readings.length === 0 ? 'no readings' : 'one reading'}` : `the latest gravity has held ${s.heldDays} day${s.heldDays === 1 ? '' : 's'} (readings: ${last})`;
+  const seen =
+    s.readings.length < 2
+      ? `it has ${s.readings.length === 0 ? 'no readings' : 'one reading'}`
+      : `the latest gravity has held ${s.heldDays} day${s.heldDays === 1 ? '' : 's'} (readings: ${last})`;
   return new HttpProblem(
     422,
     'Gravity not stable',
@@ -100,207 +103,241 @@ function shareEvenly(total: number, n: number): number[] {
  * copied), the fermenter becomes `needs_cleaning`, the batch is marked packaged, and the audit
  * trail notes it.
  */
-export async function recordTransfer(db: Database, input: CreateTransferInput, actor: { id: string }, now: Date): Promise<{ transfer: TransferView; warnings: string[] }> {
+export async function recordTransfer(
+  db: Database,
+  input: CreateTransferInput,
+  actor: { id: string },
+  now: Date,
+): Promise<{ transfer: TransferView; warnings: string[] }> {
   // With start and end times, the end is the transfer's time and may not be after the clock's now.
   // A start without an end ends now (recorded as it finishes).
   const startedAt = input.startedAt ? new Date(input.startedAt) : null;
   const endedAt = input.endedAt ? new Date(input.endedAt) : startedAt ? now : null;
-  if (endedAt && endedAt.getTime() > now.getTime()) throw unprocessable('A transfer cannot end in the future.', [{ path: 'endedAt', message: 'This time is in the future' }]);
-  if (startedAt && endedAt && startedAt.getTime() >= endedAt.getTime()) throw unprocessable('A transfer starts before it ends.', [{ path: 'startedAt', message: 'The start must be before the end' }]);
+  if (endedAt && endedAt.getTime() > now.getTime())
+    throw unprocessable('A transfer cannot end in the future.', [{ path: 'endedAt', message: 'This time is in the future' }]);
+  if (startedAt && endedAt && startedAt.getTime() >= endedAt.getTime())
+    throw unprocessable('A transfer starts before it ends.', [{ path: 'startedAt', message: 'The start must be before the end' }]);
   if (startedAt && endedAt && endedAt.getTime() - startedAt.getTime() > TRANSFER_MAX_HOURS * 3_600_000) {
     throw unprocessable(`A transfer takes at most ${TRANSFER_MAX_HOURS} hours.`, [{ path: 'startedAt', message: 'Check the dates' }]);
   }
   const at = endedAt ?? (input.transferredAt ? new Date(input.transferredAt) : now);
-  if (at.getTime() > now.getTime() + FUTURE_SLACK_MS) throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
+  if (at.getTime() > now.getTime() + FUTURE_SLACK_MS)
+    throw unprocessable('A transfer cannot be recorded in the future.', [{ path: 'transferredAt', message: 'This time is in the future' }]);
   const settings = await sanitationSettings(db);
 
   const transferId = await db
     .transaction()
     .execute(async (trx) => {
-    const batch = await trx.selectFrom('batch').select(['id', 'name', 'status', 'owner_id']).where('id', '=', input.batchId).forUpdate().executeTakeFirst();
-    if (!batch) throw notFound('Batch');
-    if (batch.status === 'planned') throw conflict(`${batch.name} has not been brewed yet.`);
-    if (batch.status === 'discarded') throw conflict(`${batch.name} was discarded.`);
-    // The guard: beer whose gravity is not yet stable goes into kegs only with a reason.
-    const stability = await gravityStability(trx, batch.id, startedAt ?? at);
-    if (!stability.stable && !input.unstableGravityReason) throw gravityNotStable(batch.name, stability);
+      const batch = await trx.selectFrom('batch').select(['id', 'name', 'status', 'owner_id']).where('id', '=', input.batchId).forUpdate().executeTakeFirst();
+      if (!batch) throw notFound('Batch');
+      if (batch.status === 'planned') throw conflict(`${batch.name} has not been brewed yet.`);
+      if (batch.status === 'discarded') throw conflict(`${batch.name} was discarded.`);
+      // The guard: beer whose gravity is not yet stable goes into kegs only with a reason.
+      const stability = await gravityStability(trx, batch.id, startedAt ?? at);
+      if (!stability.stable && !input.unstableGravityReason) throw gravityNotStable(batch.name, stability);
 
-    const fermenter = await trx
-      .selectFrom('equipment')
-      .select(['id', 'code', 'kind', 'state', 'attributes'])
-      .where('id', '=', input.fromEquipmentId)
-      .forUpdate()
-      .executeTakeFirst();
-    if (!fermenter) throw notFound('Fermenter');
-    if (fermenter.kind !== 'fermenter') throw unprocessable('Beer is transferred from a fermenter.', [{ path: 'fromEquipmentId', message: 'Pick a fermenter' }]);
-    if (fermenter.state === 'out_of_service') throw conflict(`${fermenter.code} is out of service.`);
+      const fermenter = await trx
+        .selectFrom('equipment')
+        .select(['id', 'code', 'kind', 'state', 'attributes'])
+        .where('id', '=', input.fromEquipmentId)
+        .forUpdate()
+        .executeTakeFirst();
+      if (!fermenter) throw notFound('Fermenter');
+      if (fermenter.kind !== 'fermenter')
+        throw unprocessable('Beer is transferred from a fermenter.', [{ path: 'fromEquipmentId', message: 'Pick a fermenter' }]);
+      if (fermenter.state === 'out_of_service') throw conflict(`${fermenter.code} is out of service.`);
 
-    // Lock the kegs in a fixed order so two transfers never deadlock.
-    const kegs = await trx
-      .selectFrom('equipment as e')
-      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
-      .select((eb) => [
-        'e.id',
-        'e.code',
-        'e.kind',
-        'e.state',
-        'e.capacity_liters',
-        'kw.whereabouts',
-        eb
-          .selectFrom('sanitation_cycle as c')
-          .select('c.id')
-          .whereRef('c.equipment_id', '=', 'e.id')
-          .orderBy('c.completed_at', 'desc')
-          .limit(1)
-          .as('last_cycle_id'),
-      ])
-      .where('e.id', 'in', input.toKegIds)
-      .orderBy('e.id')
-      .forUpdate('e')
-      .execute();
-    const missing = input.toKegIds.filter((id) => !kegs.some((k) => k.id === id));
-    if (missing.length) throw unprocessable('Unknown keg.', missing.map((id) => ({ path: `toKegIds.${input.toKegIds.indexOf(id)}`, message: 'No such keg' })));
-    const notKeg = kegs.find((k) => k.kind !== 'keg');
-    if (notKeg) throw unprocessable(`${notKeg.code} is not a keg.`, [{ path: `toKegIds.${input.toKegIds.indexOf(notKeg.id)}`, message: 'Pick a keg' }]);
-    // A keg whose pressure test, relief-valve check or seals are past due (or failed) is not filled.
-    await assertInspected(trx, kegs, 'filled', now);
+      // Lock the kegs in a fixed order so two transfers never deadlock.
+      const kegs = await trx
+        .selectFrom('equipment as e')
+        .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
+        .select((eb) => [
+          'e.id',
+          'e.code',
+          'e.kind',
+          'e.state',
+          'e.capacity_liters',
+          'kw.whereabouts',
+          eb
+            .selectFrom('sanitation_cycle as c')
+            .select('c.id')
+            .whereRef('c.equipment_id', '=', 'e.id')
+            .orderBy('c.completed_at', 'desc')
+            .limit(1)
+            .as('last_cycle_id'),
+        ])
+        .where('e.id', 'in', input.toKegIds)
+        .orderBy('e.id')
+        .forUpdate('e')
+        .execute();
+      const missing = input.toKegIds.filter((id) => !kegs.some((k) => k.id === id));
+      if (missing.length)
+        throw unprocessable(
+          'Unknown keg.',
+          missing.map((id) => ({ path: `toKegIds.${input.toKegIds.indexOf(id)}`, message: 'No such keg' })),
+        );
+      const notKeg = kegs.find((k) => k.kind !== 'keg');
+      if (notKeg) throw unprocessable(`${notKeg.code} is not a keg.`, [{ path: `toKegIds.${input.toKegIds.indexOf(notKeg.id)}`, message: 'Pick a keg' }]);
+      // A keg whose pressure test, relief-valve check or seals are past due (or failed) is not filled.
+      await assertInspected(trx, kegs, 'filled', now);
 
-    const lastIds = kegs.map((k) => k.last_cycle_id).filter((v): v is string => Boolean(v));
-    const cycles = lastIds.length
-      ? await trx.selectFrom('sanitation_cycle').select(['id', 'complete', 'fresh_until', 'completed_at']).where('id', 'in', lastIds).execute()
-      : [];
-    const cycleById = new Map(cycles.map((c) => [c.id, c]));
-    const refused: { id: string; code: string; state: string; reason: string }[] = [];
-    for (const k of kegs) {
-      const c = k.last_cycle_id ? cycleById.get(k.last_cycle_id) : undefined;
-      let reason: string | null = null;
-      if (k.state !== 'ready') reason = `it is ${k.state.replace('_', ' ')}`;
-      else if (!c) reason = 'it has no sanitation cycle on record';
-      else if (!c.complete) reason = 'its last sanitation cycle is incomplete';
-      else if (!c.fresh_until || new Date(c.fresh_until).getTime() <= at.getTime()) reason = 'its freshness window has lapsed';
-      else if (new Date(c.completed_at).getTime() > at.getTime()) reason = 'it was sanitized after the transfer time';
-      else if (k.whereabouts === 'with_member' || k.whereabouts === 'missing') reason = `it is ${k.whereabouts === 'missing' ? 'missing' : 'out with a member'}`;
-      if (reason) refused.push({ id: k.id, code: k.code, state: k.state, reason });
-    }
-    if (refused.length) {
-      throw conflict(`Not ready to fill: ${refused.map((r) => `${r.code} (${r.reason})`).join('; ')}. Record a complete sanitation cycle first.`, { kegs: refused });
-    }
-
-    // Volumes: per keg as given, or the volume less the loss shared evenly.
-    const ordered = input.toKegIds.map((id) => kegs.find((k) => k.id === id)!);
-    let perKeg: number[];
-    let loss: number;
-    if (input.kegVolumesLiters) {
-      perKeg = input.kegVolumesLiters.map(round2);
-      const sum = round2(perKeg.reduce((s, v) => s + v, 0));
-      loss = round2(input.volumeLiters - sum);
-      if (loss < 0) throw unprocessable('The kegs hold more than was drawn from the fermenter.', [{ path: 'kegVolumesLiters', message: `They add up to ${sum} L, more than ${input.volumeLiters} L` }]);
-    } else {
-      loss = round2(input.lossLiters ?? 0);
-      if (loss >= input.volumeLiters) throw unprocessable('The loss is the whole volume.', [{ path: 'lossLiters', message: 'Less than the volume drawn' }]);
-      perKeg = shareEvenly(round2(input.volumeLiters - loss), ordered.length);
-    }
-    ordered.forEach((k, i) => {
-      const cap = num(k.capacity_liters);
-      if (cap !== null && perKeg[i]! > cap) {
-        throw unprocessable(`${k.code} holds ${cap} L.`, [{ path: input.kegVolumesLiters ? `kegVolumesLiters.${i}` : 'volumeLiters', message: `${k.code} holds at most ${cap} L` }]);
+      const lastIds = kegs.map((k) => k.last_cycle_id).filter((v): v is string => Boolean(v));
+      const cycles = lastIds.length
+        ? await trx.selectFrom('sanitation_cycle').select(['id', 'complete', 'fresh_until', 'completed_at']).where('id', 'in', lastIds).execute()
+        : [];
+      const cycleById = new Map(cycles.map((c) => [c.id, c]));
+      const refused: { id: string; code: string; state: string; reason: string }[] = [];
+      for (const k of kegs) {
+        const c = k.last_cycle_id ? cycleById.get(k.last_cycle_id) : undefined;
+        let reason: string | null = null;
+        if (k.state !== 'ready') reason = `it is ${k.state.replace('_', ' ')}`;
+        else if (!c) reason = 'it has no sanitation cycle on record';
+        else if (!c.complete) reason = 'its last sanitation cycle is incomplete';
+        else if (!c.fresh_until || new Date(c.fresh_until).getTime() <= at.getTime()) reason = 'its freshness window has lapsed';
+        else if (new Date(c.completed_at).getTime() > at.getTime()) reason = 'it was sanitized after the transfer time';
+        else if (k.whereabouts === 'with_member' || k.whereabouts === 'missing')
+          reason = `it is ${k.whereabouts === 'missing' ? 'missing' : 'out with a member'}`;
+        if (reason) refused.push({ id: k.id, code: k.code, state: k.state, reason });
       }
-    });
-    const packaged = round2(perKeg.reduce((s, v) => s + v, 0));
-    const volume = round2(packaged + loss);
+      if (refused.length) {
+        throw conflict(`Not ready to fill: ${refused.map((r) => `${r.code} (${r.reason})`).join('; ')}. Record a complete sanitation cycle first.`, {
+          kegs: refused,
+        });
+      }
 
-    const attrs = (fermenter.attributes ?? {}) as Record<string, unknown>;
-    const method: DrawMethod = input.checklist.drawMethod ?? (attrs.hasValve === false ? 'siphon' : 'bottom_valve');
-    const finings = input.finings
-      ? {
-          kind: input.finings.kind,
-          amount: round2(input.finings.amount ?? input.finings.dose!),
-          unit: input.finings.unit ?? (/silica|liquid/i.test(input.finings.kind) ? ('mL' as const) : ('g' as const)),
+      // Volumes: per keg as given, or the volume less the loss shared evenly.
+      const ordered = input.toKegIds.map((id) => kegs.find((k) => k.id === id)!);
+      let perKeg: number[];
+      let loss: number;
+      if (input.kegVolumesLiters) {
+        perKeg = input.kegVolumesLiters.map(round2);
+        const sum = round2(perKeg.reduce((s, v) => s + v, 0));
+        loss = round2(input.volumeLiters - sum);
+        if (loss < 0)
+          throw unprocessable('The kegs hold more than was drawn from the fermenter.', [
+            { path: 'kegVolumesLiters', message: `They add up to ${sum} L, more than ${input.volumeLiters} L` },
+          ]);
+      } else {
+        loss = round2(input.lossLiters ?? 0);
+        if (loss >= input.volumeLiters) throw unprocessable('The loss is the whole volume.', [{ path: 'lossLiters', message: 'Less than the volume drawn' }]);
+        perKeg = shareEvenly(round2(input.volumeLiters - loss), ordered.length);
+      }
+      ordered.forEach((k, i) => {
+        const cap = num(k.capacity_liters);
+        if (cap !== null && perKeg[i]! > cap) {
+          throw unprocessable(`${k.code} holds ${cap} L.`, [
+            { path: input.kegVolumesLiters ? `kegVolumesLiters.${i}` : 'volumeLiters', message: `${k.code} holds at most ${cap} L` },
+          ]);
         }
-      : null;
-    const unconfirmed = unconfirmedItems(input.checklist, method, Boolean(finings));
-    const co2 = input.co2Grams ?? settings.co2GramsPerKegFill * ordered.length;
+      });
+      const packaged = round2(perKeg.reduce((s, v) => s + v, 0));
+      const volume = round2(packaged + loss);
 
-    // The batch is packaged from here on: its FG is the latest reading.
-    await trx.updateTable('batch').set({ status: 'packaged', updated_at: now }).where('id', '=', batch.id).execute();
-    const figures = await batchGravityFigures(trx, batch.id, now);
-    const og = figures?.og ?? null;
-    const fg = figures?.fg ?? null;
-    const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;
+      const attrs = (fermenter.attributes ?? {}) as Record<string, unknown>;
+      const method: DrawMethod = input.checklist.drawMethod ?? (attrs.hasValve === false ? 'siphon' : 'bottom_valve');
+      const finings = input.finings
+        ? {
+            kind: input.finings.kind,
+            amount: round2(input.finings.amount ?? input.finings.dose!),
+            unit: input.finings.unit ?? (/silica|liquid/i.test(input.finings.kind) ? ('mL' as const) : ('g' as const)),
+          }
+        : null;
+      const unconfirmed = unconfirmedItems(input.checklist, method, Boolean(finings));
+      const co2 = input.co2Grams ?? settings.co2GramsPerKegFill * ordered.length;
 
-    const transfer = await trx
-      .insertInto('transfer')
-      .values({
-        batch_id: batch.id,
-        from_equipment_id: fermenter.id,
-        volume_liters: volume,
-        packaged_liters: packaged,
-        loss_liters: loss,
-        draw_method: method,
-        checklist: JSON.stringify({ ...input.checklist, drawMethod: method, unconfirmed }),
-        finings_kind: finings?.kind ?? null,
-        finings_amount: finings?.amount ?? null,
-        finings_unit: finings?.unit ?? null,
-        co2_grams: co2,
-        og,
-        fg,
-        abv,
-        transferred_at: at,
-        started_at: startedAt,
-        ended_at: endedAt,
-        unstable_gravity_reason: stability.stable ? null : input.unstableGravityReason!,
-        dissolved_oxygen_ppb: input.dissolvedOxygenPpb ?? null,
-        recorded_by: actor.id,
-        notes: input.notes ?? '',
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+      // The batch is packaged from here on: its FG is the latest reading.
+      await trx.updateTable('batch').set({ status: 'packaged', updated_at: now }).where('id', '=', batch.id).execute();
+      const figures = await batchGravityFigures(trx, batch.id, now);
+      const og = figures?.og ?? null;
+      const fg = figures?.fg ?? null;
+      const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;
 
-    const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
-    const bestBefore = await fillBestBefore(trx, batch.id, at);
-    for (const [i, k] of ordered.entries()) {
-      const fill = await trx
-        .insertInto('keg_fill')
+      const transfer = await trx
+        .insertInto('transfer')
         .values({
-          transfer_id: transfer.id,
-          keg_id: k.id,
           batch_id: batch.id,
-          volume_liters: perKeg[i]!,
-          remaining_liters: perKeg[i]!,
+          from_equipment_id: fermenter.id,
+          volume_liters: volume,
+          packaged_liters: packaged,
+          loss_liters: loss,
+          draw_method: method,
+          checklist: JSON.stringify({ ...input.checklist, drawMethod: method, unconfirmed }),
+          finings_kind: finings?.kind ?? null,
+          finings_amount: finings?.amount ?? null,
+          finings_unit: finings?.unit ?? null,
+          co2_grams: co2,
           og,
           fg,
           abv,
-          sanitation_cycle_id: k.last_cycle_id,
-          co2_grams: perKegCo2,
-          filled_at: at,
-          best_before: bestBefore,
-          dissolved_oxygen_ppb: input.kegDissolvedOxygenPpb?.[i] ?? null,
+          transferred_at: at,
+          started_at: startedAt,
+          ended_at: endedAt,
+          unstable_gravity_reason: stability.stable ? null : input.unstableGravityReason!,
+          dissolved_oxygen_ppb: input.dissolvedOxygenPpb ?? null,
+          recorded_by: actor.id,
+          notes: input.notes ?? '',
         })
         .returning('id')
         .executeTakeFirstOrThrow();
-      // The CO2 billed for the fill comes off the connected cylinder.
-      await drawCo2(trx, { grams: perKegCo2, sourceType: 'keg_fill', sourceId: fill.id, actorId: actor.id, at, now });
-      await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);
-    }
-    await setVesselState(trx, fermenter.id, 'needs_cleaning', `Emptied by transfer of ${batch.name} to ${ordered.map((k) => k.code).join(', ')}`, actor.id, now);
 
-    const totals = await trx.selectFrom('transfer').select((eb) => eb.fn.sum<number>('packaged_liters').as('liters')).where('batch_id', '=', batch.id).executeTakeFirstOrThrow();
-    await trx
-      .updateTable('batch')
-      .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: now })
-      .where('id', '=', batch.id)
-      .execute();
+      const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
+      const bestBefore = await fillBestBefore(trx, batch.id, at);
+      for (const [i, k] of ordered.entries()) {
+        const fill = await trx
+          .insertInto('keg_fill')
+          .values({
+            transfer_id: transfer.id,
+            keg_id: k.id,
+            batch_id: batch.id,
+            volume_liters: perKeg[i]!,
+            remaining_liters: perKeg[i]!,
+            og,
+            fg,
+            abv,
+            sanitation_cycle_id: k.last_cycle_id,
+            co2_grams: perKegCo2,
+            filled_at: at,
+            best_before: bestBefore,
+            dissolved_oxygen_ppb: input.kegDissolvedOxygenPpb?.[i] ?? null,
+          })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        // The CO2 billed for the fill comes off the connected cylinder.
+        await drawCo2(trx, { grams: perKegCo2, sourceType: 'keg_fill', sourceId: fill.id, actorId: actor.id, at, now });
+        await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);
+      }
+      await setVesselState(
+        trx,
+        fermenter.id,
+        'needs_cleaning',
+        `Emptied by transfer of ${batch.name} to ${ordered.map((k) => k.code).join(', ')}`,
+        actor.id,
+        now,
+      );
 
-    await audit(trx, actor.id, 'recorded', 'Transfer', transfer.id, {
-      batchId: batch.id,
-      from: fermenter.code,
-      kegs: ordered.map((k) => k.code),
-      volumeLiters: volume,
-      lossLiters: loss,
-      unconfirmed,
-      ...(stability.stable ? {} : { unstableGravityReason: input.unstableGravityReason, stability: { heldDays: stability.heldDays, spanDays: stability.spanDays } }),
-    });
-    return transfer.id;
+      const totals = await trx
+        .selectFrom('transfer')
+        .select((eb) => eb.fn.sum<number>('packaged_liters').as('liters'))
+        .where('batch_id', '=', batch.id)
+        .executeTakeFirstOrThrow();
+      await trx
+        .updateTable('batch')
+        .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: now })
+        .where('id', '=', batch.id)
+        .execute();
+
+      await audit(trx, actor.id, 'recorded', 'Transfer', transfer.id, {
+        batchId: batch.id,
+        from: fermenter.code,
+        kegs: ordered.map((k) => k.code),
+        volumeLiters: volume,
+        lossLiters: loss,
+        unconfirmed,
+        ...(stability.stable
+          ? {}
+          : { unstableGravityReason: input.unstableGravityReason, stability: { heldDays: stability.heldDays, spanDays: stability.spanDays } }),
+      });
+      return transfer.id;
     })
     .catch((err: unknown) => {
       // A keg filled meanwhile by another transfer: its open-fill index refuses the second one.
@@ -413,7 +450,10 @@ export async function listTransfers(db: Database, q: TransferListQuery, ownerId?
   if (ownerId) base = base.where('b.owner_id', '=', ownerId);
   if (q.batchId) base = base.where('t.batch_id', '=', q.batchId);
   if (q.fromEquipmentId) base = base.where('t.from_equipment_id', '=', q.fromEquipmentId);
-  if (q.kegId) base = base.where((eb) => eb.exists(eb.selectFrom('keg_fill as kf').select('kf.id').whereRef('kf.transfer_id', '=', 't.id').where('kf.keg_id', '=', q.kegId!)));
+  if (q.kegId)
+    base = base.where((eb) =>
+      eb.exists(eb.selectFrom('keg_fill as kf').select('kf.id').whereRef('kf.transfer_id', '=', 't.id').where('kf.keg_id', '=', q.kegId!)),
+    );
   if (q.from) base = base.where('t.transferred_at', '>=', boundFrom(q.from));
   if (q.to) base = base.where('t.transferred_at', '<', boundTo(q.to));
   if (q.q) {
@@ -422,9 +462,23 @@ export async function listTransfers(db: Database, q: TransferListQuery, ownerId?
   }
   const [{ total }, page] = await Promise.all([
     base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base.select('t.id').orderBy(transferSort[q.sort], q.order).orderBy('t.id').limit(q.pageSize).offset((q.page - 1) * q.pageSize).execute(),
+    base
+      .select('t.id')
+      .orderBy(transferSort[q.sort], q.order)
+      .orderBy('t.id')
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .execute(),
   ]);
-  return { items: await transferViews(db, page.map((r) => r.id)), total, page: q.page, pageSize: q.pageSize };
+  return {
+    items: await transferViews(
+      db,
+      page.map((r) => r.id),
+    ),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+  };
 }
 
 export interface TransferCandidate {
@@ -458,7 +512,19 @@ export async function transferCandidates(db: Database, now: Date): Promise<Trans
           .as('f'),
       (join) => join.onTrue(),
     )
-    .select(['b.id', 'b.name', 'b.style', 'b.status', 'b.volume_liters', 'u.name as owner_name', 'f.id as f_id', 'f.code as f_code', 'f.name as f_name', 'f.state as f_state', 'f.attributes as f_attributes'])
+    .select([
+      'b.id',
+      'b.name',
+      'b.style',
+      'b.status',
+      'b.volume_liters',
+      'u.name as owner_name',
+      'f.id as f_id',
+      'f.code as f_code',
+      'f.name as f_name',
+      'f.state as f_state',
+      'f.attributes as f_attributes',
+    ])
     .where('b.status', 'in', ['fermenting', 'conditioning'])
     .orderBy('f.code')
     .orderBy('b.name')

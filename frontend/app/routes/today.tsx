@@ -65,7 +65,8 @@ const TodayRoute = () => {
             Running the co-op
           </h2>
           <p className="text-sm">
-            <Link to={paths.members}>Members and roles</Link> · <Link to={paths.cellar}>Equipment registry</Link> · <Link to={paths.settings}>Co-op settings</Link>
+            <Link to={paths.members}>Members and roles</Link> · <Link to={paths.cellar}>Equipment registry</Link> ·{' '}
+            <Link to={paths.settings}>Co-op settings</Link>
           </p>
         </section>
       ) : null}

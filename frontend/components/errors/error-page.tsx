@@ -6,10 +6,7 @@ import { useDocumentTitle } from '@/hooks/use-document-title';
 import { isApiProblem, networkProblemStatus } from '@/lib/api-client';
 
 function isChunkLoadError(error: unknown): boolean {
-  return (
-    error instanceof Error &&
-    /dynamically imported module|Importing a module script failed|error loading dynamically/i.test(error.message)
-  );
+  return error instanceof Error && /dynamically imported module|Importing a module script failed|error loading dynamically/i.test(error.message);
 }
 
 function describe(error: unknown): { title: string; text: string; status?: number } {
@@ -64,9 +61,7 @@ export const ErrorPage = ({ inFrame = false }: ErrorPageProps) => {
       </h1>
       {text ? <p className="mt-2 text-ink-muted">{text}</p> : null}
       {import.meta.env.DEV && error instanceof Error ? (
-        <pre className="mt-4 overflow-auto rounded-md border border-line bg-surface p-3 text-xs text-ink-muted">
-          {error.stack ?? error.message}
-        </pre>
+        <pre className="mt-4 overflow-auto rounded-md border border-line bg-surface p-3 text-xs text-ink-muted">{error.stack ?? error.message}</pre>
       ) : null}
       <div className="mt-6 flex flex-wrap gap-2">
         <Button onClick={() => window.location.reload()}>Reload</Button>

@@ -9,9 +9,7 @@ export const Forbidden = ({ what = 'This page' }: { what?: string }) => {
   return (
     <section className="max-w-xl">
       <h1 className="text-2xl">Not for your role</h1>
-      <p className="mt-2 text-ink-muted">
-        {what} is for the co-op's admin. If you need it, ask an admin to add the role to your account.
-      </p>
+      <p className="mt-2 text-ink-muted">{what} is for the co-op's admin. If you need it, ask an admin to add the role to your account.</p>
       <Link to={paths.today} className={buttonClasses('secondary', 'md', 'mt-6')}>
         Go to Today
       </Link>

@@ -13,9 +13,7 @@ import { cn } from '@/utils/cn';
 const navLinkClass = ({ isActive }: { isActive: boolean }) =>
   cn(
     'flex min-h-11 items-center rounded-md px-3 text-sm font-medium no-underline hover:no-underline lg:min-h-8 pointer-coarse:min-h-11',
-    isActive
-      ? 'bg-surface text-ink shadow-[inset_3px_0_0] shadow-copper'
-      : 'text-ink-muted hover:bg-ground-deep hover:text-ink',
+    isActive ? 'bg-surface text-ink shadow-[inset_3px_0_0] shadow-copper' : 'text-ink-muted hover:bg-ground-deep hover:text-ink',
   );
 
 const NavList = ({ entries, nested = false }: { entries: NavEntry[]; nested?: boolean }) => (
@@ -69,10 +67,7 @@ export const AppFrame = () => {
 
   return (
     <div className="flex min-h-dvh flex-col">
-      <a
-        href="#main"
-        className="sr-only z-50 rounded-md bg-surface px-3 py-2 focus:not-sr-only focus:fixed focus:top-2 focus:left-2"
-      >
+      <a href="#main" className="sr-only z-50 rounded-md bg-surface px-3 py-2 focus:not-sr-only focus:fixed focus:top-2 focus:left-2">
         Skip to content
       </a>
       <div
@@ -84,13 +79,7 @@ export const AppFrame = () => {
       />
       <header className="sticky top-0 z-30 border-b border-line bg-ground/95 backdrop-blur">
         <div className="flex h-14 items-center gap-3 px-3 lg:px-5">
-          <Button
-            variant="ghost"
-            className="lg:hidden"
-            aria-expanded={menuOpen}
-            aria-controls={menuId}
-            onClick={() => setMenuOpen((open) => !open)}
-          >
+          <Button variant="ghost" className="lg:hidden" aria-expanded={menuOpen} aria-controls={menuId} onClick={() => setMenuOpen((open) => !open)}>
             <svg viewBox="0 0 16 16" className="size-4" aria-hidden="true">
               {menuOpen ? (
                 <path d="M4 4l8 8M12 4l-8 8" stroke="currentColor" strokeWidth="1.6" strokeLinecap="round" />
@@ -125,9 +114,7 @@ export const AppFrame = () => {
           aria-label="Main"
           className={cn(
             'border-line lg:sticky lg:top-14 lg:block lg:h-[calc(100dvh-3.5rem)] lg:w-52 lg:shrink-0 lg:overflow-y-auto lg:border-r lg:bg-ground-deep/60',
-            menuOpen
-              ? 'fixed inset-x-0 top-14 bottom-0 z-20 block overflow-y-auto border-t bg-ground lg:static lg:border-t-0'
-              : 'hidden',
+            menuOpen ? 'fixed inset-x-0 top-14 bottom-0 z-20 block overflow-y-auto border-t bg-ground lg:static lg:border-t-0' : 'hidden',
           )}
         >
           <div className="flex flex-col gap-4 p-3">

@@ -18,10 +18,7 @@ export interface AlertProps {
 
 /** Errors are announced at once (role=alert); other notes politely (role=status). */
 export const Alert = ({ tone = 'info', title, className, children }: AlertProps) => (
-  <div
-    role={tone === 'error' ? 'alert' : 'status'}
-    className={cn('rounded-md border px-3 py-2 text-sm', tones[tone], className)}
-  >
+  <div role={tone === 'error' ? 'alert' : 'status'} className={cn('rounded-md border px-3 py-2 text-sm', tones[tone], className)}>
     {title ? <p className="font-semibold">{title}</p> : null}
     {children ? <div className={cn(title ? 'mt-0.5' : undefined)}>{children}</div> : null}
   </div>

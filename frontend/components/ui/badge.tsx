@@ -20,13 +20,7 @@ export interface BadgeProps {
 }
 
 export const Badge = ({ tone = 'neutral', className, children }: BadgeProps) => (
-  <span
-    className={cn(
-      'inline-flex items-center rounded-sm border px-1.5 py-px text-xs leading-5 font-medium whitespace-nowrap',
-      tones[tone],
-      className,
-    )}
-  >
+  <span className={cn('inline-flex items-center rounded-sm border px-1.5 py-px text-xs leading-5 font-medium whitespace-nowrap', tones[tone], className)}>
     {children}
   </span>
 );

@@ -34,24 +34,8 @@ export interface ButtonProps extends ComponentProps<'button'> {
   icon?: ReactNode;
 }
 
-export const Button = ({
-  variant = 'primary',
-  size = 'md',
-  pending = false,
-  icon,
-  className,
-  disabled,
-  children,
-  type = 'button',
-  ...props
-}: ButtonProps) => (
-  <button
-    type={type}
-    className={buttonClasses(variant, size, className)}
-    disabled={disabled || pending}
-    aria-busy={pending || undefined}
-    {...props}
-  >
+export const Button = ({ variant = 'primary', size = 'md', pending = false, icon, className, disabled, children, type = 'button', ...props }: ButtonProps) => (
+  <button type={type} className={buttonClasses(variant, size, className)} disabled={disabled || pending} aria-busy={pending || undefined} {...props}>
     {pending ? <Spinner className="size-4" /> : icon}
     {children}
   </button>

@@ -88,9 +88,7 @@ const HeaderCell = <T,>({ header }: { header: Header<T, unknown> }) => {
         >
           {content}
           <SortIcon direction={direction} />
-          <span className="sr-only">
-            {direction === 'asc' ? ', sorted ascending' : direction === 'desc' ? ', sorted descending' : ', sortable'}
-          </span>
+          <span className="sr-only">{direction === 'asc' ? ', sorted ascending' : direction === 'desc' ? ', sorted descending' : ', sortable'}</span>
         </button>
       ) : (
         content
@@ -172,10 +170,7 @@ export const DataTable = <T,>({
                   <td
                     key={cell.id}
                     data-label={cellLabel(cell.column.columnDef)}
-                    className={cn(
-                      'border-b border-line px-3 py-1.5 align-middle group-last:border-b-0',
-                      cell.column.columnDef.meta?.className,
-                    )}
+                    className={cn('border-b border-line px-3 py-1.5 align-middle group-last:border-b-0', cell.column.columnDef.meta?.className)}
                   >
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
@@ -229,11 +224,7 @@ export const DataTablePagination = ({
         {onPageSizeChange ? (
           <label className="flex items-center gap-2">
             <span>Per page</span>
-            <Select
-              value={pageSize}
-              onChange={(event) => onPageSizeChange(Number(event.target.value))}
-              className="w-20"
-            >
+            <Select value={pageSize} onChange={(event) => onPageSizeChange(Number(event.target.value))} className="w-20">
               {pageSizeOptions.map((size) => (
                 <option key={size} value={size}>
                   {size}
@@ -245,12 +236,7 @@ export const DataTablePagination = ({
         <Button variant="secondary" size="sm" onClick={() => onPageChange(page - 1)} disabled={page <= 1}>
           Previous
         </Button>
-        <Button
-          variant="secondary"
-          size="sm"
-          onClick={() => onPageChange(page + 1)}
-          disabled={page >= pageCount || isPlaceholder}
-        >
+        <Button variant="secondary" size="sm" onClick={() => onPageChange(page + 1)} disabled={page >= pageCount || isPlaceholder}>
           Next
         </Button>
       </div>

@@ -1,11 +1,4 @@
-import {
-  getCoreRowModel,
-  useReactTable,
-  type ColumnDef,
-  type SortingState,
-  type TableOptions,
-  type Updater,
-} from '@tanstack/react-table';
+import { getCoreRowModel, useReactTable, type ColumnDef, type SortingState, type TableOptions, type Updater } from '@tanstack/react-table';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 
 export interface ServerTableQuery<S extends string> {

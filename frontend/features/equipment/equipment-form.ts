@@ -48,7 +48,15 @@ type Quantity = keyof typeof toDisplay | 'none';
 export const attributeQuantities: Record<EquipmentKind, Partial<Record<keyof AttributeFormValues, Quantity>>> = {
   fermenter: { style: 'none', hasValve: 'none' },
   keg: { serial: 'none', lock: 'none', ratedPressureKpa: 'pressure' },
-  tap: { position: 'none', lineLengthM: 'length', lineInsideDiameterMm: 'smallLength', lineMaterial: 'none', lineResistanceKpaPerM: 'none', riseM: 'length', coldRoomTempC: 'temperature' },
+  tap: {
+    position: 'none',
+    lineLengthM: 'length',
+    lineInsideDiameterMm: 'smallLength',
+    lineMaterial: 'none',
+    lineResistanceKpaPerM: 'none',
+    riseM: 'length',
+    coldRoomTempC: 'temperature',
+  },
   co2_cylinder: { sizeKg: 'mass', fillPercent: 'none', hydroTestDue: 'none' },
 };
 
@@ -135,7 +143,11 @@ function friendlier(errors: FieldErrors<EquipmentFormValues>, values: EquipmentF
  * react-hook-form resolver over a shared schema: converts the form to API values, lets the schema parse them
  * (`TOutput` is what `handleSubmit` hands on, ready to send).
  */
-export function equipmentResolver<TOutput>(schema: z.ZodType<TOutput>, units: UnitSystem, initial?: Equipment): Resolver<EquipmentFormValues, unknown, TOutput> {
+export function equipmentResolver<TOutput>(
+  schema: z.ZodType<TOutput>,
+  units: UnitSystem,
+  initial?: Equipment,
+): Resolver<EquipmentFormValues, unknown, TOutput> {
   const inner = zodResolver(schema as never) as unknown as Resolver<Record<string, unknown>, unknown, TOutput>;
   return async (values, context, options) => {
     const result = await inner(toApiValues(values, units, initial), context, options as never);
@@ -155,14 +167,23 @@ export function applyEquipmentProblem(error: unknown, setError: UseFormSetError<
     return [];
   }
   const rest = error.errors.filter((item) => {
-    const path = item.path.replace(/^#?\//, '').replace(/\//g, '.').replace(/^body\./, '');
+    const path = item.path
+      .replace(/^#?\//, '')
+      .replace(/\//g, '.')
+      .replace(/^body\./, '');
     const [head, key] = path.split('.');
     if (head !== 'attributes' || !key || !attributeFieldNames.includes(key)) return true;
     setError(`attributes.${key}` as Path<EquipmentFormValues>, { type: 'server', message: item.message });
     return false;
   });
   if (error.errors.length > 0 && rest.length === 0) return [];
-  const remaining = new ApiProblem({ status: error.status, title: error.title, type: error.type, errors: rest, ...(error.detail !== undefined ? { detail: error.detail } : {}) });
+  const remaining = new ApiProblem({
+    status: error.status,
+    title: error.title,
+    type: error.type,
+    errors: rest,
+    ...(error.detail !== undefined ? { detail: error.detail } : {}),
+  });
   return applyProblemToForm(remaining, setError, equipmentFieldNames);
 }
 

@@ -59,7 +59,14 @@ const RemindButton = ({ url, invalidate, lastRemindedAt, what, size = 'md' }: Re
   return (
     <div className="flex flex-col items-start gap-1">
       <div className="flex flex-wrap items-center gap-2">
-        <Button variant="secondary" size={size} pending={remind.isPending} disabled={Boolean(quiet)} onClick={() => remind.mutate()} aria-label={`Remind about ${what}`}>
+        <Button
+          variant="secondary"
+          size={size}
+          pending={remind.isPending}
+          disabled={Boolean(quiet)}
+          onClick={() => remind.mutate()}
+          aria-label={`Remind about ${what}`}
+        >
           Remind
         </Button>
         <LastReminded at={sent?.sentAt ?? lastRemindedAt} />
@@ -111,7 +118,14 @@ export const RemindAllOverdueInvoices = () => {
   const n = count.data.toRemind;
   return (
     <div className="flex flex-wrap items-center gap-3">
-      <Button variant="secondary" disabled={n === 0} onClick={() => { send.reset(); setOpen(true); }}>
+      <Button
+        variant="secondary"
+        disabled={n === 0}
+        onClick={() => {
+          send.reset();
+          setOpen(true);
+        }}
+      >
         Remind all overdue ({n})
       </Button>
       <span className="text-sm text-ink-muted">
@@ -132,8 +146,8 @@ export const RemindAllOverdueInvoices = () => {
         onClose={() => setOpen(false)}
         onConfirm={() => send.mutate()}
       >
-        {n === 1 ? 'One member' : `${n} members`} with an overdue invoice will get an e-mail reminder, with what is still to pay and how. Invoices reminded in the
-        last 24 hours are left out.
+        {n === 1 ? 'One member' : `${n} members`} with an overdue invoice will get an e-mail reminder, with what is still to pay and how. Invoices reminded in
+        the last 24 hours are left out.
       </ConfirmDialog>
     </div>
   );

@@ -41,9 +41,7 @@ import {
 /** Asserts |actual − expected| ≤ tol (the tolerances are the ones REFERENCE.md gives). */
 function near(actual: number, expected: number, tol: number): void {
   expect(Number.isFinite(actual)).toBe(true);
-  expect(Math.abs(actual - expected), `expected ${actual} to be within ±${tol} of ${expected}`).toBeLessThanOrEqual(
-    tol + 1e-12,
-  );
+  expect(Math.abs(actual - expected), `expected ${actual} to be within ±${tol} of ${expected}`).toBeLessThanOrEqual(tol + 1e-12);
 }
 
 const psi = (kpa: number): number => kpaToPsi(kpa);
@@ -143,7 +141,7 @@ describe('§2 specific gravity ↔ °Plato / °Brix', () => {
 
   it('reproduces the extract per barrel of 12 °P wort', () => {
     // 0.12 × S(12 °P) × 31 gal × water 998.20 kg/m³ (20 °C, [M]) in lb × 0.99900 air buoyancy
-    const lb = (0.12 * platoToSg(12) * usBarrelsToLiters(1) * 0.9982) / 0.45359237 * 0.999;
+    const lb = ((0.12 * platoToSg(12) * usBarrelsToLiters(1) * 0.9982) / 0.45359237) * 0.999;
     near(lb, 32.45, 0.05); // [P2] S5 (Mallett, Malt, quoting ASBC tables); [C:F2.1⁻¹] 32.456
   });
 
@@ -329,8 +327,7 @@ describe('refractometer (Terrill cubic; not in REFERENCE.md)', () => {
 
 // -----------------------------------------------------------------------------------------------
 describe('§5 carbonation', () => {
-  const pressurePsi = (volumes: number, f: number, altitudeFt = 0): number =>
-    psi(carbonationPressureKpa(volumes, fToC(f), feetToMetres(altitudeFt)));
+  const pressurePsi = (volumes: number, f: number, altitudeFt = 0): number => psi(carbonationPressureKpa(volumes, fToC(f), feetToMetres(altitudeFt)));
 
   it('matches the brewery CO₂ selection chart at 2.5 vol, sea level (±0.25 psi)', () => {
     near(pressurePsi(2.5, 32), 8.4, 0.25); // [P] S26 (F5.1 8.22)
@@ -378,8 +375,7 @@ describe('§5 carbonation', () => {
   });
 
   it('agrees with the braukaiser solubility formula F5.3 within ±2 %', () => {
-    const f53GramsPerLitre = (barGauge: number, tempC: number): number =>
-      (barGauge + 1.013) * Math.exp(-10.73797 + 2617.25 / (tempC + 273.15)) * 10;
+    const f53GramsPerLitre = (barGauge: number, tempC: number): number => (barGauge + 1.013) * Math.exp(-10.73797 + 2617.25 / (tempC + 273.15)) * 10;
     const gramsPerLitre = f53GramsPerLitre(0.7757, 3.33);
     near(gramsPerLitre, 5.014, 0.001); // [C:F5.3] 5.014 g/L at 3.33 °C, 0.7757 bar
     const f53Volumes = gramsPerLitre / 1.977; // F5.4: 1.977 g/L per volume [M]
@@ -476,11 +472,7 @@ describe('§6 draught line balance', () => {
     near(lengthFt(12, 4, dbqm, 1), 3.0, 0.01); // [C:F6.1]
     near(lengthFt(12, 0, lineResistanceKpaPerM['vinyl-1/4'], 0), 14.12, 0.01); // [C:F6.1]
     near(lengthFt(12, 0, lineResistanceKpaPerM['barrier-3/16'], 1), 5.0, 0.01); // [C:F6.1]
-    near(
-      metresToFeet(balancedLineLength({ pressureKpa: psiToKpa(12), resistanceKpaPerM: lineResistanceKpaPerM['vinyl-1/4'] })),
-      14.12,
-      0.01,
-    ); // [C:F6.1] riseM and fixedKpa default to 0
+    near(metresToFeet(balancedLineLength({ pressureKpa: psiToKpa(12), resistanceKpaPerM: lineResistanceKpaPerM['vinyl-1/4'] })), 14.12, 0.01); // [C:F6.1] riseM and fixedKpa default to 0
     expect(lengthFt(12, -4, dbqm, 1)).toBeGreaterThan(4.3); // [C:F6.1] a drop adds 0.5 psi/ft
   });
 

@@ -83,7 +83,10 @@ describe('Brix readings by method: wort or alcohol-corrected', () => {
     // WCF 1.04 (common practice): the same wort reads 1.04 times higher on the refractometer.
     expect(normaliseGravity(9.99325 * 1.04, 'brix', null, { method: 'wort', wortCorrectionFactor: 1.04 }).sg).toBeCloseTo(1.04, 4); // [P] S2, scaled by the WCF [CP]
     // Wort chosen explicitly on a batch with an OG stays wort (a second wort sample, e.g. after a top-up).
-    expect(normaliseGravity(12, 'brix', null, { method: 'wort', originalBrix: 12.5 })).toMatchObject({ method: 'wort', correction: 'refractometer-wort-factor' });
+    expect(normaliseGravity(12, 'brix', null, { method: 'wort', originalBrix: 12.5 })).toMatchObject({
+      method: 'wort',
+      correction: 'refractometer-wort-factor',
+    });
   });
 
   it('needs the original gravity for an alcohol-corrected reading, and refuses one that shows no fermentation', () => {

@@ -57,7 +57,13 @@ describe('sanitation rules', () => {
 
   it('records a chemical that is not on the list as given, with the step’s minimum', () => {
     const ev = evaluateCycle([{ ...full[0]!, chemical: 'Unlisted cleaner', concentration: 2 }, ...full.slice(1)], defaultSanitationSettings);
-    expect(ev.steps[0]).toMatchObject({ chemicalId: null, chemicalName: 'Unlisted cleaner', concentration: 2, concentrationUnit: null, minimumContactMinutes: 30 });
+    expect(ev.steps[0]).toMatchObject({
+      chemicalId: null,
+      chemicalName: 'Unlisted cleaner',
+      concentration: 2,
+      concentrationUnit: null,
+      minimumContactMinutes: 30,
+    });
     expect(ev.outcome).toBe('ready');
   });
 });
@@ -79,7 +85,15 @@ describe('carbonation planner', () => {
     const hold = planCarbonation({ ...base, targetVolumes: 2.4, temperatureC: 3 });
     expect(hold.readyAt).toBe('2026-12-15T10:00:00.000Z');
     expect(hold.lowerPressureAt).toBeNull();
-    const fast = planCarbonation({ ...base, method: 'fast_start', targetVolumes: 2.4, temperatureC: 3, fastStartPressureKpa: psiToKpa(30), fastStartHours: 72, settleDays: 2 });
+    const fast = planCarbonation({
+      ...base,
+      method: 'fast_start',
+      targetVolumes: 2.4,
+      temperatureC: 3,
+      fastStartPressureKpa: psiToKpa(30),
+      fastStartHours: 72,
+      settleDays: 2,
+    });
     expect(fast.lowerPressureAt).toBe('2026-12-04T10:00:00.000Z');
     expect(fast.readyAt).toBe('2026-12-06T10:00:00.000Z');
     expect(fast.fastStartEquilibriumVolumes!).toBeGreaterThan(4);
@@ -87,8 +101,12 @@ describe('carbonation planner', () => {
   });
 
   it('refuses pressures above the co-op’s limit and a fast start below serving pressure', () => {
-    expect(() => planCarbonation({ ...base, method: 'fast_start', targetVolumes: 2.4, temperatureC: 3, fastStartPressureKpa: 350, fastStartHours: 72 })).toThrow(PlanError);
-    expect(() => planCarbonation({ ...base, method: 'fast_start', targetVolumes: 2.4, temperatureC: 3, fastStartPressureKpa: 40, fastStartHours: 72 })).toThrow(/above the serving pressure/);
+    expect(() =>
+      planCarbonation({ ...base, method: 'fast_start', targetVolumes: 2.4, temperatureC: 3, fastStartPressureKpa: 350, fastStartHours: 72 }),
+    ).toThrow(PlanError);
+    expect(() => planCarbonation({ ...base, method: 'fast_start', targetVolumes: 2.4, temperatureC: 3, fastStartPressureKpa: 40, fastStartHours: 72 })).toThrow(
+      /above the serving pressure/,
+    );
     expect(() => planCarbonation({ ...base, targetVolumes: 4.4, temperatureC: 25 })).toThrow(/co-op's limit/);
   });
 
@@ -98,7 +116,14 @@ describe('carbonation planner', () => {
     expect(c.balancedLengthM! / 0.3048).toBeCloseTo(14.12, 2);
     expect(c.suits).toBe(true);
     const dbqm = publishedLineResistanceKpaPerM('vinyl-3/16', 'S31'); // [P2] 3.0 psi/ft, S28, S30, S31
-    const short = checkLine({ servingPressureKpa: psiToKpa(12), lengthM: 0.4, insideDiameterMm: 4.8, riseM: feetToMetres(4), fixedKpa: psiToKpa(1), resistanceKpaPerM: dbqm });
+    const short = checkLine({
+      servingPressureKpa: psiToKpa(12),
+      lengthM: 0.4,
+      insideDiameterMm: 4.8,
+      riseM: feetToMetres(4),
+      fixedKpa: psiToKpa(1),
+      resistanceKpaPerM: dbqm,
+    });
     expect(short.balancedLengthM! / 0.3048).toBeCloseTo(3.0, 2); // [C:F6.1] 12 psi, 4 ft rise, R 3.0, P_fixed 1 → 3.00 ft
     expect(short.suits).toBe(false);
     expect(short.verdict).toMatch(/too short/);
@@ -114,12 +139,21 @@ describe('carbonation planner', () => {
       expect(c.suits).toBe(true);
     }
     // [P] S34: 20 ft of 5/16" barrier takes 2 psi, so 2 psi with no rise or allowance balances 20 ft.
-    const barrier = checkLine({ servingPressureKpa: psiToKpa(2), lengthM: feetToMetres(20), insideDiameterMm: 7.94, riseM: 0, fixedKpa: 0, material: 'barrier' });
+    const barrier = checkLine({
+      servingPressureKpa: psiToKpa(2),
+      lengthM: feetToMetres(20),
+      insideDiameterMm: 7.94,
+      riseM: 0,
+      fixedKpa: 0,
+      material: 'barrier',
+    });
     expect(barrier.balancedLengthM! / 0.3048).toBeCloseTo(20, 6);
     // [P] S34: 20 ft of 1/4" vinyl takes 17 psi.
     const vinyl = checkLine({ servingPressureKpa: psiToKpa(17), lengthM: feetToMetres(20), insideDiameterMm: 6.35, riseM: 0, fixedKpa: 0, material: 'vinyl' });
     expect(vinyl.balancedLengthM! / 0.3048).toBeCloseTo(20, 6);
-    expect(checkLine({ servingPressureKpa: 80, lengthM: 3, insideDiameterMm: 12.7, riseM: 0, fixedKpa: 0, material: 'barrier' }).verdict).toMatch(/12.7 mm barrier/);
+    expect(checkLine({ servingPressureKpa: 80, lengthM: 3, insideDiameterMm: 12.7, riseM: 0, fixedKpa: 0, material: 'barrier' }).verdict).toMatch(
+      /12.7 mm barrier/,
+    );
   });
 
   it('the common line suits the house ale at serving pressure, where the old default called it too long', () => {

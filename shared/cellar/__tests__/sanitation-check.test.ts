@@ -61,7 +61,9 @@ describe('checked sanitation steps', () => {
     // Clean at 0 with 60 min, rinse 45 min later.
     const found = checkSteps(withStep(1, { at: at(45) }), settings);
     expect(found.map((v) => v.rule)).toEqual(['contact_exceeds_gap']);
-    expect(found[0]!.message).toBe('Clean step: a contact time of 60 min does not fit before the rinse step, 45 min later; correct the times or the contact time.');
+    expect(found[0]!.message).toBe(
+      'Clean step: a contact time of 60 min does not fit before the rinse step, 45 min later; correct the times or the contact time.',
+    );
     expect(found[0]!.exceptable).toBe(false);
     // Exactly the contact time fits.
     expect(rules(withStep(1, { at: at(60) }))).toEqual([]);
@@ -74,7 +76,9 @@ describe('checked sanitation steps', () => {
 
   it('needs a push-out purge to name its keg, and a caustic clean to be vented first', () => {
     expect(rules(withStep(3, { purgeMethod: 'push_out', contactMinutes: undefined }))).toEqual(['push_out_without_keg@3']);
-    expect(rules(withStep(3, { purgeMethod: 'push_out', contactMinutes: undefined, pushedIntoEquipmentId: '00000000-0000-4000-8000-000000000001' }))).toEqual([]);
+    expect(rules(withStep(3, { purgeMethod: 'push_out', contactMinutes: undefined, pushedIntoEquipmentId: '00000000-0000-4000-8000-000000000001' }))).toEqual(
+      [],
+    );
     const caustic = withStep(0, { chemical: 'caustic-cleaner', concentration: 2, contactMinutes: 30 });
     const v = checkSteps(caustic, settings);
     expect(v.map((x) => x.rule)).toEqual(['not_vented']);

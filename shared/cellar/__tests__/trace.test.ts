@@ -16,7 +16,13 @@ describe('finings, allergens and vegan (common practice; see the table in shared
     expect(beerFacts([], [{ kind: 'a house mix', dose: 5, unit: 'g' }]).vegan).toBe(false);
     expect(beerFacts(['Lactose (milk)'], []).vegan).toBe(false);
     expect(beerFacts(['honey'], []).vegan).toBe(false);
-    const both = beerFacts(['gluten (barley)', 'Gluten  (barley)'], [{ kind: 'isinglass', dose: 10, unit: 'mL' }, { kind: 'isinglass', dose: 5, unit: 'mL' }]);
+    const both = beerFacts(
+      ['gluten (barley)', 'Gluten  (barley)'],
+      [
+        { kind: 'isinglass', dose: 10, unit: 'mL' },
+        { kind: 'isinglass', dose: 5, unit: 'mL' },
+      ],
+    );
     expect(both.allergens).toEqual(['gluten (barley)', 'fish (isinglass)']);
     expect(both.finings).toHaveLength(2);
   });

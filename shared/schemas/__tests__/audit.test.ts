@@ -4,7 +4,10 @@ import { auditChanges } from '../audit.ts';
 describe('auditChanges', () => {
   it('gives only the fields that differ between before and after, nested ones as dotted paths', () => {
     expect(
-      auditChanges({ before: { nearDays: 7, rules: { maxDays: 14, minDays: 1 }, list: ['a'] }, after: { nearDays: 10, rules: { maxDays: 21, minDays: 1 }, list: ['a', 'b'] } }),
+      auditChanges({
+        before: { nearDays: 7, rules: { maxDays: 14, minDays: 1 }, list: ['a'] },
+        after: { nearDays: 10, rules: { maxDays: 21, minDays: 1 }, list: ['a', 'b'] },
+      }),
     ).toEqual([
       { field: 'nearDays', before: 7, after: 10 },
       { field: 'rules.maxDays', before: 14, after: 21 },

@@ -96,7 +96,12 @@ describe('reading the file’s shape', () => {
       mapping: { takenAt: 'Timestamp', gravity: 'Specific gravity', temperature: 'Temp (°C)', note: 'Comment', gravityUnit: 'sg', temperatureUnit: 'c' },
       complete: true,
     });
-    expect(proposeMapping(['Date', 'Plato', 'Temp F']).mapping).toMatchObject({ takenAt: 'Date', gravity: 'Plato', gravityUnit: 'plato', temperatureUnit: 'f' });
+    expect(proposeMapping(['Date', 'Plato', 'Temp F']).mapping).toMatchObject({
+      takenAt: 'Date',
+      gravity: 'Plato',
+      gravityUnit: 'plato',
+      temperatureUnit: 'f',
+    });
     expect(proposeMapping(['Taken at', 'Gravity', 'Unit']).mapping).toMatchObject({ unit: 'Unit' });
     expect(proposeMapping(['foo', 'bar']).complete).toBe(false);
   });

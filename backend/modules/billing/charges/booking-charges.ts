@@ -116,16 +116,20 @@ function tapWeeks(ctx: ChargeContext, r: BookingFacts, start: string, end: strin
     const lastEnd = minDate(addDays(g.starts.at(-1)!, 7), end);
     const ofTotal = n === totalWeeks ? '' : ` of ${totalWeeks} (booking ${dateSpan(start, end)})`;
     charges.push(
-      pricedCharge('tap_week', { id: g.priceId, unitCents: g.unitCents }, {
-        memberId: r.owner_id,
-        sourceType: 'booking',
-        sourceId: r.id,
-        sourceLabel: `${r.code}, ${dateSpan(firstStart, lastEnd)}, ${plural(n, 'week')}${ofTotal}`,
-        serviceFrom: firstStart,
-        serviceTo: addDays(lastEnd, -1),
-        quantity: n,
-        unit: 'week',
-      }),
+      pricedCharge(
+        'tap_week',
+        { id: g.priceId, unitCents: g.unitCents },
+        {
+          memberId: r.owner_id,
+          sourceType: 'booking',
+          sourceId: r.id,
+          sourceLabel: `${r.code}, ${dateSpan(firstStart, lastEnd)}, ${plural(n, 'week')}${ofTotal}`,
+          serviceFrom: firstStart,
+          serviceTo: addDays(lastEnd, -1),
+          quantity: n,
+          unit: 'week',
+        },
+      ),
     );
   }
 }

@@ -76,16 +76,20 @@ export const kegHoldCharges: ChargeSource = {
         const to = minDate(addDays(g.starts.at(-1)!, 7), end);
         const span = h.back_date ? `out ${dateSpan(h.out_date, h.back_date)}` : `out since ${shortDate(h.out_date)}`;
         charges.push(
-          pricedCharge('keg_week', { id: g.priceId, unitCents: g.unitCents }, {
-            memberId: h.member_id,
-            sourceType: 'keg_checkout',
-            sourceId: h.id,
-            sourceLabel: `${h.code}, ${span}, ${plural(g.starts.length, 'week')} from ${shortDate(from)}`,
-            serviceFrom: from,
-            serviceTo: addDays(to, -1),
-            quantity: g.starts.length,
-            unit: 'week',
-          }),
+          pricedCharge(
+            'keg_week',
+            { id: g.priceId, unitCents: g.unitCents },
+            {
+              memberId: h.member_id,
+              sourceType: 'keg_checkout',
+              sourceId: h.id,
+              sourceLabel: `${h.code}, ${span}, ${plural(g.starts.length, 'week')} from ${shortDate(from)}`,
+              serviceFrom: from,
+              serviceTo: addDays(to, -1),
+              quantity: g.starts.length,
+              unit: 'week',
+            },
+          ),
         );
       }
     }

@@ -61,9 +61,7 @@ export async function deriveCharges(
   for (const list of byMember.values()) {
     list.sort(
       (a, b) =>
-        itemOrder.indexOf(a.item) - itemOrder.indexOf(b.item) ||
-        a.serviceFrom.localeCompare(b.serviceFrom) ||
-        a.sourceLabel.localeCompare(b.sourceLabel),
+        itemOrder.indexOf(a.item) - itemOrder.indexOf(b.item) || a.serviceFrom.localeCompare(b.serviceFrom) || a.sourceLabel.localeCompare(b.sourceLabel),
     );
   }
   return { byMember, problems: [...new Set(results.flatMap((r) => r.problems))], sources: chargeSources.map((s) => s.label) };

@@ -155,7 +155,12 @@ const AuditRoute = () => {
         header: 'Who',
         cell: ({ row }) =>
           row.original.actorId ? (
-            <button type="button" className="text-left underline decoration-dotted" onClick={() => setQuery({ actorId: row.original.actorId! })} title="Show only this person">
+            <button
+              type="button"
+              className="text-left underline decoration-dotted"
+              onClick={() => setQuery({ actorId: row.original.actorId! })}
+              title="Show only this person"
+            >
               {row.original.actorName ?? 'Removed account'}
             </button>
           ) : (
@@ -201,7 +206,12 @@ const AuditRoute = () => {
         <h1 className="text-2xl">Audit trail</h1>
         <p className="mt-1 text-ink-muted">Every change to the co-op’s records: who made it, when, and what it changed. Newest first.</p>
       </header>
-      <form className="grid gap-2 sm:grid-cols-2 lg:grid-cols-[14rem_12rem_1fr_10rem_10rem]" role="search" aria-label="Filter the audit trail" onSubmit={(e) => e.preventDefault()}>
+      <form
+        className="grid gap-2 sm:grid-cols-2 lg:grid-cols-[14rem_12rem_1fr_10rem_10rem]"
+        role="search"
+        aria-label="Filter the audit trail"
+        onSubmit={(e) => e.preventDefault()}
+      >
         <label className={label}>
           Person
           <Select value={query.actorId ?? ''} onChange={(e) => setQuery({ actorId: e.target.value || undefined })}>
@@ -226,9 +236,15 @@ const AuditRoute = () => {
         </label>
         <label className={label}>
           Record id
-          <Input key={query.subjectId ?? ''} defaultValue={query.subjectId ?? ''} placeholder="The record's id" onBlur={(e) => setQuery({ subjectId: e.target.value.trim() || undefined })} onKeyDown={(e) => {
-            if (e.key === 'Enter') setQuery({ subjectId: e.currentTarget.value.trim() || undefined });
-          }} />
+          <Input
+            key={query.subjectId ?? ''}
+            defaultValue={query.subjectId ?? ''}
+            placeholder="The record's id"
+            onBlur={(e) => setQuery({ subjectId: e.target.value.trim() || undefined })}
+            onKeyDown={(e) => {
+              if (e.key === 'Enter') setQuery({ subjectId: e.currentTarget.value.trim() || undefined });
+            }}
+          />
         </label>
         <label className={label}>
           From
@@ -247,7 +263,13 @@ const AuditRoute = () => {
         </div>
       ) : null}
       {trail.isError ? <Alert tone="error">{problemMessage(trail.error)}</Alert> : null}
-      <DataTable table={table} caption="Audit trail" isLoading={trail.isPending} isFetching={trail.isFetching} empty={filtered ? 'Nothing matches these filters.' : 'Nothing recorded yet.'} />
+      <DataTable
+        table={table}
+        caption="Audit trail"
+        isLoading={trail.isPending}
+        isFetching={trail.isFetching}
+        empty={filtered ? 'Nothing matches these filters.' : 'Nothing recorded yet.'}
+      />
       <DataTablePagination
         page={query.page}
         pageSize={query.pageSize}

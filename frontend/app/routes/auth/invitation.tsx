@@ -50,11 +50,7 @@ const InvitationRoute = () => {
             You are signed in as {signedIn.name}. Accepting signs you in as {invitation.data.email} instead.
           </Alert>
         ) : null}
-        <AcceptInvitationForm
-          token={token}
-          invitation={invitation.data}
-          onAccepted={() => navigate(paths.today, { replace: true })}
-        />
+        <AcceptInvitationForm token={token} invitation={invitation.data} onAccepted={() => navigate(paths.today, { replace: true })} />
       </div>
     );
   }

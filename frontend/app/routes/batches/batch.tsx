@@ -48,7 +48,12 @@ const BatchRoute = () => {
   useDocumentTitle(detail.data ? `${detail.data.name} · Batches` : 'Batches');
 
   if (detail.isPending) return <PageLoader />;
-  if (detail.isError) return <Alert tone="error" title="This batch could not be shown">{problemMessage(detail.error)}</Alert>;
+  if (detail.isError)
+    return (
+      <Alert tone="error" title="This batch could not be shown">
+        {problemMessage(detail.error)}
+      </Alert>
+    );
   const batch = detail.data;
   const next = batch.can.update ? nextBatchStatuses[batch.status] : [];
 
@@ -137,8 +142,8 @@ const BatchRoute = () => {
       ) : null}
 
       <p className="text-xs text-ink-muted">
-        ABV and attenuation follow the ASBC/Balling relations from the readings. Alcohol figures for labels and tax: local rules govern, and
-        licensed practice decides what you declare.
+        ABV and attenuation follow the ASBC/Balling relations from the readings. Alcohol figures for labels and tax: local rules govern, and licensed practice
+        decides what you declare.
       </p>
 
       <ReadingFormDialog open={adding} onClose={() => setAdding(false)} batch={batch} />
@@ -148,7 +153,11 @@ const BatchRoute = () => {
         onClose={() => setClosing(null)}
         busy={update.isPending}
         title={closing === 'packaged' ? 'Mark the batch packaged' : `Discard ${batch.name}?`}
-        description={closing === 'packaged' ? 'The packaged volume goes into the production records.' : "A discarded batch takes no more readings, and what is left of it counts as dumped in the production records. This cannot be undone."}
+        description={
+          closing === 'packaged'
+            ? 'The packaged volume goes into the production records.'
+            : 'A discarded batch takes no more readings, and what is left of it counts as dumped in the production records. This cannot be undone.'
+        }
       >
         <form
           className="flex flex-col gap-4"
@@ -156,7 +165,10 @@ const BatchRoute = () => {
             e.preventDefault();
             if (closing === 'packaged') {
               const v = Number(packaged.replace(',', '.'));
-              update.mutate({ status: 'packaged', packagedLiters: Math.round(fromDisplay.volume(v, units.units) * 100) / 100 }, { onSuccess: () => setClosing(null) });
+              update.mutate(
+                { status: 'packaged', packagedLiters: Math.round(fromDisplay.volume(v, units.units) * 100) / 100 },
+                { onSuccess: () => setClosing(null) },
+              );
             } else update.mutate({ status: 'discarded' }, { onSuccess: () => setClosing(null) });
           }}
         >

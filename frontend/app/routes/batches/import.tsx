@@ -86,7 +86,9 @@ const ImportReadingsRoute = () => {
     } catch (e) {
       setError({
         message: problemMessage(e),
-        problems: isApiProblem(e) ? e.errors.filter((x): x is ImportRowProblem => typeof x.row === 'number').map((x) => ({ ...x, column: String(x.column ?? '') })) : [],
+        problems: isApiProblem(e)
+          ? e.errors.filter((x): x is ImportRowProblem => typeof x.row === 'number').map((x) => ({ ...x, column: String(x.column ?? '') }))
+          : [],
       });
       return null;
     } finally {
@@ -110,10 +112,15 @@ const ImportReadingsRoute = () => {
   };
 
   const headers = preview?.headers ?? [];
-  const setField = (key: keyof ImportMapping, value: unknown) => setMapping((m) => (m ? ({ ...m, [key]: value === '' ? null : value }) : m));
+  const setField = (key: keyof ImportMapping, value: unknown) => setMapping((m) => (m ? { ...m, [key]: value === '' ? null : value } : m));
 
   if (batch.isPending) return <PageLoader />;
-  if (batch.isError) return <Alert tone="error" title="This batch could not be shown">{problemMessage(batch.error)}</Alert>;
+  if (batch.isError)
+    return (
+      <Alert tone="error" title="This batch could not be shown">
+        {problemMessage(batch.error)}
+      </Alert>
+    );
   const b = batch.data;
   if (!b.can.importReadings) return <Alert tone="error">You may not import readings into this batch.</Alert>;
 
@@ -129,7 +136,14 @@ const ImportReadingsRoute = () => {
       </header>
       <ol className="flex flex-wrap gap-2 text-sm" aria-label="Steps">
         {steps.map((s) => (
-          <li key={s.key} aria-current={s.key === step ? 'step' : undefined} className={cn('rounded-full border px-3 py-1', s.key === step ? 'border-copper bg-copper-soft font-semibold text-copper-strong' : 'border-line text-ink-muted')}>
+          <li
+            key={s.key}
+            aria-current={s.key === step ? 'step' : undefined}
+            className={cn(
+              'rounded-full border px-3 py-1',
+              s.key === step ? 'border-copper bg-copper-soft font-semibold text-copper-strong' : 'border-line text-ink-muted',
+            )}
+          >
             {s.label}
           </li>
         ))}
@@ -180,14 +194,14 @@ const ImportReadingsRoute = () => {
         <section className="flex flex-col gap-4 rounded-md border border-line bg-surface p-4">
           <p className="text-sm">
             <strong>{file?.name}</strong>: {preview.fileType.toUpperCase()}
-            {preview.delimiter ? `, separated by ${preview.delimiter === '\t' ? 'tabs' : `“${preview.delimiter}”`}` : ''}, {formatCount(preview.totalRows)} rows. Columns{' '}
-            {sourceLabels[preview.mappingSource]}.
+            {preview.delimiter ? `, separated by ${preview.delimiter === '\t' ? 'tabs' : `“${preview.delimiter}”`}` : ''}, {formatCount(preview.totalRows)}{' '}
+            rows. Columns {sourceLabels[preview.mappingSource]}.
           </p>
           <div className="grid gap-4 md:grid-cols-2">
             {(Object.keys(fieldLabels) as (keyof typeof fieldLabels)[]).map((key) => (
               <Field key={key} label={fieldLabels[key]}>
                 {(c) => (
-                  <Select {...c} value={(mapping[key]) ?? ''} onChange={(e) => setField(key, e.target.value)} data-field={key}>
+                  <Select {...c} value={mapping[key] ?? ''} onChange={(e) => setField(key, e.target.value)} data-field={key}>
                     {key === 'takenAt' || key === 'gravity' ? null : <option value="">Not in the file</option>}
                     {headers.map((h) => (
                       <option key={h} value={h}>
@@ -227,9 +241,7 @@ const ImportReadingsRoute = () => {
                 </Select>
               )}
             </Field>
-            <Field label="Time zone">
-              {(c) => <Input {...c} value={mapping.timeZone ?? ''} onChange={(e) => setField('timeZone', e.target.value)} />}
-            </Field>
+            <Field label="Time zone">{(c) => <Input {...c} value={mapping.timeZone ?? ''} onChange={(e) => setField('timeZone', e.target.value)} />}</Field>
             <Field label="A row at the time of an existing reading">
               {(c) => (
                 <Select {...c} value={mapping.onDuplicate ?? 'error'} onChange={(e) => setField('onDuplicate', e.target.value)}>
@@ -256,7 +268,15 @@ const ImportReadingsRoute = () => {
             >
               Preview the rows
             </Button>
-            <Button variant="secondary" onClick={() => { setStep('upload'); setFile(null); setPreview(null); }} disabled={busy !== null}>
+            <Button
+              variant="secondary"
+              onClick={() => {
+                setStep('upload');
+                setFile(null);
+                setPreview(null);
+              }}
+              disabled={busy !== null}
+            >
               Choose another file
             </Button>
           </div>
@@ -264,18 +284,23 @@ const ImportReadingsRoute = () => {
       ) : null}
 
       {step === 'preview' && preview && mapping ? (
-        <PreviewStep
-          preview={preview}
-          busy={busy}
-          onBack={() => setStep('mapping')}
-          onImport={() => file && void run(false, file, mapping)}
-        />
+        <PreviewStep preview={preview} busy={busy} onBack={() => setStep('mapping')} onImport={() => file && void run(false, file, mapping)} />
       ) : null}
     </div>
   );
 };
 
-const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPreview; busy: 'preview' | 'import' | null; onBack: () => void; onImport: () => void }) => {
+const PreviewStep = ({
+  preview,
+  busy,
+  onBack,
+  onImport,
+}: {
+  preview: ImportPreview;
+  busy: 'preview' | 'import' | null;
+  onBack: () => void;
+  onImport: () => void;
+}) => {
   const columns = useMemo(() => preview.headers, [preview.headers]);
   const problemAt = (row: number, column: string) => preview.errors.filter((e) => e.row === row && e.column === column);
   const ok = preview.errorCount === 0;
@@ -293,7 +318,11 @@ const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPrevi
           <thead>
             <tr>
               {['Row', ...columns, 'Time read as', 'Stored SG', ''].map((h, i) => (
-                <th key={`${h}-${i}`} scope="col" className="sticky top-0 border-b border-line-strong bg-ground-deep px-2 py-1.5 text-left text-xs font-semibold text-ink-muted uppercase">
+                <th
+                  key={`${h}-${i}`}
+                  scope="col"
+                  className="sticky top-0 border-b border-line-strong bg-ground-deep px-2 py-1.5 text-left text-xs font-semibold text-ink-muted uppercase"
+                >
                   {h}
                 </th>
               ))}
@@ -306,7 +335,11 @@ const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPrevi
                 {columns.map((c) => {
                   const problems = problemAt(r.row, c);
                   return (
-                    <td key={c} className={cn('border-b border-line px-2 py-1', problems.length && 'outline-2 -outline-offset-2 outline-danger')} title={problems.map((p) => p.message).join('; ') || undefined}>
+                    <td
+                      key={c}
+                      className={cn('border-b border-line px-2 py-1', problems.length && 'outline-2 -outline-offset-2 outline-danger')}
+                      title={problems.map((p) => p.message).join('; ') || undefined}
+                    >
                       {r.values[c]}
                       {problems.length ? <span className="block text-xs text-danger">{problems.map((p) => p.message).join('; ')}</span> : null}
                     </td>
@@ -318,10 +351,22 @@ const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPrevi
                   {r.corrected ? <span className="ml-1 text-xs text-ink-muted">corrected</span> : null}
                 </td>
                 <td className="border-b border-line px-2 py-1 text-xs">
-                  {r.status === 'ok' ? <Badge tone="ready">OK</Badge> : r.status === 'blank' ? <Badge tone="muted">Blank, skipped</Badge> : r.status === 'duplicate-skipped' ? <Badge tone="muted">Duplicate, skipped</Badge> : <Badge tone="danger">Problem</Badge>}
-                  {r.problems.filter((p) => !columns.includes(p.column)).map((p, i) => (
-                    <span key={i} className="block text-danger">{p.message}</span>
-                  ))}
+                  {r.status === 'ok' ? (
+                    <Badge tone="ready">OK</Badge>
+                  ) : r.status === 'blank' ? (
+                    <Badge tone="muted">Blank, skipped</Badge>
+                  ) : r.status === 'duplicate-skipped' ? (
+                    <Badge tone="muted">Duplicate, skipped</Badge>
+                  ) : (
+                    <Badge tone="danger">Problem</Badge>
+                  )}
+                  {r.problems
+                    .filter((p) => !columns.includes(p.column))
+                    .map((p, i) => (
+                      <span key={i} className="block text-danger">
+                        {p.message}
+                      </span>
+                    ))}
                 </td>
               </tr>
             ))}
@@ -330,7 +375,9 @@ const PreviewStep = ({ preview, busy, onBack, onImport }: { preview: ImportPrevi
       </div>
       {!ok ? (
         <div className="text-sm">
-          <p className="font-semibold">Every problem, by row and column{preview.errorCount > preview.errors.length ? ` (the first ${preview.errors.length})` : ''}:</p>
+          <p className="font-semibold">
+            Every problem, by row and column{preview.errorCount > preview.errors.length ? ` (the first ${preview.errors.length})` : ''}:
+          </p>
           <ul className="mt-1 max-h-48 list-disc overflow-auto pl-5" data-testid="import-problems">
             {preview.errors.map((p, i) => (
               <li key={i}>

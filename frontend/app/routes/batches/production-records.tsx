@@ -44,7 +44,9 @@ const ProductionRecordsRoute = () => {
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl">Production records</h1>
-          <p className="text-sm text-ink-muted">Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch.</p>
+          <p className="text-sm text-ink-muted">
+            Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch.
+          </p>
         </div>
         {canExport && valid ? (
           <div className="flex gap-2">
@@ -91,7 +93,11 @@ const ProductionRecordsRoute = () => {
               <thead>
                 <tr>
                   {['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US bbl', 'OG', 'FG', `ABV (${abvMethod.name})`].map((h) => (
-                    <th key={h} scope="col" className="sticky top-0 border-b border-line-strong bg-ground-deep px-3 py-2 text-left text-xs font-semibold text-ink-muted uppercase">
+                    <th
+                      key={h}
+                      scope="col"
+                      className="sticky top-0 border-b border-line-strong bg-ground-deep px-3 py-2 text-left text-xs font-semibold text-ink-muted uppercase"
+                    >
                       {h}
                     </th>
                   ))}
@@ -123,7 +129,17 @@ const MonthRows = ({
   rows,
 }: {
   month: { month: string; batches: number; packagedLiters: number; usBarrels: number };
-  rows: { batchId: string; batchName: string; style: string; ownerName: string; packagedLiters: number; usBarrels: number; og: number | null; fg: number | null; abv: number | null }[];
+  rows: {
+    batchId: string;
+    batchName: string;
+    style: string;
+    ownerName: string;
+    packagedLiters: number;
+    usBarrels: number;
+    og: number | null;
+    fg: number | null;
+    abv: number | null;
+  }[];
 }) => (
   <>
     {rows.map((r) => (
@@ -156,7 +172,6 @@ const litres = (v: number) => v.toFixed(1);
 const thBase = 'sticky top-0 border-b border-line-strong bg-ground-deep px-2 py-2 text-xs font-semibold text-ink-muted uppercase';
 const th = `${thBase} text-right`;
 
-
 /** The monthly report: opening + brewed − removals − losses = closing, per month, litres and US barrels. */
 const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
   <section aria-labelledby="monthly-title" className="flex flex-col gap-2">
@@ -164,8 +179,8 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
       Monthly report
     </h2>
     <p className="text-sm text-ink-muted">
-      Removals are kegs checked out to members and kegs emptied at the co-op (served); losses are transfer losses, what stayed in the fermenter, dumped kegs and discarded
-      batches. Inventory is the beer in fermenters and in kegs still at the co-op.
+      Removals are kegs checked out to members and kegs emptied at the co-op (served); losses are transfer losses, what stayed in the fermenter, dumped kegs and
+      discarded batches. Inventory is the beer in fermenters and in kegs still at the co-op.
     </p>
     {months.length > 1 ? <ProductionChart months={months} /> : null}
     <ScrollRegion label="Monthly production report" className="overflow-auto rounded-md border border-line bg-surface">
@@ -192,7 +207,10 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
               <td className={`${td} text-right tabular-nums`}>{litres(m.openingLiters)}</td>
               <td className={`${td} text-right tabular-nums`}>{litres(m.producedLiters)}</td>
               <td className={`${td} text-right tabular-nums text-ink-muted`}>{litres(m.packagedLiters)}</td>
-              <td className={`${td} text-right tabular-nums`} title={`Checked out ${litres(m.removals.checkedOutLiters)} L · served ${litres(m.removals.servedLiters)} L · packaged otherwise ${litres(m.removals.packagedOtherwiseLiters)} L`}>
+              <td
+                className={`${td} text-right tabular-nums`}
+                title={`Checked out ${litres(m.removals.checkedOutLiters)} L · served ${litres(m.removals.servedLiters)} L · packaged otherwise ${litres(m.removals.packagedOtherwiseLiters)} L`}
+              >
                 {litres(m.removals.totalLiters)}
               </td>
               <td
@@ -204,7 +222,9 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
               <td className={`${td} text-right tabular-nums`}>{litres(m.closing.fermentersLiters)}</td>
               <td className={`${td} text-right tabular-nums`}>{litres(m.closing.kegsLiters)}</td>
               <td className={`${td} text-right font-semibold tabular-nums`}>{litres(m.closing.totalLiters)}</td>
-              <td className={`${td} text-right tabular-nums ${m.balanceLiters === 0 ? 'text-hop-strong' : 'text-danger-strong'}`}>{m.balanceLiters === 0 ? 'balances' : litres(m.balanceLiters)}</td>
+              <td className={`${td} text-right tabular-nums ${m.balanceLiters === 0 ? 'text-hop-strong' : 'text-danger-strong'}`}>
+                {m.balanceLiters === 0 ? 'balances' : litres(m.balanceLiters)}
+              </td>
               <td className={`${td} text-right tabular-nums`}>{bbl(m.usBarrels.closing)}</td>
             </tr>
           ))}
@@ -212,8 +232,8 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
       </table>
     </ScrollRegion>
     <p className="text-xs text-ink-muted">
-      Litres; each month opening + brewed − removals − losses = closing. US barrels of 31 US gallons (117.35 L). Packaging moves beer from fermenters into kegs within the inventory.
-      The CSV and XLSX downloads give every figure in detail.
+      Litres; each month opening + brewed − removals − losses = closing. US barrels of 31 US gallons (117.35 L). Packaging moves beer from fermenters into kegs
+      within the inventory. The CSV and XLSX downloads give every figure in detail.
     </p>
   </section>
 );

@@ -37,7 +37,9 @@ const BillingLayout = () => {
       <header>
         <h1 className="text-2xl">Billing</h1>
         <p className="mt-1 text-ink-muted">
-          {treasurer ? 'What is owed and how old it is, the monthly invoice run, payments, the price list and the ledger for the accountant.' : 'Your invoices, what is left to pay, and paying online.'}
+          {treasurer
+            ? 'What is owed and how old it is, the monthly invoice run, payments, the price list and the ledger for the accountant.'
+            : 'Your invoices, what is left to pay, and paying online.'}
         </p>
       </header>
       <nav aria-label="Billing sections" className="flex flex-wrap gap-x-1 border-b border-line">

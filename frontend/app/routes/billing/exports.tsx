@@ -19,8 +19,8 @@ const ExportsRoute = () => {
   return (
     <div className="flex max-w-2xl flex-col gap-4">
       <p className="text-ink-muted">
-        The lines of every issued invoice of the month (void ones included, with the credit notes that replace them), and every payment and refund on those invoices.
-        Amounts are numbers in the currency; text a spreadsheet could mistake for a formula is prefixed with an apostrophe.
+        The lines of every issued invoice of the month (void ones included, with the credit notes that replace them), and every payment and refund on those
+        invoices. Amounts are numbers in the currency; text a spreadsheet could mistake for a formula is prefixed with an apostrophe.
       </p>
       <label className="flex flex-col gap-1 text-sm font-medium">
         Period
@@ -34,7 +34,9 @@ const ExportsRoute = () => {
           {periodLabel(period)} as CSV
         </a>
       </div>
-      <p className="text-sm text-ink-muted">The XLSX has three sheets (invoice lines, credit notes, payments); the CSV has the same rows in one table, with a Record column saying which.</p>
+      <p className="text-sm text-ink-muted">
+        The XLSX has three sheets (invoice lines, credit notes, payments); the CSV has the same rows in one table, with a Record column saying which.
+      </p>
     </div>
   );
 };

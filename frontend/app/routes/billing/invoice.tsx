@@ -73,7 +73,9 @@ const InvoiceRoute = () => {
       <p className="text-sm">
         <Link to={paths.billingInvoices}>← Invoices</Link>
       </p>
-      {inv.overdue && ability.can('remind', 'Invoice') ? <RemindInvoiceButton invoiceId={inv.id} number={inv.number} lastRemindedAt={inv.lastRemindedAt} /> : null}
+      {inv.overdue && ability.can('remind', 'Invoice') ? (
+        <RemindInvoiceButton invoiceId={inv.id} number={inv.number} lastRemindedAt={inv.lastRemindedAt} />
+      ) : null}
       <InvoiceDetailView invoice={inv} actions={actions} />
       <RecordPaymentDialog invoice={inv} open={open === 'payment'} onClose={() => setOpen(null)} />
       <RefundDialog invoice={inv} open={open === 'refund'} onClose={() => setOpen(null)} />

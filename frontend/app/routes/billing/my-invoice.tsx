@@ -73,7 +73,9 @@ const MyInvoiceRoute = () => {
           </span>
         </Alert>
       ) : null}
-      {returned === 'cancelled' && inv.status === 'issued' ? <Alert tone="info">You cancelled on the payment page; nothing was charged. You can pay whenever you are ready.</Alert> : null}
+      {returned === 'cancelled' && inv.status === 'issued' ? (
+        <Alert tone="info">You cancelled on the payment page; nothing was charged. You can pay whenever you are ready.</Alert>
+      ) : null}
       {checkout.isError ? <Alert tone="error">{problemMessage(checkout.error)}</Alert> : null}
       <InvoiceDetailView
         own

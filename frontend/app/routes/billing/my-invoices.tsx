@@ -16,7 +16,10 @@ const MyInvoicesRoute = () => {
   return (
     <div className="flex flex-col gap-4">
       {b ? (
-        <section aria-label="Your balance" className={b.overdueInvoices ? 'rounded-md border border-due/40 bg-due-soft p-4' : 'rounded-md border border-line bg-surface p-4'}>
+        <section
+          aria-label="Your balance"
+          className={b.overdueInvoices ? 'rounded-md border border-due/40 bg-due-soft p-4' : 'rounded-md border border-line bg-surface p-4'}
+        >
           <p className="text-xs font-semibold tracking-wide text-ink-muted uppercase">{b.balanceCents < 0 ? 'In credit' : 'You owe'}</p>
           <p className="mt-1 text-3xl" data-testid="balance">
             <Money cents={Math.abs(b.balanceCents)} currency={b.currency} />

@@ -67,7 +67,8 @@ const TreasurerOverview = () => {
       </div>
       {s.drafts ? (
         <Alert tone="info">
-          {s.drafts} draft invoice{s.drafts === 1 ? ' is' : 's are'} waiting to be issued. <Link to={`${paths.billingInvoices}?status=draft`}>Review the drafts</Link>
+          {s.drafts} draft invoice{s.drafts === 1 ? ' is' : 's are'} waiting to be issued.{' '}
+          <Link to={`${paths.billingInvoices}?status=draft`}>Review the drafts</Link>
         </Alert>
       ) : null}
 
@@ -115,9 +116,15 @@ const TreasurerOverview = () => {
                 <caption className="sr-only">Open amounts per member</caption>
                 <thead className="sticky top-0 bg-surface text-left text-xs text-ink-muted uppercase">
                   <tr>
-                    <th scope="col" className="py-1">Member</th>
-                    <th scope="col" className="py-1 text-right">Over 60 days</th>
-                    <th scope="col" className="py-1 text-right">Open</th>
+                    <th scope="col" className="py-1">
+                      Member
+                    </th>
+                    <th scope="col" className="py-1 text-right">
+                      Over 60 days
+                    </th>
+                    <th scope="col" className="py-1 text-right">
+                      Open
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -127,7 +134,11 @@ const TreasurerOverview = () => {
                         <Link to={`${paths.billingInvoices}?memberId=${r.memberId}&unpaid=true`}>{r.memberName}</Link>
                       </td>
                       <td className="py-1.5 text-right">
-                        {r.buckets['61-90'] + r.buckets['90+'] ? <Money cents={r.buckets['61-90'] + r.buckets['90+']} currency={a.currency} className="text-due-strong" /> : <span className="text-ink-muted">—</span>}
+                        {r.buckets['61-90'] + r.buckets['90+'] ? (
+                          <Money cents={r.buckets['61-90'] + r.buckets['90+']} currency={a.currency} className="text-due-strong" />
+                        ) : (
+                          <span className="text-ink-muted">—</span>
+                        )}
                       </td>
                       <td className="py-1.5 text-right">
                         <Money cents={r.totalCents} currency={a.currency} />

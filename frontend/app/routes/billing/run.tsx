@@ -51,7 +51,15 @@ const RunRoute = () => {
   const doRun = (issue: boolean) => {
     if (!period) return;
     setSentNote(null);
-    run.mutate({ period, issue }, { onSuccess: (r) => { setResult(r); setConfirming(null); } });
+    run.mutate(
+      { period, issue },
+      {
+        onSuccess: (r) => {
+          setResult(r);
+          setConfirming(null);
+        },
+      },
+    );
   };
   const members = (n: number) => `${n} member${n === 1 ? '' : 's'}`;
   const invoices = (n: number) => `${n} invoice${n === 1 ? '' : 's'}`;
@@ -61,7 +69,12 @@ const RunRoute = () => {
       <div className="flex flex-wrap items-end gap-3">
         <label className="flex flex-col gap-1 text-sm font-medium">
           Period
-          <Input type="month" value={period ?? ''} onChange={(e) => e.target.value && setParams({ period: e.target.value }, { replace: true })} className="w-48" />
+          <Input
+            type="month"
+            value={period ?? ''}
+            onChange={(e) => e.target.value && setParams({ period: e.target.value }, { replace: true })}
+            className="w-48"
+          />
         </label>
         {period ? <p className="pb-2 text-ink-muted">{periodLabel(period)}</p> : null}
         <Button variant="secondary" className="ml-auto" onClick={() => setAddOpen(true)} disabled={!period}>
@@ -99,11 +112,21 @@ const RunRoute = () => {
                 <caption className="sr-only">What the run will bill, per member</caption>
                 <thead className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase">
                   <tr>
-                    <th scope="col" className="px-3 py-2">Member</th>
-                    <th scope="col" className="px-3 py-2 text-right">Lines</th>
-                    <th scope="col" className="px-3 py-2 text-right">Net</th>
-                    <th scope="col" className="px-3 py-2 text-right">Tax</th>
-                    <th scope="col" className="px-3 py-2 text-right">Total</th>
+                    <th scope="col" className="px-3 py-2">
+                      Member
+                    </th>
+                    <th scope="col" className="px-3 py-2 text-right">
+                      Lines
+                    </th>
+                    <th scope="col" className="px-3 py-2 text-right">
+                      Net
+                    </th>
+                    <th scope="col" className="px-3 py-2 text-right">
+                      Tax
+                    </th>
+                    <th scope="col" className="px-3 py-2 text-right">
+                      Total
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -111,14 +134,25 @@ const RunRoute = () => {
                     <Fragment key={i.memberId}>
                       <tr className="border-t border-line">
                         <td className="px-3 py-1.5">
-                          <button type="button" className="text-left text-copper-strong hover:underline" aria-expanded={expanded === i.memberId} onClick={() => setExpanded(expanded === i.memberId ? null : i.memberId)}>
+                          <button
+                            type="button"
+                            className="text-left text-copper-strong hover:underline"
+                            aria-expanded={expanded === i.memberId}
+                            onClick={() => setExpanded(expanded === i.memberId ? null : i.memberId)}
+                          >
                             {i.memberName}
                           </button>
                         </td>
                         <td className="px-3 py-1.5 text-right tabular-nums">{i.lines.length}</td>
-                        <td className="px-3 py-1.5 text-right"><Money cents={i.subtotalCents} currency={currency} /></td>
-                        <td className="px-3 py-1.5 text-right"><Money cents={i.taxCents} currency={currency} /></td>
-                        <td className="px-3 py-1.5 text-right font-medium"><Money cents={i.totalCents} currency={currency} /></td>
+                        <td className="px-3 py-1.5 text-right">
+                          <Money cents={i.subtotalCents} currency={currency} />
+                        </td>
+                        <td className="px-3 py-1.5 text-right">
+                          <Money cents={i.taxCents} currency={currency} />
+                        </td>
+                        <td className="px-3 py-1.5 text-right font-medium">
+                          <Money cents={i.totalCents} currency={currency} />
+                        </td>
                       </tr>
                       {expanded === i.memberId ? (
                         <tr className="bg-ground/60">
@@ -142,14 +176,29 @@ const RunRoute = () => {
               </table>
             </div>
           ) : (
-            <p className="text-ink-muted">{already.length ? `Everyone with charges in ${periodLabel(p.period)} has been billed already.` : 'Nothing to bill in this period.'}</p>
+            <p className="text-ink-muted">
+              {already.length ? `Everyone with charges in ${periodLabel(p.period)} has been billed already.` : 'Nothing to bill in this period.'}
+            </p>
           )}
-          {already.length ? <p className="text-sm text-ink-muted">{already.length} member{already.length === 1 ? ' has' : 's have'} an invoice for this period already; a run never bills them twice.</p> : null}
+          {already.length ? (
+            <p className="text-sm text-ink-muted">
+              {already.length} member{already.length === 1 ? ' has' : 's have'} an invoice for this period already; a run never bills them twice.
+            </p>
+          ) : null}
           <div className="flex flex-wrap gap-2">
-            <Button onClick={() => setConfirming('run')} pending={run.isPending && run.variables?.issue !== false} disabled={!p.canRun || toBill.length === 0 || run.isPending}>
+            <Button
+              onClick={() => setConfirming('run')}
+              pending={run.isPending && run.variables?.issue !== false}
+              disabled={!p.canRun || toBill.length === 0 || run.isPending}
+            >
               Run and issue {toBill.length} invoice{toBill.length === 1 ? '' : 's'}…
             </Button>
-            <Button variant="secondary" onClick={() => doRun(false)} pending={run.isPending && run.variables?.issue === false} disabled={!p.canRun || toBill.length === 0 || run.isPending}>
+            <Button
+              variant="secondary"
+              onClick={() => doRun(false)}
+              pending={run.isPending && run.variables?.issue === false}
+              disabled={!p.canRun || toBill.length === 0 || run.isPending}
+            >
               Make drafts to review first
             </Button>
           </div>
@@ -164,15 +213,21 @@ const RunRoute = () => {
             onConfirm={() => doRun(true)}
           >
             <p>
-              {invoices(toBill.length)} to {members(new Set(toBill.map((i) => i.memberId)).size)}, <Money cents={toBill.reduce((sum, i) => sum + i.totalCents, 0)} currency={currency} /> in all.
+              {invoices(toBill.length)} to {members(new Set(toBill.map((i) => i.memberId)).size)},{' '}
+              <Money cents={toBill.reduce((sum, i) => sum + i.totalCents, 0)} currency={currency} /> in all.
             </p>
-            <p className="mt-2">Issued invoices get their numbers and cannot be taken back: a mistake then needs a credit note. Make drafts first to review them.</p>
+            <p className="mt-2">
+              Issued invoices get their numbers and cannot be taken back: a mistake then needs a credit note. Make drafts first to review them.
+            </p>
           </ConfirmDialog>
         </section>
       ) : null}
 
       {result ? (
-        <Alert tone="success" title={`${periodLabel(result.run.period)}: ${result.invoices.length} invoice${result.invoices.length === 1 ? '' : 's'} ${result.run.issued ? 'issued' : 'made as drafts'}`}>
+        <Alert
+          tone="success"
+          title={`${periodLabel(result.run.period)}: ${result.invoices.length} invoice${result.invoices.length === 1 ? '' : 's'} ${result.run.issued ? 'issued' : 'made as drafts'}`}
+        >
           <p>
             <Money cents={result.run.totalCents} currency={currency} /> in all.{' '}
             <Link to={`${paths.billingInvoices}?period=${result.run.period}`}>See them in the invoice list</Link>
@@ -182,7 +237,9 @@ const RunRoute = () => {
               <Button
                 size="sm"
                 pending={sendRun.isPending}
-                onClick={() => sendRun.mutate(result.run.id, { onSuccess: (r) => setSentNote(`${r.queued} e-mail${r.queued === 1 ? '' : 's'} queued, each with its PDF.`) })}
+                onClick={() =>
+                  sendRun.mutate(result.run.id, { onSuccess: (r) => setSentNote(`${r.queued} e-mail${r.queued === 1 ? '' : 's'} queued, each with its PDF.`) })
+                }
               >
                 E-mail them to the members
               </Button>
@@ -201,11 +258,17 @@ const RunRoute = () => {
             error={issueDrafts.isError ? problemMessage(issueDrafts.error) : null}
             onClose={() => setConfirming(null)}
             onConfirm={() =>
-              issueDrafts.mutate(result.run.id, { onSuccess: () => { setResult({ ...result, run: { ...result.run, issued: true } }); setConfirming(null); } })
+              issueDrafts.mutate(result.run.id, {
+                onSuccess: () => {
+                  setResult({ ...result, run: { ...result.run, issued: true } });
+                  setConfirming(null);
+                },
+              })
             }
           >
             <p>
-              {invoices(result.invoices.length)} to {members(new Set(result.invoices.map((i) => i.memberId)).size)}, <Money cents={result.run.totalCents} currency={currency} /> in all.
+              {invoices(result.invoices.length)} to {members(new Set(result.invoices.map((i) => i.memberId)).size)},{' '}
+              <Money cents={result.run.totalCents} currency={currency} /> in all.
             </p>
             <p className="mt-2">Issued invoices get their numbers and cannot be taken back: a mistake then needs a credit note.</p>
           </ConfirmDialog>
@@ -231,7 +294,13 @@ const RunRoute = () => {
                       <Badge tone="ready">On invoice</Badge>
                     </Link>
                   ) : (
-                    <Button size="sm" variant="ghost" onClick={() => removeCharge.mutate(ch.id)} pending={removeCharge.isPending && removeCharge.variables === ch.id} aria-label={`Remove ${ch.description} for ${ch.memberName}`}>
+                    <Button
+                      size="sm"
+                      variant="ghost"
+                      onClick={() => removeCharge.mutate(ch.id)}
+                      pending={removeCharge.isPending && removeCharge.variables === ch.id}
+                      aria-label={`Remove ${ch.description} for ${ch.memberName}`}
+                    >
                       Remove
                     </Button>
                   )}
@@ -250,7 +319,8 @@ const RunRoute = () => {
           <ul className="mt-1">
             {runsOfPeriod.map((r) => (
               <li key={r.id}>
-                {formatDateTime(r.createdAt)} by {r.runBy?.name ?? 'someone'}: {r.invoiceCount} invoice{r.invoiceCount === 1 ? '' : 's'}, <Money cents={r.totalCents} currency={currency} />
+                {formatDateTime(r.createdAt)} by {r.runBy?.name ?? 'someone'}: {r.invoiceCount} invoice{r.invoiceCount === 1 ? '' : 's'},{' '}
+                <Money cents={r.totalCents} currency={currency} />
               </li>
             ))}
           </ul>

@@ -96,7 +96,9 @@ const BookingsCalendarRoute = () => {
       </div>
       {canBook ? (
         phone ? (
-          <p className="text-sm text-ink-muted">Tap Book on an item to book it from its first free time in the week shown; you can change the dates before you confirm.</p>
+          <p className="text-sm text-ink-muted">
+            Tap Book on an item to book it from its first free time in the week shown; you can change the dates before you confirm.
+          </p>
         ) : (
           <div className="flex flex-wrap items-center justify-between gap-2">
             <p className="text-sm text-ink-muted">
@@ -118,8 +120,8 @@ const BookingsCalendarRoute = () => {
       ) : null}
       {booked ? (
         <Alert tone="success" title="Booked">
-          {booked.equipment.code} is yours from {formatDateTime(booked.startsAt)} until {formatDateTime(booked.endsAt)}. A confirmation with a calendar file is on its way by e-mail.{' '}
-          <Link to="/bookings/mine">My bookings</Link>
+          {booked.equipment.code} is yours from {formatDateTime(booked.startsAt)} until {formatDateTime(booked.endsAt)}. A confirmation with a calendar file is
+          on its way by e-mail. <Link to="/bookings/mine">My bookings</Link>
         </Alert>
       ) : null}
       {error ? (
@@ -131,14 +133,7 @@ const BookingsCalendarRoute = () => {
         </Alert>
       ) : null}
       {phone ? (
-        <BookingAgenda
-          items={items.data?.items ?? []}
-          kind={kind}
-          version={version}
-          canBook={canBook}
-          onError={onError}
-          onPick={pick}
-        />
+        <BookingAgenda items={items.data?.items ?? []} kind={kind} version={version} canBook={canBook} onError={onError} onPick={pick} />
       ) : (
         <div className="overflow-x-auto rounded-lg border border-line bg-surface p-2">
           <BookingCalendar items={items.data?.items ?? []} kind={kind} version={version} onError={onError} onPick={pick} />

@@ -121,7 +121,8 @@ const CellarRoute = () => {
         onSelectionChange={setSelection}
       />
       <p className="text-xs text-ink-muted">
-        Labels print on A4 sheets of 3 × 8 labels, 70 × 37 mm. Kegs, cylinders and taps carry the pressure and CO2 cautions; local codes and licensed practice come first.
+        Labels print on A4 sheets of 3 × 8 labels, 70 × 37 mm. Kegs, cylinders and taps carry the pressure and CO2 cautions; local codes and licensed practice
+        come first.
       </p>
     </div>
   );

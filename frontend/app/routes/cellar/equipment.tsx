@@ -45,7 +45,8 @@ const attributeEntries = (item: Equipment) => {
 
 const cautionFor = (item: Equipment): string | null => {
   if (item.kind === 'keg') return 'Never exceed the keg’s or the regulator’s rated pressure and keep the pressure-relief valve working.';
-  if (item.kind === 'co2_cylinder') return 'Keep the cylinder chained upright; never exceed a regulator’s rated pressure. CO2 displaces air in closed rooms: ventilate and keep the CO2 alarm on.';
+  if (item.kind === 'co2_cylinder')
+    return 'Keep the cylinder chained upright; never exceed a regulator’s rated pressure. CO2 displaces air in closed rooms: ventilate and keep the CO2 alarm on.';
   if (item.kind === 'tap') return 'The cold room is closed: CO2 displaces air. Keep it ventilated and heed the CO2 alarm.';
   return null;
 };
@@ -61,7 +62,12 @@ const EquipmentRoute = () => {
   useDocumentTitle(detail.data ? `${detail.data.equipment.code} · Cellar` : 'Cellar');
 
   if (detail.isPending) return <PageLoader />;
-  if (detail.isError) return <Alert tone="error" title="This item could not be shown">{problemMessage(detail.error)}</Alert>;
+  if (detail.isError)
+    return (
+      <Alert tone="error" title="This item could not be shown">
+        {problemMessage(detail.error)}
+      </Alert>
+    );
   const { equipment: item, history, upcomingBookings } = detail.data;
   const caution = cautionFor(item);
   return (
@@ -82,7 +88,10 @@ const EquipmentRoute = () => {
         <div className="flex flex-wrap gap-2">
           <VesselCellarActions item={item} />
           {ability.can('create', 'Booking') && item.state !== 'out_of_service' ? (
-            <Link to={`/bookings?equipmentId=${item.id}`} className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-medium text-white no-underline hover:bg-copper-strong hover:no-underline md:min-h-9">
+            <Link
+              to={`/bookings?equipmentId=${item.id}`}
+              className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-medium text-white no-underline hover:bg-copper-strong hover:no-underline md:min-h-9"
+            >
               Book it
             </Link>
           ) : null}
@@ -163,13 +172,19 @@ const EquipmentRoute = () => {
           <tbody className="divide-y divide-line">
             {history.map((h) => (
               <tr key={h.id}>
-                <td data-label="When" className="py-1.5 pr-3 whitespace-nowrap">{formatDateTime(h.at)}</td>
+                <td data-label="When" className="py-1.5 pr-3 whitespace-nowrap">
+                  {formatDateTime(h.at)}
+                </td>
                 <td data-label="Change" className="py-1.5 pr-3 whitespace-nowrap">
                   {h.fromState ? `${vesselStateLabels[h.fromState]} → ` : ''}
                   {vesselStateLabels[h.toState]}
                 </td>
-                <td data-label="Why" className="py-1.5 pr-3">{h.reason}</td>
-                <td data-label="Who" className="py-1.5 text-ink-muted">{h.actor?.name ?? '—'}</td>
+                <td data-label="Why" className="py-1.5 pr-3">
+                  {h.reason}
+                </td>
+                <td data-label="Who" className="py-1.5 text-ink-muted">
+                  {h.actor?.name ?? '—'}
+                </td>
               </tr>
             ))}
           </tbody>

@@ -2,7 +2,13 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { equipmentKindLabels } from '../../../../shared/schemas/equipment.ts';
-import { inspectionKindLabels, maintenanceListQuerySchema, maintenanceStatuses, type MaintenanceItem, type MaintenanceListQuery } from '../../../../shared/schemas/inspections.ts';
+import {
+  inspectionKindLabels,
+  maintenanceListQuerySchema,
+  maintenanceStatuses,
+  type MaintenanceItem,
+  type MaintenanceListQuery,
+} from '../../../../shared/schemas/inspections.ts';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { Select } from '@/components/ui/input';
 import { useServerTable } from '@/components/ui/use-server-table';
@@ -53,7 +59,14 @@ const MaintenanceRoute = () => {
     ],
     [],
   );
-  const table = useServerTable({ data: list.data, columns, query, onQueryChange: (p) => setQuery(p), isSortField, getRowId: (r) => `${r.equipment.id}-${r.kind}` });
+  const table = useServerTable({
+    data: list.data,
+    columns,
+    query,
+    onQueryChange: (p) => setQuery(p),
+    isSortField,
+    getRowId: (r) => `${r.equipment.id}-${r.kind}`,
+  });
   return (
     <div className="flex flex-col gap-4">
       <nav className="text-sm">
@@ -62,8 +75,8 @@ const MaintenanceRoute = () => {
       <header>
         <h1 className="text-2xl">Maintenance</h1>
         <p className="mt-1 text-ink-muted">
-          Pressure tests, relief-valve checks, seals and cylinder tests that failed, are past due or fall due soon. An item past due or failed may not be filled,
-          carbonated, booked or connected until a passing inspection is recorded on its page.
+          Pressure tests, relief-valve checks, seals and cylinder tests that failed, are past due or fall due soon. An item past due or failed may not be
+          filled, carbonated, booked or connected until a passing inspection is recorded on its page.
         </p>
       </header>
       <div className="flex flex-wrap items-end gap-3">
@@ -90,7 +103,15 @@ const MaintenanceRoute = () => {
           </Select>
         </label>
       </div>
-      <DataTable table={table} caption="Inspections due" isLoading={list.isPending} error={list.error} onRetry={() => void list.refetch()} isFetching={list.isFetching} empty="Nothing failed, past due or due soon." />
+      <DataTable
+        table={table}
+        caption="Inspections due"
+        isLoading={list.isPending}
+        error={list.error}
+        onRetry={() => void list.refetch()}
+        isFetching={list.isFetching}
+        empty="Nothing failed, past due or due soon."
+      />
       <DataTablePagination
         page={query.page}
         pageSize={query.pageSize}
@@ -100,7 +121,9 @@ const MaintenanceRoute = () => {
         onPageSizeChange={(pageSize) => setQuery({ pageSize })}
         noun="inspections"
       />
-      <p className="text-xs text-ink-muted">Gas pressure can hurt: test only within the rating, with working relief valves. Local pressure-vessel codes and licensed testers come first.</p>
+      <p className="text-xs text-ink-muted">
+        Gas pressure can hurt: test only within the rating, with working relief valves. Local pressure-vessel codes and licensed testers come first.
+      </p>
     </div>
   );
 };

@@ -1,7 +1,15 @@
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { lineMaterials, lineResistanceKpaPerM, lineTubingTable, type LineMaterial, type LineTubing } from '../../../../shared/brewing/index.ts';
-import { carbonationMethodLabels, checkLine, planCarbonation, PlanError, tubingForInsideDiameter, tubingLabels, type CarbonationMethod } from '../../../../shared/cellar/carbonation-planner.ts';
+import {
+  carbonationMethodLabels,
+  checkLine,
+  planCarbonation,
+  PlanError,
+  tubingForInsideDiameter,
+  tubingLabels,
+  type CarbonationMethod,
+} from '../../../../shared/cellar/carbonation-planner.ts';
 import { defaultCarbonationSettings, type CarbonationSettings } from '../../../../shared/schemas/cellar-settings.ts';
 import { Forbidden } from '@/components/errors/forbidden';
 import { Alert } from '@/components/ui/alert';
@@ -81,7 +89,11 @@ interface PlannerFormProps {
 const PSI_KPA = 6.894757293168361;
 
 /** A tap's line as recorded: its tubing kind (vinyl unless said) and its own resistance or the type's default. */
-function lineOfTap(tap: PlannerFormProps['taps'][number] | undefined): { tubing: LineTubing | null; material: LineMaterial | null; resistanceKpaPerM: number | null } {
+function lineOfTap(tap: PlannerFormProps['taps'][number] | undefined): {
+  tubing: LineTubing | null;
+  material: LineMaterial | null;
+  resistanceKpaPerM: number | null;
+} {
   if (!tap || tap.lineInsideDiameterMm === null) return { tubing: null, material: null, resistanceKpaPerM: null };
   const material = (lineMaterials as readonly (string | null | undefined)[]).includes(tap.lineMaterial) ? (tap.lineMaterial as LineMaterial) : null;
   const tubing = tubingForInsideDiameter(tap.lineInsideDiameterMm, material ?? 'vinyl');
@@ -185,7 +197,9 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
         altitudeM: Math.round(inputs.altitudeM),
         method,
         startedAt: new Date(startedAt).toISOString(),
-        ...(method === 'fast_start' ? { fastStartPressureKpa: Math.round(inputs.fastStartPressureKpa * 10) / 10, fastStartHours: inputs.fastStartHours } : { holdDays: inputs.holdDays }),
+        ...(method === 'fast_start'
+          ? { fastStartPressureKpa: Math.round(inputs.fastStartPressureKpa * 10) / 10, fastStartHours: inputs.fastStartHours }
+          : { holdDays: inputs.holdDays }),
         ...(tapId ? { tapId } : {}),
         ...(lineChanged ? { line: lineChanged } : {}),
       });
@@ -206,8 +220,8 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
         <h1 className="text-2xl">Carbonate {kegCode}</h1>
         {holds ? <p className="mt-1 text-ink-muted">{holds}</p> : null}
         <p className="mt-1 text-sm" data-testid="keg-rating">
-          Keg rated working pressure: <strong>{ratedKpa !== null ? `${units.pressure(ratedKpa)} (${formatKPa(ratedKpa)})` : 'not recorded'}</strong>. Never set the
-          regulator above it; the keg’s relief valve must work. Local codes come first.
+          Keg rated working pressure: <strong>{ratedKpa !== null ? `${units.pressure(ratedKpa)} (${formatKPa(ratedKpa)})` : 'not recorded'}</strong>. Never set
+          the regulator above it; the keg’s relief valve must work. Local codes come first.
         </p>
       </header>
       {blocked.length ? (
@@ -249,8 +263,20 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
         <fieldset className="flex flex-col gap-2 sm:col-span-2">
           <legend className="mb-1 text-sm font-medium">Method</legend>
           <div className="flex flex-col gap-2 sm:flex-row">
-            <BigChoice name="method" label={carbonationMethodLabels.set_and_hold} description="About two weeks" checked={method === 'set_and_hold'} onChange={() => setMethod('set_and_hold')} />
-            <BigChoice name="method" label={carbonationMethodLabels.fast_start} description="About three days, then serving pressure" checked={method === 'fast_start'} onChange={() => setMethod('fast_start')} />
+            <BigChoice
+              name="method"
+              label={carbonationMethodLabels.set_and_hold}
+              description="About two weeks"
+              checked={method === 'set_and_hold'}
+              onChange={() => setMethod('set_and_hold')}
+            />
+            <BigChoice
+              name="method"
+              label={carbonationMethodLabels.fast_start}
+              description="About three days, then serving pressure"
+              checked={method === 'fast_start'}
+              onChange={() => setMethod('fast_start')}
+            />
           </div>
         </fieldset>
         {method === 'fast_start' ? (
@@ -316,12 +342,13 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
           <>
             <p className="text-sm text-ink-muted">Regulator at serving pressure</p>
             <p className="text-3xl font-semibold" data-testid="serving-pressure">
-              {units.pressure(result.plan.servingPressureKpa)} <span className="text-base font-normal text-ink-muted">({formatKPa(result.plan.servingPressureKpa)} gauge)</span>
+              {units.pressure(result.plan.servingPressureKpa)}{' '}
+              <span className="text-base font-normal text-ink-muted">({formatKPa(result.plan.servingPressureKpa)} gauge)</span>
             </p>
             {result.plan.lowerPressureAt ? (
               <p>
-                Start at {units.pressure(inputs.fastStartPressureKpa)}, lower to serving pressure at <strong>{formatDateTime(result.plan.lowerPressureAt)}</strong> (the brewer on duty gets a
-                reminder); by then it is roughly 80 % of the way.
+                Start at {units.pressure(inputs.fastStartPressureKpa)}, lower to serving pressure at{' '}
+                <strong>{formatDateTime(result.plan.lowerPressureAt)}</strong> (the brewer on duty gets a reminder); by then it is roughly 80 % of the way.
               </p>
             ) : null}
             <p>
@@ -334,14 +361,20 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
             ))}
             {result.line ? <p className={`text-sm ${result.line.suits ? 'text-hop-strong' : 'text-due-strong'}`}>{result.line.verdict}</p> : null}
             {ratedKpa !== null && Math.max(result.plan.servingPressureKpa, method === 'fast_start' ? inputs.fastStartPressureKpa : 0) > ratedKpa ? (
-              <p className="text-sm font-semibold text-danger">Above the keg’s rated working pressure of {units.pressure(ratedKpa)}: the plan will be refused.</p>
+              <p className="text-sm font-semibold text-danger">
+                Above the keg’s rated working pressure of {units.pressure(ratedKpa)}: the plan will be refused.
+              </p>
             ) : null}
           </>
         ) : (
           <p className="text-due-strong">{result.problem}</p>
         )}
       </section>
-      {error ? <Alert tone="error" title="Not saved">{error}</Alert> : null}
+      {error ? (
+        <Alert tone="error" title="Not saved">
+          {error}
+        </Alert>
+      ) : null}
       <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12 w-full text-base" onClick={save} pending={create.isPending} disabled={!result.plan}>
         Save the plan
       </Button>
@@ -350,9 +383,12 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
   );
 };
 
-
 /** What a line's default rests on, in words for the screen (the table's source ids are for the code). */
 const lineDefaultBasis = (basis: string | undefined) =>
-  !basis ? 'a published figure' : basis.startsWith('common practice') ? basis : `a published figure${basis.includes('low confidence') ? ' (sources differ)' : ''}`;
+  !basis
+    ? 'a published figure'
+    : basis.startsWith('common practice')
+      ? basis
+      : `a published figure${basis.includes('low confidence') ? ' (sources differ)' : ''}`;
 
 export default CarbonationPlannerRoute;

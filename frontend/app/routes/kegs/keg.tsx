@@ -164,9 +164,21 @@ const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void }) =>
 };
 
 const endingVerbs: Record<Ending, { title: (code: string) => string; confirm: string; done: (code: string) => string }> = {
-  return: { title: (code) => `Record ${code} as returned?`, confirm: 'Record it returned', done: (code) => `${code} recorded as returned; clean it before it is filled again.` },
-  empty: { title: (code) => `Record ${code} as emptied?`, confirm: 'Record it emptied', done: (code) => `${code} recorded as emptied; clean it before it is filled again.` },
-  dump: { title: (code) => `Record the beer in ${code} as dumped (poured away)?`, confirm: 'Record it dumped', done: (code) => `The beer in ${code} recorded as dumped; clean the keg before it is filled again.` },
+  return: {
+    title: (code) => `Record ${code} as returned?`,
+    confirm: 'Record it returned',
+    done: (code) => `${code} recorded as returned; clean it before it is filled again.`,
+  },
+  empty: {
+    title: (code) => `Record ${code} as emptied?`,
+    confirm: 'Record it emptied',
+    done: (code) => `${code} recorded as emptied; clean it before it is filled again.`,
+  },
+  dump: {
+    title: (code) => `Record the beer in ${code} as dumped (poured away)?`,
+    confirm: 'Record it dumped',
+    done: (code) => `The beer in ${code} recorded as dumped; clean the keg before it is filled again.`,
+  },
 };
 
 /** A success message; after a return, an emptying or a dump it offers to undo it. */
@@ -237,7 +249,9 @@ const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: 
       onConfirm={async () => {
         setError(null);
         try {
-          const result = await act.mutateAsync(ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} });
+          const result = await act.mutateAsync(
+            ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} },
+          );
           onDone({ text: verbs.done(keg.code), undo: result.undo ?? null });
           onClose();
         } catch (err) {
@@ -246,10 +260,15 @@ const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: 
       }}
     >
       <ul className="flex list-disc flex-col gap-1 pl-5" aria-label="What this changes">
-        {ending === 'return' ? <li>{keg.code} comes back{keg.member ? ` from ${keg.member.name}` : ''} to the cellar.</li> : null}
+        {ending === 'return' ? (
+          <li>
+            {keg.code} comes back{keg.member ? ` from ${keg.member.name}` : ''} to the cellar.
+          </li>
+        ) : null}
         {keg.contents ? (
           <li>
-            {units.volume(keg.contents.remainingLiters)} of {keg.contents.batchName} recorded in it {ending === 'dump' ? 'are written off as dumped (a loss)' : 'are written off'}; the keg then holds nothing.
+            {units.volume(keg.contents.remainingLiters)} of {keg.contents.batchName} recorded in it{' '}
+            {ending === 'dump' ? 'are written off as dumped (a loss)' : 'are written off'}; the keg then holds nothing.
           </li>
         ) : (
           <li>It holds no beer on record.</li>
@@ -294,7 +313,12 @@ const KegRoute = () => {
   useDocumentTitle(keg.data ? `${keg.data.keg.code} · Kegs` : 'Kegs');
 
   if (keg.isPending) return <PageLoader />;
-  if (keg.isError) return <Alert tone="error" title="This keg could not be shown">{problemMessage(keg.error)}</Alert>;
+  if (keg.isError)
+    return (
+      <Alert tone="error" title="This keg could not be shown">
+        {problemMessage(keg.error)}
+      </Alert>
+    );
   const k = keg.data.keg;
   const canMove = ability.can('checkout', subject('Keg', { memberId }));
   const run = async (fn: () => Promise<unknown>) => {
@@ -349,7 +373,9 @@ const KegRoute = () => {
             <Whereabouts keg={k} />
           </div>
           {k.since ? <p className="text-xs text-ink-muted">Since {formatDateTime(k.since)}</p> : null}
-          {k.overdue && ability.can('remind', subject('Keg', { memberId })) ? <RemindKegButton kegId={k.id} code={k.code} lastRemindedAt={k.lastRemindedAt} /> : null}
+          {k.overdue && ability.can('remind', subject('Keg', { memberId })) ? (
+            <RemindKegButton kegId={k.id} code={k.code} lastRemindedAt={k.lastRemindedAt} />
+          ) : null}
           {canMove ? (
             <div className="flex flex-wrap gap-2">
               {k.whereabouts === 'with_member' ? (
@@ -385,7 +411,9 @@ const KegRoute = () => {
                   {k.contents.og?.toFixed(3) ?? '—'} / {k.contents.fg?.toFixed(3) ?? '—'}
                 </dd>
                 <dt className="text-ink-muted">ABV</dt>
-                <dd>{formatAbv(k.contents.abv)} <span className="text-xs text-ink-muted">(label and tax: local rules govern)</span></dd>
+                <dd>
+                  {formatAbv(k.contents.abv)} <span className="text-xs text-ink-muted">(label and tax: local rules govern)</span>
+                </dd>
                 <dt className="text-ink-muted">Filled</dt>
                 <dd>
                   {formatDateTime(k.contents.filledAt)} · {units.volume(k.contents.volumeLiters)}
@@ -429,7 +457,11 @@ const KegRoute = () => {
               <p className="text-ink-muted">Empty.</p>
               {ability.can('create', 'SanitationCycle') && k.state !== 'out_of_service' ? (
                 <div className="flex flex-wrap gap-2">
-                  <ButtonLink to={cellarPaths.recordCycle(k.id)} variant={k.state === 'ready' ? 'secondary' : 'primary'} className="min-h-12 md:min-h-12 pointer-coarse:min-h-12">
+                  <ButtonLink
+                    to={cellarPaths.recordCycle(k.id)}
+                    variant={k.state === 'ready' ? 'secondary' : 'primary'}
+                    className="min-h-12 md:min-h-12 pointer-coarse:min-h-12"
+                  >
                     Record a cycle
                   </ButtonLink>
                   {k.state === 'ready' && ability.can('create', 'Transfer') ? (
@@ -453,13 +485,21 @@ const KegRoute = () => {
           {c ? (
             <>
               <p>
-                {c.method === 'fast_start' ? 'Fast start' : 'Set and hold'} to {c.targetVolumes.toFixed(1)} volumes at {units.pressure(c.servingPressureKpa)} serving pressure
+                {c.method === 'fast_start' ? 'Fast start' : 'Set and hold'} to {c.targetVolumes.toFixed(1)} volumes at {units.pressure(c.servingPressureKpa)}{' '}
+                serving pressure
                 {c.fastPressureKpa ? ` (fast start at ${units.pressure(c.fastPressureKpa)})` : ''}; ready about {formatDate(c.readyAt)}.
               </p>
               {c.lowerPressureAt && !c.pressureLoweredAt ? (
-                <Alert tone={new Date(c.lowerPressureAt) <= new Date() ? 'error' : 'info'} title={`Lower the pressure to ${units.pressure(c.servingPressureKpa)} at ${formatDateTime(c.lowerPressureAt)}`}>
+                <Alert
+                  tone={new Date(c.lowerPressureAt) <= new Date() ? 'error' : 'info'}
+                  title={`Lower the pressure to ${units.pressure(c.servingPressureKpa)} at ${formatDateTime(c.lowerPressureAt)}`}
+                >
                   {ability.can('update', subject('CarbonationPlan', { memberId })) ? (
-                    <Button className="mt-2 min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={plan.isPending} onClick={() => run(() => plan.mutateAsync({ planId: c.planId, action: 'pressure-lowered' }))}>
+                    <Button
+                      className="mt-2 min-h-12 md:min-h-12 pointer-coarse:min-h-12"
+                      pending={plan.isPending}
+                      onClick={() => run(() => plan.mutateAsync({ planId: c.planId, action: 'pressure-lowered' }))}
+                    >
                       I lowered the pressure
                     </Button>
                   ) : null}
@@ -510,7 +550,9 @@ const KegRoute = () => {
       {open === 'check-out' ? <CheckOutDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'move' ? <MoveDialog keg={k} onClose={() => setOpen(null)} /> : null}
       {open === 'level' ? <LevelDialog keg={k} onClose={() => setOpen(null)} /> : null}
-      {open === 'return' || open === 'empty' || open === 'dump' ? <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={(n) => setKegNotice(n)} /> : null}
+      {open === 'return' || open === 'empty' || open === 'dump' ? (
+        <EndingDialog keg={k} ending={open} onClose={() => setOpen(null)} onDone={(n) => setKegNotice(n)} />
+      ) : null}
     </div>
   );
 };

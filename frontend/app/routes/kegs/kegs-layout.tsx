@@ -20,7 +20,9 @@ const KegsLayout = () => {
       <header>
         <h1 className="text-2xl">Kegs</h1>
         <p className="mt-1 text-ink-muted">
-          {everyone ? 'Where every keg is: the cellar, the cold room and its taps, out with a member, or missing.' : 'Your kegs: what is in them, where they are and when they are due back.'}
+          {everyone
+            ? 'Where every keg is: the cellar, the cold room and its taps, out with a member, or missing.'
+            : 'Your kegs: what is in them, where they are and when they are due back.'}
         </p>
       </header>
       <nav aria-label="Kegs sections" className="flex flex-wrap gap-x-1 border-b border-line">

@@ -41,7 +41,10 @@ const OverdueKegsRoute = () => {
               </div>
               <div className="flex flex-wrap items-start gap-2">
                 {ability.can('remind', 'Keg') ? <RemindKegButton kegId={k.id} code={k.code} lastRemindedAt={k.lastRemindedAt} /> : null}
-                <Link to={cellarPaths.keg(k.id)} className="inline-flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 items-center rounded-md border border-line-strong px-4 text-sm no-underline hover:no-underline">
+                <Link
+                  to={cellarPaths.keg(k.id)}
+                  className="inline-flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 items-center rounded-md border border-line-strong px-4 text-sm no-underline hover:no-underline"
+                >
                   Open
                 </Link>
               </div>

@@ -26,7 +26,13 @@ const TapBoardRoute = () => {
           <li key={t.id} className={`flex flex-col gap-2 rounded-lg border p-3 ${t.taken ? 'border-copper/50 bg-surface' : 'border-line bg-ground'}`}>
             <div className="flex items-center justify-between gap-2">
               <h2 className="text-lg">{t.code}</h2>
-              {t.state === 'out_of_service' ? <StateBadge state="out_of_service" /> : t.taken ? <Badge tone="copper">On tap</Badge> : <Badge tone="muted">Free</Badge>}
+              {t.state === 'out_of_service' ? (
+                <StateBadge state="out_of_service" />
+              ) : t.taken ? (
+                <Badge tone="copper">On tap</Badge>
+              ) : (
+                <Badge tone="muted">Free</Badge>
+              )}
             </div>
             <p className="text-xs text-ink-muted">{t.position}</p>
             {t.keg ? (

@@ -47,13 +47,19 @@ const KegWhereaboutsRoute = () => {
           row.original.contents ? (
             <span className="flex flex-col">
               <span>{row.original.contents.batchName}</span>
-              <span className="text-xs text-ink-muted">{row.original.contents.abv !== null ? formatAbv(row.original.contents.abv) : row.original.contents.style}</span>
+              <span className="text-xs text-ink-muted">
+                {row.original.contents.abv !== null ? formatAbv(row.original.contents.abv) : row.original.contents.style}
+              </span>
             </span>
           ) : (
             <span className="text-ink-muted">—</span>
           ),
       }),
-      column.accessor((k) => k.contents?.remainingLiters ?? null, { id: 'remainingLiters', header: 'Left', cell: ({ row }) => <FillGauge keg={row.original} /> }),
+      column.accessor((k) => k.contents?.remainingLiters ?? null, {
+        id: 'remainingLiters',
+        header: 'Left',
+        cell: ({ row }) => <FillGauge keg={row.original} />,
+      }),
       column.accessor('dueAt', { header: 'Due back', cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span> }),
       column.display({
         id: 'carbonation',
@@ -101,7 +107,15 @@ const KegWhereaboutsRoute = () => {
           <Input type="search" value={q} placeholder="Keg code or batch" onChange={(e) => (setQ(e.target.value), setPage(1))} />
         </label>
       </div>
-      <DataTable table={table} caption="Kegs and where they are" isLoading={kegs.isPending} error={kegs.error} onRetry={() => void kegs.refetch()} isFetching={kegs.isFetching} empty="No keg matches." />
+      <DataTable
+        table={table}
+        caption="Kegs and where they are"
+        isLoading={kegs.isPending}
+        error={kegs.error}
+        onRetry={() => void kegs.refetch()}
+        isFetching={kegs.isFetching}
+        empty="No keg matches."
+      />
       <DataTablePagination
         page={page}
         pageSize={pageSize}

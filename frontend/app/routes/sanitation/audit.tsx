@@ -32,8 +32,8 @@ const SanitationAuditRoute = () => {
       aria-label="Sanitation audit report"
     >
       <p className="text-sm text-ink-muted">
-        Every cycle with its steps, chemicals, strengths, times and people; every fill with the cycle before it; flagged exceptions (fills without a current cycle, late cycles, short
-        contact times, lapsed windows, steps recorded against a rule with their reasons); a summary per vessel.
+        Every cycle with its steps, chemicals, strengths, times and people; every fill with the cycle before it; flagged exceptions (fills without a current
+        cycle, late cycles, short contact times, lapsed windows, steps recorded against a rule with their reasons); a summary per vessel.
       </p>
       <div className="grid gap-3 sm:grid-cols-3">
         <Field label="From" error={invalid && from > to ? 'From must not be after to' : undefined}>

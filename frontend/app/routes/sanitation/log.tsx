@@ -105,7 +105,15 @@ const SanitationLogRoute = () => {
           <Input type="search" value={q} placeholder="Code or name" onChange={(e) => (setQ(e.target.value), setPage(1))} />
         </label>
       </div>
-      <DataTable table={table} caption="Sanitation cycles" isLoading={cycles.isPending} error={cycles.error} onRetry={() => void cycles.refetch()} isFetching={cycles.isFetching} empty="No cycles match." />
+      <DataTable
+        table={table}
+        caption="Sanitation cycles"
+        isLoading={cycles.isPending}
+        error={cycles.error}
+        onRetry={() => void cycles.refetch()}
+        isFetching={cycles.isFetching}
+        empty="No cycles match."
+      />
       <DataTablePagination
         page={page}
         pageSize={pageSize}

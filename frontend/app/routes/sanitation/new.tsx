@@ -82,7 +82,12 @@ const RecordCycleRoute = () => {
     );
   }
   if (vessel.isPending || settings.isPending || latest.isPending) return <PageLoader />;
-  if (vessel.isError) return <Alert tone="error" title="This vessel could not be shown">{problemMessage(vessel.error)}</Alert>;
+  if (vessel.isError)
+    return (
+      <Alert tone="error" title="This vessel could not be shown">
+        {problemMessage(vessel.error)}
+      </Alert>
+    );
   const item = vessel.data.equipment;
   const last = latest.data?.items[0];
   const openCycle = last && !last.complete && last.outcome === item.state ? last : null;

@@ -76,7 +76,12 @@ const SanitationVesselsRoute = () => {
                 {v.stateReason && v.state !== 'ready' ? <p className="text-xs text-ink-muted">{v.stateReason}</p> : null}
               </div>
               {canRecord && v.state !== 'holding' && v.state !== 'out_of_service' ? (
-                <ButtonLink to={cellarPaths.recordCycle(v.id)} variant="secondary" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" aria-label={`Record a cycle on ${v.code}`}>
+                <ButtonLink
+                  to={cellarPaths.recordCycle(v.id)}
+                  variant="secondary"
+                  className="min-h-12 md:min-h-12 pointer-coarse:min-h-12"
+                  aria-label={`Record a cycle on ${v.code}`}
+                >
                   Record a cycle
                 </ButtonLink>
               ) : null}
@@ -84,7 +89,14 @@ const SanitationVesselsRoute = () => {
           ))}
         </ul>
       )}
-      <DataTablePagination page={page} pageSize={25} total={list.data?.total ?? 0} onPageChange={setPage} noun={['vessel', 'vessels']} isPlaceholder={list.isPlaceholderData} />
+      <DataTablePagination
+        page={page}
+        pageSize={25}
+        total={list.data?.total ?? 0}
+        onPageChange={setPage}
+        noun={['vessel', 'vessels']}
+        isPlaceholder={list.isPlaceholderData}
+      />
     </div>
   );
 };

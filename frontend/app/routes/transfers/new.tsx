@@ -103,13 +103,19 @@ const NewTransferRoute = () => {
         toKegIds: chosen.map((k) => k.id),
         volumeLiters: L(volume),
         ...(split ? (loss.trim() ? { lossLiters: L(loss) } : {}) : { kegVolumesLiters: chosen.map((k) => L(perKeg[k.id] ?? '')) }),
-        checklist: { drawMethod, ...Object.fromEntries(items.map((i) => [i.key, Boolean(ticks[i.key])])), ...(oxygenNote.trim() ? { oxygenPickupNote: oxygenNote.trim() } : {}) },
+        checklist: {
+          drawMethod,
+          ...Object.fromEntries(items.map((i) => [i.key, Boolean(ticks[i.key])])),
+          ...(oxygenNote.trim() ? { oxygenPickupNote: oxygenNote.trim() } : {}),
+        },
         finings: finings === 'none' ? null : { kind: finingsKind, amount: n(finingsAmount), unit: finingsUnit },
         startedAt: start!.toISOString(),
         ...(end ? { endedAt: end.toISOString() } : {}),
         ...(unstable && reason.trim() ? { unstableGravityReason: reason.trim() } : {}),
         ...(oxygen.trim() ? { dissolvedOxygenPpb: n(oxygen) } : {}),
-        ...(chosen.some((k) => (kegOxygen[k.id] ?? '').trim()) ? { kegDissolvedOxygenPpb: chosen.map((k) => ((kegOxygen[k.id] ?? '').trim() ? n(kegOxygen[k.id]!) : null)) } : {}),
+        ...(chosen.some((k) => (kegOxygen[k.id] ?? '').trim())
+          ? { kegDissolvedOxygenPpb: chosen.map((k) => ((kegOxygen[k.id] ?? '').trim() ? n(kegOxygen[k.id]!) : null)) }
+          : {}),
       });
       setDone(result);
       window.scrollTo({ top: 0 });
@@ -127,8 +133,8 @@ const NewTransferRoute = () => {
       <div className="mx-auto flex w-full max-w-xl flex-col gap-4">
         <h1 className="text-2xl">Transfer recorded</h1>
         <Alert tone="success" title={`${t.batch.name} from ${t.fermenter.code} into ${t.kegs.map((k) => k.code).join(', ')}`}>
-          {units.volume(t.packagedLiters)} in kegs, {units.volume(t.lossLiters)} lost{t.abv !== null ? ` · ${formatAbv(t.abv)} on the labels` : ''}. {t.fermenter.code} now needs
-          cleaning.
+          {units.volume(t.packagedLiters)} in kegs, {units.volume(t.lossLiters)} lost{t.abv !== null ? ` · ${formatAbv(t.abv)} on the labels` : ''}.{' '}
+          {t.fermenter.code} now needs cleaning.
         </Alert>
         <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
           {t.startedAt && t.endedAt ? (
@@ -203,9 +209,10 @@ const NewTransferRoute = () => {
         {unstable ? (
           <Alert tone="error" title="Gravity not stable yet">
             <p>
-              The co-op counts a batch as finished when its gravity holds within ±{(candidate?.gravity.toleranceSg ?? 0.001).toFixed(3)} for {candidate?.gravity.spanDays ?? 3} days
-              {candidate ? `; ${candidate.name}'s has held ${candidate.gravity.heldDays} day${candidate.gravity.heldDays === 1 ? '' : 's'}` : ''}. Kegging it now may leave it
-              sweet or over-carbonate the kegs.
+              The co-op counts a batch as finished when its gravity holds within ±{(candidate?.gravity.toleranceSg ?? 0.001).toFixed(3)} for{' '}
+              {candidate?.gravity.spanDays ?? 3} days
+              {candidate ? `; ${candidate.name}'s has held ${candidate.gravity.heldDays} day${candidate.gravity.heldDays === 1 ? '' : 's'}` : ''}. Kegging it
+              now may leave it sweet or over-carbonate the kegs.
             </p>
             {candidate && candidate.gravity.readings.length ? (
               <p className="mt-1">Last readings: {candidate.gravity.readings.map((r) => `${r.sg.toFixed(3)} (${formatDate(r.takenAt)})`).join(', ')}</p>
@@ -233,7 +240,15 @@ const NewTransferRoute = () => {
         {timesError ? <p className="text-sm text-danger-strong">{timesError}</p> : null}
         <label className={label}>
           Drawn from the fermenter ({units.labels.volume})
-          <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={volume} onChange={(e) => setVolume(e.target.value)} placeholder={candidate ? toDisplay.volume(candidate.volumeLiters, u).toFixed(1) : ''} />
+          <BigInput
+            type="number"
+            inputMode="decimal"
+            step="0.1"
+            min={0}
+            value={volume}
+            onChange={(e) => setVolume(e.target.value)}
+            placeholder={candidate ? toDisplay.volume(candidate.volumeLiters, u).toFixed(1) : ''}
+          />
         </label>
       </section>
 
@@ -265,7 +280,14 @@ const NewTransferRoute = () => {
               chosen.map((k) => (
                 <label key={k.id} className={label}>
                   In {k.code} ({units.labels.volume})
-                  <BigInput type="number" inputMode="decimal" step="0.1" min={0} value={perKeg[k.id] ?? ''} onChange={(e) => setPerKeg((p) => ({ ...p, [k.id]: e.target.value }))} />
+                  <BigInput
+                    type="number"
+                    inputMode="decimal"
+                    step="0.1"
+                    min={0}
+                    value={perKeg[k.id] ?? ''}
+                    onChange={(e) => setPerKeg((p) => ({ ...p, [k.id]: e.target.value }))}
+                  />
                 </label>
               ))
             )}
@@ -280,7 +302,16 @@ const NewTransferRoute = () => {
         <p className="text-sm text-ink-muted">Where a meter is at hand: ppb, 0 to 10,000.</p>
         <label className={label}>
           At fill (ppb)
-          <BigInput type="number" inputMode="decimal" step="1" min={0} max={10000} value={oxygen} onChange={(e) => setOxygen(e.target.value)} aria-invalid={oxygenOk(oxygen) ? undefined : true} />
+          <BigInput
+            type="number"
+            inputMode="decimal"
+            step="1"
+            min={0}
+            max={10000}
+            value={oxygen}
+            onChange={(e) => setOxygen(e.target.value)}
+            aria-invalid={oxygenOk(oxygen) ? undefined : true}
+          />
         </label>
         {chosen.map((k) => (
           <label key={k.id} className={label}>
@@ -311,7 +342,13 @@ const NewTransferRoute = () => {
           </div>
         </fieldset>
         {items.map((i) => (
-          <BigCheck key={i.key} label={i.label} description={i.help} checked={Boolean(ticks[i.key])} onChange={(e) => setTicks((t) => ({ ...t, [i.key]: e.target.checked }))} />
+          <BigCheck
+            key={i.key}
+            label={i.label}
+            description={i.help}
+            checked={Boolean(ticks[i.key])}
+            onChange={(e) => setTicks((t) => ({ ...t, [i.key]: e.target.checked }))}
+          />
         ))}
         <label className={label}>
           Oxygen pick-up seen at a fitting (optional)
@@ -325,7 +362,9 @@ const NewTransferRoute = () => {
             <option value="gelatin">Gelatin</option>
             <option value="other">Other</option>
           </BigSelect>
-          {finings === 'other' ? <BigInput aria-label="Which finings" value={finingsOther} onChange={(e) => setFiningsOther(e.target.value)} placeholder="Name the finings" /> : null}
+          {finings === 'other' ? (
+            <BigInput aria-label="Which finings" value={finingsOther} onChange={(e) => setFiningsOther(e.target.value)} placeholder="Name the finings" />
+          ) : null}
           {finings !== 'none' ? (
             <label className={label}>
               Dose ({finingsUnit})
@@ -335,7 +374,11 @@ const NewTransferRoute = () => {
         </fieldset>
       </section>
 
-      {error ? <Alert tone="error" title="Not recorded">{error}</Alert> : null}
+      {error ? (
+        <Alert tone="error" title="Not recorded">
+          {error}
+        </Alert>
+      ) : null}
       {unticked.length ? <p className="text-sm text-ink-muted">Tick every step of the checklist to record the transfer ({unticked.length} to go).</p> : null}
       <Button className="min-h-12 md:min-h-12 pointer-coarse:min-h-12 w-full text-base" onClick={submit} pending={record.isPending} disabled={!ready}>
         Record the transfer

@@ -6,14 +6,11 @@ import { newPasswordFields, passwordsMatch, passwordsMatchIssue } from '@/featur
 import { api } from '@/lib/api-client';
 import { applySignedIn } from '@/lib/auth';
 
-export const acceptInvitationFormSchema = z
-  .object({ name: personNameSchema, ...newPasswordFields })
-  .refine(passwordsMatch, passwordsMatchIssue);
+export const acceptInvitationFormSchema = z.object({ name: personNameSchema, ...newPasswordFields }).refine(passwordsMatch, passwordsMatchIssue);
 export type AcceptInvitationFormValues = z.infer<typeof acceptInvitationFormSchema>;
 
 /** Sets the name and password, and signs the new person in. */
-export const acceptInvitation = (input: AcceptInvitationInput) =>
-  api.post<{ user: SessionUser }>('/api/auth/invitations/accept', input);
+export const acceptInvitation = (input: AcceptInvitationInput) => api.post<{ user: SessionUser }>('/api/auth/invitations/accept', input);
 
 export function useAcceptInvitation() {
   const queryClient = useQueryClient();

@@ -8,8 +8,7 @@ export const resetPasswordFormSchema = z.object(newPasswordFields).refine(passwo
 export type ResetPasswordFormValues = z.infer<typeof resetPasswordFormSchema>;
 
 /** 204; 422 or 410 when the token is bad, expired or used. */
-export const confirmPasswordReset = (input: PasswordResetConfirmInput) =>
-  api.post<void>('/api/auth/password-reset/confirm', input);
+export const confirmPasswordReset = (input: PasswordResetConfirmInput) => api.post<void>('/api/auth/password-reset/confirm', input);
 
 export function useConfirmPasswordReset() {
   return useMutation({ mutationFn: confirmPasswordReset });

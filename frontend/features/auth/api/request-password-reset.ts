@@ -5,8 +5,7 @@ import { api } from '@/lib/api-client';
 export { passwordResetRequestSchema } from '../../../../shared/schemas/auth.ts';
 
 /** Always 202, whether or not the address has an account. */
-export const requestPasswordReset = (input: PasswordResetRequestInput) =>
-  api.post<void>('/api/auth/password-reset', input);
+export const requestPasswordReset = (input: PasswordResetRequestInput) => api.post<void>('/api/auth/password-reset', input);
 
 export function useRequestPasswordReset() {
   return useMutation({ mutationFn: requestPasswordReset });

@@ -6,11 +6,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import {
-  acceptInvitationFormSchema,
-  useAcceptInvitation,
-  type AcceptInvitationFormValues,
-} from '@/features/auth/api/accept-invitation';
+import { acceptInvitationFormSchema, useAcceptInvitation, type AcceptInvitationFormValues } from '@/features/auth/api/accept-invitation';
 import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { isApiProblem } from '@/lib/api-client';
 import { applyProblemToForm } from '@/utils/problem-form';
@@ -55,9 +51,7 @@ export const AcceptInvitationForm = ({ token, invitation, onAccepted }: AcceptIn
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {formError ? <Alert tone="error">{formError}</Alert> : null}
       <Field label="E-mail" hint="You'll sign in with this address.">
-        {({ invalid, ...control }) => (
-          <Input {...control} invalid={invalid} type="email" value={invitation.email} readOnly autoComplete="username" />
-        )}
+        {({ invalid, ...control }) => <Input {...control} invalid={invalid} type="email" value={invitation.email} readOnly autoComplete="username" />}
       </Field>
       <Field label="Your name" hint="As the rest of the co-op will see it." error={errors.name?.message}>
         {({ invalid, ...control }) => <Input {...control} invalid={invalid} autoComplete="name" {...register('name')} />}

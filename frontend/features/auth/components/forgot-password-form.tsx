@@ -41,8 +41,8 @@ export const ForgotPasswordForm = () => {
   if (sentTo) {
     return (
       <Alert tone="success" title="Check your e-mail">
-        If <strong className="font-semibold">{sentTo}</strong> has an account here, a link to choose a new password is on
-        its way. It works once and only for a short while.
+        If <strong className="font-semibold">{sentTo}</strong> has an account here, a link to choose a new password is on its way. It works once and only for a
+        short while.
       </Alert>
     );
   }

@@ -83,9 +83,7 @@ export const LoginForm = ({ onSignedIn }: LoginFormProps) => {
           </Link>
         }
       >
-        {({ invalid, ...control }) => (
-          <PasswordInput {...control} invalid={invalid} autoComplete="current-password" {...register('password')} />
-        )}
+        {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} autoComplete="current-password" {...register('password')} />}
       </Field>
       <Button type="submit" pending={login.isPending} className="mt-1 w-full">
         Sign in

@@ -11,26 +11,13 @@ export interface NewPasswordFieldsProps {
 }
 
 /** "New password" and "Repeat the password", for the reset and invitation forms. */
-export const NewPasswordFields = ({
-  password,
-  confirmPassword,
-  passwordError,
-  confirmPasswordError,
-}: NewPasswordFieldsProps) => (
+export const NewPasswordFields = ({ password, confirmPassword, passwordError, confirmPasswordError }: NewPasswordFieldsProps) => (
   <>
-    <Field
-      label="New password"
-      hint={`At least ${minPasswordLength} characters. A few unrelated words make a good one.`}
-      error={passwordError}
-    >
-      {({ invalid, ...control }) => (
-        <PasswordInput {...control} invalid={invalid} autoComplete="new-password" {...password} />
-      )}
+    <Field label="New password" hint={`At least ${minPasswordLength} characters. A few unrelated words make a good one.`} error={passwordError}>
+      {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} autoComplete="new-password" {...password} />}
     </Field>
     <Field label="Repeat the password" error={confirmPasswordError}>
-      {({ invalid, ...control }) => (
-        <PasswordInput {...control} invalid={invalid} autoComplete="new-password" {...confirmPassword} />
-      )}
+      {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} autoComplete="new-password" {...confirmPassword} />}
     </Field>
   </>
 );

@@ -15,8 +15,7 @@ import { applyProblemToForm } from '@/utils/problem-form';
 const profileFormSchema = updateMeSchema.required();
 type ProfileFormValues = z.infer<typeof profileFormSchema>;
 
-const example = (units: SessionUser['units']) =>
-  `${formatVolume(19, units)}, ${formatTemperature(3, units)}, ${formatPressure(83, units)}`;
+const example = (units: SessionUser['units']) => `${formatVolume(19, units)}, ${formatTemperature(3, units)}, ${formatPressure(83, units)}`;
 
 export interface ProfileFormProps {
   user: SessionUser;

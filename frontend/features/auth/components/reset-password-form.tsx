@@ -5,11 +5,7 @@ import { Link } from 'react-router-dom';
 import { Alert } from '@/components/ui/alert';
 import { Button, buttonClasses } from '@/components/ui/button';
 import { paths } from '@/config/paths';
-import {
-  resetPasswordFormSchema,
-  useConfirmPasswordReset,
-  type ResetPasswordFormValues,
-} from '@/features/auth/api/confirm-password-reset';
+import { resetPasswordFormSchema, useConfirmPasswordReset, type ResetPasswordFormValues } from '@/features/auth/api/confirm-password-reset';
 import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { isApiProblem } from '@/lib/api-client';
 import { applyProblemToForm, fieldOfPath } from '@/utils/problem-form';

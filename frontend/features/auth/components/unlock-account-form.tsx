@@ -35,8 +35,7 @@ export const UnlockAccountForm = ({ token }: UnlockAccountFormProps) => {
     return (
       <div className="flex flex-col gap-4">
         <Alert tone="error" title="This link no longer works">
-          It has expired or has been used already. The lock ends by itself after a while; or choose a new password, which
-          lifts it too.
+          It has expired or has been used already. The lock ends by itself after a while; or choose a new password, which lifts it too.
         </Alert>
         <Link to={paths.forgotPassword} className={buttonClasses('primary', 'md', 'w-full')}>
           Choose a new password

@@ -16,7 +16,12 @@ export const BatchFigures = ({ batch }: { batch: BatchDetail }) => {
   const soFar = batch.figuresFrom === 'current' ? ' so far' : '';
   return (
     <dl className="flex flex-wrap gap-3">
-      <Figure label="OG" value={formatSg(batch.og)} sub={batch.og !== null ? formatPlato(batch.og) : batch.targetOg ? `target ${formatSg(batch.targetOg)}` : undefined} testId="figure-og" />
+      <Figure
+        label="OG"
+        value={formatSg(batch.og)}
+        sub={batch.og !== null ? formatPlato(batch.og) : batch.targetOg ? `target ${formatSg(batch.targetOg)}` : undefined}
+        testId="figure-og"
+      />
       <Figure label="Now" value={formatSg(batch.currentGravity)} sub={batch.lastReadingAt ? formatDateTime(batch.lastReadingAt) : undefined} />
       <Figure
         label="FG"
@@ -42,7 +47,9 @@ export const StableSignal = ({ batch }: { batch: BatchDetail }) => {
   if (stuck) {
     return (
       <div role="status" data-testid="stable-signal" className="rounded-md border border-due/40 bg-due-soft px-3 py-2 text-sm text-due-strong">
-        <p className="font-semibold">Stable at {formatSg(batch.currentGravity)}, well above the {formatSg(batch.targetFg)} target: fermentation may be stuck.</p>
+        <p className="font-semibold">
+          Stable at {formatSg(batch.currentGravity)}, well above the {formatSg(batch.targetFg)} target: fermentation may be stuck.
+        </p>
         <p>Check the temperature, rouse the yeast or ask the brewer on duty before transferring.</p>
       </div>
     );
@@ -50,7 +57,9 @@ export const StableSignal = ({ batch }: { batch: BatchDetail }) => {
   if (stable.stable) {
     return (
       <div role="status" data-testid="stable-signal" className="rounded-md border border-hop/40 bg-hop-soft px-3 py-2 text-sm text-hop-strong">
-        <p className="font-semibold">Stable since {formatDateTime(stable.since)}: {rule}.</p>
+        <p className="font-semibold">
+          Stable since {formatDateTime(stable.since)}: {rule}.
+        </p>
         <p>Final gravity {formatSg(batch.currentGravity)}. Ready to transfer when you are.</p>
       </div>
     );

@@ -33,10 +33,14 @@ const formSchema = z
     shelfLifeDays: z.number().int('Whole days').min(1, 'At least 1 day').max(3650, 'At most 10 years').nullable(),
     bookingId: z.string(),
   })
-  .refine((v) => v.targetOg == null || v.targetFg == null || v.targetFg < v.targetOg, { path: ['targetFg'], message: 'The target FG must be below the target OG' });
+  .refine((v) => v.targetOg == null || v.targetFg == null || v.targetFg < v.targetOg, {
+    path: ['targetFg'],
+    message: 'The target FG must be below the target OG',
+  });
 type FormValues = z.infer<typeof formSchema>;
 
-const numberOrNull = (v: unknown) => (v === '' || v === null || v === undefined || Number.isNaN(v) ? null : typeof v === 'number' ? v : typeof v === 'string' ? Number(v.replace(',', '.')) : NaN);
+const numberOrNull = (v: unknown) =>
+  v === '' || v === null || v === undefined || Number.isNaN(v) ? null : typeof v === 'number' ? v : typeof v === 'string' ? Number(v.replace(',', '.')) : NaN;
 
 function useFermenterBookings(ownerId: string | undefined, mine: boolean) {
   return useQuery({
@@ -66,12 +70,19 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
   const [formError, setFormError] = useState<string | null>(null);
   const bookings = useFermenterBookings(batch?.ownerId, !batch);
   const linked = batch?.bookings[0]?.id ?? '';
-  const { register, handleSubmit, setError, getValues, setValue, formState: { errors } } = useForm<FormValues>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    getValues,
+    setValue,
+    formState: { errors },
+  } = useForm<FormValues>({
     resolver: zodResolver(formSchema),
     defaultValues: {
       name: batch?.name ?? '',
       style: batch?.style ?? '',
-      volume: batch ? Math.round(toDisplay.volume(batch.volumeLiters, units.units) * 100) / 100 : (undefined),
+      volume: batch ? Math.round(toDisplay.volume(batch.volumeLiters, units.units) * 100) / 100 : undefined,
       targetOg: batch?.targetOg ?? null,
       targetFg: batch?.targetFg ?? null,
       notes: batch?.notes ?? '',
@@ -81,7 +92,10 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
     },
   });
   const addAllergen = (a: string) => {
-    const list = getValues('allergens').split(',').map((x) => x.trim()).filter(Boolean);
+    const list = getValues('allergens')
+      .split(',')
+      .map((x) => x.trim())
+      .filter(Boolean);
     if (!list.some((x) => x.toLowerCase() === a)) setValue('allergens', [...list, a].join(', '), { shouldDirty: true });
   };
   const choices = (bookings.data?.items ?? []).filter((b) => b.state !== 'cancelled' && (!b.batchId || b.batchId === batch?.id));
@@ -95,7 +109,10 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
       targetOg: v.targetOg,
       targetFg: v.targetFg,
       notes: v.notes,
-      allergens: v.allergens.split(',').map((x) => x.trim()).filter(Boolean),
+      allergens: v.allergens
+        .split(',')
+        .map((x) => x.trim())
+        .filter(Boolean),
       shelfLifeDays: v.shelfLifeDays,
     };
     const onError = (error: unknown) => {
@@ -130,18 +147,35 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
           {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" {...register('targetFg', { setValueAs: numberOrNull })} />}
         </Field>
       </div>
-      <Field label="Allergens" hint="Comma-separated; finings recorded at transfer add theirs (gelatin and isinglass make the beer not vegan)." error={errors.allergens?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" placeholder="e.g. gluten (barley), lactose (milk)" {...register('allergens')} />}
+      <Field
+        label="Allergens"
+        hint="Comma-separated; finings recorded at transfer add theirs (gelatin and isinglass make the beer not vegan)."
+        error={errors.allergens?.message}
+      >
+        {({ invalid, ...c }) => (
+          <Input {...c} invalid={invalid} autoComplete="off" placeholder="e.g. gluten (barley), lactose (milk)" {...register('allergens')} />
+        )}
       </Field>
       <div className="-mt-2 flex flex-wrap gap-1.5" aria-label="Suggested allergens">
         {allergenSuggestions.map((a) => (
-          <button key={a} type="button" className="rounded-sm border border-line-strong px-1.5 py-px text-xs text-ink-muted hover:text-ink" onClick={() => addAllergen(a)}>
+          <button
+            key={a}
+            type="button"
+            className="rounded-sm border border-line-strong px-1.5 py-px text-xs text-ink-muted hover:text-ink"
+            onClick={() => addAllergen(a)}
+          >
             + {a}
           </button>
         ))}
       </div>
-      <Field label="Shelf life (days)" hint="Leave empty for the co-op’s shelf life for this style (Settings). Each keg filled gets a best-before from it." error={errors.shelfLifeDays?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="numeric" className="w-32" {...register('shelfLifeDays', { setValueAs: numberOrNull })} />}
+      <Field
+        label="Shelf life (days)"
+        hint="Leave empty for the co-op’s shelf life for this style (Settings). Each keg filled gets a best-before from it."
+        error={errors.shelfLifeDays?.message}
+      >
+        {({ invalid, ...c }) => (
+          <Input {...c} invalid={invalid} inputMode="numeric" className="w-32" {...register('shelfLifeDays', { setValueAs: numberOrNull })} />
+        )}
       </Field>
       <Field label="Fermenter booking" hint="The fermenter booking that holds this batch." error={errors.bookingId?.message}>
         {({ invalid, ...c }) => (

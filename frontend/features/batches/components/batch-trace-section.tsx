@@ -36,7 +36,8 @@ export const BatchTraceSection = ({ batch }: { batch: BatchDetail }) => {
           <TraceFacts trace={trace.data} />
           {trace.data.fills.length ? (
             <p className="text-sm text-ink-muted">
-              {pluralize(trace.data.totals.kegs, 'keg')}; {trace.data.totals.holding} still holding it ({trace.data.totals.withMembers} with members, {trace.data.totals.onTaps} on taps).
+              {pluralize(trace.data.totals.kegs, 'keg')}; {trace.data.totals.holding} still holding it ({trace.data.totals.withMembers} with members,{' '}
+              {trace.data.totals.onTaps} on taps).
             </p>
           ) : null}
           <TraceTable trace={trace.data} />

@@ -58,7 +58,11 @@ export const BatchesToolbar = ({ query, onQueryChange, showMine }: BatchesToolba
       </form>
       <label className={labelClass}>
         Status
-        <Select value={query.status ?? ''} onChange={(e) => onQueryChange({ status: (e.target.value || undefined) as BatchListQuery['status'] })} className="w-44">
+        <Select
+          value={query.status ?? ''}
+          onChange={(e) => onQueryChange({ status: (e.target.value || undefined) as BatchListQuery['status'] })}
+          className="w-44"
+        >
           <option value="">Any status</option>
           {batchStatuses.map((s) => (
             <option key={s} value={s}>
@@ -105,7 +109,9 @@ export const BatchesTable = ({ query, data, isLoading, error, onRetry, isFetchin
         meta: { className: 'min-w-44' },
       }),
       column.accessor('style', { header: 'Style', cell: ({ getValue }) => getValue() || <span className="text-ink-faint">—</span> }),
-      ...(showOwner ? [column.accessor('ownerName', { id: 'owner', header: 'Member', cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue()}</span> })] : []),
+      ...(showOwner
+        ? [column.accessor('ownerName', { id: 'owner', header: 'Member', cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue()}</span> })]
+        : []),
       column.accessor('status', { header: 'Status', cell: ({ getValue }) => <BatchStatusBadge status={getValue()} /> }),
       column.accessor('volumeLiters', {
         header: 'Volume',

@@ -45,7 +45,11 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
   const readings = batch.series.map((p) => ({ t: Date.parse(p.takenAt), sg: p.sg }));
   const forecast = (batch.forecast?.curve ?? []).map((p) => ({ t: Date.parse(p.takenAt), forecast: p.sg }));
   if (readings.length === 0) {
-    return <p className="rounded-md border border-dashed border-line-strong px-3 py-10 text-center text-sm text-ink-muted">No readings yet: the chart appears with the first one.</p>;
+    return (
+      <p className="rounded-md border border-dashed border-line-strong px-3 py-10 text-center text-sm text-ink-muted">
+        No readings yet: the chart appears with the first one.
+      </p>
+    );
   }
   const values = [...readings.map((r) => r.sg), ...forecast.map((f) => f.forecast), ...(batch.targetFg ? [batch.targetFg] : [])];
   const lo = Math.min(...values);
@@ -84,15 +88,35 @@ export const GravityChart = ({ batch, height = 320 }: GravityChartProps) => {
             labelFormatter={(t) => formatDateTime(Number(t))}
             formatter={(v, name) => [Number(v).toFixed(4), name === 'forecast' ? 'Forecast' : 'Gravity (SG)']}
           />
-          <Legend formatter={(name) => (name === 'forecast' ? `Forecast (${batch.forecast ? forecastNames[batch.forecast.model] : 'fit'})` : 'Readings (SG)')} />
+          <Legend
+            formatter={(name) => (name === 'forecast' ? `Forecast (${batch.forecast ? forecastNames[batch.forecast.model] : 'fit'})` : 'Readings (SG)')}
+          />
           {batch.targetFg ? (
-            <ReferenceLine y={batch.targetFg} stroke={colours.target} strokeDasharray="6 4" label={{ value: `Target FG ${batch.targetFg.toFixed(3)}`, position: 'insideTopRight', fontSize: 11, fill: '#7a4f00' }} />
+            <ReferenceLine
+              y={batch.targetFg}
+              stroke={colours.target}
+              strokeDasharray="6 4"
+              label={{ value: `Target FG ${batch.targetFg.toFixed(3)}`, position: 'insideTopRight', fontSize: 11, fill: '#7a4f00' }}
+            />
           ) : null}
           {batch.stable.stable && batch.stable.since ? (
-            <ReferenceLine x={Date.parse(batch.stable.since)} stroke={colours.stable} label={{ value: 'Stable from here', position: 'insideTopLeft', fontSize: 11, fill: '#4b5a26' }} />
+            <ReferenceLine
+              x={Date.parse(batch.stable.since)}
+              stroke={colours.stable}
+              label={{ value: 'Stable from here', position: 'insideTopLeft', fontSize: 11, fill: '#4b5a26' }}
+            />
           ) : null}
           {forecast.length ? (
-            <Line data={forecast} dataKey="forecast" name="forecast" stroke={colours.forecast} strokeDasharray="5 4" dot={false} strokeWidth={1.5} isAnimationActive={false} />
+            <Line
+              data={forecast}
+              dataKey="forecast"
+              name="forecast"
+              stroke={colours.forecast}
+              strokeDasharray="5 4"
+              dot={false}
+              strokeWidth={1.5}
+              isAnimationActive={false}
+            />
           ) : null}
           <Line data={readings} dataKey="sg" name="sg" stroke={colours.readings} strokeWidth={2} dot={showDots ? { r: 3 } : false} isAnimationActive={false} />
         </LineChart>

@@ -7,11 +7,7 @@ const phaseLabels = { reading: 'Reading the file', checking: 'Checking the rows'
 export const ImportProgress = ({ progress, label }: { progress: UploadProgress; label: string }) => {
   const uploading = progress.upload < 1;
   const server = progress.server;
-  const fraction = uploading
-    ? progress.upload
-    : server && server.rowsTotal
-      ? Math.min(1, server.rowsDone / server.rowsTotal)
-      : null;
+  const fraction = uploading ? progress.upload : server && server.rowsTotal ? Math.min(1, server.rowsDone / server.rowsTotal) : null;
   const text = uploading
     ? `Uploading… ${Math.round(progress.upload * 100)} %`
     : server

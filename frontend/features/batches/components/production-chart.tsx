@@ -24,7 +24,14 @@ export const ProductionChart = ({ months }: { months: ProductionMonth[] }) => {
         <ResponsiveContainer width="100%" height="100%">
           <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
             <CartesianGrid vertical={false} stroke="#e3dacb" />
-            <XAxis dataKey="month" tick={{ fill: '#5c564d', fontSize: 12 }} axisLine={{ stroke: '#c9bca8' }} tickLine={false} interval="preserveStartEnd" minTickGap={12} />
+            <XAxis
+              dataKey="month"
+              tick={{ fill: '#5c564d', fontSize: 12 }}
+              axisLine={{ stroke: '#c9bca8' }}
+              tickLine={false}
+              interval="preserveStartEnd"
+              minTickGap={12}
+            />
             <YAxis tickFormatter={(v: number) => `${v} L`} tick={{ fill: '#5c564d', fontSize: 11 }} axisLine={false} tickLine={false} width={64} />
             <Tooltip formatter={(v) => `${Number(v).toFixed(1)} L`} cursor={{ fill: '#efe8dc' }} />
             <Legend wrapperStyle={{ fontSize: 12 }} />

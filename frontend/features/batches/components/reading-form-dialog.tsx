@@ -89,7 +89,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
   }, [value, unit, tempC, correct, originalBrix, method, batch.corrections]);
   // A later reading against the batch's OG: above it is refused, beyond the plausible attenuation needs a confirmation.
   const check = preview && 'ok' in preview && preview.ok && afterFirst && batch.og !== null ? checkAgainstOriginal(preview.ok.sg, batch.og, confirm) : null;
-  const needsConfirm = preview && 'ok' in preview && preview.ok && afterFirst && batch.og !== null ? checkAgainstOriginal(preview.ok.sg, batch.og).confirmable : false;
+  const needsConfirm =
+    preview && 'ok' in preview && preview.ok && afterFirst && batch.og !== null ? checkAgainstOriginal(preview.ok.sg, batch.og).confirmable : false;
 
   const submit = (event: React.FormEvent) => {
     event.preventDefault();
@@ -125,7 +126,10 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
         // The server moves a planned batch to Fermenting with its first reading: say so.
         notice.show(
           batch.status === 'planned'
-            ? { title: `${batch.name} is now Fermenting`, text: `Reading of ${formatSg(reading.gravitySg)} saved. A planned batch starts fermenting with its first reading.` }
+            ? {
+                title: `${batch.name} is now Fermenting`,
+                text: `Reading of ${formatSg(reading.gravitySg)} saved. A planned batch starts fermenting with its first reading.`,
+              }
             : { text: `Reading of ${formatSg(reading.gravitySg)} saved.` },
         );
         onClose();
@@ -151,7 +155,15 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
       <div className="grid gap-4 sm:grid-cols-[1fr_9rem]">
         <Field label="Gravity" hint={`${range.label}: ${range.min} to ${range.max}`} error={errors.gravity}>
           {({ invalid, ...c }) => (
-            <Input {...c} invalid={invalid} inputMode="decimal" autoFocus value={gravity} onChange={(e) => setGravity(e.target.value)} placeholder={unit === 'sg' ? '1.048' : '12.0'} />
+            <Input
+              {...c}
+              invalid={invalid}
+              inputMode="decimal"
+              autoFocus
+              value={gravity}
+              onChange={(e) => setGravity(e.target.value)}
+              placeholder={unit === 'sg' ? '1.048' : '12.0'}
+            />
           )}
         </Field>
         <Field label="Scale" error={errors.unit}>
@@ -170,7 +182,11 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" value={temperature} onChange={(e) => setTemperature(e.target.value)} />}
       </Field>
       {unit === 'brix' ? (
-        <Field label="Refractometer sample" hint="Wort has no alcohol yet; a fermenting or finished sample is corrected for alcohol with the batch’s original gravity." error={errors.method}>
+        <Field
+          label="Refractometer sample"
+          hint="Wort has no alcohol yet; a fermenting or finished sample is corrected for alcohol with the batch’s original gravity."
+          error={errors.method}
+        >
           {({ invalid, ...c }) => (
             <Select {...c} invalid={invalid} value={method} onChange={(e) => setChosenMethod(e.target.value as BrixMethod)}>
               {brixMethods.map((m) => (
@@ -200,7 +216,7 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           <span>
             Stored as <strong className="tabular-nums">{formatSg(preview.ok.sg, 4)}</strong> SG
             {preview.ok.correction === 'hydrometer-temperature' && tempC !== null
-              ? ` — read ${formatSg(preview.ok.rawSg, 4)} at ${units.temperature(tempC)}, corrected to ${units.temperature(batch.corrections.hydrometerCalibrationC, { digits: 0 })} (${(preview.ok.sg - (preview.ok.rawSg ?? preview.ok.sg) >= 0 ? '+' : '')}${((preview.ok.sg - (preview.ok.rawSg ?? preview.ok.sg)) * 1000).toFixed(1)} points)`
+              ? ` — read ${formatSg(preview.ok.rawSg, 4)} at ${units.temperature(tempC)}, corrected to ${units.temperature(batch.corrections.hydrometerCalibrationC, { digits: 0 })} (${preview.ok.sg - (preview.ok.rawSg ?? preview.ok.sg) >= 0 ? '+' : ''}${((preview.ok.sg - (preview.ok.rawSg ?? preview.ok.sg)) * 1000).toFixed(1)} points)`
               : preview.ok.correction === 'refractometer-alcohol'
                 ? ` — refractometer reading through alcohol, corrected from the original ${originalBrix?.toFixed(1)} °Bx (alcohol correction for finished beer, wort factor ${batch.corrections.wortCorrectionFactor})`
                 : preview.ok.correction === 'refractometer-wort-factor'
@@ -211,9 +227,7 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           </span>
         )}
       </div>
-      {needsConfirm ? (
-        <Checkbox label="I have checked this reading: store it anyway" checked={confirm} onChange={(e) => setConfirm(e.target.checked)} />
-      ) : null}
+      {needsConfirm ? <Checkbox label="I have checked this reading: store it anyway" checked={confirm} onChange={(e) => setConfirm(e.target.checked)} /> : null}
       <Field label="Note" error={errors.note}>
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} value={note} onChange={(e) => setNote(e.target.value)} autoComplete="off" />}
       </Field>

@@ -31,7 +31,10 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
           <span className="tabular-nums font-medium">
             {formatSg(row.original.gravitySg, 4)}
             {row.original.corrected ? (
-              <span className="ml-1.5 text-xs font-normal text-ink-muted" title={row.original.rawSg !== null ? `Before correction ${formatSg(row.original.rawSg, 4)}` : undefined}>
+              <span
+                className="ml-1.5 text-xs font-normal text-ink-muted"
+                title={row.original.rawSg !== null ? `Before correction ${formatSg(row.original.rawSg, 4)}` : undefined}
+              >
                 corrected
               </span>
             ) : null}
@@ -44,7 +47,9 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
         header: 'As entered',
         cell: ({ row }) => (
           <span className="whitespace-nowrap tabular-nums text-ink-muted">
-            {row.original.enteredUnit === 'sg' ? formatSg(row.original.enteredValue, Math.max(3, (String(row.original.enteredValue).split('.')[1] ?? '').length)) : row.original.enteredValue}{' '}
+            {row.original.enteredUnit === 'sg'
+              ? formatSg(row.original.enteredValue, Math.max(3, (String(row.original.enteredValue).split('.')[1] ?? '').length))
+              : row.original.enteredValue}{' '}
             {gravityUnitLabels[row.original.enteredUnit]}
             {row.original.method ? (
               <span className="ml-1.5 text-xs" data-testid="reading-method">
@@ -64,15 +69,29 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
         enableSorting: false,
         cell: ({ getValue }) => <Badge tone={getValue() === 'import' ? 'neutral' : 'muted'}>{getValue() === 'import' ? 'Imported' : 'By hand'}</Badge>,
       }),
-      column.accessor('createdByName', { header: 'By', enableSorting: false, cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue() ?? '—'}</span> }),
-      column.accessor('note', { header: 'Note', enableSorting: false, cell: ({ getValue }) => <span className="text-ink-muted">{getValue()}</span>, meta: { className: 'min-w-32' } }),
+      column.accessor('createdByName', {
+        header: 'By',
+        enableSorting: false,
+        cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue() ?? '—'}</span>,
+      }),
+      column.accessor('note', {
+        header: 'Note',
+        enableSorting: false,
+        cell: ({ getValue }) => <span className="text-ink-muted">{getValue()}</span>,
+        meta: { className: 'min-w-32' },
+      }),
       ...(batch.can.deleteReading
         ? [
             column.display({
               id: 'actions',
               header: () => <span className="sr-only">Actions</span>,
               cell: ({ row }) => (
-                <Button variant="ghost" size="sm" onClick={() => setDeleting(row.original)} aria-label={`Delete the reading of ${formatDateTime(row.original.takenAt)}`}>
+                <Button
+                  variant="ghost"
+                  size="sm"
+                  onClick={() => setDeleting(row.original)}
+                  aria-label={`Delete the reading of ${formatDateTime(row.original.takenAt)}`}
+                >
                   Delete
                 </Button>
               ),
@@ -93,7 +112,15 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
   });
   return (
     <div className="flex flex-col gap-3">
-      <DataTable table={table} caption={`Readings of ${batch.name}`} isLoading={readings.isPending} isFetching={readings.isFetching} error={readings.error} onRetry={() => void readings.refetch()} empty="No readings yet." />
+      <DataTable
+        table={table}
+        caption={`Readings of ${batch.name}`}
+        isLoading={readings.isPending}
+        isFetching={readings.isFetching}
+        error={readings.error}
+        onRetry={() => void readings.refetch()}
+        empty="No readings yet."
+      />
       <DataTablePagination
         page={query.page}
         pageSize={query.pageSize}
@@ -115,7 +142,9 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
         }}
         onConfirm={() => deleting && remove.mutate(deleting.id, { onSuccess: () => setDeleting(null) })}
       >
-        {deleting ? `${formatSg(deleting.gravitySg, 4)} SG taken ${formatDateTime(deleting.takenAt)}. The batch’s figures are worked out again without it.` : null}
+        {deleting
+          ? `${formatSg(deleting.gravitySg, 4)} SG taken ${formatDateTime(deleting.takenAt)}. The batch’s figures are worked out again without it.`
+          : null}
       </ConfirmDialog>
     </div>
   );

@@ -18,7 +18,13 @@ const NowCell = ({ f }: { f: TraceFill }) => {
       </span>
     );
   }
-  if (f.tap) return <span>On tap {f.tap.code}{f.tap.position ? <span className="block text-xs text-ink-muted">{f.tap.position}</span> : null}</span>;
+  if (f.tap)
+    return (
+      <span>
+        On tap {f.tap.code}
+        {f.tap.position ? <span className="block text-xs text-ink-muted">{f.tap.position}</span> : null}
+      </span>
+    );
   if (f.whereabouts === 'missing') return <Badge tone="danger">Missing</Badge>;
   return <span>{whereWords[f.whereabouts] ?? f.whereabouts}</span>;
 };

@@ -6,8 +6,7 @@ import { api } from '@/lib/api-client';
 export const getInvoice = (id: string, signal?: AbortSignal) =>
   api.get<{ invoice: InvoiceDetail }>(`/api/invoices/${encodeURIComponent(id)}`, signal ? { signal } : {}).then((r) => r.invoice);
 
-export const getInvoiceQueryOptions = (id: string) =>
-  queryOptions({ queryKey: billingKeys.invoice(id), queryFn: ({ signal }) => getInvoice(id, signal) });
+export const getInvoiceQueryOptions = (id: string) => queryOptions({ queryKey: billingKeys.invoice(id), queryFn: ({ signal }) => getInvoice(id, signal) });
 
 /** `refetchInterval` may look at the invoice last fetched (to stop asking once it shows what is awaited). */
 export function useInvoice(id: string, options: { refetchInterval?: number | false | ((invoice: InvoiceDetail | undefined) => number | false) } = {}) {

@@ -19,7 +19,13 @@ export const AgeingChart = ({ totals, currency }: AgeingChartProps) => {
         <BarChart accessibilityLayer={false} data={data} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
           <CartesianGrid vertical={false} stroke="#e3dacb" />
           <XAxis dataKey="bucket" tick={{ fill: '#5c564d', fontSize: 12 }} axisLine={{ stroke: '#c9bca8' }} tickLine={false} />
-          <YAxis tickFormatter={(v: number) => money(v, currency).replace(/\.00$/, '')} tick={{ fill: '#5c564d', fontSize: 11 }} axisLine={false} tickLine={false} width={72} />
+          <YAxis
+            tickFormatter={(v: number) => money(v, currency).replace(/\.00$/, '')}
+            tick={{ fill: '#5c564d', fontSize: 11 }}
+            axisLine={false}
+            tickLine={false}
+            width={72}
+          />
           <Tooltip formatter={(v) => money(Number(v), currency)} cursor={{ fill: '#efe8dc' }} />
           <Bar dataKey="cents" name="Open" radius={[3, 3, 0, 0]} isAnimationActive={false}>
             {data.map((d) => (

@@ -15,10 +15,22 @@ export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => 
   const save = useSaveBillingProfile();
   const [saved, setSaved] = useState(false);
   const [formError, setFormError] = useState<string | null>(null);
-  const { register, handleSubmit, setError, formState: { errors } } = useForm<ProfileForm>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<ProfileForm>({
     defaultValues: { ...profile, address: profile.addressLines.join('\n') },
     resolver: (values) => {
-      const parsed = billingProfileSchema.safeParse({ ...values, paymentTermsDays: Number(values.paymentTermsDays), addressLines: values.address.split('\n').map((l) => l.trim()).filter(Boolean) });
+      const parsed = billingProfileSchema.safeParse({
+        ...values,
+        paymentTermsDays: Number(values.paymentTermsDays),
+        addressLines: values.address
+          .split('\n')
+          .map((l) => l.trim())
+          .filter(Boolean),
+      });
       if (parsed.success) return { values: { ...values }, errors: {} };
       const errs: Record<string, { type: string; message: string }> = {};
       for (const issue of parsed.error.issues) {
@@ -33,7 +45,14 @@ export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => 
     setFormError(null);
     const { address, ...rest } = values;
     save.mutate(
-      { ...rest, paymentTermsDays: Number(rest.paymentTermsDays), addressLines: address.split('\n').map((l) => l.trim()).filter(Boolean) },
+      {
+        ...rest,
+        paymentTermsDays: Number(rest.paymentTermsDays),
+        addressLines: address
+          .split('\n')
+          .map((l) => l.trim())
+          .filter(Boolean),
+      },
       {
         onSuccess: () => setSaved(true),
         onError: (e) => {
@@ -55,13 +74,23 @@ export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => 
           {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="email" {...register('email')} />}
         </Field>
         <Field label="Address" hint="One line per row" error={errors.address?.message} className="sm:row-span-2">
-          {({ invalid, ...c }) => <textarea {...c} rows={4} className="block w-full rounded-md border border-line-strong bg-surface px-3 py-2 text-sm" aria-invalid={invalid || undefined} {...register('address')} />}
+          {({ invalid, ...c }) => (
+            <textarea
+              {...c}
+              rows={4}
+              className="block w-full rounded-md border border-line-strong bg-surface px-3 py-2 text-sm"
+              aria-invalid={invalid || undefined}
+              {...register('address')}
+            />
+          )}
         </Field>
         <Field label="Currency" hint="Three letters, e.g. EUR" error={errors.currency?.message}>
           {({ invalid, ...c }) => <Input {...c} invalid={invalid} className="w-28 uppercase" {...register('currency')} />}
         </Field>
         <Field label="Days to pay" error={errors.paymentTermsDays?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="number" min={0} className="w-28" {...register('paymentTermsDays', { valueAsNumber: true })} />}
+          {({ invalid, ...c }) => (
+            <Input {...c} invalid={invalid} type="number" min={0} className="w-28" {...register('paymentTermsDays', { valueAsNumber: true })} />
+          )}
         </Field>
         <Field label="Account holder" error={errors.bankAccountName?.message}>
           {({ invalid, ...c }) => <Input {...c} invalid={invalid} {...register('bankAccountName')} />}

@@ -11,7 +11,8 @@ import { Money, money } from '@/features/billing/components/money';
 import { cn } from '@/utils/cn';
 import { formatDateTime } from '@/utils/format';
 
-const quantity = (q: number, unit: string) => (unit === 'item' ? '1' : `${Number.isInteger(q) ? q : q.toFixed(3).replace(/0+$/, '')} ${unit}${q === 1 ? '' : 's'}`);
+const quantity = (q: number, unit: string) =>
+  unit === 'item' ? '1' : `${Number.isInteger(q) ? q : q.toFixed(3).replace(/0+$/, '')} ${unit}${q === 1 ? '' : 's'}`;
 
 const Meta = ({ label, children }: { label: string; children: ReactNode }) => (
   <div className="flex flex-col">
@@ -100,11 +101,21 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
             <caption className="sr-only">Charges on this invoice</caption>
             <thead className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase">
               <tr>
-                <th scope="col" className="px-3 py-2">Charge</th>
-                <th scope="col" className="px-3 py-2 text-right">Quantity</th>
-                <th scope="col" className="hidden px-3 py-2 text-right sm:table-cell">Unit price</th>
-                <th scope="col" className="hidden px-3 py-2 text-right sm:table-cell">Tax</th>
-                <th scope="col" className="px-3 py-2 text-right">Amount</th>
+                <th scope="col" className="px-3 py-2">
+                  Charge
+                </th>
+                <th scope="col" className="px-3 py-2 text-right">
+                  Quantity
+                </th>
+                <th scope="col" className="hidden px-3 py-2 text-right sm:table-cell">
+                  Unit price
+                </th>
+                <th scope="col" className="hidden px-3 py-2 text-right sm:table-cell">
+                  Tax
+                </th>
+                <th scope="col" className="px-3 py-2 text-right">
+                  Amount
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -166,7 +177,9 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
             </TotalRow>
           ) : null}
         </dl>
-        <p className="text-xs text-ink-muted">Each line and its tax are rounded to the cent on their own, halves away from zero; the tax is the sum of the lines’ tax.</p>
+        <p className="text-xs text-ink-muted">
+          Each line and its tax are rounded to the cent on their own, halves away from zero; the tax is the sum of the lines’ tax.
+        </p>
       </section>
 
       {inv.payments.length ? (
@@ -179,7 +192,11 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
               <li key={p.id} className="flex flex-wrap items-center justify-between gap-2 px-3 py-2">
                 <span>
                   {longDate(p.receivedOn)} · {paymentMethodLabels[p.method]}
-                  {p.amountCents < 0 ? <Badge tone="muted" className="ml-2">Paid back</Badge> : null}
+                  {p.amountCents < 0 ? (
+                    <Badge tone="muted" className="ml-2">
+                      Paid back
+                    </Badge>
+                  ) : null}
                   {p.overpaidCents > 0 ? (
                     <Badge tone={p.overpaymentRefundedOn ? 'muted' : 'due'} className="ml-2">
                       {p.overpaymentRefundedOn ? 'Overpayment refunded' : 'Overpayment'}
@@ -211,7 +228,10 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
               <li key={n.id} className="rounded-md border border-line bg-surface p-3 text-sm">
                 <div className="flex flex-wrap items-baseline justify-between gap-2">
                   <span className="font-medium tabular-nums">
-                    {n.number} <span className="font-normal text-ink-muted">of {longDate(n.issuedOn)} · {n.kind === 'void' ? 'replaces this invoice' : 'credit or refund'}</span>
+                    {n.number}{' '}
+                    <span className="font-normal text-ink-muted">
+                      of {longDate(n.issuedOn)} · {n.kind === 'void' ? 'replaces this invoice' : 'credit or refund'}
+                    </span>
                   </span>
                   <Money cents={n.totalCents} currency={n.currency} className="font-medium" />
                 </div>
@@ -222,7 +242,8 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
                   </a>
                 </p>
                 <p className="mt-1 text-xs text-ink-muted">
-                  <Money cents={n.subtotalCents} currency={n.currency} /> + <Money cents={n.taxCents} currency={n.currency} /> tax, in {n.lines.length} line{n.lines.length === 1 ? '' : 's'}
+                  <Money cents={n.subtotalCents} currency={n.currency} /> + <Money cents={n.taxCents} currency={n.currency} /> tax, in {n.lines.length} line
+                  {n.lines.length === 1 ? '' : 's'}
                 </p>
               </li>
             ))}

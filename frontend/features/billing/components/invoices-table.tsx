@@ -53,7 +53,12 @@ const MemberFilter = ({ value, onChange }: { value: string | undefined; onChange
   );
 };
 
-export const InvoicesToolbar = ({ query, onQueryChange, hasFilters, own = false }: Pick<InvoicesTableProps, 'query' | 'onQueryChange' | 'hasFilters' | 'own'>) => {
+export const InvoicesToolbar = ({
+  query,
+  onQueryChange,
+  hasFilters,
+  own = false,
+}: Pick<InvoicesTableProps, 'query' | 'onQueryChange' | 'hasFilters' | 'own'>) => {
   const [text, setText] = useState(query.q ?? '');
   useEffect(() => setText(query.q ?? ''), [query.q]);
   useEffect(() => {
@@ -75,7 +80,11 @@ export const InvoicesToolbar = ({ query, onQueryChange, hasFilters, own = false 
       </label>
       <label className="flex flex-col gap-1 text-sm font-medium">
         Status
-        <Select value={query.status ?? ''} onChange={(e) => onQueryChange({ status: (e.target.value || undefined) as InvoiceListQuery['status'] })} className="w-36">
+        <Select
+          value={query.status ?? ''}
+          onChange={(e) => onQueryChange({ status: (e.target.value || undefined) as InvoiceListQuery['status'] })}
+          className="w-36"
+        >
           <option value="">Any</option>
           {invoiceStatuses.map((s) => (
             <option key={s} value={s}>
@@ -86,7 +95,12 @@ export const InvoicesToolbar = ({ query, onQueryChange, hasFilters, own = false 
       </label>
       {!own ? <MemberFilter value={query.memberId} onChange={(memberId) => onQueryChange({ memberId })} /> : null}
       <label className="flex min-h-11 items-center gap-2 text-sm md:min-h-9">
-        <input type="checkbox" className="size-4 accent-copper" checked={query.unpaid === true} onChange={(e) => onQueryChange({ unpaid: e.target.checked || undefined })} />
+        <input
+          type="checkbox"
+          className="size-4 accent-copper"
+          checked={query.unpaid === true}
+          onChange={(e) => onQueryChange({ unpaid: e.target.checked || undefined })}
+        />
         Only unpaid
       </label>
       {hasFilters ? (
@@ -98,7 +112,19 @@ export const InvoicesToolbar = ({ query, onQueryChange, hasFilters, own = false 
   );
 };
 
-export const InvoicesTable = ({ query, data, isLoading, error, onRetry, isFetching, isPlaceholderData, hasFilters, onQueryChange, hrefFor, own = false }: InvoicesTableProps) => {
+export const InvoicesTable = ({
+  query,
+  data,
+  isLoading,
+  error,
+  onRetry,
+  isFetching,
+  isPlaceholderData,
+  hasFilters,
+  onQueryChange,
+  hrefFor,
+  own = false,
+}: InvoicesTableProps) => {
   const columns = useMemo(
     () => [
       column.accessor('number', {
@@ -120,8 +146,16 @@ export const InvoicesTable = ({ query, data, isLoading, error, onRetry, isFetchi
             }),
           ]),
       column.accessor('period', { header: 'Period', cell: ({ getValue }) => <span className="whitespace-nowrap">{periodLabel(getValue())}</span> }),
-      column.accessor('issuedOn', { header: 'Invoice date', sortDescFirst: true, cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span> }),
-      column.accessor('dueOn', { header: 'Due', sortDescFirst: true, cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span> }),
+      column.accessor('issuedOn', {
+        header: 'Invoice date',
+        sortDescFirst: true,
+        cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span>,
+      }),
+      column.accessor('dueOn', {
+        header: 'Due',
+        sortDescFirst: true,
+        cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span>,
+      }),
       column.accessor('status', {
         header: 'Status',
         cell: ({ row }) => <InvoiceStatusBadge status={row.original.status} overdue={row.original.overdue} partPaid={row.original.paidCents > 0} />,
@@ -138,7 +172,11 @@ export const InvoicesTable = ({ query, data, isLoading, error, onRetry, isFetchi
         header: 'To pay',
         sortDescFirst: true,
         cell: ({ row }) =>
-          row.original.status === 'issued' ? <Money cents={row.original.amountDueCents} currency={row.original.currency} className="font-medium" /> : <span className="text-ink-muted">—</span>,
+          row.original.status === 'issued' ? (
+            <Money cents={row.original.amountDueCents} currency={row.original.currency} className="font-medium" />
+          ) : (
+            <span className="text-ink-muted">—</span>
+          ),
         meta: { className: 'text-right' },
       }),
     ],

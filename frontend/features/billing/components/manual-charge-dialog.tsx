@@ -22,7 +22,12 @@ const ChargeForm = ({ period, currency, onClose }: Omit<Props, 'open'>) => {
   const add = useAddManualCharge();
   const members = useBillableMembers();
   const [formError, setFormError] = useState<string | null>(null);
-  const { register, handleSubmit, setError, formState: { errors } } = useForm<ManualChargeInput>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<ManualChargeInput>({
     resolver: zodResolver(manualChargeInputSchema),
     defaultValues: { memberId: '', period, description: '', reason: '', taxable: true },
   });
@@ -77,7 +82,12 @@ const ChargeForm = ({ period, currency, onClose }: Omit<Props, 'open'>) => {
 };
 
 export const ManualChargeDialog = ({ open, ...props }: Props) => (
-  <Dialog open={open} onClose={props.onClose} title="Add a charge or credit" description="For what no record covers: a part supplied, a fee waived, a correction.">
+  <Dialog
+    open={open}
+    onClose={props.onClose}
+    title="Add a charge or credit"
+    description="For what no record covers: a part supplied, a fee waived, a correction."
+  >
     <ChargeForm {...props} />
   </Dialog>
 );

@@ -43,7 +43,12 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const record = useRecordPayment(invoice.id);
   const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
-  const { register, handleSubmit, setError, formState: { errors } } = useForm<PaymentInput>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<PaymentInput>({
     resolver: zodResolver(paymentInputSchema),
     defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
   });
@@ -72,7 +77,14 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       <p className="text-sm text-ink-muted">Still to pay: {money(invoice.amountDueCents, invoice.currency)}. A smaller amount is recorded as a part payment.</p>
       <Field label="Amount received" hint={moneyHint(invoice.currency)} error={errors.amountCents?.message}>
         {({ invalid, ...c }) => (
-          <Input {...c} invalid={invalid} inputMode="decimal" defaultValue={centsToInput(invoice.amountDueCents)} autoFocus {...register('amountCents', { setValueAs: parseMoneyInput })} />
+          <Input
+            {...c}
+            invalid={invalid}
+            inputMode="decimal"
+            defaultValue={centsToInput(invoice.amountDueCents)}
+            autoFocus
+            {...register('amountCents', { setValueAs: parseMoneyInput })}
+          />
         )}
       </Field>
       <Field label="How" error={errors.method?.message}>
@@ -120,7 +132,13 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
   const creditable = invoice.totalCents - invoice.creditedCents;
-  const { register, handleSubmit, setError, watch, formState: { errors } } = useForm<RefundInput>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    watch,
+    formState: { errors },
+  } = useForm<RefundInput>({
     resolver: zodResolver(refundInputSchema),
     defaultValues: { reason: '', refundMethod: null },
   });
@@ -131,20 +149,23 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
   const submit = handleSubmit((values) => {
     setFormError(null);
-    refund.mutate({ ...values, refundMethod: paidBack === 'no' ? null : paidBack }, {
-      onSuccess: ({ creditNoteId, invoice: after }) => {
-        const note = after.creditNotes.find((n) => n.id === creditNoteId);
-        notice.show({
-          title: `Credit note ${note?.number ?? ''} issued`.replace('  ', ' '),
-          text: `${money(values.amountCents, after.currency)} credited on ${after.number}${paidBack === 'no' ? '' : ', recorded as paid back'}. Its PDF is listed under Credit notes.`,
-        });
-        onClose();
+    refund.mutate(
+      { ...values, refundMethod: paidBack === 'no' ? null : paidBack },
+      {
+        onSuccess: ({ creditNoteId, invoice: after }) => {
+          const note = after.creditNotes.find((n) => n.id === creditNoteId);
+          notice.show({
+            title: `Credit note ${note?.number ?? ''} issued`.replace('  ', ' '),
+            text: `${money(values.amountCents, after.currency)} credited on ${after.number}${paidBack === 'no' ? '' : ', recorded as paid back'}. Its PDF is listed under Credit notes.`,
+          });
+          onClose();
+        },
+        onError: (e) => {
+          const rest = applyProblemToForm(e, setError, ['amountCents', 'reason', 'refundMethod']);
+          if (rest.length) setFormError(rest.join(' '));
+        },
       },
-      onError: (e) => {
-        const rest = applyProblemToForm(e, setError, ['amountCents', 'reason', 'refundMethod']);
-        if (rest.length) setFormError(rest.join(' '));
-      },
-    });
+    );
   });
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
@@ -152,7 +173,11 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       {rate === null ? <Alert tone="info">This invoice has lines at several tax rates; void it instead of crediting part of it.</Alert> : null}
       <Field
         label="Amount to credit, tax included"
-        hint={split ? `Credit note: ${money(split.netCents, invoice.currency)} + ${money(split.taxCents, invoice.currency)} tax. At most ${money(creditable, invoice.currency)}.` : `At most ${money(creditable, invoice.currency)}.`}
+        hint={
+          split
+            ? `Credit note: ${money(split.netCents, invoice.currency)} + ${money(split.taxCents, invoice.currency)} tax. At most ${money(creditable, invoice.currency)}.`
+            : `At most ${money(creditable, invoice.currency)}.`
+        }
         error={errors.amountCents?.message}
       >
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" autoFocus {...register('amountCents', { setValueAs: parseMoneyInput })} />}
@@ -163,7 +188,9 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       {invoice.paidCents > 0 ? (
         <fieldset className="flex flex-col gap-1">
           <legend className="mb-1 text-sm font-medium">Was money paid back to the member?</legend>
-          <p className="mb-1 text-xs text-ink-muted">{money(invoice.paidCents, invoice.currency)} has been paid on this invoice. Record a refund only once the money has gone back.</p>
+          <p className="mb-1 text-xs text-ink-muted">
+            {money(invoice.paidCents, invoice.currency)} has been paid on this invoice. Record a refund only once the money has gone back.
+          </p>
           <Radio
             name="paidBack"
             value="no"
@@ -200,7 +227,12 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
 };
 
 export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
-  <Dialog open={open} onClose={onClose} title={`Credit or refund part of ${invoice.number}`} description="A credit note documents it; the invoice itself never changes.">
+  <Dialog
+    open={open}
+    onClose={onClose}
+    title={`Credit or refund part of ${invoice.number}`}
+    description="A credit note documents it; the invoice itself never changes."
+  >
     <RefundForm invoice={invoice} onClose={onClose} />
   </Dialog>
 );
@@ -209,7 +241,12 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const voidIt = useVoidInvoice(invoice.id);
   const notice = useNotice();
   const [formError, setFormError] = useState<string | null>(null);
-  const { register, handleSubmit, setError, formState: { errors } } = useForm<VoidInvoiceInput>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<VoidInvoiceInput>({
     resolver: zodResolver(voidInvoiceSchema),
     defaultValues: { reason: '', refundMethod: null },
   });
@@ -220,7 +257,9 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
         const note = after.creditNotes.find((n) => n.id === creditNoteId);
         notice.show({
           title: creditNoteId ? `${after.number} voided` : 'Draft voided',
-          text: creditNoteId ? `Credit note ${note?.number ?? ''} replaces it; its PDF is listed under Credit notes.` : 'The draft is void; nothing was issued.',
+          text: creditNoteId
+            ? `Credit note ${note?.number ?? ''} replaces it; its PDF is listed under Credit notes.`
+            : 'The draft is void; nothing was issued.',
         });
         onClose();
       },

@@ -28,11 +28,21 @@ export const OverpaymentsList = ({ today }: { today: string }) => {
         <caption className="sr-only">Overpayments still owed back to members</caption>
         <thead className="text-left text-xs text-ink-muted uppercase">
           <tr>
-            <th scope="col" className="py-1">Member</th>
-            <th scope="col" className="py-1">Invoice</th>
-            <th scope="col" className="py-1">Received</th>
-            <th scope="col" className="py-1 text-right">To refund</th>
-            <th scope="col" className="py-1"><span className="sr-only">Action</span></th>
+            <th scope="col" className="py-1">
+              Member
+            </th>
+            <th scope="col" className="py-1">
+              Invoice
+            </th>
+            <th scope="col" className="py-1">
+              Received
+            </th>
+            <th scope="col" className="py-1 text-right">
+              To refund
+            </th>
+            <th scope="col" className="py-1">
+              <span className="sr-only">Action</span>
+            </th>
           </tr>
         </thead>
         <tbody>

@@ -9,7 +9,15 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
-import { priceInputSchema, taxRateInputSchema, useAddPrice, useAddTaxRate, useWithdrawPrice, useWithdrawTaxRate, type PriceListResponse } from '@/features/billing/api/price-list';
+import {
+  priceInputSchema,
+  taxRateInputSchema,
+  useAddPrice,
+  useAddTaxRate,
+  useWithdrawPrice,
+  useWithdrawTaxRate,
+  type PriceListResponse,
+} from '@/features/billing/api/price-list';
 import { Money } from '@/features/billing/components/money';
 import { parseMoneyInput } from '@/features/billing/utils/money-input';
 import { problemMessage } from '@/lib/api-client';
@@ -34,10 +42,18 @@ const PriceTable = ({ data }: { data: PriceListResponse }) => {
         <caption className="sr-only">The price list</caption>
         <thead className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase">
           <tr>
-            <th scope="col" className="px-3 py-2">Item</th>
-            <th scope="col" className="px-3 py-2 text-right">In effect today</th>
-            <th scope="col" className="px-3 py-2">Scheduled</th>
-            <th scope="col" className="px-3 py-2">Before</th>
+            <th scope="col" className="px-3 py-2">
+              Item
+            </th>
+            <th scope="col" className="px-3 py-2 text-right">
+              In effect today
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Scheduled
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Before
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -73,7 +89,13 @@ const PriceTable = ({ data }: { data: PriceListResponse }) => {
                         {` from ${longDate(f.effectiveFrom)}`}
                       </Badge>
                       {f.note ? <span className="text-xs text-ink-muted">{f.note}</span> : null}
-                      <Button size="sm" variant="ghost" pending={withdraw.isPending && withdraw.variables === f.id} onClick={() => withdraw.mutate(f.id)} aria-label={`Withdraw the ${itemLabel(f)} price from ${longDate(f.effectiveFrom)}`}>
+                      <Button
+                        size="sm"
+                        variant="ghost"
+                        pending={withdraw.isPending && withdraw.variables === f.id}
+                        onClick={() => withdraw.mutate(f.id)}
+                        aria-label={`Withdraw the ${itemLabel(f)} price from ${longDate(f.effectiveFrom)}`}
+                      >
                         Withdraw
                       </Button>
                     </div>
@@ -104,7 +126,11 @@ const PriceTable = ({ data }: { data: PriceListResponse }) => {
           ))}
         </tbody>
       </table>
-      {withdraw.isError ? <Alert tone="error" className="m-3">{problemMessage(withdraw.error)}</Alert> : null}
+      {withdraw.isError ? (
+        <Alert tone="error" className="m-3">
+          {problemMessage(withdraw.error)}
+        </Alert>
+      ) : null}
     </div>
   );
 };
@@ -113,7 +139,14 @@ const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
   const add = useAddPrice();
   const [done, setDone] = useState<string | null>(null);
   const [formError, setFormError] = useState<string | null>(null);
-  const { register, handleSubmit, setError, watch, reset, formState: { errors } } = useForm<PriceInput>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    watch,
+    reset,
+    formState: { errors },
+  } = useForm<PriceInput>({
     resolver: zodResolver(priceInputSchema),
     defaultValues: { item: 'fermenter_day', bandMaxLiters: 60, effectiveFrom: data.today, note: '' },
   });
@@ -138,7 +171,9 @@ const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-3 rounded-md border border-line bg-surface p-4">
       <h3 className="text-sm font-semibold">Change a price</h3>
-      <p className="text-sm text-ink-muted">A new price applies from its date on; what was used before that date keeps the old price. It cannot be back-dated.</p>
+      <p className="text-sm text-ink-muted">
+        A new price applies from its date on; what was used before that date keeps the old price. It cannot be back-dated.
+      </p>
       {formError ? <Alert tone="error">{formError}</Alert> : null}
       {done ? <Alert tone="success">{done}</Alert> : null}
       <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
@@ -182,7 +217,13 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
   const add = useAddTaxRate();
   const withdraw = useWithdrawTaxRate();
   const [formError, setFormError] = useState<string | null>(null);
-  const { register, handleSubmit, setError, reset, formState: { errors } } = useForm<TaxRateInput>({
+  const {
+    register,
+    handleSubmit,
+    setError,
+    reset,
+    formState: { errors },
+  } = useForm<TaxRateInput>({
     resolver: zodResolver(taxRateInputSchema),
     defaultValues: { label: data.taxRates[0]?.label ?? 'VAT', effectiveFrom: data.today },
   });
@@ -206,7 +247,13 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
               {t.label} {formatRate(t.rateBp)} from {longDate(t.effectiveFrom)}
             </span>
             <span className="flex items-center gap-2">
-              {t.current ? <Badge tone="ready">In effect</Badge> : t.effectiveFrom > data.today ? <Badge tone="copper">Scheduled</Badge> : <Badge tone="muted">Before</Badge>}
+              {t.current ? (
+                <Badge tone="ready">In effect</Badge>
+              ) : t.effectiveFrom > data.today ? (
+                <Badge tone="copper">Scheduled</Badge>
+              ) : (
+                <Badge tone="muted">Before</Badge>
+              )}
               {t.effectiveFrom > data.today ? (
                 <Button size="sm" variant="ghost" onClick={() => withdraw.mutate(t.id)} pending={withdraw.isPending && withdraw.variables === t.id}>
                   Withdraw
@@ -217,7 +264,11 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
         ))}
       </ul>
       <form onSubmit={submit} noValidate className="flex flex-wrap items-end gap-3">
-        {formError ? <Alert tone="error" className="w-full">{formError}</Alert> : null}
+        {formError ? (
+          <Alert tone="error" className="w-full">
+            {formError}
+          </Alert>
+        ) : null}
         <Field label="New rate" hint="Per cent; zero is allowed" error={errors.rateBp?.message}>
           {({ invalid, ...c }) => (
             <Input
@@ -225,7 +276,9 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
               invalid={invalid}
               inputMode="decimal"
               className="w-28"
-              {...register('rateBp', { setValueAs: (v: string) => (String(v).trim() === '' ? Number.NaN : Math.round(Number(String(v).replace(',', '.').replace('%', '')) * 100)) })}
+              {...register('rateBp', {
+                setValueAs: (v: string) => (String(v).trim() === '' ? Number.NaN : Math.round(Number(String(v).replace(',', '.').replace('%', '')) * 100)),
+              })}
             />
           )}
         </Field>

@@ -5,7 +5,10 @@
 export function parseMoneyInput(text: unknown): number {
   if (typeof text === 'number') return Number.isFinite(text) ? Math.round(text * 100) : Number.NaN;
   if (typeof text !== 'string') return Number.NaN;
-  let s = text.trim().replace(/[\s€$£]/g, '').replace(/^[A-Z]{3}/i, '');
+  let s = text
+    .trim()
+    .replace(/[\s€$£]/g, '')
+    .replace(/^[A-Z]{3}/i, '');
   if (!s) return Number.NaN;
   const negative = s.startsWith('-') || s.startsWith('−');
   s = s.replace(/^[-−+]/, '');

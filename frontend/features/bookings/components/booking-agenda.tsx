@@ -18,7 +18,6 @@ export interface BookingAgendaProps {
   onError: (error: unknown) => void;
 }
 
-
 /** Monday 00:00 (local) of the week holding `date`. */
 function weekStartOf(date: Date): Date {
   const d = new Date(date);
@@ -93,7 +92,9 @@ export const BookingAgenda = ({ items, kind, version, canBook, onPick, onError }
       ) : null}
       <ul className="flex flex-col gap-2" aria-label={`Items, week of ${title}`}>
         {items.map((item) => {
-          const held = (byItem.get(item.id) ?? []).filter((b) => Date.parse(b.startsAt) < weekEnd.getTime() && Date.parse(b.blockedUntil) > weekStart.getTime());
+          const held = (byItem.get(item.id) ?? []).filter(
+            (b) => Date.parse(b.startsAt) < weekEnd.getTime() && Date.parse(b.blockedUntil) > weekStart.getTime(),
+          );
           const label = `${item.code} · ${item.name}`;
           return (
             <li key={item.id} className="rounded-lg border border-line bg-surface p-3" data-agenda-item={item.code}>

@@ -43,12 +43,27 @@ export interface BookingFormDialogProps {
 
 /** The booking form, opened from a free slot on the calendar (react-hook-form + the shared schema). */
 export const BookingFormDialog = ({ draft, items, onClose, onBooked }: BookingFormDialogProps) => (
-  <Dialog open={Boolean(draft)} onClose={onClose} title="Book equipment" description="The item stays free for cleaning for the co-op's buffer after your booking.">
+  <Dialog
+    open={Boolean(draft)}
+    onClose={onClose}
+    title="Book equipment"
+    description="The item stays free for cleaning for the co-op's buffer after your booking."
+  >
     {draft ? <BookingForm draft={draft} items={items} onBooked={onBooked} onCancel={onClose} /> : null}
   </Dialog>
 );
 
-const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft; items: Equipment[]; onBooked: (b: Booking) => void; onCancel: () => void }) => {
+const BookingForm = ({
+  draft,
+  items,
+  onBooked,
+  onCancel,
+}: {
+  draft: BookingDraft;
+  items: Equipment[];
+  onBooked: (b: Booking) => void;
+  onCancel: () => void;
+}) => {
   const mutation = useCreateBooking();
   const rules = useBookingRules();
   const me = useSessionUser();
@@ -57,7 +72,10 @@ const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft
   const members = useQuery({
     queryKey: ['users', 'list', { role: 'member', active: true, pageSize: 100, for: 'booking' }],
     queryFn: ({ signal }) =>
-      api.get<{ items: { id: string; name: string; email: string }[] }>('/api/users', { query: { role: 'member', active: 'true', pageSize: 100, sort: 'name' }, signal }),
+      api.get<{ items: { id: string; name: string; email: string }[] }>('/api/users', {
+        query: { role: 'member', active: 'true', pageSize: 100, sort: 'name' },
+        signal,
+      }),
     enabled: forAnyone,
   });
   const [problem, setProblem] = useState<{ title: string; lines: string[] } | null>(null);
@@ -122,7 +140,15 @@ const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft
           name="startsAt"
           render={({ field }) => (
             <Field label="From" error={errors.startsAt?.message}>
-              {(c) => <Input {...c} type="datetime-local" value={toLocalInput(field.value)} onChange={(e) => field.onChange(fromLocalInput(e.target.value))} onBlur={field.onBlur} />}
+              {(c) => (
+                <Input
+                  {...c}
+                  type="datetime-local"
+                  value={toLocalInput(field.value)}
+                  onChange={(e) => field.onChange(fromLocalInput(e.target.value))}
+                  onBlur={field.onBlur}
+                />
+              )}
             </Field>
           )}
         />
@@ -131,7 +157,15 @@ const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft
           name="endsAt"
           render={({ field }) => (
             <Field label="Until" error={errors.endsAt?.message}>
-              {(c) => <Input {...c} type="datetime-local" value={toLocalInput(field.value)} onChange={(e) => field.onChange(fromLocalInput(e.target.value))} onBlur={field.onBlur} />}
+              {(c) => (
+                <Input
+                  {...c}
+                  type="datetime-local"
+                  value={toLocalInput(field.value)}
+                  onChange={(e) => field.onChange(fromLocalInput(e.target.value))}
+                  onBlur={field.onBlur}
+                />
+              )}
             </Field>
           )}
         />
@@ -141,8 +175,9 @@ const BookingForm = ({ draft, items, onBooked, onCancel }: { draft: BookingDraft
       </Field>
       {rules.data && selected ? (
         <p className="text-xs text-ink-muted">
-          Co-op rules: a {equipmentKindLabels[selected.kind].toLowerCase()} for at most {rules.data.maxDays[selected.kind]} days, starting within {rules.data.maxAdvanceDays} days;
-          {' '}at most {rules.data.maxActiveBookingsPerMember} bookings at once; {rules.data.cleaningBufferHours} h kept free for cleaning after each booking.
+          Co-op rules: a {equipmentKindLabels[selected.kind].toLowerCase()} for at most {rules.data.maxDays[selected.kind]} days, starting within{' '}
+          {rules.data.maxAdvanceDays} days; at most {rules.data.maxActiveBookingsPerMember} bookings at once; {rules.data.cleaningBufferHours} h kept free for
+          cleaning after each booking.
         </p>
       ) : null}
       <div className="flex justify-end gap-2">

@@ -80,16 +80,31 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
                     </Link>{' '}
                     <span className="text-ink-muted">{b.equipment.name}</span>
                   </td>
-                  <td data-label="From" className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.startsAt)}</td>
-                  <td data-label="Until" className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.endsAt)}</td>
-                  <td data-label="Free again" className="px-3 py-2 whitespace-nowrap text-ink-muted">{formatDateTime(b.blockedUntil)}</td>
-                  {!mine ? <td data-label="Member" className="px-3 py-2">{b.owner ? `${b.owner.name}` : 'Taken'}</td> : null}
+                  <td data-label="From" className="px-3 py-2 whitespace-nowrap">
+                    {formatDateTime(b.startsAt)}
+                  </td>
+                  <td data-label="Until" className="px-3 py-2 whitespace-nowrap">
+                    {formatDateTime(b.endsAt)}
+                  </td>
+                  <td data-label="Free again" className="px-3 py-2 whitespace-nowrap text-ink-muted">
+                    {formatDateTime(b.blockedUntil)}
+                  </td>
+                  {!mine ? (
+                    <td data-label="Member" className="px-3 py-2">
+                      {b.owner ? `${b.owner.name}` : 'Taken'}
+                    </td>
+                  ) : null}
                   <td data-label="State" className="px-3 py-2">
                     <Badge tone={stateTone[b.state]}>{bookingStateLabels[b.state]}</Badge>
                   </td>
                   <td className="px-3 py-2 text-right">
                     {canCancel ? (
-                      <Button variant="secondary" size="sm" onClick={() => setCancelling(b)} aria-label={`Cancel ${b.equipment.code} from ${formatDateTime(b.startsAt)}`}>
+                      <Button
+                        variant="secondary"
+                        size="sm"
+                        onClick={() => setCancelling(b)}
+                        aria-label={`Cancel ${b.equipment.code} from ${formatDateTime(b.startsAt)}`}
+                      >
                         Cancel
                       </Button>
                     ) : null}
@@ -110,7 +125,14 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
         pageSizeOptions={[25, 50, 100]}
         noun="bookings"
       />
-      <CancelDialog booking={cancelling} onClose={() => setCancelling(null)} onDone={(b) => (setCancelling(null), notice.show({ text: `Cancelled ${b.equipment.code} from ${formatDateTime(b.startsAt)}. The slot is free again.` }))} />
+      <CancelDialog
+        booking={cancelling}
+        onClose={() => setCancelling(null)}
+        onDone={(b) => (
+          setCancelling(null),
+          notice.show({ text: `Cancelled ${b.equipment.code} from ${formatDateTime(b.startsAt)}. The slot is free again.` })
+        )}
+      />
     </div>
   );
 };
@@ -123,7 +145,8 @@ const CancelDialog = ({ booking, onClose, onDone }: { booking: Booking | null; o
         <div className="flex flex-col gap-4">
           {mutation.isError ? <Alert tone="error">{problemMessage(mutation.error)}</Alert> : null}
           <p>
-            {booking.equipment.code} ({booking.equipment.name}) from {formatDateTime(booking.startsAt)} until {formatDateTime(booking.endsAt)}. The slot becomes free for other members and
+            {booking.equipment.code} ({booking.equipment.name}) from {formatDateTime(booking.startsAt)} until {formatDateTime(booking.endsAt)}. The slot becomes
+            free for other members and
             {booking.owner && !booking.mine ? ` ${booking.owner.name}` : ' you'} will get an e-mail.
           </p>
           <div className="flex justify-end gap-2">

@@ -13,7 +13,8 @@ export const usePlansForKeg = (kegId: string, enabled = true) =>
 export const useLowerDuePlans = (enabled = true) =>
   useQuery({
     queryKey: ['carbonation', 'lower-due'],
-    queryFn: ({ signal }) => api.get<Page<CarbonationPlanView>>('/api/carbonation-plans', { query: { lowerDue: 'true', sort: 'lowerPressureAt', order: 'asc' }, signal }),
+    queryFn: ({ signal }) =>
+      api.get<Page<CarbonationPlanView>>('/api/carbonation-plans', { query: { lowerDue: 'true', sort: 'lowerPressureAt', order: 'asc' }, signal }),
     enabled,
   });
 

@@ -31,7 +31,11 @@ export const useTapBoard = () =>
   useQuery({ queryKey: kegKeys.board(), queryFn: ({ signal }) => api.get<{ taps: TapBoardEntry[] }>('/api/kegs/tap-board', { signal }) });
 
 export const useKeg = (id: string) =>
-  useQuery({ queryKey: kegKeys.detail(id), queryFn: ({ signal }) => api.get<{ keg: KegView }>(`/api/kegs/${encodeURIComponent(id)}`, { signal }), enabled: Boolean(id) });
+  useQuery({
+    queryKey: kegKeys.detail(id),
+    queryFn: ({ signal }) => api.get<{ keg: KegView }>(`/api/kegs/${encodeURIComponent(id)}`, { signal }),
+    enabled: Boolean(id),
+  });
 
 export const useKegHistory = (id: string, page: number, enabled = true) =>
   useQuery({
@@ -79,7 +83,9 @@ export const useMemberOptions = (enabled: boolean) =>
   useQuery({
     queryKey: ['users', 'member-options'],
     queryFn: ({ signal }) =>
-      api.get<Page<MemberOption>>('/api/users', { query: { role: 'member', active: 'true', pageSize: 100, sort: 'name', order: 'asc' }, signal }).then((p) => p.items),
+      api
+        .get<Page<MemberOption>>('/api/users', { query: { role: 'member', active: 'true', pageSize: 100, sort: 'name', order: 'asc' }, signal })
+        .then((p) => p.items),
     enabled,
     staleTime: 5 * 60_000,
   });

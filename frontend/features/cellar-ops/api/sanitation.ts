@@ -77,4 +77,9 @@ export function useContinueCycle() {
 }
 
 export const auditReportHref = (q: { from: string; to: string; kind?: string | undefined; equipmentId?: string[] | undefined }) =>
-  buildUrl('/api/reports/sanitation-audit.pdf', { from: q.from, to: q.to, kind: q.kind, equipmentId: q.equipmentId?.length ? q.equipmentId.join(',') : undefined });
+  buildUrl('/api/reports/sanitation-audit.pdf', {
+    from: q.from,
+    to: q.to,
+    kind: q.kind,
+    equipmentId: q.equipmentId?.length ? q.equipmentId.join(',') : undefined,
+  });

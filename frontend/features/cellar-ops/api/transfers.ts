@@ -26,8 +26,6 @@ export function useRecordTransfer() {
   return useMutation({
     mutationFn: (input: CreateTransferInput) => api.post<{ transfer: TransferView; warnings: string[] }>('/api/transfers', input),
     onSuccess: () =>
-      Promise.all(
-        [['transfers'], ['kegs'], ['equipment'], ['sanitation'], ['batches']].map((queryKey) => queryClient.invalidateQueries({ queryKey })),
-      ),
+      Promise.all([['transfers'], ['kegs'], ['equipment'], ['sanitation'], ['batches']].map((queryKey) => queryClient.invalidateQueries({ queryKey }))),
   });
 }

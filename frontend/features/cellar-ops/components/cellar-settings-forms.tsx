@@ -47,7 +47,11 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
         <Field label="Minimum sanitize contact (min)" error={e.minimumContactMinutes?.sanitize?.message}>
           {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.sanitize', num)} />}
         </Field>
-        <Field label="Minimum CO2 flush (s)" hint="A shorter timed flush must be recorded as an exception; a push-out purge names its second keg instead." error={e.minimumPurgeSeconds?.message}>
+        <Field
+          label="Minimum CO2 flush (s)"
+          hint="A shorter timed flush must be recorded as an exception; a push-out purge names its second keg instead."
+          error={e.minimumPurgeSeconds?.message}
+        >
           {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('minimumPurgeSeconds', num)} />}
         </Field>
         <Field label="CO2 per purge (g)" hint="Recorded for billing when no figure is given." error={e.co2GramsPerPurge?.message}>
@@ -118,7 +122,20 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
             <Button
               variant="secondary"
               size="sm"
-              onClick={() => chemicals.append({ id: `chemical-${chemicals.fields.length + 1}`, name: '', step: 'sanitize', defaultConcentration: 1, unit: 'mL/L', recommendedContactMinutes: 2, minConcentration: 1, maxConcentration: 1, caustic: false, active: true })}
+              onClick={() =>
+                chemicals.append({
+                  id: `chemical-${chemicals.fields.length + 1}`,
+                  name: '',
+                  step: 'sanitize',
+                  defaultConcentration: 1,
+                  unit: 'mL/L',
+                  recommendedContactMinutes: 2,
+                  minConcentration: 1,
+                  maxConcentration: 1,
+                  caustic: false,
+                  active: true,
+                })
+              }
             >
               Add a chemical
             </Button>

@@ -47,7 +47,11 @@ export const BestBefore = ({ contents }: { contents: KegContents }) =>
   contents.bestBefore ? (
     <span className="inline-flex flex-wrap items-center gap-1.5">
       <span>{formatDate(contents.bestBefore)}</span>
-      {contents.bestBeforeState === 'past' ? <Badge tone="danger">Past best-before</Badge> : contents.bestBeforeState === 'near' ? <Badge tone="due">Near best-before</Badge> : null}
+      {contents.bestBeforeState === 'past' ? (
+        <Badge tone="danger">Past best-before</Badge>
+      ) : contents.bestBeforeState === 'near' ? (
+        <Badge tone="due">Near best-before</Badge>
+      ) : null}
     </span>
   ) : (
     <span className="text-ink-muted">not recorded</span>

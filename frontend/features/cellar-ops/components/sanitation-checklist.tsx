@@ -210,9 +210,7 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
     );
     try {
       const result =
-        continuing && openCycle
-          ? await cont.mutateAsync({ cycleId: openCycle.id, steps })
-          : await record.mutateAsync({ equipmentId: vessel.id, steps });
+        continuing && openCycle ? await cont.mutateAsync({ cycleId: openCycle.id, steps }) : await record.mutateAsync({ equipmentId: vessel.id, steps });
       onSaved(result);
     } catch (e) {
       setError(problemMessage(e));
@@ -235,7 +233,9 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
     <div className="flex flex-col gap-4">
       {openCycle ? (
         <Alert tone="info" title={`Cleaned ${formatDateTime(openCycle.completedAt)}, not yet sanitized`}>
-          <p>The last cycle on {vessel.code} stopped after {openCycle.steps.map((s) => sanitationStepLabels[s.step].toLowerCase()).join(', ')}.</p>
+          <p>
+            The last cycle on {vessel.code} stopped after {openCycle.steps.map((s) => sanitationStepLabels[s.step].toLowerCase()).join(', ')}.
+          </p>
           <div className="mt-2 flex flex-wrap gap-2">
             <Button variant={continuing ? 'primary' : 'secondary'} className={bigButton} onClick={() => setContinuing(true)} aria-pressed={continuing}>
               Continue that cycle
@@ -253,7 +253,11 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
           const isCarried = carried.has(step);
           const stepId = `step-${step}`;
           return (
-            <li key={step} className={`rounded-lg border bg-surface p-3 ${d.done || isCarried ? 'border-hop' : 'border-line'}`} aria-labelledby={`${stepId}-title`}>
+            <li
+              key={step}
+              className={`rounded-lg border bg-surface p-3 ${d.done || isCarried ? 'border-hop' : 'border-line'}`}
+              aria-labelledby={`${stepId}-title`}
+            >
               <div className="flex items-center justify-between gap-3">
                 <h3 id={`${stepId}-title`} className="text-lg">
                   <span className="mr-2 text-ink-muted">{i + 1}.</span>
@@ -288,16 +292,31 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                       </label>
                       <label className="flex flex-col gap-1 text-sm font-medium">
                         Strength {unitOf(step) ? `(${unitOf(step)})` : ''}
-                        <BigInput type="number" inputMode="decimal" step="any" min={0} value={d.concentration} onChange={(e) => set(step, { concentration: e.target.value })} />
+                        <BigInput
+                          type="number"
+                          inputMode="decimal"
+                          step="any"
+                          min={0}
+                          value={d.concentration}
+                          onChange={(e) => set(step, { concentration: e.target.value })}
+                        />
                       </label>
                       <label className="flex flex-col gap-1 text-sm font-medium">
                         {step === 'clean' ? 'Soak time (minutes)' : 'Contact time (minutes)'}
-                        <BigInput type="number" inputMode="decimal" step="any" min={0} value={d.contactMinutes} onChange={(e) => set(step, { contactMinutes: e.target.value })} />
+                        <BigInput
+                          type="number"
+                          inputMode="decimal"
+                          step="any"
+                          min={0}
+                          value={d.contactMinutes}
+                          onChange={(e) => set(step, { contactMinutes: e.target.value })}
+                        />
                         <span className="text-xs font-normal text-ink-muted">The co-op’s minimum: {minimum(step)} min</span>
                       </label>
                       {chemicalOf(step) ? (
                         <p className="text-xs text-ink-muted sm:col-span-2">
-                          Working strength of {chemicalOf(step)!.name}: {chemicalOf(step)!.minConcentration}–{chemicalOf(step)!.maxConcentration} {chemicalOf(step)!.unit}
+                          Working strength of {chemicalOf(step)!.name}: {chemicalOf(step)!.minConcentration}–{chemicalOf(step)!.maxConcentration}{' '}
+                          {chemicalOf(step)!.unit}
                         </p>
                       ) : null}
                       {step === 'clean' && chemicalOf(step)?.caustic ? (
@@ -320,7 +339,12 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                       <fieldset className="flex flex-col gap-2 sm:col-span-2">
                         <legend className="mb-1 text-sm font-medium">How</legend>
                         <div className="flex flex-col gap-2 sm:flex-row">
-                          <BigChoice name={`${vessel.id}-purge`} label="Timed CO2 flush" checked={d.purgeMethod === 'flush'} onChange={() => set(step, { purgeMethod: 'flush' })} />
+                          <BigChoice
+                            name={`${vessel.id}-purge`}
+                            label="Timed CO2 flush"
+                            checked={d.purgeMethod === 'flush'}
+                            onChange={() => set(step, { purgeMethod: 'flush' })}
+                          />
                           <BigChoice
                             name={`${vessel.id}-purge`}
                             label="Push the sanitizer out with CO2"
@@ -333,7 +357,13 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                       {d.purgeMethod === 'flush' ? (
                         <label className="flex flex-col gap-1 text-sm font-medium">
                           Flush (seconds)
-                          <BigInput type="number" inputMode="numeric" min={0} value={d.purgeSeconds} onChange={(e) => set(step, { purgeSeconds: e.target.value })} />
+                          <BigInput
+                            type="number"
+                            inputMode="numeric"
+                            min={0}
+                            value={d.purgeSeconds}
+                            onChange={(e) => set(step, { purgeSeconds: e.target.value })}
+                          />
                           <span className="text-xs font-normal text-ink-muted">The co-op’s minimum: {settings.minimumPurgeSeconds} s</span>
                         </label>
                       ) : (
@@ -355,7 +385,12 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                   ) : null}
                   <label className="flex flex-col gap-1 text-sm font-medium">
                     When
-                    <BigInput type="datetime-local" value={d.at} max={localNow(new Date(Date.now() + 5 * 60_000))} onChange={(e) => set(step, { at: e.target.value })} />
+                    <BigInput
+                      type="datetime-local"
+                      value={d.at}
+                      max={localNow(new Date(Date.now() + 5 * 60_000))}
+                      onChange={(e) => set(step, { at: e.target.value })}
+                    />
                   </label>
                 </div>
               )}
@@ -394,7 +429,11 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
         </section>
       ) : null}
 
-      {error ? <Alert tone="error" title="Not saved">{error}</Alert> : null}
+      {error ? (
+        <Alert tone="error" title="Not saved">
+          {error}
+        </Alert>
+      ) : null}
       <Button className={`${bigButton} w-full`} onClick={save} pending={record.isPending || cont.isPending} disabled={newSteps.length === 0}>
         {newSteps.length === 0 ? 'Mark the steps you did' : continuing ? 'Save the rest of the cycle' : 'Save cycle'}
       </Button>

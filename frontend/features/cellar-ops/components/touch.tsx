@@ -5,7 +5,12 @@ import { cn } from '@/utils/cn';
  * Controls for the wet cellar: at least 48 px tall on every screen size, so a gloved thumb
  * on a phone hits them.
  */
-export const BigCheck = ({ label, description, className, ...props }: Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode }) => (
+export const BigCheck = ({
+  label,
+  description,
+  className,
+  ...props
+}: Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode }) => (
   <label
     className={cn(
       'flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 cursor-pointer items-start gap-3 rounded-md border border-line-strong bg-surface px-3 py-3 has-[:checked]:border-hop has-[:checked]:bg-hop-soft/60',
@@ -20,7 +25,12 @@ export const BigCheck = ({ label, description, className, ...props }: Omit<Compo
   </label>
 );
 
-export const BigChoice = ({ label, description, className, ...props }: Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode }) => (
+export const BigChoice = ({
+  label,
+  description,
+  className,
+  ...props
+}: Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode }) => (
   <label
     className={cn(
       'flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 flex-1 cursor-pointer items-start gap-3 rounded-md border border-line-strong bg-surface px-3 py-3 has-[:checked]:border-copper has-[:checked]:bg-copper-soft/60',

@@ -43,7 +43,7 @@ describe('equipment form values and the API', () => {
     expect(api.attributes).toEqual({ style: 'conical', hasValve: true });
   });
 
-  it('shows a keg\'s rated pressure in psi or bar and sends kPa', () => {
+  it("shows a keg's rated pressure in psi or bar and sends kPa", () => {
     const keg: Equipment = { ...tap, kind: 'keg', code: 'K-001', capacityLiters: 19, attributes: { serial: 'S-1', lock: 'ball', ratedPressureKpa: 896 } };
     // 896 kPa ÷ 6.894757 kPa/psi = 129.9538 psi; 896 kPa ÷ 100 kPa/bar = 8.96 bar.
     expect(formValuesOf(keg, 'us').attributes.ratedPressureKpa).toBe(129.9538);
@@ -54,10 +54,17 @@ describe('equipment form values and the API', () => {
     expect(toApiValues(formValuesOf(keg, 'metric'), 'metric', keg).attributes).toEqual(keg.attributes);
   });
 
-  it('validates with the shared schema and puts its errors on the form\'s fields', async () => {
+  it("validates with the shared schema and puts its errors on the form's fields", async () => {
     const resolver = equipmentResolver<CreateEquipmentInput>(createEquipmentSchema, 'metric');
     const bad = await resolver(
-      { kind: 'tap', code: 'tap nine', name: 'Tap 9', capacityLiters: null, notes: '', attributes: { position: '', lineLengthM: null, lineInsideDiameterMm: 4.8 } },
+      {
+        kind: 'tap',
+        code: 'tap nine',
+        name: 'Tap 9',
+        capacityLiters: null,
+        notes: '',
+        attributes: { position: '', lineLengthM: null, lineInsideDiameterMm: 4.8 },
+      },
       undefined,
       resolverOptions,
     );
@@ -65,15 +72,28 @@ describe('equipment form values and the API', () => {
     expect(bad.errors.attributes).toMatchObject({ position: { message: 'Enter the position' }, lineLengthM: { message: 'Enter a number' } });
 
     const good = await resolver(
-      { kind: 'co2_cylinder', code: 'c-7', name: 'CO2 cylinder 7', capacityLiters: 12, notes: '', attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: '2030-05-31' } },
+      {
+        kind: 'co2_cylinder',
+        code: 'c-7',
+        name: 'CO2 cylinder 7',
+        capacityLiters: 12,
+        notes: '',
+        attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: '2030-05-31' },
+      },
       undefined,
       resolverOptions,
     );
     expect(good.errors).toEqual({});
-    expect(good.values).toEqual({ kind: 'co2_cylinder', code: 'C-7', name: 'CO2 cylinder 7', notes: '', attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: '2030-05-31' } });
+    expect(good.values).toEqual({
+      kind: 'co2_cylinder',
+      code: 'C-7',
+      name: 'CO2 cylinder 7',
+      notes: '',
+      attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: '2030-05-31' },
+    });
   });
 
-  it('formats stored attributes for the item page in the person\'s units', () => {
+  it("formats stored attributes for the item page in the person's units", () => {
     expect(formatAttribute('tap', 'lineLengthM', 3.048, 'us')).toBe('10 ft');
     expect(formatAttribute('co2_cylinder', 'sizeKg', 6, 'metric')).toBe('6 kg');
     expect(formatAttribute('fermenter', 'hasValve', false, 'metric')).toBe('No');

@@ -17,8 +17,7 @@ export interface EquipmentDetail {
 export const getEquipment = (id: string, signal?: AbortSignal) =>
   api.get<EquipmentDetail>(`/api/equipment/${encodeURIComponent(id)}`, signal ? { signal } : {});
 
-export const getEquipmentQueryOptions = (id: string) =>
-  queryOptions({ queryKey: equipmentKeys.detail(id), queryFn: ({ signal }) => getEquipment(id, signal) });
+export const getEquipmentQueryOptions = (id: string) => queryOptions({ queryKey: equipmentKeys.detail(id), queryFn: ({ signal }) => getEquipment(id, signal) });
 
 export function useEquipment(id: string, enabled = Boolean(id)) {
   return useQuery({ ...getEquipmentQueryOptions(id), enabled });

@@ -34,7 +34,15 @@ export function useMaintenanceList(query: MaintenanceListQuery) {
     queryFn: ({ signal }) =>
       api.get<Page<MaintenanceItem>>('/api/equipment/maintenance', {
         signal,
-        query: { page: query.page, pageSize: query.pageSize, sort: query.sort, order: query.order, status: query.status, equipmentKind: query.equipmentKind, q: query.q },
+        query: {
+          page: query.page,
+          pageSize: query.pageSize,
+          sort: query.sort,
+          order: query.order,
+          status: query.status,
+          equipmentKind: query.equipmentKind,
+          q: query.q,
+        },
       }),
     placeholderData: keepPreviousData,
   });

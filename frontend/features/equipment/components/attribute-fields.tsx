@@ -63,7 +63,9 @@ export const KegAttributeFields = ({ form, units }: AttributeFieldsProps) => {
           {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.ratedPressureKpa', asNumber)} />}
         </Field>
       </div>
-      <p className="text-xs text-ink-muted">Never exceed the keg’s or the regulator’s rated pressure and keep the pressure-relief valve working. Local codes and licensed practice come first.</p>
+      <p className="text-xs text-ink-muted">
+        Never exceed the keg’s or the regulator’s rated pressure and keep the pressure-relief valve working. Local codes and licensed practice come first.
+      </p>
     </>
   );
 };
@@ -95,7 +97,11 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
             </Select>
           )}
         </Field>
-        <Field label="Line resistance (kPa/m)" hint="Measured or the maker's figure; empty uses the line type's usual figure" error={errors?.lineResistanceKpaPerM?.message}>
+        <Field
+          label="Line resistance (kPa/m)"
+          hint="Measured or the maker's figure; empty uses the line type's usual figure"
+          error={errors?.lineResistanceKpaPerM?.message}
+        >
           {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.lineResistanceKpaPerM', asNumber)} />}
         </Field>
         <Field label={`Rise, keg to faucet (${labels.length})`} hint="Negative when the faucet sits below the keg; optional" error={errors?.riseM?.message}>
@@ -105,7 +111,9 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
           {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.coldRoomTempC', asNumber)} />}
         </Field>
       </div>
-      <p className="text-xs text-ink-muted">The cold room is closed: CO2 displaces air. Keep it ventilated and heed the CO2 alarm. Local codes and licensed practice come first.</p>
+      <p className="text-xs text-ink-muted">
+        The cold room is closed: CO2 displaces air. Keep it ventilated and heed the CO2 alarm. Local codes and licensed practice come first.
+      </p>
     </>
   );
 };
@@ -126,8 +134,8 @@ export const Co2CylinderAttributeFields = ({ form, units }: AttributeFieldsProps
         </Field>
       </div>
       <Alert tone="info" title="Safety">
-        Keep the cylinder chained upright and never exceed a regulator’s rated pressure. CO2 displaces air in closed rooms: ventilate and keep the CO2
-        alarm on. Do not fill or use a cylinder past its test date. Local codes and licensed practice come first.
+        Keep the cylinder chained upright and never exceed a regulator’s rated pressure. CO2 displaces air in closed rooms: ventilate and keep the CO2 alarm on.
+        Do not fill or use a cylinder past its test date. Local codes and licensed practice come first.
       </Alert>
     </>
   );
@@ -145,7 +153,9 @@ export const EquipmentAttributeFields = ({ kind, ...props }: AttributeFieldsProp
   const Fields = fieldsByKind[kind];
   return (
     <fieldset className="flex flex-col gap-4 rounded-md border border-line p-3">
-      <legend className="px-1 text-sm font-medium text-ink">Details of the {kind === 'tap' ? 'tap position' : kind === 'co2_cylinder' ? 'CO2 cylinder' : kind}</legend>
+      <legend className="px-1 text-sm font-medium text-ink">
+        Details of the {kind === 'tap' ? 'tap position' : kind === 'co2_cylinder' ? 'CO2 cylinder' : kind}
+      </legend>
       <Fields {...props} />
     </fieldset>
   );

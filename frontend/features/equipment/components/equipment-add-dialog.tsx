@@ -15,13 +15,7 @@ import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
 import { useCreateEquipment, useNextEquipmentCode } from '@/features/equipment/api/create-equipment';
 import { EquipmentAttributeFields } from '@/features/equipment/components/attribute-fields';
-import {
-  applyEquipmentProblem,
-  defaultAttributes,
-  equipmentResolver,
-  kindHasCapacity,
-  type EquipmentFormValues,
-} from '@/features/equipment/equipment-form';
+import { applyEquipmentProblem, defaultAttributes, equipmentResolver, kindHasCapacity, type EquipmentFormValues } from '@/features/equipment/equipment-form';
 import { useUnits } from '@/hooks/use-units';
 
 /** The admin adds a fermenter, keg, tap position or CO2 cylinder to the registry. */

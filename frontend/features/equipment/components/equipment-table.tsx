@@ -47,13 +47,28 @@ function facts(item: Equipment): string {
     case 'tap':
       return [a.position, a.lineLengthM ? `${text(a.lineLengthM)} m × ${text(a.lineInsideDiameterMm)} mm line` : null].filter(Boolean).join(' · ');
     case 'co2_cylinder':
-      return [a.sizeKg ? `${text(a.sizeKg)} kg` : null, a.fillPercent !== undefined ? `${text(a.fillPercent)} % full` : null, a.hydroTestDue ? `test due ${text(a.hydroTestDue)}` : null]
+      return [
+        a.sizeKg ? `${text(a.sizeKg)} kg` : null,
+        a.fillPercent !== undefined ? `${text(a.fillPercent)} % full` : null,
+        a.hydroTestDue ? `test due ${text(a.hydroTestDue)}` : null,
+      ]
         .filter(Boolean)
         .join(', ');
   }
 }
 
-export const EquipmentTable = ({ query, data, isLoading, error, onRetry, isFetching, isPlaceholderData, onQueryChange, selection, onSelectionChange }: EquipmentTableProps) => {
+export const EquipmentTable = ({
+  query,
+  data,
+  isLoading,
+  error,
+  onRetry,
+  isFetching,
+  isPlaceholderData,
+  onQueryChange,
+  selection,
+  onSelectionChange,
+}: EquipmentTableProps) => {
   const units = useUnits();
   const columns = useMemo(
     () => [

@@ -68,7 +68,8 @@ export const InspectionsPanel = ({ item, inspections, inspectionsDue, cylinder }
       ) : null}
       {blocked.length ? (
         <Alert tone="error" title={`${item.code} may not be ${item.kind === 'co2_cylinder' ? 'used or connected' : 'filled or carbonated'}`} className="mt-2">
-          {blocked.map((d) => `${inspectionKindLabels[d.kind]} ${d.failed ? 'failed' : `was due ${formatDate(d.dueAt)}`}`).join('; ')}. Record a passing inspection to put it back in use.
+          {blocked.map((d) => `${inspectionKindLabels[d.kind]} ${d.failed ? 'failed' : `was due ${formatDate(d.dueAt)}`}`).join('; ')}. Record a passing
+          inspection to put it back in use.
         </Alert>
       ) : null}
       <ul className="mt-3 flex flex-col gap-1.5 text-sm" aria-label="Due">
@@ -226,7 +227,11 @@ const InspectionForm = ({ item, kinds }: { item: Equipment; kinds: readonly Insp
           Record inspection
         </Button>
       </div>
-      {mutation.isError ? <Alert tone="error" title="Not recorded">{problemMessage(mutation.error)}</Alert> : null}
+      {mutation.isError ? (
+        <Alert tone="error" title="Not recorded">
+          {problemMessage(mutation.error)}
+        </Alert>
+      ) : null}
       {done ? <Alert tone="success" title={done} /> : null}
     </form>
   );

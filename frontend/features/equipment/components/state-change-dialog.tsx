@@ -1,6 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
-import { equipmentStateChangeSchema, vesselStateLabels, vesselStates, type Equipment, type EquipmentStateChangeInput } from '../../../../shared/schemas/equipment.ts';
+import {
+  equipmentStateChangeSchema,
+  vesselStateLabels,
+  vesselStates,
+  type Equipment,
+  type EquipmentStateChangeInput,
+} from '../../../../shared/schemas/equipment.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Dialog } from '@/components/ui/dialog';
@@ -17,7 +23,12 @@ export interface StateChangeDialogProps {
 
 /** The brewer on duty sets an item's state and says why; it lands in the item's history. */
 export const StateChangeDialog = ({ item, onClose }: StateChangeDialogProps) => (
-  <Dialog open={Boolean(item)} onClose={onClose} title={item ? `Change the state of ${item.code}` : ''} description="Every change is kept in the item's history with who, when and why.">
+  <Dialog
+    open={Boolean(item)}
+    onClose={onClose}
+    title={item ? `Change the state of ${item.code}` : ''}
+    description="Every change is kept in the item's history with who, when and why."
+  >
     {item ? <StateChangeForm item={item} onDone={onClose} /> : null}
   </Dialog>
 );

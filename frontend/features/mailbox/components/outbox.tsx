@@ -85,9 +85,7 @@ export const Outbox = () => {
 
   if (isApiProblem(mailbox.error) && mailbox.error.status === 404) {
     return (
-      <Alert title="No outbox on this server">
-        The outbox only exists while the server runs in development mode; in production, e-mails go out for real.
-      </Alert>
+      <Alert title="No outbox on this server">The outbox only exists while the server runs in development mode; in production, e-mails go out for real.</Alert>
     );
   }
 
@@ -98,8 +96,7 @@ export const Outbox = () => {
       <div className="flex min-w-0 flex-col gap-3">
         <div className="flex items-center justify-between gap-3">
           <p className="text-sm text-ink-muted">
-            E-mails the server sent while in development. Open one to read it and follow its links, such as an
-            invitation.
+            E-mails the server sent while in development. Open one to read it and follow its links, such as an invitation.
           </p>
           <Button variant="secondary" size="sm" onClick={() => void mailbox.refetch()} pending={mailbox.isFetching}>
             Refresh

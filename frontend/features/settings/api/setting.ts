@@ -7,7 +7,7 @@ export const settingKeys = {
   one: (key: SettingKey) => [...settingKeys.all, key] as const,
 };
 
-export const getSettingQueryOptions = <T,>(key: SettingKey) =>
+export const getSettingQueryOptions = <T>(key: SettingKey) =>
   queryOptions({
     queryKey: settingKeys.one(key),
     queryFn: ({ signal }) => api.get<SettingValue<T>>(`/api/settings/${key}`, { signal }),

@@ -11,7 +11,19 @@ import { formatDate, formatDateTime, pluralize } from '@/utils/format';
 // The bar chart (recharts) loads only for those who see the books.
 const AgeingChart = lazy(async () => ({ default: (await import('@/features/billing/components/ageing-chart')).AgeingChart }));
 
-const Card = ({ title, count, tone, children, action }: { title: string; count?: number; tone?: 'due' | 'ready' | 'danger'; children: ReactNode; action?: ReactNode }) => (
+const Card = ({
+  title,
+  count,
+  tone,
+  children,
+  action,
+}: {
+  title: string;
+  count?: number;
+  tone?: 'due' | 'ready' | 'danger';
+  children: ReactNode;
+  action?: ReactNode;
+}) => (
   <section className="flex flex-col gap-2 rounded-md border border-line bg-surface p-4" aria-label={title}>
     <header className="flex items-baseline justify-between gap-2">
       <h3 className="text-sm font-semibold">{title}</h3>
@@ -30,9 +42,15 @@ const whereWords: Record<string, string> = { cellar: 'cellar', cold_room: 'cold 
 
 /** Kegs still holding beer past or near their best-before (the co-op's warning days, Settings › Shelf life). */
 const BestBeforeCard = ({ list, mine = false }: { list: TodayBestBefore; mine?: boolean }) => (
-  <Card title={mine ? 'Your kegs near best-before' : 'Kegs near best-before'} count={list.total} tone={list.items.some((k) => k.state === 'past') ? 'danger' : 'due'}>
+  <Card
+    title={mine ? 'Your kegs near best-before' : 'Kegs near best-before'}
+    count={list.total}
+    tone={list.items.some((k) => k.state === 'past') ? 'danger' : 'due'}
+  >
     {list.total === 0 ? (
-      <Empty>{mine ? 'No keg with you is within' : 'No keg holding beer is within'} {pluralize(list.nearDays, 'day')} of its best-before.</Empty>
+      <Empty>
+        {mine ? 'No keg with you is within' : 'No keg holding beer is within'} {pluralize(list.nearDays, 'day')} of its best-before.
+      </Empty>
     ) : (
       <ul className={rows}>
         {list.items.map((k) => (
@@ -42,7 +60,7 @@ const BestBeforeCard = ({ list, mine = false }: { list: TodayBestBefore; mine?: 
             </Link>
             <span className={k.state === 'past' ? 'font-medium text-danger' : 'text-ink-muted'}>
               {k.state === 'past' ? 'past best-before' : 'best before'} {formatDate(k.bestBefore)}
-              {mine ? '' : ` · ${k.tapCode ? `on ${k.tapCode}` : k.memberName ?? whereWords[k.whereabouts] ?? k.whereabouts}`}
+              {mine ? '' : ` · ${k.tapCode ? `on ${k.tapCode}` : (k.memberName ?? whereWords[k.whereabouts] ?? k.whereabouts)}`}
             </span>
           </li>
         ))}
@@ -202,7 +220,12 @@ export const CellarToday = ({ section }: { section: TodayCellarSection }) => (
 
 /** Kegs and cylinders whose pressure test, relief valve, seals or hydrostatic test failed, is past due or due soon. */
 const InspectionsDueCard = ({ due }: { due: NonNullable<TodayCellarSection['inspectionsDue']> }) => (
-  <Card title="Inspections due" count={due.total} tone={due.items.some((i) => i.status !== 'due_soon') ? 'danger' : 'due'} action={<Link to="/cellar/maintenance">Maintenance list</Link>}>
+  <Card
+    title="Inspections due"
+    count={due.total}
+    tone={due.items.some((i) => i.status !== 'due_soon') ? 'danger' : 'due'}
+    action={<Link to="/cellar/maintenance">Maintenance list</Link>}
+  >
     {due.total === 0 ? (
       <Empty>Every keg and cylinder is inside its test dates.</Empty>
     ) : (
@@ -260,4 +283,3 @@ export const MoneyToday = ({ section }: { section: TodayMoneySection }) => (
     </Card>
   </div>
 );
-

@@ -13,10 +13,7 @@ export function useInviteUser() {
   return useMutation({
     mutationFn: inviteUser,
     onSuccess: async () => {
-      await Promise.all([
-        queryClient.invalidateQueries({ queryKey: userKeys.all }),
-        queryClient.invalidateQueries({ queryKey: ['mailbox'] }),
-      ]);
+      await Promise.all([queryClient.invalidateQueries({ queryKey: userKeys.all }), queryClient.invalidateQueries({ queryKey: ['mailbox'] })]);
     },
   });
 }

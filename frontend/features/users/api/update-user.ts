@@ -6,8 +6,7 @@ import { authKeys } from '@/lib/auth';
 
 export { updateUserSchema, userRolesSchema } from '../../../../shared/schemas/user.ts';
 
-export const updateUser = ({ id, ...input }: UpdateUserInput & { id: string }) =>
-  api.patch<{ user: User }>(`/api/users/${encodeURIComponent(id)}`, input);
+export const updateUser = ({ id, ...input }: UpdateUserInput & { id: string }) => api.patch<{ user: User }>(`/api/users/${encodeURIComponent(id)}`, input);
 
 export function useUpdateUser() {
   const queryClient = useQueryClient();

@@ -40,8 +40,8 @@ export const SetActiveDialog = ({ user, onClose, onDone }: SetActiveDialogProps)
     >
       {deactivating ? (
         <p>
-          {user?.name} ({user?.email}) will be signed out and can't sign in until someone reactivates them. Their bookings,
-          batches and invoices stay as they are.
+          {user?.name} ({user?.email}) will be signed out and can't sign in until someone reactivates them. Their bookings, batches and invoices stay as they
+          are.
         </p>
       ) : (
         <p>

@@ -68,8 +68,7 @@ export const UsersTable = ({
       column.accessor('isActive', {
         header: 'Active',
         enableSorting: false,
-        cell: ({ getValue }) =>
-          getValue() ? <Badge tone="ready">Active</Badge> : <Badge tone="muted">Inactive</Badge>,
+        cell: ({ getValue }) => (getValue() ? <Badge tone="ready">Active</Badge> : <Badge tone="muted">Inactive</Badge>),
       }),
       column.accessor('lastLoginAt', {
         header: 'Last sign-in',
