@@ -42,12 +42,10 @@ const importUrl = (batchId: string, dryRun = false) => `/api/batches/${batchId}/
 
 function upload(batchId: string, content: string | Buffer, filename: string) {
   const buffer = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
-  return member
-    .post(importUrl(batchId))
-    .attach('file', buffer, {
-      filename,
-      contentType: filename.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
-    });
+  return member.post(importUrl(batchId)).attach('file', buffer, {
+    filename,
+    contentType: filename.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
+  });
 }
 
 type Res = { status: number; headers: Record<string, string>; body: { title?: string; detail?: string; status?: number } };

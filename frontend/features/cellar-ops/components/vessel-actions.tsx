@@ -24,8 +24,8 @@ export const VesselCellarActions = ({ item }: { item: Pick<Equipment, 'id' | 'ki
         </ButtonLink>
       ) : null}
       {canTransfer ? (
-        <ButtonLink to={cellarPaths.newTransfer(held ? { batchId: held.batchId } : {})} variant="primary" className={big}>
-          {held ? `Transfer ${held.name} to kegs` : 'Transfer to kegs'}
+        <ButtonLink to={cellarPaths.newTransfer(held ? { batchId: held.batchId } : {})} variant="primary" className={`${big} max-w-full`}>
+          <span className="whitespace-normal">{held ? `Transfer ${held.name} to kegs` : 'Transfer to kegs'}</span>
         </ButtonLink>
       ) : null}
       {item.kind === 'keg' && ability.can('read', 'Keg') ? (
