@@ -135,6 +135,9 @@ describe('carbonation plans for a keg', () => {
     expect(row.reminder_job_id).toBeTruthy();
     const mail = await ctx.waitForMail('brewer@example.org', /Lower the pressure on keg/);
     expect(mail.subject).toContain(keg.code);
+    // Pressures through the one formatter, in both unit systems: "to 0.83 bar (12.0 psi)".
+    expect(mail.subject).toMatch(/to \d+\.\d{2} bar \(\d+\.\d psi\)$/);
+    expect(mail.text_body).toMatch(/serving pressure: \d+ kPa \(\d+\.\d{2} bar, \d+\.\d psi\)/);
     expect(mail.text_body).toMatch(/over-carbonates/);
     expect(mail.text_body).toMatch(/CO2 displaces air/);
     const sent = await brewer.get(`/api/carbonation-plans/${plan.id}`);

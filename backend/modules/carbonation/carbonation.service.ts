@@ -1,6 +1,7 @@
 import type PgBoss from 'pg-boss';
 import { z } from 'zod';
 import { lineMaterials, type LineMaterial } from '../../../shared/brewing/index.ts';
+import { defaultLocale, formatNumber, formatPressure } from '../../../shared/format/index.ts';
 import { checkLine, planCarbonation, PlanError } from '../../../shared/cellar/carbonation-planner.ts';
 import type { CarbonationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { CarbonationPlanView, CreateCarbonationPlanInput, LineCheckView, previewCarbonationPlanSchema } from '../../../shared/schemas/carbonation.ts';
@@ -424,8 +425,6 @@ export async function setPlanState(db: Database, queue: PgBoss, planId: string, 
   if (row.reminder_job_id) await queue.cancel(carbonationReminderQueue, row.reminder_job_id).catch(() => undefined);
 }
 
-const kpaToPsi = (kpa: number) => kpa / 6.894757293168361;
-
 /**
  * The queued reminder at the end of a fast start: e-mails every brewer on duty to turn the
  * regulator down, once, unless the plan was finished, replaced or the pressure already lowered.
@@ -465,13 +464,17 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
     .execute();
   const serving = Number(claimed.serving_pressure_kpa);
   const where = claimed.tap_code ? ` (on tap ${claimed.tap_code})` : '';
+  const ctx = { locale: defaultLocale };
+  const bar = formatPressure(serving, { ...ctx, units: 'metric' });
+  const psi = formatPressure(serving, { ...ctx, units: 'us' });
+  const kpa = (v: number) => `${formatNumber(v, 0, ctx)} kPa`;
   for (const b of brewers) {
     await enqueueMail(queue, {
       to: b.email,
-      subject: `Lower the pressure on keg ${claimed.code} to ${(serving / 100).toFixed(2)} bar (${kpaToPsi(serving).toFixed(1)} psi)`,
+      subject: `Lower the pressure on keg ${claimed.code} to ${bar} (${psi})`,
       text:
-        `Hello ${b.name},\n\nThe fast start on keg ${claimed.code}${where} at ${Number(claimed.fast_pressure_kpa).toFixed(0)} kPa has run its time.\n` +
-        `Turn the regulator down to serving pressure: ${serving.toFixed(0)} kPa (${(serving / 100).toFixed(2)} bar, ${kpaToPsi(serving).toFixed(1)} psi), ` +
+        `Hello ${b.name},\n\nThe fast start on keg ${claimed.code}${where} at ${kpa(Number(claimed.fast_pressure_kpa))} has run its time.\n` +
+        `Turn the regulator down to serving pressure: ${kpa(serving)} (${bar}, ${psi}), ` +
         `vent the headspace to that pressure, and mark the plan "pressure lowered" in Cellarwright.\n\n` +
         `Do not shake the keg at high pressure: that easily over-carbonates. Never exceed the keg's or regulator's rated pressure; ` +
         `CO2 displaces air in the closed cold room, so keep it ventilated and heed its CO2 alarm. Local codes and licensed practice govern.\n`,
