@@ -30,6 +30,11 @@ export function formatTime(value: DateInput, empty = '—'): string {
   return shared.formatTime(value, display, empty);
 }
 
+/** "Thu": the day of the week. */
+export function formatWeekday(value: DateInput, empty = '—'): string {
+  return shared.formatWeekday(value, display, empty);
+}
+
 /** "3 Dec": chart axes and short lists. */
 export function formatDayMonth(value: DateInput, empty = '—'): string {
   return shared.formatDayMonth(value, display, empty);

@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
 import { bookingKeys, getBookingsInRange } from '@/features/bookings/api/get-bookings';
 import { colours } from '@/features/bookings/components/booking-calendar';
+import { formatDate, formatDayMonth, formatTime, formatWeekday } from '@/utils/format';
 
 export interface BookingAgendaProps {
   items: Equipment[];
@@ -32,9 +33,10 @@ const addDays = (date: Date, days: number) => {
   return d;
 };
 
-const dayFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short' });
-const yearFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
-const whenFormat = new Intl.DateTimeFormat('en-GB', { weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+/** The week's days as calendar days ('2026-12-03'), which the formatter never shifts by a time zone. */
+const calendarDay = (d: Date) => `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+/** A booking's start or end: "Thu 3 Dec, 14:00" in the co-op's time zone, through the one formatter. */
+const when = (iso: string) => `${formatWeekday(iso)} ${formatDayMonth(iso)}, ${formatTime(iso)}`;
 
 /** The first moment from `from` on that none of the item's bookings (buffer included) holds. */
 export function firstFreeFrom(from: Date, bookings: Pick<Booking, 'startsAt' | 'blockedUntil'>[]): Date {
@@ -63,7 +65,7 @@ export const BookingAgenda = ({ items, kind, version, canBook, onPick, onError }
   }, [error, onError]);
 
   const thisWeek = weekStartOf(new Date()).getTime() === weekStart.getTime();
-  const title = `${dayFormat.format(weekStart)} – ${yearFormat.format(addDays(weekEnd, -1))}`;
+  const title = `${formatDayMonth(calendarDay(weekStart))} – ${formatDate(calendarDay(addDays(weekEnd, -1)))}`;
   const byItem = new Map<string, Booking[]>();
   for (const b of bookings.data ?? []) byItem.set(b.equipmentId, [...(byItem.get(b.equipmentId) ?? []), b]);
 
@@ -141,10 +143,10 @@ const BookingLine = ({ booking: b }: { booking: Booking }) => {
           {inUse ? ' · in use' : ''}
         </span>
         <span>
-          {whenFormat.format(new Date(b.startsAt))} – {whenFormat.format(new Date(b.endsAt))}
+          {when(b.startsAt)} – {when(b.endsAt)}
         </span>
       </span>
-      {buffered ? <span className="block text-xs text-ink-muted">Kept free for cleaning until {whenFormat.format(new Date(b.blockedUntil))}</span> : null}
+      {buffered ? <span className="block text-xs text-ink-muted">Kept free for cleaning until {when(b.blockedUntil)}</span> : null}
     </li>
   );
 };
