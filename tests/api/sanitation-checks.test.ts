@@ -269,7 +269,7 @@ describe('what passes', () => {
     expect(pdf.status).toBe(200);
     const text = pdfText(pdf.body as Buffer);
     expect(text).toMatch(
-      new RegExp(`${keg.code}\\s+\\d{4}-\\d\\d-\\d\\d \\d\\d:\\d\\d\\s+Recorded exception\\s+Recorded as an exception: Sanitize step: 0.9 mL/L`),
+      new RegExp(`${keg.code}\\s+\\d{1,2} \\w+ \\d{4}, \\d\\d:\\d\\d\\s+Recorded exception\\s+Recorded as an exception: Sanitize step: 0.9 mL/L`),
     );
     expect(text).toMatch(/Reason given: Last of the sanitizer/);
     expect(text).toMatch(/\[exception\] Sanitize/);
