@@ -1,10 +1,11 @@
-import { sql, type Selectable } from 'kysely';
+import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { KegFillTable, KegWhereabouts, TransferTable } from '../../backend/db/tables/cellar-operations.ts';
 import { batchGravityFigures } from '../../backend/modules/batches/figures.ts';
 import { fillBestBefore } from '../../backend/modules/batches/shelf-life.ts';
 import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
+import { markBatchPackaged } from '../../backend/modules/transfers/transfers.service.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
 import { type At, DAY, HOUR, inTransaction, MINUTE, toDate } from './common.ts';
 import { createBatch } from './batches.ts';
@@ -215,16 +216,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
         at,
       );
     }
-    const totals = await trx
-      .selectFrom('transfer')
-      .select((eb) => eb.fn.sum<number>('packaged_liters').as('liters'))
-      .where('batch_id', '=', batch.id)
-      .executeTakeFirstOrThrow();
-    await trx
-      .updateTable('batch')
-      .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: at })
-      .where('id', '=', batch.id)
-      .execute();
+    await markBatchPackaged(trx, batch.id, at, at);
     return { transfer, fills };
   });
 }

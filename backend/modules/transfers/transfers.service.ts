@@ -90,6 +90,20 @@ export function gravityNotStable(batchName: string, s: GravityStability): HttpPr
 }
 
 /** Splits the litres that reached the kegs evenly (to the centilitre, the last keg takes the rounding). */
+/** The batch's packaged litres are the sum of its transfers; it counts as packaged from its first transfer. */
+export async function markBatchPackaged(trx: Database, batchId: string, at: Date, now: Date): Promise<void> {
+  const totals = await trx
+    .selectFrom('transfer')
+    .select((eb) => eb.fn.sum<number>('packaged_liters').as('liters'))
+    .where('batch_id', '=', batchId)
+    .executeTakeFirstOrThrow();
+  await trx
+    .updateTable('batch')
+    .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: now })
+    .where('id', '=', batchId)
+    .execute();
+}
+
 function shareEvenly(total: number, n: number): number[] {
   const each = Math.floor((total / n) * 100) / 100;
   const out = Array.from({ length: n }, () => each);
@@ -315,16 +329,7 @@ export async function recordTransfer(
         now,
       );
 
-      const totals = await trx
-        .selectFrom('transfer')
-        .select((eb) => eb.fn.sum<number>('packaged_liters').as('liters'))
-        .where('batch_id', '=', batch.id)
-        .executeTakeFirstOrThrow();
-      await trx
-        .updateTable('batch')
-        .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: now })
-        .where('id', '=', batch.id)
-        .execute();
+      await markBatchPackaged(trx, batch.id, at, now);
 
       await audit(trx, actor.id, 'recorded', 'Transfer', transfer.id, {
         batchId: batch.id,
