@@ -4,7 +4,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
 import { billingKeys } from '@/features/billing/api/keys';
-import { kegKeys } from '@/features/cellar-ops/api/kegs';
+import { kegKeys } from '@/features/kegs/api/kegs';
 import { api, isApiProblem, problemMessage } from '@/lib/api-client';
 import { formatDateTime, pluralize } from '@/utils/format';
 

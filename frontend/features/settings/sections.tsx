@@ -4,7 +4,7 @@ import { settingSections } from '../../../shared/schemas/settings.ts';
 import { BookingRulesSection } from '@/features/settings/components/booking-rules-form';
 import { FermentationSettingsSection } from '@/features/batches/components/fermentation-settings-form';
 import { ShelfLifeSettingsSection } from '@/features/batches/components/shelf-life-settings-form';
-import { CarbonationSettingsSection, SanitationSettingsSection } from '@/features/cellar-ops/components/cellar-settings-forms';
+import { CarbonationSettingsSection, SanitationSettingsSection } from '@/features/settings/components/cellar-settings-forms';
 import { PressureSafetySettingsSection } from '@/features/equipment/components/pressure-safety-settings-form';
 
 /**

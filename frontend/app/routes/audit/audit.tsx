@@ -12,7 +12,7 @@ import { Input, Select } from '@/components/ui/input';
 import { useServerTable } from '@/components/ui/use-server-table';
 import { paths, invoiceHref } from '@/config/paths';
 import { useAuditTrail } from '@/features/audit/api/get-audit';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { cellarPaths } from '@/config/cellar-paths';
 import { useUsers } from '@/features/users/api/get-users';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useSearchParamsState } from '@/hooks/use-search-params-state';

@@ -17,7 +17,7 @@ import { GravityChart } from '@/features/batches/components/gravity-chart';
 import { ReadingFormDialog } from '@/features/batches/components/reading-form-dialog';
 import { ReadingsTable } from '@/features/batches/components/readings-table';
 import { BatchTraceSection } from '@/features/batches/components/batch-trace-section';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { cellarPaths } from '@/config/cellar-paths';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';

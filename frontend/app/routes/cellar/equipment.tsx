@@ -13,7 +13,7 @@ import { InspectionsPanel, ratingText } from '@/features/equipment/components/in
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { StateChangeDialog } from '@/features/equipment/components/state-change-dialog';
 import { attributeQuantities, formatAttribute } from '@/features/equipment/equipment-form';
-import { VesselCellarActions } from '@/features/cellar-ops/components/vessel-actions';
+import { VesselCellarActions } from '@/features/equipment/components/vessel-actions';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { canOnEvery, useAppAbility } from '@/lib/ability';

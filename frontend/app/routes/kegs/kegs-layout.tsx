@@ -1,6 +1,6 @@
 import { NavLink, Outlet } from 'react-router-dom';
 import { Forbidden } from '@/components/errors/forbidden';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { cellarPaths } from '@/config/cellar-paths';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 import { cn } from '@/utils/cn';
 

@@ -3,7 +3,7 @@ import { Forbidden } from '@/components/errors/forbidden';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input, Select } from '@/components/ui/input';
-import { auditReportHref, useVesselStatus } from '@/features/cellar-ops/api/sanitation';
+import { auditReportHref, useVesselStatus } from '@/features/sanitation/api/sanitation';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
 

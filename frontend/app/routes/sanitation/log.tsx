@@ -6,7 +6,7 @@ import { sanitationCycleSortFields, type SanitationCycleView } from '../../../..
 import { Badge } from '@/components/ui/badge';
 import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { Input, Select } from '@/components/ui/input';
-import { useCycles } from '@/features/cellar-ops/api/sanitation';
+import { useCycles } from '@/features/sanitation/api/sanitation';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { formatDateTime } from '@/utils/format';
 

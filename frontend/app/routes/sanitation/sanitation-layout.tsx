@@ -1,7 +1,7 @@
 import { NavLink, Outlet } from 'react-router-dom';
 import { Forbidden } from '@/components/errors/forbidden';
 import { ButtonLink } from '@/components/ui/button';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { cellarPaths } from '@/config/cellar-paths';
 import { useAppAbility } from '@/lib/ability';
 import { cn } from '@/utils/cn';
 

@@ -1,7 +1,7 @@
 import { Link } from 'react-router-dom';
 import type { BatchTrace, TraceFill } from '../../../../shared/schemas/trace.ts';
 import { Badge } from '@/components/ui/badge';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { cellarPaths } from '@/config/cellar-paths';
 import { useUnits } from '@/hooks/use-units';
 import { formatDate } from '@/utils/format';
 

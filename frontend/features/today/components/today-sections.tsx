@@ -5,7 +5,7 @@ import { inspectionKindLabels } from '../../../../shared/schemas/inspections.ts'
 import { Badge } from '@/components/ui/badge';
 import { paths } from '@/config/paths';
 import { Money } from '@/features/billing/components/money';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { cellarPaths } from '@/config/cellar-paths';
 import { formatDate, formatDateTime, pluralize } from '@/utils/format';
 
 // The bar chart (recharts) loads only for those who see the books.

@@ -13,9 +13,9 @@ import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Checkbox } from '@/components/ui/input';
-import { useContinueCycle, useRecordCycle, useVesselStatus } from '@/features/cellar-ops/api/sanitation';
-import { Cautions } from '@/features/cellar-ops/components/cautions';
-import { BigChoice, BigInput, BigSelect, bigButton } from '@/features/cellar-ops/components/touch';
+import { useContinueCycle, useRecordCycle, useVesselStatus } from '@/features/sanitation/api/sanitation';
+import { Cautions } from '@/components/safety/cautions';
+import { BigChoice, BigInput, BigSelect, bigButton } from '@/components/ui/touch';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 

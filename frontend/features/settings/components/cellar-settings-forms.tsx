@@ -10,7 +10,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Checkbox, Input, Select } from '@/components/ui/input';
-import { Cautions } from '@/features/cellar-ops/components/cautions';
+import { Cautions } from '@/components/safety/cautions';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 

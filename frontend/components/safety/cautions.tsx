@@ -1,4 +1,4 @@
-import { carbonationCautions, chemicalCautions, deferToLocalCodes, pressureCautions } from '../../../../shared/cellar/cautions.ts';
+import { carbonationCautions, chemicalCautions, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
 import { cn } from '@/utils/cn';
 
 const sets = {

@@ -1,7 +1,7 @@
 import type { Equipment } from '../../../../shared/schemas/equipment.ts';
 import { ButtonLink } from '@/components/ui/button';
-import { useTransferCandidates } from '@/features/cellar-ops/api/transfers';
-import { cellarPaths } from '@/features/cellar-ops/paths';
+import { useTransferCandidates } from '@/features/transfers/api/transfers';
+import { cellarPaths } from '@/config/cellar-paths';
 import { useAppAbility } from '@/lib/ability';
 
 /**
