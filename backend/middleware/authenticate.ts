@@ -1,8 +1,8 @@
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Database } from '../db/database.ts';
 import { HttpProblem, unauthorized } from '../lib/http-problem.ts';
-import { findActiveUser } from '../modules/auth/auth.service.ts';
+import { findActiveUser, type SessionUser } from '../modules/auth/auth.service.ts';
 import { anonymousCsrfCookieOf, csrfKey, isValidAnonymousCsrfToken, sameToken, sentByBrowser } from '../modules/auth/csrf.ts';
 
 /** Sets req.user and req.ability; nothing else builds an ability. A deactivated user's session ends here too. */
@@ -23,6 +23,12 @@ export const requireUser: RequestHandler = (req, _res, next) => {
   if (!req.user) throw unauthorized();
   next();
 };
+
+/** The signed-in person of a request behind `requireUser`; a 401 problem if there is none. */
+export function userOf(req: Request): SessionUser {
+  if (!req.user) throw unauthorized();
+  return req.user;
+}
 
 const safeMethods = new Set(['GET', 'HEAD', 'OPTIONS']);
 

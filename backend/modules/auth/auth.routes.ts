@@ -14,7 +14,7 @@ import { HttpProblem, unauthorized } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { PgRateLimitStore } from '../../lib/rate-limit-store.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { checkCredentials, consumeToken, endSessionsOf, hashPassword, issueToken, peekToken, toSessionUser, type SessionUser } from './auth.service.ts';
 import { anonymousCsrfCookieOf, csrfKey, isValidAnonymousCsrfToken, issueAnonymousCsrfToken, newSessionCsrfToken, setAnonymousCsrfCookie } from './csrf.ts';
 import { clientAddressKey, LoginThrottle, type LoginRefusal } from './login-throttle.ts';
@@ -140,7 +140,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
 
   router.patch('/me', requireUser, async (req, res) => {
     const input = updateMeSchema.parse(req.body ?? {});
-    const me = req.user!;
+    const me = userOf(req);
     const row = await db
       .updateTable('app_user')
       .set({ ...(input.name ? { name: input.name } : {}), ...(input.units ? { units: input.units } : {}), updated_at: new Date() })

@@ -15,7 +15,7 @@ import {
 import type { Deps } from '../../lib/deps.ts';
 import { HttpProblem, badRequest, notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } from './batches.service.ts';
 import { loadCoopTimeZone, loadFermentationSettings } from './figures.ts';
 import { addReading, deleteReading, listReadings } from './readings.service.ts';
@@ -68,13 +68,13 @@ export function batchesRoutes({ db, clock }: Deps): Router {
   router.get('/', async (req, res) => {
     const q = batchListQuerySchema.parse(req.query);
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Batch');
-    res.json(await listBatches(db, req.ability, req.user!, q));
+    res.json(await listBatches(db, req.ability, userOf(req), q));
   });
 
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Batch');
     const input = createBatchSchema.parse(req.body ?? {});
-    const row = await createBatch(db, req.ability, input, req.user!, clock.now());
+    const row = await createBatch(db, req.ability, input, userOf(req), clock.now());
     res.status(201).json({ batch: await batchDetail(db, req.ability, row, clock.now()) });
   });
 
@@ -89,7 +89,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const row = await findVisibleBatch(db, req.ability, req.params.id);
     ForbiddenError.from(req.ability).throwUnlessCan('update', subject('Batch', { ownerId: row.owner_id }));
     const input = updateBatchSchema.parse(req.body ?? {});
-    const updated = await updateBatch(db, row, input, req.user!, clock.now());
+    const updated = await updateBatch(db, row, input, userOf(req), clock.now());
     res.json({ batch: await batchDetail(db, req.ability, updated, clock.now()) });
   });
 
@@ -105,7 +105,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('create', subject('Reading', { ownerId: row.owner_id }));
     const input = createReadingSchema.parse(req.body ?? {});
     const settings = await loadFermentationSettings(db);
-    const reading = await addReading(db, row, input, settings, req.user!, clock.now());
+    const reading = await addReading(db, row, input, settings, userOf(req), clock.now());
     res.status(201).json({ reading });
   });
 
@@ -113,7 +113,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const row = await findVisibleBatch(db, req.ability, req.params.id);
     ForbiddenError.from(req.ability).throwUnlessCan('delete', subject('Reading', { ownerId: row.owner_id }));
     const settings = await loadFermentationSettings(db);
-    await deleteReading(db, row, req.params.readingId, settings, req.user!);
+    await deleteReading(db, row, req.params.readingId, settings, userOf(req));
     res.status(204).end();
   });
 
@@ -130,7 +130,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
     const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), loadCoopTimeZone(db)]);
     void pruneImportProgress(db).catch(() => undefined);
-    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: req.user!, settings, timeZone, now: clock.now() });
+    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: userOf(req), settings, timeZone, now: clock.now() });
     res.json(result);
   });
 
@@ -144,7 +144,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
       .selectFrom('reading_import_progress')
       .selectAll()
       .where('id', '=', id.data)
-      .where('user_id', '=', req.user!.id)
+      .where('user_id', '=', userOf(req).id)
       .where('batch_id', '=', row.id)
       .executeTakeFirst();
     if (!p) throw notFound('Import');

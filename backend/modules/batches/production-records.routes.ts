@@ -3,7 +3,7 @@ import { Router, type Request, type Response } from 'express';
 import { productionRecordsQuerySchema } from '../../../shared/schemas/batches.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { loadCoopTimeZone } from './figures.ts';
 import { productionRecords, productionRecordsCsv, productionRecordsXlsx } from './production-records.service.ts';
 
@@ -16,7 +16,7 @@ export function productionRecordsRoutes({ db, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'ProductionRecord');
     if (format !== 'json') ForbiddenError.from(req.ability).throwUnlessCan('export', 'ProductionRecord');
     // Whoever may read only their own records (a member) sees only their own batches.
-    const ownerId = !canAll(req.ability, 'read', 'ProductionRecord') || q.mine ? req.user!.id : undefined;
+    const ownerId = !canAll(req.ability, 'read', 'ProductionRecord') || q.mine ? userOf(req).id : undefined;
     const timeZone = await loadCoopTimeZone(db);
     const report = await productionRecords(db, { from: q.from, to: q.to, ownerId, timeZone, now: clock.now() });
     const name = `production-records-${report.from}-to-${report.to}`;

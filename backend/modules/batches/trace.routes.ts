@@ -4,15 +4,15 @@ import { subject } from '../../../shared/permissions/ability.ts';
 import { traceReportQuerySchema, type BatchTrace } from '../../../shared/schemas/trace.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { defaultLocale, formatDate } from '../../../shared/format/index.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
 import { findVisibleBatch } from './batches.service.ts';
 import { batchTrace, traceCsv, tracePdf, traceReport, type TraceViewer } from './trace.service.ts';
 
 const viewerOf = (req: Request): TraceViewer => ({
-  id: req.user!.id,
-  mayNameHolder: (memberId) => memberId === req.user!.id || req.ability.can('readOwner', subject('Keg', { memberId })),
+  id: userOf(req).id,
+  mayNameHolder: (memberId) => memberId === userOf(req).id || req.ability.can('readOwner', subject('Keg', { memberId })),
 });
 
 const safeName = (s: string) =>
@@ -66,7 +66,7 @@ export function traceReportRoutes({ db, clock }: Deps): Router {
   router.get('/', async (req: Request, res: Response) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Batch');
     const q = traceReportQuerySchema.parse(req.query);
-    const ownerId = canAll(req.ability, 'read', 'Batch') ? undefined : req.user!.id;
+    const ownerId = canAll(req.ability, 'read', 'Batch') ? undefined : userOf(req).id;
     const now = clock.now();
     const report = await traceReport(db, { from: q.from, to: q.to, ownerId }, viewerOf(req), now);
     const name = `trace-${q.from}-to-${q.to}`;

@@ -24,7 +24,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { badRequest, forbidden, notFound } from '../../lib/http-problem.ts';
 import { isUuid, uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile, putBillingProfile } from './billing-profile.service.ts';
 import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
 import { sendInvoice } from './invoice-mail.service.ts';
@@ -87,7 +87,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('run', 'InvoiceRun');
     const input = invoiceRunInputSchema.parse(req.body ?? {});
-    const result = await runPeriod(db, input, req.user!.id, { now: clock.now() });
+    const result = await runPeriod(db, input, userOf(req).id, { now: clock.now() });
     res.status(201).json(result);
   });
 
@@ -105,7 +105,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
       .where('sent_at', 'is', null)
       .orderBy('number_seq')
       .execute();
-    for (const inv of unsent) await sendInvoice(deps, inv.id, req.user!.id);
+    for (const inv of unsent) await sendInvoice(deps, inv.id, userOf(req).id);
     res.status(202).json({ queued: unsent.length });
   });
 
@@ -114,7 +114,7 @@ export function invoiceRunsRoutes(deps: Deps): Router {
     const { id } = idParam.parse(req.params);
     const run = isUuid(id) ? await db.selectFrom('invoice_run').select('id').where('id', '=', id).executeTakeFirst() : undefined;
     if (!run) throw notFound('Invoice run');
-    const issued = await issueRunDrafts(db, run.id, req.user!.id, clock.now());
+    const issued = await issueRunDrafts(db, run.id, userOf(req).id, clock.now());
     res.json({ issued: issued.length });
   });
 
@@ -131,7 +131,7 @@ export function invoicesRoutes(deps: Deps): Router {
     can(req).throwUnlessCan('read', 'Invoice');
     const q = invoiceListQuerySchema.parse(req.query);
     const { today } = await coopToday(db, clock.now());
-    const scope = canAll(req.ability, 'read', 'Invoice') ? {} : { ownerId: req.user!.id };
+    const scope = canAll(req.ability, 'read', 'Invoice') ? {} : { ownerId: userOf(req).id };
     res.json(await listInvoices(db, q, scope, today));
   });
 
@@ -140,7 +140,7 @@ export function invoicesRoutes(deps: Deps): Router {
     can(req).throwUnlessCan('export', 'Invoice');
     const q = invoiceExportQuerySchema.parse(req.query);
     const sheets = await periodLedger(db, q.period);
-    await audit(db, req.user!.id, 'exported', 'Invoice', null, { period: q.period, format: q.format });
+    await audit(db, userOf(req).id, 'exported', 'Invoice', null, { period: q.period, format: q.format });
     const name = `cellarwright-ledger-${q.period}`;
     if (q.format === 'xlsx') {
       const body = await ledgerXlsx(sheets, `Ledger ${periodLabel(q.period)}`);
@@ -176,7 +176,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     await db.transaction().execute(async (trx) => {
       const { today } = await coopToday(trx, clock.now());
-      await issueInvoice(trx, row.id, today, req.user!.id);
+      await issueInvoice(trx, row.id, today, userOf(req).id);
     });
     const { today } = await coopToday(db, clock.now());
     res.json({ invoice: await getDetail(db, row.id, today) });
@@ -187,7 +187,7 @@ export function invoicesRoutes(deps: Deps): Router {
     can(req).throwUnlessCan('send', 'Invoice');
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('send', subject('Invoice', { memberId: row.member_id }));
-    const sent = await sendInvoice(deps, row.id, req.user!.id);
+    const sent = await sendInvoice(deps, row.id, userOf(req).id);
     res.status(202).json({ queued: true, ...sent });
   });
 
@@ -196,16 +196,16 @@ export function invoicesRoutes(deps: Deps): Router {
     can(req).throwUnlessCan('pay', 'Invoice');
     const row = await visibleInvoice(req, db, id);
     // Paying online is for the member the invoice is addressed to.
-    if (row.member_id !== req.user!.id) throw forbidden('Only the member it is addressed to pays an invoice online; record a payment instead.');
+    if (row.member_id !== userOf(req).id) throw forbidden('Only the member it is addressed to pays an invoice online; record a payment instead.');
     can(req).throwUnlessCan('pay', subject('Invoice', { memberId: row.member_id }));
-    res.status(201).json(await createCheckout(db, config, row.id, { id: req.user!.id, email: req.user!.email }, clock.now(), queue));
+    res.status(201).json(await createCheckout(db, config, row.id, { id: userOf(req).id, email: userOf(req).email }, clock.now(), queue));
   });
 
   router.post('/:id/checkout/confirm', async (req, res) => {
     const { id } = idParam.parse(req.params);
     can(req).throwUnlessCan('pay', 'Invoice');
     const row = await visibleInvoice(req, db, id);
-    if (row.member_id !== req.user!.id) throw forbidden();
+    if (row.member_id !== userOf(req).id) throw forbidden();
     const body = z.object({ sessionId: z.string().min(1).max(200) }).parse(req.body ?? {});
     const outcome = await confirmCheckout(db, config, row.id, body.sessionId, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
@@ -219,7 +219,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const row = await visibleInvoice(req, db, id);
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
     const payment = await db.transaction().execute(async (trx) => {
-      const recorded = await recordManualPayment(trx, row.id, input, req.user!.id);
+      const recorded = await recordManualPayment(trx, row.id, input, userOf(req).id);
       await queueReceipt(trx, queue, recorded.id);
       return recorded;
     });
@@ -236,7 +236,7 @@ export function invoicesRoutes(deps: Deps): Router {
     can(req).throwUnlessCan('update', subject('Invoice', { memberId: row.member_id }));
     const result = await db.transaction().execute(async (trx) => {
       const { today } = await coopToday(trx, clock.now());
-      return voidInvoice(trx, row.id, input, today, req.user!.id);
+      return voidInvoice(trx, row.id, input, today, userOf(req).id);
     });
     await closeStaleCheckouts(db, config, row.id, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
@@ -251,7 +251,7 @@ export function invoicesRoutes(deps: Deps): Router {
     can(req).throwUnlessCan('create', subject('CreditNote', { memberId: row.member_id }));
     const result = await db.transaction().execute(async (trx) => {
       const { today } = await coopToday(trx, clock.now());
-      return refundInvoice(trx, row.id, input, today, req.user!.id);
+      return refundInvoice(trx, row.id, input, today, userOf(req).id);
     });
     await closeStaleCheckouts(db, config, row.id, clock.now(), queue);
     const { today } = await coopToday(db, clock.now());
@@ -276,13 +276,13 @@ export function pricesRoutes({ db, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('create', 'PriceList');
     const input = priceInputSchema.parse(req.body ?? {});
-    res.status(201).json({ price: await addPrice(db, input, req.user!.id, clock.now()) });
+    res.status(201).json({ price: await addPrice(db, input, userOf(req).id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
     can(req).throwUnlessCan('delete', 'PriceList');
     const { id } = idParam.parse(req.params);
-    await removePrice(db, id, req.user!.id, clock.now());
+    await removePrice(db, id, userOf(req).id, clock.now());
     res.status(204).end();
   });
 
@@ -303,13 +303,13 @@ export function taxRatesRoutes({ db, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     can(req).throwUnlessCan('create', 'PriceList');
     const input = taxRateInputSchema.parse(req.body ?? {});
-    res.status(201).json({ taxRate: await addTaxRate(db, input, req.user!.id, clock.now()) });
+    res.status(201).json({ taxRate: await addTaxRate(db, input, userOf(req).id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
     can(req).throwUnlessCan('delete', 'PriceList');
     const { id } = idParam.parse(req.params);
-    await removeTaxRate(db, id, req.user!.id, clock.now());
+    await removeTaxRate(db, id, userOf(req).id, clock.now());
     res.status(204).end();
   });
 
@@ -325,7 +325,7 @@ export function manualChargesRoutes({ db, clock }: Deps): Router {
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'Charge');
     const q = listQuery.parse(req.query);
-    const own = canAll(req.ability, 'read', 'Charge') ? {} : { memberId: req.user!.id };
+    const own = canAll(req.ability, 'read', 'Charge') ? {} : { memberId: userOf(req).id };
     if (own.memberId && q.memberId && q.memberId !== own.memberId) {
       res.json({ items: [], total: 0, page: 1, pageSize: 1 });
       return;
@@ -338,13 +338,13 @@ export function manualChargesRoutes({ db, clock }: Deps): Router {
     can(req).throwUnlessCan('create', 'Charge');
     const input = manualChargeInputSchema.parse(req.body ?? {});
     can(req).throwUnlessCan('create', subject('Charge', { memberId: input.memberId }));
-    res.status(201).json({ charge: await addManualCharge(db, input, req.user!.id, clock.now()) });
+    res.status(201).json({ charge: await addManualCharge(db, input, userOf(req).id, clock.now()) });
   });
 
   router.delete('/:id', async (req, res) => {
     can(req).throwUnlessCan('delete', 'Charge');
     const { id } = idParam.parse(req.params);
-    await removeManualCharge(db, id, req.user!.id);
+    await removeManualCharge(db, id, userOf(req).id);
     res.status(204).end();
   });
 
@@ -384,7 +384,7 @@ export function billingRoutes({ db, clock }: Deps): Router {
     const row = await db.selectFrom('payment').select(['id', 'member_id']).where('id', '=', id).executeTakeFirst();
     if (!row) throw notFound('Overpayment');
     can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
-    await db.transaction().execute((trx) => markOverpaymentRefunded(trx, row.id, input as Required<typeof input>, req.user!.id));
+    await db.transaction().execute((trx) => markOverpaymentRefunded(trx, row.id, input as Required<typeof input>, userOf(req).id));
     const [item] = await listOverpayments(db, { paymentId: row.id });
     res.json({ overpayment: item });
   });
@@ -393,7 +393,7 @@ export function billingRoutes({ db, clock }: Deps): Router {
   router.get('/balance', async (req, res) => {
     can(req).throwUnlessCan('read', 'Invoice');
     const q = z.object({ memberId: z.uuid().optional() }).parse(req.query);
-    const memberId = q.memberId ?? req.user!.id;
+    const memberId = q.memberId ?? userOf(req).id;
     if (!req.ability.can('read', subject('Invoice', { memberId }))) throw notFound('Member');
     const [{ today }, profile] = await Promise.all([coopToday(db, clock.now()), getBillingProfile(db)]);
     res.json(await memberBalance(db, memberId, today, profile.currency));
@@ -407,7 +407,7 @@ export function billingRoutes({ db, clock }: Deps): Router {
   router.put('/profile', async (req, res) => {
     can(req).throwUnlessCan('update', 'PriceList');
     const input = billingProfileSchema.parse(req.body ?? {});
-    const profile = await db.transaction().execute((trx) => putBillingProfile(trx, input, req.user!.id));
+    const profile = await db.transaction().execute((trx) => putBillingProfile(trx, input, userOf(req).id));
     res.json({ profile });
   });
 

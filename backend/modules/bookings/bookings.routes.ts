@@ -7,7 +7,7 @@ import type { Deps } from '../../lib/deps.ts';
 import { HttpProblem, notFound } from '../../lib/http-problem.ts';
 import { enqueueMail, type OutgoingMail } from '../../lib/mailer.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
 import { cancellationMail, confirmationMail } from './bookings.mail.ts';
 import { cancelBooking, createBooking, findBooking, listBookings, toBookingDto } from './bookings.service.ts';
@@ -37,20 +37,20 @@ export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
   router.get('/', async (req, res) => {
     const q = bookingListQuerySchema.parse(req.query);
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Booking');
-    res.json(await listBookings(db, q, { id: req.user!.id, ability: req.ability }));
+    res.json(await listBookings(db, q, { id: userOf(req).id, ability: req.ability }));
   });
 
   router.get('/:id', async (req, res) => {
     const id = idSchema.safeParse(req.params.id);
     const row = id.success ? await findBooking(db, id.data) : undefined;
     if (!row || !req.ability.can('read', subject('Booking', { ownerId: row.owner_id }))) throw notFound('Booking');
-    res.json({ booking: toBookingDto(row, { id: req.user!.id, ability: req.ability }) });
+    res.json({ booking: toBookingDto(row, { id: userOf(req).id, ability: req.ability }) });
   });
 
   router.post('/', async (req, res) => {
     if (!req.ability.can('create', 'Booking')) throw new HttpProblem(403, 'Forbidden', 'Your roles do not include booking equipment.');
     const input = createBookingSchema.parse(req.body ?? {});
-    const actor = req.user!;
+    const actor = userOf(req);
     const ownerId = input.ownerId ?? actor.id;
     if (!req.ability.can('create', subject('Booking', { ownerId }))) {
       throw new HttpProblem(
@@ -70,7 +70,7 @@ export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
   router.delete('/:id', async (req, res) => {
     const id = idSchema.safeParse(req.params.id);
     if (!id.success) throw notFound('Booking');
-    const actor = req.user!;
+    const actor = userOf(req);
     const done = await cancelBooking(db, id.data, { id: actor.id, name: actor.name, ability: req.ability }, clock.now());
     await queueMail(req.log, cancellationMail(done.booking, done.owner, done.timeZone, config, clock.now(), done.owner.id === actor.id ? 'you' : actor.name));
     res.status(204).end();

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { calendarFeedKinds, feedForToken, listFeeds, renderFeed, renewFeed } from './calendar-feed.service.ts';
 
 const renewSchema = z.object({ kind: z.enum(['member', 'rota']).default('member') }).strict();
@@ -15,15 +15,15 @@ export function calendarFeedsRoutes({ db, config }: Deps): Router {
   router.use(requireUser);
 
   router.get('/', async (req, res) => {
-    const me = req.user!.id;
+    const me = userOf(req).id;
     const kinds = calendarFeedKinds.filter((kind) => req.ability.can('read', subject('CalendarFeed', { ownerId: me, kind })));
     res.json({ feeds: await listFeeds(db, config, me, kinds) });
   });
 
   router.post('/', async (req, res) => {
     const { kind } = renewSchema.parse(req.body ?? {});
-    ForbiddenError.from(req.ability).throwUnlessCan('update', subject('CalendarFeed', { ownerId: req.user!.id, kind }));
-    res.status(201).json({ feed: await renewFeed(db, config, req.user!.id, kind) });
+    ForbiddenError.from(req.ability).throwUnlessCan('update', subject('CalendarFeed', { ownerId: userOf(req).id, kind }));
+    res.status(201).json({ feed: await renewFeed(db, config, userOf(req).id, kind) });
   });
 
   return router;

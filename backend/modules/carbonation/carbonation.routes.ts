@@ -12,7 +12,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { createPlan, listPlans, markPressureLowered, planMemberId, planViews, previewPlan, setPlanState } from './carbonation.service.ts';
 
 /** `/api/carbonation-plans`: target CO2 volumes → regulator pressure, ready date and the fast-start reminder. */
@@ -30,13 +30,13 @@ export function carbonationRoutes({ db, queue, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'CarbonationPlan');
     const input = createCarbonationPlanSchema.parse(req.body ?? {});
-    res.status(201).json({ plan: await createPlan(db, queue, input, req.user!, clock.now()) });
+    res.status(201).json({ plan: await createPlan(db, queue, input, userOf(req), clock.now()) });
   });
 
   router.get('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
     const q = carbonationPlanListQuerySchema.parse(req.query);
-    res.json(await listPlans(db, q, clock.now(), canAll(req.ability, 'read', 'CarbonationPlan') ? undefined : req.user!.id));
+    res.json(await listPlans(db, q, clock.now(), canAll(req.ability, 'read', 'CarbonationPlan') ? undefined : userOf(req).id));
   });
 
   /** Loads a plan the person may see (404 otherwise) and checks `action` on it. */
@@ -57,7 +57,7 @@ export function carbonationRoutes({ db, queue, clock }: Deps): Router {
 
   router.post('/:id/pressure-lowered', async (req, res) => {
     const id = await visiblePlan(req, 'update');
-    await markPressureLowered(db, queue, id, req.user!, clock.now());
+    await markPressureLowered(db, queue, id, userOf(req), clock.now());
     const [plan] = await planViews(db, [id]);
     res.json({ plan });
   });
@@ -65,7 +65,7 @@ export function carbonationRoutes({ db, queue, clock }: Deps): Router {
   router.patch('/:id', async (req, res) => {
     const id = await visiblePlan(req, 'update');
     const input = updateCarbonationPlanSchema.parse(req.body ?? {});
-    await setPlanState(db, queue, id, input.state, req.user!, clock.now());
+    await setPlanState(db, queue, id, input.state, userOf(req), clock.now());
     const [plan] = await planViews(db, [id]);
     res.json({ plan });
   });

@@ -12,7 +12,7 @@ import {
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { upcomingBookingsFor } from '../bookings/bookings.service.ts';
 import {
   changeEquipmentState,
@@ -87,7 +87,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     const now = clock.now();
     const [history, upcomingBookings, inspections, due, cylinder] = await Promise.all([
       equipmentHistory(db, item.id),
-      upcomingBookingsFor(db, item.id, { id: req.user!.id, ability: req.ability }, now),
+      upcomingBookingsFor(db, item.id, { id: userOf(req).id, ability: req.ability }, now),
       listInspections(db, item.id),
       inspectionsDue(db, item.id, now),
       item.kind === 'co2_cylinder' ? cylinderView(db, item) : Promise.resolve(undefined),
@@ -101,7 +101,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     const input = createInspectionSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
     const now = clock.now();
-    const inspection = await recordInspection(db, item, input, req.user!.id, now);
+    const inspection = await recordInspection(db, item, input, userOf(req).id, now);
     res.status(201).json({ inspection, equipment: await findEquipment(db, item.id, now), inspectionsDue: await inspectionsDue(db, item.id, now) });
   });
 
@@ -109,7 +109,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     const input = connectCylinderSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
-    await connectCylinder(db, item, input, req.user!.id, clock.now());
+    await connectCylinder(db, item, input, userOf(req).id, clock.now());
     res.json({ cylinder: await cylinderView(db, item) });
   });
 
@@ -117,14 +117,14 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     const input = refillCylinderSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
-    await refillCylinder(db, item, input, req.user!.id, clock.now());
+    await refillCylinder(db, item, input, userOf(req).id, clock.now());
     res.json({ cylinder: await cylinderView(db, (await findEquipment(db, item.id, clock.now())) ?? item) });
   });
 
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Equipment');
     const input = createEquipmentSchema.parse(req.body ?? {});
-    res.status(201).json({ equipment: await createEquipment(db, input, req.user!.id, clock.now()) });
+    res.status(201).json({ equipment: await createEquipment(db, input, userOf(req).id, clock.now()) });
   });
 
   router.patch('/:id', async (req, res) => {
@@ -132,7 +132,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('manage', 'Equipment');
     const input = updateEquipmentSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
-    res.json({ equipment: await updateEquipment(db, item, input, req.user!.id, clock.now()) });
+    res.json({ equipment: await updateEquipment(db, item, input, userOf(req).id, clock.now()) });
   });
 
   router.post('/:id/state', async (req, res) => {
@@ -142,7 +142,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     const equipment = await db
       .transaction()
       .execute((trx) =>
-        changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: req.user!.id, at: clock.now() }),
+        changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: userOf(req).id, at: clock.now() }),
       );
     res.json({ equipment, history: await equipmentHistory(db, item.id, 20) });
   });

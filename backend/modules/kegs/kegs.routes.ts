@@ -16,7 +16,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import {
   checkOutKeg,
   emptyKeg,
@@ -40,7 +40,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
   router.use(requireUser);
 
   const visibility = (req: Request) => ({
-    memberId: canAll(req.ability, 'read', 'Keg') ? undefined : req.user!.id,
+    memberId: canAll(req.ability, 'read', 'Keg') ? undefined : userOf(req).id,
     showOwner: req.ability.can('readOwner', 'Keg'),
   });
 
@@ -93,7 +93,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegCheckOutSchema.parse(req.body ?? {});
-    await checkOutKeg(db, row.id, input, req.user!, clock.now());
+    await checkOutKeg(db, row.id, input, userOf(req), clock.now());
     await answer(req, res);
   });
 
@@ -101,7 +101,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegReturnSchema.parse(req.body ?? {});
-    const undo = await returnKeg(db, row.id, input, req.user!, clock.now());
+    const undo = await returnKeg(db, row.id, input, userOf(req), clock.now());
     await answer(req, res, 200, undo);
   });
 
@@ -109,7 +109,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegMoveSchema.parse(req.body ?? {});
-    await moveKeg(db, row.id, input, req.user!, clock.now());
+    await moveKeg(db, row.id, input, userOf(req), clock.now());
     await answer(req, res);
   });
 
@@ -118,7 +118,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     // Emptying changes the vessel's state.
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     const input = kegEmptySchema.parse(req.body ?? {});
-    const undo = await emptyKeg(db, row.id, input, req.user!, clock.now());
+    const undo = await emptyKeg(db, row.id, input, userOf(req), clock.now());
     await answer(req, res, 200, undo);
   });
 
@@ -131,7 +131,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
       if (action === 'returned') ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
       else ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     };
-    await undoKegAction(db, row.id, input.actionId, authorize, req.user!, clock.now());
+    await undoKegAction(db, row.id, input.actionId, authorize, userOf(req), clock.now());
     await answer(req, res);
   });
 
@@ -139,7 +139,7 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     const row = await loadVisible(req);
     ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
     const input = kegLevelSchema.parse(req.body ?? {});
-    await setKegLevel(db, row.id, input.remainingLiters, req.user!, clock.now());
+    await setKegLevel(db, row.id, input.remainingLiters, userOf(req), clock.now());
     await answer(req, res);
   });
 

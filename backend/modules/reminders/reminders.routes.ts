@@ -5,7 +5,7 @@ import { subject } from '../../../shared/permissions/ability.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { findInvoiceRow } from '../billing/invoices.service.ts';
 import { findKeg, kegMemberId } from '../kegs/kegs.service.ts';
 import { overdueInvoices, remindAllOverdueInvoices, remindInvoice, remindKeg } from './reminders.service.ts';
@@ -33,7 +33,7 @@ export function invoiceRemindersRoutes(deps: Deps): Router {
 
   router.post('/reminders', async (req, res) => {
     can(req).throwUnlessCan('remind', 'Invoice');
-    res.status(201).json(await remindAllOverdueInvoices(deps, req.user!.id, clock.now()));
+    res.status(201).json(await remindAllOverdueInvoices(deps, userOf(req).id, clock.now()));
   });
 
   router.post('/:id/reminders', async (req, res) => {
@@ -42,7 +42,7 @@ export function invoiceRemindersRoutes(deps: Deps): Router {
     const row = await findInvoiceRow(db, id);
     if (!row || row.status === 'draft') throw notFound('Invoice');
     can(req).throwUnlessCan('remind', subject('Invoice', { memberId: row.member_id }));
-    res.status(201).json({ reminder: await remindInvoice(deps, row.id, req.user!.id, clock.now()) });
+    res.status(201).json({ reminder: await remindInvoice(deps, row.id, userOf(req).id, clock.now()) });
   });
 
   return router;
@@ -61,7 +61,7 @@ export function kegRemindersRoutes(deps: Deps): Router {
     const row = await findKeg(db, id, clock.now());
     if (!row || !req.ability.can('read', subject('Keg', { memberId: kegMemberId(row) }))) throw notFound('Keg');
     can(req).throwUnlessCan('remind', subject('Keg', { memberId: kegMemberId(row) }));
-    res.status(201).json({ reminder: await remindKeg(deps, row.id, req.user!.id, clock.now()) });
+    res.status(201).json({ reminder: await remindKeg(deps, row.id, userOf(req).id, clock.now()) });
   });
 
   return router;

@@ -11,7 +11,7 @@ import {
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { loadAuditData, renderAuditPdfOffThread } from './audit-report.ts';
 import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
@@ -25,7 +25,7 @@ export function sanitationCycleRoutes({ db, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'SanitationCycle');
     const input = createSanitationCycleSchema.parse(req.body ?? {});
-    const result = await recordCycle(db, input, req.user!, clock.now());
+    const result = await recordCycle(db, input, userOf(req), clock.now());
     res.status(201).json(result);
   });
 
@@ -49,7 +49,7 @@ export function sanitationCycleRoutes({ db, clock }: Deps): Router {
     const id = z.uuid().safeParse(req.params.id);
     if (!id.success) throw notFound('Sanitation cycle');
     const input = continueSanitationCycleSchema.parse(req.body ?? {});
-    res.json(await continueCycle(db, id.data, input, req.user!, clock.now()));
+    res.json(await continueCycle(db, id.data, input, userOf(req), clock.now()));
   });
 
   return router;

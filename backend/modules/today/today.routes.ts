@@ -3,7 +3,7 @@ import { subject } from '../../../shared/permissions/ability.ts';
 import type { Today } from '../../../shared/schemas/today.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile } from '../billing/billing-profile.service.ts';
 import { memberBalance } from '../billing/invoices.service.ts';
 import { billingSummary } from '../billing/reports.service.ts';
@@ -15,7 +15,7 @@ export function todayRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
   router.get('/', async (req, res) => {
-    const user = req.user!;
+    const user = userOf(req);
     const ability = req.ability;
     const now = clock.now();
     const out: Today = { generatedAt: now.toISOString() };

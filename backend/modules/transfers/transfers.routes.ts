@@ -6,7 +6,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { listTransfers, recordTransfer, transferCandidates, transferViews } from './transfers.service.ts';
 
 /** `/api/transfers`: beer from a fermenter into kegs, recorded on the brewer-on-duty's checklist. */
@@ -18,13 +18,13 @@ export function transfersRoutes({ db, clock }: Deps): Router {
   router.post('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'Transfer');
     const input = createTransferSchema.parse(req.body ?? {});
-    res.status(201).json(await recordTransfer(db, input, req.user!, clock.now()));
+    res.status(201).json(await recordTransfer(db, input, userOf(req), clock.now()));
   });
 
   router.get('/', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Transfer');
     const q = transferListQuerySchema.parse(req.query);
-    res.json(await listTransfers(db, q, canAll(req.ability, 'read', 'Transfer') ? undefined : req.user!.id));
+    res.json(await listTransfers(db, q, canAll(req.ability, 'read', 'Transfer') ? undefined : userOf(req).id));
   });
 
   /** What the transfer screen offers: batches still in a fermenter. */

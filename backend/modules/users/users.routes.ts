@@ -7,7 +7,7 @@ import type { Deps } from '../../lib/deps.ts';
 import { conflict, notFound } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser } from '../../middleware/authenticate.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { findUserForUpdate, inviteUser, listUsers, updateUser } from './users.service.ts';
 
 export function usersRoutes({ db, config, queue, clock }: Deps): Router {
@@ -19,13 +19,13 @@ export function usersRoutes({ db, config, queue, clock }: Deps): Router {
     const q = userListQuerySchema.parse(req.query);
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'User');
     // Someone who may read only their own account sees only that row.
-    res.json(await listUsers(db, q, canAll(req.ability, 'read', 'User') ? undefined : req.user!.id));
+    res.json(await listUsers(db, q, canAll(req.ability, 'read', 'User') ? undefined : userOf(req).id));
   });
 
   router.post('/invitations', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'User');
     const input = inviteUserSchema.parse(req.body ?? {});
-    const actor = req.user!;
+    const actor = userOf(req);
     const { user, token } = await inviteUser(db, input, actor);
     const link = `${config.publicUrl}/invitation?token=${token}`;
     await enqueueMail(queue, {
@@ -43,7 +43,7 @@ export function usersRoutes({ db, config, queue, clock }: Deps): Router {
     const input = updateUserSchema.parse(req.body ?? {});
     // Roles and activation are the manager's alone.
     if (input.roles !== undefined || input.isActive !== undefined) ForbiddenError.from(req.ability).throwUnlessCan('manage', 'User');
-    const actor = req.user!;
+    const actor = userOf(req);
     if (target.id === actor.id && (input.isActive === false || (input.roles && !input.roles.includes('admin') && target.roles.includes('admin')))) {
       throw conflict('You cannot deactivate yourself or take away your own admin role; ask another admin.');
     }

@@ -4,6 +4,7 @@ import type { InviteUserInput, UpdateUserInput, UserListQuery, User as UserListI
 import { audit } from '../../lib/audit.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { conflict } from '../../lib/http-problem.ts';
+import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { endSessionsOf, issueToken } from '../auth/auth.service.ts';
 
 type Db = Deps['db'];
@@ -23,21 +24,16 @@ export async function listUsers(db: Db, q: UserListQuery, onlyId?: string): Prom
   let base = db.selectFrom('app_user');
   if (onlyId) base = base.where('id', '=', onlyId);
   if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    const like = containsPattern(q.q);
     base = base.where((eb) => eb.or([eb('name', 'ilike', like), eb('email', 'ilike', like)]));
   }
   if (q.role) base = base.where(sql<boolean>`${q.role} = any(roles)`);
   if (q.active !== undefined) base = base.where('is_active', '=', q.active);
-  const [{ total }, rows] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base
-      .select(['id', 'email', 'name', 'roles', 'is_active', 'last_login_at', 'created_at'])
-      .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-      .orderBy('id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
+  const { rows, total } = await paginate(
+    base,
+    (qb) => orderByAllowed(qb.select(['id', 'email', 'name', 'roles', 'is_active', 'last_login_at', 'created_at']), sortColumns, q),
+    q,
+  );
   return {
     items: rows.map((r) => ({
       id: r.id,

@@ -1,0 +1,54 @@
+import { sql, type SelectQueryBuilder } from 'kysely';
+
+/** The page a list asks for, as every list query schema gives it (`shared/schemas/pagination.ts`). */
+export interface PageRequest {
+  page: number;
+  pageSize: number;
+}
+
+/** A sort request checked against a list's allow-list: the key a client may send, and the SQL column it means. */
+export interface SortRequest<K extends string> {
+  sort: K;
+  order: 'asc' | 'desc';
+}
+
+/**
+ * A `LIKE`/`ILIKE` pattern that finds `text` anywhere, with `%`, `_` and the escape character taken literally
+ * (PostgreSQL's default escape is the backslash).
+ */
+export function containsPattern(text: string): string {
+  return `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+}
+
+/**
+ * Orders a query by a column from the list's allow-list (`columns` maps what a client may send to the SQL
+ * expression), nulls last either way, then by `tieBreaker` so pages never repeat or skip a row.
+ */
+export function orderByAllowed<DB, TB extends keyof DB, O, K extends string>(
+  qb: SelectQueryBuilder<DB, TB, O>,
+  columns: Readonly<Record<K, string>>,
+  { sort, order }: SortRequest<K>,
+  tieBreaker = 'id',
+): SelectQueryBuilder<DB, TB, O> {
+  const column = columns[sort];
+  return qb.orderBy(sql.ref(column), (ob) => (order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast())).orderBy(sql.ref(tieBreaker));
+}
+
+/**
+ * One page of a filtered query and the count of all its rows, run side by side.
+ * `base` carries the joins and filters and selects nothing; `rows` adds the selection and the order.
+ */
+export async function paginate<DB, TB extends keyof DB, O>(
+  base: SelectQueryBuilder<DB, TB, object>,
+  rows: (qb: SelectQueryBuilder<DB, TB, object>) => SelectQueryBuilder<DB, TB, O>,
+  { page, pageSize }: PageRequest,
+): Promise<{ rows: O[]; total: number }> {
+  const [counted, list] = await Promise.all([
+    base.select(sql<number>`count(*)::int`.as('total')).executeTakeFirstOrThrow(),
+    rows(base)
+      .limit(pageSize)
+      .offset((page - 1) * pageSize)
+      .execute(),
+  ]);
+  return { rows: list, total: (counted as { total: number }).total };
+}
