@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelsOf, valuesOf } from './labelled-enum.ts';
 import { allergenListSchema } from '../cellar/trace.ts';
 import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
@@ -8,17 +9,16 @@ import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from '.
  * field names its unit.
  */
 
-export const batchStatuses = ['planned', 'fermenting', 'conditioning', 'packaged', 'discarded'] as const;
-export const batchStatusSchema = z.enum(batchStatuses);
-export type BatchStatus = z.infer<typeof batchStatusSchema>;
-
-export const batchStatusLabels: Record<BatchStatus, string> = {
+export const batchStatusLabels = {
   planned: 'Planned',
   fermenting: 'Fermenting',
   conditioning: 'Conditioning',
   packaged: 'Packaged',
   discarded: 'Discarded',
-};
+} as const;
+export const batchStatuses = valuesOf(batchStatusLabels);
+export const batchStatusSchema = z.enum(batchStatuses);
+export type BatchStatus = z.infer<typeof batchStatusSchema>;
 
 /** Where a batch may go from each status (a packaged or discarded batch is closed). */
 export const nextBatchStatuses: Record<BatchStatus, readonly BatchStatus[]> = {

@@ -1,18 +1,13 @@
 import { z } from 'zod';
+import { labelsOf, valuesOf } from './labelled-enum.ts';
 import type { EquipmentKind } from './equipment.ts';
 import { equipmentKindSchema } from './equipment.ts';
 import { queryBooleanSchema, sortableListQuerySchema } from './pagination.ts';
 
-export const bookingStates = ['booked', 'in_use', 'finished', 'cancelled'] as const;
+export const bookingStateLabels = labelsOf({ booked: 'Booked', in_use: 'In use', finished: 'Finished', cancelled: 'Cancelled' });
+export const bookingStates = valuesOf(bookingStateLabels);
 export const bookingStateSchema = z.enum(bookingStates);
 export type BookingState = z.infer<typeof bookingStateSchema>;
-
-export const bookingStateLabels: Record<BookingState, string> = {
-  booked: 'Booked',
-  in_use: 'In use',
-  finished: 'Finished',
-  cancelled: 'Cancelled',
-};
 
 /** An ISO 8601 time with its offset, as the API speaks them. */
 export const isoTimeSchema = z.iso.datetime({ offset: true, message: 'Use an ISO 8601 time with offset, like 2026-12-07T09:00:00Z' });

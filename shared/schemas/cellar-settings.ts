@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelsOf, valuesOf } from './labelled-enum.ts';
 
 /**
  * The co-op's cellar rules, two sections of the Settings screen: the sanitation rules (chemical
@@ -7,16 +8,10 @@ import { z } from 'zod';
  * `carbonation`.
  */
 
-export const sanitationSteps = ['clean', 'rinse', 'sanitize', 'purge'] as const;
+export const sanitationStepLabels = labelsOf({ clean: 'Clean', rinse: 'Rinse', sanitize: 'Sanitize', purge: 'Purge with CO2' });
+export const sanitationSteps = valuesOf(sanitationStepLabels);
 export const sanitationStepSchema = z.enum(sanitationSteps);
 export type SanitationStep = z.infer<typeof sanitationStepSchema>;
-
-export const sanitationStepLabels: Record<SanitationStep, string> = {
-  clean: 'Clean',
-  rinse: 'Rinse',
-  sanitize: 'Sanitize',
-  purge: 'Purge with CO2',
-};
 
 /** Steps that use a chemical from the co-op's list. */
 export const chemicalSteps = ['clean', 'sanitize'] as const;

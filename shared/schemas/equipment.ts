@@ -1,30 +1,24 @@
 import { z } from 'zod';
+import { labelsOf, valuesOf } from './labelled-enum.ts';
 import { lineMaterials } from '../brewing/index.ts';
 import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
 /** What the cellar holds: every item has a short label code, a kind and a vessel state. */
-export const equipmentKinds = ['fermenter', 'keg', 'tap', 'co2_cylinder'] as const;
+export const equipmentKindLabels = labelsOf({ fermenter: 'Fermenter', keg: 'Keg', tap: 'Tap position', co2_cylinder: 'CO2 cylinder' });
+export const equipmentKinds = valuesOf(equipmentKindLabels);
 export const equipmentKindSchema = z.enum(equipmentKinds);
 export type EquipmentKind = z.infer<typeof equipmentKindSchema>;
 
-export const equipmentKindLabels: Record<EquipmentKind, string> = {
-  fermenter: 'Fermenter',
-  keg: 'Keg',
-  tap: 'Tap position',
-  co2_cylinder: 'CO2 cylinder',
-};
-
-export const vesselStates = ['ready', 'needs_cleaning', 'cleaned', 'holding', 'out_of_service'] as const;
-export const vesselStateSchema = z.enum(vesselStates);
-export type VesselState = z.infer<typeof vesselStateSchema>;
-
-export const vesselStateLabels: Record<VesselState, string> = {
+export const vesselStateLabels = {
   ready: 'Ready',
   needs_cleaning: 'Needs cleaning',
   cleaned: 'Cleaned',
   holding: 'Holding',
   out_of_service: 'Out of service',
-};
+} as const;
+export const vesselStates = valuesOf(vesselStateLabels);
+export const vesselStateSchema = z.enum(vesselStates);
+export type VesselState = z.infer<typeof vesselStateSchema>;
 
 /** The code printed on an item's label: a letter or two, a dash, digits (`F-07`, `K-031`, `T-3`, `C-1`). */
 export const equipmentCodeSchema = z

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelsOf, valuesOf } from './labelled-enum.ts';
 import type { EquipmentKind } from './equipment.ts';
 import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
@@ -8,16 +9,15 @@ import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
  * kind failed, is blocked: it cannot be filled, carbonated, booked or connected to the gas line until a
  * passing inspection is recorded.
  */
-export const inspectionKinds = ['pressure_test', 'relief_valve', 'seals', 'hydrostatic_test'] as const;
-export const inspectionKindSchema = z.enum(inspectionKinds);
-export type InspectionKind = z.infer<typeof inspectionKindSchema>;
-
-export const inspectionKindLabels: Record<InspectionKind, string> = {
+export const inspectionKindLabels = {
   pressure_test: 'Pressure test',
   relief_valve: 'Relief-valve check',
   seals: 'O-rings and seals replaced',
   hydrostatic_test: 'Hydrostatic test',
-};
+} as const;
+export const inspectionKinds = valuesOf(inspectionKindLabels);
+export const inspectionKindSchema = z.enum(inspectionKinds);
+export type InspectionKind = z.infer<typeof inspectionKindSchema>;
 
 /** Which inspections each kind of equipment takes (taps take none). */
 export const inspectionKindsByEquipment: Record<EquipmentKind, readonly InspectionKind[]> = {
