@@ -9,13 +9,13 @@ import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from '.
  * field names its unit.
  */
 
-export const batchStatusLabels = {
+export const batchStatusLabels = labelsOf({
   planned: 'Planned',
   fermenting: 'Fermenting',
   conditioning: 'Conditioning',
   packaged: 'Packaged',
   discarded: 'Discarded',
-} as const;
+});
 export const batchStatuses = valuesOf(batchStatusLabels);
 export const batchStatusSchema = z.enum(batchStatuses);
 export type BatchStatus = z.infer<typeof batchStatusSchema>;

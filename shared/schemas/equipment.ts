@@ -9,13 +9,13 @@ export const equipmentKinds = valuesOf(equipmentKindLabels);
 export const equipmentKindSchema = z.enum(equipmentKinds);
 export type EquipmentKind = z.infer<typeof equipmentKindSchema>;
 
-export const vesselStateLabels = {
+export const vesselStateLabels = labelsOf({
   ready: 'Ready',
   needs_cleaning: 'Needs cleaning',
   cleaned: 'Cleaned',
   holding: 'Holding',
   out_of_service: 'Out of service',
-} as const;
+});
 export const vesselStates = valuesOf(vesselStateLabels);
 export const vesselStateSchema = z.enum(vesselStates);
 export type VesselState = z.infer<typeof vesselStateSchema>;

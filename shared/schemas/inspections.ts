@@ -9,12 +9,12 @@ import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
  * kind failed, is blocked: it cannot be filled, carbonated, booked or connected to the gas line until a
  * passing inspection is recorded.
  */
-export const inspectionKindLabels = {
+export const inspectionKindLabels = labelsOf({
   pressure_test: 'Pressure test',
   relief_valve: 'Relief-valve check',
   seals: 'O-rings and seals replaced',
   hydrostatic_test: 'Hydrostatic test',
-} as const;
+});
 export const inspectionKinds = valuesOf(inspectionKindLabels);
 export const inspectionKindSchema = z.enum(inspectionKinds);
 export type InspectionKind = z.infer<typeof inspectionKindSchema>;
