@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { labelsOf, valuesOf } from './labelled-enum.ts';
 import { lineMaterials } from '../brewing/index.ts';
-import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
+import { idListSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
 /** What the cellar holds: every item has a short label code, a kind and a vessel state. */
 export const equipmentKindLabels = labelsOf({ fermenter: 'Fermenter', keg: 'Keg', tap: 'Tap position', co2_cylinder: 'CO2 cylinder' });
@@ -135,15 +135,13 @@ export type EquipmentListQuery = z.infer<typeof equipmentListQuerySchema>;
 /** `GET /api/equipment/labels.pdf?ids=a,b,c` (or `ids` repeated); at most one sheet set of 240 labels. */
 export const maxLabels = 240;
 export const labelSheetQuerySchema = z.object({
-  ids: z
-    .union([z.string(), z.array(z.string())])
-    .transform((v) =>
-      (Array.isArray(v) ? v : [v])
-        .flatMap((s) => s.split(','))
-        .map((s) => s.trim())
-        .filter(Boolean),
-    )
-    .pipe(z.array(z.uuid('Each id must be an equipment id')).min(1, 'Pick at least one item').max(maxLabels, `At most ${maxLabels} labels at once`)),
+  ids: idListSchema({
+    each: 'Each id must be an equipment id',
+    min: 1,
+    tooFew: 'Pick at least one item',
+    max: maxLabels,
+    tooMany: `At most ${maxLabels} labels at once`,
+  }),
 });
 
 /** One item as lists and pages show it. Times are ISO 8601 strings. */

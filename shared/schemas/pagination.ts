@@ -60,3 +60,19 @@ export const queryBooleanSchema = z
   .enum(['true', 'false'])
   .transform((value) => value === 'true')
   .optional();
+
+/**
+ * Ids in a query string: the parameter repeated, a comma list, or both (`?id=a&id=b,c`); blanks dropped,
+ * each a UUID, at least `min` and at most `max` of them.
+ */
+export function idListSchema({ each, min = 0, tooFew, max, tooMany }: { each: string; min?: number; tooFew?: string; max: number; tooMany?: string }) {
+  return z
+    .union([z.string(), z.array(z.string())])
+    .transform((v) =>
+      (Array.isArray(v) ? v : [v])
+        .flatMap((s) => s.split(','))
+        .map((s) => s.trim())
+        .filter(Boolean),
+    )
+    .pipe(z.array(z.uuid(each)).min(min, tooFew).max(max, tooMany));
+}

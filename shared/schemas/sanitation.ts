@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { sanitationStepSchema, type ConcentrationUnit, type SanitationStep } from './cellar-settings.ts';
-import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
+import { idListSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
 /** A step time: ISO 8601 with an offset. */
 export const isoDateTimeSchema = z.iso.datetime({ offset: true, message: 'Use an ISO 8601 time with offset, e.g. 2026-11-03T09:30:00+00:00' });
@@ -79,15 +79,7 @@ export const sanitationStatusQuerySchema = sortableListQuerySchema(['code', 'sta
   q: searchTextSchema,
 });
 
-const idList = z
-  .union([z.string(), z.array(z.string())])
-  .transform((v) =>
-    (Array.isArray(v) ? v : [v])
-      .flatMap((s) => s.split(','))
-      .map((s) => s.trim())
-      .filter(Boolean),
-  )
-  .pipe(z.array(z.uuid('Each vessel must be an equipment id')).max(500));
+const idList = idListSchema({ each: 'Each vessel must be an equipment id', max: 500 });
 
 /** `GET /api/reports/sanitation-audit.pdf?from&to&equipmentId` (equipmentId may repeat or be a comma list; none means every vessel). */
 export const sanitationAuditQuerySchema = z
