@@ -78,6 +78,23 @@ export default tseslint.config(
     },
   },
   {
+    // Routes parse, authorise, call a service and respond; the SQL and its transactions live in services and repositories.
+    files: ['backend/modules/billing/**/*.routes.ts'],
+    rules: {
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector: 'CallExpression[callee.property.name=/^(selectFrom|insertInto|updateTable|deleteFrom|transaction)$/]',
+          message: 'Routes call services; repositories hold the SQL and services the transactions.',
+        },
+        {
+          selector: "TaggedTemplateExpression[tag.name='sql'], CallExpression[callee.object.name='sql']",
+          message: 'Routes call services; repositories hold the SQL.',
+        },
+      ],
+    },
+  },
+  {
     files: ['**/*.js'],
     ...tseslint.configs.disableTypeChecked,
   },

@@ -17,16 +17,18 @@ import { batchesRoutes } from './modules/batches/batches.routes.ts';
 import { productionRecordsRoutes } from './modules/batches/production-records.routes.ts';
 import { traceReportRoutes } from './modules/batches/trace.routes.ts';
 import { readingsRoutes } from './modules/batches/readings.routes.ts';
-import {
-  billingRoutes,
-  creditNotesRoutes,
-  invoiceRunsRoutes,
-  invoicesRoutes,
-  manualChargesRoutes,
-  paymentWebhookRoutes,
-  pricesRoutes,
-  taxRatesRoutes,
-} from './modules/billing/billing.routes.ts';
+import { billingExportsRoutes } from './modules/billing/billing-exports.routes.ts';
+import { billingProfileRoutes } from './modules/billing/billing-profile.routes.ts';
+import { billingReportsRoutes } from './modules/billing/billing-reports.routes.ts';
+import { creditNotesRoutes, invoiceCreditsRoutes } from './modules/billing/credit-notes.routes.ts';
+import { invoiceRunsRoutes } from './modules/billing/invoice-runs.routes.ts';
+import { invoicesRoutes } from './modules/billing/invoices.routes.ts';
+import { manualChargesRoutes } from './modules/billing/manual-charges.routes.ts';
+import { overpaymentsRoutes } from './modules/billing/overpayments.routes.ts';
+import { paymentWebhookRoutes } from './modules/billing/payment-webhook.routes.ts';
+import { paymentsRoutes } from './modules/billing/payments.routes.ts';
+import { pricesRoutes } from './modules/billing/prices.routes.ts';
+import { taxRatesRoutes } from './modules/billing/tax-rates.routes.ts';
 import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
 import { calendarFeedPublicRoutes, calendarFeedsRoutes } from './modules/calendar/calendar-feed.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
@@ -119,11 +121,17 @@ export function createApp(deps: Deps): Express {
   app.use('/api/reports/trace', traceReportRoutes(deps));
   app.use('/api/invoice-runs', invoiceRunsRoutes(deps));
   app.use('/api/invoices', invoiceRemindersRoutes(deps));
+  // Before the invoices' /:id, so "export" is not taken for an id.
+  app.use('/api/invoices/export', billingExportsRoutes(deps));
   app.use('/api/invoices', invoicesRoutes(deps));
+  app.use('/api/invoices', paymentsRoutes(deps));
+  app.use('/api/invoices', invoiceCreditsRoutes(deps));
   app.use('/api/prices', pricesRoutes(deps));
   app.use('/api/tax-rates', taxRatesRoutes(deps));
   app.use('/api/manual-charges', manualChargesRoutes(deps));
-  app.use('/api/billing', billingRoutes(deps));
+  app.use('/api/billing', billingReportsRoutes(deps));
+  app.use('/api/billing/overpayments', overpaymentsRoutes(deps));
+  app.use('/api/billing/profile', billingProfileRoutes(deps));
   app.use('/api/credit-notes', creditNotesRoutes(deps));
   app.use('/api/webhooks', paymentWebhookRoutes(deps));
   app.use('/api/kegs', kegRemindersRoutes(deps));

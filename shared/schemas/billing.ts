@@ -200,14 +200,16 @@ export interface InvoiceSummary {
   lastRemindedAt: string | null;
 }
 
-export interface InvoiceLine {
-  id: string;
-  position: number;
+/** A charge as one line of a bill: what a run's preview shows, and (with its id and place) an invoice line. */
+export interface ChargePreviewLine {
   item: LineItem;
   description: string;
+  /** The record it comes from ('booking', 'membership', 'manual_charge', …) and its id. */
   sourceType: string;
   sourceId: string;
+  /** How the invoice names the source: "F-07, 12–26 Nov, 14 days". */
   sourceLabel: string;
+  /** First and last day of use covered (inclusive). */
   serviceFrom: string;
   serviceTo: string;
   quantity: number;
@@ -216,6 +218,11 @@ export interface InvoiceLine {
   amountCents: number;
   taxRateBp: number;
   taxCents: number;
+}
+
+export interface InvoiceLine extends ChargePreviewLine {
+  id: string;
+  position: number;
 }
 
 export interface Payment {
@@ -264,22 +271,6 @@ export interface InvoiceDetail extends InvoiceSummary {
   lines: InvoiceLine[];
   payments: Payment[];
   creditNotes: CreditNote[];
-}
-
-export interface ChargePreviewLine {
-  item: LineItem;
-  description: string;
-  sourceType: string;
-  sourceId: string;
-  sourceLabel: string;
-  serviceFrom: string;
-  serviceTo: string;
-  quantity: number;
-  unit: string;
-  unitPriceCents: number;
-  amountCents: number;
-  taxRateBp: number;
-  taxCents: number;
 }
 
 export interface InvoicePreview {

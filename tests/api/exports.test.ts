@@ -116,7 +116,7 @@ const exportsList = () => [
 
 /** The files in backend/ that send a download (`.attachment(`): each must be one of the exports above. */
 const exportSources = {
-  'modules/billing/billing.routes.ts': 2,
+  'modules/billing/billing-exports.routes.ts': 2,
   'modules/batches/production-records.routes.ts': 2,
   'modules/batches/readings.routes.ts': 2,
   'modules/batches/trace.routes.ts': 2,

@@ -35,3 +35,8 @@ export async function coopToday(db: Database, now: Date): Promise<{ today: strin
   const timeZone = await coopTimeZone(db);
   return { today: todayIn(timeZone, now), timeZone };
 }
+
+/** Replaces the billing profile, audited, in one transaction. */
+export async function saveBillingProfile(db: Database, profile: BillingProfile, actorId: string): Promise<BillingProfile> {
+  return db.transaction().execute((trx) => putBillingProfile(trx, profile, actorId));
+}

@@ -4,11 +4,16 @@ import { sumLines } from '../../../shared/billing/money.ts';
 import type { InvoicePreview, InvoiceRun, InvoiceSummary, RunPreview } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
-import { HttpProblem } from '../../lib/http-problem.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { HttpProblem, notFound } from '../../lib/http-problem.ts';
+import { isUuid } from '../../lib/uuid-params.ts';
 import { coopTimeZone, coopToday, getBillingProfile } from './billing-profile.service.ts';
 import { deriveCharges, type PricedCharge } from './charges/index.ts';
 import type { ChargeContext } from './charges/types.ts';
-import { createInvoice, getSummary, issueInvoice } from './invoices.service.ts';
+import { createInvoice, issueInvoice } from './invoice-commands.service.ts';
+import { sendInvoice } from './invoice-mail.service.ts';
+import { getSummary } from './invoice-queries.service.ts';
+import { findRun, unsentInvoicesOfRun } from './invoice-runs.repository.ts';
 import { PriceBook } from './price-book.ts';
 
 /** Advisory-lock namespace of billing periods. */
@@ -178,4 +183,24 @@ export async function issueRunDrafts(db: Database, runId: string, actorId: strin
     await audit(trx, actorId, 'issued_drafts', 'InvoiceRun', runId, { count: drafts.length });
     return drafts.map((d) => d.id);
   });
+}
+
+async function existingRun(db: Database, runId: string) {
+  const run = isUuid(runId) ? await findRun(db, runId) : undefined;
+  if (!run) throw notFound('Invoice run');
+  return run;
+}
+
+/** Issues every draft of an existing run; returns how many were issued. */
+export async function issueRun(db: Database, runId: string, actorId: string, now: Date): Promise<number> {
+  const run = await existingRun(db, runId);
+  return (await issueRunDrafts(db, run.id, actorId, now)).length;
+}
+
+/** E-mails every issued invoice of an existing run that has not been sent yet; returns how many were queued. */
+export async function sendRun(deps: Deps, runId: string, actorId: string): Promise<number> {
+  const run = await existingRun(deps.db, runId);
+  const unsent = await unsentInvoicesOfRun(deps.db, run.id);
+  for (const inv of unsent) await sendInvoice(deps, inv.id, actorId);
+  return unsent.length;
 }

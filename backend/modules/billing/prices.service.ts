@@ -7,7 +7,7 @@ import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { coopToday } from './billing-profile.service.ts';
 import { priceCharge } from './charges/index.ts';
 import { BILLING_LOCK } from './invoice-runs.service.ts';
-import { appendToDraft } from './invoices.service.ts';
+import { appendToDraft } from './invoice-commands.service.ts';
 import { PriceBook } from './price-book.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
 

@@ -2,6 +2,7 @@ import { sql } from 'kysely';
 import { addDays, dateSpan, daysBetween, maxDate, minDate, shortDate } from '../../../../shared/billing/dates.ts';
 import { priceItemInfo } from '../../../../shared/schemas/billing.ts';
 import { pricedCharge, type ChargeContext, type ChargeDraft, type ChargeSource, type SourceResult } from './types.ts';
+import { chargedMembers, dayOf, localDay } from './window.ts';
 
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
 
@@ -27,16 +28,16 @@ export const bookingCharges: ChargeSource = {
         'e.code',
         'e.kind',
         'e.capacity_liters',
-        sql<string>`((b.starts_at at time zone ${ctx.timeZone})::date)::text`.as('start_date'),
-        sql<string>`((b.ends_at at time zone ${ctx.timeZone})::date)::text`.as('end_date'),
+        localDay(ctx, 'b.starts_at').as('start_date'),
+        localDay(ctx, 'b.ends_at').as('end_date'),
       ])
       .where('b.state', '<>', 'cancelled')
       .where('e.kind', 'in', ['fermenter', 'tap'])
-      .where(sql<boolean>`(b.starts_at at time zone ${ctx.timeZone})::date < ${ctx.next}::date`)
-      .where(sql<boolean>`greatest((b.ends_at at time zone ${ctx.timeZone})::date, (b.starts_at at time zone ${ctx.timeZone})::date + 1) > ${ctx.first}::date`)
+      .where(sql<boolean>`${dayOf(ctx, 'b.starts_at')} < ${ctx.next}::date`)
+      .where(sql<boolean>`greatest(${dayOf(ctx, 'b.ends_at')}, ${dayOf(ctx, 'b.starts_at')} + 1) > ${ctx.first}::date`)
       .orderBy('b.starts_at')
       .orderBy('b.id');
-    if (ctx.memberIds) q = q.where('b.owner_id', 'in', ctx.memberIds.length ? ctx.memberIds : ['00000000-0000-0000-0000-000000000000']);
+    if (ctx.memberIds) q = q.where('b.owner_id', 'in', chargedMembers(ctx));
     const rows = await q.execute();
 
     const charges: ChargeDraft[] = [];

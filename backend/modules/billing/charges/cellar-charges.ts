@@ -3,14 +3,12 @@ import { addDays, dateSpan, daysBetween, maxDate, minDate, shortDate } from '../
 import { priceItemInfo } from '../../../../shared/schemas/billing.ts';
 import type { Database } from '../../../db/database.ts';
 import { pricedCharge, type ChargeContext, type ChargeDraft, type ChargeSource, type SourceResult } from './types.ts';
+import { chargedMembers, dayInPeriod, dayOf, localDay } from './window.ts';
 
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
-const noMember = '00000000-0000-0000-0000-000000000000';
-const members = (ctx: ChargeContext) => (ctx.memberIds?.length ? ctx.memberIds : [noMember]);
 
 /** Each check-out of a keg to a member, with the movement that ended it (if any). */
 async function kegHolds(db: Database, ctx: ChargeContext) {
-  const tz = ctx.timeZone;
   let q = db
     .selectFrom('keg_movement as m')
     .innerJoin('equipment as e', 'e.id', 'm.keg_id')
@@ -32,17 +30,17 @@ async function kegHolds(db: Database, ctx: ChargeContext) {
       sql<string>`m.id::text`.as('id'),
       'm.member_id',
       'e.code',
-      sql<string>`((m.at at time zone ${tz})::date)::text`.as('out_date'),
-      sql<string | null>`((m.due_at at time zone ${tz})::date)::text`.as('due_date'),
-      sql<string | null>`((r.at at time zone ${tz})::date)::text`.as('back_date'),
+      localDay(ctx, 'm.at').as('out_date'),
+      localDay<string | null>(ctx, 'm.due_at').as('due_date'),
+      localDay<string | null>(ctx, 'r.at').as('back_date'),
     ])
     .where('m.action', '=', 'checked_out')
     .where('m.member_id', 'is not', null)
-    .where(sql<boolean>`(m.at at time zone ${tz})::date < ${ctx.next}::date`)
-    .where(sql<boolean>`(r.at is null or (r.at at time zone ${tz})::date >= ${ctx.first}::date)`)
+    .where(sql<boolean>`${dayOf(ctx, 'm.at')} < ${ctx.next}::date`)
+    .where(sql<boolean>`(r.at is null or ${dayOf(ctx, 'r.at')} >= ${ctx.first}::date)`)
     .orderBy('m.at')
     .orderBy('m.id');
-  if (ctx.memberIds) q = q.where('m.member_id', 'in', members(ctx));
+  if (ctx.memberIds) q = q.where('m.member_id', 'in', chargedMembers(ctx));
   return (await q.execute()) as { id: string; member_id: string; code: string; out_date: string; due_date: string | null; back_date: string | null }[];
 }
 
@@ -148,7 +146,6 @@ export const kegFillCharges: ChargeSource = {
   key: 'keg_fills',
   label: 'Keg fills (CO2, keg cleaning)',
   async derive(db, ctx): Promise<SourceResult> {
-    const tz = ctx.timeZone;
     let q = db
       .selectFrom('keg_fill as f')
       .innerJoin('equipment as k', 'k.id', 'f.keg_id')
@@ -164,14 +161,13 @@ export const kegFillCharges: ChargeSource = {
         'b.owner_id',
         'b.name as batch_name',
         'fe.code as from_code',
-        sql<string>`((f.filled_at at time zone ${tz})::date)::text`.as('fill_date'),
-        sql<string | null>`((sc.completed_at at time zone ${tz})::date)::text`.as('cycle_date'),
+        localDay(ctx, 'f.filled_at').as('fill_date'),
+        localDay<string | null>(ctx, 'sc.completed_at').as('cycle_date'),
       ])
-      .where(sql<boolean>`(f.filled_at at time zone ${tz})::date >= ${ctx.first}::date`)
-      .where(sql<boolean>`(f.filled_at at time zone ${tz})::date < ${ctx.next}::date`)
+      .where(dayInPeriod(ctx, 'f.filled_at'))
       .orderBy('f.filled_at')
       .orderBy('f.id');
-    if (ctx.memberIds) q = q.where('b.owner_id', 'in', members(ctx));
+    if (ctx.memberIds) q = q.where('b.owner_id', 'in', chargedMembers(ctx));
     const rows = await q.execute();
     const charges: ChargeDraft[] = [];
     const problems: string[] = [];
@@ -240,7 +236,6 @@ export const finingsCharges: ChargeSource = {
   key: 'finings',
   label: 'Finings at transfers',
   async derive(db, ctx): Promise<SourceResult> {
-    const tz = ctx.timeZone;
     let q = db
       .selectFrom('transfer as t')
       .innerJoin('batch as b', 'b.id', 't.batch_id')
@@ -253,14 +248,13 @@ export const finingsCharges: ChargeSource = {
         'b.owner_id',
         'b.name as batch_name',
         'fe.code as from_code',
-        sql<string>`((t.transferred_at at time zone ${tz})::date)::text`.as('day'),
+        localDay(ctx, 't.transferred_at').as('day'),
       ])
       .where('t.finings_kind', 'is not', null)
-      .where(sql<boolean>`(t.transferred_at at time zone ${tz})::date >= ${ctx.first}::date`)
-      .where(sql<boolean>`(t.transferred_at at time zone ${tz})::date < ${ctx.next}::date`)
+      .where(dayInPeriod(ctx, 't.transferred_at'))
       .orderBy('t.transferred_at')
       .orderBy('t.id');
-    if (ctx.memberIds) q = q.where('b.owner_id', 'in', members(ctx));
+    if (ctx.memberIds) q = q.where('b.owner_id', 'in', chargedMembers(ctx));
     const charges: ChargeDraft[] = [];
     const problems: string[] = [];
     for (const r of await q.execute()) {
@@ -297,9 +291,8 @@ export const fermenterCleaningCharges: ChargeSource = {
   key: 'fermenter_cleaning',
   label: 'Fermenter cleaning after bookings',
   async derive(db, ctx): Promise<SourceResult> {
-    const tz = ctx.timeZone;
     const rows = await sql<{ id: string; code: string; owner_id: string; booking_id: string; day: string }>`
-      select sc.id, e.code, bk.owner_id, bk.id as booking_id, ((sc.completed_at at time zone ${tz})::date)::text as day
+      select sc.id, e.code, bk.owner_id, bk.id as booking_id, ${localDay(ctx, 'sc.completed_at')} as day
       from sanitation_cycle sc
       join equipment e on e.id = sc.equipment_id and e.kind = 'fermenter'
       join lateral (
@@ -308,14 +301,13 @@ export const fermenterCleaningCharges: ChargeSource = {
         order by b.starts_at desc limit 1
       ) bk on true
       where sc.outcome in ('ready', 'cleaned')
-        and (sc.completed_at at time zone ${tz})::date >= ${ctx.first}::date
-        and (sc.completed_at at time zone ${tz})::date < ${ctx.next}::date
+        and ${dayInPeriod(ctx, 'sc.completed_at')}
         and not exists (
           select 1 from sanitation_cycle sc2
           where sc2.equipment_id = sc.equipment_id and sc2.outcome in ('ready', 'cleaned')
             and sc2.started_at >= bk.starts_at and (sc2.started_at, sc2.id) < (sc.started_at, sc.id)
         )
-        ${ctx.memberIds ? sql`and bk.owner_id in (${sql.join(members(ctx))})` : sql``}
+        ${ctx.memberIds ? sql`and bk.owner_id in (${sql.join(chargedMembers(ctx))})` : sql``}
       order by sc.completed_at, sc.id`.execute(db);
     const charges: ChargeDraft[] = [];
     const problems: string[] = [];

@@ -2,6 +2,7 @@ import { sql } from 'kysely';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
 import { priceItemInfo } from '../../../../shared/schemas/billing.ts';
 import type { ChargeDraft, ChargeSource, SourceResult } from './types.ts';
+import { chargedMembers } from './window.ts';
 
 /**
  * Monthly membership dues: every active account holding the member role that existed by the last
@@ -18,7 +19,7 @@ export const duesCharges: ChargeSource = {
       .where(sql<boolean>`'member' = any(roles)`)
       .where(sql<boolean>`(created_at at time zone ${ctx.timeZone})::date <= ${ctx.last}::date`)
       .orderBy('id');
-    if (ctx.memberIds) q = q.where('id', 'in', ctx.memberIds.length ? ctx.memberIds : ['00000000-0000-0000-0000-000000000000']);
+    if (ctx.memberIds) q = q.where('id', 'in', chargedMembers(ctx));
     const members = await q.execute();
     if (members.length === 0) return { charges: [], problems: [] };
     const price = ctx.book.priceOn('membership_month', ctx.first);

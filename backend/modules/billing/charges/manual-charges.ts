@@ -1,4 +1,5 @@
 import type { ChargeDraft, ChargeSource, SourceResult } from './types.ts';
+import { chargedMembers } from './window.ts';
 
 /** Charges and credits the treasurer added by hand for the period, each with its reason, not yet on an invoice. */
 export const manualCharges: ChargeSource = {
@@ -12,7 +13,7 @@ export const manualCharges: ChargeSource = {
       .where('invoice_line_id', 'is', null)
       .orderBy('created_at')
       .orderBy('id');
-    if (ctx.memberIds) q = q.where('member_id', 'in', ctx.memberIds.length ? ctx.memberIds : ['00000000-0000-0000-0000-000000000000']);
+    if (ctx.memberIds) q = q.where('member_id', 'in', chargedMembers(ctx));
     const rows = await q.execute();
     const charges: ChargeDraft[] = rows.map((r) => ({
       memberId: r.member_id,

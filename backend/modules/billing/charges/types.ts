@@ -1,4 +1,4 @@
-import { priceItemInfo, type LineItem, type PriceItem } from '../../../../shared/schemas/billing.ts';
+import { priceItemInfo, type ChargePreviewLine, type PriceItem } from '../../../../shared/schemas/billing.ts';
 import type { Database } from '../../../db/database.ts';
 import type { PriceBook } from '../price-book.ts';
 
@@ -14,22 +14,9 @@ export interface ChargeContext {
   memberIds?: string[];
 }
 
-/** One charge before tax: derived from a record, pointing back to it. */
-export interface ChargeDraft {
+/** One charge before tax: derived from a record, pointing back to it, for a member, at a price (or none). */
+export interface ChargeDraft extends Omit<ChargePreviewLine, 'amountCents' | 'taxRateBp' | 'taxCents'> {
   memberId: string;
-  item: LineItem;
-  description: string;
-  /** The record it comes from ('booking', 'membership', 'manual_charge', …) and its id. */
-  sourceType: string;
-  sourceId: string;
-  /** How the invoice names the source: "F-07, 12–26 Nov, 14 days". */
-  sourceLabel: string;
-  /** First and last day of use covered (inclusive). */
-  serviceFrom: string;
-  serviceTo: string;
-  quantity: number;
-  unit: string;
-  unitPriceCents: number;
   priceId: string | null;
   /** False for a manual charge or credit marked as outside tax. */
   taxable: boolean;

@@ -1,0 +1,25 @@
+import { Router } from 'express';
+import { billingProfileSchema } from '../../../shared/schemas/billing.ts';
+import type { Deps } from '../../lib/deps.ts';
+import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { getBillingProfile, saveBillingProfile } from './billing-profile.service.ts';
+import { can } from './invoice-access.ts';
+
+/** The invoice header and how members pay: `GET/PUT /api/billing/profile`. */
+export function billingProfileRoutes({ db }: Deps): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/', async (req, res) => {
+    can(req).throwUnlessCan('read', 'PriceList');
+    res.json({ profile: await getBillingProfile(db) });
+  });
+
+  router.put('/', async (req, res) => {
+    can(req).throwUnlessCan('update', 'PriceList');
+    const input = billingProfileSchema.parse(req.body ?? {});
+    res.json({ profile: await saveBillingProfile(db, input, userOf(req).id) });
+  });
+
+  return router;
+}
