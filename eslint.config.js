@@ -78,6 +78,20 @@ export default tseslint.config(
     },
   },
   {
+    // The cellar's routes parse, authorise and call a service; the SQL and the transactions live below them.
+    files: ['backend/modules/{sanitation,kegs,transfers,carbonation,equipment}/*.routes.ts'],
+    rules: {
+      'no-restricted-syntax': [
+        'error',
+        ...['selectFrom', 'insertInto', 'updateTable', 'deleteFrom', 'transaction'].map((name) => ({
+          selector: `CallExpression[callee.property.name='${name}']`,
+          message: 'Routes call services; repositories hold the SQL and services the transactions.',
+        })),
+        { selector: "TaggedTemplateExpression[tag.name='sql']", message: 'Routes call services; repositories hold the SQL.' },
+      ],
+    },
+  },
+  {
     files: ['**/*.js'],
     ...tseslint.configs.disableTypeChecked,
   },

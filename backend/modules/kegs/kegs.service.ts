@@ -6,7 +6,7 @@ import type { VesselState } from '../../db/tables/cellar.ts';
 import type { KegUndoableAction } from '../../db/tables/cellar-operations.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
-import { effectiveStateSql, freshUntilSql, setVesselState } from '../sanitation/vessel-state.ts';
+import { effectiveStateSql, freshUntilSql, setVesselState } from '../equipment/vessel-state.ts';
 import { beerFacts, defaultShelfLifeSettings, type BestBeforeState } from '../../../shared/cellar/trace.ts';
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
