@@ -30,14 +30,17 @@ import { paymentsRoutes } from './modules/billing/payments.routes.ts';
 import { pricesRoutes } from './modules/billing/prices.routes.ts';
 import { taxRatesRoutes } from './modules/billing/tax-rates.routes.ts';
 import { bookingsRoutes } from './modules/bookings/bookings.routes.ts';
+import { carbonationRoutes } from './modules/carbonation/carbonation.routes.ts';
 import { calendarFeedPublicRoutes, calendarFeedsRoutes } from './modules/calendar/calendar-feed.routes.ts';
 import { mailboxRoutes } from './modules/dev/mailbox.routes.ts';
 import { equipmentRoutes } from './modules/equipment/equipment.routes.ts';
 import { healthRoutes } from './modules/health/health.routes.ts';
+import { kegsRoutes } from './modules/kegs/kegs.routes.ts';
 import { invoiceRemindersRoutes, kegRemindersRoutes } from './modules/reminders/reminders.routes.ts';
-import { mountCellarOperations } from './modules/sanitation/cellar-operations.routes.ts';
+import { sanitationCycleRoutes, sanitationReportRoutes, sanitationStatusRoutes } from './modules/sanitation/sanitation.routes.ts';
 import { settingsRoutes } from './modules/settings/settings.routes.ts';
 import { todayRoutes } from './modules/today/today.routes.ts';
+import { transfersRoutes } from './modules/transfers/transfers.routes.ts';
 import { usersRoutes } from './modules/users/users.routes.ts';
 
 const distDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
@@ -135,7 +138,12 @@ export function createApp(deps: Deps): Express {
   app.use('/api/credit-notes', creditNotesRoutes(deps));
   app.use('/api/webhooks', paymentWebhookRoutes(deps));
   app.use('/api/kegs', kegRemindersRoutes(deps));
-  mountCellarOperations(app, deps);
+  app.use('/api/sanitation-cycles', sanitationCycleRoutes(deps));
+  app.use('/api/sanitation-status', sanitationStatusRoutes(deps));
+  app.use('/api/reports', sanitationReportRoutes(deps));
+  app.use('/api/transfers', transfersRoutes(deps));
+  app.use('/api/kegs', kegsRoutes(deps));
+  app.use('/api/carbonation-plans', carbonationRoutes(deps));
   app.use('/api', apiNotFound);
 
   // The built front end, with client-side routes falling back to index.html.

@@ -1,7 +1,8 @@
 import type { Deps } from './lib/deps.ts';
 import { createTransport, deliverMail, type OutgoingMail } from './lib/mailer.ts';
 import { advanceBookingStates } from './modules/bookings/bookings.service.ts';
-import { startCellarWorkers } from './modules/sanitation/cellar-workers.ts';
+import { startCarbonationWorkers } from './modules/carbonation/carbonation.workers.ts';
+import { startEquipmentWorkers } from './modules/equipment/equipment.workers.ts';
 
 /** Registers the queue workers; every instance may run them, pg-boss hands each job to one. */
 export async function startWorkers(deps: Deps): Promise<void> {
@@ -15,6 +16,8 @@ export async function startWorkers(deps: Deps): Promise<void> {
     await advanceBookingStates(db, clock.now());
   });
   await queue.schedule('bookings.advance', '*/5 * * * *');
-  // Cellar: the fast-start reminder to lower the pressure, and lapsing freshness windows.
-  await startCellarWorkers(deps);
+  // Carbonation: the fast-start reminder to lower the pressure.
+  await startCarbonationWorkers(deps);
+  // Equipment: lapsing freshness windows and inspections come due.
+  await startEquipmentWorkers(deps);
 }

@@ -1,7 +1,7 @@
 import PgBoss from 'pg-boss';
 import { CONNECT_TIMEOUT_MS, isDatabaseUnavailable } from '../db/database.ts';
 
-export const queues = ['email.send', 'bookings.advance', 'cellar.carbonation-reminder', 'cellar.periodic'] as const;
+export const queues = ['email.send', 'bookings.advance', 'cellar.carbonation-reminder', 'cellar.periodic', 'carbonation.periodic'] as const;
 
 /**
  * Reports the queue's errors without flooding the log: while the database is down every worker's

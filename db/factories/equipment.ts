@@ -2,7 +2,7 @@ import { sql, type Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { EquipmentTable, EquipmentKind, VesselState } from '../../backend/db/tables/cellar.ts';
 import { nextEquipmentCode } from '../../backend/modules/equipment/equipment.service.ts';
-import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
+import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
 import {
   attributesSchemaByKind,
   type Co2CylinderAttributes,
@@ -103,7 +103,7 @@ export const createCo2Cylinder = (db: Database, o: EquipmentOverrides<'co2_cylin
 
 /**
  * Moves an item to a state at a given time, with the history row, the way cellar operations do
- * (backend/modules/sanitation/vessel-state.ts). No-op when it is already in that state.
+ * (backend/modules/equipment/vessel-state.ts). No-op when it is already in that state.
  */
 export async function setEquipmentState(
   db: Database,

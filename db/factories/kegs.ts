@@ -1,7 +1,7 @@
 import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { KegWhereaboutsTable } from '../../backend/db/tables/cellar-operations.ts';
-import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
+import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
 import { type At, inTransaction, toDate } from './common.ts';
 
 export type KegWhereaboutsRow = Selectable<KegWhereaboutsTable>;

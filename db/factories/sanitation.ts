@@ -2,7 +2,7 @@ import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { SanitationCycleTable, SanitationStepTable } from '../../backend/db/tables/cellar-operations.ts';
 import { sanitationSettings, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.service.ts';
-import { writeStateChange } from '../../backend/modules/sanitation/vessel-state.ts';
+import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
 import { blockingViolations, evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
 import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
 import { type At, inTransaction, MINUTE, toDate } from './common.ts';
@@ -61,7 +61,7 @@ export interface SanitationCycleWithSteps extends SanitationCycleRow {
  * A recorded sanitation cycle on a fermenter or keg, evaluated by shared/cellar/sanitation-rules
  * with the co-op's sanitation settings: the cycle row (outcome, issues, fresh_until), its steps,
  * and the vessel's state set to the outcome at the cycle's end with a history row
- * (writeStateChange from backend/modules/sanitation/vessel-state.ts).
+ * (writeStateChange from backend/modules/equipment/vessel-state.ts).
  */
 export async function createSanitationCycle(db: Database, o: SanitationCycleOverrides): Promise<SanitationCycleWithSteps> {
   if (!o.steps && o.readyAt === undefined) throw new Error('createSanitationCycle: give readyAt or steps');

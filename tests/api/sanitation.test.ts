@@ -4,7 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { applyFreshnessLapses } from '../../backend/modules/sanitation/vessel-state.ts';
+import { applyFreshnessLapses } from '../../backend/modules/equipment/vessel-state.ts';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, createTransfer, createUser, cycleSteps, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { count } from '../helpers/cellar.ts';

@@ -11,7 +11,7 @@ import { csvCell, type ExportCell } from '../../lib/export-cells.ts';
 import { defaultLocale, formatDate, formatDateTime, formatNumber, formatVolume, type FormatContext } from '../../../shared/format/index.ts';
 import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 import { coopName } from '../sanitation/audit-report.ts';
-import { effectiveStateSql } from '../sanitation/vessel-state.ts';
+import { effectiveStateSql } from '../equipment/vessel-state.ts';
 import { loadShelfLifeSettings } from './shelf-life.ts';
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);

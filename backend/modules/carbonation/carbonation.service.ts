@@ -1,7 +1,6 @@
 import type PgBoss from 'pg-boss';
 import { z } from 'zod';
 import { lineMaterials, type LineMaterial } from '../../../shared/brewing/index.ts';
-import { defaultLocale, formatNumber, formatPressure } from '../../../shared/format/index.ts';
 import { checkLine, planCarbonation, PlanError } from '../../../shared/cellar/carbonation-planner.ts';
 import type { CarbonationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { CarbonationPlanView, CreateCarbonationPlanInput, LineCheckView, previewCarbonationPlanSchema } from '../../../shared/schemas/carbonation.ts';
@@ -11,6 +10,7 @@ import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
+import { pressureReminder } from '../mail/templates/pressure-reminder.ts';
 import { getSetting } from '../settings/settings.service.ts';
 
 export const carbonationReminderQueue = 'cellar.carbonation-reminder';
@@ -462,23 +462,15 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
     .where('is_active', '=', true)
     .where((eb) => eb(eb.val('brewer_on_duty'), '=', eb.fn.any('roles')))
     .execute();
-  const serving = Number(claimed.serving_pressure_kpa);
-  const where = claimed.tap_code ? ` (on tap ${claimed.tap_code})` : '';
-  const ctx = { locale: defaultLocale };
-  const bar = formatPressure(serving, { ...ctx, units: 'metric' });
-  const psi = formatPressure(serving, { ...ctx, units: 'us' });
-  const kpa = (v: number) => `${formatNumber(v, 0, ctx)} kPa`;
   for (const b of brewers) {
-    await enqueueMail(queue, {
-      to: b.email,
-      subject: `Lower the pressure on keg ${claimed.code} to ${bar} (${psi})`,
-      text:
-        `Hello ${b.name},\n\nThe fast start on keg ${claimed.code}${where} at ${kpa(Number(claimed.fast_pressure_kpa))} has run its time.\n` +
-        `Turn the regulator down to serving pressure: ${kpa(serving)} (${bar}, ${psi}), ` +
-        `vent the headspace to that pressure, and mark the plan "pressure lowered" in Cellarwright.\n\n` +
-        `Do not shake the keg at high pressure: that easily over-carbonates. Never exceed the keg's or regulator's rated pressure; ` +
-        `CO2 displaces air in the closed cold room, so keep it ventilated and heed its CO2 alarm. Local codes and licensed practice govern.\n`,
+    const mail = pressureReminder({
+      recipientName: b.name,
+      kegCode: claimed.code,
+      tapCode: claimed.tap_code,
+      fastPressureKpa: Number(claimed.fast_pressure_kpa),
+      servingPressureKpa: Number(claimed.serving_pressure_kpa),
     });
+    await enqueueMail(queue, { to: b.email, ...mail });
   }
   return true;
 }

@@ -15,13 +15,13 @@ import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { upcomingBookingsFor } from '../bookings/bookings.service.ts';
 import {
-  changeEquipmentState,
   createEquipment,
   equipmentByIds,
   equipmentHistory,
   findEquipment,
   listEquipment,
   nextEquipmentCode,
+  setEquipmentState,
   updateEquipment,
 } from './equipment.service.ts';
 import { renderLabelSheet } from './labels-pdf.service.ts';
@@ -139,11 +139,13 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Equipment');
     const input = equipmentStateChangeSchema.parse(req.body ?? {});
     const item = await itemOr404(req.params.id);
-    const equipment = await db
-      .transaction()
-      .execute((trx) =>
-        changeEquipmentState(trx, { equipmentId: item.id, toState: input.state, reason: input.reason, actorId: userOf(req).id, at: clock.now() }),
-      );
+    const equipment = await setEquipmentState(db, {
+      equipmentId: item.id,
+      toState: input.state,
+      reason: input.reason,
+      actorId: userOf(req).id,
+      at: clock.now(),
+    });
     res.json({ equipment, history: await equipmentHistory(db, item.id, 20) });
   });
 

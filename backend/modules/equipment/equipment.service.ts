@@ -15,7 +15,7 @@ import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
-import { effectiveStateSql, writeStateChange } from '../sanitation/vessel-state.ts';
+import { effectiveStateSql, writeStateChange } from './vessel-state.ts';
 
 const columns = ['id', 'code', 'kind', 'name', 'capacity_liters', 'state', 'attributes', 'notes', 'state_changed_at', 'created_at', 'updated_at'] as const;
 
@@ -220,6 +220,14 @@ export async function changeEquipmentState(
     reason: change.reason,
   });
   return toEquipmentDto(await selectEquipment(trx, change.at).where('id', '=', current.id).executeTakeFirstOrThrow());
+}
+
+/** A state change asked for by a person (the brewer on duty), in its own transaction. */
+export async function setEquipmentState(
+  db: Database,
+  change: { equipmentId: string; toState: VesselState; reason: string; actorId: string | null; at: Date },
+): Promise<Equipment> {
+  return db.transaction().execute((trx) => changeEquipmentState(trx, change));
 }
 
 export async function equipmentByIds(db: Database, ids: string[], now: Date): Promise<Equipment[]> {

@@ -19,7 +19,7 @@ import { audit } from '../../lib/audit.ts';
 import { conflict, unprocessable } from '../../lib/http-problem.ts';
 import { coopTimeZone } from '../billing/billing-profile.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
-import { writeStateChange } from '../sanitation/vessel-state.ts';
+import { writeStateChange } from './vessel-state.ts';
 
 const FUTURE_SLACK_MS = 10 * 60_000;
 const DAY = 24 * 3600_000;

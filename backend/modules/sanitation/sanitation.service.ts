@@ -16,7 +16,7 @@ import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { drawCo2, purgeGrams } from '../equipment/cylinders.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
-import { effectiveStateSql, freshUntilSql, lapsedSql, setVesselState } from './vessel-state.ts';
+import { effectiveStateSql, freshUntilSql, lapsedSql, setVesselState } from '../equipment/vessel-state.ts';
 
 /** A step may be recorded a little ahead of the server clock (phones drift), not more. */
 const FUTURE_SLACK_MS = 10 * 60_000;

@@ -1,7 +1,7 @@
 import { sql } from 'kysely';
 import type { TodayCellarSection, TodayMemberSection } from '../../../shared/schemas/today.ts';
 import type { Database } from '../../db/database.ts';
-import { effectiveStateSql } from '../sanitation/vessel-state.ts';
+import { effectiveStateSql } from '../equipment/vessel-state.ts';
 import { bestBeforeKegs } from './best-before.ts';
 
 const DAY = 24 * 3600_000;

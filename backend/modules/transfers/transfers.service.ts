@@ -16,7 +16,7 @@ import { conflict, HttpProblem, notFound, unprocessable } from '../../lib/http-p
 import { batchGravityFigures, loadFermentationSettings } from '../batches/figures.ts';
 import { fillBestBefore } from '../batches/shelf-life.ts';
 import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
-import { setVesselState } from '../sanitation/vessel-state.ts';
+import { setVesselState } from '../equipment/vessel-state.ts';
 import { drawCo2 } from '../equipment/cylinders.service.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
 
