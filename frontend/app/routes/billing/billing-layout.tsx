@@ -1,16 +1,10 @@
-import { Link, NavLink, Outlet } from 'react-router-dom';
+import { Link } from 'react-router-dom';
+import { SectionLayout } from '@/components/layouts/section-layout';
 import { buttonClasses } from '@/components/ui/button';
 import { paths } from '@/config/paths';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 import { useSessionUser } from '@/lib/auth';
-import { cn } from '@/utils/cn';
-
-const tabClass = ({ isActive }: { isActive: boolean }) =>
-  cn(
-    '-mb-px inline-flex min-h-11 items-center border-b-2 px-3 text-sm font-medium whitespace-nowrap no-underline hover:no-underline md:min-h-9 pointer-coarse:min-h-11',
-    isActive ? 'border-copper text-ink' : 'border-transparent text-ink-muted hover:border-line-strong hover:text-ink',
-  );
 
 const NotForYou = () => {
   useDocumentTitle('Not for your role');
@@ -33,43 +27,22 @@ const BillingLayout = () => {
   const treasurer = canOnEvery(ability, 'read', 'Invoice');
   const member = Boolean(user?.roles.includes('member'));
   return (
-    <div className="flex flex-col gap-4">
-      <header>
-        <h1 className="text-2xl">Billing</h1>
-        <p className="mt-1 text-ink-muted">
-          {treasurer
-            ? 'What is owed and how old it is, the monthly invoice run, payments, the price list and the ledger for the accountant.'
-            : 'Your invoices, what is left to pay, and paying online.'}
-        </p>
-      </header>
-      <nav aria-label="Billing sections" className="flex flex-wrap gap-x-1 border-b border-line">
-        {treasurer ? (
-          <>
-            <NavLink to={paths.billing} end className={tabClass}>
-              Overview
-            </NavLink>
-            <NavLink to={paths.billingInvoices} className={tabClass}>
-              Invoices
-            </NavLink>
-            <NavLink to={paths.billingRun} className={tabClass}>
-              Run a period
-            </NavLink>
-            <NavLink to={paths.billingPrices} className={tabClass}>
-              Price list
-            </NavLink>
-            <NavLink to={paths.billingExports} className={tabClass}>
-              Exports
-            </NavLink>
-          </>
-        ) : null}
-        {member || !treasurer ? (
-          <NavLink to={paths.myInvoices} className={tabClass}>
-            My invoices
-          </NavLink>
-        ) : null}
-      </nav>
-      <Outlet />
-    </div>
+    <SectionLayout
+      title="Billing"
+      intro={
+        treasurer
+          ? 'What is owed and how old it is, the monthly invoice run, payments, the price list and the ledger for the accountant.'
+          : 'Your invoices, what is left to pay, and paying online.'
+      }
+      tabs={[
+        { to: paths.billing, end: true, label: 'Overview', show: treasurer },
+        { to: paths.billingInvoices, label: 'Invoices', show: treasurer },
+        { to: paths.billingRun, label: 'Run a period', show: treasurer },
+        { to: paths.billingPrices, label: 'Price list', show: treasurer },
+        { to: paths.billingExports, label: 'Exports', show: treasurer },
+        { to: paths.myInvoices, label: 'My invoices', show: member || !treasurer },
+      ]}
+    />
   );
 };
 
