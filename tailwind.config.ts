@@ -22,7 +22,7 @@ export default {
         danger: { DEFAULT: '#b42318', strong: '#8e1b12', soft: '#fbe5e1' },
       },
       fontFamily: {
-        sans: ['"Roboto Flex Variable"', 'system-ui', 'sans-serif'],
+        sans: ['"Roboto Flex"', 'system-ui', 'sans-serif'],
       },
     },
   },

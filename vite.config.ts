@@ -17,7 +17,8 @@ export default defineConfig({
     alias: [{ find: /^@\//, replacement: `${fileURLToPath(new URL('./frontend/', import.meta.url))}` }],
   },
   build: {
-    outDir: 'dist',
+    // The server is built beside it, into dist/server (tsconfig.server.json).
+    outDir: 'dist/app',
     emptyOutDir: true,
   },
   server: { port: 5173, strictPort: true, proxy },

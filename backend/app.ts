@@ -1,11 +1,11 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import type { Deps } from './lib/deps.ts';
+import { projectRoot } from './lib/project-root.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { inputHygiene } from './middleware/input-hygiene.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
@@ -43,7 +43,7 @@ import { todayRoutes } from './modules/today/today.routes.ts';
 import { transfersRoutes } from './modules/transfers/transfers.routes.ts';
 import { usersRoutes } from './modules/users/users.routes.ts';
 
-const distDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
+const distDir = path.join(projectRoot, 'dist', 'app');
 
 /** Builds the Express app; never listens (main.ts does, tests use supertest). */
 export function createApp(deps: Deps): Express {
@@ -146,7 +146,7 @@ export function createApp(deps: Deps): Express {
   app.use('/api/carbonation-plans', carbonationRoutes(deps));
   app.use('/api', apiNotFound);
 
-  // The built front end, with client-side routes falling back to index.html.
+  // The built front end (dist/app, never the built server beside it), with client-side routes falling back to index.html.
   if (fs.existsSync(path.join(distDir, 'index.html'))) {
     app.use(express.static(distDir, { index: false, maxAge: '1h' }));
     app.get('/{*splat}', (_req, res) => res.sendFile(path.join(distDir, 'index.html')));

@@ -1,13 +1,16 @@
 // A PDF render thread of backend/lib/pdf-render.ts. Plain JavaScript so that it starts the same
-// under tsx (the server, benchmarks) and under vitest (whose transforms do not reach threads): it
-// registers tsx's loader itself, then imports the TypeScript module a job names and calls the
+// under tsx (the server, benchmarks), under vitest (whose transforms do not reach threads) and from
+// the built server in dist/server: from the sources it registers tsx's loader itself, then imports
+// the module a job names and calls the
 // export the job names with the job's plain (structured-clone) arguments. Such an export builds
 // the document definition from that data here, header and footer callbacks included, so nothing
 // that is a function ever crosses the thread boundary.
+import fs from 'node:fs';
 import { parentPort } from 'node:worker_threads';
-import { register } from 'tsx/esm/api';
 
-register();
+// From the sources (pdf-render.ts beside this file) the modules jobs name are TypeScript, read through
+// tsx's loader; the built server has them as JavaScript and needs no loader.
+if (fs.existsSync(new URL('./pdf-render.ts', import.meta.url))) (await import('tsx/esm/api')).register();
 
 if (!parentPort) throw new Error('pdf-render.worker.mjs runs only as a worker thread');
 const port = parentPort;

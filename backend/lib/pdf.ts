@@ -1,7 +1,6 @@
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { TDocumentDefinitions } from 'pdfmake/interfaces';
 
 const require = createRequire(import.meta.url);
@@ -14,8 +13,7 @@ const pdfmake = require('pdfmake') as {
   createPdf(doc: TDocumentDefinitions): { getBuffer(): Promise<Buffer> };
 };
 
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
-const fontDir = path.join(root, 'node_modules', 'dejavu-fonts-ttf', 'ttf');
+const fontDir = path.join(path.dirname(require.resolve('dejavu-fonts-ttf/package.json')), 'ttf');
 /**
  * DejaVu Sans Condensed as shipped in TrueType (free licence, see the package): Latin with Latin
  * Extended-A/B, Greek and Cyrillic, the typographic marks (– — › ‘ ’ “ ” …), arrows and maths signs

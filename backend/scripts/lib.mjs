@@ -18,14 +18,17 @@ function run(cmd, args, opts = {}) {
   if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} exited with ${r.status}`);
 }
 
-/** Install npm dependencies when node_modules is missing or older than the lock file. */
+/**
+ * Install npm dependencies when node_modules is missing or older than the lock file; the development
+ * ones too, even with NODE_ENV=production, since the build and the tests need them.
+ */
 export function ensureNodeModules() {
   const marker = path.join(root, 'node_modules', '.package-lock.json');
   const lock = path.join(root, 'package-lock.json');
   const stale = !fs.existsSync(marker) || (fs.existsSync(lock) && fs.statSync(lock).mtimeMs > fs.statSync(marker).mtimeMs + 1000);
   if (!stale) return;
   log('installing npm dependencies…');
-  run('npm', [fs.existsSync(lock) ? 'ci' : 'install', '--no-audit', '--no-fund'], { cwd: root });
+  run('npm', [fs.existsSync(lock) ? 'ci' : 'install', '--include=dev', '--no-audit', '--no-fund'], { cwd: root });
 }
 
 let aptUpdated = false;
@@ -225,6 +228,9 @@ export function superviseChild(
 
 export const tsx = path.join(root, 'node_modules', '.bin', 'tsx');
 export const vite = path.join(root, 'node_modules', '.bin', 'vite');
+export const tsc = path.join(root, 'node_modules', '.bin', 'tsc');
+/** The built server (`npm run build`): backend/, shared/ and db/ as JavaScript, in the sources' layout. */
+export const serverDir = path.join(root, 'dist', 'server');
 
 export function runSync(cmd, args, env = {}) {
   run(cmd, args, { cwd: root, env: { ...process.env, ...env } });

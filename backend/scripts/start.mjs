@@ -1,10 +1,19 @@
-// `npm start`: install what is missing, start PostgreSQL under .data/, migrate, seed the demo co-op
-// once, build the front end, start the local fakes of hosted services and serve the app.
+// `npm start`: install what is missing, build the front end and the server, start PostgreSQL under
+// .data/, migrate, seed the demo co-op once, start the local fakes of hosted services and serve the app,
+// every program the built JavaScript run by plain node. SKIP_BUILD (`npm run dev`) builds nothing and
+// runs the TypeScript sources through tsx instead.
 import fs from 'node:fs';
 import path from 'node:path';
-import { ensureNodeModules, freePort, log, root, runSync, startPostgres, superviseChild, tsx, vite, withDatabase } from './lib.mjs';
+import { ensureNodeModules, freePort, log, root, runSync, serverDir, startPostgres, superviseChild, tsx, withDatabase } from './lib.mjs';
 
 ensureNodeModules();
+
+const built = !process.env.SKIP_BUILD;
+/** The command and arguments that run one of the server's programs (named by its source file). */
+function program(source) {
+  if (!built) return [tsx, [source]];
+  return [process.execPath, ['--enable-source-maps', path.join(serverDir, source.replace(/\.ts$/, '.js'))]];
+}
 
 const started = [];
 let pg = null;
@@ -24,6 +33,7 @@ process.on('SIGINT', () => stopAll(0));
 process.on('SIGTERM', () => stopAll(0));
 
 try {
+  if (built) runSync(process.execPath, [path.join(root, 'backend', 'scripts', 'build.mjs')]);
   let databaseUrl = process.env.DATABASE_URL;
   if (!databaseUrl) {
     const port = Number(process.env.PGPORT_LOCAL ?? (await freePort()));
@@ -50,21 +60,17 @@ try {
   env.PAYMENTS_FAKE_PORT = String(paymentsPort);
 
   log('migrating…');
-  runSync(tsx, ['db/migrate.ts'], env);
+  runSync(...program('db/migrate.ts'), env);
   log('seeding the demo co-op (once)…');
-  runSync(tsx, ['db/seed.ts'], env);
-  if (!process.env.SKIP_BUILD) {
-    log('building the front end…');
-    runSync(vite, ['build', '--logLevel', 'warn']);
-  }
+  runSync(...program('db/seed.ts'), env);
 
   // Each child is started again if it stops on its own (logged, with a growing pause); only Ctrl-C
   // or SIGTERM stops everything.
-  if (fakes) started.push(superviseChild('SMTP fake', tsx, ['backend/fakes/smtp-fake.ts'], env));
+  if (fakes) started.push(superviseChild('SMTP fake', ...program('backend/fakes/smtp-fake.ts'), env));
   if (fs.existsSync(path.join(root, 'backend/fakes/payments-fake.ts'))) {
-    started.push(superviseChild('payment provider fake', tsx, ['backend/fakes/payments-fake.ts'], env));
+    started.push(superviseChild('payment provider fake', ...program('backend/fakes/payments-fake.ts'), env));
   }
-  started.push(superviseChild('server', tsx, ['backend/main.ts'], env));
+  started.push(superviseChild('server', ...program('backend/main.ts'), env));
   // Announce once the server answers its health check.
   const deadline = Date.now() + 60_000;
   for (;;) {

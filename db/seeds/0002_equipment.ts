@@ -4,6 +4,7 @@ import type { EquipmentKind, VesselState } from '../../shared/schemas/equipment.
 import { userId } from './0001_users.ts';
 import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
+import { insertInChunks } from './write.ts';
 
 /** The stable id of a seeded item, by its label code (`F-07`, `K-031`, `T-3`, `C-1`). */
 export const equipmentId = (code: string) => seedId('equipment', code);
@@ -19,37 +20,28 @@ export interface SeedEquipment {
 
 const pad = (n: number, width: number) => String(n).padStart(width, '0');
 
+const fermenter = (code: string, name: string, capacityLiters: number, attributes: Record<string, unknown>, notes: string): SeedEquipment => ({
+  code,
+  kind: 'fermenter',
+  name,
+  capacityLiters,
+  attributes,
+  notes,
+});
+
 function fermenters(): SeedEquipment[] {
   const list: SeedEquipment[] = [];
   for (let i = 1; i <= 12; i++) {
     const code = `F-${pad(i, 2)}`;
     if (i <= 6) {
-      list.push({
-        code,
-        kind: 'fermenter',
-        name: `30 L bucket fermenter ${i}`,
-        capacityLiters: 30,
-        attributes: { style: 'bucket', hasValve: i % 2 === 1 },
-        notes: i % 2 === 1 ? 'Spigot at the bottom; check the seal before filling.' : 'No valve: rack with a siphon.',
-      });
+      const hasValve = i % 2 === 1;
+      const notes = hasValve ? 'Spigot at the bottom; check the seal before filling.' : 'No valve: rack with a siphon.';
+      list.push(fermenter(code, `30 L bucket fermenter ${i}`, 30, { style: 'bucket', hasValve }, notes));
     } else if (i <= 10) {
-      list.push({
-        code,
-        kind: 'fermenter',
-        name: `60 L fermenter ${i - 6}`,
-        capacityLiters: 60,
-        attributes: { style: 'bucket', hasValve: true },
-        notes: 'Bottom valve and a lid with an airlock grommet.',
-      });
+      list.push(fermenter(code, `60 L fermenter ${i - 6}`, 60, { style: 'bucket', hasValve: true }, 'Bottom valve and a lid with an airlock grommet.'));
     } else {
-      list.push({
-        code,
-        kind: 'fermenter',
-        name: `120 L conical ${i - 10}`,
-        capacityLiters: 120,
-        attributes: { style: 'conical', hasValve: true },
-        notes: 'Stainless conical with a dump valve and a racking arm. Pressure-capable lid: use its relief valve.',
-      });
+      const notes = 'Stainless conical with a dump valve and a racking arm. Pressure-capable lid: use its relief valve.';
+      list.push(fermenter(code, `120 L conical ${i - 10}`, 120, { style: 'conical', hasValve: true }, notes));
     }
   }
   return list;
@@ -184,9 +176,5 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       at: cal.at('2026-08-29T15:00:00Z'),
     });
   }
-  for (let i = 0; i < changes.length; i += 200)
-    await db
-      .insertInto('equipment_state_change')
-      .values(changes.slice(i, i + 200))
-      .execute();
+  await insertInChunks(db, 'equipment_state_change', changes, { size: 200 });
 }

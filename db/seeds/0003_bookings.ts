@@ -5,6 +5,7 @@ import { demoUsers, userId } from './0001_users.ts';
 import { equipmentId, rota, seedEquipment } from './0002_equipment.ts';
 import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
+import { insertInChunks } from './write.ts';
 
 const HOUR = 3600_000;
 const DAY = 24 * HOUR;
@@ -228,12 +229,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       updated_at: createdAt,
     };
   });
-  for (let i = 0; i < rows.length; i += 200)
-    await db
-      .insertInto('booking')
-      .values(rows.slice(i, i + 200))
-      .onConflict((oc) => oc.doNothing())
-      .execute();
+  await insertInChunks(db, 'booking', rows, { size: 200, skipExisting: true });
 
   // Each item's states through its bookings, ending at the state it is in today.
   const changes: Change[] = [];
@@ -286,11 +282,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     changes.push({ equipment_id: id, from_state: 'ready', to_state: 'out_of_service', reason: oos.reason, actor_id: actor(), at: oos.at });
     finalState.set(id, { state: 'out_of_service', at: oos.at });
   }
-  for (let i = 0; i < changes.length; i += 200)
-    await db
-      .insertInto('equipment_state_change')
-      .values(changes.slice(i, i + 200))
-      .execute();
+  await insertInChunks(db, 'equipment_state_change', changes, { size: 200 });
   for (const [id, s] of finalState) {
     await db.updateTable('equipment').set({ state: s.state, state_changed_at: s.at, updated_at: s.at }).where('id', '=', id).execute();
   }

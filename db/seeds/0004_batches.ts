@@ -5,6 +5,7 @@ import { defaultFermentationSettings, type BatchStatus } from '../../shared/sche
 import { userId } from './0001_users.ts';
 import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
+import { insertInChunks } from './write.ts';
 
 const HOUR = 3_600_000;
 const DAY = 24 * HOUR;
@@ -213,12 +214,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       .onConflict((oc) => oc.doNothing())
       .execute();
     await db.updateTable('booking').set({ batch_id: id }).where('id', '=', b.id).where('batch_id', 'is', null).execute();
-    for (let i = 0; i < readings.length; i += 2000) {
-      await db
-        .insertInto('reading')
-        .values(readings.slice(i, i + 2000).map((r) => ({ ...r, batch_id: id, created_at: r.taken_at })))
-        .onConflict((oc) => oc.doNothing())
-        .execute();
-    }
+    const rows = readings.map((r) => ({ ...r, batch_id: id, created_at: r.taken_at }));
+    await insertInChunks(db, 'reading', rows, { size: 2000, skipExisting: true });
   }
 }

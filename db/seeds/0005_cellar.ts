@@ -10,6 +10,7 @@ import { userId } from './0001_users.ts';
 import { rota } from './0002_equipment.ts';
 import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
+import { insertInChunks } from './write.ts';
 
 /**
  * The cellar's records for the demo's last three months (September to November 2026 as designed),
@@ -456,6 +457,17 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   const movements: Record<string, unknown>[] = [];
   const whereabouts = new Map<string, Record<string, unknown>>();
   const move = (m: Record<string, unknown>) => movements.push({ note: '', ...m });
+  /** A keg carried from the cellar into the cold room to carbonate. */
+  const intoColdRoom = (kegId: string, actorId: string, at: Date) =>
+    move({
+      keg_id: kegId,
+      action: 'moved',
+      from_whereabouts: 'cellar',
+      to_whereabouts: 'cold_room',
+      actor_id: actorId,
+      at,
+      note: 'Into the cold room to carbonate',
+    });
   const remaining = new Map<string, number>();
 
   // Kegs "returned" in the last week of November are, in this story, partly still on a tap or
@@ -501,15 +513,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const tap = onTap.get(f.keg_id);
     const brewer = pick(rota);
     if (current && tap) {
-      move({
-        keg_id: f.keg_id,
-        action: 'moved',
-        from_whereabouts: 'cellar',
-        to_whereabouts: 'cold_room',
-        actor_id: brewer,
-        at: new Date(f.filled_at.getTime() + HOUR),
-        note: 'Into the cold room to carbonate',
-      });
+      intoColdRoom(f.keg_id, brewer, new Date(f.filled_at.getTime() + HOUR));
       move({
         keg_id: f.keg_id,
         action: 'tapped',
@@ -546,15 +550,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     }
     if (current && !overdue && random() < 0.25) {
       const at = new Date(f.filled_at.getTime() + HOUR);
-      move({
-        keg_id: f.keg_id,
-        action: 'moved',
-        from_whereabouts: 'cellar',
-        to_whereabouts: 'cold_room',
-        actor_id: brewer,
-        at,
-        note: 'Into the cold room to carbonate',
-      });
+      intoColdRoom(f.keg_id, brewer, at);
       whereabouts.set(f.keg_id, {
         keg_id: f.keg_id,
         whereabouts: 'cold_room',
@@ -695,23 +691,12 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
   // ---------------------------------------------------------------------------------------------
   // Write it all.
   // ---------------------------------------------------------------------------------------------
-  const chunk = async <T>(rows: T[], size: number, write: (part: T[]) => Promise<unknown>) => {
-    for (let i = 0; i < rows.length; i += size) await write(rows.slice(i, i + size));
-  };
-  await chunk(cycles, 300, (part) => db.insertInto('sanitation_cycle').values(part).execute());
-  await chunk(steps, 500, (part) =>
-    db
-      .insertInto('sanitation_step')
-      .values(part as never)
-      .execute(),
-  );
-  await chunk(transfers, 200, (part) =>
-    db
-      .insertInto('transfer')
-      .values(part as never)
-      .execute(),
-  );
-  await chunk(
+  await insertInChunks(db, 'sanitation_cycle', cycles);
+  await insertInChunks(db, 'sanitation_step', steps as never, { size: 500 });
+  await insertInChunks(db, 'transfer', transfers as never, { size: 200 });
+  await insertInChunks(
+    db,
+    'keg_fill',
     fills.map((f) => ({
       id: f.id,
       transfer_id: f.transfer_id,
@@ -730,35 +715,18 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       // Recorded with its transfer.
       created_at: new Date(f.filled_at.getTime() + 20 * MIN),
     })),
-    300,
-    (part) => db.insertInto('keg_fill').values(part).execute(),
   );
   for (const b of batchUpdates) {
     await db.updateTable('batch').set({ packaged_liters: b.liters, packaged_at: b.at }).where('id', '=', b.id).execute();
   }
-  await chunk([...whereabouts.values()], 300, (part) =>
-    db
-      .insertInto('keg_whereabouts')
-      .values(part as never)
-      .execute(),
-  );
-  await chunk(movements, 300, (part) =>
-    db
-      .insertInto('keg_movement')
-      .values(part as never)
-      .execute(),
-  );
-  await chunk(plans, 300, (part) =>
-    db
-      .insertInto('carbonation_plan')
-      .values(part as never)
-      .execute(),
-  );
+  await insertInChunks(db, 'keg_whereabouts', [...whereabouts.values()] as never);
+  await insertInChunks(db, 'keg_movement', movements as never);
+  await insertInChunks(db, 'carbonation_plan', plans as never);
 
   // The states: lapses and fresh cycles added, overdue kegs never came back.
   if (deletedChanges.length) await db.deleteFrom('equipment_state_change').where('id', 'in', deletedChanges).execute();
   for (const u of changeUpdates) await db.updateTable('equipment_state_change').set({ from_state: u.from_state }).where('id', '=', u.id).execute();
-  await chunk(newChanges, 300, (part) => db.insertInto('equipment_state_change').values(part).execute());
+  await insertInChunks(db, 'equipment_state_change', newChanges);
   for (const [id, s] of finalStates) {
     if (byId.get(id)!.state === 'out_of_service') continue;
     await db.updateTable('equipment').set({ state: s.state, state_changed_at: s.at, updated_at: s.at }).where('id', '=', id).execute();

@@ -14,6 +14,8 @@ import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.
 import { createFermenter } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 import { TEST_NOW } from '../helpers/time.ts';
+import { binary } from '../helpers/http.ts';
+import { pdfText } from '../helpers/pdf.ts';
 
 // The sanitation audit is laid out on a PDF render thread: while a long report renders, the same
 // app instance keeps answering other requests, and a failure in the thread is a 500 problem.
@@ -101,24 +103,6 @@ beforeAll(async () => {
       .execute();
 });
 afterAll(async () => ctx?.close());
-
-function binary(r: request.Response, cb: (err: Error | null, body: unknown) => void) {
-  const stream = r as unknown as NodeJS.ReadableStream;
-  const chunks: Buffer[] = [];
-  stream.on('data', (c: Buffer) => chunks.push(c));
-  stream.on('end', () => cb(null, Buffer.concat(chunks)));
-}
-
-function pdfText(pdf: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-'));
-  try {
-    const file = path.join(dir, 'report.pdf');
-    fs.writeFileSync(file, pdf);
-    return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
-}
 
 describe('a long sanitation audit renders off the event loop', () => {
   it('answers GET /api/health while a year of the audit is still being laid out', async () => {

@@ -13,6 +13,8 @@ import {
 } from '../../shared/brewing/index.ts';
 import { createBatch, createBooking, createFermenter } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { countReadings } from '../helpers/counts.ts';
+import { binary } from '../helpers/http.ts';
 
 let ctx: TestContext;
 let member: ApiClient;
@@ -40,15 +42,6 @@ async function newBatch(client: ApiClient, body: Record<string, unknown> = {}) {
   const res = await client.post('/api/batches', { name: 'Test amber', style: 'Amber ale', volumeLiters: 23, targetOg: 1.052, targetFg: 1.012, ...body });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body.batch as { id: string; status: string; ownerId: string };
-}
-
-async function readingsCount(batchId: string) {
-  const r = await ctx.db
-    .selectFrom('reading')
-    .select((eb) => eb.fn.countAll<number>().as('n'))
-    .where('batch_id', '=', batchId)
-    .executeTakeFirstOrThrow();
-  return Number(r.n);
 }
 
 describe('creating and changing batches', () => {
@@ -263,7 +256,7 @@ describe('readings and what they say', () => {
     const unit = await member.post(`/api/batches/${b.id}/readings`, { takenAt: '2026-10-02T09:00:00Z', gravity: 1.03, unit: 'oechsle' });
     expect(unit.status).toBe(422);
     expect(unit.body.errors[0].path).toBe('unit');
-    expect(await readingsCount(b.id)).toBe(1);
+    expect(await countReadings(ctx, b.id)).toBe(1);
   });
 
   it('lets the brewer on duty read and add readings on any batch, the treasurer only read, other members nothing', async () => {
@@ -431,14 +424,7 @@ describe('production records', () => {
     expect(parsed.some((r) => r[1] === 'Records pale ale' && r[4] === '57')).toBe(true);
     expect(parsed[parsed.length - 1]![0]).toBe('Note');
 
-    const xlsx = await treasurer
-      .get('/api/production-records?from=2026-10&to=2026-10&format=xlsx')
-      .buffer(true)
-      .parse((res, cb) => {
-        const chunks: Buffer[] = [];
-        res.on('data', (c: Buffer) => chunks.push(c));
-        res.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+    const xlsx = await treasurer.get('/api/production-records?from=2026-10&to=2026-10&format=xlsx').buffer(true).parse(binary);
     expect(xlsx.status).toBe(200);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(xlsx.body as never);

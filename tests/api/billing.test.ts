@@ -1,7 +1,3 @@
-import { execFileSync } from 'node:child_process';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -19,6 +15,8 @@ import {
 } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
+import { pdfText } from '../helpers/pdf.ts';
 
 // Hand-worked examples. The co-op is the test fixture (six members on the rota of dues since August,
 // 8 % tax) as of 1 December 2026, with September and October already billed to its own members on
@@ -50,23 +48,6 @@ async function invoiceOf(memberId: string, period: string): Promise<InvoiceDetai
   expect(res.status).toBe(200);
   return res.body.invoice;
 }
-
-function pdfText(pdf: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-invoice-'));
-  const file = path.join(dir, 'invoice.pdf');
-  fs.writeFileSync(file, pdf);
-  try {
-    return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
-}
-
-const binary = (res: import('superagent').Response, cb: (err: Error | null, body: Buffer) => void) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 beforeAll(async () => {
   ctx = await createTestContext({}, { now: FILE_NOW });

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sendDueReminders } from '../../backend/modules/carbonation/carbonation.service.ts';
-import { batchPool, fullChecklist, kegPool, makeReady } from '../helpers/cellar.ts';
+import { batchPool, fillNewKegs, kegPool } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -22,16 +22,9 @@ const fToC = (f: number) => (f - 32) / 1.8;
 
 async function filledKeg() {
   const batch = await takeBatch();
-  const [keg] = await takeKegs(1);
-  await makeReady(brewer, [keg!.id], ctx.clock);
-  const res = await brewer.post('/api/transfers', {
-    batchId: batch.batchId,
-    fromEquipmentId: batch.fermenterId,
-    toKegIds: [keg!.id],
-    volumeLiters: 19,
-    checklist: fullChecklist,
-  });
-  if (res.status !== 201) throw new Error(JSON.stringify(res.body));
+  const {
+    kegs: [keg],
+  } = await fillNewKegs(ctx, brewer, batch, 1);
   return { keg: keg!, batch };
 }
 

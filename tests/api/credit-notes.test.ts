@@ -1,13 +1,11 @@
-import { execFileSync } from 'node:child_process';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { longDate } from '../../shared/billing/dates.ts';
 import type { InvoiceDetail } from '../../shared/schemas/billing.ts';
 import { createInvoice, createInvoicePayment, createMember, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
+import { pdfText } from '../helpers/pdf.ts';
 
 // A credit note on a part-paid invoice records a credit only, unless the treasurer says the money was paid
 // back and how: then, and only then, a refund is recorded and the credit note's PDF says so.
@@ -37,23 +35,10 @@ async function detail(id: string): Promise<InvoiceDetail> {
   return res.body.invoice;
 }
 
-const binary = (res: import('superagent').Response, cb: (err: Error | null, body: Buffer) => void) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
-
 async function creditNoteText(creditNoteId: string): Promise<string> {
   const res = await treasurer.get(`/api/credit-notes/${creditNoteId}/pdf`).buffer(true).parse(binary);
   expect(res.status).toBe(200);
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-credit-note-'));
-  const file = path.join(dir, 'credit-note.pdf');
-  fs.writeFileSync(file, res.body as Buffer);
-  try {
-    return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
+  return pdfText(res.body as Buffer, { flat: true });
 }
 
 describe('a credit note on a part-paid invoice', () => {

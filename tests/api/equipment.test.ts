@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createBooking, createCo2Cylinder, createFermenter, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureEquipment, fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
 
 let ctx: TestContext;
 /** What this file adds to the fixture's registry (db/fixtures): a second 60 L and 120 L fermenter, and a cylinder numbered past 9. */
@@ -234,11 +235,7 @@ describe('QR label sheets', () => {
     const res = await member
       .get(`/api/equipment/labels.pdf?ids=${picked.map((i) => i.id).join(',')}`)
       .buffer(true)
-      .parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+      .parse(binary);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     const pdf = res.body as Buffer;

@@ -6,6 +6,7 @@ import type { Response } from 'superagent';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createInvoice, createKeg, createManualCharge, createMember, DAY, fillKeg } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
 
 /**
  * Every spreadsheet the API hands out (CSV and XLSX), fetched with member-typed text that begins like
@@ -94,12 +95,6 @@ beforeAll(async () => {
   expect(refund.status).toBe(201);
 });
 afterAll(async () => ctx?.close());
-
-const binary = (res: Response, cb: (err: Error | null, body: Buffer) => void) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 /** Every CSV and XLSX the API serves, with who may fetch it. Kept complete by the check below. */
 const exportsList = () => [

@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DAY, fillKeg } from '../../db/factories/index.ts';
-import { batchPool, fullChecklist, kegPool, makeReady } from '../helpers/cellar.ts';
+import { batchPool, fillNewKegs, kegPool } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -30,20 +30,7 @@ const inDays = (d: number) => new Date(ctx.clock.now().getTime() + d * DAY).toIS
 /** New kegs filled from a new batch through the API. */
 async function filledKegs(n: number) {
   const batch = await takeBatch();
-  const kegs = await takeKegs(n);
-  await makeReady(
-    brewer,
-    kegs.map((k) => k.id),
-    ctx.clock,
-  );
-  const res = await brewer.post('/api/transfers', {
-    batchId: batch.batchId,
-    fromEquipmentId: batch.fermenterId,
-    toKegIds: kegs.map((k) => k.id),
-    volumeLiters: 19 * n,
-    checklist: fullChecklist,
-  });
-  if (res.status !== 201) throw new Error(JSON.stringify(res.body));
+  const { kegs } = await fillNewKegs(ctx, brewer, batch, n);
   return { batch, kegs };
 }
 

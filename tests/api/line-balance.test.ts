@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTap } from '../../db/factories/index.ts';
-import { batchPool, fullChecklist, kegPool, makeReady } from '../helpers/cellar.ts';
+import { batchPool, fillNewKegs, kegPool } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -95,17 +95,9 @@ describe('the line checked in the planner', () => {
     expect(preview.status).toBe(200);
     expect(preview.body.plan.line).toMatchObject({ tapId: tap.id, tubing: 'barrier-3/16', material: 'barrier' });
 
-    const batch = await takeBatch();
-    const [keg] = await takeKegs(1);
-    await makeReady(brewer, [keg!.id], ctx.clock);
-    const filled = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: [keg!.id],
-      volumeLiters: 19,
-      checklist: fullChecklist,
-    });
-    expect(filled.status).toBe(201);
+    const {
+      kegs: [keg],
+    } = await fillNewKegs(ctx, brewer, await takeBatch(), 1);
     const saved = await brewer.post('/api/carbonation-plans', { kegId: keg!.id, ...houseAle, tapId: tap.id, line });
     expect(saved.status).toBe(201);
     const shown = await brewer.get(`/api/carbonation-plans/${saved.body.plan.id}`);

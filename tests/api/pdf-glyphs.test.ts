@@ -19,6 +19,7 @@ import {
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { pdfFont, pdfFontFiles, renderPdf } from '../../backend/lib/pdf.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
 
 // Every PDF embeds the glyphs it prints: text read back from it has no replacement character, every
 // character it prints is in the embedded font, and the marks our texts use (› ° € – and accented
@@ -34,12 +35,6 @@ let ctx: TestContext;
 let treasurer: ApiClient;
 let brewer: ApiClient;
 const made = { invoice: '', creditNote: '', keg: '', batch: '' };
-
-const binary = (res: import('superagent').Response, cb: (err: Error | null, body: Buffer) => void) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-glyphs-'));
 /** The PDF's text, page count and fonts, read back by poppler; kept under /tmp for a look. */

@@ -5,6 +5,7 @@ import { litersToUsBarrels } from '../../shared/brewing/index.ts';
 import { createBatch, createFermenter, createKeg, createKegCheckout, createMember, createTransfer } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
 
 /**
  * The monthly production report on a scenario worked out by hand (three months, litres):
@@ -169,14 +170,7 @@ describe('the monthly production report', () => {
     expect(aug[col('Closing (US bbl)')]).toBe('0.3707');
     expect(rows[rows.length - 1]![0]).toBe('Note');
 
-    const xlsx = await treasurer
-      .get('/api/production-records/export?from=2026-07&to=2026-09&format=xlsx')
-      .buffer(true)
-      .parse((res, cb) => {
-        const chunks: Buffer[] = [];
-        res.on('data', (c: Buffer) => chunks.push(c));
-        res.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+    const xlsx = await treasurer.get('/api/production-records/export?from=2026-07&to=2026-09&format=xlsx').buffer(true).parse(binary);
     expect(xlsx.status).toBe(200);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(xlsx.body as never);

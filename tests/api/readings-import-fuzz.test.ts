@@ -8,6 +8,7 @@ import { loadFermentationSettings } from '../../backend/modules/batches/figures.
 import { importReadings } from '../../backend/modules/batches/readings-import.service.ts';
 import { createBatch } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { countReadings } from '../helpers/counts.ts';
 import { makeZip } from '../helpers/zip.ts';
 
 // Generated files thrown at the reading import: CSVs with random cells, delimiters, quotes, BOMs
@@ -270,15 +271,6 @@ async function materialise(f: FuzzFile & { build?: Parameters<typeof buildXlsx>[
   return f.build ? buildXlsx(f.build) : f.bytes;
 }
 
-async function countReadings(batchId: string) {
-  const r = await ctx.db
-    .selectFrom('reading')
-    .select((eb) => eb.fn.countAll<number>().as('n'))
-    .where('batch_id', '=', batchId)
-    .executeTakeFirstOrThrow();
-  return Number(r.n);
-}
-
 /** What a refusal may never say: a library's or the runtime's own words. */
 const internals =
   /cannot read propert|is not a function|undefined is not|typeerror|rangeerror|invalid (?:block|distance|signature|stored)|unexpected end|end of (?:data|central)|unzip|sax|papa|exceljs|multipart:|\bat \S+\.(?:js|ts|mjs):\d+/i;
@@ -302,7 +294,7 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
         const bytes = await materialise(f);
         const batchId = batchIds[f.batch]!;
         const batch = (await ctx.db.selectFrom('batch').selectAll().where('id', '=', batchId).executeTakeFirstOrThrow()) as unknown as BatchRow;
-        const before = await countReadings(batchId);
+        const before = await countReadings(ctx, batchId);
         files += 1;
         try {
           const result = await importReadings(ctx.db, {
@@ -321,14 +313,14 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
             now: ctx.clock.now(),
           });
           statuses.set(200, (statuses.get(200) ?? 0) + 1);
-          const after = await countReadings(batchId);
+          const after = await countReadings(ctx, batchId);
           expect(after - before, f.kind).toBe(f.dryRun ? 0 : result.imported);
           if (f.dryRun) expect(result.preview).toBeTruthy();
         } catch (err) {
           if (!(err instanceof HttpProblem)) throw err;
           statuses.set(err.status, (statuses.get(err.status) ?? 0) + 1);
           checkRefusal(err.status, { title: err.title, detail: err.detail, errors: err.errors }, f.kind);
-          expect(await countReadings(batchId), f.kind).toBe(before);
+          expect(await countReadings(ctx, batchId), f.kind).toBe(before);
         }
       }),
       { numRuns: Number(process.env.FUZZ_RUNS ?? 850), seed: 20261204 },
@@ -340,7 +332,7 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
       fc.asyncProperty(fuzzFile, async (f) => {
         const bytes = await materialise(f);
         const batchId = batchIds[f.batch]!;
-        const before = await countReadings(batchId);
+        const before = await countReadings(ctx, batchId);
         files += 1;
         let req = member.post(`/api/batches/${batchId}/readings/import${f.dryRun ? '?dryRun=1' : ''}`);
         if (f.mapping !== undefined) req = req.field('mapping', f.mapping);
@@ -349,7 +341,7 @@ describe('fuzzing the reading import', { timeout: 240_000 }, () => {
           contentType: f.name.endsWith('.xlsx') ? 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet' : 'text/csv',
         });
         statuses.set(res.status, (statuses.get(res.status) ?? 0) + 1);
-        const after = await countReadings(batchId);
+        const after = await countReadings(ctx, batchId);
         if (res.status === 200) {
           expect(res.headers['content-type']).toMatch(/application\/json/);
           expect(after - before, f.kind).toBe(f.dryRun ? 0 : res.body.imported);

@@ -10,6 +10,7 @@ import { IMPORT_MAX_CELLS, IMPORT_MAX_COLUMNS, IMPORT_MAX_ROWS, IMPORT_ZIP_LIMIT
 import { ImportPool, importPool } from '../../backend/modules/batches/import-pool.ts';
 import { createBatch } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { countReadings } from '../helpers/counts.ts';
 import { TEST_NOW } from '../helpers/time.ts';
 import { makeZip } from '../helpers/zip.ts';
 
@@ -27,15 +28,6 @@ afterAll(async () => ctx?.close());
 
 async function newBatch(name = 'Limits batch') {
   return (await createBatch(ctx.db, { ownerId: member.user.id, name, style: 'Pale ale', volumeLiters: 23 })).id;
-}
-
-async function countReadings(batchId: string) {
-  const r = await ctx.db
-    .selectFrom('reading')
-    .select((eb) => eb.fn.countAll<number>().as('n'))
-    .where('batch_id', '=', batchId)
-    .executeTakeFirstOrThrow();
-  return Number(r.n);
 }
 
 const importUrl = (batchId: string, dryRun = false) => `/api/batches/${batchId}/readings/import${dryRun ? '?dryRun=1' : ''}`;
@@ -97,7 +89,7 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
     const atLimit = await member.post(importUrl(batchId, true)).attach('file', Buffer.from(readingsCsv(IMPORT_MAX_ROWS)), 'season.csv');
     expect(atLimit.status, JSON.stringify(atLimit.body).slice(0, 300)).toBe(200);
     expect(atLimit.body.preview).toMatchObject({ totalRows: IMPORT_MAX_ROWS, validRows: IMPORT_MAX_ROWS, errorCount: 0 });
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 
   it(`more than ${IMPORT_MAX_COLUMNS} columns in a row, or more than ${IMPORT_MAX_CELLS.toLocaleString('en')} cells`, async () => {
@@ -123,7 +115,7 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
       .getRow(1)
       .getCell(IMPORT_MAX_COLUMNS + 50).value = 'far right';
     expectProblem(await upload(batchId, Buffer.from(await wb.xlsx.writeBuffer()), 'wide.xlsx'), 413, 'Too many columns', /^Row 1 has more than 100 columns/);
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 
   it(`a workbook of more than ${IMPORT_ZIP_LIMITS.maxEntries} entries, refused from its directory in well under a second`, async () => {
@@ -137,7 +129,7 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
     const ms = performance.now() - t0;
     expect(ms).toBeLessThan(5_000); // generous: the refusal itself reads only the directory
     expectProblem(await upload(batchId, makeZip(tiny.slice(0, IMPORT_ZIP_LIMITS.maxEntries + 1)), 'entries.xlsx'), 413, 'Too many workbook entries', detail);
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 
   it('a workbook that unpacks to more than the limit, or far beyond its packed size', async () => {
@@ -163,7 +155,7 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
       'Suspicious workbook',
       `The workbook entry “xl/worksheets/sheet1.xml” unpacks to ${ratio.toLocaleString('en')} times its packed size; a workbook unpacks to at most ${IMPORT_ZIP_LIMITS.maxRatio} times. Save it again as .xlsx, or export it as CSV.`,
     );
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 
   it('a workbook whose entries do not match its directory is unreadable, in our words', async () => {
@@ -190,7 +182,7 @@ describe('limits on the file: a 413 problem naming the limit, nothing written', 
       })(),
     );
     expectProblem(await upload(batchId, real.subarray(0, real.length - 40), 'cut.xlsx'), 415, 'Unsupported file', detail);
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 });
 
@@ -210,7 +202,7 @@ describe('limits on the thread: time and memory', { timeout: 180_000 }, () => {
     } finally {
       importPool.timeLimitMs = limit;
     }
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
     const next = await upload(batchId, goodCsv, 'good.csv');
     expect(next.status, JSON.stringify(next.body)).toBe(200);
     expect(next.body).toEqual({ imported: 2, skipped: 0 });
@@ -303,7 +295,7 @@ describe('the instance keeps answering while the largest file it takes is read',
     expect(latencies.filter((ms) => ms > 100).length, said).toBeLessThanOrEqual(3);
     expect(sorted[9]!, said).toBeLessThan(2_000);
     expectProblem(res, 422, 'Validation failed', new RegExp(`problems in ${IMPORT_MAX_ROWS} rows; nothing was imported\\.$`));
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 });
 
@@ -331,7 +323,7 @@ describe('malformed uploads are 400 problems, never 500', () => {
     expectProblem(none, 400, 'Bad request', 'Send the readings file in the multipart form field “file”.');
     const json = await member.post(importUrl(batchId), { file: goodCsv });
     expectProblem(json, 400, 'Bad request', 'Send the readings file in the multipart form field “file”.');
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
     // The route still takes a good file afterwards.
     expect((await upload(batchId, goodCsv, 'r.csv')).body).toEqual({ imported: 2, skipped: 0 });
   });

@@ -5,6 +5,8 @@ import { correctHydrometer } from '../../shared/brewing/index.ts';
 import { IMPORT_MAX_BYTES } from '../../backend/modules/batches/batches.routes.ts';
 import { createBatch } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { countReadings } from '../helpers/counts.ts';
+import { binary } from '../helpers/http.ts';
 
 let ctx: TestContext;
 let member: ApiClient;
@@ -35,15 +37,6 @@ async function newBatch(client: ApiClient = member, name = 'Import test batch') 
   const batch = await createBatch(ctx.db, { ownerId: client.user.id, name, style: 'Pale ale', volumeLiters: 23 });
   expect(batch.status).toBe('planned');
   return batch.id;
-}
-
-async function countReadings(batchId: string) {
-  const r = await ctx.db
-    .selectFrom('reading')
-    .select((eb) => eb.fn.countAll<number>().as('n'))
-    .where('batch_id', '=', batchId)
-    .executeTakeFirstOrThrow();
-  return Number(r.n);
 }
 
 function upload(
@@ -84,7 +77,7 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
     expect(p.mapping).toMatchObject({ takenAt: 'Taken at', gravity: 'Gravity', unit: 'Unit', temperature: 'Temperature °C', note: 'Note' });
     expect(p.rows[2]).toMatchObject({ row: 4, status: 'ok', note: 'krausen high, smells fine', gravity: 1.035, unit: 'sg' });
     expect(p.rows[3]).toMatchObject({ unit: 'plato', gravity: 7.5 });
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
 
     const res = await upload(member, batchId, goodCsv, 'readings.csv');
     expect(res.status, JSON.stringify(res.body)).toBe(200);
@@ -161,7 +154,7 @@ describe('importing a good CSV', { timeout: 60_000 }, () => {
     expect(r3.body.preview.rows[0].takenAt).toBe('2026-10-07T12:00:00.000Z');
     expect(r3.body.preview.rows[1].takenAt).toBe('2026-10-08T06:00:00.000Z');
     expect((await upload(member, batchId, serials, 'serials.csv')).body.imported).toBe(2);
-    expect(await countReadings(batchId)).toBe(6);
+    expect(await countReadings(ctx, batchId)).toBe(6);
   });
 
   it('reads times without an offset in the time zone the mapping names', async () => {
@@ -228,7 +221,7 @@ describe('importing a good XLSX', () => {
     expect(p.rows[3].gravity).toBe(1.018);
     const res = await upload(member, batchId, buf, 'readings.xlsx');
     expect(res.body).toEqual({ imported: 4, skipped: 0 });
-    expect(await countReadings(batchId)).toBe(4);
+    expect(await countReadings(ctx, batchId)).toBe(4);
   });
 
   it('imports the downloadable templates as they come', async () => {
@@ -236,14 +229,7 @@ describe('importing a good XLSX', () => {
     expect(csv.status).toBe(200);
     expect(csv.headers['content-type']).toMatch(/text\/csv/);
     expect(csv.headers['content-disposition']).toMatch(/readings-template\.csv/);
-    const xlsx = await member
-      .get('/api/readings/template.xlsx')
-      .buffer(true)
-      .parse((res, cb) => {
-        const chunks: Buffer[] = [];
-        res.on('data', (c: Buffer) => chunks.push(c));
-        res.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+    const xlsx = await member.get('/api/readings/template.xlsx').buffer(true).parse(binary);
     expect(xlsx.status).toBe(200);
     const a = await upload(member, await newBatch(), csv.text, 'readings-template.csv');
     expect(a.body, JSON.stringify(a.body)).toEqual({ imported: 3, skipped: 0 });
@@ -288,7 +274,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
       expect(errors[0]).toMatchObject({ row: 2 + lines.length, column, path });
       expect(errors[0]!.message).toMatch(message);
       expect(res.body.detail).toMatch(/nothing was imported/);
-      expect(await countReadings(batchId)).toBe(1);
+      expect(await countReadings(ctx, batchId)).toBe(1);
       // The preview marks the same problem on its row and still writes nothing.
       const preview = await upload(member, batchId, csv, 'bad.csv', { dryRun: true });
       expect(preview.status).toBe(200);
@@ -296,7 +282,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
       expect(marked.status).toBe('error');
       expect(marked.problems[0]).toMatchObject({ column, path });
       expect(preview.body.preview.rows[0].status).toBe('ok');
-      expect(await countReadings(batchId)).toBe(1);
+      expect(await countReadings(ctx, batchId)).toBe(1);
     });
   }
 
@@ -310,7 +296,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
       [3, 'Taken at'],
       [3, 'Unit'],
     ]);
-    expect(await countReadings(batchId)).toBe(1);
+    expect(await countReadings(ctx, batchId)).toBe(1);
   });
 
   it('rejects a quoted field that is never closed', async () => {
@@ -319,7 +305,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
     expect(res.status).toBe(422);
     const errors = res.body.errors as ImportProblem[];
     expect(errors.some((e) => e.row === 3 && /quoted field is not closed/i.test(e.message))).toBe(true);
-    expect(await countReadings(batchId)).toBe(1);
+    expect(await countReadings(ctx, batchId)).toBe(1);
   });
 
   it('rejects a mapping that is not JSON or names a column the file lacks', async () => {
@@ -329,7 +315,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
     const missing = await upload(member, batchId, goodCsv, 'readings.csv', { mapping: { takenAt: 'Timestamp', gravity: 'Gravity' } });
     expect(missing.status).toBe(422);
     expect(missing.body.errors[0]).toMatchObject({ path: 'mapping.takenAt', column: 'Timestamp' });
-    expect(await countReadings(batchId)).toBe(1);
+    expect(await countReadings(ctx, batchId)).toBe(1);
   });
 
   it('rejects a malformed XLSX row the same way', async () => {
@@ -341,7 +327,7 @@ describe('malformed rows: 422 naming row and column, nothing written', () => {
     const res = await upload(member, batchId, buf, 'bad.xlsx');
     expect(res.status).toBe(422);
     expect(res.body.errors[0]).toMatchObject({ row: 3, column: 'Gravity', path: 'gravity' });
-    expect(await countReadings(batchId)).toBe(1);
+    expect(await countReadings(ctx, batchId)).toBe(1);
   });
 });
 
@@ -390,7 +376,7 @@ describe('files that are not readings: 4xx problems, never 500', { timeout: 60_0
     // An old .xls workbook.
     const ole = Buffer.concat([Buffer.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1]), Buffer.alloc(512)]);
     expectProblem(await upload(member, batchId, ole, 'readings.xls'), 415);
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 
   it('no file, or a file in another field, is a 400', async () => {
@@ -403,12 +389,12 @@ describe('files that are not readings: 4xx problems, never 500', { timeout: 60_0
     const big = Buffer.from(`Taken at,Gravity,Unit,Temperature °C,Note\n${line.repeat(Math.ceil((IMPORT_MAX_BYTES + 1024) / line.length))}`);
     expect(big.length).toBeGreaterThan(IMPORT_MAX_BYTES);
     expectProblem(await upload(member, batchId, big, 'big.csv'), 413);
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 
   it('only the owner and the brewer on duty may import', async () => {
     expect((await upload(member2, batchId, goodCsv, 'readings.csv')).status).toBe(404);
     expect((await upload(treasurer, batchId, goodCsv, 'readings.csv')).status).toBe(403);
-    expect(await countReadings(batchId)).toBe(0);
+    expect(await countReadings(ctx, batchId)).toBe(0);
   });
 });

@@ -1,11 +1,9 @@
-import { execFileSync } from 'node:child_process';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createFermenter, createKeg } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
+import { pdfText } from '../helpers/pdf.ts';
 
 /**
  * Checked sanitation (shared/cellar/sanitation-rules.ts `checkSteps`): a step outside the chemical's
@@ -338,21 +336,3 @@ describe('the rules in Settings', () => {
     }
   });
 });
-
-function binary(r: request.Response, cb: (err: Error | null, body: unknown) => void) {
-  const stream = r as unknown as NodeJS.ReadableStream;
-  const chunks: Buffer[] = [];
-  stream.on('data', (c: Buffer) => chunks.push(c));
-  stream.on('end', () => cb(null, Buffer.concat(chunks)));
-}
-
-function pdfText(pdf: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-'));
-  const file = path.join(dir, 'report.pdf');
-  fs.writeFileSync(file, pdf);
-  try {
-    return execFileSync('/usr/bin/pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
-}

@@ -1,14 +1,11 @@
-import { execFileSync } from 'node:child_process';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
-import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyFreshnessLapses } from '../../backend/modules/equipment/vessel-state.ts';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, createTransfer, createUser, cycleSteps, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { count } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
+import { pdfText } from '../helpers/pdf.ts';
 
 let ctx: TestContext;
 let brewer: ApiClient;
@@ -406,21 +403,3 @@ describe('the sanitation audit PDF', () => {
     expect((await brewer.get('/api/reports/sanitation-audit.pdf?from=2026-11-30&to=2026-09-01')).status).toBe(422);
   });
 });
-
-function binary(r: request.Response, cb: (err: Error | null, body: unknown) => void) {
-  const stream = r as unknown as NodeJS.ReadableStream;
-  const chunks: Buffer[] = [];
-  stream.on('data', (c: Buffer) => chunks.push(c));
-  stream.on('end', () => cb(null, Buffer.concat(chunks)));
-}
-
-export function pdfText(pdf: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-pdf-'));
-  const file = path.join(dir, 'report.pdf');
-  fs.writeFileSync(file, pdf);
-  try {
-    return execFileSync('/usr/bin/pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
-}

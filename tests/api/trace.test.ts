@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createKeg, createTap, DAY, setSetting } from '../../db/factories/index.ts';
-import { batchPool, fullChecklist, kegPool, makeReady } from '../helpers/cellar.ts';
+import { batchPool, fillNewKegs } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 import request from 'supertest';
 
@@ -15,7 +15,6 @@ let owner: ApiClient;
 let other: ApiClient;
 let treasurer: ApiClient;
 let admin: ApiClient;
-let takeKegs: ReturnType<typeof kegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 
 beforeAll(async () => {
@@ -27,7 +26,6 @@ beforeAll(async () => {
     ctx.signIn('treasurer@example.org'),
     ctx.signIn('admin@example.org'),
   ]);
-  takeKegs = kegPool(ctx);
   takeBatch = batchPool(ctx);
 });
 afterAll(async () => ctx?.close());
@@ -41,22 +39,8 @@ async function transferred(n: number, finings: { kind: string; amount: number; u
     const res = await owner.patch(`/api/batches/${batch.batchId}`, patch);
     expect(res.status, JSON.stringify(res.body)).toBe(200);
   }
-  const kegs = await takeKegs(n);
-  await makeReady(
-    brewer,
-    kegs.map((k) => k.id),
-    ctx.clock,
-  );
-  const res = await brewer.post('/api/transfers', {
-    batchId: batch.batchId,
-    fromEquipmentId: batch.fermenterId,
-    toKegIds: kegs.map((k) => k.id),
-    volumeLiters: 19 * n,
-    checklist: fullChecklist,
-    finings,
-  });
-  expect(res.status, JSON.stringify(res.body)).toBe(201);
-  return { batch, kegs, transferredAt: new Date(res.body.transfer.transferredAt) };
+  const { kegs, transfer } = await fillNewKegs(ctx, brewer, batch, n, { finings });
+  return { batch, kegs, transferredAt: new Date(transfer.transferredAt) };
 }
 
 describe('best-before stored at fill', () => {

@@ -2,7 +2,7 @@ import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { abv } from '../../shared/brewing/index.ts';
 import { addReadings, createBatch, createKeg, DAY, setSetting } from '../../db/factories/index.ts';
-import { batchPool, count, fullChecklist, kegPool, makeReady, minutesAgo, states } from '../helpers/cellar.ts';
+import { batchPool, count, fullChecklist, kegPool, makeReady, minutesAgo, readyKegPool, states, transferBody } from '../helpers/cellar.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -10,6 +10,7 @@ let brewer: ApiClient;
 let member: ApiClient;
 let treasurer: ApiClient;
 let takeKegs: ReturnType<typeof kegPool>;
+let takeReadyKegs: ReturnType<typeof readyKegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 /** Refused transfers change nothing, so they can all use one batch. */
 let refused: Awaited<ReturnType<ReturnType<typeof batchPool>>>;
@@ -18,6 +19,7 @@ beforeAll(async () => {
   ctx = await createTestContext();
   [brewer, member, treasurer] = await Promise.all([ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org'), ctx.signIn('treasurer@example.org')]);
   takeKegs = kegPool(ctx);
+  takeReadyKegs = readyKegPool(ctx, brewer);
   takeBatch = batchPool(ctx);
   refused = await takeBatch();
 });
@@ -50,21 +52,16 @@ async function snapshot(batchId: string, vesselIds: string[]) {
 describe('a transfer from a fermenter into ready kegs', () => {
   it('fills the kegs with the batch (OG, FG, ABV copied), empties the fermenter and records volumes and loss, in one go', async () => {
     const batch = await takeBatch();
-    const kegs = await takeKegs(2);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
+    const kegs = await takeReadyKegs(2);
+    const res = await brewer.post(
+      '/api/transfers',
+      transferBody(batch, kegs, {
+        volumeLiters: 21,
+        kegVolumesLiters: [10.5, 9.5],
+        checklist: { ...fullChecklist, oxygenPickupNote: 'Bubbles at the keg barb; tightened' },
+        finings: { kind: 'gelatin', amount: 2, unit: 'g' },
+      }),
     );
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: kegs.map((k) => k.id),
-      volumeLiters: 21,
-      kegVolumesLiters: [10.5, 9.5],
-      checklist: { ...fullChecklist, oxygenPickupNote: 'Bubbles at the keg barb; tightened' },
-      finings: { kind: 'gelatin', amount: 2, unit: 'g' },
-    });
     expect(res.status).toBe(201);
     const t = res.body.transfer;
     expect(t).toMatchObject({
@@ -125,22 +122,12 @@ describe('a transfer from a fermenter into ready kegs', () => {
 
   it('shares the volume less the loss evenly when no per-keg volumes are given, and names unconfirmed checklist items', async () => {
     const batch = await takeBatch();
-    const kegs = await takeKegs(3);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(3);
     const { leakChecked: _skip, ...partial } = fullChecklist;
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: kegs.map((k) => k.id),
-      volumeLiters: 50,
-      lossLiters: 2.5,
-      checklist: partial,
-      finings: { kind: 'silica finings', dose: 15 },
-    });
+    const res = await brewer.post(
+      '/api/transfers',
+      transferBody(batch, kegs, { volumeLiters: 50, lossLiters: 2.5, checklist: partial, finings: { kind: 'silica finings', dose: 15 } }),
+    );
     expect(res.status).toBe(201);
     expect(res.body.transfer.kegs.map((k: { volumeLiters: number }) => k.volumeLiters).reduce((a: number, b: number) => a + b, 0)).toBeCloseTo(47.5, 2);
     expect(res.body.transfer.finings).toEqual({ kind: 'silica finings', amount: 15, unit: 'mL' });
@@ -156,13 +143,7 @@ describe('refusals', () => {
     await makeReady(brewer, [kegs[0]!.id], ctx.clock);
     await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', kegs[1]!.id).execute();
     const before = await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId]);
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: kegs.map((k) => k.id),
-      volumeLiters: 20,
-      checklist: fullChecklist,
-    });
+    const res = await brewer.post('/api/transfers', transferBody(batch, kegs, { volumeLiters: 20 }));
     expect(res.status).toBe(409);
     expect(res.headers['content-type']).toMatch(/problem\+json/);
     expect(res.body.detail).toContain(kegs[1]!.code);
@@ -201,21 +182,10 @@ describe('refusals', () => {
 
   it('lets neither a member nor the treasurer record a transfer (403), and nothing is written', async () => {
     const batch = refused;
-    const kegs = await takeKegs(1);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(1);
     const before = await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId]);
     for (const who of [member, treasurer]) {
-      const res = await who.post('/api/transfers', {
-        batchId: batch.batchId,
-        fromEquipmentId: batch.fermenterId,
-        toKegIds: [kegs[0]!.id],
-        volumeLiters: 19,
-        checklist: fullChecklist,
-      });
+      const res = await who.post('/api/transfers', transferBody(batch, [kegs[0]!], { volumeLiters: 19 }));
       expect(res.status).toBe(403);
     }
     expect(await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId])).toEqual(before);
@@ -224,12 +194,7 @@ describe('refusals', () => {
 
   it('validates volumes, kegs and the batch', async () => {
     const batch = refused;
-    const kegs = await takeKegs(2);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(2);
     const base = { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), checklist: fullChecklist };
     const over = await brewer.post('/api/transfers', { ...base, volumeLiters: 20, kegVolumesLiters: [12, 12] });
     expect(over.status).toBe(422);
@@ -256,12 +221,7 @@ describe('refusals', () => {
 describe('all or nothing', () => {
   it('leaves no partial transfer when a write fails mid-way', async () => {
     const batch = await takeBatch();
-    const kegs = await takeKegs(3);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(3);
     const ids = kegs.map((k) => k.id);
     // The database refuses the third keg's fill, after the first two were written in the transaction.
     await sql`create or replace function cw_test_refuse_fill() returns trigger language plpgsql as $$
@@ -296,25 +256,14 @@ describe('all or nothing', () => {
   it('answers 409 and writes nothing when a keg turns out to hold a fill already', async () => {
     const batch = refused;
     const other = await createBatch(ctx.db, { status: 'packaged' });
-    const kegs = await takeKegs(2);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(2);
     // Corrected history left an open fill on a keg that reads as ready.
     await ctx.db
       .insertInto('keg_fill')
       .values({ keg_id: kegs[1]!.id, batch_id: other.id, volume_liters: 5, remaining_liters: 5, filled_at: new Date(ctx.clock.now().getTime() - DAY) })
       .execute();
     const before = await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId]);
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: kegs.map((k) => k.id),
-      volumeLiters: 30,
-      checklist: fullChecklist,
-    });
+    const res = await brewer.post('/api/transfers', transferBody(batch, kegs, { volumeLiters: 30 }));
     expect(res.status).toBe(409);
     expect(await snapshot(batch.batchId, [...kegs.map((k) => k.id), batch.fermenterId])).toEqual(before);
   });
@@ -336,20 +285,9 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
 
   it('answers 422 with the last readings and what the rule needs when the gravity is not stable, and changes nothing', async () => {
     const batch = await fallingBatch();
-    const kegs = await takeKegs(1);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(1);
     const before = await snapshot(batch.batchId, [kegs[0]!.id, batch.fermenterId]);
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: [kegs[0]!.id],
-      volumeLiters: 19,
-      checklist: fullChecklist,
-    });
+    const res = await brewer.post('/api/transfers', transferBody(batch, [kegs[0]!], { volumeLiters: 19 }));
     expect(res.status).toBe(422);
     expect(res.headers['content-type']).toMatch(/problem\+json/);
     expect(res.body).toMatchObject({ title: 'Gravity not stable', code: 'gravity_not_stable' });
@@ -382,26 +320,20 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
 
   it('records the transfer with the reason given, its start and end, and dissolved oxygen at fill and per keg', async () => {
     const batch = await fallingBatch();
-    const kegs = await takeKegs(2);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(2);
     const startedAt = minutesAgo(ctx.clock, 25);
     const endedAt = minutesAgo(ctx.clock, 5);
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: kegs.map((k) => k.id),
-      volumeLiters: 36,
-      checklist: fullChecklist,
-      unstableGravityReason: '  Fermenter needed for the next brew; at target gravity  ',
-      startedAt,
-      endedAt,
-      dissolvedOxygenPpb: 48,
-      kegDissolvedOxygenPpb: [35.5, null],
-    });
+    const res = await brewer.post(
+      '/api/transfers',
+      transferBody(batch, kegs, {
+        volumeLiters: 36,
+        unstableGravityReason: '  Fermenter needed for the next brew; at target gravity  ',
+        startedAt,
+        endedAt,
+        dissolvedOxygenPpb: 48,
+        kegDissolvedOxygenPpb: [35.5, null],
+      }),
+    );
     expect(res.status).toBe(201);
     const t = res.body.transfer;
     expect(t).toMatchObject({
@@ -430,43 +362,19 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
 
   it('stores no reason when the gravity is stable, and no times when none are given', async () => {
     const batch = await takeBatch();
-    const kegs = await takeKegs(1);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
-    const res = await brewer.post('/api/transfers', {
-      batchId: batch.batchId,
-      fromEquipmentId: batch.fermenterId,
-      toKegIds: [kegs[0]!.id],
-      volumeLiters: 19,
-      checklist: fullChecklist,
-      unstableGravityReason: 'Just in case',
-    });
+    const kegs = await takeReadyKegs(1);
+    const res = await brewer.post('/api/transfers', transferBody(batch, [kegs[0]!], { volumeLiters: 19, unstableGravityReason: 'Just in case' }));
     expect(res.status).toBe(201);
     expect(res.body.transfer).toMatchObject({ unstableGravityReason: null, startedAt: null, endedAt: null, dissolvedOxygenPpb: null });
 
     // A start alone: the transfer ends when it is recorded, by the server's clock.
     const batch2 = await takeBatch();
-    const kegs2 = await takeKegs(1);
-    await makeReady(
-      brewer,
-      kegs2.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs2 = await takeReadyKegs(1);
     ctx.clock.freeze();
     try {
       const startedAt = minutesAgo(ctx.clock, 30);
       const now = ctx.clock.now().toISOString();
-      const res2 = await brewer.post('/api/transfers', {
-        batchId: batch2.batchId,
-        fromEquipmentId: batch2.fermenterId,
-        toKegIds: [kegs2[0]!.id],
-        volumeLiters: 19,
-        checklist: fullChecklist,
-        startedAt,
-      });
+      const res2 = await brewer.post('/api/transfers', transferBody(batch2, [kegs2[0]!], { volumeLiters: 19, startedAt }));
       expect(res2.status).toBe(201);
       expect(res2.body.transfer).toMatchObject({ startedAt, endedAt: now, transferredAt: now });
     } finally {
@@ -476,12 +384,7 @@ describe('the stable-gravity guard, start and end times, dissolved oxygen', () =
 
   it('validates the times and the dissolved oxygen, and a refused transfer changes nothing', async () => {
     const batch = refused;
-    const kegs = await takeKegs(2);
-    await makeReady(
-      brewer,
-      kegs.map((k) => k.id),
-      ctx.clock,
-    );
+    const kegs = await takeReadyKegs(2);
     const base = { batchId: batch.batchId, fromEquipmentId: batch.fermenterId, toKegIds: kegs.map((k) => k.id), volumeLiters: 30, checklist: fullChecklist };
     const ids = [...kegs.map((k) => k.id), batch.fermenterId];
     const before = await snapshot(batch.batchId, ids);

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createInvoice, createInvoicePayment, createMember, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { binary } from '../helpers/http.ts';
 
 // Spreadsheets that open right: days are date cells shown as days, amounts are numbers shown in their
 // currency, read back here with a spreadsheet library.
@@ -23,12 +24,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await ctx?.close();
 });
-
-const binary = (res: import('superagent').Response, cb: (err: Error | null, body: Buffer) => void) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 async function workbook(client: ApiClient, url: string): Promise<ExcelJS.Workbook> {
   const res = await client.get(url).buffer(true).parse(binary);

@@ -6,7 +6,7 @@ import { createBatch, createBooking, createInvoice, createKegCheckout, DAY, fill
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { launchBrowser, newAppContext, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, newAppContext, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Every screen a role reaches, at desktop and phone width, checked by axe-core against WCAG 2.1 A and AA.
@@ -84,11 +84,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 /** Waits for the screen to finish loading: no request for a moment and no spinner in the main area. */
 async function settled(page: Page) {

@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createMember } from '../../db/factories/index.ts';
-import { launchBrowser, newAppContext, screenshot, serve } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, newAppContext, screenshot, serve } from '../helpers/browser.ts';
 import { createTestContext, DEMO_PASSWORD, linkFrom, type TestContext } from '../helpers/context.ts';
 
 const lockAt = 20;
@@ -16,11 +16,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const sessionRows = async () => Number((await sql<{ n: string }>`select count(*) as n from session`.execute(ctx.db)).rows[0]!.n);
 const bodyText = async (page: Page) => (await page.textContent('body')) ?? '';

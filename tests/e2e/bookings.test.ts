@@ -2,7 +2,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBooking, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
-import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -38,11 +38,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const signIn = (email: string) => signedInPage(browser, server.url, email);
 

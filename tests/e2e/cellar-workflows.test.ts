@@ -13,7 +13,7 @@ import {
   HOUR,
 } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 // Work finishes where it starts: a transfer from Today, the batch page or the fermenter opens with the
@@ -93,11 +93,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 /** The transfer form is open with the batch chosen. */
 async function formHasBatch(page: Page) {

@@ -4,7 +4,7 @@ import { createBatch, createKegCheckout, DAY, fillKeg } from '../../db/factories
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodLabel } from '../../shared/billing/dates.ts';
 import { formatMoney } from '../../shared/billing/money.ts';
-import { desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 // Actions that end something for good (a keg returned, emptied or dumped; a batch discarded; a period's
@@ -72,11 +72,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const kegNow = async (id: string) => {
   const res = await brewer.get(`/api/kegs/${id}`);

@@ -1,13 +1,10 @@
-import { execFileSync } from 'node:child_process';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createInvoice, createInvoicePayment, createMember, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { desktop, launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { pdfText } from '../helpers/pdf.ts';
 
 // The treasurer credits part of a part-paid invoice and leaves the dialog's choices as they are: a credit
 // is recorded and nothing is paid back, and the credit note's PDF says only that.
@@ -26,22 +23,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
-
-function pdfText(pdf: Buffer): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'cw-credit-note-'));
-  const file = path.join(dir, 'credit-note.pdf');
-  fs.writeFileSync(file, pdf);
-  try {
-    return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
-  } finally {
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
-}
+afterAll(() => closeAll(browser, server, ctx));
 
 describe('crediting part of a part-paid invoice', () => {
   it('leaving the dialog’s defaults records a credit only: no refund, and the PDF does not say money was paid back', async () => {
@@ -69,7 +51,7 @@ describe('crediting part of a part-paid invoice', () => {
 
     const pdf = await page.request.get(`/api/credit-notes/${notes[0]!.id}/pdf`);
     expect(pdf.status()).toBe(200);
-    const text = pdfText(await pdf.body());
+    const text = pdfText(await pdf.body(), { flat: true });
     expect(text).toContain(notes[0]!.number);
     expect(text).toContain(`The credit reduces what is owed on invoice ${invoice.number}`);
     expect(text).not.toMatch(/paid back|refund/i);

@@ -4,7 +4,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createBooking, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { desktop, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Figures on screen add up: Today's counts are their lists, chart axes never repeat or overlap a
@@ -50,11 +50,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 /** The x-axis tick labels of the gravity chart with their boxes (the y-axis ones are gravities, 1.0xx). */
 async function xTicks(page: Page) {

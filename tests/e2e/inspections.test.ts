@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createCo2Cylinder, createInspection, createKeg, DAY, fillKeg } from '../../db/factories/index.ts';
-import { launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -21,11 +21,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 describe('the brewer on duty keeps the pressure-vessel records', { timeout: 120_000 }, () => {
   it('sees the overdue keg and cylinder on Today, records a passing pressure test on a phone, and the keg leaves the list', async () => {

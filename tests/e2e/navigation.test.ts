@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { accountNav, mainNav, visibleNav } from '../../frontend/config/nav.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -15,11 +15,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const accounts: { email: string; role: Role; name: string; never: string[]; always: string[] }[] = [
   { email: 'admin@example.org', role: 'admin', name: 'Greta Alder', never: [], always: ['Today', 'Members', 'Outbox'] },

@@ -7,7 +7,7 @@ import { handleProviderEvent } from '../../backend/modules/billing/payments.serv
 import { createBooking, createInvoice, DAY, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodBounds, periodLabel } from '../../shared/billing/dates.ts';
-import { desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // A member pays an overdue invoice online: from My invoices, to the payment provider's page (the
@@ -56,12 +56,7 @@ beforeAll(async () => {
   fake.webhookUrl = `${server.url}/api/webhooks/payments`;
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await fake?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, fake, ctx));
 
 const signIn = (email: string, viewport = desktop) => signedInPage(browser, server.url, email, { viewport, context: { locale: 'en-GB' } });
 

@@ -9,7 +9,7 @@ import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodBounds } from '../../shared/billing/dates.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { launchBrowser, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Phones: every page each role reaches fits a 360 px and a 390 px wide screen (nothing wider than the
@@ -64,11 +64,7 @@ beforeAll(async () => {
   browser = await launchBrowser();
   fs.mkdirSync(screensDir, { recursive: true });
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const accounts: { email: string; role: Role; name: string }[] = [
   { email: 'member@example.org', role: 'member', name: 'member' },

@@ -6,7 +6,7 @@ import { createBatch, createBooking, DAY } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Screens that settle: a list page stops asking the server once it has its rows, and no screen a role
@@ -38,11 +38,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const isApi = (url: string) => new URL(url).pathname.startsWith('/api/');
 

@@ -3,7 +3,7 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createInvoice, createKeg, createKegCheckout, createMember, DAY } from '../../db/factories/index.ts';
-import { desktop, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // The "Remind" buttons (an overdue invoice, all overdue invoices, an overdue keg) and the private
@@ -40,11 +40,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 const remindersOf = (column: 'invoice_id' | 'keg_id', id: string) =>
   ctx.db.selectFrom('reminder').select(['sent_to', 'sent_at']).where(column, '=', id).execute();

@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createKeg } from '../../db/factories/index.ts';
-import { launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -13,11 +13,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 /** A `datetime-local` value (the page runs in UTC) some minutes before the server's now. */
 const local = (minutesAgo: number) => new Date(ctx.clock.now().getTime() - minutesAgo * 60_000).toISOString().slice(0, 16);

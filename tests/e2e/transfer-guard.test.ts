@@ -2,7 +2,7 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
@@ -37,11 +37,7 @@ beforeAll(async () => {
   server = await serve(ctx);
   browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await ctx?.close();
-});
+afterAll(() => closeAll(browser, server, ctx));
 
 describe('a transfer of a batch whose gravity is not stable, on a phone', { timeout: 120_000 }, () => {
   it('shows the warning and the last readings, asks for a reason, and records it with the times and dissolved oxygen', async () => {

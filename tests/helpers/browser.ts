@@ -11,9 +11,14 @@ export const artifactsDir = path.resolve('test-artifacts', 'screenshots');
 /** The clock of the app served at each address, so the browser's clock can agree with the server's. */
 const servedClocks = new Map<string, Clock>();
 
+/** Closes what a browser test file opened, in the order given (browser, server, test context); one a failed set-up never made is skipped. */
+export async function closeAll(...opened: ({ close(): Promise<unknown> } | undefined)[]): Promise<void> {
+  for (const o of opened) await o?.close();
+}
+
 /** Serves the test context's app (API + built front end) on a free loopback port. */
 export async function serve(ctx: TestContext): Promise<{ url: string; close(): Promise<void> }> {
-  if (!fs.existsSync(path.resolve('dist', 'index.html'))) throw new Error('dist/ is missing: `npm test` builds it (or run `npx vite build`)');
+  if (!fs.existsSync(path.resolve('dist', 'app', 'index.html'))) throw new Error('dist/app/ is missing: `npm test` builds it (or run `npx vite build`)');
   const server = ctx.app.listen(0, '127.0.0.1');
   await new Promise<void>((resolve) => server.once('listening', () => resolve()));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

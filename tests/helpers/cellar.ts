@@ -108,6 +108,46 @@ export function batchPool(ctx: TestContext) {
   };
 }
 
+/** New kegs, made ready through the API by `brewer` (a cycle finished half an hour before the test's clock), made for the caller each time. */
+export function readyKegPool(ctx: TestContext, brewer: ApiClient) {
+  const takeKegs = kegPool(ctx);
+  return async function takeReadyKegs(n: number): Promise<{ id: string; code: string }[]> {
+    const kegs = await takeKegs(n);
+    await makeReady(
+      brewer,
+      kegs.map((k) => k.id),
+      ctx.clock,
+    );
+    return kegs;
+  };
+}
+
+/** The body of a transfer of `batch` from its fermenter into `kegs`, 19 L a keg with the full checklist; `extra` adds or replaces fields. */
+export function transferBody(batch: PooledBatch, kegs: { id: string }[], extra: Record<string, unknown> = {}) {
+  return {
+    batchId: batch.batchId,
+    fromEquipmentId: batch.fermenterId,
+    toKegIds: kegs.map((k) => k.id),
+    volumeLiters: 19 * kegs.length,
+    checklist: fullChecklist,
+    ...extra,
+  };
+}
+
+/** Transfers `batch` into `kegs` through the API (see transferBody); throws unless the transfer was made, else gives it. */
+export async function transferInto(brewer: ApiClient, batch: PooledBatch, kegs: { id: string }[], extra: Record<string, unknown> = {}) {
+  const res = await brewer.post('/api/transfers', transferBody(batch, kegs, extra));
+  if (res.status !== 201) throw new Error(`transfer refused: ${res.status} ${JSON.stringify(res.body)}`);
+  return res.body.transfer as { id: string; transferredAt: string } & Record<string, unknown>;
+}
+
+/** `n` new kegs made ready and filled from `batch` through the API (see transferBody): the kegs and the transfer. */
+export async function fillNewKegs(ctx: TestContext, brewer: ApiClient, batch: PooledBatch, n: number, extra: Record<string, unknown> = {}) {
+  const kegs = await readyKegPool(ctx, brewer)(n);
+  const transfer = await transferInto(brewer, batch, kegs, extra);
+  return { kegs, transfer };
+}
+
 export async function count(ctx: TestContext, table: 'transfer' | 'keg_fill' | 'sanitation_cycle' | 'keg_movement' | 'carbonation_plan') {
   const r = await ctx.db
     .selectFrom(table)

@@ -1,22 +1,25 @@
 // An import thread of backend/modules/batches/import-pool.ts. Plain JavaScript so that it starts the
-// same under tsx (the server, benchmarks) and under vitest (whose transforms do not reach threads):
-// it registers tsx's loader itself, then reads and checks each file it is handed with
+// same from the sources (the server under tsx, benchmarks, vitest, whose transforms do not reach
+// threads: it registers tsx's loader itself) and from the built server in dist/server (the modules
+// beside it are JavaScript there, no loader needed), then reads and checks each file it is handed with
 // prepareImport() from import-check.ts. A refusal goes back as the problem's fields; anything else
 // that goes wrong while reading a file is reported as an unreadable file, never in a library's words
 // (`internal` carries the error for the server's log).
+import fs from 'node:fs';
 import { parentPort } from 'node:worker_threads';
-import { register } from 'tsx/esm/api';
 
-register();
+const fromSources = fs.existsSync(new URL('./import-check.ts', import.meta.url));
+if (fromSources) (await import('tsx/esm/api')).register();
+const ext = fromSources ? '.ts' : '.js';
 
 if (!parentPort) throw new Error('import.worker.mjs runs only as a worker thread');
 const port = parentPort;
 
 // Loading starts at once, so a warmed thread has its modules ready for the first file.
 const modules = Promise.all([
-  import(new URL('./import-check.ts', import.meta.url).href),
-  import(new URL('./import-file.ts', import.meta.url).href),
-  import(new URL('../../lib/http-problem.ts', import.meta.url).href),
+  import(new URL(`./import-check${ext}`, import.meta.url).href),
+  import(new URL(`./import-file${ext}`, import.meta.url).href),
+  import(new URL(`../../lib/http-problem${ext}`, import.meta.url).href),
 ]);
 modules.then(() => port.postMessage({ ready: true }));
 
