@@ -78,6 +78,20 @@ export default tseslint.config(
     },
   },
   {
+    // Routes parse, authorise, call a service and respond; the SQL and the transactions live in services.
+    files: ['backend/modules/{auth,users,batches,bookings,settings,today,audit,dev,health,reminders,calendar}/*.routes.ts'],
+    rules: {
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector: 'CallExpression[callee.property.name=/^(selectFrom|insertInto|updateTable|deleteFrom|transaction)$/]',
+          message: 'Routes call services; repositories hold the SQL and services the transactions.',
+        },
+        { selector: "TaggedTemplateExpression[tag.name='sql']", message: 'Routes call services; repositories hold the SQL.' },
+      ],
+    },
+  },
+  {
     files: ['**/*.js'],
     ...tseslint.configs.disableTypeChecked,
   },
