@@ -79,7 +79,7 @@ export default tseslint.config(
   },
   {
     // Routes parse, authorise, call a service and respond; the SQL and its transactions live in services and repositories.
-    files: ['backend/modules/{billing,sanitation,kegs,transfers,carbonation,equipment}/**/*.routes.ts'],
+    files: ['backend/**/*.routes.ts'],
     rules: {
       'no-restricted-syntax': [
         'error',

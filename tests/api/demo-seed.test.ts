@@ -3,7 +3,7 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDb, type Database } from '../../backend/db/database.ts';
 import { previewRun } from '../../backend/modules/billing/invoice-runs.service.ts';
-import { loadCoopTimeZone } from '../../backend/modules/batches/figures.ts';
+import { coopTimeZone } from '../../backend/modules/settings/settings.service.ts';
 import { productionRecords } from '../../backend/modules/batches/production-records.service.ts';
 import { getBookingRules } from '../../backend/modules/settings/settings.service.ts';
 import { cellarSection, memberSection } from '../../backend/modules/today/today.service.ts';
@@ -291,7 +291,7 @@ describe.skipIf(!inject('adminUrl'))('the demo seeded on a given day', () => {
       });
 
       it('accounts for every litre in the monthly production report, and records transfer times that end at the transfer', async () => {
-        const report = await productionRecords(db, { timeZone: await loadCoopTimeZone(db), now });
+        const report = await productionRecords(db, { timeZone: await coopTimeZone(db), now });
         expect(report.monthly.length).toBe(12); // the twelve months up to this one
         for (const m of report.monthly) expect(m.balanceLiters, m.month).toBe(0);
         expect(report.monthly.some((m) => m.producedLiters > 0 && m.removals.totalLiters > 0 && m.closing.totalLiters > 0)).toBe(true);

@@ -9,18 +9,14 @@ import {
   updateMeSchema,
 } from '../../../shared/schemas/auth.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { audit } from '../../lib/audit.ts';
 import { HttpProblem, unauthorized } from '../../lib/http-problem.ts';
-import { enqueueMail } from '../../lib/mailer.ts';
 import { PgRateLimitStore } from '../../lib/rate-limit-store.ts';
-import { getBookingRules } from '../settings/settings.service.ts';
+import { coopTimeZone } from '../settings/settings.service.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { checkCredentials, consumeToken, endSessionsOf, hashPassword, issueToken, peekToken, toSessionUser, type SessionUser } from './auth.service.ts';
+import { acceptInvitation, recordSignIn, requestPasswordReset, resetPassword, sendUnlockLink, unlockAccount, updateMe } from './account.service.ts';
+import { checkCredentials, peekToken, toSessionUser, type SessionUser } from './auth.service.ts';
 import { anonymousCsrfCookieOf, csrfKey, isValidAnonymousCsrfToken, issueAnonymousCsrfToken, newSessionCsrfToken, setAnonymousCsrfCookie } from './csrf.ts';
 import { clientAddressKey, LoginThrottle, type LoginRefusal } from './login-throttle.ts';
-
-/** How long an e-mailed unlock link works. */
-const unlockLinkHours = 24;
 
 /** Start a fresh session for `user`: a new id (no fixation), the CSRF token carried over. */
 function signIn(req: Request, user: SessionUser): Promise<void> {
@@ -81,20 +77,6 @@ export function authRoutes({ db, config, queue }: Deps): Router {
     res.status(429).type('application/problem+json').json({ type: 'about:blank', status: 429, title, detail });
   };
 
-  /** Mails the owner of a just-locked account a one-time link that lifts the lock. */
-  const sendUnlockLink = async (email: string) => {
-    const user = await db.selectFrom('app_user').select(['id', 'name', 'email']).where('email', '=', email).where('is_active', '=', true).executeTakeFirst();
-    if (!user) return;
-    const token = await issueToken(db, user.id, 'account_unlock', unlockLinkHours, null);
-    const link = `${config.publicUrl}/unlock?token=${token}`;
-    await audit(db, null, 'sign_in_locked', 'User', user.id, { failures: config.LOGIN_LOCK_PER_ACCOUNT });
-    await enqueueMail(queue, {
-      to: user.email,
-      subject: 'Unlock your Cellarwright account',
-      text: `Hello ${user.name},\n\nThere have been ${config.LOGIN_LOCK_PER_ACCOUNT} failed attempts to sign in to your Cellarwright account at Larkspur Yard Brewing Co-op, so sign-in to it is locked for ${config.LOGIN_LOCK_WINDOW_MINUTES} minutes.\nUnlock it here (the link works once, for ${unlockLinkHours} hours):\n\n${link}\n\nIf the attempts were not yours, someone may be guessing your password: after unlocking, consider choosing a new one ("Forgot password?" on the sign-in page).\n`,
-    });
-  };
-
   // Signed in: the token kept in the session. Anonymous: a signed token in a cookie, and no session row.
   router.get('/csrf', (req, res) => {
     if (req.session?.userId) {
@@ -115,14 +97,13 @@ export function authRoutes({ db, config, queue }: Deps): Router {
     if (refusal) return refuse(res, refusal);
     const row = await checkCredentials(db, input.email, input.password);
     if (!row) {
-      if (await throttle.failed(input.email)) await sendUnlockLink(input.email);
+      if (await throttle.failed(input.email)) await sendUnlockLink({ db, config, queue }, input.email);
       throw new HttpProblem(401, 'Sign-in failed', 'E-mail or password is wrong.');
     }
     await throttle.succeeded(input.email, req.ip);
     const user = toSessionUser(row);
     await signIn(req, user);
-    await db.updateTable('app_user').set({ last_login_at: new Date() }).where('id', '=', user.id).execute();
-    await audit(db, user.id, 'signed_in', 'User', user.id);
+    await recordSignIn(db, user.id);
     res.json({ user });
   });
 
@@ -135,58 +116,30 @@ export function authRoutes({ db, config, queue }: Deps): Router {
   router.get('/me', async (req, res) => {
     if (!req.user) throw unauthorized();
     // The co-op's time zone rides along so that every screen shows times as the co-op reads them.
-    res.json({ user: req.user, coop: { timeZone: (await getBookingRules(db)).timeZone } });
+    res.json({ user: req.user, coop: { timeZone: await coopTimeZone(db) } });
   });
 
   router.patch('/me', requireUser, async (req, res) => {
     const input = updateMeSchema.parse(req.body ?? {});
-    const me = userOf(req);
-    const row = await db
-      .updateTable('app_user')
-      .set({ ...(input.name ? { name: input.name } : {}), ...(input.units ? { units: input.units } : {}), updated_at: new Date() })
-      .where('id', '=', me.id)
-      .returning(['id', 'email', 'name', 'roles', 'units'])
-      .executeTakeFirstOrThrow();
-    res.json({ user: toSessionUser(row) });
+    res.json({ user: await updateMe(db, userOf(req).id, input) });
   });
 
   router.post('/password-reset', perIp, async (req, res) => {
     const { email } = passwordResetRequestSchema.parse(req.body ?? {});
-    const user = await db.selectFrom('app_user').select(['id', 'name', 'email']).where('email', '=', email).where('is_active', '=', true).executeTakeFirst();
-    if (user) {
-      const token = await issueToken(db, user.id, 'password_reset', 1, null);
-      const link = `${config.publicUrl}/reset-password?token=${token}`;
-      await enqueueMail(queue, {
-        to: user.email,
-        subject: 'Reset your Cellarwright password',
-        text: `Hello ${user.name},\n\nSomeone asked to reset the password of your Cellarwright account at Larkspur Yard Brewing Co-op.\nChoose a new password here (the link works once, for one hour):\n\n${link}\n\nIf it was not you, ignore this e-mail; your password stays as it is.\n`,
-      });
-    }
+    await requestPasswordReset({ db, config, queue }, email);
     // The same answer whether or not the account exists.
     res.status(202).json({ ok: true });
   });
 
   router.post('/password-reset/confirm', async (req, res) => {
     const input = passwordResetConfirmSchema.parse(req.body ?? {});
-    const passwordHash = await hashPassword(input.password);
-    await db.transaction().execute(async (trx) => {
-      const tok = await consumeToken(trx, input.token, 'password_reset');
-      await trx.updateTable('app_user').set({ password_hash: passwordHash, updated_at: new Date() }).where('id', '=', tok.user_id).execute();
-      await endSessionsOf(trx, tok.user_id);
-      // Whoever reads the owner's mail may sign in again: a new password lifts a sign-in lock too.
-      await throttle.unlock(trx, tok.email);
-      await audit(trx, tok.user_id, 'password_reset', 'User', tok.user_id);
-    });
+    await resetPassword(db, throttle, input);
     res.status(204).end();
   });
 
   router.post('/unlock', async (req, res) => {
     const { token } = unlockAccountSchema.parse(req.body ?? {});
-    await db.transaction().execute(async (trx) => {
-      const tok = await consumeToken(trx, token, 'account_unlock');
-      await throttle.unlock(trx, tok.email);
-      await audit(trx, tok.user_id, 'sign_in_unlocked', 'User', tok.user_id);
-    });
+    await unlockAccount(db, throttle, token);
     res.status(204).end();
   });
 
@@ -197,19 +150,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
 
   router.post('/invitations/accept', async (req, res) => {
     const input = acceptInvitationSchema.parse(req.body ?? {});
-    const passwordHash = await hashPassword(input.password);
-    const row = await db.transaction().execute(async (trx) => {
-      const tok = await consumeToken(trx, input.token, 'invitation');
-      const updated = await trx
-        .updateTable('app_user')
-        .set({ password_hash: passwordHash, name: input.name, updated_at: new Date(), last_login_at: new Date() })
-        .where('id', '=', tok.user_id)
-        .returning(['id', 'email', 'name', 'roles', 'units'])
-        .executeTakeFirstOrThrow();
-      await audit(trx, tok.user_id, 'invitation_accepted', 'User', tok.user_id);
-      return updated;
-    });
-    const user = toSessionUser(row);
+    const user = await acceptInvitation(db, input);
     await signIn(req, user);
     res.json({ user });
   });

@@ -10,16 +10,16 @@ import {
   importQuerySchema,
   readingListQuerySchema,
   updateBatchSchema,
-  type ImportProgressDto,
 } from '../../../shared/schemas/batches.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { HttpProblem, badRequest, notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { batchDetail, createBatch, findVisibleBatch, listBatches, updateBatch } from './batches.service.ts';
-import { loadCoopTimeZone, loadFermentationSettings } from './figures.ts';
+import { coopTimeZone } from '../settings/settings.service.ts';
+import { loadFermentationSettings } from './figures.ts';
 import { addReading, deleteReading, listReadings } from './readings.service.ts';
-import { importReadings, pruneImportProgress } from './readings-import.service.ts';
+import { findImportProgress, importReadings, pruneImportProgress } from './readings-import.service.ts';
 import { addBatchTraceRoutes } from './trace.routes.ts';
 
 /** Largest file one import takes (100,000 readings are about 5 MB of CSV). */
@@ -128,7 +128,7 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const body = (req.body ?? {}) as Record<string, unknown>;
     const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : req.query.progressId);
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
-    const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), loadCoopTimeZone(db)]);
+    const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), coopTimeZone(db)]);
     void pruneImportProgress(db).catch(() => undefined);
     const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: userOf(req), settings, timeZone, now: clock.now() });
     res.json(result);
@@ -140,23 +140,9 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const row = await findVisibleBatch(db, req.ability, req.params.id);
     const id = z.uuid().safeParse(req.params.progressId);
     if (!id.success) throw notFound('Import');
-    const p = await db
-      .selectFrom('reading_import_progress')
-      .selectAll()
-      .where('id', '=', id.data)
-      .where('user_id', '=', userOf(req).id)
-      .where('batch_id', '=', row.id)
-      .executeTakeFirst();
-    if (!p) throw notFound('Import');
-    const dto: ImportProgressDto = {
-      id: p.id,
-      phase: p.phase,
-      rowsDone: p.rows_done,
-      rowsTotal: p.rows_total,
-      message: p.message,
-      updatedAt: p.updated_at.toISOString(),
-    };
-    res.json({ progress: dto });
+    const progress = await findImportProgress(db, { id: id.data, userId: userOf(req).id, batchId: row.id });
+    if (!progress) throw notFound('Import');
+    res.json({ progress });
   });
 
   return router;

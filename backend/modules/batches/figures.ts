@@ -1,33 +1,11 @@
 import { abv, apparentAttenuation, fermentationForecast, realAttenuation, stableGravity, type GravityReading } from '../../../shared/brewing/index.ts';
-import {
-  defaultFermentationSettings,
-  fermentationSettingsSchema,
-  type BatchDetail,
-  type BatchStatus,
-  type FermentationSettings,
-  type GravityPointDto,
-} from '../../../shared/schemas/batches.ts';
+import { type BatchDetail, type BatchStatus, type FermentationSettings, type GravityPointDto } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
+import { getSetting } from '../settings/settings.service.ts';
 
 /** The co-op's fermentation settings (setting `fermentation`), completed from the common-practice defaults. */
 export async function loadFermentationSettings(db: Database): Promise<FermentationSettings> {
-  const row = await db.selectFrom('setting').select('value').where('key', '=', 'fermentation').executeTakeFirst();
-  const stored = row?.value && typeof row.value === 'object' ? (row.value as Record<string, unknown>) : {};
-  const parsed = fermentationSettingsSchema.safeParse({ ...defaultFermentationSettings, ...stored });
-  return parsed.success ? parsed.data : defaultFermentationSettings;
-}
-
-/** The co-op's time zone (kept with the booking rules); UTC until one is set. */
-export async function loadCoopTimeZone(db: Database): Promise<string> {
-  const row = await db.selectFrom('setting').select('value').where('key', '=', 'booking_rules').executeTakeFirst();
-  const tz = (row?.value as { timeZone?: unknown } | undefined)?.timeZone;
-  if (typeof tz !== 'string' || !tz) return 'UTC';
-  try {
-    new Intl.DateTimeFormat('en-US', { timeZone: tz });
-    return tz;
-  } catch {
-    return 'UTC';
-  }
+  return (await getSetting(db, 'fermentation')).value;
 }
 
 /** Most points the chart and the forecast fit get; more readings are averaged into time buckets. */

@@ -4,7 +4,7 @@ import { productionRecordsQuerySchema } from '../../../shared/schemas/batches.ts
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { loadCoopTimeZone } from './figures.ts';
+import { coopTimeZone } from '../settings/settings.service.ts';
 import { productionRecords, productionRecordsCsv, productionRecordsXlsx } from './production-records.service.ts';
 
 export function productionRecordsRoutes({ db, clock }: Deps): Router {
@@ -17,7 +17,7 @@ export function productionRecordsRoutes({ db, clock }: Deps): Router {
     if (format !== 'json') ForbiddenError.from(req.ability).throwUnlessCan('export', 'ProductionRecord');
     // Whoever may read only their own records (a member) sees only their own batches.
     const ownerId = !canAll(req.ability, 'read', 'ProductionRecord') || q.mine ? userOf(req).id : undefined;
-    const timeZone = await loadCoopTimeZone(db);
+    const timeZone = await coopTimeZone(db);
     const report = await productionRecords(db, { from: q.from, to: q.to, ownerId, timeZone, now: clock.now() });
     const name = `production-records-${report.from}-to-${report.to}`;
     if (format === 'csv') {

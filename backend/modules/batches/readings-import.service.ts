@@ -1,6 +1,6 @@
 import { sql } from 'kysely';
 import type { Actor } from '../../../shared/permissions/roles.ts';
-import type { FermentationSettings, ImportResult } from '../../../shared/schemas/batches.ts';
+import type { FermentationSettings, ImportProgressDto, ImportResult } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { HttpProblem, conflict } from '../../lib/http-problem.ts';
@@ -149,4 +149,17 @@ export async function pruneImportProgress(db: Database) {
     .deleteFrom('reading_import_progress')
     .where('updated_at', '<', new Date(Date.now() - 86_400_000))
     .execute();
+}
+
+/** How far an import of `userId` into `batchId` has got, or undefined when there is no such import. */
+export async function findImportProgress(db: Database, key: { id: string; userId: string; batchId: string }): Promise<ImportProgressDto | undefined> {
+  const p = await db
+    .selectFrom('reading_import_progress')
+    .selectAll()
+    .where('id', '=', key.id)
+    .where('user_id', '=', key.userId)
+    .where('batch_id', '=', key.batchId)
+    .executeTakeFirst();
+  if (!p) return undefined;
+  return { id: p.id, phase: p.phase, rowsDone: p.rows_done, rowsTotal: p.rows_total, message: p.message, updatedAt: p.updated_at.toISOString() };
 }

@@ -1,8 +1,8 @@
-import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney } from '../../../shared/billing/money.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { conflict } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
+import { invoiceMail } from '../mail/templates/invoice.ts';
 import { coopToday, getBillingProfile } from './billing-profile.service.ts';
 import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
 import { getDetail, issueInvoice, markSent } from './invoices.service.ts';
@@ -29,21 +29,7 @@ export async function sendInvoice({ db, config, queue, clock }: Deps, invoiceId:
   const due = formatMoney(invoice.amountDueCents, invoice.currency, 'en-GB');
   await enqueueMail(queue, {
     to: invoice.memberEmail,
-    subject: `Invoice ${invoice.number} from ${profile.coopName} — ${periodLabel(invoice.period)}`,
-    text: [
-      `Hello ${invoice.memberName},`,
-      '',
-      `Your invoice ${invoice.number} for ${periodLabel(invoice.period)} is attached: ${total} in all.`,
-      invoice.amountDueCents > 0 ? `Still to pay: ${due}, by ${longDate(invoice.dueOn!)}.` : 'Nothing is left to pay on it — thank you.',
-      '',
-      'How to pay:',
-      `- online: ${config.publicUrl}/billing/my-invoices/${invoice.id}`,
-      `- by bank transfer to ${profile.bankAccountName}, account ${profile.bankAccount}, quoting ${invoice.number}`,
-      '',
-      `Questions? Write to ${profile.email}.`,
-      '',
-      profile.coopName,
-    ].join('\n'),
+    ...invoiceMail({ profile, appUrl: config.publicUrl, invoice, total, due }),
     attachments: [{ filename: invoicePdfFilename(invoice), contentType: 'application/pdf', contentBase64: pdf.toString('base64') }],
   });
   await db.transaction().execute((trx) => markSent(trx, invoice.id, actorId, invoice.memberEmail));

@@ -1,9 +1,8 @@
 import type PgBoss from 'pg-boss';
-import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney } from '../../../shared/billing/money.ts';
-import { paymentMethodLabels } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
 import { enqueueMailIn } from '../../lib/mailer.ts';
+import { receiptMail } from '../mail/templates/receipt.ts';
 import { getBillingProfile } from './billing-profile.service.ts';
 
 /**
@@ -42,23 +41,14 @@ export async function queueReceipt(trx: Database, queue: PgBoss, paymentId: stri
   const profile = await getBillingProfile(trx);
   await enqueueMailIn(trx, queue, {
     to: p.email,
-    subject: `Receipt: ${money(p.amount_cents)} received for invoice ${p.number}`,
-    text: [
-      `Hello ${p.name},`,
-      '',
-      `Thank you: we received your payment for invoice ${p.number} (${periodLabel(p.period)}).`,
-      '',
-      `  amount      ${money(p.amount_cents)}`,
-      `  received    ${longDate(p.received_on)}`,
-      `  method      ${paymentMethodLabels[p.method]}${p.reference ? ` (${p.reference})` : ''}`,
-      `  invoice     ${p.number}, ${money(p.total_cents)} in all`,
-      `  still due   ${money(remaining)}${remaining === 0 ? ' — the invoice is paid in full' : ''}`,
-      ...(p.overpaid_cents > 0 ? ['', `${money(p.overpaid_cents)} of it was more than the invoice owed; the treasurer will pay it back to you.`] : []),
-      '',
-      `Keep this e-mail as your receipt. Questions? Write to ${profile.email}.`,
-      '',
-      profile.coopName,
-    ].join('\n'),
+    ...receiptMail({
+      profile,
+      memberName: p.name,
+      invoice: { number: p.number, period: p.period, totalCents: p.total_cents },
+      payment: { amountCents: p.amount_cents, overpaidCents: p.overpaid_cents, method: p.method, receivedOn: p.received_on, reference: p.reference },
+      remainingCents: remaining,
+      money,
+    }),
   });
   return true;
 }

@@ -8,7 +8,7 @@ import { HttpProblem, notFound } from '../../lib/http-problem.ts';
 import { enqueueMail, type OutgoingMail } from '../../lib/mailer.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { getBookingRules } from '../settings/settings.service.ts';
+import { coopProfile, getBookingRules } from '../settings/settings.service.ts';
 import { cancellationMail, confirmationMail } from './bookings.mail.ts';
 import { cancelBooking, createBooking, findBooking, listBookings, toBookingDto } from './bookings.service.ts';
 
@@ -62,7 +62,7 @@ export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
     const created = await createBooking(db, { ...input, ownerId }, { id: actor.id, ability: req.ability }, clock.now());
     await queueMail(
       req.log,
-      confirmationMail(created.booking, created.owner, created.rules.timeZone, config, clock.now(), created.owner.id === actor.id ? undefined : actor.name),
+      confirmationMail(created.booking, created.owner, await coopProfile(db), config, clock.now(), created.owner.id === actor.id ? undefined : actor.name),
     );
     res.status(201).json({ booking: created.booking });
   });
@@ -72,7 +72,10 @@ export function bookingsRoutes({ db, config, queue, clock }: Deps): Router {
     if (!id.success) throw notFound('Booking');
     const actor = userOf(req);
     const done = await cancelBooking(db, id.data, { id: actor.id, name: actor.name, ability: req.ability }, clock.now());
-    await queueMail(req.log, cancellationMail(done.booking, done.owner, done.timeZone, config, clock.now(), done.owner.id === actor.id ? 'you' : actor.name));
+    await queueMail(
+      req.log,
+      cancellationMail(done.booking, done.owner, await coopProfile(db), config, clock.now(), done.owner.id === actor.id ? 'you' : actor.name),
+    );
     res.status(204).end();
   });
 

@@ -1,5 +1,4 @@
 import { sql } from 'kysely';
-import { defaultLocale, formatDateTime, formatWeekday } from '../../../shared/format/index.ts';
 import type { AppAbility } from '../../../shared/permissions/ability.ts';
 import { subject } from '../../../shared/permissions/ability.ts';
 import type { Booking, BookingListQuery, CreateBookingInput } from '../../../shared/schemas/booking.ts';
@@ -11,8 +10,10 @@ import type { BookingState } from '../../db/tables/cellar.ts';
 import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import { conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
-import { getBookingRules } from '../settings/settings.service.ts';
+import { orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
+import { formatWhen } from '../mail/templates/parts.ts';
+import { getBookingRules } from '../settings/settings.service.ts';
 
 /** Who is asking: their id and what the shared policy lets them do. */
 export interface Viewer {
@@ -27,30 +28,28 @@ const START_GRACE_MS = 10 * 60_000;
 
 export const liveStates: BookingState[] = ['booked', 'in_use'];
 
-function bookingQuery(db: Database) {
-  return db
-    .selectFrom('booking as b')
-    .innerJoin('equipment as e', 'e.id', 'b.equipment_id')
-    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
-    .select([
-      'b.id',
-      'b.equipment_id',
-      'b.owner_id',
-      'b.batch_id',
-      'b.starts_at',
-      'b.ends_at',
-      'b.blocked_until',
-      'b.state',
-      'b.notes',
-      'b.created_at',
-      'b.cancelled_at',
-      'e.code as equipment_code',
-      'e.name as equipment_name',
-      'e.kind as equipment_kind',
-      'u.name as owner_name',
-      'u.email as owner_email',
-    ]);
-}
+const bookingColumns = [
+  'b.id',
+  'b.equipment_id',
+  'b.owner_id',
+  'b.batch_id',
+  'b.starts_at',
+  'b.ends_at',
+  'b.blocked_until',
+  'b.state',
+  'b.notes',
+  'b.created_at',
+  'b.cancelled_at',
+  'e.code as equipment_code',
+  'e.name as equipment_name',
+  'e.kind as equipment_kind',
+  'u.name as owner_name',
+  'u.email as owner_email',
+] as const;
+
+const bookingFrom = (db: Database) =>
+  db.selectFrom('booking as b').innerJoin('equipment as e', 'e.id', 'b.equipment_id').innerJoin('app_user as u', 'u.id', 'b.owner_id');
+const bookingQuery = (db: Database) => bookingFrom(db).select(bookingColumns);
 type BookingJoinedRow = Awaited<ReturnType<ReturnType<typeof bookingQuery>['executeTakeFirstOrThrow']>>;
 
 /** The one place a booking row becomes what a person may see: owners' details only with `readOwner`. */
@@ -84,7 +83,7 @@ const sortColumns = {
 } as const;
 
 export async function listBookings(db: Database, q: BookingListQuery, viewer: Viewer): Promise<Page<Booking>> {
-  let base = bookingQuery(db);
+  let base = bookingFrom(db);
   // The calendar is open to all who may read bookings; only the owner filter depends on who asks.
   if (q.mine) base = base.where('b.owner_id', '=', viewer.id);
   if (q.ownerId) {
@@ -101,19 +100,8 @@ export async function listBookings(db: Database, q: BookingListQuery, viewer: Vi
   if (q.state) base = base.where('b.state', '=', q.state);
   else if (!q.includeCancelled) base = base.where('b.state', '<>', 'cancelled');
 
-  const [{ total }, rows] = await Promise.all([
-    base
-      .clearSelect()
-      .select((eb) => eb.fn.countAll<number>().as('total'))
-      .executeTakeFirstOrThrow(),
-    base
-      .orderBy(sortColumns[q.sort], q.order)
-      .orderBy('e.code')
-      .orderBy('b.id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
+  // Same start: by item code, then by id, so pages never repeat or skip a booking.
+  const { rows, total } = await paginate(base, (qb) => orderByAllowed(qb.select(bookingColumns), sortColumns, q, 'e.code').orderBy('b.id'), q);
   return { items: rows.map((r) => toBookingDto(r, viewer)), total, page: q.page, pageSize: q.pageSize };
 }
 
@@ -133,11 +121,6 @@ export async function upcomingBookingsFor(db: Database, equipmentId: string, vie
 }
 
 /** Times in messages, in the co-op's time zone: "Thu 3 Dec 2026, 09:00". */
-export function formatWhen(at: Date, timeZone: string): string {
-  const ctx = { locale: defaultLocale, timeZone };
-  return `${formatWeekday(at, ctx)} ${formatDateTime(at, ctx)} (${timeZone})`;
-}
-
 function ruleBroken(rule: BookingRuleName, detail: string, path: string): HttpProblem {
   return new HttpProblem(422, `Booking rule: ${bookingRuleLabels[rule]}`, detail, [{ path, message: detail }], 'about:blank', { rule });
 }
@@ -356,7 +339,6 @@ async function checkBatch(trx: Database, batchId: string, ownerId: string): Prom
 export interface CancelledBooking {
   booking: Booking;
   owner: { id: string; name: string; email: string };
-  timeZone: string;
   cancelledBy: string;
 }
 
@@ -376,11 +358,9 @@ export async function cancelBooking(db: Database, id: string, actor: Viewer & { 
     await trx.updateTable('booking').set({ state: 'cancelled', cancelled_at: now, cancelled_by: actor.id, updated_at: now }).where('id', '=', id).execute();
     await audit(trx, actor.id, 'cancelled', 'Booking', id, { previousState: row.state });
     const after = await findBooking(trx, id);
-    const rules = await getBookingRules(trx);
     return {
       booking: toBookingDto(after!, actor),
       owner: { id: after!.owner_id, name: after!.owner_name, email: after!.owner_email },
-      timeZone: rules.timeZone,
       cancelledBy: actor.name,
     };
   });

@@ -8,11 +8,10 @@ import type { Config } from '../../config/env.ts';
 import type { Database } from '../../db/database.ts';
 import type { CalendarFeedKind } from '../../db/tables/reminders.ts';
 import { audit } from '../../lib/audit.ts';
-import { coopTimeZone } from '../billing/billing-profile.service.ts';
 import { bookingUid } from '../bookings/bookings.mail.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 
 export const calendarFeedKinds: CalendarFeedKind[] = ['member', 'rota'];
-const coop = 'Larkspur Yard Brewing Co-op';
 const HOUR = 3600_000;
 const DAY = 24 * HOUR;
 /** What a feed holds: from a month back to a year ahead of the clock's now. */
@@ -95,7 +94,7 @@ export async function feedForToken(db: Database, token: string) {
   return row;
 }
 
-function newCalendar(name: string, timeZone: string) {
+function newCalendar(name: string, coop: string, timeZone: string) {
   const calendar = ical({
     name,
     prodId: { company: coop, product: 'Cellarwright', language: 'EN' },
@@ -115,11 +114,11 @@ function newCalendar(name: string, timeZone: string) {
  * bookings are left out, so a subscribed calendar drops them on its next refresh.
  */
 export async function renderFeed(db: Database, config: Config, feed: { kind: CalendarFeedKind; owner_id: string; name: string }, now: Date): Promise<string> {
-  const timeZone = await coopTimeZone(db);
+  const { coopName: coop, timeZone } = await coopProfile(db);
   const from = new Date(now.getTime() - FEED_PAST_MS);
   const to = new Date(now.getTime() + FEED_AHEAD_MS);
   const rota = feed.kind === 'rota';
-  const calendar = newCalendar(rota ? `${coop}: cellar rota` : `${coop}: ${feed.name}`, timeZone);
+  const calendar = newCalendar(rota ? `${coop}: cellar rota` : `${coop}: ${feed.name}`, coop, timeZone);
   const stamp = now;
 
   let bookings = db

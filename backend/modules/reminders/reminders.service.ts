@@ -1,14 +1,14 @@
 import type PgBoss from 'pg-boss';
-import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney } from '../../../shared/billing/money.ts';
 import type { Config } from '../../config/env.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound } from '../../lib/http-problem.ts';
 import { enqueueMailIn } from '../../lib/mailer.ts';
-import { coopToday, getBillingProfile } from '../billing/billing-profile.service.ts';
 import { lockInvoice } from '../billing/invoices.service.ts';
-import { formatWhen } from '../bookings/bookings.service.ts';
+import { invoiceReminderMail } from '../mail/templates/invoice-reminder.ts';
+import { kegReminderMail } from '../mail/templates/keg-reminder.ts';
+import { coopProfile, coopToday, getBillingProfile } from '../settings/settings.service.ts';
 
 /** After a reminder, its invoice or keg is not reminded again for this long (by the app's clock). */
 export const REMINDER_QUIET_MS = 24 * 3600_000;
@@ -85,21 +85,15 @@ export async function remindInvoice(deps: ReminderDeps, invoiceId: string, actor
     const amount = formatMoney(due, inv.currency.trim(), 'en-GB');
     await enqueueMailIn(trx, queue, {
       to: member.email,
-      subject: `Reminder: invoice ${inv.number} is overdue — ${amount} to pay`,
-      text: [
-        `Hello ${member.name},`,
-        '',
-        `Our records show that invoice ${inv.number} for ${periodLabel(inv.period)} was due on ${longDate(inv.due_on)} and ${amount} of it is still to pay.`,
-        `(As of ${formatWhen(now, timeZone)}.) If you have paid in the meantime, thank you, and please ignore this reminder.`,
-        '',
-        'How to pay:',
-        `- online: ${config.publicUrl}/billing/my-invoices/${inv.id}`,
-        `- by bank transfer to ${profile.bankAccountName}, account ${profile.bankAccount}, quoting ${inv.number}`,
-        '',
-        `Questions? Write to ${profile.email}.`,
-        '',
-        profile.coopName,
-      ].join('\n'),
+      ...invoiceReminderMail({
+        profile,
+        appUrl: config.publicUrl,
+        timeZone,
+        now,
+        memberName: member.name,
+        invoice: { id: inv.id, number: inv.number, period: inv.period, dueOn: inv.due_on },
+        amount,
+      }),
     });
     await audit(trx, actorId, 'reminded', 'Invoice', inv.id, { to: member.email, reminderId: row.id });
     return { id: row.id, kind: 'invoice', targetId: inv.id, sentTo: member.email, sentAt: now.toISOString(), remindAgainAfter: quietUntil.toISOString() };
@@ -170,28 +164,22 @@ export async function remindKeg(deps: ReminderDeps, kegId: string, actorId: stri
     const last = await quietReminder(trx, { kegId }, now);
     if (last) throw tooSoon(`Keg ${keg.code}`, last);
     const member = await trx.selectFrom('app_user').select(['name', 'email']).where('id', '=', keg.member_id).executeTakeFirstOrThrow();
-    const { timeZone } = await coopToday(trx, now);
     const quietUntil = new Date(now.getTime() + REMINDER_QUIET_MS);
     const row = await trx
       .insertInto('reminder')
       .values({ kind: 'keg', keg_id: keg.id, member_id: keg.member_id, sent_to: member.email, sent_by: actorId, sent_at: now, quiet_until: quietUntil })
       .returning('id')
       .executeTakeFirstOrThrow();
-    const profile = await getBillingProfile(trx);
+    const { coopName, timeZone } = await coopProfile(trx);
     await enqueueMailIn(trx, queue, {
       to: member.email,
-      subject: `Reminder: keg ${keg.code} was due back ${formatWhen(keg.due_at, timeZone)}`,
-      text: [
-        `Hello ${member.name},`,
-        '',
-        `Keg ${keg.code} (${keg.name}) went out with you${keg.checked_out_at ? ` on ${formatWhen(keg.checked_out_at, timeZone)}` : ''} and was due back at the cellar ${formatWhen(keg.due_at, timeZone)}.`,
-        'Please bring it back, or tell the brewer on duty when you will: other members are waiting for kegs.',
-        'Release the pressure before you carry it, and keep it upright.',
-        '',
-        `${config.publicUrl}/kegs/${keg.id}`,
-        '',
-        profile.coopName,
-      ].join('\n'),
+      ...kegReminderMail({
+        coopName,
+        appUrl: config.publicUrl,
+        timeZone,
+        memberName: member.name,
+        keg: { id: keg.id, code: keg.code, name: keg.name, dueAt: keg.due_at, checkedOutAt: keg.checked_out_at },
+      }),
     });
     await audit(trx, actorId, 'reminded', 'Keg', keg.id, { to: member.email, reminderId: row.id });
     return { id: row.id, kind: 'keg', targetId: keg.id, sentTo: member.email, sentAt: now.toISOString(), remindAgainAfter: quietUntil.toISOString() };

@@ -4,7 +4,7 @@ import { settingKeySchema, settingKeys, settingSections } from '../../../shared/
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { getSetting, putSetting } from './settings.service.ts';
+import { getSetting, saveSetting } from './settings.service.ts';
 
 /** The co-op's settings, one section per key: read by the rota and the treasurer, changed by the admin. */
 export function settingsRoutes({ db }: Deps): Router {
@@ -34,7 +34,7 @@ export function settingsRoutes({ db }: Deps): Router {
     if (!key.success) throw notFound('Setting');
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Setting');
     const value = settingSections[key.data].schema.parse(req.body ?? {});
-    const saved = await db.transaction().execute((trx) => putSetting(trx, key.data, value, userOf(req).id));
+    const saved = await saveSetting(db, key.data, value, userOf(req).id);
     res.json(saved);
   });
 

@@ -4,10 +4,10 @@ import type { Today } from '../../../shared/schemas/today.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { coopToday, getBillingProfile } from '../billing/billing-profile.service.ts';
 import { memberBalance } from '../billing/invoices.service.ts';
 import { billingSummary } from '../billing/reports.service.ts';
 import { listMaintenance } from '../equipment/inspections.service.ts';
+import { coopToday, getBillingProfile } from '../settings/settings.service.ts';
 import { cellarSection, memberSection } from './today.service.ts';
 
 /** `GET /api/today`: one request for the Today screen; each section only for those whose abilities cover it. */

@@ -5,10 +5,9 @@ import { inviteUserSchema, updateUserSchema, userListQuerySchema } from '../../.
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { conflict, notFound } from '../../lib/http-problem.ts';
-import { enqueueMail } from '../../lib/mailer.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { findUserForUpdate, inviteUser, listUsers, updateUser } from './users.service.ts';
+import { findUserForUpdate, inviteUser, listUsers, mailInvitation, updateUser } from './users.service.ts';
 
 export function usersRoutes({ db, config, queue, clock }: Deps): Router {
   const router = Router();
@@ -27,12 +26,7 @@ export function usersRoutes({ db, config, queue, clock }: Deps): Router {
     const input = inviteUserSchema.parse(req.body ?? {});
     const actor = userOf(req);
     const { user, token } = await inviteUser(db, input, actor);
-    const link = `${config.publicUrl}/invitation?token=${token}`;
-    await enqueueMail(queue, {
-      to: user.email,
-      subject: 'You are invited to Cellarwright at Larkspur Yard Brewing Co-op',
-      text: `Hello ${user.name},\n\n${actor.name} has invited you to Cellarwright, the back office of Larkspur Yard Brewing Co-op.\nSet your password here (the link works once, for seven days):\n\n${link}\n`,
-    });
+    await mailInvitation({ db, config, queue }, user, token, actor.name);
     res.status(201).json({ user: { ...user, isActive: true } });
   });
 

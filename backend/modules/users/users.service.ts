@@ -4,8 +4,11 @@ import type { InviteUserInput, UpdateUserInput, UserListQuery, User as UserListI
 import { audit } from '../../lib/audit.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { conflict } from '../../lib/http-problem.ts';
+import { enqueueMail } from '../../lib/mailer.ts';
 import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { endSessionsOf, issueToken } from '../auth/auth.service.ts';
+import { invitationMail } from '../mail/templates/invitation.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 
 type Db = Deps['db'];
 type Actor = { id: string; name: string };
@@ -64,6 +67,18 @@ export async function inviteUser(db: Db, input: InviteUserInput, actor: Actor) {
     await audit(trx, actor.id, 'invited', 'User', created.id, { email: input.email, roles: input.roles });
     return { user: created, token };
   });
+}
+
+/** Mails the invited person their one-time link (queued; retried by the mail queue). */
+export async function mailInvitation(
+  { db, config, queue }: Pick<Deps, 'db' | 'config' | 'queue'>,
+  user: { name: string; email: string },
+  token: string,
+  invitedBy: string,
+): Promise<void> {
+  const { coopName } = await coopProfile(db);
+  const link = `${config.publicUrl}/invitation?token=${token}`;
+  await enqueueMail(queue, { to: user.email, ...invitationMail({ coopName, name: user.name, invitedBy, link }) });
 }
 
 /** The account an update names, or undefined. */
