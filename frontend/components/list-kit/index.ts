@@ -10,6 +10,6 @@ export {
 } from './list-query';
 export { useListQuery, useClampPage } from './use-list-query';
 export { useDebouncedSearch, searchDelayMs } from './use-debounced-search';
-export { FilterField, FilterGrid, FilterSelect, SearchInput, filterLabelClass, filterLabelMutedClass } from './filters';
+export { FilterField, FilterGrid, FilterSelect, type FilterSelectProps, SearchInput, filterLabelClass, filterLabelMutedClass } from './filters';
 export { ListPager, ListTable, type ListProps, type ListResult } from './list-table';
 export { pageQueryOptions } from './page-query';

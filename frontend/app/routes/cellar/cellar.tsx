@@ -1,13 +1,14 @@
 import type { RowSelectionState } from '@tanstack/react-table';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import { equipmentKindLabels, equipmentKinds, vesselStateLabels, vesselStates, type Equipment } from '../../../../shared/schemas/equipment.ts';
+import { equipmentKindLabels, equipmentKinds, type Equipment } from '../../../../shared/schemas/equipment.ts';
 import { FilterField, FilterSelect, SearchInput, useListQuery } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { useNotice } from '@/components/ui/notice';
 import { equipmentListQuery, labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentAddDialog } from '@/features/equipment/components/equipment-add-dialog';
 import { EquipmentTable } from '@/features/equipment/components/equipment-table';
+import { VesselStateFilter } from '@/features/equipment/components/vessel-state-filter';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
 import { pluralize } from '@/utils/format';
@@ -58,12 +59,9 @@ const CellarRoute = () => {
           muted
           className="w-[calc(50%-0.375rem)] sm:w-44"
         />
-        <FilterSelect
-          label="State"
+        <VesselStateFilter
           value={query.state}
           onChange={(state) => setQuery({ state })}
-          options={vesselStates}
-          labels={vesselStateLabels}
           anyLabel="All states"
           muted
           className="w-[calc(50%-0.375rem)] sm:w-44"

@@ -1,7 +1,6 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
-import { vesselStateLabels, vesselStates } from '../../../../shared/schemas/equipment.ts';
 import { kegSortFields, kegWhereabouts, kegWhereaboutsLabels, type KegView } from '../../../../shared/schemas/kegs.ts';
 import { FilterField, FilterGrid, FilterSelect, ListTable, SearchInput, useListQuery } from '@/components/list-kit';
 import { useServerTable } from '@/components/ui/use-server-table';
@@ -9,6 +8,7 @@ import { kegListQuery, useKegs } from '@/features/kegs/api/kegs';
 import { FillGauge, Whereabouts } from '@/features/kegs/components/keg-bits';
 import { cellarPaths } from '@/config/cellar-paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
+import { VesselStateFilter } from '@/features/equipment/components/vessel-state-filter';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { formatAbv, formatDate } from '@/utils/format';
 
@@ -73,14 +73,7 @@ const KegWhereaboutsRoute = () => {
           labels={kegWhereaboutsLabels}
           anyLabel="Anywhere"
         />
-        <FilterSelect
-          label="State"
-          value={query.state}
-          onChange={(state) => setQuery({ state })}
-          options={vesselStates}
-          labels={vesselStateLabels}
-          anyLabel="Any state"
-        />
+        <VesselStateFilter value={query.state} onChange={(state) => setQuery({ state })} anyLabel="Any state" />
         <FilterField label="Find">
           <SearchInput value={query.q} onSearch={(q, options) => setQuery({ q }, options)} placeholder="Keg code or batch" />
         </FilterField>
