@@ -1,6 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { api, isApiProblem } from '@/lib/api-client';
 import { useAppAbility } from '@/lib/ability';
+import { mailboxKeys } from '@/features/mailbox/api/keys';
 
 /**
  * Whether this server has the development mailbox (it answers 404 outside development mode).
@@ -10,7 +11,7 @@ export function useDevMailboxAvailable(): boolean {
   const ability = useAppAbility();
   const allowed = ability.can('read', 'Mailbox');
   const probe = useQuery({
-    queryKey: ['mailbox', 'probe'],
+    queryKey: mailboxKeys.probe(),
     queryFn: async ({ signal }) => {
       try {
         await api.get('/api/dev/mailbox', { query: { page: 1, pageSize: 1 }, signal });

@@ -15,7 +15,8 @@ export interface UseServerTableOptions<T, S extends string> {
   columns: ColumnDef<T, any>[];
   query: ServerTableQuery<S>;
   onQueryChange: (patch: { sort: S; order: 'asc' | 'desc' }) => void;
-  isSortField: (id: string) => id is S;
+  /** The columns the server sorts by (its list schema's allowlist); other headers do not sort. */
+  sortFields: readonly S[];
   getRowId: (row: T) => string;
   /** Extra TanStack options (row selection and the like). */
   extra?: Partial<TableOptions<T>>;
@@ -25,7 +26,8 @@ export interface UseServerTableOptions<T, S extends string> {
  * A TanStack table whose sorting and paging happen on the server: the URL's query is the state, a
  * header click becomes a new `sort`/`order` for the query (only for the server's sortable columns).
  */
-export function useServerTable<T, S extends string>({ data, columns, query, onQueryChange, isSortField, getRowId, extra = {} }: UseServerTableOptions<T, S>) {
+export function useServerTable<T, S extends string>({ data, columns, query, onQueryChange, sortFields, getRowId, extra = {} }: UseServerTableOptions<T, S>) {
+  const isSortField = (id: string): id is S => (sortFields as readonly string[]).includes(id);
   const sorting: SortingState = [{ id: query.sort, desc: query.order === 'desc' }];
   const onSortingChange = (updater: Updater<SortingState>) => {
     const next = typeof updater === 'function' ? updater(sorting) : updater;

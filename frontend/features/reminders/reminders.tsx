@@ -4,7 +4,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
 import { billingKeys } from '@/features/billing/api/keys';
-import { kegKeys } from '@/features/kegs/api/kegs';
+import { kegKeys } from '@/features/kegs/api/keys';
 import { api, isApiProblem, problemMessage } from '@/lib/api-client';
 import { formatDateTime, pluralize } from '@/utils/format';
 
@@ -106,7 +106,7 @@ export const RemindAllOverdueInvoices = () => {
   const queryClient = useQueryClient();
   const [open, setOpen] = useState(false);
   const count = useQuery({
-    queryKey: [...billingKeys.all, 'reminders'],
+    queryKey: billingKeys.reminders(),
     queryFn: ({ signal }) => api.get<ReminderCount>('/api/invoices/reminders', { signal }),
   });
   const send = useMutation({

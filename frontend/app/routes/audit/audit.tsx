@@ -1,13 +1,12 @@
 import { createColumnHelper } from '@tanstack/react-table';
-import { useCallback, useMemo } from 'react';
+import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { z } from 'zod';
 import { auditSortFields, auditSubjectTypes, type AuditChange, type AuditEntry } from '../../../../shared/schemas/audit.ts';
 import { defaultPageSize, maxPageSize } from '../../../../shared/schemas/pagination.ts';
 import { Forbidden } from '@/components/errors/forbidden';
-import { Alert } from '@/components/ui/alert';
+import { defineListQuery, FilterField, FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { Input, Select } from '@/components/ui/input';
 import { useServerTable } from '@/components/ui/use-server-table';
 import { paths, invoiceHref } from '@/config/paths';
@@ -15,12 +14,9 @@ import { useAuditTrail } from '@/features/audit/api/get-audit';
 import { cellarPaths } from '@/config/cellar-paths';
 import { useUsers } from '@/features/users/api/get-users';
 import { useDocumentTitle } from '@/hooks/use-document-title';
-import { useSearchParamsState } from '@/hooks/use-search-params-state';
 import { useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
-type SortField = (typeof auditSortFields)[number];
 const day = z.iso.date();
 
 /** The screen's state, all of it in the URL: filters, sort and page. Bad values fall back to the defaults. */
@@ -35,18 +31,11 @@ const screenQuerySchema = z.object({
   from: day.optional().catch(undefined),
   to: day.optional().catch(undefined),
 });
-type ScreenQuery = z.infer<typeof screenQuerySchema>;
-const defaults = screenQuerySchema.parse({});
-
-function toParams(q: ScreenQuery): URLSearchParams {
-  const p = new URLSearchParams();
-  for (const k of ['actorId', 'subjectType', 'subjectId', 'from', 'to'] as const) if (q[k]) p.set(k, q[k]);
-  if (q.sort !== defaults.sort) p.set('sort', q.sort);
-  if (q.order !== defaults.order) p.set('order', q.order);
-  if (q.page !== 1) p.set('page', String(q.page));
-  if (q.pageSize !== defaultPageSize) p.set('pageSize', String(q.pageSize));
-  return p;
-}
+const auditListQuery = defineListQuery(screenQuerySchema);
+const subjectTypeLabels = Object.fromEntries(auditSubjectTypes.map((t) => [t, t.replace(/([a-z])([A-Z])/g, '$1 $2')])) as Record<
+  (typeof auditSubjectTypes)[number],
+  string
+>;
 
 /** A day in the browser's time zone as the instant it starts (`next`: the instant it ends). */
 const dayStart = (d: string, next = false) => {
@@ -116,16 +105,7 @@ const AuditRoute = () => {
   useDocumentTitle('Audit trail');
   const ability = useAppAbility();
   const allowed = ability.can('read', 'AuditLog');
-  const [searchParams, updateSearchParams] = useSearchParamsState();
-  const query = useMemo(() => screenQuerySchema.parse(Object.fromEntries(searchParams)), [searchParams]);
-  const setQuery = useCallback(
-    (patch: Partial<ScreenQuery>) =>
-      updateSearchParams((previous) => {
-        const current = screenQuerySchema.parse(Object.fromEntries(previous));
-        return toParams({ ...current, ...patch, page: patch.page ?? 1 });
-      }),
-    [updateSearchParams],
-  );
+  const { query, setQuery, hasFilters: filtered, clearFilters } = useListQuery(auditListQuery);
   const people = useUsers({ page: 1, pageSize: 100, sort: 'name', order: 'asc', q: undefined });
   const trail = useAuditTrail(
     allowed
@@ -188,18 +168,9 @@ const AuditRoute = () => {
     ],
     [setQuery],
   );
-  const table = useServerTable({
-    data: trail.data,
-    columns,
-    query,
-    onQueryChange: (q) => setQuery({ sort: q.sort, order: q.order }),
-    isSortField: (id): id is SortField => (auditSortFields as readonly string[]).includes(id),
-    getRowId: (e) => e.id,
-  });
+  const table = useServerTable({ data: trail.data, columns, query, onQueryChange: setQuery, sortFields: auditSortFields, getRowId: (e) => e.id });
 
   if (!allowed) return <Forbidden what="the audit trail" />;
-  const filtered = Boolean(query.actorId || query.subjectType || query.subjectId || query.from || query.to);
-  const label = 'flex flex-col gap-1 text-sm font-medium';
   return (
     <div className="flex flex-col gap-4">
       <header>
@@ -212,8 +183,7 @@ const AuditRoute = () => {
         aria-label="Filter the audit trail"
         onSubmit={(e) => e.preventDefault()}
       >
-        <label className={label}>
-          Person
+        <FilterField label="Person">
           <Select value={query.actorId ?? ''} onChange={(e) => setQuery({ actorId: e.target.value || undefined })}>
             <option value="">Anyone</option>
             {people.data?.items.map((u) => (
@@ -222,20 +192,15 @@ const AuditRoute = () => {
               </option>
             ))}
           </Select>
-        </label>
-        <label className={label}>
-          Record type
-          <Select value={query.subjectType ?? ''} onChange={(e) => setQuery({ subjectType: e.target.value || undefined })}>
-            <option value="">Any</option>
-            {auditSubjectTypes.map((t) => (
-              <option key={t} value={t}>
-                {t.replace(/([a-z])([A-Z])/g, '$1 $2')}
-              </option>
-            ))}
-          </Select>
-        </label>
-        <label className={label}>
-          Record id
+        </FilterField>
+        <FilterSelect
+          label="Record type"
+          value={auditSubjectTypes.find((t) => t === query.subjectType)}
+          onChange={(subjectType) => setQuery({ subjectType })}
+          options={subjectTypeLabels}
+          anyLabel="Any"
+        />
+        <FilterField label="Record id">
           <Input
             key={query.subjectId ?? ''}
             defaultValue={query.subjectId ?? ''}
@@ -245,38 +210,28 @@ const AuditRoute = () => {
               if (e.key === 'Enter') setQuery({ subjectId: e.currentTarget.value.trim() || undefined });
             }}
           />
-        </label>
-        <label className={label}>
-          From
+        </FilterField>
+        <FilterField label="From">
           <Input type="date" value={query.from ?? ''} max={query.to} onChange={(e) => setQuery({ from: e.target.value || undefined })} />
-        </label>
-        <label className={label}>
-          To
+        </FilterField>
+        <FilterField label="To">
           <Input type="date" value={query.to ?? ''} min={query.from} onChange={(e) => setQuery({ to: e.target.value || undefined })} />
-        </label>
+        </FilterField>
       </form>
       {filtered ? (
         <div>
-          <Button variant="ghost" onClick={() => updateSearchParams(() => new URLSearchParams())}>
+          <Button variant="ghost" onClick={clearFilters}>
             Clear the filters
           </Button>
         </div>
       ) : null}
-      {trail.isError ? <Alert tone="error">{problemMessage(trail.error)}</Alert> : null}
-      <DataTable
+      <ListTable
         table={table}
         caption="Audit trail"
-        isLoading={trail.isPending}
-        isFetching={trail.isFetching}
+        list={trail}
+        query={query}
+        onQueryChange={setQuery}
         empty={filtered ? 'Nothing matches these filters.' : 'Nothing recorded yet.'}
-      />
-      <DataTablePagination
-        page={query.page}
-        pageSize={query.pageSize}
-        total={trail.data?.total ?? 0}
-        onPageChange={(page) => setQuery({ page })}
-        onPageSizeChange={(pageSize) => setQuery({ pageSize })}
-        isPlaceholder={trail.isPlaceholderData}
         noun={['change', 'changes']}
       />
     </div>

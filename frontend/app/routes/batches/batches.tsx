@@ -1,11 +1,11 @@
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { useNavigate } from 'react-router-dom';
+import { useClampPage, useListQuery } from '@/components/list-kit';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { paths } from '@/config/paths';
-import { useBatches } from '@/features/batches/api/get-batches';
+import { batchListQuery, useBatches } from '@/features/batches/api/get-batches';
 import { BatchesTable, BatchesToolbar } from '@/features/batches/components/batches-table';
 import { BatchFormDialog } from '@/features/batches/components/batch-form-dialog';
-import { useBatchesSearchParams } from '@/features/batches/hooks/use-batches-search-params';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 
@@ -14,18 +14,12 @@ const BatchesRoute = () => {
   useDocumentTitle('Batches');
   const ability = useAppAbility();
   const navigate = useNavigate();
-  const { query, setQuery } = useBatchesSearchParams();
+  const { query, setQuery, hasFilters, clearFilters } = useListQuery(batchListQuery);
   const batches = useBatches(query);
   const [creating, setCreating] = useState(false);
   const seesAll = canOnEvery(ability, 'read', 'Batch');
 
-  const total = batches.data?.total ?? 0;
-  const count = batches.data?.items.length ?? 0;
-  useEffect(() => {
-    if (batches.isPlaceholderData || !batches.data || count > 0 || query.page <= 1) return;
-    const last = Math.max(1, Math.ceil(total / query.pageSize));
-    if (last !== query.page) setQuery({ page: last }, { replace: true });
-  }, [batches.isPlaceholderData, batches.data, count, total, query.page, query.pageSize, setQuery]);
+  useClampPage(batches, query, setQuery);
 
   return (
     <div className="flex flex-col gap-4">
@@ -43,18 +37,14 @@ const BatchesRoute = () => {
           {ability.can('create', 'Batch') ? <Button onClick={() => setCreating(true)}>New batch</Button> : null}
         </div>
       </header>
-      <BatchesToolbar query={query} onQueryChange={setQuery} showMine={seesAll && ability.can('create', 'Batch')} />
-      <BatchesTable
+      <BatchesToolbar
         query={query}
-        data={batches.data}
-        isLoading={batches.isPending}
-        error={batches.error}
-        onRetry={() => void batches.refetch()}
-        isFetching={batches.isFetching}
-        isPlaceholderData={batches.isPlaceholderData}
-        showOwner={seesAll}
         onQueryChange={setQuery}
+        hasFilters={hasFilters}
+        onClearFilters={clearFilters}
+        showMine={seesAll && ability.can('create', 'Batch')}
       />
+      <BatchesTable query={query} list={batches} showOwner={seesAll} onQueryChange={setQuery} />
       <BatchFormDialog
         open={creating}
         onClose={() => setCreating(false)}

@@ -21,7 +21,7 @@ import { ImportProgress } from '@/features/batches/components/import-progress';
 import { formatSg } from '@/features/batches/components/gravity-format';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useQueryClient } from '@tanstack/react-query';
-import { batchKeys } from '@/features/batches/api/get-batches';
+import { batchKeys } from '@/features/batches/api/keys';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
 import { formatCount, formatDateTime } from '@/utils/format';
@@ -80,7 +80,7 @@ const ImportReadingsRoute = () => {
         return result;
       }
       void queryClient.invalidateQueries({ queryKey: batchKeys.detail(batchId) });
-      void queryClient.invalidateQueries({ queryKey: [...batchKeys.all, 'list'] });
+      void queryClient.invalidateQueries({ queryKey: batchKeys.lists() });
       void navigate(`${paths.batches}/${batchId}`, { state: { imported: result.imported, skipped: result.skipped } });
       return result;
     } catch (e) {

@@ -1,15 +1,15 @@
 import { myInvoiceHref } from '@/config/paths';
 import { useMyBalance } from '@/features/billing/api/billing-overview';
-import { useInvoices } from '@/features/billing/api/get-invoices';
+import { invoiceListQuery, useInvoices } from '@/features/billing/api/get-invoices';
 import { InvoicesTable, InvoicesToolbar } from '@/features/billing/components/invoices-table';
 import { Money } from '@/features/billing/components/money';
-import { useInvoicesSearchParams } from '@/features/billing/hooks/use-invoices-search-params';
+import { useListQuery } from '@/components/list-kit';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 
 /** A member's own invoices and what they owe. */
 const MyInvoicesRoute = () => {
   useDocumentTitle('My invoices');
-  const { query, setQuery, hasFilters } = useInvoicesSearchParams();
+  const { query, setQuery, hasFilters, clearFilters } = useListQuery(invoiceListQuery);
   const invoices = useInvoices(query);
   const balance = useMyBalance();
   const b = balance.data;
@@ -31,20 +31,8 @@ const MyInvoicesRoute = () => {
           </p>
         </section>
       ) : null}
-      <InvoicesToolbar query={query} onQueryChange={setQuery} hasFilters={hasFilters} own />
-      <InvoicesTable
-        own
-        query={query}
-        data={invoices.data}
-        isLoading={invoices.isPending}
-        error={invoices.error}
-        onRetry={() => void invoices.refetch()}
-        isFetching={invoices.isFetching}
-        isPlaceholderData={invoices.isPlaceholderData}
-        hasFilters={hasFilters}
-        onQueryChange={setQuery}
-        hrefFor={(i) => myInvoiceHref(i.id)}
-      />
+      <InvoicesToolbar query={query} onQueryChange={setQuery} hasFilters={hasFilters} onClearFilters={clearFilters} own />
+      <InvoicesTable own query={query} list={invoices} hasFilters={hasFilters} onQueryChange={setQuery} hrefFor={(i) => myInvoiceHref(i.id)} />
     </div>
   );
 };

@@ -1,32 +1,22 @@
 import type { RowSelectionState } from '@tanstack/react-table';
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import {
-  equipmentKindLabels,
-  equipmentKinds,
-  equipmentKindSchema,
-  vesselStateLabels,
-  vesselStates,
-  vesselStateSchema,
-  type Equipment,
-} from '../../../../shared/schemas/equipment.ts';
+import { equipmentKindLabels, equipmentKinds, type Equipment } from '../../../../shared/schemas/equipment.ts';
+import { FilterField, FilterSelect, SearchInput, useListQuery } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
-import { Input, Select } from '@/components/ui/input';
 import { useNotice } from '@/components/ui/notice';
-import { labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
+import { equipmentListQuery, labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentAddDialog } from '@/features/equipment/components/equipment-add-dialog';
 import { EquipmentTable } from '@/features/equipment/components/equipment-table';
-import { useEquipmentSearchParams } from '@/features/equipment/hooks/use-equipment-search-params';
+import { VesselStateFilter } from '@/features/equipment/components/vessel-state-filter';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
 import { pluralize } from '@/utils/format';
 
-const labelClass = 'flex flex-col gap-1 text-xs font-medium text-ink-muted';
-
 /** Cellar: every fermenter, keg, tap position and CO2 cylinder with its state; QR labels for any selection. */
 const CellarRoute = () => {
   useDocumentTitle('Cellar');
-  const { query, setQuery } = useEquipmentSearchParams();
+  const { query, setQuery } = useListQuery(equipmentListQuery);
   const list = useEquipmentList(query);
   const [selection, setSelection] = useState<RowSelectionState>({});
   const ability = useAppAbility();
@@ -41,15 +31,6 @@ const CellarRoute = () => {
         </>
       ),
     });
-  const [text, setText] = useState(query.q ?? '');
-  useEffect(() => setText(query.q ?? ''), [query.q]);
-  useEffect(() => {
-    const value = text.trim();
-    if (value === (query.q ?? '')) return;
-    const timer = setTimeout(() => setQuery({ q: value || undefined }, { replace: true }), 300);
-    return () => clearTimeout(timer);
-  }, [text, query.q, setQuery]);
-
   const selected = Object.keys(selection).filter((id) => selection[id]);
   return (
     <div className="flex flex-col gap-4">
@@ -65,32 +46,26 @@ const CellarRoute = () => {
       </header>
       {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={onCreated} /> : null}
       <div className="flex flex-wrap items-end gap-3">
-        <label className={`${labelClass} w-full sm:w-56`}>
-          Search
-          <Input type="search" value={text} onChange={(e) => setText(e.target.value)} placeholder="Code, name or notes" autoComplete="off" />
-        </label>
-        <label className={`${labelClass} w-[calc(50%-0.375rem)] sm:w-44`}>
-          Kind
-          <Select value={query.kind ?? ''} onChange={(e) => setQuery({ kind: equipmentKindSchema.safeParse(e.target.value).data })}>
-            <option value="">All kinds</option>
-            {equipmentKinds.map((k) => (
-              <option key={k} value={k}>
-                {equipmentKindLabels[k]}
-              </option>
-            ))}
-          </Select>
-        </label>
-        <label className={`${labelClass} w-[calc(50%-0.375rem)] sm:w-44`}>
-          State
-          <Select value={query.state ?? ''} onChange={(e) => setQuery({ state: vesselStateSchema.safeParse(e.target.value).data })}>
-            <option value="">All states</option>
-            {vesselStates.map((s) => (
-              <option key={s} value={s}>
-                {vesselStateLabels[s]}
-              </option>
-            ))}
-          </Select>
-        </label>
+        <FilterField label="Search" muted className="w-full sm:w-56">
+          <SearchInput value={query.q} onSearch={(q, options) => setQuery({ q }, options)} placeholder="Code, name or notes" />
+        </FilterField>
+        <FilterSelect
+          label="Kind"
+          value={query.kind}
+          onChange={(kind) => setQuery({ kind })}
+          options={equipmentKinds}
+          labels={equipmentKindLabels}
+          anyLabel="All kinds"
+          muted
+          className="w-[calc(50%-0.375rem)] sm:w-44"
+        />
+        <VesselStateFilter
+          value={query.state}
+          onChange={(state) => setQuery({ state })}
+          anyLabel="All states"
+          muted
+          className="w-[calc(50%-0.375rem)] sm:w-44"
+        />
         <div className="ml-auto flex items-center gap-2">
           {selected.length ? (
             <Button variant="ghost" onClick={() => setSelection({})}>
@@ -108,18 +83,7 @@ const CellarRoute = () => {
           </a>
         </div>
       </div>
-      <EquipmentTable
-        query={query}
-        data={list.data}
-        isLoading={list.isPending}
-        error={list.error}
-        onRetry={() => void list.refetch()}
-        isFetching={list.isFetching}
-        isPlaceholderData={list.isPlaceholderData}
-        onQueryChange={setQuery}
-        selection={selection}
-        onSelectionChange={setSelection}
-      />
+      <EquipmentTable query={query} list={list} onQueryChange={setQuery} selection={selection} onSelectionChange={setSelection} />
       <p className="text-xs text-ink-muted">
         Labels print on A4 sheets of 3 × 8 labels, 70 × 37 mm. Kegs, cylinders and taps carry the pressure and CO2 cautions; local codes and licensed practice
         come first.

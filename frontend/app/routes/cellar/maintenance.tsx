@@ -1,18 +1,11 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
-import { Link, useSearchParams } from 'react-router-dom';
+import { Link } from 'react-router-dom';
 import { equipmentKindLabels } from '../../../../shared/schemas/equipment.ts';
-import {
-  inspectionKindLabels,
-  maintenanceListQuerySchema,
-  maintenanceStatuses,
-  type MaintenanceItem,
-  type MaintenanceListQuery,
-} from '../../../../shared/schemas/inspections.ts';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
-import { Select } from '@/components/ui/input';
+import { inspectionKindLabels, maintenanceStatuses, type MaintenanceItem } from '../../../../shared/schemas/inspections.ts';
+import { FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
 import { useServerTable } from '@/components/ui/use-server-table';
-import { useMaintenanceList } from '@/features/equipment/api/inspections';
+import { maintenanceListQuery, useMaintenanceList } from '@/features/equipment/api/inspections';
 import { DueBadge } from '@/features/equipment/components/inspections-panel';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -20,26 +13,14 @@ import { formatDate } from '@/utils/format';
 
 const column = createColumnHelper<MaintenanceItem>();
 const sortFields = ['dueAt', 'code', 'kind'] as const;
-const isSortField = (id: string): id is (typeof sortFields)[number] => (sortFields as readonly string[]).includes(id);
 const statusLabels = { failed: 'Failed', overdue: 'Past due', due_soon: 'Due soon' } as const;
-const labelClass = 'flex flex-col gap-1 text-xs font-medium text-ink-muted';
+const inspectedKinds = ['keg', 'fermenter', 'co2_cylinder'] as const;
 
 /** The maintenance list: inspections failed, past due or due soon, most urgent first; each row opens the item to record one. */
 const MaintenanceRoute = () => {
   useDocumentTitle('Maintenance · Cellar');
-  const [params, setParams] = useSearchParams();
-  const parsed = maintenanceListQuerySchema.safeParse(Object.fromEntries(params));
-  const query: MaintenanceListQuery = parsed.success ? parsed.data : maintenanceListQuerySchema.parse({});
+  const { query, setQuery } = useListQuery(maintenanceListQuery);
   const list = useMaintenanceList(query);
-  const setQuery = (patch: Partial<Record<keyof MaintenanceListQuery, string | number | undefined>>) => {
-    const next = new URLSearchParams(params);
-    for (const [k, v] of Object.entries(patch)) {
-      if (v === undefined || v === '') next.delete(k);
-      else next.set(k, String(v));
-    }
-    if (patch.page === undefined) next.delete('page');
-    setParams(next);
-  };
   const columns = useMemo(
     () => [
       column.accessor((r) => r.equipment.code, {
@@ -63,8 +44,8 @@ const MaintenanceRoute = () => {
     data: list.data,
     columns,
     query,
-    onQueryChange: (p) => setQuery(p),
-    isSortField,
+    onQueryChange: setQuery,
+    sortFields,
     getRowId: (r) => `${r.equipment.id}-${r.kind}`,
   });
   return (
@@ -80,45 +61,34 @@ const MaintenanceRoute = () => {
         </p>
       </header>
       <div className="flex flex-wrap items-end gap-3">
-        <label className={`${labelClass} w-[calc(50%-0.375rem)] sm:w-44`}>
-          Status
-          <Select value={query.status ?? ''} onChange={(e) => setQuery({ status: e.target.value || undefined })}>
-            <option value="">All</option>
-            {maintenanceStatuses.map((s) => (
-              <option key={s} value={s}>
-                {statusLabels[s]}
-              </option>
-            ))}
-          </Select>
-        </label>
-        <label className={`${labelClass} w-[calc(50%-0.375rem)] sm:w-44`}>
-          Kind
-          <Select value={query.equipmentKind ?? ''} onChange={(e) => setQuery({ equipmentKind: e.target.value || undefined })}>
-            <option value="">All kinds</option>
-            {(['keg', 'fermenter', 'co2_cylinder'] as const).map((k) => (
-              <option key={k} value={k}>
-                {equipmentKindLabels[k]}
-              </option>
-            ))}
-          </Select>
-        </label>
+        <FilterSelect
+          label="Status"
+          muted
+          value={query.status}
+          onChange={(status) => setQuery({ status })}
+          options={maintenanceStatuses}
+          labels={statusLabels}
+          anyLabel="All"
+          className="w-[calc(50%-0.375rem)] sm:w-44"
+        />
+        <FilterSelect
+          label="Kind"
+          muted
+          value={query.equipmentKind}
+          onChange={(equipmentKind) => setQuery({ equipmentKind })}
+          options={inspectedKinds}
+          labels={equipmentKindLabels}
+          anyLabel="All kinds"
+          className="w-[calc(50%-0.375rem)] sm:w-44"
+        />
       </div>
-      <DataTable
+      <ListTable
         table={table}
         caption="Inspections due"
-        isLoading={list.isPending}
-        error={list.error}
-        onRetry={() => void list.refetch()}
-        isFetching={list.isFetching}
+        list={list}
+        query={query}
+        onQueryChange={setQuery}
         empty="Nothing failed, past due or due soon."
-      />
-      <DataTablePagination
-        page={query.page}
-        pageSize={query.pageSize}
-        total={list.data?.total ?? 0}
-        isPlaceholder={list.isPlaceholderData}
-        onPageChange={(page) => setQuery({ page })}
-        onPageSizeChange={(pageSize) => setQuery({ pageSize })}
         noun="inspections"
       />
       <p className="text-xs text-ink-muted">

@@ -1,9 +1,8 @@
-import { useState } from 'react';
 import { Link } from 'react-router-dom';
+import { ListPager, useListQuery } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
-import { DataTablePagination } from '@/components/ui/data-table';
 import { Spinner } from '@/components/ui/spinner';
-import { useOverdueKegs } from '@/features/kegs/api/kegs';
+import { overdueListQuery, useOverdueKegs } from '@/features/kegs/api/kegs';
 import { cellarPaths } from '@/config/cellar-paths';
 import { RemindKegButton } from '@/features/reminders/reminders';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -16,8 +15,8 @@ const daysLate = (due: string) => Math.max(1, Math.floor((Date.now() - new Date(
 /** Kegs past their due date, oldest first: who has them and for how long. */
 const OverdueKegsRoute = () => {
   useDocumentTitle('Overdue kegs');
-  const [page, setPage] = useState(1);
-  const overdue = useOverdueKegs({ page, pageSize: 25 });
+  const { query, setQuery } = useListQuery(overdueListQuery);
+  const overdue = useOverdueKegs(query);
   const ability = useAppAbility();
   if (overdue.isPending) return <Spinner label="Loading overdue kegs" />;
   if (overdue.isError) return <Alert tone="error">{problemMessage(overdue.error)}</Alert>;
@@ -52,7 +51,7 @@ const OverdueKegsRoute = () => {
           ))}
         </ul>
       )}
-      <DataTablePagination page={page} pageSize={25} total={overdue.data.total} onPageChange={setPage} noun={['overdue keg', 'overdue kegs']} />
+      <ListPager list={overdue} query={query} onQueryChange={setQuery} noun={['overdue keg', 'overdue kegs']} pageSizes={false} />
     </div>
   );
 };

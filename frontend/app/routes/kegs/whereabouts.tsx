@@ -1,32 +1,24 @@
 import { createColumnHelper } from '@tanstack/react-table';
-import { useServerTable } from '@/components/ui/use-server-table';
-import { useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
-import { vesselStateLabels } from '../../../../shared/schemas/equipment.ts';
 import { kegSortFields, kegWhereabouts, kegWhereaboutsLabels, type KegView } from '../../../../shared/schemas/kegs.ts';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
-import { Input, Select } from '@/components/ui/input';
-import { useKegs } from '@/features/kegs/api/kegs';
+import { FilterField, FilterGrid, FilterSelect, ListTable, SearchInput, useListQuery } from '@/components/list-kit';
+import { useServerTable } from '@/components/ui/use-server-table';
+import { kegListQuery, useKegs } from '@/features/kegs/api/kegs';
 import { FillGauge, Whereabouts } from '@/features/kegs/components/keg-bits';
 import { cellarPaths } from '@/config/cellar-paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
+import { VesselStateFilter } from '@/features/equipment/components/vessel-state-filter';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { formatAbv, formatDate } from '@/utils/format';
 
-type SortField = (typeof kegSortFields)[number];
 const column = createColumnHelper<KegView>();
 
 /** The fleet: whereabouts, state, contents; sorted, filtered and paged on the server. */
 const KegWhereaboutsRoute = () => {
   useDocumentTitle('Kegs');
-  const [sort, setSort] = useState<SortField>('code');
-  const [order, setOrder] = useState<'asc' | 'desc'>('asc');
-  const [page, setPage] = useState(1);
-  const [pageSize, setPageSize] = useState(50);
-  const [where, setWhere] = useState('');
-  const [state, setState] = useState('');
-  const [q, setQ] = useState('');
-  const kegs = useKegs({ sort, order, page, pageSize, whereabouts: (where || undefined) as never, state: (state || undefined) as never, q: q || undefined });
+  const { query, setQuery } = useListQuery(kegListQuery);
+  const kegs = useKegs(query);
 
   const columns = useMemo(
     () => [
@@ -69,60 +61,30 @@ const KegWhereaboutsRoute = () => {
     ],
     [],
   );
-  const table = useServerTable({
-    data: kegs.data,
-    columns,
-    query: { page, pageSize, sort, order },
-    onQueryChange: (q) => (setSort(q.sort), setOrder(q.order), setPage(1)),
-    isSortField: (id): id is SortField => (kegSortFields as readonly string[]).includes(id),
-    getRowId: (k) => k.id,
-  });
+  const table = useServerTable({ data: kegs.data, columns, query, onQueryChange: setQuery, sortFields: kegSortFields, getRowId: (k) => k.id });
   return (
     <div className="flex flex-col gap-3">
-      <div className="grid gap-2 sm:grid-cols-[12rem_12rem_1fr]">
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Where
-          <Select value={where} onChange={(e) => (setWhere(e.target.value), setPage(1))}>
-            <option value="">Anywhere</option>
-            {kegWhereabouts.map((w) => (
-              <option key={w} value={w}>
-                {kegWhereaboutsLabels[w]}
-              </option>
-            ))}
-          </Select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          State
-          <Select value={state} onChange={(e) => (setState(e.target.value), setPage(1))}>
-            <option value="">Any state</option>
-            {(['ready', 'needs_cleaning', 'cleaned', 'holding', 'out_of_service'] as const).map((s) => (
-              <option key={s} value={s}>
-                {vesselStateLabels[s]}
-              </option>
-            ))}
-          </Select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Find
-          <Input type="search" value={q} placeholder="Keg code or batch" onChange={(e) => (setQ(e.target.value), setPage(1))} />
-        </label>
-      </div>
-      <DataTable
+      <FilterGrid>
+        <FilterSelect
+          label="Where"
+          value={query.whereabouts}
+          onChange={(whereabouts) => setQuery({ whereabouts })}
+          options={kegWhereabouts}
+          labels={kegWhereaboutsLabels}
+          anyLabel="Anywhere"
+        />
+        <VesselStateFilter value={query.state} onChange={(state) => setQuery({ state })} anyLabel="Any state" />
+        <FilterField label="Find">
+          <SearchInput value={query.q} onSearch={(q, options) => setQuery({ q }, options)} placeholder="Keg code or batch" />
+        </FilterField>
+      </FilterGrid>
+      <ListTable
         table={table}
         caption="Kegs and where they are"
-        isLoading={kegs.isPending}
-        error={kegs.error}
-        onRetry={() => void kegs.refetch()}
-        isFetching={kegs.isFetching}
+        list={kegs}
+        query={query}
+        onQueryChange={setQuery}
         empty="No keg matches."
-      />
-      <DataTablePagination
-        page={page}
-        pageSize={pageSize}
-        total={kegs.data?.total ?? 0}
-        onPageChange={setPage}
-        onPageSizeChange={(s) => (setPageSize(s), setPage(1))}
-        isPlaceholder={kegs.isPlaceholderData}
         noun={['keg', 'kegs']}
       />
     </div>

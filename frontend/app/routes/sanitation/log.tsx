@@ -1,16 +1,15 @@
 import { createColumnHelper } from '@tanstack/react-table';
-import { useServerTable } from '@/components/ui/use-server-table';
-import { useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { sanitationStepLabels } from '../../../../shared/schemas/cellar-settings.ts';
-import { sanitationCycleSortFields, type SanitationCycleView } from '../../../../shared/schemas/sanitation.ts';
+import { cycleOutcomes, sanitationCycleSortFields, type SanitationCycleView } from '../../../../shared/schemas/sanitation.ts';
+import { FilterField, FilterGrid, FilterSelect, ListTable, SearchInput, useListQuery } from '@/components/list-kit';
 import { Badge } from '@/components/ui/badge';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
-import { Input, Select } from '@/components/ui/input';
-import { useCycles } from '@/features/sanitation/api/sanitation';
+import { useServerTable } from '@/components/ui/use-server-table';
+import { cycleListQuery, useCycles } from '@/features/sanitation/api/sanitation';
+import { VesselKindFilter } from '@/features/sanitation/components/vessel-kind-filter';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { formatDateTime } from '@/utils/format';
 
-type SortField = (typeof sanitationCycleSortFields)[number];
 const column = createColumnHelper<SanitationCycleView>();
 const outcomeTone = { ready: 'ready', cleaned: 'muted', needs_cleaning: 'due' } as const;
 const outcomeLabel = { ready: 'Complete', cleaned: 'Cleaned only', needs_cleaning: 'Incomplete' } as const;
@@ -20,14 +19,8 @@ const minutes = (m: number | null) => (m === null ? '' : m < 1 ? ` ${Math.round(
 /** The sanitation log: every cycle, newest first, sorted, filtered and paged on the server. */
 const SanitationLogRoute = () => {
   useDocumentTitle('Sanitation log');
-  const [sort, setSort] = useState<SortField>('completedAt');
-  const [order, setOrder] = useState<'asc' | 'desc'>('desc');
-  const [page, setPage] = useState(1);
-  const [pageSize, setPageSize] = useState(50);
-  const [outcome, setOutcome] = useState<'' | 'ready' | 'cleaned' | 'needs_cleaning'>('');
-  const [kind, setKind] = useState<'' | 'fermenter' | 'keg'>('');
-  const [q, setQ] = useState('');
-  const cycles = useCycles({ sort, order, page, pageSize, outcome: outcome || undefined, kind: kind || undefined, q: q || undefined });
+  const { query, setQuery } = useListQuery(cycleListQuery);
+  const cycles = useCycles(query);
 
   const columns = useMemo(
     () => [
@@ -72,55 +65,30 @@ const SanitationLogRoute = () => {
     ],
     [],
   );
-  const table = useServerTable({
-    data: cycles.data,
-    columns,
-    query: { page, pageSize, sort, order },
-    onQueryChange: (q) => (setSort(q.sort), setOrder(q.order), setPage(1)),
-    isSortField: (id): id is SortField => (sanitationCycleSortFields as readonly string[]).includes(id),
-    getRowId: (c) => c.id,
-  });
+  const table = useServerTable({ data: cycles.data, columns, query, onQueryChange: setQuery, sortFields: sanitationCycleSortFields, getRowId: (c) => c.id });
   return (
     <div className="flex flex-col gap-3">
-      <div className="grid gap-2 sm:grid-cols-[12rem_12rem_1fr]">
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Outcome
-          <Select value={outcome} onChange={(e) => (setOutcome(e.target.value as typeof outcome), setPage(1))}>
-            <option value="">Any</option>
-            <option value="ready">Complete</option>
-            <option value="cleaned">Cleaned only</option>
-            <option value="needs_cleaning">Incomplete</option>
-          </Select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Kind
-          <Select value={kind} onChange={(e) => (setKind(e.target.value as typeof kind), setPage(1))}>
-            <option value="">Fermenters and kegs</option>
-            <option value="fermenter">Fermenters</option>
-            <option value="keg">Kegs</option>
-          </Select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Vessel
-          <Input type="search" value={q} placeholder="Code or name" onChange={(e) => (setQ(e.target.value), setPage(1))} />
-        </label>
-      </div>
-      <DataTable
+      <FilterGrid>
+        <FilterSelect
+          label="Outcome"
+          value={query.outcome}
+          onChange={(outcome) => setQuery({ outcome })}
+          options={cycleOutcomes}
+          labels={outcomeLabel}
+          anyLabel="Any"
+        />
+        <VesselKindFilter value={query.kind} onChange={(kind) => setQuery({ kind })} />
+        <FilterField label="Vessel">
+          <SearchInput value={query.q} onSearch={(q, options) => setQuery({ q }, options)} placeholder="Code or name" />
+        </FilterField>
+      </FilterGrid>
+      <ListTable
         table={table}
         caption="Sanitation cycles"
-        isLoading={cycles.isPending}
-        error={cycles.error}
-        onRetry={() => void cycles.refetch()}
-        isFetching={cycles.isFetching}
+        list={cycles}
+        query={query}
+        onQueryChange={setQuery}
         empty="No cycles match."
-      />
-      <DataTablePagination
-        page={page}
-        pageSize={pageSize}
-        total={cycles.data?.total ?? 0}
-        onPageChange={setPage}
-        onPageSizeChange={(s) => (setPageSize(s), setPage(1))}
-        isPlaceholder={cycles.isPlaceholderData}
         noun={['cycle', 'cycles']}
       />
     </div>

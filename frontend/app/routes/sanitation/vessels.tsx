@@ -1,56 +1,36 @@
-import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import { vesselStateLabels, type VesselState } from '../../../../shared/schemas/equipment.ts';
+import { vesselStateLabels } from '../../../../shared/schemas/equipment.ts';
+import { FilterField, FilterGrid, FilterSelect, ListPager, SearchInput, useListQuery } from '@/components/list-kit';
 import { ButtonLink } from '@/components/ui/button';
-import { DataTablePagination, LoadError } from '@/components/ui/data-table';
-import { Input, Select } from '@/components/ui/input';
+import { LoadError } from '@/components/ui/data-table';
 import { Spinner } from '@/components/ui/spinner';
-import { useVesselStatus } from '@/features/sanitation/api/sanitation';
+import { useVesselStatus, vesselListQuery } from '@/features/sanitation/api/sanitation';
+import { VesselKindFilter } from '@/features/sanitation/components/vessel-kind-filter';
 import { cellarPaths } from '@/config/cellar-paths';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
 import { formatDateTime } from '@/utils/format';
 
-const states: VesselState[] = ['needs_cleaning', 'cleaned', 'ready', 'holding', 'out_of_service'];
+const states = ['any', 'needs_cleaning', 'cleaned', 'ready', 'holding', 'out_of_service'] as const;
+const stateLabels = { any: 'Any state', ...vesselStateLabels };
 
 /** Every fermenter and keg with its sanitation standing; the ones to clean first. */
 const SanitationVesselsRoute = () => {
   useDocumentTitle('Sanitation');
   const ability = useAppAbility();
-  const [kind, setKind] = useState<'' | 'fermenter' | 'keg'>('');
-  const [state, setState] = useState<string>('needs_cleaning');
-  const [q, setQ] = useState('');
-  const [page, setPage] = useState(1);
-  const list = useVesselStatus({ kind: kind || undefined, state: state || undefined, q: q || undefined, sort: 'code', order: 'asc', page, pageSize: 25 });
+  const { query, setQuery } = useListQuery(vesselListQuery);
+  const list = useVesselStatus({ ...query, state: query.state === 'any' ? undefined : query.state });
   const canRecord = ability.can('create', 'SanitationCycle');
   return (
     <div className="flex flex-col gap-3">
-      <div className="grid gap-2 sm:grid-cols-[12rem_12rem_1fr]">
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          State
-          <Select value={state} onChange={(e) => (setState(e.target.value), setPage(1))}>
-            <option value="">Any state</option>
-            {states.map((s) => (
-              <option key={s} value={s}>
-                {vesselStateLabels[s]}
-              </option>
-            ))}
-          </Select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Kind
-          <Select value={kind} onChange={(e) => (setKind(e.target.value as typeof kind), setPage(1))}>
-            <option value="">Fermenters and kegs</option>
-            <option value="fermenter">Fermenters</option>
-            <option value="keg">Kegs</option>
-          </Select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Find
-          <Input type="search" value={q} placeholder="Code or name, e.g. K-012" onChange={(e) => (setQ(e.target.value), setPage(1))} />
-        </label>
-      </div>
+      <FilterGrid>
+        <FilterSelect label="State" value={query.state} onChange={(state) => setQuery({ state })} options={states} labels={stateLabels} anyLabel={null} />
+        <VesselKindFilter value={query.kind} onChange={(kind) => setQuery({ kind })} />
+        <FilterField label="Find">
+          <SearchInput value={query.q} onSearch={(q, options) => setQuery({ q }, options)} placeholder="Code or name, e.g. K-012" />
+        </FilterField>
+      </FilterGrid>
       {list.isError && !list.isFetching ? (
         <LoadError what="The vessels" error={list.error} onRetry={() => void list.refetch()} />
       ) : list.isPending || (list.isError && list.isFetching) ? (
@@ -89,14 +69,7 @@ const SanitationVesselsRoute = () => {
           ))}
         </ul>
       )}
-      <DataTablePagination
-        page={page}
-        pageSize={25}
-        total={list.data?.total ?? 0}
-        onPageChange={setPage}
-        noun={['vessel', 'vessels']}
-        isPlaceholder={list.isPlaceholderData}
-      />
+      <ListPager list={list} query={query} onQueryChange={setQuery} noun={['vessel', 'vessels']} pageSizes={false} />
     </div>
   );
 };

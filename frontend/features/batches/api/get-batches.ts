@@ -1,24 +1,13 @@
-import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
-import type { BatchListItem, BatchListQuery } from '../../../../shared/schemas/batches.ts';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import { api } from '@/lib/api-client';
+import { useQuery } from '@tanstack/react-query';
+import { batchListQuerySchema, type BatchListItem, type BatchListQuery } from '../../../../shared/schemas/batches.ts';
+import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
+import { batchKeys } from '@/features/batches/api/keys';
 
-export const batchKeys = {
-  all: ['batches'] as const,
-  list: (query: BatchListQuery) => [...batchKeys.all, 'list', query] as const,
-  detail: (id: string) => [...batchKeys.all, 'detail', id] as const,
-  readings: (id: string, query: object) => [...batchKeys.all, 'detail', id, 'readings', query] as const,
-};
-
-export const getBatches = (query: BatchListQuery, signal?: AbortSignal) =>
-  api.get<Page<BatchListItem>>('/api/batches', { query: { ...query, mine: query.mine ? 1 : undefined }, ...(signal ? { signal } : {}) });
+/** The batches list's state in the URL: newest first unless sorted otherwise. */
+export const batchListQuery = defineListQuery(batchListQuerySchema, { order: 'desc' });
 
 export const getBatchesQueryOptions = (query: BatchListQuery) =>
-  queryOptions({
-    queryKey: batchKeys.list(query),
-    queryFn: ({ signal }) => getBatches(query, signal),
-    placeholderData: keepPreviousData,
-  });
+  pageQueryOptions<BatchListItem>(batchKeys.list(query), '/api/batches', { ...query, mine: query.mine ? 1 : undefined });
 
 export function useBatches(query: BatchListQuery) {
   return useQuery(getBatchesQueryOptions(query));

@@ -1,11 +1,11 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import type { BatchTrace, TraceReport } from '../../../../shared/schemas/trace.ts';
 import { api, buildUrl } from '@/lib/api-client';
-import { batchKeys } from '@/features/batches/api/get-batches';
+import { batchKeys } from '@/features/batches/api/keys';
 
 export const getBatchTraceQueryOptions = (id: string) =>
   queryOptions({
-    queryKey: [...batchKeys.detail(id), 'trace'],
+    queryKey: batchKeys.trace(id),
     queryFn: ({ signal }) => api.get<BatchTrace>(`/api/batches/${encodeURIComponent(id)}/trace`, { signal }),
   });
 
@@ -18,7 +18,7 @@ export const batchTraceHref = (id: string, format: 'csv' | 'pdf') => `/api/batch
 
 export const getTraceReportQueryOptions = (from: string, to: string) =>
   queryOptions({
-    queryKey: ['trace-report', { from, to }],
+    queryKey: batchKeys.traceReport(from, to),
     queryFn: ({ signal }) => api.get<TraceReport>('/api/reports/trace', { query: { from, to }, signal }),
     placeholderData: keepPreviousData,
   });

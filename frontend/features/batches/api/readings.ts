@@ -2,7 +2,7 @@ import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient }
 import type { CreateReadingInput, ReadingDto } from '../../../../shared/schemas/batches.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { api } from '@/lib/api-client';
-import { batchKeys } from '@/features/batches/api/get-batches';
+import { batchKeys } from '@/features/batches/api/keys';
 
 export interface ReadingsQuery {
   page: number;
@@ -27,7 +27,7 @@ function useInvalidateBatch(batchId: string) {
   const queryClient = useQueryClient();
   return () => {
     void queryClient.invalidateQueries({ queryKey: batchKeys.detail(batchId) });
-    void queryClient.invalidateQueries({ queryKey: [...batchKeys.all, 'list'] });
+    void queryClient.invalidateQueries({ queryKey: batchKeys.lists() });
   };
 }
 

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { BatchDetail, CreateBatchInput, UpdateBatchInput } from '../../../../shared/schemas/batches.ts';
 import { api } from '@/lib/api-client';
-import { batchKeys } from '@/features/batches/api/get-batches';
+import { batchKeys } from '@/features/batches/api/keys';
 
 export const createBatch = (input: CreateBatchInput) => api.post<{ batch: BatchDetail }>('/api/batches', input).then((r) => r.batch);
 export const updateBatch = (id: string, input: UpdateBatchInput) =>
@@ -13,7 +13,7 @@ export function useCreateBatch() {
     mutationFn: createBatch,
     onSuccess: (batch) => {
       queryClient.setQueryData(batchKeys.detail(batch.id), batch);
-      void queryClient.invalidateQueries({ queryKey: [...batchKeys.all, 'list'] });
+      void queryClient.invalidateQueries({ queryKey: batchKeys.lists() });
     },
   });
 }
@@ -24,7 +24,7 @@ export function useUpdateBatch(id: string) {
     mutationFn: (input: UpdateBatchInput) => updateBatch(id, input),
     onSuccess: (batch) => {
       queryClient.setQueryData(batchKeys.detail(batch.id), batch);
-      void queryClient.invalidateQueries({ queryKey: [...batchKeys.all, 'list'] });
+      void queryClient.invalidateQueries({ queryKey: batchKeys.lists() });
     },
   });
 }

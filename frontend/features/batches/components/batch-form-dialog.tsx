@@ -18,6 +18,7 @@ import { api } from '@/lib/api-client';
 import { fromDisplay, toDisplay } from '@/lib/units';
 import { formatDate } from '@/utils/format';
 import { applyProblemToForm } from '@/utils/problem-form';
+import { bookingKeys } from '@/features/bookings/api/keys';
 
 /** What the form holds: the volume in the person's units, gravities as typed. */
 const formSchema = z
@@ -44,7 +45,7 @@ const numberOrNull = (v: unknown) =>
 
 function useFermenterBookings(ownerId: string | undefined, mine: boolean) {
   return useQuery({
-    queryKey: ['bookings', 'fermenters-for-batch', ownerId ?? 'me'],
+    queryKey: bookingKeys.fermentersForBatch(ownerId),
     queryFn: ({ signal }) =>
       api.get<Page<Booking>>('/api/bookings', {
         query: { kind: 'fermenter', pageSize: 100, sort: 'startsAt', order: 'desc', ...(mine ? { mine: 1 } : { ownerId }) },

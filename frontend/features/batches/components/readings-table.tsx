@@ -1,11 +1,12 @@
 import { createColumnHelper } from '@tanstack/react-table';
-import { useServerTable } from '@/components/ui/use-server-table';
+import { z } from 'zod';
 import { useMemo, useState } from 'react';
-import { gravityUnitLabels, type BatchDetail, type ReadingDto } from '../../../../shared/schemas/batches.ts';
+import { gravityUnitLabels, readingSortFields, type BatchDetail, type ReadingDto } from '../../../../shared/schemas/batches.ts';
+import { applyListPatch, defineListQuery, ListTable, pagingQuerySchema, type ListPatch } from '@/components/list-kit';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { useServerTable } from '@/components/ui/use-server-table';
 import { useDeleteReading, useReadings, type ReadingsQuery } from '@/features/batches/api/readings';
 import { formatSg } from '@/features/batches/components/gravity-format';
 import { useUnits } from '@/hooks/use-units';
@@ -13,12 +14,16 @@ import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 const column = createColumnHelper<ReadingDto>();
-const sortable = new Set(['takenAt', 'gravitySg', 'temperatureC', 'createdAt']);
+/** The readings sit on the batch's page, so their paging and sort stay with the table (newest first, 25 a page). */
+const readingsQuery = defineListQuery(
+  pagingQuerySchema(25).extend({ sort: z.enum(readingSortFields).default('takenAt'), order: z.enum(['asc', 'desc']).default('desc') }),
+);
 
 /** The batch's readings, paged and sorted on the server (a digital hydrometer logs thousands). */
 export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
   const units = useUnits();
-  const [query, setQuery] = useState<ReadingsQuery>({ page: 1, pageSize: 25, sort: 'takenAt', order: 'desc' });
+  const [query, setQueryState] = useState<ReadingsQuery>(readingsQuery.defaults);
+  const setQuery = (patch: ListPatch<ReadingsQuery>) => setQueryState((current) => applyListPatch(readingsQuery, current, patch));
   const readings = useReadings(batch.id, query);
   const remove = useDeleteReading(batch.id);
   const [deleting, setDeleting] = useState<ReadingDto | null>(null);
@@ -102,32 +107,16 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
     ],
     [units, batch.can.deleteReading],
   );
-  const table = useServerTable({
-    data: readings.data,
-    columns,
-    query,
-    onQueryChange: (q) => setQuery((prev) => ({ ...prev, ...q, page: 1 })),
-    isSortField: (id): id is ReadingsQuery['sort'] => sortable.has(id),
-    getRowId: (r) => r.id,
-  });
+  const table = useServerTable({ data: readings.data, columns, query, onQueryChange: setQuery, sortFields: readingSortFields, getRowId: (r) => r.id });
   return (
     <div className="flex flex-col gap-3">
-      <DataTable
+      <ListTable
         table={table}
         caption={`Readings of ${batch.name}`}
-        isLoading={readings.isPending}
-        isFetching={readings.isFetching}
-        error={readings.error}
-        onRetry={() => void readings.refetch()}
+        list={readings}
+        query={query}
+        onQueryChange={setQuery}
         empty="No readings yet."
-      />
-      <DataTablePagination
-        page={query.page}
-        pageSize={query.pageSize}
-        total={readings.data?.total ?? 0}
-        isPlaceholder={readings.isPlaceholderData}
-        onPageChange={(page) => setQuery((q) => ({ ...q, page }))}
-        onPageSizeChange={(pageSize) => setQuery((q) => ({ ...q, pageSize, page: 1 }))}
         noun="readings"
       />
       <ConfirmDialog

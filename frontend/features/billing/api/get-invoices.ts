@@ -1,18 +1,12 @@
-import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
-import type { InvoiceListQuery, InvoiceSummary } from '../../../../shared/schemas/billing.ts';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { useQuery } from '@tanstack/react-query';
+import { invoiceListQuerySchema, type InvoiceListQuery, type InvoiceSummary } from '../../../../shared/schemas/billing.ts';
+import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
 import { billingKeys } from '@/features/billing/api/keys';
-import { api } from '@/lib/api-client';
 
-export const getInvoices = (query: InvoiceListQuery, signal?: AbortSignal) =>
-  api.get<Page<InvoiceSummary>>('/api/invoices', { query: { ...query }, ...(signal ? { signal } : {}) });
+/** The invoice lists' state in the URL: newest first unless sorted otherwise. */
+export const invoiceListQuery = defineListQuery(invoiceListQuerySchema, { sort: 'createdAt', order: 'desc' });
 
-export const getInvoicesQueryOptions = (query: InvoiceListQuery) =>
-  queryOptions({
-    queryKey: billingKeys.invoiceList(query),
-    queryFn: ({ signal }) => getInvoices(query, signal),
-    placeholderData: keepPreviousData,
-  });
+export const getInvoicesQueryOptions = (query: InvoiceListQuery) => pageQueryOptions<InvoiceSummary>(billingKeys.invoiceList(query), '/api/invoices', query);
 
 export function useInvoices(query: InvoiceListQuery) {
   return useQuery(getInvoicesQueryOptions(query));

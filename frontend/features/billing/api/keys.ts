@@ -14,4 +14,6 @@ export const billingKeys = {
   profile: () => [...billingKeys.all, 'profile'] as const,
   manualCharges: (period?: string) => [...billingKeys.all, 'manual-charges', period ?? 'all'] as const,
   balance: (memberId?: string) => [...billingKeys.all, 'balance', memberId ?? 'me'] as const,
+  reminders: () => [...billingKeys.all, 'reminders'] as const,
+  openOverpayments: () => [...billingKeys.all, 'overpayments', 'open'] as const,
 };

@@ -4,6 +4,7 @@ import type { Page } from '../../../../shared/schemas/pagination.ts';
 import type { User } from '../../../../shared/schemas/user.ts';
 import { billingKeys } from '@/features/billing/api/keys';
 import { api } from '@/lib/api-client';
+import { userKeys } from '@/features/users/api/keys';
 
 export { manualChargeInputSchema };
 
@@ -33,7 +34,7 @@ export function useRemoveManualCharge() {
 /** The members a treasurer bills, for pickers (everyone holding the member role). */
 export function useBillableMembers() {
   return useQuery({
-    queryKey: ['users', 'billable-members'],
+    queryKey: userKeys.billableMembers(),
     queryFn: ({ signal }) =>
       api.get<Page<User>>('/api/users', { query: { role: 'member', pageSize: 100, sort: 'name', order: 'asc' }, signal }).then((p) => p.items),
     staleTime: 5 * 60_000,

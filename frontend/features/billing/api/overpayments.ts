@@ -6,7 +6,7 @@ import { api } from '@/lib/api-client';
 
 export const getOpenOverpaymentsQueryOptions = () =>
   queryOptions({
-    queryKey: [...billingKeys.all, 'overpayments', 'open'] as const,
+    queryKey: billingKeys.openOverpayments(),
     queryFn: ({ signal }) => api.get<Page<Overpayment>>('/api/billing/overpayments', { query: { open: 'true' }, signal }),
   });
 

@@ -1,35 +1,22 @@
 import { createColumnHelper } from '@tanstack/react-table';
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
 import { invoiceSortFields, invoiceStatuses, invoiceStatusLabels, type InvoiceListQuery, type InvoiceSummary } from '../../../../shared/schemas/billing.ts';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { FilterField, FilterSelect, ListTable, SearchInput, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { useServerTable } from '@/components/ui/use-server-table';
 import { Input, Select } from '@/components/ui/input';
 import { invoiceHref } from '@/config/paths';
 import { useBillableMembers } from '@/features/billing/api/manual-charges';
 import { InvoiceStatusBadge } from '@/features/billing/components/invoice-status-badge';
 import { Money } from '@/features/billing/components/money';
-import type { InvoiceListQueryPatch } from '@/features/billing/hooks/use-invoices-search-params';
 import { formatDate } from '@/utils/format';
 
-type SortField = (typeof invoiceSortFields)[number];
-const isSortField = (id: string): id is SortField => (invoiceSortFields as readonly string[]).includes(id);
 const column = createColumnHelper<InvoiceSummary>();
 
-export interface InvoicesTableProps {
-  query: InvoiceListQuery;
-  data: Page<InvoiceSummary> | undefined;
-  isLoading: boolean;
-  /** The last load failed: the table shows it with Retry instead of its empty text. */
-  error?: unknown;
-  onRetry?: () => void;
-  isFetching: boolean;
-  isPlaceholderData: boolean;
+export interface InvoicesTableProps extends ListProps<InvoiceSummary, InvoiceListQuery> {
   hasFilters: boolean;
-  onQueryChange: (patch: InvoiceListQueryPatch, options?: { replace?: boolean }) => void;
   /** Where a row's number links to. */
   hrefFor?: (invoice: InvoiceSummary) => string;
   /** The member's own view: no member column or member filter. */
@@ -39,8 +26,7 @@ export interface InvoicesTableProps {
 const MemberFilter = ({ value, onChange }: { value: string | undefined; onChange: (memberId: string | undefined) => void }) => {
   const members = useBillableMembers();
   return (
-    <label className="flex flex-col gap-1 text-sm font-medium">
-      Member
+    <FilterField label="Member">
       <Select value={value ?? ''} onChange={(e) => onChange(e.target.value || undefined)} className="w-56">
         <option value="">Everyone</option>
         {(members.data ?? []).map((m) => (
@@ -49,7 +35,7 @@ const MemberFilter = ({ value, onChange }: { value: string | undefined; onChange
           </option>
         ))}
       </Select>
-    </label>
+    </FilterField>
   );
 };
 
@@ -57,74 +43,46 @@ export const InvoicesToolbar = ({
   query,
   onQueryChange,
   hasFilters,
+  onClearFilters,
   own = false,
-}: Pick<InvoicesTableProps, 'query' | 'onQueryChange' | 'hasFilters' | 'own'>) => {
-  const [text, setText] = useState(query.q ?? '');
-  useEffect(() => setText(query.q ?? ''), [query.q]);
-  useEffect(() => {
-    if ((query.q ?? '') === text.trim()) return;
-    const t = setTimeout(() => onQueryChange({ q: text.trim() || undefined }, { replace: true }), 300);
-    return () => clearTimeout(t);
-  }, [text, query.q, onQueryChange]);
-  return (
-    <div role="search" aria-label="Filter invoices" className="flex flex-wrap items-end gap-3">
-      {!own ? (
-        <label className="flex min-w-52 flex-1 flex-col gap-1 text-sm font-medium">
-          Search
-          <Input type="search" value={text} placeholder="Number, member or e-mail" onChange={(e) => setText(e.target.value)} />
-        </label>
-      ) : null}
-      <label className="flex flex-col gap-1 text-sm font-medium">
-        Period
-        <Input type="month" value={query.period ?? ''} onChange={(e) => onQueryChange({ period: e.target.value || undefined })} className="w-44" />
-      </label>
-      <label className="flex flex-col gap-1 text-sm font-medium">
-        Status
-        <Select
-          value={query.status ?? ''}
-          onChange={(e) => onQueryChange({ status: (e.target.value || undefined) as InvoiceListQuery['status'] })}
-          className="w-36"
-        >
-          <option value="">Any</option>
-          {invoiceStatuses.map((s) => (
-            <option key={s} value={s}>
-              {invoiceStatusLabels[s]}
-            </option>
-          ))}
-        </Select>
-      </label>
-      {!own ? <MemberFilter value={query.memberId} onChange={(memberId) => onQueryChange({ memberId })} /> : null}
-      <label className="flex min-h-11 items-center gap-2 text-sm md:min-h-9">
-        <input
-          type="checkbox"
-          className="size-4 accent-copper"
-          checked={query.unpaid === true}
-          onChange={(e) => onQueryChange({ unpaid: e.target.checked || undefined })}
-        />
-        Only unpaid
-      </label>
-      {hasFilters ? (
-        <Button variant="ghost" onClick={() => onQueryChange({ q: undefined, period: undefined, status: undefined, memberId: undefined, unpaid: undefined })}>
-          Clear filters
-        </Button>
-      ) : null}
-    </div>
-  );
-};
+}: Pick<InvoicesTableProps, 'query' | 'onQueryChange' | 'hasFilters' | 'own'> & { onClearFilters: () => void }) => (
+  <div role="search" aria-label="Filter invoices" className="flex flex-wrap items-end gap-3">
+    {!own ? (
+      <FilterField label="Search" className="min-w-52 flex-1">
+        <SearchInput value={query.q} onSearch={(q, options) => onQueryChange({ q }, options)} placeholder="Number, member or e-mail" />
+      </FilterField>
+    ) : null}
+    <FilterField label="Period">
+      <Input type="month" value={query.period ?? ''} onChange={(e) => onQueryChange({ period: e.target.value || undefined })} className="w-44" />
+    </FilterField>
+    <FilterSelect
+      label="Status"
+      value={query.status}
+      onChange={(status) => onQueryChange({ status })}
+      options={invoiceStatuses}
+      labels={invoiceStatusLabels}
+      anyLabel="Any"
+      selectClassName="w-36"
+    />
+    {!own ? <MemberFilter value={query.memberId} onChange={(memberId) => onQueryChange({ memberId })} /> : null}
+    <label className="flex min-h-11 items-center gap-2 text-sm md:min-h-9">
+      <input
+        type="checkbox"
+        className="size-4 accent-copper"
+        checked={query.unpaid === true}
+        onChange={(e) => onQueryChange({ unpaid: e.target.checked || undefined })}
+      />
+      Only unpaid
+    </label>
+    {hasFilters ? (
+      <Button variant="ghost" onClick={onClearFilters}>
+        Clear filters
+      </Button>
+    ) : null}
+  </div>
+);
 
-export const InvoicesTable = ({
-  query,
-  data,
-  isLoading,
-  error,
-  onRetry,
-  isFetching,
-  isPlaceholderData,
-  hasFilters,
-  onQueryChange,
-  hrefFor,
-  own = false,
-}: InvoicesTableProps) => {
+export const InvoicesTable = ({ query, list, hasFilters, onQueryChange, hrefFor, own = false }: InvoicesTableProps) => {
   const columns = useMemo(
     () => [
       column.accessor('number', {
@@ -183,30 +141,18 @@ export const InvoicesTable = ({
     [hrefFor, own],
   );
 
-  const table = useServerTable({ data, columns, query, onQueryChange, isSortField, getRowId: (r) => r.id });
+  const table = useServerTable({ data: list.data, columns, query, onQueryChange, sortFields: invoiceSortFields, getRowId: (r) => r.id });
 
   return (
-    <div className="flex flex-col gap-3">
-      <DataTable
-        table={table}
-        caption="Invoices"
-        isLoading={isLoading}
-        error={error}
-        onRetry={onRetry}
-        isFetching={isFetching}
-        rowClassName={(row) => (row.original.status === 'void' ? 'text-ink-muted' : undefined)}
-        empty={hasFilters ? 'No invoice matches these filters.' : 'No invoices yet.'}
-      />
-      <DataTablePagination
-        failed={Boolean(error)}
-        page={query.page}
-        pageSize={query.pageSize}
-        total={data?.total ?? 0}
-        isPlaceholder={isPlaceholderData}
-        onPageChange={(page) => onQueryChange({ page })}
-        onPageSizeChange={(pageSize) => onQueryChange({ pageSize })}
-        noun={['invoice', 'invoices']}
-      />
-    </div>
+    <ListTable
+      table={table}
+      caption="Invoices"
+      list={list}
+      query={query}
+      onQueryChange={onQueryChange}
+      rowClassName={(row) => (row.original.status === 'void' ? 'text-ink-muted' : undefined)}
+      empty={hasFilters ? 'No invoice matches these filters.' : 'No invoices yet.'}
+      noun={['invoice', 'invoices']}
+    />
   );
 };

@@ -1,6 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { bookingKeys } from '@/features/bookings/api/get-bookings';
+import { bookingKeys } from '@/features/bookings/api/keys';
 import { api } from '@/lib/api-client';
+import { equipmentKeys } from '@/features/equipment/api/keys';
 
 export const cancelBooking = (id: string) => api.delete<void>(`/api/bookings/${encodeURIComponent(id)}`);
 
@@ -10,7 +11,7 @@ export function useCancelBooking() {
     mutationFn: cancelBooking,
     onSuccess: async () => {
       await queryClient.invalidateQueries({ queryKey: bookingKeys.all });
-      await queryClient.invalidateQueries({ queryKey: ['equipment'] });
+      await queryClient.invalidateQueries({ queryKey: equipmentKeys.all });
     },
   });
 }

@@ -1,7 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { Booking, CreateBookingInput } from '../../../../shared/schemas/booking.ts';
-import { bookingKeys } from '@/features/bookings/api/get-bookings';
+import { bookingKeys } from '@/features/bookings/api/keys';
 import { api } from '@/lib/api-client';
+import { equipmentKeys } from '@/features/equipment/api/keys';
 
 export { createBookingSchema } from '../../../../shared/schemas/booking.ts';
 
@@ -13,7 +14,7 @@ export function useCreateBooking() {
     mutationFn: createBooking,
     onSuccess: async () => {
       await queryClient.invalidateQueries({ queryKey: bookingKeys.all });
-      await queryClient.invalidateQueries({ queryKey: ['equipment'] });
+      await queryClient.invalidateQueries({ queryKey: equipmentKeys.all });
     },
   });
 }

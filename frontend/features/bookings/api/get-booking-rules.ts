@@ -1,6 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { BookingRules } from '../../../../shared/schemas/settings.ts';
-import { bookingKeys } from '@/features/bookings/api/get-bookings';
+import { bookingKeys } from '@/features/bookings/api/keys';
 import { api } from '@/lib/api-client';
 
 export const getBookingRulesQueryOptions = () =>

@@ -2,14 +2,8 @@ import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query'
 import type { Booking, BookingListQuery } from '../../../../shared/schemas/booking.ts';
 import type { EquipmentKind } from '../../../../shared/schemas/equipment.ts';
 import { maxPageSize, type Page } from '../../../../shared/schemas/pagination.ts';
+import { bookingKeys } from '@/features/bookings/api/keys';
 import { api } from '@/lib/api-client';
-
-export const bookingKeys = {
-  all: ['bookings'] as const,
-  list: (query: Partial<BookingListQuery>) => [...bookingKeys.all, 'list', query] as const,
-  range: (from: string, to: string, kind?: EquipmentKind) => [...bookingKeys.all, 'range', { from, to, kind }] as const,
-  rules: () => [...bookingKeys.all, 'rules'] as const,
-};
 
 export const getBookings = (query: Partial<BookingListQuery>, signal?: AbortSignal) =>
   api.get<Page<Booking>>('/api/bookings', { query: { ...query, mine: query.mine ? 1 : undefined }, ...(signal ? { signal } : {}) });

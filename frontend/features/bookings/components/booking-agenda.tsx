@@ -4,7 +4,8 @@ import type { Booking } from '../../../../shared/schemas/booking.ts';
 import type { Equipment, EquipmentKind } from '../../../../shared/schemas/equipment.ts';
 import { Button } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
-import { bookingKeys, getBookingsInRange } from '@/features/bookings/api/get-bookings';
+import { getBookingsInRange } from '@/features/bookings/api/get-bookings';
+import { bookingKeys } from '@/features/bookings/api/keys';
 import { colours } from '@/features/bookings/components/booking-calendar';
 import { formatDate, formatDayMonth, formatTime, formatWeekday } from '@/utils/format';
 
@@ -56,7 +57,7 @@ export const BookingAgenda = ({ items, kind, version, canBook, onPick, onError }
   const from = weekStart.toISOString();
   const to = weekEnd.toISOString();
   const bookings = useQuery({
-    queryKey: [...bookingKeys.range(from, to, kind), version],
+    queryKey: bookingKeys.range(from, to, kind, version),
     queryFn: ({ signal }) => getBookingsInRange(from, to, kind, signal),
   });
   const { error } = bookings;

@@ -15,6 +15,7 @@ import { canOnEvery, useAppAbility } from '@/lib/ability';
 import { api, isApiProblem } from '@/lib/api-client';
 import { useSessionUser } from '@/lib/auth';
 import { applyProblemToForm } from '@/utils/problem-form';
+import { userKeys } from '@/features/users/api/keys';
 
 /** `2026-12-07T09:00` in the browser's time zone, as a datetime-local input shows it. */
 export function toLocalInput(iso: string): string {
@@ -70,7 +71,7 @@ const BookingForm = ({
   // The admin may book for any member; everyone else books for themself.
   const forAnyone = canOnEvery(useAppAbility(), 'create', 'Booking');
   const members = useQuery({
-    queryKey: ['users', 'list', { role: 'member', active: true, pageSize: 100, for: 'booking' }],
+    queryKey: userKeys.list({ role: 'member', active: true, pageSize: 100, for: 'booking' }),
     queryFn: ({ signal }) =>
       api.get<{ items: { id: string; name: string; email: string }[] }>('/api/users', {
         query: { role: 'member', active: 'true', pageSize: 100, sort: 'name' },

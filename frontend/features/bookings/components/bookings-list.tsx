@@ -4,7 +4,8 @@ import { bookingStateLabels, type Booking } from '../../../../shared/schemas/boo
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { DataTablePagination, LoadError } from '@/components/ui/data-table';
+import { ListPager, pagingQuerySchema, useListQuery, defineListQuery } from '@/components/list-kit';
+import { LoadError } from '@/components/ui/data-table';
 import { Dialog } from '@/components/ui/dialog';
 import { useNotice } from '@/components/ui/notice';
 import { Spinner } from '@/components/ui/spinner';
@@ -14,6 +15,10 @@ import { subject } from '../../../../shared/permissions/ability.ts';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
+import { queryBooleanSchema } from '../../../../shared/schemas/pagination.ts';
+
+/** The list's page, page size and "include past bookings" live in the URL. */
+const bookingsListQuery = defineListQuery(pagingQuerySchema(25).extend({ past: queryBooleanSchema }));
 
 const stateTone = { booked: 'copper', in_use: 'neutral', finished: 'muted', cancelled: 'muted' } as const;
 
@@ -25,9 +30,9 @@ export interface BookingsListProps {
 /** Bookings as a list, newest start first, paged on the server, with cancel where allowed. */
 export const BookingsList = ({ mine }: BookingsListProps) => {
   const ability = useAppAbility();
-  const [page, setPage] = useState(1);
-  const [pageSize, setPageSize] = useState(25);
-  const [showPast, setShowPast] = useState(false);
+  const { query, setQuery } = useListQuery(bookingsListQuery);
+  const { page, pageSize } = query;
+  const showPast = query.past === true;
   // "Upcoming" starts an hour before the list was opened, fixed for as long as it stays open: a start
   // read from the clock at every render would make every render a new query (and each answer a render).
   const [since] = useState(() => new Date(Math.floor((Date.now() - 3600_000) / 60_000) * 60_000).toISOString());
@@ -40,7 +45,7 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
     <div className="flex flex-col gap-3">
       <div className="flex flex-wrap items-center gap-3">
         <label className="flex items-center gap-2 text-sm">
-          <input type="checkbox" className="size-4 accent-copper" checked={showPast} onChange={(e) => (setShowPast(e.target.checked), setPage(1))} />
+          <input type="checkbox" className="size-4 accent-copper" checked={showPast} onChange={(e) => setQuery({ past: e.target.checked || undefined })} />
           Include past bookings
         </label>
         {list.isFetching ? <Spinner className="size-4" label="Loading" /> : null}
@@ -115,16 +120,7 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
           </tbody>
         </table>
       </div>
-      <DataTablePagination
-        page={page}
-        pageSize={pageSize}
-        total={list.data?.total ?? 0}
-        isPlaceholder={list.isPlaceholderData}
-        onPageChange={setPage}
-        onPageSizeChange={(size) => (setPageSize(size), setPage(1))}
-        pageSizeOptions={[25, 50, 100]}
-        noun="bookings"
-      />
+      <ListPager list={list} query={query} onQueryChange={setQuery} noun="bookings" />
       <CancelDialog
         booking={cancelling}
         onClose={() => setCancelling(null)}

@@ -2,17 +2,19 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CarbonationPlanView, CreateCarbonationPlanInput } from '../../../../shared/schemas/carbonation.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { api } from '@/lib/api-client';
+import { carbonationKeys } from '@/features/carbonation/api/keys';
+import { kegKeys } from '@/features/kegs/api/keys';
 
 export const usePlansForKeg = (kegId: string, enabled = true) =>
   useQuery({
-    queryKey: ['carbonation', 'keg', kegId],
+    queryKey: carbonationKeys.keg(kegId),
     queryFn: ({ signal }) => api.get<Page<CarbonationPlanView>>('/api/carbonation-plans', { query: { kegId, pageSize: 20 }, signal }),
     enabled: enabled && Boolean(kegId),
   });
 
 export const useLowerDuePlans = (enabled = true) =>
   useQuery({
-    queryKey: ['carbonation', 'lower-due'],
+    queryKey: carbonationKeys.lowerDue(),
     queryFn: ({ signal }) =>
       api.get<Page<CarbonationPlanView>>('/api/carbonation-plans', { query: { lowerDue: 'true', sort: 'lowerPressureAt', order: 'asc' }, signal }),
     enabled,
@@ -20,7 +22,7 @@ export const useLowerDuePlans = (enabled = true) =>
 
 function useInvalidate() {
   const queryClient = useQueryClient();
-  return () => Promise.all([queryClient.invalidateQueries({ queryKey: ['carbonation'] }), queryClient.invalidateQueries({ queryKey: ['kegs'] })]);
+  return () => Promise.all([queryClient.invalidateQueries({ queryKey: carbonationKeys.all }), queryClient.invalidateQueries({ queryKey: kegKeys.all })]);
 }
 
 export function useCreatePlan() {

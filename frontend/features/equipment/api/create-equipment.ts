@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CreateEquipmentInput, Equipment, EquipmentKind } from '../../../../shared/schemas/equipment.ts';
-import { equipmentKeys } from '@/features/equipment/api/get-equipment-list';
+import { equipmentKeys } from '@/features/equipment/api/keys';
 import { api } from '@/lib/api-client';
 
 export const createEquipment = (input: CreateEquipmentInput) => api.post<{ equipment: Equipment }>('/api/equipment', input);
@@ -20,7 +20,7 @@ export const getNextEquipmentCode = (kind: EquipmentKind, signal?: AbortSignal) 
 /** The next free label code for a kind (a hint: the server's unique code is the guarantee). */
 export function useNextEquipmentCode(kind: EquipmentKind, enabled = true) {
   return useQuery({
-    queryKey: [...equipmentKeys.all, 'next-code', kind] as const,
+    queryKey: equipmentKeys.nextCode(kind),
     queryFn: ({ signal }) => getNextEquipmentCode(kind, signal),
     enabled,
     staleTime: 0,

@@ -1,23 +1,12 @@
-import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
-import type { Equipment, EquipmentListQuery } from '../../../../shared/schemas/equipment.ts';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import { api } from '@/lib/api-client';
+import { useQuery } from '@tanstack/react-query';
+import { equipmentListQuerySchema, type Equipment, type EquipmentListQuery } from '../../../../shared/schemas/equipment.ts';
+import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
+import { equipmentKeys } from '@/features/equipment/api/keys';
 
-export const equipmentKeys = {
-  all: ['equipment'] as const,
-  list: (query: EquipmentListQuery) => [...equipmentKeys.all, 'list', query] as const,
-  detail: (id: string) => [...equipmentKeys.all, 'detail', id] as const,
-};
+/** The Cellar list's state in the URL. */
+export const equipmentListQuery = defineListQuery(equipmentListQuerySchema);
 
-export const getEquipmentList = (query: EquipmentListQuery, signal?: AbortSignal) =>
-  api.get<Page<Equipment>>('/api/equipment', { query: { ...query }, ...(signal ? { signal } : {}) });
-
-export const getEquipmentListQueryOptions = (query: EquipmentListQuery) =>
-  queryOptions({
-    queryKey: equipmentKeys.list(query),
-    queryFn: ({ signal }) => getEquipmentList(query, signal),
-    placeholderData: keepPreviousData,
-  });
+export const getEquipmentListQueryOptions = (query: EquipmentListQuery) => pageQueryOptions<Equipment>(equipmentKeys.list(query), '/api/equipment', query);
 
 export function useEquipmentList(query: EquipmentListQuery, enabled = true) {
   return useQuery({ ...getEquipmentListQueryOptions(query), enabled });

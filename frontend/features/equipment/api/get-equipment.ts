@@ -2,7 +2,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { Booking } from '../../../../shared/schemas/booking.ts';
 import type { Equipment, EquipmentStateChange } from '../../../../shared/schemas/equipment.ts';
 import type { CylinderView, InspectionDue, InspectionView } from '../../../../shared/schemas/inspections.ts';
-import { equipmentKeys } from '@/features/equipment/api/get-equipment-list';
+import { equipmentKeys } from '@/features/equipment/api/keys';
 import { api } from '@/lib/api-client';
 
 export interface EquipmentDetail {

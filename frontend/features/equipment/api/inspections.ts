@@ -1,7 +1,15 @@
-import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CreateInspectionInput, InspectionView, MaintenanceItem, MaintenanceListQuery, CylinderView } from '../../../../shared/schemas/inspections.ts';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import { equipmentKeys } from '@/features/equipment/api/get-equipment-list';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import {
+  maintenanceListQuerySchema,
+  type CreateInspectionInput,
+  type InspectionView,
+  type MaintenanceItem,
+  type MaintenanceListQuery,
+  type CylinderView,
+} from '../../../../shared/schemas/inspections.ts';
+import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
+import { equipmentKeys } from '@/features/equipment/api/keys';
+import { todayKeys } from '@/features/today/api/get-today';
 import { api } from '@/lib/api-client';
 
 export const recordInspection = (id: string, input: CreateInspectionInput) =>
@@ -10,7 +18,7 @@ export const recordInspection = (id: string, input: CreateInspectionInput) =>
 /** Inspections and the gas line change what Today, the maintenance list and every item page show. */
 function useInvalidateCellar() {
   const queryClient = useQueryClient();
-  return () => Promise.all([queryClient.invalidateQueries({ queryKey: equipmentKeys.all }), queryClient.invalidateQueries({ queryKey: ['today'] })]);
+  return () => Promise.all([queryClient.invalidateQueries({ queryKey: equipmentKeys.all }), queryClient.invalidateQueries({ queryKey: todayKeys.all })]);
 }
 
 export function useRecordInspection(id: string) {
@@ -28,22 +36,9 @@ export function useRefillCylinder(id: string) {
   return useMutation({ mutationFn: () => api.post<{ cylinder: CylinderView }>(`/api/equipment/${encodeURIComponent(id)}/refill`, {}), onSuccess: invalidate });
 }
 
+/** The maintenance list's state in the URL: the most urgent first. */
+export const maintenanceListQuery = defineListQuery(maintenanceListQuerySchema);
+
 export function useMaintenanceList(query: MaintenanceListQuery) {
-  return useQuery({
-    queryKey: [...equipmentKeys.all, 'maintenance', query],
-    queryFn: ({ signal }) =>
-      api.get<Page<MaintenanceItem>>('/api/equipment/maintenance', {
-        signal,
-        query: {
-          page: query.page,
-          pageSize: query.pageSize,
-          sort: query.sort,
-          order: query.order,
-          status: query.status,
-          equipmentKind: query.equipmentKind,
-          q: query.q,
-        },
-      }),
-    placeholderData: keepPreviousData,
-  });
+  return useQuery(pageQueryOptions<MaintenanceItem>(equipmentKeys.maintenance(query), '/api/equipment/maintenance', query));
 }

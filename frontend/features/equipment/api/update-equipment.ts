@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { Equipment, UpdateEquipmentInput } from '../../../../shared/schemas/equipment.ts';
-import { equipmentKeys } from '@/features/equipment/api/get-equipment-list';
+import { equipmentKeys } from '@/features/equipment/api/keys';
 import { api } from '@/lib/api-client';
 
 export const updateEquipment = (id: string, input: UpdateEquipmentInput) =>

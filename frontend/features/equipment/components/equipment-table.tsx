@@ -1,37 +1,19 @@
 import { createColumnHelper, type RowSelectionState } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
-import {
-  equipmentKindLabels,
-  equipmentSortFields,
-  type Equipment,
-  type EquipmentListQuery,
-  type EquipmentSortField,
-} from '../../../../shared/schemas/equipment.ts';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
+import { equipmentKindLabels, equipmentSortFields, type Equipment, type EquipmentListQuery } from '../../../../shared/schemas/equipment.ts';
+import { ListTable, type ListProps } from '@/components/list-kit';
 import { useServerTable } from '@/components/ui/use-server-table';
 import { StateBadge } from '@/features/equipment/components/state-badge';
-import type { EquipmentListQueryPatch } from '@/features/equipment/hooks/use-equipment-search-params';
 import { useUnits } from '@/hooks/use-units';
 import { formatDateTime } from '@/utils/format';
 
-export interface EquipmentTableProps {
-  query: EquipmentListQuery;
-  data: Page<Equipment> | undefined;
-  isLoading: boolean;
-  /** The last load failed: the table shows it with Retry instead of its empty text. */
-  error?: unknown;
-  onRetry?: () => void;
-  isFetching: boolean;
-  isPlaceholderData: boolean;
-  onQueryChange: (patch: EquipmentListQueryPatch) => void;
+export interface EquipmentTableProps extends ListProps<Equipment, EquipmentListQuery> {
   selection: RowSelectionState;
   onSelectionChange: (next: RowSelectionState) => void;
 }
 
 const column = createColumnHelper<Equipment>();
-const isSortField = (id: string): id is EquipmentSortField => (equipmentSortFields as readonly string[]).includes(id);
 
 /** The kind's facts in a few words: "conical, valve", "ball lock, LY19-…", "4.0 m × 4.8 mm line". */
 /** An attribute as text; attributes are free-form JSON, so anything but a string or number shows as nothing. */
@@ -57,18 +39,7 @@ function facts(item: Equipment): string {
   }
 }
 
-export const EquipmentTable = ({
-  query,
-  data,
-  isLoading,
-  error,
-  onRetry,
-  isFetching,
-  isPlaceholderData,
-  onQueryChange,
-  selection,
-  onSelectionChange,
-}: EquipmentTableProps) => {
+export const EquipmentTable = ({ query, list, onQueryChange, selection, onSelectionChange }: EquipmentTableProps) => {
   const units = useUnits();
   const columns = useMemo(
     () => [
@@ -129,11 +100,11 @@ export const EquipmentTable = ({
   );
 
   const table = useServerTable({
-    data,
+    data: list.data,
     columns,
     query,
     onQueryChange,
-    isSortField,
+    sortFields: equipmentSortFields,
     getRowId: (item) => item.id,
     extra: {
       enableRowSelection: true,
@@ -143,27 +114,15 @@ export const EquipmentTable = ({
   });
 
   return (
-    <div className="flex flex-col gap-3">
-      <DataTable
-        table={table}
-        caption="The co-op's equipment"
-        isLoading={isLoading}
-        error={error}
-        onRetry={onRetry}
-        isFetching={isFetching}
-        rowClassName={(row) => (row.original.state === 'out_of_service' ? 'text-ink-muted' : undefined)}
-        empty="No equipment matches these filters."
-      />
-      <DataTablePagination
-        failed={Boolean(error)}
-        page={query.page}
-        pageSize={query.pageSize}
-        total={data?.total ?? 0}
-        isPlaceholder={isPlaceholderData}
-        onPageChange={(page) => onQueryChange({ page })}
-        onPageSizeChange={(pageSize) => onQueryChange({ pageSize })}
-        noun="items"
-      />
-    </div>
+    <ListTable
+      table={table}
+      caption="The co-op's equipment"
+      list={list}
+      query={query}
+      onQueryChange={onQueryChange}
+      rowClassName={(row) => (row.original.state === 'out_of_service' ? 'text-ink-muted' : undefined)}
+      empty="No equipment matches these filters."
+      noun="items"
+    />
   );
 };

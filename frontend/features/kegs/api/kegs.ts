@@ -1,31 +1,29 @@
-import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { KegHistoryEntry, KegListQuery, KegUndoOfferView, KegView, TapBoardEntry } from '../../../../shared/schemas/kegs.ts';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import {
+  kegListQuerySchema,
+  type KegHistoryEntry,
+  type KegListQuery,
+  type KegUndoOfferView,
+  type KegView,
+  type TapBoardEntry,
+} from '../../../../shared/schemas/kegs.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { defineListQuery, pageQueryOptions, pagingQuerySchema } from '@/components/list-kit';
+import { equipmentKeys } from '@/features/equipment/api/keys';
+import { kegKeys } from '@/features/kegs/api/keys';
+import { sanitationKeys } from '@/features/sanitation/api/keys';
+import { userKeys } from '@/features/users/api/keys';
 import { api } from '@/lib/api-client';
 
-export const kegKeys = {
-  all: ['kegs'] as const,
-  list: (q: Partial<KegListQuery>) => [...kegKeys.all, 'list', q] as const,
-  overdue: (q: object) => [...kegKeys.all, 'overdue', q] as const,
-  board: () => [...kegKeys.all, 'tap-board'] as const,
-  detail: (id: string) => [...kegKeys.all, 'detail', id] as const,
-  history: (id: string, page: number) => [...kegKeys.all, 'detail', id, 'history', page] as const,
-};
+/** The fleet list's state in the URL. */
+export const kegListQuery = defineListQuery(kegListQuerySchema);
+/** The overdue list only pages, 25 at a time. */
+export const overdueListQuery = defineListQuery(pagingQuerySchema(25));
 
-export const kegsQueryOptions = (q: Partial<KegListQuery>) =>
-  queryOptions({
-    queryKey: kegKeys.list(q),
-    queryFn: ({ signal }) => api.get<Page<KegView>>('/api/kegs', { query: { ...q }, signal }),
-    placeholderData: keepPreviousData,
-  });
+export const kegsQueryOptions = (q: Partial<KegListQuery>) => pageQueryOptions<KegView>(kegKeys.list(q), '/api/kegs', q);
 export const useKegs = (q: Partial<KegListQuery>, enabled = true) => useQuery({ ...kegsQueryOptions(q), enabled });
 
-export const useOverdueKegs = (q: { page?: number; pageSize?: number } = {}) =>
-  useQuery({
-    queryKey: kegKeys.overdue(q),
-    queryFn: ({ signal }) => api.get<Page<KegView>>('/api/kegs/overdue', { query: { ...q }, signal }),
-    placeholderData: keepPreviousData,
-  });
+export const useOverdueKegs = (q: { page?: number; pageSize?: number } = {}) => useQuery(pageQueryOptions<KegView>(kegKeys.overdue(q), '/api/kegs/overdue', q));
 
 export const useTapBoard = () =>
   useQuery({ queryKey: kegKeys.board(), queryFn: ({ signal }) => api.get<{ taps: TapBoardEntry[] }>('/api/kegs/tap-board', { signal }) });
@@ -65,8 +63,8 @@ export function useKegAction(kegId: string) {
       queryClient.setQueryData(kegKeys.detail(kegId), { keg: data.keg });
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: kegKeys.all }),
-        queryClient.invalidateQueries({ queryKey: ['equipment'] }),
-        queryClient.invalidateQueries({ queryKey: ['sanitation'] }),
+        queryClient.invalidateQueries({ queryKey: equipmentKeys.all }),
+        queryClient.invalidateQueries({ queryKey: sanitationKeys.all }),
       ]);
     },
   });
@@ -81,7 +79,7 @@ export interface MemberOption {
 /** Active members, for handing a keg out. */
 export const useMemberOptions = (enabled: boolean) =>
   useQuery({
-    queryKey: ['users', 'member-options'],
+    queryKey: userKeys.memberOptions(),
     queryFn: ({ signal }) =>
       api
         .get<Page<MemberOption>>('/api/users', { query: { role: 'member', active: 'true', pageSize: 100, sort: 'name', order: 'asc' }, signal })

@@ -1,5 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
+import { mailboxKeys } from '@/features/mailbox/api/keys';
 import { api } from '@/lib/api-client';
 
 /** One message caught by the development mail server. */
@@ -16,11 +17,6 @@ export interface MailboxQuery {
   page: number;
   pageSize: number;
 }
-
-export const mailboxKeys = {
-  all: ['mailbox'] as const,
-  list: (query: MailboxQuery) => [...mailboxKeys.all, 'list', query] as const,
-};
 
 /** Admin only; 404 when the server is not in development mode. */
 export const getMailbox = (query: MailboxQuery, signal?: AbortSignal) =>

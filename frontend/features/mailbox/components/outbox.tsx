@@ -1,11 +1,10 @@
 import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
-import { useCallback, useMemo } from 'react';
-import { listQuerySchema } from '../../../../shared/schemas/pagination.ts';
+import { useMemo } from 'react';
+import { z } from 'zod';
+import { defineListQuery, ListTable, pagingQuerySchema, useListQuery } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { useMailbox, type MailboxMessage } from '@/features/mailbox/api/get-mailbox';
-import { useSearchParamsState } from '@/hooks/use-search-params-state';
 import { MessageText } from '@/features/mailbox/components/message-text';
 import { isApiProblem } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
@@ -13,28 +12,14 @@ import { formatDateTime } from '@/utils/format';
 
 const column = createColumnHelper<MailboxMessage>();
 const recipients = (to: MailboxMessage['to']) => (Array.isArray(to) ? to.join(', ') : to);
-const pageQuerySchema = listQuerySchema.pick({ page: true, pageSize: true });
+/** The page and the open message live in the URL, so a reload or Back shows the same e-mail. */
+const outboxQuery = defineListQuery(pagingQuerySchema().extend({ message: z.string().max(80).optional() }));
 
 /** The development mailbox: every e-mail the server "sent", newest first, readable in place. */
 export const Outbox = () => {
-  const [searchParams, updateSearchParams] = useSearchParamsState();
-  const parsed = pageQuerySchema.safeParse(Object.fromEntries(searchParams));
-  const query = parsed.success ? parsed.data : { page: 1, pageSize: 50 };
-  const openId = searchParams.get('message');
-  const mailbox = useMailbox(query);
-
-  const update = useCallback(
-    (change: Record<string, string | null>) =>
-      updateSearchParams((previous) => {
-        const next = new URLSearchParams(previous);
-        for (const [key, value] of Object.entries(change)) {
-          if (value === null) next.delete(key);
-          else next.set(key, value);
-        }
-        return next;
-      }),
-    [updateSearchParams],
-  );
+  const { query, setQuery } = useListQuery(outboxQuery);
+  const openId = query.message ?? null;
+  const mailbox = useMailbox({ page: query.page, pageSize: query.pageSize });
 
   const columns = useMemo(
     () => [
@@ -45,7 +30,7 @@ export const Outbox = () => {
           return (
             <button
               type="button"
-              onClick={() => update({ message: open ? null : row.original.id })}
+              onClick={() => setQuery({ message: open ? undefined : row.original.id, page: query.page })}
               aria-expanded={open}
               aria-controls="outbox-message"
               className="min-h-11 text-left font-medium text-copper-strong hover:underline md:min-h-6 pointer-coarse:min-h-11"
@@ -69,7 +54,7 @@ export const Outbox = () => {
         meta: { className: 'w-px' },
       }),
     ],
-    [openId, update],
+    [openId, query.page, setQuery],
   );
 
   const table = useReactTable({
@@ -102,23 +87,16 @@ export const Outbox = () => {
             Refresh
           </Button>
         </div>
-        <DataTable
+        <ListTable
           table={table}
           caption="Outbox"
-          isLoading={mailbox.isPending}
-          error={mailbox.error}
-          onRetry={() => void mailbox.refetch()}
-          isFetching={mailbox.isFetching}
+          list={mailbox}
+          query={query}
+          onQueryChange={({ page }) => setQuery({ page, message: undefined })}
           empty="No e-mails yet. Invite someone, or ask for a password reset, and it shows up here."
           rowClassName={(row) => cn(row.original.id === openId && 'bg-copper-soft/40')}
-        />
-        <DataTablePagination
-          page={query.page}
-          pageSize={query.pageSize}
-          total={mailbox.data?.total ?? 0}
-          isPlaceholder={mailbox.isPlaceholderData}
-          onPageChange={(page) => update({ page: String(page), message: null })}
           noun={['e-mail', 'e-mails']}
+          pageSizes={false}
         />
       </div>
 
@@ -143,7 +121,7 @@ export const Outbox = () => {
             </header>
             <MessageText text={opened.text} />
             <div>
-              <Button variant="ghost" size="sm" onClick={() => update({ message: null })}>
+              <Button variant="ghost" size="sm" onClick={() => setQuery({ message: undefined, page: query.page })}>
                 Close
               </Button>
             </div>

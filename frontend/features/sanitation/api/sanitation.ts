@@ -1,11 +1,18 @@
-import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import type {
-  CreateSanitationCycleInput,
-  SanitationCycleListQuery,
-  SanitationCycleView,
-  VesselSanitationStatus,
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { vesselStates } from '../../../../shared/schemas/equipment.ts';
+import {
+  sanitationCycleListQuerySchema,
+  sanitationStatusQuerySchema,
+  type CreateSanitationCycleInput,
+  type SanitationCycleListQuery,
+  type SanitationCycleView,
+  type VesselSanitationStatus,
 } from '../../../../shared/schemas/sanitation.ts';
+import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
+import { equipmentKeys } from '@/features/equipment/api/keys';
+import { kegKeys } from '@/features/kegs/api/keys';
+import { sanitationKeys } from '@/features/sanitation/api/keys';
 import { api, buildUrl } from '@/lib/api-client';
 
 export interface VesselStatusQuery {
@@ -18,28 +25,24 @@ export interface VesselStatusQuery {
   pageSize?: number;
 }
 
-export const sanitationKeys = {
-  all: ['sanitation'] as const,
-  status: (q: VesselStatusQuery) => [...sanitationKeys.all, 'status', q] as const,
-  cycles: (q: Partial<SanitationCycleListQuery>) => [...sanitationKeys.all, 'cycles', q] as const,
-  cycle: (id: string) => [...sanitationKeys.all, 'cycle', id] as const,
-};
+/** The sanitation log's state in the URL: newest cycle first. */
+export const cycleListQuery = defineListQuery(sanitationCycleListQuerySchema);
+
+/** The vessels list's state in the URL: the ones that need cleaning, unless `state=any` or another state. */
+export const vesselListQuery = defineListQuery(
+  sanitationStatusQuerySchema.extend({
+    state: z.enum([...vesselStates, 'any']).default('needs_cleaning'),
+    pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  }),
+);
 
 export const vesselStatusQueryOptions = (q: VesselStatusQuery) =>
-  queryOptions({
-    queryKey: sanitationKeys.status(q),
-    queryFn: ({ signal }) => api.get<Page<VesselSanitationStatus>>('/api/sanitation-status', { query: { ...q }, signal }),
-    placeholderData: keepPreviousData,
-  });
+  pageQueryOptions<VesselSanitationStatus>(sanitationKeys.status(q), '/api/sanitation-status', q);
 
 export const useVesselStatus = (q: VesselStatusQuery, enabled = true) => useQuery({ ...vesselStatusQueryOptions(q), enabled });
 
 export const cyclesQueryOptions = (q: Partial<SanitationCycleListQuery>) =>
-  queryOptions({
-    queryKey: sanitationKeys.cycles(q),
-    queryFn: ({ signal }) => api.get<Page<SanitationCycleView>>('/api/sanitation-cycles', { query: { ...q }, signal }),
-    placeholderData: keepPreviousData,
-  });
+  pageQueryOptions<SanitationCycleView>(sanitationKeys.cycles(q), '/api/sanitation-cycles', q);
 
 export const useCycles = (q: Partial<SanitationCycleListQuery>, enabled = true) => useQuery({ ...cyclesQueryOptions(q), enabled });
 
@@ -54,8 +57,8 @@ function useInvalidateCellar() {
   return () =>
     Promise.all([
       queryClient.invalidateQueries({ queryKey: sanitationKeys.all }),
-      queryClient.invalidateQueries({ queryKey: ['equipment'] }),
-      queryClient.invalidateQueries({ queryKey: ['kegs'] }),
+      queryClient.invalidateQueries({ queryKey: equipmentKeys.all }),
+      queryClient.invalidateQueries({ queryKey: kegKeys.all }),
     ]);
 }
 

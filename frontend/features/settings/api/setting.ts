@@ -1,6 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { SettingKey, SettingValue } from '../../../../shared/schemas/settings.ts';
 import { api } from '@/lib/api-client';
+import { bookingKeys } from '@/features/bookings/api/keys';
 
 export const settingKeys = {
   all: ['settings'] as const,
@@ -24,7 +25,7 @@ export function useSaveSetting<T>(key: SettingKey) {
     mutationFn: (value: T) => api.put<SettingValue<T>>(`/api/settings/${key}`, value),
     onSuccess: (saved) => {
       queryClient.setQueryData(settingKeys.one(key), saved);
-      void queryClient.invalidateQueries({ queryKey: ['bookings', 'rules'] });
+      void queryClient.invalidateQueries({ queryKey: bookingKeys.rules() });
     },
   });
 }

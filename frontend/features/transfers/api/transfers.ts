@@ -1,6 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CreateTransferInput, GravityStability, TransferView } from '../../../../shared/schemas/transfers.ts';
 import { api } from '@/lib/api-client';
+import { batchKeys } from '@/features/batches/api/keys';
+import { equipmentKeys } from '@/features/equipment/api/keys';
+import { kegKeys } from '@/features/kegs/api/keys';
+import { sanitationKeys } from '@/features/sanitation/api/keys';
+import { transferKeys } from '@/features/transfers/api/keys';
 
 export interface TransferCandidate {
   batchId: string;
@@ -16,7 +21,7 @@ export interface TransferCandidate {
 
 export const useTransferCandidates = (enabled = true) =>
   useQuery({
-    queryKey: ['transfers', 'candidates'],
+    queryKey: transferKeys.candidates(),
     queryFn: ({ signal }) => api.get<{ items: TransferCandidate[] }>('/api/transfers/candidates', { signal }).then((r) => r.items),
     enabled,
   });
@@ -26,6 +31,8 @@ export function useRecordTransfer() {
   return useMutation({
     mutationFn: (input: CreateTransferInput) => api.post<{ transfer: TransferView; warnings: string[] }>('/api/transfers', input),
     onSuccess: () =>
-      Promise.all([['transfers'], ['kegs'], ['equipment'], ['sanitation'], ['batches']].map((queryKey) => queryClient.invalidateQueries({ queryKey }))),
+      Promise.all(
+        [transferKeys.all, kegKeys.all, equipmentKeys.all, sanitationKeys.all, batchKeys.all].map((queryKey) => queryClient.invalidateQueries({ queryKey })),
+      ),
   });
 }

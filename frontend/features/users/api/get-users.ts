@@ -1,22 +1,12 @@
-import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import type { User, UserListQuery } from '../../../../shared/schemas/user.ts';
-import { api } from '@/lib/api-client';
+import { useQuery } from '@tanstack/react-query';
+import { userListQuerySchema, type User, type UserListQuery } from '../../../../shared/schemas/user.ts';
+import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
+import { userKeys } from '@/features/users/api/keys';
 
-export const userKeys = {
-  all: ['users'] as const,
-  list: (query: UserListQuery) => [...userKeys.all, 'list', query] as const,
-};
+/** The member list's state in the URL (`?page&pageSize&sort&order&q&role&active`). */
+export const userListQuery = defineListQuery(userListQuerySchema);
 
-export const getUsers = (query: UserListQuery, signal?: AbortSignal) =>
-  api.get<Page<User>>('/api/users', { query: { ...query }, ...(signal ? { signal } : {}) });
-
-export const getUsersQueryOptions = (query: UserListQuery) =>
-  queryOptions({
-    queryKey: userKeys.list(query),
-    queryFn: ({ signal }) => getUsers(query, signal),
-    placeholderData: keepPreviousData,
-  });
+export const getUsersQueryOptions = (query: UserListQuery) => pageQueryOptions<User>(userKeys.list(query), '/api/users', query);
 
 export function useUsers(query: UserListQuery) {
   return useQuery(getUsersQueryOptions(query));

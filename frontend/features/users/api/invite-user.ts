@@ -1,7 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { InviteUserInput, User } from '../../../../shared/schemas/user.ts';
-import { userKeys } from '@/features/users/api/get-users';
+import { userKeys } from '@/features/users/api/keys';
 import { api } from '@/lib/api-client';
+import { mailboxKeys } from '@/features/mailbox/api/keys';
 
 export { inviteUserSchema } from '../../../../shared/schemas/user.ts';
 
@@ -13,7 +14,7 @@ export function useInviteUser() {
   return useMutation({
     mutationFn: inviteUser,
     onSuccess: async () => {
-      await Promise.all([queryClient.invalidateQueries({ queryKey: userKeys.all }), queryClient.invalidateQueries({ queryKey: ['mailbox'] })]);
+      await Promise.all([queryClient.invalidateQueries({ queryKey: userKeys.all }), queryClient.invalidateQueries({ queryKey: mailboxKeys.all })]);
     },
   });
 }

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { UpdateUserInput, User } from '../../../../shared/schemas/user.ts';
-import { userKeys } from '@/features/users/api/get-users';
+import { userKeys } from '@/features/users/api/keys';
 import { api } from '@/lib/api-client';
 import { authKeys } from '@/lib/auth';
 

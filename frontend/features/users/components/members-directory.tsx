@@ -1,15 +1,15 @@
-import { useCallback, useEffect, useState } from 'react';
+import { useCallback, useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { User } from '../../../../shared/schemas/user.ts';
+import { useClampPage, useListQuery } from '@/components/list-kit';
 import { useNotice } from '@/components/ui/notice';
 import { paths } from '@/config/paths';
-import { useUsers } from '@/features/users/api/get-users';
+import { userListQuery, useUsers } from '@/features/users/api/get-users';
 import { EditRolesDialog } from '@/features/users/components/edit-roles-dialog';
 import { InviteUserDialog } from '@/features/users/components/invite-user-dialog';
 import { SetActiveDialog } from '@/features/users/components/set-active-dialog';
 import { UsersTable } from '@/features/users/components/users-table';
 import { UsersToolbar } from '@/features/users/components/users-toolbar';
-import { useUsersSearchParams } from '@/features/users/hooks/use-users-search-params';
 import { useDevMailboxAvailable } from '@/lib/dev-mailbox';
 
 export interface MembersDirectoryProps {
@@ -18,7 +18,7 @@ export interface MembersDirectoryProps {
 
 /** The admin's list of people: search, filter, sort and page on the server; invite; roles; (de)activate. */
 export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
-  const { query, setQuery } = useUsersSearchParams();
+  const { query, setQuery, hasFilters, clearFilters } = useListQuery(userListQuery);
   const users = useUsers(query);
   const mailbox = useDevMailboxAvailable();
   const [inviting, setInviting] = useState(false);
@@ -27,34 +27,23 @@ export const MembersDirectory = ({ currentUserId }: MembersDirectoryProps) => {
   const notice = useNotice();
 
   // Past the last page (after filtering or deactivating): go to the last one there is.
-  const total = users.data?.total ?? 0;
-  const itemCount = users.data?.items.length ?? 0;
-  useEffect(() => {
-    if (users.isPlaceholderData || !users.data || itemCount > 0 || query.page <= 1) return;
-    const lastPage = Math.max(1, Math.ceil(total / query.pageSize));
-    if (lastPage !== query.page) setQuery({ page: lastPage }, { replace: true });
-  }, [users.isPlaceholderData, users.data, itemCount, total, query.page, query.pageSize, setQuery]);
+  useClampPage(users, query, setQuery);
 
   const onEditRoles = useCallback((user: User) => setEditing(user), []);
   const onToggleActive = useCallback((user: User) => setToggling(user), []);
 
   return (
     <div className="flex flex-col gap-4">
-      <UsersToolbar query={query} onQueryChange={setQuery} onInvite={() => setInviting(true)} />
+      <UsersToolbar query={query} onQueryChange={setQuery} hasFilters={hasFilters} onClearFilters={clearFilters} onInvite={() => setInviting(true)} />
 
       <UsersTable
         query={query}
-        data={users.data}
-        isLoading={users.isPending}
-        error={users.error}
-        onRetry={() => void users.refetch()}
-        isFetching={users.isFetching}
-        isPlaceholderData={users.isPlaceholderData}
+        list={users}
         currentUserId={currentUserId}
         onQueryChange={setQuery}
         onEditRoles={onEditRoles}
         onToggleActive={onToggleActive}
-        hasFilters={Boolean(query.q || query.role || query.active !== undefined)}
+        hasFilters={hasFilters}
       />
 
       <InviteUserDialog

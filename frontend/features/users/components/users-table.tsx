@@ -1,48 +1,23 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
-import type { Page } from '../../../../shared/schemas/pagination.ts';
-import { userSortFields, type User, type UserListQuery, type UserSortField } from '../../../../shared/schemas/user.ts';
+import { userSortFields, type User, type UserListQuery } from '../../../../shared/schemas/user.ts';
+import { ListTable, type ListProps } from '@/components/list-kit';
 import { RoleBadges } from '@/components/role-badges';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { DataTable, DataTablePagination } from '@/components/ui/data-table';
 import { useServerTable } from '@/components/ui/use-server-table';
-import type { UserListQueryPatch } from '@/features/users/hooks/use-users-search-params';
 import { formatDate, formatDateTime } from '@/utils/format';
 
-export interface UsersTableProps {
-  query: UserListQuery;
-  data: Page<User> | undefined;
-  isLoading: boolean;
-  /** The last load failed: the table shows it with Retry instead of its empty text. */
-  error?: unknown;
-  onRetry?: () => void;
-  isFetching: boolean;
-  isPlaceholderData: boolean;
+export interface UsersTableProps extends ListProps<User, UserListQuery> {
   currentUserId: string;
-  onQueryChange: (patch: UserListQueryPatch) => void;
   onEditRoles: (user: User) => void;
   onToggleActive: (user: User) => void;
   hasFilters: boolean;
 }
 
 const column = createColumnHelper<User>();
-const isSortField = (id: string): id is UserSortField => (userSortFields as readonly string[]).includes(id);
 
-export const UsersTable = ({
-  query,
-  data,
-  isLoading,
-  error,
-  onRetry,
-  isFetching,
-  isPlaceholderData,
-  currentUserId,
-  onQueryChange,
-  onEditRoles,
-  onToggleActive,
-  hasFilters,
-}: UsersTableProps) => {
+export const UsersTable = ({ query, list, currentUserId, onQueryChange, onEditRoles, onToggleActive, hasFilters }: UsersTableProps) => {
   const columns = useMemo(
     () => [
       column.accessor('name', {
@@ -123,30 +98,18 @@ export const UsersTable = ({
     [currentUserId, onEditRoles, onToggleActive],
   );
 
-  const table = useServerTable({ data, columns, query, onQueryChange, isSortField, getRowId: (user) => user.id });
+  const table = useServerTable({ data: list.data, columns, query, onQueryChange, sortFields: userSortFields, getRowId: (user) => user.id });
 
   return (
-    <div className="flex flex-col gap-3">
-      <DataTable
-        table={table}
-        caption="Members of the co-op"
-        isLoading={isLoading}
-        error={error}
-        onRetry={onRetry}
-        isFetching={isFetching}
-        rowClassName={(row) => (row.original.isActive ? undefined : 'text-ink-muted')}
-        empty={hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.'}
-      />
-      <DataTablePagination
-        failed={Boolean(error)}
-        page={query.page}
-        pageSize={query.pageSize}
-        total={data?.total ?? 0}
-        isPlaceholder={isPlaceholderData}
-        onPageChange={(page) => onQueryChange({ page })}
-        onPageSizeChange={(pageSize) => onQueryChange({ pageSize })}
-        noun={['person', 'people']}
-      />
-    </div>
+    <ListTable
+      table={table}
+      caption="Members of the co-op"
+      list={list}
+      query={query}
+      onQueryChange={onQueryChange}
+      rowClassName={(row) => (row.original.isActive ? undefined : 'text-ink-muted')}
+      empty={hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.'}
+      noun={['person', 'people']}
+    />
   );
 };

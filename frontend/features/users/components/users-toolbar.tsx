@@ -1,57 +1,33 @@
-import { useEffect, useId, useState } from 'react';
+import { useId } from 'react';
 import { roleLabels, roles } from '../../../../shared/permissions/roles.ts';
 import { roleSchema, type UserListQuery } from '../../../../shared/schemas/user.ts';
+import { SearchInput, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
-import { Input, Select } from '@/components/ui/input';
-import type { UserListQueryPatch } from '@/features/users/hooks/use-users-search-params';
+import { Select } from '@/components/ui/input';
 
-export interface UsersToolbarProps {
-  query: UserListQuery;
-  onQueryChange: (patch: UserListQueryPatch, options?: { replace?: boolean }) => void;
+export interface UsersToolbarProps extends Pick<ListProps<unknown, UserListQuery>, 'query' | 'onQueryChange'> {
+  hasFilters: boolean;
+  onClearFilters: () => void;
   onInvite: () => void;
 }
 
 const groupClass = 'flex flex-col gap-1';
 const labelClass = 'text-xs font-medium text-ink-muted';
 
-export const UsersToolbar = ({ query, onQueryChange, onInvite }: UsersToolbarProps) => {
-  const [text, setText] = useState(query.q ?? '');
+export const UsersToolbar = ({ query, onQueryChange, hasFilters, onClearFilters, onInvite }: UsersToolbarProps) => {
   const id = useId();
-
-  // Follow the URL when it changes underneath (Back, a cleared filter).
-  useEffect(() => setText(query.q ?? ''), [query.q]);
-
-  // Search as you type, a moment after the last key.
-  useEffect(() => {
-    const value = text.trim();
-    if (value === (query.q ?? '')) return;
-    const timer = setTimeout(() => onQueryChange({ q: value || undefined }, { replace: true }), 300);
-    return () => clearTimeout(timer);
-  }, [text, query.q, onQueryChange]);
-
-  const filtered = Boolean(query.q || query.role || query.active !== undefined);
-
   return (
     <div className="flex flex-wrap items-end gap-3">
-      <form
-        role="search"
-        className="contents"
-        onSubmit={(event) => {
-          event.preventDefault();
-          onQueryChange({ q: text.trim() || undefined });
-        }}
-      >
+      <form role="search" className="contents" onSubmit={(event) => event.preventDefault()}>
         <div className={`${groupClass} w-full sm:w-64`}>
           <label htmlFor={`${id}-q`} className={labelClass}>
             Search
           </label>
-          <Input
+          <SearchInput
             id={`${id}-q`}
-            type="search"
-            value={text}
-            onChange={(event) => setText(event.target.value)}
+            value={query.q}
+            onSearch={(q, options) => onQueryChange({ q }, options)}
             placeholder="Name or e-mail"
-            autoComplete="off"
             spellCheck={false}
           />
         </div>
@@ -93,14 +69,8 @@ export const UsersToolbar = ({ query, onQueryChange, onInvite }: UsersToolbarPro
           <option value="false">Inactive</option>
         </Select>
       </div>
-      {filtered ? (
-        <Button
-          variant="ghost"
-          onClick={() => {
-            setText('');
-            onQueryChange({ q: undefined, role: undefined, active: undefined });
-          }}
-        >
+      {hasFilters ? (
+        <Button variant="ghost" onClick={onClearFilters}>
           Clear filters
         </Button>
       ) : null}

@@ -1,0 +1,15 @@
+export {
+  defineListQuery,
+  applyListPatch,
+  pagingQuerySchema,
+  type ListPatch,
+  type ListQueryDefinition,
+  type ListState,
+  type SetListQuery,
+  type SetListQueryOptions,
+} from './list-query';
+export { useListQuery, useClampPage } from './use-list-query';
+export { useDebouncedSearch, searchDelayMs } from './use-debounced-search';
+export { FilterField, FilterGrid, FilterSelect, type FilterSelectProps, SearchInput, filterLabelClass, filterLabelMutedClass } from './filters';
+export { ListPager, ListTable, type ListProps, type ListResult } from './list-table';
+export { pageQueryOptions } from './page-query';
