@@ -24,6 +24,10 @@ const LITRES_PER_US_BARREL = LITRES_PER_US_GALLON * US_GALLONS_PER_US_BARREL;
 const KPA_PER_PSI = 4.4482216152605 / (0.0254 * 0.0254) / 1000;
 const KPA_PER_BAR = 100;
 const METRES_PER_FOOT = 0.3048;
+/** International inch = 25.4 mm exactly. */
+const MILLIMETRES_PER_INCH = 25.4;
+/** International avoirdupois pound = 0.45359237 kg exactly. */
+const KILOGRAMS_PER_POUND = 0.45359237;
 /** Standard atmosphere, 101.325 kPa (= 14.69595 psi). */
 const STANDARD_ATMOSPHERE_KPA = 101.325;
 
@@ -182,6 +186,30 @@ export function metresToFeet(m: number): number {
 export function feetToMetres(ft: number): number {
   requireFinite('ft', ft);
   return ft * METRES_PER_FOOT;
+}
+
+/** Millimetres → international inches (1 in = 25.4 mm exactly); a line's inside diameter. */
+export function millimetresToInches(mm: number): number {
+  requireNonNegative('mm', mm, 'mm');
+  return mm / MILLIMETRES_PER_INCH;
+}
+
+/** International inches → millimetres (1 in = 25.4 mm exactly). */
+export function inchesToMillimetres(inches: number): number {
+  requireNonNegative('inches', inches, 'in');
+  return inches * MILLIMETRES_PER_INCH;
+}
+
+/** Kilograms → avoirdupois pounds (1 lb = 0.45359237 kg exactly); a CO2 cylinder's fill. */
+export function kilogramsToPounds(kg: number): number {
+  requireNonNegative('kg', kg, 'kg');
+  return kg / KILOGRAMS_PER_POUND;
+}
+
+/** Avoirdupois pounds → kilograms (1 lb = 0.45359237 kg exactly). */
+export function poundsToKilograms(lb: number): number {
+  requireNonNegative('lb', lb, 'lb');
+  return lb * KILOGRAMS_PER_POUND;
 }
 
 // ---------------------------------------------------------------------------------------------
