@@ -1,9 +1,6 @@
-export interface ProblemFieldError {
-  path: string;
-  message: string;
-  row?: number;
-  column?: string;
-}
+import type { ProblemFieldError } from '../../shared/schemas/problem.ts';
+
+export type { ProblemFieldError };
 
 /** An error that the problem handler writes as RFC 9457 problem JSON. Services throw these. */
 export class HttpProblem extends Error {

@@ -3,14 +3,9 @@
  * every non-GET request, and any non-2xx answer turned into an `ApiProblem` (RFC 9457 bodies).
  */
 
-export interface ProblemFieldError {
-  /** Dot-joined path of the offending field, e.g. `email` or `roles.0`. */
-  path: string;
-  message: string;
-  /** For imports: the file's row (1-based) and column. */
-  row?: number;
-  column?: string | number;
-}
+import type { ProblemFieldError } from '../../shared/schemas/problem.ts';
+
+export type { ProblemFieldError };
 
 interface ProblemBody {
   type?: string;
@@ -115,7 +110,7 @@ function normalizeFieldErrors(raw: unknown): ProblemFieldError[] {
     const message = typeof entry.message === 'string' ? entry.message : 'Check this value';
     const error: ProblemFieldError = { path, message };
     if (typeof entry.row === 'number') error.row = entry.row;
-    if (typeof entry.column === 'string' || typeof entry.column === 'number') error.column = entry.column;
+    if (typeof entry.column === 'string' || typeof entry.column === 'number') error.column = String(entry.column);
     out.push(error);
   }
   return out;

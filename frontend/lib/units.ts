@@ -1,3 +1,19 @@
+import {
+  barToKpa,
+  celsiusToFahrenheit,
+  fahrenheitToCelsius,
+  feetToMetres,
+  inchesToMillimetres,
+  kilogramsToPounds,
+  kpaToBar,
+  kpaToPsi,
+  litersToUsGallons,
+  metresToFeet,
+  millimetresToInches,
+  poundsToKilograms,
+  psiToKpa,
+  usGallonsToLiters,
+} from '../../shared/brewing/index.ts';
 import type { UnitSystem } from '../../shared/schemas/user.ts';
 
 /**
@@ -6,50 +22,53 @@ import type { UnitSystem } from '../../shared/schemas/user.ts';
  */
 export type { UnitSystem };
 
-export const litresPerUsGallon = 3.785411784; // 231 in³, exact
-export const kPaPerPsi = 6.894757293168361; // lbf/in², exact from the pound-force and the inch
-export const kPaPerBar = 100;
-
-export const metresPerFoot = 0.3048; // international foot, exact
-export const millimetresPerInch = 25.4; // international inch, exact
-export const kilogramsPerPound = 0.45359237; // international avoirdupois pound, exact
-
-export const litresToGallons = (litres: number) => litres / litresPerUsGallon;
-export const gallonsToLitres = (gallons: number) => gallons * litresPerUsGallon;
-export const celsiusToFahrenheit = (celsius: number) => celsius * 1.8 + 32;
-export const fahrenheitToCelsius = (fahrenheit: number) => (fahrenheit - 32) / 1.8;
-export const kPaToPsi = (kPa: number) => kPa / kPaPerPsi;
-export const psiToKPa = (psi: number) => psi * kPaPerPsi;
-export const kPaToBar = (kPa: number) => kPa / kPaPerBar;
-export const barToKPa = (bar: number) => bar * kPaPerBar;
-
-export const unitLabels = {
-  metric: { volume: 'L', temperature: '°C', pressure: 'bar', length: 'm', smallLength: 'mm', mass: 'kg' },
-  us: { volume: 'gal', temperature: '°F', pressure: 'psi', length: 'ft', smallLength: 'in', mass: 'lb' },
-} as const satisfies Record<UnitSystem, { volume: string; temperature: string; pressure: string; length: string; smallLength: string; mass: string }>;
+/**
+ * Every conversion goes through `shared/brewing`, which refuses what no quantity can be (a negative
+ * volume, a temperature below absolute zero, NaN) by throwing. Volumes, lengths and masses scale
+ * linearly, so a sign (a drop, a difference) is carried across; what is refused comes back as NaN,
+ * which the forms' schemas turn into a message.
+ */
+const signed = (convert: (magnitude: number) => number) => (value: number) =>
+  Number.isFinite(value) ? Math.sign(value) * convert(Math.abs(value)) : Number.NaN;
+const refusedAsNaN = (convert: (value: number) => number) => (value: number) => {
+  try {
+    return convert(value);
+  } catch (error) {
+    if (error instanceof RangeError) return Number.NaN;
+    throw error;
+  }
+};
 
 /** API value → the number shown in the person's units. */
 export const toDisplay = {
-  volume: (litres: number, units: UnitSystem) => (units === 'us' ? litresToGallons(litres) : litres),
-  temperature: (celsius: number, units: UnitSystem) => (units === 'us' ? celsiusToFahrenheit(celsius) : celsius),
-  pressure: (kPa: number, units: UnitSystem) => (units === 'us' ? kPaToPsi(kPa) : kPaToBar(kPa)),
+  volume: (litres: number, units: UnitSystem) => (units === 'us' ? signed(litersToUsGallons)(litres) : litres),
+  temperature: (celsius: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(celsiusToFahrenheit)(celsius) : celsius),
+  pressure: (kPa: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(kpaToPsi)(kPa) : refusedAsNaN(kpaToBar)(kPa)),
   /** Metres → m or ft (line lengths, rises). */
-  length: (metres: number, units: UnitSystem) => (units === 'us' ? metres / metresPerFoot : metres),
+  length: (metres: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(metresToFeet)(metres) : metres),
   /** Millimetres → mm or in (a line's inside diameter). */
-  smallLength: (mm: number, units: UnitSystem) => (units === 'us' ? mm / millimetresPerInch : mm),
+  smallLength: (mm: number, units: UnitSystem) => (units === 'us' ? signed(millimetresToInches)(mm) : mm),
   /** Kilograms → kg or lb (a CO2 cylinder's size). */
-  mass: (kg: number, units: UnitSystem) => (units === 'us' ? kg / kilogramsPerPound : kg),
+  mass: (kg: number, units: UnitSystem) => (units === 'us' ? signed(kilogramsToPounds)(kg) : kg),
 };
 
 /** A number typed in the person's units → the API value (L, °C, kPa gauge). */
 export const fromDisplay = {
-  volume: (value: number, units: UnitSystem) => (units === 'us' ? gallonsToLitres(value) : value),
-  temperature: (value: number, units: UnitSystem) => (units === 'us' ? fahrenheitToCelsius(value) : value),
-  pressure: (value: number, units: UnitSystem) => (units === 'us' ? psiToKPa(value) : barToKPa(value)),
-  length: (value: number, units: UnitSystem) => (units === 'us' ? value * metresPerFoot : value),
-  smallLength: (value: number, units: UnitSystem) => (units === 'us' ? value * millimetresPerInch : value),
-  mass: (value: number, units: UnitSystem) => (units === 'us' ? value * kilogramsPerPound : value),
+  volume: (value: number, units: UnitSystem) => (units === 'us' ? signed(usGallonsToLiters)(value) : value),
+  temperature: (value: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(fahrenheitToCelsius)(value) : value),
+  pressure: (value: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(psiToKpa)(value) : refusedAsNaN(barToKpa)(value)),
+  length: (value: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(feetToMetres)(value) : value),
+  smallLength: (value: number, units: UnitSystem) => (units === 'us' ? signed(inchesToMillimetres)(value) : value),
+  mass: (value: number, units: UnitSystem) => (units === 'us' ? signed(poundsToKilograms)(value) : value),
 };
+
+/** The quantities the client converts between the API's units and the person's. */
+export type Quantity = keyof typeof toDisplay;
+
+export const unitLabels = {
+  metric: { volume: 'L', temperature: '°C', pressure: 'bar', length: 'm', smallLength: 'mm', mass: 'kg' },
+  us: { volume: 'gal', temperature: '°F', pressure: 'psi', length: 'ft', smallLength: 'in', mass: 'lb' },
+} as const satisfies Record<UnitSystem, Record<Quantity, string>>;
 
 const numberFormats = new Map<string, Intl.NumberFormat>();
 function formatNumber(value: number, digits: number): string {

@@ -1,7 +1,15 @@
 /**
  * Unit conversions at the boundary: volume, temperature, pressure and length (REFERENCE §1).
  */
-import { KPA_PER_BAR, KPA_PER_PSI, LITRES_PER_US_BARREL, LITRES_PER_US_GALLON, METRES_PER_FOOT } from './constants.ts';
+import {
+  KILOGRAMS_PER_POUND,
+  KPA_PER_BAR,
+  KPA_PER_PSI,
+  LITRES_PER_US_BARREL,
+  LITRES_PER_US_GALLON,
+  METRES_PER_FOOT,
+  MILLIMETRES_PER_INCH,
+} from './constants.ts';
 import { ABSOLUTE_ZERO_C, ABSOLUTE_ZERO_F, requireFinite, requireNonNegative } from './validation.ts';
 
 /** Litres → US beer barrels (31 US gal, 117.347765304 L; REFERENCE §1, 27 CFR 25.151). */
@@ -80,4 +88,28 @@ export function metresToFeet(m: number): number {
 export function feetToMetres(ft: number): number {
   requireFinite('ft', ft);
   return ft * METRES_PER_FOOT;
+}
+
+/** Millimetres → international inches (1 in = 25.4 mm exactly); a line's inside diameter. */
+export function millimetresToInches(mm: number): number {
+  requireNonNegative('mm', mm, 'mm');
+  return mm / MILLIMETRES_PER_INCH;
+}
+
+/** International inches → millimetres (1 in = 25.4 mm exactly). */
+export function inchesToMillimetres(inches: number): number {
+  requireNonNegative('inches', inches, 'in');
+  return inches * MILLIMETRES_PER_INCH;
+}
+
+/** Kilograms → avoirdupois pounds (1 lb = 0.45359237 kg exactly); a CO2 cylinder's fill. */
+export function kilogramsToPounds(kg: number): number {
+  requireNonNegative('kg', kg, 'kg');
+  return kg / KILOGRAMS_PER_POUND;
+}
+
+/** Avoirdupois pounds → kilograms (1 lb = 0.45359237 kg exactly). */
+export function poundsToKilograms(lb: number): number {
+  requireNonNegative('lb', lb, 'lb');
+  return lb * KILOGRAMS_PER_POUND;
 }

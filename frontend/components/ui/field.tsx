@@ -1,4 +1,6 @@
 import { useId, type ReactNode } from 'react';
+import { Alert } from '@/components/ui/alert';
+import { Input, PasswordInput, Select, type InputProps, type SelectProps } from '@/components/ui/input';
 import { cn } from '@/utils/cn';
 
 /** What a field hands its control so label, hint and error are wired up for assistive tech. */
@@ -81,3 +83,42 @@ export const FieldSet = ({ legend, hint, error, className, children }: FieldSetP
     </fieldset>
   );
 };
+
+type FieldFrame = Omit<FieldProps, 'children'>;
+
+/** The form kit's text box with its label, hint and error: `<InputField label="E-mail" error={…} {...register('email')} />`. */
+export const InputField = ({
+  label,
+  hint,
+  error,
+  aside,
+  className,
+  inputClassName,
+  ...input
+}: FieldFrame & Omit<InputProps, 'className'> & { inputClassName?: string }) => (
+  <Field label={label} hint={hint} error={error} aside={aside} className={className}>
+    {({ invalid, ...control }) => <Input {...control} invalid={invalid} className={inputClassName} {...input} />}
+  </Field>
+);
+
+/** {@link InputField} for a password, with its Show/Hide switch. */
+export const PasswordField = ({ label, hint, error, aside, className, ...input }: FieldFrame & Omit<InputProps, 'className' | 'type'>) => (
+  <Field label={label} hint={hint} error={error} aside={aside} className={className}>
+    {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} {...input} />}
+  </Field>
+);
+
+/** A labelled select with its error. */
+export const SelectField = ({ label, hint, error, aside, className, children, ...select }: FieldFrame & Omit<SelectProps, 'className'>) => (
+  <Field label={label} hint={hint} error={error} aside={aside} className={className}>
+    {({ invalid, ...control }) => (
+      <Select {...control} invalid={invalid} {...select}>
+        {children}
+      </Select>
+    )}
+  </Field>
+);
+
+/** The form's own message above its fields (from `useApiForm`): an error, or what was saved. */
+export const FormMessageAlert = ({ message }: { message: { tone: 'success' | 'error'; text: string } | null }) =>
+  message ? <Alert tone={message.tone}>{message.text}</Alert> : null;

@@ -14,6 +14,8 @@ import {
   correctHydrometer,
   fahrenheitToCelsius,
   feetToMetres,
+  inchesToMillimetres,
+  kilogramsToPounds,
   forecastFinalGravity,
   kpaToBar,
   kpaToPsi,
@@ -25,7 +27,9 @@ import {
   litersToUsBarrels,
   litersToUsGallons,
   metresToFeet,
+  millimetresToInches,
   platoToSg,
+  poundsToKilograms,
   psiToKpa,
   purgeOxygenPercent,
   realAttenuation,
@@ -92,6 +96,15 @@ describe('§1 units and exact conversion facts', () => {
     near(litersToUsBarrels(unit(288, 'fluidounce').toNumber('L')), 0.07258, 0.000005); // [P] S19 via mathjs fl oz
     near(fahrenheitToCelsius(38), unit(38, 'degF').toNumber('degC'), 1e-9); // [C] mathjs cross-check
     near(metresToFeet(1), unit(1, 'm').toNumber('ft'), 1e-12); // [C] mathjs cross-check
+  });
+
+  it('converts line diameters and cylinder fills', () => {
+    expect(inchesToMillimetres(1)).toBe(25.4); // definition (international inch)
+    near(millimetresToInches(4.7625), 0.1875, 1e-12); // definition: 3/16 in line
+    expect(poundsToKilograms(1)).toBe(0.45359237); // definition (international avoirdupois pound)
+    near(kilogramsToPounds(1), unit(1, 'kg').toNumber('lb'), 1e-12); // [C] mathjs cross-check
+    expect(() => millimetresToInches(-1)).toThrow(RangeError);
+    expect(() => poundsToKilograms(Number.NaN)).toThrow(/lb.*NaN/);
   });
 
   it('rejects negative volumes, non-finite numbers and temperatures below absolute zero', () => {

@@ -20,7 +20,7 @@ import { useKeg, useTapBoard } from '@/features/kegs/api/kegs';
 import { Cautions } from '@/components/safety/cautions';
 import { useEquipment } from '@/features/equipment/api/get-equipment';
 import { inspectionKindLabels } from '../../../../shared/schemas/inspections.ts';
-import { localNow } from '@/features/sanitation/components/sanitation-checklist';
+import { localNow } from '@/features/sanitation/step-draft';
 import { BigChoice, BigInput, BigSelect } from '@/components/ui/touch';
 import { cellarPaths } from '@/config/cellar-paths';
 import { useSetting } from '@/features/settings/api/setting';

@@ -1,39 +1,32 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import type { PasswordResetRequestInput } from '../../../../shared/schemas/auth.ts';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
-import { Input } from '@/components/ui/input';
+import { FormMessageAlert, InputField } from '@/components/ui/field';
 import { passwordResetRequestSchema, useRequestPasswordReset } from '@/features/auth/api/request-password-reset';
 import { isApiProblem } from '@/lib/api-client';
-import { applyProblemToForm } from '@/utils/problem-form';
 
 export const ForgotPasswordForm = () => {
   const request = useRequestPasswordReset();
   const [sentTo, setSentTo] = useState<string | null>(null);
-  const [formError, setFormError] = useState<string | null>(null);
+  const { form, message, showError, showProblem, submit } = useApiForm<PasswordResetRequestInput>(passwordResetRequestSchema, {
+    defaultValues: { email: '' },
+    fields: ['email'],
+  });
   const {
     register,
-    handleSubmit,
-    setError,
     formState: { errors },
-  } = useForm<PasswordResetRequestInput>({
-    resolver: zodResolver(passwordResetRequestSchema),
-    defaultValues: { email: '' },
-  });
+  } = form;
 
-  const onSubmit = handleSubmit((values) => {
-    setFormError(null);
+  const onSubmit = submit((values) => {
     request.mutate(values, {
       onSuccess: () => setSentTo(values.email),
       onError: (error) => {
         if (isApiProblem(error) && error.status === 429) {
-          return setFormError('Too many requests. Wait a few minutes, then try again.');
+          return showError('Too many requests. Wait a few minutes, then try again.');
         }
-        const rest = applyProblemToForm(error, setError, ['email']);
-        if (rest.length) setFormError(rest.join(' '));
+        showProblem(error);
       },
     });
   });
@@ -49,22 +42,18 @@ export const ForgotPasswordForm = () => {
 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <Field label="E-mail" error={errors.email?.message}>
-        {({ invalid, ...control }) => (
-          <Input
-            {...control}
-            invalid={invalid}
-            type="email"
-            autoComplete="email"
-            inputMode="email"
-            autoCapitalize="none"
-            spellCheck={false}
-            autoFocus
-            {...register('email')}
-          />
-        )}
-      </Field>
+      <FormMessageAlert message={message} />
+      <InputField
+        label="E-mail"
+        error={errors.email?.message}
+        type="email"
+        autoComplete="email"
+        inputMode="email"
+        autoCapitalize="none"
+        spellCheck={false}
+        autoFocus
+        {...register('email')}
+      />
       <Button type="submit" pending={request.isPending} className="w-full">
         Send the link
       </Button>

@@ -1,17 +1,13 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { Link } from 'react-router-dom';
 import type { LoginInput } from '../../../../shared/schemas/auth.ts';
-import { Alert } from '@/components/ui/alert';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
-import { Input, PasswordInput } from '@/components/ui/input';
+import { Field, FormMessageAlert, InputField } from '@/components/ui/field';
+import { PasswordInput } from '@/components/ui/input';
 import { paths } from '@/config/paths';
 import { loginSchema, useLogin } from '@/features/auth/api/login';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { pluralize } from '@/utils/format';
-import { applyProblemToForm } from '@/utils/problem-form';
 
 export interface LoginFormProps {
   onSignedIn: () => void;
@@ -35,45 +31,40 @@ function loginErrorMessage(error: unknown): string | null {
 
 export const LoginForm = ({ onSignedIn }: LoginFormProps) => {
   const login = useLogin();
-  const [formError, setFormError] = useState<string | null>(null);
+  const { form, message, showError, showProblem, submit } = useApiForm<LoginInput>(loginSchema, {
+    defaultValues: { email: '', password: '' },
+    fields: ['email', 'password'],
+  });
   const {
     register,
-    handleSubmit,
-    setError,
     formState: { errors },
-  } = useForm<LoginInput>({ resolver: zodResolver(loginSchema), defaultValues: { email: '', password: '' } });
+  } = form;
 
-  const onSubmit = handleSubmit((values) => {
-    setFormError(null);
+  const onSubmit = submit((values) => {
     login.mutate(values, {
       onSuccess: onSignedIn,
       onError: (error) => {
         const message = loginErrorMessage(error);
-        if (message) return setFormError(message);
-        const rest = applyProblemToForm(error, setError, ['email', 'password']);
-        if (rest.length) setFormError(rest.join(' '));
+        if (message) return showError(message);
+        showProblem(error);
       },
     });
   });
 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <Field label="E-mail" error={errors.email?.message}>
-        {({ invalid, ...control }) => (
-          <Input
-            {...control}
-            invalid={invalid}
-            type="email"
-            autoComplete="username"
-            inputMode="email"
-            autoCapitalize="none"
-            spellCheck={false}
-            autoFocus
-            {...register('email')}
-          />
-        )}
-      </Field>
+      <FormMessageAlert message={message} />
+      <InputField
+        label="E-mail"
+        error={errors.email?.message}
+        type="email"
+        autoComplete="username"
+        inputMode="email"
+        autoCapitalize="none"
+        spellCheck={false}
+        autoFocus
+        {...register('email')}
+      />
       <Field
         label="Password"
         error={errors.password?.message}

@@ -1,7 +1,6 @@
 import type { UseFormRegisterReturn } from 'react-hook-form';
 import { minPasswordLength } from '../../../../shared/schemas/auth.ts';
-import { Field } from '@/components/ui/field';
-import { PasswordInput } from '@/components/ui/input';
+import { PasswordField } from '@/components/ui/field';
 
 export interface NewPasswordFieldsProps {
   password: UseFormRegisterReturn;
@@ -13,11 +12,13 @@ export interface NewPasswordFieldsProps {
 /** "New password" and "Repeat the password", for the reset and invitation forms. */
 export const NewPasswordFields = ({ password, confirmPassword, passwordError, confirmPasswordError }: NewPasswordFieldsProps) => (
   <>
-    <Field label="New password" hint={`At least ${minPasswordLength} characters. A few unrelated words make a good one.`} error={passwordError}>
-      {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} autoComplete="new-password" {...password} />}
-    </Field>
-    <Field label="Repeat the password" error={confirmPasswordError}>
-      {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} autoComplete="new-password" {...confirmPassword} />}
-    </Field>
+    <PasswordField
+      label="New password"
+      hint={`At least ${minPasswordLength} characters. A few unrelated words make a good one.`}
+      error={passwordError}
+      autoComplete="new-password"
+      {...password}
+    />
+    <PasswordField label="Repeat the password" error={confirmPasswordError} autoComplete="new-password" {...confirmPassword} />
   </>
 );

@@ -5,8 +5,8 @@ import type { z } from 'zod';
 import type { SessionUser } from '../../../../shared/schemas/auth.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { Field, FieldSet } from '@/components/ui/field';
-import { Input, Radio } from '@/components/ui/input';
+import { FieldSet, InputField } from '@/components/ui/field';
+import { Radio } from '@/components/ui/input';
 import { updateMeSchema, useUpdateMe } from '@/features/auth/api/update-me';
 import { formatPressure, formatTemperature, formatVolume } from '@/lib/units';
 import { applyProblemToForm } from '@/utils/problem-form';
@@ -53,9 +53,7 @@ export const ProfileForm = ({ user }: ProfileFormProps) => {
     <form onSubmit={onSubmit} noValidate className="flex max-w-md flex-col gap-5">
       {formError ? <Alert tone="error">{formError}</Alert> : null}
       {update.isSuccess && !isDirty ? <Alert tone="success">Saved.</Alert> : null}
-      <Field label="Name" error={errors.name?.message}>
-        {({ invalid, ...control }) => <Input {...control} invalid={invalid} autoComplete="name" {...register('name')} />}
-      </Field>
+      <InputField label="Name" error={errors.name?.message} autoComplete="name" {...register('name')} />
       <FieldSet
         legend="Units"
         hint="How volumes, temperatures and pressures are shown to you. Records are kept the same either way."

@@ -10,8 +10,8 @@ import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field } from '@/components/ui/field';
-import { Input, Select } from '@/components/ui/input';
+import { Field, InputField, SelectField } from '@/components/ui/field';
+import { Input } from '@/components/ui/input';
 import { useCreateBatch, useUpdateBatch } from '@/features/batches/api/save-batch';
 import { useUnits } from '@/hooks/use-units';
 import { api } from '@/lib/api-client';
@@ -131,22 +131,29 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <Field label="Name" error={errors.name?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoFocus autoComplete="off" {...register('name')} />}
-      </Field>
-      <Field label="Style" error={errors.style?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" placeholder="e.g. Pale ale" {...register('style')} />}
-      </Field>
+      <InputField label="Name" error={errors.name?.message} autoFocus autoComplete="off" {...register('name')} />
+      <InputField label="Style" error={errors.style?.message} autoComplete="off" placeholder="e.g. Pale ale" {...register('style')} />
       <div className="grid gap-4 sm:grid-cols-3">
-        <Field label={`Volume (${units.labels.volume})`} error={errors.volume?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" {...register('volume', { setValueAs: numberOrNull })} />}
-        </Field>
-        <Field label="Target OG" hint="e.g. 1.052" error={errors.targetOg?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" {...register('targetOg', { setValueAs: numberOrNull })} />}
-        </Field>
-        <Field label="Target FG" hint="e.g. 1.012" error={errors.targetFg?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" {...register('targetFg', { setValueAs: numberOrNull })} />}
-        </Field>
+        <InputField
+          label={`Volume (${units.labels.volume})`}
+          error={errors.volume?.message}
+          inputMode="decimal"
+          {...register('volume', { setValueAs: numberOrNull })}
+        />
+        <InputField
+          label="Target OG"
+          hint="e.g. 1.052"
+          error={errors.targetOg?.message}
+          inputMode="decimal"
+          {...register('targetOg', { setValueAs: numberOrNull })}
+        />
+        <InputField
+          label="Target FG"
+          hint="e.g. 1.012"
+          error={errors.targetFg?.message}
+          inputMode="decimal"
+          {...register('targetFg', { setValueAs: numberOrNull })}
+        />
       </div>
       <Field
         label="Allergens"
@@ -178,18 +185,14 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
           <Input {...c} invalid={invalid} inputMode="numeric" className="w-32" {...register('shelfLifeDays', { setValueAs: numberOrNull })} />
         )}
       </Field>
-      <Field label="Fermenter booking" hint="The fermenter booking that holds this batch." error={errors.bookingId?.message}>
-        {({ invalid, ...c }) => (
-          <Select {...c} invalid={invalid} {...register('bookingId')}>
-            <option value="">None</option>
-            {choices.map((b) => (
-              <option key={b.id} value={b.id}>
-                {b.equipment.code} {b.equipment.name} · {formatDate(b.startsAt)} – {formatDate(b.endsAt)}
-              </option>
-            ))}
-          </Select>
-        )}
-      </Field>
+      <SelectField label="Fermenter booking" hint="The fermenter booking that holds this batch." error={errors.bookingId?.message} {...register('bookingId')}>
+        <option value="">None</option>
+        {choices.map((b) => (
+          <option key={b.id} value={b.id}>
+            {b.equipment.code} {b.equipment.name} · {formatDate(b.startsAt)} – {formatDate(b.endsAt)}
+          </option>
+        ))}
+      </SelectField>
       <Field label="Notes" error={errors.notes?.message}>
         {({ invalid, ...c }) => (
           <textarea

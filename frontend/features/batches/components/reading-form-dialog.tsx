@@ -1,4 +1,5 @@
 import { useEffect, useMemo, useState } from 'react';
+import { z } from 'zod';
 import { convertGravity } from '../../../../shared/brewing/index.ts';
 import {
   brixMethodLabels,
@@ -9,18 +10,17 @@ import {
   normaliseGravity,
   type BrixMethod,
 } from '../../../../shared/brewing/readings.ts';
-import { createReadingSchema, gravityUnitLabels, gravityUnits, type BatchDetail, type GravityUnit } from '../../../../shared/schemas/batches.ts';
-import { Alert } from '@/components/ui/alert';
+import { createReadingSchema, gravityUnitLabels, gravityUnits, type BatchDetail } from '../../../../shared/schemas/batches.ts';
+import { UnitNumberField } from '@/components/form/unit-number-input';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field } from '@/components/ui/field';
-import { Checkbox, Input, Select } from '@/components/ui/input';
+import { Field, FormMessageAlert, InputField, SelectField } from '@/components/ui/field';
+import { Checkbox, Select } from '@/components/ui/input';
 import { useNotice } from '@/components/ui/notice';
 import { useCreateReading } from '@/features/batches/api/readings';
 import { formatSg } from '@/features/batches/components/gravity-format';
 import { useUnits } from '@/hooks/use-units';
-import { isApiProblem, problemMessage } from '@/lib/api-client';
-import { fromDisplay } from '@/lib/units';
 
 /** Now, as a datetime-local value in the browser's time zone. */
 function localNow(): string {
@@ -29,12 +29,19 @@ function localNow(): string {
   return new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 16);
 }
 
-const parseNumber = (s: string): number | null => {
-  const t = s.trim().replace(',', '.');
-  if (t === '') return null;
-  const n = Number(t);
-  return Number.isFinite(n) ? n : Number.NaN;
-};
+/**
+ * The form's values: the shared reading schema, with the time as the browser's `datetime-local`
+ * text (sent as an instant with its offset) and the temperature already in °C (the unit-aware input
+ * converts what the person types).
+ */
+const readingFormSchema = createReadingSchema.extend({
+  takenAt: z.string().refine((local) => !Number.isNaN(new Date(local).getTime()), 'Give a time like 2026-10-03T14:05:00+02:00'),
+  correctTemperature: z.boolean(),
+  note: z.string().max(500, 'Keep the note under 500 characters'),
+  confirm: z.boolean(),
+});
+type ReadingFormValues = z.infer<typeof readingFormSchema>;
+const readingFields = ['takenAt', 'gravity', 'unit', 'temperatureC', 'correctTemperature', 'note', 'method', 'confirm'] as const;
 
 export interface ReadingFormDialogProps {
   open: boolean;
@@ -47,20 +54,32 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
   const create = useCreateReading(batch.id);
   const notice = useNotice();
   useEffect(() => onBusy(create.isPending), [create.isPending, onBusy]);
-  const [takenAt, setTakenAt] = useState(localNow);
-  const [gravity, setGravity] = useState('');
-  const [unit, setUnit] = useState<GravityUnit>('sg');
-  const [temperature, setTemperature] = useState('');
-  const [correct, setCorrect] = useState(true);
-  const [note, setNote] = useState('');
-  const [chosenMethod, setChosenMethod] = useState<BrixMethod | null>(null);
-  const [confirm, setConfirm] = useState(false);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [formError, setFormError] = useState<string | null>(null);
-
-  const value = parseNumber(gravity);
-  const tempDisplay = parseNumber(temperature);
-  const tempC = tempDisplay === null || Number.isNaN(tempDisplay) ? null : fromDisplay.temperature(tempDisplay, units.units);
+  const { form, message, showError, showProblem, submit } = useApiForm<ReadingFormValues>(readingFormSchema, {
+    defaultValues: {
+      takenAt: localNow(),
+      gravity: null as never,
+      unit: 'sg',
+      temperatureC: null,
+      correctTemperature: true,
+      note: '',
+      method: null,
+      confirm: false,
+    },
+    fields: readingFields,
+  });
+  const { register, setValue, setError, control } = form;
+  const errors = form.formState.errors;
+  const [takenAt, gravity, unit, tempValue, correct, chosenMethod, confirm] = form.watch([
+    'takenAt',
+    'gravity',
+    'unit',
+    'temperatureC',
+    'correctTemperature',
+    'method',
+    'confirm',
+  ]);
+  const value = typeof gravity === 'number' ? gravity : null;
+  const tempC = typeof tempValue === 'number' && Number.isFinite(tempValue) ? tempValue : null;
   const time = Date.parse(takenAt);
   // Brix after the first reading is read through alcohol, with the batch's original gravity.
   const afterFirst = batch.firstReadingAt !== null && Number.isFinite(time) && time > Date.parse(batch.firstReadingAt);
@@ -92,35 +111,16 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
   const needsConfirm =
     preview && 'ok' in preview && preview.ok && afterFirst && batch.og !== null ? checkAgainstOriginal(preview.ok.sg, batch.og).confirmable : false;
 
-  const submit = (event: React.FormEvent) => {
-    event.preventDefault();
-    setFormError(null);
-    const local = new Date(takenAt);
+  const onSubmit = submit((values) => {
+    if (preview && 'error' in preview) return setError('gravity', { message: preview.error ?? 'Check the gravity' });
+    if (check?.refusal) return setError('gravity', { message: check.refusal });
     const parsed = createReadingSchema.safeParse({
-      takenAt: Number.isNaN(local.getTime()) ? takenAt : local.toISOString(),
-      gravity: value === null ? undefined : value,
-      unit,
-      temperatureC: tempC === null ? null : Math.round(tempC * 100) / 100,
-      correctTemperature: correct,
-      note,
-      method: unit === 'brix' ? method : null,
-      confirm: needsConfirm && confirm,
+      ...values,
+      takenAt: new Date(values.takenAt).toISOString(),
+      method: values.unit === 'brix' ? method : null,
+      confirm: needsConfirm && values.confirm,
     });
-    if (!parsed.success) {
-      const next: Record<string, string> = {};
-      for (const issue of parsed.error.issues) next[String(issue.path[0] ?? '')] ??= issue.message;
-      setErrors(next);
-      return;
-    }
-    if (preview && 'error' in preview) {
-      setErrors({ gravity: preview.error ?? 'Check the gravity' });
-      return;
-    }
-    if (check?.refusal) {
-      setErrors({ gravity: check.refusal });
-      return;
-    }
-    setErrors({});
+    if (!parsed.success) return showError(parsed.error.issues.map((issue) => issue.message).join(' '));
     create.mutate(parsed.data, {
       onSuccess: (reading) => {
         // The server moves a planned batch to Fermenting with its first reading: say so.
@@ -134,61 +134,49 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
         );
         onClose();
       },
-      onError: (error) => {
-        if (isApiProblem(error) && error.errors.length) {
-          const next: Record<string, string> = {};
-          for (const e of error.errors) next[e.path] ??= e.message;
-          setErrors(next);
-          if (!Object.keys(next).some((k) => ['takenAt', 'gravity', 'unit', 'temperatureC'].includes(k))) setFormError(problemMessage(error));
-        } else setFormError(problemMessage(error));
-      },
+      onError: showProblem,
     });
-  };
+  });
 
   const range = gravityEntryRanges[unit];
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <Field label="Taken at" error={errors.takenAt}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="datetime-local" value={takenAt} onChange={(e) => setTakenAt(e.target.value)} />}
-      </Field>
+    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+      <FormMessageAlert message={message} />
+      <InputField label="Taken at" error={errors.takenAt?.message} type="datetime-local" {...register('takenAt')} />
       <div className="grid gap-4 sm:grid-cols-[1fr_9rem]">
-        <Field label="Gravity" hint={`${range.label}: ${range.min} to ${range.max}`} error={errors.gravity}>
-          {({ invalid, ...c }) => (
-            <Input
-              {...c}
-              invalid={invalid}
-              inputMode="decimal"
-              autoFocus
-              value={gravity}
-              onChange={(e) => setGravity(e.target.value)}
-              placeholder={unit === 'sg' ? '1.048' : '12.0'}
-            />
-          )}
-        </Field>
-        <Field label="Scale" error={errors.unit}>
-          {({ invalid, ...c }) => (
-            <Select {...c} invalid={invalid} value={unit} onChange={(e) => setUnit(e.target.value as GravityUnit)}>
-              {gravityUnits.map((u) => (
-                <option key={u} value={u}>
-                  {u === 'sg' ? 'SG (hydrometer)' : u === 'plato' ? '°Plato' : 'Brix (refractometer)'}
-                </option>
-              ))}
-            </Select>
-          )}
-        </Field>
+        <UnitNumberField
+          control={control}
+          name="gravity"
+          kind={{ label: '' }}
+          label="Gravity"
+          hint={`${range.label}: ${range.min} to ${range.max}`}
+          autoFocus
+          placeholder={unit === 'sg' ? '1.048' : '12.0'}
+        />
+        <SelectField label="Scale" error={errors.unit?.message} {...register('unit')}>
+          {gravityUnits.map((u) => (
+            <option key={u} value={u}>
+              {u === 'sg' ? 'SG (hydrometer)' : u === 'plato' ? '°Plato' : 'Brix (refractometer)'}
+            </option>
+          ))}
+        </SelectField>
       </div>
-      <Field label={`Sample temperature (${units.labels.temperature})`} hint="Optional." error={errors.temperatureC}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" value={temperature} onChange={(e) => setTemperature(e.target.value)} />}
-      </Field>
+      <UnitNumberField
+        control={control}
+        name="temperatureC"
+        kind="temperature"
+        apiDigits={2}
+        label={`Sample temperature (${units.labels.temperature})`}
+        hint="Optional."
+      />
       {unit === 'brix' ? (
         <Field
           label="Refractometer sample"
           hint="Wort has no alcohol yet; a fermenting or finished sample is corrected for alcohol with the batch’s original gravity."
-          error={errors.method}
+          error={errors.method?.message}
         >
           {({ invalid, ...c }) => (
-            <Select {...c} invalid={invalid} value={method} onChange={(e) => setChosenMethod(e.target.value as BrixMethod)}>
+            <Select {...c} invalid={invalid} value={method} onChange={(e) => setValue('method', e.target.value as BrixMethod)}>
               {brixMethods.map((m) => (
                 <option key={m} value={m}>
                   {brixMethodLabels[m]}
@@ -201,8 +189,7 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
       {unit !== 'brix' ? (
         <Checkbox
           label={`Correct to the hydrometer’s calibration temperature (${units.temperature(batch.corrections.hydrometerCalibrationC, { digits: 0 })})`}
-          checked={correct}
-          onChange={(e) => setCorrect(e.target.checked)}
+          {...register('correctTemperature')}
         />
       ) : null}
       <div aria-live="polite" className="rounded-md border border-line bg-ground px-3 py-2 text-sm" data-testid="correction-preview">
@@ -227,10 +214,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           </span>
         )}
       </div>
-      {needsConfirm ? <Checkbox label="I have checked this reading: store it anyway" checked={confirm} onChange={(e) => setConfirm(e.target.checked)} /> : null}
-      <Field label="Note" error={errors.note}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} value={note} onChange={(e) => setNote(e.target.value)} autoComplete="off" />}
-      </Field>
+      {needsConfirm ? <Checkbox label="I have checked this reading: store it anyway" {...register('confirm')} /> : null}
+      <InputField label="Note" error={errors.note?.message} autoComplete="off" {...register('note')} />
       <DialogActions>
         <Button variant="secondary" onClick={onClose} disabled={create.isPending}>
           Cancel

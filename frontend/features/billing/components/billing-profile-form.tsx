@@ -3,7 +3,7 @@ import { useForm } from 'react-hook-form';
 import type { BillingProfile } from '../../../../shared/schemas/billing.ts';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
+import { Field, InputField } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { billingProfileSchema, useSaveBillingProfile } from '@/features/billing/api/price-list';
 import { applyProblemToForm } from '@/utils/problem-form';
@@ -67,12 +67,8 @@ export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => 
       {formError ? <Alert tone="error">{formError}</Alert> : null}
       {saved ? <Alert tone="success">Saved. New PDFs and e-mails use it.</Alert> : null}
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Co-op name" error={errors.coopName?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} {...register('coopName')} />}
-        </Field>
-        <Field label="Billing e-mail" error={errors.email?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="email" {...register('email')} />}
-        </Field>
+        <InputField label="Co-op name" error={errors.coopName?.message} {...register('coopName')} />
+        <InputField label="Billing e-mail" error={errors.email?.message} type="email" {...register('email')} />
         <Field label="Address" hint="One line per row" error={errors.address?.message} className="sm:row-span-2">
           {({ invalid, ...c }) => (
             <textarea
@@ -84,24 +80,22 @@ export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => 
             />
           )}
         </Field>
-        <Field label="Currency" hint="Three letters, e.g. EUR" error={errors.currency?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} className="w-28 uppercase" {...register('currency')} />}
-        </Field>
+        <InputField
+          label="Currency"
+          hint="Three letters, e.g. EUR"
+          error={errors.currency?.message}
+          inputClassName="w-28 uppercase"
+          {...register('currency')}
+        />
         <Field label="Days to pay" error={errors.paymentTermsDays?.message}>
           {({ invalid, ...c }) => (
             <Input {...c} invalid={invalid} type="number" min={0} className="w-28" {...register('paymentTermsDays', { valueAsNumber: true })} />
           )}
         </Field>
-        <Field label="Account holder" error={errors.bankAccountName?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} {...register('bankAccountName')} />}
-        </Field>
-        <Field label="Account number" error={errors.bankAccount?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} {...register('bankAccount')} />}
-        </Field>
+        <InputField label="Account holder" error={errors.bankAccountName?.message} {...register('bankAccountName')} />
+        <InputField label="Account number" error={errors.bankAccount?.message} {...register('bankAccount')} />
       </div>
-      <Field label="Note under “How to pay”" error={errors.paymentNote?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} {...register('paymentNote')} />}
-      </Field>
+      <InputField label="Note under “How to pay”" error={errors.paymentNote?.message} {...register('paymentNote')} />
       <div>
         <Button type="submit" pending={save.isPending}>
           Save

@@ -1,6 +1,4 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { todayIn } from '../../../../shared/billing/dates.ts';
 import { splitGross } from '../../../../shared/billing/money.ts';
 import {
@@ -11,11 +9,12 @@ import {
   type RefundInput,
   type VoidInvoiceInput,
 } from '../../../../shared/schemas/billing.ts';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field } from '@/components/ui/field';
-import { Input, Radio, Select } from '@/components/ui/input';
+import { Field, FormMessageAlert, InputField, SelectField } from '@/components/ui/field';
+import { Input, Radio } from '@/components/ui/input';
 import { useNotice } from '@/components/ui/notice';
 import {
   paymentInputSchema,
@@ -27,7 +26,6 @@ import {
 } from '@/features/billing/api/invoice-actions';
 import { money } from '@/features/billing/components/money';
 import { centsToInput, parseMoneyInput } from '@/features/billing/utils/money-input';
-import { applyProblemToForm } from '@/utils/problem-form';
 import { coopTimeZone } from '@/utils/format';
 
 interface DialogBaseProps {
@@ -42,18 +40,20 @@ const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
 const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const record = useRecordPayment(invoice.id);
   const notice = useNotice();
-  const [formError, setFormError] = useState<string | null>(null);
+  const {
+    form,
+    message,
+    showProblem,
+    submit: submitted,
+  } = useApiForm<PaymentInput>(paymentInputSchema, {
+    defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
+    fields: ['amountCents', 'method', 'receivedOn', 'reference', 'note'],
+  });
   const {
     register,
-    handleSubmit,
-    setError,
     formState: { errors },
-  } = useForm<PaymentInput>({
-    resolver: zodResolver(paymentInputSchema),
-    defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
-  });
-  const submit = handleSubmit((values) => {
-    setFormError(null);
+  } = form;
+  const submit = submitted((values) => {
     record.mutate(values, {
       onSuccess: ({ payment, invoice: after }) => {
         notice.show({
@@ -66,44 +66,38 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
         onClose();
       },
       onError: (e) => {
-        const rest = applyProblemToForm(e, setError, ['amountCents', 'method', 'receivedOn', 'reference', 'note']);
-        if (rest.length) setFormError(rest.join(' '));
+        showProblem(e);
       },
     });
   });
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      <FormMessageAlert message={message} />
       <p className="text-sm text-ink-muted">Still to pay: {money(invoice.amountDueCents, invoice.currency)}. A smaller amount is recorded as a part payment.</p>
-      <Field label="Amount received" hint={moneyHint(invoice.currency)} error={errors.amountCents?.message}>
-        {({ invalid, ...c }) => (
-          <Input
-            {...c}
-            invalid={invalid}
-            inputMode="decimal"
-            defaultValue={centsToInput(invoice.amountDueCents)}
-            autoFocus
-            {...register('amountCents', { setValueAs: parseMoneyInput })}
-          />
-        )}
-      </Field>
-      <Field label="How" error={errors.method?.message}>
-        {({ invalid, ...c }) => (
-          <Select {...c} invalid={invalid} {...register('method')}>
-            {manualPaymentMethods.map((m) => (
-              <option key={m} value={m}>
-                {paymentMethodLabels[m]}
-              </option>
-            ))}
-          </Select>
-        )}
-      </Field>
-      <Field label="Received on" error={errors.receivedOn?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="date" {...register('receivedOn')} />}
-      </Field>
-      <Field label="Reference" hint="The bank's reference, or the receipt number for cash." error={errors.reference?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" {...register('reference')} />}
-      </Field>
+      <InputField
+        label="Amount received"
+        hint={moneyHint(invoice.currency)}
+        error={errors.amountCents?.message}
+        inputMode="decimal"
+        defaultValue={centsToInput(invoice.amountDueCents)}
+        autoFocus
+        {...register('amountCents', { setValueAs: parseMoneyInput })}
+      />
+      <SelectField label="How" error={errors.method?.message} {...register('method')}>
+        {manualPaymentMethods.map((m) => (
+          <option key={m} value={m}>
+            {paymentMethodLabels[m]}
+          </option>
+        ))}
+      </SelectField>
+      <InputField label="Received on" error={errors.receivedOn?.message} type="date" {...register('receivedOn')} />
+      <InputField
+        label="Reference"
+        hint="The bank's reference, or the receipt number for cash."
+        error={errors.reference?.message}
+        autoComplete="off"
+        {...register('reference')}
+      />
       <DialogActions>
         <Button variant="secondary" onClick={onClose} disabled={record.isPending}>
           Cancel
@@ -130,25 +124,27 @@ const invoiceRate = (invoice: InvoiceDetail) => {
 const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const refund = useRefundInvoice(invoice.id);
   const notice = useNotice();
-  const [formError, setFormError] = useState<string | null>(null);
   const creditable = invoice.totalCents - invoice.creditedCents;
   const {
+    form,
+    message,
+    showProblem,
+    submit: submitted,
+  } = useApiForm<RefundInput>(refundInputSchema, {
+    defaultValues: { reason: '', refundMethod: null },
+    fields: ['amountCents', 'reason', 'refundMethod'],
+  });
+  const {
     register,
-    handleSubmit,
-    setError,
     watch,
     formState: { errors },
-  } = useForm<RefundInput>({
-    resolver: zodResolver(refundInputSchema),
-    defaultValues: { reason: '', refundMethod: null },
-  });
+  } = form;
   // Nothing is recorded as paid back unless the treasurer says it was, and how.
   const [paidBack, setPaidBack] = useState<'no' | (typeof manualPaymentMethods)[number]>('no');
   const amount = watch('amountCents');
   const rate = invoiceRate(invoice);
   const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
-  const submit = handleSubmit((values) => {
-    setFormError(null);
+  const submit = submitted((values) => {
     refund.mutate(
       { ...values, refundMethod: paidBack === 'no' ? null : paidBack },
       {
@@ -161,15 +157,14 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
           onClose();
         },
         onError: (e) => {
-          const rest = applyProblemToForm(e, setError, ['amountCents', 'reason', 'refundMethod']);
-          if (rest.length) setFormError(rest.join(' '));
+          showProblem(e);
         },
       },
     );
   });
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      <FormMessageAlert message={message} />
       {rate === null ? <Alert tone="info">This invoice has lines at several tax rates; void it instead of crediting part of it.</Alert> : null}
       <Field
         label="Amount to credit, tax included"
@@ -182,9 +177,7 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       >
         {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" autoFocus {...register('amountCents', { setValueAs: parseMoneyInput })} />}
       </Field>
-      <Field label="Reason" hint="Shown on the credit note." error={errors.reason?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" {...register('reason')} />}
-      </Field>
+      <InputField label="Reason" hint="Shown on the credit note." error={errors.reason?.message} autoComplete="off" {...register('reason')} />
       {invoice.paidCents > 0 ? (
         <fieldset className="flex flex-col gap-1">
           <legend className="mb-1 text-sm font-medium">Was money paid back to the member?</legend>
@@ -240,18 +233,17 @@ export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
 const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const voidIt = useVoidInvoice(invoice.id);
   const notice = useNotice();
-  const [formError, setFormError] = useState<string | null>(null);
+  const {
+    form,
+    message,
+    showProblem,
+    submit: submitted,
+  } = useApiForm<VoidInvoiceInput>(voidInvoiceSchema, { defaultValues: { reason: '', refundMethod: null }, fields: ['reason', 'refundMethod'] });
   const {
     register,
-    handleSubmit,
-    setError,
     formState: { errors },
-  } = useForm<VoidInvoiceInput>({
-    resolver: zodResolver(voidInvoiceSchema),
-    defaultValues: { reason: '', refundMethod: null },
-  });
-  const submit = handleSubmit((values) => {
-    setFormError(null);
+  } = form;
+  const submit = submitted((values) => {
     voidIt.mutate(values, {
       onSuccess: ({ creditNoteId, invoice: after }) => {
         const note = after.creditNotes.find((n) => n.id === creditNoteId);
@@ -264,36 +256,34 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
         onClose();
       },
       onError: (e) => {
-        const rest = applyProblemToForm(e, setError, ['reason', 'refundMethod']);
-        if (rest.length) setFormError(rest.join(' '));
+        showProblem(e);
       },
     });
   });
   const draft = invoice.status === 'draft';
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
+      <FormMessageAlert message={message} />
       <p className="text-sm">
         {draft
           ? 'This draft was never issued, so no credit note is needed. Its charges stay billed to this period; correct them with a manual charge or credit on a later period.'
           : `A credit note for ${money(invoice.totalCents - invoice.creditedCents, invoice.currency)} replaces ${invoice.number}. The invoice stays in the books, marked void. Bill any fair charges again as a manual charge on a later period.`}
       </p>
-      <Field label="Reason" error={errors.reason?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" autoFocus {...register('reason')} />}
-      </Field>
+      <InputField label="Reason" error={errors.reason?.message} autoComplete="off" autoFocus {...register('reason')} />
       {invoice.paidCents > 0 ? (
-        <Field label="What was paid" hint={`${money(invoice.paidCents, invoice.currency)} has been paid.`} error={errors.refundMethod?.message}>
-          {({ invalid, ...c }) => (
-            <Select {...c} invalid={invalid} {...register('refundMethod', { setValueAs: (v: string | null) => (v ? v : null) })}>
-              <option value="">Keep it as credit on the member’s account</option>
-              {manualPaymentMethods.map((m) => (
-                <option key={m} value={m}>
-                  Pay it back by {paymentMethodLabels[m].toLowerCase()}
-                </option>
-              ))}
-            </Select>
-          )}
-        </Field>
+        <SelectField
+          label="What was paid"
+          hint={`${money(invoice.paidCents, invoice.currency)} has been paid.`}
+          error={errors.refundMethod?.message}
+          {...register('refundMethod', { setValueAs: (v: string | null) => (v ? v : null) })}
+        >
+          <option value="">Keep it as credit on the member’s account</option>
+          {manualPaymentMethods.map((m) => (
+            <option key={m} value={m}>
+              Pay it back by {paymentMethodLabels[m].toLowerCase()}
+            </option>
+          ))}
+        </SelectField>
       ) : null}
       <DialogActions>
         <Button variant="secondary" onClick={onClose} disabled={voidIt.isPending}>

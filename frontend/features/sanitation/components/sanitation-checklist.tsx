@@ -8,7 +8,7 @@ import {
   type SanitationSettings,
   type SanitationStep,
 } from '../../../../shared/schemas/cellar-settings.ts';
-import type { SanitationCycleView, SanitationStepInput } from '../../../../shared/schemas/sanitation.ts';
+import type { SanitationCycleView } from '../../../../shared/schemas/sanitation.ts';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
@@ -18,121 +18,8 @@ import { Cautions } from '@/components/safety/cautions';
 import { BigChoice, BigInput, BigSelect, bigButton } from '@/components/ui/touch';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
-
-interface StepDraft {
-  done: boolean;
-  /** `datetime-local` value in the phone's time zone. */
-  at: string;
-  chemical: string;
-  concentration: string;
-  contactMinutes: string;
-  purgeMethod: 'flush' | 'push_out';
-  purgeSeconds: string;
-  /** Push-out purge: the keg the sanitizer went into. */
-  pushedInto: string;
-  /** Caustic clean: vented to atmospheric pressure first. */
-  vented: boolean;
-  /** Why a step outside the co-op's rules was done anyway (recorded as an exception). */
-  exceptionReason: string;
-}
-
-const pad = (n: number) => String(n).padStart(2, '0');
-export function localNow(d = new Date()): string {
-  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}T${pad(d.getHours())}:${pad(d.getMinutes())}`;
-}
-const toIso = (local: string) => new Date(local).toISOString();
-const num = (v: string) => (v.trim() === '' || Number.isNaN(Number(v)) ? undefined : Number(v));
-
-function initialDraft(step: SanitationStep, settings: SanitationSettings): StepDraft {
-  const first = settings.chemicals.find((c) => c.active && c.step === step);
-  return {
-    done: false,
-    at: localNow(),
-    chemical: first?.id ?? '',
-    concentration: first ? String(first.defaultConcentration) : '',
-    contactMinutes: first ? String(first.recommendedContactMinutes) : '',
-    purgeMethod: 'flush',
-    purgeSeconds: '30',
-    pushedInto: '',
-    vented: false,
-    exceptionReason: '',
-  };
-}
-
-function toInput(step: SanitationStep, d: StepDraft, settings: SanitationSettings): SanitationStepInput {
-  const at = toIso(d.at);
-  const exception = d.exceptionReason.trim() ? { exceptionReason: d.exceptionReason.trim() } : {};
-  if (step === 'rinse') return { step, at };
-  if (step === 'purge') {
-    const seconds = num(d.purgeSeconds);
-    return d.purgeMethod === 'push_out'
-      ? { step, at, purgeMethod: 'push_out', ...(d.pushedInto ? { pushedIntoEquipmentId: d.pushedInto } : {}), ...exception }
-      : { step, at, purgeMethod: 'flush', ...(seconds !== undefined ? { contactMinutes: seconds / 60 } : {}), ...exception };
-  }
-  const concentration = num(d.concentration);
-  const contact = num(d.contactMinutes);
-  const caustic = step === 'clean' && settings.chemicals.find((c) => c.id === d.chemical)?.caustic;
-  return {
-    step,
-    at,
-    ...(d.chemical ? { chemical: d.chemical } : {}),
-    ...(concentration !== undefined && concentration > 0 ? { concentration } : {}),
-    ...(contact !== undefined ? { contactMinutes: contact } : {}),
-    ...(caustic ? { vented: d.vented } : {}),
-    ...exception,
-  };
-}
-
-/**
- * Why a step would be refused, beside the step; for a rule that may be broken with a reason, the
- * box for that reason (the step is then recorded as an exception and the audit report lists it).
- */
-const StepProblems = ({
-  id,
-  problems,
-  server,
-  reason,
-  onReason,
-}: {
-  id: string;
-  problems: StepViolation[];
-  server: string[];
-  reason: string;
-  onReason: (v: string) => void;
-}) => {
-  const messages = [...new Set([...problems.map((p) => p.message), ...server])];
-  if (!messages.length) return null;
-  const exceptable = problems.length > 0 && problems.every((p) => p.exceptable);
-  return (
-    <div id={id} className="mt-3 flex flex-col gap-2 rounded-md border border-danger/40 bg-danger-soft px-3 py-2 text-sm text-danger-strong" role="alert">
-      <ul className="list-disc pl-5">
-        {messages.map((m) => (
-          <li key={m}>{m}</li>
-        ))}
-      </ul>
-      {exceptable ? (
-        <label className="flex flex-col gap-1 font-medium text-ink">
-          Reason to record it as an exception
-          <textarea
-            className="min-h-20 w-full rounded-md border border-line-strong bg-surface px-3 py-2 text-base text-ink"
-            value={reason}
-            maxLength={500}
-            onChange={(e) => onReason(e.target.value)}
-          />
-          <span className="text-xs font-normal text-ink-muted">Or correct the value above. An exception is listed in the audit report with its reason.</span>
-        </label>
-      ) : problems.length ? (
-        <p className="text-xs">This cannot be recorded as an exception: correct it.</p>
-      ) : null}
-    </div>
-  );
-};
-
-const outcomeText = {
-  ready: { label: 'Ready', tone: 'ready' as const, line: 'The vessel will be ready to fill.' },
-  cleaned: { label: 'Cleaned', tone: 'muted' as const, line: 'The vessel will be cleaned but not ready: it still needs a proper sanitize and purge.' },
-  needs_cleaning: { label: 'Needs cleaning', tone: 'due' as const, line: 'The vessel will still need cleaning.' },
-};
+import { StepProblems } from '@/features/sanitation/components/step-problems';
+import { type StepDraft, localNow, initialDraft, toInput, outcomeText } from '@/features/sanitation/step-draft';
 
 export interface SanitationChecklistProps {
   vessel: { id: string; code: string };

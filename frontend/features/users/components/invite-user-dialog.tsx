@@ -1,16 +1,12 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useState } from 'react';
-import { useForm } from 'react-hook-form';
 import type { InviteUserInput, User } from '../../../../shared/schemas/user.ts';
-import { Alert } from '@/components/ui/alert';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field } from '@/components/ui/field';
-import { Input } from '@/components/ui/input';
+import { FormMessageAlert, InputField } from '@/components/ui/field';
 import { inviteUserSchema, useInviteUser } from '@/features/users/api/invite-user';
 import { RoleCheckboxes } from '@/features/users/components/role-checkboxes';
 import { isApiProblem } from '@/lib/api-client';
-import { applyProblemToForm } from '@/utils/problem-form';
 
 export interface InviteUserDialogProps {
   open: boolean;
@@ -23,19 +19,17 @@ type InviteUserFormProps = Omit<InviteUserDialogProps, 'open'> & { onBusy: (busy
 const InviteUserForm = ({ onClose, onInvited, onBusy }: InviteUserFormProps) => {
   const invite = useInviteUser();
   useEffect(() => onBusy(invite.isPending), [invite.isPending, onBusy]);
-  const [formError, setFormError] = useState<string | null>(null);
+  const { form, message, showProblem, submit } = useApiForm<InviteUserInput>(inviteUserSchema, {
+    defaultValues: { email: '', name: '', roles: ['member'] },
+    fields: ['email', 'name', 'roles'],
+  });
   const {
     register,
-    handleSubmit,
     setError,
     formState: { errors },
-  } = useForm<InviteUserInput>({
-    resolver: zodResolver(inviteUserSchema),
-    defaultValues: { email: '', name: '', roles: ['member'] },
-  });
+  } = form;
 
-  const onSubmit = handleSubmit((values) => {
-    setFormError(null);
+  const onSubmit = submit((values) => {
     invite.mutate(values, {
       onSuccess: ({ user }) => onInvited(user),
       onError: (error) => {
@@ -43,33 +37,26 @@ const InviteUserForm = ({ onClose, onInvited, onBusy }: InviteUserFormProps) => 
         if (isApiProblem(error) && error.status === 409 && error.errors.length === 0) {
           return setError('email', { type: 'server', message: error.detail ?? error.title }, { shouldFocus: true });
         }
-        const rest = applyProblemToForm(error, setError, ['email', 'name', 'roles']);
-        if (rest.length) setFormError(rest.join(' '));
+        showProblem(error);
       },
     });
   });
 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <Field label="E-mail" error={errors.email?.message}>
-        {({ invalid, ...control }) => (
-          <Input
-            {...control}
-            invalid={invalid}
-            type="email"
-            inputMode="email"
-            autoCapitalize="none"
-            spellCheck={false}
-            autoComplete="off"
-            autoFocus
-            {...register('email')}
-          />
-        )}
-      </Field>
-      <Field label="Name" hint="They can change it when they accept." error={errors.name?.message}>
-        {({ invalid, ...control }) => <Input {...control} invalid={invalid} autoComplete="off" {...register('name')} />}
-      </Field>
+      <FormMessageAlert message={message} />
+      <InputField
+        label="E-mail"
+        error={errors.email?.message}
+        type="email"
+        inputMode="email"
+        autoCapitalize="none"
+        spellCheck={false}
+        autoComplete="off"
+        autoFocus
+        {...register('email')}
+      />
+      <InputField label="Name" hint="They can change it when they accept." error={errors.name?.message} autoComplete="off" {...register('name')} />
       <RoleCheckboxes registration={register('roles')} error={errors.roles?.message ?? errors.roles?.root?.message} />
       <DialogActions>
         <Button variant="secondary" onClick={onClose} disabled={invite.isPending}>

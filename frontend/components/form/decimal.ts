@@ -1,0 +1,11 @@
+/**
+ * A number as people type it: a decimal point or a decimal comma ("4,5" is 4.5), an optional sign,
+ * spaces around it ignored. Empty text is `null`; text that is not (yet) a number, such as "-" or
+ * "1,2,3", is NaN, so a half-typed value is kept as text and refused by the form's schema.
+ */
+export function parseDecimal(text: string): number | null {
+  const trimmed = text.trim();
+  if (trimmed === '') return null;
+  if (!/^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/.test(trimmed)) return Number.NaN;
+  return Number(trimmed.replace(',', '.'));
+}
