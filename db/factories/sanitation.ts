@@ -1,7 +1,8 @@
 import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { SanitationCycleTable, SanitationStepTable } from '../../backend/db/tables/cellar-operations.ts';
-import { sanitationSettings, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.service.ts';
+import { cycleFields, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.repository.ts';
+import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
 import { blockingViolations, evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
 import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
@@ -84,13 +85,7 @@ export async function createSanitationCycle(db: Database, o: SanitationCycleOver
       .insertInto('sanitation_cycle')
       .values({
         equipment_id: vessel.id,
-        started_at: ev.startedAt,
-        completed_at: ev.completedAt,
-        outcome: ev.outcome,
-        complete: ev.complete,
-        issues: JSON.stringify(ev.issues),
-        freshness_days: ev.complete ? settings.freshnessDays : null,
-        fresh_until: ev.freshUntil,
+        ...cycleFields(ev, settings),
         recorded_by: recordedBy,
         notes: o.notes ?? '',
         created_at: toDate(o.createdAt ?? new Date(ev.completedAt.getTime() + 2 * MINUTE), 'createdAt'),

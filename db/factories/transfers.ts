@@ -5,7 +5,7 @@ import { batchGravityFigures } from '../../backend/modules/batches/figures.ts';
 import { fillBestBefore } from '../../backend/modules/batches/shelf-life.ts';
 import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
-import { markBatchPackaged } from '../../backend/modules/transfers/transfers.service.ts';
+import { markBatchPackaged } from '../../backend/modules/transfers/transfers.repository.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
 import { type At, DAY, HOUR, inTransaction, MINUTE, toDate } from './common.ts';
 import { createBatch } from './batches.ts';

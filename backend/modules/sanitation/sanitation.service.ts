@@ -1,5 +1,3 @@
-import { sql } from 'kysely';
-import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { checkSteps, evaluateCycle, outcomeReason, type CycleEvaluation, type StepForRules } from '../../../shared/cellar/sanitation-rules.ts';
 import type { SanitationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
@@ -8,7 +6,6 @@ import type {
   SanitationCycleListQuery,
   SanitationCycleView,
   SanitationStepInput,
-  SanitationStepView,
   VesselSanitationStatus,
 } from '../../../shared/schemas/sanitation.ts';
 import type { Database } from '../../db/database.ts';
@@ -16,7 +13,28 @@ import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { drawCo2, purgeGrams } from '../equipment/cylinders.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
-import { effectiveStateSql, freshUntilSql, lapsedSql, setVesselState } from '../equipment/vessel-state.ts';
+import { setVesselState } from '../equipment/vessel-state.ts';
+import {
+  activePeople,
+  cycleFields,
+  cyclePage,
+  cycleRows,
+  equipmentKinds,
+  insertCycle,
+  latestCycleId,
+  lockCycle,
+  lockVessel,
+  replaceSteps,
+  stepsOf,
+  stepRows,
+  updateCycle,
+  vesselStateRow,
+  vesselStatusPage,
+  type CycleRow,
+  type VesselStatusQuery,
+} from './sanitation.repository.ts';
+
+export { stepRows } from './sanitation.repository.ts';
 
 /** A step may be recorded a little ahead of the server clock (phones drift), not more. */
 const FUTURE_SLACK_MS = 10 * 60_000;
@@ -56,7 +74,7 @@ export function assertStepsChecked(steps: readonly StepForRules[], settings: San
 async function assertPushOutKegs(db: Database, steps: readonly SanitationStepInput[], vesselId: string, firstNew = 0): Promise<void> {
   const ids = [...new Set(steps.map((s) => s.pushedIntoEquipmentId).filter((v): v is string => Boolean(v)))];
   if (!ids.length) return;
-  const found = await db.selectFrom('equipment').select(['id', 'kind']).where('id', 'in', ids).execute();
+  const found = await equipmentKinds(db, ids);
   const kegs = new Set(found.filter((r) => r.kind === 'keg').map((r) => r.id));
   steps.forEach((s, i) => {
     if (!s.pushedIntoEquipmentId) return;
@@ -66,6 +84,41 @@ async function assertPushOutKegs(db: Database, steps: readonly SanitationStepInp
       throw unprocessable('Purge step: the keg it was pushed into is not a keg the co-op has.', [{ path, message: 'No keg with this id' }]);
     if (s.pushedIntoEquipmentId === vesselId) throw unprocessable('Purge step: a keg cannot be pushed into itself.', [{ path, message: 'Pick another keg' }]);
   });
+}
+
+/** A step may be recorded a little ahead of the clock, not more (422). */
+function assertNotFuture(steps: readonly { at: string }[], now: Date): void {
+  const latestAllowed = now.getTime() + FUTURE_SLACK_MS;
+  steps.forEach((s, i) => {
+    if (new Date(s.at).getTime() > latestAllowed) {
+      throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
+    }
+  });
+}
+
+/**
+ * What every recorded cycle writes besides its own row: its steps, the CO2 its purges drew (`newSteps`),
+ * and the vessel's state from the outcome.
+ */
+async function writeCycleEffects(
+  trx: Database,
+  cycleId: string,
+  vesselId: string,
+  ev: CycleEvaluation,
+  steps: { all: readonly SanitationStepInput[]; added: readonly SanitationStepInput[] },
+  settings: SanitationSettings,
+  actorId: string,
+  now: Date,
+): Promise<void> {
+  await replaceSteps(trx, cycleId, stepRows(cycleId, ev, steps.all, settings, actorId));
+  await drawCo2(trx, { grams: purgeGrams(steps.added, settings.co2GramsPerPurge), sourceType: 'sanitation_cycle', sourceId: cycleId, actorId, at: now, now });
+  await setVesselState(trx, vesselId, ev.outcome, outcomeReason(ev, settings.freshnessDays), actorId, now);
+}
+
+/** A cycle as the API shows it, with its vessel's state now. */
+async function cycleResult(db: Database, cycleId: string, equipmentId: string) {
+  const [cycle] = await cycleViews(db, [cycleId]);
+  return { cycle: cycle!, equipment: await vesselStateRow(db, equipmentId) };
 }
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
@@ -79,16 +132,10 @@ export async function recordCycle(
   now: Date,
 ): Promise<{ cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }> {
   const settings = await sanitationSettings(db);
-  const latestAllowed = now.getTime() + FUTURE_SLACK_MS;
-  input.steps.forEach((s, i) => {
-    if (new Date(s.at).getTime() > latestAllowed) {
-      throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
-    }
-  });
+  assertNotFuture(input.steps, now);
   const people = [...new Set(input.steps.map((s) => s.performedBy).filter((v): v is string => Boolean(v)))];
   if (people.length) {
-    const found = await db.selectFrom('app_user').select('id').where('id', 'in', people).where('is_active', '=', true).execute();
-    const known = new Set(found.map((r) => r.id));
+    const known = new Set(await activePeople(db, people));
     const bad = input.steps.findIndex((s) => s.performedBy && !known.has(s.performedBy));
     if (bad >= 0) throw unprocessable('Unknown person on a step.', [{ path: `steps.${bad}.performedBy`, message: 'No active person with this id' }]);
   }
@@ -97,7 +144,7 @@ export async function recordCycle(
   const ev = evaluateCycle(input.steps, settings);
 
   const cycleId = await db.transaction().execute(async (trx) => {
-    const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.equipmentId).forUpdate().executeTakeFirst();
+    const vessel = await lockVessel(trx, input.equipmentId);
     if (!vessel) throw notFound('Vessel');
     if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') {
       throw unprocessable('Only fermenters and kegs have sanitation cycles.', [{ path: 'equipmentId', message: 'Pick a fermenter or a keg' }]);
@@ -105,47 +152,17 @@ export async function recordCycle(
     if (vessel.state === 'holding') throw conflict(`${vessel.code} holds beer: empty it before cleaning it.`, { state: vessel.state });
     if (vessel.state === 'out_of_service') throw conflict(`${vessel.code} is out of service.`, { state: vessel.state });
 
-    const cycle = await trx
-      .insertInto('sanitation_cycle')
-      .values({
-        equipment_id: vessel.id,
-        started_at: ev.startedAt,
-        completed_at: ev.completedAt,
-        outcome: ev.outcome,
-        complete: ev.complete,
-        issues: JSON.stringify(ev.issues),
-        freshness_days: ev.complete ? settings.freshnessDays : null,
-        fresh_until: ev.freshUntil,
-        recorded_by: actor.id,
-        notes: input.notes ?? '',
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    await trx
-      .insertInto('sanitation_step')
-      .values(stepRows(cycle.id, ev, input.steps, settings, actor.id))
-      .execute();
-    await drawCo2(trx, {
-      grams: purgeGrams(input.steps, settings.co2GramsPerPurge),
-      sourceType: 'sanitation_cycle',
-      sourceId: cycle.id,
-      actorId: actor.id,
-      at: now,
-      now,
-    });
-    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
-    await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycle.id, {
+    const cycleId = await insertCycle(trx, { equipment_id: vessel.id, ...cycleFields(ev, settings), recorded_by: actor.id, notes: input.notes ?? '' });
+    await writeCycleEffects(trx, cycleId, vessel.id, ev, { all: input.steps, added: input.steps }, settings, actor.id, now);
+    await audit(trx, actor.id, 'recorded', 'SanitationCycle', cycleId, {
       equipmentId: vessel.id,
       code: vessel.code,
       outcome: ev.outcome,
       issues: ev.issues.map((i) => i.code),
     });
-    return cycle.id;
+    return cycleId;
   });
-
-  const [cycle] = await cycleViews(db, [cycleId]);
-  const equipment = await db.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', input.equipmentId).executeTakeFirstOrThrow();
-  return { cycle: cycle!, equipment };
+  return cycleResult(db, cycleId, input.equipmentId);
 }
 
 /**
@@ -161,29 +178,17 @@ export async function continueCycle(
   now: Date,
 ): Promise<{ cycle: SanitationCycleView; equipment: { id: string; code: string; state: string } }> {
   const settings = await sanitationSettings(db);
-  const latestAllowed = now.getTime() + FUTURE_SLACK_MS;
-  input.steps.forEach((s, i) => {
-    if (new Date(s.at).getTime() > latestAllowed) {
-      throw unprocessable('A step cannot be recorded in the future.', [{ path: `steps.${i}.at`, message: 'This time is in the future' }]);
-    }
-  });
+  assertNotFuture(input.steps, now);
   const equipmentId = await db.transaction().execute(async (trx) => {
-    const cycle = await trx.selectFrom('sanitation_cycle').selectAll().where('id', '=', cycleId).forUpdate().executeTakeFirst();
+    const cycle = await lockCycle(trx, cycleId);
     if (!cycle) throw notFound('Sanitation cycle');
-    const vessel = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', cycle.equipment_id).forUpdate().executeTakeFirstOrThrow();
+    const vessel = (await lockVessel(trx, cycle.equipment_id))!;
     if (cycle.complete) throw conflict('This cycle is already complete; record a new one.');
-    const latest = await trx
-      .selectFrom('sanitation_cycle')
-      .select('id')
-      .where('equipment_id', '=', vessel.id)
-      .orderBy('completed_at', 'desc')
-      .orderBy('created_at', 'desc')
-      .limit(1)
-      .executeTakeFirstOrThrow();
-    if (latest.id !== cycle.id) throw conflict('A later cycle was recorded for this vessel; continue that one.');
+    const latestId = await latestCycleId(trx, vessel.id);
+    if (latestId !== cycle.id) throw conflict('A later cycle was recorded for this vessel; continue that one.');
     if (vessel.state !== cycle.outcome)
       throw conflict(`${vessel.code} has changed since this cycle (now ${vessel.state.replace('_', ' ')}); record a new cycle.`);
-    const old = await trx.selectFrom('sanitation_step').selectAll().where('cycle_id', '=', cycle.id).orderBy('position').execute();
+    const old = await stepsOf(trx, cycle.id);
     const merged = [
       ...old.map((o) => ({
         step: o.step,
@@ -205,34 +210,11 @@ export async function continueCycle(
     assertStepsChecked(merged, settings, old.length);
     await assertPushOutKegs(trx, merged, vessel.id, old.length);
     const ev = evaluateCycle(merged, settings);
-    await trx
-      .updateTable('sanitation_cycle')
-      .set({
-        started_at: ev.startedAt,
-        completed_at: ev.completedAt,
-        outcome: ev.outcome,
-        complete: ev.complete,
-        issues: JSON.stringify(ev.issues),
-        freshness_days: ev.complete ? settings.freshnessDays : null,
-        fresh_until: ev.freshUntil,
-        notes: input.notes ? [cycle.notes, input.notes].filter(Boolean).join('\n') : cycle.notes,
-      })
-      .where('id', '=', cycle.id)
-      .execute();
-    await trx.deleteFrom('sanitation_step').where('cycle_id', '=', cycle.id).execute();
-    await trx
-      .insertInto('sanitation_step')
-      .values(stepRows(cycle.id, ev, merged, settings, actor.id))
-      .execute();
-    await drawCo2(trx, {
-      grams: purgeGrams(input.steps, settings.co2GramsPerPurge),
-      sourceType: 'sanitation_cycle',
-      sourceId: cycle.id,
-      actorId: actor.id,
-      at: now,
-      now,
+    await updateCycle(trx, cycle.id, {
+      ...cycleFields(ev, settings),
+      notes: input.notes ? [cycle.notes, input.notes].filter(Boolean).join('\n') : cycle.notes,
     });
-    await setVesselState(trx, vessel.id, ev.outcome, outcomeReason(ev, settings.freshnessDays), actor.id, now);
+    await writeCycleEffects(trx, cycle.id, vessel.id, ev, { all: merged, added: input.steps }, settings, actor.id, now);
     await audit(trx, actor.id, 'continued', 'SanitationCycle', cycle.id, {
       equipmentId: vessel.id,
       code: vessel.code,
@@ -241,103 +223,7 @@ export async function continueCycle(
     });
     return vessel.id;
   });
-  const [cycle] = await cycleViews(db, [cycleId]);
-  const equipment = await db.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', equipmentId).executeTakeFirstOrThrow();
-  return { cycle: cycle!, equipment };
-}
-
-type CycleRow = {
-  id: string;
-  equipment_id: string;
-  code: string;
-  name: string;
-  kind: string;
-  outcome: 'ready' | 'cleaned' | 'needs_cleaning';
-  complete: boolean;
-  issues: unknown;
-  started_at: Date;
-  completed_at: Date;
-  fresh_until: Date | null;
-  recorded_by: string | null;
-  recorded_by_name: string | null;
-  notes: string;
-  created_at: Date;
-  steps: {
-    step: SanitationStepView['step'];
-    chemical_id: string | null;
-    chemical: string | null;
-    concentration: number | string | null;
-    concentration_unit: SanitationStepView['concentrationUnit'];
-    contact_minutes: number | string | null;
-    minimum_contact_minutes: number | string | null;
-    purge_method: 'flush' | 'push_out' | null;
-    co2_grams: number | string | null;
-    solution_liters: number | string | null;
-    at: string;
-    performed_by: string | null;
-    performed_by_name: string | null;
-    ok: boolean;
-    note: string;
-    exception_reason: string | null;
-    exception_rules: string[] | null;
-    vented: boolean | null;
-    pushed_into_equipment_id: string | null;
-    pushed_into_code: string | null;
-  }[];
-};
-
-function cycleQuery(db: Database) {
-  return db
-    .selectFrom('sanitation_cycle as c')
-    .innerJoin('equipment as e', 'e.id', 'c.equipment_id')
-    .leftJoin('app_user as r', 'r.id', 'c.recorded_by')
-    .select((eb) => [
-      'c.id',
-      'c.equipment_id',
-      'e.code',
-      'e.name',
-      'e.kind',
-      'c.outcome',
-      'c.complete',
-      'c.issues',
-      'c.started_at',
-      'c.completed_at',
-      'c.fresh_until',
-      'c.recorded_by',
-      'r.name as recorded_by_name',
-      'c.notes',
-      'c.created_at',
-      jsonArrayFrom(
-        eb
-          .selectFrom('sanitation_step as s')
-          .leftJoin('app_user as p', 'p.id', 's.performed_by')
-          .leftJoin('equipment as pk', 'pk.id', 's.pushed_into_equipment_id')
-          .select([
-            's.step',
-            's.chemical_id',
-            's.chemical',
-            's.concentration',
-            's.concentration_unit',
-            's.contact_minutes',
-            's.minimum_contact_minutes',
-            's.purge_method',
-            's.co2_grams',
-            's.solution_liters',
-            's.at',
-            's.performed_by',
-            'p.name as performed_by_name',
-            's.ok',
-            's.note',
-            's.exception_reason',
-            's.exception_rules',
-            's.vented',
-            's.pushed_into_equipment_id',
-            'pk.code as pushed_into_code',
-          ])
-          .whereRef('s.cycle_id', '=', 'c.id')
-          .orderBy('s.position'),
-      ).as('steps'),
-    ]);
+  return cycleResult(db, cycleId, equipmentId);
 }
 
 function toView(r: CycleRow): SanitationCycleView {
@@ -378,17 +264,10 @@ function toView(r: CycleRow): SanitationCycleView {
 
 export async function cycleViews(db: Database, ids: string[]): Promise<SanitationCycleView[]> {
   if (!ids.length) return [];
-  const rows = (await cycleQuery(db).where('c.id', 'in', ids).execute()) as unknown as CycleRow[];
+  const rows = await cycleRows(db, ids);
   const byId = new Map(rows.map((r) => [r.id, toView(r)]));
   return ids.map((id) => byId.get(id)).filter((v): v is SanitationCycleView => Boolean(v));
 }
-
-const cycleSort = {
-  completedAt: 'c.completed_at',
-  startedAt: 'c.started_at',
-  equipmentCode: 'e.code',
-  outcome: 'c.outcome',
-} as const;
 
 /** A date-only bound means the whole day (to: up to the end of that day, UTC). */
 export function boundFrom(v: string): Date {
@@ -399,30 +278,12 @@ export function boundTo(v: string): Date {
 }
 
 export async function listCycles(db: Database, q: SanitationCycleListQuery): Promise<Page<SanitationCycleView>> {
-  let base = db.selectFrom('sanitation_cycle as c').innerJoin('equipment as e', 'e.id', 'c.equipment_id');
-  if (q.equipmentId) base = base.where('c.equipment_id', '=', q.equipmentId);
-  if (q.kind) base = base.where('e.kind', '=', q.kind);
-  if (q.outcome) base = base.where('c.outcome', '=', q.outcome);
-  if (q.from) base = base.where('c.completed_at', '>=', boundFrom(q.from));
-  if (q.to) base = base.where('c.completed_at', '<', boundTo(q.to));
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    base = base.where((eb) => eb.or([eb('e.code', 'ilike', like), eb('e.name', 'ilike', like)]));
-  }
-  const [{ total }, page] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base
-      .select('c.id')
-      .orderBy(cycleSort[q.sort], q.order)
-      .orderBy('c.id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
+  const range = { ...(q.from ? { from: boundFrom(q.from) } : {}), ...(q.to ? { to: boundTo(q.to) } : {}) };
+  const { rows, total } = await cyclePage(db, q, range);
   return {
     items: await cycleViews(
       db,
-      page.map((r) => r.id),
+      rows.map((r) => r.id),
     ),
     total,
     page: q.page,
@@ -430,69 +291,9 @@ export async function listCycles(db: Database, q: SanitationCycleListQuery): Pro
   };
 }
 
-const statusSortColumn = { code: 'code', state: 'effective_state', freshUntil: 'fresh_until', lastCycleAt: 'last_cycle_at' } as const;
-
 /** Every fermenter and keg with its sanitation standing, lapses applied. */
-export async function listVesselStatus(
-  db: Database,
-  q: {
-    kind?: 'fermenter' | 'keg' | undefined;
-    state?: string | undefined;
-    q?: string | undefined;
-    sort: keyof typeof statusSortColumn;
-    order: 'asc' | 'desc';
-    page: number;
-    pageSize: number;
-  },
-  now: Date,
-): Promise<Page<VesselSanitationStatus>> {
-  const inner = db
-    .selectFrom('equipment as e')
-    .where('e.kind', 'in', ['fermenter', 'keg'])
-    .select((eb) => [
-      'e.id',
-      'e.code',
-      'e.name',
-      'e.kind',
-      'e.state',
-      effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('effective_state'),
-      lapsedSql(eb.ref('e.id'), eb.ref('e.state'), now).as('lapsed'),
-      freshUntilSql(eb.ref('e.id')).as('fresh_until'),
-      eb
-        .selectFrom('equipment_state_change as sc')
-        .select('sc.reason')
-        .whereRef('sc.equipment_id', '=', 'e.id')
-        .orderBy('sc.at', 'desc')
-        .orderBy('sc.id', 'desc')
-        .limit(1)
-        .as('state_reason'),
-      sql<string | null>`(select lc.id::text from sanitation_cycle lc where lc.equipment_id = e.id order by lc.completed_at desc limit 1)`.as('last_cycle_id'),
-      sql<Date | null>`(select max(lc.completed_at) from sanitation_cycle lc where lc.equipment_id = e.id)`.as('last_cycle_at'),
-    ]);
-  let base = db.selectFrom(inner.as('v')).selectAll('v');
-  if (q.kind) base = base.where('v.kind', '=', q.kind);
-  if (q.state) base = base.where('v.effective_state', '=', q.state as never);
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    base = base.where((eb) => eb.or([eb('v.code', 'ilike', like), eb('v.name', 'ilike', like)]));
-  }
-  const sortRef = sql.ref(`v.${statusSortColumn[q.sort]}`);
-  const [{ total }, rows] = await Promise.all([
-    db
-      .selectFrom(base.as('b'))
-      .select((eb) => eb.fn.countAll<number>().as('total'))
-      .executeTakeFirstOrThrow(),
-    base
-      .orderBy(sql`${sortRef} ${sql.raw(q.order)} nulls last`)
-      .orderBy('v.code')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
-  const lastIds = rows.map((r) => r.last_cycle_id).filter((v): v is string => Boolean(v));
-  const last = lastIds.length
-    ? await db.selectFrom('sanitation_cycle').select(['id', 'outcome', 'completed_at', 'fresh_until']).where('id', 'in', lastIds).execute()
-    : [];
+export async function listVesselStatus(db: Database, q: VesselStatusQuery, now: Date): Promise<Page<VesselSanitationStatus>> {
+  const { rows, total, last } = await vesselStatusPage(db, q, now);
   const lastById = new Map(last.map((c) => [c.id, c]));
   return {
     items: rows.map((r) => {
@@ -513,33 +314,4 @@ export async function listVesselStatus(
     page: q.page,
     pageSize: q.pageSize,
   };
-}
-
-/** The rows of a cycle's steps, as the co-op's rules judged them (`ev`), from the steps as entered (`raw`). */
-export function stepRows(cycleId: string, ev: CycleEvaluation, raw: readonly SanitationStepInput[], settings: SanitationSettings, actorId: string | null) {
-  return ev.steps.map((st, position) => {
-    const entered = raw[st.index]!;
-    return {
-      cycle_id: cycleId,
-      position,
-      step: st.step,
-      chemical_id: st.chemicalId,
-      chemical: st.chemicalName,
-      concentration: st.concentration,
-      concentration_unit: st.concentrationUnit,
-      contact_minutes: entered.contactMinutes ?? null,
-      minimum_contact_minutes: st.minimumContactMinutes,
-      purge_method: st.step === 'purge' ? (entered.purgeMethod ?? 'flush') : null,
-      co2_grams: st.step === 'purge' ? (entered.co2Grams ?? settings.co2GramsPerPurge) : null,
-      solution_liters: entered.solutionLiters ?? null,
-      performed_by: entered.performedBy ?? actorId,
-      at: entered.at,
-      ok: st.ok,
-      note: entered.note ?? '',
-      exception_reason: st.exception ? st.exception.reason : null,
-      exception_rules: st.exception ? st.exception.rules : [],
-      vented: st.step === 'clean' ? (entered.vented ?? null) : null,
-      pushed_into_equipment_id: st.step === 'purge' && entered.purgeMethod === 'push_out' ? (entered.pushedIntoEquipmentId ?? null) : null,
-    };
-  });
 }

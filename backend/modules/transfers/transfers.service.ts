@@ -1,5 +1,3 @@
-import { sql } from 'kysely';
-import { stableGravity } from '../../../shared/brewing/index.ts';
 import {
   transferChecklistItems,
   type CreateTransferInput,
@@ -12,13 +10,27 @@ import {
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
-import { conflict, HttpProblem, notFound, unprocessable } from '../../lib/http-problem.ts';
-import { batchGravityFigures, loadFermentationSettings } from '../batches/figures.ts';
+import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { batchGravityFigures } from '../batches/figures.ts';
 import { fillBestBefore } from '../batches/shelf-life.ts';
 import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
 import { setVesselState } from '../equipment/vessel-state.ts';
 import { drawCo2 } from '../equipment/cylinders.service.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
+import { gravityNotStable, gravityStability } from './gravity-stability.ts';
+import {
+  candidateRows,
+  cyclesByIds,
+  insertKegFill,
+  insertTransfer,
+  lockBatch,
+  lockFermenter,
+  lockKegsForFill,
+  markBatchPackaged,
+  setBatchPackagedStatus,
+  transferPage,
+  transferRows,
+} from './transfers.repository.ts';
 
 const FUTURE_SLACK_MS = 10 * 60_000;
 const round2 = (v: number) => Math.round(v * 100) / 100;
@@ -33,77 +45,7 @@ export function unconfirmedItems(checklist: Record<string, unknown>, method: Dra
     .map((i) => i.key);
 }
 
-const MS_PER_DAY = 86_400_000;
-/** How many of the latest readings a stability answer shows. */
-const STABILITY_READINGS = 5;
-
-/**
- * The co-op's "finished" rule (Settings, fermentation: the same gravity within a tolerance over a
- * span of days, shared/brewing stableGravity) applied to a batch's readings taken up to `at`.
- */
-export async function gravityStability(db: Database, batchId: string, at: Date): Promise<GravityStability> {
-  const [settings, rows] = await Promise.all([
-    loadFermentationSettings(db),
-    db.selectFrom('reading').select(['taken_at', 'gravity_sg']).where('batch_id', '=', batchId).where('taken_at', '<=', at).orderBy('taken_at').execute(),
-  ]);
-  const readings = rows.map((r) => ({ takenAt: r.taken_at, sg: Number(r.gravity_sg) }));
-  const toleranceSg = settings.stableToleranceSg;
-  const spanDays = settings.stableSpanDays;
-  const result = stableGravity(readings, { toleranceSg, spanDays });
-  // How long the latest gravity has held: the trailing run within the tolerance, as the rule counts it.
-  let heldDays = 0;
-  const latest = readings[readings.length - 1];
-  if (latest && readings.length > 1) {
-    let start = latest;
-    for (let i = readings.length - 2; i >= 0; i -= 1) {
-      if (Math.abs(readings[i]!.sg - latest.sg) > toleranceSg + 1e-9) break;
-      start = readings[i]!;
-    }
-    heldDays = Math.round(((latest.takenAt.getTime() - start.takenAt.getTime()) / MS_PER_DAY) * 10) / 10;
-  }
-  return {
-    stable: result.stable,
-    since: result.since ?? null,
-    toleranceSg,
-    spanDays,
-    heldDays,
-    readings: readings.slice(-STABILITY_READINGS).map((r) => ({ takenAt: r.takenAt.toISOString(), sg: r.sg })),
-  };
-}
-
-/** The 422 of a transfer whose batch's gravity is not yet stable and that gives no reason. */
-export function gravityNotStable(batchName: string, s: GravityStability): HttpProblem {
-  const last = s.readings.map((r) => `${r.sg.toFixed(3)} on ${r.takenAt.slice(0, 10)}`).join(', ');
-  const needs = `the same gravity within ±${s.toleranceSg.toFixed(3)} over ${s.spanDays} day${s.spanDays === 1 ? '' : 's'}`;
-  const seen =
-    s.readings.length < 2
-      ? `it has ${s.readings.length === 0 ? 'no readings' : 'one reading'}`
-      : `the latest gravity has held ${s.heldDays} day${s.heldDays === 1 ? '' : 's'} (readings: ${last})`;
-  return new HttpProblem(
-    422,
-    'Gravity not stable',
-    `The gravity of ${batchName} is not stable yet: the co-op's rule needs ${needs}, and ${seen}. Transfer later, or give a reason to transfer now.`,
-    [{ path: 'unstableGravityReason', message: 'The gravity is not stable: say why the beer goes into kegs now' }],
-    'about:blank',
-    { code: 'gravity_not_stable', stability: s },
-  );
-}
-
 /** Splits the litres that reached the kegs evenly (to the centilitre, the last keg takes the rounding). */
-/** The batch's packaged litres are the sum of its transfers; it counts as packaged from its first transfer. */
-export async function markBatchPackaged(trx: Database, batchId: string, at: Date, now: Date): Promise<void> {
-  const totals = await trx
-    .selectFrom('transfer')
-    .select((eb) => eb.fn.sum<number>('packaged_liters').as('liters'))
-    .where('batch_id', '=', batchId)
-    .executeTakeFirstOrThrow();
-  await trx
-    .updateTable('batch')
-    .set({ packaged_at: sql`coalesce(packaged_at, ${at})`, packaged_liters: Number(totals.liters), updated_at: now })
-    .where('id', '=', batchId)
-    .execute();
-}
-
 function shareEvenly(total: number, n: number): number[] {
   const each = Math.floor((total / n) * 100) / 100;
   const out = Array.from({ length: n }, () => each);
@@ -142,7 +84,7 @@ export async function recordTransfer(
   const transferId = await db
     .transaction()
     .execute(async (trx) => {
-      const batch = await trx.selectFrom('batch').select(['id', 'name', 'status', 'owner_id']).where('id', '=', input.batchId).forUpdate().executeTakeFirst();
+      const batch = await lockBatch(trx, input.batchId);
       if (!batch) throw notFound('Batch');
       if (batch.status === 'planned') throw conflict(`${batch.name} has not been brewed yet.`);
       if (batch.status === 'discarded') throw conflict(`${batch.name} was discarded.`);
@@ -150,40 +92,14 @@ export async function recordTransfer(
       const stability = await gravityStability(trx, batch.id, startedAt ?? at);
       if (!stability.stable && !input.unstableGravityReason) throw gravityNotStable(batch.name, stability);
 
-      const fermenter = await trx
-        .selectFrom('equipment')
-        .select(['id', 'code', 'kind', 'state', 'attributes'])
-        .where('id', '=', input.fromEquipmentId)
-        .forUpdate()
-        .executeTakeFirst();
+      const fermenter = await lockFermenter(trx, input.fromEquipmentId);
       if (!fermenter) throw notFound('Fermenter');
       if (fermenter.kind !== 'fermenter')
         throw unprocessable('Beer is transferred from a fermenter.', [{ path: 'fromEquipmentId', message: 'Pick a fermenter' }]);
       if (fermenter.state === 'out_of_service') throw conflict(`${fermenter.code} is out of service.`);
 
-      // Lock the kegs in a fixed order so two transfers never deadlock.
-      const kegs = await trx
-        .selectFrom('equipment as e')
-        .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
-        .select((eb) => [
-          'e.id',
-          'e.code',
-          'e.kind',
-          'e.state',
-          'e.capacity_liters',
-          'kw.whereabouts',
-          eb
-            .selectFrom('sanitation_cycle as c')
-            .select('c.id')
-            .whereRef('c.equipment_id', '=', 'e.id')
-            .orderBy('c.completed_at', 'desc')
-            .limit(1)
-            .as('last_cycle_id'),
-        ])
-        .where('e.id', 'in', input.toKegIds)
-        .orderBy('e.id')
-        .forUpdate('e')
-        .execute();
+      // Locked in a fixed order so two transfers never deadlock.
+      const kegs = await lockKegsForFill(trx, input.toKegIds);
       const missing = input.toKegIds.filter((id) => !kegs.some((k) => k.id === id));
       if (missing.length)
         throw unprocessable(
@@ -196,9 +112,7 @@ export async function recordTransfer(
       await assertInspected(trx, kegs, 'filled', now);
 
       const lastIds = kegs.map((k) => k.last_cycle_id).filter((v): v is string => Boolean(v));
-      const cycles = lastIds.length
-        ? await trx.selectFrom('sanitation_cycle').select(['id', 'complete', 'fresh_until', 'completed_at']).where('id', 'in', lastIds).execute()
-        : [];
+      const cycles = await cyclesByIds(trx, lastIds);
       const cycleById = new Map(cycles.map((c) => [c.id, c]));
       const refused: { id: string; code: string; state: string; reason: string }[] = [];
       for (const k of kegs) {
@@ -260,64 +174,56 @@ export async function recordTransfer(
       const co2 = input.co2Grams ?? settings.co2GramsPerKegFill * ordered.length;
 
       // The batch is packaged from here on: its FG is the latest reading.
-      await trx.updateTable('batch').set({ status: 'packaged', updated_at: now }).where('id', '=', batch.id).execute();
+      await setBatchPackagedStatus(trx, batch.id, now);
       const figures = await batchGravityFigures(trx, batch.id, now);
       const og = figures?.og ?? null;
       const fg = figures?.fg ?? null;
       const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;
 
-      const transfer = await trx
-        .insertInto('transfer')
-        .values({
-          batch_id: batch.id,
-          from_equipment_id: fermenter.id,
-          volume_liters: volume,
-          packaged_liters: packaged,
-          loss_liters: loss,
-          draw_method: method,
-          checklist: JSON.stringify({ ...input.checklist, drawMethod: method, unconfirmed }),
-          finings_kind: finings?.kind ?? null,
-          finings_amount: finings?.amount ?? null,
-          finings_unit: finings?.unit ?? null,
-          co2_grams: co2,
-          og,
-          fg,
-          abv,
-          transferred_at: at,
-          started_at: startedAt,
-          ended_at: endedAt,
-          unstable_gravity_reason: stability.stable ? null : input.unstableGravityReason!,
-          dissolved_oxygen_ppb: input.dissolvedOxygenPpb ?? null,
-          recorded_by: actor.id,
-          notes: input.notes ?? '',
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
+      const transferId = await insertTransfer(trx, {
+        batch_id: batch.id,
+        from_equipment_id: fermenter.id,
+        volume_liters: volume,
+        packaged_liters: packaged,
+        loss_liters: loss,
+        draw_method: method,
+        checklist: JSON.stringify({ ...input.checklist, drawMethod: method, unconfirmed }),
+        finings_kind: finings?.kind ?? null,
+        finings_amount: finings?.amount ?? null,
+        finings_unit: finings?.unit ?? null,
+        co2_grams: co2,
+        og,
+        fg,
+        abv,
+        transferred_at: at,
+        started_at: startedAt,
+        ended_at: endedAt,
+        unstable_gravity_reason: stability.stable ? null : input.unstableGravityReason!,
+        dissolved_oxygen_ppb: input.dissolvedOxygenPpb ?? null,
+        recorded_by: actor.id,
+        notes: input.notes ?? '',
+      });
 
       const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
       const bestBefore = await fillBestBefore(trx, batch.id, at);
       for (const [i, k] of ordered.entries()) {
-        const fill = await trx
-          .insertInto('keg_fill')
-          .values({
-            transfer_id: transfer.id,
-            keg_id: k.id,
-            batch_id: batch.id,
-            volume_liters: perKeg[i]!,
-            remaining_liters: perKeg[i]!,
-            og,
-            fg,
-            abv,
-            sanitation_cycle_id: k.last_cycle_id,
-            co2_grams: perKegCo2,
-            filled_at: at,
-            best_before: bestBefore,
-            dissolved_oxygen_ppb: input.kegDissolvedOxygenPpb?.[i] ?? null,
-          })
-          .returning('id')
-          .executeTakeFirstOrThrow();
+        const fillId = await insertKegFill(trx, {
+          transfer_id: transferId,
+          keg_id: k.id,
+          batch_id: batch.id,
+          volume_liters: perKeg[i]!,
+          remaining_liters: perKeg[i]!,
+          og,
+          fg,
+          abv,
+          sanitation_cycle_id: k.last_cycle_id,
+          co2_grams: perKegCo2,
+          filled_at: at,
+          best_before: bestBefore,
+          dissolved_oxygen_ppb: input.kegDissolvedOxygenPpb?.[i] ?? null,
+        });
         // The CO2 billed for the fill comes off the connected cylinder.
-        await drawCo2(trx, { grams: perKegCo2, sourceType: 'keg_fill', sourceId: fill.id, actorId: actor.id, at, now });
+        await drawCo2(trx, { grams: perKegCo2, sourceType: 'keg_fill', sourceId: fillId, actorId: actor.id, at, now });
         await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);
       }
       await setVesselState(
@@ -331,7 +237,7 @@ export async function recordTransfer(
 
       await markBatchPackaged(trx, batch.id, at, now);
 
-      await audit(trx, actor.id, 'recorded', 'Transfer', transfer.id, {
+      await audit(trx, actor.id, 'recorded', 'Transfer', transferId, {
         batchId: batch.id,
         from: fermenter.code,
         kegs: ordered.map((k) => k.code),
@@ -342,7 +248,7 @@ export async function recordTransfer(
           ? {}
           : { unstableGravityReason: input.unstableGravityReason, stability: { heldDays: stability.heldDays, spanDays: stability.spanDays } }),
       });
-      return transfer.id;
+      return transferId;
     })
     .catch((err: unknown) => {
       // A keg filled meanwhile by another transfer: its open-fill index refuses the second one.
@@ -357,52 +263,7 @@ export async function recordTransfer(
 
 export async function transferViews(db: Database, ids: string[]): Promise<TransferView[]> {
   if (!ids.length) return [];
-  const [rows, fills] = await Promise.all([
-    db
-      .selectFrom('transfer as t')
-      .innerJoin('batch as b', 'b.id', 't.batch_id')
-      .innerJoin('equipment as f', 'f.id', 't.from_equipment_id')
-      .leftJoin('app_user as u', 'u.id', 't.recorded_by')
-      .select([
-        't.id',
-        't.batch_id',
-        'b.name as batch_name',
-        'b.style as batch_style',
-        'b.owner_id',
-        't.from_equipment_id',
-        'f.code as fermenter_code',
-        'f.name as fermenter_name',
-        't.volume_liters',
-        't.packaged_liters',
-        't.loss_liters',
-        't.draw_method',
-        't.checklist',
-        't.finings_kind',
-        't.finings_amount',
-        't.finings_unit',
-        't.co2_grams',
-        't.og',
-        't.fg',
-        't.abv',
-        't.transferred_at',
-        't.started_at',
-        't.ended_at',
-        't.unstable_gravity_reason',
-        't.dissolved_oxygen_ppb',
-        't.recorded_by',
-        'u.name as recorded_by_name',
-        't.notes',
-      ])
-      .where('t.id', 'in', ids)
-      .execute(),
-    db
-      .selectFrom('keg_fill as kf')
-      .innerJoin('equipment as k', 'k.id', 'kf.keg_id')
-      .select(['kf.id', 'kf.transfer_id', 'kf.keg_id', 'k.code', 'kf.volume_liters', 'kf.sanitation_cycle_id', 'kf.dissolved_oxygen_ppb'])
-      .where('kf.transfer_id', 'in', ids)
-      .orderBy('k.code')
-      .execute(),
-  ]);
+  const [rows, fills] = await transferRows(db, ids);
   const byId = new Map(
     rows.map((r): [string, TransferView] => {
       const checklist = (r.checklist ?? {}) as Record<string, unknown>;
@@ -448,37 +309,13 @@ export async function transferViews(db: Database, ids: string[]): Promise<Transf
   return ids.map((id) => byId.get(id)).filter((v): v is TransferView => Boolean(v));
 }
 
-const transferSort = { transferredAt: 't.transferred_at', volumeLiters: 't.volume_liters' } as const;
-
 export async function listTransfers(db: Database, q: TransferListQuery, ownerId?: string): Promise<Page<TransferView>> {
-  let base = db.selectFrom('transfer as t').innerJoin('batch as b', 'b.id', 't.batch_id').innerJoin('equipment as f', 'f.id', 't.from_equipment_id');
-  if (ownerId) base = base.where('b.owner_id', '=', ownerId);
-  if (q.batchId) base = base.where('t.batch_id', '=', q.batchId);
-  if (q.fromEquipmentId) base = base.where('t.from_equipment_id', '=', q.fromEquipmentId);
-  if (q.kegId)
-    base = base.where((eb) =>
-      eb.exists(eb.selectFrom('keg_fill as kf').select('kf.id').whereRef('kf.transfer_id', '=', 't.id').where('kf.keg_id', '=', q.kegId!)),
-    );
-  if (q.from) base = base.where('t.transferred_at', '>=', boundFrom(q.from));
-  if (q.to) base = base.where('t.transferred_at', '<', boundTo(q.to));
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    base = base.where((eb) => eb.or([eb('b.name', 'ilike', like), eb('f.code', 'ilike', like)]));
-  }
-  const [{ total }, page] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base
-      .select('t.id')
-      .orderBy(transferSort[q.sort], q.order)
-      .orderBy('t.id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
+  const range = { ...(q.from ? { from: boundFrom(q.from) } : {}), ...(q.to ? { to: boundTo(q.to) } : {}) };
+  const { rows, total } = await transferPage(db, q, range, ownerId);
   return {
     items: await transferViews(
       db,
-      page.map((r) => r.id),
+      rows.map((r) => r.id),
     ),
     total,
     page: q.page,
@@ -500,40 +337,7 @@ export interface TransferCandidate {
 
 /** Batches still in a fermenter (fermenting or conditioning), each with the fermenter its latest booking holds it in and whether its gravity is stable. */
 export async function transferCandidates(db: Database, now: Date): Promise<TransferCandidate[]> {
-  const rows = await db
-    .selectFrom('batch as b')
-    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
-    .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom('booking as bk')
-          .innerJoin('equipment as f', 'f.id', 'bk.equipment_id')
-          .select(['f.id', 'f.code', 'f.name', 'f.state', 'f.attributes'])
-          .whereRef('bk.batch_id', '=', 'b.id')
-          .where('f.kind', '=', 'fermenter')
-          .where('bk.state', '<>', 'cancelled')
-          .orderBy('bk.starts_at', 'desc')
-          .limit(1)
-          .as('f'),
-      (join) => join.onTrue(),
-    )
-    .select([
-      'b.id',
-      'b.name',
-      'b.style',
-      'b.status',
-      'b.volume_liters',
-      'u.name as owner_name',
-      'f.id as f_id',
-      'f.code as f_code',
-      'f.name as f_name',
-      'f.state as f_state',
-      'f.attributes as f_attributes',
-    ])
-    .where('b.status', 'in', ['fermenting', 'conditioning'])
-    .orderBy('f.code')
-    .orderBy('b.name')
-    .execute();
+  const rows = await candidateRows(db);
   const gravity = await Promise.all(rows.map((r) => gravityStability(db, r.id, now)));
   return rows.map((r, i) => ({
     batchId: r.id,
