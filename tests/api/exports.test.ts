@@ -1,12 +1,7 @@
-import fs from 'node:fs';
-import path from 'node:path';
-import ExcelJS from 'exceljs';
-import Papa from 'papaparse';
-import type { Response } from 'superagent';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createInvoice, createKeg, createManualCharge, createMember, DAY, fillKeg } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
-import { binary } from '../helpers/http.ts';
+import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER } from '../helpers/exports.ts';
 
 /**
  * Every spreadsheet the API hands out (CSV and XLSX), fetched with member-typed text that begins like
@@ -21,8 +16,6 @@ let period: string;
 let tracedBatchId: string;
 let traceDay: string;
 
-const FORMULA_START = /^[=+\-@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/;
-const PLAIN_NUMBER = /^[+-]?(\d+([.,]\d+)?|[.,]\d+)([eE][+-]?\d+)?$/;
 /** Text a person types that a spreadsheet would otherwise run. */
 const hostile = {
   member: '=HYPERLINK("http://example.org/x","Open me")',
@@ -96,83 +89,18 @@ beforeAll(async () => {
 });
 afterAll(async () => ctx?.close());
 
-/** Every CSV and XLSX the API serves, with who may fetch it. Kept complete by the check below. */
-const exportsList = () => [
-  { name: 'ledger CSV', client: treasurer, url: `/api/invoices/export?period=${period}&format=csv`, kind: 'csv' as const },
-  { name: 'ledger XLSX', client: treasurer, url: `/api/invoices/export?period=${period}&format=xlsx`, kind: 'xlsx' as const },
-  { name: 'production records CSV', client: treasurer, url: '/api/production-records?format=csv', kind: 'csv' as const },
-  { name: 'production records export CSV', client: treasurer, url: '/api/production-records/export', kind: 'csv' as const },
-  { name: 'production records XLSX', client: treasurer, url: '/api/production-records/export?format=xlsx', kind: 'xlsx' as const },
-  { name: 'readings template CSV', client: brewer, url: '/api/readings/template.csv', kind: 'csv' as const },
-  { name: 'readings template XLSX', client: brewer, url: '/api/readings/template.xlsx', kind: 'xlsx' as const },
-  { name: 'trace of a batch CSV', client: brewer, url: `/api/batches/${tracedBatchId}/trace.csv`, kind: 'csv' as const },
-  { name: 'trace report CSV', client: treasurer, url: `/api/reports/trace?from=${traceDay}&to=${traceDay}&format=csv`, kind: 'csv' as const },
-];
-
-/** The files in backend/ that send a download (`.attachment(`): each must be one of the exports above. */
-const exportSources = {
-  'modules/billing/billing-exports.routes.ts': 2,
-  'modules/batches/production-records.routes.ts': 2,
-  'modules/batches/readings.routes.ts': 2,
-  'modules/batches/trace.routes.ts': 2,
-};
-
-function backendFiles(dir: string): string[] {
-  return fs.readdirSync(dir, { withFileTypes: true }).flatMap((e) => {
-    const p = path.join(dir, e.name);
-    if (e.isDirectory()) return e.name === '__tests__' ? [] : backendFiles(p);
-    return /\.(ts|mts|js|mjs)$/.test(e.name) ? [p] : [];
-  });
-}
-
-async function cellsOf(kind: 'csv' | 'xlsx', res: Response): Promise<{ text: string[]; numbers: number[]; formulas: number }> {
-  const text: string[] = [];
-  const numbers: number[] = [];
-  let formulas = 0;
-  if (kind === 'csv') {
-    const parsed = Papa.parse<string[]>(res.text.replace(/^\ufeff/, ''), { skipEmptyLines: true });
-    expect(parsed.errors).toEqual([]);
-    for (const row of parsed.data) {
-      for (const cell of row) {
-        if (PLAIN_NUMBER.test(cell)) numbers.push(Number(cell.replace(',', '.')));
-        else text.push(cell);
-      }
-    }
-    return { text, numbers, formulas };
-  }
-  const wb = new ExcelJS.Workbook();
-  await wb.xlsx.load(res.body);
-  for (const ws of wb.worksheets) {
-    ws.eachRow((row) =>
-      row.eachCell((cell) => {
-        const v = cell.value;
-        if (cell.type === ExcelJS.ValueType.Formula || cell.formula) formulas++;
-        if (typeof v === 'number') numbers.push(v);
-        else if (typeof v === 'string') text.push(v);
-        else if (v && typeof v === 'object' && 'richText' in v) text.push(v.richText.map((t) => t.text).join(''));
-      }),
-    );
-  }
-  return { text, numbers, formulas };
-}
+const exports = () => exportsList({ treasurer, brewer }, { period, tracedBatchId, traceDay });
 
 describe('spreadsheet exports', () => {
   it('the list of exports here is every download the backend serves', () => {
-    const root = path.resolve(import.meta.dirname, '../../backend');
-    const found: Record<string, number> = {};
-    for (const file of backendFiles(root)) {
-      const n = (fs.readFileSync(file, 'utf8').match(/\.attachment\(/g) ?? []).length;
-      if (n) found[path.relative(root, file)] = n;
-    }
-    expect(found).toEqual(exportSources);
-    expect(exportsList().length).toBeGreaterThanOrEqual(Object.values(exportSources).reduce((a, b) => a + b, 0));
+    expect(attachmentCalls()).toEqual(exportSources);
+    expect(exports().length).toBeGreaterThanOrEqual(Object.values(exportSources).reduce((a, b) => a + b, 0));
   });
 
   it('neutralises every formula-like text in every CSV and XLSX, and keeps numbers numbers', async () => {
     const seen = new Set<string>();
-    for (const e of exportsList()) {
-      const req = e.client.get(e.url);
-      const res = e.kind === 'xlsx' ? await req.buffer(true).parse(binary) : await req;
+    for (const e of exports()) {
+      const res = await download(e);
       expect(res.status, e.name).toBe(200);
       expect(res.headers['content-disposition'], e.name).toMatch(/^attachment;/);
       expect(res.headers['content-type'], e.name).toMatch(e.kind === 'csv' ? /^text\/csv/ : /spreadsheetml/);

@@ -1,11 +1,9 @@
 import { todayIn } from '../../../shared/billing/dates.ts';
-import ExcelJS from 'exceljs';
-import Papa from 'papaparse';
 import { sql } from 'kysely';
 import { abv, abvMethod, litersToUsBarrels } from '../../../shared/brewing/index.ts';
 import { productionRecordsNote, type ProductionMonth, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
-import { csvCell, XLSX_MONTH_FORMAT, xlsxCell, xlsxDate, type ExportCell } from '../../lib/export-cells.ts';
+import { csvFile, csvRows, xlsxFile, type Column, type Table } from '../../lib/tabular-export.ts';
 import { zonedTime } from './import-cells.ts';
 import { monthlyProduction } from './production-report.ts';
 
@@ -146,119 +144,101 @@ export async function productionRecords(
   };
 }
 
-const columns = ['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US barrels (31 gal)', 'OG', 'FG', `ABV % (${abvMethod.name})`] as const;
-const rowValues = (r: ProductionRecordRow) => [r.month, r.batchName, r.style, r.ownerName, r.packagedLiters, r.usBarrels, r.og, r.fg, r.abv];
-
-/** The monthly report's columns: litres, then the main figures in US barrels (31 US gal). */
-const monthlyColumns = [
-  'Month',
-  'Opening (L)',
-  'Brewed (L)',
-  'Packaged (L)',
-  'Checked out (L)',
-  'Served (L)',
-  'Packaged otherwise (L)',
-  'Removals (L)',
-  'Transfer losses (L)',
-  'Left in fermenter (L)',
-  'Dumped kegs (L)',
-  'Dumped batches (L)',
-  'Losses (L)',
-  'In fermenters (L)',
-  'In kegs (L)',
-  'Closing (L)',
-  'Balance (L)',
-  'Opening (US bbl)',
-  'Brewed (US bbl)',
-  'Removals (US bbl)',
-  'Losses (US bbl)',
-  'Closing (US bbl)',
-] as const;
-const monthlyValues = (m: ProductionMonth) => [
-  m.month,
-  m.openingLiters,
-  m.producedLiters,
-  m.packagedLiters,
-  m.removals.checkedOutLiters,
-  m.removals.servedLiters,
-  m.removals.packagedOtherwiseLiters,
-  m.removals.totalLiters,
-  m.losses.transferLiters,
-  m.losses.leftInFermenterLiters,
-  m.losses.dumpedKegLiters,
-  m.losses.dumpedBatchLiters,
-  m.losses.totalLiters,
-  m.closing.fermentersLiters,
-  m.closing.kegsLiters,
-  m.closing.totalLiters,
-  m.balanceLiters,
-  m.usBarrels.opening,
-  m.usBarrels.produced,
-  m.usBarrels.removals,
-  m.usBarrels.losses,
-  m.usBarrels.closing,
+const abvHeader = `ABV % (${abvMethod.name})`;
+const recordColumns: Column<ProductionRecordRow>[] = [
+  { header: 'Month', value: (r) => r.month, type: 'month', width: 10 },
+  { header: 'Batch', value: (r) => r.batchName, width: 28 },
+  { header: 'Style', value: (r) => r.style, width: 20 },
+  { header: 'Member', value: (r) => r.ownerName, width: 22 },
+  { header: 'Packaged (L)', value: (r) => r.packagedLiters, type: 'number', numFmt: '0.00', width: 14 },
+  { header: 'US barrels (31 gal)', value: (r) => r.usBarrels, type: 'number', numFmt: '0.0000', width: 18 },
+  { header: 'OG', value: (r) => r.og, type: 'number', numFmt: '0.000', width: 9 },
+  { header: 'FG', value: (r) => r.fg, type: 'number', numFmt: '0.000', width: 9 },
+  { header: abvHeader, value: (r) => r.abv, type: 'number', numFmt: '0.00', width: 9 },
 ];
 
-export function productionRecordsCsv(report: ProductionRecords): string {
-  const data: ExportCell[][] = [
-    [...columns],
-    ...report.rows.map(rowValues),
-    ['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels, '', '', ''],
-    [],
-    ['Monthly report'],
-    [...monthlyColumns],
-    ...report.monthly.map(monthlyValues),
-    [],
-    ['Note', report.note, '', '', '', '', '', '', ''],
-  ];
-  // Batch names, styles and members' names are as typed: text that a spreadsheet would run is neutralised.
-  return `\uFEFF${Papa.unparse(
-    data.map((r) => r.map(csvCell)),
-    { newline: '\r\n' },
-  )}\r\n`;
+/** The monthly report's columns: litres, then the main figures in US barrels (31 US gal). */
+const monthlyFigures: [string, (m: ProductionMonth) => number][] = [
+  ['Opening (L)', (m) => m.openingLiters],
+  ['Brewed (L)', (m) => m.producedLiters],
+  ['Packaged (L)', (m) => m.packagedLiters],
+  ['Checked out (L)', (m) => m.removals.checkedOutLiters],
+  ['Served (L)', (m) => m.removals.servedLiters],
+  ['Packaged otherwise (L)', (m) => m.removals.packagedOtherwiseLiters],
+  ['Removals (L)', (m) => m.removals.totalLiters],
+  ['Transfer losses (L)', (m) => m.losses.transferLiters],
+  ['Left in fermenter (L)', (m) => m.losses.leftInFermenterLiters],
+  ['Dumped kegs (L)', (m) => m.losses.dumpedKegLiters],
+  ['Dumped batches (L)', (m) => m.losses.dumpedBatchLiters],
+  ['Losses (L)', (m) => m.losses.totalLiters],
+  ['In fermenters (L)', (m) => m.closing.fermentersLiters],
+  ['In kegs (L)', (m) => m.closing.kegsLiters],
+  ['Closing (L)', (m) => m.closing.totalLiters],
+  ['Balance (L)', (m) => m.balanceLiters],
+  ['Opening (US bbl)', (m) => m.usBarrels.opening],
+  ['Brewed (US bbl)', (m) => m.usBarrels.produced],
+  ['Removals (US bbl)', (m) => m.usBarrels.removals],
+  ['Losses (US bbl)', (m) => m.usBarrels.losses],
+  ['Closing (US bbl)', (m) => m.usBarrels.closing],
+];
+const monthlyColumns: Column<ProductionMonth>[] = [
+  { header: 'Month', value: (m) => m.month, type: 'month', width: 10 },
+  ...monthlyFigures.map(([header, value]): Column<ProductionMonth> => ({
+    header,
+    value,
+    type: 'number',
+    numFmt: header.includes('bbl') ? '0.0000' : '0.00',
+    width: Math.max(12, header.length + 2),
+  })),
+];
+
+/** The report's tables, each with what follows it (a total, the note): batch names, styles and members' names are as typed. */
+function recordTables(report: ProductionRecords) {
+  const note = { cells: ['Note', report.note] };
+  const records: Table<ProductionRecordRow> = {
+    name: 'Production records',
+    columns: recordColumns,
+    rows: report.rows,
+    after: [
+      { cells: ['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels], bold: true },
+      { cells: [] },
+      note,
+    ],
+  };
+  const byMonth: Table<ProductionRecords['months'][number]> = {
+    name: 'By month',
+    columns: [
+      { header: 'Month', value: (m) => m.month, type: 'month', width: 10 },
+      { header: 'Batches', value: (m) => m.batches, type: 'number', width: 10 },
+      { header: 'Packaged (L)', value: (m) => m.packagedLiters, type: 'number', numFmt: '0.00', width: 14 },
+      { header: 'US barrels (31 gal)', value: (m) => m.usBarrels, type: 'number', numFmt: '0.0000', width: 18 },
+    ],
+    rows: report.months,
+    frozenHeader: false,
+  };
+  const monthly: Table<ProductionMonth> = {
+    name: 'Monthly report',
+    columns: monthlyColumns,
+    rows: report.monthly,
+    frozenColumns: 1,
+    after: [{ cells: [] }, note],
+  };
+  return { records, byMonth, monthly };
 }
 
-export async function productionRecordsXlsx(report: ProductionRecords): Promise<Buffer> {
-  const wb = new ExcelJS.Workbook();
-  wb.creator = 'Cellarwright';
-  const ws = wb.addWorksheet('Production records', { views: [{ state: 'frozen', ySplit: 1 }] });
-  ws.columns = [
-    { header: columns[0], key: 'month', width: 10, style: { numFmt: XLSX_MONTH_FORMAT } },
-    { header: columns[1], key: 'batch', width: 28 },
-    { header: columns[2], key: 'style', width: 20 },
-    { header: columns[3], key: 'member', width: 22 },
-    { header: columns[4], key: 'liters', width: 14, style: { numFmt: '0.00' } },
-    { header: columns[5], key: 'bbl', width: 18, style: { numFmt: '0.0000' } },
-    { header: columns[6], key: 'og', width: 9, style: { numFmt: '0.000' } },
-    { header: columns[7], key: 'fg', width: 9, style: { numFmt: '0.000' } },
-    { header: columns[8], key: 'abv', width: 9, style: { numFmt: '0.00' } },
-  ];
-  ws.getRow(1).font = { bold: true };
-  // Months are date cells (their first day) shown as months.
-  for (const r of report.rows) ws.addRow([xlsxDate(r.month), ...rowValues(r).slice(1).map(xlsxCell)]);
-  const total = ws.addRow(['Total', `${report.totals.batches} batches`, '', '', report.totals.packagedLiters, report.totals.usBarrels]);
-  total.font = { bold: true };
-  ws.addRow([]);
-  ws.addRow(['Note', xlsxCell(report.note)]);
-  const months = wb.addWorksheet('By month');
-  months.columns = [
-    { header: 'Month', key: 'month', width: 10, style: { numFmt: XLSX_MONTH_FORMAT } },
-    { header: 'Batches', key: 'batches', width: 10 },
-    { header: 'Packaged (L)', key: 'liters', width: 14, style: { numFmt: '0.00' } },
-    { header: 'US barrels (31 gal)', key: 'bbl', width: 18, style: { numFmt: '0.0000' } },
-  ];
-  months.getRow(1).font = { bold: true };
-  for (const m of report.months) months.addRow([xlsxDate(m.month), m.batches, m.packagedLiters, m.usBarrels]);
-  const monthly = wb.addWorksheet('Monthly report', { views: [{ state: 'frozen', ySplit: 1, xSplit: 1 }] });
-  monthly.columns = monthlyColumns.map((header, i) => ({
-    header,
-    key: `c${i}`,
-    width: i === 0 ? 10 : Math.max(12, header.length + 2),
-    style: i === 0 ? { numFmt: XLSX_MONTH_FORMAT } : { numFmt: header.includes('bbl') ? '0.0000' : '0.00' },
-  }));
-  monthly.getRow(1).font = { bold: true };
-  for (const m of report.monthly) monthly.addRow([xlsxDate(m.month), ...monthlyValues(m).slice(1).map(xlsxCell)]);
-  monthly.addRow([]);
-  monthly.addRow(['Note', xlsxCell(report.note)]);
-  return Buffer.from(await wb.xlsx.writeBuffer());
+export function productionRecordsCsv(report: ProductionRecords): string {
+  const { records, monthly } = recordTables(report);
+  return csvFile([
+    ...csvRows({ ...records, after: records.after?.slice(0, 1) }),
+    [],
+    ['Monthly report'],
+    ...csvRows({ ...monthly, after: [] }),
+    [],
+    ['Note', report.note, '', '', '', '', '', '', ''],
+  ]);
+}
+
+export function productionRecordsXlsx(report: ProductionRecords): Promise<Buffer> {
+  const { records, byMonth, monthly } = recordTables(report);
+  return xlsxFile([records, byMonth, monthly]);
 }

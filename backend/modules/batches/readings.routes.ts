@@ -1,9 +1,7 @@
 import { ForbiddenError } from '@casl/ability';
-import ExcelJS from 'exceljs';
-import Papa from 'papaparse';
 import { Router } from 'express';
 import type { Deps } from '../../lib/deps.ts';
-import { csvCell, XLSX_DATE_TIME_FORMAT, xlsxCell } from '../../lib/export-cells.ts';
+import { CSV_TYPE, csvTable, xlsxFile, XLSX_TYPE, type Table } from '../../lib/tabular-export.ts';
 import { requireUser } from '../../middleware/authenticate.ts';
 
 /** The template's columns: what the importer proposes a mapping for without being told. */
@@ -29,45 +27,45 @@ const instructions = [
   ['Replace the example rows with your own. Each row is one reading; two readings of one batch at the same time count as duplicates.'],
 ];
 
+type Row = readonly string[];
+const cell = (i: number) => (r: Row) => r[i] ?? '';
+/** The template: example rows as typed in the CSV; in XLSX the times are date cells and the figures numbers. */
+const template: Table<Row> = {
+  name: 'Readings',
+  columns: [
+    { header: templateHeaders[0]!, value: cell(0), type: 'datetime', width: 20 },
+    { header: templateHeaders[1]!, value: cell(1), type: 'number', width: 10 },
+    { header: templateHeaders[2]!, value: cell(2), width: 8 },
+    { header: templateHeaders[3]!, value: cell(3), type: 'number', width: 16 },
+    { header: templateHeaders[4]!, value: cell(4), width: 30 },
+  ],
+  rows: exampleRows,
+};
+const help: Table<Row> = {
+  name: 'How to fill in',
+  columns: [
+    { header: instructions[0]![0]!, value: cell(0), width: 18 },
+    { header: '', value: cell(1), width: 110 },
+  ],
+  rows: instructions.slice(1),
+  frozenHeader: false,
+};
+
 export function readingsRoutes(_deps: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
   router.get('/template.csv', (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('import', 'Reading');
-    const csv = Papa.unparse(
-      [templateHeaders, ...exampleRows].map((r) => r.map(csvCell)),
-      { newline: '\r\n' },
-    );
-    res.type('text/csv; charset=utf-8').attachment('readings-template.csv').send(`\uFEFF${csv}\r\n`);
+    res.type(CSV_TYPE).attachment('readings-template.csv').send(csvTable(template));
   });
 
   router.get('/template.xlsx', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('import', 'Reading');
-    const wb = new ExcelJS.Workbook();
-    wb.creator = 'Cellarwright';
-    const ws = wb.addWorksheet('Readings', { views: [{ state: 'frozen', ySplit: 1 }] });
-    ws.columns = [
-      { header: templateHeaders[0], key: 'takenAt', width: 20, style: { numFmt: XLSX_DATE_TIME_FORMAT } },
-      { header: templateHeaders[1], key: 'gravity', width: 10 },
-      { header: templateHeaders[2], key: 'unit', width: 8 },
-      { header: templateHeaders[3], key: 'temperature', width: 16 },
-      { header: templateHeaders[4], key: 'note', width: 30 },
-    ];
-    ws.getRow(1).font = { bold: true };
-    for (const [t, g, u, temp, note] of exampleRows) {
-      // Spreadsheet dates hold wall-clock time; exceljs writes a Date's UTC fields.
-      ws.addRow([new Date(`${t!.replace(' ', 'T')}:00Z`), Number(g), u, Number(temp), note].map(xlsxCell));
-    }
-    const help = wb.addWorksheet('How to fill in');
-    help.getColumn(1).width = 18;
-    help.getColumn(2).width = 110;
-    for (const line of instructions) help.addRow(line.map(xlsxCell));
-    help.getRow(1).font = { bold: true };
     res
-      .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')
+      .type(XLSX_TYPE)
       .attachment('readings-template.xlsx')
-      .send(Buffer.from(await wb.xlsx.writeBuffer()));
+      .send(await xlsxFile([template, help]));
   });
 
   return router;

@@ -1,4 +1,3 @@
-import Papa from 'papaparse';
 import { sql } from 'kysely';
 import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
 import { beerFacts, bestBeforeState, type FiningsDose } from '../../../shared/cellar/trace.ts';
@@ -7,7 +6,7 @@ import type { KegWhereabouts } from '../../../shared/schemas/kegs.ts';
 import type { BatchTrace, TraceFill, TraceReport } from '../../../shared/schemas/trace.ts';
 import type { Database } from '../../db/database.ts';
 import type { BatchStatus } from '../../db/tables/batches.ts';
-import { csvCell, type ExportCell } from '../../lib/export-cells.ts';
+import { csvTable, type Column } from '../../lib/tabular-export.ts';
 import { defaultLocale, formatDate, formatDateTime, formatNumber, formatVolume, type FormatContext } from '../../../shared/format/index.ts';
 import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 import { coopName } from '../sanitation/audit-report.ts';
@@ -253,59 +252,32 @@ const whereLabel: Record<string, string> = { cellar: 'cellar', cold_room: 'cold 
 const dosesText = (f: FiningsDose[]) => f.map((d) => `${d.kind} ${d.dose} ${d.unit}`.trim()).join('; ');
 const day = (v: string | null | undefined) => (v ? v.slice(0, 10) : '');
 
-const csvColumns = [
-  'Batch',
-  'Style',
-  'Owner',
-  'Allergens',
-  'Vegan',
-  'Keg',
-  'Filled',
-  'Litres filled',
-  'Litres left',
-  'Best before',
-  'Finings',
-  'Holds this beer now',
-  'Where now',
-  'Holder',
-  'Due back',
-  'Tap now',
-  'Taken out by',
-  'Served on taps',
-  'Emptied',
-] as const;
+type FillRow = { t: BatchTrace; f: TraceFill };
+const csvColumns: Column<FillRow>[] = [
+  { header: 'Batch', value: ({ t }) => t.batch.name },
+  { header: 'Style', value: ({ t }) => t.batch.style },
+  { header: 'Owner', value: ({ t }) => t.batch.ownerName },
+  { header: 'Allergens', value: ({ t }) => t.allergens.join('; ') },
+  { header: 'Vegan', value: ({ t }) => (t.vegan ? 'yes' : 'no') },
+  { header: 'Keg', value: ({ f }) => f.code },
+  { header: 'Filled', value: ({ f }) => f.filledAt },
+  { header: 'Litres filled', value: ({ f }) => f.volumeLiters, type: 'number' },
+  { header: 'Litres left', value: ({ f }) => f.remainingLiters, type: 'number' },
+  { header: 'Best before', value: ({ f }) => day(f.bestBefore) },
+  { header: 'Finings', value: ({ f }) => dosesText(f.finings) },
+  { header: 'Holds this beer now', value: ({ f }) => (f.holdsBatch ? 'yes' : 'no') },
+  { header: 'Where now', value: ({ f }) => (f.holdsBatch ? (whereLabel[f.whereabouts] ?? f.whereabouts) : '') },
+  { header: 'Holder', value: ({ f }) => f.holder?.name ?? '' },
+  { header: 'Due back', value: ({ f }) => day(f.dueAt) },
+  { header: 'Tap now', value: ({ f }) => f.tap?.code ?? '' },
+  { header: 'Taken out by', value: ({ f }) => f.takenBy.map((m) => `${m.name ?? 'a member'} ${day(m.at)}`).join('; ') },
+  { header: 'Served on taps', value: ({ f }) => f.servedOn.map((s) => `${s.code} ${day(s.at)}`).join('; ') },
+  { header: 'Emptied', value: ({ f }) => f.emptiedAt ?? '' },
+];
 
-function csvRows(t: BatchTrace): ExportCell[][] {
-  return t.fills.map((f) => [
-    t.batch.name,
-    t.batch.style,
-    t.batch.ownerName,
-    t.allergens.join('; '),
-    t.vegan ? 'yes' : 'no',
-    f.code,
-    f.filledAt,
-    f.volumeLiters,
-    f.remainingLiters,
-    day(f.bestBefore),
-    dosesText(f.finings),
-    f.holdsBatch ? 'yes' : 'no',
-    f.holdsBatch ? (whereLabel[f.whereabouts] ?? f.whereabouts) : '',
-    f.holder?.name ?? '',
-    day(f.dueAt),
-    f.tap?.code ?? '',
-    f.takenBy.map((m) => `${m.name ?? 'a member'} ${day(m.at)}`).join('; '),
-    f.servedOn.map((s) => `${s.code} ${day(s.at)}`).join('; '),
-    f.emptiedAt ?? '',
-  ]);
-}
-
-/** The trace as CSV, one row per keg fill; text as typed is neutralised (backend/lib/export-cells.ts). */
+/** The trace as CSV, one row per keg fill; text as typed is neutralised (backend/lib/tabular-export.ts). */
 export function traceCsv(traces: BatchTrace[]): string {
-  const data: ExportCell[][] = [[...csvColumns], ...traces.flatMap(csvRows)];
-  return `\uFEFF${Papa.unparse(
-    data.map((r) => r.map(csvCell)),
-    { newline: '\r\n' },
-  )}\r\n`;
+  return csvTable({ columns: csvColumns, rows: traces.flatMap((t) => t.fills.map((f) => ({ t, f }))) });
 }
 
 const ink = '#1f2328';
