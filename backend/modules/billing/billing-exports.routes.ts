@@ -3,14 +3,13 @@ import { periodLabel } from '../../../shared/billing/dates.ts';
 import { invoiceExportQuerySchema } from '../../../shared/schemas/billing.ts';
 import { audit } from '../../lib/audit.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { ledgerCsv, ledgerXlsx, periodLedger } from './exports.service.ts';
-import { can } from './invoice-access.ts';
+import { can, signedInRouter } from './invoice-access.ts';
 
 /** A period's ledger for the books: `GET /api/invoices/export?period=&format=csv|xlsx`. */
 export function billingExportsRoutes({ db }: Deps): Router {
-  const router = Router();
-  router.use(requireUser);
+  const router = signedInRouter();
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('export', 'Invoice');

@@ -1,14 +1,13 @@
 import { Router } from 'express';
 import { billingProfileSchema } from '../../../shared/schemas/billing.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { getBillingProfile, saveBillingProfile } from './billing-profile.service.ts';
-import { can } from './invoice-access.ts';
+import { can, signedInRouter } from './invoice-access.ts';
 
 /** The invoice header and how members pay: `GET/PUT /api/billing/profile`. */
 export function billingProfileRoutes({ db }: Deps): Router {
-  const router = Router();
-  router.use(requireUser);
+  const router = signedInRouter();
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'PriceList');

@@ -4,16 +4,15 @@ import { subject } from '../../../shared/permissions/ability.ts';
 import { ageingQuerySchema } from '../../../shared/schemas/billing.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile } from './billing-profile.service.ts';
-import { can, requireEveryInvoice } from './invoice-access.ts';
+import { can, requireEveryInvoice, signedInRouter } from './invoice-access.ts';
 import { memberBalance } from './invoice-queries.service.ts';
 import { ageingReport, billingSummary } from './reports.service.ts';
 
 /** The treasurer's overview (`/summary`, `/ageing`) and a member's balance (`/balance`), under `/api/billing`. */
 export function billingReportsRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  router.use(requireUser);
+  const router = signedInRouter();
 
   router.get('/summary', async (req, res) => {
     requireEveryInvoice(req);

@@ -1,38 +1,27 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { subject } from '../../../shared/permissions/ability.ts';
 import { refundInputSchema, voidInvoiceSchema } from '../../../shared/schemas/billing.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { creditNoteOwner, creditNotePdf } from './credit-notes.service.ts';
-import { can, idParam, visibleInvoice } from './invoice-access.ts';
+import { can, idParam, invoiceChange, signedInRouter } from './invoice-access.ts';
 import { refundInvoiceNow, voidInvoiceNow } from './invoice-actions.service.ts';
 import { detailAsOf } from './invoice-queries.service.ts';
 
 /** Crediting an invoice: voiding it whole (`/:id/void`) or crediting part of it (`/:id/refunds`). */
 export function invoiceCreditsRoutes(deps: Deps): Router {
   const { db, clock } = deps;
-  const router = Router();
-  uuidParams(router, { id: 'Invoice' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Invoice' });
 
   router.post('/:id/void', async (req, res) => {
-    const { id } = idParam.parse(req.params);
-    can(req).throwUnlessCan('create', 'CreditNote');
-    const input = voidInvoiceSchema.parse(req.body ?? {});
-    const row = await visibleInvoice(req, db, id);
-    can(req).throwUnlessCan('update', subject('Invoice', { memberId: row.member_id }));
+    const { row, input } = await invoiceChange(req, db, ['create', 'CreditNote'], voidInvoiceSchema, ['update', 'Invoice']);
     const result = await voidInvoiceNow(deps, row.id, input, userOf(req).id);
     res.json({ ...result, invoice: await detailAsOf(db, row.id, clock.now()) });
   });
 
   router.post('/:id/refunds', async (req, res) => {
-    const { id } = idParam.parse(req.params);
-    can(req).throwUnlessCan('create', 'CreditNote');
-    const input = refundInputSchema.parse(req.body ?? {});
-    const row = await visibleInvoice(req, db, id);
-    can(req).throwUnlessCan('create', subject('CreditNote', { memberId: row.member_id }));
+    const { row, input } = await invoiceChange(req, db, ['create', 'CreditNote'], refundInputSchema, ['create', 'CreditNote']);
     const result = await refundInvoiceNow(deps, row.id, input, userOf(req).id);
     res.status(201).json({ ...result, invoice: await detailAsOf(db, row.id, clock.now()) });
   });
@@ -42,9 +31,7 @@ export function invoiceCreditsRoutes(deps: Deps): Router {
 
 /** A credit note as a document: `GET /api/credit-notes/:id/pdf` (the member it credits, and the treasurer). */
 export function creditNotesRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  uuidParams(router, { id: 'Credit note' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Credit note' });
   router.get('/:id/pdf', async (req, res) => {
     can(req).throwUnlessCan('read', 'CreditNote');
     const { id } = idParam.parse(req.params);

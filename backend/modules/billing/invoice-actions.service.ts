@@ -1,4 +1,5 @@
 import type { Payment, RefundInput, VoidInvoiceInput } from '../../../shared/schemas/billing.ts';
+import type { Database } from '../../db/database.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { coopToday } from './billing-profile.service.ts';
 import { closeStaleCheckouts } from './checkout.service.ts';
@@ -28,22 +29,23 @@ export async function takePaymentByHand(
   return payment;
 }
 
-/** Voids an invoice on the co-op's date (see `voidInvoice`). */
-export async function voidInvoiceNow({ db, config, clock, queue }: BillingDeps, invoiceId: string, input: Required<VoidInvoiceInput>, actorId: string) {
-  const result = await db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx, clock.now());
-    return voidInvoice(trx, invoiceId, input, today, actorId);
-  });
+/** A void or credit on the co-op's date, in one transaction; then stale checkouts are closed. */
+async function creditOnCoopDate<R>(
+  { db, config, clock, queue }: BillingDeps,
+  invoiceId: string,
+  credit: (trx: Database, today: string) => Promise<R>,
+): Promise<R> {
+  const result = await db.transaction().execute(async (trx) => credit(trx, (await coopToday(trx, clock.now())).today));
   await closeStaleCheckouts(db, config, invoiceId, clock.now(), queue);
   return result;
 }
 
+/** Voids an invoice on the co-op's date (see `voidInvoice`). */
+export function voidInvoiceNow(deps: BillingDeps, invoiceId: string, input: Required<VoidInvoiceInput>, actorId: string) {
+  return creditOnCoopDate(deps, invoiceId, (trx, today) => voidInvoice(trx, invoiceId, input, today, actorId));
+}
+
 /** Credits part of an invoice on the co-op's date, paying it back when a method is given (see `refundInvoice`). */
-export async function refundInvoiceNow({ db, config, clock, queue }: BillingDeps, invoiceId: string, input: Required<RefundInput>, actorId: string) {
-  const result = await db.transaction().execute(async (trx) => {
-    const { today } = await coopToday(trx, clock.now());
-    return refundInvoice(trx, invoiceId, input, today, actorId);
-  });
-  await closeStaleCheckouts(db, config, invoiceId, clock.now(), queue);
-  return result;
+export function refundInvoiceNow(deps: BillingDeps, invoiceId: string, input: Required<RefundInput>, actorId: string) {
+  return creditOnCoopDate(deps, invoiceId, (trx, today) => refundInvoice(trx, invoiceId, input, today, actorId));
 }

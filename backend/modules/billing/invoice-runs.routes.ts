@@ -1,16 +1,13 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { invoiceRunInputSchema, invoiceRunPreviewQuerySchema } from '../../../shared/schemas/billing.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { can, idParam } from './invoice-access.ts';
+import { userOf } from '../../middleware/authenticate.ts';
+import { can, idParam, signedInRouter } from './invoice-access.ts';
 import { issueRun, listRuns, previewRun, runPeriod, sendRun } from './invoice-runs.service.ts';
 
 export function invoiceRunsRoutes(deps: Deps): Router {
   const { db, clock } = deps;
-  const router = Router();
-  uuidParams(router, { id: 'Invoice run' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Invoice run' });
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'InvoiceRun');

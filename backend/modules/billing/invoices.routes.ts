@@ -1,12 +1,11 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { subject } from '../../../shared/permissions/ability.ts';
 import { invoiceListQuerySchema } from '../../../shared/schemas/billing.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { coopToday, getBillingProfile } from './billing-profile.service.ts';
-import { can, idParam, visibleInvoice } from './invoice-access.ts';
+import { can, idParam, signedInRouter, visibleInvoice } from './invoice-access.ts';
 import { issueDraft } from './invoice-commands.service.ts';
 import { sendInvoice } from './invoice-mail.service.ts';
 import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
@@ -15,9 +14,7 @@ import { detailAsOf, listInvoices } from './invoice-queries.service.ts';
 /** Invoices: the list, one invoice, its PDF, issuing and e-mailing it. */
 export function invoicesRoutes(deps: Deps): Router {
   const { db, config, clock } = deps;
-  const router = Router();
-  uuidParams(router, { id: 'Invoice' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Invoice' });
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'Invoice');

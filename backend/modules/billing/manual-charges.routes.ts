@@ -1,19 +1,16 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import { manualChargeInputSchema, periodSchema } from '../../../shared/schemas/billing.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { can, idParam } from './invoice-access.ts';
+import { userOf } from '../../middleware/authenticate.ts';
+import { can, idParam, signedInRouter } from './invoice-access.ts';
 import { addManualCharge, listManualCharges, removeManualCharge } from './prices.service.ts';
 
 /** Charges and credits the treasurer adds by hand to a member's period. */
 export function manualChargesRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  uuidParams(router, { id: 'Charge' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Charge' });
   const listQuery = z.object({ period: periodSchema.optional(), memberId: z.uuid().optional() });
 
   router.get('/', async (req, res) => {

@@ -1,20 +1,17 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import { overpaymentRefundSchema } from '../../../shared/schemas/billing.ts';
 import { listQuerySchema } from '../../../shared/schemas/pagination.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { can, idParam, requireEveryInvoice } from './invoice-access.ts';
+import { userOf } from '../../middleware/authenticate.ts';
+import { can, idParam, requireEveryInvoice, signedInRouter } from './invoice-access.ts';
 import { pageOverpayments, paymentOwner, refundOverpayment } from './overpayments.service.ts';
 
 /** Online payments beyond what was due, for the treasurer to refund: `/api/billing/overpayments`. */
 export function overpaymentsRoutes({ db }: Deps): Router {
-  const router = Router();
-  router.use(requireUser);
-  uuidParams(router, { id: 'Overpayment' });
+  const router = signedInRouter({ id: 'Overpayment' });
 
   /** A page at a time: `?open=true` for those still owed. */
   router.get('/', async (req, res) => {

@@ -19,44 +19,29 @@ function overpaymentsQuery(db: Database, q: { open?: boolean; memberId?: string;
   return query;
 }
 
-/** Newest first. */
+/** Newest first, named as the API names them. */
 function overpaymentRows(qb: ReturnType<typeof overpaymentsQuery>) {
   return qb
     .select([
-      'payment.id',
-      'payment.invoice_id',
-      'invoice.number',
-      'payment.member_id',
-      'app_user.name',
+      'payment.id as paymentId',
+      'payment.invoice_id as invoiceId',
+      'invoice.number as invoiceNumber',
+      'payment.member_id as memberId',
+      'app_user.name as memberName',
       'payment.currency',
-      'payment.received_on',
-      'payment.amount_cents',
-      'payment.overpaid_cents',
+      'payment.received_on as receivedOn',
+      'payment.amount_cents as amountCents',
+      'payment.overpaid_cents as overpaidCents',
       'payment.reference',
-      'payment.overpayment_refunded_on',
-      'payment.overpayment_refund_reference',
+      'payment.overpayment_refunded_on as refundedOn',
+      'payment.overpayment_refund_reference as refundReference',
     ])
     .orderBy('payment.received_on', 'desc')
     .orderBy('payment.created_at', 'desc')
     .orderBy('payment.id');
 }
 
-function toOverpayment(r: Awaited<ReturnType<ReturnType<typeof overpaymentRows>['executeTakeFirstOrThrow']>>): Overpayment {
-  return {
-    paymentId: r.id,
-    invoiceId: r.invoice_id,
-    invoiceNumber: r.number,
-    memberId: r.member_id,
-    memberName: r.name,
-    currency: r.currency.trim(),
-    receivedOn: r.received_on,
-    amountCents: r.amount_cents,
-    overpaidCents: r.overpaid_cents,
-    reference: r.reference,
-    refundedOn: r.overpayment_refunded_on,
-    refundReference: r.overpayment_refund_reference,
-  };
-}
+const toOverpayment = (r: Overpayment): Overpayment => ({ ...r, currency: r.currency.trim() });
 
 /** One page of overpayments, newest first, with how many there are in all. */
 export async function pageOverpayments(db: Database, q: { open?: boolean; memberId?: string; page: number; pageSize: number }): Promise<Page<Overpayment>> {

@@ -1,22 +1,19 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import { paymentInputSchema } from '../../../shared/schemas/billing.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { forbidden } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { confirmCheckout, createCheckout } from './checkout.service.ts';
-import { can, idParam, visibleInvoice } from './invoice-access.ts';
+import { can, idParam, invoiceChange, signedInRouter, visibleInvoice } from './invoice-access.ts';
 import { takePaymentByHand } from './invoice-actions.service.ts';
 import { detailAsOf } from './invoice-queries.service.ts';
 
 /** Paying an invoice: online by its member (`/:id/checkout`), or recorded by the treasurer (`/:id/payments`). */
 export function paymentsRoutes(deps: Deps): Router {
   const { db, config, clock, queue } = deps;
-  const router = Router();
-  uuidParams(router, { id: 'Invoice' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Invoice' });
 
   router.post('/:id/checkout', async (req, res) => {
     const { id } = idParam.parse(req.params);
@@ -39,11 +36,7 @@ export function paymentsRoutes(deps: Deps): Router {
   });
 
   router.post('/:id/payments', async (req, res) => {
-    const { id } = idParam.parse(req.params);
-    can(req).throwUnlessCan('create', 'Payment');
-    const input = paymentInputSchema.parse(req.body ?? {});
-    const row = await visibleInvoice(req, db, id);
-    can(req).throwUnlessCan('create', subject('Payment', { memberId: row.member_id }));
+    const { row, input } = await invoiceChange(req, db, ['create', 'Payment'], paymentInputSchema, ['create', 'Payment']);
     const payment = await takePaymentByHand(deps, row.id, input, userOf(req).id);
     res.status(201).json({ payment, invoice: await detailAsOf(db, row.id, clock.now()) });
   });

@@ -1,16 +1,14 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { taxRateInputSchema } from '../../../shared/schemas/billing.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { can, idParam } from './invoice-access.ts';
+import { can, signedInRouter } from './invoice-access.ts';
+import { priceListEntries } from './prices.routes.ts';
 import { addTaxRate, listPrices, removeTaxRate } from './prices.service.ts';
 
 /** Tax rates from a date on, part of the price list. */
-export function taxRatesRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  uuidParams(router, { id: 'Tax rate' });
-  router.use(requireUser);
+export function taxRatesRoutes(deps: Deps): Router {
+  const { db, clock } = deps;
+  const router = signedInRouter({ id: 'Tax rate' });
 
   router.get('/', async (req, res) => {
     can(req).throwUnlessCan('read', 'PriceList');
@@ -18,18 +16,7 @@ export function taxRatesRoutes({ db, clock }: Deps): Router {
     res.json({ items: taxRates, total: taxRates.length, page: 1, pageSize: Math.max(taxRates.length, 1) });
   });
 
-  router.post('/', async (req, res) => {
-    can(req).throwUnlessCan('create', 'PriceList');
-    const input = taxRateInputSchema.parse(req.body ?? {});
-    res.status(201).json({ taxRate: await addTaxRate(db, input, userOf(req).id, clock.now()) });
-  });
-
-  router.delete('/:id', async (req, res) => {
-    can(req).throwUnlessCan('delete', 'PriceList');
-    const { id } = idParam.parse(req.params);
-    await removeTaxRate(db, id, userOf(req).id, clock.now());
-    res.status(204).end();
-  });
+  priceListEntries(router, deps, { key: 'taxRate', schema: taxRateInputSchema, add: addTaxRate, remove: removeTaxRate });
 
   return router;
 }
