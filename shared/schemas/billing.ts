@@ -48,10 +48,7 @@ const cents = z.number().int('Whole cents');
 const text = (max: number, what: string) => z.string().trim().min(1, `Enter ${what}`).max(max, `Keep it under ${max} characters`);
 
 /** Body of `POST /api/invoice-runs`. `issue: false` leaves the invoices as drafts to review. */
-export const invoiceRunInputSchema = z.object({
-  period: periodSchema,
-  issue: z.boolean().default(true),
-});
+export const invoiceRunInputSchema = z.object({ period: periodSchema, issue: z.boolean().default(true) });
 export type InvoiceRunInput = z.input<typeof invoiceRunInputSchema>;
 
 /** `GET /api/invoice-runs/preview?period=`. */

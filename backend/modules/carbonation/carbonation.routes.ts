@@ -13,7 +13,8 @@ import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { createPlan, listPlans, markPressureLowered, planMemberId, planViews, previewPlan, setPlanState } from './carbonation.service.ts';
+import { listPlans, planMemberId, planViews } from './carbonation-queries.service.ts';
+import { createPlan, markPressureLowered, previewPlan, setPlanState } from './carbonation.service.ts';
 
 /** `/api/carbonation-plans`: target CO2 volumes → regulator pressure, ready date and the fast-start reminder. */
 export function carbonationRoutes({ db, queue, clock }: Deps): Router {

@@ -1,27 +1,20 @@
 import type PgBoss from 'pg-boss';
 import { z } from 'zod';
-import { lineMaterials, type LineMaterial } from '../../../shared/brewing/index.ts';
+import { kpaToPsi, lineMaterials, type LineMaterial } from '../../../shared/brewing/index.ts';
 import { checkLine, planCarbonation, PlanError } from '../../../shared/cellar/carbonation-planner.ts';
 import type { CarbonationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { CarbonationPlanView, CreateCarbonationPlanInput, LineCheckView, previewCarbonationPlanSchema } from '../../../shared/schemas/carbonation.ts';
-import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
 import { pressureReminder } from '../mail/templates/pressure-reminder.ts';
-import { getSetting } from '../settings/settings.service.ts';
+import { carbonationSettings, planViews } from './carbonation-queries.service.ts';
 
 export const carbonationReminderQueue = 'cellar.carbonation-reminder';
 
-const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
-const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
 const round = (v: number, d = 2) => Math.round(v * 10 ** d) / 10 ** d;
-
-export async function carbonationSettings(db: Database): Promise<CarbonationSettings> {
-  return (await getSetting(db, 'carbonation')).value;
-}
 
 type PlanFields = z.infer<typeof previewCarbonationPlanSchema>;
 
@@ -127,7 +120,7 @@ function checkRating(p: ReturnType<typeof computePlan>, ratedKpa: number | null)
     { path: 'targetVolumes', kpa: p.result.servingPressureKpa },
   ].filter((x) => x.kpa > ratedKpa);
   if (!asked.length) return;
-  const psi = (kpa: number) => Math.round(kpa / 6.894757293);
+  const psi = (kpa: number) => Math.round(kpaToPsi(kpa));
   const over = asked[0]!;
   const message = `This plan needs ${Math.round(over.kpa)} kPa (${psi(over.kpa)} psi), above the keg's rated working pressure of ${Math.round(ratedKpa)} kPa (${psi(ratedKpa)} psi). Never exceed a keg's rating: choose a lower pressure or another keg.`;
   throw unprocessable(
@@ -235,163 +228,6 @@ export async function createPlan(
   }
   const [view] = await planViews(db, [planId]);
   return view!;
-}
-
-export async function planViews(db: Database, ids: string[]): Promise<CarbonationPlanView[]> {
-  if (!ids.length) return [];
-  const rows = await db
-    .selectFrom('carbonation_plan as cp')
-    .innerJoin('equipment as k', 'k.id', 'cp.keg_id')
-    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
-    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
-    .leftJoin('app_user as u', 'u.id', 'cp.created_by')
-    .selectAll('cp')
-    .select(['k.code as keg_code', 'b.name as batch_name', 'u.name as created_by_name'])
-    .where('cp.id', 'in', ids)
-    .execute();
-  const settings = await carbonationSettings(db);
-  const byId = new Map(
-    rows.map((r): [string, CarbonationPlanView] => {
-      // Warnings and the fast start's equilibrium are worked out again from the stored inputs.
-      let warnings: string[];
-      let equilibrium: number | null = null;
-      try {
-        const again = planCarbonation({
-          targetVolumes: Number(r.target_volumes),
-          temperatureC: Number(r.temperature_c),
-          altitudeM: Number(r.altitude_m),
-          method: r.method,
-          startedAt: r.started_at,
-          holdDays: num(r.hold_days) ?? settings.holdDays,
-          fastStartPressureKpa: num(r.fast_pressure_kpa) ?? undefined,
-          fastStartHours: num(r.fast_hours) ?? undefined,
-          settleDays: num(r.settle_days) ?? undefined,
-          maxPressureKpa: Math.max(settings.maxPlanPressureKpa, Number(r.serving_pressure_kpa), num(r.fast_pressure_kpa) ?? 0),
-        });
-        warnings = again.warnings;
-        equilibrium = again.fastStartEquilibriumVolumes;
-      } catch {
-        warnings = [];
-      }
-      const line: LineCheckView | null =
-        r.line_length_m !== null && r.line_inside_diameter_mm !== null
-          ? {
-              tapId: r.tap_id,
-              lengthM: Number(r.line_length_m),
-              insideDiameterMm: Number(r.line_inside_diameter_mm),
-              riseM: Number(r.line_rise_m ?? 0),
-              material: r.line_material,
-              ...checkLine({
-                servingPressureKpa: Number(r.serving_pressure_kpa),
-                lengthM: Number(r.line_length_m),
-                insideDiameterMm: Number(r.line_inside_diameter_mm),
-                riseM: Number(r.line_rise_m ?? 0),
-                fixedKpa: settings.lineFixedKpa,
-                material: r.line_material as LineMaterial | null,
-                resistanceKpaPerM: num(r.line_resistance_kpa_per_m) ?? undefined,
-              }),
-            }
-          : null;
-      return [
-        r.id,
-        {
-          id: r.id,
-          keg: { id: r.keg_id, code: r.keg_code },
-          fillId: r.keg_fill_id,
-          batchName: r.batch_name ?? null,
-          state: r.state,
-          method: r.method,
-          styleFamily: r.style_family,
-          targetVolumes: Number(r.target_volumes),
-          temperatureC: Number(r.temperature_c),
-          altitudeM: Number(r.altitude_m),
-          servingPressureKpa: Number(r.serving_pressure_kpa),
-          fastPressureKpa: num(r.fast_pressure_kpa),
-          fastHours: num(r.fast_hours),
-          holdDays: num(r.hold_days),
-          settleDays: num(r.settle_days),
-          startedAt: r.started_at.toISOString(),
-          lowerPressureAt: iso(r.lower_pressure_at),
-          pressureLoweredAt: iso(r.pressure_lowered_at),
-          reminderSentAt: iso(r.reminder_sent_at),
-          readyAt: r.ready_at.toISOString(),
-          fastStartEquilibriumVolumes: equilibrium,
-          warnings,
-          line,
-          notes: r.notes,
-          createdBy: r.created_by ? { id: r.created_by, name: r.created_by_name ?? '' } : null,
-          createdAt: r.created_at.toISOString(),
-        },
-      ];
-    }),
-  );
-  return ids.map((id) => byId.get(id)).filter((v): v is CarbonationPlanView => Boolean(v));
-}
-
-const planSort = { createdAt: 'cp.created_at', readyAt: 'cp.ready_at', lowerPressureAt: 'cp.lower_pressure_at' } as const;
-
-export async function listPlans(
-  db: Database,
-  q: {
-    kegId?: string | undefined;
-    state?: string | undefined;
-    lowerDue?: boolean | undefined;
-    sort: keyof typeof planSort;
-    order: 'asc' | 'desc';
-    page: number;
-    pageSize: number;
-  },
-  now: Date,
-  memberId?: string,
-): Promise<Page<CarbonationPlanView>> {
-  let base = db
-    .selectFrom('carbonation_plan as cp')
-    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
-    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
-    .leftJoin('batch as b', 'b.id', 'kf.batch_id');
-  if (memberId) base = base.where((eb) => eb.or([eb('kw.member_id', '=', memberId), eb('b.owner_id', '=', memberId)]));
-  if (q.kegId) base = base.where('cp.keg_id', '=', q.kegId);
-  if (q.state) base = base.where('cp.state', '=', q.state as never);
-  if (q.lowerDue) {
-    base = base
-      .where('cp.state', '=', 'active')
-      .where('cp.method', '=', 'fast_start')
-      .where('cp.pressure_lowered_at', 'is', null)
-      .where('cp.lower_pressure_at', '<=', now);
-  }
-  const [{ total }, page] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base
-      .select('cp.id')
-      .orderBy(planSort[q.sort], q.order)
-      .orderBy('cp.id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
-  return {
-    items: await planViews(
-      db,
-      page.map((r) => r.id),
-    ),
-    total,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
-}
-
-/** The member a plan's keg belongs to, for the permission policy. */
-export async function planMemberId(db: Database, planId: string): Promise<string | null | undefined> {
-  const r = await db
-    .selectFrom('carbonation_plan as cp')
-    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
-    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
-    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
-    .select(['cp.id', 'kw.member_id', 'b.owner_id'])
-    .where('cp.id', '=', planId)
-    .executeTakeFirst();
-  if (!r) return undefined;
-  return r.member_id ?? r.owner_id ?? null;
 }
 
 export async function markPressureLowered(db: Database, queue: PgBoss, planId: string, actor: { id: string }, now: Date) {
