@@ -5,19 +5,18 @@ import { cn } from '@/utils/cn';
  * Controls for the wet cellar: at least 48 px tall on every screen size, so a gloved thumb
  * on a phone hits them.
  */
-export const BigCheck = ({
-  label,
-  description,
-  className,
-  ...props
-}: Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode }) => (
+type BigToggleProps = Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode };
+
+/** A checkbox or radio with its label and an optional line under it, the whole card the target. */
+const BigToggle = ({ type, label, description, className, box, ...props }: BigToggleProps & { type: 'checkbox' | 'radio'; box: string }) => (
   <label
     className={cn(
-      'flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 cursor-pointer items-start gap-3 rounded-md border border-line-strong bg-surface px-3 py-3 has-[:checked]:border-hop has-[:checked]:bg-hop-soft/60',
+      'flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 cursor-pointer items-start gap-3 rounded-md border border-line-strong bg-surface px-3 py-3',
+      box,
       className,
     )}
   >
-    <input type="checkbox" className="mt-0.5 size-6 shrink-0 accent-copper" {...props} />
+    <input type={type} className={cn('mt-0.5 shrink-0 accent-copper', type === 'checkbox' ? 'size-6' : 'size-5')} {...props} />
     <span className="flex flex-col">
       <span className="font-medium text-ink">{label}</span>
       {description ? <span className="text-xs text-ink-muted">{description}</span> : null}
@@ -25,24 +24,10 @@ export const BigCheck = ({
   </label>
 );
 
-export const BigChoice = ({
-  label,
-  description,
-  className,
-  ...props
-}: Omit<ComponentProps<'input'>, 'type'> & { label: ReactNode; description?: ReactNode }) => (
-  <label
-    className={cn(
-      'flex min-h-12 md:min-h-12 pointer-coarse:min-h-12 flex-1 cursor-pointer items-start gap-3 rounded-md border border-line-strong bg-surface px-3 py-3 has-[:checked]:border-copper has-[:checked]:bg-copper-soft/60',
-      className,
-    )}
-  >
-    <input type="radio" className="mt-0.5 size-5 shrink-0 accent-copper" {...props} />
-    <span className="flex flex-col">
-      <span className="font-medium text-ink">{label}</span>
-      {description ? <span className="text-xs text-ink-muted">{description}</span> : null}
-    </span>
-  </label>
+export const BigCheck = (props: BigToggleProps) => <BigToggle type="checkbox" box="has-[:checked]:border-hop has-[:checked]:bg-hop-soft/60" {...props} />;
+
+export const BigChoice = (props: BigToggleProps) => (
+  <BigToggle type="radio" box="flex-1 has-[:checked]:border-copper has-[:checked]:bg-copper-soft/60" {...props} />
 );
 
 /** A text or number box at touch size. */

@@ -302,30 +302,12 @@ const NewTransferRoute = () => {
         <p className="text-sm text-ink-muted">Where a meter is at hand: ppb, 0 to 10,000.</p>
         <label className={label}>
           At fill (ppb)
-          <BigInput
-            type="number"
-            inputMode="decimal"
-            step="1"
-            min={0}
-            max={10000}
-            value={oxygen}
-            onChange={(e) => setOxygen(e.target.value)}
-            aria-invalid={oxygenOk(oxygen) ? undefined : true}
-          />
+          <OxygenInput value={oxygen} valid={oxygenOk(oxygen)} onValue={setOxygen} />
         </label>
         {chosen.map((k) => (
           <label key={k.id} className={label}>
             In {k.code} (ppb)
-            <BigInput
-              type="number"
-              inputMode="decimal"
-              step="1"
-              min={0}
-              max={10000}
-              value={kegOxygen[k.id] ?? ''}
-              onChange={(e) => setKegOxygen((o) => ({ ...o, [k.id]: e.target.value }))}
-              aria-invalid={oxygenOk(kegOxygen[k.id] ?? '') ? undefined : true}
-            />
+            <OxygenInput value={kegOxygen[k.id] ?? ''} valid={oxygenOk(kegOxygen[k.id] ?? '')} onValue={(v) => setKegOxygen((o) => ({ ...o, [k.id]: v }))} />
           </label>
         ))}
       </section>
@@ -387,5 +369,19 @@ const NewTransferRoute = () => {
     </div>
   );
 };
+
+/** Dissolved oxygen in ppb, 0 to 10,000, as a meter shows it. */
+const OxygenInput = ({ value, valid, onValue }: { value: string; valid: boolean; onValue: (v: string) => void }) => (
+  <BigInput
+    type="number"
+    inputMode="decimal"
+    step="1"
+    min={0}
+    max={10000}
+    value={value}
+    onChange={(e) => onValue(e.target.value)}
+    aria-invalid={valid ? undefined : true}
+  />
+);
 
 export default NewTransferRoute;

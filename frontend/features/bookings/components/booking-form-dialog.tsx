@@ -136,40 +136,26 @@ const BookingForm = ({
         </Field>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-2">
-        <Controller
-          control={form.control}
-          name="startsAt"
-          render={({ field }) => (
-            <Field label="From" error={errors.startsAt?.message}>
-              {(c) => (
-                <Input
-                  {...c}
-                  type="datetime-local"
-                  value={toLocalInput(field.value)}
-                  onChange={(e) => field.onChange(fromLocalInput(e.target.value))}
-                  onBlur={field.onBlur}
-                />
-              )}
-            </Field>
-          )}
-        />
-        <Controller
-          control={form.control}
-          name="endsAt"
-          render={({ field }) => (
-            <Field label="Until" error={errors.endsAt?.message}>
-              {(c) => (
-                <Input
-                  {...c}
-                  type="datetime-local"
-                  value={toLocalInput(field.value)}
-                  onChange={(e) => field.onChange(fromLocalInput(e.target.value))}
-                  onBlur={field.onBlur}
-                />
-              )}
-            </Field>
-          )}
-        />
+        {(['startsAt', 'endsAt'] as const).map((name) => (
+          <Controller
+            key={name}
+            control={form.control}
+            name={name}
+            render={({ field }) => (
+              <Field label={name === 'startsAt' ? 'From' : 'Until'} error={errors[name]?.message}>
+                {(c) => (
+                  <Input
+                    {...c}
+                    type="datetime-local"
+                    value={toLocalInput(field.value)}
+                    onChange={(e) => field.onChange(fromLocalInput(e.target.value))}
+                    onBlur={field.onBlur}
+                  />
+                )}
+              </Field>
+            )}
+          />
+        ))}
       </div>
       <Field label="Notes" hint="Optional: the beer, a batch name, anything the brewer on duty should know." error={errors.notes?.message}>
         {(c) => <Input {...c} {...form.register('notes')} autoComplete="off" />}
