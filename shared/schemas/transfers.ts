@@ -194,3 +194,16 @@ export interface GravityStability {
   /** The last readings, oldest first. */
   readings: { takenAt: string; sg: number }[];
 }
+
+/** A batch ready to go to kegs, as `GET /api/transfers/candidates` lists it. */
+export interface TransferCandidate {
+  batchId: string;
+  name: string;
+  style: string;
+  status: string;
+  ownerName: string;
+  volumeLiters: number;
+  fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
+  /** The co-op's "finished" rule applied to its readings now. */
+  gravity: GravityStability;
+}

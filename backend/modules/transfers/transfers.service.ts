@@ -2,7 +2,7 @@ import {
   transferChecklistItems,
   type CreateTransferInput,
   type DrawMethod,
-  type GravityStability,
+  type TransferCandidate,
   type TransferListQuery,
   type TransferView,
   TRANSFER_MAX_HOURS,
@@ -321,18 +321,6 @@ export async function listTransfers(db: Database, q: TransferListQuery, ownerId?
     page: q.page,
     pageSize: q.pageSize,
   };
-}
-
-export interface TransferCandidate {
-  batchId: string;
-  name: string;
-  style: string;
-  status: string;
-  ownerName: string;
-  volumeLiters: number;
-  fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
-  /** The co-op's "finished" rule applied to its readings now. */
-  gravity: GravityStability;
 }
 
 /** Batches still in a fermenter (fermenting or conditioning), each with the fermenter its latest booking holds it in and whether its gravity is stable. */

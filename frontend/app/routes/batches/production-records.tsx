@@ -13,7 +13,7 @@ import { useUnits } from '@/hooks/use-units';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
 import { abvMethod } from '../../../../shared/brewing/index.ts';
-import type { ProductionMonth } from '../../../../shared/schemas/batches.ts';
+import type { ProductionMonth, ProductionRecordRow, ProductionRecords } from '../../../../shared/schemas/batches.ts';
 import { formatMonth } from '@/utils/format';
 import { ProductionChart } from '@/features/batches/components/production-chart';
 import { ScrollRegion } from '@/components/ui/scroll-region';
@@ -124,23 +124,7 @@ const ProductionRecordsRoute = () => {
 };
 
 const td = 'border-b border-line px-3 py-1.5';
-const MonthRows = ({
-  month: m,
-  rows,
-}: {
-  month: { month: string; batches: number; packagedLiters: number; usBarrels: number };
-  rows: {
-    batchId: string;
-    batchName: string;
-    style: string;
-    ownerName: string;
-    packagedLiters: number;
-    usBarrels: number;
-    og: number | null;
-    fg: number | null;
-    abv: number | null;
-  }[];
-}) => (
+const MonthRows = ({ month: m, rows }: { month: ProductionRecords['months'][number]; rows: ProductionRecordRow[] }) => (
   <>
     {rows.map((r) => (
       <tr key={`${m.month}-${r.batchId}`}>

@@ -1,23 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CreateTransferInput, GravityStability, TransferView } from '../../../../shared/schemas/transfers.ts';
+import type { CreateTransferInput, TransferCandidate, TransferView } from '../../../../shared/schemas/transfers.ts';
 import { api } from '@/lib/api-client';
 import { batchKeys } from '@/features/batches/api/keys';
 import { equipmentKeys } from '@/features/equipment/api/keys';
 import { kegKeys } from '@/features/kegs/api/keys';
 import { sanitationKeys } from '@/features/sanitation/api/keys';
 import { transferKeys } from '@/features/transfers/api/keys';
-
-export interface TransferCandidate {
-  batchId: string;
-  name: string;
-  style: string;
-  status: string;
-  ownerName: string;
-  volumeLiters: number;
-  fermenter: { id: string; code: string; name: string; state: string; hasValve: boolean } | null;
-  /** The co-op's "finished" rule applied to its readings. */
-  gravity: GravityStability;
-}
 
 export const useTransferCandidates = (enabled = true) =>
   useQuery({
