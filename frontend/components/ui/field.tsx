@@ -101,6 +101,11 @@ export const InputField = ({
   </Field>
 );
 
+/** {@link InputField} for an e-mail address: the e-mail keyboard, no capitals or spelling fixes; labelled "E-mail" unless told. */
+export const EmailField = ({ label = 'E-mail', ...input }: Omit<FieldFrame, 'label'> & { label?: string } & Omit<InputProps, 'className' | 'type'>) => (
+  <InputField label={label} type="email" inputMode="email" autoCapitalize="none" spellCheck={false} {...input} />
+);
+
 /** {@link InputField} for a password, with its Show/Hide switch. */
 export const PasswordField = ({ label, hint, error, aside, className, ...input }: FieldFrame & Omit<InputProps, 'className' | 'type'>) => (
   <Field label={label} hint={hint} error={error} aside={aside} className={className}>

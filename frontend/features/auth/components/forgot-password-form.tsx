@@ -3,7 +3,7 @@ import type { PasswordResetRequestInput } from '../../../../shared/schemas/auth.
 import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { FormMessageAlert, InputField } from '@/components/ui/field';
+import { EmailField, FormMessageAlert } from '@/components/ui/field';
 import { passwordResetRequestSchema, useRequestPasswordReset } from '@/features/auth/api/request-password-reset';
 import { isApiProblem } from '@/lib/api-client';
 
@@ -43,17 +43,7 @@ export const ForgotPasswordForm = () => {
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       <FormMessageAlert message={message} />
-      <InputField
-        label="E-mail"
-        error={errors.email?.message}
-        type="email"
-        autoComplete="email"
-        inputMode="email"
-        autoCapitalize="none"
-        spellCheck={false}
-        autoFocus
-        {...register('email')}
-      />
+      <EmailField error={errors.email?.message} autoComplete="email" autoFocus {...register('email')} />
       <Button type="submit" pending={request.isPending} className="w-full">
         Send the link
       </Button>

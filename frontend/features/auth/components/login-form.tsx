@@ -2,7 +2,7 @@ import { Link } from 'react-router-dom';
 import type { LoginInput } from '../../../../shared/schemas/auth.ts';
 import { useApiForm } from '@/components/form/use-api-form';
 import { Button } from '@/components/ui/button';
-import { Field, FormMessageAlert, InputField } from '@/components/ui/field';
+import { EmailField, Field, FormMessageAlert } from '@/components/ui/field';
 import { PasswordInput } from '@/components/ui/input';
 import { paths } from '@/config/paths';
 import { loginSchema, useLogin } from '@/features/auth/api/login';
@@ -54,17 +54,7 @@ export const LoginForm = ({ onSignedIn }: LoginFormProps) => {
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       <FormMessageAlert message={message} />
-      <InputField
-        label="E-mail"
-        error={errors.email?.message}
-        type="email"
-        autoComplete="username"
-        inputMode="email"
-        autoCapitalize="none"
-        spellCheck={false}
-        autoFocus
-        {...register('email')}
-      />
+      <EmailField error={errors.email?.message} autoComplete="username" autoFocus {...register('email')} />
       <Field
         label="Password"
         error={errors.password?.message}

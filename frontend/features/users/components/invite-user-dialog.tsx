@@ -3,7 +3,7 @@ import type { InviteUserInput, User } from '../../../../shared/schemas/user.ts';
 import { useApiForm } from '@/components/form/use-api-form';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { FormMessageAlert, InputField } from '@/components/ui/field';
+import { EmailField, FormMessageAlert, InputField } from '@/components/ui/field';
 import { inviteUserSchema, useInviteUser } from '@/features/users/api/invite-user';
 import { RoleCheckboxes } from '@/features/users/components/role-checkboxes';
 import { isApiProblem } from '@/lib/api-client';
@@ -45,17 +45,7 @@ const InviteUserForm = ({ onClose, onInvited, onBusy }: InviteUserFormProps) => 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       <FormMessageAlert message={message} />
-      <InputField
-        label="E-mail"
-        error={errors.email?.message}
-        type="email"
-        inputMode="email"
-        autoCapitalize="none"
-        spellCheck={false}
-        autoComplete="off"
-        autoFocus
-        {...register('email')}
-      />
+      <EmailField error={errors.email?.message} autoComplete="off" autoFocus {...register('email')} />
       <InputField label="Name" hint="They can change it when they accept." error={errors.name?.message} autoComplete="off" {...register('name')} />
       <RoleCheckboxes registration={register('roles')} error={errors.roles?.message ?? errors.roles?.root?.message} />
       <DialogActions>
