@@ -9,3 +9,9 @@ export function parseDecimal(text: string): number | null {
   if (!/^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/.test(trimmed)) return Number.NaN;
   return Number(trimmed.replace(',', '.'));
 }
+
+/** react-hook-form `register` options for a required number box: a decimal comma is read, empty is NaN (the schema refuses it). */
+export const asNumber = { setValueAs: (v: string) => parseDecimal(String(v)) ?? Number.NaN };
+
+/** The same for an optional number box: empty is `undefined`. */
+export const asOptionalNumber = { setValueAs: (v: string) => parseDecimal(String(v)) ?? undefined };

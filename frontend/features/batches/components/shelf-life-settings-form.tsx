@@ -6,8 +6,7 @@ import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
-
-const int = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
+import { asNumber } from '@/components/form/decimal';
 
 /** Settings → Shelf life: the co-op's default, per-style figures and how many days ahead Today warns. */
 export const ShelfLifeSettingsSection = ({ canEdit }: { canEdit: boolean }) => (
@@ -29,10 +28,10 @@ const ShelfLifeSettingsForm = ({ value, canEdit }: { value: ShelfLifeSettings; c
       <fieldset disabled={!canEdit} className="flex flex-col gap-4">
         <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
           <Field label="Shelf life (days)" hint="Common practice for unpasteurised draught beer kept cold: 60." error={errors.defaultDays?.message}>
-            {(c) => <Input {...c} inputMode="numeric" {...form.register('defaultDays', int)} />}
+            {(c) => <Input {...c} inputMode="numeric" {...form.register('defaultDays', asNumber)} />}
           </Field>
           <Field label="Warn this many days before" hint="Kegs this close to best-before show on Today. Default 7." error={errors.nearDays?.message}>
-            {(c) => <Input {...c} inputMode="numeric" {...form.register('nearDays', int)} />}
+            {(c) => <Input {...c} inputMode="numeric" {...form.register('nearDays', asNumber)} />}
           </Field>
         </div>
         <div className="flex flex-col gap-2">
@@ -43,7 +42,7 @@ const ShelfLifeSettingsForm = ({ value, canEdit }: { value: ShelfLifeSettings; c
                 {(c) => <Input {...c} className="w-56" {...form.register(`byStyle.${i}.style`)} />}
               </Field>
               <Field label="Days" error={errors.byStyle?.[i]?.days?.message}>
-                {(c) => <Input {...c} inputMode="numeric" className="w-24" {...form.register(`byStyle.${i}.days`, int)} />}
+                {(c) => <Input {...c} inputMode="numeric" className="w-24" {...form.register(`byStyle.${i}.days`, asNumber)} />}
               </Field>
               {canEdit ? (
                 <Button variant="ghost" onClick={() => styles.remove(i)}>

@@ -5,8 +5,8 @@ import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
+import { asNumber } from '@/components/form/decimal';
 
-const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(String(v).replace(',', '.'))) };
 const hints: Record<(typeof inspectionKinds)[number], string> = {
   pressure_test: 'Common practice: 24.',
   relief_valve: 'Common practice: 12.',
@@ -33,11 +33,11 @@ const PressureSafetyForm = ({ value, canEdit }: { value: PressureSafetySettings;
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5">
         {inspectionKinds.map((k) => (
           <Field key={k} label={`${inspectionKindLabels[k]} (months)`} hint={hints[k]} error={errors.intervalMonths?.[k]?.message}>
-            {(c) => <Input {...c} inputMode="numeric" {...form.register(`intervalMonths.${k}`, num)} />}
+            {(c) => <Input {...c} inputMode="numeric" {...form.register(`intervalMonths.${k}`, asNumber)} />}
           </Field>
         ))}
         <Field label="Warn ahead (days)" hint="Today and the maintenance list." error={errors.dueSoonDays?.message}>
-          {(c) => <Input {...c} inputMode="numeric" {...form.register('dueSoonDays', num)} />}
+          {(c) => <Input {...c} inputMode="numeric" {...form.register('dueSoonDays', asNumber)} />}
         </Field>
       </fieldset>
       {canEdit ? (

@@ -6,6 +6,7 @@ import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
+import { asNumber } from '@/components/form/decimal';
 
 /** The Settings section for the co-op's booking rules (admin edits; the rota and treasurer read). */
 export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => (
@@ -13,8 +14,6 @@ export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => (
     {(value) => <BookingRulesForm value={value} canEdit={canEdit} />}
   </SettingLoader>
 );
-
-const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
 
 const BookingRulesForm = ({ value, canEdit }: { value: BookingRules; canEdit: boolean }) => {
   const { form, save, message, onSubmit } = useSettingForm<BookingRules>('booking_rules', bookingRulesSchema, value, {
@@ -27,13 +26,13 @@ const BookingRulesForm = ({ value, canEdit }: { value: BookingRules; canEdit: bo
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
         <Field label="Cleaning buffer (hours)" hint="Kept free after every booking." error={errors.cleaningBufferHours?.message}>
-          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('cleaningBufferHours', num)} />}
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('cleaningBufferHours', asNumber)} />}
         </Field>
         <Field label="How far ahead (days)" hint="Latest start of a new booking." error={errors.maxAdvanceDays?.message}>
-          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxAdvanceDays', num)} />}
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxAdvanceDays', asNumber)} />}
         </Field>
         <Field label="Bookings at once per member" hint="Booked or in use, not yet ended." error={errors.maxActiveBookingsPerMember?.message}>
-          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxActiveBookingsPerMember', num)} />}
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxActiveBookingsPerMember', asNumber)} />}
         </Field>
         <Field label="Time zone" hint="For e-mails and the calendar's days." error={errors.timeZone?.message}>
           {(c) => <Input {...c} {...form.register('timeZone')} autoComplete="off" />}
@@ -44,7 +43,7 @@ const BookingRulesForm = ({ value, canEdit }: { value: BookingRules; canEdit: bo
         <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
           {equipmentKinds.map((kind) => (
             <Field key={kind} label={equipmentKindLabels[kind]} error={errors.maxDays?.[kind]?.message}>
-              {(c) => <Input {...c} type="number" min={1} step={1} {...form.register(`maxDays.${kind}`, num)} />}
+              {(c) => <Input {...c} type="number" min={1} step={1} {...form.register(`maxDays.${kind}`, asNumber)} />}
             </Field>
           ))}
         </div>

@@ -13,9 +13,7 @@ import { Checkbox, Input, Select } from '@/components/ui/input';
 import { Cautions } from '@/components/safety/cautions';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
-
-const num = { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) };
-const optionalNum = { setValueAs: (v: string) => (v === '' ? undefined : Number(v)) };
+import { asNumber, asOptionalNumber } from '@/components/form/decimal';
 
 /** Settings: the sanitation rules (chemical list, minimum contact times, freshness window). */
 export const SanitationSettingsSection = ({ canEdit }: { canEdit: boolean }) => (
@@ -36,29 +34,29 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
       {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
         <Field label="Freshness window (days)" hint="How long a sanitized vessel stays ready." error={e.freshnessDays?.message}>
-          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('freshnessDays', num)} />}
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('freshnessDays', asNumber)} />}
         </Field>
         <Field label="Clean within (days)" hint="After a vessel is emptied or returned; later cycles are flagged." error={e.cleanWithinDays?.message}>
-          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('cleanWithinDays', num)} />}
+          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('cleanWithinDays', asNumber)} />}
         </Field>
         <Field label="Minimum clean contact (min)" error={e.minimumContactMinutes?.clean?.message}>
-          {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.clean', num)} />}
+          {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.clean', asNumber)} />}
         </Field>
         <Field label="Minimum sanitize contact (min)" error={e.minimumContactMinutes?.sanitize?.message}>
-          {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.sanitize', num)} />}
+          {(c) => <Input {...c} type="number" min={0} step="any" {...form.register('minimumContactMinutes.sanitize', asNumber)} />}
         </Field>
         <Field
           label="Minimum CO2 flush (s)"
           hint="A shorter timed flush must be recorded as an exception; a push-out purge names its second keg instead."
           error={e.minimumPurgeSeconds?.message}
         >
-          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('minimumPurgeSeconds', num)} />}
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('minimumPurgeSeconds', asNumber)} />}
         </Field>
         <Field label="CO2 per purge (g)" hint="Recorded for billing when no figure is given." error={e.co2GramsPerPurge?.message}>
-          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerPurge', num)} />}
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerPurge', asNumber)} />}
         </Field>
         <Field label="CO2 per keg filled (g)" error={e.co2GramsPerKegFill?.message}>
-          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerKegFill', num)} />}
+          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('co2GramsPerKegFill', asNumber)} />}
         </Field>
       </fieldset>
       <fieldset disabled={!canEdit} className="flex flex-col gap-2">
@@ -81,7 +79,7 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
               )}
             </Field>
             <Field label="Usual strength" error={e.chemicals?.[i]?.defaultConcentration?.message}>
-              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.defaultConcentration`, num)} />}
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.defaultConcentration`, asNumber)} />}
             </Field>
             <Field label="Unit">
               {(c) => (
@@ -95,16 +93,16 @@ const SanitationForm = ({ value, canEdit }: { value: SanitationSettings; canEdit
               )}
             </Field>
             <Field label="Usual contact" error={e.chemicals?.[i]?.recommendedContactMinutes?.message}>
-              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.recommendedContactMinutes`, num)} />}
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.recommendedContactMinutes`, asNumber)} />}
             </Field>
             <Field label="Lowest strength" error={e.chemicals?.[i]?.minConcentration?.message}>
-              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minConcentration`, num)} />}
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minConcentration`, asNumber)} />}
             </Field>
             <Field label="Highest strength" error={e.chemicals?.[i]?.maxConcentration?.message}>
-              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.maxConcentration`, num)} />}
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.maxConcentration`, asNumber)} />}
             </Field>
             <Field label="Minimum contact (min)" error={e.chemicals?.[i]?.minimumContactMinutes?.message}>
-              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minimumContactMinutes`, optionalNum)} />}
+              {(c) => <Input {...c} type="number" step="any" {...form.register(`chemicals.${i}.minimumContactMinutes`, asOptionalNumber)} />}
             </Field>
             <div className="flex flex-wrap items-end gap-2 sm:col-span-2">
               <Checkbox label="In use" {...form.register(`chemicals.${i}.active`)} />
@@ -184,7 +182,7 @@ const CarbonationForm = ({ value, canEdit }: { value: CarbonationSettings; canEd
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
         {fields.map(([key, label, hint]) => (
           <Field key={key} label={label} hint={hint} error={(e[key] as { message?: string } | undefined)?.message}>
-            {(c) => <Input {...c} type="number" step="any" {...form.register(key, num)} />}
+            {(c) => <Input {...c} type="number" step="any" {...form.register(key, asNumber)} />}
           </Field>
         ))}
       </fieldset>
@@ -196,7 +194,7 @@ const CarbonationForm = ({ value, canEdit }: { value: CarbonationSettings; canEd
               {(c) => <Input {...c} {...form.register(`stylePresets.${i}.family`)} />}
             </Field>
             <Field label="Volumes" error={e.stylePresets?.[i]?.volumes?.message}>
-              {(c) => <Input {...c} type="number" step="0.1" {...form.register(`stylePresets.${i}.volumes`, num)} />}
+              {(c) => <Input {...c} type="number" step="0.1" {...form.register(`stylePresets.${i}.volumes`, asNumber)} />}
             </Field>
             {canEdit ? (
               <Button variant="ghost" size="sm" onClick={() => presets.remove(i)}>
