@@ -52,21 +52,21 @@ export async function requestPasswordReset({ db, config, queue }: AccountDeps, e
   await enqueueMail(queue, { to: user.email, ...passwordResetMail({ coopName, name: user.name, link }) });
 }
 
-export async function recordSignIn(db: Database, userId: string): Promise<void> {
-  await markSignedIn(db, userId, new Date());
+export async function recordSignIn(db: Database, userId: string, now: Date): Promise<void> {
+  await markSignedIn(db, userId, now);
   await audit(db, userId, 'signed_in', 'User', userId);
 }
 
-export async function updateMe(db: Database, userId: string, input: UpdateMeInput): Promise<SessionUser> {
-  return toSessionUser(await updateOwnProfile(db, userId, input, new Date()));
+export async function updateMe(db: Database, userId: string, input: UpdateMeInput, now: Date): Promise<SessionUser> {
+  return toSessionUser(await updateOwnProfile(db, userId, input, now));
 }
 
 /** Sets a new password from a reset link, ends every session of the account and lifts a sign-in lock. */
-export async function resetPassword(db: Database, throttle: LoginThrottle, input: { token: string; password: string }): Promise<void> {
+export async function resetPassword(db: Database, throttle: LoginThrottle, input: { token: string; password: string }, now: Date): Promise<void> {
   const passwordHash = await hashPassword(input.password);
   await db.transaction().execute(async (trx) => {
     const tok = await consumeToken(trx, input.token, 'password_reset');
-    await setPasswordHash(trx, tok.user_id, passwordHash, new Date());
+    await setPasswordHash(trx, tok.user_id, passwordHash, now);
     await endSessionsOf(trx, tok.user_id);
     // Whoever reads the owner's mail may sign in again: a new password lifts a sign-in lock too.
     await throttle.unlock(trx, tok.email);
@@ -83,11 +83,11 @@ export async function unlockAccount(db: Database, throttle: LoginThrottle, token
 }
 
 /** The invited person chooses a name and password; returns who to sign in. */
-export async function acceptInvitation(db: Database, input: AcceptInvitationInput): Promise<SessionUser> {
+export async function acceptInvitation(db: Database, input: AcceptInvitationInput, now: Date): Promise<SessionUser> {
   const passwordHash = await hashPassword(input.password);
   const row = await db.transaction().execute(async (trx) => {
     const tok = await consumeToken(trx, input.token, 'invitation');
-    const updated = await completeInvitedAccount(trx, tok.user_id, { name: input.name, passwordHash }, new Date());
+    const updated = await completeInvitedAccount(trx, tok.user_id, { name: input.name, passwordHash }, now);
     await audit(trx, tok.user_id, 'invitation_accepted', 'User', tok.user_id);
     return updated;
   });

@@ -31,7 +31,7 @@ function signIn(req: Request, user: SessionUser): Promise<void> {
   });
 }
 
-export function authRoutes({ db, config, queue }: Deps): Router {
+export function authRoutes({ db, config, queue, clock }: Deps): Router {
   const router = Router();
   const windowMs = config.LOGIN_LIMIT_WINDOW_MINUTES * 60_000;
   const throttle = new LoginThrottle(db, config);
@@ -103,7 +103,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
     await throttle.succeeded(input.email, req.ip);
     const user = toSessionUser(row);
     await signIn(req, user);
-    await recordSignIn(db, user.id);
+    await recordSignIn(db, user.id, clock.now());
     res.json({ user });
   });
 
@@ -121,7 +121,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
 
   router.patch('/me', requireUser, async (req, res) => {
     const input = updateMeSchema.parse(req.body ?? {});
-    res.json({ user: await updateMe(db, userOf(req).id, input) });
+    res.json({ user: await updateMe(db, userOf(req).id, input, clock.now()) });
   });
 
   router.post('/password-reset', perIp, async (req, res) => {
@@ -133,7 +133,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
 
   router.post('/password-reset/confirm', async (req, res) => {
     const input = passwordResetConfirmSchema.parse(req.body ?? {});
-    await resetPassword(db, throttle, input);
+    await resetPassword(db, throttle, input, clock.now());
     res.status(204).end();
   });
 
@@ -150,7 +150,7 @@ export function authRoutes({ db, config, queue }: Deps): Router {
 
   router.post('/invitations/accept', async (req, res) => {
     const input = acceptInvitationSchema.parse(req.body ?? {});
-    const user = await acceptInvitation(db, input);
+    const user = await acceptInvitation(db, input, clock.now());
     await signIn(req, user);
     res.json({ user });
   });
