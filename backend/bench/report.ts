@@ -26,7 +26,7 @@ export const atLeast = (figure: number, target: number) => figure >= target;
 
 export function formatTarget(t: BenchTarget): string {
   const ratio = t.ratio ?? (t.target === 0 ? undefined : t.figure / t.target);
-  const round = (n: number) => (Math.abs(n) >= 100 ? n.toFixed(0) : Math.abs(n) >= 10 ? n.toFixed(1) : n.toFixed(2));
+  const round = (n: number) => (Number.isInteger(n) ? String(n) : Math.abs(n) >= 100 ? n.toFixed(0) : Math.abs(n) >= 10 ? n.toFixed(1) : n.toFixed(2));
   return `${t.pass ? 'PASS' : 'MISS'}  ${t.name}: ${round(t.figure)} ${t.unit} (target ${round(t.target)} ${t.unit}${ratio === undefined ? '' : `, ratio ${ratio.toFixed(2)}`})${t.note ? ` — ${t.note}` : ''}`;
 }
 
