@@ -1,4 +1,3 @@
-import type { QueryClient } from '@tanstack/react-query';
 import type { ComponentType } from 'react';
 import {
   createBrowserRouter,
@@ -10,26 +9,43 @@ import {
   type LoaderFunctionArgs,
   type RouteObject,
 } from 'react-router-dom';
+import { onEntryOnly } from '@/app/loaders/prefetch';
 import { ErrorPage } from '@/components/errors/error-page';
 import { PageLoader } from '@/components/ui/spinner';
 import { loginHref, paths } from '@/config/paths';
 import { getMeQueryOptions, safeNextPath } from '@/lib/auth';
 import { queryClient } from '@/lib/query-client';
 
-/** A route module: a default-exported screen, and optionally a loader that prefetches its data. */
+/** A route module: a default-exported screen. */
 interface RouteModule {
   default: ComponentType;
-  clientLoader?: (queryClient: QueryClient) => LoaderFunction;
 }
 
-/** Each screen is its own chunk, fetched the first time someone goes there. */
-const lazy = (load: () => Promise<RouteModule>) => async () => {
-  const module = await load();
-  return {
-    Component: module.default,
-    ...(module.clientLoader ? { loader: module.clientLoader(queryClient) } : {}),
-  };
+/**
+ * Each screen is its own chunk, fetched the first time someone goes there. A screen with a loader (in
+ * app/loaders, a chunk of its own) fetches its data at the same time as its code, not after it.
+ */
+const lazy = (load: () => Promise<RouteModule>, loader?: () => Promise<LoaderFunction>) => ({
+  Component: async () => (await load()).default,
+  ...(loader ? { loader } : {}),
+});
+
+/** The loaders' chunks, one per section. */
+const loaders = {
+  today: () => import('@/app/loaders/today'),
+  cellar: () => import('@/app/loaders/cellar'),
+  batches: () => import('@/app/loaders/batches'),
+  kegs: () => import('@/app/loaders/kegs'),
+  sanitation: () => import('@/app/loaders/sanitation'),
+  billing: () => import('@/app/loaders/billing'),
+  members: () => import('@/app/loaders/members'),
 };
+
+/** A screen's route with its data fetched ahead by the loader `name` of a loaders chunk. */
+const screen = <K extends string>(load: () => Promise<RouteModule>, from: () => Promise<Record<K, LoaderFunction>>, name: K) => ({
+  lazy: lazy(load, async () => (await from())[name]),
+  shouldRevalidate: onEntryOnly,
+});
 
 async function requireUser({ request }: LoaderFunctionArgs) {
   const user = await queryClient.ensureQueryData(getMeQueryOptions());
@@ -73,36 +89,36 @@ export const routes: RouteObject[] = [
         id: 'app',
         path: paths.today,
         loader: requireUser,
-        lazy: async () => ({ Component: (await import('@/components/layouts/app-frame')).AppFrame }),
+        lazy: { Component: async () => (await import('@/components/layouts/app-frame')).AppFrame },
         children: [
           {
             // Errors inside a screen keep the frame and its navigation around them.
             errorElement: <ErrorPage inFrame />,
             children: [
-              { index: true, lazy: lazy(() => import('@/app/routes/today')) },
+              { index: true, ...screen(() => import('@/app/routes/today'), loaders.today, 'todayLoader') },
               { path: paths.profile.slice(1), lazy: lazy(() => import('@/app/routes/profile')) },
               {
                 path: paths.members.slice(1),
                 lazy: lazy(() => import('@/app/routes/members/members-layout')),
                 children: [
-                  { index: true, lazy: lazy(() => import('@/app/routes/members/members')) },
+                  { index: true, ...screen(() => import('@/app/routes/members/members'), loaders.members, 'membersLoader') },
                   { path: 'outbox', lazy: lazy(() => import('@/app/routes/members/outbox')) },
                 ],
               },
-              { path: paths.cellar.slice(1), lazy: lazy(() => import('@/app/routes/cellar/cellar')) },
+              { path: paths.cellar.slice(1), ...screen(() => import('@/app/routes/cellar/cellar'), loaders.cellar, 'cellarLoader') },
               { path: `${paths.cellar.slice(1)}/maintenance`, lazy: lazy(() => import('@/app/routes/cellar/maintenance')) },
-              { path: `${paths.cellar.slice(1)}/:equipmentId`, lazy: lazy(() => import('@/app/routes/cellar/equipment')) },
+              { path: `${paths.cellar.slice(1)}/:equipmentId`, ...screen(() => import('@/app/routes/cellar/equipment'), loaders.cellar, 'equipmentLoader') },
               {
                 path: paths.bookings.slice(1),
                 lazy: lazy(() => import('@/app/routes/bookings/bookings-layout')),
                 children: [
-                  { index: true, lazy: lazy(() => import('@/app/routes/bookings/calendar')) },
+                  { index: true, ...screen(() => import('@/app/routes/bookings/calendar'), loaders.cellar, 'calendarLoader') },
                   { path: 'mine', lazy: lazy(() => import('@/app/routes/bookings/mine')) },
                   { path: 'all', lazy: lazy(() => import('@/app/routes/bookings/all')) },
                 ],
               },
-              { path: paths.batches.slice(1), lazy: lazy(() => import('@/app/routes/batches/batches')) },
-              { path: `${paths.batches.slice(1)}/:batchId`, lazy: lazy(() => import('@/app/routes/batches/batch')) },
+              { path: paths.batches.slice(1), ...screen(() => import('@/app/routes/batches/batches'), loaders.batches, 'batchesLoader') },
+              { path: `${paths.batches.slice(1)}/:batchId`, ...screen(() => import('@/app/routes/batches/batch'), loaders.batches, 'batchLoader') },
               { path: `${paths.batches.slice(1)}/:batchId/import`, lazy: lazy(() => import('@/app/routes/batches/import')) },
               { path: paths.productionRecords.slice(1), lazy: lazy(() => import('@/app/routes/batches/production-records')) },
               { path: paths.traceReport.slice(1), lazy: lazy(() => import('@/app/routes/batches/trace-report')) },
@@ -112,8 +128,8 @@ export const routes: RouteObject[] = [
                 path: paths.sanitation.slice(1),
                 lazy: lazy(() => import('@/app/routes/sanitation/sanitation-layout')),
                 children: [
-                  { index: true, lazy: lazy(() => import('@/app/routes/sanitation/vessels')) },
-                  { path: 'log', lazy: lazy(() => import('@/app/routes/sanitation/log')) },
+                  { index: true, ...screen(() => import('@/app/routes/sanitation/vessels'), loaders.sanitation, 'vesselsLoader') },
+                  { path: 'log', ...screen(() => import('@/app/routes/sanitation/log'), loaders.sanitation, 'cyclesLoader') },
                   { path: 'audit', lazy: lazy(() => import('@/app/routes/sanitation/audit')) },
                 ],
               },
@@ -122,26 +138,26 @@ export const routes: RouteObject[] = [
                 path: paths.kegs.slice(1),
                 lazy: lazy(() => import('@/app/routes/kegs/kegs-layout')),
                 children: [
-                  { index: true, lazy: lazy(() => import('@/app/routes/kegs/whereabouts')) },
-                  { path: 'overdue', lazy: lazy(() => import('@/app/routes/kegs/overdue')) },
-                  { path: 'tap-board', lazy: lazy(() => import('@/app/routes/kegs/tap-board')) },
+                  { index: true, ...screen(() => import('@/app/routes/kegs/whereabouts'), loaders.kegs, 'kegsLoader') },
+                  { path: 'overdue', ...screen(() => import('@/app/routes/kegs/overdue'), loaders.kegs, 'overdueLoader') },
+                  { path: 'tap-board', ...screen(() => import('@/app/routes/kegs/tap-board'), loaders.kegs, 'tapBoardLoader') },
                 ],
               },
-              { path: `${paths.kegs.slice(1)}/:kegId`, lazy: lazy(() => import('@/app/routes/kegs/keg')) },
+              { path: `${paths.kegs.slice(1)}/:kegId`, ...screen(() => import('@/app/routes/kegs/keg'), loaders.kegs, 'kegLoader') },
               { path: `${paths.kegs.slice(1)}/:kegId/carbonation`, lazy: lazy(() => import('@/app/routes/kegs/carbonation')) },
               { path: 'transfers/new', lazy: lazy(() => import('@/app/routes/transfers/new')) },
               {
                 path: paths.billing.slice(1),
                 lazy: lazy(() => import('@/app/routes/billing/billing-layout')),
                 children: [
-                  { index: true, lazy: lazy(() => import('@/app/routes/billing/overview')) },
-                  { path: 'invoices', lazy: lazy(() => import('@/app/routes/billing/invoices')) },
-                  { path: 'invoices/:invoiceId', lazy: lazy(() => import('@/app/routes/billing/invoice')) },
+                  { index: true, ...screen(() => import('@/app/routes/billing/overview'), loaders.billing, 'billingOverviewLoader') },
+                  { path: 'invoices', ...screen(() => import('@/app/routes/billing/invoices'), loaders.billing, 'invoicesLoader') },
+                  { path: 'invoices/:invoiceId', ...screen(() => import('@/app/routes/billing/invoice'), loaders.billing, 'invoiceLoader') },
                   { path: 'run', lazy: lazy(() => import('@/app/routes/billing/run')) },
                   { path: 'prices', lazy: lazy(() => import('@/app/routes/billing/prices')) },
                   { path: 'exports', lazy: lazy(() => import('@/app/routes/billing/exports')) },
-                  { path: 'my-invoices', lazy: lazy(() => import('@/app/routes/billing/my-invoices')) },
-                  { path: 'my-invoices/:invoiceId', lazy: lazy(() => import('@/app/routes/billing/my-invoice')) },
+                  { path: 'my-invoices', ...screen(() => import('@/app/routes/billing/my-invoices'), loaders.billing, 'myInvoicesLoader') },
+                  { path: 'my-invoices/:invoiceId', ...screen(() => import('@/app/routes/billing/my-invoice'), loaders.billing, 'invoiceLoader') },
                 ],
               },
               { path: '*', lazy: lazy(() => import('@/app/routes/not-found')) },

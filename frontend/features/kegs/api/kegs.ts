@@ -1,4 +1,4 @@
-import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import {
   kegListQuerySchema,
   type KegHistoryEntry,
@@ -23,17 +23,16 @@ export const overdueListQuery = defineListQuery(pagingQuerySchema(25));
 export const kegsQueryOptions = (q: Partial<KegListQuery>) => pageQueryOptions<KegView>(kegKeys.list(q), '/api/kegs', q);
 export const useKegs = (q: Partial<KegListQuery>, enabled = true) => useQuery({ ...kegsQueryOptions(q), enabled });
 
-export const useOverdueKegs = (q: { page?: number; pageSize?: number } = {}) => useQuery(pageQueryOptions<KegView>(kegKeys.overdue(q), '/api/kegs/overdue', q));
+export const overdueKegsQueryOptions = (q: { page?: number; pageSize?: number } = {}) => pageQueryOptions<KegView>(kegKeys.overdue(q), '/api/kegs/overdue', q);
+export const useOverdueKegs = (q: { page?: number; pageSize?: number } = {}) => useQuery(overdueKegsQueryOptions(q));
 
-export const useTapBoard = () =>
-  useQuery({ queryKey: kegKeys.board(), queryFn: ({ signal }) => api.get<{ taps: TapBoardEntry[] }>('/api/kegs/tap-board', { signal }) });
+export const tapBoardQueryOptions = () =>
+  queryOptions({ queryKey: kegKeys.board(), queryFn: ({ signal }) => api.get<{ taps: TapBoardEntry[] }>('/api/kegs/tap-board', { signal }) });
+export const useTapBoard = () => useQuery(tapBoardQueryOptions());
 
-export const useKeg = (id: string) =>
-  useQuery({
-    queryKey: kegKeys.detail(id),
-    queryFn: ({ signal }) => api.get<{ keg: KegView }>(`/api/kegs/${encodeURIComponent(id)}`, { signal }),
-    enabled: Boolean(id),
-  });
+export const kegQueryOptions = (id: string) =>
+  queryOptions({ queryKey: kegKeys.detail(id), queryFn: ({ signal }) => api.get<{ keg: KegView }>(`/api/kegs/${encodeURIComponent(id)}`, { signal }) });
+export const useKeg = (id: string) => useQuery({ ...kegQueryOptions(id), enabled: Boolean(id) });
 
 export const useKegHistory = (id: string, page: number, enabled = true) =>
   useQuery({
