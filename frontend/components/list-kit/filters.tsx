@@ -97,3 +97,19 @@ export const FilterSelect = <V extends string>({
 
 /** The row of filters above a cellar list: two choices and a search. */
 export const FilterGrid = ({ children }: { children: ReactNode }) => <div className="grid gap-2 sm:grid-cols-[12rem_12rem_1fr]">{children}</div>;
+
+export interface ListSearchProps extends Omit<SearchInputProps, 'value' | 'onSearch'> {
+  label: ReactNode;
+  muted?: boolean;
+  /** Classes for the label around the box. */
+  fieldClassName?: string;
+  query: { q?: string | undefined };
+  onQueryChange: (patch: { q: string | undefined }, options: SetListQueryOptions) => void;
+}
+
+/** A list's search box under its label, bound to the list's `q`. */
+export const ListSearch = ({ label, muted, fieldClassName, query, onQueryChange, ...input }: ListSearchProps) => (
+  <FilterField label={label} muted={muted} className={fieldClassName}>
+    <SearchInput {...input} value={query.q} onSearch={(q, options) => onQueryChange({ q }, options)} />
+  </FilterField>
+);

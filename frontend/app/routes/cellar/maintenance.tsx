@@ -1,10 +1,8 @@
 import { createColumnHelper } from '@tanstack/react-table';
-import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { equipmentKindLabels } from '../../../../shared/schemas/equipment.ts';
 import { inspectionKindLabels, maintenanceStatuses, type MaintenanceItem } from '../../../../shared/schemas/inspections.ts';
 import { FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
-import { useServerTable } from '@/components/ui/use-server-table';
 import { maintenanceListQuery, useMaintenanceList } from '@/features/equipment/api/inspections';
 import { DueBadge } from '@/features/equipment/components/inspections-panel';
 import { StateBadge } from '@/features/equipment/components/state-badge';
@@ -15,39 +13,30 @@ const column = createColumnHelper<MaintenanceItem>();
 const sortFields = ['dueAt', 'code', 'kind'] as const;
 const statusLabels = { failed: 'Failed', overdue: 'Past due', due_soon: 'Due soon' } as const;
 const inspectedKinds = ['keg', 'fermenter', 'co2_cylinder'] as const;
+const maintenanceText = { caption: 'Inspections due', empty: 'Nothing failed, past due or due soon.', noun: 'inspections' };
+const rowId = (r: MaintenanceItem) => `${r.equipment.id}-${r.kind}`;
+const columns = [
+  column.accessor((r) => r.equipment.code, {
+    id: 'code',
+    header: 'Item',
+    cell: ({ row }) => (
+      <Link to={`/cellar/${row.original.equipment.id}`} className="font-semibold whitespace-nowrap">
+        {row.original.equipment.code}
+      </Link>
+    ),
+  }),
+  column.display({ id: 'what', header: 'Kind', cell: ({ row }) => equipmentKindLabels[row.original.equipment.kind] }),
+  column.accessor('kind', { header: 'Inspection', cell: ({ getValue }) => inspectionKindLabels[getValue()] }),
+  column.accessor('dueAt', { header: 'Due', cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue(), 'failed')}</span> }),
+  column.accessor('status', { header: 'Status', enableSorting: false, cell: ({ getValue }) => <DueBadge due={{ status: getValue() }} /> }),
+  column.display({ id: 'state', header: 'State', cell: ({ row }) => <StateBadge state={row.original.equipment.state as never} /> }),
+];
 
 /** The maintenance list: inspections failed, past due or due soon, most urgent first; each row opens the item to record one. */
 const MaintenanceRoute = () => {
   useDocumentTitle('Maintenance · Cellar');
   const { query, setQuery } = useListQuery(maintenanceListQuery);
   const list = useMaintenanceList(query);
-  const columns = useMemo(
-    () => [
-      column.accessor((r) => r.equipment.code, {
-        id: 'code',
-        header: 'Item',
-        cell: ({ row }) => (
-          <Link to={`/cellar/${row.original.equipment.id}`} className="font-semibold whitespace-nowrap">
-            {row.original.equipment.code}
-          </Link>
-        ),
-      }),
-      column.display({ id: 'what', header: 'Kind', cell: ({ row }) => equipmentKindLabels[row.original.equipment.kind] }),
-      column.accessor('kind', { header: 'Inspection', cell: ({ getValue }) => inspectionKindLabels[getValue()] }),
-      column.accessor('dueAt', { header: 'Due', cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue(), 'failed')}</span> }),
-      column.accessor('status', { header: 'Status', enableSorting: false, cell: ({ getValue }) => <DueBadge due={{ status: getValue() }} /> }),
-      column.display({ id: 'state', header: 'State', cell: ({ row }) => <StateBadge state={row.original.equipment.state as never} /> }),
-    ],
-    [],
-  );
-  const table = useServerTable({
-    data: list.data,
-    columns,
-    query,
-    onQueryChange: setQuery,
-    sortFields,
-    getRowId: (r) => `${r.equipment.id}-${r.kind}`,
-  });
   return (
     <div className="flex flex-col gap-4">
       <nav className="text-sm">
@@ -82,15 +71,7 @@ const MaintenanceRoute = () => {
           className="w-[calc(50%-0.375rem)] sm:w-44"
         />
       </div>
-      <ListTable
-        table={table}
-        caption="Inspections due"
-        list={list}
-        query={query}
-        onQueryChange={setQuery}
-        empty="Nothing failed, past due or due soon."
-        noun="inspections"
-      />
+      <ListTable list={list} query={query} onQueryChange={setQuery} columns={columns} sortFields={sortFields} getRowId={rowId} {...maintenanceText} />
       <p className="text-xs text-ink-muted">
         Gas pressure can hurt: test only within the rating, with working relief valves. Local pressure-vessel codes and licensed testers come first.
       </p>
