@@ -2,7 +2,8 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { Link } from 'react-router-dom';
 import { equipmentKindLabels } from '../../../../shared/schemas/equipment.ts';
 import { inspectionKindLabels, maintenanceStatuses, type MaintenanceItem } from '../../../../shared/schemas/inspections.ts';
-import { FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
+import { PageHeader } from '@/components/layouts/page-header';
+import { ListTable, QueryFilter, useListQuery } from '@/components/list-kit';
 import { maintenanceListQuery, useMaintenanceList } from '@/features/equipment/api/inspections';
 import { DueBadge } from '@/features/equipment/components/inspections-panel';
 import { StateBadge } from '@/features/equipment/components/state-badge';
@@ -13,6 +14,12 @@ const column = createColumnHelper<MaintenanceItem>();
 const sortFields = ['dueAt', 'code', 'kind'] as const;
 const statusLabels = { failed: 'Failed', overdue: 'Past due', due_soon: 'Due soon' } as const;
 const inspectedKinds = ['keg', 'fermenter', 'co2_cylinder'] as const;
+const maintenanceIntro =
+  'Pressure tests, relief-valve checks, seals and cylinder tests that failed, are past due or fall due soon. An item past due or failed may not be filled, carbonated, booked or connected until a passing inspection is recorded on its page.';
+const maintenanceFilters = [
+  { name: 'status', label: 'Status', options: maintenanceStatuses, labels: statusLabels, anyLabel: 'All' },
+  { name: 'equipmentKind', label: 'Kind', options: inspectedKinds, labels: equipmentKindLabels, anyLabel: 'All kinds' },
+] as const;
 const maintenanceText = { caption: 'Inspections due', empty: 'Nothing failed, past due or due soon.', noun: 'inspections' };
 const rowId = (r: MaintenanceItem) => `${r.equipment.id}-${r.kind}`;
 const columns = [
@@ -39,37 +46,11 @@ const MaintenanceRoute = () => {
   const list = useMaintenanceList(query);
   return (
     <div className="flex flex-col gap-4">
-      <nav className="text-sm">
-        <Link to="/cellar">Cellar</Link> <span className="text-ink-faint">/</span> Maintenance
-      </nav>
-      <header>
-        <h1 className="text-2xl">Maintenance</h1>
-        <p className="mt-1 text-ink-muted">
-          Pressure tests, relief-valve checks, seals and cylinder tests that failed, are past due or fall due soon. An item past due or failed may not be
-          filled, carbonated, booked or connected until a passing inspection is recorded on its page.
-        </p>
-      </header>
+      <PageHeader parent={{ to: '/cellar', label: 'Cellar' }} title="Maintenance" intro={maintenanceIntro} />
       <div className="flex flex-wrap items-end gap-3">
-        <FilterSelect
-          label="Status"
-          muted
-          value={query.status}
-          onChange={(status) => setQuery({ status })}
-          options={maintenanceStatuses}
-          labels={statusLabels}
-          anyLabel="All"
-          className="w-[calc(50%-0.375rem)] sm:w-44"
-        />
-        <FilterSelect
-          label="Kind"
-          muted
-          value={query.equipmentKind}
-          onChange={(equipmentKind) => setQuery({ equipmentKind })}
-          options={inspectedKinds}
-          labels={equipmentKindLabels}
-          anyLabel="All kinds"
-          className="w-[calc(50%-0.375rem)] sm:w-44"
-        />
+        {maintenanceFilters.map((filter) => (
+          <QueryFilter key={filter.name} {...filter} query={query} onQueryChange={setQuery} muted className="w-[calc(50%-0.375rem)] sm:w-44" />
+        ))}
       </div>
       <ListTable list={list} query={query} onQueryChange={setQuery} columns={columns} sortFields={sortFields} getRowId={rowId} {...maintenanceText} />
       <p className="text-xs text-ink-muted">

@@ -1,7 +1,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { Link } from 'react-router-dom';
 import { kegSortFields, kegWhereabouts, kegWhereaboutsLabels, type KegView } from '../../../../shared/schemas/kegs.ts';
-import { Dash, dateCell, FilterGrid, FilterSelect, ListSearch, ListTable, useListQuery } from '@/components/list-kit';
+import { Dash, dateCell, FilterGrid, ListSearch, QueryFilter, ListTable, useListQuery } from '@/components/list-kit';
 import { kegListQuery, useKegs } from '@/features/kegs/api/kegs';
 import { FillGauge, Whereabouts } from '@/features/kegs/components/keg-bits';
 import { cellarPaths } from '@/config/cellar-paths';
@@ -61,14 +61,7 @@ const KegWhereaboutsRoute = () => {
   return (
     <div className="flex flex-col gap-3">
       <FilterGrid>
-        <FilterSelect
-          label="Where"
-          value={query.whereabouts}
-          onChange={(whereabouts) => setQuery({ whereabouts })}
-          options={kegWhereabouts}
-          labels={kegWhereaboutsLabels}
-          anyLabel="Anywhere"
-        />
+        <QueryFilter name="whereabouts" label="Where" options={kegWhereabouts} labels={kegWhereaboutsLabels} anyLabel="Anywhere" query={query} onQueryChange={setQuery} />
         <VesselStateFilter value={query.state} onChange={(state) => setQuery({ state })} anyLabel="Any state" />
         <ListSearch label="Find" query={query} onQueryChange={setQuery} placeholder="Keg code or batch" />
       </FilterGrid>

@@ -1,7 +1,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { sanitationStepLabels } from '../../../../shared/schemas/cellar-settings.ts';
 import { cycleOutcomes, sanitationCycleSortFields, type SanitationCycleView } from '../../../../shared/schemas/sanitation.ts';
-import { dateTimeCell, FilterGrid, FilterSelect, ListSearch, ListTable, useListQuery } from '@/components/list-kit';
+import { dateTimeCell, FilterGrid, ListSearch, QueryFilter, ListTable, useListQuery } from '@/components/list-kit';
 import { Badge } from '@/components/ui/badge';
 import { cycleListQuery, useCycles } from '@/features/sanitation/api/sanitation';
 import { VesselKindFilter } from '@/features/sanitation/components/vessel-kind-filter';
@@ -61,14 +61,7 @@ const SanitationLogRoute = () => {
   return (
     <div className="flex flex-col gap-3">
       <FilterGrid>
-        <FilterSelect
-          label="Outcome"
-          value={query.outcome}
-          onChange={(outcome) => setQuery({ outcome })}
-          options={cycleOutcomes}
-          labels={outcomeLabel}
-          anyLabel="Any"
-        />
+        <QueryFilter name="outcome" label="Outcome" options={cycleOutcomes} labels={outcomeLabel} anyLabel="Any" query={query} onQueryChange={setQuery} />
         <VesselKindFilter value={query.kind} onChange={(kind) => setQuery({ kind })} />
         <ListSearch label="Vessel" query={query} onQueryChange={setQuery} placeholder="Code or name" />
       </FilterGrid>

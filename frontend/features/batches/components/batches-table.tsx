@@ -2,7 +2,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { batchSortFields, batchStatusLabels, batchStatuses, type BatchListItem, type BatchListQuery } from '../../../../shared/schemas/batches.ts';
-import { dateCell, FilterSelect, ListSearch, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
+import { dateCell, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { Checkbox } from '@/components/ui/input';
 import { paths } from '@/config/paths';
@@ -25,16 +25,7 @@ export const BatchesToolbar = ({ query, onQueryChange, showMine, hasFilters, onC
     <form role="search" className="contents" onSubmit={(event) => event.preventDefault()}>
       <ListSearch label="Search" muted query={query} onQueryChange={onQueryChange} placeholder="Name, style or member" className="w-64" />
     </form>
-    <FilterSelect
-      label="Status"
-      muted
-      value={query.status}
-      onChange={(status) => onQueryChange({ status })}
-      options={batchStatuses}
-      labels={batchStatusLabels}
-      anyLabel="Any status"
-      selectClassName="w-44"
-    />
+    <QueryFilter name="status" label="Status" muted {...{ query, onQueryChange }} options={batchStatuses} labels={batchStatusLabels} anyLabel="Any status" selectClassName="w-44" />
     {showMine ? <Checkbox label="Only mine" checked={Boolean(query.mine)} onChange={(e) => onQueryChange({ mine: e.target.checked || undefined })} /> : null}
     {hasFilters ? (
       <Button variant="ghost" size="sm" onClick={onClearFilters}>

@@ -3,7 +3,7 @@ import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
 import { invoiceSortFields, invoiceStatuses, invoiceStatusLabels, type InvoiceListQuery, type InvoiceSummary } from '../../../../shared/schemas/billing.ts';
-import { Dash, dateCell, FilterField, FilterSelect, ListSearch, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
+import { Dash, dateCell, FilterField, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
 import { invoiceHref } from '@/config/paths';
@@ -53,10 +53,10 @@ export const InvoicesToolbar = ({
     <FilterField label="Period">
       <Input type="month" value={query.period ?? ''} onChange={(e) => onQueryChange({ period: e.target.value || undefined })} className="w-44" />
     </FilterField>
-    <FilterSelect
+    <QueryFilter
+      name="status"
       label="Status"
-      value={query.status}
-      onChange={(status) => onQueryChange({ status })}
+      {...{ query, onQueryChange }}
       options={invoiceStatuses}
       labels={invoiceStatusLabels}
       anyLabel="Any"
