@@ -26,3 +26,6 @@ export const dateTimeCell = ({ getValue }: ValueOf<When>) => <Time value={getVal
 
 /** A column of short text kept on one line (names, periods). */
 export const nowrapCell = ({ getValue }: ValueOf<ReactNode>) => <span className="whitespace-nowrap">{getValue()}</span>;
+
+/** A column of figures (volumes, gravities, money), aligned right. */
+export const figureMeta = { className: 'text-right' };

@@ -25,5 +25,5 @@ export {
 export { ListPager, ListTable, type ListProps, type ListResult, type ListTableProps } from './list-table';
 export { pageQueryOptions } from './page-query';
 export { useListTable, type ListColumns, type UseListTableOptions } from './use-list-table';
-export { Dash, Time, dateCell, dateTimeCell, nowrapCell } from './cells';
-export { EmptyRow, figureHead, hiddenHead, TableHead, type HeadCell, type TableHeadProps } from './table-head';
+export { Dash, Time, dateCell, dateTimeCell, figureMeta, nowrapCell } from './cells';
+export { EmptyRow, figureHead, hiddenHead, TableHead, type HeadCell, type LabelledHead, type TableHeadProps } from './table-head';

@@ -2,13 +2,18 @@ import type { ReactNode } from 'react';
 import { cn } from '@/utils/cn';
 
 /** A column heading: its text, or its text with classes of its own (alignment, hidden on a phone). */
-export type HeadCell = string | { label: ReactNode; className?: string; key?: string };
+export type HeadCell = string | LabelledHead;
+export interface LabelledHead {
+  label: ReactNode;
+  className?: string;
+  key?: string;
+}
 
 /** A heading aligned with a column of figures. */
-export const figureHead = (label: string, className?: string): HeadCell => ({ label, className: cn('text-right', className) });
+export const figureHead = (label: string, className?: string): LabelledHead => ({ label, className: cn('text-right', className) });
 
 /** A heading for a column of buttons, read out but not shown. */
-export const hiddenHead = (label: string): HeadCell => ({ label: <span className="sr-only">{label}</span>, key: label });
+export const hiddenHead = (label: string): LabelledHead => ({ label: <span className="sr-only">{label}</span>, key: label });
 
 export interface TableHeadProps {
   cells: readonly HeadCell[];

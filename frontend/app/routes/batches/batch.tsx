@@ -7,7 +7,7 @@ import { Button, ButtonLink } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { useBatch } from '@/features/batches/api/get-batch';
 import { useUpdateBatch } from '@/features/batches/api/save-batch';
 import { BatchFigures, StableSignal } from '@/features/batches/components/batch-figures';
@@ -63,7 +63,7 @@ const BatchRoute = () => {
   return (
     <div className="flex flex-col gap-5">
       <PageHeader
-        parent={{ to: paths.batches, label: 'Batches' }}
+        parent={parentPages.batches}
         title={batch.name}
         badge={<BatchStatusBadge status={batch.status} />}
         intro={

@@ -6,7 +6,7 @@ import { Alert } from '@/components/ui/alert';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { productionRecordsExportHref, useProductionRecords } from '@/features/batches/api/get-production-records';
 import { formatPercent, formatSg } from '@/features/batches/components/gravity-format';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -23,6 +23,7 @@ const month = (offset: number) => {
   const d = new Date();
   return new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + offset, 1)).toISOString().slice(0, 7);
 };
+const recordsIntro = "Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch.";
 const exportsOf = (from: string, to: string) => [
   { label: 'Export CSV', href: productionRecordsExportHref(from, to, 'csv') },
   { label: 'Export XLSX', href: productionRecordsExportHref(from, to, 'xlsx') },
@@ -45,9 +46,9 @@ const ProductionRecordsRoute = () => {
   return (
     <div className="flex flex-col gap-4">
       <PageHeader
-        parent={{ to: paths.batches, label: 'Batches' }}
+        parent={parentPages.batches}
         title="Production records"
-        intro="Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch."
+        intro={recordsIntro}
         report
         downloads={canExport && valid ? exportsOf(from, to) : []}
       />

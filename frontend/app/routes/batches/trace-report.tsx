@@ -5,7 +5,7 @@ import { Alert } from '@/components/ui/alert';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { traceReportHref, useTraceReport } from '@/features/batches/api/get-trace';
 import { TraceFacts, TraceTable } from '@/features/batches/components/trace-view';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -25,7 +25,7 @@ const TraceReportRoute = () => {
   return (
     <div className="flex flex-col gap-4">
       <PageHeader
-        parent={{ to: paths.batches, label: 'Batches' }}
+        parent={parentPages.batches}
         title="Trace report"
         intro="Every keg filled in the range, by batch: where each is now, who has it and which tap served it."
         report

@@ -50,7 +50,15 @@ const CellarRoute = () => {
       {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={onCreated} /> : null}
       <div className="flex flex-wrap items-end gap-3">
         <ListSearch label="Search" muted fieldClassName="w-full sm:w-56" query={query} onQueryChange={setQuery} placeholder="Code, name or notes" />
-        <QueryFilter name="kind" label="Kind" options={equipmentKinds} labels={equipmentKindLabels} anyLabel="All kinds" {...halfWidthFilter} {...{ query, onQueryChange: setQuery }} />
+        <QueryFilter
+          name="kind"
+          label="Kind"
+          options={equipmentKinds}
+          labels={equipmentKindLabels}
+          anyLabel="All kinds"
+          {...halfWidthFilter}
+          {...{ query, onQueryChange: setQuery }}
+        />
         <VesselStateFilter value={query.state} onChange={(state) => setQuery({ state })} anyLabel="All states" {...halfWidthFilter} />
         <div className="ml-auto flex items-center gap-2">
           {selected.length ? (

@@ -6,6 +6,7 @@ import { PageHeader, QueryFallback } from '@/components/layouts/page-header';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
+import { parentPages } from '@/config/paths';
 import { useEquipment } from '@/features/equipment/api/get-equipment';
 import { labelSheetHref } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentEditDialog } from '@/features/equipment/components/equipment-edit-dialog';
@@ -66,7 +67,7 @@ const EquipmentRoute = () => {
   return (
     <div className="flex flex-col gap-5">
       <PageHeader
-        parent={{ to: '/cellar', label: 'Cellar' }}
+        parent={parentPages.cellar}
         title={item.code}
         badge={<StateBadge state={item.state} />}
         intro={[item.name, equipmentKindLabels[item.kind], item.capacityLiters ? units.volume(item.capacityLiters) : ''].filter(Boolean).join(' · ')}

@@ -4,6 +4,7 @@ import { equipmentKindLabels } from '../../../../shared/schemas/equipment.ts';
 import { inspectionKindLabels, maintenanceStatuses, type MaintenanceItem } from '../../../../shared/schemas/inspections.ts';
 import { PageHeader } from '@/components/layouts/page-header';
 import { ListTable, QueryFilter, useListQuery } from '@/components/list-kit';
+import { parentPages } from '@/config/paths';
 import { maintenanceListQuery, useMaintenanceList } from '@/features/equipment/api/inspections';
 import { DueBadge } from '@/features/equipment/components/inspections-panel';
 import { StateBadge } from '@/features/equipment/components/state-badge';
@@ -46,7 +47,7 @@ const MaintenanceRoute = () => {
   const list = useMaintenanceList(query);
   return (
     <div className="flex flex-col gap-4">
-      <PageHeader parent={{ to: '/cellar', label: 'Cellar' }} title="Maintenance" intro={maintenanceIntro} />
+      <PageHeader parent={parentPages.cellar} title="Maintenance" intro={maintenanceIntro} />
       <div className="flex flex-wrap items-end gap-3">
         {maintenanceFilters.map((filter) => (
           <QueryFilter key={filter.name} {...filter} query={query} onQueryChange={setQuery} muted className="w-[calc(50%-0.375rem)] sm:w-44" />

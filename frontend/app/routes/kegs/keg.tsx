@@ -7,6 +7,7 @@ import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
 import { useNotice } from '@/components/ui/notice';
 import { Spinner } from '@/components/ui/spinner';
+import { parentPages } from '@/config/paths';
 import { useKeg, useKegHistory } from '@/features/kegs/api/kegs';
 import { usePlanAction } from '@/features/carbonation/api/carbonation';
 import { Cautions } from '@/components/safety/cautions';
@@ -59,7 +60,7 @@ const KegRoute = () => {
   return (
     <div className="flex flex-col gap-5">
       <PageHeader
-        parent={{ to: cellarPaths.kegs, label: 'Kegs' }}
+        parent={parentPages.kegs}
         title={k.code}
         badge={<StateBadge state={k.state} />}
         intro={[k.name, k.capacityLiters ? units.volume(k.capacityLiters) : '', k.lock ? `${k.lock} lock` : '', k.serial ? `serial ${k.serial}` : '']

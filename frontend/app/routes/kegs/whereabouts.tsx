@@ -61,7 +61,15 @@ const KegWhereaboutsRoute = () => {
   return (
     <div className="flex flex-col gap-3">
       <FilterGrid>
-        <QueryFilter name="whereabouts" label="Where" options={kegWhereabouts} labels={kegWhereaboutsLabels} anyLabel="Anywhere" query={query} onQueryChange={setQuery} />
+        <QueryFilter
+          name="whereabouts"
+          label="Where"
+          options={kegWhereabouts}
+          labels={kegWhereaboutsLabels}
+          anyLabel="Anywhere"
+          query={query}
+          onQueryChange={setQuery}
+        />
         <VesselStateFilter value={query.state} onChange={(state) => setQuery({ state })} anyLabel="Any state" />
         <ListSearch label="Find" query={query} onQueryChange={setQuery} placeholder="Keg code or batch" />
       </FilterGrid>

@@ -2,7 +2,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { batchSortFields, batchStatusLabels, batchStatuses, type BatchListItem, type BatchListQuery } from '../../../../shared/schemas/batches.ts';
-import { dateCell, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
+import { dateCell, figureMeta, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { Checkbox } from '@/components/ui/input';
 import { paths } from '@/config/paths';
@@ -12,6 +12,7 @@ import { useUnits } from '@/hooks/use-units';
 import { formatDateTime } from '@/utils/format';
 
 const column = createColumnHelper<BatchListItem>();
+const sgCell = ({ getValue }: { getValue: () => number | null }) => <span className="tabular-nums">{formatSg(getValue())}</span>;
 
 export interface BatchesToolbarProps extends Pick<ListProps<BatchListItem, BatchListQuery>, 'query' | 'onQueryChange'> {
   hasFilters: boolean;
@@ -25,7 +26,16 @@ export const BatchesToolbar = ({ query, onQueryChange, showMine, hasFilters, onC
     <form role="search" className="contents" onSubmit={(event) => event.preventDefault()}>
       <ListSearch label="Search" muted query={query} onQueryChange={onQueryChange} placeholder="Name, style or member" className="w-64" />
     </form>
-    <QueryFilter name="status" label="Status" muted {...{ query, onQueryChange }} options={batchStatuses} labels={batchStatusLabels} anyLabel="Any status" selectClassName="w-44" />
+    <QueryFilter
+      name="status"
+      label="Status"
+      muted
+      {...{ query, onQueryChange }}
+      options={batchStatuses}
+      labels={batchStatusLabels}
+      anyLabel="Any status"
+      selectClassName="w-44"
+    />
     {showMine ? <Checkbox label="Only mine" checked={Boolean(query.mine)} onChange={(e) => onQueryChange({ mine: e.target.checked || undefined })} /> : null}
     {hasFilters ? (
       <Button variant="ghost" size="sm" onClick={onClearFilters}>
@@ -59,20 +69,10 @@ export const BatchesTable = ({ query, list, showOwner, onQueryChange }: BatchesT
       column.accessor('volumeLiters', {
         header: 'Volume',
         cell: ({ getValue }) => <span className="whitespace-nowrap tabular-nums">{units.volume(getValue())}</span>,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
-      column.accessor('og', {
-        header: 'OG',
-        enableSorting: false,
-        cell: ({ getValue }) => <span className="tabular-nums">{formatSg(getValue())}</span>,
-        meta: { className: 'text-right' },
-      }),
-      column.accessor('currentGravity', {
-        header: 'Now',
-        enableSorting: false,
-        cell: ({ getValue }) => <span className="tabular-nums">{formatSg(getValue())}</span>,
-        meta: { className: 'text-right' },
-      }),
+      column.accessor('og', { header: 'OG', enableSorting: false, cell: sgCell, meta: figureMeta }),
+      column.accessor('currentGravity', { header: 'Now', enableSorting: false, cell: sgCell, meta: figureMeta }),
       column.accessor('lastReadingAt', {
         header: 'Last reading',
         sortDescFirst: true,

@@ -2,7 +2,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { z } from 'zod';
 import { useMemo, useState } from 'react';
 import { gravityUnitLabels, readingSortFields, type BatchDetail, type ReadingDto } from '../../../../shared/schemas/batches.ts';
-import { applyListPatch, defineListQuery, ListTable, pagingQuerySchema, type ListPatch } from '@/components/list-kit';
+import { applyListPatch, defineListQuery, figureMeta, ListTable, pagingQuerySchema, type ListPatch } from '@/components/list-kit';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
@@ -45,7 +45,7 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
             ) : null}
           </span>
         ),
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
       column.display({
         id: 'entered',
@@ -67,7 +67,7 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
       column.accessor('temperatureC', {
         header: 'Temp.',
         cell: ({ getValue }) => <span className="whitespace-nowrap tabular-nums">{units.temperature(getValue())}</span>,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
       column.accessor('source', {
         header: 'Source',

@@ -3,7 +3,7 @@ import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
 import { invoiceSortFields, invoiceStatuses, invoiceStatusLabels, type InvoiceListQuery, type InvoiceSummary } from '../../../../shared/schemas/billing.ts';
-import { Dash, dateCell, FilterField, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
+import { Dash, dateCell, figureMeta, FilterField, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
 import { invoiceHref } from '@/config/paths';
@@ -104,7 +104,7 @@ export const InvoicesTable = ({ query, list, hasFilters, onQueryChange, hrefFor,
         header: 'Total',
         sortDescFirst: true,
         cell: ({ row }) => <Money cents={row.original.totalCents} currency={row.original.currency} />,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
       column.accessor('amountDueCents', {
         id: 'amountDue',
@@ -112,7 +112,7 @@ export const InvoicesTable = ({ query, list, hasFilters, onQueryChange, hrefFor,
         sortDescFirst: true,
         cell: ({ row }) =>
           row.original.status === 'issued' ? <Money cents={row.original.amountDueCents} currency={row.original.currency} className="font-medium" /> : <Dash />,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
     ],
     [hrefFor, own],
