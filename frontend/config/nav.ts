@@ -1,4 +1,4 @@
-import type { AppAbility } from '../../shared/permissions/ability.ts';
+import type { AppAbility, SubjectName } from '../../shared/permissions/ability.ts';
 import { paths } from '@/config/paths';
 import { canOnEvery } from '@/lib/ability';
 
@@ -16,61 +16,44 @@ export interface NavEntry {
   children?: NavEntry[];
 }
 
+type Allowed = NavEntry['allowed'];
+type More = Pick<NavEntry, 'end' | 'children'>;
+/** An entry that is built and usable, with what else it needs (`end`, `children`). */
+const entry = (key: string, label: string, to: string, allowed: Allowed, more: More = {}): NavEntry => ({ key, label, to, ready: true, allowed, ...more });
+/** Whoever may read this kind of record. */
+const reads =
+  (name: SubjectName): Allowed =>
+  (a) =>
+    a.can('read', name);
+
 /**
  * The main navigation, in its fixed order. Members is for whoever may update every User without
  * conditions (the admin): a member or brewer may update only themself, so `can('update', 'User')`
  * alone would be true for them too. The Outbox is the development mailbox (admin: `read Mailbox`).
  */
 export const mainNav: NavEntry[] = [
-  { key: 'today', label: 'Today', to: paths.today, ready: true, end: true, allowed: () => true },
-  { key: 'cellar', label: 'Cellar', to: paths.cellar, ready: true, allowed: (a) => a.can('read', 'Equipment') },
-  { key: 'bookings', label: 'Bookings', to: paths.bookings, ready: true, allowed: (a) => a.can('read', 'Booking') },
-  {
-    key: 'batches',
-    label: 'Batches',
-    to: paths.batches,
-    ready: true,
-    allowed: (a) => a.can('read', 'Batch'),
+  entry('today', 'Today', paths.today, () => true, { end: true }),
+  entry('cellar', 'Cellar', paths.cellar, reads('Equipment')),
+  entry('bookings', 'Bookings', paths.bookings, reads('Booking')),
+  entry('batches', 'Batches', paths.batches, reads('Batch'), {
     children: [
-      {
-        key: 'production-records',
-        label: 'Production records',
-        to: paths.productionRecords,
-        ready: true,
-        allowed: (a) => a.can('read', 'ProductionRecord'),
-      },
-      { key: 'trace-report', label: 'Trace report', to: paths.traceReport, ready: true, allowed: (a) => a.can('read', 'Batch') },
+      entry('production-records', 'Production records', paths.productionRecords, reads('ProductionRecord')),
+      entry('trace-report', 'Trace report', paths.traceReport, reads('Batch')),
     ],
-  },
-  { key: 'kegs', label: 'Kegs', to: paths.kegs, ready: true, allowed: (a) => a.can('read', 'Keg') },
-  {
-    key: 'sanitation',
-    label: 'Sanitation',
-    to: paths.sanitation,
-    ready: true,
-    allowed: (a) => a.can('read', 'SanitationCycle'),
-  },
-  { key: 'billing', label: 'Billing', to: paths.billing, ready: true, allowed: (a) => a.can('read', 'Invoice') },
-  {
-    key: 'members',
-    label: 'Members',
-    to: paths.members,
-    ready: true,
+  }),
+  entry('kegs', 'Kegs', paths.kegs, reads('Keg')),
+  entry('sanitation', 'Sanitation', paths.sanitation, reads('SanitationCycle')),
+  entry('billing', 'Billing', paths.billing, reads('Invoice')),
+  entry('members', 'Members', paths.members, (a) => canOnEvery(a, 'update', 'User'), {
     end: true,
-    allowed: (a) => canOnEvery(a, 'update', 'User'),
-    children: [{ key: 'outbox', label: 'Outbox', to: paths.outbox, ready: true, allowed: (a) => a.can('read', 'Mailbox') }],
-  },
-  {
-    key: 'settings',
-    label: 'Settings',
-    to: paths.settings,
-    ready: true,
-    allowed: (a) => a.can('update', 'Setting'),
-    children: [{ key: 'audit', label: 'Audit trail', to: paths.audit, ready: true, allowed: (a) => a.can('read', 'AuditLog') }],
-  },
+    children: [entry('outbox', 'Outbox', paths.outbox, reads('Mailbox'))],
+  }),
+  entry('settings', 'Settings', paths.settings, (a) => a.can('update', 'Setting'), {
+    children: [entry('audit', 'Audit trail', paths.audit, reads('AuditLog'))],
+  }),
 ];
 
-export const accountNav: NavEntry[] = [{ key: 'profile', label: 'Profile', to: paths.profile, ready: true, allowed: () => true }];
+export const accountNav: NavEntry[] = [entry('profile', 'Profile', paths.profile, () => true)];
 
 /** The entries a person sees: ready, allowed, and (for the outbox) available on this server. */
 export function visibleNav(entries: NavEntry[], ability: AppAbility, hidden: ReadonlySet<string> = new Set()): NavEntry[] {

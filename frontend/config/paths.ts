@@ -34,3 +34,10 @@ export function loginHref(next?: string): string {
   if (!next || next === paths.today) return paths.login;
   return `${paths.login}?${new URLSearchParams({ next })}`;
 }
+
+/** The pages a detail or report page sits under: the crumb back above its title. */
+export const parentPages = {
+  batches: { to: paths.batches, label: 'Batches' },
+  cellar: { to: paths.cellar, label: 'Cellar' },
+  kegs: { to: paths.kegs, label: 'Kegs' },
+} as const;

@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import { RoleBadges } from '@/components/role-badges';
 import { Alert } from '@/components/ui/alert';
@@ -10,6 +11,16 @@ import { useDocumentTitle } from '@/hooks/use-document-title';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
 import { useSessionUser } from '@/lib/auth';
 import { greetingFor } from '@/utils/format';
+
+/** One role's part of the day, under its heading. */
+const Section = ({ id, title, content }: { id: string; title: string; content: ReactNode }) => (
+  <section aria-labelledby={id} className="flex flex-col gap-3">
+    <h2 id={id} className="text-base">
+      {title}
+    </h2>
+    {content}
+  </section>
+);
 
 /** What needs doing today, for each role the person holds. */
 const TodayRoute = () => {
@@ -35,30 +46,9 @@ const TodayRoute = () => {
       {today.isPending ? <Spinner label="Loading today’s list" /> : null}
       {today.isError ? <Alert tone="error">Today’s list could not be loaded: {today.error.message}</Alert> : null}
 
-      {today.data?.cellar ? (
-        <section aria-labelledby="today-cellar" className="flex flex-col gap-3">
-          <h2 id="today-cellar" className="text-base">
-            The cellar round
-          </h2>
-          <CellarToday section={today.data.cellar} />
-        </section>
-      ) : null}
-      {today.data?.money ? (
-        <section aria-labelledby="today-money" className="flex flex-col gap-3">
-          <h2 id="today-money" className="text-base">
-            The books
-          </h2>
-          <MoneyToday section={today.data.money} />
-        </section>
-      ) : null}
-      {today.data?.member ? (
-        <section aria-labelledby="today-member" className="flex flex-col gap-3">
-          <h2 id="today-member" className="text-base">
-            Your brewing
-          </h2>
-          <MemberToday section={today.data.member} />
-        </section>
-      ) : null}
+      {today.data?.cellar ? <Section id="today-cellar" title="The cellar round" content={<CellarToday section={today.data.cellar} />} /> : null}
+      {today.data?.money ? <Section id="today-money" title="The books" content={<MoneyToday section={today.data.money} />} /> : null}
+      {today.data?.member ? <Section id="today-member" title="Your brewing" content={<MemberToday section={today.data.member} />} /> : null}
       {canOnEvery(ability, 'update', 'User') ? (
         <section aria-labelledby="today-admin" className="flex flex-col gap-2">
           <h2 id="today-admin" className="text-base">

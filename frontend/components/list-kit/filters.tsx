@@ -1,6 +1,6 @@
 import type { KeyboardEvent, ReactNode } from 'react';
 import { useDebouncedSearch } from '@/components/list-kit/use-debounced-search';
-import type { SetListQueryOptions } from '@/components/list-kit/list-query';
+import type { ListPatch, SetListQueryOptions } from '@/components/list-kit/list-query';
 import { Input, Select, type InputProps } from '@/components/ui/input';
 import { cn } from '@/utils/cn';
 
@@ -95,5 +95,36 @@ export const FilterSelect = <V extends string>({
   );
 };
 
+export interface QueryFilterProps<Q> extends Omit<FilterSelectProps<string>, 'value' | 'onChange'> {
+  /** The key of the list's query the filter sets. */
+  name: keyof Q & string;
+  query: Q;
+  onQueryChange: (patch: ListPatch<Q>) => void;
+}
+
+/**
+ * A `FilterSelect` bound to one key of the list's query, so a screen declares each filter once as
+ * data (name, label, options, labels) beside its columns.
+ */
+export const QueryFilter = <Q,>({ name, query, onQueryChange, ...select }: QueryFilterProps<Q>) => (
+  <FilterSelect {...select} value={query[name] as string | undefined} onChange={(value) => onQueryChange({ [name]: value } as ListPatch<Q>)} />
+);
+
 /** The row of filters above a cellar list: two choices and a search. */
 export const FilterGrid = ({ children }: { children: ReactNode }) => <div className="grid gap-2 sm:grid-cols-[12rem_12rem_1fr]">{children}</div>;
+
+export interface ListSearchProps extends Omit<SearchInputProps, 'value' | 'onSearch'> {
+  label: ReactNode;
+  muted?: boolean;
+  /** Classes for the label around the box. */
+  fieldClassName?: string;
+  query: { q?: string | undefined };
+  onQueryChange: (patch: { q: string | undefined }, options: SetListQueryOptions) => void;
+}
+
+/** A list's search box under its label, bound to the list's `q`. */
+export const ListSearch = ({ label, muted, fieldClassName, query, onQueryChange, ...input }: ListSearchProps) => (
+  <FilterField label={label} muted={muted} className={fieldClassName}>
+    <SearchInput {...input} value={query.q} onSearch={(q, options) => onQueryChange({ q }, options)} />
+  </FilterField>
+);

@@ -1,5 +1,6 @@
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { ListPatch, ListState, SetListQueryOptions } from '@/components/list-kit/list-query';
+import { useListTable, type UseListTableOptions } from '@/components/list-kit/use-list-table';
 import { DataTable, DataTablePagination, type DataTableProps } from '@/components/ui/data-table';
 
 /** What a list screen needs of its query's result (TanStack Query's `useQuery` gives it). */
@@ -43,13 +44,31 @@ export const ListPager = ({ list, query, onQueryChange, noun, pageSizes = [25, 5
   />
 );
 
-export type ListTableProps<T> = Omit<DataTableProps<T>, 'isLoading' | 'isFetching' | 'error' | 'onRetry'> &
-  Omit<ListPagerProps, 'list'> & { list: ListResult<T> };
+export type ListTableProps<T, Q extends ListState> = Omit<DataTableProps<T>, 'table' | 'isLoading' | 'isFetching' | 'error' | 'onRetry'> &
+  Omit<UseListTableOptions<T, Q>, 'data'> &
+  Omit<ListPagerProps, 'list' | 'query' | 'onQueryChange'> & { list: ListResult<T> };
 
-/** A server-sorted, paged table with its pager: loading, failure with Retry, empty text and counts in one place. */
-export const ListTable = <T,>({ list, query, onQueryChange, noun, pageSizes, ...table }: ListTableProps<T>) => (
-  <div className="flex flex-col gap-3">
-    <DataTable {...table} isLoading={list.isPending} error={list.error} onRetry={() => void list.refetch()} isFetching={list.isFetching} />
-    <ListPager list={list} query={query} onQueryChange={onQueryChange} noun={noun} pageSizes={pageSizes} />
-  </div>
-);
+/**
+ * A server-sorted, paged table with its pager, from TanStack column definitions: loading, failure
+ * with Retry, empty text and counts in one place.
+ */
+export const ListTable = <T, Q extends ListState>({
+  list,
+  query,
+  onQueryChange,
+  columns,
+  sortFields,
+  getRowId,
+  tableOptions,
+  noun,
+  pageSizes,
+  ...shown
+}: ListTableProps<T, Q>) => {
+  const table = useListTable({ data: list.data, columns, query, onQueryChange, sortFields, getRowId, tableOptions });
+  return (
+    <div className="flex flex-col gap-3">
+      <DataTable {...shown} table={table} isLoading={list.isPending} error={list.error} onRetry={() => void list.refetch()} isFetching={list.isFetching} />
+      <ListPager list={list} query={query} onQueryChange={(patch) => onQueryChange(patch as ListPatch<Q>)} noun={noun} pageSizes={pageSizes} />
+    </div>
+  );
+};

@@ -5,10 +5,9 @@ import { z } from 'zod';
 import { auditSortFields, auditSubjectTypes, type AuditChange, type AuditEntry } from '../../../../shared/schemas/audit.ts';
 import { defaultPageSize, maxPageSize } from '../../../../shared/schemas/pagination.ts';
 import { Forbidden } from '@/components/errors/forbidden';
-import { defineListQuery, FilterField, FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
+import { dateTimeCell, defineListQuery, FilterField, FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
-import { useServerTable } from '@/components/ui/use-server-table';
 import { paths, invoiceHref } from '@/config/paths';
 import { useAuditTrail } from '@/features/audit/api/get-audit';
 import { cellarPaths } from '@/config/cellar-paths';
@@ -99,6 +98,7 @@ const Changes = ({ changes }: { changes: AuditChange[] }) =>
   );
 
 const column = createColumnHelper<AuditEntry>();
+const auditText = { caption: 'Audit trail', noun: ['change', 'changes'] as const };
 
 /** The audit trail: who changed what and when, before and after; filtered, sorted and paged on the server. */
 const AuditRoute = () => {
@@ -125,11 +125,7 @@ const AuditRoute = () => {
 
   const columns = useMemo(
     () => [
-      column.accessor('at', {
-        header: 'When',
-        sortDescFirst: true,
-        cell: ({ getValue }) => <time className="whitespace-nowrap">{formatDateTime(getValue())}</time>,
-      }),
+      column.accessor('at', { header: 'When', sortDescFirst: true, cell: dateTimeCell }),
       column.accessor((e) => e.actorName ?? '', {
         id: 'actor',
         header: 'Who',
@@ -168,9 +164,9 @@ const AuditRoute = () => {
     ],
     [setQuery],
   );
-  const table = useServerTable({ data: trail.data, columns, query, onQueryChange: setQuery, sortFields: auditSortFields, getRowId: (e) => e.id });
 
   if (!allowed) return <Forbidden what="the audit trail" />;
+  const emptyText = filtered ? 'Nothing matches these filters.' : 'Nothing recorded yet.';
   return (
     <div className="flex flex-col gap-4">
       <header>
@@ -225,15 +221,7 @@ const AuditRoute = () => {
           </Button>
         </div>
       ) : null}
-      <ListTable
-        table={table}
-        caption="Audit trail"
-        list={trail}
-        query={query}
-        onQueryChange={setQuery}
-        empty={filtered ? 'Nothing matches these filters.' : 'Nothing recorded yet.'}
-        noun={['change', 'changes']}
-      />
+      <ListTable list={trail} query={query} onQueryChange={setQuery} columns={columns} sortFields={auditSortFields} empty={emptyText} {...auditText} />
     </div>
   );
 };

@@ -1,13 +1,13 @@
 import { useState } from 'react';
-import { Link, useLocation, useParams } from 'react-router-dom';
+import { useLocation, useParams } from 'react-router-dom';
 import { batchStatusLabels, nextBatchStatuses, type BatchStatus } from '../../../../shared/schemas/batches.ts';
+import { PageHeader, QueryFallback } from '@/components/layouts/page-header';
 import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { PageLoader } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { useBatch } from '@/features/batches/api/get-batch';
 import { useUpdateBatch } from '@/features/batches/api/save-batch';
 import { BatchFigures, StableSignal } from '@/features/batches/components/batch-figures';
@@ -47,13 +47,7 @@ const BatchRoute = () => {
   const imported = (location.state as { imported?: number; skipped?: number } | null) ?? null;
   useDocumentTitle(detail.data ? `${detail.data.name} · Batches` : 'Batches');
 
-  if (detail.isPending) return <PageLoader />;
-  if (detail.isError)
-    return (
-      <Alert tone="error" title="This batch could not be shown">
-        {problemMessage(detail.error)}
-      </Alert>
-    );
+  if (detail.isPending || detail.isError) return <QueryFallback query={detail} what="batch" />;
   const batch = detail.data;
   const next = batch.can.update ? nextBatchStatuses[batch.status] : [];
 
@@ -68,49 +62,49 @@ const BatchRoute = () => {
 
   return (
     <div className="flex flex-col gap-5">
-      <nav className="text-sm">
-        <Link to={paths.batches}>Batches</Link> <span className="text-ink-faint">/</span> {batch.name}
-      </nav>
-      <header className="flex flex-wrap items-start justify-between gap-3">
-        <div>
-          <h1 className="flex flex-wrap items-center gap-3 text-2xl">
-            {batch.name} <BatchStatusBadge status={batch.status} />
-          </h1>
-          <p className="mt-1 text-ink-muted">
+      <PageHeader
+        parent={parentPages.batches}
+        title={batch.name}
+        badge={<BatchStatusBadge status={batch.status} />}
+        intro={
+          <>
             {[batch.style, units.volume(batch.volumeLiters), batch.ownerName].filter(Boolean).join(' · ')}
             {batch.bookings.length
               ? ` · in ${batch.bookings.map((b) => `${b.equipmentCode} (${formatDate(b.startsAt)} – ${formatDate(b.endsAt)})`).join(', ')}`
               : ''}
+          </>
+        }
+        actions={
+          <div className="flex flex-wrap gap-2">
+            {(batch.status === 'fermenting' || batch.status === 'conditioning') && ability.can('create', 'Transfer') ? (
+              <ButtonLink to={cellarPaths.newTransfer({ batchId: batch.id })}>Transfer to kegs</ButtonLink>
+            ) : null}
+            {batch.can.addReading ? <Button onClick={() => setAdding(true)}>Add a reading</Button> : null}
+            {batch.can.importReadings ? (
+              <ButtonLink to={`${paths.batches}/${batch.id}/import`} variant="secondary">
+                Import readings
+              </ButtonLink>
+            ) : null}
+            {batch.can.update ? (
+              <Button variant="secondary" onClick={() => setEditing(true)}>
+                Edit
+              </Button>
+            ) : null}
+            {next.map((s) => (
+              <Button key={s} variant="ghost" onClick={() => changeStatus(s)} pending={update.isPending && update.variables?.status === s}>
+                {actionLabels[s] ?? batchStatusLabels[s]}
+              </Button>
+            ))}
+          </div>
+        }
+      >
+        {batch.packagedAt ? (
+          <p className="text-sm text-ink-muted">
+            Packaged {formatDateTime(batch.packagedAt)}
+            {batch.packagedLiters !== null ? `: ${units.volume(batch.packagedLiters)}` : ''}
           </p>
-          {batch.packagedAt ? (
-            <p className="text-sm text-ink-muted">
-              Packaged {formatDateTime(batch.packagedAt)}
-              {batch.packagedLiters !== null ? `: ${units.volume(batch.packagedLiters)}` : ''}
-            </p>
-          ) : null}
-        </div>
-        <div className="flex flex-wrap gap-2">
-          {(batch.status === 'fermenting' || batch.status === 'conditioning') && ability.can('create', 'Transfer') ? (
-            <ButtonLink to={cellarPaths.newTransfer({ batchId: batch.id })}>Transfer to kegs</ButtonLink>
-          ) : null}
-          {batch.can.addReading ? <Button onClick={() => setAdding(true)}>Add a reading</Button> : null}
-          {batch.can.importReadings ? (
-            <ButtonLink to={`${paths.batches}/${batch.id}/import`} variant="secondary">
-              Import readings
-            </ButtonLink>
-          ) : null}
-          {batch.can.update ? (
-            <Button variant="secondary" onClick={() => setEditing(true)}>
-              Edit
-            </Button>
-          ) : null}
-          {next.map((s) => (
-            <Button key={s} variant="ghost" onClick={() => changeStatus(s)} pending={update.isPending && update.variables?.status === s}>
-              {actionLabels[s] ?? batchStatusLabels[s]}
-            </Button>
-          ))}
-        </div>
-      </header>
+        ) : null}
+      </PageHeader>
       {update.isError && !closing ? <Alert tone="error">{problemMessage(update.error)}</Alert> : null}
       {typeof imported?.imported === 'number' ? (
         <Alert tone="success">

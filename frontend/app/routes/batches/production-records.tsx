@@ -1,11 +1,12 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
+import { PageHeader } from '@/components/layouts/page-header';
+import { EmptyRow, figureHead, TableHead } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
-import { buttonClasses } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { productionRecordsExportHref, useProductionRecords } from '@/features/batches/api/get-production-records';
 import { formatPercent, formatSg } from '@/features/batches/components/gravity-format';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -22,7 +23,13 @@ const month = (offset: number) => {
   const d = new Date();
   return new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + offset, 1)).toISOString().slice(0, 7);
 };
+const recordsIntro = "Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch.";
+const exportsOf = (from: string, to: string) => [
+  { label: 'Export CSV', href: productionRecordsExportHref(from, to, 'csv') },
+  { label: 'Export XLSX', href: productionRecordsExportHref(from, to, 'xlsx') },
+];
 const bbl = (v: number) => v.toFixed(3);
+const batchHead = ['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US bbl', 'OG', 'FG', `ABV (${abvMethod.name})`];
 const monthLabel = (m: string) => formatMonth(m);
 
 /** Volumes packaged and ABV per batch and month, in litres and US barrels, for the records licensing and excise rules ask for. */
@@ -38,27 +45,13 @@ const ProductionRecordsRoute = () => {
   const data = records.data;
   return (
     <div className="flex flex-col gap-4">
-      <nav className="text-sm">
-        <Link to={paths.batches}>Batches</Link> <span className="text-ink-faint">/</span> Production records
-      </nav>
-      <header className="flex flex-wrap items-end justify-between gap-3">
-        <div>
-          <h1 className="text-2xl">Production records</h1>
-          <p className="text-sm text-ink-muted">
-            Each month's brewing, removals, losses and month-end inventory; volumes packaged and alcohol by volume per batch.
-          </p>
-        </div>
-        {canExport && valid ? (
-          <div className="flex gap-2">
-            <a className={buttonClasses('secondary')} href={productionRecordsExportHref(from, to, 'csv')} download>
-              Export CSV
-            </a>
-            <a className={buttonClasses('secondary')} href={productionRecordsExportHref(from, to, 'xlsx')} download>
-              Export XLSX
-            </a>
-          </div>
-        ) : null}
-      </header>
+      <PageHeader
+        parent={parentPages.batches}
+        title="Production records"
+        intro={recordsIntro}
+        report
+        downloads={canExport && valid ? exportsOf(from, to) : []}
+      />
       <Alert tone="info">{data?.note ?? 'Local licensing and excise rules govern which production records must be kept.'}</Alert>
       <div className="flex flex-wrap items-end gap-3">
         <Field label="From month">{(c) => <Input {...c} type="month" value={from} onChange={(e) => setFrom(e.target.value)} className="w-44" />}</Field>
@@ -90,27 +83,12 @@ const ProductionRecordsRoute = () => {
           <ScrollRegion label="Production records by month and batch" className="max-h-[65dvh] overflow-auto rounded-md border border-line bg-surface">
             <table className="w-full border-separate border-spacing-0 text-sm">
               <caption className="sr-only">Production records by month and batch</caption>
-              <thead>
-                <tr>
-                  {['Month', 'Batch', 'Style', 'Member', 'Packaged (L)', 'US bbl', 'OG', 'FG', `ABV (${abvMethod.name})`].map((h) => (
-                    <th
-                      key={h}
-                      scope="col"
-                      className="sticky top-0 border-b border-line-strong bg-ground-deep px-3 py-2 text-left text-xs font-semibold text-ink-muted uppercase"
-                    >
-                      {h}
-                    </th>
-                  ))}
-                </tr>
-              </thead>
+              <TableHead
+                cells={batchHead}
+                cellClassName="sticky top-0 border-b border-line-strong bg-ground-deep px-3 py-2 text-left text-xs font-semibold text-ink-muted uppercase"
+              />
               <tbody>
-                {data.rows.length === 0 ? (
-                  <tr>
-                    <td colSpan={9} className="px-3 py-8 text-center text-ink-muted">
-                      Nothing packaged in these months.
-                    </td>
-                  </tr>
-                ) : null}
+                {data.rows.length === 0 ? <EmptyRow colSpan={9}>Nothing packaged in these months.</EmptyRow> : null}
                 {data.months.map((m) => (
                   <MonthRows key={m.month} month={m} rows={data.rows.filter((r) => r.month === m.month)} />
                 ))}
@@ -154,7 +132,10 @@ const MonthRows = ({ month: m, rows }: { month: ProductionRecords['months'][numb
 
 const litres = (v: number) => v.toFixed(1);
 const thBase = 'sticky top-0 border-b border-line-strong bg-ground-deep px-2 py-2 text-xs font-semibold text-ink-muted uppercase';
-const th = `${thBase} text-right`;
+const monthHead = [
+  { label: 'Month', className: 'text-left' },
+  ...['Opening', 'Brewed', 'Packaged', 'Removals', 'Losses', 'In fermenters', 'In kegs', 'Closing', 'Balance', 'Closing US bbl'].map((h) => figureHead(h)),
+];
 
 /** The monthly report: opening + brewed − removals − losses = closing, per month, litres and US barrels. */
 const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
@@ -170,18 +151,7 @@ const MonthlyReport = ({ months }: { months: ProductionMonth[] }) => (
     <ScrollRegion label="Monthly production report" className="overflow-auto rounded-md border border-line bg-surface">
       <table className="w-full border-separate border-spacing-0 text-sm">
         <caption className="sr-only">Monthly production report, litres</caption>
-        <thead>
-          <tr>
-            <th scope="col" className={`${thBase} text-left`}>
-              Month
-            </th>
-            {['Opening', 'Brewed', 'Packaged', 'Removals', 'Losses', 'In fermenters', 'In kegs', 'Closing', 'Balance', 'Closing US bbl'].map((h) => (
-              <th key={h} scope="col" className={th}>
-                {h}
-              </th>
-            ))}
-          </tr>
-        </thead>
+        <TableHead cells={monthHead} cellClassName={thBase} />
         <tbody>
           {months.map((m) => (
             <tr key={m.month}>

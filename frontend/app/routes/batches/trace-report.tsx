@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
+import { PageHeader } from '@/components/layouts/page-header';
 import { Alert } from '@/components/ui/alert';
-import { buttonClasses } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Input } from '@/components/ui/input';
 import { Spinner } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { traceReportHref, useTraceReport } from '@/features/batches/api/get-trace';
 import { TraceFacts, TraceTable } from '@/features/batches/components/trace-view';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -24,25 +24,20 @@ const TraceReportRoute = () => {
   const report = useTraceReport(valid ? from : dayOffset(-90), valid ? to : dayOffset(0));
   return (
     <div className="flex flex-col gap-4">
-      <nav className="text-sm">
-        <Link to={paths.batches}>Batches</Link> <span className="text-ink-faint">/</span> Trace report
-      </nav>
-      <header className="flex flex-wrap items-end justify-between gap-3">
-        <div>
-          <h1 className="text-2xl">Trace report</h1>
-          <p className="text-sm text-ink-muted">Every keg filled in the range, by batch: where each is now, who has it and which tap served it.</p>
-        </div>
-        {valid ? (
-          <div className="flex gap-2">
-            <a className={buttonClasses('secondary')} href={traceReportHref(from, to, 'csv')} download>
-              Export CSV
-            </a>
-            <a className={buttonClasses('secondary')} href={traceReportHref(from, to, 'pdf')} target="_blank" rel="noreferrer">
-              PDF
-            </a>
-          </div>
-        ) : null}
-      </header>
+      <PageHeader
+        parent={parentPages.batches}
+        title="Trace report"
+        intro="Every keg filled in the range, by batch: where each is now, who has it and which tap served it."
+        report
+        downloads={
+          valid
+            ? [
+                { label: 'Export CSV', href: traceReportHref(from, to, 'csv') },
+                { label: 'PDF', href: traceReportHref(from, to, 'pdf'), open: true },
+              ]
+            : []
+        }
+      />
       <div className="flex flex-wrap items-end gap-3">
         <Field label="Filled from">{(c) => <Input {...c} type="date" value={from} onChange={(e) => setFrom(e.target.value)} className="w-44" />}</Field>
         <Field label="Filled to" error={valid ? undefined : 'Pick a “to” day on or after the “from” day'}>

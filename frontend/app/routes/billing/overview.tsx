@@ -2,6 +2,7 @@ import type { ReactNode } from 'react';
 import { Link, Navigate } from 'react-router-dom';
 import { longDate, periodLabel } from '../../../../shared/billing/dates.ts';
 import { ageingBucketLabels, ageingBuckets } from '../../../../shared/schemas/billing.ts';
+import { figureHead, TableHead } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { ButtonLink } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
@@ -24,6 +25,8 @@ const Stat = ({ label, children, hint, tone }: { label: string; children: ReactN
 );
 
 /** The treasurer's home: what is unpaid, how old it is, and the last run. Anyone else goes to their own invoices. */
+const owedHead = ['Member', figureHead('Over 60 days'), figureHead('Open')];
+
 const BillingOverviewRoute = () => {
   useDocumentTitle('Billing');
   const ability = useAppAbility();
@@ -114,19 +117,7 @@ const TreasurerOverview = () => {
             <div className="max-h-96 overflow-auto">
               <table className="w-full text-sm">
                 <caption className="sr-only">Open amounts per member</caption>
-                <thead className="sticky top-0 bg-surface text-left text-xs text-ink-muted uppercase">
-                  <tr>
-                    <th scope="col" className="py-1">
-                      Member
-                    </th>
-                    <th scope="col" className="py-1 text-right">
-                      Over 60 days
-                    </th>
-                    <th scope="col" className="py-1 text-right">
-                      Open
-                    </th>
-                  </tr>
-                </thead>
+                <TableHead cells={owedHead} className="sticky top-0 bg-surface text-left text-xs text-ink-muted uppercase" cellClassName="py-1" />
                 <tbody>
                   {a.rows.map((r) => (
                     <tr key={r.memberId} className="border-t border-line">

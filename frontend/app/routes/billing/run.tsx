@@ -2,6 +2,7 @@ import { Fragment, useEffect, useState } from 'react';
 import { Link, Navigate, useSearchParams } from 'react-router-dom';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
 import type { InvoiceRun, InvoiceSummary } from '../../../../shared/schemas/billing.ts';
+import { figureHead, TableHead } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
@@ -20,6 +21,8 @@ import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 /** Run a period: pick the month, see what it will bill, add what no record covers, then run. */
+const runHead = ['Member', figureHead('Lines'), figureHead('Net'), figureHead('Tax'), figureHead('Total')];
+
 const RunRoute = () => {
   useDocumentTitle('Run a period');
   const ability = useAppAbility();
@@ -110,25 +113,7 @@ const RunRoute = () => {
             <div className="overflow-hidden rounded-md border border-line bg-surface">
               <table className="w-full text-sm">
                 <caption className="sr-only">What the run will bill, per member</caption>
-                <thead className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase">
-                  <tr>
-                    <th scope="col" className="px-3 py-2">
-                      Member
-                    </th>
-                    <th scope="col" className="px-3 py-2 text-right">
-                      Lines
-                    </th>
-                    <th scope="col" className="px-3 py-2 text-right">
-                      Net
-                    </th>
-                    <th scope="col" className="px-3 py-2 text-right">
-                      Tax
-                    </th>
-                    <th scope="col" className="px-3 py-2 text-right">
-                      Total
-                    </th>
-                  </tr>
-                </thead>
+                <TableHead cells={runHead} className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase" cellClassName="px-3 py-2" />
                 <tbody>
                   {toBill.map((i) => (
                     <Fragment key={i.memberId}>

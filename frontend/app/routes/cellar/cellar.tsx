@@ -2,7 +2,7 @@ import type { RowSelectionState } from '@tanstack/react-table';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { equipmentKindLabels, equipmentKinds, type Equipment } from '../../../../shared/schemas/equipment.ts';
-import { FilterField, FilterSelect, SearchInput, useListQuery } from '@/components/list-kit';
+import { ListSearch, QueryFilter, useListQuery } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { useNotice } from '@/components/ui/notice';
 import { equipmentListQuery, labelSheetHref, useEquipmentList } from '@/features/equipment/api/get-equipment-list';
@@ -14,6 +14,9 @@ import { useAppAbility } from '@/lib/ability';
 import { pluralize } from '@/utils/format';
 
 /** Cellar: every fermenter, keg, tap position and CO2 cylinder with its state; QR labels for any selection. */
+/** The Kind and State filters: half the row each on a phone. */
+const halfWidthFilter = { muted: true, className: 'w-[calc(50%-0.375rem)] sm:w-44' };
+
 const CellarRoute = () => {
   useDocumentTitle('Cellar');
   const { query, setQuery } = useListQuery(equipmentListQuery);
@@ -46,26 +49,17 @@ const CellarRoute = () => {
       </header>
       {ability.can('create', 'Equipment') ? <EquipmentAddDialog open={adding} onClose={() => setAdding(false)} onCreated={onCreated} /> : null}
       <div className="flex flex-wrap items-end gap-3">
-        <FilterField label="Search" muted className="w-full sm:w-56">
-          <SearchInput value={query.q} onSearch={(q, options) => setQuery({ q }, options)} placeholder="Code, name or notes" />
-        </FilterField>
-        <FilterSelect
+        <ListSearch label="Search" muted fieldClassName="w-full sm:w-56" query={query} onQueryChange={setQuery} placeholder="Code, name or notes" />
+        <QueryFilter
+          name="kind"
           label="Kind"
-          value={query.kind}
-          onChange={(kind) => setQuery({ kind })}
           options={equipmentKinds}
           labels={equipmentKindLabels}
           anyLabel="All kinds"
-          muted
-          className="w-[calc(50%-0.375rem)] sm:w-44"
+          {...halfWidthFilter}
+          {...{ query, onQueryChange: setQuery }}
         />
-        <VesselStateFilter
-          value={query.state}
-          onChange={(state) => setQuery({ state })}
-          anyLabel="All states"
-          muted
-          className="w-[calc(50%-0.375rem)] sm:w-44"
-        />
+        <VesselStateFilter value={query.state} onChange={(state) => setQuery({ state })} anyLabel="All states" {...halfWidthFilter} />
         <div className="ml-auto flex items-center gap-2">
           {selected.length ? (
             <Button variant="ghost" onClick={() => setSelection({})}>

@@ -2,10 +2,11 @@ import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { bookingStateLabels } from '../../../../shared/schemas/booking.ts';
 import { equipmentKindLabels, vesselStateLabels, type Equipment } from '../../../../shared/schemas/equipment.ts';
+import { PageHeader, QueryFallback } from '@/components/layouts/page-header';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { PageLoader } from '@/components/ui/spinner';
+import { parentPages } from '@/config/paths';
 import { useEquipment } from '@/features/equipment/api/get-equipment';
 import { labelSheetHref } from '@/features/equipment/api/get-equipment-list';
 import { EquipmentEditDialog } from '@/features/equipment/components/equipment-edit-dialog';
@@ -17,7 +18,6 @@ import { VesselCellarActions } from '@/features/equipment/components/vessel-acti
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useUnits } from '@/hooks/use-units';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
-import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 const attributeLabels: Record<string, string> = {
@@ -61,55 +61,48 @@ const EquipmentRoute = () => {
   const [editing, setEditing] = useState(false);
   useDocumentTitle(detail.data ? `${detail.data.equipment.code} · Cellar` : 'Cellar');
 
-  if (detail.isPending) return <PageLoader />;
-  if (detail.isError)
-    return (
-      <Alert tone="error" title="This item could not be shown">
-        {problemMessage(detail.error)}
-      </Alert>
-    );
+  if (detail.isPending || detail.isError) return <QueryFallback query={detail} what="item" />;
   const { equipment: item, history, upcomingBookings } = detail.data;
   const caution = cautionFor(item);
   return (
     <div className="flex flex-col gap-5">
-      <nav className="text-sm">
-        <Link to="/cellar">Cellar</Link> <span className="text-ink-faint">/</span> {item.code}
-      </nav>
-      <header className="flex flex-wrap items-start justify-between gap-3">
-        <div>
-          <h1 className="flex items-center gap-3 text-2xl">
-            {item.code} <StateBadge state={item.state} />
-          </h1>
-          <p className="mt-1 text-ink-muted">
-            {item.name} · {equipmentKindLabels[item.kind]}
-            {item.capacityLiters ? ` · ${units.volume(item.capacityLiters)}` : ''}
-          </p>
-        </div>
-        <div className="flex flex-wrap gap-2">
-          <VesselCellarActions item={item} />
-          {ability.can('create', 'Booking') && item.state !== 'out_of_service' ? (
-            <Link
-              to={`/bookings?equipmentId=${item.id}`}
-              className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-medium text-white no-underline hover:bg-copper-strong hover:no-underline md:min-h-9"
+      <PageHeader
+        parent={parentPages.cellar}
+        title={item.code}
+        badge={<StateBadge state={item.state} />}
+        intro={[item.name, equipmentKindLabels[item.kind], item.capacityLiters ? units.volume(item.capacityLiters) : ''].filter(Boolean).join(' · ')}
+        actions={
+          <div className="flex flex-wrap gap-2">
+            <VesselCellarActions item={item} />
+            {ability.can('create', 'Booking') && item.state !== 'out_of_service' ? (
+              <Link
+                to={`/bookings?equipmentId=${item.id}`}
+                className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-medium text-white no-underline hover:bg-copper-strong hover:no-underline md:min-h-9"
+              >
+                Book it
+              </Link>
+            ) : null}
+            {ability.can('update', 'Equipment') ? (
+              <Button variant="secondary" onClick={() => setChanging(true)}>
+                Change state
+              </Button>
+            ) : null}
+            {canOnEvery(ability, 'manage', 'Equipment') ? (
+              <Button variant="secondary" onClick={() => setEditing(true)}>
+                Edit details
+              </Button>
+            ) : null}
+            <a
+              href={labelSheetHref([item.id])}
+              target="_blank"
+              rel="noreferrer"
+              className="inline-flex min-h-11 items-center rounded-md px-3 text-sm md:min-h-9"
             >
-              Book it
-            </Link>
-          ) : null}
-          {ability.can('update', 'Equipment') ? (
-            <Button variant="secondary" onClick={() => setChanging(true)}>
-              Change state
-            </Button>
-          ) : null}
-          {canOnEvery(ability, 'manage', 'Equipment') ? (
-            <Button variant="secondary" onClick={() => setEditing(true)}>
-              Edit details
-            </Button>
-          ) : null}
-          <a href={labelSheetHref([item.id])} target="_blank" rel="noreferrer" className="inline-flex min-h-11 items-center rounded-md px-3 text-sm md:min-h-9">
-            Label (PDF)
-          </a>
-        </div>
-      </header>
+              Label (PDF)
+            </a>
+          </div>
+        }
+      />
 
       {caution ? (
         <Alert tone="info" title="Safety">

@@ -1,11 +1,13 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { subject } from '../../../../shared/permissions/ability.ts';
+import { PageHeader, QueryFallback } from '@/components/layouts/page-header';
 import { Alert } from '@/components/ui/alert';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { DataTablePagination } from '@/components/ui/data-table';
 import { useNotice } from '@/components/ui/notice';
-import { PageLoader, Spinner } from '@/components/ui/spinner';
+import { Spinner } from '@/components/ui/spinner';
+import { parentPages } from '@/config/paths';
 import { useKeg, useKegHistory } from '@/features/kegs/api/kegs';
 import { usePlanAction } from '@/features/carbonation/api/carbonation';
 import { Cautions } from '@/components/safety/cautions';
@@ -43,13 +45,7 @@ const KegRoute = () => {
   const history = useKegHistory(kegId, page, Boolean(keg.data) && canHistory);
   useDocumentTitle(keg.data ? `${keg.data.keg.code} · Kegs` : 'Kegs');
 
-  if (keg.isPending) return <PageLoader />;
-  if (keg.isError)
-    return (
-      <Alert tone="error" title="This keg could not be shown">
-        {problemMessage(keg.error)}
-      </Alert>
-    );
+  if (keg.isPending || keg.isError) return <QueryFallback query={keg} what="keg" />;
   const k = keg.data.keg;
   const canMove = ability.can('checkout', subject('Keg', { memberId }));
   const run = async (fn: () => Promise<unknown>) => {
@@ -63,25 +59,19 @@ const KegRoute = () => {
   const c = k.carbonation;
   return (
     <div className="flex flex-col gap-5">
-      <nav className="text-sm">
-        <Link to={cellarPaths.kegs}>Kegs</Link> <span className="text-ink-faint">/</span> {k.code}
-      </nav>
-      <header className="flex flex-wrap items-start justify-between gap-3">
-        <div>
-          <h1 className="flex flex-wrap items-center gap-3 text-2xl">
-            {k.code} <StateBadge state={k.state} />
-          </h1>
-          <p className="mt-1 text-ink-muted">
-            {k.name}
-            {k.capacityLiters ? ` · ${units.volume(k.capacityLiters)}` : ''}
-            {k.lock ? ` · ${k.lock} lock` : ''}
-            {k.serial ? ` · serial ${k.serial}` : ''}
-          </p>
-        </div>
-        <Link to={`/cellar/${k.id}`} className="text-sm">
-          Registry page and bookings
-        </Link>
-      </header>
+      <PageHeader
+        parent={parentPages.kegs}
+        title={k.code}
+        badge={<StateBadge state={k.state} />}
+        intro={[k.name, k.capacityLiters ? units.volume(k.capacityLiters) : '', k.lock ? `${k.lock} lock` : '', k.serial ? `serial ${k.serial}` : '']
+          .filter(Boolean)
+          .join(' · ')}
+        actions={
+          <Link to={`/cellar/${k.id}`} className="text-sm">
+            Registry page and bookings
+          </Link>
+        }
+      />
       {error ? <Alert tone="error">{error}</Alert> : null}
       {kegNotice ? (
         <KegNotice

@@ -8,7 +8,6 @@ import type { ReactNode } from 'react';
 import { BrowserRouter } from 'react-router-dom';
 import { sortableListQuerySchema, searchTextSchema } from '../../../../shared/schemas/pagination.ts';
 import { defineListQuery, FilterSelect, ListTable, pageQueryOptions, SearchInput, useListQuery } from '@/components/list-kit';
-import { useServerTable } from '@/components/ui/use-server-table';
 
 interface Row {
   id: string;
@@ -27,14 +26,13 @@ const columns = [column.accessor('name', { header: 'Name' }), column.accessor('i
 const Screen = () => {
   const { query, setQuery, hasFilters, clearFilters } = useListQuery(listQuery);
   const list = useQuery(pageQueryOptions<Row>(['things', 'list', query], '/api/things', query));
-  const table = useServerTable({ data: list.data, columns, query, onQueryChange: setQuery, sortFields, getRowId: (r) => r.id });
   return (
     <div>
       <SearchInput aria-label="Search" value={query.q} onSearch={(q, options) => setQuery({ q }, options)} />
       <FilterSelect label="Colour" value={query.colour} onChange={(colour) => setQuery({ colour })} options={colours} anyLabel="Any colour" />
       {hasFilters ? <button onClick={clearFilters}>Clear filters</button> : null}
       <output data-testid="query">{JSON.stringify(query)}</output>
-      <ListTable table={table} caption="Things" list={list} query={query} onQueryChange={setQuery} noun={['thing', 'things']} />
+      <ListTable list={list} query={query} onQueryChange={setQuery} columns={columns} sortFields={sortFields} caption="Things" noun={['thing', 'things']} />
     </div>
   );
 };

@@ -2,17 +2,17 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { batchSortFields, batchStatusLabels, batchStatuses, type BatchListItem, type BatchListQuery } from '../../../../shared/schemas/batches.ts';
-import { FilterField, FilterSelect, ListTable, SearchInput, type ListProps } from '@/components/list-kit';
+import { dateCell, figureMeta, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
-import { useServerTable } from '@/components/ui/use-server-table';
 import { Checkbox } from '@/components/ui/input';
 import { paths } from '@/config/paths';
 import { BatchStatusBadge } from '@/features/batches/components/batch-status-badge';
 import { formatSg } from '@/features/batches/components/gravity-format';
 import { useUnits } from '@/hooks/use-units';
-import { formatDate, formatDateTime } from '@/utils/format';
+import { formatDateTime } from '@/utils/format';
 
 const column = createColumnHelper<BatchListItem>();
+const sgCell = ({ getValue }: { getValue: () => number | null }) => <span className="tabular-nums">{formatSg(getValue())}</span>;
 
 export interface BatchesToolbarProps extends Pick<ListProps<BatchListItem, BatchListQuery>, 'query' | 'onQueryChange'> {
   hasFilters: boolean;
@@ -24,15 +24,13 @@ export interface BatchesToolbarProps extends Pick<ListProps<BatchListItem, Batch
 export const BatchesToolbar = ({ query, onQueryChange, showMine, hasFilters, onClearFilters }: BatchesToolbarProps) => (
   <div className="flex flex-wrap items-end gap-3">
     <form role="search" className="contents" onSubmit={(event) => event.preventDefault()}>
-      <FilterField label="Search" muted>
-        <SearchInput value={query.q} onSearch={(q, options) => onQueryChange({ q }, options)} placeholder="Name, style or member" className="w-64" />
-      </FilterField>
+      <ListSearch label="Search" muted query={query} onQueryChange={onQueryChange} placeholder="Name, style or member" className="w-64" />
     </form>
-    <FilterSelect
+    <QueryFilter
+      name="status"
       label="Status"
       muted
-      value={query.status}
-      onChange={(status) => onQueryChange({ status })}
+      {...{ query, onQueryChange }}
       options={batchStatuses}
       labels={batchStatusLabels}
       anyLabel="Any status"
@@ -66,27 +64,15 @@ export const BatchesTable = ({ query, list, showOwner, onQueryChange }: BatchesT
         meta: { className: 'min-w-44' },
       }),
       column.accessor('style', { header: 'Style', cell: ({ getValue }) => getValue() || <span className="text-ink-faint">—</span> }),
-      ...(showOwner
-        ? [column.accessor('ownerName', { id: 'owner', header: 'Member', cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue()}</span> })]
-        : []),
+      ...(showOwner ? [column.accessor('ownerName', { id: 'owner', header: 'Member', cell: nowrapCell })] : []),
       column.accessor('status', { header: 'Status', cell: ({ getValue }) => <BatchStatusBadge status={getValue()} /> }),
       column.accessor('volumeLiters', {
         header: 'Volume',
         cell: ({ getValue }) => <span className="whitespace-nowrap tabular-nums">{units.volume(getValue())}</span>,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
-      column.accessor('og', {
-        header: 'OG',
-        enableSorting: false,
-        cell: ({ getValue }) => <span className="tabular-nums">{formatSg(getValue())}</span>,
-        meta: { className: 'text-right' },
-      }),
-      column.accessor('currentGravity', {
-        header: 'Now',
-        enableSorting: false,
-        cell: ({ getValue }) => <span className="tabular-nums">{formatSg(getValue())}</span>,
-        meta: { className: 'text-right' },
-      }),
+      column.accessor('og', { header: 'OG', enableSorting: false, cell: sgCell, meta: figureMeta }),
+      column.accessor('currentGravity', { header: 'Now', enableSorting: false, cell: sgCell, meta: figureMeta }),
       column.accessor('lastReadingAt', {
         header: 'Last reading',
         sortDescFirst: true,
@@ -99,24 +85,10 @@ export const BatchesTable = ({ query, list, showOwner, onQueryChange }: BatchesT
             <span className="text-ink-muted">No readings</span>
           ),
       }),
-      column.accessor('createdAt', {
-        header: 'Created',
-        sortDescFirst: true,
-        cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span>,
-      }),
+      column.accessor('createdAt', { header: 'Created', sortDescFirst: true, cell: dateCell }),
     ],
     [showOwner, units],
   );
-  const table = useServerTable({ data: list.data, columns, query, onQueryChange, sortFields: batchSortFields, getRowId: (b) => b.id });
-  return (
-    <ListTable
-      table={table}
-      caption="Batches"
-      list={list}
-      query={query}
-      onQueryChange={onQueryChange}
-      empty={query.q || query.status ? 'No batch matches these filters.' : 'No batches yet.'}
-      noun="batches"
-    />
-  );
+  const empty = query.q || query.status ? 'No batch matches these filters.' : 'No batches yet.';
+  return <ListTable {...{ query, list, onQueryChange, columns }} sortFields={batchSortFields} caption="Batches" empty={empty} noun="batches" />;
 };

@@ -2,11 +2,10 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { z } from 'zod';
 import { useMemo, useState } from 'react';
 import { gravityUnitLabels, readingSortFields, type BatchDetail, type ReadingDto } from '../../../../shared/schemas/batches.ts';
-import { applyListPatch, defineListQuery, ListTable, pagingQuerySchema, type ListPatch } from '@/components/list-kit';
+import { applyListPatch, defineListQuery, figureMeta, ListTable, pagingQuerySchema, type ListPatch } from '@/components/list-kit';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
-import { useServerTable } from '@/components/ui/use-server-table';
 import { useDeleteReading, useReadings, type ReadingsQuery } from '@/features/batches/api/readings';
 import { formatSg } from '@/features/batches/components/gravity-format';
 import { useUnits } from '@/hooks/use-units';
@@ -14,6 +13,7 @@ import { problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 
 const column = createColumnHelper<ReadingDto>();
+const readingsText = (batch: BatchDetail) => ({ caption: `Readings of ${batch.name}`, empty: 'No readings yet.', noun: 'readings' });
 /** The readings sit on the batch's page, so their paging and sort stay with the table (newest first, 25 a page). */
 const readingsQuery = defineListQuery(
   pagingQuerySchema(25).extend({ sort: z.enum(readingSortFields).default('takenAt'), order: z.enum(['asc', 'desc']).default('desc') }),
@@ -45,7 +45,7 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
             ) : null}
           </span>
         ),
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
       column.display({
         id: 'entered',
@@ -67,7 +67,7 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
       column.accessor('temperatureC', {
         header: 'Temp.',
         cell: ({ getValue }) => <span className="whitespace-nowrap tabular-nums">{units.temperature(getValue())}</span>,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
       column.accessor('source', {
         header: 'Source',
@@ -107,18 +107,9 @@ export const ReadingsTable = ({ batch }: { batch: BatchDetail }) => {
     ],
     [units, batch.can.deleteReading],
   );
-  const table = useServerTable({ data: readings.data, columns, query, onQueryChange: setQuery, sortFields: readingSortFields, getRowId: (r) => r.id });
   return (
     <div className="flex flex-col gap-3">
-      <ListTable
-        table={table}
-        caption={`Readings of ${batch.name}`}
-        list={readings}
-        query={query}
-        onQueryChange={setQuery}
-        empty="No readings yet."
-        noun="readings"
-      />
+      <ListTable list={readings} query={query} onQueryChange={setQuery} columns={columns} sortFields={readingSortFields} {...readingsText(batch)} />
       <ConfirmDialog
         open={deleting !== null}
         title="Delete this reading?"

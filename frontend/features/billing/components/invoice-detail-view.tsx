@@ -2,6 +2,7 @@ import { useState, type ReactNode } from 'react';
 import { longDate, periodLabel } from '../../../../shared/billing/dates.ts';
 import { formatRate } from '../../../../shared/billing/money.ts';
 import { paymentMethodLabels, type InvoiceDetail } from '../../../../shared/schemas/billing.ts';
+import { EmptyRow, figureHead, TableHead } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { buttonClasses } from '@/components/ui/button';
@@ -10,6 +11,15 @@ import { InvoiceStatusBadge } from '@/features/billing/components/invoice-status
 import { Money, money } from '@/features/billing/components/money';
 import { cn } from '@/utils/cn';
 import { formatDateTime } from '@/utils/format';
+
+/** The unit price and the tax rate show on a wider screen; on a phone they sit under the charge. */
+const chargeHead = [
+  'Charge',
+  figureHead('Quantity'),
+  figureHead('Unit price', 'hidden sm:table-cell'),
+  figureHead('Tax', 'hidden sm:table-cell'),
+  figureHead('Amount'),
+];
 
 const quantity = (q: number, unit: string) =>
   unit === 'item' ? '1' : `${Number.isInteger(q) ? q : q.toFixed(3).replace(/0+$/, '')} ${unit}${q === 1 ? '' : 's'}`;
@@ -99,32 +109,12 @@ export const InvoiceDetailView = ({ invoice: inv, actions, own = false }: Invoic
         <div className="overflow-x-auto rounded-md border border-line bg-surface">
           <table className="w-full text-sm">
             <caption className="sr-only">Charges on this invoice</caption>
-            <thead className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase">
-              <tr>
-                <th scope="col" className="px-3 py-2">
-                  Charge
-                </th>
-                <th scope="col" className="px-3 py-2 text-right">
-                  Quantity
-                </th>
-                <th scope="col" className="hidden px-3 py-2 text-right sm:table-cell">
-                  Unit price
-                </th>
-                <th scope="col" className="hidden px-3 py-2 text-right sm:table-cell">
-                  Tax
-                </th>
-                <th scope="col" className="px-3 py-2 text-right">
-                  Amount
-                </th>
-              </tr>
-            </thead>
+            <TableHead cells={chargeHead} className="bg-ground-deep text-left text-xs tracking-wide text-ink-muted uppercase" cellClassName="px-3 py-2" />
             <tbody>
               {inv.lines.length === 0 ? (
-                <tr>
-                  <td colSpan={5} className="px-3 py-6 text-center text-ink-muted">
-                    No charges.
-                  </td>
-                </tr>
+                <EmptyRow colSpan={5} className="py-6">
+                  No charges.
+                </EmptyRow>
               ) : (
                 inv.lines.map((l) => (
                   <tr key={l.id} className="border-t border-line align-top">

@@ -1,19 +1,19 @@
-import { createColumnHelper } from '@tanstack/react-table';
+import { createColumnHelper, type Row } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { periodLabel } from '../../../../shared/billing/dates.ts';
 import { invoiceSortFields, invoiceStatuses, invoiceStatusLabels, type InvoiceListQuery, type InvoiceSummary } from '../../../../shared/schemas/billing.ts';
-import { FilterField, FilterSelect, ListTable, SearchInput, type ListProps } from '@/components/list-kit';
+import { Dash, dateCell, figureMeta, FilterField, ListSearch, QueryFilter, ListTable, nowrapCell, type ListProps } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
-import { useServerTable } from '@/components/ui/use-server-table';
 import { Input, Select } from '@/components/ui/input';
 import { invoiceHref } from '@/config/paths';
 import { useBillableMembers } from '@/features/billing/api/manual-charges';
 import { InvoiceStatusBadge } from '@/features/billing/components/invoice-status-badge';
 import { Money } from '@/features/billing/components/money';
-import { formatDate } from '@/utils/format';
 
 const column = createColumnHelper<InvoiceSummary>();
+const invoiceNoun = ['invoice', 'invoices'] as const;
+const voidRow = (row: Row<InvoiceSummary>) => (row.original.status === 'void' ? 'text-ink-muted' : undefined);
 
 export interface InvoicesTableProps extends ListProps<InvoiceSummary, InvoiceListQuery> {
   hasFilters: boolean;
@@ -48,17 +48,15 @@ export const InvoicesToolbar = ({
 }: Pick<InvoicesTableProps, 'query' | 'onQueryChange' | 'hasFilters' | 'own'> & { onClearFilters: () => void }) => (
   <div role="search" aria-label="Filter invoices" className="flex flex-wrap items-end gap-3">
     {!own ? (
-      <FilterField label="Search" className="min-w-52 flex-1">
-        <SearchInput value={query.q} onSearch={(q, options) => onQueryChange({ q }, options)} placeholder="Number, member or e-mail" />
-      </FilterField>
+      <ListSearch label="Search" fieldClassName="min-w-52 flex-1" query={query} onQueryChange={onQueryChange} placeholder="Number, member or e-mail" />
     ) : null}
     <FilterField label="Period">
       <Input type="month" value={query.period ?? ''} onChange={(e) => onQueryChange({ period: e.target.value || undefined })} className="w-44" />
     </FilterField>
-    <FilterSelect
+    <QueryFilter
+      name="status"
       label="Status"
-      value={query.status}
-      onChange={(status) => onQueryChange({ status })}
+      {...{ query, onQueryChange }}
       options={invoiceStatuses}
       labels={invoiceStatusLabels}
       anyLabel="Any"
@@ -93,27 +91,10 @@ export const InvoicesTable = ({ query, list, hasFilters, onQueryChange, hrefFor,
           </Link>
         ),
       }),
-      ...(own
-        ? []
-        : [
-            column.accessor('memberName', {
-              id: 'member',
-              header: 'Member',
-              cell: ({ getValue }) => <span className="whitespace-nowrap">{getValue()}</span>,
-              meta: { className: 'min-w-40' },
-            }),
-          ]),
+      ...(own ? [] : [column.accessor('memberName', { id: 'member', header: 'Member', cell: nowrapCell, meta: { className: 'min-w-40' } })]),
       column.accessor('period', { header: 'Period', cell: ({ getValue }) => <span className="whitespace-nowrap">{periodLabel(getValue())}</span> }),
-      column.accessor('issuedOn', {
-        header: 'Invoice date',
-        sortDescFirst: true,
-        cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span>,
-      }),
-      column.accessor('dueOn', {
-        header: 'Due',
-        sortDescFirst: true,
-        cell: ({ getValue }) => <span className="whitespace-nowrap">{formatDate(getValue())}</span>,
-      }),
+      column.accessor('issuedOn', { header: 'Invoice date', sortDescFirst: true, cell: dateCell }),
+      column.accessor('dueOn', { header: 'Due', sortDescFirst: true, cell: dateCell }),
       column.accessor('status', {
         header: 'Status',
         cell: ({ row }) => <InvoiceStatusBadge status={row.original.status} overdue={row.original.overdue} partPaid={row.original.paidCents > 0} />,
@@ -123,36 +104,28 @@ export const InvoicesTable = ({ query, list, hasFilters, onQueryChange, hrefFor,
         header: 'Total',
         sortDescFirst: true,
         cell: ({ row }) => <Money cents={row.original.totalCents} currency={row.original.currency} />,
-        meta: { className: 'text-right' },
+        meta: figureMeta,
       }),
       column.accessor('amountDueCents', {
         id: 'amountDue',
         header: 'To pay',
         sortDescFirst: true,
         cell: ({ row }) =>
-          row.original.status === 'issued' ? (
-            <Money cents={row.original.amountDueCents} currency={row.original.currency} className="font-medium" />
-          ) : (
-            <span className="text-ink-muted">—</span>
-          ),
-        meta: { className: 'text-right' },
+          row.original.status === 'issued' ? <Money cents={row.original.amountDueCents} currency={row.original.currency} className="font-medium" /> : <Dash />,
+        meta: figureMeta,
       }),
     ],
     [hrefFor, own],
   );
 
-  const table = useServerTable({ data: list.data, columns, query, onQueryChange, sortFields: invoiceSortFields, getRowId: (r) => r.id });
-
+  const empty = hasFilters ? 'No invoice matches these filters.' : 'No invoices yet.';
   return (
     <ListTable
-      table={table}
+      {...{ query, list, onQueryChange, columns, empty }}
+      sortFields={invoiceSortFields}
       caption="Invoices"
-      list={list}
-      query={query}
-      onQueryChange={onQueryChange}
-      rowClassName={(row) => (row.original.status === 'void' ? 'text-ink-muted' : undefined)}
-      empty={hasFilters ? 'No invoice matches these filters.' : 'No invoices yet.'}
-      noun={['invoice', 'invoices']}
+      rowClassName={voidRow}
+      noun={invoiceNoun}
     />
   );
 };

@@ -1,5 +1,6 @@
 import { Link } from 'react-router-dom';
 import { longDate } from '../../../../shared/billing/dates.ts';
+import { figureHead, hiddenHead, TableHead } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { invoiceHref } from '@/config/paths';
@@ -11,6 +12,8 @@ import { problemMessage } from '@/lib/api-client';
  * Online payments that brought more than their invoice owed (a second checkout paid, or one paid as it
  * was being replaced): the excess is the member's, to pay back. "Refunded" records that it was, on `today`.
  */
+const overpaymentHead = ['Member', 'Invoice', 'Received', figureHead('To refund'), hiddenHead('Action')];
+
 export const OverpaymentsList = ({ today }: { today: string }) => {
   const list = useOpenOverpayments();
   const mark = useMarkOverpaymentRefunded();
@@ -26,25 +29,7 @@ export const OverpaymentsList = ({ today }: { today: string }) => {
       {mark.isError ? <Alert tone="error">{problemMessage(mark.error)}</Alert> : null}
       <table className="w-full text-sm">
         <caption className="sr-only">Overpayments still owed back to members</caption>
-        <thead className="text-left text-xs text-ink-muted uppercase">
-          <tr>
-            <th scope="col" className="py-1">
-              Member
-            </th>
-            <th scope="col" className="py-1">
-              Invoice
-            </th>
-            <th scope="col" className="py-1">
-              Received
-            </th>
-            <th scope="col" className="py-1 text-right">
-              To refund
-            </th>
-            <th scope="col" className="py-1">
-              <span className="sr-only">Action</span>
-            </th>
-          </tr>
-        </thead>
+        <TableHead cells={overpaymentHead} className="text-left text-xs text-ink-muted uppercase" cellClassName="py-1" />
         <tbody>
           {list.data.items.map((o) => (
             <tr key={o.paymentId} className="border-t border-line">

@@ -4,7 +4,7 @@ import { bookingStateLabels, type Booking } from '../../../../shared/schemas/boo
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { ListPager, pagingQuerySchema, useListQuery, defineListQuery } from '@/components/list-kit';
+import { hiddenHead, ListPager, pagingQuerySchema, TableHead, useListQuery, defineListQuery } from '@/components/list-kit';
 import { LoadError } from '@/components/ui/data-table';
 import { Dialog } from '@/components/ui/dialog';
 import { useNotice } from '@/components/ui/notice';
@@ -20,6 +20,7 @@ import { queryBooleanSchema } from '../../../../shared/schemas/pagination.ts';
 /** The list's page, page size and "include past bookings" live in the URL. */
 const bookingsListQuery = defineListQuery(pagingQuerySchema(25).extend({ past: queryBooleanSchema }));
 
+const bookingHead = ['Item', 'From', 'Until', 'Free again', 'Member', 'State', { ...hiddenHead('Actions'), className: 'text-right' }];
 const stateTone = { booked: 'copper', in_use: 'neutral', finished: 'muted', cancelled: 'muted' } as const;
 
 export interface BookingsListProps {
@@ -54,19 +55,11 @@ export const BookingsList = ({ mine }: BookingsListProps) => {
       <div className="md:overflow-x-auto md:rounded-lg md:border md:border-line md:bg-surface">
         <table className="card-table w-full text-sm">
           <caption className="sr-only">{mine ? 'My bookings' : 'All bookings'}</caption>
-          <thead>
-            <tr className="bg-ground-deep text-left text-xs font-semibold tracking-wide text-ink-muted uppercase">
-              <th className="px-3 py-2">Item</th>
-              <th className="px-3 py-2">From</th>
-              <th className="px-3 py-2">Until</th>
-              <th className="px-3 py-2">Free again</th>
-              {!mine ? <th className="px-3 py-2">Member</th> : null}
-              <th className="px-3 py-2">State</th>
-              <th className="px-3 py-2 text-right">
-                <span className="sr-only">Actions</span>
-              </th>
-            </tr>
-          </thead>
+          <TableHead
+            cells={mine ? bookingHead.filter((cell) => cell !== 'Member') : bookingHead}
+            className="bg-ground-deep text-left text-xs font-semibold tracking-wide text-ink-muted uppercase"
+            cellClassName="px-3 py-2"
+          />
           <tbody className="divide-y divide-line">
             {list.data?.items.length === 0 && !list.isError ? (
               <tr>

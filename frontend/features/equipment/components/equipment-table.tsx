@@ -1,12 +1,10 @@
-import { createColumnHelper, type RowSelectionState } from '@tanstack/react-table';
+import { createColumnHelper, type Row, type RowSelectionState, type TableOptions } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { equipmentKindLabels, equipmentSortFields, type Equipment, type EquipmentListQuery } from '../../../../shared/schemas/equipment.ts';
-import { ListTable, type ListProps } from '@/components/list-kit';
-import { useServerTable } from '@/components/ui/use-server-table';
+import { Dash, dateTimeCell, ListTable, type ListProps } from '@/components/list-kit';
 import { StateBadge } from '@/features/equipment/components/state-badge';
 import { useUnits } from '@/hooks/use-units';
-import { formatDateTime } from '@/utils/format';
 
 export interface EquipmentTableProps extends ListProps<Equipment, EquipmentListQuery> {
   selection: RowSelectionState;
@@ -14,6 +12,8 @@ export interface EquipmentTableProps extends ListProps<Equipment, EquipmentListQ
 }
 
 const column = createColumnHelper<Equipment>();
+const equipmentListText = { caption: "The co-op's equipment", empty: 'No equipment matches these filters.', noun: 'items' };
+const outOfService = (row: Row<Equipment>) => (row.original.state === 'out_of_service' ? 'text-ink-muted' : undefined);
 
 /** The kind's facts in a few words: "conical, valve", "ball lock, LY19-…", "4.0 m × 4.8 mm line". */
 /** An attribute as text; attributes are free-form JSON, so anything but a string or number shows as nothing. */
@@ -81,48 +81,22 @@ export const EquipmentTable = ({ query, list, onQueryChange, selection, onSelect
       column.accessor('capacityLiters', {
         header: 'Capacity',
         sortDescFirst: true,
-        cell: ({ getValue }) => (getValue() ? units.volume(getValue()) : <span className="text-ink-muted">—</span>),
+        cell: ({ getValue }) => (getValue() ? units.volume(getValue()) : <Dash />),
         meta: { className: 'text-right whitespace-nowrap' },
       }),
       column.accessor('state', { header: 'State', cell: ({ getValue }) => <StateBadge state={getValue()} /> }),
       column.display({ id: 'facts', header: 'Details', cell: ({ row }) => <span className="text-ink-muted">{facts(row.original)}</span> }),
-      column.accessor('stateChangedAt', {
-        header: 'State since',
-        sortDescFirst: true,
-        cell: ({ getValue }) => (
-          <time dateTime={getValue()} className="whitespace-nowrap">
-            {formatDateTime(getValue())}
-          </time>
-        ),
-      }),
+      column.accessor('stateChangedAt', { header: 'State since', sortDescFirst: true, cell: dateTimeCell }),
     ],
     [units],
   );
 
-  const table = useServerTable({
-    data: list.data,
-    columns,
-    query,
-    onQueryChange,
-    sortFields: equipmentSortFields,
-    getRowId: (item) => item.id,
-    extra: {
-      enableRowSelection: true,
-      state: { rowSelection: selection },
-      onRowSelectionChange: (updater) => onSelectionChange(typeof updater === 'function' ? updater(selection) : updater),
-    },
-  });
-
+  const tableOptions: Partial<TableOptions<Equipment>> = {
+    enableRowSelection: true,
+    state: { rowSelection: selection },
+    onRowSelectionChange: (updater) => onSelectionChange(typeof updater === 'function' ? updater(selection) : updater),
+  };
   return (
-    <ListTable
-      table={table}
-      caption="The co-op's equipment"
-      list={list}
-      query={query}
-      onQueryChange={onQueryChange}
-      rowClassName={(row) => (row.original.state === 'out_of_service' ? 'text-ink-muted' : undefined)}
-      empty="No equipment matches these filters."
-      noun="items"
-    />
+    <ListTable {...{ query, list, onQueryChange, columns, tableOptions }} sortFields={equipmentSortFields} rowClassName={outOfService} {...equipmentListText} />
   );
 };

@@ -1,7 +1,7 @@
-import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
+import { createColumnHelper, type Row } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { z } from 'zod';
-import { defineListQuery, ListTable, pagingQuerySchema, useListQuery } from '@/components/list-kit';
+import { dateTimeCell, defineListQuery, ListTable, pagingQuerySchema, useListQuery } from '@/components/list-kit';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { useMailbox, type MailboxMessage } from '@/features/mailbox/api/get-mailbox';
@@ -13,6 +13,12 @@ import { formatDateTime } from '@/utils/format';
 const column = createColumnHelper<MailboxMessage>();
 const recipients = (to: MailboxMessage['to']) => (Array.isArray(to) ? to.join(', ') : to);
 /** The page and the open message live in the URL, so a reload or Back shows the same e-mail. */
+const outboxText = {
+  caption: 'Outbox',
+  empty: 'No e-mails yet. Invite someone, or ask for a password reset, and it shows up here.',
+  noun: ['e-mail', 'e-mails'] as const,
+  pageSizes: false as const,
+};
 const outboxQuery = defineListQuery(pagingQuerySchema().extend({ message: z.string().max(80).optional() }));
 
 /** The development mailbox: every e-mail the server "sent", newest first, readable in place. */
@@ -44,29 +50,10 @@ export const Outbox = () => {
         header: 'To',
         cell: ({ getValue }) => <span className="whitespace-nowrap text-ink-muted">{recipients(getValue())}</span>,
       }),
-      column.accessor('receivedAt', {
-        header: 'Received',
-        cell: ({ getValue }) => (
-          <time dateTime={getValue()} className="whitespace-nowrap">
-            {formatDateTime(getValue())}
-          </time>
-        ),
-        meta: { className: 'w-px' },
-      }),
+      column.accessor('receivedAt', { header: 'Received', cell: dateTimeCell, meta: { className: 'w-px' } }),
     ],
     [openId, query.page, setQuery],
   );
-
-  const table = useReactTable({
-    data: mailbox.data?.items ?? [],
-    columns,
-    getRowId: (message) => message.id,
-    getCoreRowModel: getCoreRowModel(),
-    manualPagination: true,
-    manualSorting: true,
-    enableSorting: false,
-    rowCount: mailbox.data?.total ?? 0,
-  });
 
   if (isApiProblem(mailbox.error) && mailbox.error.status === 404) {
     return (
@@ -74,6 +61,7 @@ export const Outbox = () => {
     );
   }
 
+  const openRow = (row: Row<MailboxMessage>) => cn(row.original.id === openId && 'bg-copper-soft/40');
   const opened = mailbox.data?.items.find((message) => message.id === openId) ?? null;
 
   return (
@@ -88,15 +76,12 @@ export const Outbox = () => {
           </Button>
         </div>
         <ListTable
-          table={table}
-          caption="Outbox"
           list={mailbox}
           query={query}
           onQueryChange={({ page }) => setQuery({ page, message: undefined })}
-          empty="No e-mails yet. Invite someone, or ask for a password reset, and it shows up here."
-          rowClassName={(row) => cn(row.original.id === openId && 'bg-copper-soft/40')}
-          noun={['e-mail', 'e-mails']}
-          pageSizes={false}
+          columns={columns}
+          {...outboxText}
+          rowClassName={openRow}
         />
       </div>
 

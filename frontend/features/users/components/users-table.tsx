@@ -1,12 +1,10 @@
-import { createColumnHelper } from '@tanstack/react-table';
+import { createColumnHelper, type Row } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { userSortFields, type User, type UserListQuery } from '../../../../shared/schemas/user.ts';
-import { ListTable, type ListProps } from '@/components/list-kit';
+import { dateCell, dateTimeCell, ListTable, type ListProps } from '@/components/list-kit';
 import { RoleBadges } from '@/components/role-badges';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { useServerTable } from '@/components/ui/use-server-table';
-import { formatDate, formatDateTime } from '@/utils/format';
 
 export interface UsersTableProps extends ListProps<User, UserListQuery> {
   currentUserId: string;
@@ -16,6 +14,8 @@ export interface UsersTableProps extends ListProps<User, UserListQuery> {
 }
 
 const column = createColumnHelper<User>();
+const userListText = { caption: 'Members of the co-op', noun: ['person', 'people'] as const };
+const inactiveRow = (row: Row<User>) => (row.original.isActive ? undefined : 'text-ink-muted');
 
 export const UsersTable = ({ query, list, currentUserId, onQueryChange, onEditRoles, onToggleActive, hasFilters }: UsersTableProps) => {
   const columns = useMemo(
@@ -48,26 +48,9 @@ export const UsersTable = ({ query, list, currentUserId, onQueryChange, onEditRo
       column.accessor('lastLoginAt', {
         header: 'Last sign-in',
         sortDescFirst: true,
-        cell: ({ getValue }) => {
-          const value = getValue();
-          return value ? (
-            <time dateTime={value} className="whitespace-nowrap">
-              {formatDateTime(value)}
-            </time>
-          ) : (
-            <span className="text-ink-muted">Never</span>
-          );
-        },
+        cell: (cell) => (cell.getValue() ? dateTimeCell(cell) : <span className="text-ink-muted">Never</span>),
       }),
-      column.accessor('createdAt', {
-        header: 'Created',
-        sortDescFirst: true,
-        cell: ({ getValue }) => (
-          <time dateTime={getValue()} className="whitespace-nowrap">
-            {formatDate(getValue())}
-          </time>
-        ),
-      }),
+      column.accessor('createdAt', { header: 'Created', sortDescFirst: true, cell: dateCell }),
       column.display({
         id: 'actions',
         header: () => <span className="sr-only">Actions</span>,
@@ -98,18 +81,6 @@ export const UsersTable = ({ query, list, currentUserId, onQueryChange, onEditRo
     [currentUserId, onEditRoles, onToggleActive],
   );
 
-  const table = useServerTable({ data: list.data, columns, query, onQueryChange, sortFields: userSortFields, getRowId: (user) => user.id });
-
-  return (
-    <ListTable
-      table={table}
-      caption="Members of the co-op"
-      list={list}
-      query={query}
-      onQueryChange={onQueryChange}
-      rowClassName={(row) => (row.original.isActive ? undefined : 'text-ink-muted')}
-      empty={hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.'}
-      noun={['person', 'people']}
-    />
-  );
+  const empty = hasFilters ? 'Nobody matches these filters.' : 'Nobody here yet. Invite someone to get started.';
+  return <ListTable {...{ query, list, onQueryChange, columns, empty }} sortFields={userSortFields} rowClassName={inactiveRow} {...userListText} />;
 };
