@@ -2,6 +2,7 @@ import { sql } from 'kysely';
 import type { InspectionKind, MaintenanceListQuery, MaintenanceStatus } from '../../../shared/schemas/inspections.ts';
 import type { Database } from '../../db/database.ts';
 import { containsPattern, paginate } from '../../lib/paginate.ts';
+import { stateChangeRows } from './equipment.repository.ts';
 
 /**
  * One row per item and inspection kind on record: the latest inspection (passed or failed) and
@@ -130,13 +131,5 @@ export async function setHydroTestDue(trx: Database, id: string, date: string, n
 
 /** The reason of an item's latest state change. */
 export async function lastStateChangeReason(trx: Database, id: string): Promise<string | undefined> {
-  const last = await trx
-    .selectFrom('equipment_state_change')
-    .select('reason')
-    .where('equipment_id', '=', id)
-    .orderBy('at', 'desc')
-    .orderBy('id', 'desc')
-    .limit(1)
-    .executeTakeFirst();
-  return last?.reason;
+  return (await stateChangeRows(trx, id, 1))[0]?.reason;
 }

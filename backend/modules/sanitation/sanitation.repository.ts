@@ -182,16 +182,17 @@ export async function vesselStatusPage(db: Database, q: VesselStatusQuery, now: 
 
 /** The columns of a step row that follow from how the co-op's rules judged the step. */
 export function judgedStepValues(cycleId: string, position: number, st: CycleEvaluation['steps'][number]) {
+  const { step, chemicalId, chemicalName, concentration, concentrationUnit, minimumContactMinutes, ok } = st;
   return {
     cycle_id: cycleId,
     position,
-    step: st.step,
-    chemical_id: st.chemicalId,
-    chemical: st.chemicalName,
-    concentration: st.concentration,
-    concentration_unit: st.concentrationUnit,
-    minimum_contact_minutes: st.minimumContactMinutes,
-    ok: st.ok,
+    step,
+    chemical_id: chemicalId,
+    chemical: chemicalName,
+    concentration,
+    concentration_unit: concentrationUnit,
+    minimum_contact_minutes: minimumContactMinutes,
+    ok,
   };
 }
 
