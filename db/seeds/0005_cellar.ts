@@ -6,7 +6,7 @@ import { blockingViolations, evaluateCycle, type StepForRules } from '../../shar
 import { defaultCarbonationSettings, defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
 import type { VesselState } from '../../shared/schemas/equipment.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
-import { judgedStepValues } from '../../backend/modules/sanitation/sanitation.repository.ts';
+import { cycleFields, judgedStepValues } from '../../backend/modules/sanitation/sanitation.repository.ts';
 import { transferFigureValues } from '../../backend/modules/transfers/transfers.repository.ts';
 import { userId } from './0001_users.ts';
 import { rota } from './0002_equipment.ts';
@@ -128,13 +128,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     cycles.push({
       id,
       equipment_id: vesselId,
-      started_at: ev.startedAt,
-      completed_at: ev.completedAt,
-      outcome: ev.outcome,
-      complete: ev.complete,
-      issues: JSON.stringify(ev.issues),
-      freshness_days: ev.complete ? settings.freshnessDays : null,
-      fresh_until: ev.freshUntil,
+      ...cycleFields(ev, settings),
       recorded_by: recorder,
       notes,
       created_at: new Date(ev.completedAt.getTime() + 2 * MIN),
