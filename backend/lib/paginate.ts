@@ -1,4 +1,5 @@
 import { sql, type SelectQueryBuilder } from 'kysely';
+import type { Page } from '../../shared/schemas/pagination.ts';
 
 /** The page a list asks for, as every list query schema gives it (`shared/schemas/pagination.ts`). */
 export interface PageRequest {
@@ -22,16 +23,18 @@ export function containsPattern(text: string): string {
 
 /**
  * Orders a query by a column from the list's allow-list (`columns` maps what a client may send to the SQL
- * expression), nulls last either way, then by `tieBreaker` so pages never repeat or skip a row.
+ * expression), nulls last either way, then by `tieBreaker` (ascending unless `tieOrder` says otherwise) so
+ * pages never repeat or skip a row.
  */
 export function orderByAllowed<DB, TB extends keyof DB, O, K extends string>(
   qb: SelectQueryBuilder<DB, TB, O>,
   columns: Readonly<Record<K, string>>,
   { sort, order }: SortRequest<K>,
   tieBreaker = 'id',
+  tieOrder: 'asc' | 'desc' = 'asc',
 ): SelectQueryBuilder<DB, TB, O> {
   const column = columns[sort];
-  return qb.orderBy(sql.ref(column), (ob) => (order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast())).orderBy(sql.ref(tieBreaker));
+  return qb.orderBy(sql.ref(column), (ob) => (order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast())).orderBy(sql.ref(tieBreaker), tieOrder);
 }
 
 /**
@@ -51,4 +54,9 @@ export async function paginate<DB, TB extends keyof DB, O>(
       .execute(),
   ]);
   return { rows: list, total: (counted as { total: number }).total };
+}
+
+/** The page a list endpoint answers: the rows turned into items, with the count and the page asked for. */
+export function pageOf<R, T>({ rows, total }: { rows: R[]; total: number }, toItem: (row: R) => T, { page, pageSize }: PageRequest): Page<T> {
+  return { items: rows.map(toItem), total, page, pageSize };
 }

@@ -5,7 +5,7 @@ import { batchGravityFigures } from '../../backend/modules/batches/figures.ts';
 import { fillBestBefore } from '../../backend/modules/batches/shelf-life.ts';
 import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
-import { markBatchPackaged } from '../../backend/modules/transfers/transfers.repository.ts';
+import { fillFigures, kegFillValues, markBatchPackaged, transferFigureValues } from '../../backend/modules/transfers/transfers.repository.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
 import { type At, DAY, HOUR, inTransaction, MINUTE, toDate } from './common.ts';
 import { createBatch } from './batches.ts';
@@ -122,10 +122,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
     const packaged = round2(perKeg.reduce((s, v) => s + v, 0));
 
     await trx.updateTable('batch').set({ status: 'packaged', updated_at: at }).where('id', '=', batch.id).execute();
-    const figures = await batchGravityFigures(trx, batch.id, at);
-    const og = figures?.og ?? null;
-    const fg = figures?.fg ?? null;
-    const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;
+    const figures = fillFigures(await batchGravityFigures(trx, batch.id, at));
     const method = (fermenter.attributes as { hasValve?: boolean }).hasValve === false ? 'siphon' : 'bottom_valve';
     const checklist: Record<string, unknown> = { drawMethod: method };
     for (const item of transferChecklistItems) if (!item.method || item.method === method) checklist[item.key] = true;
@@ -142,13 +139,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
         loss_liters: loss,
         draw_method: method,
         checklist: JSON.stringify(checklist),
-        finings_kind: o.finings?.kind ?? null,
-        finings_amount: o.finings?.amount ?? null,
-        finings_unit: o.finings?.unit ?? null,
-        co2_grams: co2,
-        og,
-        fg,
-        abv,
+        ...transferFigureValues(o.finings, co2, figures),
         transferred_at: at,
         started_at: startedAt,
         ended_at: startedAt ? at : null,
@@ -162,28 +153,15 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
       .executeTakeFirstOrThrow();
 
     const perKegCo2 = Math.round((co2 / kegs.length) * 10) / 10;
-    const bestBefore = await fillBestBefore(trx, batch.id, at);
+    const fill = { transferId: transfer.id, batchId: batch.id, ...figures, co2Grams: perKegCo2, at, bestBefore: await fillBestBefore(trx, batch.id, at) };
     const fills: KegFillRow[] = [];
     for (const [i, k] of kegs.entries()) {
+      const keg = { kegId: k.id, liters: perKeg[i]!, cycleId: k.cycle_id, dissolvedOxygenPpb: o.kegDissolvedOxygenPpb?.[i] ?? null };
+      const created = new Date(at.getTime() + 20 * MINUTE);
       fills.push(
         await trx
           .insertInto('keg_fill')
-          .values({
-            transfer_id: transfer.id,
-            keg_id: k.id,
-            batch_id: batch.id,
-            volume_liters: perKeg[i]!,
-            remaining_liters: perKeg[i]!,
-            og,
-            fg,
-            abv,
-            sanitation_cycle_id: k.cycle_id,
-            co2_grams: perKegCo2,
-            filled_at: at,
-            best_before: bestBefore,
-            dissolved_oxygen_ppb: o.kegDissolvedOxygenPpb?.[i] ?? null,
-            created_at: new Date(at.getTime() + 20 * MINUTE),
-          })
+          .values({ ...kegFillValues(fill, keg), created_at: created })
           .returningAll()
           .executeTakeFirstOrThrow(),
       );

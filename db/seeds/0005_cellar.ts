@@ -6,6 +6,8 @@ import { blockingViolations, evaluateCycle, type StepForRules } from '../../shar
 import { defaultCarbonationSettings, defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
 import type { VesselState } from '../../shared/schemas/equipment.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
+import { cycleFields, judgedStepValues } from '../../backend/modules/sanitation/sanitation.repository.ts';
+import { transferFigureValues } from '../../backend/modules/transfers/transfers.repository.ts';
 import { userId } from './0001_users.ts';
 import { rota } from './0002_equipment.ts';
 import type { DemoCalendar } from './demo-calendar.ts';
@@ -126,13 +128,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     cycles.push({
       id,
       equipment_id: vesselId,
-      started_at: ev.startedAt,
-      completed_at: ev.completedAt,
-      outcome: ev.outcome,
-      complete: ev.complete,
-      issues: JSON.stringify(ev.issues),
-      freshness_days: ev.complete ? settings.freshnessDays : null,
-      fresh_until: ev.freshUntil,
+      ...cycleFields(ev, settings),
       recorded_by: recorder,
       notes,
       created_at: new Date(ev.completedAt.getTime() + 2 * MIN),
@@ -140,15 +136,8 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     ev.steps.forEach((st, position) => {
       const raw = list[st.index]!;
       steps.push({
-        cycle_id: id,
-        position,
-        step: st.step,
-        chemical_id: st.chemicalId,
-        chemical: st.chemicalName,
-        concentration: st.concentration,
-        concentration_unit: st.concentrationUnit,
+        ...judgedStepValues(id, position, st),
         contact_minutes: raw.contactMinutes ?? null,
-        minimum_contact_minutes: st.minimumContactMinutes,
         purge_method: st.step === 'purge' ? (raw.purgeMethod ?? 'flush') : null,
         pushed_into_equipment_id: st.step === 'purge' ? (raw.pushedIntoEquipmentId ?? null) : null,
         vented: st.step === 'clean' ? (raw.vented ?? null) : null,
@@ -157,7 +146,6 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
           st.step === 'clean' || st.step === 'sanitize' ? (byId.get(vesselId)!.kind === 'keg' ? 19 : Number(byId.get(vesselId)!.capacity_liters) / 2) : null,
         performed_by: raw.by,
         at: new Date(raw.at),
-        ok: st.ok,
         note: '',
       });
     });
@@ -388,9 +376,9 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     const finingsRoll = random();
     const finings =
       finingsRoll < 0.3
-        ? { kind: 'gelatin', amount: Math.round(total * 0.15 * 10) / 10, unit: 'g' }
+        ? { kind: 'gelatin', amount: Math.round(total * 0.15 * 10) / 10, unit: 'g' as const }
         : finingsRoll < 0.45
-          ? { kind: 'silica finings', amount: Math.round(total * 0.5), unit: 'mL' }
+          ? { kind: 'silica finings', amount: Math.round(total * 0.5), unit: 'mL' as const }
           : null;
     const checklist: Record<string, unknown> = { drawMethod: method };
     for (const item of transferChecklistItems) if (!item.method || item.method === method) checklist[item.key] = true;
@@ -410,13 +398,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       loss_liters: loss,
       draw_method: method,
       checklist: JSON.stringify(checklist),
-      finings_kind: finings?.kind ?? null,
-      finings_amount: finings?.amount ?? null,
-      finings_unit: finings?.unit ?? null,
-      co2_grams: co2,
-      og,
-      fg,
-      abv,
+      ...transferFigureValues(finings, co2, { og, fg, abv }),
       transferred_at: at,
       // Drawing took 35 to 55 minutes; a meter read the dissolved oxygen on every third transfer.
       started_at: new Date(at.getTime() - (35 + (transferNo % 5) * 5) * MIN),

@@ -19,6 +19,7 @@ import { canAll } from '../../lib/authz.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { computeFigures, loadFermentationSettings, loadGravitySeries } from './figures.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
+import { containsPattern, pageOf, paginate } from '../../lib/paginate.ts';
 
 export interface BatchRow {
   id: string;
@@ -96,50 +97,48 @@ export async function listBatches(db: Database, ability: AppAbility, actor: Acto
   if (q.ownerId) base = base.where('batch.owner_id', '=', q.ownerId);
   if (q.status) base = base.where('batch.status', '=', q.status);
   if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    const like = containsPattern(q.q);
     base = base.where((eb) => eb.or([eb('batch.name', 'ilike', like), eb('batch.style', 'ilike', like), eb('app_user.name', 'ilike', like)]));
   }
-  const [{ total }, rows] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base
-      .select([
-        ...batchColumns,
-        'app_user.name as owner_name',
-        'last_reading.taken_at as last_reading_at',
-        'last_reading.gravity_sg as current_gravity',
-        (eb) =>
-          eb
-            .selectFrom('reading')
-            .select('reading.gravity_sg')
-            .whereRef('reading.batch_id', '=', 'batch.id')
-            .orderBy('reading.taken_at', 'asc')
-            .limit(1)
-            .as('og'),
-        (eb) =>
-          eb
-            .selectFrom('reading')
-            .select((e) => e.fn.countAll<number>().as('n'))
-            .whereRef('reading.batch_id', '=', 'batch.id')
-            .as('readings_count'),
-      ])
-      .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-      .orderBy('batch.id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
-  return {
-    items: rows.map((r) => ({
+  const page = await paginate(
+    base,
+    (qb) =>
+      qb
+        .select([
+          ...batchColumns,
+          'app_user.name as owner_name',
+          'last_reading.taken_at as last_reading_at',
+          'last_reading.gravity_sg as current_gravity',
+          (eb) =>
+            eb
+              .selectFrom('reading')
+              .select('reading.gravity_sg')
+              .whereRef('reading.batch_id', '=', 'batch.id')
+              .orderBy('reading.taken_at', 'asc')
+              .limit(1)
+              .as('og'),
+          (eb) =>
+            eb
+              .selectFrom('reading')
+              .select((e) => e.fn.countAll<number>().as('n'))
+              .whereRef('reading.batch_id', '=', 'batch.id')
+              .as('readings_count'),
+        ])
+        .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
+        .orderBy('batch.id'),
+    q,
+  );
+  return pageOf(
+    page,
+    (r) => ({
       ...toListItem(r as unknown as BatchRow, r.owner_name),
       readingsCount: Number(r.readings_count ?? 0),
       og: num(r.og),
       currentGravity: num(r.current_gravity),
       lastReadingAt: r.last_reading_at ? new Date(r.last_reading_at).toISOString() : null,
-    })),
-    total,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
+    }),
+    q,
+  );
 }
 
 function toListItem(r: BatchRow, ownerName: string): BatchListItem {

@@ -9,6 +9,7 @@ import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import type { BatchRow } from './batches.service.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
+import { orderByAllowed, pageOf, paginate } from '../../lib/paginate.ts';
 
 /** A reading ready to be normalised: what came in, with its time as epoch milliseconds. */
 export interface ReadingCandidate {
@@ -247,26 +248,31 @@ async function readingById(db: Database, id: string): Promise<ReadingDto> {
   return toReadingDto(r);
 }
 
+function readingBase(db: Database) {
+  return db.selectFrom('reading').leftJoin('app_user', 'app_user.id', 'reading.created_by');
+}
+
 function readingSelect(db: Database) {
-  return db
-    .selectFrom('reading')
-    .leftJoin('app_user', 'app_user.id', 'reading.created_by')
-    .select([
-      'reading.id',
-      'reading.taken_at',
-      'reading.gravity_sg',
-      'reading.entered_value',
-      'reading.entered_unit',
-      'reading.temperature_c',
-      'reading.corrected',
-      'reading.raw_sg',
-      'reading.method',
-      'reading.source',
-      'reading.note',
-      'reading.created_by',
-      'app_user.name as created_by_name',
-      'reading.created_at',
-    ]);
+  return withReadingColumns(readingBase(db));
+}
+
+function withReadingColumns(qb: ReturnType<typeof readingBase>) {
+  return qb.select([
+    'reading.id',
+    'reading.taken_at',
+    'reading.gravity_sg',
+    'reading.entered_value',
+    'reading.entered_unit',
+    'reading.temperature_c',
+    'reading.corrected',
+    'reading.raw_sg',
+    'reading.method',
+    'reading.source',
+    'reading.note',
+    'reading.created_by',
+    'app_user.name as created_by_name',
+    'reading.created_at',
+  ]);
 }
 
 type ReadingSelectRow = Awaited<ReturnType<ReturnType<typeof readingSelect>['executeTakeFirstOrThrow']>>;
@@ -298,20 +304,10 @@ const readingSort = {
 } as const;
 
 export async function listReadings(db: Database, batchId: string, q: z.infer<typeof readingListQuerySchema>): Promise<Page<ReadingDto>> {
-  let base = db.selectFrom('reading').where('reading.batch_id', '=', batchId);
+  let base = readingBase(db).where('reading.batch_id', '=', batchId);
   if (q.source) base = base.where('reading.source', '=', q.source);
-  const [{ total }, rows] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    readingSelect(db)
-      .where('reading.batch_id', '=', batchId)
-      .$if(Boolean(q.source), (qb) => qb.where('reading.source', '=', q.source!))
-      .orderBy(readingSort[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-      .orderBy('reading.id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
-  return { items: rows.map(toReadingDto), total, page: q.page, pageSize: q.pageSize };
+  const page = await paginate(base, (qb) => orderByAllowed(withReadingColumns(qb), readingSort, q, 'reading.id'), q);
+  return pageOf(page, toReadingDto, q);
 }
 
 export async function deleteReading(db: Database, batch: BatchRow, readingId: string, settings: FermentationSettings, actor: Actor) {

@@ -1,8 +1,6 @@
-import { sql } from 'kysely';
 import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
 import { beerFacts, bestBeforeState, type FiningsDose } from '../../../shared/cellar/trace.ts';
 import { alcoholCaution, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
-import type { KegWhereabouts } from '../../../shared/schemas/kegs.ts';
 import type { BatchTrace, TraceFill, TraceReport } from '../../../shared/schemas/trace.ts';
 import type { Database } from '../../db/database.ts';
 import type { BatchStatus } from '../../db/tables/batches.ts';
@@ -11,6 +9,7 @@ import { defaultLocale, formatDate, formatDateTime, formatNumber, formatVolume, 
 import { pdfFont, renderPdf } from '../../lib/pdf.ts';
 import { coopName } from '../sanitation/audit-report.ts';
 import { effectiveStateSql } from '../equipment/vessel-state.ts';
+import { kegWhereaboutsColumns } from '../kegs/kegs.repository.ts';
 import { loadShelfLifeSettings } from './shelf-life.ts';
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
@@ -53,14 +52,7 @@ async function loadFills(db: Database, scope: FillScope, viewer: TraceViewer, no
       't.finings_amount',
       't.finings_unit',
       effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('state'),
-      sql<KegWhereabouts>`coalesce(kw.whereabouts, 'cellar')`.as('whereabouts'),
-      'kw.tap_id',
-      'tap.code as tap_code',
-      'tap.name as tap_name',
-      'tap.attributes as tap_attributes',
-      'kw.member_id',
-      'm.name as member_name',
-      'kw.due_at',
+      ...kegWhereaboutsColumns,
     ])
     .where('kf.batch_id', 'in', scope.batchIds);
   if (scope.from) q = q.where('kf.filled_at', '>=', scope.from);

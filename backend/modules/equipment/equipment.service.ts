@@ -1,4 +1,3 @@
-import { sql } from 'kysely';
 import {
   attributesSchemaByKind,
   equipmentCodePrefixes,
@@ -15,19 +14,19 @@ import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
-import { effectiveStateSql, writeStateChange } from './vessel-state.ts';
-
-const columns = ['id', 'code', 'kind', 'name', 'capacity_liters', 'state', 'attributes', 'notes', 'state_changed_at', 'created_at', 'updated_at'] as const;
-
-const storedColumns = columns.filter((c) => c !== 'state');
-// The state a vessel has now: a lapsed freshness window reads as needs_cleaning at once, before the
-// periodic job writes it down.
-const currentState = (now: Date) => effectiveStateSql(sql.ref('equipment.id'), sql.ref('equipment.state'), now);
-
-type EquipmentRow = Awaited<ReturnType<ReturnType<typeof selectEquipment>['executeTakeFirstOrThrow']>>;
-function selectEquipment(db: Database, now: Date) {
-  return db.selectFrom('equipment').select([...storedColumns, currentState(now).as('state')]);
-}
+import { pageOf } from '../../lib/paginate.ts';
+import {
+  equipmentPage,
+  equipmentRowsByIds,
+  highestCodeNumber,
+  insertEquipment,
+  lockEquipment,
+  selectEquipment,
+  stateChangeRows,
+  updateEquipmentRow,
+  type EquipmentRow,
+} from './equipment.repository.ts';
+import { writeStateChange } from './vessel-state.ts';
 
 export function toEquipmentDto(row: EquipmentRow): Equipment {
   return {
@@ -45,42 +44,8 @@ export function toEquipmentDto(row: EquipmentRow): Equipment {
   };
 }
 
-const sortColumns = {
-  code: 'code',
-  name: 'name',
-  kind: 'kind',
-  state: 'state',
-  capacityLiters: 'capacity_liters',
-  stateChangedAt: 'state_changed_at',
-} as const;
-
 export async function listEquipment(db: Database, q: EquipmentListQuery, now: Date): Promise<Page<Equipment>> {
-  let base = db.selectFrom('equipment');
-  if (q.kind) base = base.where('kind', '=', q.kind);
-  if (q.state) base = base.where(currentState(now), '=', q.state);
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    base = base.where((eb) => eb.or([eb('code', 'ilike', like), eb('name', 'ilike', like), eb('notes', 'ilike', like)]));
-  }
-  const [{ total }, rows] = await Promise.all([
-    base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow(),
-    base
-      .select([...storedColumns, currentState(now).as('state')])
-      // Codes sort by their number within a prefix (K-2 before K-10), as the sort key itself and as the tie-break.
-      .$if(q.sort === 'code', (qb) =>
-        qb
-          .orderBy(sql`split_part(code, '-', 1)`, (ob) => (q.order === 'desc' ? ob.desc() : ob.asc()))
-          .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`, (ob) => (q.order === 'desc' ? ob.desc() : ob.asc())),
-      )
-      .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-      .orderBy(sql`split_part(code, '-', 1)`)
-      .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`)
-      .orderBy('id')
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize)
-      .execute(),
-  ]);
-  return { items: rows.map(toEquipmentDto), total, page: q.page, pageSize: q.pageSize };
+  return pageOf(await equipmentPage(db, q, now), toEquipmentDto, q);
 }
 
 export async function findEquipment(db: Database, id: string, now: Date): Promise<Equipment | undefined> {
@@ -95,15 +60,7 @@ export async function getEquipmentOrThrow(db: Database, id: string, now: Date): 
 }
 
 export async function equipmentHistory(db: Database, equipmentId: string, limit = 100): Promise<EquipmentStateChange[]> {
-  const rows = await db
-    .selectFrom('equipment_state_change as c')
-    .leftJoin('app_user as u', 'u.id', 'c.actor_id')
-    .select(['c.id', 'c.from_state', 'c.to_state', 'c.reason', 'c.at', 'c.actor_id', 'u.name as actor_name'])
-    .where('c.equipment_id', '=', equipmentId)
-    .orderBy('c.at', 'desc')
-    .orderBy('c.id', 'desc')
-    .limit(limit)
-    .execute();
+  const rows = await stateChangeRows(db, equipmentId, limit);
   return rows.map((r) => ({
     id: String(r.id),
     fromState: r.from_state,
@@ -120,15 +77,7 @@ export async function equipmentHistory(db: Database, equipmentId: string, limit 
  */
 export async function nextEquipmentCode(db: Database, kind: EquipmentKind): Promise<string> {
   const prefix = equipmentCodePrefixes[kind];
-  const row = await db
-    .selectFrom('equipment')
-    .select([
-      sql<number | null>`max(nullif(split_part(code, '-', 2), '')::int)`.as('highest'),
-      sql<number | null>`max(length(split_part(code, '-', 2)))`.as('width'),
-    ])
-    .where(sql<boolean>`split_part(code, '-', 1) = ${prefix}`)
-    .where(sql<boolean>`split_part(code, '-', 2) ~ '^[0-9]+$'`)
-    .executeTakeFirst();
+  const row = await highestCodeNumber(db, prefix);
   const next = Number(row?.highest ?? 0) + 1;
   const width = Number(row?.width ?? 1);
   return `${prefix}-${String(next).padStart(width, '0')}`;
@@ -141,25 +90,20 @@ function isUniqueViolation(err: unknown): boolean {
 export async function createEquipment(db: Database, input: CreateEquipmentInput, actorId: string, now: Date): Promise<Equipment> {
   try {
     return await db.transaction().execute(async (trx) => {
-      const state = input.state ?? 'needs_cleaning';
-      const row = await trx
-        .insertInto('equipment')
-        .values({
+      const row = await insertEquipment(
+        trx,
+        {
           code: input.code,
           kind: input.kind,
           name: input.name,
-          capacity_liters: input.capacityLiters ?? null,
-          state,
-          attributes: sql`${JSON.stringify(input.attributes)}::jsonb`,
+          capacityLiters: input.capacityLiters ?? null,
+          state: input.state ?? 'needs_cleaning',
+          attributes: input.attributes,
           notes: input.notes ?? '',
-          state_changed_at: now,
-        })
-        .returning(columns)
-        .executeTakeFirstOrThrow();
-      await trx
-        .insertInto('equipment_state_change')
-        .values({ equipment_id: row.id, from_state: null, to_state: state, reason: 'Added to the registry', actor_id: actorId, at: now })
-        .execute();
+        },
+        actorId,
+        now,
+      );
       await audit(trx, actorId, 'created', 'Equipment', row.id, { code: row.code, kind: row.kind });
       return toEquipmentDto(row);
     });
@@ -177,19 +121,7 @@ export async function updateEquipment(db: Database, current: Equipment, input: U
   }
   try {
     return await db.transaction().execute(async (trx) => {
-      const row = await trx
-        .updateTable('equipment')
-        .set({
-          ...(input.code !== undefined ? { code: input.code } : {}),
-          ...(input.name !== undefined ? { name: input.name } : {}),
-          ...(input.capacityLiters !== undefined ? { capacity_liters: input.capacityLiters } : {}),
-          ...(input.notes !== undefined ? { notes: input.notes } : {}),
-          ...(attributes !== undefined ? { attributes: sql`${JSON.stringify(attributes)}::jsonb` } : {}),
-          updated_at: now,
-        })
-        .where('id', '=', current.id)
-        .returning(columns)
-        .executeTakeFirstOrThrow();
+      const row = await updateEquipmentRow(trx, current.id, { ...input, attributes }, now);
       await audit(trx, actorId, 'updated', 'Equipment', current.id, { ...input, ...(attributes ? { attributes } : {}) });
       return toEquipmentDto(row);
     });
@@ -207,7 +139,7 @@ export async function changeEquipmentState(
   trx: Database,
   change: { equipmentId: string; toState: VesselState; reason: string; actorId: string | null; at: Date },
 ): Promise<Equipment> {
-  const current = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', change.equipmentId).forUpdate().executeTakeFirst();
+  const current = await lockEquipment(trx, change.equipmentId);
   if (!current) throw notFound('Equipment');
   if (current.state === change.toState) {
     throw conflict(`${current.code} is already "${vesselStateLabels[change.toState]}".`, { title: 'No change' });
@@ -232,10 +164,6 @@ export async function setEquipmentState(
 
 export async function equipmentByIds(db: Database, ids: string[], now: Date): Promise<Equipment[]> {
   if (!ids.length) return [];
-  const rows = await selectEquipment(db, now)
-    .where('id', 'in', ids)
-    .orderBy(sql`split_part(code, '-', 1)`)
-    .orderBy(sql`nullif(split_part(code, '-', 2), '')::int`)
-    .execute();
+  const rows = await equipmentRowsByIds(db, ids, now);
   return rows.map(toEquipmentDto);
 }

@@ -1,24 +1,34 @@
-import { sql } from 'kysely';
 import {
   inspectionKindLabels,
   inspectionKindsByEquipment,
   type CreateInspectionInput,
   type InspectionBlock,
   type InspectionDue,
-  type InspectionKind,
   type InspectionView,
   type MaintenanceItem,
   type MaintenanceListQuery,
-  type MaintenanceStatus,
   type PressureSafetySettings,
 } from '../../../shared/schemas/inspections.ts';
-import type { Equipment, EquipmentKind, VesselState } from '../../../shared/schemas/equipment.ts';
+import type { Equipment, VesselState } from '../../../shared/schemas/equipment.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, unprocessable } from '../../lib/http-problem.ts';
 import { coopTimeZone } from '../billing/billing-profile.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
+import { pageOf } from '../../lib/paginate.ts';
+import { lockEquipment } from './equipment.repository.ts';
+import {
+  dueRowsOf,
+  idleItemsWithLapses,
+  inspectionRows,
+  insertInspection,
+  lastStateChangeReason,
+  lockItemForInspection,
+  maintenancePage,
+  setHydroTestDue,
+  type DueRow,
+} from './inspections.repository.ts';
 import { writeStateChange } from './vessel-state.ts';
 
 const FUTURE_SLACK_MS = 10 * 60_000;
@@ -38,45 +48,9 @@ const addMonths = (d: Date, months: number) => {
   return out;
 };
 
-/**
- * One row per item and inspection kind on record: the latest inspection (passed or failed) and
- * when the next is due. A cylinder's hydrostatic test is due on its registry date
- * (`attributes.hydroTestDue`, through the end of that day in the co-op's time zone), which a passing
- * test moves on; a cylinder with that date and no test on record has a row too.
- */
-function duesSql(timeZone: string) {
-  return sql`
-    with latest as (
-      select distinct on (i.equipment_id, i.kind) i.equipment_id, i.kind, i.at, i.passed, i.next_due_at
-      from equipment_inspection i
-      order by i.equipment_id, i.kind, i.at desc, i.created_at desc
-    ), cylinder_due as (
-      select e.id, ((((e.attributes->>'hydroTestDue')::date) + 1)::timestamp at time zone ${timeZone}) as due_at
-      from equipment e
-      where e.kind = 'co2_cylinder' and (e.attributes->>'hydroTestDue') ~ '^\\d{4}-\\d{2}-\\d{2}$'
-    )
-    select l.equipment_id, l.kind, l.at as last_at, not l.passed as failed,
-      coalesce(case when l.kind = 'hydrostatic_test' then cd.due_at end, l.next_due_at) as due_at
-    from latest l left join cylinder_due cd on cd.id = l.equipment_id
-    union all
-    select cd.id, 'hydrostatic_test', null, false, cd.due_at
-    from cylinder_due cd
-    where not exists (select 1 from latest l where l.equipment_id = cd.id and l.kind = 'hydrostatic_test')`;
-}
-
-interface DueRow {
-  equipment_id: string;
-  kind: InspectionKind;
-  last_at: Date | null;
-  failed: boolean;
-  due_at: Date | null;
-}
-
 async function dueRows(db: Database, ids: string[]): Promise<DueRow[]> {
   if (!ids.length) return [];
-  const tz = await coopTimeZone(db);
-  const { rows } = await sql<DueRow>`select * from (${duesSql(tz)}) d where d.equipment_id = any(${ids}::uuid[]) order by d.equipment_id, d.kind`.execute(db);
-  return rows;
+  return dueRowsOf(db, await coopTimeZone(db), ids);
 }
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
@@ -134,16 +108,13 @@ export async function assertInspected(db: Database, items: { id: string; code: s
  * inspection puts it back (see {@link recordInspection}). Returns how many items it took out.
  */
 export async function applyInspectionLapses(db: Database, now: Date): Promise<number> {
-  const tz = await coopTimeZone(db);
-  const { rows } = await sql<{ equipment_id: string }>`
-    select distinct d.equipment_id from (${duesSql(tz)}) d join equipment e on e.id = d.equipment_id
-    where e.state in ('ready', 'cleaned', 'needs_cleaning') and (d.failed or d.due_at <= ${now})`.execute(db);
+  const ids = await idleItemsWithLapses(db, await coopTimeZone(db), now);
   let taken = 0;
-  for (const { equipment_id: id } of rows) {
+  for (const id of ids) {
     // One transaction per item; inside a caller's transaction (the demo seed's), that one.
     const inOne = <T>(fn: (trx: Database) => Promise<T>) => (db.isTransaction ? fn(db) : db.transaction().execute(fn));
     taken += await inOne(async (trx) => {
-      const item = await trx.selectFrom('equipment').select(['id', 'state']).where('id', '=', id).forUpdate().executeTakeFirst();
+      const item = await lockEquipment(trx, id);
       if (!item || !['ready', 'cleaned', 'needs_cleaning'].includes(item.state)) return 0;
       const blocks = (await inspectionBlocks(trx, [id], now)).get(id);
       if (!blocks?.length) return 0;
@@ -156,15 +127,7 @@ export async function applyInspectionLapses(db: Database, now: Date): Promise<nu
 }
 
 export async function listInspections(db: Database, equipmentId: string, limit = 100): Promise<InspectionView[]> {
-  const rows = await db
-    .selectFrom('equipment_inspection as i')
-    .leftJoin('app_user as u', 'u.id', 'i.recorded_by')
-    .select(['i.id', 'i.kind', 'i.at', 'i.passed', 'i.next_due_at', 'i.note', 'i.recorded_by', 'u.name as recorder_name'])
-    .where('i.equipment_id', '=', equipmentId)
-    .orderBy('i.at', 'desc')
-    .orderBy('i.created_at', 'desc')
-    .limit(limit)
-    .execute();
+  const rows = await inspectionRows(db, equipmentId, limit);
   return rows.map((r) => ({
     id: r.id,
     kind: r.kind,
@@ -201,42 +164,30 @@ export async function recordInspection(db: Database, item: Equipment, input: Cre
   const timeZone = await coopTimeZone(db);
 
   const id = await db.transaction().execute(async (trx) => {
-    const current = await trx
-      .selectFrom('equipment')
-      .select(['id', 'code', 'kind', 'state', 'attributes'])
-      .where('id', '=', item.id)
-      .forUpdate()
-      .executeTakeFirstOrThrow();
-    const row = await trx
-      .insertInto('equipment_inspection')
-      .values({ equipment_id: item.id, kind: input.kind, at, passed: input.passed, next_due_at: nextDue, note: input.note ?? '', recorded_by: actorId })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+    const current = await lockItemForInspection(trx, item.id);
+    const row = await insertInspection(trx, {
+      equipmentId: item.id,
+      kind: input.kind,
+      at,
+      passed: input.passed,
+      nextDueAt: nextDue,
+      note: input.note ?? '',
+      recordedBy: actorId,
+    });
     if (input.kind === 'hydrostatic_test' && input.passed && nextDue) {
       // The registry's test date is the last day the cylinder may be used.
       const lastDay = new Date(nextDue.getTime() - 1);
       const date = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(lastDay);
-      await trx
-        .updateTable('equipment')
-        .set({ attributes: sql`jsonb_set(attributes, '{hydroTestDue}', to_jsonb(${date}::text))`, updated_at: now })
-        .where('id', '=', item.id)
-        .execute();
+      await setHydroTestDue(trx, item.id, date, now);
     }
     const label = inspectionKindLabels[input.kind].toLowerCase();
     const idle: VesselState[] = ['ready', 'cleaned', 'needs_cleaning'];
     if (!input.passed && idle.includes(current.state)) {
       await writeStateChange(trx, item.id, current.state, 'out_of_service', `${FAILED_REASON}: ${label}${input.note ? ` (${input.note})` : ''}`, actorId, now);
     } else if (input.passed && current.state === 'out_of_service') {
-      const last = await trx
-        .selectFrom('equipment_state_change')
-        .select('reason')
-        .where('equipment_id', '=', item.id)
-        .orderBy('at', 'desc')
-        .orderBy('id', 'desc')
-        .limit(1)
-        .executeTakeFirst();
+      const lastReason = await lastStateChangeReason(trx, item.id);
       const stillBlocked = (await inspectionBlocks(trx, [item.id], now)).has(item.id);
-      if ((last?.reason.startsWith(FAILED_REASON) || last?.reason.startsWith(OVERDUE_REASON)) && !stillBlocked) {
+      if ((lastReason?.startsWith(FAILED_REASON) || lastReason?.startsWith(OVERDUE_REASON)) && !stillBlocked) {
         const back: VesselState = current.kind === 'co2_cylinder' || current.kind === 'tap' ? 'ready' : 'needs_cleaning';
         await writeStateChange(trx, item.id, 'out_of_service', back, `Back in service: ${label} passed`, actorId, now);
       }
@@ -257,51 +208,16 @@ export async function recordInspection(db: Database, item: Equipment, input: Cre
 export async function listMaintenance(db: Database, q: MaintenanceListQuery, now: Date): Promise<Page<MaintenanceItem>> {
   const [tz, settings] = await Promise.all([coopTimeZone(db), pressureSafetySettings(db)]);
   const soon = new Date(now.getTime() + settings.dueSoonDays * DAY);
-  const like = q.q ? `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : null;
-  const base = sql`
-    from (
-      select d.*, case when d.failed then 'failed' when d.due_at <= ${now} then 'overdue' when d.due_at <= ${soon} then 'due_soon' end as status
-      from (${duesSql(tz)}) d
-    ) d
-    join equipment e on e.id = d.equipment_id
-    where d.status is not null
-      and (${q.status ?? null}::text is null or d.status = ${q.status ?? null})
-      and (${q.equipmentKind ?? null}::text is null or e.kind = ${q.equipmentKind ?? null})
-      and (${like}::text is null or e.code ilike ${like} or e.name ilike ${like})`;
-  const dir = q.order === 'desc' ? sql`desc` : sql`asc`;
-  const order =
-    q.sort === 'code'
-      ? sql`split_part(e.code, '-', 1) ${dir}, nullif(split_part(e.code, '-', 2), '')::int ${dir}`
-      : q.sort === 'kind'
-        ? sql`d.kind ${dir}`
-        : sql`d.due_at ${dir} nulls first`;
-  const [count, rows] = await Promise.all([
-    sql<{ total: number }>`select count(*)::int as total ${base}`.execute(db),
-    sql<{
-      id: string;
-      code: string;
-      name: string;
-      equipment_kind: EquipmentKind;
-      state: VesselState;
-      kind: InspectionKind;
-      due_at: Date | null;
-      status: MaintenanceStatus;
-      last_at: Date | null;
-    }>`
-      select e.id, e.code, e.name, e.kind as equipment_kind, e.state, d.kind, d.due_at, d.status, d.last_at ${base}
-      order by ${order}, d.due_at, split_part(e.code, '-', 1), nullif(split_part(e.code, '-', 2), '')::int, d.kind
-      limit ${q.pageSize} offset ${(q.page - 1) * q.pageSize}`.execute(db),
-  ]);
-  return {
-    items: rows.rows.map((r) => ({
+  const page = await maintenancePage(db, q, tz, now, soon);
+  return pageOf(
+    page,
+    (r) => ({
       equipment: { id: r.id, code: r.code, name: r.name, kind: r.equipment_kind, state: r.state },
       kind: r.kind,
       dueAt: iso(r.due_at),
-      status: r.status,
+      status: r.status!,
       lastAt: iso(r.last_at),
-    })),
-    total: count.rows[0]!.total,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
+    }),
+    q,
+  );
 }

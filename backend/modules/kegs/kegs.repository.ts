@@ -29,6 +29,18 @@ function kegBase(db: Database) {
 }
 type KegBase = ReturnType<typeof kegBase>;
 
+/** Where a keg is, by the aliases `kw` (its whereabouts), `tap` (the tap it is on) and `m` (the member holding it). */
+export const kegWhereaboutsColumns = [
+  sql<KegWhereabouts>`coalesce(kw.whereabouts, 'cellar')`.as('whereabouts'),
+  'kw.tap_id',
+  'tap.code as tap_code',
+  'tap.name as tap_name',
+  'tap.attributes as tap_attributes',
+  'kw.member_id',
+  'm.name as member_name',
+  'kw.due_at',
+] as const;
+
 function selectKeg(q: KegBase, now: Date) {
   return q.select((eb) => [
     'e.id',
@@ -39,16 +51,9 @@ function selectKeg(q: KegBase, now: Date) {
     'e.state as stored_state',
     effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('state'),
     freshUntilSql(eb.ref('e.id')).as('fresh_until'),
-    sql<KegWhereabouts>`coalesce(kw.whereabouts, 'cellar')`.as('whereabouts'),
+    ...kegWhereaboutsColumns,
     'kw.since',
-    'kw.tap_id',
-    'tap.code as tap_code',
-    'tap.name as tap_name',
-    'tap.attributes as tap_attributes',
-    'kw.member_id',
-    'm.name as member_name',
     'kw.checked_out_at',
-    'kw.due_at',
     sql<boolean>`(kw.whereabouts = 'with_member' and kw.due_at < ${now})`.as('overdue'),
     // Reminders to bring it back, while it is out with the member reminded.
     sql<Date | null>`(select max(r.sent_at) from reminder r where r.keg_id = e.id and kw.whereabouts = 'with_member'

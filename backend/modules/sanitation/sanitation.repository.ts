@@ -180,26 +180,34 @@ export async function vesselStatusPage(db: Database, q: VesselStatusQuery, now: 
   return { rows, total, last };
 }
 
+/** The columns of a step row that follow from how the co-op's rules judged the step. */
+export function judgedStepValues(cycleId: string, position: number, st: CycleEvaluation['steps'][number]) {
+  const { step, chemicalId, chemicalName, concentration, concentrationUnit, minimumContactMinutes, ok } = st;
+  return {
+    cycle_id: cycleId,
+    position,
+    step,
+    chemical_id: chemicalId,
+    chemical: chemicalName,
+    concentration,
+    concentration_unit: concentrationUnit,
+    minimum_contact_minutes: minimumContactMinutes,
+    ok,
+  };
+}
+
 /** The rows of a cycle's steps, as the co-op's rules judged them (`ev`), from the steps as entered (`raw`). */
 export function stepRows(cycleId: string, ev: CycleEvaluation, raw: readonly SanitationStepInput[], settings: SanitationSettings, actorId: string | null) {
   return ev.steps.map((st, position) => {
     const entered = raw[st.index]!;
     return {
-      cycle_id: cycleId,
-      position,
-      step: st.step,
-      chemical_id: st.chemicalId,
-      chemical: st.chemicalName,
-      concentration: st.concentration,
-      concentration_unit: st.concentrationUnit,
+      ...judgedStepValues(cycleId, position, st),
       contact_minutes: entered.contactMinutes ?? null,
-      minimum_contact_minutes: st.minimumContactMinutes,
       purge_method: st.step === 'purge' ? (entered.purgeMethod ?? 'flush') : null,
       co2_grams: st.step === 'purge' ? (entered.co2Grams ?? settings.co2GramsPerPurge) : null,
       solution_liters: entered.solutionLiters ?? null,
       performed_by: entered.performedBy ?? actorId,
       at: entered.at,
-      ok: st.ok,
       note: entered.note ?? '',
       exception_reason: st.exception ? st.exception.reason : null,
       exception_rules: st.exception ? st.exception.rules : [],

@@ -74,6 +74,58 @@ export async function insertKegFill(trx: Database, values: Insertable<KegFillTab
   return (await trx.insertInto('keg_fill').values(values).returning('id').executeTakeFirstOrThrow()).id;
 }
 
+/** The gravity figures a transfer and each of its fills carry (ABV to two decimals). */
+export interface FillFigures {
+  og: number | null;
+  fg: number | null;
+  abv: number | null;
+}
+
+export function fillFigures(figures: { og: number | null; fg: number | null; abv: number | null } | null | undefined): FillFigures {
+  const abv = figures?.abv ?? null;
+  return { og: figures?.og ?? null, fg: figures?.fg ?? null, abv: abv !== null ? Math.round(abv * 100) / 100 : null };
+}
+
+/** A transfer row's finings, CO2 and gravity columns. */
+export function transferFigureValues(
+  finings: { kind: string; amount: number | null; unit: 'g' | 'mL' | null } | null | undefined,
+  co2Grams: number,
+  f: FillFigures,
+) {
+  return { finings_kind: finings?.kind ?? null, finings_amount: finings?.amount ?? null, finings_unit: finings?.unit ?? null, co2_grams: co2Grams, ...f };
+}
+
+/** What every keg filled at one transfer shares. */
+export interface TransferFill extends FillFigures {
+  transferId: string;
+  batchId: string;
+  co2Grams: number;
+  at: Date;
+  bestBefore: Date | null;
+}
+
+/** A keg fill row: the transfer's share and the keg's own part. */
+export function kegFillValues(
+  fill: TransferFill,
+  keg: { kegId: string; liters: number; cycleId: string | null; dissolvedOxygenPpb: number | null },
+): Insertable<KegFillTable> {
+  return {
+    transfer_id: fill.transferId,
+    keg_id: keg.kegId,
+    batch_id: fill.batchId,
+    volume_liters: keg.liters,
+    remaining_liters: keg.liters,
+    og: fill.og,
+    fg: fill.fg,
+    abv: fill.abv,
+    sanitation_cycle_id: keg.cycleId,
+    co2_grams: fill.co2Grams,
+    filled_at: fill.at,
+    best_before: fill.bestBefore,
+    dissolved_oxygen_ppb: keg.dissolvedOxygenPpb,
+  };
+}
+
 /** Transfers by id with their batch, fermenter and recorder, and the fills they made (by keg code). */
 export async function transferRows(db: Database, ids: string[]) {
   return Promise.all([

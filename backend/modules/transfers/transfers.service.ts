@@ -21,13 +21,16 @@ import { gravityNotStable, gravityStability } from './gravity-stability.ts';
 import {
   candidateRows,
   cyclesByIds,
+  fillFigures,
   insertKegFill,
   insertTransfer,
+  kegFillValues,
   lockBatch,
   lockFermenter,
   lockKegsForFill,
   markBatchPackaged,
   setBatchPackagedStatus,
+  transferFigureValues,
   transferPage,
   transferRows,
 } from './transfers.repository.ts';
@@ -175,10 +178,7 @@ export async function recordTransfer(
 
       // The batch is packaged from here on: its FG is the latest reading.
       await setBatchPackagedStatus(trx, batch.id, now);
-      const figures = await batchGravityFigures(trx, batch.id, now);
-      const og = figures?.og ?? null;
-      const fg = figures?.fg ?? null;
-      const abv = figures?.abv !== null && figures?.abv !== undefined ? Math.round(figures.abv * 100) / 100 : null;
+      const figures = fillFigures(await batchGravityFigures(trx, batch.id, now));
 
       const transferId = await insertTransfer(trx, {
         batch_id: batch.id,
@@ -188,13 +188,7 @@ export async function recordTransfer(
         loss_liters: loss,
         draw_method: method,
         checklist: JSON.stringify({ ...input.checklist, drawMethod: method, unconfirmed }),
-        finings_kind: finings?.kind ?? null,
-        finings_amount: finings?.amount ?? null,
-        finings_unit: finings?.unit ?? null,
-        co2_grams: co2,
-        og,
-        fg,
-        abv,
+        ...transferFigureValues(finings, co2, figures),
         transferred_at: at,
         started_at: startedAt,
         ended_at: endedAt,
@@ -205,23 +199,10 @@ export async function recordTransfer(
       });
 
       const perKegCo2 = Math.round((co2 / ordered.length) * 10) / 10;
-      const bestBefore = await fillBestBefore(trx, batch.id, at);
+      const fill = { transferId, batchId: batch.id, ...figures, co2Grams: perKegCo2, at, bestBefore: await fillBestBefore(trx, batch.id, at) };
       for (const [i, k] of ordered.entries()) {
-        const fillId = await insertKegFill(trx, {
-          transfer_id: transferId,
-          keg_id: k.id,
-          batch_id: batch.id,
-          volume_liters: perKeg[i]!,
-          remaining_liters: perKeg[i]!,
-          og,
-          fg,
-          abv,
-          sanitation_cycle_id: k.last_cycle_id,
-          co2_grams: perKegCo2,
-          filled_at: at,
-          best_before: bestBefore,
-          dissolved_oxygen_ppb: input.kegDissolvedOxygenPpb?.[i] ?? null,
-        });
+        const keg = { kegId: k.id, liters: perKeg[i]!, cycleId: k.last_cycle_id, dissolvedOxygenPpb: input.kegDissolvedOxygenPpb?.[i] ?? null };
+        const fillId = await insertKegFill(trx, kegFillValues(fill, keg));
         // The CO2 billed for the fill comes off the connected cylinder.
         await drawCo2(trx, { grams: perKegCo2, sourceType: 'keg_fill', sourceId: fillId, actorId: actor.id, at, now });
         await setVesselState(trx, k.id, 'holding', `Filled with ${batch.name} from ${fermenter.code} (${perKeg[i]} L)`, actor.id, now);
