@@ -1,6 +1,7 @@
 import { EventEmitter } from 'node:events';
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
+import { dispatchJobs, type WorkerSlot } from './worker-pool.ts';
 
 /**
  * PDF rendering off the event loop: a small, bounded pool of worker threads (see
@@ -30,10 +31,7 @@ interface Pending {
   reject(err: Error): void;
 }
 
-interface Slot {
-  worker: Worker;
-  busy: Pending | null;
-}
+type Slot = WorkerSlot<Pending>;
 
 export class PdfRenderError extends Error {
   constructor(
@@ -82,18 +80,14 @@ export class PdfRenderPool {
   }
 
   private pump() {
-    while (this.queue.length) {
-      let slot = this.slots.find((s) => !s.busy);
-      if (!slot) {
-        if (this.slots.length >= this.size) return;
-        slot = this.spawn();
-      }
-      const pending = this.queue.shift()!;
-      slot.busy = pending;
-      slot.worker.ref();
-      this.events.emit('start', { exportName: pending.job.exportName });
-      slot.worker.postMessage({ id: pending.id, module: pending.job.module.href, exportName: pending.job.exportName, args: pending.job.args });
-    }
+    dispatchJobs(
+      { queue: this.queue, slots: this.slots, size: this.size, closed: this.closed },
+      () => this.spawn(),
+      (slot, pending) => {
+        this.events.emit('start', { exportName: pending.job.exportName });
+        slot.worker.postMessage({ id: pending.id, module: pending.job.module.href, exportName: pending.job.exportName, args: pending.job.args });
+      },
+    );
   }
 
   private spawn(): Slot {
