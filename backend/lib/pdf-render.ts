@@ -1,7 +1,7 @@
 import { EventEmitter } from 'node:events';
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
-import { dispatchJobs, type WorkerSlot } from './worker-pool.ts';
+import { dispatchJobs, terminateSlots, type WorkerSlot } from './worker-pool.ts';
 
 /**
  * PDF rendering off the event loop: a small, bounded pool of worker threads (see
@@ -70,13 +70,7 @@ export class PdfRenderPool {
   async close(): Promise<void> {
     this.closed = true;
     for (const p of this.queue.splice(0)) p.reject(new PdfRenderError('The PDF render pool was closed.'));
-    await Promise.all(
-      this.slots.splice(0).map((s) => {
-        s.busy?.reject(new PdfRenderError('The PDF render pool was closed.'));
-        s.busy = null;
-        return s.worker.terminate();
-      }),
-    );
+    await terminateSlots(this.slots, () => new PdfRenderError('The PDF render pool was closed.'));
   }
 
   private pump() {

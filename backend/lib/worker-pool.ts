@@ -29,3 +29,19 @@ export function dispatchJobs<J, S extends WorkerSlot<J>>(
     start(slot, job);
   }
 }
+
+/** Stops every thread of a pool; the job each was running is rejected with `refusal()`. `each` runs first for every thread. */
+export async function terminateSlots<J extends { reject(err: Error): void }, S extends WorkerSlot<J>>(
+  slots: S[],
+  refusal: () => Error,
+  each?: (slot: S) => void,
+): Promise<void> {
+  await Promise.all(
+    slots.splice(0).map((s) => {
+      each?.(s);
+      s.busy?.reject(refusal());
+      s.busy = null;
+      return s.worker.terminate();
+    }),
+  );
+}

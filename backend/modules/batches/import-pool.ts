@@ -2,7 +2,7 @@ import { EventEmitter } from 'node:events';
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { HttpProblem } from '../../lib/http-problem.ts';
-import { dispatchJobs, type WorkerSlot } from '../../lib/worker-pool.ts';
+import { dispatchJobs, terminateSlots, type WorkerSlot } from '../../lib/worker-pool.ts';
 import type { PrepareInput, PrepareProgress, PrepareResult } from './import-check.ts';
 
 /**
@@ -101,14 +101,9 @@ export class ImportPool {
     this.closed = true;
     const gone = () => new HttpProblem(503, 'Service unavailable', 'The server is shutting down; try the import again in a moment.');
     for (const p of this.queue.splice(0)) p.reject(gone());
-    await Promise.all(
-      this.slots.splice(0).map((s) => {
-        if (s.timer) clearTimeout(s.timer);
-        s.busy?.reject(gone());
-        s.busy = null;
-        return s.worker.terminate();
-      }),
-    );
+    await terminateSlots(this.slots, gone, (s) => {
+      if (s.timer) clearTimeout(s.timer);
+    });
   }
 
   private pump() {
