@@ -7,6 +7,7 @@ import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import { createBooking, listBookings } from '../modules/bookings/bookings.service.ts';
 import { equipmentByIds } from '../modules/equipment/equipment.service.ts';
 import { renderLabelSheet } from '../modules/equipment/labels-pdf.service.ts';
+import { coopProfile } from '../modules/settings/settings.service.ts';
 import { bookingListQuerySchema } from '../../shared/schemas/booking.ts';
 import { benchDatabase, peakRssMiB } from './bench-db.ts';
 
@@ -108,9 +109,9 @@ try {
     (await db.selectFrom('equipment').select('id').execute()).map((e) => e.id),
     systemClock.now(),
   );
-  await renderLabelSheet(all.slice(0, 3), 'http://127.0.0.1:3000'); // warm-up: font load
+  await renderLabelSheet(all.slice(0, 3), 'http://127.0.0.1:3000', await coopProfile(db)); // warm-up: font load
   t0 = performance.now();
-  const pdf = await renderLabelSheet(all, 'http://127.0.0.1:3000');
+  const pdf = await renderLabelSheet(all, 'http://127.0.0.1:3000', await coopProfile(db));
   const labelsMs = performance.now() - t0;
 
   const sorted = [...raceMs].sort((a, b) => a - b);

@@ -4,7 +4,7 @@
 // embedding alone), then end to end (read the invoice, its lines, payments and credit notes, then
 // render). The fonts are TrueType, read once into pdfmake's virtual file system (backend/lib/pdf.ts).
 // Prints times and peak memory; not a test.
-import { getBillingProfile } from '../modules/billing/billing-profile.service.ts';
+import { coopProfile } from '../modules/settings/settings.service.ts';
 import { invoiceDocument, renderInvoicePdf } from '../modules/billing/invoice-pdf.ts';
 import { getDetail } from '../modules/billing/invoices.service.ts';
 import { benchDatabase, peakRssMiB } from './bench-db.ts';
@@ -20,18 +20,19 @@ try {
     (r) => r.id,
   );
   if (ids.length === 0) throw new Error('the demo seed made no invoices');
-  const profile = await getBillingProfile(db);
+  const profile = await coopProfile(db);
+  const producedAt = new Date('2026-12-01T09:00:00Z');
   const details = await Promise.all(ids.map((id) => getDetail(db, id, today)));
   const lines = details.reduce((s, d) => s + d.lines.length, 0);
   console.log(`  ${ids.length} demo invoices (${(lines / ids.length).toFixed(1)} lines each on average), cycled to ${COUNT} PDFs`);
 
   // Warm-up: the first document loads and parses the font.
-  await renderInvoicePdf({ invoice: details[0]!, profile, appUrl });
+  await renderInvoicePdf({ invoice: details[0]!, profile, appUrl, producedAt });
 
   let bytes = 0;
   let t0 = performance.now();
   for (let i = 0; i < COUNT; i++) {
-    const pdf = await renderInvoicePdf({ invoice: details[i % details.length]!, profile, appUrl });
+    const pdf = await renderInvoicePdf({ invoice: details[i % details.length]!, profile, appUrl, producedAt });
     bytes += pdf.length;
   }
   const renderMs = performance.now() - t0;
@@ -39,12 +40,12 @@ try {
   t0 = performance.now();
   for (let i = 0; i < COUNT; i++) {
     const invoice = await getDetail(db, ids[i % ids.length]!, today);
-    await renderInvoicePdf({ invoice, profile, appUrl });
+    await renderInvoicePdf({ invoice, profile, appUrl, producedAt });
   }
   const endToEndMs = performance.now() - t0;
 
   t0 = performance.now();
-  for (let i = 0; i < COUNT; i++) invoiceDocument({ invoice: details[i % details.length]!, profile, appUrl });
+  for (let i = 0; i < COUNT; i++) invoiceDocument({ invoice: details[i % details.length]!, profile, appUrl, producedAt });
   const definitionMs = performance.now() - t0;
 
   const row = (label: string, ms: number) =>

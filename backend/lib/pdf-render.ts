@@ -1,6 +1,7 @@
 import { EventEmitter } from 'node:events';
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
+import { dispatchJobs, terminateSlots, type WorkerSlot } from './worker-pool.ts';
 
 /**
  * PDF rendering off the event loop: a small, bounded pool of worker threads (see
@@ -30,10 +31,7 @@ interface Pending {
   reject(err: Error): void;
 }
 
-interface Slot {
-  worker: Worker;
-  busy: Pending | null;
-}
+type Slot = WorkerSlot<Pending>;
 
 export class PdfRenderError extends Error {
   constructor(
@@ -72,28 +70,18 @@ export class PdfRenderPool {
   async close(): Promise<void> {
     this.closed = true;
     for (const p of this.queue.splice(0)) p.reject(new PdfRenderError('The PDF render pool was closed.'));
-    await Promise.all(
-      this.slots.splice(0).map((s) => {
-        s.busy?.reject(new PdfRenderError('The PDF render pool was closed.'));
-        s.busy = null;
-        return s.worker.terminate();
-      }),
-    );
+    await terminateSlots(this.slots, () => new PdfRenderError('The PDF render pool was closed.'));
   }
 
   private pump() {
-    while (this.queue.length) {
-      let slot = this.slots.find((s) => !s.busy);
-      if (!slot) {
-        if (this.slots.length >= this.size) return;
-        slot = this.spawn();
-      }
-      const pending = this.queue.shift()!;
-      slot.busy = pending;
-      slot.worker.ref();
-      this.events.emit('start', { exportName: pending.job.exportName });
-      slot.worker.postMessage({ id: pending.id, module: pending.job.module.href, exportName: pending.job.exportName, args: pending.job.args });
-    }
+    dispatchJobs(
+      { queue: this.queue, slots: this.slots, size: this.size, closed: this.closed },
+      () => this.spawn(),
+      (slot, pending) => {
+        this.events.emit('start', { exportName: pending.job.exportName });
+        slot.worker.postMessage({ id: pending.id, module: pending.job.module.href, exportName: pending.job.exportName, args: pending.job.args });
+      },
+    );
   }
 
   private spawn(): Slot {

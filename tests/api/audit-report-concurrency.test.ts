@@ -8,9 +8,12 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { PdfRenderPool, pdfRenderPool } from '../../backend/lib/pdf-render.ts';
 import { problemHandler } from '../../backend/middleware/problem-handler.ts';
-import type { AuditData } from '../../backend/modules/sanitation/audit-report.ts';
+import type { AuditData } from '../../backend/modules/sanitation/audit-report-data.ts';
+import { cycleFields, stepRows } from '../../backend/modules/sanitation/sanitation.repository.ts';
 import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
 import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.ts';
+import { defaultBillingProfile } from '../../shared/schemas/billing.ts';
+import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
 import { createFermenter } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 import { TEST_NOW } from '../helpers/time.ts';
@@ -51,43 +54,17 @@ beforeAll(async () => {
   const steps: Record<string, unknown>[] = [];
   for (const [k, v] of vessels.entries()) {
     for (let t = from.getTime() + k * 3_600_000; t < to.getTime() - DAY; t += 3 * DAY) {
-      const list = [
-        { step: 'clean' as const, chemical: 'alkaline-cleaner', contactMinutes: 60, at: new Date(t) },
-        { step: 'rinse' as const, at: new Date(t + 65 * MIN) },
-        { step: 'sanitize' as const, chemical: 'acid-sanitizer', contactMinutes: 2, at: new Date(t + 75 * MIN) },
-        { step: 'purge' as const, contactMinutes: 0.5, at: new Date(t + 80 * MIN) },
+      const at = (ms: number) => new Date(t + ms).toISOString();
+      const list: SanitationStepInput[] = [
+        { step: 'clean', chemical: 'alkaline-cleaner', contactMinutes: 60, at: at(0) },
+        { step: 'rinse', at: at(65 * MIN) },
+        { step: 'sanitize', chemical: 'acid-sanitizer', contactMinutes: 2, at: at(75 * MIN) },
+        { step: 'purge', contactMinutes: 0.5, at: at(80 * MIN) },
       ];
       const ev = evaluateCycle(list, defaultSanitationSettings);
       const id = crypto.randomUUID();
-      cycles.push({
-        id,
-        equipment_id: v.id,
-        started_at: ev.startedAt,
-        completed_at: ev.completedAt,
-        outcome: ev.outcome,
-        complete: ev.complete,
-        issues: JSON.stringify(ev.issues),
-        freshness_days: ev.complete ? 7 : null,
-        fresh_until: ev.freshUntil,
-        recorded_by: brewer.user.id,
-      });
-      ev.steps.forEach((st, position) => {
-        steps.push({
-          cycle_id: id,
-          position,
-          step: st.step,
-          chemical_id: st.chemicalId,
-          chemical: st.chemicalName,
-          concentration: st.concentration,
-          concentration_unit: st.concentrationUnit,
-          contact_minutes: list[st.index]!.contactMinutes ?? null,
-          minimum_contact_minutes: st.minimumContactMinutes,
-          purge_method: st.step === 'purge' ? 'flush' : null,
-          performed_by: brewer.user.id,
-          at: list[st.index]!.at,
-          ok: st.ok,
-        });
-      });
+      cycles.push({ id, equipment_id: v.id, ...cycleFields(ev, defaultSanitationSettings), recorded_by: brewer.user.id });
+      steps.push(...stepRows(id, ev, list, defaultSanitationSettings, brewer.user.id));
     }
   }
   cycleCount = cycles.length;
@@ -138,7 +115,7 @@ describe('a long sanitation audit renders off the event loop', () => {
     const pages = Number(/Page 1 of (\d+)/.exec(text)?.[1]);
     expect(pages).toBeGreaterThan(50);
     expect(text).toContain(`Page ${pages} of ${pages}`);
-    expect(text).toContain('Sanitation audit 1 Dec 2025 to 30 Nov 2026');
+    expect(text).toContain(`${defaultBillingProfile.coopName} · Sanitation audit 1 Dec 2025 to 30 Nov 2026`);
   });
 
   it('renders two reports asked for at once, each complete', async () => {
@@ -166,7 +143,8 @@ describe('failures on a render thread', () => {
     fs.rmSync(dir, { recursive: true, force: true });
   });
 
-  const broken = { from, to, producedAt: new Date(TEST_NOW), vessels: null, exceptions: [], settings: defaultSanitationSettings } as unknown as AuditData;
+  const coop = { coopName: 'Quarry Lane Brewers', addressLines: ['2 Quarry Lane'], email: 'books@quarry.example', timeZone: 'Europe/London' };
+  const broken = { from, to, producedAt: new Date(TEST_NOW), coop, vessels: null, exceptions: [], settings: defaultSanitationSettings } as unknown as AuditData;
   const auditModule = new URL('../../backend/modules/sanitation/audit-report.ts', import.meta.url);
 
   it('reach the problem handler as a 500 problem, and the process and the pool carry on', async () => {
@@ -185,6 +163,7 @@ describe('failures on a render thread', () => {
     const good = await pool.render({ module: auditModule, exportName: 'renderAuditPdf', args: [{ ...broken, vessels: [] }, 'every fermenter and keg'] });
     expect(good.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(pdfText(good)).toContain('0 vessels · 0 cycles');
+    expect(pdfText(good)).toContain('Quarry Lane Brewers');
   });
 
   it('reject only the job of a thread that stops, and start a new thread for the next', async () => {
@@ -201,6 +180,6 @@ describe('warming the render thread at start', () => {
     const pdf = await warmAuditRenderer();
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     const text = execFileSync('pdftotext', ['-', '-'], { input: pdf }).toString();
-    expect(text).toContain('Larkspur Yard Brewing Co-op');
+    expect(text).toContain('Cellarwright');
   });
 });

@@ -2,6 +2,7 @@ import { EventEmitter } from 'node:events';
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { HttpProblem } from '../../lib/http-problem.ts';
+import { dispatchJobs, terminateSlots, type WorkerSlot } from '../../lib/worker-pool.ts';
 import type { PrepareInput, PrepareProgress, PrepareResult } from './import-check.ts';
 
 /**
@@ -35,9 +36,7 @@ interface Pending {
   reject(err: Error): void;
 }
 
-interface Slot {
-  worker: Worker;
-  busy: Pending | null;
+interface Slot extends WorkerSlot<Pending> {
   timer: NodeJS.Timeout | null;
 }
 
@@ -102,34 +101,24 @@ export class ImportPool {
     this.closed = true;
     const gone = () => new HttpProblem(503, 'Service unavailable', 'The server is shutting down; try the import again in a moment.');
     for (const p of this.queue.splice(0)) p.reject(gone());
-    await Promise.all(
-      this.slots.splice(0).map((s) => {
-        if (s.timer) clearTimeout(s.timer);
-        s.busy?.reject(gone());
-        s.busy = null;
-        return s.worker.terminate();
-      }),
-    );
+    await terminateSlots(this.slots, gone, (s) => {
+      if (s.timer) clearTimeout(s.timer);
+    });
   }
 
   private pump() {
-    while (this.queue.length && !this.closed) {
-      let slot = this.slots.find((s) => !s.busy);
-      if (!slot) {
-        if (this.slots.length >= this.size) return;
-        slot = this.spawn();
-      }
-      const pending = this.queue.shift()!;
-      slot.busy = pending;
-      slot.worker.ref();
-      const s = slot;
-      s.timer = setTimeout(() => this.timeOut(s), this.timeLimitMs);
-      this.events.emit('start');
-      // The bytes go over in a buffer of their own, handed over without another copy.
-      const bytes = new Uint8Array(pending.input.file.bytes.byteLength);
-      bytes.set(pending.input.file.bytes);
-      slot.worker.postMessage({ id: pending.id, input: { ...pending.input, file: { ...pending.input.file, bytes } } }, [bytes.buffer]);
-    }
+    dispatchJobs(
+      { queue: this.queue, slots: this.slots, size: this.size, closed: this.closed },
+      () => this.spawn(),
+      (slot, pending) => {
+        slot.timer = setTimeout(() => this.timeOut(slot), this.timeLimitMs);
+        this.events.emit('start');
+        // The bytes go over in a buffer of their own, handed over without another copy.
+        const bytes = new Uint8Array(pending.input.file.bytes.byteLength);
+        bytes.set(pending.input.file.bytes);
+        slot.worker.postMessage({ id: pending.id, input: { ...pending.input, file: { ...pending.input.file, bytes } } }, [bytes.buffer]);
+      },
+    );
   }
 
   private settle(slot: Slot, ok = false): Pending | null {

@@ -6,7 +6,7 @@ import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { defaultLocale, formatDate } from '../../../shared/format/index.ts';
-import { coopTimeZone } from '../settings/settings.service.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 import { findVisibleBatch } from './batches.service.ts';
 import { batchTrace, traceCsv, tracePdf, traceReport, type TraceViewer } from './trace.service.ts';
 
@@ -45,9 +45,9 @@ export function addBatchTraceRoutes(router: Router, { db, clock }: Pick<Deps, 'd
   router.get('/:id/trace.pdf', async (req, res) => {
     const trace = await load(req);
     const now = clock.now();
-    const timeZone = await coopTimeZone(db);
-    const asOf = formatDate(now, { locale: defaultLocale, timeZone });
-    const pdf = await tracePdf(`Trace: ${trace.batch.name}`, `Every keg the batch went into and where each is now, as of ${asOf}.`, [trace], now, timeZone);
+    const coop = await coopProfile(db);
+    const asOf = formatDate(now, { locale: defaultLocale, timeZone: coop.timeZone });
+    const pdf = await tracePdf(`Trace: ${trace.batch.name}`, `Every keg the batch went into and where each is now, as of ${asOf}.`, [trace], now, coop);
     res
       .type('application/pdf')
       .set('Content-Disposition', `inline; filename="trace-${safeName(trace.batch.name)}.pdf"`)
@@ -73,14 +73,14 @@ export function traceReportRoutes({ db, clock }: Deps): Router {
     if (q.format === 'csv') {
       res.type('text/csv; charset=utf-8').attachment(`${name}.csv`).send(traceCsv(report.batches));
     } else if (q.format === 'pdf') {
-      const timeZone = await coopTimeZone(db);
-      const ctx = { locale: defaultLocale, timeZone };
+      const coop = await coopProfile(db);
+      const ctx = { locale: defaultLocale, timeZone: coop.timeZone };
       const pdf = await tracePdf(
         'Trace report',
         `Kegs filled ${formatDate(q.from, ctx)} to ${formatDate(q.to, ctx)}, by batch, and where each is now (as of ${formatDate(now, ctx)}).`,
         report.batches,
         now,
-        timeZone,
+        coop,
       );
       res.type('application/pdf').set('Content-Disposition', `inline; filename="${name}.pdf"`).set('Cache-Control', 'no-store').send(pdf);
     } else {

@@ -1,13 +1,13 @@
-import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
+import type { Content } from 'pdfmake/interfaces';
 import { beerFacts, bestBeforeState, type FiningsDose } from '../../../shared/cellar/trace.ts';
-import { alcoholCaution, deferToLocalCodes, pressureCautions } from '../../../shared/cellar/cautions.ts';
+import { alcoholCaution, pressureCautions } from '../../../shared/cellar/cautions.ts';
 import type { BatchTrace, TraceFill, TraceReport } from '../../../shared/schemas/trace.ts';
 import type { Database } from '../../db/database.ts';
 import type { BatchStatus } from '../../db/tables/batches.ts';
 import { csvTable, type Column } from '../../lib/tabular-export.ts';
-import { defaultLocale, formatDate, formatDateTime, formatNumber, formatVolume, type FormatContext } from '../../../shared/format/index.ts';
-import { pdfFont, renderPdf } from '../../lib/pdf.ts';
-import { coopName } from '../sanitation/audit-report.ts';
+import { defaultLocale, formatDate, formatNumber, formatVolume, type FormatContext } from '../../../shared/format/index.ts';
+import { renderPdf } from '../../lib/pdf.ts';
+import { framedDocument, pdfColours, type PdfCoop } from '../../lib/pdf-frame.ts';
 import { effectiveStateSql } from '../equipment/vessel-state.ts';
 import { kegWhereaboutsColumns } from '../kegs/kegs.repository.ts';
 import { loadShelfLifeSettings } from './shelf-life.ts';
@@ -272,9 +272,7 @@ export function traceCsv(traces: BatchTrace[]): string {
   return csvTable({ columns: csvColumns, rows: traces.flatMap((t) => t.fills.map((f) => ({ t, f }))) });
 }
 
-const ink = '#1f2328';
-const muted = '#5b6470';
-const danger = '#9a2a1c';
+const { muted } = pdfColours;
 
 function batchBlock(t: BatchTrace, ctx: FormatContext): Content[] {
   const day = (v: string | null | undefined) => (v ? formatDate(v, ctx) : '');
@@ -322,41 +320,26 @@ function batchBlock(t: BatchTrace, ctx: FormatContext): Content[] {
   ];
 }
 
-/** The trace as a PDF (one batch, or every batch filled in a date range). */
-export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], now: Date, timeZone: string): Promise<Buffer> {
-  const ctx: FormatContext = { locale: defaultLocale, timeZone, units: 'metric' };
-  const doc: TDocumentDefinitions = {
-    pageSize: 'A4',
-    pageOrientation: 'landscape',
-    pageMargins: [36, 40, 36, 40],
-    info: { title, author: coopName, creator: 'Cellarwright' },
-    defaultStyle: { font: pdfFont, fontSize: 8, color: ink, lineHeight: 1.1 },
-    footer: (page, pages) => ({
-      margin: [36, 10, 36, 0],
-      columns: [
-        { text: `Produced ${formatDateTime(now, ctx)} (${timeZone}) by Cellarwright`, fontSize: 7, color: muted },
-        { text: `Page ${page} of ${pages}`, alignment: 'right', fontSize: 7, color: muted },
+/** The trace as a PDF (one batch, or every batch filled in a date range), in the one PDF frame. */
+export function tracePdf(title: string, subtitle: string, traces: BatchTrace[], now: Date, coop: PdfCoop): Promise<Buffer> {
+  const ctx: FormatContext = { locale: defaultLocale, timeZone: coop.timeZone, units: 'metric' };
+  return renderPdf(
+    framedDocument({
+      coop,
+      title,
+      producedAt: now,
+      density: 'report',
+      pageOrientation: 'landscape',
+      cautions: [...pressureCautions, alcoholCaution],
+      content: [
+        { text: subtitle, color: muted, margin: [0, 10, 0, 0] },
+        ...(traces.length ? traces.flatMap((t) => batchBlock(t, ctx)) : [{ text: 'No kegs were filled in this range.', margin: [0, 12, 0, 0] } as Content]),
+        {
+          text: 'Allergens are the batch’s own notes and what its finings add (gelatin and isinglass are animal-derived, so not vegan; silica finings are vegan: common practice). Labels and recalls: local food rules govern what must be declared.',
+          color: muted,
+          margin: [0, 14, 0, 0],
+        },
       ],
     }),
-    content: [
-      { text: title, fontSize: 18 },
-      { text: coopName, fontSize: 11, color: '#a0522d', margin: [0, 2, 0, 0] },
-      { text: subtitle, color: muted, margin: [0, 4, 0, 0] },
-      ...(traces.length ? traces.flatMap((t) => batchBlock(t, ctx)) : [{ text: 'No kegs were filled in this range.', margin: [0, 12, 0, 0] } as Content]),
-      {
-        text: 'Allergens are the batch’s own notes and what its finings add (gelatin and isinglass are animal-derived, so not vegan; silica finings are vegan: common practice). Labels and recalls: local food rules govern what must be declared.',
-        color: muted,
-        margin: [0, 14, 0, 0],
-      },
-      {
-        stack: [
-          { text: 'Safety cautions', fontSize: 12, color: danger, margin: [0, 12, 0, 4] },
-          { ul: [...pressureCautions, alcoholCaution] },
-          { text: deferToLocalCodes, color: muted, margin: [0, 4, 0, 0] },
-        ],
-        unbreakable: true,
-      },
-    ],
-  };
-  return renderPdf(doc);
+  );
 }

@@ -5,10 +5,10 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, unprocessable } from '../../lib/http-problem.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
-import { getBillingProfile } from './billing-profile.service.ts';
 import { findCreditNote } from './credit-notes.repository.ts';
 import { lockInvoice, recordPayment, settle } from './invoice-commands.service.ts';
 import { renderCreditNotePdf } from './invoice-pdf.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 import { detailAsOf } from './invoice-queries.service.ts';
 import { takeNumber } from './numbering.ts';
 
@@ -184,7 +184,8 @@ export async function creditNotePdf(db: Database, note: { id: string; invoiceId:
   return renderCreditNotePdf({
     note: credit,
     invoice,
-    profile: await getBillingProfile(db),
+    profile: await coopProfile(db),
+    producedAt: now,
     refund: payback ? { amountCents: -payback.amountCents, method: payback.method === 'cash' ? 'cash' : 'bank_transfer', on: payback.receivedOn } : null,
   });
 }

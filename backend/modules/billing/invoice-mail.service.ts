@@ -3,8 +3,9 @@ import type { Deps } from '../../lib/deps.ts';
 import { conflict } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { invoiceMail } from '../mail/templates/invoice.ts';
-import { coopToday, getBillingProfile } from './billing-profile.service.ts';
+import { coopToday } from './billing-profile.service.ts';
 import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 import { getDetail, issueInvoice, markSent } from './invoices.service.ts';
 
 /**
@@ -23,8 +24,8 @@ export async function sendInvoice({ db, config, queue, clock }: Deps, invoiceId:
   });
   const { today } = await coopToday(db, now);
   const invoice = await getDetail(db, invoiceId, today);
-  const profile = await getBillingProfile(db);
-  const pdf = await renderInvoicePdf({ invoice, profile, appUrl: config.publicUrl });
+  const profile = await coopProfile(db);
+  const pdf = await renderInvoicePdf({ invoice, profile, appUrl: config.publicUrl, producedAt: now });
   const total = formatMoney(invoice.totalCents, invoice.currency, 'en-GB');
   const due = formatMoney(invoice.amountDueCents, invoice.currency, 'en-GB');
   await enqueueMail(queue, {

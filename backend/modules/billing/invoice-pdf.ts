@@ -2,12 +2,13 @@ import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interface
 import { longDate, periodLabel } from '../../../shared/billing/dates.ts';
 import { formatMoney, formatRate } from '../../../shared/billing/money.ts';
 import type { BillingProfile, CreditNote, InvoiceDetail } from '../../../shared/schemas/billing.ts';
-import { keepHeadingsWithNext, pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { framedDocument, pdfColours, type PdfCoop } from '../../lib/pdf-frame.ts';
+import { renderPdf } from '../../lib/pdf.ts';
 
-const ink = '#1d1b18';
-const muted = '#5c564d';
-const copper = '#8f4520';
-const rule = '#c9bca8';
+const { ink, muted, copper, rule } = pdfColours;
+
+/** The co-op as its invoices name it: coopProfile() from the settings service. */
+export type InvoiceCoop = BillingProfile & PdfCoop;
 
 const statusMarks: Record<InvoiceDetail['status'], string | null> = {
   draft: 'DRAFT — not yet issued',
@@ -18,9 +19,11 @@ const statusMarks: Record<InvoiceDetail['status'], string | null> = {
 
 export interface InvoicePdfInput {
   invoice: InvoiceDetail;
-  profile: BillingProfile;
+  profile: InvoiceCoop;
   /** Where members sign in to pay online. */
   appUrl: string;
+  /** When the PDF is made (the app's clock), printed in the footer. */
+  producedAt: Date;
 }
 
 function money(cents: number, currency: string) {
@@ -111,6 +114,29 @@ function creditNotesBlock(notes: CreditNote[]): Content[] {
   ];
 }
 
+/** Who the document is for (its label, name and e-mail) on the left, its numbers and dates on the right. */
+function partyAndMeta(label: string, name: string, email: string, meta: [string, string][]): Content {
+  return {
+    columns: [
+      {
+        width: '*',
+        stack: [{ text: label, color: muted, fontSize: 8, margin: [0, 0, 0, 2] }, { text: name }, { text: email, color: muted, fontSize: 9 }],
+      },
+      {
+        width: 'auto',
+        table: {
+          body: meta.map(([k, v]): TableCell[] => [
+            { text: k, color: muted, fontSize: 9, noWrap: true },
+            { text: v, fontSize: 9, alignment: 'right', noWrap: true },
+          ]),
+        },
+        layout: 'noBorders',
+      },
+    ],
+    margin: [0, 24, 0, 18],
+  };
+}
+
 function howToPay(inv: InvoiceDetail, profile: BillingProfile, appUrl: string): Content[] {
   if (inv.status === 'void' || inv.status === 'draft' || inv.amountDueCents <= 0) return [];
   const ref = inv.number ?? '';
@@ -128,7 +154,7 @@ function howToPay(inv: InvoiceDetail, profile: BillingProfile, appUrl: string): 
   ];
 }
 
-export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInput): TDocumentDefinitions {
+export function invoiceDocument({ invoice: inv, profile, appUrl, producedAt }: InvoicePdfInput): TDocumentDefinitions {
   const mark = statusMarks[inv.status];
   const meta: [string, string][] = [
     ['Invoice number', inv.number ?? 'not yet issued'],
@@ -136,63 +162,16 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
     ['Due date', inv.dueOn ? longDate(inv.dueOn) : '—'],
     ['Period', periodLabel(inv.period)],
   ];
-  return {
-    info: { title: `Invoice ${inv.number ?? 'draft'} — ${profile.coopName}`, author: profile.coopName, subject: `Invoice for ${periodLabel(inv.period)}` },
-    pageSize: 'A4',
-    pageMargins: [48, 48, 48, 56],
-    defaultStyle: { font: pdfFont, fontSize: 10, color: ink, lineHeight: 1.15 },
-    pageBreakBefore: keepHeadingsWithNext,
+  return framedDocument({
+    coop: profile,
+    title: 'Invoice',
+    marks: mark ? [mark] : [],
+    reference: inv.number ?? 'Draft',
+    producedAt,
+    subject: `Invoice ${inv.number ?? 'draft'} for ${periodLabel(inv.period)}`,
     ...(mark ? { watermark: { text: mark.split(' — ')[0]!, color: inv.status === 'paid' ? '#4b5a26' : '#8a8277', opacity: 0.12, fontSize: 80 } } : {}),
-    footer: (page: number, pages: number): Content => ({
-      columns: [
-        { text: `${profile.coopName} · ${profile.email}`, color: muted, fontSize: 8 },
-        { text: `${inv.number ?? 'Draft'} · page ${page} of ${pages}`, color: muted, fontSize: 8, alignment: 'right' },
-      ],
-      margin: [48, 16, 48, 0],
-    }),
     content: [
-      {
-        columns: [
-          {
-            width: '*',
-            stack: [
-              { text: profile.coopName, fontSize: 16, color: copper },
-              ...profile.addressLines.map((l) => ({ text: l, color: muted, fontSize: 9 })),
-              { text: profile.email, color: muted, fontSize: 9 },
-            ],
-          },
-          {
-            width: 'auto',
-            stack: [
-              { text: 'Invoice', fontSize: 22, alignment: 'right' },
-              ...(mark ? [{ text: mark, fontSize: 9, alignment: 'right' as const, color: copper }] : []),
-            ],
-          },
-        ],
-      },
-      {
-        columns: [
-          {
-            width: '*',
-            stack: [
-              { text: 'Billed to', color: muted, fontSize: 8, margin: [0, 0, 0, 2] },
-              { text: inv.memberName },
-              { text: inv.memberEmail, color: muted, fontSize: 9 },
-            ],
-          },
-          {
-            width: 'auto',
-            table: {
-              body: meta.map(([k, v]): TableCell[] => [
-                { text: k, color: muted, fontSize: 9, noWrap: true },
-                { text: v, fontSize: 9, alignment: 'right', noWrap: true },
-              ]),
-            },
-            layout: 'noBorders',
-          },
-        ],
-        margin: [0, 24, 0, 18],
-      },
+      partyAndMeta('Billed to', inv.memberName, inv.memberEmail, meta),
       inv.lines.length ? linesTable(inv) : { text: 'No charges.', color: muted },
       totals(inv),
       ...creditNotesBlock(inv.creditNotes),
@@ -210,7 +189,7 @@ export function invoiceDocument({ invoice: inv, profile, appUrl }: InvoicePdfInp
         unbreakable: true,
       },
     ],
-  };
+  });
 }
 
 export async function renderInvoicePdf(input: InvoicePdfInput): Promise<Buffer> {
@@ -224,12 +203,14 @@ export function invoicePdfFilename(inv: Pick<InvoiceDetail, 'number' | 'period' 
 export interface CreditNotePdfInput {
   note: CreditNote;
   invoice: InvoiceDetail;
-  profile: BillingProfile;
+  profile: InvoiceCoop;
+  /** When the PDF is made (the app's clock), printed in the footer. */
+  producedAt: Date;
   /** Money recorded as paid back with this credit note, if any; without it the note is a credit only. */
   refund: { amountCents: number; method: 'bank_transfer' | 'cash'; on: string } | null;
 }
 
-export function creditNoteDocument({ note, invoice, profile, refund }: CreditNotePdfInput): TDocumentDefinitions {
+export function creditNoteDocument({ note, invoice, profile, refund, producedAt }: CreditNotePdfInput): TDocumentDefinitions {
   const c = note.currency;
   const meta: [string, string][] = [
     ['Credit note', note.number],
@@ -249,66 +230,14 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
   const settled = refund
     ? `${money(refund.amountCents, c)} was paid back ${refund.method === 'cash' ? 'in cash' : 'by bank transfer'} on ${longDate(refund.on)}.`
     : `The credit reduces what is owed on invoice ${invoice.number}; anything already paid beyond that stays as credit on your account.`;
-  return {
-    info: { title: `Credit note ${note.number} — ${profile.coopName}`, author: profile.coopName },
-    pageSize: 'A4',
-    pageMargins: [48, 48, 48, 56],
-    defaultStyle: { font: pdfFont, fontSize: 10, color: ink, lineHeight: 1.15 },
-    footer: (page: number, pages: number): Content => ({
-      columns: [
-        { text: `${profile.coopName} · ${profile.email}`, color: muted, fontSize: 8 },
-        { text: `${note.number} · page ${page} of ${pages}`, color: muted, fontSize: 8, alignment: 'right' },
-      ],
-      margin: [48, 16, 48, 0],
-    }),
+  return framedDocument({
+    coop: profile,
+    title: 'Credit note',
+    marks: [note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : refund ? 'Credit and refund' : 'Credit'],
+    reference: note.number,
+    producedAt,
     content: [
-      {
-        columns: [
-          {
-            width: '*',
-            stack: [
-              { text: profile.coopName, fontSize: 16, color: copper },
-              ...profile.addressLines.map((l) => ({ text: l, color: muted, fontSize: 9 })),
-              { text: profile.email, color: muted, fontSize: 9 },
-            ],
-          },
-          {
-            width: 'auto',
-            stack: [
-              { text: 'Credit note', fontSize: 22, alignment: 'right' },
-              {
-                text: note.kind === 'void' ? `Replaces invoice ${invoice.number}, which is void` : refund ? 'Credit and refund' : 'Credit',
-                fontSize: 9,
-                alignment: 'right',
-                color: copper,
-              },
-            ],
-          },
-        ],
-      },
-      {
-        columns: [
-          {
-            width: '*',
-            stack: [
-              { text: 'Credited to', color: muted, fontSize: 8, margin: [0, 0, 0, 2] },
-              { text: invoice.memberName },
-              { text: invoice.memberEmail, color: muted, fontSize: 9 },
-            ],
-          },
-          {
-            width: 'auto',
-            table: {
-              body: meta.map(([k, v]): TableCell[] => [
-                { text: k, color: muted, fontSize: 9, noWrap: true },
-                { text: v, fontSize: 9, alignment: 'right', noWrap: true },
-              ]),
-            },
-            layout: 'noBorders',
-          },
-        ],
-        margin: [0, 24, 0, 18],
-      },
+      partyAndMeta('Credited to', invoice.memberName, invoice.memberEmail, meta),
       { text: `Reason: ${note.reason}`, margin: [0, 0, 0, 10] },
       {
         table: { headerRows: 1, widths: ['*', 'auto', 'auto', 'auto'], body },
@@ -344,7 +273,7 @@ export function creditNoteDocument({ note, invoice, profile, refund }: CreditNot
       },
       { text: settled, fontSize: 9, margin: [0, 16, 0, 0] },
     ],
-  };
+  });
 }
 
 export async function renderCreditNotePdf(input: CreditNotePdfInput): Promise<Buffer> {

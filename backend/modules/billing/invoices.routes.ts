@@ -4,11 +4,12 @@ import { invoiceListQuerySchema } from '../../../shared/schemas/billing.ts';
 import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { userOf } from '../../middleware/authenticate.ts';
-import { coopToday, getBillingProfile } from './billing-profile.service.ts';
+import { coopToday } from './billing-profile.service.ts';
 import { can, idParam, signedInRouter, visibleInvoice } from './invoice-access.ts';
 import { issueDraft } from './invoice-commands.service.ts';
 import { sendInvoice } from './invoice-mail.service.ts';
 import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 import { detailAsOf, listInvoices } from './invoice-queries.service.ts';
 
 /** Invoices: the list, one invoice, its PDF, issuing and e-mailing it. */
@@ -34,7 +35,7 @@ export function invoicesRoutes(deps: Deps): Router {
     const { id } = idParam.parse(req.params);
     const row = await visibleInvoice(req, db, id);
     const invoice = await detailAsOf(db, row.id, clock.now());
-    const pdf = await renderInvoicePdf({ invoice, profile: await getBillingProfile(db), appUrl: config.publicUrl });
+    const pdf = await renderInvoicePdf({ invoice, profile: await coopProfile(db), appUrl: config.publicUrl, producedAt: clock.now() });
     res
       .type('application/pdf')
       .set('Content-Disposition', `inline; filename="${invoicePdfFilename(invoice)}"`)

@@ -25,6 +25,7 @@ import {
   updateEquipment,
 } from './equipment.service.ts';
 import { renderLabelSheet } from './labels-pdf.service.ts';
+import { coopProfile } from '../settings/settings.service.ts';
 import { connectCylinderSchema, createInspectionSchema, maintenanceListQuerySchema, refillCylinderSchema } from '../../../shared/schemas/inspections.ts';
 import { connectCylinder, cylinderView, refillCylinder } from './cylinders.service.ts';
 import { inspectionsDue, listInspections, listMaintenance, recordInspection } from './inspections.service.ts';
@@ -58,7 +59,7 @@ export function equipmentRoutes({ db, config, clock }: Deps): Router {
     // Keep the order asked for, so a sheet prints as picked.
     const order = new Map(q.ids.map((id, i) => [id, i]));
     items.sort((a, b) => order.get(a.id)! - order.get(b.id)!);
-    const pdf = await renderLabelSheet(items, config.publicUrl);
+    const pdf = await renderLabelSheet(items, config.publicUrl, await coopProfile(db));
     res
       .status(200)
       .type('application/pdf')

@@ -1,6 +1,7 @@
 import QRCode from 'qrcode';
 import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
-import { pdfFont, renderPdf } from '../../lib/pdf.ts';
+import { renderPdf } from '../../lib/pdf.ts';
+import { pdfBase, type PdfCoop } from '../../lib/pdf-frame.ts';
 import { equipmentKindLabels, type Equipment } from '../../../shared/schemas/equipment.ts';
 
 /** The sheet: A4 portrait, 3 × 8 labels of 70 × 37 mm, edge to edge (a common adhesive label sheet). */
@@ -25,7 +26,7 @@ function describe(item: Equipment): string {
   return parts.join(' · ');
 }
 
-async function labelCell(item: Equipment, publicUrl: string): Promise<Content> {
+async function labelCell(item: Equipment, publicUrl: string, coopName: string): Promise<Content> {
   const url = `${publicUrl}/cellar/${item.id}`;
   // Vector QR (one SVG path): sharp at any print resolution, and far quicker than encoding a PNG.
   const qr = await QRCode.toString(url, { type: 'svg', errorCorrectionLevel: 'M', margin: 0, color: { dark: '#1c1917', light: '#ffffff' } });
@@ -45,6 +46,7 @@ async function labelCell(item: Equipment, publicUrl: string): Promise<Content> {
           { text: describe(item), fontSize: 6.5, color: '#57534e', margin: [0, 2, 0, 0] },
           ...(caution ? [{ text: caution, fontSize: 5.5, color: '#991b1b', margin: [0, 2, 0, 0] } as Content] : []),
           { text: 'Scan to open in Cellarwright', fontSize: 5.5, color: '#78716c', margin: [0, 2, 0, 0] },
+          { text: coopName, fontSize: 5.5, color: '#78716c', noWrap: true },
         ],
       },
     ],
@@ -52,9 +54,13 @@ async function labelCell(item: Equipment, publicUrl: string): Promise<Content> {
   };
 }
 
-/** A PDF of QR labels for the given items, in the order given: each label holds the code, the name and a QR of its page. */
-export async function renderLabelSheet(items: Equipment[], publicUrl: string): Promise<Buffer> {
-  const cells = await Promise.all(items.map((item) => labelCell(item, publicUrl)));
+/**
+ * A PDF of QR labels for the given items, in the order given: each label holds the code, the name, a QR of its
+ * page and the co-op's name. The sheet is printed edge to edge, so it has the frame's font and document info
+ * (lib/pdf-frame.ts) but no letterhead or footer.
+ */
+export async function renderLabelSheet(items: Equipment[], publicUrl: string, coop: PdfCoop): Promise<Buffer> {
+  const cells = await Promise.all(items.map((item) => labelCell(item, publicUrl, coop.coopName)));
   const pages: Content[] = [];
   for (let p = 0; p * perPage < cells.length; p++) {
     const pageCells = cells.slice(p * perPage, (p + 1) * perPage);
@@ -76,12 +82,12 @@ export async function renderLabelSheet(items: Equipment[], publicUrl: string): P
     });
   }
   const topMargin = (mm(labelSheet.pageHeightMm) - mm(labelSheet.labelHeightMm) * labelSheet.rows) / 2;
+  const base = pdfBase(coop, 'Equipment labels');
   const doc: TDocumentDefinitions = {
-    pageSize: 'A4',
+    ...base,
     pageOrientation: 'portrait',
     pageMargins: [0, topMargin, 0, 0],
-    info: { title: 'Cellarwright equipment labels', author: 'Larkspur Yard Brewing Co-op', creator: 'Cellarwright' },
-    defaultStyle: { font: pdfFont, fontSize: 8, lineHeight: 1.05 },
+    defaultStyle: { ...base.defaultStyle, fontSize: 8, lineHeight: 1.05 },
     content: pages,
   };
   return renderPdf(doc);

@@ -12,7 +12,8 @@ import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
 import { uuidParams } from '../../lib/uuid-params.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
-import { loadAuditData, renderAuditPdfOffThread } from './audit-report.ts';
+import { renderAuditPdfOffThread } from './audit-report.ts';
+import { loadAuditData } from './audit-report-data.ts';
 import { boundFrom, boundTo, continueCycle, cycleViews, listCycles, listVesselStatus, recordCycle, sanitationSettings } from './sanitation.service.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
 
