@@ -94,7 +94,7 @@ describe.skipIf(missing !== null)('several instances behind one load balancer', 
     });
     ({ db, pool } = createDb(databaseUrl, 4));
     balancer = await startLoadBalancer({ upstreams: instances.map((i) => i.port) });
-  }, 240_000);
+  }, 600_000);
 
   afterAll(async () => {
     await balancer?.stop();
