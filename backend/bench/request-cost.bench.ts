@@ -4,7 +4,6 @@
 // requests, with the queue's workers off), then requests/s, p50 and p99 at 50 connections. Prints figures; not a test (docs/request-cost.md).
 // BENCH_SECONDS sets each run's length, BENCH_PORT_BASE the port (a free one otherwise), BENCH_CPU_PROF a
 // folder for the instance's CPU profile (node --cpu-prof).
-import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import { sql } from 'kysely';
@@ -15,7 +14,7 @@ import { findActiveUser } from '../modules/auth/auth.service.ts';
 import { sessionStore } from '../modules/auth/session-store.ts';
 import { listBookings } from '../modules/bookings/bookings.service.ts';
 import { freePort, root, runSync } from '../scripts/lib.mjs';
-import { startInstance, type Instance } from '../scripts/load-balancer.mjs';
+import { productionEnv, signInCookie, startInstance, type Instance } from '../scripts/load-balancer.mjs';
 import { benchDatabase } from './bench-db.ts';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
@@ -112,30 +111,11 @@ try {
     port,
     built: true,
     nodeArgs: profileDir ? ['--cpu-prof', '--cpu-prof-dir', profileDir] : [],
-    env: {
-      NODE_ENV: 'production',
-      DATABASE_URL: bench.url,
-      SESSION_SECRET: randomBytes(24).toString('hex'),
-      STRIPE_SECRET_KEY: `sk_test_${randomBytes(12).toString('hex')}`,
-      STRIPE_WEBHOOK_SECRET: `whsec_${randomBytes(12).toString('hex')}`,
-      COOKIE_SECURE: 'false',
-      // Only the requests measured reach the database (the statements are counted per request).
-      WORKERS: 'false',
-      PUBLIC_URL: 'http://127.0.0.1',
-    },
+    // Only the requests measured reach the database (the statements are counted per request).
+    env: { ...productionEnv(bench.url), WORKERS: 'false' },
   });
   await instance.ready();
-  const res = await fetch(`${instance.url}/api/auth/login`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email: 'member@example.org', password: 'cellar-demo' }),
-  });
-  if (res.status !== 200) throw new Error(`sign-in: ${res.status} ${await res.text()}`);
-  const cookie = res.headers
-    .getSetCookie()
-    .map((c) => c.split(';')[0])
-    .join('; ');
-
+  const cookie = await signInCookie(instance.url, 'member@example.org');
   const sid = decodeURIComponent(/cw\.sid=([^;]+)/.exec(cookie)![1]!)
     .replace(/^s:/, '')
     .replace(/\.[^.]*$/, '');

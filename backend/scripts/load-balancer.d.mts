@@ -2,6 +2,8 @@
 import type { ChildProcess } from 'node:child_process';
 
 export function nginxConfig(opts: { dir: string; port: number; upstreams: number[] }): string;
+export function productionEnv(databaseUrl: string): Record<string, string>;
+export function signInCookie(base: string, email: string, password?: string): Promise<string>;
 export function waitForOk(url: string, what: string, timeoutMs?: number): Promise<void>;
 
 export interface LoadBalancer {

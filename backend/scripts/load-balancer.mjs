@@ -2,6 +2,7 @@
 // as a host would run them: used by tests/api/instances.test.ts and backend/bench/instances.bench.ts.
 // Node built-ins only, like lib.mjs.
 import { spawn } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -37,6 +38,33 @@ ${servers}
   }
 }
 `;
+}
+
+/** What an instance needs to run with production settings over plain HTTP on loopback: fresh secrets, cookies not `Secure`. */
+export function productionEnv(databaseUrl) {
+  return {
+    NODE_ENV: 'production',
+    DATABASE_URL: databaseUrl,
+    SESSION_SECRET: randomBytes(24).toString('hex'),
+    STRIPE_SECRET_KEY: `sk_test_${randomBytes(12).toString('hex')}`,
+    STRIPE_WEBHOOK_SECRET: `whsec_${randomBytes(12).toString('hex')}`,
+    COOKIE_SECURE: 'false',
+    PUBLIC_URL: 'http://127.0.0.1',
+  };
+}
+
+/** Signs in at `base` (an instance or the load balancer) as a client that is no browser; the session cookie. */
+export async function signInCookie(base, email, password = 'cellar-demo') {
+  const res = await fetch(`${base}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
+  if (res.status !== 200) throw new Error(`sign-in as ${email}: ${res.status} ${await res.text()}`);
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 /** Waits until `url` answers 200; throws with `what` after `timeoutMs`. */
