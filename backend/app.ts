@@ -3,9 +3,9 @@ import path from 'node:path';
 import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import type { Deps } from './lib/deps.ts';
 import { projectRoot } from './lib/project-root.ts';
+import { requestLogger } from './lib/request-log.ts';
 import { authenticate, csrfProtection } from './middleware/authenticate.ts';
 import { inputHygiene } from './middleware/input-hygiene.ts';
 import { apiNotFound, problemHandler } from './middleware/problem-handler.ts';
@@ -50,15 +50,16 @@ export function createApp(deps: Deps): Express {
   const { config, db } = deps;
   const app = express();
   app.disable('x-powered-by');
+  const instance = config.INSTANCE_NAME;
+  if (instance) {
+    app.use((_req, res, next) => {
+      res.setHeader('X-Instance', instance);
+      next();
+    });
+  }
   if (config.TRUST_PROXY) app.set('trust proxy', /^\d+$/.test(config.TRUST_PROXY) ? Number(config.TRUST_PROXY) : config.TRUST_PROXY);
 
-  app.use(
-    pinoHttp({
-      level: config.LOG_LEVEL ?? (config.NODE_ENV === 'test' ? 'silent' : 'info'),
-      autoLogging: { ignore: (req) => req.url === '/api/health' },
-      redact: ['req.headers.cookie', 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'],
-    }),
-  );
+  app.use(requestLogger(config));
   app.use(
     helmet({
       contentSecurityPolicy: {

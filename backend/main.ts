@@ -5,6 +5,7 @@ import { pino } from 'pino';
 import { createApp } from './app.ts';
 import { loadConfig } from './config/env.ts';
 import { createDb, isDatabaseUnavailable } from './db/database.ts';
+import { migrateToLatest } from './db/migrate.ts';
 import { pdfRenderPool } from './lib/pdf-render.ts';
 import { importPool } from './modules/batches/import-pool.ts';
 import { warmAuditRenderer } from './modules/sanitation/audit-report.ts';
@@ -50,6 +51,7 @@ const { db, pool } = createDb(config.DATABASE_URL, 20, {
     log.warn({ err: { message: err.message, code: (err as { code?: string }).code } }, 'database connection lost');
   },
 });
+if (config.MIGRATE_ON_START) await migrateToLatest(db, { quiet: true });
 const queue = await createQueue(config.DATABASE_URL);
 running.queue = queue;
 const deps = { config, db, pool, queue, clock: systemClock };

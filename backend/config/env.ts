@@ -21,6 +21,10 @@ const envSchema = z.object({
   MAIL_FROM: z.string().default('Larkspur Yard Brewing Co-op <cellar@example.org>'),
   DEV_MAILBOX: bool.optional(),
   WORKERS: bool.default(true),
+  /** Names this instance in an `X-Instance` header on every answer (several instances behind one load balancer). */
+  INSTANCE_NAME: z.string().min(1).optional(),
+  /** Migrate the schema before serving; safe when several instances start at once (the migrations take a lock). */
+  MIGRATE_ON_START: bool.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(100),
   LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),

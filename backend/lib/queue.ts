@@ -1,4 +1,5 @@
 import PgBoss from 'pg-boss';
+import pg from 'pg';
 import { CONNECT_TIMEOUT_MS, isDatabaseUnavailable } from '../db/database.ts';
 
 export const queues = ['email.send', 'bookings.advance', 'cellar.carbonation-reminder', 'cellar.periodic', 'carbonation.periodic'] as const;
@@ -34,6 +35,25 @@ export async function createQueue(connectionString: string, extraQueues: string[
   const boss = new PgBoss(options);
   boss.on('error', queueErrorReporter());
   await boss.start();
-  for (const name of [...queues, ...extraQueues]) await boss.createQueue(name);
+  await oneInstanceAtATime(connectionString, async () => {
+    for (const name of [...queues, ...extraQueues]) await boss.createQueue(name);
+  });
   return boss;
+}
+
+/**
+ * Runs `fn` while holding a lock that every instance on this database takes: instances started at the same
+ * moment on a fresh database would otherwise create the same queues side by side, and PostgreSQL finds
+ * them deadlocked on pg-boss's queue table (one instance then fails to start).
+ */
+async function oneInstanceAtATime(connectionString: string, fn: () => Promise<void>): Promise<void> {
+  const client = new pg.Client({ connectionString, connectionTimeoutMillis: CONNECT_TIMEOUT_MS });
+  await client.connect();
+  try {
+    await client.query(`select pg_advisory_lock(hashtext('cellarwright: queue setup'))`);
+    await fn();
+  } finally {
+    // Ending the connection releases the lock.
+    await client.end();
+  }
 }

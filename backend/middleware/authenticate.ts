@@ -3,6 +3,7 @@ import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Database } from '../db/database.ts';
 import { HttpProblem, unauthorized } from '../lib/http-problem.ts';
 import { findActiveUser, type SessionUser } from '../modules/auth/auth.service.ts';
+import { sessionAccount } from '../modules/auth/session-store.ts';
 import { anonymousCsrfCookieOf, csrfKey, isValidAnonymousCsrfToken, sameToken, sentByBrowser } from '../modules/auth/csrf.ts';
 
 /** Sets req.user and req.ability; nothing else builds an ability. A deactivated user's session ends here too. */
@@ -11,7 +12,9 @@ export function authenticate(db: Database): RequestHandler {
     req.user = null;
     const userId = req.session?.userId;
     if (userId) {
-      req.user = await findActiveUser(db, userId);
+      // The session store read the person with the session (one statement); a session begun since is looked up.
+      const account = sessionAccount(req.session);
+      req.user = account === undefined ? await findActiveUser(db, userId) : account;
       if (!req.user) await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
     }
     req.ability = defineAbilityFor(req.user);

@@ -8,6 +8,7 @@ export const vite: string;
 export function log(msg: string): void;
 export function freePort(): Promise<number>;
 export function pgBinDir(): string;
+export function nginxBin(): string;
 export function withDatabase(url: string, name: string): string;
 export function runSync(cmd: string, args: string[], env?: Record<string, string>): void;
 

@@ -50,6 +50,12 @@ export function ensureDebian(packages, probeFile) {
   }
 }
 
+/** Debian's nginx, the load balancer in front of several instances (the instances test and benchmark); its binary. */
+export function nginxBin() {
+  ensureDebian(['nginx'], '/usr/sbin/nginx');
+  return '/usr/sbin/nginx';
+}
+
 export function pgBinDir() {
   const base = '/usr/lib/postgresql';
   const pick = () => {
