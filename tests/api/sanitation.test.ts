@@ -1,28 +1,19 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { applyFreshnessLapses } from '../../backend/modules/equipment/vessel-state.ts';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, createTransfer, createUser, cycleSteps, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { count } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let member: ApiClient;
-let treasurer: ApiClient;
-let admin: ApiClient;
+let brewer: ApiClient, member: ApiClient, treasurer: ApiClient, admin: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, member, treasurer, admin] = await Promise.all([
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('member@example.org'),
-    ctx.signIn('treasurer@example.org'),
-    ctx.signIn('admin@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, member, treasurer, admin] = await signInAs(ctx, 'brewer', 'member', 'treasurer', 'admin');
 });
-afterAll(async () => ctx?.close());
 
 const minutesAgo = (m: number) => new Date(ctx.clock.now().getTime() - m * 60_000).toISOString();
 

@@ -13,15 +13,13 @@ import {
   HOUR,
 } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 
 // Work finishes where it starts: a transfer from Today, the batch page or the fermenter opens with the
 // batch chosen; a returned keg can be undone from the message that follows; the audit trail has a screen.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 let brewer: ApiClient;
 
 const made = {
@@ -90,8 +88,7 @@ beforeAll(async () => {
     subjectId: batch.id,
     detail: { before: { volumeLiters: 20 }, after: { volumeLiters: 21 } },
   });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -2,12 +2,10 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 const made = { batchId: '', batchName: 'Still falling saison', kegId: '', kegCode: '', fermenterCode: '' };
 
 beforeAll(async () => {
@@ -34,8 +32,7 @@ beforeAll(async () => {
   await createSanitationCycle(ctx.db, { equipmentId: keg.id, readyAt: at(-2 * HOUR) });
   made.kegId = keg.id;
   made.kegCode = keg.code;
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
