@@ -1,16 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { signInAs, type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
-import {
-  attachmentCalls,
-  cellsOf,
-  download,
-  exportSources,
-  exportsList,
-  FORMULA_START,
-  PLAIN_NUMBER,
-  seedTypedExports,
-  type ExportScope,
-} from '../helpers/exports.ts';
+import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER, seedTypedExports } from '../helpers/exports.ts';
+import type { ExportScope } from '../helpers/exports.ts';
 
 /**
  * One test drives every CSV and XLSX export (the list shared with exports.test.ts, kept complete by the

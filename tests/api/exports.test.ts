@@ -1,16 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { signInAs, type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
-import {
-  attachmentCalls,
-  cellsOf,
-  download,
-  exportSources,
-  exportsList,
-  FORMULA_START,
-  PLAIN_NUMBER,
-  seedTypedExports,
-  type ExportScope,
-} from '../helpers/exports.ts';
+import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER, seedTypedExports } from '../helpers/exports.ts';
+import type { ExportScope } from '../helpers/exports.ts';
 
 /**
  * Every spreadsheet the API hands out (CSV and XLSX), fetched with member-typed text that begins like

@@ -4,6 +4,7 @@ import { createBatch, createKegCheckout, createTransfer, DAY, HOUR } from '../..
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { closeAll, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
 let ctx: TestContext, server: Served, browser: Browser;
 
@@ -40,12 +41,7 @@ beforeAll(async () => {
     volumeLiters: 21,
     targetOg: 1.044,
     targetFg: 1.01,
-    readings: [
-      { takenAt: at(-12 * DAY), value: 1.044 },
-      { takenAt: at(-8 * DAY), value: 1.018 },
-      { takenAt: at(-4 * DAY), value: 1.011 },
-      { takenAt: at(-1 * DAY), value: 1.011 },
-    ],
+    readings: readingsOn(at, [-12, 1.044], [-8, 1.018], [-4, 1.011], [-1, 1.011]),
     fermenter: { equipmentId: fixtureEquipmentId(made.batch.fermenter), startsAt: at(-12 * DAY - HOUR), endsAt: at(3 * DAY), now: at(0) },
   });
   made.batch.id = fermenting.id;
@@ -57,11 +53,7 @@ beforeAll(async () => {
     name: 'House pale',
     style: 'Pale ale',
     volumeLiters: 60,
-    readings: [
-      { takenAt: at(-20 * DAY), value: 1.048 },
-      { takenAt: at(-10 * DAY), value: 1.01 },
-      { takenAt: at(-7 * DAY), value: 1.01 },
-    ],
+    readings: readingsOn(at, [-20, 1.048], [-10, 1.01], [-7, 1.01]),
   });
   await createTransfer(ctx.db, {
     batchId: pale.id,
@@ -85,11 +77,7 @@ beforeAll(async () => {
     name: 'Robust porter',
     style: 'Porter',
     volumeLiters: 100,
-    readings: [
-      { takenAt: at(-60 * DAY), value: 1.058 },
-      { takenAt: at(-50 * DAY), value: 1.016 },
-      { takenAt: at(-46 * DAY), value: 1.016 },
-    ],
+    readings: readingsOn(at, [-60, 1.058], [-50, 1.016], [-46, 1.016]),
   });
   const out = [...made.overdue, made.notDue];
   await createTransfer(ctx.db, {

@@ -11,6 +11,7 @@ import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
 import { closeAll, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
 // Phones: every page each role reaches fits a 360 px and a 390 px wide screen (nothing wider than the
 // viewport), dialogs open inside it, and the cellar's checklists keep their buttons at touch size. The
@@ -45,11 +46,7 @@ beforeAll(async () => {
     name: 'Phone-sized extra special bitter with a long name',
     style: 'Extra special bitter',
     volumeLiters: 23,
-    readings: [
-      { takenAt: at(-6 * DAY), value: 1.056 },
-      { takenAt: at(-3 * DAY), value: 1.022 },
-      { takenAt: at(-1 * DAY), value: 1.014 },
-    ],
+    readings: readingsOn(at, [-6, 1.056], [-3, 1.022], [-1, 1.014]),
     fermenter: { equipmentId: made.fermenterId, startsAt: at(-6 * DAY - HOUR), endsAt: at(8 * DAY), now },
   });
   made.batchId = batch.id;

@@ -4,6 +4,7 @@ import { createBatch, createFermenter, createKeg, createSanitationCycle, DAY, HO
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { closeAll, phone, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
 let ctx: TestContext, server: Served, browser: Browser;
 const made = { batchId: '', batchName: 'Still falling saison', kegId: '', kegCode: '', fermenterCode: '' };
@@ -20,11 +21,7 @@ beforeAll(async () => {
     name: made.batchName,
     style: 'Saison',
     volumeLiters: 21,
-    readings: [
-      { takenAt: at(-10 * DAY), value: 1.05 },
-      { takenAt: at(-3 * DAY), value: 1.014 },
-      { takenAt: at(-1 * DAY), value: 1.009 },
-    ],
+    readings: readingsOn(at, [-10, 1.05], [-3, 1.014], [-1, 1.009]),
     fermenter: { equipmentId: fermenter.id, startsAt: at(-10 * DAY - HOUR), endsAt: at(3 * DAY), now: at(0) },
   });
   made.batchId = batch.id;
