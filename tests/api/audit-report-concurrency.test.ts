@@ -5,7 +5,7 @@ import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import express from 'express';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { PdfRenderPool, pdfRenderPool } from '../../backend/lib/pdf-render.ts';
 import { problemHandler } from '../../backend/middleware/problem-handler.ts';
 import type { AuditData } from '../../backend/modules/sanitation/audit-report-data.ts';
@@ -15,7 +15,7 @@ import { defaultSanitationSettings } from '../../shared/schemas/cellar-settings.
 import { defaultBillingProfile } from '../../shared/schemas/billing.ts';
 import type { SanitationStepInput } from '../../shared/schemas/sanitation.ts';
 import { createFermenter } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 import { TEST_NOW } from '../helpers/time.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
@@ -33,8 +33,8 @@ const from = new Date('2025-12-01T00:00:00Z');
 const to = new Date('2026-12-01T00:00:00Z');
 const reportUrl = () => `/api/reports/sanitation-audit.pdf?from=2025-12-01&to=2026-11-30&equipmentId=${vesselIds.join(',')}`;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   brewer = await ctx.signIn('brewer@example.org');
   // A year of a cycle every three days on twelve extra fermenters: a report of a hundred-odd pages.
   // The cycles go in as rows in bulk (a thousand-odd through the factory would take most of the test's time).
@@ -79,7 +79,6 @@ beforeAll(async () => {
       .values(steps.slice(i, i + 2000) as never)
       .execute();
 });
-afterAll(async () => ctx?.close());
 
 describe('a long sanitation audit renders off the event loop', () => {
   it('answers GET /api/health while a year of the audit is still being laid out', async () => {

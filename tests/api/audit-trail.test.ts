@@ -1,7 +1,7 @@
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createAuditEntry, createUser, DAY, HOUR } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 /**
  * `GET /api/audit`, the audit trail behind its screen: filtered by person, record and time,
@@ -9,24 +9,16 @@ import { createTestContext, type ApiClient, type TestContext } from '../helpers/
  * row; for the admin only.
  */
 let ctx: TestContext;
-let admin: ApiClient;
-let brewer: ApiClient;
-let treasurer: ApiClient;
-let member: ApiClient;
+let admin: ApiClient, brewer: ApiClient, treasurer: ApiClient, member: ApiClient;
 let actor: { id: string; name: string };
 let other: { id: string; name: string };
 const recordId = '7d0c3a52-1a0b-4c55-9f1e-5e1f1b2c3d4e';
 /** The clock's now when the rows were made (the test clock runs on). */
 let now: number;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [admin, brewer, treasurer, member] = await Promise.all([
-    ctx.signIn('admin@example.org'),
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('treasurer@example.org'),
-    ctx.signIn('member@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [admin, brewer, treasurer, member] = await signInAs(ctx, 'admin', 'brewer', 'treasurer', 'member');
   actor = await createUser(ctx.db, { name: 'Ingrid Tallow', roles: ['brewer_on_duty'] });
   other = await createUser(ctx.db, { name: 'Oskar Brine', roles: ['treasurer'] });
   now = ctx.clock.now().getTime();
@@ -58,7 +50,6 @@ beforeAll(async () => {
     detail: { before: { dueOn: '2026-12-10', lines: 2 }, after: { dueOn: '2026-12-17', lines: 2 } },
   });
 });
-afterAll(async () => ctx?.close());
 
 const ids = (body: { items: { subjectId: string }[] }) => body.items.map((i) => i.subjectId);
 

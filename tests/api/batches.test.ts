@@ -1,6 +1,6 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import {
   abv,
   apparentAttenuation,
@@ -12,28 +12,17 @@ import {
   refractometerFinalGravity,
 } from '../../shared/brewing/index.ts';
 import { createBatch, createBooking, createFermenter } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { countReadings } from '../helpers/counts.ts';
 import { binary } from '../helpers/http.ts';
 
 let ctx: TestContext;
-let member: ApiClient;
-let member2: ApiClient;
-let brewer: ApiClient;
-let treasurer: ApiClient;
-let admin: ApiClient;
+let member: ApiClient, member2: ApiClient, brewer: ApiClient, treasurer: ApiClient, admin: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [member, member2, brewer, treasurer, admin] = await Promise.all([
-    ctx.signIn('member@example.org'),
-    ctx.signIn('member2@example.org'),
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('treasurer@example.org'),
-    ctx.signIn('admin@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [member, member2, brewer, treasurer, admin] = await signInAs(ctx, 'member', 'member2', 'brewer', 'treasurer', 'admin');
 });
-afterAll(async () => ctx?.close());
 
 const DAY = 86_400_000;
 const at = (start: string, days: number) => new Date(Date.parse(start) + days * DAY).toISOString();

@@ -1,6 +1,6 @@
 import ExcelJS from 'exceljs';
 import { sql } from 'kysely';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { addDays, longDate } from '../../shared/billing/dates.ts';
 import type { InvoiceDetail, InvoiceSummary } from '../../shared/schemas/billing.ts';
 import {
@@ -14,7 +14,7 @@ import {
   createTaxRate,
 } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
 
@@ -49,62 +49,65 @@ async function invoiceOf(memberId: string, period: string): Promise<InvoiceDetai
   return res.body.invoice;
 }
 
-beforeAll(async () => {
-  ctx = await createTestContext({}, { now: FILE_NOW });
-  treasurer = await ctx.signIn('treasurer@example.org');
-  const brewer = await ctx.signIn('brewer@example.org');
+useTestContext(
+  async (created) => {
+    ctx = created;
+    treasurer = await ctx.signIn('treasurer@example.org');
+    const brewer = await ctx.signIn('brewer@example.org');
 
-  // September and October for the fixture's members, each issued on the 1st of the next month
-  // (dues only: 15.00 + 8 % = 16.20 each).
-  const september: Record<string, string> = {};
-  for (const memberId of fixtureMembers) {
-    september[memberId] = (await createInvoice(ctx.db, { memberId, period: '2026-09', today: '2026-10-01' })).id;
-  }
-  for (const memberId of fixtureMembers) await createInvoice(ctx.db, { memberId, period: '2026-10', today: '2026-11-01' });
-  // Maren (member@) and Tobias (member2@) paid September; Maren was refunded 5.00 of it; Bram's (member6@) was voided.
-  for (const key of ['member', 'member2']) {
-    const paid = await treasurer.post(`/api/invoices/${september[fixtureUserId(key)]}/payments`, {
-      amountCents: 1620,
-      method: 'bank_transfer',
-      receivedOn: '2026-10-12',
+    // September and October for the fixture's members, each issued on the 1st of the next month
+    // (dues only: 15.00 + 8 % = 16.20 each).
+    const september: Record<string, string> = {};
+    for (const memberId of fixtureMembers) {
+      september[memberId] = (await createInvoice(ctx.db, { memberId, period: '2026-09', today: '2026-10-01' })).id;
+    }
+    for (const memberId of fixtureMembers) await createInvoice(ctx.db, { memberId, period: '2026-10', today: '2026-11-01' });
+    // Maren (member@) and Tobias (member2@) paid September; Maren was refunded 5.00 of it; Bram's (member6@) was voided.
+    for (const key of ['member', 'member2']) {
+      const paid = await treasurer.post(`/api/invoices/${september[fixtureUserId(key)]}/payments`, {
+        amountCents: 1620,
+        method: 'bank_transfer',
+        receivedOn: '2026-10-12',
+      });
+      expect(paid.status).toBe(201);
+    }
+    const refund = await treasurer.post(`/api/invoices/${september[fixtureUserId('member')]}/refunds`, {
+      amountCents: 500,
+      reason: 'Dues waived for a week away',
+      refundMethod: 'bank_transfer',
     });
-    expect(paid.status).toBe(201);
-  }
-  const refund = await treasurer.post(`/api/invoices/${september[fixtureUserId('member')]}/refunds`, {
-    amountCents: 500,
-    reason: 'Dues waived for a week away',
-    refundMethod: 'bank_transfer',
-  });
-  expect(refund.status).toBe(201);
-  const voided = await treasurer.post(`/api/invoices/${september[fixtureUserId('member6')]}/void`, { reason: 'Joined in October, not August' });
-  expect(voided.status).toBe(200);
+    expect(refund.status).toBe(201);
+    const voided = await treasurer.post(`/api/invoices/${september[fixtureUserId('member6')]}/void`, { reason: 'Joined in October, not August' });
+    expect(voided.status).toBe(200);
 
-  ids.a = await member('Test Member Alder', 'alder.test@example.org');
-  ids.b = await member('Test Member Birch', 'birch.test@example.org');
-  ids.c = await member('Test Member Cedar', 'cedar.test@example.org');
-  ids.d = await member('Test Member Damson', 'damson.test@example.org');
-  equipment.f60 = (await createFermenter(ctx.db, { code: 'F-90', name: 'Test fermenter F-90', capacityLiters: 60, state: 'ready' })).id;
-  equipment.f120 = (await createFermenter(ctx.db, { code: 'F-91', name: 'Test fermenter F-91', capacityLiters: 120, state: 'ready' })).id;
-  equipment.keg = (await createKeg(ctx.db, { code: 'K-900', name: 'Test keg K-900', state: 'ready' })).id;
-  equipment.keg2 = (await createKeg(ctx.db, { code: 'K-901', name: 'Test keg K-901', state: 'ready' })).id;
+    ids.a = await member('Test Member Alder', 'alder.test@example.org');
+    ids.b = await member('Test Member Birch', 'birch.test@example.org');
+    ids.c = await member('Test Member Cedar', 'cedar.test@example.org');
+    ids.d = await member('Test Member Damson', 'damson.test@example.org');
+    equipment.f60 = (await createFermenter(ctx.db, { code: 'F-90', name: 'Test fermenter F-90', capacityLiters: 60, state: 'ready' })).id;
+    equipment.f120 = (await createFermenter(ctx.db, { code: 'F-91', name: 'Test fermenter F-91', capacityLiters: 120, state: 'ready' })).id;
+    equipment.keg = (await createKeg(ctx.db, { code: 'K-900', name: 'Test keg K-900', state: 'ready' })).id;
+    equipment.keg2 = (await createKeg(ctx.db, { code: 'K-901', name: 'Test keg K-901', state: 'ready' })).id;
 
-  // The price list as it stood: both changes were entered before they took effect.
-  await createTaxRate(ctx.db, { rateBp: 750, label: 'VAT', effectiveFrom: '2026-11-01' });
-  await createPrice(ctx.db, { item: 'fermenter_day', bandMaxLiters: 120, unitCents: 450, effectiveFrom: '2026-11-15' });
+    // The price list as it stood: both changes were entered before they took effect.
+    await createTaxRate(ctx.db, { rateBp: 750, label: 'VAT', effectiveFrom: '2026-11-01' });
+    await createPrice(ctx.db, { item: 'fermenter_day', bandMaxLiters: 120, unitCents: 450, effectiveFrom: '2026-11-15' });
 
-  // A: a 60 L fermenter from 28 Oct to 5 Nov, across the month boundary.
-  await booking(equipment.f60, ids.a, '2026-10-28T10:00:00Z', '2026-11-05T10:00:00Z');
-  // B: a 120 L fermenter from 10 to 20 Nov, across the price change on the 15th.
-  await booking(equipment.f120, ids.b, '2026-11-10T09:00:00Z', '2026-11-20T09:00:00Z');
-  // D: a keg out 3 Nov, due 17 Nov, back 20 Nov (three days late); another out 25 Nov, due 28 Nov, still out.
-  await createKegCheckout(ctx.db, { kegId: equipment.keg, memberId: ids.d, at: '2026-11-03T10:00:00Z', dueAt: '2026-11-17T18:00:00Z' });
-  ctx.clock.set('2026-11-20T15:00:00Z'); // the brewer on duty takes it back that afternoon
-  const back = await brewer.post(`/api/kegs/${equipment.keg}/return`, {});
-  ctx.clock.set(FILE_NOW);
-  expect(back.status).toBe(200);
-  await createKegCheckout(ctx.db, { kegId: equipment.keg2, memberId: ids.d, at: '2026-11-25T10:00:00Z', dueAt: '2026-11-28T18:00:00Z' });
-});
-afterAll(async () => ctx?.close());
+    // A: a 60 L fermenter from 28 Oct to 5 Nov, across the month boundary.
+    await booking(equipment.f60, ids.a, '2026-10-28T10:00:00Z', '2026-11-05T10:00:00Z');
+    // B: a 120 L fermenter from 10 to 20 Nov, across the price change on the 15th.
+    await booking(equipment.f120, ids.b, '2026-11-10T09:00:00Z', '2026-11-20T09:00:00Z');
+    // D: a keg out 3 Nov, due 17 Nov, back 20 Nov (three days late); another out 25 Nov, due 28 Nov, still out.
+    await createKegCheckout(ctx.db, { kegId: equipment.keg, memberId: ids.d, at: '2026-11-03T10:00:00Z', dueAt: '2026-11-17T18:00:00Z' });
+    ctx.clock.set('2026-11-20T15:00:00Z'); // the brewer on duty takes it back that afternoon
+    const back = await brewer.post(`/api/kegs/${equipment.keg}/return`, {});
+    ctx.clock.set(FILE_NOW);
+    expect(back.status).toBe(200);
+    await createKegCheckout(ctx.db, { kegId: equipment.keg2, memberId: ids.d, at: '2026-11-25T10:00:00Z', dueAt: '2026-11-28T18:00:00Z' });
+  },
+  {},
+  { now: FILE_NOW },
+);
 
 describe('invoice runs', () => {
   it('runs October for the members it has not billed yet, and a second run bills nobody twice', async () => {

@@ -1,9 +1,9 @@
 import { simpleParser } from 'mailparser';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { createBooking, createFermenter, createKeg, createMember } from '../../db/factories/index.ts';
 import { fixtureEquipmentId } from '../../db/fixtures/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 import { icsUtc, parseIcs } from '../helpers/ics.ts';
 
 let ctx: TestContext;
@@ -19,8 +19,8 @@ function at(days: number, hour = 10): string {
 }
 const plusHours = (iso: string, h: number) => new Date(Date.parse(iso) + h * 3600_000).toISOString();
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   // The fixture's F-01…F-04, and the fermenters these tests book besides: F-05 is out of service, F-11 and F-12 are 120 L.
   fermenters = ['F-01', 'F-02', 'F-03', 'F-04'].map((code) => ({ id: fixtureEquipmentId(code), code }));
   for (let i = 5; i <= 12; i++) {
@@ -34,7 +34,6 @@ beforeAll(async () => {
     kegs.push({ id: keg.id, code: keg.code });
   }
 });
-afterAll(async () => ctx?.close());
 
 const byCode = (code: string) => fermenters.find((f) => f.code === code)!;
 

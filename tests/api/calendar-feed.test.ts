@@ -1,16 +1,14 @@
 import ICAL from 'ical.js';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createBooking, createFermenter, createInvoice, createKeg, createKegCheckout, createMember, DAY, setSetting } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 
 // Private calendar feeds: a member's bookings and due dates, the rota's hand-overs and due dates,
 // read by an iCalendar parser the way a calendar program would, with no session.
 
 let ctx: TestContext;
-let ann: ApiClient;
-let ben: ApiClient;
-let brewer: ApiClient;
+let ann: ApiClient, ben: ApiClient, brewer: ApiClient;
 
 interface FeedEvent {
   uid: string;
@@ -57,13 +55,12 @@ const at = (days: number, hour = 10) => {
   return d;
 };
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   await setSetting(ctx.db, 'booking_rules', { timeZone: 'Europe/London' });
   const [a, b] = [await createMember(ctx.db, { name: 'Ann Almanac' }), await createMember(ctx.db, { name: 'Ben Busy' })];
   [ann, ben, brewer] = await Promise.all([ctx.signIn(a.email), ctx.signIn(b.email), ctx.signIn('brewer@example.org')]);
 });
-afterAll(async () => ctx?.close());
 
 describe('a member’s calendar feed', () => {
   it('gives a private link whose feed holds the member’s bookings and due dates, not others’, and drops a cancelled booking', async () => {

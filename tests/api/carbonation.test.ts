@@ -1,21 +1,19 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { sendDueReminders } from '../../backend/modules/carbonation/carbonation.service.ts';
 import { batchPool, fillNewKegs, kegPool } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let member: ApiClient;
+let brewer: ApiClient, member: ApiClient;
 let takeKegs: ReturnType<typeof kegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, member] = await Promise.all([ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, member] = await signInAs(ctx, 'brewer', 'member');
   takeKegs = kegPool(ctx);
   takeBatch = batchPool(ctx);
 });
-afterAll(async () => ctx?.close());
 
 const psi = (kpa: number) => kpa / 6.894757293168361;
 const fToC = (f: number) => (f - 32) / 1.8;

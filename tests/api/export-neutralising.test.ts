@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createBatch, createInvoice, createKeg, createKegCheckout, createManualCharge, createMember, DAY, fillKeg } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
-import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER } from '../helpers/exports.ts';
+import { describe, expect, it } from 'vitest';
+import { signInAs, type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
+import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER, seedTypedExports } from '../helpers/exports.ts';
+import type { ExportScope } from '../helpers/exports.ts';
 
 /**
  * One test drives every CSV and XLSX export (the list shared with exports.test.ts, kept complete by the
@@ -11,11 +11,8 @@ import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA
  */
 
 let ctx: TestContext;
-let treasurer: ApiClient;
-let brewer: ApiClient;
-let period: string;
-let tracedBatchId: string;
-let traceDay: string;
+let treasurer: ApiClient, brewer: ApiClient;
+let scope: ExportScope;
 
 /** Every way a cell can begin a formula: =, +, -, @, their full-width forms, a leading tab or carriage return. */
 const typed = {
@@ -33,56 +30,26 @@ const typed = {
   reason: '+refund reason',
 };
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  treasurer = await ctx.signIn('treasurer@example.org');
-  brewer = await ctx.signIn('brewer@example.org');
-  const now = ctx.clock.now();
-  const today = now.toISOString().slice(0, 10);
-  period = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1)).toISOString().slice(0, 7);
-
-  const member = await createMember(ctx.db, { name: typed.memberName });
-  const batches = [
-    { name: typed.batchName, style: typed.style, allergens: [typed.allergen] },
-    { name: typed.fullWidthBatch, style: typed.fullWidthStyle },
-    { name: typed.tabBatch, style: typed.crStyle },
-  ];
-  for (const [i, b] of batches.entries()) {
-    const at = new Date(now.getTime() - (i + 1) * 3600_000);
-    const batch = await createBatch(ctx.db, {
-      ownerId: member.id,
-      ...b,
-      readings: [
-        { takenAt: new Date(at.getTime() - 9 * DAY), value: 1.05 },
-        { takenAt: new Date(at.getTime() - 2 * DAY), value: 1.01 },
-      ],
-    });
-    const keg = await createKeg(ctx.db, { state: 'ready' });
-    await fillKeg(ctx.db, { kegId: keg.id, at, batchId: batch.id, volumeLiters: 19 });
-    if (i === 0) {
-      tracedBatchId = batch.id;
-      traceDay = at.toISOString().slice(0, 10);
-      // The member takes the keg out: the member's name reaches the trace as its holder.
-      await createKegCheckout(ctx.db, { kegId: keg.id, memberId: member.id, at: new Date(at.getTime() + 60_000), dueAt: new Date(at.getTime() + 7 * DAY) });
-    }
-  }
-
-  for (const description of typed.charges) {
-    await createManualCharge(ctx.db, { memberId: member.id, period, amountCents: 300, description, reason: 'typed' });
-  }
-  const invoice = await createInvoice(ctx.db, { memberId: member.id, period, today });
-  const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, {
-    amountCents: 400,
-    method: 'bank_transfer',
-    receivedOn: today,
-    reference: typed.reference,
-    note: typed.note,
+useTestContext(async (created) => {
+  ctx = created;
+  [treasurer, brewer] = await signInAs(ctx, 'treasurer', 'brewer');
+  scope = await seedTypedExports(ctx, treasurer, {
+    memberName: typed.memberName,
+    batches: [
+      { name: typed.batchName, style: typed.style, allergens: [typed.allergen] },
+      { name: typed.fullWidthBatch, style: typed.fullWidthStyle },
+      { name: typed.tabBatch, style: typed.crStyle },
+    ],
+    gravities: [1.05, 1.01],
+    kegLiters: 19,
+    checkOutFirstKeg: true,
+    charges: typed.charges,
+    chargeCents: 300,
+    chargeReason: 'typed',
+    payment: { amountCents: 400, reference: typed.reference, note: typed.note },
+    refund: { amountCents: 100, reason: typed.reason },
   });
-  expect(paid.status).toBe(201);
-  const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { amountCents: 100, reason: typed.reason, refundMethod: 'cash' });
-  expect(refund.status).toBe(201);
 });
-afterAll(async () => ctx?.close());
 
 describe('every CSV and XLSX export neutralises formula text', () => {
   it('drives every download the backend serves', () => {
@@ -91,7 +58,7 @@ describe('every CSV and XLSX export neutralises formula text', () => {
 
   it('writes each typed text escaped and whole, never a cell a spreadsheet would run', async () => {
     const seen = { csv: new Set<string>(), xlsx: new Set<string>() };
-    for (const e of exportsList({ treasurer, brewer }, { period, tracedBatchId, traceDay })) {
+    for (const e of exportsList({ treasurer, brewer }, scope)) {
       const res = await download(e);
       expect(res.status, e.name).toBe(200);
       const { text, formulas } = await cellsOf(e.kind, res);

@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createBatch, createInvoice, createKeg, createManualCharge, createMember, DAY, fillKeg } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
-import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER } from '../helpers/exports.ts';
+import { describe, expect, it } from 'vitest';
+import { signInAs, type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
+import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA_START, PLAIN_NUMBER, seedTypedExports } from '../helpers/exports.ts';
+import type { ExportScope } from '../helpers/exports.ts';
 
 /**
  * Every spreadsheet the API hands out (CSV and XLSX), fetched with member-typed text that begins like
@@ -10,11 +10,8 @@ import { attachmentCalls, cellsOf, download, exportSources, exportsList, FORMULA
  */
 
 let ctx: TestContext;
-let treasurer: ApiClient;
-let brewer: ApiClient;
-let period: string;
-let tracedBatchId: string;
-let traceDay: string;
+let treasurer: ApiClient, brewer: ApiClient;
+let scope: ExportScope;
 
 /** Text a person types that a spreadsheet would otherwise run. */
 const hostile = {
@@ -32,64 +29,33 @@ const hostile = {
   reason: '+refund reason',
 };
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  treasurer = await ctx.signIn('treasurer@example.org');
-  brewer = await ctx.signIn('brewer@example.org');
-  const now = ctx.clock.now();
-  const today = now.toISOString().slice(0, 10);
-  const last = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1));
-  period = last.toISOString().slice(0, 7);
-
-  const member = await createMember(ctx.db, { name: hostile.member });
-  // Batches packaged this month, named and styled as a member might.
-  const batches: [string, string][] = [
-    [hostile.batch1, hostile.style1],
-    [hostile.batch2, hostile.style2],
-    [hostile.batch3, hostile.style3],
-    [hostile.batch4, 'Pils'],
-    ['-3.5', 'A name that is just a number'],
-  ];
-  for (const [i, [name, style]] of batches.entries()) {
-    const at = new Date(now.getTime() - (i + 1) * 3600_000);
-    const batch = await createBatch(ctx.db, {
-      ownerId: member.id,
-      name,
-      style,
-      readings: [
-        { takenAt: new Date(at.getTime() - 9 * DAY), value: 1.052 },
-        { takenAt: new Date(at.getTime() - 2 * DAY), value: 1.011 },
-      ],
-    });
-    const keg = await createKeg(ctx.db, { state: 'ready' });
-    await fillKeg(ctx.db, { kegId: keg.id, at, batchId: batch.id, volumeLiters: 18.5 });
-    if (i === 0) {
-      tracedBatchId = batch.id;
-      traceDay = at.toISOString().slice(0, 10);
-    }
-  }
-
-  // Last month's invoice for the member: charges typed by the treasurer, one of them a credit (a negative amount).
-  for (const description of hostile.charges) {
-    await createManualCharge(ctx.db, { memberId: member.id, period, amountCents: 250, description, reason: '=reason' });
-  }
-  await createManualCharge(ctx.db, { memberId: member.id, period, amountCents: -350, description: 'Credit for a returned keg', reason: 'returned' });
-  const invoice = await createInvoice(ctx.db, { memberId: member.id, period, today });
-  const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, {
-    amountCents: 300,
-    method: 'bank_transfer',
-    receivedOn: today,
-    reference: hostile.reference,
-    note: hostile.note,
+useTestContext(async (created) => {
+  ctx = created;
+  [treasurer, brewer] = await signInAs(ctx, 'treasurer', 'brewer');
+  // Batches packaged this month, named and styled as a member might; last month's invoice with charges
+  // typed by the treasurer, one of them a credit (a negative amount); a payment and a refund (a credit
+  // note with its reason typed, and a payment back, a negative amount).
+  scope = await seedTypedExports(ctx, treasurer, {
+    memberName: hostile.member,
+    batches: [
+      { name: hostile.batch1, style: hostile.style1 },
+      { name: hostile.batch2, style: hostile.style2 },
+      { name: hostile.batch3, style: hostile.style3 },
+      { name: hostile.batch4, style: 'Pils' },
+      { name: '-3.5', style: 'A name that is just a number' },
+    ],
+    gravities: [1.052, 1.011],
+    kegLiters: 18.5,
+    charges: hostile.charges,
+    chargeCents: 250,
+    chargeReason: '=reason',
+    extraCharges: [{ amountCents: -350, description: 'Credit for a returned keg', reason: 'returned' }],
+    payment: { amountCents: 300, reference: hostile.reference, note: hostile.note },
+    refund: { amountCents: 150, reason: hostile.reason },
   });
-  expect(paid.status).toBe(201);
-  // A refund: a credit note (its reason typed) and a payment back, a negative amount.
-  const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { amountCents: 150, reason: hostile.reason, refundMethod: 'cash' });
-  expect(refund.status).toBe(201);
 });
-afterAll(async () => ctx?.close());
 
-const exports = () => exportsList({ treasurer, brewer }, { period, tracedBatchId, traceDay });
+const exports = () => exportsList({ treasurer, brewer }, scope);
 
 describe('spreadsheet exports', () => {
   it('the list of exports here is every download the backend serves', () => {

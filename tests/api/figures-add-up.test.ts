@@ -1,14 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createBatch, createBooking, createFermenter, createKeg, createSanitationCycle, DAY, HOUR, setEquipmentState } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { type TestContext, useTestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
 const t = (days: number) => new Date(ctx.clock.now().getTime() + days * DAY);
 const made = { dirty: '', clean: '', lapsed: '', staleState: '', handovers: [] as string[], steady: '', stopped: '' };
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   const member = fixtureUserId('member');
 
   // Vessels: one to clean; one cleaned and sanitized yesterday; one whose freshness window ran out
@@ -42,7 +42,6 @@ beforeAll(async () => {
   made.steady = (await createBatch(ctx.db, { ownerId: member, name: 'Steady ale', status: 'fermenting', readings: falling(0) })).id;
   made.stopped = (await createBatch(ctx.db, { ownerId: member, name: 'Forgotten ale', status: 'fermenting', readings: falling(30) })).id;
 });
-afterAll(async () => ctx?.close());
 
 describe('Today: counts equal their lists', () => {
   it('lists every hand-over of the next 24 hours, each with its vessel ready or not', async () => {

@@ -1,20 +1,18 @@
 import { randomUUID } from 'node:crypto';
 import type { Express } from 'express';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createBatch, createFermenter, createKeg, createMember } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
-let admin: ApiClient;
-let member: ApiClient;
+let admin: ApiClient, member: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   admin = await ctx.signIn('admin@example.org');
   member = await ctx.signIn('member@example.org');
 });
-afterAll(async () => ctx?.close());
 
 interface RouteInfo {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';

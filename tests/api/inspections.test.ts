@@ -1,24 +1,21 @@
 import { sql } from 'kysely';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createCo2Cylinder, createInspection, createKeg, createTap, DAY, setCylinderSupply } from '../../db/factories/index.ts';
 import { batchPool, completeSteps, count, fullChecklist, kegPool, makeReady, states } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { applyInspectionLapses } from '../../backend/modules/equipment/inspections.service.ts';
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let admin: ApiClient;
-let member: ApiClient;
+let brewer: ApiClient, admin: ApiClient, member: ApiClient;
 let takeKegs: ReturnType<typeof kegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, admin, member] = await Promise.all([ctx.signIn('brewer@example.org'), ctx.signIn('admin@example.org'), ctx.signIn('member@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, admin, member] = await signInAs(ctx, 'brewer', 'admin', 'member');
   takeKegs = kegPool(ctx);
   takeBatch = batchPool(ctx);
 });
-afterAll(async () => ctx?.close());
 
 const ago = (days: number) => new Date(ctx.clock.now().getTime() - days * DAY).toISOString();
 const ahead = (days: number) => new Date(ctx.clock.now().getTime() + days * DAY).toISOString();

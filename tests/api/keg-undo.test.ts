@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createKeg, createKegCheckout, createTap, DAY, fillKeg, HOUR, MINUTE } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 /**
  * Undo of a keg's return, emptying or dump: offered for ten minutes by the app's clock and only while
@@ -9,21 +9,12 @@ import { createTestContext, type ApiClient, type TestContext } from '../helpers/
  * plan, and the tap it came off, in one transaction with an audit row.
  */
 let ctx: TestContext;
-let brewer: ApiClient;
-let member: ApiClient;
-let treasurer: ApiClient;
-let admin: ApiClient;
+let brewer: ApiClient, member: ApiClient, treasurer: ApiClient, admin: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, member, treasurer, admin] = await Promise.all([
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('member@example.org'),
-    ctx.signIn('treasurer@example.org'),
-    ctx.signIn('admin@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, member, treasurer, admin] = await signInAs(ctx, 'brewer', 'member', 'treasurer', 'admin');
 });
-afterAll(async () => ctx?.close());
 
 const ago = (ms: number) => new Date(ctx.clock.now().getTime() - ms);
 

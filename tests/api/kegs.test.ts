@@ -1,29 +1,20 @@
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DAY, fillKeg } from '../../db/factories/index.ts';
 import { batchPool, fillNewKegs, kegPool } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let member: ApiClient;
-let member2: ApiClient;
-let treasurer: ApiClient;
+let brewer: ApiClient, member: ApiClient, member2: ApiClient, treasurer: ApiClient;
 let takeKegs: ReturnType<typeof kegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, member, member2, treasurer] = await Promise.all([
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('member@example.org'),
-    ctx.signIn('member2@example.org'),
-    ctx.signIn('treasurer@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, member, member2, treasurer] = await signInAs(ctx, 'brewer', 'member', 'member2', 'treasurer');
   takeKegs = kegPool(ctx);
   takeBatch = batchPool(ctx);
 });
-afterAll(async () => ctx?.close());
 
 const inDays = (d: number) => new Date(ctx.clock.now().getTime() + d * DAY).toISOString();
 

@@ -1,22 +1,19 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createTap } from '../../db/factories/index.ts';
 import { batchPool, fillNewKegs, kegPool } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 let ctx: TestContext;
-let admin: ApiClient;
-let brewer: ApiClient;
-let member: ApiClient;
+let admin: ApiClient, brewer: ApiClient, member: ApiClient;
 let takeKegs: ReturnType<typeof kegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [admin, brewer, member] = await Promise.all([ctx.signIn('admin@example.org'), ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [admin, brewer, member] = await signInAs(ctx, 'admin', 'brewer', 'member');
   takeKegs = kegPool(ctx);
   takeBatch = batchPool(ctx);
 });
-afterAll(async () => ctx?.close());
 
 /** psi per foot in kPa per metre. */
 const psiPerFt = (v: number) => (v * 6.894757293168361) / 0.3048;

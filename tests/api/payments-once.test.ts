@@ -1,12 +1,11 @@
-import type { AddressInfo } from 'node:net';
-import type { Server } from 'node:http';
 import request from 'supertest';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startPaymentsFake, type FakeSession, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
+import type { FakeSession, PaymentsFake } from '../../backend/fakes/payments-fake.ts';
 import type { InvoiceDetail } from '../../shared/schemas/billing.ts';
 import { createInvoice, createMember } from '../../db/factories/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { paymentsTestContext, type PaymentsTestContext } from '../helpers/payments.ts';
 
 // An invoice is paid once: one open checkout at a time, webhooks replayed, reordered and raced with
 // the member's return, and money that arrives beyond what is due kept as an overpayment to refund.
@@ -14,7 +13,7 @@ import { createTestContext, type ApiClient, type TestContext } from '../helpers/
 
 let ctx: TestContext;
 let fake: PaymentsFake;
-let server: Server;
+let opened: PaymentsTestContext | undefined;
 let appUrl: string;
 let treasurer: ApiClient;
 const secret = 'whsec_cellarwright_local';
@@ -94,20 +93,11 @@ async function books(invoiceId: string) {
 }
 
 beforeAll(async () => {
-  fake = await startPaymentsFake({ webhookRetries: 0 });
-  ctx = await createTestContext({ PAYMENTS_FAKE_PORT: String(fake.port) });
-  server = ctx.app.listen(0, '127.0.0.1');
-  await new Promise<void>((resolve) => server.once('listening', () => resolve()));
-  appUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  ctx.config.publicUrl = appUrl;
-  fake.webhookUrl = `${appUrl}/api/webhooks/payments`;
+  opened = await paymentsTestContext();
+  ({ ctx, fake, appUrl } = opened);
   treasurer = await ctx.signIn('treasurer@example.org');
 });
-afterAll(async () => {
-  if (server) await new Promise<void>((resolve) => server.close(() => resolve()));
-  await fake?.close();
-  await ctx?.close();
-});
+afterAll(() => opened?.close());
 
 describe('one open checkout per invoice', () => {
   it('reuses the open checkout while it asks for what is due', async () => {
@@ -214,21 +204,26 @@ describe('one open checkout per invoice', () => {
   });
 });
 
+/** A checkout session for the invoice made at the provider directly, one the app has no record of. */
+function sessionAtProvider(invoiceId: string) {
+  const sdk = new Stripe('sk_test_cellarwright_local', { host: '127.0.0.1', port: fake.port, protocol: 'http', maxNetworkRetries: 0, telemetry: false });
+  return sdk.checkout.sessions.create({
+    mode: 'payment',
+    client_reference_id: invoiceId,
+    metadata: { invoiceId },
+    line_items: [{ quantity: 1, price_data: { currency: 'eur', unit_amount: DUE, product_data: { name: 'Invoice' } } }],
+    success_url: `${appUrl}/ok`,
+    cancel_url: `${appUrl}/cancel`,
+  });
+}
+
 describe('paid twice', () => {
   it('books both sessions: one pays the invoice, the other is an overpayment the treasurer sees', async () => {
     const { member, invoiceId } = await payer('Tom Twice');
     const a = await member.post(`/api/invoices/${invoiceId}/checkout`);
     // A second session for the same invoice that the app has no record of (its record was lost
     // between asking the provider and writing it down): the provider still knows whose it is.
-    const sdk = new Stripe('sk_test_cellarwright_local', { host: '127.0.0.1', port: fake.port, protocol: 'http', maxNetworkRetries: 0, telemetry: false });
-    const b = await sdk.checkout.sessions.create({
-      mode: 'payment',
-      client_reference_id: invoiceId,
-      metadata: { invoiceId },
-      line_items: [{ quantity: 1, price_data: { currency: 'eur', unit_amount: DUE, product_data: { name: 'Invoice' } } }],
-      success_url: `${appUrl}/ok`,
-      cancel_url: `${appUrl}/cancel`,
-    });
+    const b = await sessionAtProvider(invoiceId);
     await pay(a.body.url);
     await pay(b.url!);
     expect(
@@ -333,15 +328,7 @@ describe('webhooks replayed, reordered and raced', () => {
     const { member, invoiceId } = await payer('Dana Double');
     const a = await member.post(`/api/invoices/${invoiceId}/checkout`);
     // A second session at the provider, as a lost race left it when the provider would not expire it (recorded here as expired).
-    const sdk = new Stripe('sk_test_cellarwright_local', { host: '127.0.0.1', port: fake.port, protocol: 'http', maxNetworkRetries: 0, telemetry: false });
-    const b = await sdk.checkout.sessions.create({
-      mode: 'payment',
-      client_reference_id: invoiceId,
-      metadata: { invoiceId },
-      line_items: [{ quantity: 1, price_data: { currency: 'eur', unit_amount: DUE, product_data: { name: 'Invoice' } } }],
-      success_url: `${appUrl}/ok`,
-      cancel_url: `${appUrl}/cancel`,
-    });
+    const b = await sessionAtProvider(invoiceId);
     await ctx.db
       .insertInto('checkout_session')
       .values({ id: b.id, invoice_id: invoiceId, amount_cents: DUE, currency: 'EUR', url: b.url!, status: 'expired' })

@@ -1,19 +1,18 @@
-import type { AddressInfo } from 'node:net';
-import type { Server } from 'node:http';
 import request from 'supertest';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startPaymentsFake, type PaymentsFake } from '../../backend/fakes/payments-fake.ts';
+import type { PaymentsFake } from '../../backend/fakes/payments-fake.ts';
 import type { InvoiceDetail } from '../../shared/schemas/billing.ts';
 import { createInvoice, createMember } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import type { ApiClient, TestContext } from '../helpers/context.ts';
+import { paymentsTestContext, type PaymentsTestContext } from '../helpers/payments.ts';
 
 // Online payment end to end against the local fake of the payment provider: the app listens on a
 // real port so the fake can deliver its signed webhooks to it.
 
 let ctx: TestContext;
 let fake: PaymentsFake;
-let server: Server;
+let opened: PaymentsTestContext | undefined;
 let appUrl: string;
 const secret = 'whsec_cellarwright_local';
 /** Members with November's dues invoiced on 1 Dec and unpaid (16.20): one per story below. */
@@ -65,23 +64,14 @@ const postWebhook = (payload: string, header?: string) => {
 };
 
 beforeAll(async () => {
-  fake = await startPaymentsFake({ webhookRetries: 0 });
-  ctx = await createTestContext({ PAYMENTS_FAKE_PORT: String(fake.port) });
-  server = ctx.app.listen(0, '127.0.0.1');
-  await new Promise<void>((resolve) => server.once('listening', () => resolve()));
-  appUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  ctx.config.publicUrl = appUrl;
-  fake.webhookUrl = `${appUrl}/api/webhooks/payments`;
+  opened = await paymentsTestContext();
+  ({ ctx, fake, appUrl } = opened);
   payers.paid = await memberWithUnpaidInvoice('Pia Payer');
   payers.cancels = await memberWithUnpaidInvoice('Cato Cancel');
   payers.late = await memberWithUnpaidInvoice('Lorna Late');
   payers.webhook = await memberWithUnpaidInvoice('Wim Webhook');
 });
-afterAll(async () => {
-  await new Promise<void>((resolve) => server?.close(() => resolve()));
-  await fake?.close();
-  await ctx?.close();
-});
+afterAll(() => opened?.close());
 
 describe('paying online', () => {
   it('takes a member from checkout to paid: the fake’s page, its signed webhook, back to the app', async () => {

@@ -1,10 +1,10 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { litersToUsBarrels } from '../../shared/brewing/index.ts';
 import { createBatch, createFermenter, createKeg, createKegCheckout, createMember, createTransfer } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { binary } from '../helpers/http.ts';
 
 /**
@@ -26,15 +26,13 @@ import { binary } from '../helpers/http.ts';
  */
 
 let ctx: TestContext;
-let treasurer: ApiClient;
-let brewer: ApiClient;
-let member: ApiClient;
+let treasurer: ApiClient, brewer: ApiClient, member: ApiClient;
 const kegs: Record<'K1' | 'K2' | 'K3', string> = { K1: '', K2: '', K3: '' };
 const at = (iso: string) => new Date(iso);
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [treasurer, brewer, member] = await Promise.all([ctx.signIn('treasurer@example.org'), ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [treasurer, brewer, member] = await signInAs(ctx, 'treasurer', 'brewer', 'member');
   const owner = fixtureUserId('member');
   const readings = (brewed: string, ...later: [string, number][]) => [
     { takenAt: at(brewed), value: 1.05 },
@@ -85,7 +83,6 @@ beforeAll(async () => {
   expect((await brewer.post(`/api/kegs/${kegs.K3}/empty`, { dumped: true, note: 'Sour: infected' })).status).toBe(200);
   ctx.clock.set('2026-10-02T10:00:00Z').resume();
 });
-afterAll(async () => ctx?.close());
 
 describe('the monthly production report', () => {
   it('adds brewing, removals, losses and month-end inventory per month, and every month balances', async () => {

@@ -1,13 +1,13 @@
 import ExcelJS from 'exceljs';
 import fc from 'fast-check';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { FermentationSettings } from '../../shared/schemas/batches.ts';
 import { HttpProblem } from '../../backend/lib/http-problem.ts';
 import type { BatchRow } from '../../backend/modules/batches/batches.service.ts';
 import { loadFermentationSettings } from '../../backend/modules/batches/figures.ts';
 import { importReadings } from '../../backend/modules/batches/readings-import.service.ts';
 import { createBatch } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 import { countReadings } from '../helpers/counts.ts';
 import { makeZip } from '../helpers/zip.ts';
 
@@ -26,8 +26,8 @@ const workbooks: Buffer[] = [];
 let files = 0;
 const statuses = new Map<number, number>();
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   member = await ctx.signIn('member@example.org');
   settings = await loadFermentationSettings(ctx.db);
   for (let i = 0; i < 4; i += 1)
@@ -47,7 +47,6 @@ beforeAll(async () => {
     ]),
   );
 });
-afterAll(async () => ctx?.close());
 
 interface FuzzFile {
   kind: string;

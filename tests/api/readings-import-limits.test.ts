@@ -2,14 +2,14 @@ import zlib from 'node:zlib';
 import ExcelJS from 'exceljs';
 import type { FermentationSettings } from '../../shared/schemas/batches.ts';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { IMPORT_MAX_BYTES } from '../../backend/modules/batches/batches.routes.ts';
 import { loadFermentationSettings } from '../../backend/modules/batches/figures.ts';
 import type { PrepareInput } from '../../backend/modules/batches/import-check.ts';
 import { IMPORT_MAX_CELLS, IMPORT_MAX_COLUMNS, IMPORT_MAX_ROWS, IMPORT_ZIP_LIMITS } from '../../backend/modules/batches/import-file.ts';
 import { ImportPool, importPool } from '../../backend/modules/batches/import-pool.ts';
 import { createBatch } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 import { countReadings } from '../helpers/counts.ts';
 import { TEST_NOW } from '../helpers/time.ts';
 import { makeZip } from '../helpers/zip.ts';
@@ -20,11 +20,10 @@ import { makeZip } from '../helpers/zip.ts';
 let ctx: TestContext;
 let member: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   member = await ctx.signIn('member@example.org');
 });
-afterAll(async () => ctx?.close());
 
 async function newBatch(name = 'Limits batch') {
   return (await createBatch(ctx.db, { ownerId: member.user.id, name, style: 'Pale ale', volumeLiters: 23 })).id;

@@ -1,29 +1,20 @@
 import { randomUUID } from 'node:crypto';
 import ExcelJS from 'exceljs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { correctHydrometer } from '../../shared/brewing/index.ts';
 import { IMPORT_MAX_BYTES } from '../../backend/modules/batches/batches.routes.ts';
 import { createBatch } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { countReadings } from '../helpers/counts.ts';
 import { binary } from '../helpers/http.ts';
 
 let ctx: TestContext;
-let member: ApiClient;
-let member2: ApiClient;
-let brewer: ApiClient;
-let treasurer: ApiClient;
+let member: ApiClient, member2: ApiClient, brewer: ApiClient, treasurer: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [member, member2, brewer, treasurer] = await Promise.all([
-    ctx.signIn('member@example.org'),
-    ctx.signIn('member2@example.org'),
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('treasurer@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [member, member2, brewer, treasurer] = await signInAs(ctx, 'member', 'member2', 'brewer', 'treasurer');
 });
-afterAll(async () => ctx?.close());
 
 interface ImportProblem {
   row: number;

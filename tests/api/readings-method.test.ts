@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { brixToSg, refractometerFinalGravity } from '../../shared/brewing/index.ts';
 import { createBatch } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 
 /**
  * Gravity readings that are physically possible: Brix readings carry how they were converted
@@ -11,11 +11,10 @@ import { createTestContext, type ApiClient, type TestContext } from '../helpers/
 let ctx: TestContext;
 let member: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   member = await ctx.signIn('member@example.org');
 });
-afterAll(async () => ctx?.close());
 
 const DAY = 86_400_000;
 const at = (days: number) => new Date(ctx.clock.now().getTime() - 20 * DAY + days * DAY).toISOString();

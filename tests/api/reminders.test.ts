@@ -1,20 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createInvoice, createKeg, createKegCheckout, createMember, DAY, HOUR } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 // Reminders for overdue invoices and kegs: queued e-mails, recorded with who, whom and when, and
 // quiet for 24 hours by the app's clock (a second one within that time is refused with 409).
 
 let ctx: TestContext;
-let treasurer: ApiClient;
-let brewer: ApiClient;
-let member: ApiClient;
+let treasurer: ApiClient, brewer: ApiClient, member: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [treasurer, brewer, member] = await Promise.all([ctx.signIn('treasurer@example.org'), ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [treasurer, brewer, member] = await signInAs(ctx, 'treasurer', 'brewer', 'member');
 });
-afterAll(async () => ctx?.close());
 
 const now = () => ctx.clock.now();
 const daysAgo = (d: number) => new Date(now().getTime() - d * DAY).toISOString().slice(0, 10);

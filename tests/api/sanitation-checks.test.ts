@@ -1,7 +1,7 @@
 import type request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createFermenter, createKeg } from '../../db/factories/index.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
 
@@ -13,14 +13,12 @@ import { pdfText } from '../helpers/pdf.ts';
  */
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let admin: ApiClient;
+let brewer: ApiClient, admin: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, admin] = await Promise.all([ctx.signIn('brewer@example.org'), ctx.signIn('admin@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, admin] = await signInAs(ctx, 'brewer', 'admin');
 });
-afterAll(async () => ctx?.close());
 
 type Step = Record<string, string | number | boolean>;
 const minutesAgo = (m: number) => new Date(ctx.clock.now().getTime() - m * 60_000).toISOString();

@@ -1,28 +1,19 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { applyFreshnessLapses } from '../../backend/modules/equipment/vessel-state.ts';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, createTransfer, createUser, cycleSteps, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { count } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let member: ApiClient;
-let treasurer: ApiClient;
-let admin: ApiClient;
+let brewer: ApiClient, member: ApiClient, treasurer: ApiClient, admin: ApiClient;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, member, treasurer, admin] = await Promise.all([
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('member@example.org'),
-    ctx.signIn('treasurer@example.org'),
-    ctx.signIn('admin@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, member, treasurer, admin] = await signInAs(ctx, 'brewer', 'member', 'treasurer', 'admin');
 });
-afterAll(async () => ctx?.close());
 
 const minutesAgo = (m: number) => new Date(ctx.clock.now().getTime() - m * 60_000).toISOString();
 
@@ -44,6 +35,16 @@ async function takeKeg(): Promise<{ id: string; code: string }> {
 
 const stateOf = async (id: string) => (await ctx.db.selectFrom('equipment').select('state').where('id', '=', id).executeTakeFirstOrThrow()).state;
 
+/** The latest change of a vessel's state on record. */
+function lastStateChange(equipmentId: string) {
+  return ctx.db.selectFrom('equipment_state_change').selectAll().where('equipment_id', '=', equipmentId).orderBy('id', 'desc').executeTakeFirstOrThrow();
+}
+
+/** A keg filled straight from a vessel without a sanitation cycle of its own in the transfer. */
+function fillUnsanitized(kegId: string, from: { batchId: string; fromEquipmentId: string; at: string; recordedBy: string }) {
+  return createTransfer(ctx.db, { ...from, kegIds: [kegId], sanitizeKegs: false });
+}
+
 describe('recording a sanitation cycle', () => {
   it('makes a vessel ready when the cycle is complete, with who and when for every step', async () => {
     const keg = await takeKeg();
@@ -62,12 +63,7 @@ describe('recording a sanitation cycle', () => {
     const fresh = new Date(res.body.cycle.freshUntil).getTime() - new Date(res.body.cycle.completedAt).getTime();
     expect(fresh).toBe(7 * 86_400_000);
     expect(await stateOf(keg.id)).toBe('ready');
-    const change = await ctx.db
-      .selectFrom('equipment_state_change')
-      .selectAll()
-      .where('equipment_id', '=', keg.id)
-      .orderBy('id', 'desc')
-      .executeTakeFirstOrThrow();
+    const change = await lastStateChange(keg.id);
     expect(change).toMatchObject({ from_state: 'needs_cleaning', to_state: 'ready', actor_id: brewer.user.id });
     expect(change.reason).toMatch(/complete/);
     const trail = await ctx.db
@@ -260,12 +256,7 @@ describe('the log and the vessels’ standing', () => {
     expect(status.body.items[0].stateReason).toMatch(/lapsed/);
     expect(await applyFreshnessLapses(ctx.db, ctx.clock.now())).toBeGreaterThanOrEqual(1);
     expect(await stateOf(keg.id)).toBe('needs_cleaning');
-    const change = await ctx.db
-      .selectFrom('equipment_state_change')
-      .selectAll()
-      .where('equipment_id', '=', keg.id)
-      .orderBy('id', 'desc')
-      .executeTakeFirstOrThrow();
+    const change = await lastStateChange(keg.id);
     expect(change).toMatchObject({ from_state: 'ready', to_state: 'needs_cleaning', actor_id: null });
     expect(change.reason).toMatch(/Freshness window lapsed/);
     // Once written down, a second pass changes nothing for it.
@@ -326,14 +317,7 @@ describe('the sanitation audit PDF', () => {
       fermenter: { equipmentId: fa.id, startsAt: '2026-09-01T09:00:00Z', endsAt: '2026-09-14T10:00:00Z' },
     });
     const kegNoCycle = await createKeg(ctx.db);
-    await createTransfer(ctx.db, {
-      batchId: batchA.id,
-      fromEquipmentId: fa.id,
-      kegIds: [kegNoCycle.id],
-      at: '2026-09-14T10:00:00Z',
-      sanitizeKegs: false,
-      recordedBy: ada,
-    });
+    await fillUnsanitized(kegNoCycle.id, { batchId: batchA.id, fromEquipmentId: fa.id, at: '2026-09-14T10:00:00Z', recordedBy: ada });
     await createSanitationCycle(ctx.db, { equipmentId: fa.id, readyAt: '2026-09-16T23:20:00Z', recordedBy: odile });
 
     // A keg whose sanitize step had 30 s, below the 1 min minimum, recorded as an exception with its reason.
@@ -352,14 +336,7 @@ describe('the sanitation audit PDF', () => {
     });
     const kegLapsed = await createKeg(ctx.db);
     await createSanitationCycle(ctx.db, { equipmentId: kegLapsed.id, readyAt: '2026-10-01T09:00:00Z', recordedBy: ada });
-    await createTransfer(ctx.db, {
-      batchId: batchB.id,
-      fromEquipmentId: fb.id,
-      kegIds: [kegLapsed.id],
-      at: '2026-10-20T10:00:00Z',
-      sanitizeKegs: false,
-      recordedBy: ada,
-    });
+    await fillUnsanitized(kegLapsed.id, { batchId: batchB.id, fromEquipmentId: fb.id, at: '2026-10-20T10:00:00Z', recordedBy: ada });
     await createSanitationCycle(ctx.db, { equipmentId: fb.id, readyAt: '2026-10-21T09:00:00Z', recordedBy: ada });
 
     // F-c: cleaned and rinsed on 10 Nov, never sanitized.

@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import {
   createBatch,
   createBooking,
@@ -12,7 +12,7 @@ import {
   HOUR,
 } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { type TestContext, useTestContext } from '../helpers/context.ts';
 
 let ctx: TestContext;
 /** What this file made for member@example.org (and, to stay out of it, for member2@). */
@@ -26,8 +26,8 @@ const made = {
   invoiceTotal: 0,
 };
 
-beforeAll(async () => {
-  ctx = await createTestContext();
+useTestContext(async (created) => {
+  ctx = created;
   const now = ctx.clock.now().getTime();
   const t = (days: number) => new Date(now + days * DAY);
   const member = fixtureUserId('member');
@@ -72,7 +72,6 @@ beforeAll(async () => {
   const invoice = await createInvoice(ctx.db, { memberId: member, period: '2026-11', today: '2026-12-01', actorId: fixtureUserId('treasurer') });
   made.invoiceTotal = invoice.total_cents;
 });
-afterAll(async () => ctx?.close());
 
 describe('GET /api/today', () => {
   it('needs a signed-in person', async () => {

@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createKeg, createTap, DAY, setSetting } from '../../db/factories/index.ts';
 import { batchPool, fillNewKegs } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import request from 'supertest';
 
 /**
@@ -10,25 +10,14 @@ import request from 'supertest';
  */
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let owner: ApiClient;
-let other: ApiClient;
-let treasurer: ApiClient;
-let admin: ApiClient;
+let brewer: ApiClient, owner: ApiClient, other: ApiClient, treasurer: ApiClient, admin: ApiClient;
 let takeBatch: ReturnType<typeof batchPool>;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, owner, other, treasurer, admin] = await Promise.all([
-    ctx.signIn('brewer@example.org'),
-    ctx.signIn('member@example.org'),
-    ctx.signIn('member2@example.org'),
-    ctx.signIn('treasurer@example.org'),
-    ctx.signIn('admin@example.org'),
-  ]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, owner, other, treasurer, admin] = await signInAs(ctx, 'brewer', 'member', 'member2', 'treasurer', 'admin');
   takeBatch = batchPool(ctx);
 });
-afterAll(async () => ctx?.close());
 
 const inDays = (d: number) => new Date(ctx.clock.now().getTime() + d * DAY).toISOString();
 

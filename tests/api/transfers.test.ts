@@ -1,29 +1,26 @@
 import { sql } from 'kysely';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { abv } from '../../shared/brewing/index.ts';
 import { addReadings, createBatch, createKeg, DAY, setSetting } from '../../db/factories/index.ts';
 import { batchPool, count, fullChecklist, kegPool, makeReady, minutesAgo, readyKegPool, states, transferBody } from '../helpers/cellar.ts';
-import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 
 let ctx: TestContext;
-let brewer: ApiClient;
-let member: ApiClient;
-let treasurer: ApiClient;
+let brewer: ApiClient, member: ApiClient, treasurer: ApiClient;
 let takeKegs: ReturnType<typeof kegPool>;
 let takeReadyKegs: ReturnType<typeof readyKegPool>;
 let takeBatch: ReturnType<typeof batchPool>;
 /** Refused transfers change nothing, so they can all use one batch. */
 let refused: Awaited<ReturnType<ReturnType<typeof batchPool>>>;
 
-beforeAll(async () => {
-  ctx = await createTestContext();
-  [brewer, member, treasurer] = await Promise.all([ctx.signIn('brewer@example.org'), ctx.signIn('member@example.org'), ctx.signIn('treasurer@example.org')]);
+useTestContext(async (created) => {
+  ctx = created;
+  [brewer, member, treasurer] = await signInAs(ctx, 'brewer', 'member', 'treasurer');
   takeKegs = kegPool(ctx);
   takeReadyKegs = readyKegPool(ctx, brewer);
   takeBatch = batchPool(ctx);
   refused = await takeBatch();
 });
-afterAll(async () => ctx?.close());
 
 /** Everything a transfer may touch, to show that a refused one changed nothing. */
 async function snapshot(batchId: string, vesselIds: string[]) {

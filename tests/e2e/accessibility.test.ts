@@ -6,7 +6,7 @@ import { createBatch, createBooking, createInvoice, createKegCheckout, DAY, fill
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { closeAll, launchBrowser, newAppContext, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, newAppContext, phone, screenshot, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Every screen a role reaches, at desktop and phone width, checked by axe-core against WCAG 2.1 A and AA.
@@ -27,9 +27,7 @@ interface Finding {
   targets: string[];
 }
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 let batchId: string;
 let memberInvoiceId: string;
 const kegId = fixtureEquipmentId('K-002');
@@ -81,8 +79,7 @@ beforeAll(async () => {
     actorId: fixtureUserId('treasurer'),
   });
   memberInvoiceId = invoice.id;
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
@@ -159,20 +156,16 @@ describe('every screen meets WCAG 2.1 A/AA (no critical or serious axe finding)'
   for (const size of Object.keys(sizes) as SizeName[]) {
     for (const account of accounts) {
       it(`${account.role} at ${size} size`, async () => {
-        const { context, page } = await signedInPage(browser, server.url, account.email, { viewport: sizes[size] });
-        try {
+        await asSignedIn(browser, server.url, account.email, { viewport: sizes[size] }, async (page) => {
           const findings = await sweep(page, account.role, size);
           allFindings.push(...findings);
           expect(failing(findings)).toEqual([]);
-        } finally {
-          await context.close();
-        }
+        });
       }, 400_000);
     }
 
     it(`the booking dialog opened from the calendar at ${size} size`, async () => {
-      const { context, page } = await signedInPage(browser, server.url, 'member@example.org', { viewport: sizes[size] });
-      try {
+      await asSignedIn(browser, server.url, 'member@example.org', { viewport: sizes[size] }, async (page) => {
         await page.goto('/bookings');
         await page.locator('.cw-booking').first().waitFor();
         await settled(page);
@@ -184,9 +177,7 @@ describe('every screen meets WCAG 2.1 A/AA (no critical or serious axe finding)'
         const findings = await check(page, { page: '/bookings (booking dialog)', who: 'member', size });
         allFindings.push(...findings);
         expect(failing(findings)).toEqual([]);
-      } finally {
-        await context.close();
-      }
+      });
     });
 
     it(`the signed-out screens at ${size} size`, async () => {

@@ -3,18 +3,15 @@ import type { Browser, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createMember } from '../../db/factories/index.ts';
-import { closeAll, launchBrowser, newAppContext, screenshot, serve } from '../helpers/browser.ts';
+import { closeAll, newAppContext, screenshot, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, DEMO_PASSWORD, linkFrom, type TestContext } from '../helpers/context.ts';
 
 const lockAt = 20;
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext({ TRUST_PROXY: '1', LOGIN_LOCK_PER_ACCOUNT: String(lockAt) });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

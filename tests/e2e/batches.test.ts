@@ -2,12 +2,10 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createTransfer, DAY, HOUR, type ReadingInput } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 /** 'YYYY-MM' of the month `offset` months from the one `at` is in (UTC). */
 const monthOf = (at: Date, offset = 0) => new Date(Date.UTC(at.getUTCFullYear(), at.getUTCMonth() + offset, 1)).toISOString().slice(0, 7);
@@ -111,8 +109,7 @@ beforeAll(async () => {
   made.stuckId = stuck.id;
   made.fermenting.push({ name: 'Imperial porter', owner: 'Bram Whitlock' });
 
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

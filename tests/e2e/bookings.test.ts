@@ -2,12 +2,10 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBooking, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
@@ -35,8 +33,7 @@ beforeAll(async () => {
     readyAt: new Date(now.getTime() - HOUR),
     recordedBy: fixtureUserId('brewer'),
   });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

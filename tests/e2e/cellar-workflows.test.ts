@@ -13,15 +13,14 @@ import {
   HOUR,
 } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
 // Work finishes where it starts: a transfer from Today, the batch page or the fermenter opens with the
 // batch chosen; a returned keg can be undone from the message that follows; the audit trail has a screen.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 let brewer: ApiClient;
 
 const made = {
@@ -45,11 +44,7 @@ beforeAll(async () => {
     name: made.batch.name,
     style: 'Pale ale',
     volumeLiters: 21,
-    readings: [
-      { takenAt: at(-10 * DAY), value: 1.05 },
-      { takenAt: at(-4 * DAY), value: 1.011 },
-      { takenAt: at(-1 * DAY), value: 1.011 },
-    ],
+    readings: readingsOn(at, [-10, 1.05], [-4, 1.011], [-1, 1.011]),
     fermenter: { equipmentId: fermenter.id, startsAt: at(-10 * DAY - HOUR), endsAt: at(2 * DAY), now: at(0) },
   });
   made.batch.id = batch.id;
@@ -90,8 +85,7 @@ beforeAll(async () => {
     subjectId: batch.id,
     detail: { before: { volumeLiters: 20 }, after: { volumeLiters: 21 } },
   });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -2,12 +2,11 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createKegCheckout, createTransfer, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 const keg = (code: string) => ({ id: fixtureEquipmentId(code), code });
 
@@ -42,12 +41,7 @@ beforeAll(async () => {
     volumeLiters: 21,
     targetOg: 1.044,
     targetFg: 1.01,
-    readings: [
-      { takenAt: at(-12 * DAY), value: 1.044 },
-      { takenAt: at(-8 * DAY), value: 1.018 },
-      { takenAt: at(-4 * DAY), value: 1.011 },
-      { takenAt: at(-1 * DAY), value: 1.011 },
-    ],
+    readings: readingsOn(at, [-12, 1.044], [-8, 1.018], [-4, 1.011], [-1, 1.011]),
     fermenter: { equipmentId: fixtureEquipmentId(made.batch.fermenter), startsAt: at(-12 * DAY - HOUR), endsAt: at(3 * DAY), now: at(0) },
   });
   made.batch.id = fermenting.id;
@@ -59,11 +53,7 @@ beforeAll(async () => {
     name: 'House pale',
     style: 'Pale ale',
     volumeLiters: 60,
-    readings: [
-      { takenAt: at(-20 * DAY), value: 1.048 },
-      { takenAt: at(-10 * DAY), value: 1.01 },
-      { takenAt: at(-7 * DAY), value: 1.01 },
-    ],
+    readings: readingsOn(at, [-20, 1.048], [-10, 1.01], [-7, 1.01]),
   });
   await createTransfer(ctx.db, {
     batchId: pale.id,
@@ -87,11 +77,7 @@ beforeAll(async () => {
     name: 'Robust porter',
     style: 'Porter',
     volumeLiters: 100,
-    readings: [
-      { takenAt: at(-60 * DAY), value: 1.058 },
-      { takenAt: at(-50 * DAY), value: 1.016 },
-      { takenAt: at(-46 * DAY), value: 1.016 },
-    ],
+    readings: readingsOn(at, [-60, 1.058], [-50, 1.016], [-46, 1.016]),
   });
   const out = [...made.overdue, made.notDue];
   await createTransfer(ctx.db, {
@@ -112,8 +98,7 @@ beforeAll(async () => {
     actorId: brewer,
   });
 
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -4,15 +4,14 @@ import { createBatch, createKegCheckout, DAY, fillKeg } from '../../db/factories
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodLabel } from '../../shared/billing/dates.ts';
 import { formatMoney } from '../../shared/billing/money.ts';
-import { closeAll, desktop, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
 // Actions that end something for good (a keg returned, emptied or dumped; a batch discarded; a period's
 // invoices issued) ask first and say what they will change: cancel leaves everything as it was.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 let brewer: ApiClient;
 let treasurer: ApiClient;
 
@@ -61,16 +60,12 @@ beforeAll(async () => {
     ownerId: fixtureUserId('member'),
     name: made.batch.name,
     volumeLiters: 20,
-    readings: [
-      { takenAt: at(-5 * DAY), value: 1.05 },
-      { takenAt: at(-1 * DAY), value: 1.02 },
-    ],
+    readings: readingsOn(at, [-5, 1.05], [-1, 1.02]),
   });
   made.batch.id = batch.id;
   made.period = nextPeriod(ctx.clock.now().toISOString().slice(0, 7), -1);
 
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

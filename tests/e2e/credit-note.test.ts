@@ -2,16 +2,14 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createInvoice, createInvoicePayment, createMember, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, desktop, launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 import { pdfText } from '../helpers/pdf.ts';
 
 // The treasurer credits part of a part-paid invoice and leaves the dialog's choices as they are: a credit
 // is recorded and nothing is paid back, and the credit note's PDF says only that.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 let invoice: InvoiceWithLines;
 
 beforeAll(async () => {
@@ -20,8 +18,7 @@ beforeAll(async () => {
   const member = await createMember(ctx.db, { email: 'part-paid.e2e@example.org', createdAt: '2026-10-01T09:00:00Z' });
   invoice = await createInvoice(ctx.db, { memberId: member.id, period: '2026-11', today: '2026-12-01', actorId: fixtureUserId('treasurer') });
   await createInvoicePayment(ctx.db, { invoiceId: invoice.id, amountCents: 1000, receivedOn: '2026-12-01', actorId: fixtureUserId('treasurer') });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -2,12 +2,10 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createFermenter, createTap } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
@@ -16,8 +14,7 @@ beforeAll(async () => {
   const at = ctx.clock.now();
   await createFermenter(ctx.db, { code: 'F-12', name: '60 L fermenter 12', capacityLiters: 60, at, actorId: fixtureUserId('admin') });
   await createTap(ctx.db, { code: 'T-8', name: 'Tap position 8', at, actorId: fixtureUserId('admin') });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createInvoice, createInvoicePayment, DAY, type InvoiceWithLines } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodBounds } from '../../shared/billing/dates.ts';
-import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, screenshot, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Every action says how it went, once: a success notice after a payment, a credit note, a role change
@@ -11,9 +11,7 @@ import { createTestContext, type TestContext } from '../helpers/context.ts';
 // action); Settings never says "saved" beside a validation error; a list that fails to load says so
 // with a Retry and never claims to be empty.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 const made = {
   /** Caspian Reyes (member4): unpaid, for a payment recorded by hand. */
@@ -46,8 +44,7 @@ beforeAll(async () => {
     createdAt: new Date(now.getTime() - DAY),
   });
   made.plannedId = planned.id;
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
@@ -55,8 +52,7 @@ const notice = (page: Page) => page.locator('main [data-notice]');
 
 describe('feedback after actions', { timeout: 120_000 }, () => {
   it('the treasurer sees a payment recorded by hand and a credit note confirmed, and the notice goes once stale', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'treasurer@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'treasurer@example.org', async (page) => {
       const pay = made.toPay!;
       await page.goto(`/billing/invoices/${pay.id}`);
       await page.getByRole('heading', { name: pay.number! }).waitFor();
@@ -94,14 +90,11 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       // Dismissed by hand.
       await notice(page).getByRole('button', { name: 'Dismiss' }).click();
       expect(await notice(page).count()).toBe(0);
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('the admin sees a role change confirmed, gone on the next page', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'admin@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'admin@example.org', async (page) => {
       await page.goto('/members');
       await page.getByRole('button', { name: 'Edit roles of Bram Whitlock' }).click();
       const dialog = page.getByRole('dialog', { name: 'Roles of Bram Whitlock' });
@@ -113,14 +106,11 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       await page.waitForURL('**/settings');
       await page.getByRole('heading', { name: 'Settings', exact: true }).waitFor();
       await expect.poll(() => notice(page).count()).toBe(0);
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('Settings never shows "saved" beside a validation error, in every section that saves', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'admin@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'admin@example.org', async (page) => {
       await page.goto('/settings');
       const sections = [
         { form: 'Booking rules', field: 'Cleaning buffer (hours)', bad: '-4', save: 'Save booking rules', saved: /Booking rules saved/ },
@@ -139,14 +129,11 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
         expect(await form.getByText(s.saved).count()).toBe(0);
       }
       await screenshot(page, 'feedback-settings-invalid');
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('a list that fails shows the error with Retry, not the empty text, and Retry loads it', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'member@example.org', { viewport: phone });
-    try {
+    await asSignedIn(browser, server.url, 'member@example.org', { viewport: phone }, async (page) => {
       await page.route('**/api/batches?**', (route) =>
         route.fulfill({
           status: 503,
@@ -164,14 +151,11 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       await error.getByRole('button', { name: 'Retry' }).click();
       await page.getByRole('link', { name: 'Notice saison' }).waitFor();
       expect(await page.getByText('could not be loaded').count()).toBe(0);
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('the first reading says the batch is now fermenting', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'member@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'member@example.org', async (page) => {
       await page.goto(`/batches/${made.plannedId}`);
       await page.getByRole('button', { name: 'Add a reading' }).click();
       const dialog = page.getByRole('dialog');
@@ -182,8 +166,6 @@ describe('feedback after actions', { timeout: 120_000 }, () => {
       const row = await ctx.db.selectFrom('batch').select('status').where('id', '=', made.plannedId).executeTakeFirstOrThrow();
       expect(row.status).toBe('fermenting');
       await screenshot(page, 'feedback-first-reading');
-    } finally {
-      await context.close();
-    }
+    });
   });
 });

@@ -4,15 +4,13 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createBooking, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, desktop, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, phone, signedInPage, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Figures on screen add up: Today's counts are their lists, chart axes never repeat or overlap a
 // label, steadily falling readings get a forecast dated after now, and no raw timestamp is shown.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 const made = { steady: '', shortSpan: '', handovers: 0 };
 const shots = '/tmp/cellarwright-figures';
 
@@ -47,8 +45,7 @@ beforeAll(async () => {
   made.handovers = 3;
 
   fs.mkdirSync(shots, { recursive: true });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
@@ -111,8 +108,7 @@ describe('figures that add up', { timeout: 120_000 }, () => {
       ['desktop', desktop],
       ['phone', phone],
     ] as const) {
-      const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport });
-      try {
+      await asSignedIn(browser, server.url, 'brewer@example.org', { viewport }, async (page) => {
         await page.goto('/');
         const card = page.getByRole('region', { name: 'Hand-overs in the next 24 hours' });
         await card.locator('li').first().waitFor();
@@ -125,16 +121,13 @@ describe('figures that add up', { timeout: 120_000 }, () => {
         const more = Number(/and (\d+) more/.exec((await clean.textContent()) ?? '')?.[1] ?? 0);
         expect(listed - (more ? 1 : 0) + more).toBe(total);
         await page.screenshot({ path: path.join(shots, `today-brewer-${size}.png`), fullPage: true });
-      } finally {
-        await context.close();
-      }
+      });
     }
   });
 
   it('shows no raw timestamps on the sanitation list', async () => {
     await createSanitationCycle(ctx.db, { equipmentId: (await createKeg(ctx.db)).id, readyAt: new Date(ctx.clock.now().getTime() - 2 * HOUR) });
-    const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone });
-    try {
+    await asSignedIn(browser, server.url, 'brewer@example.org', { viewport: phone }, async (page) => {
       for (const url of ['/sanitation/log', '/sanitation', '/']) {
         await page.goto(url);
         await page.getByRole('main').waitFor();
@@ -145,8 +138,6 @@ describe('figures that add up', { timeout: 120_000 }, () => {
       await page.goto('/sanitation/log');
       await page.waitForLoadState('networkidle');
       await page.screenshot({ path: path.join(shots, 'sanitation-log-phone.png'), fullPage: true });
-    } finally {
-      await context.close();
-    }
+    });
   });
 });

@@ -1,12 +1,10 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createCo2Cylinder, createInspection, createKeg, DAY, fillKeg } from '../../db/factories/index.ts';
-import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 let keg: { id: string; code: string };
 
 beforeAll(async () => {
@@ -18,8 +16,7 @@ beforeAll(async () => {
     code: 'C-44',
     attributes: { sizeKg: 6, fillPercent: 100, hydroTestDue: new Date(now - 5 * DAY).toISOString().slice(0, 10) },
   });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

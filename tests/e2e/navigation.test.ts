@@ -3,17 +3,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { accountNav, mainNav, visibleNav } from '../../frontend/config/nav.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { closeAll, launchBrowser, phone, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, screenshot, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
@@ -29,8 +26,7 @@ const flatten = (entries: ReturnType<typeof visibleNav>): string[] => entries.fl
 describe('navigation by role', () => {
   for (const account of accounts) {
     it(`${account.role} signs in and sees only the navigation the shared ability allows`, async () => {
-      const { context, page } = await signedInPage(browser, server.url, account.email);
-      try {
+      await asSignedIn(browser, server.url, account.email, async (page) => {
         await expect.poll(() => page.getByRole('heading', { level: 1 }).first().textContent()).toContain(account.name.split(' ')[0]);
         const nav = page.getByRole('navigation', { name: /main/i });
         const labels = (await nav.getByRole('link').allTextContents()).map((t) => t.trim());
@@ -40,26 +36,20 @@ describe('navigation by role', () => {
         for (const label of account.always) expect(labels).toContain(label);
         for (const label of account.never) expect(labels).not.toContain(label);
         await screenshot(page, `navigation-${account.role}`);
-      } finally {
-        await context.close();
-      }
+      });
     });
   }
 
   it('a member typing the Members address gets no member list', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'member2@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'member2@example.org', async (page) => {
       await page.goto('/members');
       await expect.poll(async () => (await page.textContent('main')) ?? '').toMatch(/not for your role/i);
       expect(await page.getByRole('cell', { name: 'admin@example.org' }).count()).toBe(0);
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('a phone shows the menu behind a button; an unknown address shows the not-found page', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone });
-    try {
+    await asSignedIn(browser, server.url, 'brewer@example.org', { viewport: phone }, async (page) => {
       const menu = page.getByRole('button', { name: /menu/i });
       await menu.click();
       await expect.poll(() => page.getByRole('navigation', { name: /main/i }).getByRole('link', { name: 'Today' }).isVisible()).toBe(true);
@@ -67,9 +57,7 @@ describe('navigation by role', () => {
       await page.goto('/no-such-screen');
       await expect.poll(async () => (await page.textContent('body')) ?? '').toMatch(/nothing at this address/i);
       await screenshot(page, 'not-found');
-    } finally {
-      await context.close();
-    }
+    });
   });
 });
 

@@ -9,8 +9,9 @@ import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { nextPeriod, periodBounds } from '../../shared/billing/dates.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { closeAll, launchBrowser, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
 // Phones: every page each role reaches fits a 360 px and a 390 px wide screen (nothing wider than the
 // viewport), dialogs open inside it, and the cellar's checklists keep their buttons at touch size. The
@@ -23,9 +24,7 @@ const sizes = [
 ];
 const TOUCH_PX = 44;
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 const made = {
   batchId: '',
@@ -47,11 +46,7 @@ beforeAll(async () => {
     name: 'Phone-sized extra special bitter with a long name',
     style: 'Extra special bitter',
     volumeLiters: 23,
-    readings: [
-      { takenAt: at(-6 * DAY), value: 1.056 },
-      { takenAt: at(-3 * DAY), value: 1.022 },
-      { takenAt: at(-1 * DAY), value: 1.014 },
-    ],
+    readings: readingsOn(at, [-6, 1.056], [-3, 1.022], [-1, 1.014]),
     fermenter: { equipmentId: made.fermenterId, startsAt: at(-6 * DAY - HOUR), endsAt: at(8 * DAY), now },
   });
   made.batchId = batch.id;
@@ -60,8 +55,7 @@ beforeAll(async () => {
   const period = nextPeriod(now.toISOString().slice(0, 7), -1);
   const invoice = await createInvoice(ctx.db, { memberId: member, period, today: periodBounds(period).next, actorId: fixtureUserId('treasurer') });
   made.invoiceId = invoice.id;
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
   fs.mkdirSync(screensDir, { recursive: true });
 });
 afterAll(() => closeAll(browser, server, ctx));
@@ -134,8 +128,7 @@ describe('phone layout', { timeout: 120_000 }, () => {
         const queue = [...new Set(start)];
         const seen = new Set(queue);
         const problems: string[] = [];
-        const { context, page } = await signedInPage(browser, server.url, account.email, { viewport: size });
-        try {
+        await asSignedIn(browser, server.url, account.email, { viewport: size }, async (page) => {
           for (let i = 0; i < queue.length; i++) {
             const where = queue[i]!;
             await page.goto(where);
@@ -189,17 +182,14 @@ describe('phone layout', { timeout: 120_000 }, () => {
             await dialog.getByRole('button', { name: 'Keep it' }).click();
           }
           expect(problems).toEqual([]);
-        } finally {
-          await context.close();
-        }
+        });
         // Every page a role reaches, at one size, in one go: the admin reaches the most (about 30).
       }, 240_000);
     }
   }
 
   it('wide lists become cards on a phone, with status and amount on screen', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'treasurer@example.org', { viewport: sizes[0] });
-    try {
+    await asSignedIn(browser, server.url, 'treasurer@example.org', { viewport: sizes[0] }, async (page) => {
       await page.goto('/billing/invoices');
       const row = page.locator('main tbody tr').first();
       await row.waitFor();
@@ -220,8 +210,6 @@ describe('phone layout', { timeout: 120_000 }, () => {
       const labels = cells.map((c) => c.label);
       expect(labels).toContain('Status');
       expect(labels.some((l) => l && /total|amount|due/i.test(l))).toBe(true);
-    } finally {
-      await context.close();
-    }
+    });
   });
 });

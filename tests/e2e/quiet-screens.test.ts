@@ -6,15 +6,13 @@ import { createBatch, createBooking, DAY } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
-import { closeAll, launchBrowser, screenshot, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, screenshot, signedInPage, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // Screens that settle: a list page stops asking the server once it has its rows, and no screen a role
 // reaches sends a request that role may not make (no 4xx/5xx answer, no console error after sign-in).
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
@@ -35,8 +33,7 @@ beforeAll(async () => {
     now,
   });
   await createBatch(ctx.db, { ownerId: fixtureUserId('member'), name: 'Quiet amber', createdAt: new Date(now.getTime() - DAY) });
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
@@ -78,8 +75,7 @@ describe('list pages settle', () => {
   ];
   for (const list of lists) {
     it(`${list.path} as ${list.who} shows its rows, ends its spinner and then stays quiet`, async () => {
-      const { context, page } = await signedInPage(browser, server.url, list.who);
-      try {
+      await asSignedIn(browser, server.url, list.who, async (page) => {
         const requests = apiRequestCounter(page);
         await page.goto(list.path);
         if (list.rows) await page.locator(list.rows).first().waitFor();
@@ -89,15 +85,12 @@ describe('list pages settle', () => {
         expect(requests.count() - before).toBeLessThanOrEqual(IDLE_REQUESTS_MAX);
         expect(await page.locator('main svg.animate-spin').count()).toBe(0);
         if (list.rows) expect(await page.locator(list.rows).count()).toBeGreaterThan(0);
-      } finally {
-        await context.close();
-      }
+      });
     }, 60_000);
   }
 
   it('My bookings lists the member’s upcoming booking and nobody else’s', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'member@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'member@example.org', async (page) => {
       await page.goto('/bookings/mine');
       await page.locator('main tr[data-booking]').first().waitFor();
       await settled(page);
@@ -105,9 +98,7 @@ describe('list pages settle', () => {
       expect(text).toContain('F-01');
       expect(text).not.toContain('F-02');
       await screenshot(page, 'bookings-mine-settled');
-    } finally {
-      await context.close();
-    }
+    });
   });
 });
 

@@ -3,15 +3,13 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createInvoice, createKeg, createKegCheckout, createMember, DAY } from '../../db/factories/index.ts';
-import { closeAll, desktop, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, desktop, phone, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 // The "Remind" buttons (an overdue invoice, all overdue invoices, an overdue keg) and the private
 // calendar link on the profile, driven as the treasurer, the brewer on duty and a member would.
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 const shots = path.join('/tmp', 'cellarwright-reminders-calendar');
 const made = { invoiceId: '', invoiceNumber: '', debtorEmail: '', kegId: '', kegCode: '', holderEmail: '', memberEmail: '' };
 
@@ -37,8 +35,7 @@ beforeAll(async () => {
   await createKegCheckout(ctx.db, { kegId: keg.id, memberId: holder.id, at: new Date(now - 20 * DAY), dueAt: new Date(now - 4 * DAY) });
   Object.assign(made, { kegId: keg.id, kegCode: keg.code, holderEmail: holder.email });
   made.memberEmail = (await createMember(ctx.db, { name: 'Cal Endar' })).email;
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -1,17 +1,14 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createKeg } from '../../db/factories/index.ts';
-import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 beforeAll(async () => {
   ctx = await createTestContext();
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 
@@ -21,13 +18,19 @@ const stepBox = (page: Page, step: string) => page.locator(`li[aria-labelledby="
 /** Screenshots for looking at the screen by eye; kept out of the repository. */
 const shot = (page: Page, name: string) => page.screenshot({ path: `/tmp/cw-sanitation-${name}.png`, fullPage: true });
 
+/** A keg needing cleaning, and the brewer's phone on its new cycle. */
+async function newCycleOnPhone() {
+  const keg = await createKeg(ctx.db);
+  await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
+  const { page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone, context: { hasTouch: true, isMobile: true } });
+  await page.goto(`/sanitation/new?equipmentId=${keg.id}`);
+  await page.getByRole('heading', { name: `Clean ${keg.code}` }).waitFor();
+  return { keg, page };
+}
+
 describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
   it('shows why a cycle with a weak sanitizer is refused beside the step, then records it as an exception with the reason', async () => {
-    const keg = await createKeg(ctx.db);
-    await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
-    const { page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone, context: { hasTouch: true, isMobile: true } });
-    await page.goto(`/sanitation/new?equipmentId=${keg.id}`);
-    await page.getByRole('heading', { name: `Clean ${keg.code}` }).waitFor();
+    const { keg, page } = await newCycleOnPhone();
 
     // A caustic clean warns about CO2 and asks for the vent to be confirmed.
     await stepBox(page, 'clean').getByRole('button', { name: 'Mark clean done' }).click();
@@ -111,11 +114,7 @@ describe('checked sanitation on a phone', { timeout: 180_000 }, () => {
   });
 
   it('lets the brewer correct the strength instead, and the Settings screen edits the working ranges', async () => {
-    const keg = await createKeg(ctx.db);
-    await ctx.db.updateTable('equipment').set({ state: 'needs_cleaning' }).where('id', '=', keg.id).execute();
-    const { page } = await signedInPage(browser, server.url, 'brewer@example.org', { viewport: phone, context: { hasTouch: true, isMobile: true } });
-    await page.goto(`/sanitation/new?equipmentId=${keg.id}`);
-    await page.getByRole('heading', { name: `Clean ${keg.code}` }).waitFor();
+    const { keg, page } = await newCycleOnPhone();
     await stepBox(page, 'clean').getByRole('button', { name: 'Mark clean done' }).click();
     await stepBox(page, 'clean')
       .getByLabel(/Strength/)

@@ -4,7 +4,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createKeg, createKegCheckout, createTransfer, DAY } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
 
 /**
@@ -12,9 +12,7 @@ import { createTestContext, type TestContext } from '../helpers/context.ts';
  * hold (on a phone); the trace report and the batch page list a batch's kegs, who has them and which tap.
  */
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 
 const shotsDir = '/tmp/cellarwright-trace-screens';
 async function shot(page: Page, name: string) {
@@ -57,8 +55,7 @@ beforeAll(async () => {
   const brewer = await ctx.signIn('brewer@example.org');
   const moved = await brewer.post(`/api/kegs/${made.kegs[1]!.id}/move`, { to: 'cold_room', tapId: fixtureEquipmentId(made.tapCode) });
   expect(moved.status, JSON.stringify(moved.body)).toBe(200);
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 }, 120_000);
 
 afterAll(() => closeAll(browser, server, ctx));
@@ -67,8 +64,7 @@ const dayText = (iso: string) => new Intl.DateTimeFormat('en-GB', { day: 'numeri
 
 describe('trace and best-before on screen', () => {
   it('a member on a phone sees the finings, allergen notes and best-before of the keg they hold', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'member@example.org', { viewport: phone });
-    try {
+    await asSignedIn(browser, server.url, 'member@example.org', { viewport: phone }, async (page) => {
       // Eight days' shelf life filled two days ago: within the week's warning, so Today shows it.
       const card = page.getByRole('region', { name: 'Your kegs near best-before' });
       await card.getByText(made.kegs[0]!.code, { exact: false }).waitFor();
@@ -83,14 +79,11 @@ describe('trace and best-before on screen', () => {
       expect(await vegan.textContent()).toBe('No');
       expect(await holds.textContent()).toContain(dayText(made.bestBefore).split(' ')[0]!);
       await shot(page, 'member-keg-phone');
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('the trace report and the batch page list the batch’s kegs, who has them and which tap', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'brewer@example.org', async (page) => {
       await page.goto('/trace-report');
       const section = page.getByRole('region', { name: made.batchName });
       await section.waitFor();
@@ -116,14 +109,11 @@ describe('trace and best-before on screen', () => {
       const tap = page.getByRole('listitem').filter({ has: page.getByRole('heading', { name: made.tapCode, exact: true }) });
       await tap.getByText('Not vegan').waitFor();
       expect(await tap.textContent()).toContain('gluten (barley)');
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('lets the admin set the shelf life and a style’s days in Settings', async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'admin@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'admin@example.org', async (page) => {
       await page.goto('/settings#shelf_life');
       const form = page.getByRole('form', { name: 'Shelf life' });
       await form.waitFor();
@@ -139,8 +129,6 @@ describe('trace and best-before on screen', () => {
       expect((row.value as { byStyle: unknown[] }).byStyle).toContainEqual({ style: 'Best bitter', days: 30 });
       fs.mkdirSync(shotsDir, { recursive: true });
       await form.screenshot({ path: path.join(shotsDir, 'shelf-life-settings.png') });
-    } finally {
-      await context.close();
-    }
+    });
   });
 });

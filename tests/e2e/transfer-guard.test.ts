@@ -2,12 +2,11 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createBatch, createFermenter, createKeg, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
-import { closeAll, launchBrowser, phone, serve, signedInPage } from '../helpers/browser.ts';
+import { closeAll, phone, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { readingsOn } from '../helpers/cellar.ts';
 
-let ctx: TestContext;
-let server: Awaited<ReturnType<typeof serve>>;
-let browser: Browser;
+let ctx: TestContext, server: Served, browser: Browser;
 const made = { batchId: '', batchName: 'Still falling saison', kegId: '', kegCode: '', fermenterCode: '' };
 
 beforeAll(async () => {
@@ -22,11 +21,7 @@ beforeAll(async () => {
     name: made.batchName,
     style: 'Saison',
     volumeLiters: 21,
-    readings: [
-      { takenAt: at(-10 * DAY), value: 1.05 },
-      { takenAt: at(-3 * DAY), value: 1.014 },
-      { takenAt: at(-1 * DAY), value: 1.009 },
-    ],
+    readings: readingsOn(at, [-10, 1.05], [-3, 1.014], [-1, 1.009]),
     fermenter: { equipmentId: fermenter.id, startsAt: at(-10 * DAY - HOUR), endsAt: at(3 * DAY), now: at(0) },
   });
   made.batchId = batch.id;
@@ -34,8 +29,7 @@ beforeAll(async () => {
   await createSanitationCycle(ctx.db, { equipmentId: keg.id, readyAt: at(-2 * HOUR) });
   made.kegId = keg.id;
   made.kegCode = keg.code;
-  server = await serve(ctx);
-  browser = await launchBrowser();
+  ({ server, browser } = await serveAndLaunch(ctx));
 });
 afterAll(() => closeAll(browser, server, ctx));
 

@@ -31,6 +31,14 @@ export async function serve(ctx: TestContext): Promise<{ url: string; close(): P
 }
 
 /** Debian's Chromium, headless, with no background traffic. */
+export type Served = Awaited<ReturnType<typeof serve>>;
+
+/** The app served on the context and a browser, started side by side. */
+export async function serveAndLaunch(ctx: TestContext): Promise<{ server: Served; browser: Browser }> {
+  const [server, browser] = await Promise.all([serve(ctx), launchBrowser()]);
+  return { server, browser };
+}
+
 export function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -81,6 +89,20 @@ export async function signedInPage(
   await page.getByRole('button', { name: /sign in/i }).click();
   await page.waitForURL((u) => !u.pathname.startsWith('/login'));
   return { context, page };
+}
+
+type PageOptions = Parameters<typeof signedInPage>[3];
+type PageUse<T> = (page: Page, context: BrowserContext) => Promise<T>;
+
+/** Runs `use` on a page signed in as `email` (see signedInPage), closing its browser context after. */
+export async function asSignedIn<T>(browser: Browser, baseUrl: string, email: string, ...rest: [PageUse<T>] | [PageOptions, PageUse<T>]): Promise<T> {
+  const [options, use] = rest.length === 1 ? [undefined, rest[0]] : rest;
+  const { context, page } = await signedInPage(browser, baseUrl, email, options);
+  try {
+    return await use(page, context);
+  } finally {
+    await context.close();
+  }
 }
 
 export async function screenshot(page: Page, name: string): Promise<string> {

@@ -160,3 +160,8 @@ export async function states(ctx: TestContext, ids: string[]) {
   const rows = await ctx.db.selectFrom('equipment').select(['id', 'state']).where('id', 'in', ids).execute();
   return Object.fromEntries(rows.map((r) => [r.id, r.state]));
 }
+
+/** Gravity readings on days before (negative) or after now: `readingsOn(at, [-10, 1.05], [-1, 1.011])`. */
+export function readingsOn<T>(at: (offsetMs: number) => T, ...days: [number, number][]): { takenAt: T; value: number }[] {
+  return days.map(([day, value]) => ({ takenAt: at(day * DAY), value }));
+}

@@ -2,7 +2,7 @@ import { randomBytes } from 'node:crypto';
 import type { Express } from 'express';
 import pg from 'pg';
 import request from 'supertest';
-import { inject } from 'vitest';
+import { afterAll, beforeAll, inject } from 'vitest';
 import { createApp } from '../../backend/app.ts';
 import { loadConfig, type Config } from '../../backend/config/env.ts';
 import { createDb, type Database } from '../../backend/db/database.ts';
@@ -124,6 +124,21 @@ export async function createTestContext(env: Record<string, string> = {}, { now 
       await db.destroy();
     },
   };
+}
+
+/** Signs in the named fixture accounts at once: `'brewer'` is brewer@example.org. */
+export function signInAs<const T extends readonly string[]>(ctx: TestContext, ...who: T): Promise<{ [K in keyof T]: ApiClient }> {
+  return Promise.all(who.map((name) => ctx.signIn(`${name}@example.org`))) as Promise<{ [K in keyof T]: ApiClient }>;
+}
+
+/** One test context for the file: created before its tests (then `setup` runs on it) and closed after them. */
+export function useTestContext(setup: (ctx: TestContext) => Promise<void> | void, ...args: Parameters<typeof createTestContext>): void {
+  let ctx: TestContext | undefined;
+  beforeAll(async () => {
+    ctx = await createTestContext(...args);
+    await setup(ctx);
+  });
+  afterAll(async () => ctx?.close());
 }
 
 /** The link in an e-mail body (invitation, reset) and its token. */

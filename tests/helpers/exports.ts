@@ -4,7 +4,8 @@ import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import type { Response } from 'superagent';
 import { expect } from 'vitest';
-import type { ApiClient } from './context.ts';
+import { createBatch, createInvoice, createKeg, createKegCheckout, createManualCharge, createMember, DAY, fillKeg } from '../../db/factories/index.ts';
+import type { ApiClient, TestContext } from './context.ts';
 
 /**
  * Every CSV and XLSX download the API serves, in one list shared by the export tests
@@ -26,9 +27,16 @@ export interface ExportTarget {
 }
 
 /** Every CSV and XLSX the API serves, with who may fetch it. Kept complete by `exportSources`. */
+/** Where the exports find the seeded data: the billing period, a traced batch and the day it was packaged. */
+export interface ExportScope {
+  period: string;
+  tracedBatchId: string;
+  traceDay: string;
+}
+
 export function exportsList(
   { treasurer, brewer }: { treasurer: ApiClient; brewer: ApiClient },
-  { period, tracedBatchId, traceDay }: { period: string; tracedBatchId: string; traceDay: string },
+  { period, tracedBatchId, traceDay }: ExportScope,
 ): ExportTarget[] {
   return [
     { name: 'ledger CSV', client: treasurer, url: `/api/invoices/export?period=${period}&format=csv`, kind: 'csv' },
@@ -112,4 +120,63 @@ export async function cellsOf(kind: 'csv' | 'xlsx', res: Response): Promise<{ te
     );
   }
   return { text, numbers, formulas };
+}
+
+/** What a member and the treasurer typed, seeded by `seedTypedExports` so that every export carries it. */
+export interface TypedExportData {
+  memberName: string;
+  batches: { name: string; style: string; allergens?: string[] }[];
+  /** Charge descriptions, each on last month's invoice at `chargeCents`. */
+  charges: string[];
+  chargeCents: number;
+  chargeReason: string;
+  /** Further charges (a credit is a negative amount). */
+  extraCharges?: { description: string; amountCents: number; reason: string }[];
+  payment: { amountCents: number; reference: string; note: string };
+  refund: { amountCents: number; reason: string };
+  /** Litres filled into each batch's keg, and its readings (original and final gravity). */
+  kegLiters: number;
+  gravities: [number, number];
+  /** The first batch's keg goes out with the member, so the member's name reaches the trace as its holder. */
+  checkOutFirstKeg?: boolean;
+}
+
+/**
+ * Seeds a member, batches packaged this month (one keg each, an hour apart), last month's invoice with
+ * the typed charges, a payment and a refund; answers what `exportsList` needs to reach them.
+ */
+export async function seedTypedExports(ctx: TestContext, treasurer: ApiClient, data: TypedExportData): Promise<ExportScope> {
+  const now = ctx.clock.now();
+  const today = now.toISOString().slice(0, 10);
+  const period = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1)).toISOString().slice(0, 7);
+  const scope: ExportScope = { period, tracedBatchId: '', traceDay: '' };
+  const member = await createMember(ctx.db, { name: data.memberName });
+  for (const [i, b] of data.batches.entries()) {
+    const at = new Date(now.getTime() - (i + 1) * 3600_000);
+    const [og, fg] = data.gravities;
+    const readings = [
+      { takenAt: new Date(at.getTime() - 9 * DAY), value: og },
+      { takenAt: new Date(at.getTime() - 2 * DAY), value: fg },
+    ];
+    const batch = await createBatch(ctx.db, { ownerId: member.id, ...b, readings });
+    const keg = await createKeg(ctx.db, { state: 'ready' });
+    await fillKeg(ctx.db, { kegId: keg.id, at, batchId: batch.id, volumeLiters: data.kegLiters });
+    if (i > 0) continue;
+    scope.tracedBatchId = batch.id;
+    scope.traceDay = at.toISOString().slice(0, 10);
+    if (data.checkOutFirstKeg) {
+      await createKegCheckout(ctx.db, { kegId: keg.id, memberId: member.id, at: new Date(at.getTime() + 60_000), dueAt: new Date(at.getTime() + 7 * DAY) });
+    }
+  }
+  const charges = [
+    ...data.charges.map((description) => ({ description, amountCents: data.chargeCents, reason: data.chargeReason })),
+    ...(data.extraCharges ?? []),
+  ];
+  for (const c of charges) await createManualCharge(ctx.db, { memberId: member.id, period, ...c });
+  const invoice = await createInvoice(ctx.db, { memberId: member.id, period, today });
+  const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, { ...data.payment, method: 'bank_transfer', receivedOn: today });
+  expect(paid.status).toBe(201);
+  const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { ...data.refund, refundMethod: 'cash' });
+  expect(refund.status).toBe(201);
+  return scope;
 }
