@@ -78,8 +78,7 @@ const kegRows = (page: Page) => page.locator('main tbody tr');
 
 describe('route loaders', () => {
   it('a list opened by its address with page and sort asks for its rows once and shows them', { timeout: 120_000 }, async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'brewer@example.org', async (page) => {
       const kegs = requestsTo(page, '/api/kegs');
       await page.goto('/kegs?sort=code&order=desc&page=2&pageSize=5');
       // The fleet is K-001…K-012: newest code first, five a page, so page 2 holds K-007…K-003.
@@ -88,14 +87,11 @@ describe('route loaders', () => {
       await page.waitForLoadState('networkidle');
       expect(kegs).toHaveLength(1);
       expect(Object.fromEntries(kegs[0]!.searchParams)).toMatchObject({ sort: 'code', order: 'desc', page: '2', pageSize: '5' });
-    } finally {
-      await context.close();
-    }
+    });
   });
 
   it('going to a screen from the navigation fetches its data once; sorting asks for the new order only', { timeout: 120_000 }, async () => {
-    const { context, page } = await signedInPage(browser, server.url, 'brewer@example.org');
-    try {
+    await asSignedIn(browser, server.url, 'brewer@example.org', async (page) => {
       await page.getByRole('heading', { level: 1 }).first().waitFor();
       const kegs = requestsTo(page, '/api/kegs');
       await page.getByRole('navigation', { name: /main/i }).getByRole('link', { name: 'Kegs', exact: true }).click();
@@ -108,8 +104,6 @@ describe('route loaders', () => {
       await page.waitForLoadState('networkidle');
       expect(kegs).toHaveLength(2);
       expect(kegs[1]!.search).not.toBe(kegs[0]!.search);
-    } finally {
-      await context.close();
-    }
+    });
   });
 });
