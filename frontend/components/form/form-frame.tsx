@@ -1,6 +1,6 @@
 import type { FormEventHandler, ReactNode } from 'react';
 import type { FormMessage } from '@/components/form/use-api-form';
-import { Button } from '@/components/ui/button';
+import { Button, type ButtonVariant } from '@/components/ui/button';
 import { DialogActions } from '@/components/ui/dialog';
 import { FormMessageAlert } from '@/components/ui/field';
 import { useReportBusy } from '@/components/ui/form-dialog';
@@ -17,6 +17,7 @@ export interface FormFrameProps {
   pending?: boolean;
   submitDisabled?: boolean;
   submitClassName?: string;
+  submitVariant?: ButtonVariant;
   /** A Cancel button (a dialog's), left of the submit button. */
   onCancel?: () => void;
   cancelLabel?: ReactNode;
@@ -29,6 +30,8 @@ export interface FormFrameProps {
   /** The form's layout classes, in place of a column with a gap of 4. */
   className?: string;
   'aria-label'?: string;
+  /** What stands above the form's message: a heading, a line of help. */
+  intro?: ReactNode;
   children: ReactNode;
 }
 
@@ -44,6 +47,7 @@ export const FormFrame = ({
   pending = false,
   submitDisabled,
   submitClassName,
+  submitVariant,
   onCancel,
   cancelLabel = 'Cancel',
   actions = 'end',
@@ -51,16 +55,18 @@ export const FormFrame = ({
   browserValidation = false,
   className,
   'aria-label': label,
+  intro,
   children,
 }: FormFrameProps) => {
   useReportBusy(pending);
   const submit = submitLabel ? (
-    <Button type="submit" pending={pending} disabled={submitDisabled} className={submitClassName}>
+    <Button type="submit" variant={submitVariant} pending={pending} disabled={submitDisabled} className={submitClassName}>
       {submitLabel}
     </Button>
   ) : null;
   return (
     <form onSubmit={onSubmit} noValidate={!browserValidation} className={className ?? 'flex flex-col gap-4'} aria-label={label}>
+      {intro}
       <FormMessageAlert message={message ?? (error ? { tone: 'error', text: error } : null)} />
       {children}
       {!submit ? (
