@@ -1,9 +1,8 @@
 import { useFieldArray } from 'react-hook-form';
 import { shelfLifeSettingsSchema, type ShelfLifeSettings } from '../../../../shared/cellar/trace.ts';
 import { NumberField } from '@/components/form/number-field';
-import { Button } from '@/components/ui/button';
 import { InputField } from '@/components/ui/field';
-import { SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
+import { AddRowButton, RemoveRowButton, SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const ShelfLifeSettingsForm = ({ value, canEdit }: SettingFormProps<ShelfLifeSettings>) => {
@@ -39,20 +38,12 @@ const ShelfLifeSettingsForm = ({ value, canEdit }: SettingFormProps<ShelfLifeSet
             <div key={f.id} className="flex flex-wrap items-end gap-2">
               <InputField label="Style" error={errors.byStyle?.[i]?.style?.message} inputClassName="w-56" {...form.register(`byStyle.${i}.style`)} />
               <NumberField form={form} name={`byStyle.${i}.days`} label="Days" inputMode="numeric" inputClassName="w-24" />
-              {canEdit ? (
-                <Button variant="ghost" onClick={() => styles.remove(i)}>
-                  Remove
-                </Button>
-              ) : null}
+              <RemoveRowButton canEdit={canEdit} onClick={() => styles.remove(i)} />
             </div>
           ))}
-          {canEdit ? (
-            <div>
-              <Button variant="secondary" onClick={() => styles.append({ style: '', days: value.defaultDays })}>
-                Add a style
-              </Button>
-            </div>
-          ) : null}
+          <AddRowButton canEdit={canEdit} onClick={() => styles.append({ style: '', days: value.defaultDays })}>
+            Add a style
+          </AddRowButton>
         </div>
       </fieldset>
     </SettingFormFrame>

@@ -1,4 +1,4 @@
-import { useFieldArray } from 'react-hook-form';
+import { useFieldArray, type Path } from 'react-hook-form';
 import {
   carbonationSettingsSchema,
   concentrationUnits,
@@ -8,15 +8,33 @@ import {
 } from '../../../../shared/schemas/cellar-settings.ts';
 import { NumberField } from '@/components/form/number-field';
 import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
 import { InputField, SelectField } from '@/components/ui/field';
 import { Checkbox } from '@/components/ui/input';
 import { Cautions } from '@/components/safety/cautions';
-import { SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
+import { AddRowButton, RemoveRowButton, SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const wholeNumber = { type: 'number', min: 0, step: 1 } as const;
 const anyNumber = { type: 'number', step: 'any' } as const;
+
+const dayCount = { ...wholeNumber, min: 1 } as const;
+const minutes = { ...anyNumber, min: 0 } as const;
+
+/** The sanitation rules' number boxes, in order. */
+const sanitationNumbers: { name: Path<SanitationSettings>; label: string; hint?: string; box: typeof wholeNumber | typeof dayCount | typeof minutes }[] = [
+  { name: 'freshnessDays', label: 'Freshness window (days)', hint: 'How long a sanitized vessel stays ready.', box: dayCount },
+  { name: 'cleanWithinDays', label: 'Clean within (days)', hint: 'After a vessel is emptied or returned; later cycles are flagged.', box: dayCount },
+  { name: 'minimumContactMinutes.clean', label: 'Minimum clean contact (min)', box: minutes },
+  { name: 'minimumContactMinutes.sanitize', label: 'Minimum sanitize contact (min)', box: minutes },
+  {
+    name: 'minimumPurgeSeconds',
+    label: 'Minimum CO2 flush (s)',
+    hint: 'A shorter timed flush must be recorded as an exception; a push-out purge names its second keg instead.',
+    box: wholeNumber,
+  },
+  { name: 'co2GramsPerPurge', label: 'CO2 per purge (g)', hint: 'Recorded for billing when no figure is given.', box: wholeNumber },
+  { name: 'co2GramsPerKegFill', label: 'CO2 per keg filled (g)', box: wholeNumber },
+];
 
 const SanitationForm = ({ value, canEdit }: SettingFormProps<SanitationSettings>) => {
   const setting = useSettingForm<SanitationSettings>('sanitation', sanitationSettingsSchema, value, {
@@ -29,33 +47,9 @@ const SanitationForm = ({ value, canEdit }: SettingFormProps<SanitationSettings>
   return (
     <SettingFormFrame setting={setting} label="Sanitation rules" canEdit={canEdit} submitLabel="Save sanitation rules">
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-        <NumberField
-          form={form}
-          name="freshnessDays"
-          label="Freshness window (days)"
-          hint="How long a sanitized vessel stays ready."
-          {...wholeNumber}
-          min={1}
-        />
-        <NumberField
-          form={form}
-          name="cleanWithinDays"
-          label="Clean within (days)"
-          hint="After a vessel is emptied or returned; later cycles are flagged."
-          {...wholeNumber}
-          min={1}
-        />
-        <NumberField form={form} name="minimumContactMinutes.clean" label="Minimum clean contact (min)" {...anyNumber} min={0} />
-        <NumberField form={form} name="minimumContactMinutes.sanitize" label="Minimum sanitize contact (min)" {...anyNumber} min={0} />
-        <NumberField
-          form={form}
-          name="minimumPurgeSeconds"
-          label="Minimum CO2 flush (s)"
-          hint="A shorter timed flush must be recorded as an exception; a push-out purge names its second keg instead."
-          {...wholeNumber}
-        />
-        <NumberField form={form} name="co2GramsPerPurge" label="CO2 per purge (g)" hint="Recorded for billing when no figure is given." {...wholeNumber} />
-        <NumberField form={form} name="co2GramsPerKegFill" label="CO2 per keg filled (g)" {...wholeNumber} />
+        {sanitationNumbers.map(({ name, label, hint, box }) => (
+          <NumberField key={name} form={form} name={name} label={label} hint={hint} {...box} />
+        ))}
       </fieldset>
       <fieldset disabled={!canEdit} className="flex flex-col gap-2">
         <legend className="mb-1 text-sm font-medium">Cleaners and sanitizers</legend>
@@ -83,38 +77,30 @@ const SanitationForm = ({ value, canEdit }: SettingFormProps<SanitationSettings>
             <div className="flex flex-wrap items-end gap-2 sm:col-span-2">
               <Checkbox label="In use" {...form.register(`chemicals.${i}.active`)} />
               <Checkbox label="Caustic (vent CO2 first)" {...form.register(`chemicals.${i}.caustic`)} />
-              {canEdit ? (
-                <Button variant="ghost" size="sm" onClick={() => chemicals.remove(i)} aria-label={`Remove ${f.name}`}>
-                  Remove
-                </Button>
-              ) : null}
+              <RemoveRowButton canEdit={canEdit} size="sm" onClick={() => chemicals.remove(i)} label={`Remove ${f.name}`} />
             </div>
           </div>
         ))}
-        {canEdit ? (
-          <div>
-            <Button
-              variant="secondary"
-              size="sm"
-              onClick={() =>
-                chemicals.append({
-                  id: `chemical-${chemicals.fields.length + 1}`,
-                  name: '',
-                  step: 'sanitize',
-                  defaultConcentration: 1,
-                  unit: 'mL/L',
-                  recommendedContactMinutes: 2,
-                  minConcentration: 1,
-                  maxConcentration: 1,
-                  caustic: false,
-                  active: true,
-                })
-              }
-            >
-              Add a chemical
-            </Button>
-          </div>
-        ) : null}
+        <AddRowButton
+          canEdit={canEdit}
+          size="sm"
+          onClick={() =>
+            chemicals.append({
+              id: `chemical-${chemicals.fields.length + 1}`,
+              name: '',
+              step: 'sanitize',
+              defaultConcentration: 1,
+              unit: 'mL/L',
+              recommendedContactMinutes: 2,
+              minConcentration: 1,
+              maxConcentration: 1,
+              caustic: false,
+              active: true,
+            })
+          }
+        >
+          Add a chemical
+        </AddRowButton>
       </fieldset>
       <Cautions kind="chemicals" />
     </SettingFormFrame>
@@ -155,20 +141,12 @@ const CarbonationForm = ({ value, canEdit }: SettingFormProps<CarbonationSetting
           <div key={f.id} className="grid grid-cols-[1fr_8rem_auto] items-end gap-2">
             <InputField label="Family" error={e.stylePresets?.[i]?.family?.message} {...form.register(`stylePresets.${i}.family`)} />
             <NumberField form={form} name={`stylePresets.${i}.volumes`} label="Volumes" type="number" step="0.1" />
-            {canEdit ? (
-              <Button variant="ghost" size="sm" onClick={() => presets.remove(i)}>
-                Remove
-              </Button>
-            ) : null}
+            <RemoveRowButton canEdit={canEdit} size="sm" onClick={() => presets.remove(i)} />
           </div>
         ))}
-        {canEdit ? (
-          <div>
-            <Button variant="secondary" size="sm" onClick={() => presets.append({ family: '', volumes: 2.4 })}>
-              Add a style family
-            </Button>
-          </div>
-        ) : null}
+        <AddRowButton canEdit={canEdit} size="sm" onClick={() => presets.append({ family: '', volumes: 2.4 })}>
+          Add a style family
+        </AddRowButton>
       </fieldset>
       <Cautions kind="carbonation" />
     </SettingFormFrame>

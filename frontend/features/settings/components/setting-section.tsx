@@ -1,6 +1,7 @@
 import type { ComponentType, FormEventHandler, ReactNode } from 'react';
 import type { SettingKey } from '../../../../shared/schemas/settings.ts';
 import { FormFrame } from '@/components/form/form-frame';
+import { Button } from '@/components/ui/button';
 import type { FormMessage } from '@/components/form/use-api-form';
 import { SettingLoader } from '@/features/settings/components/setting-loader';
 
@@ -46,3 +47,27 @@ export const SettingFormFrame = ({ setting, label, canEdit, submitLabel, readOnl
     {children}
   </FormFrame>
 );
+
+export interface ListRowButtonProps {
+  canEdit: boolean;
+  onClick: () => void;
+  size?: 'sm' | 'md';
+}
+
+/** A section's list (styles, chemicals, style families): "Remove" on a row, for whoever may edit. */
+export const RemoveRowButton = ({ canEdit, onClick, size, label }: ListRowButtonProps & { label?: string }) =>
+  canEdit ? (
+    <Button variant="ghost" size={size} onClick={onClick} aria-label={label}>
+      Remove
+    </Button>
+  ) : null;
+
+/** "Add a …" under a section's list, for whoever may edit. */
+export const AddRowButton = ({ canEdit, onClick, size, children }: ListRowButtonProps & { children: ReactNode }) =>
+  canEdit ? (
+    <div>
+      <Button variant="secondary" size={size} onClick={onClick}>
+        {children}
+      </Button>
+    </div>
+  ) : null;
