@@ -42,18 +42,6 @@ export function useApiForm<T extends FieldValues>(schema: z.ZodType<T>, { defaul
     [setError, fields],
   );
   const showError = useCallback((text: string) => setMessage({ tone: 'error', text }), []);
-  /**
-   * A mutation's `onError`: `explain` may put in words what an error means for this form (a 429, a dead
-   * link); whatever it leaves lands on the form as {@link showProblem} puts it.
-   */
-  const onProblem = useCallback(
-    (explain?: (error: unknown) => string | null | undefined) => (error: unknown) => {
-      const text = explain?.(error);
-      if (text) showError(text);
-      else showProblem(error);
-    },
-    [showError, showProblem],
-  );
   /** `form.handleSubmit` that first clears the message; a form the schema refuses shows no message. */
   const submit = useCallback(
     (onValid: (values: T) => unknown) =>
@@ -66,5 +54,5 @@ export function useApiForm<T extends FieldValues>(schema: z.ZodType<T>, { defaul
       ),
     [form],
   );
-  return { form, message, setMessage, showError, showProblem, onProblem, submit };
+  return { form, message, setMessage, showError, showProblem, submit };
 }
