@@ -15,3 +15,6 @@ export const asNumber = { setValueAs: (v: string) => parseDecimal(String(v)) ?? 
 
 /** The same for an optional number box: empty is `undefined`. */
 export const asOptionalNumber = { setValueAs: (v: string) => parseDecimal(String(v)) ?? undefined };
+
+/** The same for a box that may be left empty: empty is `null` ("not given"). */
+export const asNullableNumber = { setValueAs: (v: string | null | undefined) => (v === null || v === undefined ? null : parseDecimal(String(v))) };

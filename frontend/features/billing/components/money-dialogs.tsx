@@ -9,12 +9,12 @@ import {
   type RefundInput,
   type VoidInvoiceInput,
 } from '../../../../shared/schemas/billing.ts';
+import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field, FormMessageAlert, InputField, SelectField } from '@/components/ui/field';
-import { Input, Radio } from '@/components/ui/input';
+import { Dialog } from '@/components/ui/dialog';
+import { InputField, SelectField } from '@/components/ui/field';
+import { Radio } from '@/components/ui/input';
 import { useNotice } from '@/components/ui/notice';
 import {
   paymentInputSchema,
@@ -40,20 +40,13 @@ const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
 const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const record = useRecordPayment(invoice.id);
   const notice = useNotice();
-  const {
-    form,
-    message,
-    showProblem,
-    submit: submitted,
-  } = useApiForm<PaymentInput>(paymentInputSchema, {
+  const { form, message, showProblem, submit } = useApiForm<PaymentInput>(paymentInputSchema, {
     defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
     fields: ['amountCents', 'method', 'receivedOn', 'reference', 'note'],
   });
-  const {
-    register,
-    formState: { errors },
-  } = form;
-  const submit = submitted((values) => {
+  const { register } = form;
+  const errors = form.formState.errors;
+  const onSubmit = submit((values) => {
     record.mutate(values, {
       onSuccess: ({ payment, invoice: after }) => {
         notice.show({
@@ -65,14 +58,11 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
         });
         onClose();
       },
-      onError: (e) => {
-        showProblem(e);
-      },
+      onError: showProblem,
     });
   });
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
+    <FormFrame onSubmit={onSubmit} message={message} pending={record.isPending} onCancel={onClose} submitLabel="Record payment">
       <p className="text-sm text-ink-muted">Still to pay: {money(invoice.amountDueCents, invoice.currency)}. A smaller amount is recorded as a part payment.</p>
       <InputField
         label="Amount received"
@@ -98,15 +88,7 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
         autoComplete="off"
         {...register('reference')}
       />
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={record.isPending}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={record.isPending}>
-          Record payment
-        </Button>
-      </DialogActions>
-    </form>
+    </FormFrame>
   );
 };
 
@@ -125,26 +107,18 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const refund = useRefundInvoice(invoice.id);
   const notice = useNotice();
   const creditable = invoice.totalCents - invoice.creditedCents;
-  const {
-    form,
-    message,
-    showProblem,
-    submit: submitted,
-  } = useApiForm<RefundInput>(refundInputSchema, {
+  const { form, message, showProblem, submit } = useApiForm<RefundInput>(refundInputSchema, {
     defaultValues: { reason: '', refundMethod: null },
     fields: ['amountCents', 'reason', 'refundMethod'],
   });
-  const {
-    register,
-    watch,
-    formState: { errors },
-  } = form;
+  const { register, watch } = form;
+  const errors = form.formState.errors;
   // Nothing is recorded as paid back unless the treasurer says it was, and how.
   const [paidBack, setPaidBack] = useState<'no' | (typeof manualPaymentMethods)[number]>('no');
   const amount = watch('amountCents');
   const rate = invoiceRate(invoice);
   const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
-  const submit = submitted((values) => {
+  const onSubmit = submit((values) => {
     refund.mutate(
       { ...values, refundMethod: paidBack === 'no' ? null : paidBack },
       {
@@ -156,17 +130,21 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
           });
           onClose();
         },
-        onError: (e) => {
-          showProblem(e);
-        },
+        onError: showProblem,
       },
     );
   });
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
+    <FormFrame
+      onSubmit={onSubmit}
+      message={message}
+      pending={refund.isPending}
+      onCancel={onClose}
+      submitLabel="Issue the credit note"
+      submitDisabled={rate === null}
+    >
       {rate === null ? <Alert tone="info">This invoice has lines at several tax rates; void it instead of crediting part of it.</Alert> : null}
-      <Field
+      <InputField
         label="Amount to credit, tax included"
         hint={
           split
@@ -174,9 +152,10 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
             : `At most ${money(creditable, invoice.currency)}.`
         }
         error={errors.amountCents?.message}
-      >
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" autoFocus {...register('amountCents', { setValueAs: parseMoneyInput })} />}
-      </Field>
+        inputMode="decimal"
+        autoFocus
+        {...register('amountCents', { setValueAs: parseMoneyInput })}
+      />
       <InputField label="Reason" hint="Shown on the credit note." error={errors.reason?.message} autoComplete="off" {...register('reason')} />
       {invoice.paidCents > 0 ? (
         <fieldset className="flex flex-col gap-1">
@@ -207,15 +186,7 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       ) : (
         <p className="text-sm text-ink-muted">Nothing has been paid on this invoice, so the credit reduces what is owed.</p>
       )}
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={refund.isPending}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={refund.isPending} disabled={rate === null}>
-          Issue the credit note
-        </Button>
-      </DialogActions>
-    </form>
+    </FormFrame>
   );
 };
 
@@ -233,17 +204,13 @@ export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
 const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const voidIt = useVoidInvoice(invoice.id);
   const notice = useNotice();
-  const {
-    form,
-    message,
-    showProblem,
-    submit: submitted,
-  } = useApiForm<VoidInvoiceInput>(voidInvoiceSchema, { defaultValues: { reason: '', refundMethod: null }, fields: ['reason', 'refundMethod'] });
-  const {
-    register,
-    formState: { errors },
-  } = form;
-  const submit = submitted((values) => {
+  const { form, message, showProblem, submit } = useApiForm<VoidInvoiceInput>(voidInvoiceSchema, {
+    defaultValues: { reason: '', refundMethod: null },
+    fields: ['reason', 'refundMethod'],
+  });
+  const { register } = form;
+  const errors = form.formState.errors;
+  const onSubmit = submit((values) => {
     voidIt.mutate(values, {
       onSuccess: ({ creditNoteId, invoice: after }) => {
         const note = after.creditNotes.find((n) => n.id === creditNoteId);
@@ -255,15 +222,19 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
         });
         onClose();
       },
-      onError: (e) => {
-        showProblem(e);
-      },
+      onError: showProblem,
     });
   });
   const draft = invoice.status === 'draft';
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
+    <FormFrame
+      onSubmit={onSubmit}
+      message={message}
+      pending={voidIt.isPending}
+      onCancel={onClose}
+      cancelLabel="Keep the invoice"
+      submitLabel={draft ? 'Void the draft' : 'Void and issue the credit note'}
+    >
       <p className="text-sm">
         {draft
           ? 'This draft was never issued, so no credit note is needed. Its charges stay billed to this period; correct them with a manual charge or credit on a later period.'
@@ -285,15 +256,7 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
           ))}
         </SelectField>
       ) : null}
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={voidIt.isPending}>
-          Keep the invoice
-        </Button>
-        <Button type="submit" pending={voidIt.isPending}>
-          {draft ? 'Void the draft' : 'Void and issue the credit note'}
-        </Button>
-      </DialogActions>
-    </form>
+    </FormFrame>
   );
 };
 

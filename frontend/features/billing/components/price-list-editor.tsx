@@ -1,14 +1,12 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { longDate } from '../../../../shared/billing/dates.ts';
 import { formatRate } from '../../../../shared/billing/money.ts';
 import { priceItemInfo, priceItems, type Price, type PriceInput, type TaxRateInput } from '../../../../shared/schemas/billing.ts';
+import { FormFrame } from '@/components/form/form-frame';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
-import { Input, Select } from '@/components/ui/input';
+import { InputField, SelectField } from '@/components/ui/field';
 import {
   priceInputSchema,
   taxRateInputSchema,
@@ -21,7 +19,6 @@ import {
 import { Money } from '@/features/billing/components/money';
 import { parseMoneyInput } from '@/features/billing/utils/money-input';
 import { problemMessage } from '@/lib/api-client';
-import { applyProblemToForm } from '@/utils/problem-form';
 
 const itemLabel = (p: Pick<Price, 'item' | 'bandMaxLiters'>) =>
   p.item === 'fermenter_day' ? `${priceItemInfo.fermenter_day.label}, up to ${p.bandMaxLiters} L` : priceItemInfo[p.item].label;
@@ -137,78 +134,72 @@ const PriceTable = ({ data }: { data: PriceListResponse }) => {
 
 const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
   const add = useAddPrice();
-  const [done, setDone] = useState<string | null>(null);
-  const [formError, setFormError] = useState<string | null>(null);
-  const {
-    register,
-    handleSubmit,
-    setError,
-    watch,
-    reset,
-    formState: { errors },
-  } = useForm<PriceInput>({
-    resolver: zodResolver(priceInputSchema),
+  const { form, message, setMessage, showProblem, submit } = useApiForm<PriceInput>(priceInputSchema, {
     defaultValues: { item: 'fermenter_day', bandMaxLiters: 60, effectiveFrom: data.today, note: '' },
+    fields: ['item', 'bandMaxLiters', 'unitCents', 'effectiveFrom', 'note'],
   });
+  const { register, watch } = form;
+  const errors = form.formState.errors;
   const item = watch('item');
-  const submit = handleSubmit((values) => {
-    setFormError(null);
-    setDone(null);
+  const onSubmit = submit((values) => {
     add.mutate(
       { ...values, bandMaxLiters: values.item === 'fermenter_day' ? values.bandMaxLiters : null },
       {
         onSuccess: ({ price }) => {
-          setDone(`${itemLabel(price)}: new price from ${longDate(price.effectiveFrom)}.`);
-          reset({ item: values.item, bandMaxLiters: values.bandMaxLiters, effectiveFrom: data.today, note: '' });
+          setMessage({ tone: 'success', text: `${itemLabel(price)}: new price from ${longDate(price.effectiveFrom)}.` });
+          form.reset({ item: values.item, bandMaxLiters: values.bandMaxLiters, effectiveFrom: data.today, note: '' });
         },
-        onError: (e) => {
-          const rest = applyProblemToForm(e, setError, ['item', 'bandMaxLiters', 'unitCents', 'effectiveFrom', 'note']);
-          if (rest.length) setFormError(rest.join(' '));
-        },
+        onError: showProblem,
       },
     );
   });
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-3 rounded-md border border-line bg-surface p-4">
-      <h3 className="text-sm font-semibold">Change a price</h3>
-      <p className="text-sm text-ink-muted">
-        A new price applies from its date on; what was used before that date keeps the old price. It cannot be back-dated.
-      </p>
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      {done ? <Alert tone="success">{done}</Alert> : null}
+    <FormFrame
+      onSubmit={onSubmit}
+      message={message}
+      pending={add.isPending}
+      submitLabel="Schedule the price"
+      actions="start"
+      className="flex flex-col gap-3 rounded-md border border-line bg-surface p-4"
+      intro={
+        <>
+          <h3 className="text-sm font-semibold">Change a price</h3>
+          <p className="text-sm text-ink-muted">
+            A new price applies from its date on; what was used before that date keeps the old price. It cannot be back-dated.
+          </p>
+        </>
+      }
+    >
       <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
-        <Field label="Item" error={errors.item?.message} className="lg:col-span-2">
-          {({ invalid, ...c }) => (
-            <Select {...c} invalid={invalid} {...register('item')}>
-              {priceItems.map((i) => (
-                <option key={i} value={i}>
-                  {priceItemInfo[i].label} (per {priceItemInfo[i].unit})
-                </option>
-              ))}
-            </Select>
-          )}
-        </Field>
+        <SelectField label="Item" error={errors.item?.message} className="lg:col-span-2" {...register('item')}>
+          {priceItems.map((i) => (
+            <option key={i} value={i}>
+              {priceItemInfo[i].label} (per {priceItemInfo[i].unit})
+            </option>
+          ))}
+        </SelectField>
         {item === 'fermenter_day' ? (
-          <Field label="Capacity band, up to" hint="Litres" error={errors.bandMaxLiters?.message}>
-            {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="number" min={1} step={1} {...register('bandMaxLiters', { valueAsNumber: true })} />}
-          </Field>
+          <InputField
+            label="Capacity band, up to"
+            hint="Litres"
+            error={errors.bandMaxLiters?.message}
+            type="number"
+            min={1}
+            step={1}
+            {...register('bandMaxLiters', { valueAsNumber: true })}
+          />
         ) : null}
-        <Field label="Price" hint={`In ${data.currency}`} error={errors.unitCents?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} inputMode="decimal" {...register('unitCents', { setValueAs: parseMoneyInput })} />}
-        </Field>
-        <Field label="From" error={errors.effectiveFrom?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="date" min={data.today} {...register('effectiveFrom')} />}
-        </Field>
+        <InputField
+          label="Price"
+          hint={`In ${data.currency}`}
+          error={errors.unitCents?.message}
+          inputMode="decimal"
+          {...register('unitCents', { setValueAs: parseMoneyInput })}
+        />
+        <InputField label="From" error={errors.effectiveFrom?.message} type="date" min={data.today} {...register('effectiveFrom')} />
       </div>
-      <Field label="Note" hint="Optional: where it was agreed." error={errors.note?.message}>
-        {({ invalid, ...c }) => <Input {...c} invalid={invalid} autoComplete="off" {...register('note')} />}
-      </Field>
-      <div>
-        <Button type="submit" pending={add.isPending}>
-          Schedule the price
-        </Button>
-      </div>
-    </form>
+      <InputField label="Note" hint="Optional: where it was agreed." error={errors.note?.message} autoComplete="off" {...register('note')} />
+    </FormFrame>
   );
 };
 
@@ -216,26 +207,14 @@ const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
 const TaxRates = ({ data }: { data: PriceListResponse }) => {
   const add = useAddTaxRate();
   const withdraw = useWithdrawTaxRate();
-  const [formError, setFormError] = useState<string | null>(null);
-  const {
-    register,
-    handleSubmit,
-    setError,
-    reset,
-    formState: { errors },
-  } = useForm<TaxRateInput>({
-    resolver: zodResolver(taxRateInputSchema),
+  const { form, message, showProblem, submit } = useApiForm<TaxRateInput>(taxRateInputSchema, {
     defaultValues: { label: data.taxRates[0]?.label ?? 'VAT', effectiveFrom: data.today },
+    fields: ['rateBp', 'label', 'effectiveFrom'],
   });
-  const submit = handleSubmit((values) => {
-    setFormError(null);
-    add.mutate(values, {
-      onSuccess: () => reset({ label: values.label, effectiveFrom: data.today }),
-      onError: (e) => {
-        const rest = applyProblemToForm(e, setError, ['rateBp', 'label', 'effectiveFrom']);
-        if (rest.length) setFormError(rest.join(' '));
-      },
-    });
+  const { register } = form;
+  const errors = form.formState.errors;
+  const onSubmit = submit((values) => {
+    add.mutate(values, { onSuccess: () => form.reset({ label: values.label, effectiveFrom: data.today }), onError: showProblem });
   });
   return (
     <div className="flex flex-col gap-3">
@@ -263,31 +242,24 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
           </li>
         ))}
       </ul>
-      <form onSubmit={submit} noValidate className="flex flex-wrap items-end gap-3">
-        {formError ? (
-          <Alert tone="error" className="w-full">
-            {formError}
+      <form onSubmit={onSubmit} noValidate className="flex flex-wrap items-end gap-3">
+        {message ? (
+          <Alert tone={message.tone} className="w-full">
+            {message.text}
           </Alert>
         ) : null}
-        <Field label="New rate" hint="Per cent; zero is allowed" error={errors.rateBp?.message}>
-          {({ invalid, ...c }) => (
-            <Input
-              {...c}
-              invalid={invalid}
-              inputMode="decimal"
-              className="w-28"
-              {...register('rateBp', {
-                setValueAs: (v: string) => (String(v).trim() === '' ? Number.NaN : Math.round(Number(String(v).replace(',', '.').replace('%', '')) * 100)),
-              })}
-            />
-          )}
-        </Field>
-        <Field label="Label" error={errors.label?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} className="w-32" {...register('label')} />}
-        </Field>
-        <Field label="From" error={errors.effectiveFrom?.message}>
-          {({ invalid, ...c }) => <Input {...c} invalid={invalid} type="date" min={data.today} {...register('effectiveFrom')} />}
-        </Field>
+        <InputField
+          label="New rate"
+          hint="Per cent; zero is allowed"
+          error={errors.rateBp?.message}
+          inputMode="decimal"
+          inputClassName="w-28"
+          {...register('rateBp', {
+            setValueAs: (v: string) => (String(v).trim() === '' ? Number.NaN : Math.round(Number(String(v).replace(',', '.').replace('%', '')) * 100)),
+          })}
+        />
+        <InputField label="Label" error={errors.label?.message} inputClassName="w-32" {...register('label')} />
+        <InputField label="From" error={errors.effectiveFrom?.message} type="date" min={data.today} {...register('effectiveFrom')} />
         <Button type="submit" variant="secondary" pending={add.isPending}>
           Schedule the rate
         </Button>

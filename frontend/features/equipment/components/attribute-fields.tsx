@@ -2,10 +2,11 @@ import type { UseFormReturn } from 'react-hook-form';
 import { lineMaterials } from '../../../../shared/brewing/index.ts';
 import { lineMaterialLabels } from '../../../../shared/cellar/carbonation-planner.ts';
 import type { EquipmentKind } from '../../../../shared/schemas/equipment.ts';
+import { NumberField } from '@/components/form/number-field';
 import { Alert } from '@/components/ui/alert';
-import { Field } from '@/components/ui/field';
-import { Checkbox, Input, Select } from '@/components/ui/input';
-import type { EquipmentFormValues } from '@/features/equipment/equipment-form';
+import { InputField, SelectField } from '@/components/ui/field';
+import { Checkbox } from '@/components/ui/input';
+import { kindHasCapacity, type EquipmentFormValues } from '@/features/equipment/equipment-form';
 import { unitLabels, type UnitSystem } from '@/lib/units';
 
 /** What every kind's attribute fields get: the add or edit form, and the person's units. */
@@ -17,21 +18,17 @@ export interface AttributeFieldsProps {
 }
 
 const grid = 'grid gap-4 sm:grid-cols-2';
-/** `''` → null, so an empty box reads as "not given" rather than 0. */
-const asNumber = { setValueAs: (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v)) };
+/** A number box whose empty value reads as "not given" rather than 0. */
+const decimal = { type: 'number', step: 'any', inputMode: 'decimal', empty: 'null' } as const;
 
 export const FermenterAttributeFields = ({ form }: AttributeFieldsProps) => {
   const errors = form.formState.errors.attributes;
   return (
     <div className={grid}>
-      <Field label="Shape" error={errors?.style?.message}>
-        {(c) => (
-          <Select {...c} {...form.register('attributes.style')}>
-            <option value="bucket">Bucket</option>
-            <option value="conical">Conical</option>
-          </Select>
-        )}
-      </Field>
+      <SelectField label="Shape" error={errors?.style?.message} {...form.register('attributes.style')}>
+        <option value="bucket">Bucket</option>
+        <option value="conical">Conical</option>
+      </SelectField>
       <div className="flex items-end">
         <Checkbox label="Bottom valve" description="A valve or spigot at the bottom for racking and sampling" {...form.register('attributes.hasValve')} />
       </div>
@@ -44,24 +41,18 @@ export const KegAttributeFields = ({ form, units }: AttributeFieldsProps) => {
   return (
     <>
       <div className={grid}>
-        <Field label="Serial" hint="As stamped on the keg" error={errors?.serial?.message}>
-          {(c) => <Input {...c} autoComplete="off" {...form.register('attributes.serial')} />}
-        </Field>
-        <Field label="Lock" error={errors?.lock?.message}>
-          {(c) => (
-            <Select {...c} {...form.register('attributes.lock')}>
-              <option value="ball">Ball lock</option>
-              <option value="pin">Pin lock</option>
-            </Select>
-          )}
-        </Field>
-        <Field
+        <InputField label="Serial" hint="As stamped on the keg" error={errors?.serial?.message} autoComplete="off" {...form.register('attributes.serial')} />
+        <SelectField label="Lock" error={errors?.lock?.message} {...form.register('attributes.lock')}>
+          <option value="ball">Ball lock</option>
+          <option value="pin">Pin lock</option>
+        </SelectField>
+        <NumberField
+          form={form}
+          name="attributes.ratedPressureKpa"
           label={`Rated working pressure (${unitLabels[units].pressure})`}
           hint="As stamped on the keg; the carbonation planner will not go above it"
-          error={errors?.ratedPressureKpa?.message}
-        >
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.ratedPressureKpa', asNumber)} />}
-        </Field>
+          {...decimal}
+        />
       </div>
       <p className="text-xs text-ink-muted">
         Never exceed the keg’s or the regulator’s rated pressure and keep the pressure-relief valve working. Local codes and licensed practice come first.
@@ -75,41 +66,44 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
   const labels = unitLabels[units];
   return (
     <>
-      <Field label="Position in the cold room" hint="e.g. Cold room, left wall, 1" error={errors?.position?.message}>
-        {(c) => <Input {...c} autoComplete="off" {...form.register('attributes.position')} />}
-      </Field>
+      <InputField
+        label="Position in the cold room"
+        hint="e.g. Cold room, left wall, 1"
+        error={errors?.position?.message}
+        autoComplete="off"
+        {...form.register('attributes.position')}
+      />
       <div className={grid}>
-        <Field label={`Line length (${labels.length})`} error={errors?.lineLengthM?.message}>
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.lineLengthM', asNumber)} />}
-        </Field>
-        <Field label={`Line inside diameter (${labels.smallLength})`} error={errors?.lineInsideDiameterMm?.message}>
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.lineInsideDiameterMm', asNumber)} />}
-        </Field>
-        <Field label="Line material" hint="Stainless is sized by its outside diameter" error={errors?.lineMaterial?.message}>
-          {(c) => (
-            <Select {...c} {...form.register('attributes.lineMaterial')}>
-              <option value="">Not recorded (taken as vinyl)</option>
-              {lineMaterials.map((m) => (
-                <option key={m} value={m}>
-                  {lineMaterialLabels[m]}
-                </option>
-              ))}
-            </Select>
-          )}
-        </Field>
-        <Field
+        <NumberField form={form} name="attributes.lineLengthM" label={`Line length (${labels.length})`} {...decimal} />
+        <NumberField form={form} name="attributes.lineInsideDiameterMm" label={`Line inside diameter (${labels.smallLength})`} {...decimal} />
+        <SelectField
+          label="Line material"
+          hint="Stainless is sized by its outside diameter"
+          error={errors?.lineMaterial?.message}
+          {...form.register('attributes.lineMaterial')}
+        >
+          <option value="">Not recorded (taken as vinyl)</option>
+          {lineMaterials.map((m) => (
+            <option key={m} value={m}>
+              {lineMaterialLabels[m]}
+            </option>
+          ))}
+        </SelectField>
+        <NumberField
+          form={form}
+          name="attributes.lineResistanceKpaPerM"
           label="Line resistance (kPa/m)"
           hint="Measured or the maker's figure; empty uses the line type's usual figure"
-          error={errors?.lineResistanceKpaPerM?.message}
-        >
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.lineResistanceKpaPerM', asNumber)} />}
-        </Field>
-        <Field label={`Rise, keg to faucet (${labels.length})`} hint="Negative when the faucet sits below the keg; optional" error={errors?.riseM?.message}>
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.riseM', asNumber)} />}
-        </Field>
-        <Field label={`Cold room temperature (${labels.temperature})`} hint="Optional" error={errors?.coldRoomTempC?.message}>
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.coldRoomTempC', asNumber)} />}
-        </Field>
+          {...decimal}
+        />
+        <NumberField
+          form={form}
+          name="attributes.riseM"
+          label={`Rise, keg to faucet (${labels.length})`}
+          hint="Negative when the faucet sits below the keg; optional"
+          {...decimal}
+        />
+        <NumberField form={form} name="attributes.coldRoomTempC" label={`Cold room temperature (${labels.temperature})`} hint="Optional" {...decimal} />
       </div>
       <p className="text-xs text-ink-muted">
         The cold room is closed: CO2 displaces air. Keep it ventilated and heed the CO2 alarm. Local codes and licensed practice come first.
@@ -123,15 +117,9 @@ export const Co2CylinderAttributeFields = ({ form, units }: AttributeFieldsProps
   return (
     <>
       <div className={grid}>
-        <Field label={`Size (${unitLabels[units].mass} CO2)`} error={errors?.sizeKg?.message}>
-          {(c) => <Input {...c} type="number" step="any" inputMode="decimal" {...form.register('attributes.sizeKg', asNumber)} />}
-        </Field>
-        <Field label="Fill (%)" error={errors?.fillPercent?.message}>
-          {(c) => <Input {...c} type="number" step="1" min="0" max="100" inputMode="numeric" {...form.register('attributes.fillPercent', asNumber)} />}
-        </Field>
-        <Field label="Hydrostatic test due" error={errors?.hydroTestDue?.message}>
-          {(c) => <Input {...c} type="date" {...form.register('attributes.hydroTestDue')} />}
-        </Field>
+        <NumberField form={form} name="attributes.sizeKg" label={`Size (${unitLabels[units].mass} CO2)`} {...decimal} />
+        <NumberField form={form} name="attributes.fillPercent" label="Fill (%)" {...decimal} step="1" min="0" max="100" inputMode="numeric" />
+        <InputField label="Hydrostatic test due" error={errors?.hydroTestDue?.message} type="date" {...form.register('attributes.hydroTestDue')} />
       </div>
       <Alert tone="info" title="Safety">
         Keep the cylinder chained upright and never exceed a regulator’s rated pressure. CO2 displaces air in closed rooms: ventilate and keep the CO2 alarm on.
@@ -158,5 +146,25 @@ export const EquipmentAttributeFields = ({ kind, ...props }: AttributeFieldsProp
       </legend>
       <Fields {...props} />
     </fieldset>
+  );
+};
+
+/**
+ * What the add and edit forms share: code and name, the capacity of a kind that holds beer, the kind's own
+ * details and the notes, with numbers in the person's units (the form's resolver converts them).
+ */
+export const EquipmentRegistryFields = ({ kind, codeHint, ...props }: AttributeFieldsProps & { kind: EquipmentKind; codeHint?: string }) => {
+  const { form, units } = props;
+  const errors = form.formState.errors;
+  return (
+    <>
+      <div className="grid gap-4 sm:grid-cols-2">
+        <InputField label="Code" hint={codeHint} error={errors.code?.message} autoComplete="off" {...form.register('code')} />
+        <InputField label="Name" error={errors.name?.message} autoComplete="off" {...form.register('name')} />
+      </div>
+      {kindHasCapacity(kind) ? <NumberField form={form} name="capacityLiters" label={`Capacity (${unitLabels[units].volume})`} {...decimal} /> : null}
+      <EquipmentAttributeFields kind={kind} {...props} />
+      <InputField label="Notes" error={errors.notes?.message} {...form.register('notes')} />
+    </>
   );
 };

@@ -1,5 +1,3 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useForm } from 'react-hook-form';
 import {
   equipmentStateChangeSchema,
   vesselStateLabels,
@@ -7,14 +5,11 @@ import {
   type Equipment,
   type EquipmentStateChangeInput,
 } from '../../../../shared/schemas/equipment.ts';
-import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
+import { FormFrame } from '@/components/form/form-frame';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Dialog } from '@/components/ui/dialog';
-import { Field } from '@/components/ui/field';
-import { Input, Select } from '@/components/ui/input';
+import { InputField, SelectField } from '@/components/ui/field';
 import { useChangeEquipmentState } from '@/features/equipment/api/change-equipment-state';
-import { applyProblemToForm } from '@/utils/problem-form';
-import { useState } from 'react';
 
 export interface StateChangeDialogProps {
   item: Equipment | null;
@@ -35,43 +30,29 @@ export const StateChangeDialog = ({ item, onClose }: StateChangeDialogProps) => 
 
 const StateChangeForm = ({ item, onDone }: { item: Equipment; onDone: () => void }) => {
   const mutation = useChangeEquipmentState(item.id);
-  const [message, setMessage] = useState<string[]>([]);
-  const form = useForm<EquipmentStateChangeInput>({
-    resolver: zodResolver(equipmentStateChangeSchema),
+  const { form, message, showProblem, submit } = useApiForm<EquipmentStateChangeInput>(equipmentStateChangeSchema, {
     defaultValues: { state: vesselStates.find((s) => s !== item.state) ?? 'ready', reason: '' },
+    fields: ['state', 'reason'],
   });
-  const onSubmit = form.handleSubmit(async (values) => {
-    setMessage([]);
-    try {
-      await mutation.mutateAsync(values);
-      onDone();
-    } catch (error) {
-      setMessage(applyProblemToForm(error, form.setError, ['state', 'reason']));
-    }
-  });
+  const onSubmit = submit((values) => mutation.mutateAsync(values).then(onDone, showProblem));
+  const errors = form.formState.errors;
   return (
-    <form onSubmit={onSubmit} className="flex flex-col gap-4" noValidate>
-      {message.length ? <Alert tone="error">{message.join(' ')}</Alert> : null}
+    <FormFrame onSubmit={onSubmit} message={message} pending={mutation.isPending} submitLabel="Save state">
       <p className="text-sm text-ink-muted">Now: {vesselStateLabels[item.state]}</p>
-      <Field label="New state" error={form.formState.errors.state?.message}>
-        {(c) => (
-          <Select {...c} {...form.register('state')}>
-            {vesselStates.map((s) => (
-              <option key={s} value={s} disabled={s === item.state}>
-                {vesselStateLabels[s]}
-              </option>
-            ))}
-          </Select>
-        )}
-      </Field>
-      <Field label="Why" hint="For example: “Soaked in alkaline cleaner and rinsed” or “Relief valve sticks”." error={form.formState.errors.reason?.message}>
-        {(c) => <Input {...c} {...form.register('reason')} autoComplete="off" />}
-      </Field>
-      <div className="flex justify-end gap-2">
-        <Button type="submit" pending={mutation.isPending}>
-          Save state
-        </Button>
-      </div>
-    </form>
+      <SelectField label="New state" error={errors.state?.message} {...form.register('state')}>
+        {vesselStates.map((s) => (
+          <option key={s} value={s} disabled={s === item.state}>
+            {vesselStateLabels[s]}
+          </option>
+        ))}
+      </SelectField>
+      <InputField
+        label="Why"
+        hint="For example: “Soaked in alkaline cleaner and rinsed” or “Relief valve sticks”."
+        error={errors.reason?.message}
+        {...form.register('reason')}
+        autoComplete="off"
+      />
+    </FormFrame>
   );
 };

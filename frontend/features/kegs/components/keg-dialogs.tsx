@@ -1,6 +1,8 @@
 import { useEffect, useState } from 'react';
 import type { KegUndoOfferView, KegView } from '../../../../shared/schemas/kegs.ts';
+import { FormFrame } from '@/components/form/form-frame';
 import { UnitNumberInput } from '@/components/form/unit-number-input';
+import { useActionError } from '@/components/form/use-action-error';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog, Dialog } from '@/components/ui/dialog';
@@ -13,6 +15,10 @@ export type Open = null | 'check-out' | 'move' | 'level' | Ending;
 /** The actions that end what the keg holds: each confirms what it will change first. */
 export type Ending = 'return' | 'empty' | 'dump';
 
+/** A keg dialog's form: large controls for the cellar, the browser's own checks, one wide button. */
+const kegForm = { browserValidation: true, className: 'flex flex-col gap-3', submitClassName: 'min-h-12 w-full md:min-h-12 pointer-coarse:min-h-12' } as const;
+const fieldLabel = 'flex flex-col gap-1 text-sm font-medium';
+
 const inDays = (d: number) => {
   const t = new Date(Date.now() + d * 86_400_000);
   return t.toISOString().slice(0, 10);
@@ -23,24 +29,21 @@ export const CheckOutDialog = ({ keg, onClose }: { keg: KegView; onClose: () => 
   const act = useKegAction(keg.id);
   const [memberId, setMemberId] = useState('');
   const [due, setDue] = useState(inDays(21));
-  const [error, setError] = useState<string | null>(null);
+  const { error, onSubmit } = useActionError();
   return (
     <Dialog open onClose={onClose} busy={act.isPending} title={`Check ${keg.code} out`} description="To a member, with the date it is due back.">
-      <form
-        className="flex flex-col gap-3"
-        onSubmit={async (e) => {
-          e.preventDefault();
-          setError(null);
-          try {
-            await act.mutateAsync({ action: 'check-out', body: { memberId, dueAt: new Date(`${due}T18:00:00`).toISOString() } });
-            onClose();
-          } catch (err) {
-            setError(problemMessage(err));
-          }
-        }}
+      <FormFrame
+        {...kegForm}
+        onSubmit={onSubmit(async () => {
+          await act.mutateAsync({ action: 'check-out', body: { memberId, dueAt: new Date(`${due}T18:00:00`).toISOString() } });
+          onClose();
+        })}
+        error={error}
+        pending={act.isPending}
+        submitLabel="Check out"
+        submitDisabled={!memberId}
       >
-        {error ? <Alert tone="error">{error}</Alert> : null}
-        <label className="flex flex-col gap-1 text-sm font-medium">
+        <label className={fieldLabel}>
           Member
           <BigSelect value={memberId} onChange={(e) => setMemberId(e.target.value)} required>
             <option value="">Pick a member…</option>
@@ -51,14 +54,11 @@ export const CheckOutDialog = ({ keg, onClose }: { keg: KegView; onClose: () => 
             ))}
           </BigSelect>
         </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
+        <label className={fieldLabel}>
           Due back
           <BigInput type="date" value={due} min={inDays(1)} onChange={(e) => setDue(e.target.value)} required />
         </label>
-        <Button type="submit" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending} disabled={!memberId}>
-          Check out
-        </Button>
-      </form>
+      </FormFrame>
     </Dialog>
   );
 };
@@ -68,25 +68,21 @@ export const MoveDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void
   const act = useKegAction(keg.id);
   const [to, setTo] = useState<'cellar' | 'cold_room' | 'missing'>(keg.whereabouts === 'cold_room' ? 'cellar' : 'cold_room');
   const [tapId, setTapId] = useState('');
-  const [error, setError] = useState<string | null>(null);
+  const { error, onSubmit } = useActionError();
   const free = board.data?.taps.filter((t) => (!t.taken || t.keg?.id === keg.id) && t.state !== 'out_of_service') ?? [];
   return (
     <Dialog open onClose={onClose} busy={act.isPending} title={`Move ${keg.code}`}>
-      <form
-        className="flex flex-col gap-3"
-        onSubmit={async (e) => {
-          e.preventDefault();
-          setError(null);
-          try {
-            await act.mutateAsync({ action: 'move', body: { to, tapId: to === 'cold_room' && tapId ? tapId : null } });
-            onClose();
-          } catch (err) {
-            setError(problemMessage(err));
-          }
-        }}
+      <FormFrame
+        {...kegForm}
+        onSubmit={onSubmit(async () => {
+          await act.mutateAsync({ action: 'move', body: { to, tapId: to === 'cold_room' && tapId ? tapId : null } });
+          onClose();
+        })}
+        error={error}
+        pending={act.isPending}
+        submitLabel="Move"
       >
-        {error ? <Alert tone="error">{error}</Alert> : null}
-        <label className="flex flex-col gap-1 text-sm font-medium">
+        <label className={fieldLabel}>
           To
           <BigSelect value={to} onChange={(e) => setTo(e.target.value as typeof to)}>
             <option value="cold_room">Cold room</option>
@@ -95,7 +91,7 @@ export const MoveDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void
           </BigSelect>
         </label>
         {to === 'cold_room' && keg.state === 'holding' ? (
-          <label className="flex flex-col gap-1 text-sm font-medium">
+          <label className={fieldLabel}>
             On tap
             <BigSelect value={tapId} onChange={(e) => setTapId(e.target.value)}>
               <option value="">Not connected</option>
@@ -108,10 +104,7 @@ export const MoveDialog = ({ keg, onClose }: { keg: KegView; onClose: () => void
             </BigSelect>
           </label>
         ) : null}
-        <Button type="submit" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending}>
-          Move
-        </Button>
-      </form>
+      </FormFrame>
     </Dialog>
   );
 };
@@ -120,25 +113,21 @@ export const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => voi
   const units = useUnits();
   const act = useKegAction(keg.id);
   const [litres, setLitres] = useState<number | null>(keg.contents?.remainingLiters ?? null);
-  const [error, setError] = useState<string | null>(null);
+  const { error, onSubmit } = useActionError();
   return (
     <Dialog open onClose={onClose} busy={act.isPending} title={`How much is left in ${keg.code}?`} description="By weight or by eye; the tap board shows it.">
-      <form
-        className="flex flex-col gap-3"
-        onSubmit={async (e) => {
-          e.preventDefault();
-          setError(null);
-          try {
-            if (litres === null || !Number.isFinite(litres) || litres < 0) return setError(`Give what is left, in ${units.labels.volume}.`);
-            await act.mutateAsync({ action: 'level', body: { remainingLiters: litres } });
-            onClose();
-          } catch (err) {
-            setError(problemMessage(err));
-          }
-        }}
+      <FormFrame
+        {...kegForm}
+        onSubmit={onSubmit(async () => {
+          if (litres === null || !Number.isFinite(litres) || litres < 0) return `Give what is left, in ${units.labels.volume}.`;
+          await act.mutateAsync({ action: 'level', body: { remainingLiters: litres } });
+          onClose();
+        })}
+        error={error}
+        pending={act.isPending}
+        submitLabel="Save"
       >
-        {error ? <Alert tone="error">{error}</Alert> : null}
-        <label className="flex flex-col gap-1 text-sm font-medium">
+        <label className={fieldLabel}>
           Left ({units.labels.volume})
           <UnitNumberInput
             kind="volume"
@@ -150,10 +139,7 @@ export const LevelDialog = ({ keg, onClose }: { keg: KegView; onClose: () => voi
             required
           />
         </label>
-        <Button type="submit" className="min-h-12 md:min-h-12 pointer-coarse:min-h-12" pending={act.isPending}>
-          Save
-        </Button>
-      </form>
+      </FormFrame>
     </Dialog>
   );
 };
@@ -230,7 +216,7 @@ export const KegNotice = ({ kegId, notice, onUndone }: { kegId: string; notice: 
 export const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; ending: Ending; onClose: () => void; onDone: (notice: Notice) => void }) => {
   const units = useUnits();
   const act = useKegAction(keg.id);
-  const [error, setError] = useState<string | null>(null);
+  const { error, run } = useActionError();
   const c = keg.carbonation;
   const verbs = endingVerbs[ending];
   return (
@@ -241,18 +227,15 @@ export const EndingDialog = ({ keg, ending, onClose, onDone }: { keg: KegView; e
       pending={act.isPending}
       error={error}
       onClose={onClose}
-      onConfirm={async () => {
-        setError(null);
-        try {
+      onConfirm={() =>
+        void run(async () => {
           const result = await act.mutateAsync(
             ending === 'return' ? { action: 'return', body: {} } : { action: 'empty', body: ending === 'dump' ? { dumped: true } : {} },
           );
           onDone({ text: verbs.done(keg.code), undo: result.undo ?? null });
           onClose();
-        } catch (err) {
-          setError(problemMessage(err));
-        }
-      }}
+        })
+      }
     >
       <ul className="flex list-disc flex-col gap-1 pl-5" aria-label="What this changes">
         {ending === 'return' ? (

@@ -1,62 +1,49 @@
 import { equipmentKindLabels, equipmentKinds } from '../../../../shared/schemas/equipment.ts';
 import { bookingRulesSchema, type BookingRules } from '../../../../shared/schemas/settings.ts';
-import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
-import { Input } from '@/components/ui/input';
-import { SettingLoader } from '@/features/settings/components/setting-loader';
+import { NumberField } from '@/components/form/number-field';
+import { InputField } from '@/components/ui/field';
+import { SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
-import { asNumber } from '@/components/form/decimal';
 
-/** The Settings section for the co-op's booking rules (admin edits; the rota and treasurer read). */
-export const BookingRulesSection = ({ canEdit }: { canEdit: boolean }) => (
-  <SettingLoader<BookingRules> settingKey="booking_rules" what="the booking rules">
-    {(value) => <BookingRulesForm value={value} canEdit={canEdit} />}
-  </SettingLoader>
-);
+const wholeDays = { type: 'number', min: 1, step: 1 } as const;
 
-const BookingRulesForm = ({ value, canEdit }: { value: BookingRules; canEdit: boolean }) => {
-  const { form, save, message, onSubmit } = useSettingForm<BookingRules>('booking_rules', bookingRulesSchema, value, {
+const BookingRulesForm = ({ value, canEdit }: SettingFormProps<BookingRules>) => {
+  const setting = useSettingForm<BookingRules>('booking_rules', bookingRulesSchema, value, {
     savedText: 'Booking rules saved. New bookings follow them from now on.',
     fields: ['cleaningBufferHours', 'maxDays', 'maxAdvanceDays', 'maxActiveBookingsPerMember', 'timeZone'],
   });
-  const errors = form.formState.errors;
+  const { form } = setting;
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Booking rules">
-      {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
+    <SettingFormFrame
+      setting={setting}
+      label="Booking rules"
+      canEdit={canEdit}
+      submitLabel="Save booking rules"
+      readOnlyNote={<p className="text-xs text-ink-muted">Only the admin changes these rules.</p>}
+    >
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-        <Field label="Cleaning buffer (hours)" hint="Kept free after every booking." error={errors.cleaningBufferHours?.message}>
-          {(c) => <Input {...c} type="number" min={0} step={1} {...form.register('cleaningBufferHours', asNumber)} />}
-        </Field>
-        <Field label="How far ahead (days)" hint="Latest start of a new booking." error={errors.maxAdvanceDays?.message}>
-          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxAdvanceDays', asNumber)} />}
-        </Field>
-        <Field label="Bookings at once per member" hint="Booked or in use, not yet ended." error={errors.maxActiveBookingsPerMember?.message}>
-          {(c) => <Input {...c} type="number" min={1} step={1} {...form.register('maxActiveBookingsPerMember', asNumber)} />}
-        </Field>
-        <Field label="Time zone" hint="For e-mails and the calendar's days." error={errors.timeZone?.message}>
-          {(c) => <Input {...c} {...form.register('timeZone')} autoComplete="off" />}
-        </Field>
+        <NumberField form={form} name="cleaningBufferHours" label="Cleaning buffer (hours)" hint="Kept free after every booking." {...wholeDays} min={0} />
+        <NumberField form={form} name="maxAdvanceDays" label="How far ahead (days)" hint="Latest start of a new booking." {...wholeDays} />
+        <NumberField form={form} name="maxActiveBookingsPerMember" label="Bookings at once per member" hint="Booked or in use, not yet ended." {...wholeDays} />
+        <InputField
+          label="Time zone"
+          hint="For e-mails and the calendar's days."
+          error={form.formState.errors.timeZone?.message}
+          {...form.register('timeZone')}
+          autoComplete="off"
+        />
       </fieldset>
       <fieldset disabled={!canEdit} className="flex flex-col gap-2">
         <legend className="mb-1 text-sm font-medium">Longest booking (days)</legend>
         <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
           {equipmentKinds.map((kind) => (
-            <Field key={kind} label={equipmentKindLabels[kind]} error={errors.maxDays?.[kind]?.message}>
-              {(c) => <Input {...c} type="number" min={1} step={1} {...form.register(`maxDays.${kind}`, asNumber)} />}
-            </Field>
+            <NumberField key={kind} form={form} name={`maxDays.${kind}`} label={equipmentKindLabels[kind]} {...wholeDays} />
           ))}
         </div>
       </fieldset>
-      {canEdit ? (
-        <div>
-          <Button type="submit" pending={save.isPending}>
-            Save booking rules
-          </Button>
-        </div>
-      ) : (
-        <p className="text-xs text-ink-muted">Only the admin changes these rules.</p>
-      )}
-    </form>
+    </SettingFormFrame>
   );
 };
+
+/** The Settings section for the co-op's booking rules (admin edits; the rota and treasurer read). */
+export const BookingRulesSection = settingSection('booking_rules', 'the booking rules', BookingRulesForm);
