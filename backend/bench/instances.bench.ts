@@ -7,6 +7,7 @@ import path from 'node:path';
 import autocannon from 'autocannon';
 import { freePort, root, runSync } from '../scripts/lib.mjs';
 import { productionEnv, signInCookie, startInstance, startLoadBalancer, type Instance, type LoadBalancer } from '../scripts/load-balancer.mjs';
+import { atLeast, reportTarget } from './report.ts';
 import { benchDatabase } from './bench-db.ts';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
@@ -57,7 +58,13 @@ try {
   line('one instance ', one);
   line('two instances', two);
   const ratio = two.rps / one.rps;
-  console.log(`TARGET instances throughput ratio: ${ratio.toFixed(2)}x (target >= ${TARGET_RATIO}x) ${ratio >= TARGET_RATIO ? 'PASS' : 'MISS'}`);
+  reportTarget({
+    name: 'two instances behind nginx vs one, requests/s',
+    figure: Number(ratio.toFixed(2)),
+    unit: '×',
+    target: TARGET_RATIO,
+    pass: atLeast(ratio, TARGET_RATIO),
+  });
 } finally {
   await balancer?.stop();
   await Promise.all(started.map((i) => i.stop()));

@@ -3,8 +3,8 @@
 // content and no spinner). Prints figures against the targets; not a test.
 //
 // Parameters (environment):
-//   BENCH_SCREENS_DATABASE  `demo` (default): a fresh database with the seeded demo co-op;
-//                           `benchmark`: the same, filled by backend/bench/dataset.ts when it is there;
+//   BENCH_SCREENS_DATABASE  `benchmark` (default): a copy of the benchmark data set (backend/bench/dataset.ts);
+//                           `demo`: a fresh database with the seeded demo co-op only;
 //                           a postgres:// URL: an existing database (say the benchmark data set) used as it is.
 //   BENCH_SCREENS_RUNS      visits of each page per role (default 3); the median and the maximum are printed.
 //   BENCH_SCREENS_BUILD     `0` to use dist/app as it is instead of building it first.
@@ -25,6 +25,8 @@ import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
 import { DEMO_PASSWORD } from '../../db/factories/common.ts';
 import { benchDatabase } from './bench-db.ts';
+import { benchDataset } from './dataset.ts';
+import { atMost, reportTarget } from './report.ts';
 
 const INITIAL_JS_TARGET_KB = 150;
 const READY_TARGET_MS = 800;
@@ -32,7 +34,7 @@ const READY_TARGET_MS = 800;
 const QUIET_MS = 300;
 const RUNS = Number(process.env.BENCH_SCREENS_RUNS ?? 3);
 const PORT = Number(process.env.BENCH_SCREENS_PORT ?? 4310);
-const DATABASE = process.env.BENCH_SCREENS_DATABASE ?? 'demo';
+const DATABASE = process.env.BENCH_SCREENS_DATABASE ?? 'benchmark';
 const distDir = path.resolve('dist', 'app');
 
 const accounts: { email: string; role: Role }[] = [
@@ -43,8 +45,14 @@ const accounts: { email: string; role: Role }[] = [
 ];
 
 function target(name: string, figure: number, unit: string, limit: number, extra = ''): void {
-  const verdict = figure <= limit ? 'PASS' : 'MISS';
-  console.log(`TARGET ${name}: ${figure.toFixed(unit === 'ms' ? 0 : 1)} ${unit} (target ≤ ${limit} ${unit})${extra} ${verdict}`);
+  reportTarget({
+    name: `screen ${name}`,
+    figure: Number(figure.toFixed(unit === 'ms' ? 0 : 1)),
+    unit,
+    target: limit,
+    pass: atMost(figure, limit),
+    note: extra.trim() || undefined,
+  });
 }
 
 const gzipKB = (file: string) => zlib.gzipSync(fs.readFileSync(file)).length / 1024;
@@ -62,20 +70,8 @@ async function database(): Promise<{ url: string; db: Database; pool: ReturnType
     const { db, pool } = createDb(DATABASE, 8);
     return { url: DATABASE, db, pool, label: `existing database ${new URL(DATABASE).pathname.slice(1)}`, drop: () => db.destroy() };
   }
-  const bench = await benchDatabase('screens');
-  let label = 'seeded demo co-op';
-  if (DATABASE === 'benchmark') {
-    const datasetFile = path.resolve('backend', 'bench', 'dataset.ts');
-    const dataset = fs.existsSync(datasetFile) ? ((await import(datasetFile)) as Record<string, unknown>) : {};
-    const build = Object.values(dataset).find((v): v is (db: Database) => Promise<unknown> => typeof v === 'function');
-    if (build) {
-      await build(bench.db);
-      label = 'benchmark data set (backend/bench/dataset.ts)';
-    } else {
-      label = 'seeded demo co-op (no benchmark data set builder found)';
-    }
-  }
-  return { ...bench, label };
+  if (DATABASE === 'benchmark') return { ...(await benchDataset('screens')), label: 'benchmark data set (backend/bench/dataset.ts)' };
+  return { ...(await benchDatabase('screens')), label: 'seeded demo co-op' };
 }
 
 /** Tracks the page's requests in flight and when the last one ended. */
