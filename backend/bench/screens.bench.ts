@@ -51,7 +51,7 @@ function target(name: string, figure: number, unit: string, limit: number, extra
     unit,
     target: limit,
     pass: atMost(figure, limit),
-    note: extra.trim() || undefined,
+    note: extra.replace(/^[\s;]+/, '') || undefined,
   });
 }
 

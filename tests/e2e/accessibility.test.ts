@@ -8,6 +8,7 @@ import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
 import { closeAll, newAppContext, phone, screenshot, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { bookFixture } from '../helpers/cellar.ts';
 
 // Every screen a role reaches, at desktop and phone width, checked by axe-core against WCAG 2.1 A and AA.
 // A violation of impact "critical" or "serious" fails the test, named by rule, page, role, size and the
@@ -58,13 +59,7 @@ beforeAll(async () => {
     at: new Date(now.getTime() - 2 * DAY),
     dueAt: new Date(now.getTime() + 12 * DAY),
   });
-  await createBooking(ctx.db, {
-    equipmentId: fixtureEquipmentId('F-02'),
-    ownerId: fixtureUserId('member'),
-    startsAt: new Date(now.getTime() + 2 * DAY),
-    endsAt: new Date(now.getTime() + 12 * DAY),
-    now,
-  });
+  await bookFixture(ctx, 'F-02', 'member', 2, 12);
   await createBooking(ctx.db, {
     equipmentId: fixtureEquipmentId('F-04'),
     ownerId: fixtureUserId('member3'),

@@ -1,9 +1,10 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createBooking, createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
+import { createSanitationCycle, DAY, HOUR } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import { closeAll, phone, screenshot, signedInPage, type Served, serveAndLaunch } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { bookFixture } from '../helpers/cellar.ts';
 
 let ctx: TestContext, server: Served, browser: Browser;
 
@@ -13,21 +14,8 @@ beforeAll(async () => {
   // This month on the calendar: F-01 in use by Maren Holloway (member@), F-02 booked by Ines Farrow
   // (member3@) from the day after tomorrow; F-03 free for weeks. K-001 freshly sanitized (ready), the
   // other kegs still needing cleaning.
-  await createBooking(ctx.db, {
-    equipmentId: fixtureEquipmentId('F-01'),
-    ownerId: fixtureUserId('member'),
-    startsAt: new Date(now.getTime() - 3 * DAY),
-    endsAt: new Date(now.getTime() + 10 * DAY),
-    now,
-    notes: 'Amber ale',
-  });
-  await createBooking(ctx.db, {
-    equipmentId: fixtureEquipmentId('F-02'),
-    ownerId: fixtureUserId('member3'),
-    startsAt: new Date(now.getTime() + 2 * DAY),
-    endsAt: new Date(now.getTime() + 16 * DAY),
-    now,
-  });
+  await bookFixture(ctx, 'F-01', 'member', -3, 10, { notes: 'Amber ale' });
+  await bookFixture(ctx, 'F-02', 'member3', 2, 16);
   await createSanitationCycle(ctx.db, {
     equipmentId: fixtureEquipmentId('K-001'),
     readyAt: new Date(now.getTime() - HOUR),

@@ -2,12 +2,13 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { accountNav, mainNav, visibleNav, type NavEntry } from '../../frontend/config/nav.ts';
 import { canOnEvery } from '../../frontend/lib/ability.tsx';
-import { createBatch, createBooking, DAY } from '../../db/factories/index.ts';
-import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
+import { createBatch, DAY } from '../../db/factories/index.ts';
+import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { defineAbilityFor } from '../../shared/permissions/ability.ts';
 import type { Role } from '../../shared/permissions/roles.ts';
 import { closeAll, screenshot, signedInPage, type Served, serveAndLaunch, asSignedIn } from '../helpers/browser.ts';
 import { createTestContext, type TestContext } from '../helpers/context.ts';
+import { bookFixture } from '../helpers/cellar.ts';
 
 // Screens that settle: a list page stops asking the server once it has its rows, and no screen a role
 // reaches sends a request that role may not make (no 4xx/5xx answer, no console error after sign-in).
@@ -18,20 +19,8 @@ beforeAll(async () => {
   ctx = await createTestContext();
   const now = ctx.clock.now();
   // Upcoming bookings for Maren Holloway (member@) and Ines Farrow (member3@), and a batch of Maren's.
-  await createBooking(ctx.db, {
-    equipmentId: fixtureEquipmentId('F-01'),
-    ownerId: fixtureUserId('member'),
-    startsAt: new Date(now.getTime() + 2 * DAY),
-    endsAt: new Date(now.getTime() + 12 * DAY),
-    now,
-  });
-  await createBooking(ctx.db, {
-    equipmentId: fixtureEquipmentId('F-02'),
-    ownerId: fixtureUserId('member3'),
-    startsAt: new Date(now.getTime() + 3 * DAY),
-    endsAt: new Date(now.getTime() + 17 * DAY),
-    now,
-  });
+  await bookFixture(ctx, 'F-01', 'member', 2, 12);
+  await bookFixture(ctx, 'F-02', 'member3', 3, 17);
   await createBatch(ctx.db, { ownerId: fixtureUserId('member'), name: 'Quiet amber', createdAt: new Date(now.getTime() - DAY) });
   ({ server, browser } = await serveAndLaunch(ctx));
 });

@@ -1,5 +1,6 @@
 import type { Clock } from '../../backend/lib/clock.ts';
-import { createBatch, createFermenter, createKeg, createSanitationCycle, cycleSteps, DAY, HOUR, MINUTE } from '../../db/factories/index.ts';
+import { createBatch, createBooking, createFermenter, createKeg, createSanitationCycle, cycleSteps, DAY, HOUR, MINUTE } from '../../db/factories/index.ts';
+import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import type { ApiClient, TestContext } from './context.ts';
 
 /**
@@ -164,4 +165,18 @@ export async function states(ctx: TestContext, ids: string[]) {
 /** Gravity readings on days before (negative) or after now: `readingsOn(at, [-10, 1.05], [-1, 1.011])`. */
 export function readingsOn<T>(at: (offsetMs: number) => T, ...days: [number, number][]): { takenAt: T; value: number }[] {
   return days.map(([day, value]) => ({ takenAt: at(day * DAY), value }));
+}
+
+/** A booking of a fixture vessel by a fixture account, from `fromDay` to `toDay` days after the test clock's now. */
+export function bookFixture(ctx: TestContext, code: string, owner: string, fromDay: number, toDay: number, extra: { notes?: string } = {}) {
+  const now = ctx.clock.now();
+  const at = (days: number) => new Date(now.getTime() + days * DAY);
+  return createBooking(ctx.db, {
+    equipmentId: fixtureEquipmentId(code),
+    ownerId: fixtureUserId(owner),
+    startsAt: at(fromDay),
+    endsAt: at(toDay),
+    now,
+    ...extra,
+  });
 }
