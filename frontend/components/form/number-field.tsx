@@ -1,5 +1,6 @@
 import type { ComponentProps } from 'react';
-import type { FieldValues, Path, UseFormReturn } from 'react-hook-form';
+import type { FieldValues, Path } from 'react-hook-form';
+import { fieldError, type AnyForm } from '@/components/form/bound-fields';
 import { asNullableNumber, asNumber, asOptionalNumber } from '@/components/form/decimal';
 import { InputField } from '@/components/ui/field';
 
@@ -9,9 +10,7 @@ export type EmptyNumber = 'refuse' | 'omit' | 'null';
 const readers = { refuse: asNumber, omit: asOptionalNumber, null: asNullableNumber } as const;
 
 export interface NumberFieldProps<T extends FieldValues> extends Omit<ComponentProps<typeof InputField>, 'error' | 'name' | 'label' | 'form'> {
-  // The third parameter (what a submit hands on) differs from form to form; only fields are read here.
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- as above
-  form: UseFormReturn<T, unknown, any>;
+  form: AnyForm<T>;
   name: Path<T>;
   label: ComponentProps<typeof InputField>['label'];
   empty?: EmptyNumber;
@@ -22,7 +21,7 @@ export interface NumberFieldProps<T extends FieldValues> extends Omit<ComponentP
  * (a decimal comma is taken), with the field's error beside it. For a quantity in the person's units use
  * `UnitNumberField`.
  */
-export const NumberField = <T extends FieldValues>({ form, name, empty = 'refuse', ...input }: NumberFieldProps<T>) => {
-  const { error } = form.getFieldState(name, form.formState);
-  return <InputField {...input} error={error?.message} {...form.register(name, readers[empty])} />;
-};
+export const NumberField = <T extends FieldValues>({ form, name, empty = 'refuse', ...input }: NumberFieldProps<T>) =>
+(
+  <InputField {...input} error={fieldError(form, name)} {...form.register(name, readers[empty])} />
+);

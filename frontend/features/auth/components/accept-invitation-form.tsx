@@ -1,7 +1,8 @@
 import type { Invitation } from '../../../../shared/schemas/auth.ts';
+import { TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Button } from '@/components/ui/button';
-import { FormMessageAlert, InputField } from '@/components/ui/field';
+import { InputField } from '@/components/ui/field';
 import { acceptInvitationFormSchema, useAcceptInvitation, type AcceptInvitationFormValues } from '@/features/auth/api/accept-invitation';
 import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { isApiProblem } from '@/lib/api-client';
@@ -18,11 +19,6 @@ export const AcceptInvitationForm = ({ token, invitation, onAccepted }: AcceptIn
     defaultValues: { name: invitation.name, password: '', confirmPassword: '' },
     fields: ['name', 'password'],
   });
-  const {
-    register,
-    formState: { errors },
-  } = form;
-
   const onSubmit = submit(({ name, password }) => {
     accept.mutate(
       { token, name, password },
@@ -39,19 +35,10 @@ export const AcceptInvitationForm = ({ token, invitation, onAccepted }: AcceptIn
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
+    <FormFrame onSubmit={onSubmit} message={message} pending={accept.isPending} submitLabel="Join and sign in" submitClassName="w-full" actions="start">
       <InputField label="E-mail" hint="You'll sign in with this address." type="email" value={invitation.email} readOnly autoComplete="username" />
-      <InputField label="Your name" hint="As the rest of the co-op will see it." error={errors.name?.message} autoComplete="name" {...register('name')} />
-      <NewPasswordFields
-        password={register('password')}
-        confirmPassword={register('confirmPassword')}
-        passwordError={errors.password?.message}
-        confirmPasswordError={errors.confirmPassword?.message}
-      />
-      <Button type="submit" pending={accept.isPending} className="w-full">
-        Join and sign in
-      </Button>
-    </form>
+      <TextField form={form} name="name" label="Your name" hint="As the rest of the co-op will see it." autoComplete="name" />
+      <NewPasswordFields form={form} />
+    </FormFrame>
   );
 };

@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import type { PasswordResetRequestInput } from '../../../../shared/schemas/auth.ts';
+import { TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { EmailField, FormMessageAlert } from '@/components/ui/field';
 import { passwordResetRequestSchema, useRequestPasswordReset } from '@/features/auth/api/request-password-reset';
 import { isApiProblem } from '@/lib/api-client';
 
@@ -14,11 +14,6 @@ export const ForgotPasswordForm = () => {
     defaultValues: { email: '' },
     fields: ['email'],
   });
-  const {
-    register,
-    formState: { errors },
-  } = form;
-
   const onSubmit = submit((values) => {
     request.mutate(values, {
       onSuccess: () => setSentTo(values.email),
@@ -41,12 +36,8 @@ export const ForgotPasswordForm = () => {
   }
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
-      <EmailField error={errors.email?.message} autoComplete="email" autoFocus {...register('email')} />
-      <Button type="submit" pending={request.isPending} className="w-full">
-        Send the link
-      </Button>
-    </form>
+    <FormFrame onSubmit={onSubmit} message={message} pending={request.isPending} submitLabel="Send the link" submitClassName="w-full" actions="start">
+      <TextField form={form} name="email" kind="email" label="E-mail" autoComplete="email" autoFocus />
+    </FormFrame>
   );
 };

@@ -1,9 +1,8 @@
 import { Link } from 'react-router-dom';
 import type { LoginInput } from '../../../../shared/schemas/auth.ts';
+import { TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Button } from '@/components/ui/button';
-import { EmailField, Field, FormMessageAlert } from '@/components/ui/field';
-import { PasswordInput } from '@/components/ui/input';
 import { paths } from '@/config/paths';
 import { loginSchema, useLogin } from '@/features/auth/api/login';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
@@ -35,11 +34,6 @@ export const LoginForm = ({ onSignedIn }: LoginFormProps) => {
     defaultValues: { email: '', password: '' },
     fields: ['email', 'password'],
   });
-  const {
-    register,
-    formState: { errors },
-  } = form;
-
   const onSubmit = submit((values) => {
     login.mutate(values, {
       onSuccess: onSignedIn,
@@ -52,23 +46,20 @@ export const LoginForm = ({ onSignedIn }: LoginFormProps) => {
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
-      <EmailField error={errors.email?.message} autoComplete="username" autoFocus {...register('email')} />
-      <Field
+    <FormFrame onSubmit={onSubmit} message={message} pending={login.isPending} submitLabel="Sign in" submitClassName="mt-1 w-full" actions="start">
+      <TextField form={form} name="email" kind="email" label="E-mail" autoComplete="username" autoFocus />
+      <TextField
+        form={form}
+        name="password"
+        kind="password"
         label="Password"
-        error={errors.password?.message}
+        autoComplete="current-password"
         aside={
           <Link to={paths.forgotPassword} className="text-sm">
             Forgot password?
           </Link>
         }
-      >
-        {({ invalid, ...control }) => <PasswordInput {...control} invalid={invalid} autoComplete="current-password" {...register('password')} />}
-      </Field>
-      <Button type="submit" pending={login.isPending} className="mt-1 w-full">
-        Sign in
-      </Button>
-    </form>
+      />
+    </FormFrame>
   );
 };

@@ -1,24 +1,24 @@
-import type { UseFormRegisterReturn } from 'react-hook-form';
+import type { FieldValues, Path } from 'react-hook-form';
 import { minPasswordLength } from '../../../../shared/schemas/auth.ts';
-import { PasswordField } from '@/components/ui/field';
+import { TextField, type AnyForm } from '@/components/form/bound-fields';
 
-export interface NewPasswordFieldsProps {
-  password: UseFormRegisterReturn;
-  confirmPassword: UseFormRegisterReturn;
-  passwordError?: string | undefined;
-  confirmPasswordError?: string | undefined;
+/** A form that sets a password: the password and its repetition. */
+interface NewPasswordValues extends FieldValues {
+  password: string;
+  confirmPassword: string;
 }
 
 /** "New password" and "Repeat the password", for the reset and invitation forms. */
-export const NewPasswordFields = ({ password, confirmPassword, passwordError, confirmPasswordError }: NewPasswordFieldsProps) => (
+export const NewPasswordFields = <T extends NewPasswordValues>({ form }: { form: AnyForm<T> }) => (
   <>
-    <PasswordField
+    <TextField
+      form={form}
+      name={'password' as Path<T>}
+      kind="password"
       label="New password"
       hint={`At least ${minPasswordLength} characters. A few unrelated words make a good one.`}
-      error={passwordError}
       autoComplete="new-password"
-      {...password}
     />
-    <PasswordField label="Repeat the password" error={confirmPasswordError} autoComplete="new-password" {...confirmPassword} />
+    <TextField form={form} name={'confirmPassword' as Path<T>} kind="password" label="Repeat the password" autoComplete="new-password" />
   </>
 );

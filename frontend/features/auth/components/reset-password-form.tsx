@@ -1,14 +1,14 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { Link } from 'react-router-dom';
+import { FormFrame } from '@/components/form/form-frame';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
-import { Button, buttonClasses } from '@/components/ui/button';
+import { buttonClasses } from '@/components/ui/button';
 import { paths } from '@/config/paths';
 import { resetPasswordFormSchema, useConfirmPasswordReset, type ResetPasswordFormValues } from '@/features/auth/api/confirm-password-reset';
 import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { isApiProblem } from '@/lib/api-client';
-import { applyProblemToForm, fieldOfPath } from '@/utils/problem-form';
+import { fieldOfPath } from '@/utils/problem-form';
 
 export interface ResetPasswordFormProps {
   token: string;
@@ -24,30 +24,14 @@ function isDeadLink(error: unknown): boolean {
 
 export const ResetPasswordForm = ({ token }: ResetPasswordFormProps) => {
   const confirm = useConfirmPasswordReset();
-  const [formError, setFormError] = useState<string | null>(null);
   const [deadLink, setDeadLink] = useState(false);
-  const {
-    register,
-    handleSubmit,
-    setError,
-    formState: { errors },
-  } = useForm<ResetPasswordFormValues>({
-    resolver: zodResolver(resetPasswordFormSchema),
+  const { form, message, showProblem, submit } = useApiForm<ResetPasswordFormValues>(resetPasswordFormSchema, {
     defaultValues: { password: '', confirmPassword: '' },
+    fields: ['password'],
   });
 
-  const onSubmit = handleSubmit(({ password }) => {
-    setFormError(null);
-    confirm.mutate(
-      { token, password },
-      {
-        onError: (error) => {
-          if (isDeadLink(error)) return setDeadLink(true);
-          const rest = applyProblemToForm(error, setError, ['password']);
-          if (rest.length) setFormError(rest.join(' '));
-        },
-      },
-    );
+  const onSubmit = submit(({ password }) => {
+    confirm.mutate({ token, password }, { onError: (error) => (isDeadLink(error) ? setDeadLink(true) : showProblem(error)) });
   });
 
   if (confirm.isSuccess) {
@@ -77,17 +61,8 @@ export const ResetPasswordForm = ({ token }: ResetPasswordFormProps) => {
   }
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <NewPasswordFields
-        password={register('password')}
-        confirmPassword={register('confirmPassword')}
-        passwordError={errors.password?.message}
-        confirmPasswordError={errors.confirmPassword?.message}
-      />
-      <Button type="submit" pending={confirm.isPending} className="w-full">
-        Save the new password
-      </Button>
-    </form>
+    <FormFrame onSubmit={onSubmit} message={message} pending={confirm.isPending} submitLabel="Save the new password" submitClassName="w-full" actions="start">
+      <NewPasswordFields form={form} />
+    </FormFrame>
   );
 };
