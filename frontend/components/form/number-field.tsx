@@ -21,7 +21,6 @@ export interface NumberFieldProps<T extends FieldValues> extends Omit<ComponentP
  * (a decimal comma is taken), with the field's error beside it. For a quantity in the person's units use
  * `UnitNumberField`.
  */
-export const NumberField = <T extends FieldValues>({ form, name, empty = 'refuse', ...input }: NumberFieldProps<T>) =>
-(
+export const NumberField = <T extends FieldValues>({ form, name, empty = 'refuse', ...input }: NumberFieldProps<T>) => (
   <InputField {...input} error={fieldError(form, name)} {...form.register(name, readers[empty])} />
 );
