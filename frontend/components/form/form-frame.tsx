@@ -1,8 +1,8 @@
 import type { FormEventHandler, ReactNode } from 'react';
 import type { FormMessage } from '@/components/form/use-api-form';
+import { Alert } from '@/components/ui/alert';
 import { Button, type ButtonVariant } from '@/components/ui/button';
 import { DialogActions } from '@/components/ui/dialog';
-import { FormMessageAlert } from '@/components/ui/field';
 import { useReportBusy } from '@/components/ui/form-dialog';
 
 export interface FormFrameProps {
@@ -21,8 +21,11 @@ export interface FormFrameProps {
   /** A Cancel button (a dialog's), left of the submit button. */
   onCancel?: () => void;
   cancelLabel?: ReactNode;
-  /** Where the buttons stand: at the end (a dialog's footer) or at the start under the fields. */
-  actions?: 'end' | 'start';
+  /**
+   * Where the buttons stand: at the end (a dialog's footer), at the start under the fields, or inline after
+   * the fields of a form laid out as one row (`className` with `flex flex-wrap`; the message then takes a line of its own).
+   */
+  actions?: 'end' | 'start' | 'inline';
   /** Shown instead of the buttons when there is no `submitLabel`. */
   readOnlyNote?: ReactNode;
   /** The browser's own checks (`required`) only when told; the shared schema checks otherwise. */
@@ -59,6 +62,7 @@ export const FormFrame = ({
   children,
 }: FormFrameProps) => {
   useReportBusy(pending);
+  const shown = message ?? (error ? { tone: 'error' as const, text: error } : null);
   const submit = submitLabel ? (
     <Button type="submit" variant={submitVariant} pending={pending} disabled={submitDisabled} className={submitClassName}>
       {submitLabel}
@@ -67,10 +71,16 @@ export const FormFrame = ({
   return (
     <form onSubmit={onSubmit} noValidate={!browserValidation} className={className ?? 'flex flex-col gap-4'} aria-label={label}>
       {intro}
-      <FormMessageAlert message={message ?? (error ? { tone: 'error', text: error } : null)} />
+      {shown ? (
+        <Alert tone={shown.tone} className={actions === 'inline' ? 'w-full' : undefined}>
+          {shown.text}
+        </Alert>
+      ) : null}
       {children}
       {!submit ? (
         (readOnlyNote ?? null)
+      ) : actions === 'inline' ? (
+        submit
       ) : actions === 'start' ? (
         <div>{submit}</div>
       ) : (

@@ -1,9 +1,10 @@
 import { Link } from 'react-router-dom';
+import { ProblemAlert } from '@/components/form/problem-alert';
 import { Alert } from '@/components/ui/alert';
 import { Button, buttonClasses } from '@/components/ui/button';
 import { paths } from '@/config/paths';
 import { useUnlockAccount } from '@/features/auth/api/unlock-account';
-import { isApiProblem, problemMessage } from '@/lib/api-client';
+import { isApiProblem } from '@/lib/api-client';
 
 export interface UnlockAccountFormProps {
   token: string;
@@ -52,7 +53,7 @@ export const UnlockAccountForm = ({ token }: UnlockAccountFormProps) => {
       }}
       className="flex flex-col gap-4"
     >
-      {unlock.isError ? <Alert tone="error">{problemMessage(unlock.error)}</Alert> : null}
+      <ProblemAlert error={unlock.error} />
       <Button type="submit" pending={unlock.isPending} className="w-full">
         Unlock my account
       </Button>

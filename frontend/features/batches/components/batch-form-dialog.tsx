@@ -1,31 +1,27 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
-import { useEffect, useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { allergenSuggestions } from '../../../../shared/cellar/trace.ts';
 import type { BatchDetail } from '../../../../shared/schemas/batches.ts';
 import type { Booking } from '../../../../shared/schemas/booking.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
-import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field, InputField, SelectField } from '@/components/ui/field';
-import { Input } from '@/components/ui/input';
+import { ChoiceField, TextAreaField, TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
+import { NumberField } from '@/components/form/number-field';
+import { UnitNumberField } from '@/components/form/unit-number-input';
+import { useApiForm } from '@/components/form/use-api-form';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { useCreateBatch, useUpdateBatch } from '@/features/batches/api/save-batch';
 import { useUnits } from '@/hooks/use-units';
 import { api } from '@/lib/api-client';
-import { fromDisplay, toDisplay } from '@/lib/units';
 import { formatDate } from '@/utils/format';
-import { applyProblemToForm } from '@/utils/problem-form';
 import { bookingKeys } from '@/features/bookings/api/keys';
 
-/** What the form holds: the volume in the person's units, gravities as typed. */
+/** What the form holds: the volume in litres (typed in the person's units), the allergens as one text. */
 const formSchema = z
   .object({
     name: z.string().trim().min(1, 'Name the batch').max(120, 'Keep the name under 120 characters'),
     style: z.string().trim().max(80, 'Keep the style under 80 characters'),
-    volume: z.number({ error: 'Enter the volume' }).positive('The volume must be above 0'),
+    volumeLiters: z.number({ error: 'Enter the volume' }).positive('The volume must be above 0'),
     targetOg: z.number().min(0.98, 'From 0.980 to 1.200').max(1.2, 'From 0.980 to 1.200').nullable(),
     targetFg: z.number().min(0.98, 'From 0.980 to 1.200').max(1.2, 'From 0.980 to 1.200').nullable(),
     notes: z.string().max(4000, 'Keep the notes under 4,000 characters'),
@@ -39,9 +35,6 @@ const formSchema = z
     message: 'The target FG must be below the target OG',
   });
 type FormValues = z.infer<typeof formSchema>;
-
-const numberOrNull = (v: unknown) =>
-  v === '' || v === null || v === undefined || Number.isNaN(v) ? null : typeof v === 'number' ? v : typeof v === 'string' ? Number(v.replace(',', '.')) : NaN;
 
 function useFermenterBookings(ownerId: string | undefined, mine: boolean) {
   return useQuery({
@@ -62,28 +55,19 @@ export interface BatchFormDialogProps {
   onSaved: (batch: BatchDetail) => void;
 }
 
-const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProps, 'open'> & { onBusy: (b: boolean) => void }) => {
+const BatchForm = ({ batch, onClose, onSaved }: Omit<BatchFormDialogProps, 'open'>) => {
   const units = useUnits();
   const create = useCreateBatch();
   const update = useUpdateBatch(batch?.id ?? '');
   const saving = create.isPending || update.isPending;
-  useEffect(() => onBusy(saving), [saving, onBusy]);
-  const [formError, setFormError] = useState<string | null>(null);
   const bookings = useFermenterBookings(batch?.ownerId, !batch);
   const linked = batch?.bookings[0]?.id ?? '';
-  const {
-    register,
-    handleSubmit,
-    setError,
-    getValues,
-    setValue,
-    formState: { errors },
-  } = useForm<FormValues>({
-    resolver: zodResolver(formSchema),
+  const { form, message, showProblem, submit } = useApiForm<FormValues>(formSchema, {
+    fields: ['name', 'style', 'volumeLiters', 'targetOg', 'targetFg', 'notes', 'allergens', 'shelfLifeDays', 'bookingId'],
     defaultValues: {
       name: batch?.name ?? '',
       style: batch?.style ?? '',
-      volume: batch ? Math.round(toDisplay.volume(batch.volumeLiters, units.units) * 100) / 100 : undefined,
+      volumeLiters: batch?.volumeLiters,
       targetOg: batch?.targetOg ?? null,
       targetFg: batch?.targetFg ?? null,
       notes: batch?.notes ?? '',
@@ -93,20 +77,20 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
     },
   });
   const addAllergen = (a: string) => {
-    const list = getValues('allergens')
+    const list = form
+      .getValues('allergens')
       .split(',')
       .map((x) => x.trim())
       .filter(Boolean);
-    if (!list.some((x) => x.toLowerCase() === a)) setValue('allergens', [...list, a].join(', '), { shouldDirty: true });
+    if (!list.some((x) => x.toLowerCase() === a)) form.setValue('allergens', [...list, a].join(', '), { shouldDirty: true });
   };
   const choices = (bookings.data?.items ?? []).filter((b) => b.state !== 'cancelled' && (!b.batchId || b.batchId === batch?.id));
 
-  const onSubmit = handleSubmit((v) => {
-    setFormError(null);
+  const onSubmit = submit((v) => {
     const body = {
       name: v.name,
       style: v.style,
-      volumeLiters: Math.round(fromDisplay.volume(v.volume, units.units) * 100) / 100,
+      volumeLiters: v.volumeLiters,
       targetOg: v.targetOg,
       targetFg: v.targetFg,
       notes: v.notes,
@@ -116,10 +100,7 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
         .filter(Boolean),
       shelfLifeDays: v.shelfLifeDays,
     };
-    const onError = (error: unknown) => {
-      const rest = applyProblemToForm(error, setError, ['name', 'style', 'targetOg', 'targetFg', 'notes', 'allergens', 'shelfLifeDays', 'bookingId']);
-      if (rest.length) setFormError(rest.join(' '));
-    };
+    const onError = showProblem;
     if (batch) {
       const bookingChange = v.bookingId !== linked ? { bookingId: v.bookingId || null } : {};
       update.mutate({ ...body, ...bookingChange }, { onSuccess: onSaved, onError });
@@ -129,41 +110,22 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
-      <InputField label="Name" error={errors.name?.message} autoFocus autoComplete="off" {...register('name')} />
-      <InputField label="Style" error={errors.style?.message} autoComplete="off" placeholder="e.g. Pale ale" {...register('style')} />
+    <FormFrame onSubmit={onSubmit} message={message} pending={saving} onCancel={onClose} submitLabel={batch ? 'Save' : 'Create the batch'}>
+      <TextField form={form} name="name" label="Name" autoFocus autoComplete="off" />
+      <TextField form={form} name="style" label="Style" autoComplete="off" placeholder="e.g. Pale ale" />
       <div className="grid gap-4 sm:grid-cols-3">
-        <InputField
-          label={`Volume (${units.labels.volume})`}
-          error={errors.volume?.message}
-          inputMode="decimal"
-          {...register('volume', { setValueAs: numberOrNull })}
-        />
-        <InputField
-          label="Target OG"
-          hint="e.g. 1.052"
-          error={errors.targetOg?.message}
-          inputMode="decimal"
-          {...register('targetOg', { setValueAs: numberOrNull })}
-        />
-        <InputField
-          label="Target FG"
-          hint="e.g. 1.012"
-          error={errors.targetFg?.message}
-          inputMode="decimal"
-          {...register('targetFg', { setValueAs: numberOrNull })}
-        />
+        <UnitNumberField control={form.control} name="volumeLiters" kind="volume" apiDigits={2} label={`Volume (${units.labels.volume})`} />
+        <NumberField form={form} name="targetOg" label="Target OG" hint="e.g. 1.052" inputMode="decimal" empty="null" />
+        <NumberField form={form} name="targetFg" label="Target FG" hint="e.g. 1.012" inputMode="decimal" empty="null" />
       </div>
-      <Field
+      <TextField
+        form={form}
+        name="allergens"
         label="Allergens"
         hint="Comma-separated; finings recorded at transfer add theirs (gelatin and isinglass make the beer not vegan)."
-        error={errors.allergens?.message}
-      >
-        {({ invalid, ...c }) => (
-          <Input {...c} invalid={invalid} autoComplete="off" placeholder="e.g. gluten (barley), lactose (milk)" {...register('allergens')} />
-        )}
-      </Field>
+        autoComplete="off"
+        placeholder="e.g. gluten (barley), lactose (milk)"
+      />
       <div className="-mt-2 flex flex-wrap gap-1.5" aria-label="Suggested allergens">
         {allergenSuggestions.map((a) => (
           <button
@@ -176,51 +138,30 @@ const BatchForm = ({ batch, onClose, onSaved, onBusy }: Omit<BatchFormDialogProp
           </button>
         ))}
       </div>
-      <Field
+      <NumberField
+        form={form}
+        name="shelfLifeDays"
         label="Shelf life (days)"
         hint="Leave empty for the co-op’s shelf life for this style (Settings). Each keg filled gets a best-before from it."
-        error={errors.shelfLifeDays?.message}
-      >
-        {({ invalid, ...c }) => (
-          <Input {...c} invalid={invalid} inputMode="numeric" className="w-32" {...register('shelfLifeDays', { setValueAs: numberOrNull })} />
-        )}
-      </Field>
-      <SelectField label="Fermenter booking" hint="The fermenter booking that holds this batch." error={errors.bookingId?.message} {...register('bookingId')}>
+        inputMode="numeric"
+        inputClassName="w-32"
+        empty="null"
+      />
+      <ChoiceField form={form} name="bookingId" label="Fermenter booking" hint="The fermenter booking that holds this batch.">
         <option value="">None</option>
         {choices.map((b) => (
           <option key={b.id} value={b.id}>
             {b.equipment.code} {b.equipment.name} · {formatDate(b.startsAt)} – {formatDate(b.endsAt)}
           </option>
         ))}
-      </SelectField>
-      <Field label="Notes" error={errors.notes?.message}>
-        {({ invalid, ...c }) => (
-          <textarea
-            {...c}
-            aria-invalid={invalid || undefined}
-            rows={3}
-            className="block w-full rounded-md border border-line-strong bg-surface px-3 py-2 text-sm text-ink"
-            {...register('notes')}
-          />
-        )}
-      </Field>
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={saving}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={saving}>
-          {batch ? 'Save' : 'Create the batch'}
-        </Button>
-      </DialogActions>
-    </form>
+      </ChoiceField>
+      <TextAreaField form={form} name="notes" label="Notes" />
+    </FormFrame>
   );
 };
 
-export const BatchFormDialog = ({ open, onClose, batch, onSaved }: BatchFormDialogProps) => {
-  const [busy, setBusy] = useState(false);
-  return (
-    <Dialog open={open} onClose={onClose} busy={busy} title={batch ? `Edit ${batch.name}` : 'New batch'} className="w-[min(100vw-1.5rem,40rem)]">
-      <BatchForm batch={batch} onClose={onClose} onSaved={onSaved} onBusy={setBusy} />
-    </Dialog>
-  );
-};
+export const BatchFormDialog = ({ open, onClose, batch, onSaved }: BatchFormDialogProps) => (
+  <FormDialog open={open} onClose={onClose} title={batch ? `Edit ${batch.name}` : 'New batch'} className="w-[min(100vw-1.5rem,40rem)]">
+    <BatchForm batch={batch} onClose={onClose} onSaved={onSaved} />
+  </FormDialog>
+);

@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { z } from 'zod';
 import { convertGravity } from '../../../../shared/brewing/index.ts';
 import {
@@ -11,11 +11,12 @@ import {
   type BrixMethod,
 } from '../../../../shared/brewing/readings.ts';
 import { createReadingSchema, gravityUnitLabels, gravityUnits, type BatchDetail } from '../../../../shared/schemas/batches.ts';
+import { ChoiceField, OptionList, TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
 import { UnitNumberField } from '@/components/form/unit-number-input';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Button } from '@/components/ui/button';
-import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { Field, FormMessageAlert, InputField, SelectField } from '@/components/ui/field';
+import { Field } from '@/components/ui/field';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { Checkbox, Select } from '@/components/ui/input';
 import { useNotice } from '@/components/ui/notice';
 import { useCreateReading } from '@/features/batches/api/readings';
@@ -41,6 +42,7 @@ const readingFormSchema = createReadingSchema.extend({
   confirm: z.boolean(),
 });
 type ReadingFormValues = z.infer<typeof readingFormSchema>;
+const scaleLabels = { sg: 'SG (hydrometer)', plato: '°Plato', brix: 'Brix (refractometer)' } as const;
 const readingFields = ['takenAt', 'gravity', 'unit', 'temperatureC', 'correctTemperature', 'note', 'method', 'confirm'] as const;
 
 export interface ReadingFormDialogProps {
@@ -49,11 +51,10 @@ export interface ReadingFormDialogProps {
   batch: BatchDetail;
 }
 
-const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'open'> & { onBusy: (b: boolean) => void }) => {
+const ReadingForm = ({ batch, onClose }: Omit<ReadingFormDialogProps, 'open'>) => {
   const units = useUnits();
   const create = useCreateReading(batch.id);
   const notice = useNotice();
-  useEffect(() => onBusy(create.isPending), [create.isPending, onBusy]);
   const { form, message, showError, showProblem, submit } = useApiForm<ReadingFormValues>(readingFormSchema, {
     defaultValues: {
       takenAt: localNow(),
@@ -140,9 +141,8 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
 
   const range = gravityEntryRanges[unit];
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
-      <InputField label="Taken at" error={errors.takenAt?.message} type="datetime-local" {...register('takenAt')} />
+    <FormFrame onSubmit={onSubmit} message={message} pending={create.isPending} onCancel={onClose} submitLabel="Add the reading">
+      <TextField form={form} name="takenAt" label="Taken at" type="datetime-local" />
       <div className="grid gap-4 sm:grid-cols-[1fr_9rem]">
         <UnitNumberField
           control={control}
@@ -153,13 +153,9 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
           autoFocus
           placeholder={unit === 'sg' ? '1.048' : '12.0'}
         />
-        <SelectField label="Scale" error={errors.unit?.message} {...register('unit')}>
-          {gravityUnits.map((u) => (
-            <option key={u} value={u}>
-              {u === 'sg' ? 'SG (hydrometer)' : u === 'plato' ? '°Plato' : 'Brix (refractometer)'}
-            </option>
-          ))}
-        </SelectField>
+        <ChoiceField form={form} name="unit" label="Scale">
+          <OptionList values={gravityUnits} labels={scaleLabels} />
+        </ChoiceField>
       </div>
       <UnitNumberField
         control={control}
@@ -177,11 +173,7 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
         >
           {({ invalid, ...c }) => (
             <Select {...c} invalid={invalid} value={method} onChange={(e) => setValue('method', e.target.value as BrixMethod)}>
-              {brixMethods.map((m) => (
-                <option key={m} value={m}>
-                  {brixMethodLabels[m]}
-                </option>
-              ))}
+              <OptionList values={brixMethods} labels={brixMethodLabels} />
             </Select>
           )}
         </Field>
@@ -215,24 +207,13 @@ const ReadingForm = ({ batch, onClose, onBusy }: Omit<ReadingFormDialogProps, 'o
         )}
       </div>
       {needsConfirm ? <Checkbox label="I have checked this reading: store it anyway" {...register('confirm')} /> : null}
-      <InputField label="Note" error={errors.note?.message} autoComplete="off" {...register('note')} />
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={create.isPending}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={create.isPending}>
-          Add the reading
-        </Button>
-      </DialogActions>
-    </form>
+      <TextField form={form} name="note" label="Note" autoComplete="off" />
+    </FormFrame>
   );
 };
 
-export const ReadingFormDialog = ({ open, onClose, batch }: ReadingFormDialogProps) => {
-  const [busy, setBusy] = useState(false);
-  return (
-    <Dialog open={open} onClose={onClose} busy={busy} title="Add a reading" description={batch.name}>
-      <ReadingForm batch={batch} onClose={onClose} onBusy={setBusy} />
-    </Dialog>
-  );
-};
+export const ReadingFormDialog = ({ open, onClose, batch }: ReadingFormDialogProps) => (
+  <FormDialog open={open} onClose={onClose} title="Add a reading" description={batch.name}>
+    <ReadingForm batch={batch} onClose={onClose} />
+  </FormDialog>
+);

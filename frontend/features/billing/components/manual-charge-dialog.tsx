@@ -1,11 +1,11 @@
 import type { ManualChargeInput } from '../../../../shared/schemas/billing.ts';
+import { ChoiceField, TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Button } from '@/components/ui/button';
-import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { FormMessageAlert, InputField, SelectField } from '@/components/ui/field';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { Checkbox } from '@/components/ui/input';
 import { manualChargeInputSchema, useAddManualCharge, useBillableMembers } from '@/features/billing/api/manual-charges';
-import { parseMoneyInput } from '@/features/billing/utils/money-input';
+import { MoneyField } from '@/features/billing/components/money-field';
 
 interface Props {
   open: boolean;
@@ -17,80 +17,49 @@ interface Props {
 const ChargeForm = ({ period, currency, onClose }: Omit<Props, 'open'>) => {
   const add = useAddManualCharge();
   const members = useBillableMembers();
-  const {
-    form,
-    message,
-    showProblem,
-    submit: submitted,
-  } = useApiForm<ManualChargeInput>(manualChargeInputSchema, {
+  const { form, message, showProblem, submit } = useApiForm<ManualChargeInput>(manualChargeInputSchema, {
     defaultValues: { memberId: '', period, description: '', reason: '', taxable: true },
     fields: ['memberId', 'period', 'description', 'reason', 'amountCents', 'taxable'],
   });
-  const {
-    register,
-    formState: { errors },
-  } = form;
-  const submit = submitted((values) => {
-    add.mutate(values, {
-      onSuccess: onClose,
-      onError: (e) => {
-        showProblem(e);
-      },
-    });
-  });
+  const onSubmit = submit((values) => add.mutate(values, { onSuccess: onClose, onError: showProblem }));
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
-      <SelectField label="Member" error={errors.memberId?.message} autoFocus {...register('memberId')}>
+    <FormFrame onSubmit={onSubmit} message={message} pending={add.isPending} onCancel={onClose} submitLabel="Add">
+      <ChoiceField form={form} name="memberId" label="Member" autoFocus>
         <option value="">Pick a member…</option>
         {(members.data ?? []).map((m) => (
           <option key={m.id} value={m.id}>
             {m.name}
           </option>
         ))}
-      </SelectField>
-      <InputField
+      </ChoiceField>
+      <TextField
+        form={form}
+        name="period"
         label="Period"
         hint="Goes on the member's invoice for this month (straight onto it if that is still a draft)."
-        error={errors.period?.message}
         type="month"
-        {...register('period')}
       />
-      <InputField label="What the invoice says" error={errors.description?.message} autoComplete="off" {...register('description')} />
-      <InputField
+      <TextField form={form} name="description" label="What the invoice says" autoComplete="off" />
+      <TextField
+        form={form}
+        name="reason"
         label="Reason"
         hint="Why it is charged or credited; kept with the charge and shown as its source."
-        error={errors.reason?.message}
         autoComplete="off"
-        {...register('reason')}
       />
-      <InputField
-        label="Amount before tax"
-        hint={`In ${currency}. A minus sign makes it a credit, e.g. -5.00.`}
-        error={errors.amountCents?.message}
-        inputMode="decimal"
-        {...register('amountCents', { setValueAs: parseMoneyInput })}
-      />
-      <Checkbox label="Add tax at the period's rate" {...register('taxable')} />
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={add.isPending}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={add.isPending}>
-          Add
-        </Button>
-      </DialogActions>
-    </form>
+      <MoneyField form={form} name="amountCents" label="Amount before tax" hint={`In ${currency}. A minus sign makes it a credit, e.g. -5.00.`} />
+      <Checkbox label="Add tax at the period's rate" {...form.register('taxable')} />
+    </FormFrame>
   );
 };
 
 export const ManualChargeDialog = ({ open, ...props }: Props) => (
-  <Dialog
+  <FormDialog
     open={open}
     onClose={props.onClose}
     title="Add a charge or credit"
     description="For what no record covers: a part supplied, a fee waived, a correction."
   >
     <ChargeForm {...props} />
-  </Dialog>
+  </FormDialog>
 );

@@ -9,11 +9,12 @@ import {
   type RefundInput,
   type VoidInvoiceInput,
 } from '../../../../shared/schemas/billing.ts';
+import { ChoiceField, OptionList, TextField } from '@/components/form/bound-fields';
 import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
-import { Dialog } from '@/components/ui/dialog';
-import { InputField, SelectField } from '@/components/ui/field';
+import { FieldSet } from '@/components/ui/field';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { Radio } from '@/components/ui/input';
 import { useNotice } from '@/components/ui/notice';
 import {
@@ -25,7 +26,8 @@ import {
   voidInvoiceSchema,
 } from '@/features/billing/api/invoice-actions';
 import { money } from '@/features/billing/components/money';
-import { centsToInput, parseMoneyInput } from '@/features/billing/utils/money-input';
+import { MoneyField } from '@/features/billing/components/money-field';
+import { centsToInput } from '@/features/billing/utils/money-input';
 import { coopTimeZone } from '@/utils/format';
 
 interface DialogBaseProps {
@@ -44,8 +46,6 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
     defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
     fields: ['amountCents', 'method', 'receivedOn', 'reference', 'note'],
   });
-  const { register } = form;
-  const errors = form.formState.errors;
   const onSubmit = submit((values) => {
     record.mutate(values, {
       onSuccess: ({ payment, invoice: after }) => {
@@ -64,38 +64,32 @@ const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   return (
     <FormFrame onSubmit={onSubmit} message={message} pending={record.isPending} onCancel={onClose} submitLabel="Record payment">
       <p className="text-sm text-ink-muted">Still to pay: {money(invoice.amountDueCents, invoice.currency)}. A smaller amount is recorded as a part payment.</p>
-      <InputField
+      <MoneyField
+        form={form}
+        name="amountCents"
         label="Amount received"
         hint={moneyHint(invoice.currency)}
-        error={errors.amountCents?.message}
-        inputMode="decimal"
         defaultValue={centsToInput(invoice.amountDueCents)}
         autoFocus
-        {...register('amountCents', { setValueAs: parseMoneyInput })}
       />
-      <SelectField label="How" error={errors.method?.message} {...register('method')}>
-        {manualPaymentMethods.map((m) => (
-          <option key={m} value={m}>
-            {paymentMethodLabels[m]}
-          </option>
-        ))}
-      </SelectField>
-      <InputField label="Received on" error={errors.receivedOn?.message} type="date" {...register('receivedOn')} />
-      <InputField
-        label="Reference"
-        hint="The bank's reference, or the receipt number for cash."
-        error={errors.reference?.message}
-        autoComplete="off"
-        {...register('reference')}
-      />
+      <ChoiceField form={form} name="method" label="How">
+        <OptionList values={manualPaymentMethods} labels={paymentMethodLabels} />
+      </ChoiceField>
+      <TextField form={form} name="receivedOn" label="Received on" type="date" />
+      <TextField form={form} name="reference" label="Reference" hint="The bank's reference, or the receipt number for cash." autoComplete="off" />
     </FormFrame>
   );
 };
 
 export const RecordPaymentDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
-  <Dialog open={open} onClose={onClose} title={`Record a payment on ${invoice.number}`} description={`From ${invoice.memberName}, by bank transfer or cash.`}>
+  <FormDialog
+    open={open}
+    onClose={onClose}
+    title={`Record a payment on ${invoice.number}`}
+    description={`From ${invoice.memberName}, by bank transfer or cash.`}
+  >
     <PaymentForm invoice={invoice} onClose={onClose} />
-  </Dialog>
+  </FormDialog>
 );
 
 const invoiceRate = (invoice: InvoiceDetail) => {
@@ -111,11 +105,9 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
     defaultValues: { reason: '', refundMethod: null },
     fields: ['amountCents', 'reason', 'refundMethod'],
   });
-  const { register, watch } = form;
-  const errors = form.formState.errors;
   // Nothing is recorded as paid back unless the treasurer says it was, and how.
   const [paidBack, setPaidBack] = useState<'no' | (typeof manualPaymentMethods)[number]>('no');
-  const amount = watch('amountCents');
+  const amount = form.watch('amountCents');
   const rate = invoiceRate(invoice);
   const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
   const onSubmit = submit((values) => {
@@ -144,25 +136,24 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
       submitDisabled={rate === null}
     >
       {rate === null ? <Alert tone="info">This invoice has lines at several tax rates; void it instead of crediting part of it.</Alert> : null}
-      <InputField
+      <MoneyField
+        form={form}
+        name="amountCents"
         label="Amount to credit, tax included"
         hint={
           split
             ? `Credit note: ${money(split.netCents, invoice.currency)} + ${money(split.taxCents, invoice.currency)} tax. At most ${money(creditable, invoice.currency)}.`
             : `At most ${money(creditable, invoice.currency)}.`
         }
-        error={errors.amountCents?.message}
-        inputMode="decimal"
         autoFocus
-        {...register('amountCents', { setValueAs: parseMoneyInput })}
       />
-      <InputField label="Reason" hint="Shown on the credit note." error={errors.reason?.message} autoComplete="off" {...register('reason')} />
+      <TextField form={form} name="reason" label="Reason" hint="Shown on the credit note." autoComplete="off" />
       {invoice.paidCents > 0 ? (
-        <fieldset className="flex flex-col gap-1">
-          <legend className="mb-1 text-sm font-medium">Was money paid back to the member?</legend>
-          <p className="mb-1 text-xs text-ink-muted">
-            {money(invoice.paidCents, invoice.currency)} has been paid on this invoice. Record a refund only once the money has gone back.
-          </p>
+        <FieldSet
+          legend="Was money paid back to the member?"
+          hint={`${money(invoice.paidCents, invoice.currency)} has been paid on this invoice. Record a refund only once the money has gone back.`}
+          error={form.formState.errors.refundMethod?.message}
+        >
           <Radio
             name="paidBack"
             value="no"
@@ -181,8 +172,7 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
               onChange={() => setPaidBack(m)}
             />
           ))}
-          {errors.refundMethod?.message ? <p className="text-sm text-danger">{errors.refundMethod.message}</p> : null}
-        </fieldset>
+        </FieldSet>
       ) : (
         <p className="text-sm text-ink-muted">Nothing has been paid on this invoice, so the credit reduces what is owed.</p>
       )}
@@ -191,14 +181,14 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
 };
 
 export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
-  <Dialog
+  <FormDialog
     open={open}
     onClose={onClose}
     title={`Credit or refund part of ${invoice.number}`}
     description="A credit note documents it; the invoice itself never changes."
   >
     <RefundForm invoice={invoice} onClose={onClose} />
-  </Dialog>
+  </FormDialog>
 );
 
 const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
@@ -208,8 +198,6 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
     defaultValues: { reason: '', refundMethod: null },
     fields: ['reason', 'refundMethod'],
   });
-  const { register } = form;
-  const errors = form.formState.errors;
   const onSubmit = submit((values) => {
     voidIt.mutate(values, {
       onSuccess: ({ creditNoteId, invoice: after }) => {
@@ -226,42 +214,33 @@ const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
     });
   });
   const draft = invoice.status === 'draft';
+  const submitLabel = draft ? 'Void the draft' : 'Void and issue the credit note';
   return (
-    <FormFrame
-      onSubmit={onSubmit}
-      message={message}
-      pending={voidIt.isPending}
-      onCancel={onClose}
-      cancelLabel="Keep the invoice"
-      submitLabel={draft ? 'Void the draft' : 'Void and issue the credit note'}
-    >
+    <FormFrame onSubmit={onSubmit} message={message} pending={voidIt.isPending} onCancel={onClose} cancelLabel="Keep the invoice" submitLabel={submitLabel}>
       <p className="text-sm">
         {draft
           ? 'This draft was never issued, so no credit note is needed. Its charges stay billed to this period; correct them with a manual charge or credit on a later period.'
           : `A credit note for ${money(invoice.totalCents - invoice.creditedCents, invoice.currency)} replaces ${invoice.number}. The invoice stays in the books, marked void. Bill any fair charges again as a manual charge on a later period.`}
       </p>
-      <InputField label="Reason" error={errors.reason?.message} autoComplete="off" autoFocus {...register('reason')} />
+      <TextField form={form} name="reason" label="Reason" autoComplete="off" autoFocus />
       {invoice.paidCents > 0 ? (
-        <SelectField
+        <ChoiceField
+          form={form}
+          name="refundMethod"
           label="What was paid"
           hint={`${money(invoice.paidCents, invoice.currency)} has been paid.`}
-          error={errors.refundMethod?.message}
-          {...register('refundMethod', { setValueAs: (v: string | null) => (v ? v : null) })}
+          options={{ setValueAs: (v: string | null) => (v ? v : null) }}
         >
           <option value="">Keep it as credit on the member’s account</option>
-          {manualPaymentMethods.map((m) => (
-            <option key={m} value={m}>
-              Pay it back by {paymentMethodLabels[m].toLowerCase()}
-            </option>
-          ))}
-        </SelectField>
+          <OptionList values={manualPaymentMethods} labels={(m) => `Pay it back by ${paymentMethodLabels[m].toLowerCase()}`} />
+        </ChoiceField>
       ) : null}
     </FormFrame>
   );
 };
 
 export const VoidDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
-  <Dialog open={open} onClose={onClose} title={`Void ${invoice.number ?? 'this draft'}`}>
+  <FormDialog open={open} onClose={onClose} title={`Void ${invoice.number ?? 'this draft'}`}>
     <VoidForm invoice={invoice} onClose={onClose} />
-  </Dialog>
+  </FormDialog>
 );

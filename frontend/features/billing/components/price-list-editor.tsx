@@ -1,12 +1,14 @@
 import { longDate } from '../../../../shared/billing/dates.ts';
 import { formatRate } from '../../../../shared/billing/money.ts';
 import { priceItemInfo, priceItems, type Price, type PriceInput, type TaxRateInput } from '../../../../shared/schemas/billing.ts';
+import { ChoiceField, OptionList, TextField } from '@/components/form/bound-fields';
+import { parseDecimal } from '@/components/form/decimal';
 import { FormFrame } from '@/components/form/form-frame';
+import { NumberField } from '@/components/form/number-field';
+import { ProblemAlert } from '@/components/form/problem-alert';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
-import { InputField, SelectField } from '@/components/ui/field';
 import {
   priceInputSchema,
   taxRateInputSchema,
@@ -17,8 +19,7 @@ import {
   type PriceListResponse,
 } from '@/features/billing/api/price-list';
 import { Money } from '@/features/billing/components/money';
-import { parseMoneyInput } from '@/features/billing/utils/money-input';
-import { problemMessage } from '@/lib/api-client';
+import { MoneyField } from '@/features/billing/components/money-field';
 
 const itemLabel = (p: Pick<Price, 'item' | 'bandMaxLiters'>) =>
   p.item === 'fermenter_day' ? `${priceItemInfo.fermenter_day.label}, up to ${p.bandMaxLiters} L` : priceItemInfo[p.item].label;
@@ -123,11 +124,7 @@ const PriceTable = ({ data }: { data: PriceListResponse }) => {
           ))}
         </tbody>
       </table>
-      {withdraw.isError ? (
-        <Alert tone="error" className="m-3">
-          {problemMessage(withdraw.error)}
-        </Alert>
-      ) : null}
+      <ProblemAlert error={withdraw.error} className="m-3" />
     </div>
   );
 };
@@ -138,9 +135,7 @@ const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
     defaultValues: { item: 'fermenter_day', bandMaxLiters: 60, effectiveFrom: data.today, note: '' },
     fields: ['item', 'bandMaxLiters', 'unitCents', 'effectiveFrom', 'note'],
   });
-  const { register, watch } = form;
-  const errors = form.formState.errors;
-  const item = watch('item');
+  const item = form.watch('item');
   const onSubmit = submit((values) => {
     add.mutate(
       { ...values, bandMaxLiters: values.item === 'fermenter_day' ? values.bandMaxLiters : null },
@@ -171,37 +166,20 @@ const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
       }
     >
       <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
-        <SelectField label="Item" error={errors.item?.message} className="lg:col-span-2" {...register('item')}>
-          {priceItems.map((i) => (
-            <option key={i} value={i}>
-              {priceItemInfo[i].label} (per {priceItemInfo[i].unit})
-            </option>
-          ))}
-        </SelectField>
-        {item === 'fermenter_day' ? (
-          <InputField
-            label="Capacity band, up to"
-            hint="Litres"
-            error={errors.bandMaxLiters?.message}
-            type="number"
-            min={1}
-            step={1}
-            {...register('bandMaxLiters', { valueAsNumber: true })}
-          />
-        ) : null}
-        <InputField
-          label="Price"
-          hint={`In ${data.currency}`}
-          error={errors.unitCents?.message}
-          inputMode="decimal"
-          {...register('unitCents', { setValueAs: parseMoneyInput })}
-        />
-        <InputField label="From" error={errors.effectiveFrom?.message} type="date" min={data.today} {...register('effectiveFrom')} />
+        <ChoiceField form={form} name="item" label="Item" className="lg:col-span-2">
+          <OptionList values={priceItems} labels={(i) => `${priceItemInfo[i].label} (per ${priceItemInfo[i].unit})`} />
+        </ChoiceField>
+        {item === 'fermenter_day' ? <NumberField form={form} name="bandMaxLiters" label="Capacity band, up to" hint="Litres" inputMode="numeric" /> : null}
+        <MoneyField form={form} name="unitCents" label="Price" hint={`In ${data.currency}`} />
+        <TextField form={form} name="effectiveFrom" label="From" type="date" min={data.today} />
       </div>
-      <InputField label="Note" hint="Optional: where it was agreed." error={errors.note?.message} autoComplete="off" {...register('note')} />
+      <TextField form={form} name="note" label="Note" hint="Optional: where it was agreed." autoComplete="off" />
     </FormFrame>
   );
 };
+
+/** A percentage as typed ("7,7", "20 %") to basis points; empty or not a number is NaN, which the schema refuses. */
+const asBasisPoints = { setValueAs: (v: string) => Math.round((parseDecimal(String(v).replace('%', '')) ?? Number.NaN) * 100) };
 
 /** Tax rates in basis points on the wire; a percentage in the form. */
 const TaxRates = ({ data }: { data: PriceListResponse }) => {
@@ -211,8 +189,6 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
     defaultValues: { label: data.taxRates[0]?.label ?? 'VAT', effectiveFrom: data.today },
     fields: ['rateBp', 'label', 'effectiveFrom'],
   });
-  const { register } = form;
-  const errors = form.formState.errors;
   const onSubmit = submit((values) => {
     add.mutate(values, { onSuccess: () => form.reset({ label: values.label, effectiveFrom: data.today }), onError: showProblem });
   });
@@ -242,28 +218,27 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
           </li>
         ))}
       </ul>
-      <form onSubmit={onSubmit} noValidate className="flex flex-wrap items-end gap-3">
-        {message ? (
-          <Alert tone={message.tone} className="w-full">
-            {message.text}
-          </Alert>
-        ) : null}
-        <InputField
+      <FormFrame
+        onSubmit={onSubmit}
+        message={message}
+        pending={add.isPending}
+        submitLabel="Schedule the rate"
+        submitVariant="secondary"
+        actions="inline"
+        className="flex flex-wrap items-end gap-3"
+      >
+        <TextField
+          form={form}
+          name="rateBp"
           label="New rate"
           hint="Per cent; zero is allowed"
-          error={errors.rateBp?.message}
           inputMode="decimal"
           inputClassName="w-28"
-          {...register('rateBp', {
-            setValueAs: (v: string) => (String(v).trim() === '' ? Number.NaN : Math.round(Number(String(v).replace(',', '.').replace('%', '')) * 100)),
-          })}
+          options={asBasisPoints}
         />
-        <InputField label="Label" error={errors.label?.message} inputClassName="w-32" {...register('label')} />
-        <InputField label="From" error={errors.effectiveFrom?.message} type="date" min={data.today} {...register('effectiveFrom')} />
-        <Button type="submit" variant="secondary" pending={add.isPending}>
-          Schedule the rate
-        </Button>
-      </form>
+        <TextField form={form} name="label" label="Label" inputClassName="w-32" />
+        <TextField form={form} name="effectiveFrom" label="From" type="date" min={data.today} />
+      </FormFrame>
     </div>
   );
 };

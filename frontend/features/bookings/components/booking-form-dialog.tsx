@@ -1,14 +1,15 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { Controller } from 'react-hook-form';
 import type { Booking, CreateBookingInput } from '../../../../shared/schemas/booking.ts';
 import { equipmentKindLabels, type Equipment } from '../../../../shared/schemas/equipment.ts';
+import { ChoiceField, TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
+import { useApiForm } from '@/components/form/use-api-form';
 import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { Dialog } from '@/components/ui/dialog';
 import { Field } from '@/components/ui/field';
-import { Input, Select } from '@/components/ui/input';
+import { FormDialog } from '@/components/ui/form-dialog';
+import { Input } from '@/components/ui/input';
 import { createBookingSchema, useCreateBooking } from '@/features/bookings/api/create-booking';
 import { useBookingRules } from '@/features/bookings/api/get-booking-rules';
 import { canOnEvery, useAppAbility } from '@/lib/ability';
@@ -29,6 +30,8 @@ const fromLocalInput = (value: string) => {
   return Number.isNaN(d.getTime()) ? value : d.toISOString();
 };
 
+const bookingFields = ['equipmentId', 'startsAt', 'endsAt', 'notes', 'ownerId'] as const;
+
 export interface BookingDraft {
   equipmentId: string;
   startsAt: string;
@@ -44,14 +47,14 @@ export interface BookingFormDialogProps {
 
 /** The booking form, opened from a free slot on the calendar (react-hook-form + the shared schema). */
 export const BookingFormDialog = ({ draft, items, onClose, onBooked }: BookingFormDialogProps) => (
-  <Dialog
+  <FormDialog
     open={Boolean(draft)}
     onClose={onClose}
     title="Book equipment"
     description="The item stays free for cleaning for the co-op's buffer after your booking."
   >
     {draft ? <BookingForm draft={draft} items={items} onBooked={onBooked} onCancel={onClose} /> : null}
-  </Dialog>
+  </FormDialog>
 );
 
 const BookingForm = ({
@@ -80,9 +83,9 @@ const BookingForm = ({
     enabled: forAnyone,
   });
   const [problem, setProblem] = useState<{ title: string; lines: string[] } | null>(null);
-  const form = useForm<CreateBookingInput>({
-    resolver: zodResolver(createBookingSchema),
+  const { form } = useApiForm<CreateBookingInput>(createBookingSchema, {
     defaultValues: { equipmentId: draft.equipmentId, startsAt: draft.startsAt, endsAt: draft.endsAt, notes: '' },
+    fields: bookingFields,
   });
   const errors = form.formState.errors;
   const selected = items.find((i) => i.id === form.watch('equipmentId'));
@@ -93,7 +96,7 @@ const BookingForm = ({
       const { booking } = await mutation.mutateAsync(values);
       onBooked(booking);
     } catch (error) {
-      const lines = applyProblemToForm(error, form.setError, ['equipmentId', 'startsAt', 'endsAt', 'notes', 'ownerId']);
+      const lines = applyProblemToForm(error, form.setError, bookingFields);
       if (isApiProblem(error) && (error.status === 409 || error.status === 422)) {
         setProblem({ title: error.status === 409 ? 'That slot is taken' : error.title, lines: error.status === 409 ? [error.detail ?? error.title] : lines });
       } else if (lines.length) setProblem({ title: 'The booking was not made', lines });
@@ -101,39 +104,46 @@ const BookingForm = ({
   });
 
   return (
-    <form onSubmit={onSubmit} className="flex flex-col gap-4" noValidate aria-label="Booking">
-      {problem ? (
-        <Alert tone="error" title={problem.title}>
-          {problem.lines.join(' ')}
-        </Alert>
-      ) : null}
-      <Field label="Item" error={errors.equipmentId?.message}>
-        {(c) => (
-          <Select {...c} {...form.register('equipmentId')}>
-            {items.map((i) => (
-              <option key={i.id} value={i.id} disabled={i.state === 'out_of_service'}>
-                {i.code} · {i.name}
-                {i.state === 'out_of_service' ? ' (out of service)' : ''}
+    <FormFrame
+      onSubmit={onSubmit}
+      aria-label="Booking"
+      pending={mutation.isPending}
+      onCancel={onCancel}
+      cancelLabel="Close"
+      submitLabel="Book"
+      intro={
+        problem ? (
+          <Alert tone="error" title={problem.title}>
+            {problem.lines.join(' ')}
+          </Alert>
+        ) : null
+      }
+    >
+      <ChoiceField form={form} name="equipmentId" label="Item">
+        {items.map((i) => (
+          <option key={i.id} value={i.id} disabled={i.state === 'out_of_service'}>
+            {i.code} · {i.name}
+            {i.state === 'out_of_service' ? ' (out of service)' : ''}
+          </option>
+        ))}
+      </ChoiceField>
+      {forAnyone ? (
+        <ChoiceField
+          form={form}
+          name="ownerId"
+          label="For"
+          hint="The member gets the confirmation e-mail."
+          options={{ setValueAs: (v: string) => v || undefined }}
+        >
+          <option value="">{me ? `${me.name} (you)` : 'Yourself'}</option>
+          {members.data?.items
+            .filter((m) => m.id !== me?.id)
+            .map((m) => (
+              <option key={m.id} value={m.id}>
+                {m.name} · {m.email}
               </option>
             ))}
-          </Select>
-        )}
-      </Field>
-      {forAnyone ? (
-        <Field label="For" hint="The member gets the confirmation e-mail." error={errors.ownerId?.message}>
-          {(c) => (
-            <Select {...c} {...form.register('ownerId', { setValueAs: (v: string) => v || undefined })}>
-              <option value="">{me ? `${me.name} (you)` : 'Yourself'}</option>
-              {members.data?.items
-                .filter((m) => m.id !== me?.id)
-                .map((m) => (
-                  <option key={m.id} value={m.id}>
-                    {m.name} · {m.email}
-                  </option>
-                ))}
-            </Select>
-          )}
-        </Field>
+        </ChoiceField>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-2">
         {(['startsAt', 'endsAt'] as const).map((name) => (
@@ -157,9 +167,7 @@ const BookingForm = ({
           />
         ))}
       </div>
-      <Field label="Notes" hint="Optional: the beer, a batch name, anything the brewer on duty should know." error={errors.notes?.message}>
-        {(c) => <Input {...c} {...form.register('notes')} autoComplete="off" />}
-      </Field>
+      <TextField form={form} name="notes" label="Notes" hint="Optional: the beer, a batch name, anything the brewer on duty should know." autoComplete="off" />
       {rules.data && selected ? (
         <p className="text-xs text-ink-muted">
           Co-op rules: a {equipmentKindLabels[selected.kind].toLowerCase()} for at most {rules.data.maxDays[selected.kind]} days, starting within{' '}
@@ -167,14 +175,6 @@ const BookingForm = ({
           cleaning after each booking.
         </p>
       ) : null}
-      <div className="flex justify-end gap-2">
-        <Button variant="ghost" onClick={onCancel}>
-          Close
-        </Button>
-        <Button type="submit" pending={mutation.isPending}>
-          Book
-        </Button>
-      </div>
-    </form>
+    </FormFrame>
   );
 };

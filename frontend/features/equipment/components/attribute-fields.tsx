@@ -2,6 +2,7 @@ import type { UseFormReturn } from 'react-hook-form';
 import { lineMaterials } from '../../../../shared/brewing/index.ts';
 import { lineMaterialLabels } from '../../../../shared/cellar/carbonation-planner.ts';
 import type { EquipmentKind } from '../../../../shared/schemas/equipment.ts';
+import { OptionList } from '@/components/form/bound-fields';
 import { NumberField } from '@/components/form/number-field';
 import { Alert } from '@/components/ui/alert';
 import { InputField, SelectField } from '@/components/ui/field';
@@ -83,11 +84,7 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
           {...form.register('attributes.lineMaterial')}
         >
           <option value="">Not recorded (taken as vinyl)</option>
-          {lineMaterials.map((m) => (
-            <option key={m} value={m}>
-              {lineMaterialLabels[m]}
-            </option>
-          ))}
+          <OptionList values={lineMaterials} labels={lineMaterialLabels} />
         </SelectField>
         <NumberField
           form={form}

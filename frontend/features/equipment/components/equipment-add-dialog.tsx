@@ -8,10 +8,11 @@ import {
   type CreateEquipmentInput,
   type Equipment,
 } from '../../../../shared/schemas/equipment.ts';
+import { OptionList } from '@/components/form/bound-fields';
 import { FormFrame } from '@/components/form/form-frame';
 import { useActionError } from '@/components/form/use-action-error';
-import { Dialog } from '@/components/ui/dialog';
 import { SelectField } from '@/components/ui/field';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { useCreateEquipment, useNextEquipmentCode } from '@/features/equipment/api/create-equipment';
 import { EquipmentRegistryFields } from '@/features/equipment/components/attribute-fields';
 import { applyEquipmentProblem, defaultAttributes, equipmentResolver, kindHasCapacity, type EquipmentFormValues } from '@/features/equipment/equipment-form';
@@ -21,10 +22,9 @@ import { useUnits } from '@/hooks/use-units';
 export const EquipmentAddDialog = ({ open, onClose, onCreated }: { open: boolean; onClose: () => void; onCreated: (item: Equipment) => void }) => {
   const mutation = useCreateEquipment();
   return (
-    <Dialog
+    <FormDialog
       open={open}
       onClose={onClose}
-      busy={mutation.isPending}
       title="Add equipment"
       description="Pick the kind first: the code, the fields and the units follow it. New items start as “Needs cleaning”."
     >
@@ -35,7 +35,7 @@ export const EquipmentAddDialog = ({ open, onClose, onCreated }: { open: boolean
           onClose();
         }}
       />
-    </Dialog>
+    </FormDialog>
   );
 };
 
@@ -85,11 +85,7 @@ const AddForm = ({ mutation, onDone }: { mutation: ReturnType<typeof useCreateEq
           form.clearErrors();
         }}
       >
-        {equipmentKinds.map((k) => (
-          <option key={k} value={k}>
-            {equipmentKindLabels[k]}
-          </option>
-        ))}
+        <OptionList values={equipmentKinds} labels={equipmentKindLabels} />
       </SelectField>
       <EquipmentRegistryFields
         kind={kind}

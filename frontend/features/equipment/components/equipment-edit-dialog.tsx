@@ -4,7 +4,7 @@ import type { z } from 'zod';
 import { attributesSchemaByKind, equipmentKindLabels, updateEquipmentFieldsSchema, type Equipment } from '../../../../shared/schemas/equipment.ts';
 import { FormFrame } from '@/components/form/form-frame';
 import { useActionError } from '@/components/form/use-action-error';
-import { Dialog } from '@/components/ui/dialog';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { useUpdateEquipment } from '@/features/equipment/api/update-equipment';
 import { EquipmentRegistryFields } from '@/features/equipment/components/attribute-fields';
 import { applyEquipmentProblem, equipmentResolver, formValuesOf, type EquipmentFormValues } from '@/features/equipment/equipment-form';
@@ -17,15 +17,14 @@ type EditOutput = z.infer<ReturnType<typeof editSchemaFor>>;
 export const EquipmentEditDialog = ({ item, open, onClose }: { item: Equipment; open: boolean; onClose: () => void }) => {
   const mutation = useUpdateEquipment(item.id);
   return (
-    <Dialog
+    <FormDialog
       open={open}
       onClose={onClose}
-      busy={mutation.isPending}
       title={`Edit ${item.code}`}
       description={`${equipmentKindLabels[item.kind]}: registry details. The kind stays; states change through “Change state”.`}
     >
       <EditForm item={item} mutation={mutation} onDone={onClose} />
-    </Dialog>
+    </FormDialog>
   );
 };
 

@@ -5,10 +5,10 @@ import {
   type Equipment,
   type EquipmentStateChangeInput,
 } from '../../../../shared/schemas/equipment.ts';
+import { ChoiceField, OptionList, TextField } from '@/components/form/bound-fields';
 import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Dialog } from '@/components/ui/dialog';
-import { InputField, SelectField } from '@/components/ui/field';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { useChangeEquipmentState } from '@/features/equipment/api/change-equipment-state';
 
 export interface StateChangeDialogProps {
@@ -18,14 +18,14 @@ export interface StateChangeDialogProps {
 
 /** The brewer on duty sets an item's state and says why; it lands in the item's history. */
 export const StateChangeDialog = ({ item, onClose }: StateChangeDialogProps) => (
-  <Dialog
+  <FormDialog
     open={Boolean(item)}
     onClose={onClose}
     title={item ? `Change the state of ${item.code}` : ''}
     description="Every change is kept in the item's history with who, when and why."
   >
     {item ? <StateChangeForm item={item} onDone={onClose} /> : null}
-  </Dialog>
+  </FormDialog>
 );
 
 const StateChangeForm = ({ item, onDone }: { item: Equipment; onDone: () => void }) => {
@@ -35,22 +35,17 @@ const StateChangeForm = ({ item, onDone }: { item: Equipment; onDone: () => void
     fields: ['state', 'reason'],
   });
   const onSubmit = submit((values) => mutation.mutateAsync(values).then(onDone, showProblem));
-  const errors = form.formState.errors;
   return (
     <FormFrame onSubmit={onSubmit} message={message} pending={mutation.isPending} submitLabel="Save state">
       <p className="text-sm text-ink-muted">Now: {vesselStateLabels[item.state]}</p>
-      <SelectField label="New state" error={errors.state?.message} {...form.register('state')}>
-        {vesselStates.map((s) => (
-          <option key={s} value={s} disabled={s === item.state}>
-            {vesselStateLabels[s]}
-          </option>
-        ))}
-      </SelectField>
-      <InputField
+      <ChoiceField form={form} name="state" label="New state">
+        <OptionList values={vesselStates} labels={vesselStateLabels} disabled={(s) => s === item.state} />
+      </ChoiceField>
+      <TextField
+        form={form}
+        name="reason"
         label="Why"
         hint="For example: “Soaked in alkaline cleaner and rinsed” or “Relief valve sticks”."
-        error={errors.reason?.message}
-        {...form.register('reason')}
         autoComplete="off"
       />
     </FormFrame>

@@ -7,12 +7,15 @@ import {
   type SanitationSettings,
 } from '../../../../shared/schemas/cellar-settings.ts';
 import { NumberField } from '@/components/form/number-field';
+import { UnitNumberField } from '@/components/form/unit-number-input';
 import { Alert } from '@/components/ui/alert';
 import { InputField, SelectField } from '@/components/ui/field';
 import { Checkbox } from '@/components/ui/input';
 import { Cautions } from '@/components/safety/cautions';
 import { AddRowButton, RemoveRowButton, SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
+import { useUnits } from '@/hooks/use-units';
+import type { Quantity } from '@/lib/units';
 
 const wholeNumber = { type: 'number', min: 0, step: 1 } as const;
 const anyNumber = { type: 'number', step: 'any' } as const;
@@ -110,6 +113,21 @@ const SanitationForm = ({ value, canEdit }: SettingFormProps<SanitationSettings>
 /** Settings: the sanitation rules (chemical list, minimum contact times, freshness window). */
 export const SanitationSettingsSection = settingSection('sanitation', 'the sanitation rules', SanitationForm);
 
+/**
+ * The carbonation defaults' number boxes, in order: quantities in the person's units (bar or psi, °C or °F,
+ * m or ft), counts as they are. The faucet allowance is in kPa for everyone, as the taps' line resistance is.
+ */
+const carbonationNumbers: { name: Exclude<keyof CarbonationSettings, 'stylePresets'>; label: string; hint?: string; kind?: Quantity }[] = [
+  { name: 'coldRoomTempC', label: 'Cold room', kind: 'temperature' },
+  { name: 'altitudeM', label: 'Altitude', hint: 'Gauges read against the local air pressure.', kind: 'length' },
+  { name: 'maxPlanPressureKpa', label: 'Highest regulator setting', hint: 'Below every keg’s and regulator’s rating.', kind: 'pressure' },
+  { name: 'holdDays', label: 'Set and hold (days)' },
+  { name: 'fastStartPressureKpa', label: 'Fast-start pressure', kind: 'pressure' },
+  { name: 'fastStartHours', label: 'Fast-start time (hours)' },
+  { name: 'settleDays', label: 'Days at serving pressure after a fast start' },
+  { name: 'lineFixedKpa', label: 'Faucet and coupler allowance (kPa)' },
+];
+
 const CarbonationForm = ({ value, canEdit }: SettingFormProps<CarbonationSettings>) => {
   const setting = useSettingForm<CarbonationSettings>('carbonation', carbonationSettingsSchema, value, {
     savedText: 'Carbonation defaults saved.',
@@ -118,22 +136,17 @@ const CarbonationForm = ({ value, canEdit }: SettingFormProps<CarbonationSetting
   const { form } = setting;
   const presets = useFieldArray({ control: form.control, name: 'stylePresets' });
   const e = form.formState.errors;
-  const fields: [Exclude<keyof CarbonationSettings, 'stylePresets'>, string, string?][] = [
-    ['coldRoomTempC', 'Cold room (°C)'],
-    ['altitudeM', 'Altitude (m)', 'Gauges read against the local air pressure.'],
-    ['maxPlanPressureKpa', 'Highest regulator setting (kPa)', 'Below every keg’s and regulator’s rating.'],
-    ['holdDays', 'Set and hold (days)'],
-    ['fastStartPressureKpa', 'Fast-start pressure (kPa)'],
-    ['fastStartHours', 'Fast-start time (hours)'],
-    ['settleDays', 'Days at serving pressure after a fast start'],
-    ['lineFixedKpa', 'Faucet and coupler allowance (kPa)'],
-  ];
+  const { labels } = useUnits();
   return (
     <SettingFormFrame setting={setting} label="Carbonation defaults" canEdit={canEdit} submitLabel="Save carbonation defaults">
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-        {fields.map(([key, label, hint]) => (
-          <NumberField key={key} form={form} name={key} label={label} hint={hint} {...anyNumber} />
-        ))}
+        {carbonationNumbers.map(({ name, label, hint, kind }) =>
+          kind ? (
+            <UnitNumberField key={name} control={form.control} name={name} kind={kind} apiDigits={2} label={`${label} (${labels[kind]})`} hint={hint} />
+          ) : (
+            <NumberField key={name} form={form} name={name} label={label} hint={hint} {...anyNumber} />
+          ),
+        )}
       </fieldset>
       <fieldset disabled={!canEdit} className="flex flex-col gap-2">
         <legend className="mb-1 text-sm font-medium">CO2 volumes by style family</legend>

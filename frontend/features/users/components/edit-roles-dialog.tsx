@@ -1,15 +1,11 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useEffect, useState } from 'react';
-import { useForm } from 'react-hook-form';
 import { roleLabels, roles as roleOrder } from '../../../../shared/permissions/roles.ts';
 import type { User, UserRolesInput } from '../../../../shared/schemas/user.ts';
-import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { Dialog, DialogActions } from '@/components/ui/dialog';
+import { FormFrame } from '@/components/form/form-frame';
+import { useApiForm } from '@/components/form/use-api-form';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { useNotice } from '@/components/ui/notice';
 import { useUpdateUser, userRolesSchema } from '@/features/users/api/update-user';
 import { RoleCheckboxes } from '@/features/users/components/role-checkboxes';
-import { applyProblemToForm } from '@/utils/problem-form';
 
 export interface EditRolesDialogProps {
   user: User | null;
@@ -22,26 +18,17 @@ interface EditRolesFormProps {
   user: User;
   isSelf: boolean;
   onClose: () => void;
-  onBusy: (busy: boolean) => void;
 }
 
-const EditRolesForm = ({ user, isSelf, onClose, onBusy }: EditRolesFormProps) => {
+const EditRolesForm = ({ user, isSelf, onClose }: EditRolesFormProps) => {
   const update = useUpdateUser();
   const notice = useNotice();
-  const [formError, setFormError] = useState<string | null>(null);
-  useEffect(() => onBusy(update.isPending), [update.isPending, onBusy]);
-  const {
-    register,
-    handleSubmit,
-    setError,
-    formState: { errors, isDirty },
-  } = useForm<UserRolesInput>({
-    resolver: zodResolver(userRolesSchema),
+  const { form, message, showProblem, submit } = useApiForm<UserRolesInput>(userRolesSchema, {
     defaultValues: { roles: roleOrder.filter((role) => user.roles.includes(role)) },
+    fields: ['roles'],
   });
 
-  const onSubmit = handleSubmit(({ roles }) => {
-    setFormError(null);
+  const onSubmit = submit(({ roles }) => {
     // A disabled checkbox is left out of the form's values: keep your own admin role.
     const next = isSelf && user.roles.includes('admin') && !roles.includes('admin') ? [...roles, 'admin' as const] : roles;
     update.mutate(
@@ -51,41 +38,32 @@ const EditRolesForm = ({ user, isSelf, onClose, onBusy }: EditRolesFormProps) =>
           notice.show({ title: 'Roles saved', text: `${user.name} is now ${next.map((role) => roleLabels[role]).join(', ') || 'without a role'}.` });
           onClose();
         },
-        onError: (error) => {
-          const rest = applyProblemToForm(error, setError, ['roles']);
-          if (rest.length) setFormError(rest.join(' '));
-        },
+        onError: showProblem,
       },
     );
   });
 
   const lockedAdmin = isSelf && user.roles.includes('admin');
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      {formError ? <Alert tone="error">{formError}</Alert> : null}
+    <FormFrame
+      onSubmit={onSubmit}
+      message={message}
+      pending={update.isPending}
+      onCancel={onClose}
+      submitLabel="Save roles"
+      submitDisabled={!form.formState.isDirty}
+    >
       <RoleCheckboxes
-        registration={register('roles')}
-        error={errors.roles?.message ?? errors.roles?.root?.message}
+        form={form}
         locked={lockedAdmin ? ['admin'] : []}
         lockedHint="Your own admin role: another admin has to remove it, so the co-op is never left without one."
       />
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={update.isPending}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={update.isPending} disabled={!isDirty}>
-          Save roles
-        </Button>
-      </DialogActions>
-    </form>
+    </FormFrame>
   );
 };
 
-export const EditRolesDialog = ({ user, currentUserId, onClose }: EditRolesDialogProps) => {
-  const [busy, setBusy] = useState(false);
-  return (
-    <Dialog open={user !== null} onClose={onClose} busy={busy} title={user ? `Roles of ${user.name}` : 'Roles'} description={user?.email}>
-      {user ? <EditRolesForm user={user} isSelf={user.id === currentUserId} onClose={onClose} onBusy={setBusy} /> : null}
-    </Dialog>
-  );
-};
+export const EditRolesDialog = ({ user, currentUserId, onClose }: EditRolesDialogProps) => (
+  <FormDialog open={user !== null} onClose={onClose} title={user ? `Roles of ${user.name}` : 'Roles'} description={user?.email}>
+    {user ? <EditRolesForm user={user} isSelf={user.id === currentUserId} onClose={onClose} /> : null}
+  </FormDialog>
+);

@@ -1,9 +1,8 @@
-import { useEffect, useState } from 'react';
 import type { InviteUserInput, User } from '../../../../shared/schemas/user.ts';
+import { TextField } from '@/components/form/bound-fields';
+import { FormFrame } from '@/components/form/form-frame';
 import { useApiForm } from '@/components/form/use-api-form';
-import { Button } from '@/components/ui/button';
-import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { EmailField, FormMessageAlert, InputField } from '@/components/ui/field';
+import { FormDialog } from '@/components/ui/form-dialog';
 import { inviteUserSchema, useInviteUser } from '@/features/users/api/invite-user';
 import { RoleCheckboxes } from '@/features/users/components/role-checkboxes';
 import { isApiProblem } from '@/lib/api-client';
@@ -14,28 +13,19 @@ export interface InviteUserDialogProps {
   onInvited: (user: User) => void;
 }
 
-type InviteUserFormProps = Omit<InviteUserDialogProps, 'open'> & { onBusy: (busy: boolean) => void };
-
-const InviteUserForm = ({ onClose, onInvited, onBusy }: InviteUserFormProps) => {
+const InviteUserForm = ({ onClose, onInvited }: Omit<InviteUserDialogProps, 'open'>) => {
   const invite = useInviteUser();
-  useEffect(() => onBusy(invite.isPending), [invite.isPending, onBusy]);
   const { form, message, showProblem, submit } = useApiForm<InviteUserInput>(inviteUserSchema, {
     defaultValues: { email: '', name: '', roles: ['member'] },
     fields: ['email', 'name', 'roles'],
   });
-  const {
-    register,
-    setError,
-    formState: { errors },
-  } = form;
-
   const onSubmit = submit((values) => {
     invite.mutate(values, {
       onSuccess: ({ user }) => onInvited(user),
       onError: (error) => {
         // 409: the address already has an account; that belongs next to the e-mail box.
         if (isApiProblem(error) && error.status === 409 && error.errors.length === 0) {
-          return setError('email', { type: 'server', message: error.detail ?? error.title }, { shouldFocus: true });
+          return form.setError('email', { type: 'server', message: error.detail ?? error.title }, { shouldFocus: true });
         }
         showProblem(error);
       },
@@ -43,34 +33,16 @@ const InviteUserForm = ({ onClose, onInvited, onBusy }: InviteUserFormProps) => 
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-      <FormMessageAlert message={message} />
-      <EmailField error={errors.email?.message} autoComplete="off" autoFocus {...register('email')} />
-      <InputField label="Name" hint="They can change it when they accept." error={errors.name?.message} autoComplete="off" {...register('name')} />
-      <RoleCheckboxes registration={register('roles')} error={errors.roles?.message ?? errors.roles?.root?.message} />
-      <DialogActions>
-        <Button variant="secondary" onClick={onClose} disabled={invite.isPending}>
-          Cancel
-        </Button>
-        <Button type="submit" pending={invite.isPending}>
-          Send the invitation
-        </Button>
-      </DialogActions>
-    </form>
+    <FormFrame onSubmit={onSubmit} message={message} pending={invite.isPending} onCancel={onClose} submitLabel="Send the invitation">
+      <TextField form={form} name="email" kind="email" label="E-mail" autoComplete="off" autoFocus />
+      <TextField form={form} name="name" label="Name" hint="They can change it when they accept." autoComplete="off" />
+      <RoleCheckboxes form={form} />
+    </FormFrame>
   );
 };
 
-export const InviteUserDialog = ({ open, onClose, onInvited }: InviteUserDialogProps) => {
-  const [busy, setBusy] = useState(false);
-  return (
-    <Dialog
-      open={open}
-      onClose={onClose}
-      busy={busy}
-      title="Invite someone"
-      description="They get an e-mail with a link to choose a password. The link works once."
-    >
-      <InviteUserForm onClose={onClose} onInvited={onInvited} onBusy={setBusy} />
-    </Dialog>
-  );
-};
+export const InviteUserDialog = ({ open, onClose, onInvited }: InviteUserDialogProps) => (
+  <FormDialog open={open} onClose={onClose} title="Invite someone" description="They get an e-mail with a link to choose a password. The link works once.">
+    <InviteUserForm onClose={onClose} onInvited={onInvited} />
+  </FormDialog>
+);

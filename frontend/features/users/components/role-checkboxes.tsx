@@ -1,5 +1,6 @@
-import type { UseFormRegisterReturn } from 'react-hook-form';
+import type { FieldValues, Path } from 'react-hook-form';
 import { roleLabels, roles, type Role } from '../../../../shared/permissions/roles.ts';
+import { fieldError, type AnyForm } from '@/components/form/bound-fields';
 import { FieldSet } from '@/components/ui/field';
 import { Checkbox } from '@/components/ui/input';
 
@@ -10,26 +11,30 @@ export const roleDescriptions: Record<Role, string> = {
   admin: 'Manages people and roles, the equipment registry and settings. Can do everything.',
 };
 
-export interface RoleCheckboxesProps {
-  registration: UseFormRegisterReturn;
-  error?: string | undefined;
+export interface RoleCheckboxesProps<T extends FieldValues & { roles: Role[] }> {
+  /** A form with a `roles` field. */
+  form: AnyForm<T>;
   /** Roles that cannot be switched here (e.g. your own admin role). */
   locked?: readonly Role[];
   lockedHint?: string;
 }
 
 /** The four roles as a checkbox group; react-hook-form collects the checked values as an array. */
-export const RoleCheckboxes = ({ registration, error, locked = [], lockedHint }: RoleCheckboxesProps) => (
-  <FieldSet legend="Roles" hint="A person may hold several." error={error}>
-    {roles.map((role) => (
-      <Checkbox
-        key={role}
-        value={role}
-        label={roleLabels[role]}
-        description={locked.includes(role) && lockedHint ? lockedHint : roleDescriptions[role]}
-        disabled={locked.includes(role)}
-        {...registration}
-      />
-    ))}
-  </FieldSet>
-);
+export const RoleCheckboxes = <T extends FieldValues & { roles: Role[] }>({ form, locked = [], lockedHint }: RoleCheckboxesProps<T>) => {
+  const name = 'roles' as Path<T>;
+  const registration = form.register(name);
+  return (
+    <FieldSet legend="Roles" hint="A person may hold several." error={fieldError(form, name)}>
+      {roles.map((role) => (
+        <Checkbox
+          key={role}
+          value={role}
+          label={roleLabels[role]}
+          description={locked.includes(role) && lockedHint ? lockedHint : roleDescriptions[role]}
+          disabled={locked.includes(role)}
+          {...registration}
+        />
+      ))}
+    </FieldSet>
+  );
+};
