@@ -4,6 +4,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button, type ButtonVariant } from '@/components/ui/button';
 import { DialogActions } from '@/components/ui/dialog';
 import { useReportBusy } from '@/components/ui/form-dialog';
+import { cn } from '@/utils/cn';
 
 export interface FormFrameProps {
   onSubmit: FormEventHandler<HTMLFormElement>;
@@ -30,8 +31,10 @@ export interface FormFrameProps {
   readOnlyNote?: ReactNode;
   /** The browser's own checks (`required`) only when told; the shared schema checks otherwise. */
   browserValidation?: boolean;
-  /** The form's layout classes, in place of a column with a gap of 4. */
+  /** The form's layout classes, in place of a column with a gap of 4 (with `panel`, added to the box's). */
   className?: string;
+  /** A form standing on its own on a page: a bordered box, its buttons at the start under the fields. */
+  panel?: boolean;
   'aria-label'?: string;
   /** What stands above the form's message: a heading, a line of help. */
   intro?: ReactNode;
@@ -53,7 +56,8 @@ export const FormFrame = ({
   submitVariant,
   onCancel,
   cancelLabel = 'Cancel',
-  actions = 'end',
+  panel = false,
+  actions = panel ? 'start' : 'end',
   readOnlyNote,
   browserValidation = false,
   className,
@@ -69,7 +73,12 @@ export const FormFrame = ({
     </Button>
   ) : null;
   return (
-    <form onSubmit={onSubmit} noValidate={!browserValidation} className={className ?? 'flex flex-col gap-4'} aria-label={label}>
+    <form
+      onSubmit={onSubmit}
+      noValidate={!browserValidation}
+      className={panel ? cn('flex flex-col gap-3 rounded-md border border-line bg-surface p-4', className) : (className ?? 'flex flex-col gap-4')}
+      aria-label={label}
+    >
       {intro}
       {shown ? (
         <Alert tone={shown.tone} className={actions === 'inline' ? 'w-full' : undefined}>

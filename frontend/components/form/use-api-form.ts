@@ -54,5 +54,20 @@ export function useApiForm<T extends FieldValues>(schema: z.ZodType<T>, { defaul
       ),
     [form],
   );
-  return { form, message, setMessage, showError, showProblem, submit };
+  /**
+   * The `FormFrame` wiring of a form that sends one request: on a valid submit `send(values)` runs (a
+   * mutation's `mutateAsync` and what follows it); if it fails, the problem lands on the form.
+   */
+  const frame = (send: (values: T) => Promise<unknown>, pending: boolean) => ({
+    onSubmit: submit(async (values) => {
+      try {
+        await send(values);
+      } catch (error) {
+        showProblem(error);
+      }
+    }),
+    message,
+    pending,
+  });
+  return { form, message, setMessage, showError, showProblem, submit, frame };
 }

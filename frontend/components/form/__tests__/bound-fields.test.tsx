@@ -125,3 +125,57 @@ describe('ProblemAlert', () => {
     expect(alert.textContent).toContain('Already withdrawn.');
   });
 });
+
+describe('FormFrame panel', () => {
+  it('stands in a bordered box with its button under the fields', () => {
+    renderSignedIn(
+      <FormFrame onSubmit={() => undefined} submitLabel="Save" panel className="max-w-3xl" aria-label="Profile">
+        <input aria-label="Name" />
+      </FormFrame>,
+    );
+    const form = screen.getByRole('form', { name: 'Profile' });
+    expect(form.className).toContain('border');
+    expect(form.className).toContain('max-w-3xl');
+    expect(screen.getByRole('button', { name: 'Save' }).parentElement?.parentElement).toBe(form);
+  });
+});
+
+describe('useApiForm frame', () => {
+  const Sender = ({ send }: { send: (values: { reason: string }) => Promise<unknown> }) => {
+    const { form, frame } = useApiForm<{ reason: string }>(z.object({ reason: z.string().min(1, 'Say why') }), {
+      defaultValues: { reason: '' },
+      fields: ['reason'],
+    });
+    return (
+      <FormFrame {...frame(send, false)} submitLabel="Send">
+        <TextField form={form} name="reason" label="Reason" />
+      </FormFrame>
+    );
+  };
+
+  it('sends a valid form once, and puts a failed request’s problem on the fields it names and above them', async () => {
+    const send = vi.fn(() =>
+      Promise.reject(
+        new ApiProblem({
+          status: 422,
+          title: 'Validation failed',
+          detail: 'Not saved.',
+          errors: [
+            { path: 'reason', message: 'Too vague.' },
+            { path: 'other', message: 'Closed month.' },
+          ],
+        }),
+      ),
+    );
+    renderSignedIn(<Sender send={send} />);
+    fireEvent.click(screen.getByRole('button', { name: 'Send' }));
+    expect(await screen.findByText('Say why')).toBeTruthy();
+    expect(send).not.toHaveBeenCalled();
+    fireEvent.change(screen.getByLabelText('Reason'), { target: { value: 'soaked' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Send' }));
+    expect(await screen.findByText('Too vague.')).toBeTruthy();
+    expect(screen.getByRole('alert').textContent).toContain('Closed month.');
+    expect(send).toHaveBeenCalledTimes(1);
+    expect(send).toHaveBeenCalledWith({ reason: 'soaked' });
+  });
+});

@@ -20,30 +20,23 @@ export interface ProfileFormProps {
 
 export const ProfileForm = ({ user }: ProfileFormProps) => {
   const update = useUpdateMe();
-  const { form, message, showProblem, submit } = useApiForm<ProfileFormValues>(profileFormSchema, {
+  const { form, frame } = useApiForm<ProfileFormValues>(profileFormSchema, {
     defaultValues: { name: user.name, units: user.units },
     fields: ['name', 'units'],
   });
   const { register } = form;
   const { errors, isDirty } = form.formState;
 
-  const onSubmit = submit((values) => {
+  const send = async (values: ProfileFormValues) => {
     const body: { name?: string; units?: SessionUser['units'] } = {};
     if (values.name !== user.name) body.name = values.name;
     if (values.units !== user.units) body.units = values.units;
-    update.mutate(body, { onSuccess: ({ user: saved }) => form.reset({ name: saved.name, units: saved.units }), onError: showProblem });
-  });
+    const { user: saved } = await update.mutateAsync(body);
+    form.reset({ name: saved.name, units: saved.units });
+  };
 
   return (
-    <FormFrame
-      onSubmit={onSubmit}
-      message={message}
-      pending={update.isPending}
-      submitLabel="Save"
-      submitDisabled={!isDirty}
-      actions="start"
-      className="flex max-w-md flex-col gap-5"
-    >
+    <FormFrame {...frame(send, update.isPending)} submitLabel="Save" submitDisabled={!isDirty} actions="start" className="flex max-w-md flex-col gap-5">
       {update.isSuccess && !isDirty ? <Alert tone="success">Saved.</Alert> : null}
       <InputField label="Name" error={errors.name?.message} autoComplete="name" {...register('name')} />
       <FieldSet

@@ -1,8 +1,7 @@
-import { useFieldArray } from 'react-hook-form';
 import { shelfLifeSettingsSchema, type ShelfLifeSettings } from '../../../../shared/cellar/trace.ts';
+import { TextField } from '@/components/form/bound-fields';
 import { NumberField } from '@/components/form/number-field';
-import { InputField } from '@/components/ui/field';
-import { AddRowButton, RemoveRowButton, SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
+import { SettingFormFrame, SettingRows, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 
 const ShelfLifeSettingsForm = ({ value, canEdit }: SettingFormProps<ShelfLifeSettings>) => {
@@ -11,8 +10,6 @@ const ShelfLifeSettingsForm = ({ value, canEdit }: SettingFormProps<ShelfLifeSet
     fields: ['defaultDays', 'nearDays'],
   });
   const { form } = setting;
-  const styles = useFieldArray({ control: form.control, name: 'byStyle' });
-  const errors = form.formState.errors;
   return (
     <SettingFormFrame setting={setting} label="Shelf life" canEdit={canEdit} submitLabel="Save the shelf life">
       <fieldset disabled={!canEdit} className="flex flex-col gap-4">
@@ -34,16 +31,15 @@ const ShelfLifeSettingsForm = ({ value, canEdit }: SettingFormProps<ShelfLifeSet
         </div>
         <div className="flex flex-col gap-2">
           <p className="text-sm font-medium">By style (the first whose name appears in a batch’s style applies; a batch may set its own)</p>
-          {styles.fields.map((f, i) => (
-            <div key={f.id} className="flex flex-wrap items-end gap-2">
-              <InputField label="Style" error={errors.byStyle?.[i]?.style?.message} inputClassName="w-56" {...form.register(`byStyle.${i}.style`)} />
-              <NumberField form={form} name={`byStyle.${i}.days`} label="Days" inputMode="numeric" inputClassName="w-24" />
-              <RemoveRowButton canEdit={canEdit} onClick={() => styles.remove(i)} />
-            </div>
-          ))}
-          <AddRowButton canEdit={canEdit} onClick={() => styles.append({ style: '', days: value.defaultDays })}>
-            Add a style
-          </AddRowButton>
+          <SettingRows form={form} name="byStyle" canEdit={canEdit} newRow={() => ({ style: '', days: value.defaultDays })} addLabel="Add a style">
+            {({ index, field, remove }) => (
+              <div key={field.id} className="flex flex-wrap items-end gap-2">
+                <TextField form={form} name={`byStyle.${index}.style`} label="Style" inputClassName="w-56" />
+                <NumberField form={form} name={`byStyle.${index}.days`} label="Days" inputMode="numeric" inputClassName="w-24" />
+                {remove}
+              </div>
+            )}
+          </SettingRows>
         </div>
       </fieldset>
     </SettingFormFrame>

@@ -25,25 +25,16 @@ type ProfileForm = z.infer<typeof profileFormSchema>;
 /** The invoice's header and "how to pay": the co-op's name and address, terms, the bank account. */
 export const BillingProfileForm = ({ profile }: { profile: BillingProfile }) => {
   const save = useSaveBillingProfile();
-  const { form, message, setMessage, showProblem, submit } = useApiForm<ProfileForm>(profileFormSchema, {
+  const { form, setMessage, frame } = useApiForm<ProfileForm>(profileFormSchema, {
     defaultValues: { ...profile, address: profile.addressLines.join('\n') },
     fields: ['coopName', 'email', 'currency', 'paymentTermsDays', 'bankAccountName', 'bankAccount', 'paymentNote'],
   });
-  const onSubmit = submit(({ address, ...rest }) => {
-    save.mutate(
-      { ...rest, addressLines: linesOf(address) },
-      { onSuccess: () => setMessage({ tone: 'success', text: 'Saved. New PDFs and e-mails use it.' }), onError: showProblem },
-    );
-  });
+  const send = async ({ address, ...rest }: ProfileForm) => {
+    await save.mutateAsync({ ...rest, addressLines: linesOf(address) });
+    setMessage({ tone: 'success', text: 'Saved. New PDFs and e-mails use it.' });
+  };
   return (
-    <FormFrame
-      onSubmit={onSubmit}
-      message={message}
-      pending={save.isPending}
-      submitLabel="Save"
-      actions="start"
-      className="flex max-w-3xl flex-col gap-3 rounded-md border border-line bg-surface p-4"
-    >
+    <FormFrame {...frame(send, save.isPending)} submitLabel="Save" panel className="max-w-3xl">
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField form={form} name="coopName" label="Co-op name" />
         <TextField form={form} name="email" label="Billing e-mail" type="email" />

@@ -17,13 +17,12 @@ interface Props {
 const ChargeForm = ({ period, currency, onClose }: Omit<Props, 'open'>) => {
   const add = useAddManualCharge();
   const members = useBillableMembers();
-  const { form, message, showProblem, submit } = useApiForm<ManualChargeInput>(manualChargeInputSchema, {
+  const { form, frame } = useApiForm<ManualChargeInput>(manualChargeInputSchema, {
     defaultValues: { memberId: '', period, description: '', reason: '', taxable: true },
     fields: ['memberId', 'period', 'description', 'reason', 'amountCents', 'taxable'],
   });
-  const onSubmit = submit((values) => add.mutate(values, { onSuccess: onClose, onError: showProblem }));
   return (
-    <FormFrame onSubmit={onSubmit} message={message} pending={add.isPending} onCancel={onClose} submitLabel="Add">
+    <FormFrame {...frame((values) => add.mutateAsync(values).then(onClose), add.isPending)} onCancel={onClose} submitLabel="Add">
       <ChoiceField form={form} name="memberId" label="Member" autoFocus>
         <option value="">Pick a member…</option>
         {(members.data ?? []).map((m) => (

@@ -42,27 +42,24 @@ const moneyHint = (currency: string) => `In ${currency}, e.g. 12.50`;
 const PaymentForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const record = useRecordPayment(invoice.id);
   const notice = useNotice();
-  const { form, message, showProblem, submit } = useApiForm<PaymentInput>(paymentInputSchema, {
+  const { form, frame } = useApiForm<PaymentInput>(paymentInputSchema, {
     defaultValues: { method: 'bank_transfer', receivedOn: today(), reference: '', note: '' },
     fields: ['amountCents', 'method', 'receivedOn', 'reference', 'note'],
   });
-  const onSubmit = submit((values) => {
-    record.mutate(values, {
-      onSuccess: ({ payment, invoice: after }) => {
-        notice.show({
-          title: 'Payment recorded',
-          text:
-            after.amountDueCents > 0
-              ? `${money(payment.amountCents, after.currency)} from ${after.memberName} on ${after.number}; ${money(after.amountDueCents, after.currency)} is still due.`
-              : `${money(payment.amountCents, after.currency)} from ${after.memberName}; ${after.number} is paid.`,
-        });
-        onClose();
-      },
-      onError: showProblem,
+  const send = async (values: PaymentInput) => {
+    const { payment, invoice: after } = await record.mutateAsync(values);
+    const paid = `${money(payment.amountCents, after.currency)} from ${after.memberName}`;
+    notice.show({
+      title: 'Payment recorded',
+      text:
+        after.amountDueCents > 0
+          ? `${paid} on ${after.number}; ${money(after.amountDueCents, after.currency)} is still due.`
+          : `${paid}; ${after.number} is paid.`,
     });
-  });
+    onClose();
+  };
   return (
-    <FormFrame onSubmit={onSubmit} message={message} pending={record.isPending} onCancel={onClose} submitLabel="Record payment">
+    <FormFrame {...frame(send, record.isPending)} onCancel={onClose} submitLabel="Record payment">
       <p className="text-sm text-ink-muted">Still to pay: {money(invoice.amountDueCents, invoice.currency)}. A smaller amount is recorded as a part payment.</p>
       <MoneyField
         form={form}
@@ -101,7 +98,7 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const refund = useRefundInvoice(invoice.id);
   const notice = useNotice();
   const creditable = invoice.totalCents - invoice.creditedCents;
-  const { form, message, showProblem, submit } = useApiForm<RefundInput>(refundInputSchema, {
+  const { form, frame } = useApiForm<RefundInput>(refundInputSchema, {
     defaultValues: { reason: '', refundMethod: null },
     fields: ['amountCents', 'reason', 'refundMethod'],
   });
@@ -110,31 +107,17 @@ const RefundForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const amount = form.watch('amountCents');
   const rate = invoiceRate(invoice);
   const split = Number.isFinite(amount) && amount > 0 && rate !== null ? splitGross(amount, rate) : null;
-  const onSubmit = submit((values) => {
-    refund.mutate(
-      { ...values, refundMethod: paidBack === 'no' ? null : paidBack },
-      {
-        onSuccess: ({ creditNoteId, invoice: after }) => {
-          const note = after.creditNotes.find((n) => n.id === creditNoteId);
-          notice.show({
-            title: `Credit note ${note?.number ?? ''} issued`.replace('  ', ' '),
-            text: `${money(values.amountCents, after.currency)} credited on ${after.number}${paidBack === 'no' ? '' : ', recorded as paid back'}. Its PDF is listed under Credit notes.`,
-          });
-          onClose();
-        },
-        onError: showProblem,
-      },
-    );
-  });
+  const send = async (values: RefundInput) => {
+    const { creditNoteId, invoice: after } = await refund.mutateAsync({ ...values, refundMethod: paidBack === 'no' ? null : paidBack });
+    const note = after.creditNotes.find((n) => n.id === creditNoteId);
+    notice.show({
+      title: `Credit note ${note?.number ?? ''} issued`.replace('  ', ' '),
+      text: `${money(values.amountCents, after.currency)} credited on ${after.number}${paidBack === 'no' ? '' : ', recorded as paid back'}. Its PDF is listed under Credit notes.`,
+    });
+    onClose();
+  };
   return (
-    <FormFrame
-      onSubmit={onSubmit}
-      message={message}
-      pending={refund.isPending}
-      onCancel={onClose}
-      submitLabel="Issue the credit note"
-      submitDisabled={rate === null}
-    >
+    <FormFrame {...frame(send, refund.isPending)} onCancel={onClose} submitLabel="Issue the credit note" submitDisabled={rate === null}>
       {rate === null ? <Alert tone="info">This invoice has lines at several tax rates; void it instead of crediting part of it.</Alert> : null}
       <MoneyField
         form={form}
@@ -194,29 +177,23 @@ export const RefundDialog = ({ invoice, open, onClose }: DialogBaseProps) => (
 const VoidForm = ({ invoice, onClose }: Omit<DialogBaseProps, 'open'>) => {
   const voidIt = useVoidInvoice(invoice.id);
   const notice = useNotice();
-  const { form, message, showProblem, submit } = useApiForm<VoidInvoiceInput>(voidInvoiceSchema, {
+  const { form, frame } = useApiForm<VoidInvoiceInput>(voidInvoiceSchema, {
     defaultValues: { reason: '', refundMethod: null },
     fields: ['reason', 'refundMethod'],
   });
-  const onSubmit = submit((values) => {
-    voidIt.mutate(values, {
-      onSuccess: ({ creditNoteId, invoice: after }) => {
-        const note = after.creditNotes.find((n) => n.id === creditNoteId);
-        notice.show({
-          title: creditNoteId ? `${after.number} voided` : 'Draft voided',
-          text: creditNoteId
-            ? `Credit note ${note?.number ?? ''} replaces it; its PDF is listed under Credit notes.`
-            : 'The draft is void; nothing was issued.',
-        });
-        onClose();
-      },
-      onError: showProblem,
+  const send = async (values: VoidInvoiceInput) => {
+    const { creditNoteId, invoice: after } = await voidIt.mutateAsync(values);
+    const note = after.creditNotes.find((n) => n.id === creditNoteId);
+    notice.show({
+      title: creditNoteId ? `${after.number} voided` : 'Draft voided',
+      text: creditNoteId ? `Credit note ${note?.number ?? ''} replaces it; its PDF is listed under Credit notes.` : 'The draft is void; nothing was issued.',
     });
-  });
+    onClose();
+  };
   const draft = invoice.status === 'draft';
   const submitLabel = draft ? 'Void the draft' : 'Void and issue the credit note';
   return (
-    <FormFrame onSubmit={onSubmit} message={message} pending={voidIt.isPending} onCancel={onClose} cancelLabel="Keep the invoice" submitLabel={submitLabel}>
+    <FormFrame {...frame(send, voidIt.isPending)} onCancel={onClose} cancelLabel="Keep the invoice" submitLabel={submitLabel}>
       <p className="text-sm">
         {draft
           ? 'This draft was never issued, so no credit note is needed. Its charges stay billed to this period; correct them with a manual charge or credit on a later period.'

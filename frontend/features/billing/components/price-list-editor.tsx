@@ -131,31 +131,21 @@ const PriceTable = ({ data }: { data: PriceListResponse }) => {
 
 const AddPriceForm = ({ data }: { data: PriceListResponse }) => {
   const add = useAddPrice();
-  const { form, message, setMessage, showProblem, submit } = useApiForm<PriceInput>(priceInputSchema, {
+  const { form, setMessage, frame } = useApiForm<PriceInput>(priceInputSchema, {
     defaultValues: { item: 'fermenter_day', bandMaxLiters: 60, effectiveFrom: data.today, note: '' },
     fields: ['item', 'bandMaxLiters', 'unitCents', 'effectiveFrom', 'note'],
   });
   const item = form.watch('item');
-  const onSubmit = submit((values) => {
-    add.mutate(
-      { ...values, bandMaxLiters: values.item === 'fermenter_day' ? values.bandMaxLiters : null },
-      {
-        onSuccess: ({ price }) => {
-          setMessage({ tone: 'success', text: `${itemLabel(price)}: new price from ${longDate(price.effectiveFrom)}.` });
-          form.reset({ item: values.item, bandMaxLiters: values.bandMaxLiters, effectiveFrom: data.today, note: '' });
-        },
-        onError: showProblem,
-      },
-    );
-  });
+  const send = async (values: PriceInput) => {
+    const { price } = await add.mutateAsync({ ...values, bandMaxLiters: values.item === 'fermenter_day' ? values.bandMaxLiters : null });
+    setMessage({ tone: 'success', text: `${itemLabel(price)}: new price from ${longDate(price.effectiveFrom)}.` });
+    form.reset({ item: values.item, bandMaxLiters: values.bandMaxLiters, effectiveFrom: data.today, note: '' });
+  };
   return (
     <FormFrame
-      onSubmit={onSubmit}
-      message={message}
-      pending={add.isPending}
+      {...frame(send, add.isPending)}
       submitLabel="Schedule the price"
-      actions="start"
-      className="flex flex-col gap-3 rounded-md border border-line bg-surface p-4"
+      panel
       intro={
         <>
           <h3 className="text-sm font-semibold">Change a price</h3>
@@ -185,13 +175,11 @@ const asBasisPoints = { setValueAs: (v: string) => Math.round((parseDecimal(Stri
 const TaxRates = ({ data }: { data: PriceListResponse }) => {
   const add = useAddTaxRate();
   const withdraw = useWithdrawTaxRate();
-  const { form, message, showProblem, submit } = useApiForm<TaxRateInput>(taxRateInputSchema, {
+  const { form, frame } = useApiForm<TaxRateInput>(taxRateInputSchema, {
     defaultValues: { label: data.taxRates[0]?.label ?? 'VAT', effectiveFrom: data.today },
     fields: ['rateBp', 'label', 'effectiveFrom'],
   });
-  const onSubmit = submit((values) => {
-    add.mutate(values, { onSuccess: () => form.reset({ label: values.label, effectiveFrom: data.today }), onError: showProblem });
-  });
+  const send = (values: TaxRateInput) => add.mutateAsync(values).then(() => form.reset({ label: values.label, effectiveFrom: data.today }));
   return (
     <div className="flex flex-col gap-3">
       <ul className="divide-y divide-line rounded-md border border-line bg-surface text-sm">
@@ -219,9 +207,7 @@ const TaxRates = ({ data }: { data: PriceListResponse }) => {
         ))}
       </ul>
       <FormFrame
-        onSubmit={onSubmit}
-        message={message}
-        pending={add.isPending}
+        {...frame(send, add.isPending)}
         submitLabel="Schedule the rate"
         submitVariant="secondary"
         actions="inline"

@@ -1,18 +1,19 @@
-import { useFieldArray, type Path } from 'react-hook-form';
+import type { Path } from 'react-hook-form';
 import {
   carbonationSettingsSchema,
+  chemicalSteps,
   concentrationUnits,
   sanitationSettingsSchema,
   type CarbonationSettings,
   type SanitationSettings,
 } from '../../../../shared/schemas/cellar-settings.ts';
+import { ChoiceField, fieldError, OptionList, TextField } from '@/components/form/bound-fields';
 import { NumberField } from '@/components/form/number-field';
 import { UnitNumberField } from '@/components/form/unit-number-input';
 import { Alert } from '@/components/ui/alert';
-import { InputField, SelectField } from '@/components/ui/field';
 import { Checkbox } from '@/components/ui/input';
 import { Cautions } from '@/components/safety/cautions';
-import { AddRowButton, RemoveRowButton, SettingFormFrame, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
+import { SettingFormFrame, SettingRows, settingSection, type SettingFormProps } from '@/features/settings/components/setting-section';
 import { useSettingForm } from '@/features/settings/hooks/use-setting-form';
 import { useUnits } from '@/hooks/use-units';
 import type { Quantity } from '@/lib/units';
@@ -39,14 +40,29 @@ const sanitationNumbers: { name: Path<SanitationSettings>; label: string; hint?:
   { name: 'co2GramsPerKegFill', label: 'CO2 per keg filled (g)', box: wholeNumber },
 ];
 
+const chemicalStepLabels = { clean: 'Clean', sanitize: 'Sanitize' } as const;
+
+/** A new row of the chemical list: a sanitizer at 1 mL/L for 2 minutes, to be named. */
+const newChemical = (count: number): SanitationSettings['chemicals'][number] => ({
+  id: `chemical-${count + 1}`,
+  name: '',
+  step: 'sanitize',
+  defaultConcentration: 1,
+  unit: 'mL/L',
+  recommendedContactMinutes: 2,
+  minConcentration: 1,
+  maxConcentration: 1,
+  caustic: false,
+  active: true,
+});
+
 const SanitationForm = ({ value, canEdit }: SettingFormProps<SanitationSettings>) => {
   const setting = useSettingForm<SanitationSettings>('sanitation', sanitationSettingsSchema, value, {
     savedText: 'Sanitation rules saved. New cycles are judged by them from now on.',
     fields: ['freshnessDays', 'cleanWithinDays', 'minimumPurgeSeconds', 'co2GramsPerPurge', 'co2GramsPerKegFill'],
   });
   const { form } = setting;
-  const chemicals = useFieldArray({ control: form.control, name: 'chemicals' });
-  const e = form.formState.errors;
+  const listError = fieldError(form, 'chemicals');
   return (
     <SettingFormFrame setting={setting} label="Sanitation rules" canEdit={canEdit} submitLabel="Save sanitation rules">
       <fieldset disabled={!canEdit} className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
@@ -56,54 +72,44 @@ const SanitationForm = ({ value, canEdit }: SettingFormProps<SanitationSettings>
       </fieldset>
       <fieldset disabled={!canEdit} className="flex flex-col gap-2">
         <legend className="mb-1 text-sm font-medium">Cleaners and sanitizers</legend>
-        {e.chemicals?.message || e.chemicals?.root?.message ? <Alert tone="error">{e.chemicals?.message ?? e.chemicals?.root?.message}</Alert> : null}
-        {chemicals.fields.map((f, i) => (
-          <div key={f.id} className="grid gap-2 rounded-md border border-line p-2 sm:grid-cols-3 lg:grid-cols-6" aria-label={`Chemical ${i + 1}`} role="group">
-            <InputField label="Id" error={e.chemicals?.[i]?.id?.message} {...form.register(`chemicals.${i}.id`)} />
-            <InputField label="Name" error={e.chemicals?.[i]?.name?.message} {...form.register(`chemicals.${i}.name`)} />
-            <SelectField label="Step" {...form.register(`chemicals.${i}.step`)}>
-              <option value="clean">Clean</option>
-              <option value="sanitize">Sanitize</option>
-            </SelectField>
-            <NumberField form={form} name={`chemicals.${i}.defaultConcentration`} label="Usual strength" {...anyNumber} />
-            <SelectField label="Unit" {...form.register(`chemicals.${i}.unit`)}>
-              {concentrationUnits.map((u) => (
-                <option key={u} value={u}>
-                  {u}
-                </option>
-              ))}
-            </SelectField>
-            <NumberField form={form} name={`chemicals.${i}.recommendedContactMinutes`} label="Usual contact" {...anyNumber} />
-            <NumberField form={form} name={`chemicals.${i}.minConcentration`} label="Lowest strength" {...anyNumber} />
-            <NumberField form={form} name={`chemicals.${i}.maxConcentration`} label="Highest strength" {...anyNumber} />
-            <NumberField form={form} name={`chemicals.${i}.minimumContactMinutes`} label="Minimum contact (min)" {...anyNumber} empty="omit" />
-            <div className="flex flex-wrap items-end gap-2 sm:col-span-2">
-              <Checkbox label="In use" {...form.register(`chemicals.${i}.active`)} />
-              <Checkbox label="Caustic (vent CO2 first)" {...form.register(`chemicals.${i}.caustic`)} />
-              <RemoveRowButton canEdit={canEdit} size="sm" onClick={() => chemicals.remove(i)} label={`Remove ${f.name}`} />
-            </div>
-          </div>
-        ))}
-        <AddRowButton
+        {listError ? <Alert tone="error">{listError}</Alert> : null}
+        <SettingRows
+          form={form}
+          name="chemicals"
           canEdit={canEdit}
           size="sm"
-          onClick={() =>
-            chemicals.append({
-              id: `chemical-${chemicals.fields.length + 1}`,
-              name: '',
-              step: 'sanitize',
-              defaultConcentration: 1,
-              unit: 'mL/L',
-              recommendedContactMinutes: 2,
-              minConcentration: 1,
-              maxConcentration: 1,
-              caustic: false,
-              active: true,
-            })
-          }
+          newRow={newChemical}
+          addLabel="Add a chemical"
+          removeLabel={(f) => `Remove ${f.name}`}
         >
-          Add a chemical
-        </AddRowButton>
+          {({ index: i, field, remove }) => (
+            <div
+              key={field.id}
+              className="grid gap-2 rounded-md border border-line p-2 sm:grid-cols-3 lg:grid-cols-6"
+              aria-label={`Chemical ${i + 1}`}
+              role="group"
+            >
+              <TextField form={form} name={`chemicals.${i}.id`} label="Id" />
+              <TextField form={form} name={`chemicals.${i}.name`} label="Name" />
+              <ChoiceField form={form} name={`chemicals.${i}.step`} label="Step">
+                <OptionList values={chemicalSteps} labels={chemicalStepLabels} />
+              </ChoiceField>
+              <NumberField form={form} name={`chemicals.${i}.defaultConcentration`} label="Usual strength" {...anyNumber} />
+              <ChoiceField form={form} name={`chemicals.${i}.unit`} label="Unit">
+                <OptionList values={concentrationUnits} labels={(u) => u} />
+              </ChoiceField>
+              <NumberField form={form} name={`chemicals.${i}.recommendedContactMinutes`} label="Usual contact" {...anyNumber} />
+              <NumberField form={form} name={`chemicals.${i}.minConcentration`} label="Lowest strength" {...anyNumber} />
+              <NumberField form={form} name={`chemicals.${i}.maxConcentration`} label="Highest strength" {...anyNumber} />
+              <NumberField form={form} name={`chemicals.${i}.minimumContactMinutes`} label="Minimum contact (min)" {...anyNumber} empty="omit" />
+              <div className="flex flex-wrap items-end gap-2 sm:col-span-2">
+                <Checkbox label="In use" {...form.register(`chemicals.${i}.active`)} />
+                <Checkbox label="Caustic (vent CO2 first)" {...form.register(`chemicals.${i}.caustic`)} />
+                {remove}
+              </div>
+            </div>
+          )}
+        </SettingRows>
       </fieldset>
       <Cautions kind="chemicals" />
     </SettingFormFrame>
@@ -134,8 +140,6 @@ const CarbonationForm = ({ value, canEdit }: SettingFormProps<CarbonationSetting
     fields: ['coldRoomTempC', 'altitudeM', 'maxPlanPressureKpa', 'holdDays', 'fastStartPressureKpa', 'fastStartHours', 'settleDays', 'lineFixedKpa'],
   });
   const { form } = setting;
-  const presets = useFieldArray({ control: form.control, name: 'stylePresets' });
-  const e = form.formState.errors;
   const { labels } = useUnits();
   return (
     <SettingFormFrame setting={setting} label="Carbonation defaults" canEdit={canEdit} submitLabel="Save carbonation defaults">
@@ -150,16 +154,15 @@ const CarbonationForm = ({ value, canEdit }: SettingFormProps<CarbonationSetting
       </fieldset>
       <fieldset disabled={!canEdit} className="flex flex-col gap-2">
         <legend className="mb-1 text-sm font-medium">CO2 volumes by style family</legend>
-        {presets.fields.map((f, i) => (
-          <div key={f.id} className="grid grid-cols-[1fr_8rem_auto] items-end gap-2">
-            <InputField label="Family" error={e.stylePresets?.[i]?.family?.message} {...form.register(`stylePresets.${i}.family`)} />
-            <NumberField form={form} name={`stylePresets.${i}.volumes`} label="Volumes" type="number" step="0.1" />
-            <RemoveRowButton canEdit={canEdit} size="sm" onClick={() => presets.remove(i)} />
-          </div>
-        ))}
-        <AddRowButton canEdit={canEdit} size="sm" onClick={() => presets.append({ family: '', volumes: 2.4 })}>
-          Add a style family
-        </AddRowButton>
+        <SettingRows form={form} name="stylePresets" canEdit={canEdit} size="sm" newRow={() => ({ family: '', volumes: 2.4 })} addLabel="Add a style family">
+          {({ index, field, remove }) => (
+            <div key={field.id} className="grid grid-cols-[1fr_8rem_auto] items-end gap-2">
+              <TextField form={form} name={`stylePresets.${index}.family`} label="Family" />
+              <NumberField form={form} name={`stylePresets.${index}.volumes`} label="Volumes" type="number" step="0.1" />
+              {remove}
+            </div>
+          )}
+        </SettingRows>
       </fieldset>
       <Cautions kind="carbonation" />
     </SettingFormFrame>

@@ -1,4 +1,6 @@
 import type { ComponentType, FormEventHandler, ReactNode } from 'react';
+import { useFieldArray, type ArrayPath, type FieldArray, type FieldArrayWithId, type FieldValues } from 'react-hook-form';
+import type { AnyForm } from '@/components/form/bound-fields';
 import type { SettingKey } from '../../../../shared/schemas/settings.ts';
 import { FormFrame } from '@/components/form/form-frame';
 import { Button } from '@/components/ui/button';
@@ -71,3 +73,45 @@ export const AddRowButton = ({ canEdit, onClick, size, children }: ListRowButton
       </Button>
     </div>
   ) : null;
+
+export interface SettingRowsProps<T extends FieldValues, N extends ArrayPath<T>> {
+  form: AnyForm<T>;
+  /** The list field: `byStyle`, `chemicals`, `stylePresets`. */
+  name: N;
+  canEdit: boolean;
+  /** The row "Add" appends, given how many there are. */
+  newRow: (count: number) => FieldArray<T, N>;
+  addLabel: ReactNode;
+  /** The Remove button's accessible name for a row, where "Remove" alone would not say which. */
+  removeLabel?: (field: FieldArrayWithId<T, N>) => string;
+  size?: 'sm' | 'md';
+  /**
+   * One row's fields: `index` names them (`byStyle.${index}.days`), `remove` is its Remove button to
+   * place among them.
+   */
+  children: (row: { index: number; field: FieldArrayWithId<T, N>; remove: ReactNode }) => ReactNode;
+}
+
+/** A section's list of rows (styles, chemicals, style families) with Remove on each and Add under them, for whoever may edit. */
+export const SettingRows = <T extends FieldValues, N extends ArrayPath<T>>({
+  form,
+  name,
+  canEdit,
+  newRow,
+  addLabel,
+  removeLabel,
+  size,
+  children,
+}: SettingRowsProps<T, N>) => {
+  const rows = useFieldArray<T, N>({ control: form.control, name });
+  return (
+    <>
+      {rows.fields.map((field, index) =>
+        children({ index, field, remove: <RemoveRowButton canEdit={canEdit} size={size} onClick={() => rows.remove(index)} label={removeLabel?.(field)} /> }),
+      )}
+      <AddRowButton canEdit={canEdit} size={size} onClick={() => rows.append(newRow(rows.fields.length))}>
+        {addLabel}
+      </AddRowButton>
+    </>
+  );
+};

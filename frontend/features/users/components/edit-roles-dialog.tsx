@@ -23,36 +23,22 @@ interface EditRolesFormProps {
 const EditRolesForm = ({ user, isSelf, onClose }: EditRolesFormProps) => {
   const update = useUpdateUser();
   const notice = useNotice();
-  const { form, message, showProblem, submit } = useApiForm<UserRolesInput>(userRolesSchema, {
+  const { form, frame } = useApiForm<UserRolesInput>(userRolesSchema, {
     defaultValues: { roles: roleOrder.filter((role) => user.roles.includes(role)) },
     fields: ['roles'],
   });
 
-  const onSubmit = submit(({ roles }) => {
+  const send = async ({ roles }: UserRolesInput) => {
     // A disabled checkbox is left out of the form's values: keep your own admin role.
     const next = isSelf && user.roles.includes('admin') && !roles.includes('admin') ? [...roles, 'admin' as const] : roles;
-    update.mutate(
-      { id: user.id, roles: next },
-      {
-        onSuccess: () => {
-          notice.show({ title: 'Roles saved', text: `${user.name} is now ${next.map((role) => roleLabels[role]).join(', ') || 'without a role'}.` });
-          onClose();
-        },
-        onError: showProblem,
-      },
-    );
-  });
+    await update.mutateAsync({ id: user.id, roles: next });
+    notice.show({ title: 'Roles saved', text: `${user.name} is now ${next.map((role) => roleLabels[role]).join(', ') || 'without a role'}.` });
+    onClose();
+  };
 
   const lockedAdmin = isSelf && user.roles.includes('admin');
   return (
-    <FormFrame
-      onSubmit={onSubmit}
-      message={message}
-      pending={update.isPending}
-      onCancel={onClose}
-      submitLabel="Save roles"
-      submitDisabled={!form.formState.isDirty}
-    >
+    <FormFrame {...frame(send, update.isPending)} onCancel={onClose} submitLabel="Save roles" submitDisabled={!form.formState.isDirty}>
       <RoleCheckboxes
         form={form}
         locked={lockedAdmin ? ['admin'] : []}
