@@ -1,4 +1,5 @@
 import type { Database } from '../../db/database.ts';
+import { paymentsWithInvoices } from './payments.repository.ts';
 
 /** The lines of the period's issued invoices (every status but draft), with their invoices and members, in number order. */
 export function ledgerLines(db: Database, period: string) {
@@ -32,10 +33,7 @@ export function ledgerCreditNotes(db: Database, period: string) {
 
 /** The payments on the period's invoices, whenever they came, in the order received. */
 export function ledgerPayments(db: Database, period: string) {
-  return db
-    .selectFrom('payment as p')
-    .innerJoin('invoice as i', 'i.id', 'p.invoice_id')
-    .innerJoin('app_user as u', 'u.id', 'p.member_id')
+  return paymentsWithInvoices(db)
     .selectAll('p')
     .select(['i.number as invoice_number', 'u.name as member'])
     .where('i.period', '=', period)

@@ -5,15 +5,17 @@ export function findPaymentOwner(db: Database, paymentId: string) {
   return db.selectFrom('payment').select(['id', 'member_id']).where('id', '=', paymentId).executeTakeFirst();
 }
 
+/** Payments (`p`) with the invoices they pay (`i`) and the members who paid (`u`). */
+export function paymentsWithInvoices(db: Database) {
+  return db.selectFrom('payment as p').innerJoin('invoice as i', 'i.id', 'p.invoice_id').innerJoin('app_user as u', 'u.id', 'p.member_id');
+}
+
 /** A payment with what its receipt says: the invoice it pays and the member who paid. */
 export function paymentForReceipt(db: Database, paymentId: string) {
-  return db
-    .selectFrom('payment')
-    .innerJoin('invoice', 'invoice.id', 'payment.invoice_id')
-    .innerJoin('app_user', 'app_user.id', 'payment.member_id')
-    .selectAll('payment')
-    .select(['invoice.number', 'invoice.period', 'invoice.total_cents', 'invoice.paid_cents', 'invoice.credited_cents', 'app_user.name', 'app_user.email'])
-    .where('payment.id', '=', paymentId)
+  return paymentsWithInvoices(db)
+    .selectAll('p')
+    .select(['i.number', 'i.period', 'i.total_cents', 'i.paid_cents', 'i.credited_cents', 'u.name', 'u.email'])
+    .where('p.id', '=', paymentId)
     .executeTakeFirstOrThrow();
 }
 

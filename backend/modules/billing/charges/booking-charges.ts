@@ -18,11 +18,10 @@ export const bookingCharges = chargeSource({
   label: 'Fermenter and tap-position bookings',
   records: billableBookings,
   charge(r, ctx, out) {
-    const start = r.start_date;
     // A booking inside one day still uses the vessel for a day.
-    const end = r.end_date > start ? r.end_date : addDays(start, 1);
-    if (r.kind === 'fermenter') fermenterDays(ctx, r, start, end, out);
-    else tapWeeks(ctx, r, start, end, out);
+    const end = r.end_date > r.start_date ? r.end_date : addDays(r.start_date, 1);
+    if (r.kind === 'fermenter') fermenterDays(ctx, r, r.start_date, end, out);
+    else tapWeeks(ctx, r, r.start_date, end, out);
   },
 });
 
