@@ -2,18 +2,14 @@ import type { BillingProfile } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { BILLING_PROFILE_KEY, getBillingProfile } from '../settings/settings.service.ts';
+import { storeBillingProfile } from './billing-profile.repository.ts';
 
 // The co-op's profile and time zone are read through the settings service; billing keeps its old import path.
 export { BILLING_PROFILE_KEY, coopTimeZone, coopToday, getBillingProfile } from '../settings/settings.service.ts';
 
 export async function putBillingProfile(trx: Database, profile: BillingProfile, actorId: string): Promise<BillingProfile> {
   const before = await getBillingProfile(trx);
-  const value = JSON.stringify(profile);
-  await trx
-    .insertInto('setting')
-    .values({ key: BILLING_PROFILE_KEY, value, updated_by: actorId, updated_at: new Date() })
-    .onConflict((oc) => oc.column('key').doUpdateSet({ value, updated_by: actorId, updated_at: new Date() }))
-    .execute();
+  await storeBillingProfile(trx, profile, actorId);
   await audit(trx, actorId, 'updated', 'BillingProfile', BILLING_PROFILE_KEY, { before, after: profile });
   return profile;
 }

@@ -4,6 +4,7 @@ import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, HttpProblem } from '../../lib/http-problem.ts';
 import { getBillingProfile } from './billing-profile.service.ts';
+import { closeOpenSession, findSession, insertSession, invoiceForCheckout, openSessions } from './checkout.repository.ts';
 import { lockInvoice } from './invoice-commands.service.ts';
 import { paymentProvider, type CheckoutSession } from './payment-provider.ts';
 import { applyPaidSession } from './payments.service.ts';
@@ -32,21 +33,13 @@ export async function createCheckout(
 ): Promise<{ url: string; sessionId: string; reused: boolean }> {
   const provider = paymentProvider(config);
   for (let attempt = 0; attempt < 4; attempt++) {
-    const inv = await db
-      .selectFrom('invoice')
-      .select(['id', 'number', 'status', 'currency', 'total_cents', 'paid_cents', 'credited_cents', 'period'])
-      .where('id', '=', invoiceId)
-      .executeTakeFirstOrThrow();
+    const inv = await invoiceForCheckout(db, invoiceId);
+    if (!inv) throw new Error(`No invoice ${invoiceId}`);
     if (inv.status !== 'issued') throw conflict(inv.status === 'paid' ? 'This invoice is already paid.' : `This invoice is ${inv.status} and cannot be paid.`);
     const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
     if (due <= 0) throw conflict('Nothing is due on this invoice.');
 
-    const open = await db
-      .selectFrom('checkout_session')
-      .select(['id', 'amount_cents', 'currency', 'url'])
-      .where('invoice_id', '=', inv.id)
-      .where('status', '=', 'open')
-      .executeTakeFirst();
+    const [open] = await openSessions(db, inv.id);
     if (open) {
       if (open.amount_cents === due && open.currency === inv.currency) {
         let remote: CheckoutSession;
@@ -96,9 +89,9 @@ export async function createCheckout(
         // Under the invoice's lock: still issued, still this much due, and no other checkout opened meanwhile.
         const cur = await lockInvoice(trx, inv.id);
         const stillDue = cur.total_cents - cur.paid_cents - cur.credited_cents;
-        const other = await trx.selectFrom('checkout_session').select('id').where('invoice_id', '=', inv.id).where('status', '=', 'open').executeTakeFirst();
+        const [other] = await openSessions(trx, inv.id);
         if (cur.status !== 'issued' || stillDue !== due || other) return false;
-        await trx.insertInto('checkout_session').values(row).execute();
+        await insertSession(trx, row);
         await audit(trx, actor.id, 'checkout_started', 'Invoice', inv.id, { sessionId: session.id, amountCents: due });
         return true;
       });
@@ -109,11 +102,7 @@ export async function createCheckout(
     if (opened) return { url: session.url, sessionId: session.id, reused: false };
     // Another checkout or a payment won the race: keep a record of this session (so money paid on it
     // is still booked), close it at the provider, and look again.
-    await db
-      .insertInto('checkout_session')
-      .values({ ...row, status: 'expired' })
-      .onConflict((oc) => oc.column('id').doNothing())
-      .execute();
+    await insertSession(db, { ...row, status: 'expired' }, { unlessKnown: true });
     try {
       await provider.checkout.sessions.expire(session.id);
     } catch {
@@ -135,15 +124,10 @@ export async function closeStaleCheckouts(
   now: Date,
   queue: PgBoss,
 ): Promise<{ closed: number; failed: number }> {
-  const inv = await db.selectFrom('invoice').select(['status', 'total_cents', 'paid_cents', 'credited_cents']).where('id', '=', invoiceId).executeTakeFirst();
+  const inv = await invoiceForCheckout(db, invoiceId);
   if (!inv) return { closed: 0, failed: 0 };
   const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
-  const open = await db
-    .selectFrom('checkout_session')
-    .select(['id', 'amount_cents', 'currency', 'url'])
-    .where('invoice_id', '=', invoiceId)
-    .where('status', '=', 'open')
-    .execute();
+  const open = await openSessions(db, invoiceId);
   let closed = 0;
   let failed = 0;
   for (const s of open) {
@@ -186,20 +170,14 @@ async function settleClosedSession(db: Database, remote: CheckoutSession, now: D
   }
   const status = remote.status === 'complete' ? 'complete' : 'expired';
   await db.transaction().execute(async (trx) => {
-    const updated = await trx
-      .updateTable('checkout_session')
-      .set({ status, ...(status === 'complete' ? { completed_at: now } : {}) })
-      .where('id', '=', remote.id)
-      .where('status', '=', 'open')
-      .returning('invoice_id')
-      .executeTakeFirst();
+    const updated = await closeOpenSession(trx, remote.id, status, now);
     if (updated) await audit(trx, null, status === 'expired' ? 'checkout_expired' : 'checkout_closed', 'Invoice', updated.invoice_id, { sessionId: remote.id });
   });
 }
 
 /** The member is back from the provider's page: ask the provider directly, in case its webhook is late. */
 export async function confirmCheckout(db: Database, config: Config, invoiceId: string, sessionId: string, now: Date, queue: PgBoss): Promise<string> {
-  const known = await db.selectFrom('checkout_session').select(['id', 'invoice_id']).where('id', '=', sessionId).executeTakeFirst();
+  const known = await findSession(db, sessionId);
   if (!known || known.invoice_id !== invoiceId) return 'unknown_session';
   let session: CheckoutSession;
   try {

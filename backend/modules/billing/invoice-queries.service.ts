@@ -1,4 +1,3 @@
-import { sql, type Expression, type SqlBool } from 'kysely';
 import type { CreditNote, InvoiceDetail, InvoiceListQuery, InvoiceSummary, MemberBalance, Payment, PaymentMethod } from '../../../shared/schemas/billing.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
@@ -6,8 +5,19 @@ import { notFound } from '../../lib/http-problem.ts';
 import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
 import { coopToday } from './billing-profile.service.ts';
-
-const dueExpr = sql<number>`(invoice.total_cents - invoice.paid_cents - invoice.credited_cents)`;
+import {
+  creditNoteLines,
+  creditNotesOfInvoices,
+  findSummaryRow,
+  invoiceBase,
+  invoiceLines,
+  invoicePayments,
+  memberDues,
+  openOverpayments,
+  stillDue,
+  withSummary,
+  type SummaryRow,
+} from './invoice-queries.repository.ts';
 
 /** What a client may sort the invoice list by, and the column (or output column) each means. */
 const sortColumns = {
@@ -21,41 +31,6 @@ const sortColumns = {
   amountDue: 'amount_due',
   status: 'invoice.status',
 } as const;
-
-/** Invoices with their members: what every read of an invoice starts from. */
-function invoiceBase(db: Database) {
-  return db.selectFrom('invoice').innerJoin('app_user', 'app_user.id', 'invoice.member_id');
-}
-
-function withSummary(qb: ReturnType<typeof invoiceBase>) {
-  return qb.select([
-    'invoice.id',
-    'invoice.number',
-    'invoice.period',
-    'invoice.status',
-    'invoice.member_id',
-    'app_user.name as member_name',
-    'app_user.email as member_email',
-    'invoice.currency',
-    'invoice.issued_on',
-    'invoice.due_on',
-    'invoice.subtotal_cents',
-    'invoice.tax_cents',
-    'invoice.total_cents',
-    'invoice.paid_cents',
-    'invoice.credited_cents',
-    'invoice.sent_at',
-    'invoice.paid_at',
-    'invoice.voided_at',
-    'invoice.created_at',
-    'invoice.void_reason',
-    'invoice.run_id',
-    dueExpr.as('amount_due'),
-    sql<Date | null>`(select max(r.sent_at) from reminder r where r.invoice_id = invoice.id)`.as('last_reminded_at'),
-  ]);
-}
-
-type SummaryRow = Awaited<ReturnType<ReturnType<typeof withSummary>['executeTakeFirstOrThrow']>>;
 
 export function toSummary(r: SummaryRow, today: string): InvoiceSummary {
   const amountDueCents = r.total_cents - r.paid_cents - r.credited_cents;
@@ -96,7 +71,7 @@ export async function listInvoices(db: Database, q: InvoiceListQuery, scope: Inv
   if (q.period) base = base.where('invoice.period', '=', q.period);
   if (q.status) base = base.where('invoice.status', '=', q.status);
   if (q.memberId) base = base.where('invoice.member_id', '=', q.memberId);
-  if (q.unpaid) base = base.where('invoice.status', '=', 'issued').where(sql<SqlBool>`${dueExpr} > 0`);
+  if (q.unpaid) base = base.where('invoice.status', '=', 'issued').where(stillDue);
   if (q.q) {
     const like = containsPattern(q.q);
     base = base.where((eb) => eb.or([eb('invoice.number', 'ilike', like), eb('app_user.name', 'ilike', like), eb('app_user.email', 'ilike', like)]));
@@ -107,7 +82,7 @@ export async function listInvoices(db: Database, q: InvoiceListQuery, scope: Inv
 
 export async function findInvoiceRow(db: Database, id: string) {
   if (!isUuid(id)) return undefined;
-  return withSummary(invoiceBase(db)).where('invoice.id', '=', id).executeTakeFirst();
+  return findSummaryRow(db, id);
 }
 
 export async function getSummary(db: Database, id: string, today: string): Promise<InvoiceSummary> {
@@ -148,26 +123,12 @@ export function toPayment(p: {
 
 export async function creditNotesOf(db: Database, invoiceIds: string[]): Promise<CreditNote[]> {
   if (invoiceIds.length === 0) return [];
-  const notes = await db
-    .selectFrom('credit_note')
-    .innerJoin('invoice', 'invoice.id', 'credit_note.invoice_id')
-    .selectAll('credit_note')
-    .select('invoice.number as invoice_number')
-    .where('credit_note.invoice_id', 'in', invoiceIds)
-    .orderBy('credit_note.number_year')
-    .orderBy('credit_note.number_seq')
-    .execute();
+  const notes = await creditNotesOfInvoices(db, invoiceIds);
   const lines = notes.length
-    ? await db
-        .selectFrom('credit_note_line')
-        .selectAll()
-        .where(
-          'credit_note_id',
-          'in',
-          notes.map((n) => n.id),
-        )
-        .orderBy('position')
-        .execute()
+    ? await creditNoteLines(
+        db,
+        notes.map((n) => n.id),
+      )
     : [];
   return notes.map((n) => ({
     id: n.id,
@@ -190,11 +151,7 @@ export async function creditNotesOf(db: Database, invoiceIds: string[]): Promise
 export async function getDetail(db: Database, id: string, today: string): Promise<InvoiceDetail> {
   const row = await findInvoiceRow(db, id);
   if (!row) throw notFound('Invoice');
-  const [lines, payments, creditNotes] = await Promise.all([
-    db.selectFrom('invoice_line').selectAll().where('invoice_id', '=', id).orderBy('position').execute(),
-    db.selectFrom('payment').selectAll().where('invoice_id', '=', id).orderBy('received_on').orderBy('created_at').execute(),
-    creditNotesOf(db, [id]),
-  ]);
+  const [lines, payments, creditNotes] = await Promise.all([invoiceLines(db, id), invoicePayments(db, id), creditNotesOf(db, [id])]);
   return {
     ...toSummary(row, today),
     voidReason: row.void_reason,
@@ -229,24 +186,7 @@ export async function detailAsOf(db: Database, id: string, now: Date): Promise<I
 
 /** What a member owes over every invoice ever issued to them (negative: the co-op owes them). */
 export async function memberBalance(db: Database, memberId: string, today: string, currency: string): Promise<MemberBalance> {
-  const owed: Expression<SqlBool> = sql<SqlBool>`invoice.status in ('issued','paid','void') and invoice.issued_on is not null`;
-  const row = await db
-    .selectFrom('invoice')
-    .select([
-      sql<number>`coalesce(sum(${dueExpr}), 0)::int`.as('balance'),
-      sql<number>`count(*) filter (where invoice.status = 'issued' and ${dueExpr} > 0)::int`.as('open'),
-      sql<number>`count(*) filter (where invoice.status = 'issued' and ${dueExpr} > 0 and invoice.due_on < ${today}::date)::int`.as('overdue'),
-    ])
-    .where('member_id', '=', memberId)
-    .where(owed)
-    .executeTakeFirstOrThrow();
+  const [row, overpaid] = await Promise.all([memberDues(db, memberId, today), openOverpayments(db, memberId)]);
   // Money paid online beyond what was due is owed back until the treasurer has refunded it.
-  const overpaid = await db
-    .selectFrom('payment')
-    .select(sql<number>`coalesce(sum(overpaid_cents), 0)::int`.as('total'))
-    .where('member_id', '=', memberId)
-    .where('overpaid_cents', '>', 0)
-    .where('overpayment_refunded_on', 'is', null)
-    .executeTakeFirstOrThrow();
   return { currency, balanceCents: row.balance - overpaid.total, openInvoices: row.open, overdueInvoices: row.overdue };
 }

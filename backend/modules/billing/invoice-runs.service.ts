@@ -1,4 +1,3 @@
-import { sql } from 'kysely';
 import { periodBounds, periodLabel, todayIn } from '../../../shared/billing/dates.ts';
 import { sumLines } from '../../../shared/billing/money.ts';
 import type { InvoicePreview, InvoiceRun, InvoiceSummary, RunPreview } from '../../../shared/schemas/billing.ts';
@@ -13,11 +12,20 @@ import type { ChargeContext } from './charges/types.ts';
 import { createInvoice, issueInvoice } from './invoice-commands.service.ts';
 import { sendInvoice } from './invoice-mail.service.ts';
 import { getSummary } from './invoice-queries.service.ts';
-import { findRun, unsentInvoicesOfRun } from './invoice-runs.repository.ts';
+import {
+  completeRun,
+  draftsOfRun,
+  findRun,
+  insertRun,
+  invoicedMembers,
+  lockPeriod,
+  runsQuery,
+  unsentInvoicesOfRun,
+  userNames,
+} from './invoice-runs.repository.ts';
 import { PriceBook } from './price-book.ts';
 
-/** Advisory-lock namespace of billing periods. */
-export const BILLING_LOCK = 7206;
+export { BILLING_LOCK } from './invoice-runs.repository.ts';
 
 /**
  * When a run happens: the co-op's date to run as (the demo seed runs past months on their own
@@ -41,13 +49,8 @@ function periodProblems(period: string, today: string): string[] {
 export async function previewRun(db: Database, period: string, clock: RunClock): Promise<RunPreview> {
   const ctx = await context(db, period, clock);
   const today = ctx.today;
-  const [{ byMember, problems, sources }, profile, existing] = await Promise.all([
-    deriveCharges(db, ctx),
-    getBillingProfile(db),
-    db.selectFrom('invoice').select('member_id').where('period', '=', period).execute(),
-  ]);
-  const invoiced = new Set(existing.map((e) => e.member_id));
-  const names = await memberNames(db, [...byMember.keys()]);
+  const [{ byMember, problems, sources }, profile, invoiced] = await Promise.all([deriveCharges(db, ctx), getBillingProfile(db), invoicedMembers(db, period)]);
+  const names = await userNames(db, [...byMember.keys()]);
   const invoices: InvoicePreview[] = [...byMember.entries()]
     .map(([memberId, lines]) => ({
       memberId,
@@ -74,96 +77,46 @@ function stripDraft(l: PricedCharge) {
   return line;
 }
 
-async function memberNames(db: Database, ids: string[]): Promise<Map<string, string>> {
-  if (ids.length === 0) return new Map();
-  const rows = await db.selectFrom('app_user').select(['id', 'name']).where('id', 'in', ids).execute();
-  return new Map(rows.map((r) => [r.id, r.name]));
-}
+type RunArgs = [input: { period: string; issue: boolean }, actorId: string, clock: RunClock];
 
 /**
  * Runs a period: one invoice per member with charges, made and (unless `issue` is false) issued in
  * one transaction. Members who already have an invoice for the period are skipped by the database's
  * unique constraint, so running twice, or twice at once, never bills anyone twice.
  */
-export async function runPeriod(
-  db: Database,
-  input: { period: string; issue: boolean },
-  actorId: string,
-  clock: RunClock,
-): Promise<{ run: InvoiceRun; invoices: InvoiceSummary[] }> {
-  return db.transaction().execute((trx) => runPeriodIn(trx, input, actorId, clock));
+export async function runPeriod(db: Database, ...args: RunArgs): Promise<{ run: InvoiceRun; invoices: InvoiceSummary[] }> {
+  return db.transaction().execute((trx) => runPeriodIn(trx, ...args));
 }
 
 /** The run itself, inside the caller's transaction (the demo seed runs past months this way). */
-export async function runPeriodIn(
-  trx: Database,
-  input: { period: string; issue: boolean },
-  actorId: string,
-  clock: RunClock,
-): Promise<{ run: InvoiceRun; invoices: InvoiceSummary[] }> {
-  const result = await (async () => {
-    // Runs share this lock (so two runs really do race, and the unique constraint decides);
-    // adding a manual charge takes it alone, so no charge slips in while a run reads the period.
-    await sql`select pg_advisory_xact_lock_shared(${BILLING_LOCK}, hashtext(${input.period}))`.execute(trx);
-    const ctx = await context(trx, input.period, clock);
-    const today = ctx.today;
-    const { byMember, problems } = await deriveCharges(trx, ctx);
-    const all = [...periodProblems(input.period, today), ...problems];
-    if (all.length) {
-      throw new HttpProblem(409, 'The period cannot be billed yet', all.join(' '), undefined, 'about:blank', { problems: all });
-    }
-    const profile = await getBillingProfile(trx);
-    const run = await trx
-      .insertInto('invoice_run')
-      .values({ period: input.period, issued: input.issue, run_by: actorId })
-      .returningAll()
-      .executeTakeFirstOrThrow();
-    const made: string[] = [];
-    // Members in a fixed order, so concurrent runs queue behind each other instead of deadlocking.
-    for (const memberId of [...byMember.keys()].sort()) {
-      const id = await createInvoice(trx, { runId: run.id, memberId, period: input.period, currency: profile.currency, lines: byMember.get(memberId)! });
-      if (!id) continue;
-      made.push(id);
-      if (input.issue) await issueInvoice(trx, id, today, actorId);
-    }
-    const invoices = await Promise.all(made.map((id) => getSummary(trx, id, today)));
-    const total = invoices.reduce((s, i) => s + i.totalCents, 0);
-    const updated = await trx
-      .updateTable('invoice_run')
-      .set({ invoice_count: made.length, total_cents: total })
-      .where('id', '=', run.id)
-      .returningAll()
-      .executeTakeFirstOrThrow();
-    await audit(trx, actorId, 'ran', 'InvoiceRun', run.id, { period: input.period, invoices: made.length, totalCents: total, issued: input.issue });
-    return { run: updated, invoices };
-  })();
-  const runner = await trx.selectFrom('app_user').select(['id', 'name']).where('id', '=', actorId).executeTakeFirst();
-  return {
-    run: {
-      id: result.run.id,
-      period: result.run.period,
-      issued: result.run.issued,
-      invoiceCount: result.run.invoice_count,
-      totalCents: result.run.total_cents,
-      runBy: runner ? { id: runner.id, name: runner.name } : null,
-      createdAt: result.run.created_at.toISOString(),
-    },
-    invoices: result.invoices,
-  };
+export async function runPeriodIn(trx: Database, ...[input, actorId, clock]: RunArgs): Promise<{ run: InvoiceRun; invoices: InvoiceSummary[] }> {
+  await lockPeriod(trx, input.period, 'shared');
+  const ctx = await context(trx, input.period, clock);
+  const today = ctx.today;
+  const { byMember, problems } = await deriveCharges(trx, ctx);
+  const all = [...periodProblems(input.period, today), ...problems];
+  if (all.length) {
+    throw new HttpProblem(409, 'The period cannot be billed yet', all.join(' '), undefined, 'about:blank', { problems: all });
+  }
+  const profile = await getBillingProfile(trx);
+  const run = await insertRun(trx, { period: input.period, issued: input.issue, run_by: actorId });
+  const made: string[] = [];
+  // Members in a fixed order, so concurrent runs queue behind each other instead of deadlocking.
+  for (const memberId of [...byMember.keys()].sort()) {
+    const id = await createInvoice(trx, { runId: run.id, memberId, period: input.period, currency: profile.currency, lines: byMember.get(memberId)! });
+    if (!id) continue;
+    made.push(id);
+    if (input.issue) await issueInvoice(trx, id, today, actorId);
+  }
+  const invoices = await Promise.all(made.map((id) => getSummary(trx, id, today)));
+  const total = invoices.reduce((s, i) => s + i.totalCents, 0);
+  await completeRun(trx, run.id, { invoice_count: made.length, total_cents: total });
+  await audit(trx, actorId, 'ran', 'InvoiceRun', run.id, { period: input.period, invoices: made.length, totalCents: total, issued: input.issue });
+  return { run: toRun(await runsQuery(trx).where('invoice_run.id', '=', run.id).executeTakeFirstOrThrow()), invoices };
 }
 
-export async function listRuns(db: Database, limit = 24, { madeInvoices = false } = {}): Promise<InvoiceRun[]> {
-  let q = db.selectFrom('invoice_run');
-  // A repeated run that found everyone billed already is kept in the log but is not "the last run".
-  if (madeInvoices) q = q.where('invoice_run.invoice_count', '>', 0);
-  const rows = await q
-    .leftJoin('app_user', 'app_user.id', 'invoice_run.run_by')
-    .selectAll('invoice_run')
-    .select('app_user.name as run_by_name')
-    .orderBy('invoice_run.created_at', 'desc')
-    .limit(limit)
-    .execute();
-  return rows.map((r) => ({
+function toRun(r: Awaited<ReturnType<ReturnType<typeof runsQuery>['executeTakeFirstOrThrow']>>): InvoiceRun {
+  return {
     id: r.id,
     period: r.period,
     issued: r.issued,
@@ -171,14 +124,21 @@ export async function listRuns(db: Database, limit = 24, { madeInvoices = false 
     totalCents: r.total_cents,
     runBy: r.run_by ? { id: r.run_by, name: r.run_by_name ?? '' } : null,
     createdAt: r.created_at.toISOString(),
-  }));
+  };
+}
+
+export async function listRuns(db: Database, limit = 24, { madeInvoices = false } = {}): Promise<InvoiceRun[]> {
+  let q = runsQuery(db).limit(limit);
+  // A repeated run that found everyone billed already is kept in the log but is not "the last run".
+  if (madeInvoices) q = q.where('invoice_run.invoice_count', '>', 0);
+  return (await q.execute()).map(toRun);
 }
 
 /** Issues every draft of a run (for runs made as drafts to review first). */
 export async function issueRunDrafts(db: Database, runId: string, actorId: string, now: Date): Promise<string[]> {
   return db.transaction().execute(async (trx) => {
     const { today } = await coopToday(trx, now);
-    const drafts = await trx.selectFrom('invoice').select('id').where('run_id', '=', runId).where('status', '=', 'draft').orderBy('member_id').execute();
+    const drafts = await draftsOfRun(trx, runId);
     for (const d of drafts) await issueInvoice(trx, d.id, today, actorId);
     await audit(trx, actorId, 'issued_drafts', 'InvoiceRun', runId, { count: drafts.length });
     return drafts.map((d) => d.id);

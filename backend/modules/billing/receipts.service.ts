@@ -4,6 +4,7 @@ import type { Database } from '../../db/database.ts';
 import { enqueueMailIn } from '../../lib/mailer.ts';
 import { receiptMail } from '../mail/templates/receipt.ts';
 import { getBillingProfile } from './billing-profile.service.ts';
+import { paymentForReceipt } from './payments.repository.ts';
 
 /**
  * Queues the member's receipt for a payment, inside the transaction that books it: the job commits
@@ -12,28 +13,7 @@ import { getBillingProfile } from './billing-profile.service.ts';
  * Money paid back (a negative payment) gets none: its credit note says so.
  */
 export async function queueReceipt(trx: Database, queue: PgBoss, paymentId: string): Promise<boolean> {
-  const p = await trx
-    .selectFrom('payment')
-    .innerJoin('invoice', 'invoice.id', 'payment.invoice_id')
-    .innerJoin('app_user', 'app_user.id', 'payment.member_id')
-    .select([
-      'payment.amount_cents',
-      'payment.overpaid_cents',
-      'payment.method',
-      'payment.received_on',
-      'payment.reference',
-      'payment.currency',
-      'invoice.id as invoice_id',
-      'invoice.number',
-      'invoice.period',
-      'invoice.total_cents',
-      'invoice.paid_cents',
-      'invoice.credited_cents',
-      'app_user.name',
-      'app_user.email',
-    ])
-    .where('payment.id', '=', paymentId)
-    .executeTakeFirstOrThrow();
+  const p = await paymentForReceipt(trx, paymentId);
   if (p.amount_cents <= 0) return false;
   const currency = p.currency.trim();
   const money = (cents: number) => formatMoney(cents, currency, 'en-GB');

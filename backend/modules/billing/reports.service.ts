@@ -1,9 +1,10 @@
-import { sql } from 'kysely';
 import { nextPeriod, periodBounds } from '../../../shared/billing/dates.ts';
 import { ageingBuckets, type AgeingBucket, type AgeingReport, type BillingSummary } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
 import { coopToday, getBillingProfile } from './billing-profile.service.ts';
+import { openOverpayments } from './invoice-queries.repository.ts';
 import { listRuns } from './invoice-runs.service.ts';
+import { invoiceStandings, openInvoiceAges } from './reports.repository.ts';
 
 const emptyBuckets = (): Record<AgeingBucket, number> => ({ '0-30': 0, '31-60': 0, '61-90': 0, '90+': 0 });
 
@@ -21,19 +22,7 @@ export function bucketFor(ageDays: number): AgeingBucket {
 export async function ageingReport(db: Database, now: Date, asOf?: string): Promise<AgeingReport> {
   const [{ today }, profile] = await Promise.all([coopToday(db, now), getBillingProfile(db)]);
   const at = asOf ?? today;
-  const rows = await db
-    .selectFrom('invoice')
-    .innerJoin('app_user', 'app_user.id', 'invoice.member_id')
-    .select([
-      'invoice.member_id',
-      'app_user.name',
-      sql<number>`(${at}::date - invoice.issued_on)`.as('age'),
-      sql<number>`(invoice.total_cents - invoice.paid_cents - invoice.credited_cents)`.as('due'),
-    ])
-    .where('invoice.status', '=', 'issued')
-    .where('invoice.issued_on', '<=', at)
-    .where(sql<boolean>`invoice.total_cents - invoice.paid_cents - invoice.credited_cents > 0`)
-    .execute();
+  const rows = await openInvoiceAges(db, at);
   const byMember = new Map<string, { memberId: string; memberName: string; buckets: Record<AgeingBucket, number>; totalCents: number }>();
   const totals = emptyBuckets();
   for (const r of rows) {
@@ -60,28 +49,7 @@ export async function billingSummary(db: Database, now: Date): Promise<BillingSu
     ageingReport(db, now),
     listRuns(db, 1, { madeInvoices: true }),
   ]);
-  const row = await db
-    .selectFrom('invoice')
-    .select([
-      sql<number>`count(*) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0)::int`.as('unpaid_count'),
-      sql<number>`coalesce(sum(total_cents - paid_cents - credited_cents) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0), 0)::int`.as(
-        'unpaid_total',
-      ),
-      sql<number>`count(*) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0 and due_on < ${today}::date)::int`.as(
-        'overdue_count',
-      ),
-      sql<number>`coalesce(sum(total_cents - paid_cents - credited_cents) filter (where status = 'issued' and total_cents - paid_cents - credited_cents > 0 and due_on < ${today}::date), 0)::int`.as(
-        'overdue_total',
-      ),
-      sql<number>`count(*) filter (where status = 'draft')::int`.as('drafts'),
-    ])
-    .executeTakeFirstOrThrow();
-  const overpaid = await db
-    .selectFrom('payment')
-    .select([sql<number>`count(*)::int`.as('count'), sql<number>`coalesce(sum(overpaid_cents), 0)::int`.as('total')])
-    .where('overpaid_cents', '>', 0)
-    .where('overpayment_refunded_on', 'is', null)
-    .executeTakeFirstOrThrow();
+  const [row, overpaid] = await Promise.all([invoiceStandings(db, today), openOverpayments(db)]);
   // The last month that has ended.
   let suggested = nextPeriod(today.slice(0, 7), -1);
   if (periodBounds(suggested).next > today) suggested = nextPeriod(suggested, -1);
