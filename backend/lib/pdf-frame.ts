@@ -60,6 +60,21 @@ export interface PdfFrame {
   content: Content[];
 }
 
+/** A4's width in points, portrait or landscape. */
+const a4Width = { portrait: 595.28, landscape: 841.89 } as const;
+
+/**
+ * Whether a line of `text` in `fontSize` certainly fits `width` points: in the font, no character of
+ * Latin-1 and Latin Extended-A is wider than 0.96 em and none of the rest wider than 1.6 em. Such a
+ * line is laid out as one piece instead of word by word, which is most of the cost of a running
+ * header repeated on every page of a long report.
+ */
+function fitsOneLine(text: string, fontSize: number, width: number): boolean {
+  let ems = 0;
+  for (const ch of text) ems += ch.codePointAt(0)! < 0x180 ? 0.96 : 1.6;
+  return ems * fontSize <= width;
+}
+
 /** "4 Dec 2026, 10:00 (Europe/Berlin)": when a document was produced, in the co-op's time zone. */
 export function producedLabel(producedAt: Date, timeZone: string): string {
   return `${formatDateTime(producedAt, { locale: defaultLocale, timeZone })} (${timeZone})`;
@@ -116,17 +131,21 @@ export function framedDocument(frame: PdfFrame): TDocumentDefinitions {
   const produced = `${frame.coop.coopName} · produced ${producedLabel(frame.producedAt, frame.coop.timeZone)} by Cellarwright`;
   const base = pdfBase(frame.coop, frame.title, frame.density);
   const running = frame.runningHeader;
+  const orientation = frame.pageOrientation ?? 'portrait';
+  const runningOneLine = running ? fitsOneLine(running, d.footerSize, a4Width[orientation] - d.margins[0] - d.margins[2]) : false;
   return {
     ...base,
     info: { ...base.info, ...(frame.subject ? { subject: frame.subject } : {}) },
-    pageOrientation: frame.pageOrientation ?? 'portrait',
+    pageOrientation: orientation,
     pageMargins: [...d.margins],
     ...(frame.keepHeadingsWithNext === false ? {} : { pageBreakBefore: keepHeadingsWithNext }),
     ...(frame.watermark ? { watermark: frame.watermark } : {}),
     ...(running
       ? {
           header: (page: number): Content =>
-            page === 1 ? { text: '' } : { text: running, fontSize: d.footerSize, color: pdfColours.muted, margin: [d.margins[0], 20, d.margins[2], 0] },
+            page === 1
+              ? { text: '' }
+              : { text: running, noWrap: runningOneLine, fontSize: d.footerSize, color: pdfColours.muted, margin: [d.margins[0], 20, d.margins[2], 0] },
         }
       : {}),
     footer: (page: number, pages: number): Content => ({
@@ -139,6 +158,7 @@ export function framedDocument(frame: PdfFrame): TDocumentDefinitions {
           fontSize: d.footerSize,
           alignment: 'right',
           width: 'auto',
+          noWrap: true,
         },
       ],
     }),

@@ -45,6 +45,14 @@ export class PdfRenderError extends Error {
 
 const workerFile = new URL('./pdf-render.worker.mjs', import.meta.url);
 
+/**
+ * A render thread's young generation, where the layout's short-lived objects live. pdfmake allocates
+ * for every word it measures and draws (style look-ups, text fragments), and with V8's default size a
+ * long report spends a large part of its time in scavenges; a larger young generation collects less
+ * often, for a few dozen MiB more of the thread's memory.
+ */
+export const renderThreadLimits = { maxYoungGenerationSizeMb: 96 } as const;
+
 export class PdfRenderPool {
   /** 'start' ({ exportName }) when a job is handed to a thread; 'done' ({ exportName, ok }) when it settles. */
   readonly events = new EventEmitter();
@@ -85,7 +93,7 @@ export class PdfRenderPool {
   }
 
   private spawn(): Slot {
-    const worker = new Worker(workerFile);
+    const worker = new Worker(workerFile, { resourceLimits: renderThreadLimits });
     const slot: Slot = { worker, busy: null };
     worker.unref();
     worker.on('message', (msg: { id: number; ok: true; pdf: Uint8Array } | { id: number; ok: false; error: { message: string; stack?: string } }) => {

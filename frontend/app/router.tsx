@@ -39,6 +39,9 @@ const loaders = {
   sanitation: () => import('@/app/loaders/sanitation'),
   billing: () => import('@/app/loaders/billing'),
   members: () => import('@/app/loaders/members'),
+  bookings: () => import('@/app/loaders/bookings'),
+  settings: () => import('@/app/loaders/settings'),
+  audit: () => import('@/app/loaders/audit'),
 };
 
 /** A screen's route with its data fetched ahead by the loader `name` of a loaders chunk. */
@@ -102,28 +105,31 @@ export const routes: RouteObject[] = [
                 lazy: lazy(() => import('@/app/routes/members/members-layout')),
                 children: [
                   { index: true, ...screen(() => import('@/app/routes/members/members'), loaders.members, 'membersLoader') },
-                  { path: 'outbox', lazy: lazy(() => import('@/app/routes/members/outbox')) },
+                  { path: 'outbox', ...screen(() => import('@/app/routes/members/outbox'), loaders.members, 'outboxLoader') },
                 ],
               },
               { path: paths.cellar.slice(1), ...screen(() => import('@/app/routes/cellar/cellar'), loaders.cellar, 'cellarLoader') },
-              { path: `${paths.cellar.slice(1)}/maintenance`, lazy: lazy(() => import('@/app/routes/cellar/maintenance')) },
+              { path: `${paths.cellar.slice(1)}/maintenance`, ...screen(() => import('@/app/routes/cellar/maintenance'), loaders.cellar, 'maintenanceLoader') },
               { path: `${paths.cellar.slice(1)}/:equipmentId`, ...screen(() => import('@/app/routes/cellar/equipment'), loaders.cellar, 'equipmentLoader') },
               {
                 path: paths.bookings.slice(1),
                 lazy: lazy(() => import('@/app/routes/bookings/bookings-layout')),
                 children: [
                   { index: true, ...screen(() => import('@/app/routes/bookings/calendar'), loaders.cellar, 'calendarLoader') },
-                  { path: 'mine', lazy: lazy(() => import('@/app/routes/bookings/mine')) },
-                  { path: 'all', lazy: lazy(() => import('@/app/routes/bookings/all')) },
+                  { path: 'mine', ...screen(() => import('@/app/routes/bookings/mine'), loaders.bookings, 'myBookingsLoader') },
+                  { path: 'all', ...screen(() => import('@/app/routes/bookings/all'), loaders.bookings, 'allBookingsLoader') },
                 ],
               },
               { path: paths.batches.slice(1), ...screen(() => import('@/app/routes/batches/batches'), loaders.batches, 'batchesLoader') },
               { path: `${paths.batches.slice(1)}/:batchId`, ...screen(() => import('@/app/routes/batches/batch'), loaders.batches, 'batchLoader') },
               { path: `${paths.batches.slice(1)}/:batchId/import`, lazy: lazy(() => import('@/app/routes/batches/import')) },
-              { path: paths.productionRecords.slice(1), lazy: lazy(() => import('@/app/routes/batches/production-records')) },
-              { path: paths.traceReport.slice(1), lazy: lazy(() => import('@/app/routes/batches/trace-report')) },
-              { path: paths.settings.slice(1), lazy: lazy(() => import('@/app/routes/settings/settings')) },
-              { path: paths.audit.slice(1), lazy: lazy(() => import('@/app/routes/audit/audit')) },
+              {
+                path: paths.productionRecords.slice(1),
+                ...screen(() => import('@/app/routes/batches/production-records'), loaders.batches, 'productionRecordsLoader'),
+              },
+              { path: paths.traceReport.slice(1), ...screen(() => import('@/app/routes/batches/trace-report'), loaders.batches, 'traceReportLoader') },
+              { path: paths.settings.slice(1), ...screen(() => import('@/app/routes/settings/settings'), loaders.settings, 'settingsLoader') },
+              { path: paths.audit.slice(1), ...screen(() => import('@/app/routes/audit/audit'), loaders.audit, 'auditLoader') },
               {
                 path: paths.sanitation.slice(1),
                 lazy: lazy(() => import('@/app/routes/sanitation/sanitation-layout')),

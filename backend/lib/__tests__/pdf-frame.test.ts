@@ -8,6 +8,7 @@ import { renderCreditNotePdf, renderInvoicePdf } from '../../modules/billing/inv
 import { renderLabelSheet } from '../../modules/equipment/labels-pdf.service.ts';
 import { renderAuditPdf } from '../../modules/sanitation/audit-report.ts';
 import { tracePdf } from '../../modules/batches/trace.service.ts';
+import { framedDocument } from '../pdf-frame.ts';
 
 // Every document is framed the same way: the co-op's name from its settings (never a fixed name),
 // the produced date from the clock in the co-op's time zone, and "Page x of y".
@@ -109,5 +110,22 @@ describe('the one PDF frame', () => {
     const text = pdfText(await renderLabelSheet([keg], 'http://localhost', profile)).replace(/\s+/g, ' ');
     expect(text).toContain('K-001');
     expect(text).toContain('Quarry Lane Brewers');
+  });
+
+  it('lays out a running header that certainly fits as one line, and lets a longer one wrap', () => {
+    const headerOf = (coopName: string) => {
+      const doc = framedDocument({
+        coop: { ...profile, coopName },
+        title: 'Sanitation audit',
+        producedAt,
+        density: 'report',
+        runningHeader: `${coopName} · Sanitation audit 1 Feb 2031 to 28 Feb 2031`,
+        content: [],
+      });
+      return (doc.header as unknown as (page: number) => { text: string; noWrap?: boolean })(2);
+    };
+    expect(headerOf('Quarry Lane Brewers')).toMatchObject({ text: 'Quarry Lane Brewers · Sanitation audit 1 Feb 2031 to 28 Feb 2031', noWrap: true });
+    expect(headerOf('W'.repeat(120)).noWrap).toBe(false);
+    expect(headerOf('Пивоварня '.repeat(5)).noWrap).toBe(false);
   });
 });

@@ -105,12 +105,14 @@ function fillRow(fill: AuditFill, f: Formatters): TableCell[] {
     { text: f.when(fill.at), noWrap: true },
     fill.batch ?? '—',
     fill.volumeLiters === null ? '—' : fill.volumeLiters.toFixed(1),
+    // One unbroken line, as a step's: its width is known (a time, an outcome, the lapse), so it is never wrapped word by word.
     fill.cycle
       ? {
           text: `${f.when(fill.cycle.completedAt)} ${fill.cycle.complete ? 'complete' : outcomeText(fill.cycle.outcome)}${lapsed ? ' (window lapsed)' : ''}`,
+          noWrap: true,
           color: fill.cycle.complete && !lapsed ? ink : danger,
         }
-      : { text: 'none on record', color: danger },
+      : { text: 'none on record', noWrap: true, color: danger },
   ];
 }
 

@@ -2,9 +2,13 @@ import { equipmentKindSchema } from '../../../shared/schemas/equipment.ts';
 import { prefetchLoader, type PrefetchPlan } from '@/app/loaders/prefetch';
 import { getEquipmentQueryOptions } from '@/features/equipment/api/get-equipment';
 import { equipmentListQuery, getEquipmentListQueryOptions } from '@/features/equipment/api/get-equipment-list';
+import { maintenanceListQuery, maintenanceListQueryOptions } from '@/features/equipment/api/inspections';
 
 /** The Cellar list, as its URL says. */
 export const cellarPlan: PrefetchPlan = ({ search }) => [getEquipmentListQueryOptions(equipmentListQuery.parse(search))];
+
+/** Inspections failed, past due or due soon, as the URL says. */
+export const maintenancePlan: PrefetchPlan = ({ search }) => [maintenanceListQueryOptions(maintenanceListQuery.parse(search))];
 
 /** One item of equipment. */
 export const equipmentPlan: PrefetchPlan = ({ params }) => [Boolean(params.equipmentId) && getEquipmentQueryOptions(params.equipmentId ?? '')];
@@ -24,5 +28,6 @@ export const calendarPlan: PrefetchPlan = ({ search }) => {
 };
 
 export const cellarLoader = prefetchLoader(cellarPlan);
+export const maintenanceLoader = prefetchLoader(maintenancePlan);
 export const equipmentLoader = prefetchLoader(equipmentPlan);
 export const calendarLoader = prefetchLoader(calendarPlan);

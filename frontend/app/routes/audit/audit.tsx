@@ -1,47 +1,23 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
-import { z } from 'zod';
 import { auditSortFields, auditSubjectTypes, type AuditChange, type AuditEntry } from '../../../../shared/schemas/audit.ts';
-import { defaultPageSize, maxPageSize } from '../../../../shared/schemas/pagination.ts';
 import { Forbidden } from '@/components/errors/forbidden';
-import { dateTimeCell, defineListQuery, FilterField, FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
+import { dateTimeCell, FilterField, FilterSelect, ListTable, useListQuery } from '@/components/list-kit';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
 import { paths, invoiceHref } from '@/config/paths';
-import { useAuditTrail } from '@/features/audit/api/get-audit';
+import { auditListQuery, auditPeopleQuery, auditTrailRequest, useAuditTrail } from '@/features/audit/api/get-audit';
 import { cellarPaths } from '@/config/cellar-paths';
 import { useUsers } from '@/features/users/api/get-users';
 import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useAppAbility } from '@/lib/ability';
 import { formatDateTime } from '@/utils/format';
 
-const day = z.iso.date();
-
-/** The screen's state, all of it in the URL: filters, sort and page. Bad values fall back to the defaults. */
-const screenQuerySchema = z.object({
-  page: z.coerce.number().int().min(1).catch(1),
-  pageSize: z.coerce.number().int().min(1).max(maxPageSize).catch(defaultPageSize),
-  sort: z.enum(auditSortFields).catch('at'),
-  order: z.enum(['asc', 'desc']).catch('desc'),
-  actorId: z.uuid().optional().catch(undefined),
-  subjectType: z.string().max(40).optional().catch(undefined),
-  subjectId: z.string().max(80).optional().catch(undefined),
-  from: day.optional().catch(undefined),
-  to: day.optional().catch(undefined),
-});
-const auditListQuery = defineListQuery(screenQuerySchema);
 const subjectTypeLabels = Object.fromEntries(auditSubjectTypes.map((t) => [t, t.replace(/([a-z])([A-Z])/g, '$1 $2')])) as Record<
   (typeof auditSubjectTypes)[number],
   string
 >;
-
-/** A day in the browser's time zone as the instant it starts (`next`: the instant it ends). */
-const dayStart = (d: string, next = false) => {
-  const t = new Date(`${d}T00:00:00`);
-  if (next) t.setDate(t.getDate() + 1);
-  return t.toISOString();
-};
 
 /** Where a record of the trail has a screen of its own. */
 function recordHref(e: Pick<AuditEntry, 'subjectType' | 'subjectId'>): string | null {
@@ -106,22 +82,8 @@ const AuditRoute = () => {
   const ability = useAppAbility();
   const allowed = ability.can('read', 'AuditLog');
   const { query, setQuery, hasFilters: filtered, clearFilters } = useListQuery(auditListQuery);
-  const people = useUsers({ page: 1, pageSize: 100, sort: 'name', order: 'asc', q: undefined });
-  const trail = useAuditTrail(
-    allowed
-      ? {
-          page: query.page,
-          pageSize: query.pageSize,
-          sort: query.sort,
-          order: query.order,
-          actorId: query.actorId,
-          subjectType: query.subjectType,
-          subjectId: query.subjectId,
-          from: query.from ? dayStart(query.from) : undefined,
-          to: query.to ? dayStart(query.to, true) : undefined,
-        }
-      : {},
-  );
+  const people = useUsers(auditPeopleQuery);
+  const trail = useAuditTrail(allowed ? auditTrailRequest(query) : {});
 
   const columns = useMemo(
     () => [

@@ -39,6 +39,9 @@ export function useRefillCylinder(id: string) {
 /** The maintenance list's state in the URL: the most urgent first. */
 export const maintenanceListQuery = defineListQuery(maintenanceListQuerySchema);
 
+export const maintenanceListQueryOptions = (query: MaintenanceListQuery) =>
+  pageQueryOptions<MaintenanceItem>(equipmentKeys.maintenance(query), '/api/equipment/maintenance', query);
+
 export function useMaintenanceList(query: MaintenanceListQuery) {
-  return useQuery(pageQueryOptions<MaintenanceItem>(equipmentKeys.maintenance(query), '/api/equipment/maintenance', query));
+  return useQuery(maintenanceListQueryOptions(query));
 }
