@@ -21,6 +21,15 @@ export function containsPattern(text: string): string {
   return `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 }
 
+/** A condition: `text` stands anywhere in one of `columns` (case-insensitive, `%` and `_` taken literally). */
+export function containsAny(columns: readonly string[], text: string) {
+  const like = containsPattern(text);
+  return sql<boolean>`(${sql.join(
+    columns.map((c) => sql`${sql.ref(c)} ilike ${like}`),
+    sql` or `,
+  )})`;
+}
+
 /**
  * Orders a query by a column from the list's allow-list (`columns` maps what a client may send to the SQL
  * expression), nulls last either way, then by `tieBreaker` (ascending unless `tieOrder` says otherwise) so
@@ -59,4 +68,13 @@ export async function paginate<DB, TB extends keyof DB, O>(
 /** The page a list endpoint answers: the rows turned into items, with the count and the page asked for. */
 export function pageOf<R, T>({ rows, total }: { rows: R[]; total: number }, toItem: (row: R) => T, { page, pageSize }: PageRequest): Page<T> {
   return { items: rows.map(toItem), total, page, pageSize };
+}
+
+/** The page of a list whose rows are ids: its items are what `views` makes of those ids, in the page's order. */
+export async function pageOfViews<T>(
+  { rows, total }: { rows: { id: string }[]; total: number },
+  views: (ids: string[]) => Promise<T[]>,
+  { page, pageSize }: PageRequest,
+): Promise<Page<T>> {
+  return { items: await views(rows.map((r) => r.id)), total, page, pageSize };
 }

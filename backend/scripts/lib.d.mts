@@ -7,6 +7,7 @@ export const tsx: string;
 export const vite: string;
 export function log(msg: string): void;
 export function freePort(): Promise<number>;
+export function stopChild(child: ChildProcess, killAfterMs?: number, signal?: NodeJS.Signals): Promise<void>;
 export function pgBinDir(): string;
 export function nginxBin(): string;
 export function withDatabase(url: string, name: string): string;

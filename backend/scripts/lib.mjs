@@ -218,18 +218,22 @@ export function superviseChild(
       stopped = true;
       if (timer) clearTimeout(timer);
       timer = null;
-      const c = child;
-      if (!c || c.exitCode !== null || c.signalCode !== null) return Promise.resolve();
-      return new Promise((resolve) => {
-        const kill = setTimeout(() => c.kill('SIGKILL'), killAfterMs);
-        c.once('exit', () => {
-          clearTimeout(kill);
-          resolve();
-        });
-        c.kill(signal);
-      });
+      return child ? stopChild(child, killAfterMs, signal) : Promise.resolve();
     },
   };
+}
+
+/** Stops a child with `signal` (SIGKILL after `killAfterMs`); resolves once it has exited. */
+export function stopChild(child, killAfterMs = 10_000, signal = 'SIGTERM') {
+  if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
+  return new Promise((resolve) => {
+    const kill = setTimeout(() => child.kill('SIGKILL'), killAfterMs);
+    child.once('exit', () => {
+      clearTimeout(kill);
+      resolve();
+    });
+    child.kill(signal);
+  });
 }
 
 export const tsx = path.join(root, 'node_modules', '.bin', 'tsx');

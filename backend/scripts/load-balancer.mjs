@@ -6,7 +6,7 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { freePort, nginxBin, root, serverDir } from './lib.mjs';
+import { freePort, nginxBin, root, serverDir, stopChild } from './lib.mjs';
 
 /** The nginx configuration: one upstream of every instance, round robin, connections to them kept open. */
 export function nginxConfig({ dir, port, upstreams }) {
@@ -79,19 +79,6 @@ export async function waitForOk(url, what, timeoutMs = 60_000) {
     if (Date.now() > until) throw new Error(`${what} did not answer ${url} within ${timeoutMs} ms`);
     await new Promise((r) => setTimeout(r, 200));
   }
-}
-
-/** Stops a child with SIGTERM (SIGKILL after `killAfterMs`); resolves once it has exited. */
-function stopChild(child, killAfterMs = 10_000, signal = 'SIGTERM') {
-  if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
-  return new Promise((resolve) => {
-    const kill = setTimeout(() => child.kill('SIGKILL'), killAfterMs);
-    child.once('exit', () => {
-      clearTimeout(kill);
-      resolve();
-    });
-    child.kill(signal);
-  });
 }
 
 /**

@@ -1,7 +1,7 @@
 import type { Selectable } from 'kysely';
 import type { Database } from '../../backend/db/database.ts';
 import type { SanitationCycleTable, SanitationStepTable } from '../../backend/db/tables/cellar-operations.ts';
-import { cycleFields, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.repository.ts';
+import { cycleFields, lockVessel, stepRows as buildStepRows } from '../../backend/modules/sanitation/sanitation.repository.ts';
 import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
 import { blockingViolations, evaluateCycle, outcomeReason, type CycleEvaluation } from '../../shared/cellar/sanitation-rules.ts';
@@ -72,12 +72,8 @@ export async function createSanitationCycle(db: Database, o: SanitationCycleOver
     const refused = blockingViolations(steps, settings);
     if (refused.length) throw new Error(`createSanitationCycle: the API would refuse these steps: ${refused.map((v) => v.message).join(' ')}`);
     const ev = evaluateCycle(steps, settings);
-    const vessel = await trx
-      .selectFrom('equipment')
-      .select(['id', 'code', 'kind', 'state'])
-      .where('id', '=', o.equipmentId)
-      .forUpdate()
-      .executeTakeFirstOrThrow();
+    const vessel = await lockVessel(trx, o.equipmentId);
+    if (!vessel) throw new Error(`createSanitationCycle: no vessel ${o.equipmentId}`);
     if (vessel.kind !== 'fermenter' && vessel.kind !== 'keg') throw new Error(`createSanitationCycle: ${vessel.code} is a ${vessel.kind}`);
     if (vessel.state === 'holding' || vessel.state === 'out_of_service') throw new Error(`createSanitationCycle: ${vessel.code} is ${vessel.state}`);
     const recordedBy = o.recordedBy ?? null;

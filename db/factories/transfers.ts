@@ -5,7 +5,15 @@ import { batchGravityFigures } from '../../backend/modules/batches/figures.ts';
 import { fillBestBefore } from '../../backend/modules/batches/shelf-life.ts';
 import { sanitationSettings } from '../../backend/modules/sanitation/sanitation.service.ts';
 import { writeStateChange } from '../../backend/modules/equipment/vessel-state.ts';
-import { fillFigures, kegFillValues, markBatchPackaged, transferFigureValues } from '../../backend/modules/transfers/transfers.repository.ts';
+import {
+  fillFigures,
+  kegFillValues,
+  lockBatch,
+  lockFermenter,
+  markBatchPackaged,
+  setBatchPackagedStatus,
+  transferFigureValues,
+} from '../../backend/modules/transfers/transfers.repository.ts';
 import { transferChecklistItems } from '../../shared/schemas/transfers.ts';
 import { type At, DAY, HOUR, inTransaction, MINUTE, toDate } from './common.ts';
 import { createBatch } from './batches.ts';
@@ -64,13 +72,9 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
   const startedAt = o.startedAt === null ? null : o.startedAt !== undefined ? toDate(o.startedAt, 'startedAt') : new Date(at.getTime() - 40 * MINUTE);
   return inTransaction(db, async (trx) => {
     const settings = await sanitationSettings(trx);
-    const batch = await trx.selectFrom('batch').select(['id', 'name', 'volume_liters']).where('id', '=', o.batchId).forUpdate().executeTakeFirstOrThrow();
-    const fermenter = await trx
-      .selectFrom('equipment')
-      .select(['id', 'code', 'state', 'attributes'])
-      .where('id', '=', o.fromEquipmentId)
-      .forUpdate()
-      .executeTakeFirstOrThrow();
+    const batch = await lockBatch(trx, o.batchId);
+    const fermenter = await lockFermenter(trx, o.fromEquipmentId);
+    if (!batch || !fermenter) throw new Error(`createTransfer: no batch ${o.batchId} or no fermenter ${o.fromEquipmentId}`);
     const kegs = [];
     for (const id of o.kegIds) {
       if (o.sanitizeKegs !== false) {
@@ -121,7 +125,7 @@ export async function createTransfer(db: Database, o: TransferOverrides): Promis
     }
     const packaged = round2(perKeg.reduce((s, v) => s + v, 0));
 
-    await trx.updateTable('batch').set({ status: 'packaged', updated_at: at }).where('id', '=', batch.id).execute();
+    await setBatchPackagedStatus(trx, batch.id, at);
     const figures = fillFigures(await batchGravityFigures(trx, batch.id, at));
     const method = (fermenter.attributes as { hasValve?: boolean }).hasValve === false ? 'siphon' : 'bottom_valve';
     const checklist: Record<string, unknown> = { drawMethod: method };

@@ -4,8 +4,9 @@ import type { CarbonationSettings } from '../../../shared/schemas/cellar-setting
 import type { CarbonationPlanView, LineCheckView } from '../../../shared/schemas/carbonation.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
-import { orderByAllowed, paginate } from '../../lib/paginate.ts';
+import { pageOfViews } from '../../lib/paginate.ts';
 import { getSetting } from '../settings/settings.service.ts';
+import { planPage, planRows, type PlanListQuery } from './carbonation.repository.ts';
 
 /** Carbonation plans as the API shows them: one plan, a page of plans, and whose keg a plan is on. */
 
@@ -18,16 +19,7 @@ export async function carbonationSettings(db: Database): Promise<CarbonationSett
 
 export async function planViews(db: Database, ids: string[]): Promise<CarbonationPlanView[]> {
   if (!ids.length) return [];
-  const rows = await db
-    .selectFrom('carbonation_plan as cp')
-    .innerJoin('equipment as k', 'k.id', 'cp.keg_id')
-    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
-    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
-    .leftJoin('app_user as u', 'u.id', 'cp.created_by')
-    .selectAll('cp')
-    .select(['k.code as keg_code', 'b.name as batch_name', 'u.name as created_by_name'])
-    .where('cp.id', 'in', ids)
-    .execute();
+  const rows = await planRows(db, ids);
   const settings = await carbonationSettings(db);
   const byId = new Map(
     rows.map((r): [string, CarbonationPlanView] => {
@@ -107,59 +99,8 @@ export async function planViews(db: Database, ids: string[]): Promise<Carbonatio
   return ids.map((id) => byId.get(id)).filter((v): v is CarbonationPlanView => Boolean(v));
 }
 
-const planSort = { createdAt: 'cp.created_at', readyAt: 'cp.ready_at', lowerPressureAt: 'cp.lower_pressure_at' } as const;
-
-export async function listPlans(
-  db: Database,
-  q: {
-    kegId?: string | undefined;
-    state?: string | undefined;
-    lowerDue?: boolean | undefined;
-    sort: keyof typeof planSort;
-    order: 'asc' | 'desc';
-    page: number;
-    pageSize: number;
-  },
-  now: Date,
-  memberId?: string,
-): Promise<Page<CarbonationPlanView>> {
-  let base = db
-    .selectFrom('carbonation_plan as cp')
-    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
-    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
-    .leftJoin('batch as b', 'b.id', 'kf.batch_id');
-  if (memberId) base = base.where((eb) => eb.or([eb('kw.member_id', '=', memberId), eb('b.owner_id', '=', memberId)]));
-  if (q.kegId) base = base.where('cp.keg_id', '=', q.kegId);
-  if (q.state) base = base.where('cp.state', '=', q.state as never);
-  if (q.lowerDue) {
-    base = base
-      .where('cp.state', '=', 'active')
-      .where('cp.method', '=', 'fast_start')
-      .where('cp.pressure_lowered_at', 'is', null)
-      .where('cp.lower_pressure_at', '<=', now);
-  }
-  const { rows, total } = await paginate(base, (qb) => orderByAllowed(qb.select('cp.id'), planSort, q, 'cp.id'), q);
-  return {
-    items: await planViews(
-      db,
-      rows.map((r) => r.id),
-    ),
-    total,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
+export async function listPlans(db: Database, q: PlanListQuery, now: Date, memberId?: string): Promise<Page<CarbonationPlanView>> {
+  return pageOfViews(await planPage(db, q, now, memberId), (ids) => planViews(db, ids), q);
 }
 
-/** The member a plan's keg belongs to, for the permission policy. */
-export async function planMemberId(db: Database, planId: string): Promise<string | null | undefined> {
-  const r = await db
-    .selectFrom('carbonation_plan as cp')
-    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
-    .leftJoin('keg_fill as kf', 'kf.id', 'cp.keg_fill_id')
-    .leftJoin('batch as b', 'b.id', 'kf.batch_id')
-    .select(['cp.id', 'kw.member_id', 'b.owner_id'])
-    .where('cp.id', '=', planId)
-    .executeTakeFirst();
-  if (!r) return undefined;
-  return r.member_id ?? r.owner_id ?? null;
-}
+export { planMemberId } from './carbonation.repository.ts';

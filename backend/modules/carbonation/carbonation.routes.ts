@@ -1,5 +1,5 @@
 import { ForbiddenError } from '@casl/ability';
-import { Router, type Request } from 'express';
+import type { Request, Router } from 'express';
 import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import {
@@ -8,19 +8,16 @@ import {
   previewCarbonationPlanSchema,
   updateCarbonationPlanSchema,
 } from '../../../shared/schemas/carbonation.ts';
-import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { createHandler, listHandler, signedInRouter } from '../../lib/route-handlers.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { listPlans, planMemberId, planViews } from './carbonation-queries.service.ts';
 import { createPlan, markPressureLowered, previewPlan, setPlanState } from './carbonation.service.ts';
 
 /** `/api/carbonation-plans`: target CO2 volumes → regulator pressure, ready date and the fast-start reminder. */
 export function carbonationRoutes({ db, queue, clock }: Deps): Router {
-  const router = Router();
-  uuidParams(router, { id: 'Carbonation plan' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Carbonation plan' });
 
   router.post('/preview', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
@@ -28,17 +25,11 @@ export function carbonationRoutes({ db, queue, clock }: Deps): Router {
     res.json({ plan: await previewPlan(db, input, clock.now()) });
   });
 
-  router.post('/', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('create', 'CarbonationPlan');
-    const input = createCarbonationPlanSchema.parse(req.body ?? {});
-    res.status(201).json({ plan: await createPlan(db, queue, input, userOf(req), clock.now()) });
-  });
-
-  router.get('/', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('read', 'CarbonationPlan');
-    const q = carbonationPlanListQuerySchema.parse(req.query);
-    res.json(await listPlans(db, q, clock.now(), canAll(req.ability, 'read', 'CarbonationPlan') ? undefined : userOf(req).id));
-  });
+  const create = createHandler(createCarbonationPlanSchema, 'CarbonationPlan', async (input, actor) => ({
+    plan: await createPlan(db, queue, input, actor, clock.now()),
+  }));
+  const list = listHandler(carbonationPlanListQuerySchema, 'CarbonationPlan', (q, { restrictTo }) => listPlans(db, q, clock.now(), restrictTo));
+  router.route('/').post(create).get(list);
 
   /** Loads a plan the person may see (404 otherwise) and checks `action` on it. */
   async function visiblePlan(req: Request, action: 'read' | 'update') {

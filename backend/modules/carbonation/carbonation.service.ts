@@ -11,6 +11,19 @@ import { enqueueMail } from '../../lib/mailer.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
 import { pressureReminder } from '../mail/templates/pressure-reminder.ts';
 import { carbonationSettings, planViews } from './carbonation-queries.service.ts';
+import {
+  activeBrewers,
+  equipmentWithAttributes,
+  insertPlan,
+  kegAttributes,
+  kegTapId,
+  lockKeg,
+  lockPlan,
+  openFillId,
+  supersedeActivePlans,
+  unremindedPlanIds,
+  updatePlan,
+} from './carbonation.repository.ts';
 
 export const carbonationReminderQueue = 'cellar.carbonation-reminder';
 
@@ -80,17 +93,14 @@ async function resolveLine(db: Database, input: PlanFields): Promise<Line | null
   if (input.line) {
     // A line given with a tap: the tap's line as checked on screen (another line type or resistance).
     if (tapId) {
-      const tap = await db.selectFrom('equipment').select(['id', 'kind']).where('id', '=', tapId).executeTakeFirst();
+      const tap = await equipmentWithAttributes(db, tapId);
       if (!tap || tap.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
     }
     return { tapId, ...input.line };
   }
-  if (!tapId && input.kegId) {
-    const kw = await db.selectFrom('keg_whereabouts').select('tap_id').where('keg_id', '=', input.kegId).executeTakeFirst();
-    tapId = kw?.tap_id ?? null;
-  }
+  if (!tapId && input.kegId) tapId = await kegTapId(db, input.kegId);
   if (!tapId) return null;
-  const tap = await db.selectFrom('equipment').select(['id', 'kind', 'attributes']).where('id', '=', tapId).executeTakeFirst();
+  const tap = await equipmentWithAttributes(db, tapId);
   if (!tap || tap.kind !== 'tap') throw unprocessable('That is not a tap position.', [{ path: 'tapId', message: 'Pick a tap position' }]);
   const a = (tap.attributes ?? {}) as Record<string, unknown>;
   if (typeof a.lineLengthM !== 'number' || typeof a.lineInsideDiameterMm !== 'number') return null;
@@ -107,8 +117,7 @@ async function resolveLine(db: Database, input: PlanFields): Promise<Line | null
 /** The keg's rated working pressure (kPa gauge) from the registry, null when not recorded. */
 async function kegRating(db: Database, kegId: string | undefined): Promise<number | null> {
   if (!kegId) return null;
-  const keg = await db.selectFrom('equipment').select('attributes').where('id', '=', kegId).where('kind', '=', 'keg').executeTakeFirst();
-  const rated = (keg?.attributes as { ratedPressureKpa?: unknown } | undefined)?.ratedPressureKpa;
+  const rated = ((await kegAttributes(db, kegId)) as { ratedPressureKpa?: unknown } | null | undefined)?.ratedPressureKpa;
   return typeof rated === 'number' && rated > 0 ? rated : null;
 }
 
@@ -161,61 +170,51 @@ export async function createPlan(
   const line = await resolveLine(db, input);
   const p = computePlan(input, settings, line, now);
   const { planId, superseded } = await db.transaction().execute(async (trx) => {
-    const keg = await trx.selectFrom('equipment').select(['id', 'code', 'kind', 'state']).where('id', '=', input.kegId).forUpdate().executeTakeFirst();
+    const keg = await lockKeg(trx, input.kegId);
     if (!keg || keg.kind !== 'keg') throw notFound('Keg');
     if (keg.state !== 'holding') throw conflict(`${keg.code} holds no beer to carbonate.`);
     // A keg past its pressure test, relief-valve check or seal service (or failing one) is not put under pressure.
     await assertInspected(trx, [keg], 'carbonated', now);
     checkRating(p, await kegRating(trx, keg.id));
-    const fill = await trx.selectFrom('keg_fill').select('id').where('keg_id', '=', keg.id).where('emptied_at', 'is', null).executeTakeFirst();
-    const old = await trx
-      .updateTable('carbonation_plan')
-      .set({ state: 'superseded', updated_at: now })
-      .where('keg_id', '=', keg.id)
-      .where('state', '=', 'active')
-      .returning(['id', 'reminder_job_id'])
-      .execute();
-    const row = await trx
-      .insertInto('carbonation_plan')
-      .values({
-        keg_id: keg.id,
-        keg_fill_id: fill?.id ?? null,
-        method: input.method,
-        style_family: input.styleFamily ?? '',
-        target_volumes: input.targetVolumes,
-        temperature_c: p.temperatureC,
-        altitude_m: p.altitudeM,
-        serving_pressure_kpa: round(p.result.servingPressureKpa),
-        fast_pressure_kpa: p.fastStartPressureKpa ?? null,
-        fast_hours: p.fastStartHours ?? null,
-        hold_days: input.method === 'set_and_hold' ? p.holdDays : null,
-        settle_days: p.settleDays ?? null,
-        started_at: p.result.startedAt,
-        lower_pressure_at: p.result.lowerPressureAt,
-        ready_at: p.result.readyAt,
-        tap_id: p.lineCheck?.tapId ?? null,
-        line_length_m: p.lineCheck?.lengthM ?? null,
-        line_inside_diameter_mm: p.lineCheck?.insideDiameterMm ?? null,
-        line_rise_m: p.lineCheck?.riseM ?? null,
-        line_material: p.lineCheck?.material ?? null,
-        line_resistance_kpa_per_m:
-          p.lineCheck?.resistanceKpaPerM !== null && p.lineCheck?.resistanceKpaPerM !== undefined ? round(p.lineCheck.resistanceKpaPerM) : null,
-        line_balanced_length_m: p.lineCheck?.balancedLengthM !== null && p.lineCheck?.balancedLengthM !== undefined ? round(p.lineCheck.balancedLengthM) : null,
-        notes: input.notes ?? '',
-        created_by: actor.id,
-        created_at: now,
-        updated_at: now,
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    await audit(trx, actor.id, 'created', 'CarbonationPlan', row.id, {
+    const fillId = await openFillId(trx, keg.id);
+    const old = await supersedeActivePlans(trx, keg.id, now);
+    const planId = await insertPlan(trx, {
+      keg_id: keg.id,
+      keg_fill_id: fillId,
+      method: input.method,
+      style_family: input.styleFamily ?? '',
+      target_volumes: input.targetVolumes,
+      temperature_c: p.temperatureC,
+      altitude_m: p.altitudeM,
+      serving_pressure_kpa: round(p.result.servingPressureKpa),
+      fast_pressure_kpa: p.fastStartPressureKpa ?? null,
+      fast_hours: p.fastStartHours ?? null,
+      hold_days: input.method === 'set_and_hold' ? p.holdDays : null,
+      settle_days: p.settleDays ?? null,
+      started_at: p.result.startedAt,
+      lower_pressure_at: p.result.lowerPressureAt,
+      ready_at: p.result.readyAt,
+      tap_id: p.lineCheck?.tapId ?? null,
+      line_length_m: p.lineCheck?.lengthM ?? null,
+      line_inside_diameter_mm: p.lineCheck?.insideDiameterMm ?? null,
+      line_rise_m: p.lineCheck?.riseM ?? null,
+      line_material: p.lineCheck?.material ?? null,
+      line_resistance_kpa_per_m:
+        p.lineCheck?.resistanceKpaPerM !== null && p.lineCheck?.resistanceKpaPerM !== undefined ? round(p.lineCheck.resistanceKpaPerM) : null,
+      line_balanced_length_m: p.lineCheck?.balancedLengthM !== null && p.lineCheck?.balancedLengthM !== undefined ? round(p.lineCheck.balancedLengthM) : null,
+      notes: input.notes ?? '',
+      created_by: actor.id,
+      created_at: now,
+      updated_at: now,
+    });
+    await audit(trx, actor.id, 'created', 'CarbonationPlan', planId, {
       kegId: keg.id,
       code: keg.code,
       method: input.method,
       targetVolumes: input.targetVolumes,
       servingPressureKpa: round(p.result.servingPressureKpa),
     });
-    return { planId: row.id, superseded: old };
+    return { planId, superseded: old };
   });
 
   // Reminders live in the queue; a superseded plan's reminder is withdrawn. The queue counts its own
@@ -224,7 +223,7 @@ export async function createPlan(
   if (p.result.lowerPressureAt) {
     const waitSeconds = Math.max(0, Math.ceil((new Date(p.result.lowerPressureAt).getTime() - now.getTime()) / 1000));
     const jobId = await queue.sendAfter(carbonationReminderQueue, { planId }, { singletonKey: planId, retryLimit: 5, retryDelay: 30 }, waitSeconds);
-    if (jobId) await db.updateTable('carbonation_plan').set({ reminder_job_id: jobId }).where('id', '=', planId).execute();
+    if (jobId) await updatePlan(db, planId, { reminder_job_id: jobId });
   }
   const [view] = await planViews(db, [planId]);
   return view!;
@@ -232,17 +231,12 @@ export async function createPlan(
 
 export async function markPressureLowered(db: Database, queue: PgBoss, planId: string, actor: { id: string }, now: Date) {
   const row = await db.transaction().execute(async (trx) => {
-    const plan = await trx
-      .selectFrom('carbonation_plan')
-      .select(['id', 'state', 'method', 'pressure_lowered_at', 'reminder_job_id'])
-      .where('id', '=', planId)
-      .forUpdate()
-      .executeTakeFirst();
+    const plan = await lockPlan(trx, planId);
     if (!plan) throw notFound('Carbonation plan');
     if (plan.state !== 'active') throw conflict('This plan is no longer active.');
     if (plan.method !== 'fast_start') throw conflict('Only a fast start has a pressure to lower.');
     if (plan.pressure_lowered_at) throw conflict('The pressure was already lowered.');
-    await trx.updateTable('carbonation_plan').set({ pressure_lowered_at: now, updated_at: now }).where('id', '=', planId).execute();
+    await updatePlan(trx, planId, { pressure_lowered_at: now, updated_at: now });
     await audit(trx, actor.id, 'pressure_lowered', 'CarbonationPlan', planId, {});
     return plan;
   });
@@ -251,10 +245,10 @@ export async function markPressureLowered(db: Database, queue: PgBoss, planId: s
 
 export async function setPlanState(db: Database, queue: PgBoss, planId: string, state: 'done' | 'cancelled', actor: { id: string }, now: Date) {
   const row = await db.transaction().execute(async (trx) => {
-    const plan = await trx.selectFrom('carbonation_plan').select(['id', 'state', 'reminder_job_id']).where('id', '=', planId).forUpdate().executeTakeFirst();
+    const plan = await lockPlan(trx, planId);
     if (!plan) throw notFound('Carbonation plan');
     if (plan.state !== 'active') throw conflict('This plan is no longer active.');
-    await trx.updateTable('carbonation_plan').set({ state, updated_at: now }).where('id', '=', planId).execute();
+    await updatePlan(trx, planId, { state, updated_at: now });
     await audit(trx, actor.id, state === 'done' ? 'completed' : 'cancelled', 'CarbonationPlan', planId, {});
     return plan;
   });
@@ -267,38 +261,14 @@ export async function setPlanState(db: Database, queue: PgBoss, planId: string, 
  */
 export async function sendLowerPressureReminder(db: Database, queue: PgBoss, planId: string, now: Date): Promise<boolean> {
   const claimed = await db.transaction().execute(async (trx) => {
-    const plan = await trx
-      .selectFrom('carbonation_plan as cp')
-      .innerJoin('equipment as k', 'k.id', 'cp.keg_id')
-      .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'cp.keg_id')
-      .leftJoin('equipment as t', 't.id', 'kw.tap_id')
-      .select([
-        'cp.id',
-        'cp.state',
-        'cp.method',
-        'cp.pressure_lowered_at',
-        'cp.reminder_sent_at',
-        'cp.serving_pressure_kpa',
-        'cp.fast_pressure_kpa',
-        'k.code',
-        't.code as tap_code',
-      ])
-      .where('cp.id', '=', planId)
-      .forUpdate('cp')
-      .executeTakeFirst();
+    const plan = await lockPlan(trx, planId);
     if (!plan || plan.state !== 'active' || plan.method !== 'fast_start' || plan.pressure_lowered_at || plan.reminder_sent_at) return null;
-    await trx.updateTable('carbonation_plan').set({ reminder_sent_at: now }).where('id', '=', planId).execute();
+    await updatePlan(trx, planId, { reminder_sent_at: now });
     await audit(trx, null, 'reminded', 'CarbonationPlan', planId, { code: plan.code });
     return plan;
   });
   if (!claimed) return false;
-  const brewers = await db
-    .selectFrom('app_user')
-    .select(['email', 'name'])
-    .where('is_active', '=', true)
-    .where((eb) => eb(eb.val('brewer_on_duty'), '=', eb.fn.any('roles')))
-    .execute();
-  for (const b of brewers) {
+  for (const b of await activeBrewers(db)) {
     const mail = pressureReminder({
       recipientName: b.name,
       kegCode: claimed.code,
@@ -313,16 +283,8 @@ export async function sendLowerPressureReminder(db: Database, queue: PgBoss, pla
 
 /** Reminders due by now that were never sent (their job lost, or the plan seeded): sent once each. */
 export async function sendDueReminders(db: Database, queue: PgBoss, now: Date): Promise<number> {
-  const due = await db
-    .selectFrom('carbonation_plan')
-    .select('id')
-    .where('state', '=', 'active')
-    .where('method', '=', 'fast_start')
-    .where('pressure_lowered_at', 'is', null)
-    .where('reminder_sent_at', 'is', null)
-    .where('lower_pressure_at', '<=', new Date(now.getTime() - 5 * 60_000))
-    .execute();
+  const due = await unremindedPlanIds(db, new Date(now.getTime() - 5 * 60_000));
   let sent = 0;
-  for (const p of due) if (await sendLowerPressureReminder(db, queue, p.id, now)) sent += 1;
+  for (const id of due) if (await sendLowerPressureReminder(db, queue, id, now)) sent += 1;
   return sent;
 }

@@ -1,5 +1,5 @@
 import { ForbiddenError } from '@casl/ability';
-import { Router, type Request, type Response } from 'express';
+import type { Request, Response, Router } from 'express';
 import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import {
@@ -11,12 +11,12 @@ import {
   kegMoveSchema,
   kegReturnSchema,
   kegUndoSchema,
+  type KegListQuery,
 } from '../../../shared/schemas/kegs.ts';
-import { canAll } from '../../lib/authz.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { listHandler, signedInRouter, type Parser } from '../../lib/route-handlers.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import {
   checkOutKeg,
   emptyKeg,
@@ -35,26 +35,15 @@ import {
 
 /** `/api/kegs`: whereabouts, check-out and return, overdue, a keg's page and history, the tap board. */
 export function kegsRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  uuidParams(router, { id: 'Keg' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Keg' });
 
-  const visibility = (req: Request) => ({
-    memberId: canAll(req.ability, 'read', 'Keg') ? undefined : userOf(req).id,
-    showOwner: req.ability.can('readOwner', 'Keg'),
-  });
-
-  router.get('/', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Keg');
-    const q = kegListQuerySchema.parse(req.query);
-    res.json(await listKegs(db, q, visibility(req), clock.now()));
-  });
-
-  router.get('/overdue', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('read', 'Keg');
-    const q = kegListQuerySchema.parse({ sort: 'dueAt', ...req.query, overdue: 'true' });
-    res.json(await listKegs(db, q, visibility(req), clock.now()));
-  });
+  /** A list of kegs: a member sees the kegs they hold; holders are named to whoever may see them. */
+  const kegList = (query: Parser<KegListQuery>) =>
+    listHandler(query, 'Keg', (q, { req, restrictTo }) =>
+      listKegs(db, q, { memberId: restrictTo, showOwner: req.ability.can('readOwner', 'Keg') }, clock.now()),
+    );
+  router.get('/', kegList(kegListQuerySchema));
+  router.get('/overdue', kegList({ parse: (query) => kegListQuerySchema.parse({ sort: 'dueAt', ...(query as object), overdue: 'true' }) }));
 
   router.get('/tap-board', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'Equipment');
@@ -89,29 +78,29 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     res.status(status).json({ keg: kegView(row!, req.ability.can('readOwner', 'Keg')), ...(undo ? { undo } : {}) });
   };
 
-  router.post('/:id/check-out', async (req, res) => {
-    const row = await loadVisible(req);
-    ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
-    const input = kegCheckOutSchema.parse(req.body ?? {});
-    await checkOutKeg(db, row.id, input, userOf(req), clock.now());
-    await answer(req, res);
-  });
+  /** An action on a keg the person may see and `checkout`: the body parsed, the action run, the keg as it is now (with its undo offer, if any). */
+  const checkoutAction =
+    <I>(body: Parser<I>, run: (kegId: string, input: I, actor: { id: string }, now: Date) => Promise<KegUndoOffer | void>) =>
+    async (req: Request, res: Response) => {
+      const row = await loadVisible(req);
+      ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
+      const input = body.parse(req.body ?? {});
+      const undo = await run(row.id, input, userOf(req), clock.now());
+      await answer(req, res, 200, undo ?? undefined);
+    };
 
-  router.post('/:id/return', async (req, res) => {
-    const row = await loadVisible(req);
-    ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
-    const input = kegReturnSchema.parse(req.body ?? {});
-    const undo = await returnKeg(db, row.id, input, userOf(req), clock.now());
-    await answer(req, res, 200, undo);
-  });
-
-  router.post('/:id/move', async (req, res) => {
-    const row = await loadVisible(req);
-    ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
-    const input = kegMoveSchema.parse(req.body ?? {});
-    await moveKeg(db, row.id, input, userOf(req), clock.now());
-    await answer(req, res);
-  });
+  router.post(
+    '/:id/check-out',
+    checkoutAction(kegCheckOutSchema, (id, input, actor, now) => checkOutKeg(db, id, input, actor, now)),
+  );
+  router.post(
+    '/:id/return',
+    checkoutAction(kegReturnSchema, (id, input, actor, now) => returnKeg(db, id, input, actor, now)),
+  );
+  router.post(
+    '/:id/move',
+    checkoutAction(kegMoveSchema, (id, input, actor, now) => moveKeg(db, id, input, actor, now)),
+  );
 
   router.post('/:id/empty', async (req, res) => {
     const row = await loadVisible(req);
@@ -135,13 +124,10 @@ export function kegsRoutes({ db, clock }: Deps): Router {
     await answer(req, res);
   });
 
-  router.patch('/:id/level', async (req, res) => {
-    const row = await loadVisible(req);
-    ForbiddenError.from(req.ability).throwUnlessCan('checkout', subject('Keg', { memberId: kegMemberId(row) }));
-    const input = kegLevelSchema.parse(req.body ?? {});
-    await setKegLevel(db, row.id, input.remainingLiters, userOf(req), clock.now());
-    await answer(req, res);
-  });
+  router.patch(
+    '/:id/level',
+    checkoutAction(kegLevelSchema, (id, input, actor, now) => setKegLevel(db, id, input.remainingLiters, actor, now)),
+  );
 
   return router;
 }

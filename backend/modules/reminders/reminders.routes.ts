@@ -1,11 +1,11 @@
 import { ForbiddenError } from '@casl/ability';
-import { Router, type Request } from 'express';
+import type { Request, Router } from 'express';
 import { z } from 'zod';
 import { subject } from '../../../shared/permissions/ability.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
-import { requireUser, userOf } from '../../middleware/authenticate.ts';
+import { signedInRouter } from '../../lib/route-handlers.ts';
+import { userOf } from '../../middleware/authenticate.ts';
 import { findInvoiceRow } from '../billing/invoices.service.ts';
 import { findKeg, kegMemberId } from '../kegs/kegs.service.ts';
 import { overdueInvoices, remindAllOverdueInvoices, remindInvoice, remindKeg } from './reminders.service.ts';
@@ -20,9 +20,7 @@ const can = (req: Request) => ForbiddenError.from(req.ability);
  */
 export function invoiceRemindersRoutes(deps: Deps): Router {
   const { db, clock } = deps;
-  const router = Router();
-  uuidParams(router, { id: 'Invoice' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Invoice' });
 
   router.get('/reminders', async (req, res) => {
     can(req).throwUnlessCan('remind', 'Invoice');
@@ -51,9 +49,7 @@ export function invoiceRemindersRoutes(deps: Deps): Router {
 /** `/api/kegs/:id/reminders`: the rota reminds a member to bring back a keg that is overdue. */
 export function kegRemindersRoutes(deps: Deps): Router {
   const { db, clock } = deps;
-  const router = Router();
-  uuidParams(router, { id: 'Keg' });
-  router.use(requireUser);
+  const router = signedInRouter({ id: 'Keg' });
 
   router.post('/:id/reminders', async (req, res) => {
     const { id } = idParam.parse(req.params);

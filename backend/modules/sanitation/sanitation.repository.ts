@@ -5,7 +5,7 @@ import type { CycleEvaluation } from '../../../shared/cellar/sanitation-rules.ts
 import type { SanitationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { SanitationCycleListQuery, SanitationStepInput, SanitationStepView } from '../../../shared/schemas/sanitation.ts';
 import type { Database } from '../../db/database.ts';
-import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
+import { containsAny, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { effectiveStateSql, freshUntilSql, lapsedSql } from '../equipment/vessel-state.ts';
 
 export type CycleRow = {
@@ -53,22 +53,12 @@ function cycleQuery(db: Database) {
     .selectFrom('sanitation_cycle as c')
     .innerJoin('equipment as e', 'e.id', 'c.equipment_id')
     .leftJoin('app_user as r', 'r.id', 'c.recorded_by')
+    .selectAll('c')
     .select((eb) => [
-      'c.id',
-      'c.equipment_id',
       'e.code',
       'e.name',
       'e.kind',
-      'c.outcome',
-      'c.complete',
-      'c.issues',
-      'c.started_at',
-      'c.completed_at',
-      'c.fresh_until',
-      'c.recorded_by',
       'r.name as recorded_by_name',
-      'c.notes',
-      'c.created_at',
       jsonArrayFrom(
         eb
           .selectFrom('sanitation_step as s')
@@ -121,10 +111,7 @@ export async function cyclePage(db: Database, q: SanitationCycleListQuery, range
   if (q.outcome) base = base.where('c.outcome', '=', q.outcome);
   if (range.from) base = base.where('c.completed_at', '>=', range.from);
   if (range.to) base = base.where('c.completed_at', '<', range.to);
-  if (q.q) {
-    const like = containsPattern(q.q);
-    base = base.where((eb) => eb.or([eb('e.code', 'ilike', like), eb('e.name', 'ilike', like)]));
-  }
+  if (q.q) base = base.where(containsAny(['e.code', 'e.name'], q.q));
   return paginate(base, (qb) => orderByAllowed(qb.select('c.id'), cycleSort, q, 'c.id'), q);
 }
 
@@ -168,10 +155,7 @@ export async function vesselStatusPage(db: Database, q: VesselStatusQuery, now: 
   let base = db.selectFrom(inner.as('v'));
   if (q.kind) base = base.where('v.kind', '=', q.kind);
   if (q.state) base = base.where('v.effective_state', '=', q.state as never);
-  if (q.q) {
-    const like = containsPattern(q.q);
-    base = base.where((eb) => eb.or([eb('v.code', 'ilike', like), eb('v.name', 'ilike', like)]));
-  }
+  if (q.q) base = base.where(containsAny(['v.code', 'v.name'], q.q));
   const { rows, total } = await paginate(base, (qb) => orderByAllowed(qb.selectAll('v'), statusSortColumn, q, 'v.code'), q);
   const lastIds = rows.map((r) => r.last_cycle_id).filter((v): v is string => Boolean(v));
   const last = lastIds.length

@@ -10,7 +10,7 @@ import {
 } from '../../../shared/schemas/sanitation.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { notFound } from '../../lib/http-problem.ts';
-import { uuidParams } from '../../lib/uuid-params.ts';
+import { createHandler, listHandler, signedInRouter } from '../../lib/route-handlers.ts';
 import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { renderAuditPdfOffThread } from './audit-report.ts';
 import { loadAuditData } from './audit-report-data.ts';
@@ -19,22 +19,12 @@ import { getBookingRules } from '../settings/settings.service.ts';
 
 /** `/api/sanitation-cycles`: the sanitation log. */
 export function sanitationCycleRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  uuidParams(router, { id: 'Sanitation cycle' });
-  router.use(requireUser);
-
-  router.post('/', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('create', 'SanitationCycle');
-    const input = createSanitationCycleSchema.parse(req.body ?? {});
-    const result = await recordCycle(db, input, userOf(req), clock.now());
-    res.status(201).json(result);
-  });
-
-  router.get('/', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
-    const q = sanitationCycleListQuerySchema.parse(req.query);
-    res.json(await listCycles(db, q));
-  });
+  const router = signedInRouter({ id: 'Sanitation cycle' });
+  const record = createHandler(createSanitationCycleSchema, 'SanitationCycle', (input, actor) => recordCycle(db, input, actor, clock.now()));
+  router
+    .route('/')
+    .post(record)
+    .get(listHandler(sanitationCycleListQuerySchema, 'SanitationCycle', (q) => listCycles(db, q)));
 
   router.get('/:id', async (req, res) => {
     ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
@@ -58,14 +48,8 @@ export function sanitationCycleRoutes({ db, clock }: Deps): Router {
 
 /** `/api/sanitation-status`: every fermenter and keg with its sanitation standing now. */
 export function sanitationStatusRoutes({ db, clock }: Deps): Router {
-  const router = Router();
-  router.use(requireUser);
-  router.get('/', async (req, res) => {
-    ForbiddenError.from(req.ability).throwUnlessCan('read', 'SanitationCycle');
-    const q = sanitationStatusQuerySchema.parse(req.query);
-    res.json(await listVesselStatus(db, q, clock.now()));
-  });
-  return router;
+  const list = listHandler(sanitationStatusQuerySchema, 'SanitationCycle', (q) => listVesselStatus(db, q, clock.now()));
+  return signedInRouter().get('/', list);
 }
 
 /** `GET /api/reports/sanitation-audit.pdf`: the audit report (mounted under /api/reports; other reports pass through). */

@@ -11,6 +11,7 @@ import type {
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { pageOfViews } from '../../lib/paginate.ts';
 import { drawCo2, purgeGrams } from '../equipment/cylinders.service.ts';
 import { getSetting } from '../settings/settings.service.ts';
 import { setVesselState } from '../equipment/vessel-state.ts';
@@ -279,16 +280,7 @@ export function boundTo(v: string): Date {
 
 export async function listCycles(db: Database, q: SanitationCycleListQuery): Promise<Page<SanitationCycleView>> {
   const range = { ...(q.from ? { from: boundFrom(q.from) } : {}), ...(q.to ? { to: boundTo(q.to) } : {}) };
-  const { rows, total } = await cyclePage(db, q, range);
-  return {
-    items: await cycleViews(
-      db,
-      rows.map((r) => r.id),
-    ),
-    total,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
+  return pageOfViews(await cyclePage(db, q, range), (ids) => cycleViews(db, ids), q);
 }
 
 /** Every fermenter and keg with its sanitation standing, lapses applied. */

@@ -2,7 +2,7 @@ import { sql, type Insertable } from 'kysely';
 import type { KegFillTable, TransferTable } from '../../db/tables/cellar-operations.ts';
 import type { TransferListQuery } from '../../../shared/schemas/transfers.ts';
 import type { Database } from '../../db/database.ts';
-import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
+import { containsAny, orderByAllowed, paginate } from '../../lib/paginate.ts';
 
 /** A batch's gravity readings taken up to `at`, oldest first. */
 export async function gravityReadings(db: Database, batchId: string, at: Date) {
@@ -134,35 +134,14 @@ export async function transferRows(db: Database, ids: string[]) {
       .innerJoin('batch as b', 'b.id', 't.batch_id')
       .innerJoin('equipment as f', 'f.id', 't.from_equipment_id')
       .leftJoin('app_user as u', 'u.id', 't.recorded_by')
+      .selectAll('t')
       .select([
-        't.id',
-        't.batch_id',
         'b.name as batch_name',
         'b.style as batch_style',
         'b.owner_id',
-        't.from_equipment_id',
         'f.code as fermenter_code',
         'f.name as fermenter_name',
-        't.volume_liters',
-        't.packaged_liters',
-        't.loss_liters',
-        't.draw_method',
-        't.checklist',
-        't.finings_kind',
-        't.finings_amount',
-        't.finings_unit',
-        't.co2_grams',
-        't.og',
-        't.fg',
-        't.abv',
-        't.transferred_at',
-        't.started_at',
-        't.ended_at',
-        't.unstable_gravity_reason',
-        't.dissolved_oxygen_ppb',
-        't.recorded_by',
         'u.name as recorded_by_name',
-        't.notes',
       ])
       .where('t.id', 'in', ids)
       .execute(),
@@ -190,10 +169,7 @@ export async function transferPage(db: Database, q: TransferListQuery, range: { 
     );
   if (range.from) base = base.where('t.transferred_at', '>=', range.from);
   if (range.to) base = base.where('t.transferred_at', '<', range.to);
-  if (q.q) {
-    const like = containsPattern(q.q);
-    base = base.where((eb) => eb.or([eb('b.name', 'ilike', like), eb('f.code', 'ilike', like)]));
-  }
+  if (q.q) base = base.where(containsAny(['b.name', 'f.code'], q.q));
   return paginate(base, (qb) => orderByAllowed(qb.select('t.id'), transferSort, q, 't.id'), q);
 }
 

@@ -11,6 +11,7 @@ import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
+import { pageOfViews } from '../../lib/paginate.ts';
 import { batchGravityFigures } from '../batches/figures.ts';
 import { fillBestBefore } from '../batches/shelf-life.ts';
 import { boundFrom, boundTo, sanitationSettings } from '../sanitation/sanitation.service.ts';
@@ -292,16 +293,7 @@ export async function transferViews(db: Database, ids: string[]): Promise<Transf
 
 export async function listTransfers(db: Database, q: TransferListQuery, ownerId?: string): Promise<Page<TransferView>> {
   const range = { ...(q.from ? { from: boundFrom(q.from) } : {}), ...(q.to ? { to: boundTo(q.to) } : {}) };
-  const { rows, total } = await transferPage(db, q, range, ownerId);
-  return {
-    items: await transferViews(
-      db,
-      rows.map((r) => r.id),
-    ),
-    total,
-    page: q.page,
-    pageSize: q.pageSize,
-  };
+  return pageOfViews(await transferPage(db, q, range, ownerId), (ids) => transferViews(db, ids), q);
 }
 
 /** Batches still in a fermenter (fermenting or conditioning), each with the fermenter its latest booking holds it in and whether its gravity is stable. */
