@@ -25,9 +25,11 @@ const bookingColumns = [
   'u.email as owner_email',
 ] as const;
 
-const bookingFrom = (db: Database) =>
-  db.selectFrom('booking as b').innerJoin('equipment as e', 'e.id', 'b.equipment_id').innerJoin('app_user as u', 'u.id', 'b.owner_id');
-const bookingQuery = (db: Database) => bookingFrom(db).select(bookingColumns);
+const bookingTable = (db: Database) => db.selectFrom('booking as b');
+type BookingBase = ReturnType<typeof bookingTable>;
+/** A booking's item and owner, joined only where a row is shown (a count needs neither: both are required). */
+const withItemAndOwner = (qb: BookingBase) => qb.innerJoin('equipment as e', 'e.id', 'b.equipment_id').innerJoin('app_user as u', 'u.id', 'b.owner_id');
+const bookingQuery = (db: Database) => withItemAndOwner(bookingTable(db)).select(bookingColumns);
 export type BookingJoinedRow = Awaited<ReturnType<ReturnType<typeof bookingQuery>['executeTakeFirstOrThrow']>>;
 
 /** The filters of a bookings list, once the service has checked the owners asked for (each must match). */
@@ -39,7 +41,7 @@ export type BookingFilters = Omit<BookingListQuery, 'mine' | 'ownerId'> & { owne
  * The page reads bookings in start order; no booking that ends after `from` starts before `from` minus the longest
  * booking on record (`booking_length_idx` gives it at once), so that bound keeps the walk to the window.
  */
-function overlapping(qb: ReturnType<typeof bookingFrom>, from: Date | null, to: Date | null) {
+function overlapping(qb: BookingBase, from: Date | null, to: Date | null) {
   let out = qb.where(sql<boolean>`tstzrange(b.starts_at, b.ends_at) && tstzrange(${from}::timestamptz, ${to}::timestamptz, '()')`);
   if (from) out = out.where(sql<boolean>`b.starts_at > ${from}::timestamptz - (select max(l.ends_at - l.starts_at) from booking l)`);
   if (to) out = out.where('b.starts_at', '<', to);
@@ -53,17 +55,17 @@ const sortColumns = {
   state: 'b.state',
 } as const;
 
-/** One page of bookings and the count of all that match. */
+/** One page of bookings and the count of all that match (counted over `booking` alone). */
 export async function bookingPage(db: Database, q: BookingFilters) {
-  let base = bookingFrom(db);
+  let base = bookingTable(db);
   for (const ownerId of q.ownerIds) base = base.where('b.owner_id', '=', ownerId);
   if (q.equipmentId) base = base.where('b.equipment_id', '=', q.equipmentId);
-  if (q.kind) base = base.where('e.kind', '=', q.kind);
+  if (q.kind) base = base.where('b.equipment_id', 'in', (eb) => eb.selectFrom('equipment').select('id').where('kind', '=', q.kind!));
   if (q.from || q.to) base = overlapping(base, q.from ? new Date(q.from) : null, q.to ? new Date(q.to) : null);
   if (q.state) base = base.where('b.state', '=', q.state);
   else if (!q.includeCancelled) base = base.where('b.state', '<>', 'cancelled');
   // Same start: by item code, then by id, so pages never repeat or skip a booking.
-  return paginate(base, (qb) => orderByAllowed(qb.select(bookingColumns), sortColumns, q, 'e.code').orderBy('b.id'), q);
+  return paginate(base, (qb) => orderByAllowed(withItemAndOwner(qb).select(bookingColumns), sortColumns, q, 'e.code').orderBy('b.id'), q);
 }
 
 export async function bookingRow(db: Database, id: string): Promise<BookingJoinedRow | undefined> {
