@@ -48,11 +48,12 @@ export function orderByAllowed<DB, TB extends keyof DB, O, K extends string>(
 
 /**
  * One page of a filtered query and the count of all its rows, run side by side.
- * `base` carries the joins and filters and selects nothing; `rows` adds the selection and the order.
+ * `base` carries the filters (and the joins they need) and selects nothing; `rows` adds the selection and the
+ * order, and may add joins that only show a row (an inner join to a required row never changes the count).
  */
-export async function paginate<DB, TB extends keyof DB, O>(
+export async function paginate<DB, TB extends keyof DB, O, RowDB = DB, RowTB extends keyof RowDB = keyof RowDB>(
   base: SelectQueryBuilder<DB, TB, object>,
-  rows: (qb: SelectQueryBuilder<DB, TB, object>) => SelectQueryBuilder<DB, TB, O>,
+  rows: (qb: SelectQueryBuilder<DB, TB, object>) => SelectQueryBuilder<RowDB, RowTB, O>,
   { page, pageSize }: PageRequest,
 ): Promise<{ rows: O[]; total: number }> {
   const [counted, list] = await Promise.all([

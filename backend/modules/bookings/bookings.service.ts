@@ -1,4 +1,3 @@
-import { sql } from 'kysely';
 import type { AppAbility } from '../../../shared/permissions/ability.ts';
 import { subject } from '../../../shared/permissions/ability.ts';
 import type { Booking, BookingListQuery, CreateBookingInput } from '../../../shared/schemas/booking.ts';
@@ -6,14 +5,29 @@ import { equipmentKindLabels } from '../../../shared/schemas/equipment.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import { bookingRuleLabels, type BookingRuleName, type BookingRules } from '../../../shared/schemas/settings.ts';
 import type { Database } from '../../db/database.ts';
-import type { BookingState } from '../../db/tables/cellar.ts';
 import { audit } from '../../lib/audit.ts';
 import { canAll } from '../../lib/authz.ts';
 import { conflict, HttpProblem, notFound } from '../../lib/http-problem.ts';
-import { orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { assertInspected } from '../equipment/inspections.service.ts';
 import { formatWhen } from '../mail/templates/parts.ts';
 import { getBookingRules } from '../settings/settings.service.ts';
+import {
+  activeBookingCount,
+  advanceStates,
+  batchOwner,
+  bookingPage,
+  bookingRow,
+  findClash,
+  insertBooking,
+  liveStates,
+  lockBookableItem,
+  lockBooking,
+  lockBookingOwner,
+  markCancelled,
+  upcomingBookingRows,
+  type BookingJoinedRow,
+  type Clash,
+} from './bookings.repository.ts';
 
 /** Who is asking: their id and what the shared policy lets them do. */
 export interface Viewer {
@@ -26,31 +40,7 @@ const DAY = 24 * HOUR;
 /** A booking may start a few minutes in the past (the form was opened a little while ago). */
 const START_GRACE_MS = 10 * 60_000;
 
-export const liveStates: BookingState[] = ['booked', 'in_use'];
-
-const bookingColumns = [
-  'b.id',
-  'b.equipment_id',
-  'b.owner_id',
-  'b.batch_id',
-  'b.starts_at',
-  'b.ends_at',
-  'b.blocked_until',
-  'b.state',
-  'b.notes',
-  'b.created_at',
-  'b.cancelled_at',
-  'e.code as equipment_code',
-  'e.name as equipment_name',
-  'e.kind as equipment_kind',
-  'u.name as owner_name',
-  'u.email as owner_email',
-] as const;
-
-const bookingFrom = (db: Database) =>
-  db.selectFrom('booking as b').innerJoin('equipment as e', 'e.id', 'b.equipment_id').innerJoin('app_user as u', 'u.id', 'b.owner_id');
-const bookingQuery = (db: Database) => bookingFrom(db).select(bookingColumns);
-type BookingJoinedRow = Awaited<ReturnType<ReturnType<typeof bookingQuery>['executeTakeFirstOrThrow']>>;
+export { liveStates };
 
 /** The one place a booking row becomes what a person may see: owners' details only with `readOwner`. */
 export function toBookingDto(row: BookingJoinedRow, viewer: Viewer): Booking {
@@ -75,48 +65,25 @@ export function toBookingDto(row: BookingJoinedRow, viewer: Viewer): Booking {
   return dto;
 }
 
-const sortColumns = {
-  startsAt: 'b.starts_at',
-  endsAt: 'b.ends_at',
-  createdAt: 'b.created_at',
-  state: 'b.state',
-} as const;
-
 export async function listBookings(db: Database, q: BookingListQuery, viewer: Viewer): Promise<Page<Booking>> {
-  let base = bookingFrom(db);
   // The calendar is open to all who may read bookings; only the owner filter depends on who asks.
-  if (q.mine) base = base.where('b.owner_id', '=', viewer.id);
-  if (q.ownerId) {
-    // Filtering by someone else's id would reveal whose bookings those are.
-    if (q.ownerId !== viewer.id && !canAll(viewer.ability, 'readOwner', 'Booking')) {
-      throw new HttpProblem(403, 'Forbidden', 'You may filter only by your own bookings (mine=1).');
-    }
-    base = base.where('b.owner_id', '=', q.ownerId);
+  // Filtering by someone else's id would reveal whose bookings those are.
+  if (q.ownerId && q.ownerId !== viewer.id && !canAll(viewer.ability, 'readOwner', 'Booking')) {
+    throw new HttpProblem(403, 'Forbidden', 'You may filter only by your own bookings (mine=1).');
   }
-  if (q.equipmentId) base = base.where('b.equipment_id', '=', q.equipmentId);
-  if (q.kind) base = base.where('e.kind', '=', q.kind);
-  if (q.from) base = base.where('b.ends_at', '>', new Date(q.from));
-  if (q.to) base = base.where('b.starts_at', '<', new Date(q.to));
-  if (q.state) base = base.where('b.state', '=', q.state);
-  else if (!q.includeCancelled) base = base.where('b.state', '<>', 'cancelled');
-
-  // Same start: by item code, then by id, so pages never repeat or skip a booking.
-  const { rows, total } = await paginate(base, (qb) => orderByAllowed(qb.select(bookingColumns), sortColumns, q, 'e.code').orderBy('b.id'), q);
+  const { mine, ...filters } = q;
+  // Both owner filters hold when both are given (an ownerId that is not the viewer's then finds nothing).
+  const ownerIds = [mine ? viewer.id : undefined, q.ownerId].filter((id): id is string => !!id);
+  const { rows, total } = await bookingPage(db, { ...filters, ownerIds });
   return { items: rows.map((r) => toBookingDto(r, viewer)), total, page: q.page, pageSize: q.pageSize };
 }
 
 export async function findBooking(db: Database, id: string): Promise<BookingJoinedRow | undefined> {
-  return bookingQuery(db).where('b.id', '=', id).executeTakeFirst();
+  return bookingRow(db, id);
 }
 
 export async function upcomingBookingsFor(db: Database, equipmentId: string, viewer: Viewer, now: Date, limit = 20): Promise<Booking[]> {
-  const rows = await bookingQuery(db)
-    .where('b.equipment_id', '=', equipmentId)
-    .where('b.state', 'in', liveStates)
-    .where('b.blocked_until', '>', now)
-    .orderBy('b.starts_at')
-    .limit(limit)
-    .execute();
+  const rows = await upcomingBookingRows(db, equipmentId, now, limit);
   return rows.map((r) => toBookingDto(r, viewer));
 }
 
@@ -175,28 +142,6 @@ export function checkRules(
   }
 }
 
-interface Clash {
-  id: string;
-  owner_id: string;
-  owner_name: string;
-  starts_at: Date;
-  ends_at: Date;
-  blocked_until: Date;
-}
-
-async function findClash(db: Database, equipmentId: string, startsAt: Date, blockedUntil: Date): Promise<Clash | undefined> {
-  return db
-    .selectFrom('booking as b')
-    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
-    .select(['b.id', 'b.owner_id', 'u.name as owner_name', 'b.starts_at', 'b.ends_at', 'b.blocked_until'])
-    .where('b.equipment_id', '=', equipmentId)
-    .where('b.state', '<>', 'cancelled')
-    .where(sql<boolean>`tstzrange(b.starts_at, b.blocked_until, '[)') && tstzrange(${startsAt}, ${blockedUntil}, '[)')`)
-    .orderBy('b.starts_at')
-    .limit(1)
-    .executeTakeFirst();
-}
-
 /** A 409 that names the item and the period it clashes with; the holder's name only for those who may see it. */
 function clashProblem(
   item: { id: string; code: string },
@@ -250,19 +195,9 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
   let context: { item: { id: string; code: string }; rules: BookingRules; blockedUntil: Date } | undefined;
   try {
     return await db.transaction().execute(async (trx) => {
-      const item = await trx
-        .selectFrom('equipment')
-        .select(['id', 'code', 'kind', 'name', 'state'])
-        .where('id', '=', input.equipmentId)
-        .forUpdate()
-        .executeTakeFirst();
+      const item = await lockBookableItem(trx, input.equipmentId);
       if (!item) throw notFound('Equipment');
-      const owner = await trx
-        .selectFrom('app_user')
-        .select(['id', 'name', 'email', 'is_active'])
-        .where('id', '=', input.ownerId)
-        .forUpdate()
-        .executeTakeFirst();
+      const owner = await lockBookingOwner(trx, input.ownerId);
       if (!owner || !owner.is_active) {
         throw new HttpProblem(422, 'Validation failed', 'That member has no active account.', [
           { path: 'ownerId', message: 'That member has no active account.' },
@@ -274,13 +209,7 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
       // A CO2 cylinder past its hydrostatic test date (or failing it) may not be used.
       if (item.kind === 'co2_cylinder') await assertInspected(trx, [item], 'booked', now);
       const rules = await getBookingRules(trx);
-      const { active } = await trx
-        .selectFrom('booking')
-        .select((eb) => eb.fn.countAll<number>().as('active'))
-        .where('owner_id', '=', owner.id)
-        .where('state', 'in', liveStates)
-        .where('ends_at', '>', now)
-        .executeTakeFirstOrThrow();
+      const active = await activeBookingCount(trx, owner.id, now);
       checkRules(rules, { startsAt, endsAt, kind: item.kind }, active, now);
       if (input.batchId) await checkBatch(trx, input.batchId, owner.id);
 
@@ -289,22 +218,18 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
       const clash = await findClash(trx, item.id, startsAt, blockedUntil);
       if (clash) throw clashProblem(item, clash, { startsAt, blockedUntil }, rules, actor);
 
-      const row = await trx
-        .insertInto('booking')
-        .values({
-          equipment_id: item.id,
-          owner_id: owner.id,
-          batch_id: input.batchId ?? null,
-          starts_at: startsAt,
-          ends_at: endsAt,
-          blocked_until: blockedUntil,
-          state: startsAt.getTime() <= now.getTime() ? 'in_use' : 'booked',
-          notes: input.notes ?? '',
-          created_by: actor.id,
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      await audit(trx, actor.id, 'booked', 'Booking', row.id, {
+      const id = await insertBooking(trx, {
+        equipmentId: item.id,
+        ownerId: owner.id,
+        batchId: input.batchId ?? null,
+        startsAt,
+        endsAt,
+        blockedUntil,
+        state: startsAt.getTime() <= now.getTime() ? 'in_use' : 'booked',
+        notes: input.notes ?? '',
+        createdBy: actor.id,
+      });
+      await audit(trx, actor.id, 'booked', 'Booking', id, {
         equipmentId: item.id,
         code: item.code,
         ownerId: owner.id,
@@ -312,7 +237,7 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
         endsAt: endsAt.toISOString(),
         blockedUntil: blockedUntil.toISOString(),
       });
-      const created = await findBooking(trx, row.id);
+      const created = await bookingRow(trx, id);
       return { booking: toBookingDto(created!, actor), owner: { id: owner.id, name: owner.name, email: owner.email }, rules };
     });
   } catch (err) {
@@ -327,13 +252,11 @@ export async function createBooking(db: Database, input: CreateBookingInput & { 
 
 /** A booking may name one of its owner's batches, once the batches capability keeps them. */
 async function checkBatch(trx: Database, batchId: string, ownerId: string): Promise<void> {
-  const exists = await sql<{ t: string | null }>`select to_regclass('public.batch')::text as t`.execute(trx);
+  const batch = await batchOwner(trx, batchId);
   const problem = (message: string) => new HttpProblem(422, 'Validation failed', message, [{ path: 'batchId', message }]);
-  if (!exists.rows[0]?.t) throw problem('Batches are not kept yet; leave the batch empty.');
-  const batch = await sql<{ owner_id: string }>`select owner_id from batch where id = ${batchId}`.execute(trx);
-  const row = batch.rows[0];
-  if (!row) throw problem('That batch does not exist.');
-  if (row.owner_id !== ownerId) throw problem('The batch must belong to the member the booking is for.');
+  if (!batch.kept) throw problem('Batches are not kept yet; leave the batch empty.');
+  if (!batch.ownerId) throw problem('That batch does not exist.');
+  if (batch.ownerId !== ownerId) throw problem('The batch must belong to the member the booking is for.');
 }
 
 export interface CancelledBooking {
@@ -345,7 +268,7 @@ export interface CancelledBooking {
 /** Cancels a booking (frees its slot at once) in one transaction with an audit row. */
 export async function cancelBooking(db: Database, id: string, actor: Viewer & { name: string }, now: Date): Promise<CancelledBooking> {
   return db.transaction().execute(async (trx) => {
-    const row = await trx.selectFrom('booking').select(['id', 'owner_id', 'state', 'ends_at']).where('id', '=', id).forUpdate().executeTakeFirst();
+    const row = await lockBooking(trx, id);
     if (!row) throw notFound('Booking');
     if (!actor.ability.can('cancel', subject('Booking', { ownerId: row.owner_id }))) {
       throw new HttpProblem(403, 'Forbidden', 'Only the member who holds a booking, or the admin, may cancel it.');
@@ -355,9 +278,9 @@ export async function cancelBooking(db: Database, id: string, actor: Viewer & { 
     if (row.state === 'in_use' && !canAll(actor.ability, 'cancel', 'Booking')) {
       throw conflict('This booking is in use; ask the brewer on duty or the admin to end it.');
     }
-    await trx.updateTable('booking').set({ state: 'cancelled', cancelled_at: now, cancelled_by: actor.id, updated_at: now }).where('id', '=', id).execute();
+    await markCancelled(trx, id, actor.id, now);
     await audit(trx, actor.id, 'cancelled', 'Booking', id, { previousState: row.state });
-    const after = await findBooking(trx, id);
+    const after = await bookingRow(trx, id);
     return {
       booking: toBookingDto(after!, actor),
       owner: { id: after!.owner_id, name: after!.owner_name, email: after!.owner_email },
@@ -371,20 +294,5 @@ export async function cancelBooking(db: Database, id: string, actor: Viewer & { 
  * its end. Run by a scheduled job; returns how many changed.
  */
 export async function advanceBookingStates(db: Database, now: Date): Promise<number> {
-  return db.transaction().execute(async (trx) => {
-    const finished = await trx
-      .updateTable('booking')
-      .set({ state: 'finished', updated_at: now })
-      .where('state', 'in', liveStates)
-      .where('ends_at', '<=', now)
-      .executeTakeFirst();
-    const started = await trx
-      .updateTable('booking')
-      .set({ state: 'in_use', updated_at: now })
-      .where('state', '=', 'booked')
-      .where('starts_at', '<=', now)
-      .where('ends_at', '>', now)
-      .executeTakeFirst();
-    return Number(finished.numUpdatedRows) + Number(started.numUpdatedRows);
-  });
+  return db.transaction().execute((trx) => advanceStates(trx, now));
 }

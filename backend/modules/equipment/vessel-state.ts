@@ -43,13 +43,13 @@ export async function writeStateChange(
 
 /**
  * True when a vessel stored as `ready` has outlived its freshness window: it has complete
- * cycles on record and none of them is still fresh. Reads use it so that a lapse shows at once,
- * before the periodic job writes it down.
+ * cycles on record and none of them is still fresh (every complete cycle has a window end, a check
+ * constraint, so that is: the latest window end has passed). Reads use it so that a lapse shows at once,
+ * before the periodic job writes it down. The latest end is one step back along `sanitation_cycle_fresh_idx`
+ * per vessel, so a list of vessels costs an index probe each.
  */
 export function lapsedSql(equipmentId: Expression<string>, state: Expression<string>, now: Date) {
-  return sql<boolean>`(${state} = 'ready'
-    and exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete)
-    and not exists (select 1 from sanitation_cycle lc where lc.equipment_id = ${equipmentId} and lc.complete and lc.fresh_until > ${now}))`;
+  return sql<boolean>`(${state} = 'ready' and coalesce(${freshUntilSql(equipmentId)} <= ${now}, false))`;
 }
 
 /** The state the co-op should treat a vessel as having at `now`. */
@@ -70,7 +70,7 @@ export function freshUntilSql(equipmentId: Expression<string>) {
 export async function applyFreshnessLapses(db: Database, now: Date): Promise<number> {
   const result = await sql<{ id: string }>`
     with hit as (
-      select e.id, (select max(c.fresh_until) from sanitation_cycle c where c.equipment_id = e.id and c.complete) as fresh_until
+      select e.id, ${freshUntilSql(sql.ref('e.id'))} as fresh_until
       from equipment e
       where e.state = 'ready' and e.kind in ('fermenter', 'keg')
     ), lapsed as (
