@@ -122,7 +122,7 @@ async function withdrawDated(db: Database, table: keyof typeof datedKinds, id: s
     if (!row) throw notFound(kind.missing);
     if (row.effective_from <= today) throw conflict(kind.applied);
     await deleteById(trx, table, id);
-    await audit(trx, actorId, 'withdrawn', kind.subject, id, (kind.detail as (r: typeof row) => object)(row));
+    await audit(trx, actorId, 'withdrawn', kind.subject, id, (kind.detail as (r: typeof row) => Record<string, unknown>)(row));
   });
 }
 
