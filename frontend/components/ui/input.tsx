@@ -27,6 +27,24 @@ export const Select = ({ invalid, className, children, ...props }: SelectProps) 
   </select>
 );
 
+export interface OptionsProps<V extends string> {
+  /** The values to choose from, in order. */
+  values: readonly V[];
+  /** Each value's label; the value itself where left out. */
+  labels?: Readonly<Partial<Record<V, ReactNode>>>;
+}
+
+/** A select's choices from a closed set and its labels. */
+export const Options = <V extends string>({ values, labels }: OptionsProps<V>) => (
+  <>
+    {values.map((value) => (
+      <option key={value} value={value}>
+        {labels?.[value] ?? value}
+      </option>
+    ))}
+  </>
+);
+
 export interface ChoiceProps extends Omit<ComponentProps<'input'>, 'type'> {
   label: ReactNode;
   description?: ReactNode;
