@@ -44,6 +44,9 @@ const loaders = {
   audit: () => import('@/app/loaders/audit'),
 };
 
+/** A section with tabs: its layout at `path`, the screens under it. */
+const section = (path: string, layout: () => Promise<RouteModule>, children: RouteObject[]) => ({ path: path.slice(1), lazy: lazy(layout), children });
+
 /** A screen's route with its data fetched ahead by the loader `name` of a loaders chunk. */
 const screen = <K extends string>(load: () => Promise<RouteModule>, from: () => Promise<Record<K, LoaderFunction>>, name: K) => ({
   lazy: lazy(load, async () => (await from())[name]),
@@ -100,26 +103,18 @@ export const routes: RouteObject[] = [
             children: [
               { index: true, ...screen(() => import('@/app/routes/today'), loaders.today, 'todayLoader') },
               { path: paths.profile.slice(1), lazy: lazy(() => import('@/app/routes/profile')) },
-              {
-                path: paths.members.slice(1),
-                lazy: lazy(() => import('@/app/routes/members/members-layout')),
-                children: [
-                  { index: true, ...screen(() => import('@/app/routes/members/members'), loaders.members, 'membersLoader') },
-                  { path: 'outbox', ...screen(() => import('@/app/routes/members/outbox'), loaders.members, 'outboxLoader') },
-                ],
-              },
+              section(paths.members, () => import('@/app/routes/members/members-layout'), [
+                { index: true, ...screen(() => import('@/app/routes/members/members'), loaders.members, 'membersLoader') },
+                { path: 'outbox', ...screen(() => import('@/app/routes/members/outbox'), loaders.members, 'outboxLoader') },
+              ]),
               { path: paths.cellar.slice(1), ...screen(() => import('@/app/routes/cellar/cellar'), loaders.cellar, 'cellarLoader') },
               { path: `${paths.cellar.slice(1)}/maintenance`, ...screen(() => import('@/app/routes/cellar/maintenance'), loaders.cellar, 'maintenanceLoader') },
               { path: `${paths.cellar.slice(1)}/:equipmentId`, ...screen(() => import('@/app/routes/cellar/equipment'), loaders.cellar, 'equipmentLoader') },
-              {
-                path: paths.bookings.slice(1),
-                lazy: lazy(() => import('@/app/routes/bookings/bookings-layout')),
-                children: [
-                  { index: true, ...screen(() => import('@/app/routes/bookings/calendar'), loaders.cellar, 'calendarLoader') },
-                  { path: 'mine', ...screen(() => import('@/app/routes/bookings/mine'), loaders.bookings, 'myBookingsLoader') },
-                  { path: 'all', ...screen(() => import('@/app/routes/bookings/all'), loaders.bookings, 'allBookingsLoader') },
-                ],
-              },
+              section(paths.bookings, () => import('@/app/routes/bookings/bookings-layout'), [
+                { index: true, ...screen(() => import('@/app/routes/bookings/calendar'), loaders.cellar, 'calendarLoader') },
+                { path: 'mine', ...screen(() => import('@/app/routes/bookings/mine'), loaders.bookings, 'myBookingsLoader') },
+                { path: 'all', ...screen(() => import('@/app/routes/bookings/all'), loaders.bookings, 'allBookingsLoader') },
+              ]),
               { path: paths.batches.slice(1), ...screen(() => import('@/app/routes/batches/batches'), loaders.batches, 'batchesLoader') },
               { path: `${paths.batches.slice(1)}/:batchId`, ...screen(() => import('@/app/routes/batches/batch'), loaders.batches, 'batchLoader') },
               { path: `${paths.batches.slice(1)}/:batchId/import`, lazy: lazy(() => import('@/app/routes/batches/import')) },
@@ -130,42 +125,30 @@ export const routes: RouteObject[] = [
               { path: paths.traceReport.slice(1), ...screen(() => import('@/app/routes/batches/trace-report'), loaders.batches, 'traceReportLoader') },
               { path: paths.settings.slice(1), ...screen(() => import('@/app/routes/settings/settings'), loaders.settings, 'settingsLoader') },
               { path: paths.audit.slice(1), ...screen(() => import('@/app/routes/audit/audit'), loaders.audit, 'auditLoader') },
-              {
-                path: paths.sanitation.slice(1),
-                lazy: lazy(() => import('@/app/routes/sanitation/sanitation-layout')),
-                children: [
-                  { index: true, ...screen(() => import('@/app/routes/sanitation/vessels'), loaders.sanitation, 'vesselsLoader') },
-                  { path: 'log', ...screen(() => import('@/app/routes/sanitation/log'), loaders.sanitation, 'cyclesLoader') },
-                  { path: 'audit', lazy: lazy(() => import('@/app/routes/sanitation/audit')) },
-                ],
-              },
+              section(paths.sanitation, () => import('@/app/routes/sanitation/sanitation-layout'), [
+                { index: true, ...screen(() => import('@/app/routes/sanitation/vessels'), loaders.sanitation, 'vesselsLoader') },
+                { path: 'log', ...screen(() => import('@/app/routes/sanitation/log'), loaders.sanitation, 'cyclesLoader') },
+                { path: 'audit', lazy: lazy(() => import('@/app/routes/sanitation/audit')) },
+              ]),
               { path: `${paths.sanitation.slice(1)}/new`, lazy: lazy(() => import('@/app/routes/sanitation/new')) },
-              {
-                path: paths.kegs.slice(1),
-                lazy: lazy(() => import('@/app/routes/kegs/kegs-layout')),
-                children: [
-                  { index: true, ...screen(() => import('@/app/routes/kegs/whereabouts'), loaders.kegs, 'kegsLoader') },
-                  { path: 'overdue', ...screen(() => import('@/app/routes/kegs/overdue'), loaders.kegs, 'overdueLoader') },
-                  { path: 'tap-board', ...screen(() => import('@/app/routes/kegs/tap-board'), loaders.kegs, 'tapBoardLoader') },
-                ],
-              },
+              section(paths.kegs, () => import('@/app/routes/kegs/kegs-layout'), [
+                { index: true, ...screen(() => import('@/app/routes/kegs/whereabouts'), loaders.kegs, 'kegsLoader') },
+                { path: 'overdue', ...screen(() => import('@/app/routes/kegs/overdue'), loaders.kegs, 'overdueLoader') },
+                { path: 'tap-board', ...screen(() => import('@/app/routes/kegs/tap-board'), loaders.kegs, 'tapBoardLoader') },
+              ]),
               { path: `${paths.kegs.slice(1)}/:kegId`, ...screen(() => import('@/app/routes/kegs/keg'), loaders.kegs, 'kegLoader') },
               { path: `${paths.kegs.slice(1)}/:kegId/carbonation`, lazy: lazy(() => import('@/app/routes/kegs/carbonation')) },
               { path: 'transfers/new', lazy: lazy(() => import('@/app/routes/transfers/new')) },
-              {
-                path: paths.billing.slice(1),
-                lazy: lazy(() => import('@/app/routes/billing/billing-layout')),
-                children: [
-                  { index: true, ...screen(() => import('@/app/routes/billing/overview'), loaders.billing, 'billingOverviewLoader') },
-                  { path: 'invoices', ...screen(() => import('@/app/routes/billing/invoices'), loaders.billing, 'invoicesLoader') },
-                  { path: 'invoices/:invoiceId', ...screen(() => import('@/app/routes/billing/invoice'), loaders.billing, 'invoiceLoader') },
-                  { path: 'run', lazy: lazy(() => import('@/app/routes/billing/run')) },
-                  { path: 'prices', lazy: lazy(() => import('@/app/routes/billing/prices')) },
-                  { path: 'exports', lazy: lazy(() => import('@/app/routes/billing/exports')) },
-                  { path: 'my-invoices', ...screen(() => import('@/app/routes/billing/my-invoices'), loaders.billing, 'myInvoicesLoader') },
-                  { path: 'my-invoices/:invoiceId', ...screen(() => import('@/app/routes/billing/my-invoice'), loaders.billing, 'invoiceLoader') },
-                ],
-              },
+              section(paths.billing, () => import('@/app/routes/billing/billing-layout'), [
+                { index: true, ...screen(() => import('@/app/routes/billing/overview'), loaders.billing, 'billingOverviewLoader') },
+                { path: 'invoices', ...screen(() => import('@/app/routes/billing/invoices'), loaders.billing, 'invoicesLoader') },
+                { path: 'invoices/:invoiceId', ...screen(() => import('@/app/routes/billing/invoice'), loaders.billing, 'invoiceLoader') },
+                { path: 'run', lazy: lazy(() => import('@/app/routes/billing/run')) },
+                { path: 'prices', lazy: lazy(() => import('@/app/routes/billing/prices')) },
+                { path: 'exports', lazy: lazy(() => import('@/app/routes/billing/exports')) },
+                { path: 'my-invoices', ...screen(() => import('@/app/routes/billing/my-invoices'), loaders.billing, 'myInvoicesLoader') },
+                { path: 'my-invoices/:invoiceId', ...screen(() => import('@/app/routes/billing/my-invoice'), loaders.billing, 'invoiceLoader') },
+              ]),
               { path: '*', lazy: lazy(() => import('@/app/routes/not-found')) },
             ],
           },

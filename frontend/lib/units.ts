@@ -39,31 +39,35 @@ const refusedAsNaN = (convert: (value: number) => number) => (value: number) => 
   }
 };
 
-/** API value → the number shown in the person's units. */
-export const toDisplay = {
-  volume: (litres: number, units: UnitSystem) => (units === 'us' ? signed(litersToUsGallons)(litres) : litres),
-  temperature: (celsius: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(celsiusToFahrenheit)(celsius) : celsius),
-  pressure: (kPa: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(kpaToPsi)(kPa) : refusedAsNaN(kpaToBar)(kPa)),
-  /** Metres → m or ft (line lengths, rises). */
-  length: (metres: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(metresToFeet)(metres) : metres),
-  /** Millimetres → mm or in (a line's inside diameter). */
-  smallLength: (mm: number, units: UnitSystem) => (units === 'us' ? signed(millimetresToInches)(mm) : mm),
-  /** Kilograms → kg or lb (a CO2 cylinder's size). */
-  mass: (kg: number, units: UnitSystem) => (units === 'us' ? signed(kilogramsToPounds)(kg) : kg),
-};
-
-/** A number typed in the person's units → the API value (L, °C, kPa gauge). */
-export const fromDisplay = {
-  volume: (value: number, units: UnitSystem) => (units === 'us' ? signed(usGallonsToLiters)(value) : value),
-  temperature: (value: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(fahrenheitToCelsius)(value) : value),
-  pressure: (value: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(psiToKpa)(value) : refusedAsNaN(barToKpa)(value)),
-  length: (value: number, units: UnitSystem) => (units === 'us' ? refusedAsNaN(feetToMetres)(value) : value),
-  smallLength: (value: number, units: UnitSystem) => (units === 'us' ? signed(inchesToMillimetres)(value) : value),
-  mass: (value: number, units: UnitSystem) => (units === 'us' ? signed(poundsToKilograms)(value) : value),
-};
+type Convert = (value: number) => number;
+const same: Convert = (value) => value;
 
 /** The quantities the client converts between the API's units and the person's. */
-export type Quantity = keyof typeof toDisplay;
+export type Quantity = 'volume' | 'temperature' | 'pressure' | 'length' | 'smallLength' | 'mass';
+
+/** Per quantity and unit system: API value → shown, and shown → API value. */
+const conversions: Record<Quantity, Record<UnitSystem, readonly [toDisplay: Convert, fromDisplay: Convert]>> = {
+  volume: { metric: [same, same], us: [signed(litersToUsGallons), signed(usGallonsToLiters)] },
+  temperature: { metric: [same, same], us: [refusedAsNaN(celsiusToFahrenheit), refusedAsNaN(fahrenheitToCelsius)] },
+  pressure: { metric: [refusedAsNaN(kpaToBar), refusedAsNaN(barToKpa)], us: [refusedAsNaN(kpaToPsi), refusedAsNaN(psiToKpa)] },
+  /** Metres ↔ m or ft (line lengths, rises). */
+  length: { metric: [same, same], us: [refusedAsNaN(metresToFeet), refusedAsNaN(feetToMetres)] },
+  /** Millimetres ↔ mm or in (a line's inside diameter). */
+  smallLength: { metric: [same, same], us: [signed(millimetresToInches), signed(inchesToMillimetres)] },
+  /** Kilograms ↔ kg or lb (a CO2 cylinder's size). */
+  mass: { metric: [same, same], us: [signed(kilogramsToPounds), signed(poundsToKilograms)] },
+};
+
+const direction = (way: 0 | 1) =>
+  Object.fromEntries(
+    Object.entries(conversions).map(([quantity, bySystem]) => [quantity, (value: number, units: UnitSystem) => bySystem[units][way](value)]),
+  ) as Record<Quantity, (value: number, units: UnitSystem) => number>;
+
+/** API value → the number shown in the person's units. */
+export const toDisplay = direction(0);
+
+/** A number typed in the person's units → the API value (L, °C, kPa gauge). */
+export const fromDisplay = direction(1);
 
 export const unitLabels = {
   metric: { volume: 'L', temperature: '°C', pressure: 'bar', length: 'm', smallLength: 'mm', mass: 'kg' },

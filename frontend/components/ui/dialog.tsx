@@ -1,6 +1,7 @@
 import { useEffect, useId, useRef, type ReactNode } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
+import { problemMessage } from '@/lib/api-client';
 import { cn } from '@/utils/cn';
 
 export interface DialogProps {
@@ -115,4 +116,35 @@ export const ConfirmDialog = ({
       </Button>
     </DialogActions>
   </Dialog>
+);
+
+/** What a confirmed action needs of its mutation (one that takes no input). */
+export interface ConfirmedMutation<TData> {
+  isPending: boolean;
+  error: unknown;
+  mutate: (variables: undefined, options: { onSuccess: (data: TData) => void }) => void;
+}
+
+export interface MutationConfirmDialogProps<TData> extends Omit<ConfirmDialogProps, 'pending' | 'error' | 'onConfirm'> {
+  mutation: ConfirmedMutation<TData>;
+  /** After the change went through; the dialog closes first. */
+  onDone: (data: TData) => void;
+}
+
+/** A confirmation that runs one change: busy while it runs, its error inside, closed once it went through. */
+export const MutationConfirmDialog = <TData,>({ mutation, onDone, onClose, ...props }: MutationConfirmDialogProps<TData>) => (
+  <ConfirmDialog
+    {...props}
+    onClose={onClose}
+    pending={mutation.isPending}
+    error={mutation.error ? problemMessage(mutation.error) : null}
+    onConfirm={() =>
+      mutation.mutate(undefined, {
+        onSuccess: (data) => {
+          onClose();
+          onDone(data);
+        },
+      })
+    }
+  />
 );

@@ -27,6 +27,24 @@ export const Select = ({ invalid, className, children, ...props }: SelectProps) 
   </select>
 );
 
+export interface OptionsProps<V extends string> {
+  /** The values to choose from, in order. */
+  values: readonly V[];
+  /** Each value's label; the value itself where left out. */
+  labels?: Readonly<Partial<Record<V, ReactNode>>>;
+}
+
+/** A select's choices from a closed set and its labels. */
+export const Options = <V extends string>({ values, labels }: OptionsProps<V>) => (
+  <>
+    {values.map((value) => (
+      <option key={value} value={value}>
+        {labels?.[value] ?? value}
+      </option>
+    ))}
+  </>
+);
+
 export interface ChoiceProps extends Omit<ComponentProps<'input'>, 'type'> {
   label: ReactNode;
   description?: ReactNode;
@@ -37,25 +55,21 @@ const choiceRow =
   'has-[:disabled]:cursor-not-allowed has-[:disabled]:opacity-60';
 const choiceBox = 'mt-0.5 size-4 shrink-0 accent-copper';
 
-export const Checkbox = ({ label, description, className, ...props }: ChoiceProps) => (
-  <label className={cn(choiceRow, className)}>
-    <input type="checkbox" className={choiceBox} {...props} />
-    <span className="flex flex-col">
-      <span className="text-ink">{label}</span>
-      {description ? <span className="text-xs text-ink-muted">{description}</span> : null}
-    </span>
-  </label>
-);
+const choice = (type: 'checkbox' | 'radio') => {
+  const Choice = ({ label, description, className, ...props }: ChoiceProps) => (
+    <label className={cn(choiceRow, className)}>
+      <input type={type} className={choiceBox} {...props} />
+      <span className="flex flex-col">
+        <span className="text-ink">{label}</span>
+        {description ? <span className="text-xs text-ink-muted">{description}</span> : null}
+      </span>
+    </label>
+  );
+  return Choice;
+};
 
-export const Radio = ({ label, description, className, ...props }: ChoiceProps) => (
-  <label className={cn(choiceRow, className)}>
-    <input type="radio" className={choiceBox} {...props} />
-    <span className="flex flex-col">
-      <span className="text-ink">{label}</span>
-      {description ? <span className="text-xs text-ink-muted">{description}</span> : null}
-    </span>
-  </label>
-);
+export const Checkbox = choice('checkbox');
+export const Radio = choice('radio');
 
 export type PasswordInputProps = Omit<InputProps, 'type'>;
 

@@ -41,6 +41,9 @@ export const BigInput = ({ className, ...props }: ComponentProps<'input'>) => (
   />
 );
 
+/** A big box for an amount: a decimal number, never negative (strength, minutes, resistance). */
+export const BigAmount = (props: Omit<ComponentProps<'input'>, 'type'>) => <BigInput type="number" inputMode="decimal" step="any" min={0} {...props} />;
+
 export const BigSelect = ({ className, children, ...props }: ComponentProps<'select'>) => (
   <select
     className={cn(

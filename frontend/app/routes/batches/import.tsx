@@ -1,19 +1,10 @@
-import { useRef, useState } from 'react';
+import { useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import {
-  gravityUnits,
-  gravityUnitLabels,
-  type ImportMapping,
-  type ImportMappingInput,
-  type ImportPreview,
-  type ImportRowProblem,
-} from '../../../../shared/schemas/batches.ts';
+import type { ImportMapping, ImportMappingInput, ImportPreview, ImportRowProblem } from '../../../../shared/schemas/batches.ts';
+import { ImportFailureAlert, MappingStep, StepList, UploadStep, type ImportFailure, type Step } from '@/app/routes/batches/import-steps';
+import { PageHeader, QueryFallback } from '@/components/layouts/page-header';
 import { Alert } from '@/components/ui/alert';
-import { Button } from '@/components/ui/button';
-import { Field } from '@/components/ui/field';
-import { Checkbox, Input, Select } from '@/components/ui/input';
-import { PageLoader } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
+import { parentPages, paths } from '@/config/paths';
 import { useBatch } from '@/features/batches/api/get-batch';
 import { importReadings, type UploadProgress } from '@/features/batches/api/import-readings';
 import { ImportProgress } from '@/features/batches/components/import-progress';
@@ -22,15 +13,6 @@ import { useDocumentTitle } from '@/hooks/use-document-title';
 import { useQueryClient } from '@tanstack/react-query';
 import { batchKeys } from '@/features/batches/api/keys';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
-import { cn } from '@/utils/cn';
-import { formatCount } from '@/utils/format';
-
-type Step = 'upload' | 'mapping' | 'preview';
-const steps: { key: Step; label: string }[] = [
-  { key: 'upload', label: '1. Upload' },
-  { key: 'mapping', label: '2. Columns' },
-  { key: 'preview', label: '3. Preview and import' },
-];
 
 const browserZone = () => {
   try {
@@ -39,16 +21,6 @@ const browserZone = () => {
     return 'UTC';
   }
 };
-
-const fieldLabels: Record<'takenAt' | 'gravity' | 'unit' | 'temperature' | 'note', string> = {
-  takenAt: 'Time of the reading',
-  gravity: 'Gravity',
-  unit: 'Unit (SG, °P, °Bx)',
-  temperature: 'Sample temperature',
-  note: 'Note',
-};
-
-const sourceLabels = { proposed: 'proposed from the column names', remembered: 'the mapping you used last time', given: 'as you set it' } as const;
 
 /** Import readings from a CSV or XLSX file: upload (with progress) → column mapping → preview with problems marked → import. */
 const ImportReadingsRoute = () => {
@@ -64,8 +36,7 @@ const ImportReadingsRoute = () => {
   const [mapping, setMapping] = useState<ImportMappingInput | null>(null);
   const [progress, setProgress] = useState<UploadProgress | null>(null);
   const [busy, setBusy] = useState<'preview' | 'import' | null>(null);
-  const [error, setError] = useState<{ message: string; problems: ImportRowProblem[] } | null>(null);
-  const inputRef = useRef<HTMLInputElement>(null);
+  const [error, setError] = useState<ImportFailure | null>(null);
 
   const run = async (dryRun: boolean, chosen: File, withMapping: ImportMappingInput | undefined) => {
     setError(null);
@@ -110,178 +81,49 @@ const ImportReadingsRoute = () => {
     }
   };
 
-  const headers = preview?.headers ?? [];
+  const previewRows = async () => {
+    if (!file || !mapping) return;
+    const r = await run(true, file, mapping);
+    if (r) setStep('preview');
+  };
   const setField = (key: keyof ImportMapping, value: unknown) => setMapping((m) => (m ? { ...m, [key]: value === '' ? null : value } : m));
 
-  if (batch.isPending) return <PageLoader />;
-  if (batch.isError)
-    return (
-      <Alert tone="error" title="This batch could not be shown">
-        {problemMessage(batch.error)}
-      </Alert>
-    );
+  if (batch.isPending || batch.isError) return <QueryFallback query={batch} what="batch" />;
   const b = batch.data;
   if (!b.can.importReadings) return <Alert tone="error">You may not import readings into this batch.</Alert>;
 
   return (
     <div className="flex flex-col gap-5">
-      <nav className="text-sm">
-        <Link to={paths.batches}>Batches</Link> <span className="text-ink-faint">/</span> <Link to={`${paths.batches}/${b.id}`}>{b.name}</Link>{' '}
-        <span className="text-ink-faint">/</span> Import readings
-      </nav>
-      <header>
-        <h1 className="text-2xl">Import readings</h1>
-        <p className="text-sm text-ink-muted">From a CSV or XLSX file (a digital hydrometer’s export, or the template). All rows go in, or none.</p>
-      </header>
-      <ol className="flex flex-wrap gap-2 text-sm" aria-label="Steps">
-        {steps.map((s) => (
-          <li
-            key={s.key}
-            aria-current={s.key === step ? 'step' : undefined}
-            className={cn(
-              'rounded-full border px-3 py-1',
-              s.key === step ? 'border-copper bg-copper-soft font-semibold text-copper-strong' : 'border-line text-ink-muted',
-            )}
-          >
-            {s.label}
-          </li>
-        ))}
-      </ol>
-
-      {error ? (
-        <Alert tone="error" title="The file could not be imported">
-          <p>{error.message}</p>
-          {error.problems.length ? (
-            <ul className="mt-1 list-disc pl-5">
-              {error.problems.slice(0, 20).map((p, i) => (
-                <li key={i}>
-                  Row {p.row}
-                  {p.column ? `, ${p.column}` : ''}: {p.message}
-                </li>
-              ))}
-            </ul>
-          ) : null}
-        </Alert>
-      ) : null}
+      <PageHeader
+        parent={parentPages.batches}
+        crumb={
+          <>
+            <Link to={`${paths.batches}/${b.id}`}>{b.name}</Link> <span className="text-ink-faint">/</span> Import readings
+          </>
+        }
+        title="Import readings"
+        intro="From a CSV or XLSX file (a digital hydrometer’s export, or the template). All rows go in, or none."
+        report
+      />
+      <StepList step={step} />
+      {error ? <ImportFailureAlert failure={error} /> : null}
       {progress ? <ImportProgress progress={progress} label={busy === 'import' ? 'Importing' : 'Reading the file'} /> : null}
-
-      {step === 'upload' ? (
-        <section className="flex flex-col gap-4 rounded-md border border-line bg-surface p-4">
-          <Field label="Readings file" hint="CSV (comma, semicolon or tab), or an XLSX workbook (its first sheet). Up to 16 MB.">
-            {(c) => (
-              <input
-                {...c}
-                ref={inputRef}
-                type="file"
-                accept=".csv,.tsv,.txt,.xlsx,text/csv,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
-                disabled={busy !== null}
-                onChange={(e) => void onFile(e.target.files?.[0] ?? null)}
-                className="block text-sm file:mr-3 file:min-h-9 file:rounded-md file:border file:border-line-strong file:bg-surface file:px-3 file:text-sm file:text-ink hover:file:border-copper"
-              />
-            )}
-          </Field>
-          <Field label="Time zone of times without an offset" hint="Most exports write local times.">
-            {(c) => <Input {...c} value={timeZone} onChange={(e) => setTimeZone(e.target.value)} className="max-w-64" />}
-          </Field>
-          <p className="text-sm">
-            No file yet? Start from a template: <a href="/api/readings/template.csv">CSV</a> · <a href="/api/readings/template.xlsx">XLSX</a>
-          </p>
-        </section>
-      ) : null}
-
+      {step === 'upload' ? <UploadStep busy={busy !== null} timeZone={timeZone} onTimeZone={setTimeZone} onFile={(chosen) => void onFile(chosen)} /> : null}
       {step === 'mapping' && preview && mapping ? (
-        <section className="flex flex-col gap-4 rounded-md border border-line bg-surface p-4">
-          <p className="text-sm">
-            <strong>{file?.name}</strong>: {preview.fileType.toUpperCase()}
-            {preview.delimiter ? `, separated by ${preview.delimiter === '\t' ? 'tabs' : `“${preview.delimiter}”`}` : ''}, {formatCount(preview.totalRows)}{' '}
-            rows. Columns {sourceLabels[preview.mappingSource]}.
-          </p>
-          <div className="grid gap-4 md:grid-cols-2">
-            {(Object.keys(fieldLabels) as (keyof typeof fieldLabels)[]).map((key) => (
-              <Field key={key} label={fieldLabels[key]}>
-                {(c) => (
-                  <Select {...c} value={mapping[key] ?? ''} onChange={(e) => setField(key, e.target.value)} data-field={key}>
-                    {key === 'takenAt' || key === 'gravity' ? null : <option value="">Not in the file</option>}
-                    {headers.map((h) => (
-                      <option key={h} value={h}>
-                        {h}
-                      </option>
-                    ))}
-                  </Select>
-                )}
-              </Field>
-            ))}
-            <Field label="Gravity scale" hint={mapping.unit ? 'Used where the unit column is blank.' : 'The scale of the whole gravity column.'}>
-              {(c) => (
-                <Select {...c} value={mapping.gravityUnit ?? 'sg'} onChange={(e) => setField('gravityUnit', e.target.value)}>
-                  {gravityUnits.map((u) => (
-                    <option key={u} value={u}>
-                      {gravityUnitLabels[u]}
-                    </option>
-                  ))}
-                </Select>
-              )}
-            </Field>
-            <Field label="Temperature unit">
-              {(c) => (
-                <Select {...c} value={mapping.temperatureUnit ?? 'c'} onChange={(e) => setField('temperatureUnit', e.target.value)}>
-                  <option value="c">°C</option>
-                  <option value="f">°F</option>
-                </Select>
-              )}
-            </Field>
-            <Field label="Dates like 03/10/2026 are">
-              {(c) => (
-                <Select {...c} value={mapping.dateOrder ?? 'auto'} onChange={(e) => setField('dateOrder', e.target.value)}>
-                  <option value="auto">Worked out from the column</option>
-                  <option value="dmy">Day / month / year</option>
-                  <option value="mdy">Month / day / year</option>
-                  <option value="ymd">Year / month / day</option>
-                </Select>
-              )}
-            </Field>
-            <Field label="Time zone">{(c) => <Input {...c} value={mapping.timeZone ?? ''} onChange={(e) => setField('timeZone', e.target.value)} />}</Field>
-            <Field label="A row at the time of an existing reading">
-              {(c) => (
-                <Select {...c} value={mapping.onDuplicate ?? 'error'} onChange={(e) => setField('onDuplicate', e.target.value)}>
-                  <option value="error">is a problem (nothing is imported)</option>
-                  <option value="skip">is skipped (re-importing a longer export)</option>
-                </Select>
-              )}
-            </Field>
-          </div>
-          <Checkbox
-            label="Correct hydrometer readings (SG, °P) to the calibration temperature"
-            description="Leave off for a digital hydrometer that compensates by itself."
-            checked={mapping.correctTemperature ?? true}
-            onChange={(e) => setField('correctTemperature', e.target.checked)}
-          />
-          <div className="flex flex-wrap gap-2">
-            <Button
-              onClick={async () => {
-                if (!file) return;
-                const r = await run(true, file, mapping);
-                if (r) setStep('preview');
-              }}
-              pending={busy === 'preview'}
-            >
-              Preview the rows
-            </Button>
-            <Button
-              variant="secondary"
-              onClick={() => {
-                setStep('upload');
-                setFile(null);
-                setPreview(null);
-              }}
-              disabled={busy !== null}
-            >
-              Choose another file
-            </Button>
-          </div>
-        </section>
+        <MappingStep
+          file={file}
+          preview={preview}
+          mapping={mapping}
+          busy={busy}
+          onChange={setField}
+          onPreview={() => void previewRows()}
+          onRestart={() => {
+            setStep('upload');
+            setFile(null);
+            setPreview(null);
+          }}
+        />
       ) : null}
-
       {step === 'preview' && preview && mapping ? (
         <PreviewStep preview={preview} busy={busy} onBack={() => setStep('mapping')} onImport={() => file && void run(false, file, mapping)} />
       ) : null}

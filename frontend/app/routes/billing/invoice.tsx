@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { ConfirmDialog } from '@/components/ui/dialog';
+import { MutationConfirmDialog } from '@/components/ui/dialog';
 import { useNotice } from '@/components/ui/notice';
 import { Spinner } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
@@ -80,42 +80,26 @@ const InvoiceRoute = () => {
       <RecordPaymentDialog invoice={inv} open={open === 'payment'} onClose={() => setOpen(null)} />
       <RefundDialog invoice={inv} open={open === 'refund'} onClose={() => setOpen(null)} />
       <VoidDialog invoice={inv} open={open === 'void'} onClose={() => setOpen(null)} />
-      <ConfirmDialog
+      <MutationConfirmDialog
         open={open === 'issue'}
         title="Issue this invoice?"
         confirmLabel="Issue it"
-        pending={issue.isPending}
-        error={issue.error ? problemMessage(issue.error) : null}
+        mutation={issue}
         onClose={() => setOpen(null)}
-        onConfirm={() =>
-          issue.mutate(undefined, {
-            onSuccess: ({ invoice: issued }) => {
-              setOpen(null);
-              notice.show({ text: `Issued as ${issued.number}. ${issued.memberName} can see it now.` });
-            },
-          })
-        }
+        onDone={({ invoice: issued }) => notice.show({ text: `Issued as ${issued.number}. ${issued.memberName} can see it now.` })}
       >
         It takes the next invoice number, is dated today and becomes visible to {inv.memberName}. From then on it never changes; corrections are credit notes.
-      </ConfirmDialog>
-      <ConfirmDialog
+      </MutationConfirmDialog>
+      <MutationConfirmDialog
         open={open === 'send'}
         title={`E-mail ${inv.number ?? 'this invoice'} to ${inv.memberName}?`}
         confirmLabel="Send"
-        pending={send.isPending}
-        error={send.error ? problemMessage(send.error) : null}
+        mutation={send}
         onClose={() => setOpen(null)}
-        onConfirm={() =>
-          send.mutate(undefined, {
-            onSuccess: (r) => {
-              setOpen(null);
-              notice.show({ text: `Queued for ${r.to}, with the PDF attached. It is retried if the mail server is busy.` });
-            },
-          })
-        }
+        onDone={(r) => notice.show({ text: `Queued for ${r.to}, with the PDF attached. It is retried if the mail server is busy.` })}
       >
         The PDF goes to {inv.memberEmail}, with how to pay.{inv.status === 'draft' ? ' Sending a draft issues it first.' : ''}
-      </ConfirmDialog>
+      </MutationConfirmDialog>
     </div>
   );
 };

@@ -25,6 +25,13 @@ const Stat = ({ label, children, hint, tone }: { label: string; children: ReactN
 );
 
 /** The treasurer's home: what is unpaid, how old it is, and the last run. Anyone else goes to their own invoices. */
+/** An amount in a figures column. */
+const MoneyCell = ({ cents, currency }: { cents: number; currency: string }) => (
+  <td className="py-1.5 text-right">
+    <Money cents={cents} currency={currency} />
+  </td>
+);
+
 const owedHead = ['Member', figureHead('Over 60 days'), figureHead('Open')];
 
 const BillingOverviewRoute = () => {
@@ -92,18 +99,14 @@ const TreasurerOverview = () => {
                   <th scope="row" className="py-1.5 text-left font-normal text-ink-muted">
                     {ageingBucketLabels[b]}
                   </th>
-                  <td className="py-1.5 text-right">
-                    <Money cents={a.totals[b]} currency={a.currency} />
-                  </td>
+                  <MoneyCell cents={a.totals[b]} currency={a.currency} />
                 </tr>
               ))}
               <tr className="border-t border-line-strong font-semibold">
                 <th scope="row" className="py-1.5 text-left">
                   Open in all
                 </th>
-                <td className="py-1.5 text-right">
-                  <Money cents={a.totalCents} currency={a.currency} />
-                </td>
+                <MoneyCell cents={a.totalCents} currency={a.currency} />
               </tr>
             </tbody>
           </table>
@@ -131,9 +134,7 @@ const TreasurerOverview = () => {
                           <span className="text-ink-muted">—</span>
                         )}
                       </td>
-                      <td className="py-1.5 text-right">
-                        <Money cents={r.totalCents} currency={a.currency} />
-                      </td>
+                      <MoneyCell cents={r.totalCents} currency={a.currency} />
                     </tr>
                   ))}
                 </tbody>

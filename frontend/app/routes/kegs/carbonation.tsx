@@ -21,7 +21,7 @@ import { Cautions } from '@/components/safety/cautions';
 import { useEquipment } from '@/features/equipment/api/get-equipment';
 import { inspectionKindLabels } from '../../../../shared/schemas/inspections.ts';
 import { localNow } from '@/features/sanitation/step-draft';
-import { BigChoice, BigInput, BigSelect } from '@/components/ui/touch';
+import { BigAmount, BigChoice, BigInput, BigSelect } from '@/components/ui/touch';
 import { cellarPaths } from '@/config/cellar-paths';
 import { useSetting } from '@/features/settings/api/setting';
 import { useDocumentTitle } from '@/hooks/use-document-title';
@@ -33,6 +33,10 @@ import { formatDateTime } from '@/utils/format';
 
 const FT = 0.3048;
 const n = (v: string) => (v.trim() === '' ? Number.NaN : Number(v));
+const methodChoices: readonly (readonly [CarbonationMethod, string])[] = [
+  ['set_and_hold', 'About two weeks'],
+  ['fast_start', 'About three days, then serving pressure'],
+];
 
 /** The carbonation planner for one keg: target volumes → regulator pressure, ready date, fast-start reminder, line balance. */
 const CarbonationPlannerRoute = () => {
@@ -263,20 +267,16 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
         <fieldset className="flex flex-col gap-2 sm:col-span-2">
           <legend className="mb-1 text-sm font-medium">Method</legend>
           <div className="flex flex-col gap-2 sm:flex-row">
-            <BigChoice
-              name="method"
-              label={carbonationMethodLabels.set_and_hold}
-              description="About two weeks"
-              checked={method === 'set_and_hold'}
-              onChange={() => setMethod('set_and_hold')}
-            />
-            <BigChoice
-              name="method"
-              label={carbonationMethodLabels.fast_start}
-              description="About three days, then serving pressure"
-              checked={method === 'fast_start'}
-              onChange={() => setMethod('fast_start')}
-            />
+            {methodChoices.map(([value, description]) => (
+              <BigChoice
+                key={value}
+                name="method"
+                label={carbonationMethodLabels[value]}
+                description={description}
+                checked={method === value}
+                onChange={() => setMethod(value)}
+              />
+            ))}
           </div>
         </fieldset>
         {method === 'fast_start' ? (
@@ -327,7 +327,7 @@ const PlannerForm = ({ kegId, kegCode, holds, currentTapId, ratedKpa = null, blo
             </label>
             <label className={label}>
               Line resistance ({u === 'us' ? 'psi/ft' : 'kPa/m'})
-              <BigInput type="number" inputMode="decimal" step="any" min={0} value={resistance} onChange={(e) => setResistanceChoice(e.target.value)} />
+              <BigAmount value={resistance} onChange={(e) => setResistanceChoice(e.target.value)} />
               <span className="text-xs font-normal text-ink-muted">
                 {lineType ? `Default for this line: ${lineDefaultBasis(lineTubingTable.find((r) => r.tubing === lineType)?.defaultBasis)}. ` : ''}
                 Makers' figures differ; change it to what you measure.

@@ -1,12 +1,10 @@
-import { useMutation } from '@tanstack/react-query';
 import type { PasswordResetRequestInput } from '../../../../shared/schemas/auth.ts';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export { passwordResetRequestSchema } from '../../../../shared/schemas/auth.ts';
 
 /** Always 202, whether or not the address has an account. */
 export const requestPasswordReset = (input: PasswordResetRequestInput) => api.post<void>('/api/auth/password-reset', input);
 
-export function useRequestPasswordReset() {
-  return useMutation({ mutationFn: requestPasswordReset });
-}
+export const useRequestPasswordReset = () => useApiMutation(requestPasswordReset);

@@ -1,14 +1,11 @@
-import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import type { ProductionRecords } from '../../../../shared/schemas/batches.ts';
-import { api, buildUrl } from '@/lib/api-client';
+import { buildUrl } from '@/lib/api-client';
 import { batchKeys } from '@/features/batches/api/keys';
+import { rangeReportQueryOptions } from '@/features/batches/api/range-report';
 
 export const getProductionRecordsQueryOptions = (from: string, to: string) =>
-  queryOptions({
-    queryKey: batchKeys.productionRecords(from, to),
-    queryFn: ({ signal }) => api.get<ProductionRecords>('/api/production-records', { query: { from, to }, signal }),
-    placeholderData: keepPreviousData,
-  });
+  rangeReportQueryOptions<ProductionRecords>(batchKeys.productionRecords(from, to), '/api/production-records', from, to);
 
 export function useProductionRecords(from: string, to: string) {
   return useQuery(getProductionRecordsQueryOptions(from, to));

@@ -1,7 +1,8 @@
-import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { BatchTrace, TraceReport } from '../../../../shared/schemas/trace.ts';
 import { api, buildUrl } from '@/lib/api-client';
 import { batchKeys } from '@/features/batches/api/keys';
+import { rangeReportQueryOptions } from '@/features/batches/api/range-report';
 
 export const getBatchTraceQueryOptions = (id: string) =>
   queryOptions({
@@ -17,11 +18,7 @@ export function useBatchTrace(id: string) {
 export const batchTraceHref = (id: string, format: 'csv' | 'pdf') => `/api/batches/${encodeURIComponent(id)}/trace.${format}`;
 
 export const getTraceReportQueryOptions = (from: string, to: string) =>
-  queryOptions({
-    queryKey: batchKeys.traceReport(from, to),
-    queryFn: ({ signal }) => api.get<TraceReport>('/api/reports/trace', { query: { from, to }, signal }),
-    placeholderData: keepPreviousData,
-  });
+  rangeReportQueryOptions<TraceReport>(batchKeys.traceReport(from, to), '/api/reports/trace', from, to);
 
 /** Every keg filled in a date range, by batch, and where each is now. */
 export function useTraceReport(from: string, to: string) {

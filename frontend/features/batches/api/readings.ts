@@ -1,7 +1,8 @@
-import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, queryOptions, useQuery, type QueryClient } from '@tanstack/react-query';
 import type { CreateReadingInput, ReadingDto } from '../../../../shared/schemas/batches.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 import { batchKeys } from '@/features/batches/api/keys';
 
 export interface ReadingsQuery {
@@ -23,27 +24,22 @@ export function useReadings(batchId: string, query: ReadingsQuery) {
 }
 
 /** After a reading changes, the batch's figures and its list row change too. */
-function useInvalidateBatch(batchId: string) {
-  const queryClient = useQueryClient();
-  return () => {
-    void queryClient.invalidateQueries({ queryKey: batchKeys.detail(batchId) });
-    void queryClient.invalidateQueries({ queryKey: batchKeys.lists() });
-  };
-}
+/** The batch's page and the lists refetch in the background. */
+const refreshBatch = (batchId: string) => (_: unknown, queryClient: QueryClient) => {
+  void queryClient.invalidateQueries({ queryKey: batchKeys.detail(batchId) });
+  void queryClient.invalidateQueries({ queryKey: batchKeys.lists() });
+};
 
-export function useCreateReading(batchId: string) {
-  const invalidate = useInvalidateBatch(batchId);
-  return useMutation({
-    mutationFn: (input: CreateReadingInput) =>
-      api.post<{ reading: ReadingDto }>(`/api/batches/${encodeURIComponent(batchId)}/readings`, input).then((r) => r.reading),
-    onSuccess: invalidate,
-  });
-}
+export const useCreateReading = (batchId: string) =>
+  useApiMutation(
+    (input: CreateReadingInput) => api.post<{ reading: ReadingDto }>(`/api/batches/${encodeURIComponent(batchId)}/readings`, input).then((r) => r.reading),
+    [],
+    refreshBatch(batchId),
+  );
 
-export function useDeleteReading(batchId: string) {
-  const invalidate = useInvalidateBatch(batchId);
-  return useMutation({
-    mutationFn: (readingId: string) => api.delete<void>(`/api/batches/${encodeURIComponent(batchId)}/readings/${encodeURIComponent(readingId)}`),
-    onSuccess: invalidate,
-  });
-}
+export const useDeleteReading = (batchId: string) =>
+  useApiMutation(
+    (readingId: string) => api.delete<void>(`/api/batches/${encodeURIComponent(batchId)}/readings/${encodeURIComponent(readingId)}`),
+    [],
+    refreshBatch(batchId),
+  );

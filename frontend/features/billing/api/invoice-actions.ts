@@ -1,4 +1,3 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
 import {
   paymentInputSchema,
   refundInputSchema,
@@ -11,71 +10,36 @@ import {
 } from '../../../../shared/schemas/billing.ts';
 import { billingKeys } from '@/features/billing/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export { paymentInputSchema, refundInputSchema, voidInvoiceSchema };
 
 /** After any change of money: the invoice itself straight from the answer, everything else refetched. */
-function useSettle() {
-  const queryClient = useQueryClient();
-  return (invoice: InvoiceDetail) => {
-    queryClient.setQueryData(billingKeys.invoice(invoice.id), invoice);
-    return queryClient.invalidateQueries({ queryKey: billingKeys.all });
-  };
-}
+const useInvoiceAction = <TData extends { invoice: InvoiceDetail }, TVariables = void>(mutationFn: (variables: TVariables) => Promise<TData>) =>
+  useApiMutation(mutationFn, [billingKeys.all], ({ invoice }, queryClient) => queryClient.setQueryData(billingKeys.invoice(invoice.id), invoice));
 
-export function useIssueInvoice(id: string) {
-  const settle = useSettle();
-  return useMutation({
-    mutationFn: () => api.post<{ invoice: InvoiceDetail }>(`/api/invoices/${id}/issue`),
-    onSuccess: ({ invoice }) => settle(invoice),
-  });
-}
+export const useIssueInvoice = (id: string) => useInvoiceAction(() => api.post<{ invoice: InvoiceDetail }>(`/api/invoices/${id}/issue`));
 
-export function useSendInvoice(id: string) {
-  const settle = useSettle();
-  return useMutation({
-    mutationFn: () => api.post<{ queued: boolean; to: string; invoice: InvoiceDetail }>(`/api/invoices/${id}/send`),
-    onSuccess: ({ invoice }) => settle(invoice),
-  });
-}
+export const useSendInvoice = (id: string) =>
+  useInvoiceAction(() => api.post<{ queued: boolean; to: string; invoice: InvoiceDetail }>(`/api/invoices/${id}/send`));
 
-export function useRecordPayment(id: string) {
-  const settle = useSettle();
-  return useMutation({
-    mutationFn: (input: PaymentInput) => api.post<{ payment: Payment; invoice: InvoiceDetail }>(`/api/invoices/${id}/payments`, input),
-    onSuccess: ({ invoice }) => settle(invoice),
-  });
-}
+export const useRecordPayment = (id: string) =>
+  useInvoiceAction((input: PaymentInput) => api.post<{ payment: Payment; invoice: InvoiceDetail }>(`/api/invoices/${id}/payments`, input));
 
-export function useVoidInvoice(id: string) {
-  const settle = useSettle();
-  return useMutation({
-    mutationFn: (input: VoidInvoiceInput) => api.post<{ creditNoteId: string | null; invoice: InvoiceDetail }>(`/api/invoices/${id}/void`, input),
-    onSuccess: ({ invoice }) => settle(invoice),
-  });
-}
+export const useVoidInvoice = (id: string) =>
+  useInvoiceAction((input: VoidInvoiceInput) => api.post<{ creditNoteId: string | null; invoice: InvoiceDetail }>(`/api/invoices/${id}/void`, input));
 
-export function useRefundInvoice(id: string) {
-  const settle = useSettle();
-  return useMutation({
-    mutationFn: (input: RefundInput) => api.post<{ creditNoteId: string; invoice: InvoiceDetail }>(`/api/invoices/${id}/refunds`, input),
-    onSuccess: ({ invoice }) => settle(invoice),
-  });
-}
+export const useRefundInvoice = (id: string) =>
+  useInvoiceAction((input: RefundInput) => api.post<{ creditNoteId: string; invoice: InvoiceDetail }>(`/api/invoices/${id}/refunds`, input));
 
 /** Opens the payment provider's page for what is due; the browser goes there. */
-export function useStartCheckout(id: string) {
-  return useMutation({
-    mutationFn: () => api.post<{ url: string; sessionId: string }>(`/api/invoices/${id}/checkout`),
-    onSuccess: ({ url }) => window.location.assign(url),
-  });
-}
+export const useStartCheckout = (id: string) =>
+  useApiMutation(
+    () => api.post<{ url: string; sessionId: string }>(`/api/invoices/${id}/checkout`),
+    [],
+    ({ url }) => window.location.assign(url),
+  );
 
 /** Back from the provider: ask it directly, in case its notice to us is still on its way. */
-export function useConfirmCheckout(id: string) {
-  const settle = useSettle();
-  return useMutation({
-    mutationFn: (sessionId: string) => api.post<{ outcome: string; invoice: InvoiceDetail }>(`/api/invoices/${id}/checkout/confirm`, { sessionId }),
-    onSuccess: ({ invoice }) => settle(invoice),
-  });
-}
+export const useConfirmCheckout = (id: string) =>
+  useInvoiceAction((sessionId: string) => api.post<{ outcome: string; invoice: InvoiceDetail }>(`/api/invoices/${id}/checkout/confirm`, { sessionId }));

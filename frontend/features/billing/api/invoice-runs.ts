@@ -1,7 +1,8 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import { invoiceRunInputSchema, type InvoiceRun, type InvoiceRunInput, type InvoiceSummary, type RunPreview } from '../../../../shared/schemas/billing.ts';
 import { billingKeys } from '@/features/billing/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export { invoiceRunInputSchema };
 
@@ -13,26 +14,9 @@ export function useRunPreview(period: string | null) {
   });
 }
 
-export function useRunPeriod() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (input: InvoiceRunInput) => api.post<{ run: InvoiceRun; invoices: InvoiceSummary[] }>('/api/invoice-runs', input),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useRunPeriod = () =>
+  useApiMutation((input: InvoiceRunInput) => api.post<{ run: InvoiceRun; invoices: InvoiceSummary[] }>('/api/invoice-runs', input), [billingKeys.all]);
 
-export function useIssueRunDrafts() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (runId: string) => api.post<{ issued: number }>(`/api/invoice-runs/${runId}/issue`),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useIssueRunDrafts = () => useApiMutation((runId: string) => api.post<{ issued: number }>(`/api/invoice-runs/${runId}/issue`), [billingKeys.all]);
 
-export function useSendRun() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (runId: string) => api.post<{ queued: number }>(`/api/invoice-runs/${runId}/send`),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useSendRun = () => useApiMutation((runId: string) => api.post<{ queued: number }>(`/api/invoice-runs/${runId}/send`), [billingKeys.all]);

@@ -1,9 +1,10 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import { manualChargeInputSchema, type ManualCharge, type ManualChargeInput } from '../../../../shared/schemas/billing.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import type { User } from '../../../../shared/schemas/user.ts';
 import { billingKeys } from '@/features/billing/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 import { userKeys } from '@/features/users/api/keys';
 
 export { manualChargeInputSchema };
@@ -15,21 +16,10 @@ export function useManualCharges(period?: string) {
   });
 }
 
-export function useAddManualCharge() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (input: ManualChargeInput) => api.post<{ charge: ManualCharge }>('/api/manual-charges', input),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useAddManualCharge = () =>
+  useApiMutation((input: ManualChargeInput) => api.post<{ charge: ManualCharge }>('/api/manual-charges', input), [billingKeys.all]);
 
-export function useRemoveManualCharge() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (id: string) => api.delete<void>(`/api/manual-charges/${id}`),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useRemoveManualCharge = () => useApiMutation((id: string) => api.delete<void>(`/api/manual-charges/${id}`), [billingKeys.all]);
 
 /** The members a treasurer bills, for pickers (everyone holding the member role). */
 export function useBillableMembers() {

@@ -1,8 +1,9 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { Overpayment, OverpaymentRefundInput } from '../../../../shared/schemas/billing.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { billingKeys } from '@/features/billing/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export const getOpenOverpaymentsQueryOptions = () =>
   queryOptions({
@@ -13,11 +14,9 @@ export const getOpenOverpaymentsQueryOptions = () =>
 /** Online payments beyond what was due that are still owed back to members (the treasurer's). */
 export const useOpenOverpayments = (enabled = true) => useQuery({ ...getOpenOverpaymentsQueryOptions(), enabled });
 
-export function useMarkOverpaymentRefunded() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: ({ paymentId, ...input }: OverpaymentRefundInput & { paymentId: string }) =>
+export const useMarkOverpaymentRefunded = () =>
+  useApiMutation(
+    ({ paymentId, ...input }: OverpaymentRefundInput & { paymentId: string }) =>
       api.post<{ overpayment: Overpayment }>(`/api/billing/overpayments/${paymentId}/refunded`, input),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+    [billingKeys.all],
+  );

@@ -1,4 +1,4 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { queryOptions, useQuery } from '@tanstack/react-query';
 import {
   billingProfileSchema,
   priceInputSchema,
@@ -11,6 +11,7 @@ import {
 } from '../../../../shared/schemas/billing.ts';
 import { billingKeys } from '@/features/billing/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export { billingProfileSchema, priceInputSchema, taxRateInputSchema };
 
@@ -26,37 +27,13 @@ export const getPricesQueryOptions = () =>
 
 export const usePrices = () => useQuery(getPricesQueryOptions());
 
-export function useAddPrice() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (input: PriceInput) => api.post<{ price: Price }>('/api/prices', input),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useAddPrice = () => useApiMutation((input: PriceInput) => api.post<{ price: Price }>('/api/prices', input), [billingKeys.all]);
 
-export function useWithdrawPrice() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (id: string) => api.delete<void>(`/api/prices/${id}`),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useWithdrawPrice = () => useApiMutation((id: string) => api.delete<void>(`/api/prices/${id}`), [billingKeys.all]);
 
-export function useAddTaxRate() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (input: TaxRateInput) => api.post<{ taxRate: TaxRate }>('/api/tax-rates', input),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useAddTaxRate = () => useApiMutation((input: TaxRateInput) => api.post<{ taxRate: TaxRate }>('/api/tax-rates', input), [billingKeys.all]);
 
-export function useWithdrawTaxRate() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (id: string) => api.delete<void>(`/api/tax-rates/${id}`),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useWithdrawTaxRate = () => useApiMutation((id: string) => api.delete<void>(`/api/tax-rates/${id}`), [billingKeys.all]);
 
 export const getProfileQueryOptions = () =>
   queryOptions({
@@ -66,10 +43,5 @@ export const getProfileQueryOptions = () =>
 
 export const useBillingProfile = () => useQuery(getProfileQueryOptions());
 
-export function useSaveBillingProfile() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (profile: BillingProfile) => api.put<{ profile: BillingProfile }>('/api/billing/profile', profile),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingKeys.all }),
-  });
-}
+export const useSaveBillingProfile = () =>
+  useApiMutation((profile: BillingProfile) => api.put<{ profile: BillingProfile }>('/api/billing/profile', profile), [billingKeys.all]);

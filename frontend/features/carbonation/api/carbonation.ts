@@ -1,7 +1,8 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import type { CarbonationPlanView, CreateCarbonationPlanInput } from '../../../../shared/schemas/carbonation.ts';
 import type { Page } from '../../../../shared/schemas/pagination.ts';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 import { carbonationKeys } from '@/features/carbonation/api/keys';
 import { kegKeys } from '@/features/kegs/api/keys';
 
@@ -20,26 +21,16 @@ export const useLowerDuePlans = (enabled = true) =>
     enabled,
   });
 
-function useInvalidate() {
-  const queryClient = useQueryClient();
-  return () => Promise.all([queryClient.invalidateQueries({ queryKey: carbonationKeys.all }), queryClient.invalidateQueries({ queryKey: kegKeys.all })]);
-}
+const planStale = [carbonationKeys.all, kegKeys.all];
 
-export function useCreatePlan() {
-  const invalidate = useInvalidate();
-  return useMutation({
-    mutationFn: (input: CreateCarbonationPlanInput) => api.post<{ plan: CarbonationPlanView }>('/api/carbonation-plans', input),
-    onSuccess: () => invalidate(),
-  });
-}
+export const useCreatePlan = () =>
+  useApiMutation((input: CreateCarbonationPlanInput) => api.post<{ plan: CarbonationPlanView }>('/api/carbonation-plans', input), planStale);
 
-export function usePlanAction() {
-  const invalidate = useInvalidate();
-  return useMutation({
-    mutationFn: ({ planId, action }: { planId: string; action: 'pressure-lowered' | 'done' | 'cancelled' }) =>
+export const usePlanAction = () =>
+  useApiMutation(
+    ({ planId, action }: { planId: string; action: 'pressure-lowered' | 'done' | 'cancelled' }) =>
       action === 'pressure-lowered'
         ? api.post<{ plan: CarbonationPlanView }>(`/api/carbonation-plans/${encodeURIComponent(planId)}/pressure-lowered`)
         : api.patch<{ plan: CarbonationPlanView }>(`/api/carbonation-plans/${encodeURIComponent(planId)}`, { state: action }),
-    onSuccess: () => invalidate(),
-  });
-}
+    planStale,
+  );

@@ -1,18 +1,13 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import type { CreateEquipmentInput, Equipment, EquipmentKind } from '../../../../shared/schemas/equipment.ts';
 import { equipmentKeys } from '@/features/equipment/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export const createEquipment = (input: CreateEquipmentInput) => api.post<{ equipment: Equipment }>('/api/equipment', input);
 
 /** Adds an item to the registry (admin); every equipment list and page refetches. */
-export function useCreateEquipment() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: createEquipment,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: equipmentKeys.all }),
-  });
-}
+export const useCreateEquipment = () => useApiMutation(createEquipment, [equipmentKeys.all]);
 
 export const getNextEquipmentCode = (kind: EquipmentKind, signal?: AbortSignal) =>
   api.get<{ kind: EquipmentKind; code: string }>('/api/equipment/next-code', { query: { kind }, ...(signal ? { signal } : {}) });

@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import {
   maintenanceListQuerySchema,
   type CreateInspectionInput,
@@ -11,30 +11,21 @@ import { defineListQuery, pageQueryOptions } from '@/components/list-kit';
 import { equipmentKeys } from '@/features/equipment/api/keys';
 import { todayKeys } from '@/features/today/api/get-today';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export const recordInspection = (id: string, input: CreateInspectionInput) =>
   api.post<{ inspection: InspectionView }>(`/api/equipment/${encodeURIComponent(id)}/inspections`, input);
 
 /** Inspections and the gas line change what Today, the maintenance list and every item page show. */
-function useInvalidateCellar() {
-  const queryClient = useQueryClient();
-  return () => Promise.all([queryClient.invalidateQueries({ queryKey: equipmentKeys.all }), queryClient.invalidateQueries({ queryKey: todayKeys.all })]);
-}
+const inspectionStale = [equipmentKeys.all, todayKeys.all];
 
-export function useRecordInspection(id: string) {
-  const invalidate = useInvalidateCellar();
-  return useMutation({ mutationFn: (input: CreateInspectionInput) => recordInspection(id, input), onSuccess: invalidate });
-}
+export const useRecordInspection = (id: string) => useApiMutation((input: CreateInspectionInput) => recordInspection(id, input), inspectionStale);
 
-export function useConnectCylinder(id: string) {
-  const invalidate = useInvalidateCellar();
-  return useMutation({ mutationFn: () => api.post<{ cylinder: CylinderView }>(`/api/equipment/${encodeURIComponent(id)}/connect`, {}), onSuccess: invalidate });
-}
+export const useConnectCylinder = (id: string) =>
+  useApiMutation(() => api.post<{ cylinder: CylinderView }>(`/api/equipment/${encodeURIComponent(id)}/connect`, {}), inspectionStale);
 
-export function useRefillCylinder(id: string) {
-  const invalidate = useInvalidateCellar();
-  return useMutation({ mutationFn: () => api.post<{ cylinder: CylinderView }>(`/api/equipment/${encodeURIComponent(id)}/refill`, {}), onSuccess: invalidate });
-}
+export const useRefillCylinder = (id: string) =>
+  useApiMutation(() => api.post<{ cylinder: CylinderView }>(`/api/equipment/${encodeURIComponent(id)}/refill`, {}), inspectionStale);
 
 /** The maintenance list's state in the URL: the most urgent first. */
 export const maintenanceListQuery = defineListQuery(maintenanceListQuerySchema);

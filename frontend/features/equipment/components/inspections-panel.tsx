@@ -13,7 +13,7 @@ import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
-import { Input, Radio, Select } from '@/components/ui/input';
+import { Input, Options, Radio, Select } from '@/components/ui/input';
 import { useConnectCylinder, useRecordInspection, useRefillCylinder } from '@/features/equipment/api/inspections';
 import { useAppAbility } from '@/lib/ability';
 import { problemMessage } from '@/lib/api-client';
@@ -197,11 +197,7 @@ const InspectionForm = ({ item, kinds }: { item: Equipment; kinds: readonly Insp
         <Field label="Inspection">
           {(c) => (
             <Select {...c} value={kind} onChange={(e) => setKind(e.target.value as InspectionKind)}>
-              {kinds.map((k) => (
-                <option key={k} value={k}>
-                  {inspectionKindLabels[k]}
-                </option>
-              ))}
+              <Options values={kinds} labels={inspectionKindLabels} />
             </Select>
           )}
         </Field>

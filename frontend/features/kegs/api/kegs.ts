@@ -1,4 +1,4 @@
-import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import {
   kegListQuerySchema,
   type KegHistoryEntry,
@@ -14,6 +14,7 @@ import { kegKeys } from '@/features/kegs/api/keys';
 import { sanitationKeys } from '@/features/sanitation/api/keys';
 import { userKeys } from '@/features/users/api/keys';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 /** The fleet list's state in the URL. */
 export const kegListQuery = defineListQuery(kegListQuerySchema);
@@ -52,21 +53,14 @@ type KegAction =
 
 /** Check-out, return, moves, emptying, levels and undo: each answers with the keg as it is now (a return, an emptying or a dump with its undo offer). */
 export function useKegAction(kegId: string) {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (a: KegAction) =>
+  return useApiMutation(
+    (a: KegAction) =>
       a.action === 'level'
         ? api.patch<{ keg: KegView; undo?: KegUndoOfferView }>(`/api/kegs/${encodeURIComponent(kegId)}/level`, a.body)
         : api.post<{ keg: KegView; undo?: KegUndoOfferView }>(`/api/kegs/${encodeURIComponent(kegId)}/${a.action}`, a.body),
-    onSuccess: async (data) => {
-      queryClient.setQueryData(kegKeys.detail(kegId), { keg: data.keg });
-      await Promise.all([
-        queryClient.invalidateQueries({ queryKey: kegKeys.all }),
-        queryClient.invalidateQueries({ queryKey: equipmentKeys.all }),
-        queryClient.invalidateQueries({ queryKey: sanitationKeys.all }),
-      ]);
-    },
-  });
+    [kegKeys.all, equipmentKeys.all, sanitationKeys.all],
+    (data, queryClient) => queryClient.setQueryData(kegKeys.detail(kegId), { keg: data.keg }),
+  );
 }
 
 export interface MemberOption {

@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { vesselStates } from '../../../../shared/schemas/equipment.ts';
 import {
@@ -14,6 +14,7 @@ import { equipmentKeys } from '@/features/equipment/api/keys';
 import { kegKeys } from '@/features/kegs/api/keys';
 import { sanitationKeys } from '@/features/sanitation/api/keys';
 import { api, buildUrl } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 
 export interface VesselStatusQuery {
   kind?: 'fermenter' | 'keg' | undefined;
@@ -52,32 +53,16 @@ interface CycleResult {
 }
 
 /** Everything that shows a vessel's state reads again after a cycle. */
-function useInvalidateCellar() {
-  const queryClient = useQueryClient();
-  return () =>
-    Promise.all([
-      queryClient.invalidateQueries({ queryKey: sanitationKeys.all }),
-      queryClient.invalidateQueries({ queryKey: equipmentKeys.all }),
-      queryClient.invalidateQueries({ queryKey: kegKeys.all }),
-    ]);
-}
+const cycleStale = [sanitationKeys.all, equipmentKeys.all, kegKeys.all];
 
-export function useRecordCycle() {
-  const invalidate = useInvalidateCellar();
-  return useMutation({
-    mutationFn: (input: CreateSanitationCycleInput) => api.post<CycleResult>('/api/sanitation-cycles', input),
-    onSuccess: () => invalidate(),
-  });
-}
+export const useRecordCycle = () => useApiMutation((input: CreateSanitationCycleInput) => api.post<CycleResult>('/api/sanitation-cycles', input), cycleStale);
 
-export function useContinueCycle() {
-  const invalidate = useInvalidateCellar();
-  return useMutation({
-    mutationFn: ({ cycleId, steps }: { cycleId: string; steps: CreateSanitationCycleInput['steps'] }) =>
+export const useContinueCycle = () =>
+  useApiMutation(
+    ({ cycleId, steps }: { cycleId: string; steps: CreateSanitationCycleInput['steps'] }) =>
       api.post<CycleResult>(`/api/sanitation-cycles/${encodeURIComponent(cycleId)}/steps`, { steps }),
-    onSuccess: () => invalidate(),
-  });
-}
+    cycleStale,
+  );
 
 export const auditReportHref = (q: { from: string; to: string; kind?: string | undefined; equipmentId?: string[] | undefined }) =>
   buildUrl('/api/reports/sanitation-audit.pdf', {

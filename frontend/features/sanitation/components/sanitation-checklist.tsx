@@ -15,7 +15,7 @@ import { Button } from '@/components/ui/button';
 import { Checkbox } from '@/components/ui/input';
 import { useContinueCycle, useRecordCycle, useVesselStatus } from '@/features/sanitation/api/sanitation';
 import { Cautions } from '@/components/safety/cautions';
-import { BigChoice, BigInput, BigSelect, bigButton } from '@/components/ui/touch';
+import { BigAmount, BigChoice, BigInput, BigSelect, bigButton } from '@/components/ui/touch';
 import { isApiProblem, problemMessage } from '@/lib/api-client';
 import { formatDateTime } from '@/utils/format';
 import { StepProblems } from '@/features/sanitation/components/step-problems';
@@ -179,25 +179,11 @@ export const SanitationChecklist = ({ vessel, settings = defaultSanitationSettin
                       </label>
                       <label className="flex flex-col gap-1 text-sm font-medium">
                         Strength {unitOf(step) ? `(${unitOf(step)})` : ''}
-                        <BigInput
-                          type="number"
-                          inputMode="decimal"
-                          step="any"
-                          min={0}
-                          value={d.concentration}
-                          onChange={(e) => set(step, { concentration: e.target.value })}
-                        />
+                        <BigAmount value={d.concentration} onChange={(e) => set(step, { concentration: e.target.value })} />
                       </label>
                       <label className="flex flex-col gap-1 text-sm font-medium">
                         {step === 'clean' ? 'Soak time (minutes)' : 'Contact time (minutes)'}
-                        <BigInput
-                          type="number"
-                          inputMode="decimal"
-                          step="any"
-                          min={0}
-                          value={d.contactMinutes}
-                          onChange={(e) => set(step, { contactMinutes: e.target.value })}
-                        />
+                        <BigAmount value={d.contactMinutes} onChange={(e) => set(step, { contactMinutes: e.target.value })} />
                         <span className="text-xs font-normal text-ink-muted">The co-op’s minimum: {minimum(step)} min</span>
                       </label>
                       {chemicalOf(step) ? (

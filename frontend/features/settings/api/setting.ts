@@ -1,6 +1,7 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { SettingKey, SettingValue } from '../../../../shared/schemas/settings.ts';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 import { bookingKeys } from '@/features/bookings/api/keys';
 
 export const settingKeys = {
@@ -19,13 +20,12 @@ export function useSetting<T>(key: SettingKey) {
 }
 
 /** Saves one section; the server checks it with the same schema the form used. */
-export function useSaveSetting<T>(key: SettingKey) {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (value: T) => api.put<SettingValue<T>>(`/api/settings/${key}`, value),
-    onSuccess: (saved) => {
+export const useSaveSetting = <T>(key: SettingKey) =>
+  useApiMutation(
+    (value: T) => api.put<SettingValue<T>>(`/api/settings/${key}`, value),
+    [],
+    (saved, queryClient) => {
       queryClient.setQueryData(settingKeys.one(key), saved);
       void queryClient.invalidateQueries({ queryKey: bookingKeys.rules() });
     },
-  });
-}
+  );

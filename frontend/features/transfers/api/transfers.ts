@@ -1,6 +1,7 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import type { CreateTransferInput, TransferCandidate, TransferView } from '../../../../shared/schemas/transfers.ts';
 import { api } from '@/lib/api-client';
+import { useApiMutation } from '@/lib/api-mutation';
 import { batchKeys } from '@/features/batches/api/keys';
 import { equipmentKeys } from '@/features/equipment/api/keys';
 import { kegKeys } from '@/features/kegs/api/keys';
@@ -14,13 +15,8 @@ export const useTransferCandidates = (enabled = true) =>
     enabled,
   });
 
-export function useRecordTransfer() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (input: CreateTransferInput) => api.post<{ transfer: TransferView; warnings: string[] }>('/api/transfers', input),
-    onSuccess: () =>
-      Promise.all(
-        [transferKeys.all, kegKeys.all, equipmentKeys.all, sanitationKeys.all, batchKeys.all].map((queryKey) => queryClient.invalidateQueries({ queryKey })),
-      ),
-  });
-}
+export const useRecordTransfer = () =>
+  useApiMutation(
+    (input: CreateTransferInput) => api.post<{ transfer: TransferView; warnings: string[] }>('/api/transfers', input),
+    [transferKeys.all, kegKeys.all, equipmentKeys.all, sanitationKeys.all, batchKeys.all],
+  );
