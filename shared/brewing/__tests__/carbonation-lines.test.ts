@@ -1,20 +1,9 @@
 // Brewing maths, §5–§7: carbonation, draught line balance and keg purging. Every check value names its source (REFERENCE.md).
 import { describe, it, expect } from 'vitest';
-import {
-  balancedLineLength,
-  barToKpa,
-  carbonationPressureKpa,
-  co2Volumes,
-  feetToMetres,
-  lineResistanceKpaPerM,
-  lineTubingFor,
-  lineTubingTable,
-  publishedLineResistanceKpaPerM,
-  lineVolumeMl,
-  metresToFeet,
-  psiToKpa,
-  purgeOxygenPercent,
-} from '../index.ts';
+import { carbonationPressureKpa, co2Volumes } from '../carbonation.ts';
+import { balancedLineLength, lineResistanceKpaPerM, lineTubingFor, lineTubingTable, lineVolumeMl, publishedLineResistanceKpaPerM } from '../line-balance.ts';
+import { purgeOxygenPercent } from '../purging.ts';
+import { barToKpa, feetToMetres, metresToFeet, psiToKpa } from '../units.ts';
 import { near, psi, fToC, US_FLUID_OUNCE_L } from './check-values.ts';
 
 describe('§5 carbonation', () => {

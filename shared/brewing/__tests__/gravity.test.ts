@@ -1,19 +1,9 @@
 // Brewing maths, §2–§4 and the refractometer: gravity scales, hydrometer correction, attenuation and alcohol. Every check value names its source (REFERENCE.md).
 import { describe, it, expect } from 'vitest';
-import {
-  abv,
-  alcoholByWeight,
-  apparentAttenuation,
-  brixToSg,
-  convertGravity,
-  correctHydrometer,
-  platoToSg,
-  realAttenuation,
-  realExtract,
-  refractometerFinalGravity,
-  sgToPlato,
-  usBarrelsToLiters,
-} from '../index.ts';
+import { abv, alcoholByWeight, apparentAttenuation, realAttenuation, realExtract } from '../alcohol.ts';
+import { brixToSg, convertGravity, platoToSg, sgToPlato } from '../gravity.ts';
+import { correctHydrometer, refractometerFinalGravity } from '../gravity-corrections.ts';
+import { usBarrelsToLiters } from '../units.ts';
 import { near, fToC } from './check-values.ts';
 
 describe('§2 specific gravity ↔ °Plato / °Brix', () => {
