@@ -3,19 +3,11 @@
 import ExcelJS from 'exceljs';
 import { describe, expect, it } from 'vitest';
 import { addDays, longDate } from '../../shared/billing/dates.ts';
-import { useBillingFile } from '../helpers/billing-file.ts';
-import type { ApiClient, TestContext } from '../helpers/context.ts';
+import { ctx, treasurer, useBillingFile } from '../helpers/billing-file.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
 
-let ctx: TestContext;
-let treasurer: ApiClient;
-const { ids, invoiceOf } = useBillingFile(
-  (file) => {
-    ({ ctx, treasurer } = file);
-  },
-  { billed: true },
-);
+const { ids, invoiceOf } = useBillingFile({ billed: true });
 
 describe('documents', () => {
   it('renders an invoice PDF whose text names the co-op, member, number, dates, sources, tax, total and how to pay', async () => {

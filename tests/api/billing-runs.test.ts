@@ -2,15 +2,11 @@
 // tests/helpers/billing-file.ts's (its header tells the hand-worked figures).
 import { describe, expect, it } from 'vitest';
 import type { InvoiceDetail, InvoiceSummary } from '../../shared/schemas/billing.ts';
-import { fixtureMembers, useBillingFile } from '../helpers/billing-file.ts';
-import type { ApiClient, TestContext } from '../helpers/context.ts';
+import { ctx, fixtureMembers, treasurer, useBillingFile } from '../helpers/billing-file.ts';
+import { countRows } from '../helpers/counts.ts';
 import { binary } from '../helpers/http.ts';
 
-let ctx: TestContext;
-let treasurer: ApiClient;
-const { ids, invoiceOf } = useBillingFile((file) => {
-  ({ ctx, treasurer } = file);
-});
+const { ids, invoiceOf } = useBillingFile();
 
 describe('invoice runs', () => {
   it('runs October for the members it has not billed yet, and a second run bills nobody twice', async () => {
@@ -70,18 +66,12 @@ describe('invoice runs', () => {
   });
 
   it('previews a period without writing anything', async () => {
-    const before = await ctx.db
-      .selectFrom('invoice')
-      .select((eb) => eb.fn.countAll<number>().as('n'))
-      .executeTakeFirstOrThrow();
+    const before = await countRows(ctx, 'invoice');
     const res = await treasurer.get('/api/invoice-runs/preview?period=2026-11');
     expect(res.status).toBe(200);
     expect(res.body.invoices.every((i: { alreadyInvoiced: boolean }) => i.alreadyInvoiced)).toBe(true);
-    const after = await ctx.db
-      .selectFrom('invoice')
-      .select((eb) => eb.fn.countAll<number>().as('n'))
-      .executeTakeFirstOrThrow();
-    expect(after.n).toBe(before.n);
+    const after = await countRows(ctx, 'invoice');
+    expect(after).toBe(before);
   });
 });
 

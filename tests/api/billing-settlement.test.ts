@@ -3,17 +3,9 @@
 import { sql } from 'kysely';
 import { describe, expect, it } from 'vitest';
 import type { InvoiceDetail, InvoiceSummary } from '../../shared/schemas/billing.ts';
-import { useBillingFile } from '../helpers/billing-file.ts';
-import type { ApiClient, TestContext } from '../helpers/context.ts';
+import { ctx, treasurer, useBillingFile } from '../helpers/billing-file.ts';
 
-let ctx: TestContext;
-let treasurer: ApiClient;
-const { ids, invoiceOf } = useBillingFile(
-  (file) => {
-    ({ ctx, treasurer } = file);
-  },
-  { billed: true },
-);
+const { ids, invoiceOf } = useBillingFile({ billed: true });
 
 describe('payments, credit notes and voids', () => {
   it('takes a part payment, refuses an overpayment, and is paid by the rest', async () => {

@@ -26,18 +26,15 @@ export const FILE_NOW = '2026-12-01T10:00:00Z';
 /** The fixture's members (member@ … member6@), billed for September and October before the files' runs. */
 export const fixtureMembers = ['member', 'member2', 'member3', 'member4', 'member5', 'member6'].map(fixtureUserId);
 
-export interface BillingFile {
-  ctx: TestContext;
-  treasurer: ApiClient;
-}
+/** The file's context and its signed-in treasurer, set before the file's tests run. */
+export let ctx: TestContext;
+export let treasurer: ApiClient;
 
 /**
- * A fresh context with the billing co-op above; `made` hands the context and the signed-in treasurer to
- * the file. With `billed`, October's and November's runs have been made too (as the runs file makes them).
+ * A fresh context with the billing co-op above (`ctx`, `treasurer`). With `billed`, October's and
+ * November's runs have been made too (as the runs file makes them).
  */
-export function useBillingFile(made: (file: BillingFile) => void, { billed = false }: { billed?: boolean } = {}) {
-  let ctx: TestContext;
-  let treasurer: ApiClient;
+export function useBillingFile({ billed = false }: { billed?: boolean } = {}) {
   const ids = { a: '', b: '', c: '', d: '' };
   const equipment = { f60: '', f120: '', keg: '', keg2: '' };
 
@@ -58,7 +55,6 @@ export function useBillingFile(made: (file: BillingFile) => void, { billed = fal
     async (created) => {
       ctx = created;
       treasurer = await ctx.signIn('treasurer@example.org');
-      made({ ctx, treasurer });
       const brewer = await ctx.signIn('brewer@example.org');
 
       // September and October for the fixture's members, each issued on the 1st of the next month
