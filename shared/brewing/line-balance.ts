@@ -49,6 +49,23 @@ export interface LineTubingFigures {
 }
 
 /**
+ * A stainless row (outside diameter): S31's figure is the default, at low confidence; S33 lists a
+ * second figure for some sizes.
+ */
+function stainless(diameterIn: '1/4' | '5/16' | '3/8', diameterMm: number, s31PsiPerFt: number, s33PsiPerFt?: number): LineTubingFigures {
+  const s33 = s33PsiPerFt === undefined ? [] : [{ psiPerFt: s33PsiPerFt, source: 'S33' }];
+  return {
+    tubing: `stainless-${diameterIn}-od`,
+    material: 'stainless',
+    diameterIn,
+    diameterMm,
+    published: [{ psiPerFt: s31PsiPerFt, source: 'S31' }, ...s33],
+    defaultPsiPerFt: s31PsiPerFt,
+    defaultBasis: 'S31 (low confidence)',
+  };
+}
+
+/**
  * The line resistance table of REFERENCE §6, by tubing inside diameter and material, with the
  * source of every figure. Values vary by maker, temperature and flow, so every default can be
  * overridden per tap and per plan.
@@ -146,39 +163,9 @@ export const lineTubingTable: readonly LineTubingFigures[] = Object.freeze([
     defaultBasis: 'S34',
   },
   // Stainless: one source (S31); another lists 5/16" ID 0.3 and 3/8" 0.12 (S33), so low confidence.
-  {
-    tubing: 'stainless-1/4-od',
-    material: 'stainless',
-    diameterIn: '1/4',
-    diameterMm: 6.35,
-    published: [{ psiPerFt: 2.0, source: 'S31' }],
-    defaultPsiPerFt: 2.0,
-    defaultBasis: 'S31 (low confidence)',
-  },
-  {
-    tubing: 'stainless-5/16-od',
-    material: 'stainless',
-    diameterIn: '5/16',
-    diameterMm: 7.94,
-    published: [
-      { psiPerFt: 0.5, source: 'S31' },
-      { psiPerFt: 0.3, source: 'S33' },
-    ],
-    defaultPsiPerFt: 0.5,
-    defaultBasis: 'S31 (low confidence)',
-  },
-  {
-    tubing: 'stainless-3/8-od',
-    material: 'stainless',
-    diameterIn: '3/8',
-    diameterMm: 9.53,
-    published: [
-      { psiPerFt: 0.2, source: 'S31' },
-      { psiPerFt: 0.12, source: 'S33' },
-    ],
-    defaultPsiPerFt: 0.2,
-    defaultBasis: 'S31 (low confidence)',
-  },
+  stainless('1/4', 6.35, 2.0),
+  stainless('5/16', 7.94, 0.5, 0.3),
+  stainless('3/8', 9.53, 0.2, 0.12),
 ] satisfies LineTubingFigures[]);
 
 /** Default resistance of each tubing kind, kPa per metre (the `defaultPsiPerFt` of {@link lineTubingTable}). */

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { emailSchema, personNameSchema, roleSchema, unitSystemSchema } from './user.ts';
+import { emailSchema, personNameSchema, personSchema, unitSystemSchema } from './user.ts';
 
 export const minPasswordLength = 10;
 
@@ -16,11 +16,7 @@ export const loginSchema = z.object({
 export type LoginInput = z.infer<typeof loginSchema>;
 
 /** The signed-in person, as `/api/auth/login`, `/api/auth/me` and the invitation accept return them. */
-export const sessionUserSchema = z.object({
-  id: z.string(),
-  email: z.string(),
-  name: z.string(),
-  roles: z.array(roleSchema),
+export const sessionUserSchema = personSchema.extend({
   units: unitSystemSchema,
 });
 export type SessionUser = z.infer<typeof sessionUserSchema>;

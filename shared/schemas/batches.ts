@@ -1,7 +1,8 @@
 import { z } from 'zod';
-import { labelsOf, valuesOf } from './labelled-enum.ts';
+import { closedSet, labelsOf } from './labelled-enum.ts';
 import { allergenListSchema } from '../cellar/trace.ts';
 import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
+import { isTimeZone } from './time-zone.ts';
 
 /**
  * Batches, gravity readings, reading imports and production records: the shapes both the forms
@@ -16,8 +17,7 @@ export const batchStatusLabels = labelsOf({
   packaged: 'Packaged',
   discarded: 'Discarded',
 });
-export const batchStatuses = valuesOf(batchStatusLabels);
-export const batchStatusSchema = z.enum(batchStatuses);
+export const [batchStatuses, batchStatusSchema] = closedSet(batchStatusLabels);
 export type BatchStatus = z.infer<typeof batchStatusSchema>;
 
 /** Where a batch may go from each status (a packaged or discarded batch is closed). */
@@ -222,18 +222,7 @@ export const importMappingSchema = z.object({
   /** How to read dates like 03/10/2026; `auto` decides from the whole column. */
   dateOrder: z.enum(['auto', 'dmy', 'mdy', 'ymd']).default('auto'),
   /** Time zone for times without an offset (IANA name, e.g. Europe/Berlin); the co-op's when not given. */
-  timeZone: z
-    .string()
-    .trim()
-    .refine((tz) => {
-      try {
-        new Intl.DateTimeFormat('en-US', { timeZone: tz });
-        return true;
-      } catch {
-        return false;
-      }
-    }, 'Unknown time zone')
-    .optional(),
+  timeZone: z.string().trim().refine(isTimeZone, 'Unknown time zone').optional(),
   correctTemperature: z.boolean().default(true),
   /** A row at the same time as an existing reading: an error (default) or skipped. */
   onDuplicate: z.enum(['error', 'skip']).default('error'),

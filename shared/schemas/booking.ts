@@ -1,12 +1,11 @@
 import { z } from 'zod';
-import { labelsOf, valuesOf } from './labelled-enum.ts';
+import { closedSet, labelsOf } from './labelled-enum.ts';
 import type { EquipmentKind } from './equipment.ts';
 import { equipmentKindSchema } from './equipment.ts';
 import { queryBooleanSchema, sortableListQuerySchema } from './pagination.ts';
 
 export const bookingStateLabels = labelsOf({ booked: 'Booked', in_use: 'In use', finished: 'Finished', cancelled: 'Cancelled' });
-export const bookingStates = valuesOf(bookingStateLabels);
-export const bookingStateSchema = z.enum(bookingStates);
+export const [bookingStates, bookingStateSchema] = closedSet(bookingStateLabels);
 export type BookingState = z.infer<typeof bookingStateSchema>;
 
 /** An ISO 8601 time with its offset, as the API speaks them. */

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { labelsOf, valuesOf } from './labelled-enum.ts';
+import { closedSet, labelsOf } from './labelled-enum.ts';
 
 /**
  * The co-op's cellar rules, two sections of the Settings screen: the sanitation rules (chemical
@@ -9,8 +9,7 @@ import { labelsOf, valuesOf } from './labelled-enum.ts';
  */
 
 export const sanitationStepLabels = labelsOf({ clean: 'Clean', rinse: 'Rinse', sanitize: 'Sanitize', purge: 'Purge with CO2' });
-export const sanitationSteps = valuesOf(sanitationStepLabels);
-export const sanitationStepSchema = z.enum(sanitationSteps);
+export const [sanitationSteps, sanitationStepSchema] = closedSet(sanitationStepLabels);
 export type SanitationStep = z.infer<typeof sanitationStepSchema>;
 
 /** Steps that use a chemical from the co-op's list. */

@@ -1,12 +1,11 @@
 import { z } from 'zod';
-import { labelsOf, valuesOf } from './labelled-enum.ts';
+import { closedSet, labelsOf } from './labelled-enum.ts';
 import { lineMaterials } from '../brewing/index.ts';
 import { idListSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
 /** What the cellar holds: every item has a short label code, a kind and a vessel state. */
 export const equipmentKindLabels = labelsOf({ fermenter: 'Fermenter', keg: 'Keg', tap: 'Tap position', co2_cylinder: 'CO2 cylinder' });
-export const equipmentKinds = valuesOf(equipmentKindLabels);
-export const equipmentKindSchema = z.enum(equipmentKinds);
+export const [equipmentKinds, equipmentKindSchema] = closedSet(equipmentKindLabels);
 export type EquipmentKind = z.infer<typeof equipmentKindSchema>;
 
 export const vesselStateLabels = labelsOf({
@@ -16,8 +15,7 @@ export const vesselStateLabels = labelsOf({
   holding: 'Holding',
   out_of_service: 'Out of service',
 });
-export const vesselStates = valuesOf(vesselStateLabels);
-export const vesselStateSchema = z.enum(vesselStates);
+export const [vesselStates, vesselStateSchema] = closedSet(vesselStateLabels);
 export type VesselState = z.infer<typeof vesselStateSchema>;
 
 /** The code printed on an item's label: a letter or two, a dash, digits (`F-07`, `K-031`, `T-3`, `C-1`). */

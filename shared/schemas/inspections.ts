@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { labelsOf, valuesOf } from './labelled-enum.ts';
+import { closedSet, labelsOf } from './labelled-enum.ts';
 import type { EquipmentKind } from './equipment.ts';
 import { searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 
@@ -15,8 +15,7 @@ export const inspectionKindLabels = labelsOf({
   seals: 'O-rings and seals replaced',
   hydrostatic_test: 'Hydrostatic test',
 });
-export const inspectionKinds = valuesOf(inspectionKindLabels);
-export const inspectionKindSchema = z.enum(inspectionKinds);
+export const [inspectionKinds, inspectionKindSchema] = closedSet(inspectionKindLabels);
 export type InspectionKind = z.infer<typeof inspectionKindSchema>;
 
 /** Which inspections each kind of equipment takes (taps take none). */

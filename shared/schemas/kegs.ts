@@ -1,13 +1,12 @@
 import { z } from 'zod';
-import { labelsOf, valuesOf } from './labelled-enum.ts';
+import { closedSet, labelsOf } from './labelled-enum.ts';
 import { queryBooleanSchema, searchTextSchema, sortableListQuerySchema } from './pagination.ts';
 import type { BestBeforeState, FiningsDose } from '../cellar/trace.ts';
 import { isoDateTimeSchema } from './sanitation.ts';
 
 /** Where a keg is (PRODUCT.md "Keg whereabouts"). */
 export const kegWhereaboutsLabels = labelsOf({ cellar: 'Cellar', cold_room: 'Cold room', with_member: 'With a member', missing: 'Missing' });
-export const kegWhereabouts = valuesOf(kegWhereaboutsLabels);
-export const kegWhereaboutsSchema = z.enum(kegWhereabouts);
+export const [kegWhereabouts, kegWhereaboutsSchema] = closedSet(kegWhereaboutsLabels);
 export type KegWhereabouts = z.infer<typeof kegWhereaboutsSchema>;
 
 const note = z.string().trim().max(500, 'Keep the note under 500 characters').optional();

@@ -4,6 +4,7 @@ import { carbonationSettingsSchema, defaultCarbonationSettings, defaultSanitatio
 import { defaultFermentationSettings, fermentationSettingsSchema } from './batches.ts';
 import { defaultShelfLifeSettings, shelfLifeSettingsSchema } from '../cellar/trace.ts';
 import { defaultPressureSafetySettings, pressureSafetySettingsSchema } from './inspections.ts';
+import { isTimeZone } from './time-zone.ts';
 
 /**
  * The co-op's settings: one section per key in the `setting` table. Each section has a schema
@@ -28,18 +29,7 @@ export const bookingRulesSchema = z.object({
   /** How many bookings a member may hold that have not yet ended (booked or in use). */
   maxActiveBookingsPerMember: z.number().int('A whole number').min(1, 'At least 1').max(200, 'At most 200'),
   /** The co-op's time zone: the calendar's days and the times in e-mails. */
-  timeZone: z
-    .string()
-    .trim()
-    .min(1)
-    .refine((tz) => {
-      try {
-        new Intl.DateTimeFormat('en-GB', { timeZone: tz });
-        return true;
-      } catch {
-        return false;
-      }
-    }, 'Use a time zone name like Europe/Dublin or UTC'),
+  timeZone: z.string().trim().min(1).refine(isTimeZone, 'Use a time zone name like Europe/Dublin or UTC'),
 });
 export type BookingRules = z.infer<typeof bookingRulesSchema>;
 

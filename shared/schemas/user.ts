@@ -16,6 +16,14 @@ export const emailSchema = z
   .max(254, 'That e-mail address is too long')
   .pipe(z.email('Enter an e-mail address like name@example.org'));
 
+/** Who a person is, as every answer about them names them: the fields a session user and a listed user share. */
+export const personSchema = z.object({
+  id: z.string(),
+  email: z.string(),
+  name: z.string(),
+  roles: z.array(roleSchema),
+});
+
 export const personNameSchema = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
 
 export const rolesSchema = z
@@ -47,11 +55,7 @@ export const userRolesSchema = z.object({ roles: rolesSchema });
 export type UserRolesInput = z.infer<typeof userRolesSchema>;
 
 /** A person as the admin's member list shows them. Timestamps are ISO 8601 strings. */
-export const userSchema = z.object({
-  id: z.string(),
-  email: z.string(),
-  name: z.string(),
-  roles: z.array(roleSchema),
+export const userSchema = personSchema.extend({
   isActive: z.boolean(),
   lastLoginAt: z.string().nullable(),
   createdAt: z.string(),

@@ -33,22 +33,13 @@ useTestContext(async (created) => {
       detail: { from: 'ready', to: 'holding' },
     });
   }
-  await createAuditEntry(ctx.db, {
-    at: new Date(now - 3 * DAY + HOUR),
-    actorId: other.id,
-    action: 'payment_recorded',
-    subjectType: 'Invoice',
-    subjectId: recordId,
-    detail: { amountCents: 4200 },
-  });
-  await createAuditEntry(ctx.db, {
-    at: new Date(now - 2 * DAY + HOUR),
-    actorId: other.id,
-    action: 'updated',
-    subjectType: 'Invoice',
-    subjectId: recordId,
-    detail: { before: { dueOn: '2026-12-10', lines: 2 }, after: { dueOn: '2026-12-17', lines: 2 } },
-  });
+  const onTheRecord: [at: number, action: string, detail: Record<string, unknown>][] = [
+    [now - 3 * DAY + HOUR, 'payment_recorded', { amountCents: 4200 }],
+    [now - 2 * DAY + HOUR, 'updated', { before: { dueOn: '2026-12-10', lines: 2 }, after: { dueOn: '2026-12-17', lines: 2 } }],
+  ];
+  for (const [at, action, detail] of onTheRecord) {
+    await createAuditEntry(ctx.db, { at: new Date(at), actorId: other.id, action, subjectType: 'Invoice', subjectId: recordId, detail });
+  }
 });
 
 const ids = (body: { items: { subjectId: string }[] }) => body.items.map((i) => i.subjectId);

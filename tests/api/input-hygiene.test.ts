@@ -4,6 +4,8 @@ import { describe, expect, it } from 'vitest';
 import { createBatch, createFermenter, createKeg, createMember } from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
+import { rowCounts } from '../helpers/counts.ts';
+import { servedRoutes } from '../helpers/routes.ts';
 
 let ctx: TestContext;
 let admin: ApiClient, member: ApiClient;
@@ -21,25 +23,10 @@ interface RouteInfo {
 
 /** Every route the app serves, read from its routers, so a route added later is checked here without being listed. */
 function appRoutes(app: Express): RouteInfo[] {
-  const out: RouteInfo[] = [];
-  type Layer = { route?: { path: string | string[]; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; rawPath?: unknown };
-  const walk = (stack: Layer[], prefix: string) => {
-    for (const layer of stack) {
-      if (layer.route) {
-        const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-        for (const p of paths) {
-          for (const m of Object.keys(layer.route.methods)) {
-            if (['get', 'post', 'put', 'patch', 'delete'].includes(m))
-              out.push({ method: m as RouteInfo['method'], path: `${prefix}${p === '/' ? '' : p}` || '/' });
-          }
-        }
-      } else if (layer.handle?.stack && typeof layer.rawPath === 'string') {
-        walk(layer.handle.stack, `${prefix}${layer.rawPath === '/' ? '' : layer.rawPath}`);
-      }
-    }
-  };
-  walk((app as unknown as { router: { stack: Layer[] } }).router.stack, '');
-  return out.filter((r) => r.path.startsWith('/api/'));
+  const methods: string[] = ['get', 'post', 'put', 'patch', 'delete'] satisfies RouteInfo['method'][];
+  return servedRoutes(app)
+    .map((r) => ({ method: r.method.toLowerCase() as RouteInfo['method'], path: r.path }))
+    .filter((r) => r.path.startsWith('/api/') && methods.includes(r.method));
 }
 
 const paramNames = (path: string) => [...path.matchAll(/:(\w+)/g)].map((m) => m[1]!);
@@ -234,38 +221,7 @@ describe('control characters', () => {
     const keg = await createKeg(ctx.db, { state: 'ready' });
     const brewer = await ctx.signIn('brewer@example.org');
     const treasurer = await ctx.signIn('treasurer@example.org');
-    const counts = async () => ({
-      batches: (
-        await ctx.db
-          .selectFrom('batch')
-          .select((eb) => eb.fn.countAll<number>().as('n'))
-          .executeTakeFirstOrThrow()
-      ).n,
-      readings: (
-        await ctx.db
-          .selectFrom('reading')
-          .select((eb) => eb.fn.countAll<number>().as('n'))
-          .executeTakeFirstOrThrow()
-      ).n,
-      cycles: (
-        await ctx.db
-          .selectFrom('sanitation_cycle')
-          .select((eb) => eb.fn.countAll<number>().as('n'))
-          .executeTakeFirstOrThrow()
-      ).n,
-      charges: (
-        await ctx.db
-          .selectFrom('manual_charge')
-          .select((eb) => eb.fn.countAll<number>().as('n'))
-          .executeTakeFirstOrThrow()
-      ).n,
-      bookings: (
-        await ctx.db
-          .selectFrom('booking')
-          .select((eb) => eb.fn.countAll<number>().as('n'))
-          .executeTakeFirstOrThrow()
-      ).n,
-    });
+    const counts = () => rowCounts(ctx, ['batch', 'reading', 'sanitation_cycle', 'manual_charge', 'booking']);
     const before = await counts();
     const cases: [Promise<{ status: number; headers: Record<string, string>; body: { status?: number; errors?: unknown[] } }>, string][] = [
       [client.post('/api/batches', { name: 'Pale\u0000Ale', style: 'Pale ale', volumeLiters: 20 }), 'name'],

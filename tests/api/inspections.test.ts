@@ -78,10 +78,7 @@ describe('POST /api/equipment/:id/inspections and GET /api/equipment/:id', () =>
   it('refuses what does not fit (422) and those not on the rota (403), changing nothing', async () => {
     const [keg] = await takeKegs(1);
     const tap = await createTap(ctx.db);
-    const before = await ctx.db
-      .selectFrom('equipment_inspection')
-      .select((eb) => eb.fn.countAll<number>().as('n'))
-      .executeTakeFirstOrThrow();
+    const before = await count(ctx, 'equipment_inspection');
     const cases: [ApiClient, string, object, number][] = [
       [brewer, tap.id, { kind: 'pressure_test', at: ago(1), passed: true }, 422],
       [brewer, keg!.id, { kind: 'hydrostatic_test', at: ago(1), passed: true }, 422],
@@ -95,11 +92,8 @@ describe('POST /api/equipment/:id/inspections and GET /api/equipment/:id', () =>
       expect(res.status, JSON.stringify(body)).toBe(status);
       expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
     }
-    const after = await ctx.db
-      .selectFrom('equipment_inspection')
-      .select((eb) => eb.fn.countAll<number>().as('n'))
-      .executeTakeFirstOrThrow();
-    expect(after.n).toBe(before.n);
+    const after = await count(ctx, 'equipment_inspection');
+    expect(after).toBe(before);
   });
 });
 

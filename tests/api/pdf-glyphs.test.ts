@@ -4,18 +4,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import {
-  createBatch,
-  createBooking,
-  createFermenter,
-  createInvoice,
-  createKeg,
-  createManualCharge,
-  createMember,
-  createSanitationCycle,
-  DAY,
-  fillKeg,
-} from '../../db/factories/index.ts';
+import { DAY } from '../../db/factories/common.ts';
+import * as make from '../../db/factories/index.ts';
 import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { pdfFont, pdfFontFiles, renderPdf } from '../../backend/lib/pdf.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
@@ -71,36 +61,42 @@ beforeAll(async () => {
   ctx = await createTestContext({}, { now: FILE_NOW });
   treasurer = await ctx.signIn('treasurer@example.org');
   brewer = await ctx.signIn('brewer@example.org');
-  const member = await createMember(ctx.db, { name, email: 'zoe.glyphs@example.org', createdAt: '2026-08-01T09:00:00Z' });
+  const member = await make.createMember(ctx.db, { name, email: 'zoe.glyphs@example.org', createdAt: '2026-08-01T09:00:00Z' });
 
   // A typical month: a fermenter and a keg booked, dues, and a charge whose text uses the marks.
-  const fermenter = await createFermenter(ctx.db);
-  const keg = await createKeg(ctx.db);
-  await createBooking(ctx.db, {
+  const fermenter = await make.createFermenter(ctx.db);
+  const keg = await make.createKeg(ctx.db);
+  await make.createBooking(ctx.db, {
     equipmentId: fermenter.id,
     ownerId: member.id,
     startsAt: '2026-11-03T09:00:00Z',
     endsAt: '2026-11-17T09:00:00Z',
     now: FILE_NOW,
   });
-  await createBooking(ctx.db, { equipmentId: keg.id, ownerId: member.id, startsAt: '2026-11-17T09:00:00Z', endsAt: '2026-11-28T09:00:00Z', now: FILE_NOW });
-  await createManualCharge(ctx.db, {
+  await make.createBooking(ctx.db, {
+    equipmentId: keg.id,
+    ownerId: member.id,
+    startsAt: '2026-11-17T09:00:00Z',
+    endsAt: '2026-11-28T09:00:00Z',
+    now: FILE_NOW,
+  });
+  await make.createManualCharge(ctx.db, {
     memberId: member.id,
     period: '2026-11',
     amountCents: 450,
     description: 'Cold room › 2 °C – one extra week',
     reason: 'Asked for at the hand-over',
   });
-  const invoice = await createInvoice(ctx.db, { memberId: member.id, period: '2026-11', today: '2026-12-01', actorId: fixtureUserId('treasurer') });
+  const invoice = await make.createInvoice(ctx.db, { memberId: member.id, period: '2026-11', today: '2026-12-01', actorId: fixtureUserId('treasurer') });
   made.invoice = invoice.id;
   const refund = await treasurer.post(`/api/invoices/${invoice.id}/refunds`, { amountCents: 300, reason: 'Keg returned warm › 12 °C – Zoë’s week away' });
   expect(refund.status).toBe(201);
   made.creditNote = refund.body.creditNote?.id ?? refund.body.note?.id ?? refund.body.invoice.creditNotes[0].id;
 
   // A keg cleaned and sanitized, then filled from a batch with an accented name.
-  const filled = await createKeg(ctx.db);
-  await createSanitationCycle(ctx.db, { equipmentId: filled.id, readyAt: new Date(FILE_NOW.getTime() - 3 * DAY) });
-  const batch = await createBatch(ctx.db, {
+  const filled = await make.createKeg(ctx.db);
+  await make.createSanitationCycle(ctx.db, { equipmentId: filled.id, readyAt: new Date(FILE_NOW.getTime() - 3 * DAY) });
+  const batch = await make.createBatch(ctx.db, {
     ownerId: member.id,
     name: 'Bière de garde – Château',
     style: 'Bière de garde',
@@ -109,7 +105,7 @@ beforeAll(async () => {
       { takenAt: new Date(FILE_NOW.getTime() - 5 * DAY), value: 1.01 },
     ],
   });
-  await fillKeg(ctx.db, { kegId: filled.id, at: new Date(FILE_NOW.getTime() - 2 * DAY), batchId: batch.id, ownerId: member.id });
+  await make.fillKeg(ctx.db, { kegId: filled.id, at: new Date(FILE_NOW.getTime() - 2 * DAY), batchId: batch.id, ownerId: member.id });
   made.keg = filled.id;
   made.batch = batch.id;
 });

@@ -2,6 +2,7 @@ import type { Clock } from '../../backend/lib/clock.ts';
 import { createBatch, createBooking, createFermenter, createKeg, createSanitationCycle, cycleSteps, DAY, HOUR, MINUTE } from '../../db/factories/index.ts';
 import { fixtureEquipmentId, fixtureUserId } from '../../db/fixtures/index.ts';
 import type { ApiClient, TestContext } from './context.ts';
+import { rowCounts } from './counts.ts';
 
 /**
  * Helpers shared by the cellar operations tests: ready kegs, a batch in a fermenter, the transfer
@@ -149,17 +150,23 @@ export async function fillNewKegs(ctx: TestContext, brewer: ApiClient, batch: Po
   return { kegs, transfer };
 }
 
-export async function count(ctx: TestContext, table: 'transfer' | 'keg_fill' | 'sanitation_cycle' | 'keg_movement' | 'carbonation_plan') {
-  const r = await ctx.db
-    .selectFrom(table)
-    .select((eb) => eb.fn.countAll<number>().as('n'))
-    .executeTakeFirstOrThrow();
-  return r.n;
-}
+/** How many rows a table holds (tests/helpers/counts.ts). */
+export { countRows as count } from './counts.ts';
 
 export async function states(ctx: TestContext, ids: string[]) {
   const rows = await ctx.db.selectFrom('equipment').select(['id', 'state']).where('id', 'in', ids).execute();
   return Object.fromEntries(rows.map((r) => [r.id, r.state]));
+}
+
+/** Everything a transfer may touch, to show that a refused one changed nothing. */
+export async function transferSnapshot(ctx: TestContext, batchId: string, vesselIds: string[]) {
+  const batch = await ctx.db.selectFrom('batch').select(['status', 'packaged_at', 'packaged_liters']).where('id', '=', batchId).executeTakeFirstOrThrow();
+  const audits = await ctx.db
+    .selectFrom('audit_log')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('subject_type', '=', 'Transfer')
+    .executeTakeFirstOrThrow();
+  return { ...(await rowCounts(ctx, ['transfer', 'keg_fill', 'equipment_state_change'])), states: await states(ctx, vesselIds), batch, audits: audits.n };
 }
 
 /** Gravity readings on days before (negative) or after now: `readingsOn(at, [-10, 1.05], [-1, 1.011])`. */

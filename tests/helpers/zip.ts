@@ -25,6 +25,21 @@ export function crc32(buf: Buffer): number {
   return (c ^ 0xffffffff) >>> 0;
 }
 
+/** A little-endian field of a header: [width in bytes, value, offset]. */
+type Field = [2 | 4, number, number];
+const shift = (fields: Field[], by: number): Field[] => fields.map(([width, value, at]) => [width, value, at + by]);
+
+/** A header of `size` bytes: its 4-byte signature, then its fields; zero elsewhere. */
+function record(size: number, signature: number, fields: Field[]): Buffer {
+  const buf = Buffer.alloc(size);
+  buf.writeUInt32LE(signature, 0);
+  for (const [width, value, at] of fields) {
+    if (width === 2) buf.writeUInt16LE(value, at);
+    else buf.writeUInt32LE(value, at);
+  }
+  return buf;
+}
+
 export function makeZip(entries: ZipInput[]): Buffer {
   const locals: Buffer[] = [];
   const centrals: Buffer[] = [];
@@ -34,37 +49,29 @@ export function makeZip(entries: ZipInput[]): Buffer {
     const deflate = e.deflate ?? true;
     const packed = e.packed ?? (deflate ? zlib.deflateRawSync(e.data) : e.data);
     const crc = crc32(e.data);
-    const local = Buffer.alloc(30);
-    local.writeUInt32LE(0x04034b50, 0);
-    local.writeUInt16LE(20, 4);
-    local.writeUInt16LE(0x0800, 6);
-    local.writeUInt16LE(deflate ? 8 : 0, 8);
-    local.writeUInt32LE(crc, 14);
-    local.writeUInt32LE(packed.length, 18);
-    local.writeUInt32LE(e.data.length, 22);
-    local.writeUInt16LE(name.length, 26);
-    locals.push(local, name, packed);
-    const central = Buffer.alloc(46);
-    central.writeUInt32LE(0x02014b50, 0);
-    central.writeUInt16LE(20, 4);
-    central.writeUInt16LE(20, 6);
-    central.writeUInt16LE(0x0800, 8);
-    central.writeUInt16LE(deflate ? 8 : 0, 10);
-    central.writeUInt32LE(crc, 16);
-    central.writeUInt32LE(packed.length, 20);
-    central.writeUInt32LE(e.data.length, 24);
-    central.writeUInt16LE(name.length, 28);
-    central.writeUInt32LE(offset, 42);
+    // Version needed 2.0, UTF-8 names (flag bit 11), method, CRC, packed and unpacked sizes, the name's length:
+    // the same fields in a local header (from byte 4) and in its central directory entry (from byte 6).
+    const common: Field[] = [
+      [2, 20, 0],
+      [2, 0x0800, 2],
+      [2, deflate ? 8 : 0, 4],
+      [4, crc, 10],
+      [4, packed.length, 14],
+      [4, e.data.length, 18],
+      [2, name.length, 22],
+    ];
+    locals.push(record(30, 0x04034b50, shift(common, 4)), name, packed);
+    const central = record(46, 0x02014b50, [[2, 20, 4], ...shift(common, 6), [4, offset, 42]]);
     if (!e.unlisted) centrals.push(central, name);
     offset += 30 + name.length + packed.length;
   }
   const cd = Buffer.concat(centrals);
-  const end = Buffer.alloc(22);
-  end.writeUInt32LE(0x06054b50, 0);
   const listed = entries.filter((e) => !e.unlisted).length;
-  end.writeUInt16LE(listed, 8);
-  end.writeUInt16LE(listed, 10);
-  end.writeUInt32LE(cd.length, 12);
-  end.writeUInt32LE(offset, 16);
+  const end = record(22, 0x06054b50, [
+    [2, listed, 8],
+    [2, listed, 10],
+    [4, cd.length, 12],
+    [4, offset, 16],
+  ]);
   return Buffer.concat([...locals, cd, end]);
 }
