@@ -1,5 +1,4 @@
 import { ForbiddenError } from '@casl/ability';
-import { sql } from 'kysely';
 import { subject, type AppAbility } from '../../../shared/permissions/ability.ts';
 import type { Actor } from '../../../shared/permissions/roles.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
@@ -19,7 +18,20 @@ import { canAll } from '../../lib/authz.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { computeFigures, loadFermentationSettings, loadGravitySeries } from './figures.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
-import { containsPattern, pageOf, paginate } from '../../lib/paginate.ts';
+import { pageOf } from '../../lib/paginate.ts';
+import { toBookingSummary } from '../calendar/calendar-feed.repository.ts';
+import {
+  batchBookingRows,
+  batchById,
+  batchPage,
+  bookingToLink,
+  insertBatch,
+  isActiveMember,
+  ownerName,
+  setBookingBatch,
+  unlinkBatchBookings,
+  updateBatchRow,
+} from './batches.repository.ts';
 
 export interface BatchRow {
   id: string;
@@ -39,95 +51,19 @@ export interface BatchRow {
   updated_at: Date;
 }
 
-const batchColumns = [
-  'batch.id',
-  'batch.owner_id',
-  'batch.name',
-  'batch.style',
-  'batch.volume_liters',
-  'batch.target_og',
-  'batch.target_fg',
-  'batch.status',
-  'batch.packaged_at',
-  'batch.packaged_liters',
-  'batch.notes',
-  'batch.allergens',
-  'batch.shelf_life_days',
-  'batch.created_at',
-  'batch.updated_at',
-] as const;
-
 const num = (v: unknown): number | null => (v === null || v === undefined ? null : Number(v));
 
 /** A batch the person may see, or 404 (a batch you may not see does not exist for you). */
 export async function findVisibleBatch(db: Database, ability: AppAbility, id: string): Promise<BatchRow> {
   if (!isUuid(id)) throw notFound('Batch');
-  const row = await db.selectFrom('batch').select(batchColumns).where('batch.id', '=', id).executeTakeFirst();
+  const row = await batchById(db, id);
   if (!row || !ability.can('read', subject('Batch', { ownerId: row.owner_id }))) throw notFound('Batch');
   return row;
 }
 
-const sortColumns = {
-  name: sql`batch.name`,
-  style: sql`batch.style`,
-  status: sql`batch.status`,
-  createdAt: sql`batch.created_at`,
-  volumeLiters: sql`batch.volume_liters`,
-  lastReadingAt: sql`last_reading.taken_at`,
-  owner: sql`app_user.name`,
-} as const;
-
 export async function listBatches(db: Database, ability: AppAbility, actor: Actor, q: BatchListQuery): Promise<Page<BatchListItem>> {
-  let base = db
-    .selectFrom('batch')
-    .innerJoin('app_user', 'app_user.id', 'batch.owner_id')
-    .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom('reading')
-          .select(['reading.taken_at', 'reading.gravity_sg'])
-          .whereRef('reading.batch_id', '=', 'batch.id')
-          .orderBy('reading.taken_at', 'desc')
-          .limit(1)
-          .as('last_reading'),
-      (join) => join.onTrue(),
-    );
   // Whoever may read only their own batches sees only those rows.
-  if (!canAll(ability, 'read', 'Batch') || q.mine) base = base.where('batch.owner_id', '=', actor.id);
-  if (q.ownerId) base = base.where('batch.owner_id', '=', q.ownerId);
-  if (q.status) base = base.where('batch.status', '=', q.status);
-  if (q.q) {
-    const like = containsPattern(q.q);
-    base = base.where((eb) => eb.or([eb('batch.name', 'ilike', like), eb('batch.style', 'ilike', like), eb('app_user.name', 'ilike', like)]));
-  }
-  const page = await paginate(
-    base,
-    (qb) =>
-      qb
-        .select([
-          ...batchColumns,
-          'app_user.name as owner_name',
-          'last_reading.taken_at as last_reading_at',
-          'last_reading.gravity_sg as current_gravity',
-          (eb) =>
-            eb
-              .selectFrom('reading')
-              .select('reading.gravity_sg')
-              .whereRef('reading.batch_id', '=', 'batch.id')
-              .orderBy('reading.taken_at', 'asc')
-              .limit(1)
-              .as('og'),
-          (eb) =>
-            eb
-              .selectFrom('reading')
-              .select((e) => e.fn.countAll<number>().as('n'))
-              .whereRef('reading.batch_id', '=', 'batch.id')
-              .as('readings_count'),
-        ])
-        .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-        .orderBy('batch.id'),
-    q,
-  );
+  const page = await batchPage(db, q, !canAll(ability, 'read', 'Batch') || q.mine ? actor.id : undefined);
   return pageOf(
     page,
     (r) => ({
@@ -162,22 +98,16 @@ function toListItem(r: BatchRow, ownerName: string): BatchListItem {
 
 export async function batchDetail(db: Database, ability: AppAbility, row: BatchRow, now: Date): Promise<BatchDetail> {
   const [owner, settings, series, bookings] = await Promise.all([
-    db.selectFrom('app_user').select('name').where('id', '=', row.owner_id).executeTakeFirst(),
+    ownerName(db, row.owner_id),
     loadFermentationSettings(db),
     loadGravitySeries(db, row.id),
-    db
-      .selectFrom('booking')
-      .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-      .select(['booking.id', 'booking.equipment_id', 'equipment.code', 'equipment.name', 'booking.starts_at', 'booking.ends_at', 'booking.state'])
-      .where('booking.batch_id', '=', row.id)
-      .orderBy('booking.starts_at')
-      .execute(),
+    batchBookingRows(db, row.id),
   ]);
   const figures = computeFigures(series, row.status, num(row.target_fg), settings, now);
   // subject() marks the object it is given, so each check gets its own.
   const own = () => ({ ownerId: row.owner_id });
   return {
-    ...toListItem(row, owner?.name ?? ''),
+    ...toListItem(row, owner ?? ''),
     notes: row.notes,
     allergens: row.allergens ?? [],
     shelfLifeDays: row.shelf_life_days,
@@ -185,15 +115,7 @@ export async function batchDetail(db: Database, ability: AppAbility, row: BatchR
     packagedLiters: num(row.packaged_liters),
     updatedAt: row.updated_at.toISOString(),
     ...figures,
-    bookings: bookings.map((b) => ({
-      id: b.id,
-      equipmentId: b.equipment_id,
-      equipmentCode: b.code,
-      equipmentName: b.name,
-      startsAt: b.starts_at.toISOString(),
-      endsAt: b.ends_at.toISOString(),
-      state: b.state,
-    })),
+    bookings: bookings.map(toBookingSummary),
     can: {
       update: ability.can('update', subject('Batch', own())),
       addReading: ability.can('create', subject('Reading', own())),
@@ -206,12 +128,7 @@ export async function batchDetail(db: Database, ability: AppAbility, row: BatchR
 
 /** Links a fermenter booking of the batch's owner to the batch (only one batch per booking). */
 async function linkBooking(trx: Database, batchId: string, ownerId: string, bookingId: string, now: Date) {
-  const booking = await trx
-    .selectFrom('booking')
-    .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-    .select(['booking.id', 'booking.owner_id', 'booking.batch_id', 'booking.state', 'equipment.kind'])
-    .where('booking.id', '=', bookingId)
-    .executeTakeFirst();
+  const booking = await bookingToLink(trx, bookingId);
   if (!booking || booking.owner_id !== ownerId) {
     throw unprocessable('No such booking of the batch owner.', [{ path: 'bookingId', message: 'Pick one of the batch owner’s fermenter bookings' }]);
   }
@@ -222,7 +139,7 @@ async function linkBooking(trx: Database, batchId: string, ownerId: string, book
     throw unprocessable('That booking is cancelled.', [{ path: 'bookingId', message: 'Pick a booking that is not cancelled' }]);
   }
   if (booking.batch_id && booking.batch_id !== batchId) throw conflict('That booking already holds another batch.');
-  await trx.updateTable('booking').set({ batch_id: batchId, updated_at: now }).where('id', '=', bookingId).execute();
+  await setBookingBatch(trx, bookingId, batchId, now);
 }
 
 export async function createBatch(db: Database, ability: AppAbility, input: z.infer<typeof createBatchSchema>, actor: Actor, now: Date): Promise<BatchRow> {
@@ -231,27 +148,22 @@ export async function createBatch(db: Database, ability: AppAbility, input: z.in
   if (ownerId !== actor.id) ForbiddenError.from(ability).throwUnlessCan('update', subject('Batch', { ownerId }));
   return db.transaction().execute(async (trx) => {
     if (ownerId !== actor.id) {
-      const owner = await trx.selectFrom('app_user').select('id').where('id', '=', ownerId).where('is_active', '=', true).executeTakeFirst();
-      if (!owner) throw unprocessable('No such member.', [{ path: 'ownerId', message: 'Pick an active member' }]);
+      if (!(await isActiveMember(trx, ownerId))) throw unprocessable('No such member.', [{ path: 'ownerId', message: 'Pick an active member' }]);
     }
-    const row = await trx
-      .insertInto('batch')
-      .values({
-        owner_id: ownerId,
-        name: input.name,
-        style: input.style,
-        volume_liters: input.volumeLiters,
-        target_og: input.targetOg ?? null,
-        target_fg: input.targetFg ?? null,
-        notes: input.notes,
-        allergens: input.allergens,
-        shelf_life_days: input.shelfLifeDays ?? null,
-        created_by: actor.id,
-        created_at: now,
-        updated_at: now,
-      })
-      .returning(batchColumns.map((c) => c.replace('batch.', '')) as never)
-      .executeTakeFirstOrThrow();
+    const row = await insertBatch(trx, {
+      owner_id: ownerId,
+      name: input.name,
+      style: input.style,
+      volume_liters: input.volumeLiters,
+      target_og: input.targetOg ?? null,
+      target_fg: input.targetFg ?? null,
+      notes: input.notes,
+      allergens: input.allergens,
+      shelf_life_days: input.shelfLifeDays ?? null,
+      created_by: actor.id,
+      created_at: now,
+      updated_at: now,
+    });
     const batch = row as unknown as BatchRow;
     if (input.bookingId) await linkBooking(trx, batch.id, ownerId, input.bookingId, now);
     await audit(trx, actor.id, 'created', 'Batch', batch.id, { name: input.name, volumeLiters: input.volumeLiters, bookingId: input.bookingId ?? null });
@@ -273,31 +185,26 @@ export async function updateBatch(db: Database, batch: BatchRow, input: z.infer<
   }
   const packaging = input.status === 'packaged' && batch.status !== 'packaged';
   return db.transaction().execute(async (trx) => {
-    const updated = await trx
-      .updateTable('batch')
-      .set({
-        ...(input.name !== undefined ? { name: input.name } : {}),
-        ...(input.style !== undefined ? { style: input.style } : {}),
-        ...(input.volumeLiters !== undefined ? { volume_liters: input.volumeLiters } : {}),
-        ...(input.targetOg !== undefined ? { target_og: input.targetOg ?? null } : {}),
-        ...(input.targetFg !== undefined ? { target_fg: input.targetFg ?? null } : {}),
-        ...(input.notes !== undefined ? { notes: input.notes } : {}),
-        ...(input.allergens !== undefined ? { allergens: input.allergens } : {}),
-        ...(input.shelfLifeDays !== undefined ? { shelf_life_days: input.shelfLifeDays ?? null } : {}),
-        ...(input.status !== undefined ? { status: input.status } : {}),
-        ...(input.packagedLiters !== undefined ? { packaged_liters: input.packagedLiters ?? null } : {}),
-        ...(input.packagedAt !== undefined ? { packaged_at: input.packagedAt ?? null } : {}),
-        // Packaging without a time given: now.
-        ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: now } : {}),
-        // Discarding dumps the beer now (the monthly production report counts it as a loss then).
-        ...(input.status === 'discarded' && batch.status !== 'discarded' ? { discarded_at: now } : {}),
-        updated_at: new Date(),
-      })
-      .where('id', '=', batch.id)
-      .returning(batchColumns.map((c) => c.replace('batch.', '')) as never)
-      .executeTakeFirstOrThrow();
+    const updated = await updateBatchRow(trx, batch.id, {
+      ...(input.name !== undefined ? { name: input.name } : {}),
+      ...(input.style !== undefined ? { style: input.style } : {}),
+      ...(input.volumeLiters !== undefined ? { volume_liters: input.volumeLiters } : {}),
+      ...(input.targetOg !== undefined ? { target_og: input.targetOg ?? null } : {}),
+      ...(input.targetFg !== undefined ? { target_fg: input.targetFg ?? null } : {}),
+      ...(input.notes !== undefined ? { notes: input.notes } : {}),
+      ...(input.allergens !== undefined ? { allergens: input.allergens } : {}),
+      ...(input.shelfLifeDays !== undefined ? { shelf_life_days: input.shelfLifeDays ?? null } : {}),
+      ...(input.status !== undefined ? { status: input.status } : {}),
+      ...(input.packagedLiters !== undefined ? { packaged_liters: input.packagedLiters ?? null } : {}),
+      ...(input.packagedAt !== undefined ? { packaged_at: input.packagedAt ?? null } : {}),
+      // Packaging without a time given: now.
+      ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: now } : {}),
+      // Discarding dumps the beer now (the monthly production report counts it as a loss then).
+      ...(input.status === 'discarded' && batch.status !== 'discarded' ? { discarded_at: now } : {}),
+      updated_at: new Date(),
+    });
     if (input.bookingId === null) {
-      await trx.updateTable('booking').set({ batch_id: null, updated_at: new Date() }).where('batch_id', '=', batch.id).execute();
+      await unlinkBatchBookings(trx, batch.id, new Date());
     } else if (input.bookingId) {
       await linkBooking(trx, batch.id, batch.owner_id, input.bookingId, now);
     }

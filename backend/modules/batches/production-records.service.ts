@@ -1,11 +1,11 @@
 import { todayIn } from '../../../shared/billing/dates.ts';
-import { sql } from 'kysely';
 import { abv, abvMethod, litersToUsBarrels } from '../../../shared/brewing/index.ts';
 import { productionRecordsNote, type ProductionMonth, type ProductionRecordRow, type ProductionRecords } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
 import { csvFile, csvRows, xlsxFile, type Column, type Table } from '../../lib/tabular-export.ts';
 import { zonedTime } from './import-cells.ts';
 import { monthlyProduction } from './production-report.ts';
+import { firstAndLastGravity, packagedByMonth } from './production-records.repository.ts';
 
 /** Month or day bounds in the co-op's time zone → [start, end) instants. `to` is inclusive: a whole month or day. */
 export function periodBounds(
@@ -64,36 +64,11 @@ export async function productionRecords(
     m = new Date(Date.UTC(y, mo, 1)).toISOString().slice(0, 7);
   }
   const monthly = await monthlyProduction(db, monthList, ownerId);
-  const grouped = await db
-    .selectFrom('production_packaging as p')
-    .innerJoin('batch as b', 'b.id', 'p.batch_id')
-    .innerJoin('app_user as u', 'u.id', 'b.owner_id')
-    .select([
-      sql<string>`to_char(p.packaged_at at time zone ${timeZone}, 'YYYY-MM')`.as('month'),
-      'b.id as batch_id',
-      'b.name',
-      'b.style',
-      'u.name as owner_name',
-      sql<number>`sum(p.liters)::float8`.as('liters'),
-      sql<number>`count(*)::int`.as('packagings'),
-    ])
-    .where('p.packaged_at', '>=', period.start)
-    .where('p.packaged_at', '<', period.end)
-    .$if(Boolean(ownerId), (qb) => qb.where('b.owner_id', '=', ownerId!))
-    .groupBy([sql`1`, 'b.id', 'b.name', 'b.style', 'u.name'])
-    .orderBy(sql`1`)
-    .orderBy('b.name')
-    .execute();
+  const grouped = await packagedByMonth(db, period, timeZone, ownerId);
   const ids = [...new Set(grouped.map((g) => g.batch_id))];
   const gravities = new Map<string, { og: number | null; fg: number | null }>();
   if (ids.length) {
-    const rows = await sql<{ batch_id: string; og: string; fg: string; n: number }>`
-      select batch_id,
-             (array_agg(gravity_sg order by taken_at asc))[1] as og,
-             (array_agg(gravity_sg order by taken_at desc))[1] as fg,
-             count(*)::int as n
-      from reading where batch_id = any(${ids}::uuid[]) group by batch_id`.execute(db);
-    for (const r of rows.rows) gravities.set(r.batch_id, { og: Number(r.og), fg: r.n > 1 ? Number(r.fg) : null });
+    for (const r of await firstAndLastGravity(db, ids)) gravities.set(r.batch_id, { og: Number(r.og), fg: r.n > 1 ? Number(r.fg) : null });
   }
   const out: ProductionRecordRow[] = grouped.map((g) => {
     const gr = gravities.get(g.batch_id) ?? { og: null, fg: null };
@@ -157,29 +132,35 @@ const recordColumns: Column<ProductionRecordRow>[] = [
   { header: abvHeader, value: (r) => r.abv, type: 'number', numFmt: '0.00', width: 9 },
 ];
 
+/** A group of the monthly report's figures: a column for each of its parts, in this order. */
+function figureGroup<K extends string>(unit: string, labels: Partial<Record<NoInfer<K>, string>>, part: (m: ProductionMonth) => Record<K, number>) {
+  return (Object.entries(labels) as [K, string][]).map(([key, label]): [string, (m: ProductionMonth) => number] => [`${label} (${unit})`, (m) => part(m)[key]]);
+}
+
 /** The monthly report's columns: litres, then the main figures in US barrels (31 US gal). */
 const monthlyFigures: [string, (m: ProductionMonth) => number][] = [
   ['Opening (L)', (m) => m.openingLiters],
   ['Brewed (L)', (m) => m.producedLiters],
   ['Packaged (L)', (m) => m.packagedLiters],
-  ['Checked out (L)', (m) => m.removals.checkedOutLiters],
-  ['Served (L)', (m) => m.removals.servedLiters],
-  ['Packaged otherwise (L)', (m) => m.removals.packagedOtherwiseLiters],
-  ['Removals (L)', (m) => m.removals.totalLiters],
-  ['Transfer losses (L)', (m) => m.losses.transferLiters],
-  ['Left in fermenter (L)', (m) => m.losses.leftInFermenterLiters],
-  ['Dumped kegs (L)', (m) => m.losses.dumpedKegLiters],
-  ['Dumped batches (L)', (m) => m.losses.dumpedBatchLiters],
-  ['Losses (L)', (m) => m.losses.totalLiters],
-  ['In fermenters (L)', (m) => m.closing.fermentersLiters],
-  ['In kegs (L)', (m) => m.closing.kegsLiters],
-  ['Closing (L)', (m) => m.closing.totalLiters],
+  ...figureGroup(
+    'L',
+    { checkedOutLiters: 'Checked out', servedLiters: 'Served', packagedOtherwiseLiters: 'Packaged otherwise', totalLiters: 'Removals' },
+    (m) => m.removals,
+  ),
+  ...figureGroup(
+    'L',
+    {
+      transferLiters: 'Transfer losses',
+      leftInFermenterLiters: 'Left in fermenter',
+      dumpedKegLiters: 'Dumped kegs',
+      dumpedBatchLiters: 'Dumped batches',
+      totalLiters: 'Losses',
+    },
+    (m) => m.losses,
+  ),
+  ...figureGroup('L', { fermentersLiters: 'In fermenters', kegsLiters: 'In kegs', totalLiters: 'Closing' }, (m) => m.closing),
   ['Balance (L)', (m) => m.balanceLiters],
-  ['Opening (US bbl)', (m) => m.usBarrels.opening],
-  ['Brewed (US bbl)', (m) => m.usBarrels.produced],
-  ['Removals (US bbl)', (m) => m.usBarrels.removals],
-  ['Losses (US bbl)', (m) => m.usBarrels.losses],
-  ['Closing (US bbl)', (m) => m.usBarrels.closing],
+  ...figureGroup('US bbl', { opening: 'Opening', produced: 'Brewed', removals: 'Removals', losses: 'Losses', closing: 'Closing' }, (m) => m.usBarrels),
 ];
 const monthlyColumns: Column<ProductionMonth>[] = [
   { header: 'Month', value: (m) => m.month, type: 'month', width: 10 },

@@ -1,7 +1,7 @@
-import { sql } from 'kysely';
 import { litersToUsBarrels } from '../../../shared/brewing/index.ts';
 import type { ProductionMonth } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
+import { ledgerBatches, ledgerFills, ledgerTransfers } from './production-records.repository.ts';
 
 /**
  * The monthly production report: every litre the co-op brews is followed from its fermenter into
@@ -47,56 +47,14 @@ const bbl = (l: number) => round4(litersToUsBarrels(l));
 
 /** What the co-op held and what moved, from the records, for batches brewed before `until` (of one owner if given). */
 async function cellarLedger(db: Database, until: Date, ownerId?: string): Promise<{ flows: Flow[]; holdings: Holding[] }> {
-  const batches = await db
-    .selectFrom('batch as b')
-    .select([
-      'b.id',
-      'b.volume_liters',
-      'b.status',
-      'b.created_at',
-      'b.packaged_at',
-      'b.packaged_liters',
-      'b.discarded_at',
-      'b.updated_at',
-      (eb) =>
-        eb
-          .selectFrom('reading as r')
-          .select((e) => e.fn.min('r.taken_at').as('t'))
-          .whereRef('r.batch_id', '=', 'b.id')
-          .as('first_reading_at'),
-    ])
-    .where('b.status', '<>', 'planned')
-    .$if(Boolean(ownerId), (qb) => qb.where('b.owner_id', '=', ownerId!))
-    .execute();
+  const batches = await ledgerBatches(db, ownerId);
   const brewed = batches
     .map((b) => ({ ...b, brewedAt: b.first_reading_at ? new Date(b.first_reading_at as unknown as string) : b.status === 'discarded' ? null : b.created_at }))
     .filter((b): b is typeof b & { brewedAt: Date } => b.brewedAt !== null && b.brewedAt < until);
   const ids = brewed.map((b) => b.id);
   if (!ids.length) return { flows: [], holdings: [] };
 
-  const [transfers, fills] = await Promise.all([
-    db
-      .selectFrom('transfer')
-      .select(['id', 'batch_id', 'transferred_at', 'volume_liters', 'loss_liters'])
-      .where('batch_id', 'in', ids)
-      .orderBy('transferred_at')
-      .orderBy('id')
-      .execute(),
-    db
-      .selectFrom('keg_fill as kf')
-      .select([
-        'kf.batch_id',
-        'kf.volume_liters',
-        'kf.filled_at',
-        'kf.emptied_at',
-        'kf.emptied_reason',
-        sql<Date | null>`(select min(m.at) from keg_movement m where m.keg_id = kf.keg_id and m.action = 'checked_out'
-          and m.at >= kf.filled_at and (kf.emptied_at is null or m.at <= kf.emptied_at))`.as('checked_out_at'),
-      ])
-      .where('kf.batch_id', 'in', ids)
-      .where('kf.transfer_id', 'is not', null)
-      .execute(),
-  ]);
+  const [transfers, fills] = await Promise.all([ledgerTransfers(db, ids), ledgerFills(db, ids)]);
 
   const flows: Flow[] = [];
   const holdings: Holding[] = [];

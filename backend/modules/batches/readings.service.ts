@@ -1,4 +1,3 @@
-import { sql } from 'kysely';
 import { checkAgainstOriginal, normaliseGravity, originalBrixOf, type BrixMethod, type NormalisedGravity } from '../../../shared/brewing/readings.ts';
 import type { Actor } from '../../../shared/permissions/roles.ts';
 import type { Page } from '../../../shared/schemas/pagination.ts';
@@ -9,7 +8,20 @@ import { audit } from '../../lib/audit.ts';
 import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import type { BatchRow } from './batches.service.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
-import { orderByAllowed, pageOf, paginate } from '../../lib/paginate.ts';
+import { pageOf } from '../../lib/paginate.ts';
+import {
+  brixReadings,
+  deleteReadingRow,
+  firstReadingRow,
+  insertReadingColumns,
+  lockBatchReadings,
+  readingAt,
+  readingPage,
+  readingRow,
+  setReadingGravity,
+  startFermenting,
+  type ReadingRow,
+} from './readings.repository.ts';
 
 /** A reading ready to be normalised: what came in, with its time as epoch milliseconds. */
 export interface ReadingCandidate {
@@ -38,13 +50,7 @@ export interface FirstReading {
 
 /** The batch's earliest stored reading (its OG), if any. */
 export async function firstReadingOf(db: Database, batchId: string): Promise<FirstReading | null> {
-  const r = await db
-    .selectFrom('reading')
-    .select(['taken_at', 'entered_value', 'entered_unit', 'gravity_sg'])
-    .where('batch_id', '=', batchId)
-    .orderBy('taken_at')
-    .limit(1)
-    .executeTakeFirst();
+  const r = await firstReadingRow(db, batchId);
   return r ? { time: r.taken_at.getTime(), enteredValue: Number(r.entered_value), enteredUnit: r.entered_unit, sg: Number(r.gravity_sg) } : null;
 }
 
@@ -118,22 +124,25 @@ export async function insertReadings(
   const ids: string[] = [];
   for (let i = 0; i < rows.length; i += CHUNK) {
     const chunk = rows.slice(i, i + CHUNK);
-    const result = await sql<{ id: string }>`
-      insert into reading (batch_id, taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, method, source, note, created_by)
-      select ${batchId}::uuid, t.taken_at, t.gravity_sg, t.entered_value, t.entered_unit, t.temperature_c, t.corrected, t.raw_sg, t.method, ${source}, t.note, ${actorId}::uuid
-      from unnest(
-        ${chunk.map((r) => new Date(r.time).toISOString())}::timestamptz[],
-        ${chunk.map((r) => r.gravity.sg)}::numeric[],
-        ${chunk.map((r) => r.value)}::numeric[],
-        ${chunk.map((r) => r.unit)}::text[],
-        ${chunk.map((r) => r.temperatureC)}::numeric[],
-        ${chunk.map((r) => r.gravity.corrected)}::boolean[],
-        ${chunk.map((r) => r.gravity.rawSg)}::numeric[],
-        ${chunk.map((r) => r.gravity.method)}::text[],
-        ${chunk.map((r) => r.note)}::text[]
-      ) as t(taken_at, gravity_sg, entered_value, entered_unit, temperature_c, corrected, raw_sg, method, note)
-      returning id`.execute(trx);
-    for (const r of result.rows) ids.push(r.id);
+    ids.push(
+      ...(await insertReadingColumns(
+        trx,
+        batchId,
+        {
+          takenAt: chunk.map((r) => new Date(r.time).toISOString()),
+          gravitySg: chunk.map((r) => r.gravity.sg),
+          enteredValue: chunk.map((r) => r.value),
+          enteredUnit: chunk.map((r) => r.unit),
+          temperatureC: chunk.map((r) => r.temperatureC),
+          corrected: chunk.map((r) => r.gravity.corrected),
+          rawSg: chunk.map((r) => r.gravity.rawSg),
+          method: chunk.map((r) => r.gravity.method),
+          note: chunk.map((r) => r.note),
+        },
+        source,
+        actorId,
+      )),
+    );
     if (onChunk) await onChunk(Math.min(rows.length, i + CHUNK));
   }
   return ids;
@@ -145,12 +154,7 @@ export async function insertReadings(
  */
 export async function renormaliseBrix(trx: Database, batchId: string, settings: FermentationSettings): Promise<number> {
   const first = await firstReadingOf(trx, batchId);
-  const brix = await trx
-    .selectFrom('reading')
-    .select(['id', 'taken_at', 'entered_value', 'temperature_c', 'gravity_sg', 'method'])
-    .where('batch_id', '=', batchId)
-    .where('entered_unit', '=', 'brix')
-    .execute();
+  const brix = await brixReadings(trx, batchId);
   if (!first || brix.length === 0) return 0;
   const originalBrix = originalBrixOf(first, settings.wortCorrectionFactor);
   let changed = 0;
@@ -163,7 +167,7 @@ export async function renormaliseBrix(trx: Database, batchId: string, settings: 
         method: r.method,
       });
       if (Math.abs(g.sg - Number(r.gravity_sg)) > 1e-9) {
-        await trx.updateTable('reading').set({ gravity_sg: g.sg, raw_sg: g.rawSg, corrected: g.corrected }).where('id', '=', r.id).execute();
+        await setReadingGravity(trx, r.id, g);
         changed += 1;
       }
     } catch {
@@ -176,7 +180,7 @@ export async function renormaliseBrix(trx: Database, batchId: string, settings: 
 /** A planned batch starts fermenting with its first reading. */
 export async function startFermentingIfPlanned(trx: Database, batch: BatchRow, actorId: string, now: Date) {
   if (batch.status !== 'planned') return;
-  await trx.updateTable('batch').set({ status: 'fermenting', updated_at: now }).where('id', '=', batch.id).where('status', '=', 'planned').execute();
+  await startFermenting(trx, batch.id, now);
   await audit(trx, actorId, 'status:fermenting', 'Batch', batch.id, { reason: 'first reading' });
 }
 
@@ -215,8 +219,8 @@ export async function addReading(
     confirm: input.confirm ?? false,
   };
   return db.transaction().execute(async (trx) => {
-    await sql`select pg_advisory_xact_lock(hashtext(${batch.id}))`.execute(trx);
-    const dup = await trx.selectFrom('reading').select('id').where('batch_id', '=', batch.id).where('taken_at', '=', new Date(time)).executeTakeFirst();
+    await lockBatchReadings(trx, batch.id);
+    const dup = await readingAt(trx, batch.id, new Date(time));
     if (dup) throw conflict('This batch already has a reading at that time.', { readingId: dup.id });
     const first = await firstReadingOf(trx, batch.id);
     let problem: string | null = null;
@@ -244,40 +248,10 @@ export async function addReading(
 }
 
 async function readingById(db: Database, id: string): Promise<ReadingDto> {
-  const r = await readingSelect(db).where('reading.id', '=', id).executeTakeFirstOrThrow();
-  return toReadingDto(r);
+  return toReadingDto(await readingRow(db, id));
 }
 
-function readingBase(db: Database) {
-  return db.selectFrom('reading').leftJoin('app_user', 'app_user.id', 'reading.created_by');
-}
-
-function readingSelect(db: Database) {
-  return withReadingColumns(readingBase(db));
-}
-
-function withReadingColumns(qb: ReturnType<typeof readingBase>) {
-  return qb.select([
-    'reading.id',
-    'reading.taken_at',
-    'reading.gravity_sg',
-    'reading.entered_value',
-    'reading.entered_unit',
-    'reading.temperature_c',
-    'reading.corrected',
-    'reading.raw_sg',
-    'reading.method',
-    'reading.source',
-    'reading.note',
-    'reading.created_by',
-    'app_user.name as created_by_name',
-    'reading.created_at',
-  ]);
-}
-
-type ReadingSelectRow = Awaited<ReturnType<ReturnType<typeof readingSelect>['executeTakeFirstOrThrow']>>;
-
-function toReadingDto(r: ReadingSelectRow): ReadingDto {
+function toReadingDto(r: ReadingRow): ReadingDto {
   return {
     id: r.id,
     takenAt: r.taken_at.toISOString(),
@@ -296,29 +270,14 @@ function toReadingDto(r: ReadingSelectRow): ReadingDto {
   };
 }
 
-const readingSort = {
-  takenAt: 'reading.taken_at',
-  gravitySg: 'reading.gravity_sg',
-  temperatureC: 'reading.temperature_c',
-  createdAt: 'reading.created_at',
-} as const;
-
 export async function listReadings(db: Database, batchId: string, q: z.infer<typeof readingListQuerySchema>): Promise<Page<ReadingDto>> {
-  let base = readingBase(db).where('reading.batch_id', '=', batchId);
-  if (q.source) base = base.where('reading.source', '=', q.source);
-  const page = await paginate(base, (qb) => orderByAllowed(withReadingColumns(qb), readingSort, q, 'reading.id'), q);
-  return pageOf(page, toReadingDto, q);
+  return pageOf(await readingPage(db, batchId, q), toReadingDto, q);
 }
 
 export async function deleteReading(db: Database, batch: BatchRow, readingId: string, settings: FermentationSettings, actor: Actor) {
   if (!isUuid(readingId)) throw notFound('Reading');
   await db.transaction().execute(async (trx) => {
-    const gone = await trx
-      .deleteFrom('reading')
-      .where('id', '=', readingId)
-      .where('batch_id', '=', batch.id)
-      .returning(['id', 'taken_at', 'gravity_sg', 'entered_value', 'entered_unit'])
-      .executeTakeFirst();
+    const gone = await deleteReadingRow(trx, batch.id, readingId);
     if (!gone) throw notFound('Reading');
     await renormaliseBrix(trx, batch.id, settings);
     await audit(trx, actor.id, 'reading:deleted', 'Batch', batch.id, {

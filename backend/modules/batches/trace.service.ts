@@ -8,9 +8,8 @@ import { csvTable, type Column } from '../../lib/tabular-export.ts';
 import { defaultLocale, formatDate, formatNumber, formatVolume, type FormatContext } from '../../../shared/format/index.ts';
 import { renderPdf } from '../../lib/pdf.ts';
 import { framedDocument, pdfColours, type PdfCoop } from '../../lib/pdf-frame.ts';
-import { effectiveStateSql } from '../equipment/vessel-state.ts';
-import { kegWhereaboutsColumns } from '../kegs/kegs.repository.ts';
 import { loadShelfLifeSettings } from './shelf-life.ts';
+import { batchIdsFilledIn, finingsRows, kegOutings, traceBatches, traceFillRows, type FillScope } from './trace.repository.ts';
 
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
 const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
@@ -22,54 +21,14 @@ export interface TraceViewer {
   mayNameHolder: (memberId: string) => boolean;
 }
 
-interface FillScope {
-  batchIds: string[];
-  from?: Date;
-  to?: Date;
-}
-
 async function loadFills(db: Database, scope: FillScope, viewer: TraceViewer, now: Date, nearDays: number): Promise<Map<string, TraceFill[]>> {
   const out = new Map<string, TraceFill[]>();
   if (!scope.batchIds.length) return out;
-  let q = db
-    .selectFrom('keg_fill as kf')
-    .innerJoin('equipment as e', 'e.id', 'kf.keg_id')
-    .leftJoin('transfer as t', 't.id', 'kf.transfer_id')
-    .leftJoin('keg_whereabouts as kw', 'kw.keg_id', 'kf.keg_id')
-    .leftJoin('equipment as tap', 'tap.id', 'kw.tap_id')
-    .leftJoin('app_user as m', 'm.id', 'kw.member_id')
-    .select((eb) => [
-      'kf.id',
-      'kf.batch_id',
-      'kf.keg_id',
-      'e.code',
-      'kf.filled_at',
-      'kf.volume_liters',
-      'kf.remaining_liters',
-      'kf.emptied_at',
-      'kf.best_before',
-      't.finings_kind',
-      't.finings_amount',
-      't.finings_unit',
-      effectiveStateSql(eb.ref('e.id'), eb.ref('e.state'), now).as('state'),
-      ...kegWhereaboutsColumns,
-    ])
-    .where('kf.batch_id', 'in', scope.batchIds);
-  if (scope.from) q = q.where('kf.filled_at', '>=', scope.from);
-  if (scope.to) q = q.where('kf.filled_at', '<', scope.to);
-  const rows = await q.orderBy('kf.filled_at').orderBy('e.code').execute();
+  const rows = await traceFillRows(db, scope, now);
   if (!rows.length) return out;
 
   // Who took each keg out, and which taps it was on, while it held this fill.
-  const movements = await db
-    .selectFrom('keg_movement as km')
-    .leftJoin('app_user as u', 'u.id', 'km.member_id')
-    .leftJoin('equipment as tap', 'tap.id', 'km.tap_id')
-    .select(['km.keg_id', 'km.action', 'km.at', 'km.member_id', 'u.name as member_name', 'km.due_at', 'km.tap_id', 'tap.code as tap_code'])
-    .where('km.keg_id', 'in', [...new Set(rows.map((r) => r.keg_id))])
-    .where('km.action', 'in', ['checked_out', 'tapped'])
-    .orderBy('km.at')
-    .execute();
+  const movements = await kegOutings(db, [...new Set(rows.map((r) => r.keg_id))]);
 
   for (const r of rows) {
     const open = r.emptied_at === null;
@@ -157,36 +116,11 @@ function batchTraceOf(b: TraceBatchRow, fills: TraceFill[], finings: FiningsDose
   };
 }
 
-function batchRows(db: Database) {
-  return db
-    .selectFrom('batch as b')
-    .innerJoin('app_user as o', 'o.id', 'b.owner_id')
-    .select([
-      'b.id',
-      'b.name',
-      'b.style',
-      'b.status',
-      'b.owner_id',
-      'o.name as owner_name',
-      'b.packaged_at',
-      'b.packaged_liters',
-      'b.shelf_life_days',
-      'b.allergens',
-    ]);
-}
-
 /** Every transfer's finings of these batches, oldest first. */
 async function loadFinings(db: Database, batchIds: string[]): Promise<Map<string, FiningsDose[]>> {
   const out = new Map<string, FiningsDose[]>();
   if (!batchIds.length) return out;
-  const rows = await db
-    .selectFrom('transfer')
-    .select(['batch_id', 'finings_kind', 'finings_amount', 'finings_unit'])
-    .where('batch_id', 'in', batchIds)
-    .where('finings_kind', 'is not', null)
-    .orderBy('transferred_at')
-    .execute();
-  for (const r of rows) {
+  for (const r of await finingsRows(db, batchIds)) {
     const list = out.get(r.batch_id) ?? [];
     list.push({ kind: r.finings_kind!, dose: Number(r.finings_amount), unit: r.finings_unit ?? '' });
     out.set(r.batch_id, list);
@@ -198,7 +132,7 @@ async function loadFinings(db: Database, batchIds: string[]): Promise<Map<string
 export async function batchTrace(db: Database, batchId: string, viewer: TraceViewer, now: Date): Promise<BatchTrace> {
   const settings = await loadShelfLifeSettings(db);
   const [b, fills, finings] = await Promise.all([
-    batchRows(db).where('b.id', '=', batchId).executeTakeFirstOrThrow(),
+    traceBatches(db).where('b.id', '=', batchId).executeTakeFirstOrThrow(),
     loadFills(db, { batchIds: [batchId] }, viewer, now, settings.nearDays),
     loadFinings(db, [batchId]),
   ]);
@@ -216,18 +150,10 @@ export async function traceReport(
 ): Promise<TraceReport> {
   const from = dayStart(q.from);
   const to = new Date(dayStart(q.to).getTime() + 86_400_000);
-  let ids = db
-    .selectFrom('keg_fill as kf')
-    .innerJoin('batch as b', 'b.id', 'kf.batch_id')
-    .select('kf.batch_id')
-    .distinct()
-    .where('kf.filled_at', '>=', from)
-    .where('kf.filled_at', '<', to);
-  if (q.ownerId) ids = ids.where('b.owner_id', '=', q.ownerId);
-  const batchIds = (await ids.execute()).map((r) => r.batch_id);
+  const batchIds = await batchIdsFilledIn(db, from, to, q.ownerId);
   const settings = await loadShelfLifeSettings(db);
   const [batches, fills, finings] = await Promise.all([
-    batchIds.length ? batchRows(db).where('b.id', 'in', batchIds).execute() : Promise.resolve([]),
+    batchIds.length ? traceBatches(db).where('b.id', 'in', batchIds).execute() : Promise.resolve([]),
     loadFills(db, { batchIds, from, to }, viewer, now, settings.nearDays),
     loadFinings(db, batchIds),
   ]);

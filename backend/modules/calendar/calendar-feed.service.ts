@@ -1,6 +1,5 @@
 import { createHash, createHmac, randomUUID } from 'node:crypto';
 import ical, { ICalCalendarMethod, ICalEventStatus } from 'ical-generator';
-import { sql } from 'kysely';
 import { longDate } from '../../../shared/billing/dates.ts';
 import { formatMoney } from '../../../shared/billing/money.ts';
 import { defineAbilityFor, subject } from '../../../shared/permissions/ability.ts';
@@ -10,6 +9,7 @@ import type { CalendarFeedKind } from '../../db/tables/reminders.ts';
 import { audit } from '../../lib/audit.ts';
 import { bookingUid } from '../bookings/bookings.mail.ts';
 import { coopProfile } from '../settings/settings.service.ts';
+import { feedBookings, feedByTokenHash, feedInvoicesDue, feedKegsDue, insertFeed, liveFeeds, lockFeedOwner, revokeFeeds } from './calendar-feed.repository.ts';
 
 export const calendarFeedKinds: CalendarFeedKind[] = ['member', 'rota'];
 const HOUR = 3600_000;
@@ -37,13 +37,7 @@ export interface CalendarFeedView {
 /** The person's live feeds of the kinds asked for (a kind without a link yet has `url: null`). */
 export async function listFeeds(db: Database, config: Config, ownerId: string, kinds: CalendarFeedKind[]): Promise<CalendarFeedView[]> {
   if (kinds.length === 0) return [];
-  const rows = await db
-    .selectFrom('calendar_feed')
-    .select(['id', 'kind', 'created_at'])
-    .where('owner_id', '=', ownerId)
-    .where('revoked_at', 'is', null)
-    .where('kind', 'in', kinds)
-    .execute();
+  const rows = await liveFeeds(db, ownerId, kinds);
   return kinds.map((kind) => {
     const row = rows.find((r) => r.kind === kind);
     return { kind, url: row ? feedUrl(config, feedToken(config, row.id)) : null, createdAt: row ? row.created_at.toISOString() : null };
@@ -54,24 +48,13 @@ export async function listFeeds(db: Database, config: Config, ownerId: string, k
 export async function renewFeed(db: Database, config: Config, ownerId: string, kind: CalendarFeedKind): Promise<CalendarFeedView> {
   return db.transaction().execute(async (trx) => {
     // One renewal at a time per person and kind: the row lock on the account serialises them.
-    await trx.selectFrom('app_user').select('id').where('id', '=', ownerId).forUpdate().executeTakeFirstOrThrow();
-    const revoked = await trx
-      .updateTable('calendar_feed')
-      .set({ revoked_at: sql`now()` })
-      .where('owner_id', '=', ownerId)
-      .where('kind', '=', kind)
-      .where('revoked_at', 'is', null)
-      .returning('id')
-      .execute();
+    await lockFeedOwner(trx, ownerId);
+    const revoked = await revokeFeeds(trx, ownerId, kind);
     const id = randomUUID();
     const token = feedToken(config, id);
-    const row = await trx
-      .insertInto('calendar_feed')
-      .values({ id, owner_id: ownerId, kind, token_hash: hashToken(token) })
-      .returning('created_at')
-      .executeTakeFirstOrThrow();
-    await audit(trx, ownerId, revoked.length ? 'calendar_feed_renewed' : 'calendar_feed_created', 'CalendarFeed', id, { kind });
-    return { kind, url: feedUrl(config, token), createdAt: row.created_at.toISOString() };
+    const createdAt = await insertFeed(trx, { id, owner_id: ownerId, kind, token_hash: hashToken(token) });
+    await audit(trx, ownerId, revoked ? 'calendar_feed_renewed' : 'calendar_feed_created', 'CalendarFeed', id, { kind });
+    return { kind, url: feedUrl(config, token), createdAt: createdAt.toISOString() };
   });
 }
 
@@ -81,13 +64,7 @@ export async function renewFeed(db: Database, config: Config, ownerId: string, k
  */
 export async function feedForToken(db: Database, token: string) {
   if (!/^[A-Za-z0-9_-]{20,100}$/.test(token)) return undefined;
-  const row = await db
-    .selectFrom('calendar_feed')
-    .innerJoin('app_user', 'app_user.id', 'calendar_feed.owner_id')
-    .select(['calendar_feed.id', 'calendar_feed.kind', 'calendar_feed.owner_id', 'app_user.name', 'app_user.roles', 'app_user.is_active'])
-    .where('calendar_feed.token_hash', '=', hashToken(token))
-    .where('calendar_feed.revoked_at', 'is', null)
-    .executeTakeFirst();
+  const row = await feedByTokenHash(db, hashToken(token));
   if (!row || !row.is_active) return undefined;
   const ability = defineAbilityFor({ id: row.owner_id, roles: row.roles });
   if (!ability.can('read', subject('CalendarFeed', { ownerId: row.owner_id, kind: row.kind }))) return undefined;
@@ -121,105 +98,56 @@ export async function renderFeed(db: Database, config: Config, feed: { kind: Cal
   const calendar = newCalendar(rota ? `${coop}: cellar rota` : `${coop}: ${feed.name}`, coop, timeZone);
   const stamp = now;
 
-  let bookings = db
-    .selectFrom('booking')
-    .innerJoin('equipment', 'equipment.id', 'booking.equipment_id')
-    .innerJoin('app_user', 'app_user.id', 'booking.owner_id')
-    .leftJoin('batch', 'batch.id', 'booking.batch_id')
-    .select([
-      'booking.id',
-      'booking.starts_at',
-      'booking.ends_at',
-      'booking.blocked_until',
-      'booking.state',
-      'booking.equipment_id',
-      'equipment.code',
-      'equipment.name as equipment_name',
-      'equipment.kind',
-      'app_user.name as owner_name',
-      'batch.name as batch_name',
-      'batch.status as batch_status',
-    ])
-    .where('booking.state', '<>', 'cancelled')
-    .where('booking.blocked_until', '>', from)
-    .where('booking.starts_at', '<', to)
-    .orderBy('booking.starts_at');
-  if (!rota) bookings = bookings.where('booking.owner_id', '=', feed.owner_id);
-  for (const b of await bookings.execute()) {
+  const scope = { from, to, ownerId: rota ? undefined : feed.owner_id };
+  // Every event of the cellar is stamped with the feed's time and placed in the co-op's cellar.
+  const event = (e: { id: string; start: Date; end: Date; summary: string; description: string; url: string; status?: ICalEventStatus }) =>
+    calendar.createEvent({ stamp, location: `${coop} cellar`, ...e });
+
+  for (const b of await feedBookings(db, scope)) {
     const url = `${config.publicUrl}/cellar/${b.equipment_id}`;
-    calendar.createEvent({
+    const vessel = `${b.code} ${b.name}`;
+    event({
       id: bookingUid(b.id),
-      stamp,
       start: b.starts_at,
       end: b.ends_at,
-      summary: rota ? `${b.code} ${b.equipment_name}: ${b.owner_name}` : `${b.code} ${b.equipment_name} booked`,
-      description: `${b.code} (${b.equipment_name}) booked for ${b.owner_name}${b.batch_name ? `, batch ${b.batch_name}` : ''}. Hand-over at the start; kept free for cleaning until ${b.blocked_until.toISOString()}.`,
-      location: `${coop} cellar`,
+      summary: rota ? `${vessel}: ${b.owner_name}` : `${vessel} booked`,
+      description: `${b.code} (${b.name}) booked for ${b.owner_name}${b.batch_name ? `, batch ${b.batch_name}` : ''}. Hand-over at the start; kept free for cleaning until ${b.blocked_until.toISOString()}.`,
       url,
       status: ICalEventStatus.CONFIRMED,
     });
     if (rota && b.blocked_until.getTime() > b.ends_at.getTime() && (b.kind === 'fermenter' || b.kind === 'keg')) {
-      calendar.createEvent({
-        id: `cleaning-${b.id}@cellarwright.example.org`,
-        stamp,
-        start: b.ends_at,
-        end: b.blocked_until,
-        summary: `Clean ${b.code} ${b.equipment_name}`,
-        description: `${b.code} comes back from ${b.owner_name}'s booking: clean, rinse, sanitize and purge it before its next use.`,
-        location: `${coop} cellar`,
-        url,
-      });
+      const description = `${b.code} comes back from ${b.owner_name}'s booking: clean, rinse, sanitize and purge it before its next use.`;
+      event({ id: `cleaning-${b.id}@cellarwright.example.org`, start: b.ends_at, end: b.blocked_until, summary: `Clean ${vessel}`, description, url });
     }
     if (rota && b.kind === 'fermenter' && (b.batch_status === 'fermenting' || b.batch_status === 'conditioning')) {
-      calendar.createEvent({
+      const description = `${b.owner_name}'s batch ${b.batch_name} must be out of ${b.code} before its booking ends.`;
+      const start = new Date(b.ends_at.getTime() - HOUR);
+      event({
         id: `transfer-${b.id}@cellarwright.example.org`,
-        stamp,
-        start: new Date(b.ends_at.getTime() - HOUR),
+        start,
         end: b.ends_at,
         summary: `Transfer due: ${b.batch_name} out of ${b.code}`,
-        description: `${b.owner_name}'s batch ${b.batch_name} must be out of ${b.code} before its booking ends.`,
-        location: `${coop} cellar`,
+        description,
         url,
       });
     }
   }
 
-  let kegs = db
-    .selectFrom('keg_whereabouts as kw')
-    .innerJoin('equipment as e', 'e.id', 'kw.keg_id')
-    .innerJoin('app_user as m', 'm.id', 'kw.member_id')
-    .select(['e.id', 'e.code', 'e.name', 'm.name as member_name', 'kw.due_at', 'kw.checked_out_at'])
-    .where('kw.whereabouts', '=', 'with_member')
-    .where('kw.due_at', 'is not', null)
-    .where('kw.due_at', '<', to)
-    .orderBy('kw.due_at');
-  if (!rota) kegs = kegs.where('kw.member_id', '=', feed.owner_id);
-  for (const k of await kegs.execute()) {
+  for (const k of await feedKegsDue(db, scope)) {
     const due = k.due_at!;
-    const overdue = due.getTime() < now.getTime();
-    calendar.createEvent({
+    const overdue = due.getTime() < now.getTime() ? ' (overdue)' : '';
+    event({
       id: `keg-due-${k.id}-${k.checked_out_at ? k.checked_out_at.getTime() : 0}@cellarwright.example.org`,
-      stamp,
       start: due,
       end: new Date(due.getTime() + HOUR / 2),
-      summary: rota ? `Keg ${k.code} due back from ${k.member_name}${overdue ? ' (overdue)' : ''}` : `Bring back keg ${k.code}${overdue ? ' (overdue)' : ''}`,
+      summary: rota ? `Keg ${k.code} due back from ${k.member_name}${overdue}` : `Bring back keg ${k.code}${overdue}`,
       description: `Keg ${k.code} (${k.name}) is due back at the cellar. Release the pressure before you carry it, and keep it upright.`,
-      location: `${coop} cellar`,
       url: `${config.publicUrl}/kegs/${k.id}`,
     });
   }
 
   if (!rota) {
-    const invoices = await db
-      .selectFrom('invoice')
-      .select(['id', 'number', 'due_on', 'currency', 'total_cents', 'paid_cents', 'credited_cents'])
-      .where('member_id', '=', feed.owner_id)
-      .where('status', '=', 'issued')
-      .where('due_on', 'is not', null)
-      .where(sql<boolean>`total_cents - paid_cents - credited_cents > 0`)
-      .orderBy('due_on')
-      .execute();
-    for (const inv of invoices) {
+    for (const inv of await feedInvoicesDue(db, feed.owner_id)) {
       const due = inv.total_cents - inv.paid_cents - inv.credited_cents;
       const day = new Date(`${inv.due_on}T00:00:00Z`);
       calendar.createEvent({

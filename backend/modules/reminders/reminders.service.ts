@@ -9,6 +9,7 @@ import { lockInvoice } from '../billing/invoices.service.ts';
 import { invoiceReminderMail } from '../mail/templates/invoice-reminder.ts';
 import { kegReminderMail } from '../mail/templates/keg-reminder.ts';
 import { coopProfile, coopToday, getBillingProfile } from '../settings/settings.service.ts';
+import { insertReminder, lockKegWithHolder, memberContact, overdueInvoiceRows, quietReminder } from './reminders.repository.ts';
 
 /** After a reminder, its invoice or keg is not reminded again for this long (by the app's clock). */
 export const REMINDER_QUIET_MS = 24 * 3600_000;
@@ -39,10 +40,29 @@ function tooSoon(what: string, last: { sent_at: Date; quiet_until: Date }) {
   });
 }
 
-async function quietReminder(trx: Database, target: { invoiceId?: string; kegId?: string }, now: Date) {
-  let q = trx.selectFrom('reminder').select(['sent_at', 'quiet_until']).where('quiet_until', '>', now).orderBy('sent_at', 'desc');
-  q = target.invoiceId ? q.where('invoice_id', '=', target.invoiceId) : q.where('keg_id', '=', target.kegId!);
-  return q.executeTakeFirst();
+/**
+ * Writes the reminder row of an invoice or a keg unless the target is still quiet (409); the caller
+ * queues the e-mail, then `sent()` writes the audit row and says what was sent.
+ */
+async function recordReminder(trx: Database, target: { kind: 'invoice' | 'keg'; id: string; memberId: string; what: string }, actorId: string, now: Date) {
+  const last = await quietReminder(trx, target.kind, target.id, now);
+  if (last) throw tooSoon(target.what, last);
+  const member = await memberContact(trx, target.memberId);
+  const quietUntil = new Date(now.getTime() + REMINDER_QUIET_MS);
+  const id = await insertReminder(trx, {
+    kind: target.kind,
+    ...(target.kind === 'invoice' ? { invoice_id: target.id } : { keg_id: target.id }),
+    member_id: target.memberId,
+    sent_to: member.email,
+    sent_by: actorId,
+    sent_at: now,
+    quiet_until: quietUntil,
+  });
+  const sent = async (): Promise<SentReminder> => {
+    await audit(trx, actorId, 'reminded', target.kind === 'invoice' ? 'Invoice' : 'Keg', target.id, { to: member.email, reminderId: id });
+    return { id, kind: target.kind, targetId: target.id, sentTo: member.email, sentAt: now.toISOString(), remindAgainAfter: quietUntil.toISOString() };
+  };
+  return { member, sent };
 }
 
 /**
@@ -72,15 +92,7 @@ export async function remindInvoice(deps: ReminderDeps, invoiceId: string, actor
         { code: 'not_overdue' },
       );
     }
-    const last = await quietReminder(trx, { invoiceId }, now);
-    if (last) throw tooSoon(`Invoice ${inv.number}`, last);
-    const member = await trx.selectFrom('app_user').select(['name', 'email']).where('id', '=', inv.member_id).executeTakeFirstOrThrow();
-    const quietUntil = new Date(now.getTime() + REMINDER_QUIET_MS);
-    const row = await trx
-      .insertInto('reminder')
-      .values({ kind: 'invoice', invoice_id: inv.id, member_id: inv.member_id, sent_to: member.email, sent_by: actorId, sent_at: now, quiet_until: quietUntil })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+    const { member, sent } = await recordReminder(trx, { kind: 'invoice', id: inv.id, memberId: inv.member_id, what: `Invoice ${inv.number}` }, actorId, now);
     const profile = await getBillingProfile(trx);
     const amount = formatMoney(due, inv.currency.trim(), 'en-GB');
     await enqueueMailIn(trx, queue, {
@@ -95,28 +107,14 @@ export async function remindInvoice(deps: ReminderDeps, invoiceId: string, actor
         amount,
       }),
     });
-    await audit(trx, actorId, 'reminded', 'Invoice', inv.id, { to: member.email, reminderId: row.id });
-    return { id: row.id, kind: 'invoice', targetId: inv.id, sentTo: member.email, sentAt: now.toISOString(), remindAgainAfter: quietUntil.toISOString() };
+    return sent();
   });
 }
 
 /** Overdue invoices (issued, something due, past their due day in the co-op's time zone), and which are still quiet. */
 export async function overdueInvoices(db: Database, now: Date): Promise<{ id: string; quiet: boolean }[]> {
   const { today } = await coopToday(db, now);
-  const rows = await db
-    .selectFrom('invoice')
-    .select((eb) => [
-      'invoice.id',
-      eb
-        .exists(eb.selectFrom('reminder').select('reminder.id').whereRef('reminder.invoice_id', '=', 'invoice.id').where('reminder.quiet_until', '>', now))
-        .as('quiet'),
-    ])
-    .where('invoice.status', '=', 'issued')
-    .where((eb) => eb(eb('invoice.total_cents', '-', eb('invoice.paid_cents', '+', eb.ref('invoice.credited_cents'))), '>', 0))
-    .where('invoice.due_on', '<', today)
-    .orderBy('invoice.due_on')
-    .orderBy('invoice.id')
-    .execute();
+  const rows = await overdueInvoiceRows(db, today, now);
   return rows.map((r) => ({ id: r.id, quiet: Boolean(r.quiet) }));
 }
 
@@ -149,27 +147,12 @@ export async function remindAllOverdueInvoices(
 export async function remindKeg(deps: ReminderDeps, kegId: string, actorId: string, now: Date): Promise<SentReminder> {
   const { db, queue, config } = deps;
   return inTransaction(db, 'This keg', async (trx) => {
-    const keg = await trx
-      .selectFrom('equipment as e')
-      .innerJoin('keg_whereabouts as kw', 'kw.keg_id', 'e.id')
-      .select(['e.id', 'e.code', 'e.name', 'kw.whereabouts', 'kw.member_id', 'kw.due_at', 'kw.checked_out_at'])
-      .where('e.id', '=', kegId)
-      .where('e.kind', '=', 'keg')
-      .forUpdate()
-      .executeTakeFirst();
+    const keg = await lockKegWithHolder(trx, kegId);
     if (!keg) throw notFound('Keg');
     if (keg.whereabouts !== 'with_member' || !keg.member_id || !keg.due_at || keg.due_at.getTime() >= now.getTime()) {
       throw conflict(`Only a keg overdue back from a member is reminded; ${keg.code} is not overdue.`, { code: 'not_overdue' });
     }
-    const last = await quietReminder(trx, { kegId }, now);
-    if (last) throw tooSoon(`Keg ${keg.code}`, last);
-    const member = await trx.selectFrom('app_user').select(['name', 'email']).where('id', '=', keg.member_id).executeTakeFirstOrThrow();
-    const quietUntil = new Date(now.getTime() + REMINDER_QUIET_MS);
-    const row = await trx
-      .insertInto('reminder')
-      .values({ kind: 'keg', keg_id: keg.id, member_id: keg.member_id, sent_to: member.email, sent_by: actorId, sent_at: now, quiet_until: quietUntil })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+    const { member, sent } = await recordReminder(trx, { kind: 'keg', id: keg.id, memberId: keg.member_id, what: `Keg ${keg.code}` }, actorId, now);
     const { coopName, timeZone } = await coopProfile(trx);
     await enqueueMailIn(trx, queue, {
       to: member.email,
@@ -181,7 +164,6 @@ export async function remindKeg(deps: ReminderDeps, kegId: string, actorId: stri
         keg: { id: keg.id, code: keg.code, name: keg.name, dueAt: keg.due_at, checkedOutAt: keg.checked_out_at },
       }),
     });
-    await audit(trx, actorId, 'reminded', 'Keg', keg.id, { to: member.email, reminderId: row.id });
-    return { id: row.id, kind: 'keg', targetId: keg.id, sentTo: member.email, sentAt: now.toISOString(), remindAgainAfter: quietUntil.toISOString() };
+    return sent();
   });
 }
