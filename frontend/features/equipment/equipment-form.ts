@@ -3,21 +3,22 @@ import type { FieldError, FieldErrors, Path, Resolver, UseFormSetError } from 'r
 import type { z } from 'zod';
 import type { Equipment, EquipmentKind } from '../../../shared/schemas/equipment.ts';
 import { ApiProblem, isApiProblem } from '@/lib/api-client';
-import { fromDisplay, toDisplay, unitLabels, type UnitSystem } from '@/lib/units';
+import { toDisplay, unitLabels, type Quantity, type UnitSystem } from '@/lib/units';
 import { applyProblemToForm } from '@/utils/problem-form';
 
 /**
- * The add and edit forms hold what the person sees and types: numbers in their own units under the API's
- * field names (`capacityLiters`, `attributes.lineLengthM` …). The resolver converts to the API's units
- * (litres, metres, millimetres, kilograms, °C) and validates with the shared schema, so its errors land on
- * the same field names.
+ * The add and edit forms hold the API's values under the API's field names (`capacityLiters`,
+ * `attributes.lineLengthM` …): litres, metres, millimetres, kilograms, °C, kPa gauge. Each number box shows
+ * and takes its quantity in the person's units through the form kit's `UnitNumberField`, which converts only
+ * through `shared/brewing`; the resolver keeps the kind's own attributes and validates with the shared schema,
+ * so its errors land on the same field names.
  */
 export interface AttributeFormValues {
   style?: 'bucket' | 'conical';
   hasValve?: boolean;
   serial?: string;
   lock?: 'ball' | 'pin';
-  /** Rated working pressure: bar or psi on screen, kPa gauge in the API. */
+  /** Rated working pressure: bar or psi on screen, kPa gauge in the form and the API. */
   ratedPressureKpa?: number | null;
   position?: string;
   lineLengthM?: number | null;
@@ -42,10 +43,10 @@ export interface EquipmentFormValues {
   attributes: AttributeFormValues;
 }
 
-type Quantity = keyof typeof toDisplay | 'none';
+type AttributeQuantity = Quantity | 'none';
 
 /** Each kind's attributes with the quantity its number is in (strings and choices are `none`). */
-export const attributeQuantities: Record<EquipmentKind, Partial<Record<keyof AttributeFormValues, Quantity>>> = {
+export const attributeQuantities: Record<EquipmentKind, Partial<Record<keyof AttributeFormValues, AttributeQuantity>>> = {
   fermenter: { style: 'none', hasValve: 'none' },
   keg: { serial: 'none', lock: 'none', ratedPressureKpa: 'pressure' },
   tap: {
@@ -72,47 +73,28 @@ export const defaultAttributes: Record<EquipmentKind, AttributeFormValues> = {
 
 const rounded = (value: number) => Number(value.toFixed(4));
 
-/** An API number → the number shown in the form (rounded to four places). */
-function shown(value: unknown, quantity: Quantity, units: UnitSystem): unknown {
-  if (typeof value !== 'number' || quantity === 'none') return value;
-  return rounded(toDisplay[quantity](value, units));
-}
+/** An empty number box is "not given"; an empty text box stays '' so the schema says what it wants. */
+const given = (value: unknown, quantity: AttributeQuantity) => !(value === null || value === undefined || (value === '' && quantity !== 'none'));
 
-/** A typed number → the API's unit; an untouched value keeps the stored number exactly (no drift through ft or gal). */
-function stored(value: unknown, quantity: Quantity, units: UnitSystem, initial: unknown): unknown {
-  // An empty number box is "not given"; an empty text box stays '' so the schema says what it wants.
-  if (value === null || value === undefined || (value === '' && quantity !== 'none')) return undefined;
-  if (typeof value !== 'number' || quantity === 'none') return value;
-  if (typeof initial === 'number' && shown(initial, quantity, units) === value) return initial;
-  return fromDisplay[quantity](value, units);
-}
-
-/** An item as the edit form starts: in the person's units, every attribute of its kind present. */
-export function formValuesOf(item: Equipment, units: UnitSystem): EquipmentFormValues {
+/** An item as the edit form starts: every attribute of its kind present, numbers in the API's units. */
+export function formValuesOf(item: Equipment): EquipmentFormValues {
   const attributes: AttributeFormValues = { ...defaultAttributes[item.kind] };
-  for (const [key, quantity] of Object.entries(attributeQuantities[item.kind])) {
+  for (const key of Object.keys(attributeQuantities[item.kind])) {
     const value = item.attributes[key];
-    if (value !== undefined) (attributes as Record<string, unknown>)[key] = shown(value, quantity, units);
+    if (value !== undefined) (attributes as Record<string, unknown>)[key] = value;
   }
-  return {
-    kind: item.kind,
-    code: item.code,
-    name: item.name,
-    capacityLiters: item.capacityLiters === null ? null : rounded(toDisplay.volume(item.capacityLiters, units)),
-    notes: item.notes,
-    attributes,
-  };
+  return { kind: item.kind, code: item.code, name: item.name, capacityLiters: item.capacityLiters, notes: item.notes, attributes };
 }
 
-/** The form's values as the API takes them: only the kind's own attributes, in API units. */
-export function toApiValues(values: EquipmentFormValues, units: UnitSystem, initial?: Equipment) {
+/** The form's values as the API takes them: only the kind's own attributes, empty number boxes left out. */
+export function toApiValues(values: EquipmentFormValues) {
   const attributes: Record<string, unknown> = {};
   for (const [key, quantity] of Object.entries(attributeQuantities[values.kind])) {
-    const value = stored((values.attributes as Record<string, unknown>)[key], quantity, units, initial?.attributes[key]);
+    const value = (values.attributes as Record<string, unknown>)[key];
     // An unrecorded line material stays unrecorded.
-    if (value !== undefined && !(key === 'lineMaterial' && value === '')) attributes[key] = value;
+    if (given(value, quantity) && !(key === 'lineMaterial' && value === '')) attributes[key] = value;
   }
-  const capacity = kindHasCapacity(values.kind) ? stored(values.capacityLiters, 'volume', units, initial?.capacityLiters) : undefined;
+  const capacity = kindHasCapacity(values.kind) && given(values.capacityLiters, 'volume') ? values.capacityLiters : undefined;
   return {
     kind: values.kind,
     code: values.code,
@@ -129,7 +111,8 @@ const attributeFieldNames = [...new Set(Object.values(attributeQuantities).flatM
 
 /** An empty required number reads "Enter a number" rather than the schema's type message. */
 function friendlier(errors: FieldErrors<EquipmentFormValues>, values: EquipmentFormValues): FieldErrors<EquipmentFormValues> {
-  const empty = (v: unknown) => v === null || v === undefined;
+  // A box left empty (null) or holding text that is not a number yet (NaN).
+  const empty = (v: unknown) => v === null || v === undefined || Number.isNaN(v);
   const fix = (error: FieldError | undefined, value: unknown) => {
     if (error && error.type === 'invalid_type' && empty(value)) error.message = 'Enter a number';
   };
@@ -143,14 +126,10 @@ function friendlier(errors: FieldErrors<EquipmentFormValues>, values: EquipmentF
  * react-hook-form resolver over a shared schema: converts the form to API values, lets the schema parse them
  * (`TOutput` is what `handleSubmit` hands on, ready to send).
  */
-export function equipmentResolver<TOutput>(
-  schema: z.ZodType<TOutput>,
-  units: UnitSystem,
-  initial?: Equipment,
-): Resolver<EquipmentFormValues, unknown, TOutput> {
+export function equipmentResolver<TOutput>(schema: z.ZodType<TOutput>): Resolver<EquipmentFormValues, unknown, TOutput> {
   const inner = zodResolver(schema as never) as unknown as Resolver<Record<string, unknown>, unknown, TOutput>;
   return async (values, context, options) => {
-    const result = await inner(toApiValues(values, units, initial), context, options as never);
+    const result = await inner(toApiValues(values), context, options as never);
     if (Object.keys(result.errors).length) return { values: {}, errors: friendlier(result.errors, values) };
     return result;
   };
@@ -191,7 +170,7 @@ const choiceLabels: Record<string, string> = { bucket: 'Bucket', conical: 'Conic
 
 /** One stored attribute as the item page shows it, in the person's units. */
 export function formatAttribute(kind: EquipmentKind, key: string, value: unknown, units: UnitSystem): string {
-  const quantity = (attributeQuantities[kind] as Record<string, Quantity | undefined>)[key];
+  const quantity = (attributeQuantities[kind] as Record<string, AttributeQuantity | undefined>)[key];
   if (typeof value === 'boolean') return value ? 'Yes' : 'No';
   if (typeof value === 'number' && quantity && quantity !== 'none') {
     return `${new Intl.NumberFormat(undefined, { maximumFractionDigits: quantity === 'smallLength' && units === 'us' ? 4 : 2 }).format(rounded(toDisplay[quantity](value, units)))} ${unitLabels[units][quantity]}`;

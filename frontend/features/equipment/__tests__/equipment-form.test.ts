@@ -19,43 +19,34 @@ const tap: Equipment = {
 const resolverOptions = { fields: {}, shouldUseNativeValidation: false } as never;
 
 describe('equipment form values and the API', () => {
-  it('shows a tap line in feet and inches for US units and keeps untouched numbers exact', () => {
-    const values = formValuesOf(tap, 'us');
-    // 3 m ÷ 0.3048 m/ft = 9.8425 ft; 4.8 mm ÷ 25.4 mm/in = 0.189 in (four places).
-    expect(values.attributes).toMatchObject({ lineLengthM: 9.8425, lineInsideDiameterMm: 0.189, riseM: 1.6404, coldRoomTempC: null });
-    const back = toApiValues(values, 'us', tap);
+  it('starts the edit form from the stored values, so an untouched form sends them back exactly', () => {
+    const values = formValuesOf(tap);
+    // The boxes show these in the person's units; the form holds metres and millimetres.
+    expect(values.attributes).toMatchObject({ lineLengthM: 3, lineInsideDiameterMm: 4.8, riseM: 0.5, coldRoomTempC: null });
+    const back = toApiValues(values);
     expect(back.attributes).toEqual(tap.attributes);
     expect(back).not.toHaveProperty('capacityLiters');
   });
 
-  it('converts what was typed back to metres, millimetres and litres', () => {
+  it("sends only the kind's own attributes and leaves empty number boxes out", () => {
     const values: EquipmentFormValues = {
       kind: 'fermenter',
       code: 'f-13',
       name: 'Conical 13',
-      capacityLiters: 15.85, // gal
+      capacityLiters: 60,
       notes: '',
       attributes: { style: 'conical', hasValve: true, serial: 'left over from another kind' },
     };
-    const api = toApiValues(values, 'us');
-    expect(api.capacityLiters).toBeCloseTo(60, 1); // 15.85 gal × 3.785 L/gal
-    // Only the kind's own attributes travel.
+    const api = toApiValues(values);
+    expect(api.capacityLiters).toBe(60);
     expect(api.attributes).toEqual({ style: 'conical', hasValve: true });
-  });
-
-  it("shows a keg's rated pressure in psi or bar and sends kPa", () => {
-    const keg: Equipment = { ...tap, kind: 'keg', code: 'K-001', capacityLiters: 19, attributes: { serial: 'S-1', lock: 'ball', ratedPressureKpa: 896 } };
-    // 896 kPa ÷ 6.894757 kPa/psi = 129.9538 psi; 896 kPa ÷ 100 kPa/bar = 8.96 bar.
-    expect(formValuesOf(keg, 'us').attributes.ratedPressureKpa).toBe(129.9538);
-    expect(formValuesOf(keg, 'metric').attributes.ratedPressureKpa).toBe(8.96);
-    const typed = formValuesOf(keg, 'us');
-    typed.attributes.ratedPressureKpa = 130;
-    expect(toApiValues(typed, 'us', keg).attributes.ratedPressureKpa).toBeCloseTo(896.318, 3); // 130 psi × 6.894757
-    expect(toApiValues(formValuesOf(keg, 'metric'), 'metric', keg).attributes).toEqual(keg.attributes);
+    const keg: Equipment = { ...tap, kind: 'keg', code: 'K-001', capacityLiters: 19, attributes: { serial: 'S-1', lock: 'ball', ratedPressureKpa: null } };
+    expect(toApiValues({ ...formValuesOf(keg), capacityLiters: null }).attributes).toEqual({ serial: 'S-1', lock: 'ball' });
+    expect(toApiValues({ ...formValuesOf(keg), capacityLiters: null })).not.toHaveProperty('capacityLiters');
   });
 
   it("validates with the shared schema and puts its errors on the form's fields", async () => {
-    const resolver = equipmentResolver<CreateEquipmentInput>(createEquipmentSchema, 'metric');
+    const resolver = equipmentResolver<CreateEquipmentInput>(createEquipmentSchema);
     const bad = await resolver(
       {
         kind: 'tap',
@@ -63,13 +54,15 @@ describe('equipment form values and the API', () => {
         name: 'Tap 9',
         capacityLiters: null,
         notes: '',
-        attributes: { position: '', lineLengthM: null, lineInsideDiameterMm: 4.8 },
+        attributes: { position: '', lineLengthM: null, lineInsideDiameterMm: Number.NaN },
       },
       undefined,
       resolverOptions,
     );
     expect(bad.errors.code?.message).toBe('Use a code like F-07 or K-031');
     expect(bad.errors.attributes).toMatchObject({ position: { message: 'Enter the position' }, lineLengthM: { message: 'Enter a number' } });
+    // Text that is not a number yet ("4," is fine, "4,8," is not) reads the same.
+    expect(bad.errors.attributes).toMatchObject({ lineInsideDiameterMm: { message: 'Enter a number' } });
 
     const good = await resolver(
       {

@@ -1,9 +1,9 @@
-import type { UseFormReturn } from 'react-hook-form';
+import type { Path, UseFormReturn } from 'react-hook-form';
 import { lineMaterials } from '../../../../shared/brewing/index.ts';
 import { lineMaterialLabels } from '../../../../shared/cellar/carbonation-planner.ts';
 import type { EquipmentKind } from '../../../../shared/schemas/equipment.ts';
 import { OptionList } from '@/components/form/bound-fields';
-import { NumberField } from '@/components/form/number-field';
+import { UnitNumberField, type NumberKind } from '@/components/form/unit-number-input';
 import { Alert } from '@/components/ui/alert';
 import { InputField, SelectField } from '@/components/ui/field';
 import { Checkbox } from '@/components/ui/input';
@@ -19,8 +19,32 @@ export interface AttributeFieldsProps {
 }
 
 const grid = 'grid gap-4 sm:grid-cols-2';
-/** A number box whose empty value reads as "not given" rather than 0. */
-const decimal = { type: 'number', step: 'any', inputMode: 'decimal', empty: 'null' } as const;
+
+interface AmountFieldProps extends AttributeFieldsProps {
+  name: Path<EquipmentFormValues>;
+  /** What the number measures: its unit follows the person's preference, shown in the label and the box. */
+  kind: NumberKind;
+  label: string;
+  /** Words after the unit in the label ("kg CO2"). */
+  unitOf?: string;
+  hint?: string;
+}
+
+/**
+ * A number box in the person's units (a decimal comma is taken) over a field that holds the API's value;
+ * an empty box is "not given" (null).
+ */
+const AmountField = ({ form, units, name, kind, label, unitOf, hint }: AmountFieldProps) => (
+  <UnitNumberField<EquipmentFormValues>
+    control={form.control}
+    name={name}
+    kind={kind}
+    units={units}
+    apiDigits={4}
+    label={`${label} (${[typeof kind === 'string' ? unitLabels[units][kind] : kind.label, unitOf].filter(Boolean).join(' ')})`}
+    hint={hint}
+  />
+);
 
 export const FermenterAttributeFields = ({ form }: AttributeFieldsProps) => {
   const errors = form.formState.errors.attributes;
@@ -47,12 +71,13 @@ export const KegAttributeFields = ({ form, units }: AttributeFieldsProps) => {
           <option value="ball">Ball lock</option>
           <option value="pin">Pin lock</option>
         </SelectField>
-        <NumberField
+        <AmountField
           form={form}
+          units={units}
           name="attributes.ratedPressureKpa"
-          label={`Rated working pressure (${unitLabels[units].pressure})`}
+          kind="pressure"
+          label="Rated working pressure"
           hint="As stamped on the keg; the carbonation planner will not go above it"
-          {...decimal}
         />
       </div>
       <p className="text-xs text-ink-muted">
@@ -64,7 +89,6 @@ export const KegAttributeFields = ({ form, units }: AttributeFieldsProps) => {
 
 export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
   const errors = form.formState.errors.attributes;
-  const labels = unitLabels[units];
   return (
     <>
       <InputField
@@ -75,8 +99,8 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
         {...form.register('attributes.position')}
       />
       <div className={grid}>
-        <NumberField form={form} name="attributes.lineLengthM" label={`Line length (${labels.length})`} {...decimal} />
-        <NumberField form={form} name="attributes.lineInsideDiameterMm" label={`Line inside diameter (${labels.smallLength})`} {...decimal} />
+        <AmountField form={form} units={units} name="attributes.lineLengthM" kind="length" label="Line length" />
+        <AmountField form={form} units={units} name="attributes.lineInsideDiameterMm" kind="smallLength" label="Line inside diameter" />
         <SelectField
           label="Line material"
           hint="Stainless is sized by its outside diameter"
@@ -86,21 +110,23 @@ export const TapAttributeFields = ({ form, units }: AttributeFieldsProps) => {
           <option value="">Not recorded (taken as vinyl)</option>
           <OptionList values={lineMaterials} labels={lineMaterialLabels} />
         </SelectField>
-        <NumberField
+        <AmountField
           form={form}
+          units={units}
           name="attributes.lineResistanceKpaPerM"
-          label="Line resistance (kPa/m)"
+          kind={{ label: 'kPa/m' }}
+          label="Line resistance"
           hint="Measured or the maker's figure; empty uses the line type's usual figure"
-          {...decimal}
         />
-        <NumberField
+        <AmountField
           form={form}
+          units={units}
           name="attributes.riseM"
-          label={`Rise, keg to faucet (${labels.length})`}
+          kind="length"
+          label="Rise, keg to faucet"
           hint="Negative when the faucet sits below the keg; optional"
-          {...decimal}
         />
-        <NumberField form={form} name="attributes.coldRoomTempC" label={`Cold room temperature (${labels.temperature})`} hint="Optional" {...decimal} />
+        <AmountField form={form} units={units} name="attributes.coldRoomTempC" kind="temperature" label="Cold room temperature" hint="Optional" />
       </div>
       <p className="text-xs text-ink-muted">
         The cold room is closed: CO2 displaces air. Keep it ventilated and heed the CO2 alarm. Local codes and licensed practice come first.
@@ -114,8 +140,8 @@ export const Co2CylinderAttributeFields = ({ form, units }: AttributeFieldsProps
   return (
     <>
       <div className={grid}>
-        <NumberField form={form} name="attributes.sizeKg" label={`Size (${unitLabels[units].mass} CO2)`} {...decimal} />
-        <NumberField form={form} name="attributes.fillPercent" label="Fill (%)" {...decimal} step="1" min="0" max="100" inputMode="numeric" />
+        <AmountField form={form} units={units} name="attributes.sizeKg" kind="mass" label="Size" unitOf="CO2" />
+        <AmountField form={form} units={units} name="attributes.fillPercent" kind={{ label: '%' }} label="Fill" />
         <InputField label="Hydrostatic test due" error={errors?.hydroTestDue?.message} type="date" {...form.register('attributes.hydroTestDue')} />
       </div>
       <Alert tone="info" title="Safety">
@@ -148,7 +174,7 @@ export const EquipmentAttributeFields = ({ kind, ...props }: AttributeFieldsProp
 
 /**
  * What the add and edit forms share: code and name, the capacity of a kind that holds beer, the kind's own
- * details and the notes, with numbers in the person's units (the form's resolver converts them).
+ * details and the notes, with numbers in the person's units (each box converts what is typed to the API's unit).
  */
 export const EquipmentRegistryFields = ({ kind, codeHint, ...props }: AttributeFieldsProps & { kind: EquipmentKind; codeHint?: string }) => {
   const { form, units } = props;
@@ -159,7 +185,7 @@ export const EquipmentRegistryFields = ({ kind, codeHint, ...props }: AttributeF
         <InputField label="Code" hint={codeHint} error={errors.code?.message} autoComplete="off" {...form.register('code')} />
         <InputField label="Name" error={errors.name?.message} autoComplete="off" {...form.register('name')} />
       </div>
-      {kindHasCapacity(kind) ? <NumberField form={form} name="capacityLiters" label={`Capacity (${unitLabels[units].volume})`} {...decimal} /> : null}
+      {kindHasCapacity(kind) ? <AmountField form={form} units={units} name="capacityLiters" kind="volume" label="Capacity" /> : null}
       <EquipmentAttributeFields kind={kind} {...props} />
       <InputField label="Notes" error={errors.notes?.message} {...form.register('notes')} />
     </>

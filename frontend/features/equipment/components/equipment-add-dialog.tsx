@@ -41,7 +41,7 @@ export const EquipmentAddDialog = ({ open, onClose, onCreated }: { open: boolean
 
 const AddForm = ({ mutation, onDone }: { mutation: ReturnType<typeof useCreateEquipment>; onDone: (item: Equipment) => void }) => {
   const units = useUnits();
-  const resolver = useMemo(() => equipmentResolver<CreateEquipmentInput>(createEquipmentSchema, units.units), [units.units]);
+  const resolver = useMemo(() => equipmentResolver<CreateEquipmentInput>(createEquipmentSchema), []);
   const { error, run } = useActionError();
   const form = useForm<EquipmentFormValues, unknown, CreateEquipmentInput>({
     resolver,

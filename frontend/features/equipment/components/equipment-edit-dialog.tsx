@@ -30,8 +30,8 @@ export const EquipmentEditDialog = ({ item, open, onClose }: { item: Equipment; 
 
 const EditForm = ({ item, mutation, onDone }: { item: Equipment; mutation: ReturnType<typeof useUpdateEquipment>; onDone: () => void }) => {
   const units = useUnits();
-  const resolver = useMemo(() => equipmentResolver<EditOutput>(editSchemaFor(item), units.units, item), [item, units.units]);
-  const form = useForm<EquipmentFormValues, unknown, EditOutput>({ resolver, defaultValues: formValuesOf(item, units.units) });
+  const resolver = useMemo(() => equipmentResolver<EditOutput>(editSchemaFor(item)), [item]);
+  const form = useForm<EquipmentFormValues, unknown, EditOutput>({ resolver, defaultValues: formValuesOf(item) });
   const { error, run } = useActionError();
   const onSubmit = form.handleSubmit((values) =>
     run(async () => {
