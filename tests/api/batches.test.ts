@@ -153,6 +153,31 @@ describe('the batches list', () => {
       status: 'fermenting',
     });
   });
+
+  it('sorts by the latest reading (batches without one last) and by owner, counting every batch that matches', async () => {
+    const early = await newBatch(member, { name: 'Sorted early reading' });
+    const late = await newBatch(member, { name: 'Sorted late reading' });
+    await newBatch(member, { name: 'Sorted no reading' });
+    await member.post(`/api/batches/${early.id}/readings`, { takenAt: '2026-09-01T09:00:00Z', gravity: 1.05, unit: 'sg' });
+    await member.post(`/api/batches/${late.id}/readings`, { takenAt: '2026-09-03T09:00:00Z', gravity: 1.05, unit: 'sg' });
+    const byReading = await member.get('/api/batches?q=Sorted&sort=lastReadingAt&order=desc&pageSize=2&page=1');
+    expect(byReading.body.total).toBe(3);
+    expect(byReading.body.items.map((i: { name: string }) => i.name)).toEqual(['Sorted late reading', 'Sorted early reading']);
+    const rest = await member.get('/api/batches?q=Sorted&sort=lastReadingAt&order=desc&pageSize=2&page=2');
+    expect(rest.body.items).toMatchObject([{ name: 'Sorted no reading', lastReadingAt: null, readingsCount: 0, og: null }]);
+
+    const byOwner = await brewer.get('/api/batches?sort=owner&order=desc&pageSize=100');
+    const ownerNames = byOwner.body.items.map((i: { ownerName: string }) => i.ownerName);
+    expect(ownerNames).toEqual([...ownerNames].sort((a: string, b: string) => b.localeCompare(a, 'en', { sensitivity: 'base' }) || 0));
+    expect(byOwner.body.total).toBe(
+      (
+        await ctx.db
+          .selectFrom('batch')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .executeTakeFirstOrThrow()
+      ).n,
+    );
+  });
 });
 
 describe('production records', () => {

@@ -1,7 +1,7 @@
 import { sql, type Insertable, type Updateable } from 'kysely';
 import type { BatchListQuery } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
-import { containsPattern, paginate } from '../../lib/paginate.ts';
+import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import type { BatchTable } from '../../db/tables/batches.ts';
 import { bookingSummaryColumns, bookingWithVessel } from '../calendar/calendar-feed.repository.ts';
 
@@ -30,19 +30,20 @@ export async function batchById(db: Database, id: string) {
   return db.selectFrom('batch').select(batchColumns).where('batch.id', '=', id).executeTakeFirst();
 }
 
+/** The latest reading (time and gravity) of the batch whose id is the column `batchId`, to join laterally as `last_reading`. */
+function lastReadingOf(db: Database, batchId: string) {
+  return db
+    .selectFrom('reading')
+    .select(['reading.taken_at', 'reading.gravity_sg'])
+    .where('reading.batch_id', '=', sql.ref<string>(batchId))
+    .orderBy('reading.taken_at', 'desc')
+    .limit(1)
+    .as('last_reading');
+}
+
 /** Batches, each with its latest reading as `last_reading` (time and gravity; null without readings). */
 export function batchesWithLastReading(db: Database) {
-  return db.selectFrom('batch').leftJoinLateral(
-    (eb) =>
-      eb
-        .selectFrom('reading')
-        .select(['reading.taken_at', 'reading.gravity_sg'])
-        .whereRef('reading.batch_id', '=', 'batch.id')
-        .orderBy('reading.taken_at', 'desc')
-        .limit(1)
-        .as('last_reading'),
-    (join) => join.onTrue(),
-  );
+  return db.selectFrom('batch').leftJoinLateral(lastReadingOf(db, 'batch.id'), (join) => join.onTrue());
 }
 
 export async function ownerName(db: Database, ownerId: string): Promise<string | undefined> {
@@ -84,52 +85,74 @@ export async function updateBatchRow(trx: Database, id: string, values: Updateab
   return trx.updateTable('batch').set(values).where('id', '=', id).returning(returnedColumns).executeTakeFirstOrThrow();
 }
 
-const sortColumns = {
-  name: sql`batch.name`,
-  style: sql`batch.style`,
-  status: sql`batch.status`,
-  createdAt: sql`batch.created_at`,
-  volumeLiters: sql`batch.volume_liters`,
-  lastReadingAt: sql`last_reading.taken_at`,
-  owner: sql`app_user.name`,
+/** The columns a batches page may be sorted by, as the page's inner query names them (`lastReadingAt` is the lateral's). */
+const pageSort = {
+  name: 'name',
+  style: 'style',
+  status: 'status',
+  createdAt: 'created_at',
+  volumeLiters: 'volume_liters',
+  owner: 'owner_name',
 } as const;
+const outerSort = {
+  ...(Object.fromEntries(Object.entries(pageSort).map(([k, v]) => [k, `b.${v}`])) as { [K in keyof typeof pageSort]: string }),
+  lastReadingAt: 'last_reading.taken_at',
+};
 
-/** One page of batches (only `ownerId`'s when given) with their owner, first and latest gravity and count of readings. */
+/**
+ * One page of batches (only `ownerId`'s when given) with their owner, first and latest gravity and count of readings.
+ * The count reads `batch` alone. The page sorts batches with their owner in an inner query, so its order carries
+ * through the lateral lookups and the limit stops them at the page: each reading figure is looked up only for the
+ * batches shown, through `reading_batch_taken_at_key` (sorting by the latest reading needs it for every batch).
+ */
 export async function batchPage(db: Database, q: BatchListQuery, ownerId: string | undefined) {
-  let base = batchesWithLastReading(db).innerJoin('app_user', 'app_user.id', 'batch.owner_id');
+  let base = db.selectFrom('batch');
   if (ownerId) base = base.where('batch.owner_id', '=', ownerId);
   if (q.ownerId) base = base.where('batch.owner_id', '=', q.ownerId);
   if (q.status) base = base.where('batch.status', '=', q.status);
   if (q.q) {
     const like = containsPattern(q.q);
-    base = base.where((eb) => eb.or([eb('batch.name', 'ilike', like), eb('batch.style', 'ilike', like), eb('app_user.name', 'ilike', like)]));
+    base = base.where((eb) =>
+      eb.or([
+        eb('batch.name', 'ilike', like),
+        eb('batch.style', 'ilike', like),
+        eb('batch.owner_id', 'in', eb.selectFrom('app_user').select('app_user.id').where('app_user.name', 'ilike', like)),
+      ]),
+    );
   }
   return paginate(
     base,
-    (qb) =>
-      qb
-        .select([
-          ...batchColumns,
-          'app_user.name as owner_name',
-          'last_reading.taken_at as last_reading_at',
-          'last_reading.gravity_sg as current_gravity',
-          (eb) =>
-            eb
-              .selectFrom('reading')
-              .select('reading.gravity_sg')
-              .whereRef('reading.batch_id', '=', 'batch.id')
-              .orderBy('reading.taken_at', 'asc')
-              .limit(1)
-              .as('og'),
-          (eb) =>
-            eb
-              .selectFrom('reading')
-              .select((e) => e.fn.countAll<number>().as('n'))
-              .whereRef('reading.batch_id', '=', 'batch.id')
-              .as('readings_count'),
-        ])
-        .orderBy(sortColumns[q.sort], (ob) => (q.order === 'desc' ? ob.desc().nullsLast() : ob.asc().nullsLast()))
-        .orderBy('batch.id'),
+    (qb) => {
+      let sorted = qb.innerJoin('app_user', 'app_user.id', 'batch.owner_id').select([...batchColumns, 'app_user.name as owner_name']);
+      if (q.sort !== 'lastReadingAt') sorted = orderByAllowed(sorted, pageSort, { sort: q.sort, order: q.order });
+      return orderByAllowed(
+        db
+          .selectFrom(sorted.as('b'))
+          .leftJoinLateral(lastReadingOf(db, 'b.id'), (join) => join.onTrue())
+          .selectAll('b')
+          .select([
+            'last_reading.taken_at as last_reading_at',
+            'last_reading.gravity_sg as current_gravity',
+            (eb) =>
+              eb
+                .selectFrom('reading')
+                .select('reading.gravity_sg')
+                .whereRef('reading.batch_id', '=', 'b.id')
+                .orderBy('reading.taken_at', 'asc')
+                .limit(1)
+                .as('og'),
+            (eb) =>
+              eb
+                .selectFrom('reading')
+                .select((e) => e.fn.countAll<number>().as('n'))
+                .whereRef('reading.batch_id', '=', 'b.id')
+                .as('readings_count'),
+          ]),
+        outerSort,
+        q,
+        'b.id',
+      );
+    },
     q,
   );
 }
