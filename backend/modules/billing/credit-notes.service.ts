@@ -1,14 +1,15 @@
-import { sql } from 'kysely';
 import { splitGross } from '../../../shared/billing/money.ts';
 import type { RefundInput, VoidInvoiceInput } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, unprocessable } from '../../lib/http-problem.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
-import { findCreditNote } from './credit-notes.repository.ts';
+import { creditedSoFar, findCreditNote, insertCreditNote, insertCreditNoteLines } from './credit-notes.repository.ts';
+import { addCredited, lineTaxRates, updateInvoice } from './invoice-commands.repository.ts';
 import { lockInvoice, recordPayment, settle } from './invoice-commands.service.ts';
 import { renderCreditNotePdf } from './invoice-pdf.ts';
 import { coopProfile } from '../settings/settings.service.ts';
+import { invoiceLines } from './invoice-queries.repository.ts';
 import { detailAsOf } from './invoice-queries.service.ts';
 import { takeNumber } from './numbering.ts';
 
@@ -26,44 +27,34 @@ async function issueCreditNote(
   const subtotal = args.lines.reduce((s, l) => s + l.amountCents, 0);
   const tax = args.lines.reduce((s, l) => s + l.taxCents, 0);
   const { number, seq, year } = await takeNumber(trx, 'credit_note', Number(args.today.slice(0, 4)));
-  const note = await trx
-    .insertInto('credit_note')
-    .values({
-      number,
-      number_year: year,
-      number_seq: seq,
-      invoice_id: inv.id,
-      member_id: inv.member_id,
-      kind: args.kind,
-      reason: args.reason,
-      issued_on: args.today,
-      currency: inv.currency,
-      subtotal_cents: subtotal,
-      tax_cents: tax,
-      total_cents: subtotal + tax,
-      created_by: actorId,
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await trx
-    .insertInto('credit_note_line')
-    .values(
-      args.lines.map((l, i) => ({
-        credit_note_id: note.id,
-        position: i + 1,
-        invoice_line_id: l.invoiceLineId,
-        description: l.description,
-        amount_cents: l.amountCents,
-        tax_rate_bp: l.taxRateBp,
-        tax_cents: l.taxCents,
-      })),
-    )
-    .execute();
-  await trx
-    .updateTable('invoice')
-    .set({ credited_cents: sql`credited_cents + ${subtotal + tax}`, updated_at: new Date() })
-    .where('id', '=', inv.id)
-    .execute();
+  const note = await insertCreditNote(trx, {
+    number,
+    number_year: year,
+    number_seq: seq,
+    invoice_id: inv.id,
+    member_id: inv.member_id,
+    kind: args.kind,
+    reason: args.reason,
+    issued_on: args.today,
+    currency: inv.currency,
+    subtotal_cents: subtotal,
+    tax_cents: tax,
+    total_cents: subtotal + tax,
+    created_by: actorId,
+  });
+  await insertCreditNoteLines(
+    trx,
+    args.lines.map((l, i) => ({
+      credit_note_id: note.id,
+      position: i + 1,
+      invoice_line_id: l.invoiceLineId,
+      description: l.description,
+      amount_cents: l.amountCents,
+      tax_rate_bp: l.taxRateBp,
+      tax_cents: l.taxCents,
+    })),
+  );
+  await addCredited(trx, inv.id, subtotal + tax);
   await audit(trx, actorId, 'credit_note_issued', 'Invoice', inv.id, { creditNote: number, kind: args.kind, totalCents: subtotal + tax });
   return note.id;
 }
@@ -81,7 +72,7 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
   if (inv.status !== 'draft') {
     const remaining = inv.total_cents - inv.credited_cents;
     if (remaining > 0) {
-      const lines = await trx.selectFrom('invoice_line').selectAll().where('invoice_id', '=', invoiceId).orderBy('position').execute();
+      const lines = await invoiceLines(trx, invoiceId);
       const cnLines = lines.map((l): { invoiceLineId: string | null; description: string; amountCents: number; taxRateBp: number; taxCents: number } => ({
         invoiceLineId: l.id,
         description: `${l.description} — ${l.source_label}`,
@@ -90,11 +81,7 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
         taxCents: l.tax_cents,
       }));
       if (inv.credited_cents > 0) {
-        const earlier = await trx
-          .selectFrom('credit_note')
-          .select((eb) => [eb.fn.sum<number>('subtotal_cents').as('subtotal'), eb.fn.sum<number>('tax_cents').as('tax')])
-          .where('invoice_id', '=', invoiceId)
-          .executeTakeFirstOrThrow();
+        const earlier = await creditedSoFar(trx, invoiceId);
         cnLines.push({
           invoiceLineId: null,
           description: 'Less credit notes already issued on this invoice',
@@ -106,11 +93,7 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
       creditNoteId = await issueCreditNote(trx, inv, { kind: 'void', reason: input.reason, today, lines: cnLines }, actorId);
     }
   }
-  await trx
-    .updateTable('invoice')
-    .set({ status: 'void', voided_at: new Date(), void_reason: input.reason, updated_at: new Date() })
-    .where('id', '=', invoiceId)
-    .execute();
+  await updateInvoice(trx, invoiceId, { status: 'void', voided_at: new Date(), void_reason: input.reason });
   await audit(trx, actorId, 'voided', 'Invoice', invoiceId, { reason: input.reason, creditNoteId });
   if (creditNoteId && input.refundMethod && inv.paid_cents > 0) {
     await recordPayment(
@@ -140,7 +123,7 @@ export async function refundInvoice(trx: Database, invoiceId: string, input: Req
       { path: 'amountCents', message: `At most ${inv.paid_cents} cents were paid` },
     ]);
   }
-  const rates = await trx.selectFrom('invoice_line').select('tax_rate_bp').distinct().where('invoice_id', '=', invoiceId).execute();
+  const rates = await lineTaxRates(trx, invoiceId);
   const taxedRates = [...new Set(rates.map((r) => r.tax_rate_bp))];
   if (taxedRates.length > 1) {
     throw unprocessable('This invoice has lines at several tax rates; void it and bill again instead of a partial credit.');

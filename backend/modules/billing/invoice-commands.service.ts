@@ -1,4 +1,3 @@
-import { sql } from 'kysely';
 import { addDays } from '../../../shared/billing/dates.ts';
 import type { Payment, PaymentMethod } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
@@ -7,36 +6,31 @@ import { conflict, notFound, unprocessable } from '../../lib/http-problem.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
 import { coopToday, getBillingProfile } from './billing-profile.service.ts';
 import type { PricedCharge } from './charges/index.ts';
+import {
+  addPaid,
+  insertInvoiceLines,
+  insertInvoiceUnlessExists,
+  insertPayment,
+  lastLinePosition,
+  lockInvoiceRow,
+  recomputeTotals,
+  settleStatus,
+  updateInvoice,
+} from './invoice-commands.repository.ts';
 import { toPayment } from './invoice-queries.service.ts';
 import { takeNumber } from './numbering.ts';
 
 /** Locks an invoice row for the rest of the transaction. */
 export async function lockInvoice(trx: Database, id: string) {
   if (!isUuid(id)) throw notFound('Invoice');
-  const row = await trx.selectFrom('invoice').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
+  const row = await lockInvoiceRow(trx, id);
   if (!row) throw notFound('Invoice');
   return row;
 }
 
-async function recomputeTotals(trx: Database, invoiceId: string) {
-  await sql`update invoice set
-      subtotal_cents = t.subtotal, tax_cents = t.tax, total_cents = t.subtotal + t.tax, updated_at = now()
-    from (select coalesce(sum(amount_cents), 0)::int as subtotal, coalesce(sum(tax_cents), 0)::int as tax
-          from invoice_line where invoice_id = ${invoiceId}) t
-    where invoice.id = ${invoiceId}`.execute(trx);
-}
-
 /** Moves an issued invoice to paid when nothing is left to pay, and back when a correction reopens it. */
 export async function settle(trx: Database, invoiceId: string) {
-  await sql`update invoice set
-      status = case when status = 'issued' and total_cents - paid_cents - credited_cents <= 0 then 'paid'
-                    when status = 'paid' and total_cents - paid_cents - credited_cents > 0 then 'issued'
-                    else status end,
-      paid_at = case when status = 'issued' and total_cents - paid_cents - credited_cents <= 0 then now()
-                     when status = 'paid' and total_cents - paid_cents - credited_cents > 0 then null
-                     else paid_at end,
-      updated_at = now()
-    where id = ${invoiceId}`.execute(trx);
+  await settleStatus(trx, invoiceId);
 }
 
 /**
@@ -48,12 +42,7 @@ export async function createInvoice(
   trx: Database,
   args: { runId: string | null; memberId: string; period: string; currency: string; lines: PricedCharge[] },
 ): Promise<string | null> {
-  const created = await trx
-    .insertInto('invoice')
-    .values({ run_id: args.runId, member_id: args.memberId, period: args.period, currency: args.currency })
-    .onConflict((oc) => oc.columns(['member_id', 'period']).doNothing())
-    .returning('id')
-    .executeTakeFirst();
+  const created = await insertInvoiceUnlessExists(trx, { run_id: args.runId, member_id: args.memberId, period: args.period, currency: args.currency });
   if (!created) return null;
   await insertLines(trx, created.id, args.lines, 1);
   await recomputeTotals(trx, created.id);
@@ -61,46 +50,32 @@ export async function createInvoice(
 }
 
 async function insertLines(trx: Database, invoiceId: string, lines: PricedCharge[], firstPosition: number) {
-  if (lines.length === 0) return;
-  const inserted = await trx
-    .insertInto('invoice_line')
-    .values(
-      lines.map((l, i) => ({
-        invoice_id: invoiceId,
-        position: firstPosition + i,
-        item: l.item,
-        description: l.description,
-        source_type: l.sourceType,
-        source_id: l.sourceId,
-        source_label: l.sourceLabel,
-        service_from: l.serviceFrom,
-        service_to: l.serviceTo,
-        quantity: l.quantity,
-        unit: l.unit,
-        unit_price_cents: l.unitPriceCents,
-        amount_cents: l.amountCents,
-        tax_rate_bp: l.taxRateBp,
-        tax_cents: l.taxCents,
-        price_id: l.priceId,
-      })),
-    )
-    .returning(['id', 'source_type', 'source_id'])
-    .execute();
-  for (const line of inserted) {
-    if (line.source_type === 'manual_charge') {
-      await trx.updateTable('manual_charge').set({ invoice_line_id: line.id }).where('id', '=', line.source_id).execute();
-    }
-  }
+  await insertInvoiceLines(
+    trx,
+    lines.map((l, i) => ({
+      invoice_id: invoiceId,
+      position: firstPosition + i,
+      item: l.item,
+      description: l.description,
+      source_type: l.sourceType,
+      source_id: l.sourceId,
+      source_label: l.sourceLabel,
+      service_from: l.serviceFrom,
+      service_to: l.serviceTo,
+      quantity: l.quantity,
+      unit: l.unit,
+      unit_price_cents: l.unitPriceCents,
+      amount_cents: l.amountCents,
+      tax_rate_bp: l.taxRateBp,
+      tax_cents: l.taxCents,
+      price_id: l.priceId,
+    })),
+  );
 }
 
 /** Adds a manual charge to a member's draft invoice (the run has already made it). */
 export async function appendToDraft(trx: Database, invoiceId: string, line: PricedCharge) {
-  const max = await trx
-    .selectFrom('invoice_line')
-    .select((eb) => eb.fn.max('position').as('max'))
-    .where('invoice_id', '=', invoiceId)
-    .executeTakeFirst();
-  await insertLines(trx, invoiceId, [line], Number(max?.max ?? 0) + 1);
+  await insertLines(trx, invoiceId, [line], (await lastLinePosition(trx, invoiceId)) + 1);
   await recomputeTotals(trx, invoiceId);
 }
 
@@ -110,19 +85,14 @@ export async function issueInvoice(trx: Database, invoiceId: string, today: stri
   if (inv.status !== 'draft') throw conflict(`This invoice is ${inv.status}, not a draft.`);
   const profile = await getBillingProfile(trx);
   const { number, seq, year } = await takeNumber(trx, 'invoice', Number(today.slice(0, 4)));
-  await trx
-    .updateTable('invoice')
-    .set({
-      status: 'issued',
-      number,
-      number_year: year,
-      number_seq: seq,
-      issued_on: today,
-      due_on: addDays(today, profile.paymentTermsDays),
-      updated_at: new Date(),
-    })
-    .where('id', '=', invoiceId)
-    .execute();
+  await updateInvoice(trx, invoiceId, {
+    status: 'issued',
+    number,
+    number_year: year,
+    number_seq: seq,
+    issued_on: today,
+    due_on: addDays(today, profile.paymentTermsDays),
+  });
   await settle(trx, invoiceId);
   await audit(trx, actorId, 'issued', 'Invoice', invoiceId, { number });
 }
@@ -144,29 +114,21 @@ export async function recordPayment(
   actorId: string | null,
 ): Promise<Payment> {
   const inv = await lockInvoice(trx, invoiceId);
-  const row = await trx
-    .insertInto('payment')
-    .values({
-      invoice_id: invoiceId,
-      member_id: inv.member_id,
-      method: p.method,
-      amount_cents: p.amountCents,
-      currency: inv.currency,
-      received_on: p.receivedOn,
-      reference: p.reference ?? '',
-      note: p.note ?? '',
-      checkout_session_id: p.checkoutSessionId ?? null,
-      credit_note_id: p.creditNoteId ?? null,
-      recorded_by: actorId,
-      overpaid_cents: p.overpaidCents ?? 0,
-    })
-    .returningAll()
-    .executeTakeFirstOrThrow();
-  await trx
-    .updateTable('invoice')
-    .set({ paid_cents: sql`paid_cents + ${p.amountCents - (p.overpaidCents ?? 0)}`, updated_at: new Date() })
-    .where('id', '=', invoiceId)
-    .execute();
+  const row = await insertPayment(trx, {
+    invoice_id: invoiceId,
+    member_id: inv.member_id,
+    method: p.method,
+    amount_cents: p.amountCents,
+    currency: inv.currency,
+    received_on: p.receivedOn,
+    reference: p.reference ?? '',
+    note: p.note ?? '',
+    checkout_session_id: p.checkoutSessionId ?? null,
+    credit_note_id: p.creditNoteId ?? null,
+    recorded_by: actorId,
+    overpaid_cents: p.overpaidCents ?? 0,
+  });
+  await addPaid(trx, invoiceId, p.amountCents - (p.overpaidCents ?? 0));
   await settle(trx, invoiceId);
   await audit(trx, actorId, p.amountCents < 0 ? 'refunded' : 'payment_recorded', 'Invoice', invoiceId, {
     paymentId: row.id,
@@ -201,6 +163,6 @@ export async function issueDraft(db: Database, invoiceId: string, now: Date, act
 }
 
 export async function markSent(trx: Database, invoiceId: string, actorId: string, to: string) {
-  await trx.updateTable('invoice').set({ sent_at: new Date(), updated_at: new Date() }).where('id', '=', invoiceId).execute();
+  await updateInvoice(trx, invoiceId, { sent_at: new Date() });
   await audit(trx, actorId, 'sent', 'Invoice', invoiceId, { to });
 }

@@ -4,6 +4,7 @@ import { conflict } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
 import { invoiceMail } from '../mail/templates/invoice.ts';
 import { coopToday } from './billing-profile.service.ts';
+import { lockInvoiceStatus } from './invoice-commands.repository.ts';
 import { invoicePdfFilename, renderInvoicePdf } from './invoice-pdf.ts';
 import { coopProfile } from '../settings/settings.service.ts';
 import { getDetail, issueInvoice, markSent } from './invoices.service.ts';
@@ -15,7 +16,7 @@ import { getDetail, issueInvoice, markSent } from './invoices.service.ts';
 export async function sendInvoice({ db, config, queue, clock }: Deps, invoiceId: string, actorId: string) {
   const now = clock.now();
   await db.transaction().execute(async (trx) => {
-    const row = await trx.selectFrom('invoice').select('status').where('id', '=', invoiceId).forUpdate().executeTakeFirstOrThrow();
+    const row = await lockInvoiceStatus(trx, invoiceId);
     if (row.status === 'void') throw conflict('A void invoice is not sent; its credit note replaces it.');
     if (row.status === 'draft') {
       const { today } = await coopToday(trx, now);

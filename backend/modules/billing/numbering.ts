@@ -1,5 +1,5 @@
-import { sql } from 'kysely';
 import type { Database } from '../../db/database.ts';
+import { bumpCounter } from './invoice-commands.repository.ts';
 
 export type NumberSeries = 'invoice' | 'credit_note';
 const prefixes: Record<NumberSeries, string> = { invoice: 'INV', credit_note: 'CN' };
@@ -11,12 +11,6 @@ const prefixes: Record<NumberSeries, string> = { invoice: 'INV', credit_note: 'C
  * per year with no gaps and no duplicates. Call inside the transaction that uses the number.
  */
 export async function takeNumber(trx: Database, series: NumberSeries, year: number): Promise<{ number: string; seq: number; year: number }> {
-  const row = await trx
-    .insertInto('document_number_counter')
-    .values({ series, year, last_value: 1 })
-    .onConflict((oc) => oc.columns(['series', 'year']).doUpdateSet({ last_value: sql`document_number_counter.last_value + 1` }))
-    .returning('last_value')
-    .executeTakeFirstOrThrow();
-  const seq = row.last_value;
+  const seq = await bumpCounter(trx, series, year);
   return { number: `${prefixes[series]}-${year}-${String(seq).padStart(4, '0')}`, seq, year };
 }

@@ -72,3 +72,38 @@ export async function markRefunded(trx: Database, paymentId: string, refund: { r
     .where('id', '=', paymentId)
     .execute();
 }
+
+/** A recorded checkout session, locked for the rest of the transaction, or undefined when it is not one of ours. */
+export function lockSession(trx: Database, sessionId: string) {
+  return trx.selectFrom('checkout_session').selectAll().where('id', '=', sessionId).forUpdate().executeTakeFirst();
+}
+
+/** A checkout session's invoice and state, or undefined when it is not one of ours. */
+export function sessionState(db: Database, sessionId: string) {
+  return db.selectFrom('checkout_session').select(['invoice_id', 'status']).where('id', '=', sessionId).executeTakeFirst();
+}
+
+/** The payment booked for a checkout session, or undefined when there is none yet. */
+export function paymentOfSession(db: Database, sessionId: string) {
+  return db.selectFrom('payment').select('id').where('checkout_session_id', '=', sessionId).executeTakeFirst();
+}
+
+/** Marks a checkout session paid, whatever state it was in here. */
+export async function completeSession(trx: Database, sessionId: string, now: Date): Promise<void> {
+  await trx.updateTable('checkout_session').set({ status: 'complete', completed_at: now }).where('id', '=', sessionId).execute();
+}
+
+/** Takes a provider event's id; undefined when it was taken before (a replay or a concurrent duplicate, which waits here). */
+export function takeProviderEvent(trx: Database, event: { id: string; type: string }) {
+  return trx
+    .insertInto('payment_event')
+    .values({ event_id: event.id, type: event.type, outcome: 'processing' })
+    .onConflict((oc) => oc.column('event_id').doNothing())
+    .returning('event_id')
+    .executeTakeFirst();
+}
+
+/** Writes down what handling a provider event came to. */
+export async function setEventOutcome(trx: Database, eventId: string, result: { outcome: string; invoiceId: string | null }): Promise<void> {
+  await trx.updateTable('payment_event').set({ outcome: result.outcome, invoice_id: result.invoiceId }).where('event_id', '=', eventId).execute();
+}

@@ -5,8 +5,10 @@ import { audit } from '../../lib/audit.ts';
 import { badRequest } from '../../lib/http-problem.ts';
 import { isUuid } from '../../lib/uuid-params.ts';
 import { coopToday } from './billing-profile.service.ts';
+import { closeOpenSession, insertSession, invoiceForCheckout } from './checkout.repository.ts';
 import { lockInvoice, recordPayment } from './invoice-commands.service.ts';
 import type { CheckoutSession, ProviderEvent } from './payment-provider.ts';
+import { completeSession, lockSession, paymentOfSession, sessionState, setEventOutcome, takeProviderEvent } from './payments.repository.ts';
 import { queueReceipt } from './receipts.service.ts';
 
 /**
@@ -23,11 +25,11 @@ export async function applyPaidSession(
   now: Date,
   queue: PgBoss,
 ): Promise<{ outcome: string; invoiceId: string | null }> {
-  let known = await trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
+  let known = await lockSession(trx, session.id);
   if (!known && session.payment_status === 'paid') known = await adoptSession(trx, session);
   if (!known) return { outcome: 'unknown_session', invoiceId: null };
   if (session.payment_status !== 'paid') return { outcome: `not_paid:${session.payment_status}`, invoiceId: known.invoice_id };
-  const already = await trx.selectFrom('payment').select('id').where('checkout_session_id', '=', session.id).executeTakeFirst();
+  const already = await paymentOfSession(trx, session.id);
   if (already) return { outcome: 'already_recorded', invoiceId: known.invoice_id };
   const amount = session.amount_total ?? known.amount_cents;
   if ((session.currency ?? '').toUpperCase() !== known.currency.trim().toUpperCase()) {
@@ -57,7 +59,7 @@ export async function applyPaidSession(
     },
     null,
   );
-  await trx.updateTable('checkout_session').set({ status: 'complete', completed_at: now }).where('id', '=', session.id).execute();
+  await completeSession(trx, session.id, now);
   await queueReceipt(trx, queue, payment.id);
   if (overpaid > 0) {
     await audit(trx, null, 'overpayment_received', 'Invoice', known.invoice_id, { sessionId: session.id, amountCents: amount, overpaidCents: overpaid });
@@ -73,11 +75,11 @@ export async function applyPaidSession(
 async function adoptSession(trx: Database, session: CheckoutSession) {
   const invoiceId = session.client_reference_id;
   if (!invoiceId || session.metadata?.invoiceId !== invoiceId || !isUuid(invoiceId)) return undefined;
-  const inv = await trx.selectFrom('invoice').select(['id', 'currency']).where('id', '=', invoiceId).executeTakeFirst();
+  const inv = await invoiceForCheckout(trx, invoiceId);
   if (!inv || (session.currency ?? '').toUpperCase() !== inv.currency.trim().toUpperCase() || !session.amount_total) return undefined;
-  await trx
-    .insertInto('checkout_session')
-    .values({
+  await insertSession(
+    trx,
+    {
       id: session.id,
       invoice_id: inv.id,
       amount_cents: session.amount_total,
@@ -85,10 +87,10 @@ async function adoptSession(trx: Database, session: CheckoutSession) {
       url: session.url ?? '',
       status: 'complete',
       created_by: null,
-    })
-    .onConflict((oc) => oc.column('id').doNothing())
-    .execute();
-  return trx.selectFrom('checkout_session').selectAll().where('id', '=', session.id).forUpdate().executeTakeFirst();
+    },
+    { unlessKnown: true },
+  );
+  return lockSession(trx, session.id);
 }
 
 const sessionEvents = new Set(['checkout.session.completed', 'checkout.session.async_payment_succeeded', 'checkout.session.expired']);
@@ -122,33 +124,22 @@ function checkEventShape(event: ProviderEvent): void {
 export async function handleProviderEvent(db: Database, event: ProviderEvent, now: Date, queue: PgBoss): Promise<{ duplicate: boolean; outcome: string }> {
   checkEventShape(event);
   return db.transaction().execute(async (trx) => {
-    const fresh = await trx
-      .insertInto('payment_event')
-      .values({ event_id: event.id, type: event.type, outcome: 'processing' })
-      .onConflict((oc) => oc.column('event_id').doNothing())
-      .returning('event_id')
-      .executeTakeFirst();
+    const fresh = await takeProviderEvent(trx, event);
     if (!fresh) return { duplicate: true, outcome: 'duplicate' };
     let result: { outcome: string; invoiceId: string | null } = { outcome: 'ignored', invoiceId: null };
     if (event.type === 'checkout.session.completed' || event.type === 'checkout.session.async_payment_succeeded') {
       result = await applyPaidSession(trx, event.data.object, now, queue);
     } else if (event.type === 'checkout.session.expired') {
       const s = event.data.object;
-      const updated = await trx
-        .updateTable('checkout_session')
-        .set({ status: 'expired' })
-        .where('id', '=', s.id)
-        .where('status', '=', 'open')
-        .returning('invoice_id')
-        .executeTakeFirst();
+      const updated = await closeOpenSession(trx, s.id, 'expired', now);
       if (updated) result = { outcome: 'expired', invoiceId: updated.invoice_id };
       else {
         // Already closed here (paid, or expired by us): an expiry arriving late changes nothing.
-        const known = await trx.selectFrom('checkout_session').select(['invoice_id', 'status']).where('id', '=', s.id).executeTakeFirst();
+        const known = await sessionState(trx, s.id);
         result = known ? { outcome: `already_${known.status}`, invoiceId: known.invoice_id } : { outcome: 'unknown_session', invoiceId: null };
       }
     }
-    await trx.updateTable('payment_event').set({ outcome: result.outcome, invoice_id: result.invoiceId }).where('event_id', '=', event.id).execute();
+    await setEventOutcome(trx, event.id, result);
     if (result.invoiceId) await audit(trx, null, `provider_event:${event.type}`, 'Invoice', result.invoiceId, { eventId: event.id, outcome: result.outcome });
     return { duplicate: false, outcome: result.outcome };
   });

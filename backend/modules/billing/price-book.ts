@@ -1,5 +1,6 @@
 import type { PriceItem } from '../../../shared/schemas/billing.ts';
 import type { Database } from '../../db/database.ts';
+import { priceBookPrices, priceBookTaxRates } from './prices.repository.ts';
 
 export interface PriceRow {
   id: string;
@@ -48,10 +49,7 @@ export class PriceBook {
   }
 
   static async load(db: Database): Promise<PriceBook> {
-    const [prices, taxes] = await Promise.all([
-      db.selectFrom('price').select(['id', 'item', 'band_max_liters', 'unit_cents', 'effective_from']).execute(),
-      db.selectFrom('tax_rate').select(['id', 'rate_bp', 'label', 'effective_from']).execute(),
-    ]);
+    const [prices, taxes] = await Promise.all([priceBookPrices(db), priceBookTaxRates(db)]);
     return new PriceBook(
       prices.map((p) => ({ id: p.id, item: p.item, bandMaxLiters: p.band_max_liters, unitCents: p.unit_cents, effectiveFrom: p.effective_from })),
       taxes.map((t) => ({ id: t.id, rateBp: t.rate_bp, label: t.label, effectiveFrom: t.effective_from })),

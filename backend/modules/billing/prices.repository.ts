@@ -74,3 +74,13 @@ export function lockMemberInvoice(trx: Database, memberId: string, period: strin
 export function findUserId(db: Database, id: string) {
   return db.selectFrom('app_user').select('id').where('id', '=', id).executeTakeFirst();
 }
+
+/** Every price, as the price book reads them. */
+export function priceBookPrices(db: Database) {
+  return db.selectFrom('price').select(['id', 'item', 'band_max_liters', 'unit_cents', 'effective_from']).execute();
+}
+
+/** Every tax rate, as the price book reads them. */
+export function priceBookTaxRates(db: Database) {
+  return db.selectFrom('tax_rate').select(['id', 'rate_bp', 'label', 'effective_from']).execute();
+}
