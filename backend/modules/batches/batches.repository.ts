@@ -156,3 +156,13 @@ export async function batchPage(db: Database, q: BatchListQuery, ownerId: string
     q,
   );
 }
+
+/** What a batch's shelf life depends on: its style and its own shelf life, if set. */
+export function batchShelfLifeRow(db: Database, id: string) {
+  return db.selectFrom('batch').select(['style', 'shelf_life_days']).where('id', '=', id).executeTakeFirstOrThrow();
+}
+
+/** What a batch's gravity figures depend on besides its readings: its status and target FG. */
+export function batchFiguresRow(db: Database, id: string) {
+  return db.selectFrom('batch').select(['status', 'target_fg']).where('id', '=', id).executeTakeFirst();
+}

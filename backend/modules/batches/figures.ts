@@ -2,6 +2,8 @@ import { abv, apparentAttenuation, fermentationForecast, realAttenuation, stable
 import { type BatchDetail, type BatchStatus, type FermentationSettings, type GravityPointDto } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
 import { getSetting } from '../settings/settings.service.ts';
+import { batchFiguresRow } from './batches.repository.ts';
+import { gravityRows } from './readings.repository.ts';
 
 /** The co-op's fermentation settings (setting `fermentation`), completed from the common-practice defaults. */
 export async function loadFermentationSettings(db: Database): Promise<FermentationSettings> {
@@ -146,7 +148,7 @@ export function computeFigures(
 
 /** Loads a batch's readings (time, gravity) in time order. */
 export async function loadGravitySeries(db: Database, batchId: string): Promise<{ time: number; sg: number }[]> {
-  const rows = await db.selectFrom('reading').select(['taken_at', 'gravity_sg']).where('batch_id', '=', batchId).orderBy('taken_at').execute();
+  const rows = await gravityRows(db, batchId);
   return rows.map((r) => ({ time: r.taken_at.getTime(), sg: Number(r.gravity_sg) }));
 }
 
@@ -155,7 +157,7 @@ export async function loadGravitySeries(db: Database, batchId: string): Promise<
  * production records print them).
  */
 export async function batchGravityFigures(db: Database, batchId: string, now: Date) {
-  const batch = await db.selectFrom('batch').select(['status', 'target_fg']).where('id', '=', batchId).executeTakeFirst();
+  const batch = await batchFiguresRow(db, batchId);
   if (!batch) return null;
   const [settings, series] = await Promise.all([loadFermentationSettings(db), loadGravitySeries(db, batchId)]);
   const f = computeFigures(series, batch.status, batch.target_fg, settings, now);

@@ -1,4 +1,3 @@
-import { sql } from 'kysely';
 import type { Actor } from '../../../shared/permissions/roles.ts';
 import type { FermentationSettings, ImportProgressDto, ImportResult } from '../../../shared/schemas/batches.ts';
 import type { Database } from '../../db/database.ts';
@@ -9,6 +8,15 @@ import { fromColumns } from './import-check.ts';
 import { IMPORT_ZIP_LIMITS, type UploadedFile } from './import-file.ts';
 import { importPool, type ImportPool } from './import-pool.ts';
 import { inspectZip } from './import-zip.ts';
+import {
+  deleteImportProgressBefore,
+  importProgressRow,
+  lockBatchReadings,
+  readingTimesMs,
+  rememberImportMapping,
+  rememberedImportMapping,
+  upsertImportProgress,
+} from './readings.repository.ts';
 import { firstReadingOf, insertReadings, renormaliseBrix, startFermentingIfPlanned } from './readings.service.ts';
 
 export { MAX_LISTED_ERRORS, PREVIEW_ROWS } from './import-check.ts';
@@ -40,16 +48,7 @@ function progressWriter(db: Database, req: ImportRequest): Progress {
     // At most a few writes a second, but always the phase changes that end an import.
     if (phase !== 'done' && phase !== 'failed' && now - last < 250 && rowsDone !== 0) return;
     last = now;
-    await db
-      .insertInto('reading_import_progress')
-      .values({ id, user_id: req.actor.id, batch_id: req.batch.id, phase, rows_done: rowsDone, rows_total: rowsTotal, message })
-      .onConflict((oc) =>
-        oc
-          .column('id')
-          .doUpdateSet({ phase, rows_done: rowsDone, rows_total: rowsTotal, message, updated_at: new Date() })
-          .where('reading_import_progress.user_id', '=', req.actor.id),
-      )
-      .execute();
+    await upsertImportProgress(db, { id, userId: req.actor.id, batchId: req.batch.id, phase, rowsDone, rowsTotal, message }, new Date());
   };
 }
 
@@ -64,22 +63,18 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
     if (head.length >= 4 && head[0] === 0x50 && head[1] === 0x4b) inspectZip(head, IMPORT_ZIP_LIMITS);
     // What the file is checked against, looked up here; the file itself is read on an import thread.
     const [remembered, existing, first] = await Promise.all([
-      db.selectFrom('reading_import_mapping').select(['mapping']).where('user_id', '=', req.actor.id).executeTakeFirst(),
-      db
-        .selectFrom('reading')
-        .select(sql<string>`(extract(epoch from taken_at) * 1000)::bigint`.as('ms'))
-        .where('batch_id', '=', req.batch.id)
-        .execute(),
+      rememberedImportMapping(db, req.actor.id),
+      readingTimesMs(db, req.batch.id),
       firstReadingOf(db, req.batch.id),
     ]);
     const prepared = await pool.run(
       {
         file: { bytes: req.file.buffer, originalname: req.file.originalname, mimetype: req.file.mimetype, size: req.file.size },
         mappingField: req.mappingField,
-        rememberedMapping: remembered?.mapping ?? null,
+        rememberedMapping: remembered,
         timeZone: req.timeZone,
         now: req.now.getTime(),
-        existingTimes: existing.map((r) => Number(r.ms)),
+        existingTimes: existing,
         first,
         settings: req.settings,
         dryRun: req.dryRun,
@@ -113,15 +108,11 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
     const imported = await db
       .transaction()
       .execute(async (trx) => {
-        await sql`select pg_advisory_xact_lock(hashtext(${req.batch.id}))`.execute(trx);
+        await lockBatchReadings(trx, req.batch.id);
         const ids = await insertReadings(trx, req.batch.id, normalised, 'import', req.actor.id, (done) => progress('writing', done, normalised.length));
         if (first && normalised.some((n) => n.time < first.time)) await renormaliseBrix(trx, req.batch.id, req.settings);
         await startFermentingIfPlanned(trx, req.batch, req.actor.id, req.now);
-        await trx
-          .insertInto('reading_import_mapping')
-          .values({ user_id: req.actor.id, mapping: JSON.stringify(mapping), headers: prepared.headers })
-          .onConflict((oc) => oc.column('user_id').doUpdateSet({ mapping: JSON.stringify(mapping), headers: prepared.headers, updated_at: new Date() }))
-          .execute();
+        await rememberImportMapping(trx, req.actor.id, mapping, prepared.headers, new Date());
         await audit(trx, req.actor.id, 'readings:imported', 'Batch', req.batch.id, {
           file: req.file.originalname,
           fileType: prepared.fileType,
@@ -145,21 +136,12 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
 
 /** Forget progress rows older than a day. */
 export async function pruneImportProgress(db: Database) {
-  await db
-    .deleteFrom('reading_import_progress')
-    .where('updated_at', '<', new Date(Date.now() - 86_400_000))
-    .execute();
+  await deleteImportProgressBefore(db, new Date(Date.now() - 86_400_000));
 }
 
 /** How far an import of `userId` into `batchId` has got, or undefined when there is no such import. */
 export async function findImportProgress(db: Database, key: { id: string; userId: string; batchId: string }): Promise<ImportProgressDto | undefined> {
-  const p = await db
-    .selectFrom('reading_import_progress')
-    .selectAll()
-    .where('id', '=', key.id)
-    .where('user_id', '=', key.userId)
-    .where('batch_id', '=', key.batchId)
-    .executeTakeFirst();
+  const p = await importProgressRow(db, key);
   if (!p) return undefined;
   return { id: p.id, phase: p.phase, rowsDone: p.rows_done, rowsTotal: p.rows_total, message: p.message, updatedAt: p.updated_at.toISOString() };
 }

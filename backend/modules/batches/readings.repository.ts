@@ -20,6 +20,11 @@ export async function firstReadingRow(db: Database, batchId: string) {
     .executeTakeFirst();
 }
 
+/** The batch's readings (time and gravity) in time order. */
+export function gravityRows(db: Database, batchId: string) {
+  return db.selectFrom('reading').select(['taken_at', 'gravity_sg']).where('batch_id', '=', batchId).orderBy('taken_at').execute();
+}
+
 /** The batch's reading at exactly this time, if any. */
 export async function readingAt(trx: Database, batchId: string, at: Date) {
   return trx.selectFrom('reading').select('id').where('batch_id', '=', batchId).where('taken_at', '=', at).executeTakeFirst();
@@ -128,4 +133,69 @@ export async function readingPage(db: Database, batchId: string, q: z.infer<type
   let base = readingBase(db).where('reading.batch_id', '=', batchId);
   if (q.source) base = base.where('reading.source', '=', q.source);
   return paginate(base, (qb) => orderByAllowed(qb.select(readingColumns), readingSort, q, 'reading.id'), q);
+}
+
+/** The times (epoch milliseconds) the batch already has readings at. */
+export async function readingTimesMs(db: Database, batchId: string): Promise<number[]> {
+  const rows = await db
+    .selectFrom('reading')
+    .select(sql<string>`(extract(epoch from taken_at) * 1000)::bigint`.as('ms'))
+    .where('batch_id', '=', batchId)
+    .execute();
+  return rows.map((r) => Number(r.ms));
+}
+
+/** The column mapping a person's last import used, or null. */
+export async function rememberedImportMapping(db: Database, userId: string): Promise<unknown> {
+  const row = await db.selectFrom('reading_import_mapping').select(['mapping']).where('user_id', '=', userId).executeTakeFirst();
+  return row?.mapping ?? null;
+}
+
+/** Keeps the column mapping and headers of a person's import for their next one. */
+export async function rememberImportMapping(trx: Database, userId: string, mapping: unknown, headers: string[], at: Date): Promise<void> {
+  await trx
+    .insertInto('reading_import_mapping')
+    .values({ user_id: userId, mapping: JSON.stringify(mapping), headers })
+    .onConflict((oc) => oc.column('user_id').doUpdateSet({ mapping: JSON.stringify(mapping), headers, updated_at: at }))
+    .execute();
+}
+
+export interface ImportProgressRow {
+  id: string;
+  userId: string;
+  batchId: string;
+  phase: 'reading' | 'checking' | 'writing' | 'done' | 'failed';
+  rowsDone: number;
+  rowsTotal: number | null;
+  message: string;
+}
+
+/** Writes an import's progress row; only its own user's import is updated. */
+export async function upsertImportProgress(db: Database, p: ImportProgressRow, at: Date): Promise<void> {
+  const { phase, message } = p;
+  await db
+    .insertInto('reading_import_progress')
+    .values({ id: p.id, user_id: p.userId, batch_id: p.batchId, phase, rows_done: p.rowsDone, rows_total: p.rowsTotal, message })
+    .onConflict((oc) =>
+      oc
+        .column('id')
+        .doUpdateSet({ phase, rows_done: p.rowsDone, rows_total: p.rowsTotal, message, updated_at: at })
+        .where('reading_import_progress.user_id', '=', p.userId),
+    )
+    .execute();
+}
+
+export async function deleteImportProgressBefore(db: Database, before: Date): Promise<void> {
+  await db.deleteFrom('reading_import_progress').where('updated_at', '<', before).execute();
+}
+
+/** An import's progress row, only for the user and batch it belongs to. */
+export function importProgressRow(db: Database, key: { id: string; userId: string; batchId: string }) {
+  return db
+    .selectFrom('reading_import_progress')
+    .selectAll()
+    .where('id', '=', key.id)
+    .where('user_id', '=', key.userId)
+    .where('batch_id', '=', key.batchId)
+    .executeTakeFirst();
 }

@@ -1,9 +1,19 @@
-import { sql } from 'kysely';
 import type { Equipment } from '../../../shared/schemas/equipment.ts';
 import type { CylinderView } from '../../../shared/schemas/inspections.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
 import { conflict, unprocessable } from '../../lib/http-problem.ts';
+import {
+  connectedSupply,
+  cylinderCode,
+  cylinderLog,
+  insertCylinderEvent,
+  lockEquipmentRow,
+  lockSupply,
+  setConnected,
+  setRemaining,
+  supplyOf,
+} from './cylinders.repository.ts';
 import { assertInspected, describeBlocks, inspectionBlocks } from './inspections.service.ts';
 
 /**
@@ -16,38 +26,10 @@ import { assertInspected, describeBlocks, inspectionBlocks } from './inspections
 const round3 = (v: number) => Math.round(v * 1000) / 1000;
 const num = (v: unknown) => Number(v ?? 0);
 
-/** A cylinder's supply row, made on first use from its registry size and fill, locked for the caller's transaction. */
-async function lockSupply(trx: Database, cylinderId: string) {
-  await sql`insert into co2_cylinder_supply (cylinder_id, remaining_kg)
-    select e.id, round(coalesce((e.attributes->>'sizeKg')::numeric, 0) * coalesce((e.attributes->>'fillPercent')::numeric, 100) / 100, 3)
-    from equipment e where e.id = ${cylinderId} and e.kind = 'co2_cylinder'
-    on conflict (cylinder_id) do nothing`.execute(trx);
-  return trx.selectFrom('co2_cylinder_supply').selectAll().where('cylinder_id', '=', cylinderId).forUpdate().executeTakeFirstOrThrow();
-}
-
-/** Writes the new contents and keeps the registry's fill percentage in step. */
-async function setRemaining(trx: Database, cylinderId: string, remainingKg: number, now: Date) {
-  await trx.updateTable('co2_cylinder_supply').set({ remaining_kg: remainingKg, updated_at: now }).where('cylinder_id', '=', cylinderId).execute();
-  await sql`update equipment set attributes = jsonb_set(attributes, '{fillPercent}',
-      to_jsonb(least(100, round(${remainingKg}::numeric * 100 / nullif((attributes->>'sizeKg')::numeric, 0), 1))))
-    where id = ${cylinderId} and (attributes->>'sizeKg')::numeric > 0`.execute(trx);
-}
-
 const sizeOf = (item: Pick<Equipment, 'attributes'>) => num((item.attributes as { sizeKg?: number }).sizeKg);
 
 export async function cylinderView(db: Database, item: Equipment): Promise<CylinderView> {
-  const [supply, log] = await Promise.all([
-    db.selectFrom('co2_cylinder_supply').selectAll().where('cylinder_id', '=', item.id).executeTakeFirst(),
-    db
-      .selectFrom('co2_cylinder_event as ev')
-      .leftJoin('equipment as r', 'r.id', 'ev.replaced_cylinder_id')
-      .select(['ev.id', 'ev.action', 'ev.kg', 'ev.remaining_kg', 'ev.replaced_cylinder_id', 'r.code as replaced_code', 'ev.note', 'ev.at'])
-      .where('ev.cylinder_id', '=', item.id)
-      .orderBy('ev.at', 'desc')
-      .orderBy('ev.id', 'desc')
-      .limit(50)
-      .execute(),
-  ]);
+  const [supply, log] = await Promise.all([supplyOf(db, item.id), cylinderLog(db, item.id)]);
   const a = item.attributes as { sizeKg?: number; fillPercent?: number };
   return {
     sizeKg: sizeOf(item),
@@ -77,39 +59,29 @@ function assertCylinder(item: Equipment) {
 export async function connectCylinder(db: Database, item: Equipment, input: { note?: string | undefined }, actorId: string, now: Date): Promise<void> {
   assertCylinder(item);
   await db.transaction().execute(async (trx) => {
-    const current = await trx.selectFrom('equipment').select(['id', 'code', 'state']).where('id', '=', item.id).forUpdate().executeTakeFirstOrThrow();
+    const current = await lockEquipmentRow(trx, item.id);
     if (current.state === 'out_of_service') throw conflict(`${current.code} is out of service and cannot be connected.`);
     await assertInspected(trx, [current], 'connected', now);
     // Lock the line: whichever cylinder is on it now.
-    const on = await trx.selectFrom('co2_cylinder_supply').select(['cylinder_id', 'remaining_kg']).where('connected', '=', true).forUpdate().executeTakeFirst();
+    const on = await connectedSupply(trx, { lock: true });
     if (on?.cylinder_id === item.id) throw conflict(`${current.code} is already connected.`, { title: 'No change' });
     const supply = await lockSupply(trx, item.id);
     if (num(supply.remaining_kg) <= 0) throw conflict(`${current.code} is empty; refill it first.`);
     const note = input.note ?? '';
     if (on) {
-      await trx
-        .updateTable('co2_cylinder_supply')
-        .set({ connected: false, connected_at: null, updated_at: now })
-        .where('cylinder_id', '=', on.cylinder_id)
-        .execute();
-      await trx
-        .insertInto('co2_cylinder_event')
-        .values({ cylinder_id: on.cylinder_id, action: 'disconnected', remaining_kg: on.remaining_kg, note, actor_id: actorId, at: now })
-        .execute();
+      await setConnected(trx, on.cylinder_id, false, now);
+      await insertCylinderEvent(trx, { cylinder_id: on.cylinder_id, action: 'disconnected', remaining_kg: on.remaining_kg, note, actor_id: actorId, at: now });
     }
-    await trx.updateTable('co2_cylinder_supply').set({ connected: true, connected_at: now, updated_at: now }).where('cylinder_id', '=', item.id).execute();
-    await trx
-      .insertInto('co2_cylinder_event')
-      .values({
-        cylinder_id: item.id,
-        action: 'connected',
-        remaining_kg: supply.remaining_kg,
-        replaced_cylinder_id: on?.cylinder_id ?? null,
-        note,
-        actor_id: actorId,
-        at: now,
-      })
-      .execute();
+    await setConnected(trx, item.id, true, now);
+    await insertCylinderEvent(trx, {
+      cylinder_id: item.id,
+      action: 'connected',
+      remaining_kg: supply.remaining_kg,
+      replaced_cylinder_id: on?.cylinder_id ?? null,
+      note,
+      actor_id: actorId,
+      at: now,
+    });
     await audit(trx, actorId, 'connected', 'Equipment', item.id, { code: current.code, replaced: on?.cylinder_id ?? null });
   });
 }
@@ -127,21 +99,18 @@ export async function refillCylinder(
   const kg = round3(input.remainingKg ?? size);
   if (kg > size) throw unprocessable(`${item.code} holds ${size} kg.`, [{ path: 'remainingKg', message: `At most ${size} kg` }]);
   await db.transaction().execute(async (trx) => {
-    await trx.selectFrom('equipment').select('id').where('id', '=', item.id).forUpdate().executeTakeFirstOrThrow();
+    await lockEquipmentRow(trx, item.id);
     const supply = await lockSupply(trx, item.id);
     await setRemaining(trx, item.id, kg, now);
-    await trx
-      .insertInto('co2_cylinder_event')
-      .values({
-        cylinder_id: item.id,
-        action: 'refilled',
-        kg: round3(Math.max(0, kg - num(supply.remaining_kg))),
-        remaining_kg: kg,
-        note: input.note ?? '',
-        actor_id: actorId,
-        at: now,
-      })
-      .execute();
+    await insertCylinderEvent(trx, {
+      cylinder_id: item.id,
+      action: 'refilled',
+      kg: round3(Math.max(0, kg - num(supply.remaining_kg))),
+      remaining_kg: kg,
+      note: input.note ?? '',
+      actor_id: actorId,
+      at: now,
+    });
     await audit(trx, actorId, 'refilled', 'Equipment', item.id, { code: item.code, remainingKg: kg });
   });
 }
@@ -156,9 +125,9 @@ export async function drawCo2(
   draw: { grams: number; sourceType: 'keg_fill' | 'sanitation_cycle'; sourceId: string; actorId: string | null; at: Date; now: Date },
 ): Promise<void> {
   if (!(draw.grams > 0)) return;
-  const on = await trx.selectFrom('co2_cylinder_supply').select('cylinder_id').where('connected', '=', true).executeTakeFirst();
+  const on = await connectedSupply(trx, { lock: false });
   if (!on) return;
-  const cylinder = await trx.selectFrom('equipment').select(['id', 'code']).where('id', '=', on.cylinder_id).executeTakeFirstOrThrow();
+  const cylinder = await cylinderCode(trx, on.cylinder_id);
   const blocks = (await inspectionBlocks(trx, [cylinder.id], draw.now)).get(cylinder.id);
   if (blocks)
     throw conflict(`The connected cylinder ${cylinder.code} may not be used (${describeBlocks(blocks)}); connect another cylinder. Nothing was recorded.`, {
@@ -176,19 +145,16 @@ export async function drawCo2(
     );
   }
   await setRemaining(trx, cylinder.id, left, draw.now);
-  await trx
-    .insertInto('co2_cylinder_event')
-    .values({
-      cylinder_id: cylinder.id,
-      action: 'drawn',
-      kg,
-      remaining_kg: left,
-      source_type: draw.sourceType,
-      source_id: draw.sourceId,
-      actor_id: draw.actorId,
-      at: draw.at,
-    })
-    .execute();
+  await insertCylinderEvent(trx, {
+    cylinder_id: cylinder.id,
+    action: 'drawn',
+    kg,
+    remaining_kg: left,
+    source_type: draw.sourceType,
+    source_id: draw.sourceId,
+    actor_id: draw.actorId,
+    at: draw.at,
+  });
 }
 
 /** The CO2 of the purge steps entered (the co-op's usual figure where none is given), in grams. */

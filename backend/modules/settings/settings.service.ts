@@ -4,6 +4,7 @@ import { billingProfileSchema, defaultBillingProfile, type BillingProfile } from
 import { settingSections, type BookingRules, type SettingKey, type SettingValue } from '../../../shared/schemas/settings.ts';
 import type { Database } from '../../db/database.ts';
 import { audit } from '../../lib/audit.ts';
+import { findSettingRow, findSettingValue, upsertSetting } from './settings.repository.ts';
 
 type ValueOf<K extends SettingKey> = z.infer<(typeof settingSections)[K]['schema']>;
 
@@ -13,13 +14,7 @@ type ValueOf<K extends SettingKey> = z.infer<(typeof settingSections)[K]['schema
  */
 export async function getSetting<K extends SettingKey>(db: Database, key: K, opts: { forUpdate?: boolean } = {}): Promise<SettingValue<ValueOf<K>>> {
   const section = settingSections[key];
-  let q = db
-    .selectFrom('setting')
-    .leftJoin('app_user', 'app_user.id', 'setting.updated_by')
-    .select(['setting.value', 'setting.updated_at', 'setting.updated_by', 'app_user.name as updated_by_name'])
-    .where('setting.key', '=', key);
-  if (opts.forUpdate) q = q.forUpdate('setting');
-  const row = await q.executeTakeFirst();
+  const row = await findSettingRow(db, key, opts);
   const stored = row?.value && typeof row.value === 'object' ? (row.value as Record<string, unknown>) : {};
   const parsed = section.schema.safeParse({ ...section.defaults, ...stored });
   return {
@@ -39,8 +34,8 @@ export const BILLING_PROFILE_KEY = 'billing_profile';
 
 /** The co-op's name, address, e-mail, currency and payment rules (Billing › Profile), completed from the defaults. */
 export async function getBillingProfile(db: Database): Promise<BillingProfile> {
-  const row = await db.selectFrom('setting').select('value').where('key', '=', BILLING_PROFILE_KEY).executeTakeFirst();
-  const stored = row?.value && typeof row.value === 'object' ? (row.value as Record<string, unknown>) : {};
+  const value = await findSettingValue(db, BILLING_PROFILE_KEY);
+  const stored = value && typeof value === 'object' ? (value as Record<string, unknown>) : {};
   const parsed = billingProfileSchema.safeParse({ ...defaultBillingProfile, ...stored });
   return parsed.success ? parsed.data : defaultBillingProfile;
 }
@@ -70,11 +65,7 @@ export async function coopProfile(db: Database): Promise<CoopProfile> {
 /** Saves a section (already parsed by its schema) with an audit row; call inside a transaction. */
 export async function putSetting<K extends SettingKey>(trx: Database, key: K, value: ValueOf<K>, actorId: string): Promise<SettingValue<ValueOf<K>>> {
   const before = await getSetting(trx, key, { forUpdate: true });
-  await trx
-    .insertInto('setting')
-    .values({ key, value: JSON.stringify(value), updated_by: actorId, updated_at: new Date() })
-    .onConflict((oc) => oc.column('key').doUpdateSet({ value: JSON.stringify(value), updated_by: actorId, updated_at: new Date() }))
-    .execute();
+  await upsertSetting(trx, key, value, actorId, new Date());
   await audit(trx, actorId, 'updated', 'Setting', key, { before: before.value, after: value });
   return getSetting(trx, key);
 }

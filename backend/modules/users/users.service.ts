@@ -1,42 +1,22 @@
-import { sql } from 'kysely';
 import type { Page } from '../../../shared/schemas/pagination.ts';
 import type { InviteUserInput, UpdateUserInput, UserListQuery, User as UserListItem } from '../../../shared/schemas/user.ts';
 import { audit } from '../../lib/audit.ts';
 import type { Deps } from '../../lib/deps.ts';
 import { conflict } from '../../lib/http-problem.ts';
 import { enqueueMail } from '../../lib/mailer.ts';
-import { containsPattern, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { endSessionsOf, issueToken } from '../auth/auth.service.ts';
 import { invitationMail } from '../mail/templates/invitation.ts';
 import { coopProfile } from '../settings/settings.service.ts';
+import { findUserById, insertUser, pageUsers, updateUserRow } from './users.repository.ts';
 
 type Db = Deps['db'];
 type Actor = { id: string; name: string };
-
-const sortColumns = {
-  name: 'name',
-  email: 'email',
-  createdAt: 'created_at',
-  lastLoginAt: 'last_login_at',
-} as const;
 
 export const INVITATION_TTL_HOURS = 7 * 24;
 
 /** One page of accounts; `onlyId` limits it to one account (someone who may read only their own). */
 export async function listUsers(db: Db, q: UserListQuery, onlyId?: string): Promise<Page<UserListItem>> {
-  let base = db.selectFrom('app_user');
-  if (onlyId) base = base.where('id', '=', onlyId);
-  if (q.q) {
-    const like = containsPattern(q.q);
-    base = base.where((eb) => eb.or([eb('name', 'ilike', like), eb('email', 'ilike', like)]));
-  }
-  if (q.role) base = base.where(sql<boolean>`${q.role} = any(roles)`);
-  if (q.active !== undefined) base = base.where('is_active', '=', q.active);
-  const { rows, total } = await paginate(
-    base,
-    (qb) => orderByAllowed(qb.select(['id', 'email', 'name', 'roles', 'is_active', 'last_login_at', 'created_at']), sortColumns, q),
-    q,
-  );
+  const { rows, total } = await pageUsers(db, q, onlyId);
   return {
     items: rows.map((r) => ({
       id: r.id,
@@ -56,12 +36,7 @@ export async function listUsers(db: Db, q: UserListQuery, onlyId?: string): Prom
 /** Creates the account and its one-time invitation token, with the audit row, in one transaction. */
 export async function inviteUser(db: Db, input: InviteUserInput, actor: Actor) {
   return db.transaction().execute(async (trx) => {
-    const created = await trx
-      .insertInto('app_user')
-      .values({ email: input.email, name: input.name, roles: input.roles })
-      .onConflict((oc) => oc.doNothing())
-      .returning(['id', 'email', 'name', 'roles', 'units'])
-      .executeTakeFirst();
+    const created = await insertUser(trx, input);
     if (!created) throw conflict(`${input.email} already has an account.`);
     const token = await issueToken(trx, created.id, 'invitation', INVITATION_TTL_HOURS, actor.id);
     await audit(trx, actor.id, 'invited', 'User', created.id, { email: input.email, roles: input.roles });
@@ -83,23 +58,13 @@ export async function mailInvitation(
 
 /** The account an update names, or undefined. */
 export async function findUserForUpdate(db: Db, id: string) {
-  return db.selectFrom('app_user').select(['id', 'roles', 'is_active']).where('id', '=', id).executeTakeFirst();
+  return findUserById(db, id);
 }
 
 /** Changes name, roles or activation; a deactivated account's sessions end in the same transaction. */
 export async function updateUser(db: Db, targetId: string, input: UpdateUserInput, actor: Actor, now: Date) {
   const row = await db.transaction().execute(async (trx) => {
-    const updated = await trx
-      .updateTable('app_user')
-      .set({
-        ...(input.name !== undefined ? { name: input.name } : {}),
-        ...(input.roles !== undefined ? { roles: [...new Set(input.roles)] } : {}),
-        ...(input.isActive !== undefined ? { is_active: input.isActive } : {}),
-        updated_at: now,
-      })
-      .where('id', '=', targetId)
-      .returning(['id', 'email', 'name', 'roles', 'units', 'is_active', 'last_login_at', 'created_at'])
-      .executeTakeFirstOrThrow();
+    const updated = await updateUserRow(trx, targetId, input, now);
     if (input.isActive === false) await endSessionsOf(trx, targetId);
     await audit(trx, actor.id, input.isActive === false ? 'deactivated' : 'updated', 'User', targetId, input);
     return updated;
