@@ -8,6 +8,7 @@
 //       app's own response bytes from memory.
 // Prints requests/s, p50 and p99 for each, the ratios app ÷ (c) and app ÷ (d), and a per-step cost of one
 // request alone (framework, session and user, the list itself). Figures only; not a test.
+// BENCH_SECONDS sets each run's length, BENCH_CPU_PROF a folder for the app's CPU profile (node --cpu-prof).
 import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import http from 'node:http';
@@ -155,7 +156,9 @@ async function main() {
       STRIPE_SECRET_KEY: `sk_test_${secret()}`,
       STRIPE_WEBHOOK_SECRET: `whsec_${secret()}`,
     };
-    children.push(await startChild([process.execPath, path.join(root, 'dist/server/backend/main.js')], env, /Cellarwright API and app on/));
+    const profileDir = process.env.BENCH_CPU_PROF ? path.resolve(process.env.BENCH_CPU_PROF) : null;
+    const nodeArgs = profileDir ? ['--cpu-prof', '--cpu-prof-dir', profileDir] : [];
+    children.push(await startChild([process.execPath, ...nodeArgs, path.join(root, 'dist/server/backend/main.js')], env, /Cellarwright API and app on/));
     const base = `http://127.0.0.1:${PORTS.app}`;
     const cookies: Record<string, string> = {};
     const bodies: Record<string, string> = {};

@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { z } from 'zod';
 
 const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
@@ -25,6 +26,8 @@ const envSchema = z.object({
   INSTANCE_NAME: z.string().min(1).optional(),
   /** Migrate the schema before serving; safe when several instances start at once (the migrations take a lock). */
   MIGRATE_ON_START: bool.default(false),
+  /** Server processes sharing the port on this machine; in production, one per core (up to four) unless set. */
+  WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(100),
   LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
@@ -67,6 +70,8 @@ export interface Config extends Env {
   cookieSecure: boolean;
   devMailbox: boolean;
   mailboxDatabaseUrl: string;
+  /** How many server processes to run (WEB_CONCURRENCY, or one per core up to four in production, else one). */
+  processes: number;
 }
 
 export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | undefined> = process.env): Config {
@@ -95,5 +100,6 @@ export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | u
     cookieSecure: env.COOKIE_SECURE ?? isProduction,
     devMailbox: env.DEV_MAILBOX ?? !isProduction,
     mailboxDatabaseUrl: env.MAILBOX_DATABASE_URL ?? env.DATABASE_URL,
+    processes: env.WEB_CONCURRENCY ?? (isProduction ? Math.min(availableParallelism(), 4) : 1),
   };
 }

@@ -1,5 +1,5 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
-import type { DestinationStream } from 'pino';
+import { type DestinationStream, pino } from 'pino';
 import { pinoHttp, type Options } from 'pino-http';
 import type { Config } from '../config/env.ts';
 
@@ -12,7 +12,9 @@ const brief = {
 /**
  * One line per answered request (never for the load balancer's health probes). At `info` and above a line
  * names the request and its status; at `debug` and `trace` it carries the headers too, cookies and CSRF
- * tokens redacted. Lines go to standard output unless a `destination` is given.
+ * tokens redacted. Lines go to standard output unless a `destination` is given: gathered and written a few
+ * kilobytes at a time (and at least every second, and on exit), since a write per line cost the request
+ * thread a sixth of its time under load.
  */
 export function requestLogger(config: Pick<Config, 'LOG_LEVEL' | 'NODE_ENV'>, destination?: DestinationStream) {
   const level = config.LOG_LEVEL ?? (config.NODE_ENV === 'test' ? 'silent' : 'info');
@@ -22,5 +24,19 @@ export function requestLogger(config: Pick<Config, 'LOG_LEVEL' | 'NODE_ENV'>, de
     redact: ['req.headers.cookie', 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'],
   };
   if (level !== 'debug' && level !== 'trace') options.serializers = brief;
-  return pinoHttp(options, destination);
+  return pinoHttp(options, destination ?? (level === 'silent' ? undefined : bufferedStdout()));
+}
+
+/** Standard output, written asynchronously in pieces of 4 KiB or more; flushed every second and on exit. */
+function bufferedStdout() {
+  const out = pino.destination({ dest: 1, sync: false, minLength: 4096 });
+  setInterval(() => {
+    // Throws only once the stream is destroyed, on the way out.
+    try {
+      out.flush();
+    } catch {
+      /* exiting */
+    }
+  }, 1000).unref();
+  return out;
 }

@@ -123,7 +123,8 @@ export async function startLoadBalancer({ upstreams, port }) {
 
 /**
  * One instance of the server on `port`: the built JavaScript (`built`, as `npm start` runs it) or the
- * TypeScript sources through tsx. `env` is added to this process's environment; `INSTANCE_NAME` names it;
+ * TypeScript sources through tsx, as one server process unless `env` sets WEB_CONCURRENCY. `env` is added to this
+ * process's environment; `INSTANCE_NAME` names it;
  * `nodeArgs` go to node first (`--cpu-prof`, say).
  */
 export function startInstance({ name, port, env, built = false, nodeArgs = [] }) {
@@ -134,7 +135,7 @@ export function startInstance({ name, port, env, built = false, nodeArgs = [] })
   const output = [];
   const child = spawn(process.execPath, args, {
     cwd: root,
-    env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), INSTANCE_NAME: name, ...env },
+    env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), INSTANCE_NAME: name, WEB_CONCURRENCY: '1', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   child.stdout.on('data', (d) => output.push(String(d)));

@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { describe, expect, it } from 'vitest';
 import { developmentSecrets, loadConfig } from '../env.ts';
 
@@ -19,6 +20,15 @@ describe('loadConfig', () => {
       expect(config.sessionSecret).toBe(developmentSecrets.SESSION_SECRET[0]);
       expect(config.PAYMENTS_FAKE_PORT).toBe(4242);
     }
+  });
+
+  it('runs one server process outside production, one per core (up to four) in production, or as many as WEB_CONCURRENCY says', () => {
+    expect(loadConfig({ ...base, NODE_ENV: 'test' }).processes).toBe(1);
+    expect(loadConfig({ ...base }).processes).toBe(1);
+    expect(production(real)().processes).toBe(Math.min(availableParallelism(), 4));
+    expect(production({ ...real, WEB_CONCURRENCY: '3' })().processes).toBe(3);
+    expect(loadConfig({ ...base, NODE_ENV: 'test', WEB_CONCURRENCY: '2' }).processes).toBe(2);
+    expect(() => loadConfig({ ...base, WEB_CONCURRENCY: '0' })).toThrow(/WEB_CONCURRENCY/);
   });
 
   it('starts in production with real secrets', () => {
