@@ -1,17 +1,14 @@
 import { execFileSync } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import fs from 'node:fs';
 import pg from 'pg';
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createDb, type Database } from '../../backend/db/database.ts';
-import { migrationFolder } from '../../backend/db/migrate.ts';
 import { startSmtpFake, type SmtpFake } from '../../backend/fakes/smtp-fake.ts';
 import { freePort, nginxBin, root, tsx } from '../../backend/scripts/lib.mjs';
 import { startInstance, startLoadBalancer, type Instance, type LoadBalancer } from '../../backend/scripts/load-balancer.mjs';
 import { createMember } from '../../db/factories/index.ts';
-import { DEMO_PASSWORD, hasDatabase } from '../helpers/context.ts';
+import { DEMO_PASSWORD, emptyDatabase, expectEveryMigrationOnce, hasDatabase } from '../helpers/context.ts';
 import { TEST_TODAY } from '../helpers/time.ts';
-import { withDatabase } from '../helpers/urls.ts';
 
 // Three instances of the app on one PostgreSQL behind Debian's nginx (round robin, no sticky sessions), as a
 // host would run them: started at the same moment on an empty database, each migrating on start. Whatever
@@ -64,12 +61,7 @@ async function signIn(email: string, password = DEMO_PASSWORD) {
 
 describe.skipIf(missing !== null)('several instances behind one load balancer', () => {
   beforeAll(async () => {
-    const name = `${inject('dbPrefix')}instances_${randomBytes(3).toString('hex')}`;
-    const admin = new pg.Client({ connectionString: inject('adminUrl') });
-    await admin.connect();
-    await admin.query(`create database ${name}`);
-    await admin.end();
-    databaseUrl = withDatabase(inject('adminUrl'), name);
+    databaseUrl = await emptyDatabase('instances');
     const smtpPort = await freePort();
     const env = {
       NODE_ENV: 'test',
@@ -104,9 +96,7 @@ describe.skipIf(missing !== null)('several instances behind one load balancer', 
   }, 60_000);
 
   it('starts every instance at once on an empty database and migrates the schema once', async () => {
-    const files = fs.readdirSync(migrationFolder).filter((f) => f.endsWith('.ts'));
-    const { rows } = await pool.query<{ name: string }>('select name from kysely_migration');
-    expect(rows.map((r) => `${r.name}.ts`).sort()).toEqual(files.sort());
+    await expectEveryMigrationOnce(pool);
     for (const i of instances) {
       expect(i.child.exitCode, i.output.join('')).toBeNull();
       expect((await fetch(`${i.url}/api/health`)).status).toBe(200);

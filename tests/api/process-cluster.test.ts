@@ -3,13 +3,11 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import http from 'node:http';
 import pg from 'pg';
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createDb, type Database } from '../../backend/db/database.ts';
-import { migrationFolder } from '../../backend/db/migrate.ts';
 import { freePort, root } from '../../backend/scripts/lib.mjs';
 import { createMember } from '../../db/factories/index.ts';
-import { DEMO_PASSWORD, hasDatabase } from '../helpers/context.ts';
-import { withDatabase } from '../helpers/urls.ts';
+import { DEMO_PASSWORD, emptyDatabase, expectEveryMigrationOnce, hasDatabase } from '../helpers/context.ts';
 
 // One machine, several server processes sharing the port (WEB_CONCURRENCY): the primary migrates an empty
 // database once, starts the processes, starts again one that dies while the others keep answering, and
@@ -66,12 +64,7 @@ function me(cookie: string): Promise<{ status: number; body: string }> {
 
 describe.skipIf(!hasDatabase())('several server processes on one machine', () => {
   beforeAll(async () => {
-    const name = `${inject('dbPrefix')}cluster_${randomBytes(3).toString('hex')}`;
-    const admin = new pg.Client({ connectionString: inject('adminUrl') });
-    await admin.connect();
-    await admin.query(`create database ${name}`);
-    await admin.end();
-    databaseUrl = withDatabase(inject('adminUrl'), name);
+    databaseUrl = await emptyDatabase('cluster');
     const port = await freePort();
     base = `http://127.0.0.1:${port}`;
     primary = spawn(process.execPath, ['--import', 'tsx', 'backend/main.ts'], {
@@ -103,9 +96,7 @@ describe.skipIf(!hasDatabase())('several server processes on one machine', () =>
   }, 30_000);
 
   it('migrates once in the primary and starts the configured number of processes', async () => {
-    const files = fs.readdirSync(migrationFolder).filter((f) => f.endsWith('.ts'));
-    const { rows } = await pool.query<{ name: string }>('select name from kysely_migration');
-    expect(rows.map((r) => `${r.name}.ts`).sort()).toEqual(files.sort());
+    await expectEveryMigrationOnce(pool);
     expect(childrenOf(primary.pid!)).toHaveLength(PROCESSES);
     expect((await fetch(`${base}/api/health`)).status).toBe(200);
   });

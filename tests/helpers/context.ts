@@ -1,11 +1,13 @@
 import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
 import type { Express } from 'express';
 import pg from 'pg';
 import request from 'supertest';
-import { afterAll, beforeAll, inject } from 'vitest';
+import { afterAll, beforeAll, expect, inject } from 'vitest';
 import { createApp } from '../../backend/app.ts';
 import { loadConfig, type Config } from '../../backend/config/env.ts';
 import { createDb, type Database } from '../../backend/db/database.ts';
+import { migrationFolder } from '../../backend/db/migrate.ts';
 import { ManualClock } from '../../backend/lib/clock.ts';
 import type { Deps } from '../../backend/lib/deps.ts';
 import { createQueue } from '../../backend/lib/queue.ts';
@@ -72,6 +74,23 @@ export class ApiClient {
 }
 
 /** A fresh database cloned from the seeded template, the app on it, its queue workers and an SMTP fake. */
+/** A new database with no schema at all (for servers that migrate on start), named after `label`; its URL. */
+export async function emptyDatabase(label: string): Promise<string> {
+  const name = `${inject('dbPrefix')}${label}_${randomBytes(3).toString('hex')}`;
+  const admin = new pg.Client({ connectionString: inject('adminUrl') });
+  await admin.connect();
+  await admin.query(`create database ${name}`);
+  await admin.end();
+  return withDatabase(inject('adminUrl'), name);
+}
+
+/** Every migration file is recorded as applied, each once. */
+export async function expectEveryMigrationOnce(pool: pg.Pool) {
+  const files = fs.readdirSync(migrationFolder).filter((f) => f.endsWith('.ts'));
+  const { rows } = await pool.query<{ name: string }>('select name from kysely_migration');
+  expect(rows.map((r) => `${r.name}.ts`).sort()).toEqual(files.sort());
+}
+
 export async function createTestContext(env: Record<string, string> = {}, { now = TEST_NOW }: { now?: string | Date } = {}): Promise<TestContext> {
   const adminUrl = inject('adminUrl');
   if (!adminUrl) throw new Error('DATABASE_URL is not set: run the suite with `npm test`, which starts a PostgreSQL');
