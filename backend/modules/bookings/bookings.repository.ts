@@ -2,7 +2,7 @@ import { sql } from 'kysely';
 import type { BookingListQuery } from '../../../shared/schemas/booking.ts';
 import type { Database } from '../../db/database.ts';
 import type { BookingState } from '../../db/tables/cellar.ts';
-import { orderByAllowed, paginate } from '../../lib/paginate.ts';
+import { keptCount, orderByAllowed, paginate } from '../../lib/paginate.ts';
 
 export const liveStates: BookingState[] = ['booked', 'in_use'];
 
@@ -55,7 +55,13 @@ const sortColumns = {
   state: 'b.state',
 } as const;
 
-/** One page of bookings and the count of all that match (counted over `booking` alone). */
+/** The total of a list filtered by state alone, from the kept counts of bookings by state. */
+function keptBookingTotal(db: Database, q: BookingFilters) {
+  if (q.ownerIds.length || q.equipmentId || q.kind || q.from || q.to) return undefined;
+  return () => keptCount(db, 'booking', q.state ? { in: [q.state] } : q.includeCancelled ? {} : { notIn: ['cancelled'] });
+}
+
+/** One page of bookings and the count of all that match (counted over `booking` alone, or kept). */
 export async function bookingPage(db: Database, q: BookingFilters) {
   let base = bookingTable(db);
   for (const ownerId of q.ownerIds) base = base.where('b.owner_id', '=', ownerId);
@@ -65,7 +71,8 @@ export async function bookingPage(db: Database, q: BookingFilters) {
   if (q.state) base = base.where('b.state', '=', q.state);
   else if (!q.includeCancelled) base = base.where('b.state', '<>', 'cancelled');
   // Same start: by item code, then by id, so pages never repeat or skip a booking.
-  return paginate(base, (qb) => orderByAllowed(withItemAndOwner(qb).select(bookingColumns), sortColumns, q, 'e.code').orderBy('b.id'), q);
+  const rows = (qb: BookingBase) => orderByAllowed(withItemAndOwner(qb).select(bookingColumns), sortColumns, q, 'e.code').orderBy('b.id');
+  return paginate(base, rows, q, keptBookingTotal(db, q));
 }
 
 export async function bookingRow(db: Database, id: string): Promise<BookingJoinedRow | undefined> {
