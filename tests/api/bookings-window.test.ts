@@ -74,6 +74,19 @@ describe('the bookings overlapping a window', () => {
     }
   });
 
+  it('lists the same bookings whether the window is read whole (92 days or less) or walked in start order (longer)', async () => {
+    for (const [from, to] of [
+      [at(30), at(122)],
+      [at(30), at(122.01)],
+      [at(9), at(101)],
+      [at(9), at(101.01)],
+    ] as [Date, Date][]) {
+      const want = expected(from, to);
+      const got = await listed(`${param('from', from)}${param('to', to)}`, 3);
+      expect({ from, to, ids: got.ids, total: got.total }).toEqual({ from, to, ids: want, total: want.length });
+    }
+  });
+
   it('pages through a window without repeating or skipping a booking, and counts it exactly', async () => {
     const window = `${param('from', at(100))}${param('to', at(110))}`;
     const paged = await listed(window, 2);

@@ -1,6 +1,6 @@
 import type { AuditQuery } from '../../../shared/schemas/audit.ts';
 import type { Deps } from '../../lib/deps.ts';
-import { orderByAllowed, paginate } from '../../lib/paginate.ts';
+import { keptCount, orderByAllowed, paginate } from '../../lib/paginate.ts';
 
 const auditSort = {
   at: 'audit_log.at',
@@ -8,6 +8,12 @@ const auditSort = {
   subjectType: 'audit_log.subject_type',
   actor: 'app_user.name',
 } as const;
+
+/** The total of a trail filtered by subject type alone, from the kept counts of audit rows by subject type. */
+function keptAuditTotal(db: Deps['db'], q: AuditQuery) {
+  if (q.subjectId || q.actorId || q.from || q.to) return undefined;
+  return () => keptCount(db, 'audit_log', q.subjectType ? { in: [q.subjectType] } : {});
+}
 
 /** One page of audit rows with their actor's name, filtered by person, record and time, and the count of all. */
 export async function auditPage(db: Deps['db'], q: AuditQuery, order: 'asc' | 'desc') {
@@ -37,5 +43,6 @@ export async function auditPage(db: Deps['db'], q: AuditQuery, order: 'asc' | 'd
         order,
       ),
     q,
+    keptAuditTotal(db, q),
   );
 }

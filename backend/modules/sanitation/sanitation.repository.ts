@@ -5,7 +5,7 @@ import type { CycleEvaluation } from '../../../shared/cellar/sanitation-rules.ts
 import type { SanitationSettings } from '../../../shared/schemas/cellar-settings.ts';
 import type { SanitationCycleListQuery, SanitationStepInput, SanitationStepView } from '../../../shared/schemas/sanitation.ts';
 import type { Database } from '../../db/database.ts';
-import { containsAny, orderByAllowed, paginate } from '../../lib/paginate.ts';
+import { containsAny, keptCount, orderByAllowed, paginate } from '../../lib/paginate.ts';
 import { effectiveStateSql, freshUntilSql, lapsedSql } from '../equipment/vessel-state.ts';
 
 export type CycleRow = {
@@ -103,7 +103,13 @@ const cycleSort = {
   outcome: 'c.outcome',
 } as const;
 
-/** The ids of one page of cycles, and the count of all that match. */
+/** The total of a list filtered by outcome alone, from the kept counts of cycles by outcome. */
+function keptCycleTotal(db: Database, q: SanitationCycleListQuery, range: { from?: Date; to?: Date }) {
+  if (q.equipmentId || q.kind || range.from || range.to || q.q) return undefined;
+  return () => keptCount(db, 'sanitation_cycle', q.outcome ? { in: [q.outcome] } : {});
+}
+
+/** The ids of one page of cycles, and the count of all that match (or kept). */
 export async function cyclePage(db: Database, q: SanitationCycleListQuery, range: { from?: Date; to?: Date }) {
   let base = db.selectFrom('sanitation_cycle as c').innerJoin('equipment as e', 'e.id', 'c.equipment_id');
   if (q.equipmentId) base = base.where('c.equipment_id', '=', q.equipmentId);
@@ -112,7 +118,7 @@ export async function cyclePage(db: Database, q: SanitationCycleListQuery, range
   if (range.from) base = base.where('c.completed_at', '>=', range.from);
   if (range.to) base = base.where('c.completed_at', '<', range.to);
   if (q.q) base = base.where(containsAny(['e.code', 'e.name'], q.q));
-  return paginate(base, (qb) => orderByAllowed(qb.select('c.id'), cycleSort, q, 'c.id'), q);
+  return paginate(base, (qb) => orderByAllowed(qb.select('c.id'), cycleSort, q, 'c.id'), q, keptCycleTotal(db, q, range));
 }
 
 const statusSortColumn = { code: 'v.code', state: 'v.effective_state', freshUntil: 'v.fresh_until', lastCycleAt: 'v.last_cycle_at' } as const;
