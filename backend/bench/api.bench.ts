@@ -6,7 +6,7 @@
 //   (c) a bare node:http + pg server running the same SQL the app ran for that request (caught from the
 //       app in process) and answering JSON of the same rows   (d) a bare node:http server answering the
 //       app's own response bytes from memory.
-// Prints requests/s, p50 and p99 for each, the ratios app ÷ (c) and app ÷ (d), and a per-step cost of one
+// Prints requests/s, p50, p99 and the CPU a request took in the server and in PostgreSQL for each, the ratios app ÷ (c) and app ÷ (d), and a per-step cost of one
 // request alone (framework, session and user, the list itself). Figures only; not a test.
 // BENCH_SECONDS sets each run's length, BENCH_CPU_PROF a folder for the app's CPU profile (node --cpu-prof).
 import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
@@ -24,6 +24,7 @@ import type { DB } from '../db/schema.ts';
 import { systemClock } from '../lib/clock.ts';
 import { createQueue } from '../lib/queue.ts';
 import { benchDataset } from './dataset.ts';
+import { cpuDuring, parentOf } from './process-cpu.ts';
 import { atLeast, atMost, reportTarget } from './report.ts';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
@@ -180,6 +181,9 @@ async function main() {
     children.push(await startChild([process.execPath, ...process.execArgv, self, 'serve-sql', bench.url, JSON.stringify(plans)], process.env, /ready/));
     children.push(await startChild([process.execPath, ...process.execArgv, self, 'serve-bytes', JSON.stringify(bodies)], process.env, /ready/));
 
+    // PostgreSQL's processes: the parent of this connection's backend, and its children.
+    const { rows: backendRows } = await bench.pool.query<{ pid: number }>('select pg_backend_pid() as pid');
+    const postmaster = parentOf(backendRows[0]!.pid);
     for (const [name, list] of Object.entries(lists)) {
       const cookie = { cookie: cookies[list.path]! };
       const sqlBody = await (await fetch(`http://127.0.0.1:${PORTS.sql}${list.path}`)).text();
@@ -194,14 +198,20 @@ async function main() {
       console.log(
         `    one request alone (median of 100): health ${health.toFixed(1)} ms · auth/me ${me.toFixed(1)} ms (session, user, ability +${(me - health).toFixed(1)}) · list ${full.toFixed(1)} ms (its queries and JSON +${(full - me).toFixed(1)}) · bare SQL server ${bare.toFixed(1)} ms`,
       );
+      // CPU per request of the server's processes and of PostgreSQL's: holds when other work shares the machine.
+      const measured = async (server: number, url: string, headers: Record<string, string> = {}) => {
+        const { value, cpuMs } = await cpuDuring({ server, pg: postmaster }, () => drive(url, headers));
+        const n = Math.max(1, value.requests.total);
+        return { ...value, cpu: { server: cpuMs.server! / n, pg: cpuMs.pg! / n } };
+      };
       const runs = {
-        app: await drive(`${base}${list.path}`, cookie),
-        sql: await drive(`http://127.0.0.1:${PORTS.sql}${list.path}`),
-        bytes: await drive(`http://127.0.0.1:${PORTS.bytes}${list.path}`),
+        app: await measured(children[0]!.pid!, `${base}${list.path}`, cookie),
+        sql: await measured(children[1]!.pid!, `http://127.0.0.1:${PORTS.sql}${list.path}`),
+        bytes: await measured(children[2]!.pid!, `http://127.0.0.1:${PORTS.bytes}${list.path}`),
       };
       for (const [label, r] of Object.entries(runs)) {
         console.log(
-          `    ${label.padEnd(6)} ${r.requests.average.toFixed(0).padStart(7)} req/s  p50 ${String(r.latency.p50).padStart(4)} ms  p99 ${String(r.latency.p99).padStart(4)} ms  ${r.non2xx} non-2xx, ${r.errors} errors`,
+          `    ${label.padEnd(6)} ${r.requests.average.toFixed(0).padStart(7)} req/s  p50 ${String(r.latency.p50).padStart(4)} ms  p99 ${String(r.latency.p99).padStart(4)} ms  ${r.non2xx} non-2xx, ${r.errors} errors  CPU a request: server ${r.cpu.server.toFixed(2)} ms, PostgreSQL ${r.cpu.pg.toFixed(2)} ms`,
         );
       }
       const app = runs.app.requests.average;
