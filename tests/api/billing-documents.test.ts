@@ -116,6 +116,16 @@ describe('documents', () => {
 });
 
 describe('stamps follow the clock', () => {
+  it('stamps a sent invoice with the clock’s time, whatever the real date', async () => {
+    const inv = await invoiceOf(ids.a, '2026-11');
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      expect((await treasurer.post(`/api/invoices/${inv.id}/send`)).status).toBe(202);
+      expect((await treasurer.get(`/api/invoices/${inv.id}`)).body.invoice.sentAt).toBe(FAR_AHEAD);
+      const row = await ctx.db.selectFrom('invoice').select(['sent_at', 'updated_at']).where('id', '=', inv.id).executeTakeFirstOrThrow();
+      expect(row).toEqual({ sent_at: new Date(FAR_AHEAD), updated_at: new Date(FAR_AHEAD) });
+    });
+  });
+
   it('stamps a saved billing profile with the clock’s time, whatever the real date', async () => {
     await withClockAt(ctx.clock, FAR_AHEAD, async () => {
       const current = (await treasurer.get('/api/billing/profile')).body.profile;
