@@ -3,12 +3,10 @@ import ExcelJS from 'exceljs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { correctHydrometer } from '../../shared/brewing/index.ts';
 import { IMPORT_MAX_BYTES } from '../../backend/modules/batches/batches.routes.ts';
-import { pruneImportProgress } from '../../backend/modules/batches/readings-import.service.ts';
 import { createBatch } from '../../db/factories/index.ts';
 import { type ApiClient, type TestContext, useTestContext, signInAs } from '../helpers/context.ts';
 import { countReadings } from '../helpers/counts.ts';
 import { binary } from '../helpers/http.ts';
-import { FAR_AHEAD, laterBy, withClockAt } from '../helpers/time.ts';
 
 let ctx: TestContext;
 let member: ApiClient, member2: ApiClient, brewer: ApiClient, treasurer: ApiClient;
@@ -389,24 +387,5 @@ describe('files that are not readings: 4xx problems, never 500', { timeout: 60_0
     expect((await upload(member2, batchId, goodCsv, 'readings.csv')).status).toBe(404);
     expect((await upload(treasurer, batchId, goodCsv, 'readings.csv')).status).toBe(403);
     expect(await countReadings(ctx, batchId)).toBe(0);
-  });
-});
-
-describe('import stamps follow the clock', () => {
-  it('stamps the progress row and the remembered mapping with the clock’s time, and forgets progress a day later by the clock', async () => {
-    const batchId = await newBatch();
-    const progressId = randomUUID();
-    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
-      expect((await upload(member, batchId, goodCsv, 'readings.csv', { progressId })).status).toBe(200);
-      const progressUrl = `/api/batches/${batchId}/readings/import/progress/${progressId}`;
-      expect((await member.get(progressUrl)).body.progress).toMatchObject({ phase: 'done', updatedAt: FAR_AHEAD });
-      const mapping = await ctx.db.selectFrom('reading_import_mapping').select('updated_at').where('user_id', '=', member.user.id).executeTakeFirstOrThrow();
-      expect(mapping.updated_at).toEqual(new Date(FAR_AHEAD));
-
-      await pruneImportProgress(ctx.db, new Date(laterBy(FAR_AHEAD, 23 * 3600_000)));
-      expect((await member.get(progressUrl)).status).toBe(200);
-      await pruneImportProgress(ctx.db, new Date(laterBy(FAR_AHEAD, 25 * 3600_000)));
-      expect((await member.get(progressUrl)).status).toBe(404);
-    });
   });
 });
