@@ -3,8 +3,9 @@
  * freshness windows, booking rules, reminders, forecasts, overdue kegs) reads it from here, through
  * `deps.clock`, and passes it to SQL as a parameter; nothing in a rule calls `new Date()` or SQL `now()`.
  *
- * PostgreSQL's own `now()` remains only where the instant is a record of when a row was written, never
- * compared with a rule's "now": column defaults such as `created_at`, and infrastructure whose
+ * Stamps a change writes (`updated_at`, `sent_at`, `voided_at`…) and e-mailed links' lifetimes take it too.
+ * PostgreSQL's own `now()` remains only where the instant is a record of when a row was first written,
+ * never compared with a rule's "now": column defaults such as `created_at`, and infrastructure whose
  * lifetime is real elapsed time (session expiry, sign-in rate-limit windows, the queue's own timing).
  */
 export interface Clock {

@@ -7,7 +7,7 @@ import { createInvoice as makeInvoice, issueInvoice, recordManualPayment } from 
 import { PriceBook } from '../../backend/modules/billing/price-book.ts';
 import { periodBounds, periodLabel } from '../../shared/billing/dates.ts';
 import type { PriceItem } from '../../shared/schemas/billing.ts';
-import { type At, inTransaction, LONG_AGO, toDate } from './common.ts';
+import { type At, inTransaction, LONG_AGO, noonOf, toDate } from './common.ts';
 
 export type PriceRow = Selectable<PriceTable>;
 export type TaxRateRow = Selectable<TaxRateTable>;
@@ -71,6 +71,8 @@ export interface InvoiceOverrides {
   issue?: boolean;
   /** Who ran it (the audit row's actor). */
   actorId?: string | null;
+  /** When it was made (and issued): the invoice's stamps. Default noon UTC on `today`. */
+  at?: At;
 }
 
 export interface InvoiceWithLines extends InvoiceRow {
@@ -93,9 +95,10 @@ export async function createInvoice(db: Database, o: InvoiceOverrides): Promise<
     const lines = byMember.get(o.memberId) ?? [];
     if (lines.length === 0) throw new Error(`createInvoice: nothing to bill for ${o.period}`);
     const profile = await getBillingProfile(trx);
-    const id = await makeInvoice(trx, { runId: null, memberId: o.memberId, period: o.period, currency: profile.currency, lines });
+    const at = toDate(o.at ?? noonOf(o.today), 'at');
+    const id = await makeInvoice(trx, { runId: null, memberId: o.memberId, period: o.period, currency: profile.currency, lines, now: at });
     if (!id) throw new Error(`createInvoice: the member already has an invoice for ${o.period}`);
-    if (o.issue !== false) await issueInvoice(trx, id, o.today, o.actorId ?? null);
+    if (o.issue !== false) await issueInvoice(trx, id, o.today, o.actorId ?? null, at);
     const invoice = await trx.selectFrom('invoice').selectAll().where('id', '=', id).executeTakeFirstOrThrow();
     const rows = await trx.selectFrom('invoice_line').selectAll().where('invoice_id', '=', id).orderBy('position').execute();
     return { ...invoice, lines: rows };
@@ -138,7 +141,16 @@ export function createManualCharge(
  */
 export function createInvoicePayment(
   db: Database,
-  o: { invoiceId: string; amountCents: number; receivedOn: string; method?: 'bank_transfer' | 'cash'; reference?: string; note?: string; actorId: string },
+  o: {
+    invoiceId: string;
+    amountCents: number;
+    receivedOn: string;
+    method?: 'bank_transfer' | 'cash';
+    reference?: string;
+    note?: string;
+    actorId: string;
+    at?: At;
+  },
 ) {
   return inTransaction(db, (trx) =>
     recordManualPayment(
@@ -146,6 +158,7 @@ export function createInvoicePayment(
       o.invoiceId,
       { amountCents: o.amountCents, method: o.method ?? 'bank_transfer', receivedOn: o.receivedOn, reference: o.reference ?? '', note: o.note ?? '' },
       o.actorId,
+      toDate(o.at ?? noonOf(o.receivedOn), 'at'),
     ),
   );
 }

@@ -25,6 +25,9 @@ export function toDate(at: At, what = 'time'): Date {
 
 export const addMs = (at: At, ms: number) => new Date(toDate(at).getTime() + ms);
 
+/** Noon UTC of a day ('YYYY-MM-DD'): the instant a record dated only by its day is stamped with. */
+export const noonOf = (day: string) => new Date(`${day}T12:00:00Z`);
+
 let counter = 1000;
 /** A number unique within this process (codes and e-mails of factory-made records never collide with the fixture's). */
 export function nextSeq(): number {

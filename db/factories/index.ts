@@ -44,9 +44,9 @@
  *   createPrice(db, { item, bandMaxLiters?, unitCents, effectiveFrom, note?, createdBy?, createdAt? })
  *   createTaxRate(db, { rateBp, effectiveFrom, label? = 'VAT' })
  *   createManualCharge(db, { memberId, period, amountCents, description?, reason?, taxable?, createdBy?, createdAt? })
- *   createInvoice(db, { memberId, period, today, issue? = true, actorId? }) → invoice row + lines
+ *   createInvoice(db, { memberId, period, today, issue? = true, actorId?, at? = noon UTC on today }) → invoice row + lines
  *     the real charge sources for that member and period, priced, then issued on `today` (a draft with issue: false)
- *   createInvoicePayment(db, { invoiceId, amountCents, receivedOn, method? = 'bank_transfer', reference?, note?, actorId })
+ *   createInvoicePayment(db, { invoiceId, amountCents, receivedOn, method? = 'bank_transfer', reference?, note?, actorId, at? = noon UTC on receivedOn })
  *     → payment — received by hand on an issued invoice, whole or part (a part payment leaves it issued)
  * Settings (settings.ts)
  *   setSetting(db, key, patch)                    — merge fields into a settings section (e.g. booking_rules)
@@ -56,7 +56,7 @@
  * Audit trail (audit.ts)
  *   createAuditEntry(db, { at, action? = 'updated', subjectType? = 'Batch', subjectId?, actorId?, detail? }) → audit_log row
  * Shared (common.ts)
- *   DEMO_PASSWORD, LONG_AGO, MINUTE, HOUR, DAY, addMs(at, ms)
+ *   DEMO_PASSWORD, LONG_AGO, MINUTE, HOUR, DAY, addMs(at, ms), noonOf(day)
  */
 export * from './common.ts';
 export * from './users.ts';

@@ -5,6 +5,7 @@ import { runPeriodIn } from '../../backend/modules/billing/invoice-runs.service.
 import { recordPayment, refundInvoice, voidInvoice } from '../../backend/modules/billing/invoices.service.ts';
 import { addDays, periodLabel } from '../../shared/billing/dates.ts';
 import { defaultBillingProfile, type PaymentMethod, type PriceItem } from '../../shared/schemas/billing.ts';
+import { noonOf } from '../factories/common.ts';
 import { userId } from './0001_users.ts';
 import type { DemoCalendar } from './demo-calendar.ts';
 import { rng, seedId } from './ids.ts';
@@ -90,7 +91,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     .execute();
 
   const random = rng(6006);
-  const september = await runPeriodIn(db, { period: cal.period('2026-09'), issue: true }, treasurer, { today: day('2026-10-01') });
+  const september = await runPeriodIn(db, { period: cal.period('2026-09'), issue: true }, treasurer, { today: day('2026-10-01'), now: at('2026-10-01', 8) });
   await settleMonth(
     db,
     september.invoices,
@@ -112,6 +113,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
       },
       day('2026-10-09'),
       treasurer,
+      at('2026-10-09', 11),
     );
     await db
       .insertInto('manual_charge')
@@ -141,7 +143,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
     })
     .execute();
 
-  const october = await runPeriodIn(db, { period: cal.period('2026-10'), issue: true }, treasurer, { today: day('2026-11-01') });
+  const october = await runPeriodIn(db, { period: cal.period('2026-10'), issue: true }, treasurer, { today: day('2026-11-01'), now: at('2026-11-01', 8) });
   await settleMonth(
     db,
     october.invoices,
@@ -160,6 +162,7 @@ export async function seed(db: Database, cal: DemoCalendar): Promise<void> {
         { amountCents: 378, reason: 'Cleaning fee waived: the vessel was cleaned by the member under supervision', refundMethod: 'bank_transfer' },
         day('2026-11-18'),
         treasurer,
+        at('2026-11-18', 12),
       );
     }
   }
@@ -203,7 +206,13 @@ async function settleMonth(
     const receivedOn = day > plan.lastDay ? plan.lastDay : day;
     if (part.has(inv.memberId)) {
       const half = Math.round(inv.totalCents / 2);
-      await recordPayment(db, inv.id, { amountCents: half, method: 'bank_transfer', receivedOn, reference: `${inv.number} part 1` }, userId('treasurer'));
+      await recordPayment(
+        db,
+        inv.id,
+        { amountCents: half, method: 'bank_transfer', receivedOn, reference: `${inv.number} part 1` },
+        userId('treasurer'),
+        noonOf(receivedOn),
+      );
       continue;
     }
     if (random() > plan.paidShare) continue;
@@ -218,6 +227,7 @@ async function settleMonth(
         note: method === 'cash' ? 'Paid at the cellar open evening' : '',
       },
       method === 'online' ? null : userId('treasurer'),
+      noonOf(receivedOn),
     );
   }
 }

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createMember } from '../../db/factories/index.ts';
 import { createTestContext, linkFrom, type TestContext } from '../helpers/context.ts';
+import { FAR_AHEAD, laterBy, withClockAt } from '../helpers/time.ts';
 
 let ctx: TestContext;
 beforeAll(async () => {
@@ -203,7 +204,7 @@ describe('invitations and password reset through the SMTP fake', () => {
     await request(ctx.app).post('/api/auth/password-reset').send({ email: 'member6@example.org' });
     const mail6 = await ctx.waitForMail('member6@example.org', /Reset/);
     const t6 = linkFrom(mail6.text_body).token;
-    // Links count real elapsed time (a security lifetime, not the co-op's clock): this one ran out long ago, whatever the machine's date.
+    // This one ran out long before the clock's now.
     await ctx.db
       .updateTable('user_token')
       .set({ expires_at: new Date('2000-01-01T00:00:00Z') })
@@ -281,5 +282,71 @@ describe('members administration', () => {
     expect(box.body.items[0]).toHaveProperty('subject');
     const member = await ctx.signIn((await createMember(ctx.db)).email);
     expect((await member.get('/api/dev/mailbox')).status).toBe(403);
+  });
+});
+
+describe('links follow the clock', () => {
+  const HOUR = 3600_000;
+  const MINUTE = 60_000;
+  const tokenRow = (userId: string, purpose: 'invitation' | 'password_reset') =>
+    ctx.db
+      .selectFrom('user_token')
+      .select(['expires_at', 'used_at'])
+      .where('user_id', '=', userId)
+      .where('purpose', '=', purpose)
+      .orderBy('created_at', 'desc')
+      .executeTakeFirstOrThrow();
+
+  it('a reset link issued at T works until T + 1 hour by the clock, whatever the real date', async () => {
+    const member = await createMember(ctx.db);
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const askFor = async () => {
+        expect((await request(ctx.app).post('/api/auth/password-reset').send({ email: member.email })).status).toBe(202);
+        const mail = await ctx.waitForMail(member.email, /Reset/);
+        await ctx.db.deleteFrom('dev_mail_message').where('id', '=', mail.id).execute();
+        return linkFrom(mail.text_body).token;
+      };
+      const confirm = (token: string, password: string) => request(ctx.app).post('/api/auth/password-reset/confirm').send({ token, password });
+
+      const early = await askFor();
+      expect((await tokenRow(member.id, 'password_reset')).expires_at.toISOString()).toBe(laterBy(FAR_AHEAD, HOUR));
+      ctx.clock.freeze(laterBy(FAR_AHEAD, HOUR - MINUTE));
+      expect((await confirm(early, 'a-password-in-time')).status).toBe(204);
+      expect((await tokenRow(member.id, 'password_reset')).used_at?.toISOString()).toBe(laterBy(FAR_AHEAD, HOUR - MINUTE));
+
+      ctx.clock.freeze(FAR_AHEAD);
+      const late = await askFor();
+      ctx.clock.freeze(laterBy(FAR_AHEAD, HOUR + MINUTE));
+      const refused = await confirm(late, 'a-password-too-late');
+      expect(refused.status).toBe(410);
+      expect(refused.body.detail).toMatch(/expired/);
+      // Nothing changed: the password set in time still signs in, the late one does not.
+      expect((await request(ctx.app).post('/api/auth/login').send({ email: member.email, password: 'a-password-too-late' })).status).toBe(401);
+      expect((await request(ctx.app).post('/api/auth/login').send({ email: member.email, password: 'a-password-in-time' })).status).toBe(200);
+    });
+  });
+
+  it('an invitation issued at T is refused at T + 7 days + 1 minute and accepted at T + 7 days − 1 minute', async () => {
+    const admin = await ctx.signIn('admin@example.org');
+    const email = 'late.invite@example.org';
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const invited = await admin.post('/api/users/invitations', { email, name: 'Late Invite', roles: ['member'] });
+      expect(invited.status).toBe(201);
+      const { token } = linkFrom((await ctx.waitForMail(email, /invited/)).text_body);
+      const week = 7 * 24 * HOUR;
+      expect((await tokenRow(invited.body.user.id, 'invitation')).expires_at.toISOString()).toBe(laterBy(FAR_AHEAD, week));
+
+      ctx.clock.freeze(laterBy(FAR_AHEAD, week + MINUTE));
+      expect((await request(ctx.app).get(`/api/auth/invitations/${token}`)).status).toBe(410);
+      const late = await request(ctx.app).post('/api/auth/invitations/accept').send({ token, name: 'Too Late', password: 'a-long-new-password' });
+      expect(late.status).toBe(410);
+      expect(late.headers['content-type']).toMatch(/problem\+json/);
+
+      ctx.clock.freeze(laterBy(FAR_AHEAD, week - MINUTE));
+      expect((await request(ctx.app).get(`/api/auth/invitations/${token}`)).body).toEqual({ email, name: 'Late Invite' });
+      const accepted = await request(ctx.app).post('/api/auth/invitations/accept').send({ token, name: 'In Time', password: 'a-long-new-password' });
+      expect(accepted.status).toBe(200);
+      expect(accepted.body.user).toMatchObject({ email, name: 'In Time' });
+    });
   });
 });

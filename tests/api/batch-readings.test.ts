@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import {
   abv,
@@ -10,7 +11,9 @@ import {
 } from '../../shared/brewing/index.ts';
 import { DAY } from '../../db/factories/index.ts';
 import { admin, brewer, ctx, daysAfter as at, member, member2, newBatch, treasurer, useBatchFile } from '../helpers/batches.ts';
+import { pruneImportProgress } from '../../backend/modules/batches/readings-import.service.ts';
 import { countReadings } from '../helpers/counts.ts';
+import { FAR_AHEAD, laterBy, withClockAt } from '../helpers/time.ts';
 
 // A batch's readings: what they say through the brewing maths, who may add and delete them, and the
 // co-op's fermentation settings they are read with.
@@ -215,5 +218,29 @@ describe('fermentation settings and refractometer readings', () => {
     expect(reread.enteredUnit).toBe('brix');
     expect(reread.gravitySg).toBeCloseTo(refractometerFinalGravity(convertGravity(1.056, 'sg', 'brix') * 1.04, 6.5, 1.04), 4); // Terrill cubic
     expect(reread.gravitySg).not.toBeCloseTo(later.body.reading.gravitySg, 4);
+  });
+});
+
+describe('readings-import stamps follow the clock', () => {
+  it('stamps the progress row and the remembered mapping with the clock’s time, and forgets progress a day later by the clock', async () => {
+    const b = await newBatch(member);
+    const progressId = randomUUID();
+    const progressUrl = `/api/batches/${b.id}/readings/import/progress/${progressId}`;
+    const csv = 'Taken at,Gravity,Unit\n2026-10-01 09:00,1.050,SG\n2026-10-02 09:00,1.040,SG\n';
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const imported = await member
+        .post(`/api/batches/${b.id}/readings/import`)
+        .field('progressId', progressId)
+        .attach('file', Buffer.from(csv), 'readings.csv');
+      expect(imported.body).toEqual({ imported: 2, skipped: 0 });
+      expect((await member.get(progressUrl)).body.progress).toMatchObject({ phase: 'done', updatedAt: FAR_AHEAD });
+      const mapping = await ctx.db.selectFrom('reading_import_mapping').select('updated_at').where('user_id', '=', member.user.id).executeTakeFirstOrThrow();
+      expect(mapping.updated_at).toEqual(new Date(FAR_AHEAD));
+
+      await pruneImportProgress(ctx.db, new Date(laterBy(FAR_AHEAD, 23 * 3600_000)));
+      expect((await member.get(progressUrl)).status).toBe(200);
+      await pruneImportProgress(ctx.db, new Date(laterBy(FAR_AHEAD, 25 * 3600_000)));
+      expect((await member.get(progressUrl)).status).toBe(404);
+    });
   });
 });

@@ -5,6 +5,7 @@ import { abv, litersToUsBarrels } from '../../shared/brewing/index.ts';
 import { createBatch, createBooking, createFermenter, DAY } from '../../db/factories/index.ts';
 import { admin, brewer, ctx, member, member2, newBatch, treasurer, useBatchFile } from '../helpers/batches.ts';
 import { binary } from '../helpers/http.ts';
+import { FAR_AHEAD, withClockAt } from '../helpers/time.ts';
 
 // Batches themselves: making and changing them, the list, and the production records they add up to.
 // Their readings are tests/api/batch-readings.test.ts's.
@@ -230,5 +231,23 @@ describe('production records', () => {
     expect([...ownerNames].every((n) => n === member.user.name)).toBe(true);
     expect((await member.get('/api/production-records/export?format=csv')).status).toBe(403);
     expect((await treasurer.get('/api/production-records?from=2026-13')).status).toBe(422);
+  });
+});
+
+describe('changes are stamped by the clock', () => {
+  it('a change to a batch, and the booking it lets go of, carry the clock’s time, whatever the real date', async () => {
+    const now = ctx.clock.now().getTime();
+    const inIt = await createBatch(ctx.db, {
+      ownerId: member.user.id,
+      name: 'Stamped',
+      fermenter: { equipmentId: (await createFermenter(ctx.db)).id, startsAt: new Date(now + DAY), endsAt: new Date(now + 9 * DAY), now: new Date(now) },
+    });
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const res = await member.patch(`/api/batches/${inIt.id}`, { notes: 'Checked years later', bookingId: null });
+      expect(res.status).toBe(200);
+      expect(res.body.batch).toMatchObject({ notes: 'Checked years later', updatedAt: FAR_AHEAD, bookings: [] });
+      const booking = await ctx.db.selectFrom('booking').select(['batch_id', 'updated_at']).where('id', '=', inIt.bookingId!).executeTakeFirstOrThrow();
+      expect(booking).toEqual({ batch_id: null, updated_at: new Date(FAR_AHEAD) });
+    });
   });
 });

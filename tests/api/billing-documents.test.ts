@@ -6,6 +6,7 @@ import { addDays, longDate } from '../../shared/billing/dates.ts';
 import { ctx, treasurer, useBillingFile } from '../helpers/billing-file.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
+import { FAR_AHEAD, withClockAt } from '../helpers/time.ts';
 
 const { ids, invoiceOf } = useBillingFile({ billed: true });
 
@@ -111,5 +112,26 @@ describe('documents', () => {
     expect(texts).toContain("'-10% spoilage");
     expect(texts.some((t) => /^[=+\-@]/.test(t))).toBe(false);
     expect(amounts.every((a) => typeof a === 'number')).toBe(true);
+  });
+});
+
+describe('stamps follow the clock', () => {
+  it('stamps a sent invoice with the clock’s time, whatever the real date', async () => {
+    const inv = await invoiceOf(ids.a, '2026-11');
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      expect((await treasurer.post(`/api/invoices/${inv.id}/send`)).status).toBe(202);
+      expect((await treasurer.get(`/api/invoices/${inv.id}`)).body.invoice.sentAt).toBe(FAR_AHEAD);
+      const row = await ctx.db.selectFrom('invoice').select(['sent_at', 'updated_at']).where('id', '=', inv.id).executeTakeFirstOrThrow();
+      expect(row).toEqual({ sent_at: new Date(FAR_AHEAD), updated_at: new Date(FAR_AHEAD) });
+    });
+  });
+
+  it('stamps a saved billing profile with the clock’s time, whatever the real date', async () => {
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const current = (await treasurer.get('/api/billing/profile')).body.profile;
+      expect((await treasurer.put('/api/billing/profile', current)).status).toBe(200);
+      const row = await ctx.db.selectFrom('setting').select(['updated_at', 'updated_by']).where('key', '=', 'billing_profile').executeTakeFirstOrThrow();
+      expect(row).toEqual({ updated_at: new Date(FAR_AHEAD), updated_by: treasurer.user.id });
+    });
   });
 });

@@ -5,6 +5,7 @@ import { createBooking, createFermenter, createKeg, createMember } from '../../d
 import { fixtureEquipmentId } from '../../db/fixtures/index.ts';
 import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
 import { icsUtc, parseIcs } from '../helpers/ics.ts';
+import { FAR_AHEAD, withClockAt } from '../helpers/time.ts';
 
 let ctx: TestContext;
 let fermenters: { id: string; code: string }[];
@@ -367,5 +368,18 @@ describe('bookings move with the clock', () => {
     await advanceBookingStates(ctx.db, new Date(at(66, 11)));
     expect((await member.get(`/api/bookings/${b.id}`)).body.booking.state).toBe('finished');
     expect((await member.delete(`/api/bookings/${b.id}`)).status).toBe(409);
+  });
+});
+
+describe('settings are stamped by the clock', () => {
+  it('a saved section carries the clock’s time, whatever the real date', async () => {
+    const admin = await ctx.signIn('admin@example.org');
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const current = await admin.get('/api/settings/booking_rules');
+      const saved = await admin.put('/api/settings/booking_rules', current.body.value);
+      expect(saved.status).toBe(200);
+      expect(saved.body).toMatchObject({ updatedAt: FAR_AHEAD, updatedBy: { id: admin.user.id } });
+      expect((await admin.get('/api/settings/booking_rules')).body.updatedAt).toBe(FAR_AHEAD);
+    });
   });
 });

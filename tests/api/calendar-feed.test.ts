@@ -3,6 +3,7 @@ import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { createBooking, createFermenter, createInvoice, createKeg, createKegCheckout, createMember, DAY, setSetting } from '../../db/factories/index.ts';
 import { type ApiClient, type TestContext, useTestContext } from '../helpers/context.ts';
+import { FAR_AHEAD, laterBy, withClockAt } from '../helpers/time.ts';
 
 // Private calendar feeds: a member's bookings and due dates, the rota's hand-overs and due dates,
 // read by an iCalendar parser the way a calendar program would, with no session.
@@ -193,5 +194,28 @@ describe('the rota’s feed', () => {
         .execute();
     }
     expect((await fetchFeed(made.body.feed.url)).status).toBe(200);
+  });
+});
+
+describe('feed links follow the clock', () => {
+  it('a new link is made, and the old one revoked, at the clock’s time, whatever the real date', async () => {
+    const owner = await ctx.signIn((await createMember(ctx.db)).email);
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const first = await owner.post('/api/calendar-feeds', { kind: 'member' });
+      expect(first.body.feed.createdAt).toBe(FAR_AHEAD);
+      const later = laterBy(FAR_AHEAD, DAY);
+      ctx.clock.freeze(later);
+      expect((await owner.post('/api/calendar-feeds', { kind: 'member' })).body.feed.createdAt).toBe(later);
+      const rows = await ctx.db
+        .selectFrom('calendar_feed')
+        .select(['created_at', 'revoked_at'])
+        .where('owner_id', '=', owner.user.id)
+        .orderBy('created_at')
+        .execute();
+      expect(rows).toEqual([
+        { created_at: new Date(FAR_AHEAD), revoked_at: new Date(later) },
+        { created_at: new Date(later), revoked_at: null },
+      ]);
+    });
   });
 });

@@ -6,6 +6,7 @@ import { fixtureUserId } from '../../db/fixtures/index.ts';
 import { createTestContext, type ApiClient, type TestContext } from '../helpers/context.ts';
 import { binary } from '../helpers/http.ts';
 import { pdfText } from '../helpers/pdf.ts';
+import { FAR_AHEAD, laterBy, withClockAt } from '../helpers/time.ts';
 
 // A credit note on a part-paid invoice records a credit only, unless the treasurer says the money was paid
 // back and how: then, and only then, a refund is recorded and the credit note's PDF says so.
@@ -88,5 +89,28 @@ describe('a credit note on a part-paid invoice', () => {
     expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
     const after = await detail(invoice.id);
     expect(after).toMatchObject({ paidCents: 1000, creditedCents: 0, creditNotes: [] });
+  });
+});
+
+describe('invoice stamps follow the clock', () => {
+  const invoiceStamps = (id: string) =>
+    ctx.db.selectFrom('invoice').select(['updated_at', 'paid_at', 'voided_at']).where('id', '=', id).executeTakeFirstOrThrow();
+
+  it('a payment that settles an invoice, and its void, carry the clock’s time, whatever the real date', async () => {
+    const invoice = await partPaidInvoice('stamped.test@example.org');
+    await withClockAt(ctx.clock, FAR_AHEAD, async () => {
+      const due = (await detail(invoice.id)).amountDueCents;
+      const paid = await treasurer.post(`/api/invoices/${invoice.id}/payments`, { amountCents: due, method: 'cash', receivedOn: FAR_AHEAD.slice(0, 10) });
+      expect(paid.status).toBe(201);
+      expect(paid.body.invoice).toMatchObject({ status: 'paid', paidAt: FAR_AHEAD });
+      expect(await invoiceStamps(invoice.id)).toEqual({ updated_at: new Date(FAR_AHEAD), paid_at: new Date(FAR_AHEAD), voided_at: null });
+
+      const later = laterBy(FAR_AHEAD, 3600_000);
+      ctx.clock.freeze(later);
+      const voided = await treasurer.post(`/api/invoices/${invoice.id}/void`, { reason: 'Billed to the wrong member', refundMethod: 'bank_transfer' });
+      expect(voided.status).toBe(200);
+      expect(await detail(invoice.id)).toMatchObject({ status: 'void', voidedAt: later, paidAt: FAR_AHEAD });
+      expect(await invoiceStamps(invoice.id)).toEqual({ updated_at: new Date(later), paid_at: new Date(FAR_AHEAD), voided_at: new Date(later) });
+    });
   });
 });

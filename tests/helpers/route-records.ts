@@ -168,13 +168,16 @@ export function routeRecords(ctx: TestContext, brewer: ApiClient) {
               invoice.id,
               { amountCents: owed + 500, overpaidCents: 500, method: 'online', receivedOn: today(), reference: mark('payment') },
               null,
+              now(),
             ),
           );
         return { params: { id: payment.id }, marks: [...who, description] };
       }
       case 'creditNote': {
         const { invoice, description } = await invoiceFor(owner);
-        await ctx.db.transaction().execute((trx) => voidInvoice(trx, invoice.id, { reason: 'Billed by mistake', refundMethod: null }, today(), treasurerId));
+        await ctx.db
+          .transaction()
+          .execute((trx) => voidInvoice(trx, invoice.id, { reason: 'Billed by mistake', refundMethod: null }, today(), treasurerId, now()));
         const note = await ctx.db.selectFrom('credit_note').select('id').where('invoice_id', '=', invoice.id).executeTakeFirstOrThrow();
         return { params: { id: note.id }, marks: [...who, description] };
       }

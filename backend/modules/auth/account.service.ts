@@ -22,10 +22,10 @@ export interface AccountDeps {
 const unlockLinkHours = 24;
 
 /** Mails the owner of a just-locked account a one-time link that lifts the lock. */
-export async function sendUnlockLink({ db, config, queue }: AccountDeps, email: string): Promise<void> {
+export async function sendUnlockLink({ db, config, queue }: AccountDeps, email: string, now: Date): Promise<void> {
   const user = await findActiveUserByEmail(db, email);
   if (!user) return;
-  const token = await issueToken(db, user.id, 'account_unlock', unlockLinkHours, null);
+  const token = await issueToken(db, user.id, 'account_unlock', unlockLinkHours, null, now);
   const link = `${config.publicUrl}/unlock?token=${token}`;
   await audit(db, null, 'sign_in_locked', 'User', user.id, { failures: config.LOGIN_LOCK_PER_ACCOUNT });
   const { coopName } = await coopProfile(db);
@@ -43,10 +43,10 @@ export async function sendUnlockLink({ db, config, queue }: AccountDeps, email: 
 }
 
 /** Mails a reset link when the address belongs to an active account; says nothing either way. */
-export async function requestPasswordReset({ db, config, queue }: AccountDeps, email: string): Promise<void> {
+export async function requestPasswordReset({ db, config, queue }: AccountDeps, email: string, now: Date): Promise<void> {
   const user = await findActiveUserByEmail(db, email);
   if (!user) return;
-  const token = await issueToken(db, user.id, 'password_reset', 1, null);
+  const token = await issueToken(db, user.id, 'password_reset', 1, null, now);
   const link = `${config.publicUrl}/reset-password?token=${token}`;
   const { coopName } = await coopProfile(db);
   await enqueueMail(queue, { to: user.email, ...passwordResetMail({ coopName, name: user.name, link }) });
@@ -65,7 +65,7 @@ export async function updateMe(db: Database, userId: string, input: UpdateMeInpu
 export async function resetPassword(db: Database, throttle: LoginThrottle, input: { token: string; password: string }, now: Date): Promise<void> {
   const passwordHash = await hashPassword(input.password);
   await db.transaction().execute(async (trx) => {
-    const tok = await consumeToken(trx, input.token, 'password_reset');
+    const tok = await consumeToken(trx, input.token, 'password_reset', now);
     await setPasswordHash(trx, tok.user_id, passwordHash, now);
     await endSessionsOf(trx, tok.user_id);
     // Whoever reads the owner's mail may sign in again: a new password lifts a sign-in lock too.
@@ -74,9 +74,9 @@ export async function resetPassword(db: Database, throttle: LoginThrottle, input
   });
 }
 
-export async function unlockAccount(db: Database, throttle: LoginThrottle, token: string): Promise<void> {
+export async function unlockAccount(db: Database, throttle: LoginThrottle, token: string, now: Date): Promise<void> {
   await db.transaction().execute(async (trx) => {
-    const tok = await consumeToken(trx, token, 'account_unlock');
+    const tok = await consumeToken(trx, token, 'account_unlock', now);
     await throttle.unlock(trx, tok.email);
     await audit(trx, tok.user_id, 'sign_in_unlocked', 'User', tok.user_id);
   });
@@ -86,7 +86,7 @@ export async function unlockAccount(db: Database, throttle: LoginThrottle, token
 export async function acceptInvitation(db: Database, input: AcceptInvitationInput, now: Date): Promise<SessionUser> {
   const passwordHash = await hashPassword(input.password);
   const row = await db.transaction().execute(async (trx) => {
-    const tok = await consumeToken(trx, input.token, 'invitation');
+    const tok = await consumeToken(trx, input.token, 'invitation', now);
     const updated = await completeInvitedAccount(trx, tok.user_id, { name: input.name, passwordHash }, now);
     await audit(trx, tok.user_id, 'invitation_accepted', 'User', tok.user_id);
     return updated;

@@ -97,7 +97,7 @@ export function authRoutes({ db, config, queue, clock }: Deps): Router {
     if (refusal) return refuse(res, refusal);
     const row = await checkCredentials(db, input.email, input.password);
     if (!row) {
-      if (await throttle.failed(input.email)) await sendUnlockLink({ db, config, queue }, input.email);
+      if (await throttle.failed(input.email)) await sendUnlockLink({ db, config, queue }, input.email, clock.now());
       throw new HttpProblem(401, 'Sign-in failed', 'E-mail or password is wrong.');
     }
     await throttle.succeeded(input.email, req.ip);
@@ -126,7 +126,7 @@ export function authRoutes({ db, config, queue, clock }: Deps): Router {
 
   router.post('/password-reset', perIp, async (req, res) => {
     const { email } = passwordResetRequestSchema.parse(req.body ?? {});
-    await requestPasswordReset({ db, config, queue }, email);
+    await requestPasswordReset({ db, config, queue }, email, clock.now());
     // The same answer whether or not the account exists.
     res.status(202).json({ ok: true });
   });
@@ -139,12 +139,12 @@ export function authRoutes({ db, config, queue, clock }: Deps): Router {
 
   router.post('/unlock', async (req, res) => {
     const { token } = unlockAccountSchema.parse(req.body ?? {});
-    await unlockAccount(db, throttle, token);
+    await unlockAccount(db, throttle, token, clock.now());
     res.status(204).end();
   });
 
   router.get('/invitations/:token', async (req, res) => {
-    const tok = await peekToken(db, req.params.token, 'invitation');
+    const tok = await peekToken(db, req.params.token, 'invitation', clock.now());
     res.json({ email: tok.email, name: tok.name });
   });
 

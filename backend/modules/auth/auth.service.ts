@@ -58,30 +58,31 @@ const sha256 = (s: string) => createHash('sha256').update(s).digest('hex');
 
 const tokenLabels: Record<TokenPurpose, string> = { invitation: 'Invitation', password_reset: 'Reset link', account_unlock: 'Unlock link' };
 
-/** A single-use token; only its hash is stored. Returns the token to put in the link. */
-export async function issueToken(db: Database, userId: string, purpose: TokenPurpose, ttlHours: number, createdBy: string | null): Promise<string> {
+/** A single-use token issued at the clock's `now` and valid for `ttlHours`; only its hash is stored. Returns the token to put in the link. */
+export async function issueToken(db: Database, userId: string, purpose: TokenPurpose, ttlHours: number, createdBy: string | null, now: Date): Promise<string> {
   const token = randomBytes(32).toString('base64url');
   // A newer link replaces older unused ones of the same kind.
-  await retireUnusedTokens(db, userId, purpose, new Date());
-  await insertToken(db, { userId, purpose, tokenHash: sha256(token), expiresAt: new Date(Date.now() + ttlHours * 3600_000), createdBy });
+  await retireUnusedTokens(db, userId, purpose, now);
+  await insertToken(db, { userId, purpose, tokenHash: sha256(token), expiresAt: new Date(now.getTime() + ttlHours * 3600_000), createdBy });
   return token;
 }
 
-async function findToken(db: Database, token: string, purpose: TokenPurpose, lock: boolean) {
+async function findToken(db: Database, token: string, purpose: TokenPurpose, lock: boolean, now: Date) {
   const row = await findTokenByHash(db, sha256(token), purpose, lock);
   const label = tokenLabels[purpose];
   if (!row || !row.is_active) throw notFound(label);
   if (row.used_at) throw gone(`${label} has already been used.`);
-  if (new Date(row.expires_at) <= new Date()) throw gone(`${label} has expired.`);
+  if (new Date(row.expires_at) <= now) throw gone(`${label} has expired.`);
   return row;
 }
 
-export const peekToken = (db: Database, token: string, purpose: TokenPurpose) => findToken(db, token, purpose, false);
+/** The token's row if it may still be used at `now`, without using it. */
+export const peekToken = (db: Database, token: string, purpose: TokenPurpose, now: Date) => findToken(db, token, purpose, false, now);
 
-/** Marks the token used and returns its user id; call inside the transaction that acts on it. */
-export async function consumeToken(db: Database, token: string, purpose: TokenPurpose) {
-  const row = await findToken(db, token, purpose, true);
-  await markTokenUsed(db, row.id, new Date());
+/** Marks the token used at `now` and returns its row; call inside the transaction that acts on it. */
+export async function consumeToken(db: Database, token: string, purpose: TokenPurpose, now: Date) {
+  const row = await findToken(db, token, purpose, true, now);
+  await markTokenUsed(db, row.id, now);
   return row;
 }
 

@@ -129,8 +129,9 @@ export function batchesRoutes({ db, clock }: Deps): Router {
     const progressId = progressIdSchema.parse(typeof body.progressId === 'string' && body.progressId ? body.progressId : req.query.progressId);
     const mappingField = typeof body.mapping === 'string' ? body.mapping : body.mapping !== undefined ? JSON.stringify(body.mapping) : undefined;
     const [settings, timeZone] = await Promise.all([loadFermentationSettings(db), coopTimeZone(db)]);
-    void pruneImportProgress(db).catch(() => undefined);
-    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: userOf(req), settings, timeZone, now: clock.now() });
+    const now = clock.now();
+    void pruneImportProgress(db, now).catch(() => undefined);
+    const result = await importReadings(db, { batch: row, file, mappingField, dryRun, progressId, actor: userOf(req), settings, timeZone, now });
     res.json(result);
   });
 

@@ -201,10 +201,10 @@ export async function updateBatch(db: Database, batch: BatchRow, input: z.infer<
       ...(packaging && input.packagedAt === undefined && !batch.packaged_at ? { packaged_at: now } : {}),
       // Discarding dumps the beer now (the monthly production report counts it as a loss then).
       ...(input.status === 'discarded' && batch.status !== 'discarded' ? { discarded_at: now } : {}),
-      updated_at: new Date(),
+      updated_at: now,
     });
     if (input.bookingId === null) {
-      await unlinkBatchBookings(trx, batch.id, new Date());
+      await unlinkBatchBookings(trx, batch.id, now);
     } else if (input.bookingId) {
       await linkBooking(trx, batch.id, batch.owner_id, input.bookingId, now);
     }

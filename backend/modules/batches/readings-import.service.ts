@@ -38,17 +38,21 @@ export interface ImportRequest {
 
 type Progress = (phase: 'reading' | 'checking' | 'writing' | 'done' | 'failed', rowsDone: number, rowsTotal: number | null, message?: string) => Promise<void>;
 
-/** Progress rows live outside the import's transaction so that a poll on any instance sees them. */
+/**
+ * Progress rows live outside the import's transaction so that a poll on any instance sees them; they are
+ * stamped with the import's `now` (the clock's). How often they are written is paced by the machine's
+ * own elapsed time, a write throttle that no rule reads.
+ */
 function progressWriter(db: Database, req: ImportRequest): Progress {
   if (!req.progressId) return () => Promise.resolve();
   const id = req.progressId;
-  let last = 0;
+  let lastWriteMs = 0;
   return async (phase, rowsDone, rowsTotal, message = '') => {
-    const now = Date.now();
+    const elapsedMs = performance.now();
     // At most a few writes a second, but always the phase changes that end an import.
-    if (phase !== 'done' && phase !== 'failed' && now - last < 250 && rowsDone !== 0) return;
-    last = now;
-    await upsertImportProgress(db, { id, userId: req.actor.id, batchId: req.batch.id, phase, rowsDone, rowsTotal, message }, new Date());
+    if (phase !== 'done' && phase !== 'failed' && elapsedMs - lastWriteMs < 250 && rowsDone !== 0) return;
+    lastWriteMs = elapsedMs;
+    await upsertImportProgress(db, { id, userId: req.actor.id, batchId: req.batch.id, phase, rowsDone, rowsTotal, message }, req.now);
   };
 }
 
@@ -112,7 +116,7 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
         const ids = await insertReadings(trx, req.batch.id, normalised, 'import', req.actor.id, (done) => progress('writing', done, normalised.length));
         if (first && normalised.some((n) => n.time < first.time)) await renormaliseBrix(trx, req.batch.id, req.settings);
         await startFermentingIfPlanned(trx, req.batch, req.actor.id, req.now);
-        await rememberImportMapping(trx, req.actor.id, mapping, prepared.headers, new Date());
+        await rememberImportMapping(trx, req.actor.id, mapping, prepared.headers, req.now);
         await audit(trx, req.actor.id, 'readings:imported', 'Batch', req.batch.id, {
           file: req.file.originalname,
           fileType: prepared.fileType,
@@ -134,9 +138,9 @@ export async function importReadings(db: Database, req: ImportRequest, pool: Imp
   }
 }
 
-/** Forget progress rows older than a day. */
-export async function pruneImportProgress(db: Database) {
-  await deleteImportProgressBefore(db, new Date(Date.now() - 86_400_000));
+/** Forget progress rows older than a day at the clock's `now`. */
+export async function pruneImportProgress(db: Database, now: Date) {
+  await deleteImportProgressBefore(db, new Date(now.getTime() - 86_400_000));
 }
 
 /** How far an import of `userId` into `batchId` has got, or undefined when there is no such import. */

@@ -155,7 +155,7 @@ export async function rememberedImportMapping(db: Database, userId: string): Pro
 export async function rememberImportMapping(trx: Database, userId: string, mapping: unknown, headers: string[], at: Date): Promise<void> {
   await trx
     .insertInto('reading_import_mapping')
-    .values({ user_id: userId, mapping: JSON.stringify(mapping), headers })
+    .values({ user_id: userId, mapping: JSON.stringify(mapping), headers, updated_at: at })
     .onConflict((oc) => oc.column('user_id').doUpdateSet({ mapping: JSON.stringify(mapping), headers, updated_at: at }))
     .execute();
 }
@@ -175,7 +175,7 @@ export async function upsertImportProgress(db: Database, p: ImportProgressRow, a
   const { phase, message } = p;
   await db
     .insertInto('reading_import_progress')
-    .values({ id: p.id, user_id: p.userId, batch_id: p.batchId, phase, rows_done: p.rowsDone, rows_total: p.rowsTotal, message })
+    .values({ id: p.id, user_id: p.userId, batch_id: p.batchId, phase, rows_done: p.rowsDone, rows_total: p.rowsTotal, message, updated_at: at })
     .onConflict((oc) =>
       oc
         .column('id')

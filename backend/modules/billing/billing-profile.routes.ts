@@ -6,7 +6,7 @@ import { getBillingProfile, saveBillingProfile } from './billing-profile.service
 import { can, signedInRouter } from './invoice-access.ts';
 
 /** The invoice header and how members pay: `GET/PUT /api/billing/profile`. */
-export function billingProfileRoutes({ db }: Deps): Router {
+export function billingProfileRoutes({ db, clock }: Deps): Router {
   const router = signedInRouter();
 
   router.get('/', async (req, res) => {
@@ -17,7 +17,7 @@ export function billingProfileRoutes({ db }: Deps): Router {
   router.put('/', async (req, res) => {
     can(req).throwUnlessCan('update', 'PriceList');
     const input = billingProfileSchema.parse(req.body ?? {});
-    res.json({ profile: await saveBillingProfile(db, input, userOf(req).id) });
+    res.json({ profile: await saveBillingProfile(db, input, userOf(req).id, clock.now()) });
   });
 
   return router;

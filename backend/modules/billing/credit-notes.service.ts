@@ -20,6 +20,7 @@ async function issueCreditNote(
     kind: 'void' | 'refund';
     reason: string;
     today: string;
+    now: Date;
     lines: { invoiceLineId: string | null; description: string; amountCents: number; taxRateBp: number; taxCents: number }[];
   },
   actorId: string,
@@ -54,7 +55,7 @@ async function issueCreditNote(
       tax_cents: l.taxCents,
     })),
   );
-  await addCredited(trx, inv.id, subtotal + tax);
+  await addCredited(trx, inv.id, subtotal + tax, args.now);
   await audit(trx, actorId, 'credit_note_issued', 'Invoice', inv.id, { creditNote: number, kind: args.kind, totalCents: subtotal + tax });
   return note.id;
 }
@@ -65,7 +66,7 @@ async function issueCreditNote(
  * needs no credit note. Money already paid is paid back when a refund method is given, otherwise
  * it stays as credit on the member's account.
  */
-export async function voidInvoice(trx: Database, invoiceId: string, input: Required<VoidInvoiceInput>, today: string, actorId: string) {
+export async function voidInvoice(trx: Database, invoiceId: string, input: Required<VoidInvoiceInput>, today: string, actorId: string, now: Date) {
   const inv = await lockInvoice(trx, invoiceId);
   if (inv.status === 'void') throw conflict('This invoice is already void.');
   let creditNoteId: string | null = null;
@@ -90,10 +91,10 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
           taxCents: -Number(earlier.tax ?? 0),
         });
       }
-      creditNoteId = await issueCreditNote(trx, inv, { kind: 'void', reason: input.reason, today, lines: cnLines }, actorId);
+      creditNoteId = await issueCreditNote(trx, inv, { kind: 'void', reason: input.reason, today, now, lines: cnLines }, actorId);
     }
   }
-  await updateInvoice(trx, invoiceId, { status: 'void', voided_at: new Date(), void_reason: input.reason });
+  await updateInvoice(trx, invoiceId, { status: 'void', voided_at: now, void_reason: input.reason }, now);
   await audit(trx, actorId, 'voided', 'Invoice', invoiceId, { reason: input.reason, creditNoteId });
   if (creditNoteId && input.refundMethod && inv.paid_cents > 0) {
     await recordPayment(
@@ -101,6 +102,7 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
       invoiceId,
       { amountCents: -inv.paid_cents, method: input.refundMethod, receivedOn: today, note: `Refund on voiding: ${input.reason}`, creditNoteId },
       actorId,
+      now,
     );
   }
   return { creditNoteId };
@@ -111,7 +113,7 @@ export async function voidInvoice(trx: Database, invoiceId: string, input: Requi
  * the invoice's rate (net rounded half-up, tax the rest). With a refund method the money is also
  * paid back, which needs that much to have been paid.
  */
-export async function refundInvoice(trx: Database, invoiceId: string, input: Required<RefundInput>, today: string, actorId: string) {
+export async function refundInvoice(trx: Database, invoiceId: string, input: Required<RefundInput>, today: string, actorId: string, now: Date) {
   const inv = await lockInvoice(trx, invoiceId);
   if (inv.status !== 'issued' && inv.status !== 'paid') throw conflict(`Only an issued or paid invoice can be credited; this one is ${inv.status}.`);
   const creditable = inv.total_cents - inv.credited_cents;
@@ -137,6 +139,7 @@ export async function refundInvoice(trx: Database, invoiceId: string, input: Req
       kind: 'refund',
       reason: input.reason,
       today,
+      now,
       lines: [{ invoiceLineId: null, description: `Credit: ${input.reason}`, amountCents: netCents, taxRateBp: rateBp, taxCents }],
     },
     actorId,
@@ -147,9 +150,10 @@ export async function refundInvoice(trx: Database, invoiceId: string, input: Req
       invoiceId,
       { amountCents: -input.amountCents, method: input.refundMethod, receivedOn: today, note: `Refund: ${input.reason}`, creditNoteId },
       actorId,
+      now,
     );
   }
-  await settle(trx, invoiceId);
+  await settle(trx, invoiceId, now);
   return { creditNoteId };
 }
 

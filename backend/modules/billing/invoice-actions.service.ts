@@ -20,32 +20,34 @@ export async function takePaymentByHand(
   input: { amountCents: number; method: 'bank_transfer' | 'cash'; receivedOn: string; reference: string; note: string },
   actorId: string,
 ): Promise<Payment> {
+  const now = clock.now();
   const payment = await db.transaction().execute(async (trx) => {
-    const recorded = await recordManualPayment(trx, invoiceId, input, actorId);
+    const recorded = await recordManualPayment(trx, invoiceId, input, actorId, now);
     await queueReceipt(trx, queue, recorded.id);
     return recorded;
   });
-  await closeStaleCheckouts(db, config, invoiceId, clock.now(), queue);
+  await closeStaleCheckouts(db, config, invoiceId, now, queue);
   return payment;
 }
 
-/** A void or credit on the co-op's date, in one transaction; then stale checkouts are closed. */
+/** A void or credit at the clock's now, on the co-op's date, in one transaction; then stale checkouts are closed. */
 async function creditOnCoopDate<R>(
   { db, config, clock, queue }: BillingDeps,
   invoiceId: string,
-  credit: (trx: Database, today: string) => Promise<R>,
+  credit: (trx: Database, today: string, now: Date) => Promise<R>,
 ): Promise<R> {
-  const result = await db.transaction().execute(async (trx) => credit(trx, (await coopToday(trx, clock.now())).today));
-  await closeStaleCheckouts(db, config, invoiceId, clock.now(), queue);
+  const now = clock.now();
+  const result = await db.transaction().execute(async (trx) => credit(trx, (await coopToday(trx, now)).today, now));
+  await closeStaleCheckouts(db, config, invoiceId, now, queue);
   return result;
 }
 
 /** Voids an invoice on the co-op's date (see `voidInvoice`). */
 export function voidInvoiceNow(deps: BillingDeps, invoiceId: string, input: Required<VoidInvoiceInput>, actorId: string) {
-  return creditOnCoopDate(deps, invoiceId, (trx, today) => voidInvoice(trx, invoiceId, input, today, actorId));
+  return creditOnCoopDate(deps, invoiceId, (trx, today, now) => voidInvoice(trx, invoiceId, input, today, actorId, now));
 }
 
 /** Credits part of an invoice on the co-op's date, paying it back when a method is given (see `refundInvoice`). */
 export function refundInvoiceNow(deps: BillingDeps, invoiceId: string, input: Required<RefundInput>, actorId: string) {
-  return creditOnCoopDate(deps, invoiceId, (trx, today) => refundInvoice(trx, invoiceId, input, today, actorId));
+  return creditOnCoopDate(deps, invoiceId, (trx, today, now) => refundInvoice(trx, invoiceId, input, today, actorId, now));
 }

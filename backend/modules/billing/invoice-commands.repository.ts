@@ -8,25 +8,25 @@ export function lockInvoiceRow(trx: Database, id: string) {
   return trx.selectFrom('invoice').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
 }
 
-/** Sets an invoice's subtotal, tax and total from its lines. */
-export async function recomputeTotals(trx: Database, invoiceId: string): Promise<void> {
+/** Sets an invoice's subtotal, tax and total from its lines, stamped `at`. */
+export async function recomputeTotals(trx: Database, invoiceId: string, at: Date): Promise<void> {
   await sql`update invoice set
-      subtotal_cents = t.subtotal, tax_cents = t.tax, total_cents = t.subtotal + t.tax, updated_at = now()
+      subtotal_cents = t.subtotal, tax_cents = t.tax, total_cents = t.subtotal + t.tax, updated_at = ${at}
     from (select coalesce(sum(amount_cents), 0)::int as subtotal, coalesce(sum(tax_cents), 0)::int as tax
           from invoice_line where invoice_id = ${invoiceId}) t
     where invoice.id = ${invoiceId}`.execute(trx);
 }
 
-/** Moves an issued invoice to paid when nothing is left to pay, and a paid one back to issued when something is. */
-export async function settleStatus(trx: Database, invoiceId: string): Promise<void> {
+/** Moves an issued invoice to paid (`paid_at` = `at`) when nothing is left to pay, and a paid one back to issued when something is. */
+export async function settleStatus(trx: Database, invoiceId: string, at: Date): Promise<void> {
   await sql`update invoice set
       status = case when status = 'issued' and total_cents - paid_cents - credited_cents <= 0 then 'paid'
                     when status = 'paid' and total_cents - paid_cents - credited_cents > 0 then 'issued'
                     else status end,
-      paid_at = case when status = 'issued' and total_cents - paid_cents - credited_cents <= 0 then now()
+      paid_at = case when status = 'issued' and total_cents - paid_cents - credited_cents <= 0 then ${at}::timestamptz
                      when status = 'paid' and total_cents - paid_cents - credited_cents > 0 then null
                      else paid_at end,
-      updated_at = now()
+      updated_at = ${at}
     where id = ${invoiceId}`.execute(trx);
 }
 
@@ -61,23 +61,23 @@ export async function lastLinePosition(db: Database, invoiceId: string): Promise
   return Number(max?.max ?? 0);
 }
 
-/** Changes an invoice's columns, stamping updated_at. */
-export async function updateInvoice(trx: Database, invoiceId: string, values: UpdateObject<DB, 'invoice'>): Promise<void> {
+/** Changes an invoice's columns, stamping updated_at with `at`. */
+export async function updateInvoice(trx: Database, invoiceId: string, values: UpdateObject<DB, 'invoice'>, at: Date): Promise<void> {
   await trx
     .updateTable('invoice')
-    .set({ ...values, updated_at: new Date() })
+    .set({ ...values, updated_at: at })
     .where('id', '=', invoiceId)
     .execute();
 }
 
 /** Adds to what an invoice counts as paid (a refund adds a negative amount). */
-export function addPaid(trx: Database, invoiceId: string, cents: number) {
-  return updateInvoice(trx, invoiceId, { paid_cents: sql`paid_cents + ${cents}` });
+export function addPaid(trx: Database, invoiceId: string, cents: number, at: Date) {
+  return updateInvoice(trx, invoiceId, { paid_cents: sql`paid_cents + ${cents}` }, at);
 }
 
 /** Adds to what credit notes have credited on an invoice. */
-export function addCredited(trx: Database, invoiceId: string, cents: number) {
-  return updateInvoice(trx, invoiceId, { credited_cents: sql`credited_cents + ${cents}` });
+export function addCredited(trx: Database, invoiceId: string, cents: number, at: Date) {
+  return updateInvoice(trx, invoiceId, { credited_cents: sql`credited_cents + ${cents}` }, at);
 }
 
 /** Records a payment (or a refund) and returns its row. */

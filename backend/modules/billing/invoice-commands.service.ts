@@ -28,9 +28,9 @@ export async function lockInvoice(trx: Database, id: string) {
   return row;
 }
 
-/** Moves an issued invoice to paid when nothing is left to pay, and back when a correction reopens it. */
-export async function settle(trx: Database, invoiceId: string) {
-  await settleStatus(trx, invoiceId);
+/** Moves an issued invoice to paid at `now` when nothing is left to pay, and back when a correction reopens it. */
+export async function settle(trx: Database, invoiceId: string, now: Date) {
+  await settleStatus(trx, invoiceId, now);
 }
 
 /**
@@ -40,12 +40,12 @@ export async function settle(trx: Database, invoiceId: string) {
  */
 export async function createInvoice(
   trx: Database,
-  args: { runId: string | null; memberId: string; period: string; currency: string; lines: PricedCharge[] },
+  args: { runId: string | null; memberId: string; period: string; currency: string; lines: PricedCharge[]; now: Date },
 ): Promise<string | null> {
   const created = await insertInvoiceUnlessExists(trx, { run_id: args.runId, member_id: args.memberId, period: args.period, currency: args.currency });
   if (!created) return null;
   await insertLines(trx, created.id, args.lines, 1);
-  await recomputeTotals(trx, created.id);
+  await recomputeTotals(trx, created.id, args.now);
   return created.id;
 }
 
@@ -74,26 +74,31 @@ async function insertLines(trx: Database, invoiceId: string, lines: PricedCharge
 }
 
 /** Adds a manual charge to a member's draft invoice (the run has already made it). */
-export async function appendToDraft(trx: Database, invoiceId: string, line: PricedCharge) {
+export async function appendToDraft(trx: Database, invoiceId: string, line: PricedCharge, now: Date) {
   await insertLines(trx, invoiceId, [line], (await lastLinePosition(trx, invoiceId)) + 1);
-  await recomputeTotals(trx, invoiceId);
+  await recomputeTotals(trx, invoiceId, now);
 }
 
-/** Issues a draft: takes the next gapless number of the issue year, dates it and sets the due date. */
-export async function issueInvoice(trx: Database, invoiceId: string, today: string, actorId: string | null): Promise<void> {
+/** Issues a draft at `now`: takes the next gapless number of the issue year, dates it `today` and sets the due date. */
+export async function issueInvoice(trx: Database, invoiceId: string, today: string, actorId: string | null, now: Date): Promise<void> {
   const inv = await lockInvoice(trx, invoiceId);
   if (inv.status !== 'draft') throw conflict(`This invoice is ${inv.status}, not a draft.`);
   const profile = await getBillingProfile(trx);
   const { number, seq, year } = await takeNumber(trx, 'invoice', Number(today.slice(0, 4)));
-  await updateInvoice(trx, invoiceId, {
-    status: 'issued',
-    number,
-    number_year: year,
-    number_seq: seq,
-    issued_on: today,
-    due_on: addDays(today, profile.paymentTermsDays),
-  });
-  await settle(trx, invoiceId);
+  await updateInvoice(
+    trx,
+    invoiceId,
+    {
+      status: 'issued',
+      number,
+      number_year: year,
+      number_seq: seq,
+      issued_on: today,
+      due_on: addDays(today, profile.paymentTermsDays),
+    },
+    now,
+  );
+  await settle(trx, invoiceId, now);
   await audit(trx, actorId, 'issued', 'Invoice', invoiceId, { number });
 }
 
@@ -112,6 +117,7 @@ export async function recordPayment(
     overpaidCents?: number;
   },
   actorId: string | null,
+  now: Date,
 ): Promise<Payment> {
   const inv = await lockInvoice(trx, invoiceId);
   const row = await insertPayment(trx, {
@@ -128,8 +134,8 @@ export async function recordPayment(
     recorded_by: actorId,
     overpaid_cents: p.overpaidCents ?? 0,
   });
-  await addPaid(trx, invoiceId, p.amountCents - (p.overpaidCents ?? 0));
-  await settle(trx, invoiceId);
+  await addPaid(trx, invoiceId, p.amountCents - (p.overpaidCents ?? 0), now);
+  await settle(trx, invoiceId, now);
   await audit(trx, actorId, p.amountCents < 0 ? 'refunded' : 'payment_recorded', 'Invoice', invoiceId, {
     paymentId: row.id,
     amountCents: p.amountCents,
@@ -144,6 +150,7 @@ export async function recordManualPayment(
   invoiceId: string,
   p: { amountCents: number; method: 'bank_transfer' | 'cash'; receivedOn: string; reference: string; note: string },
   actorId: string,
+  now: Date,
 ): Promise<Payment> {
   const inv = await lockInvoice(trx, invoiceId);
   if (inv.status !== 'issued') throw conflict(`Only an issued invoice takes payments; this one is ${inv.status}.`);
@@ -151,18 +158,19 @@ export async function recordManualPayment(
   if (p.amountCents > due) {
     throw unprocessable(`Only ${due} cents are due on this invoice.`, [{ path: 'amountCents', message: `At most ${due} cents are due` }]);
   }
-  return recordPayment(trx, invoiceId, p, actorId);
+  return recordPayment(trx, invoiceId, p, actorId, now);
 }
 
 /** Issues a draft on the co-op's date at `now`, in one transaction. */
 export async function issueDraft(db: Database, invoiceId: string, now: Date, actorId: string): Promise<void> {
   await db.transaction().execute(async (trx) => {
     const { today } = await coopToday(trx, now);
-    await issueInvoice(trx, invoiceId, today, actorId);
+    await issueInvoice(trx, invoiceId, today, actorId, now);
   });
 }
 
-export async function markSent(trx: Database, invoiceId: string, actorId: string, to: string) {
-  await updateInvoice(trx, invoiceId, { sent_at: new Date() });
+/** Marks an invoice sent to `to` at `now`. */
+export async function markSent(trx: Database, invoiceId: string, actorId: string, to: string, now: Date) {
+  await updateInvoice(trx, invoiceId, { sent_at: now }, now);
   await audit(trx, actorId, 'sent', 'Invoice', invoiceId, { to });
 }

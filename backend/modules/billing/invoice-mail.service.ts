@@ -20,7 +20,7 @@ export async function sendInvoice({ db, config, queue, clock }: Deps, invoiceId:
     if (row.status === 'void') throw conflict('A void invoice is not sent; its credit note replaces it.');
     if (row.status === 'draft') {
       const { today } = await coopToday(trx, now);
-      await issueInvoice(trx, invoiceId, today, actorId);
+      await issueInvoice(trx, invoiceId, today, actorId, now);
     }
   });
   const { today } = await coopToday(db, now);
@@ -34,6 +34,6 @@ export async function sendInvoice({ db, config, queue, clock }: Deps, invoiceId:
     ...invoiceMail({ profile, appUrl: config.publicUrl, invoice, total, due }),
     attachments: [{ filename: invoicePdfFilename(invoice), contentType: 'application/pdf', contentBase64: pdf.toString('base64') }],
   });
-  await db.transaction().execute((trx) => markSent(trx, invoice.id, actorId, invoice.memberEmail));
+  await db.transaction().execute((trx) => markSent(trx, invoice.id, actorId, invoice.memberEmail, now));
   return { to: invoice.memberEmail, invoice: await getDetail(db, invoiceId, today) };
 }

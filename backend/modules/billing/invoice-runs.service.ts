@@ -77,7 +77,8 @@ function stripDraft(l: PricedCharge) {
   return line;
 }
 
-type RunArgs = [input: { period: string; issue: boolean }, actorId: string, clock: RunClock];
+/** A run writes invoices, so it takes the instant too: their stamps are the clock's `now`. */
+type RunArgs = [input: { period: string; issue: boolean }, actorId: string, clock: RunClock & { now: Date }];
 
 /**
  * Runs a period: one invoice per member with charges, made and (unless `issue` is false) issued in
@@ -103,10 +104,17 @@ export async function runPeriodIn(trx: Database, ...[input, actorId, clock]: Run
   const made: string[] = [];
   // Members in a fixed order, so concurrent runs queue behind each other instead of deadlocking.
   for (const memberId of [...byMember.keys()].sort()) {
-    const id = await createInvoice(trx, { runId: run.id, memberId, period: input.period, currency: profile.currency, lines: byMember.get(memberId)! });
+    const id = await createInvoice(trx, {
+      runId: run.id,
+      memberId,
+      period: input.period,
+      currency: profile.currency,
+      lines: byMember.get(memberId)!,
+      now: clock.now,
+    });
     if (!id) continue;
     made.push(id);
-    if (input.issue) await issueInvoice(trx, id, today, actorId);
+    if (input.issue) await issueInvoice(trx, id, today, actorId, clock.now);
   }
   const invoices = await Promise.all(made.map((id) => getSummary(trx, id, today)));
   const total = invoices.reduce((s, i) => s + i.totalCents, 0);
@@ -139,7 +147,7 @@ export async function issueRunDrafts(db: Database, runId: string, actorId: strin
   return db.transaction().execute(async (trx) => {
     const { today } = await coopToday(trx, now);
     const drafts = await draftsOfRun(trx, runId);
-    for (const d of drafts) await issueInvoice(trx, d.id, today, actorId);
+    for (const d of drafts) await issueInvoice(trx, d.id, today, actorId, now);
     await audit(trx, actorId, 'issued_drafts', 'InvoiceRun', runId, { count: drafts.length });
     return drafts.map((d) => d.id);
   });

@@ -58,6 +58,7 @@ export async function applyPaidSession(
       checkoutSessionId: session.id,
     },
     null,
+    now,
   );
   await completeSession(trx, session.id, now);
   await queueReceipt(trx, queue, payment.id);

@@ -174,7 +174,7 @@ export async function addManualCharge(db: Database, input: Required<ManualCharge
       const { timeZone } = await coopToday(trx, now);
       const { first, last, next } = periodBounds(input.period);
       const book = await PriceBook.load(trx);
-      await appendToDraft(trx, invoice.id, priceCharge({ period, first, last, next, timeZone, book }, manualChargeDraft({ first, last }, row)));
+      await appendToDraft(trx, invoice.id, priceCharge({ period, first, last, next, timeZone, book }, manualChargeDraft({ first, last }, row)), now);
     }
     await audit(trx, actorId, input.amountCents < 0 ? 'credit_added' : 'charge_added', 'Charge', row.id, { ...input, invoiceId: invoice?.id ?? null });
     return toManual(await manualChargesQuery(trx).where('m.id', '=', row.id).executeTakeFirstOrThrow());

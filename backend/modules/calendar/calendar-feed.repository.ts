@@ -19,11 +19,11 @@ export async function lockFeedOwner(trx: Database, ownerId: string): Promise<voi
   await trx.selectFrom('app_user').select('id').where('id', '=', ownerId).forUpdate().executeTakeFirstOrThrow();
 }
 
-/** Revokes the person's live feed of this kind; how many were revoked. */
-export async function revokeFeeds(trx: Database, ownerId: string, kind: CalendarFeedKind): Promise<number> {
+/** Revokes the person's live feed of this kind at `at`; how many were revoked. */
+export async function revokeFeeds(trx: Database, ownerId: string, kind: CalendarFeedKind, at: Date): Promise<number> {
   const revoked = await trx
     .updateTable('calendar_feed')
-    .set({ revoked_at: sql`now()` })
+    .set({ revoked_at: at })
     .where('owner_id', '=', ownerId)
     .where('kind', '=', kind)
     .where('revoked_at', 'is', null)
@@ -32,7 +32,10 @@ export async function revokeFeeds(trx: Database, ownerId: string, kind: Calendar
   return revoked.length;
 }
 
-export async function insertFeed(trx: Database, values: { id: string; owner_id: string; kind: CalendarFeedKind; token_hash: string }): Promise<Date> {
+export async function insertFeed(
+  trx: Database,
+  values: { id: string; owner_id: string; kind: CalendarFeedKind; token_hash: string; created_at: Date },
+): Promise<Date> {
   return (await trx.insertInto('calendar_feed').values(values).returning('created_at').executeTakeFirstOrThrow()).created_at;
 }
 

@@ -10,7 +10,7 @@ import { calendarFeedKinds, feedForToken, listFeeds, renderFeed, renewFeed } fro
 const renewSchema = z.object({ kind: z.enum(['member', 'rota']).default('member') }).strict();
 
 /** `/api/calendar-feeds`: the signed-in person's private calendar links, and a new link (revoking the old). */
-export function calendarFeedsRoutes({ db, config }: Deps): Router {
+export function calendarFeedsRoutes({ db, config, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
@@ -23,7 +23,7 @@ export function calendarFeedsRoutes({ db, config }: Deps): Router {
   router.post('/', async (req, res) => {
     const { kind } = renewSchema.parse(req.body ?? {});
     ForbiddenError.from(req.ability).throwUnlessCan('update', subject('CalendarFeed', { ownerId: userOf(req).id, kind }));
-    res.status(201).json({ feed: await renewFeed(db, config, userOf(req).id, kind) });
+    res.status(201).json({ feed: await renewFeed(db, config, userOf(req).id, kind, clock.now()) });
   });
 
   return router;

@@ -45,14 +45,14 @@ export async function listFeeds(db: Database, config: Config, ownerId: string, k
 }
 
 /** A new link for the person's feed of this kind; the old link (if any) stops working at once. */
-export async function renewFeed(db: Database, config: Config, ownerId: string, kind: CalendarFeedKind): Promise<CalendarFeedView> {
+export async function renewFeed(db: Database, config: Config, ownerId: string, kind: CalendarFeedKind, now: Date): Promise<CalendarFeedView> {
   return db.transaction().execute(async (trx) => {
     // One renewal at a time per person and kind: the row lock on the account serialises them.
     await lockFeedOwner(trx, ownerId);
-    const revoked = await revokeFeeds(trx, ownerId, kind);
+    const revoked = await revokeFeeds(trx, ownerId, kind, now);
     const id = randomUUID();
     const token = feedToken(config, id);
-    const createdAt = await insertFeed(trx, { id, owner_id: ownerId, kind, token_hash: hashToken(token) });
+    const createdAt = await insertFeed(trx, { id, owner_id: ownerId, kind, token_hash: hashToken(token), created_at: now });
     await audit(trx, ownerId, revoked ? 'calendar_feed_renewed' : 'calendar_feed_created', 'CalendarFeed', id, { kind });
     return { kind, url: feedUrl(config, token), createdAt: createdAt.toISOString() };
   });

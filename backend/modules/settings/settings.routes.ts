@@ -7,7 +7,7 @@ import { requireUser, userOf } from '../../middleware/authenticate.ts';
 import { getSetting, saveSetting } from './settings.service.ts';
 
 /** The co-op's settings, one section per key: read by the rota and the treasurer, changed by the admin. */
-export function settingsRoutes({ db }: Deps): Router {
+export function settingsRoutes({ db, clock }: Deps): Router {
   const router = Router();
   router.use(requireUser);
 
@@ -34,7 +34,7 @@ export function settingsRoutes({ db }: Deps): Router {
     if (!key.success) throw notFound('Setting');
     ForbiddenError.from(req.ability).throwUnlessCan('update', 'Setting');
     const value = settingSections[key.data].schema.parse(req.body ?? {});
-    const saved = await saveSetting(db, key.data, value, userOf(req).id);
+    const saved = await saveSetting(db, key.data, value, userOf(req).id, clock.now());
     res.json(saved);
   });
 

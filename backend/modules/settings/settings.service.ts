@@ -62,15 +62,21 @@ export async function coopProfile(db: Database): Promise<CoopProfile> {
   return { ...profile, timeZone };
 }
 
-/** Saves a section (already parsed by its schema) with an audit row; call inside a transaction. */
-export async function putSetting<K extends SettingKey>(trx: Database, key: K, value: ValueOf<K>, actorId: string): Promise<SettingValue<ValueOf<K>>> {
+/** Saves a section (already parsed by its schema) at the clock's `now` with an audit row; call inside a transaction. */
+export async function putSetting<K extends SettingKey>(
+  trx: Database,
+  key: K,
+  value: ValueOf<K>,
+  actorId: string,
+  now: Date,
+): Promise<SettingValue<ValueOf<K>>> {
   const before = await getSetting(trx, key, { forUpdate: true });
-  await upsertSetting(trx, key, value, actorId, new Date());
+  await upsertSetting(trx, key, value, actorId, now);
   await audit(trx, actorId, 'updated', 'Setting', key, { before: before.value, after: value });
   return getSetting(trx, key);
 }
 
 /** Saves a section in its own transaction. */
-export function saveSetting<K extends SettingKey>(db: Database, key: K, value: ValueOf<K>, actorId: string): Promise<SettingValue<ValueOf<K>>> {
-  return db.transaction().execute((trx) => putSetting(trx, key, value, actorId));
+export function saveSetting<K extends SettingKey>(db: Database, key: K, value: ValueOf<K>, actorId: string, now: Date): Promise<SettingValue<ValueOf<K>>> {
+  return db.transaction().execute((trx) => putSetting(trx, key, value, actorId, now));
 }

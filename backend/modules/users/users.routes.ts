@@ -25,7 +25,7 @@ export function usersRoutes({ db, config, queue, clock }: Deps): Router {
     ForbiddenError.from(req.ability).throwUnlessCan('create', 'User');
     const input = inviteUserSchema.parse(req.body ?? {});
     const actor = userOf(req);
-    const { user, token } = await inviteUser(db, input, actor);
+    const { user, token } = await inviteUser(db, input, actor, clock.now());
     await mailInvitation({ db, config, queue }, user, token, actor.name);
     res.status(201).json({ user: { ...user, isActive: true } });
   });

@@ -34,11 +34,11 @@ export async function listUsers(db: Db, q: UserListQuery, onlyId?: string): Prom
 }
 
 /** Creates the account and its one-time invitation token, with the audit row, in one transaction. */
-export async function inviteUser(db: Db, input: InviteUserInput, actor: Actor) {
+export async function inviteUser(db: Db, input: InviteUserInput, actor: Actor, now: Date) {
   return db.transaction().execute(async (trx) => {
     const created = await insertUser(trx, input);
     if (!created) throw conflict(`${input.email} already has an account.`);
-    const token = await issueToken(trx, created.id, 'invitation', INVITATION_TTL_HOURS, actor.id);
+    const token = await issueToken(trx, created.id, 'invitation', INVITATION_TTL_HOURS, actor.id, now);
     await audit(trx, actor.id, 'invited', 'User', created.id, { email: input.email, roles: input.roles });
     return { user: created, token };
   });
