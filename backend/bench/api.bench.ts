@@ -184,6 +184,9 @@ async function main() {
     // PostgreSQL's processes: the parent of this connection's backend, and its children.
     const { rows: backendRows } = await bench.pool.query<{ pid: number }>('select pg_backend_pid() as pid');
     const postmaster = parentOf(backendRows[0]!.pid);
+    // What the app and PostgreSQL spend with no request at all (the job queue's polling, say), a second.
+    const idle = await cpuDuring({ server: children[0]!.pid!, pg: postmaster }, () => new Promise((r) => setTimeout(r, 5000)));
+    console.log(`  idle, CPU a second: server ${(idle.cpuMs.server! / 5).toFixed(0)} ms, PostgreSQL ${(idle.cpuMs.pg! / 5).toFixed(0)} ms`);
     for (const [name, list] of Object.entries(lists)) {
       const cookie = { cookie: cookies[list.path]! };
       const sqlBody = await (await fetch(`http://127.0.0.1:${PORTS.sql}${list.path}`)).text();

@@ -4,7 +4,10 @@ import fs from 'node:fs';
 
 const TICK_MS = 1000 / 100; // USER_HZ is 100 on Linux
 
-/** The fields of /proc/<pid>/stat after the command name (state is [0], ppid [1], utime [11], stime [12]). */
+/**
+ * The fields of /proc/<pid>/stat after the command name (state is [0], ppid [1], utime [11], stime [12], and the
+ * CPU of its children that have ended, cutime [13] and cstime [14]).
+ */
 function statOf(pid: number): string[] | null {
   try {
     const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
@@ -34,11 +37,14 @@ export function processTree(pid: number): number[] {
   return tree;
 }
 
-/** User + system CPU milliseconds of the processes now in `pid`'s tree. */
+/**
+ * User + system CPU milliseconds of the processes now in `pid`'s tree, and of those of its processes that have
+ * ended (PostgreSQL's backends and autovacuum workers come and go).
+ */
 export function cpuMsOfTree(pid: number): number {
   return processTree(pid).reduce((sum, p) => {
     const f = statOf(p);
-    return f ? sum + (Number(f[11]) + Number(f[12])) * TICK_MS : sum;
+    return f ? sum + (Number(f[11]) + Number(f[12]) + Number(f[13]) + Number(f[14])) * TICK_MS : sum;
   }, 0);
 }
 
