@@ -6,6 +6,7 @@
 // process spent (a figure that holds when other work shares the machine). Then the event loop's
 // worst delay while that PDF renders, on the request's own thread and on a PDF render thread.
 // Figures only; tests assert behaviour elsewhere.
+import { execFileSync } from 'node:child_process';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { Kysely, PostgresDialect, sql } from 'kysely';
 import type { DB } from '../db/schema.ts';
@@ -19,6 +20,8 @@ import { evaluateCycle } from '../../shared/cellar/sanitation-rules.ts';
 import { benchDatabase, peakRssMiB, time } from './bench-db.ts';
 
 const DAY = 86_400_000;
+/** The page count, as poppler reads it. */
+const pagesOf = (pdf: Buffer) => Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', ['-'], { input: pdf, encoding: 'utf8' }))?.[1]);
 const MIN = 60_000;
 const from = new Date('2025-12-01T00:00:00Z');
 const to = new Date('2026-12-01T00:00:00Z');
@@ -130,27 +133,32 @@ try {
     const load = await time(() => loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to }));
     const made = queries;
     const pdf = await time(() => renderAuditPdf(load.value, 'every fermenter and keg'));
-    const pages = (pdf.value.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length;
+    const pages = pagesOf(pdf.value);
     console.log(
       `  round ${round}: queries ${made} in ${load.ms.toFixed(0)} ms · PDF ${pdf.ms.toFixed(0)} ms · ${pages} pages, ${(pdf.value.length / 1024).toFixed(0)} KiB · ` +
         `${load.value.exceptions.length} exceptions · total ${(load.ms + pdf.ms).toFixed(0)} ms · peak RSS ${peakRssMiB()} MiB`,
     );
   }
 
-  // The audit as the route makes it: the server warms the render thread at start; the request loads
-  // the data, then the thread lays it out. Against the target of 2 s, with the process's CPU time
-  // (render thread included, PostgreSQL not) and the peak memory.
+  // The audit as the route makes it: the server warms every render thread at start; the request loads
+  // the data, then the threads lay it out in parts at once and one joins them. Against the target of
+  // 2 s, with the process's CPU time (render threads included, PostgreSQL not) and the peak memory.
   await warmAuditRenderer();
   const targetMs = 2000;
+  const parts: string[] = [];
+  pdfRenderPool.events.on('start', ({ exportName }: { exportName: string }) => parts.push(exportName));
   for (const round of [1, 2]) {
     const cpu0 = process.cpuUsage();
     const t = performance.now();
     const loaded = await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to });
+    parts.length = 0;
     const pdf = await renderAuditPdfOffThread(loaded, 'every fermenter and keg');
     const ms = performance.now() - t;
     const cpu = process.cpuUsage(cpu0);
+    const laidOut = parts.filter((p) => p === 'renderAuditPdf').length;
     console.log(
       `  audit as the route makes it, round ${round}: ${ms.toFixed(0)} ms = ${(ms / targetMs).toFixed(2)} × the 2 s target · ` +
+        `${laidOut} part(s) on ${pdfRenderPool.threads} render threads${laidOut > 1 ? ', joined' : ''} · ${pagesOf(pdf)} pages · ` +
         `CPU ${((cpu.user + cpu.system) / 1000).toFixed(0)} ms · ${(pdf.length / 1024).toFixed(0)} KiB · peak RSS ${peakRssMiB()} MiB`,
     );
   }
