@@ -73,6 +73,18 @@ export function splitVessels(data: AuditData, parts: number): AuditVessel[][] {
   return runs;
 }
 
+/** What each of `runs` (splitVessels) lays out: its vessels, and for the first the summary of all and the exceptions. */
+export function auditParts(data: AuditData, runs: AuditVessel[][]): { data: AuditData; part: AuditPart }[] {
+  const summary = data.vessels.map(vesselSummary);
+  return runs.map((vessels, i) => {
+    const first = i === 0;
+    return {
+      data: { ...data, vessels, exceptions: first ? data.exceptions : [] },
+      part: { first, last: i === runs.length - 1, summary: first ? summary : [] },
+    };
+  });
+}
+
 /**
  * Lays out the audit on the render pool: in one part when its rows are few (under twice `rowsPerPart`),
  * else in as many parts as the pool has threads (fewer when the rows are fewer), joined on a thread. A
@@ -87,17 +99,8 @@ export async function renderAuditPdfOffThread(
   const rows = data.vessels.reduce((n, v) => n + rowsOf(v), 0);
   const runs = splitVessels(data, Math.max(1, Math.min(pool.threads, Math.floor(rows / rowsPerPart))));
   if (runs.length === 1) return pool.render({ module, exportName: 'renderAuditPdf', args: [data, vesselSetLabel] });
-  const summary = data.vessels.map(vesselSummary);
   const parts = await Promise.all(
-    runs.map((vessels, i) => {
-      const first = i === 0;
-      const part: AuditPart = { first, last: i === runs.length - 1, summary: first ? summary : [] };
-      return pool.render({
-        module,
-        exportName: 'renderAuditPdf',
-        args: [{ ...data, vessels, exceptions: first ? data.exceptions : [] }, vesselSetLabel, part],
-      });
-    }),
+    auditParts(data, runs).map(({ data: partData, part }) => pool.render({ module, exportName: 'renderAuditPdf', args: [partData, vesselSetLabel, part] })),
   );
   return pool.render({ module, exportName: 'joinAuditParts', args: [parts] });
 }
