@@ -57,7 +57,20 @@ export interface PdfFrame {
   cautions?: readonly string[];
   subject?: string;
   watermark?: TDocumentDefinitions['watermark'];
+  /**
+   * Set when this document is one part of a longer one, laid out in parts on several render threads and
+   * joined (pdf-join.ts): the letterhead only in the first part, the cautions only in the last, the running
+   * header on every page but the whole document's first, and no page numbers in the footer (the join
+   * stamps "Page x of y" over the whole document, `pageNumberPlacement`).
+   */
+  part?: PdfPart;
   content: Content[];
+}
+
+/** Which end of the whole document a part holds (a document laid out in one piece is both). */
+export interface PdfPart {
+  first: boolean;
+  last: boolean;
 }
 
 /** A4's width in points, portrait or landscape. */
@@ -70,9 +83,29 @@ const a4Width = { portrait: 595.28, landscape: 841.89 } as const;
  * header repeated on every page of a long report.
  */
 function fitsOneLine(text: string, fontSize: number, width: number): boolean {
+  return widestLine(text, fontSize) <= width;
+}
+
+/** The most a line of `text` in `fontSize` can measure in the font, in points (see `fitsOneLine`). */
+function widestLine(text: string, fontSize: number): number {
   let ems = 0;
   for (const ch of text) ems += ch.codePointAt(0)! < 0x180 ? 0.96 : 1.6;
-  return ems * fontSize <= width;
+  return ems * fontSize;
+}
+
+/** The footer's page number: "‹reference› · Page x of y". */
+export function pageLabel(reference: string | undefined, page: number, pages: number): string {
+  return `${reference ? `${reference} · ` : ''}Page ${page} of ${pages}`;
+}
+
+/**
+ * Where the footer prints its page number, for stamping it on a joined document (pdf-join.ts) as the
+ * frame lays it out: right-aligned to the footer's right margin, the top of its line `top` points above
+ * the page's bottom edge (pdfmake sets a line's first baseline at the font's ascent below that top).
+ */
+export function pageNumberPlacement(density: PdfDensity = 'letter') {
+  const d = densities[density];
+  return { fontSize: d.footerSize, color: pdfColours.muted, right: d.footerMargin[2], top: d.margins[3] - d.footerMargin[1] };
 }
 
 /** "4 Dec 2026, 10:00 (Europe/Berlin)": when a document was produced, in the co-op's time zone. */
@@ -133,6 +166,8 @@ export function framedDocument(frame: PdfFrame): TDocumentDefinitions {
   const running = frame.runningHeader;
   const orientation = frame.pageOrientation ?? 'portrait';
   const runningOneLine = running ? fitsOneLine(running, d.footerSize, a4Width[orientation] - d.margins[0] - d.margins[2]) : false;
+  const part = frame.part ?? { first: true, last: true };
+  const numbered = !frame.part;
   return {
     ...base,
     info: { ...base.info, ...(frame.subject ? { subject: frame.subject } : {}) },
@@ -143,7 +178,7 @@ export function framedDocument(frame: PdfFrame): TDocumentDefinitions {
     ...(running
       ? {
           header: (page: number): Content =>
-            page === 1
+            page === 1 && part.first
               ? { text: '' }
               : { text: running, noWrap: runningOneLine, fontSize: d.footerSize, color: pdfColours.muted, margin: [d.margins[0], 20, d.margins[2], 0] },
         }
@@ -152,16 +187,23 @@ export function framedDocument(frame: PdfFrame): TDocumentDefinitions {
       margin: [...d.footerMargin],
       columns: [
         { text: produced, color: pdfColours.muted, fontSize: d.footerSize },
-        {
-          text: `${frame.reference ? `${frame.reference} · ` : ''}Page ${page} of ${pages}`,
-          color: pdfColours.muted,
-          fontSize: d.footerSize,
-          alignment: 'right',
-          width: 'auto',
-          noWrap: true,
-        },
+        numbered
+          ? {
+              text: pageLabel(frame.reference, page, pages),
+              color: pdfColours.muted,
+              fontSize: d.footerSize,
+              alignment: 'right',
+              width: 'auto',
+              noWrap: true,
+            }
+          : // The room the number stamped after the join may take, so the produced line never runs under it.
+            { text: '', width: widestLine(pageLabel(frame.reference, 9999, 9999), d.footerSize) },
       ],
     }),
-    content: [letterhead(frame.coop, frame.title, frame.marks), ...frame.content, ...(frame.cautions ? [cautionsBlock(frame.cautions)] : [])],
+    content: [
+      ...(part.first ? [letterhead(frame.coop, frame.title, frame.marks)] : []),
+      ...frame.content,
+      ...(frame.cautions && part.last ? [cautionsBlock(frame.cautions)] : []),
+    ],
   };
 }

@@ -62,8 +62,23 @@ export class PdfRenderPool {
   private nextId = 1;
   private closed = false;
 
+  /**
+   * At least two threads, so a long report laid out in parts (the sanitation audit) keeps two cores
+   * busy while the database is idle; one for each core beyond the first on a larger machine, at most four.
+   */
   constructor({ size }: { size?: number } = {}) {
-    this.size = Math.max(1, size ?? Math.min(2, Math.max(1, os.availableParallelism() - 1)));
+    this.size = Math.max(1, size ?? Math.min(4, Math.max(2, os.availableParallelism() - 1)));
+  }
+
+  /** How many threads the pool runs at most: the number of parts worth laying out at once. */
+  get threads(): number {
+    return this.size;
+  }
+
+  /** Runs `job` on every thread of the pool at once, starting them all (a warm-up at start); the first result. */
+  async warm(job: PdfRenderJob): Promise<Buffer> {
+    const [first] = await Promise.all(Array.from({ length: this.size }, () => this.render(job)));
+    return first!;
   }
 
   render(job: PdfRenderJob): Promise<Buffer> {

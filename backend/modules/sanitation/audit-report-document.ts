@@ -149,22 +149,74 @@ function vesselBlocks(v: AuditVessel, f: Formatters): Content[] {
   return blocks;
 }
 
-export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumentDefinitions {
+/** A vessel's line in the summary: what the part that opens a report split in parts (audit-report.ts) is given of every vessel. */
+export interface VesselSummary {
+  code: string;
+  name: string;
+  kind: string;
+  cycles: number;
+  complete: number;
+  fills: number;
+  exceptions: number;
+  lastCompletedAt: Date | null;
+}
+
+export function vesselSummary(v: AuditVessel): VesselSummary {
+  return {
+    code: v.code,
+    name: v.name,
+    kind: v.kind,
+    cycles: v.cycles.length,
+    complete: v.cycles.filter((c) => c.complete).length,
+    fills: v.fills.length,
+    exceptions: v.exceptions.length,
+    lastCompletedAt: v.cycles[v.cycles.length - 1]?.completedAt ?? null,
+  };
+}
+
+/**
+ * One part of a report laid out in parts on several render threads and joined (audit-report.ts): its
+ * `data.vessels` are the vessels whose sections it lays out; the first part opens the report (the rules,
+ * the totals and summary of `summary`, every vessel's, and the exceptions), the last closes it (the cautions).
+ */
+export interface AuditPart {
+  first: boolean;
+  last: boolean;
+  summary: VesselSummary[];
+}
+
+/** The audit as one document, or (with `part`) one part of it. */
+export function auditDocument(data: AuditData, vesselSetLabel: string, part?: AuditPart): TDocumentDefinitions {
   const zone = data.timeZone ?? data.coop.timeZone;
   const f = formatters({ locale: defaultLocale, timeZone: zone });
   const period = `${f.day(data.from)} to ${f.day(new Date(data.to.getTime() - 1))}`;
-  const totals = data.vessels.reduce(
-    (t, v) => ({
-      cycles: t.cycles + v.cycles.length,
-      complete: t.complete + v.cycles.filter((c) => c.complete).length,
-      fills: t.fills + v.fills.length,
-    }),
-    { cycles: 0, complete: 0, fills: 0 },
-  );
+  const sections = data.vessels.flatMap((v) => vesselBlocks(v, f));
+  return framedDocument({
+    coop: data.coop,
+    title: 'Sanitation audit',
+    producedAt: data.producedAt,
+    density: 'report',
+    runningHeader: `${data.coop.coopName} · Sanitation audit ${period}`,
+    keepHeadingsWithNext: false,
+    cautions: [...chemicalCautions, ...pressureCautions, alcoholCaution],
+    subject: `Sanitation audit ${period}`,
+    ...(part ? { part: { first: part.first, last: part.last } } : {}),
+    content: part && !part.first ? sections : [...overview(data, vesselSetLabel, part?.summary ?? data.vessels.map(vesselSummary), period, f), ...sections],
+  });
+}
+
+/** What opens the report: the period and vessels, the rules in force, the totals, the summary by vessel and the exceptions. */
+function overview(data: AuditData, vesselSetLabel: string, summary: VesselSummary[], period: string, f: Formatters): Content[] {
+  const zone = data.timeZone ?? data.coop.timeZone;
+  const totals = summary.reduce((t, v) => ({ cycles: t.cycles + v.cycles, complete: t.complete + v.complete, fills: t.fills + v.fills }), {
+    cycles: 0,
+    complete: 0,
+    fills: 0,
+  });
   const s = data.settings;
   const exceptionsHeading = { fontSize: 12, color: ink, margin: [0, 12, 0, 4] as [number, number, number, number] };
 
-  const content: Content[] = [
+  return [
     {
       margin: [0, 10, 0, 8],
       columns: [
@@ -179,7 +231,7 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
       margin: [0, 0, 0, 8],
     },
     {
-      text: `${data.vessels.length} vessels · ${totals.cycles} cycles (${totals.complete} complete) · ${totals.fills} fills · ${data.exceptions.length} exceptions`,
+      text: `${summary.length} vessels · ${totals.cycles} cycles (${totals.complete} complete) · ${totals.fills} fills · ${data.exceptions.length} exceptions`,
       margin: [0, 0, 0, 8],
     },
     { text: 'Summary by vessel', fontSize: 12, color: ink, margin: [0, 4, 0, 4] },
@@ -189,19 +241,16 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
         widths: [40, '*', 44, 40, 44, 30, 50, 78],
         body: [
           header(['Vessel', 'Name', 'Kind', 'Cycles', 'Complete', 'Fills', 'Exceptions', 'Last cycle']),
-          ...data.vessels.map((v): TableCell[] => {
-            const last = v.cycles[v.cycles.length - 1];
-            return [
-              v.code,
-              v.name,
-              v.kind,
-              String(v.cycles.length),
-              String(v.cycles.filter((c) => c.complete).length),
-              String(v.fills.length),
-              { text: String(v.exceptions.length), color: v.exceptions.length ? danger : hop },
-              last ? f.when(last.completedAt) : '—',
-            ];
-          }),
+          ...summary.map((v): TableCell[] => [
+            v.code,
+            v.name,
+            v.kind,
+            String(v.cycles),
+            String(v.complete),
+            String(v.fills),
+            { text: String(v.exceptions), color: v.exceptions ? danger : hop },
+            v.lastCompletedAt ? f.when(v.lastCompletedAt) : '—',
+          ]),
         ],
       },
       layout: compact,
@@ -226,18 +275,5 @@ export function auditDocument(data: AuditData, vesselSetLabel: string): TDocumen
           ],
           unbreakable: true,
         },
-    ...data.vessels.flatMap((v) => vesselBlocks(v, f)),
   ];
-
-  return framedDocument({
-    coop: data.coop,
-    title: 'Sanitation audit',
-    producedAt: data.producedAt,
-    density: 'report',
-    runningHeader: `${data.coop.coopName} · Sanitation audit ${period}`,
-    keepHeadingsWithNext: false,
-    cautions: [...chemicalCautions, ...pressureCautions, alcoholCaution],
-    subject: `Sanitation audit ${period}`,
-    content,
-  });
 }
