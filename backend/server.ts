@@ -45,7 +45,7 @@ process.on('uncaughtException', (err, origin) => {
 });
 
 let lastPoolError = 0;
-const { db, pool } = createDb(config.DATABASE_URL, 20, {
+const { db, pool } = createDb(config.DATABASE_URL, config.poolSize, {
   onError: (err) => {
     // Every idle connection reports the same outage; once a few seconds is enough.
     if (Date.now() - lastPoolError < 5000) return;

@@ -8,6 +8,7 @@ import { coopProfile } from '../modules/settings/settings.service.ts';
 import { invoiceDocument, renderInvoicePdf } from '../modules/billing/invoice-pdf.ts';
 import { getDetail } from '../modules/billing/invoices.service.ts';
 import { benchDatabase, peakRssMiB } from './bench-db.ts';
+import { atMost, reportTarget } from './report.ts';
 
 const COUNT = Number(process.env.BENCH_INVOICE_PDFS ?? 500);
 const appUrl = 'http://127.0.0.1:3000';
@@ -58,6 +59,13 @@ try {
   row(`${COUNT} PDFs, read from PostgreSQL and rendered`, endToEndMs);
   console.log(`  building the ${COUNT} document definitions alone: ${definitionMs.toFixed(0)} ms`);
   console.log(`  average PDF ${(bytes / COUNT / 1024).toFixed(1)} KiB; peak memory ${peakRssMiB()} MiB`);
+  reportTarget({
+    name: `${COUNT} invoice PDFs, read from PostgreSQL and rendered (peak RSS ${peakRssMiB()} MiB)`,
+    figure: Number((endToEndMs / 1000).toFixed(1)),
+    unit: 's',
+    target: 20,
+    pass: atMost(endToEndMs / 1000, 20),
+  });
 } finally {
   await bench.drop();
 }

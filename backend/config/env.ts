@@ -28,6 +28,8 @@ const envSchema = z.object({
   MIGRATE_ON_START: bool.default(false),
   /** Server processes sharing the port on this machine; in production, one per core (up to four) unless set. */
   WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
+  /** Connections to PostgreSQL each server process keeps at most; by default about ten for the whole machine. */
+  DATABASE_POOL_SIZE: z.coerce.number().int().min(1).max(200).optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(100),
   LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
@@ -72,6 +74,11 @@ export interface Config extends Env {
   mailboxDatabaseUrl: string;
   /** How many server processes to run (WEB_CONCURRENCY, or one per core up to four in production, else one). */
   processes: number;
+  /**
+   * Connections each process keeps at most (DATABASE_POOL_SIZE, or ten shared by the processes, at least four
+   * each): more connections than the database's cores can serve make every statement slower, not more of them.
+   */
+  poolSize: number;
 }
 
 export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | undefined> = process.env): Config {
@@ -90,6 +97,7 @@ export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | u
     if (problems.length) throw new Error(`Invalid environment:\n${problems.join('\n')}`);
   }
   // A production instance pays through the real provider unless told in so many words to use the fake.
+  const processes = env.WEB_CONCURRENCY ?? (isProduction ? Math.min(availableParallelism(), 4) : 1);
   const fakePort = isProduction && !env.PAYMENTS_FAKE_IN_PRODUCTION ? undefined : env.PAYMENTS_FAKE_PORT;
   return {
     ...env,
@@ -100,6 +108,7 @@ export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | u
     cookieSecure: env.COOKIE_SECURE ?? isProduction,
     devMailbox: env.DEV_MAILBOX ?? !isProduction,
     mailboxDatabaseUrl: env.MAILBOX_DATABASE_URL ?? env.DATABASE_URL,
-    processes: env.WEB_CONCURRENCY ?? (isProduction ? Math.min(availableParallelism(), 4) : 1),
+    processes,
+    poolSize: env.DATABASE_POOL_SIZE ?? Math.max(4, Math.ceil(10 / processes)),
   };
 }

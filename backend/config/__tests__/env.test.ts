@@ -31,6 +31,13 @@ describe('loadConfig', () => {
     expect(() => loadConfig({ ...base, WEB_CONCURRENCY: '0' })).toThrow(/WEB_CONCURRENCY/);
   });
 
+  it('keeps about ten connections to PostgreSQL for the machine, at least four a process, unless DATABASE_POOL_SIZE says', () => {
+    expect(loadConfig({ ...base }).poolSize).toBe(10);
+    expect(loadConfig({ ...base, WEB_CONCURRENCY: '2' }).poolSize).toBe(5);
+    expect(loadConfig({ ...base, WEB_CONCURRENCY: '4' }).poolSize).toBe(4);
+    expect(loadConfig({ ...base, WEB_CONCURRENCY: '2', DATABASE_POOL_SIZE: '12' }).poolSize).toBe(12);
+  });
+
   it('starts in production with real secrets', () => {
     const config = production(real)();
     expect(config).toMatchObject({ isProduction: true, sessionSecret: real.SESSION_SECRET, ...real });
