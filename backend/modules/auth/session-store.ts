@@ -39,6 +39,18 @@ const readSession = `
   left join app_user u on u.id = (s.sess->>'userId')::uuid and u.is_active
   where s.sid = $1 and s.expire >= to_timestamp($2)`;
 
+/**
+ * The session read, as a statement prepared once per connection (every signed-in request runs it, so
+ * PostgreSQL parses and plans it once, not each time). A plan a migration has since made stale is read
+ * once more unprepared.
+ */
+function readSessionRow(pool: Deps['pool'], values: [string, number]) {
+  return pool.query<SessionRow>({ name: 'cw-read-session', text: readSession, values }).catch((err: { code?: string }) => {
+    if (err.code === '0A000' || err.code === '26000') return pool.query<SessionRow>(readSession, values);
+    throw err;
+  });
+}
+
 // Kept beside the objects they describe, never in them, so nothing of it is saved with the session.
 const loadedRows = new WeakMap<object, Loaded>();
 const loadedSessions = new WeakMap<object, Loaded>();
@@ -59,7 +71,7 @@ class SessionStore extends PgStore {
   }
 
   override get(sid: string, callback: (err: unknown, session?: SessionData | null) => void): void {
-    this.#pool.query<SessionRow>(readSession, [sid, Date.now() / 1000]).then(
+    readSessionRow(this.#pool, [sid, Date.now() / 1000]).then(
       ({ rows: [row] }) => {
         if (!row) return callback(null, null);
         loadedRows.set(row.sess, { account: row.id ? toSessionUser({ ...row, id: row.id }) : null, expireMs: row.expire_ms });

@@ -3,86 +3,21 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { defaultSanitationSettings, type SanitationStep } from '../../../../shared/schemas/cellar-settings.ts';
 import { pdfText } from '../../../../tests/helpers/pdf.ts';
 import { PdfRenderError, PdfRenderPool } from '../../../lib/pdf-render.ts';
 import type { AuditCycle, AuditData, AuditVessel } from '../audit-report-data.ts';
 import { renderAuditPdfOffThread, splitVessels, warmAuditRenderer } from '../audit-report.ts';
+import { sampleAudit } from '../audit-sample.ts';
 
 // A long audit is laid out in parts on several render threads and joined: it must read as the same
 // document laid out in one piece, its pages numbered over the whole.
 
-const DAY = 86_400_000;
 const from = new Date('2031-01-01T00:00:00Z');
 const coop = { coopName: 'Quarry Lane Brewers', addressLines: ['2 Quarry Lane', 'Stonebridge'], email: 'books@quarry.example', timeZone: 'Europe/Berlin' };
 const runningHeader = 'Quarry Lane Brewers · Sanitation audit 1 Jan 2031 to 31 Dec 2031';
-const stepKinds: SanitationStep[] = ['clean', 'rinse', 'sanitize', 'purge'];
-
-function cycle(vessel: number, i: number): AuditCycle {
-  const start = from.getTime() + (i * 5 + vessel) * DAY;
-  const late = (vessel + i) % 11 === 0;
-  return {
-    id: `c-${vessel}-${i}`,
-    startedAt: new Date(start),
-    completedAt: new Date(start + 90 * 60_000),
-    outcome: late ? 'needs_cleaning' : 'ready',
-    complete: !late,
-    issues: late ? [{ code: 'short_contact', message: 'Sanitize contact was 0.5 min; at least 2 min.' }] : [],
-    freshUntil: late ? null : new Date(start + 7 * DAY),
-    recordedBy: 'Ada Kettleby',
-    steps: stepKinds.map((step, k) => ({
-      step,
-      chemical: step === 'clean' ? 'alkaline-cleaner' : step === 'sanitize' ? 'acid-sanitizer' : null,
-      concentration: step === 'clean' ? 2 : null,
-      unit: step === 'clean' ? '%' : null,
-      contactMinutes: step === 'rinse' ? null : late && step === 'sanitize' ? 0.5 : 2,
-      minimumContactMinutes: null,
-      purgeMethod: step === 'purge' ? 'timed_flush' : null,
-      at: new Date(start + k * 20 * 60_000),
-      by: k % 2 ? 'Bram Whitlock' : 'Ada Kettleby',
-      ok: !(late && step === 'sanitize'),
-      exceptionReason: null,
-    })),
-  };
-}
 
 /** Seven vessels of different lengths: fermenters with cycles, kegs with cycles and fills, one vessel with nothing in the period. */
-function auditOf(): AuditData {
-  const vessels: AuditVessel[] = [6, 40, 12, 0, 30, 55, 18].map((cycles, v) => {
-    const keg = v >= 4;
-    const code = keg ? `K-00${v}` : `F-0${v + 1}`;
-    const list = Array.from({ length: cycles }, (_, i) => cycle(v, i));
-    return {
-      id: `v-${v}`,
-      code,
-      name: keg ? `19 L keg ${v}` : `Fermenter ${v + 1}`,
-      kind: keg ? 'keg' : 'fermenter',
-      cycles: list,
-      fills: keg
-        ? list
-            .filter((_, i) => i % 2 === 0)
-            .map((c) => ({
-              at: new Date(c.completedAt.getTime() + DAY),
-              batch: 'Yard pale',
-              volumeLiters: 18.5,
-              cycle: { id: c.id, completedAt: c.completedAt, complete: c.complete, freshUntil: c.freshUntil, outcome: c.outcome },
-            }))
-        : [],
-      exceptions: list
-        .filter((c) => !c.complete)
-        .map((c) => ({ vesselCode: code, at: c.completedAt, kind: 'short_contact' as const, message: 'Sanitize contact was 0.5 min; at least 2 min.' })),
-    };
-  });
-  return {
-    from,
-    to: new Date('2032-01-01T00:00:00Z'),
-    producedAt: new Date('2032-01-02T09:30:00Z'),
-    coop,
-    vessels,
-    exceptions: vessels.flatMap((v) => v.exceptions).sort((a, b) => a.at.getTime() - b.at.getTime()),
-    settings: defaultSanitationSettings,
-  };
-}
+const auditOf = (): AuditData => sampleAudit({ vesselCycles: [6, 40, 12, 0, 30, 55, 18], from, coop });
 
 const label = 'every fermenter and keg';
 const headingOf = (v: AuditVessel) => `${v.code} · ${v.name}`;
