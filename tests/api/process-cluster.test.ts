@@ -21,7 +21,7 @@ let primary: ChildProcess;
 let base: string;
 const output: string[] = [];
 
-/** The processes whose parent is `pid` (Linux: read from /proc). */
+/** The Node.js processes whose parent is `pid` (Linux: read from /proc; tsx's compiler service is not one). */
 function childrenOf(pid: number): number[] {
   return fs
     .readdirSync('/proc')
@@ -30,7 +30,8 @@ function childrenOf(pid: number): number[] {
       try {
         // stat: "pid (name) state ppid …"; the name may hold spaces, so read after its closing parenthesis.
         const stat = fs.readFileSync(`/proc/${d}/stat`, 'utf8');
-        return Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[1]) === pid;
+        const name = stat.slice(stat.indexOf('(') + 1, stat.lastIndexOf(')'));
+        return name === 'node' && Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[1]) === pid;
       } catch {
         return false;
       }
