@@ -18,6 +18,10 @@ export async function runPrimary(config: Config) {
     }
   }
 
+  // The processes take connections from the shared socket themselves (the kernel hands each to one that is
+  // waiting): with the primary handing them round, a connection given to a process at the moment it died was
+  // left open and never answered.
+  cluster.schedulingPolicy = cluster.SCHED_NONE;
   let closing = false;
   let listening = 0;
   let delay = 1000;
