@@ -38,7 +38,7 @@ export async function joinAuditParts(parts: Uint8Array[]): Promise<Uint8Array> {
  * third without this.
  */
 export async function renderWarmUpPdf(): Promise<Buffer> {
-  const data = sampleAudit({ vesselCycles: Array(8).fill(150), from: new Date(Date.UTC(2000, 0, 1)), coop: warmUpCoop });
+  const data = sampleAudit({ vesselCycles: Array.from({ length: 8 }, () => 150), from: new Date(Date.UTC(2000, 0, 1)), coop: warmUpCoop });
   const laid = await Promise.all(auditParts(data, splitVessels(data, 2)).map(({ data: d, part }) => renderAuditPdf(d, 'every fermenter and keg', part)));
   return Buffer.from(await joinAuditParts(laid));
 }
