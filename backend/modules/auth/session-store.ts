@@ -41,12 +41,13 @@ const readSession = `
 
 /**
  * The session read, as a statement prepared once per connection (every signed-in request runs it, so
- * PostgreSQL parses and plans it once, not each time). A plan a migration has since made stale is read
- * once more unprepared.
+ * PostgreSQL parses and plans it once, not each time). A plan a migration has since made stale, or a
+ * connection pooler in front of PostgreSQL that lost or mixed up prepared statements, means one more read,
+ * unprepared.
  */
-function readSessionRow(pool: Deps['pool'], values: [string, number]) {
+export function readSessionRow(pool: Deps['pool'], values: [string, number]) {
   return pool.query<SessionRow>({ name: 'cw-read-session', text: readSession, values }).catch((err: { code?: string }) => {
-    if (err.code === '0A000' || err.code === '26000') return pool.query<SessionRow>(readSession, values);
+    if (err.code === '0A000' || err.code === '26000' || err.code === '42P05') return pool.query<SessionRow>(readSession, values);
     throw err;
   });
 }
