@@ -36,7 +36,7 @@ export async function runPrimary(config: Config) {
   cluster.on('exit', (worker: Worker, code, signal) => {
     if (closing) return;
     log.warn({ worker: worker.process.pid, code, signal }, `server process stopped; starting another in ${delay / 1000} s`);
-    setTimeout(fork, delay);
+    setTimeout(() => closing || fork(), delay);
     delay = Math.min(delay * 2, 15_000);
   });
   // A process that has served for a minute resets the pause.
