@@ -62,8 +62,9 @@ const app = createApp(deps);
 running.server = app.listen(config.PORT, config.HOST, () => {
   // Several processes: the primary says so once all of them listen.
   if (!cluster.isWorker) console.log(`Cellarwright API and app on http://${config.HOST}:${config.PORT}`);
-  // Start the PDF render thread now rather than on the first audit report.
-  warmAuditRenderer().catch((err: Error) => console.error('PDF render thread did not start:', err.message));
+  // Start the PDF render threads now rather than on the first audit report, and lay out a few made-up ones.
+  if (config.pdfWarmUpRounds > 0)
+    warmAuditRenderer(pdfRenderPool, config.pdfWarmUpRounds).catch((err: Error) => console.error('PDF render thread did not start:', err.message));
   // And an import thread, so that the first upload does not wait for one to start.
   importPool.warm();
 });

@@ -30,6 +30,8 @@ const envSchema = z.object({
   WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
   /** Connections to PostgreSQL each server process keeps at most; by default about ten for the whole machine. */
   DATABASE_POOL_SIZE: z.coerce.number().int().min(1).max(200).optional(),
+  /** Made-up reports each PDF render thread lays out at start before the first real one; by default 3 in production, 1 otherwise. */
+  PDF_WARM_UP_ROUNDS: z.coerce.number().int().min(0).max(10).optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(100),
   LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
@@ -65,6 +67,9 @@ function productionSecretProblems(source: Record<string, string | undefined>): s
 
 export type Env = z.infer<typeof envSchema>;
 
+/** PDF_WARM_UP_ROUNDS in production when it is not set (the audit benchmark warms its threads as a production server does). */
+export const productionPdfWarmUpRounds = 3;
+
 export interface Config extends Env {
   isProduction: boolean;
   publicUrl: string;
@@ -79,6 +84,8 @@ export interface Config extends Env {
    * each): more connections than the database's cores can serve make every statement slower, not more of them.
    */
   poolSize: number;
+  /** Made-up audits each PDF render thread lays out at start (PDF_WARM_UP_ROUNDS); 0 starts the threads on the first report. */
+  pdfWarmUpRounds: number;
 }
 
 export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | undefined> = process.env): Config {
@@ -110,5 +117,6 @@ export function loadConfig(source: NodeJS.ProcessEnv | Record<string, string | u
     mailboxDatabaseUrl: env.MAILBOX_DATABASE_URL ?? env.DATABASE_URL,
     processes,
     poolSize: env.DATABASE_POOL_SIZE ?? Math.max(4, Math.ceil(10 / processes)),
+    pdfWarmUpRounds: env.PDF_WARM_UP_ROUNDS ?? (isProduction ? productionPdfWarmUpRounds : 1),
   };
 }

@@ -7,7 +7,7 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { ensureNodeModules, freePort, log, root, startPostgres, tsx } from './lib.mjs';
+import { ensureDebian, ensureNodeModules, freePort, log, root, startPostgres, tsx } from './lib.mjs';
 
 /** The summary table of the target lines in `file` (one JSON object a line). */
 function summary(file, failed) {
@@ -39,6 +39,9 @@ async function dropLeftovers(url) {
 }
 
 ensureNodeModules();
+// The screens benchmark drives Debian's Chromium; the audit benchmark counts pages with poppler's pdfinfo.
+ensureDebian(['chromium'], '/usr/bin/chromium');
+ensureDebian(['poppler-utils'], '/usr/bin/pdfinfo');
 let pg = null;
 let status = 0;
 const failed = [];

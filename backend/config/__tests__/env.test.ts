@@ -38,6 +38,14 @@ describe('loadConfig', () => {
     expect(loadConfig({ ...base, WEB_CONCURRENCY: '2', DATABASE_POOL_SIZE: '12' }).poolSize).toBe(12);
   });
 
+  it('warms each PDF render thread with three made-up audits in production, one otherwise, or as many as PDF_WARM_UP_ROUNDS says', () => {
+    expect(loadConfig({ ...base }).pdfWarmUpRounds).toBe(1);
+    expect(production(real)().pdfWarmUpRounds).toBe(3);
+    expect(production({ ...real, PDF_WARM_UP_ROUNDS: '0' })().pdfWarmUpRounds).toBe(0);
+    expect(loadConfig({ ...base, PDF_WARM_UP_ROUNDS: '2' }).pdfWarmUpRounds).toBe(2);
+    expect(() => loadConfig({ ...base, PDF_WARM_UP_ROUNDS: '-1' })).toThrow(/PDF_WARM_UP_ROUNDS/);
+  });
+
   it('starts in production with real secrets', () => {
     const config = production(real)();
     expect(config).toMatchObject({ isProduction: true, sessionSecret: real.SESSION_SECRET, ...real });

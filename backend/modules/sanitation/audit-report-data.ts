@@ -98,6 +98,13 @@ function vesselWhere(alias: string, f: VesselFilter) {
 }
 
 const n = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+
+/**
+ * A timestamp as milliseconds since the epoch, a double: the year's 20,000 step rows each carry four
+ * times, and a number is read some ten times faster than a timestamp's text is parsed into a Date.
+ * (date_part, unlike extract, returns a double rather than a numeric.)
+ */
+const epochMs = (column: string) => sql`date_part('epoch', ${sql.ref(column)}) * 1000`;
 const DAY = 86_400_000;
 
 export async function loadAuditData(
@@ -119,12 +126,12 @@ export async function loadAuditData(
       name: string;
       kind: string;
       cycle_id: string | null;
-      started_at: Date | null;
-      completed_at: Date | null;
+      started_ms: number | null;
+      completed_ms: number | null;
       outcome: string | null;
       complete: boolean | null;
       issues: { code: string; message: string }[] | null;
-      fresh_until: Date | null;
+      fresh_until_ms: number | null;
       recorded_by: string | null;
       step: SanitationStep | null;
       chemical: string | null;
@@ -133,15 +140,16 @@ export async function loadAuditData(
       contact_minutes: string | number | null;
       minimum_contact_minutes: string | number | null;
       purge_method: string | null;
-      step_at: Date | null;
+      step_ms: number | null;
       ok: boolean | null;
       performed_by: string | null;
       exception_reason: string | null;
     }>`
       select e.id as vessel_id, e.code, e.name, e.kind,
-        c.id as cycle_id, c.started_at, c.completed_at, c.outcome, c.complete, c.issues, c.fresh_until, r.name as recorded_by,
+        c.id as cycle_id, ${epochMs('c.started_at')} as started_ms, ${epochMs('c.completed_at')} as completed_ms, c.outcome, c.complete, c.issues,
+        ${epochMs('c.fresh_until')} as fresh_until_ms, r.name as recorded_by,
         s.step, s.chemical, s.concentration, s.concentration_unit, s.contact_minutes, s.minimum_contact_minutes, s.purge_method,
-        s.at as step_at, s.ok, p.name as performed_by, s.exception_reason
+        ${epochMs('s.at')} as step_ms, s.ok, p.name as performed_by, s.exception_reason
       from equipment e
       left join sanitation_cycle c on c.equipment_id = e.id and c.completed_at >= ${from} and c.completed_at < ${to}
       left join app_user r on r.id = c.recorded_by
@@ -225,12 +233,12 @@ export async function loadAuditData(
     if (!lastCycle || lastCycle.id !== r.cycle_id) {
       lastCycle = {
         id: r.cycle_id,
-        startedAt: r.started_at!,
-        completedAt: r.completed_at!,
+        startedAt: new Date(r.started_ms!),
+        completedAt: new Date(r.completed_ms!),
         outcome: r.outcome!,
         complete: Boolean(r.complete),
         issues: Array.isArray(r.issues) ? r.issues : [],
-        freshUntil: r.fresh_until,
+        freshUntil: r.fresh_until_ms === null ? null : new Date(r.fresh_until_ms),
         recordedBy: r.recorded_by,
         steps: [],
       };
@@ -245,7 +253,7 @@ export async function loadAuditData(
         contactMinutes: n(r.contact_minutes),
         minimumContactMinutes: n(r.minimum_contact_minutes),
         purgeMethod: r.purge_method,
-        at: r.step_at!,
+        at: new Date(r.step_ms!),
         by: r.performed_by,
         ok: Boolean(r.ok),
         exceptionReason: r.exception_reason,

@@ -124,7 +124,7 @@ function vesselBlocks(v: AuditVessel, f: Formatters): Content[] {
         headedTable(
           headingRow(title, 3, heading),
           ['Completed', 'Outcome', 'Steps (chemical · strength · contact · who, when) and recorded by'],
-          [66, 44, '*'],
+          [80, 44, '*'],
           v.cycles.map((c) => cycleRow(c, f)),
         ),
       ]
@@ -142,7 +142,7 @@ function vesselBlocks(v: AuditVessel, f: Formatters): Content[] {
       headedTable(
         headingRow(`${v.code} · fills`, 4, { fontSize: 8, color: muted, margin: [0, 4, 0, 2] }),
         ['Filled', 'Batch', 'Litres', 'Preceding cycle'],
-        [66, '*', 40, '*'],
+        [80, '*', 40, '*'],
         v.fills.map((fill) => fillRow(fill, f)),
       ),
     );
