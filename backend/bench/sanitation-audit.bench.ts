@@ -153,22 +153,33 @@ try {
   );
   const targetMs = 2000;
   const parts: string[] = [];
+  // When each job handed to a render thread ended, from the start of the layout: the parts' and the join's.
+  const ended: { exportName: string; ms: number }[] = [];
+  let layoutStart = 0;
   pdfRenderPool.events.on('start', ({ exportName }: { exportName: string }) => parts.push(exportName));
+  pdfRenderPool.events.on('done', ({ exportName }: { exportName: string }) => ended.push({ exportName, ms: performance.now() - layoutStart }));
   const routeMs: number[] = [];
   for (const round of [1, 2, 3]) {
     const cpu0 = process.cpuUsage();
     const t = performance.now();
     const loaded = await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to });
     parts.length = 0;
+    ended.length = 0;
+    layoutStart = performance.now();
+    const loadMs = layoutStart - t;
     const pdf = await renderAuditPdfOffThread(loaded, 'every fermenter and keg');
     const ms = performance.now() - t;
+    const partsEnded = ended.filter((e) => e.exportName === 'renderAuditPdf').map((e) => e.ms.toFixed(0));
+    const joinedAt = ended.find((e) => e.exportName === 'joinAuditParts')?.ms;
     routeMs.push(ms);
     const cpu = process.cpuUsage(cpu0);
     const laidOut = parts.filter((p) => p === 'renderAuditPdf').length;
     console.log(
       `  audit as the route makes it, round ${round}: ${ms.toFixed(0)} ms = ${(ms / targetMs).toFixed(2)} × the 2 s target · ` +
         `${laidOut} part(s) on ${pdfRenderPool.threads} render threads${laidOut > 1 ? ', joined' : ''} · ${pagesOf(pdf)} pages · ` +
-        `CPU ${((cpu.user + cpu.system) / 1000).toFixed(0)} ms · ${(pdf.length / 1024).toFixed(0)} KiB · peak RSS ${peakRssMiB()} MiB`,
+        `CPU ${((cpu.user + cpu.system) / 1000).toFixed(0)} ms · ${(pdf.length / 1024).toFixed(0)} KiB · peak RSS ${peakRssMiB()} MiB\n` +
+        `    data loaded in ${loadMs.toFixed(0)} ms; then the parts done after ${partsEnded.join(' and ')} ms` +
+        `${joinedAt === undefined ? '' : `, the join after ${joinedAt.toFixed(0)} ms`}`,
     );
   }
 

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import type { TDocumentDefinitions } from 'pdfmake/interfaces';
+import { tunePdfkit } from './pdfkit-tuning.ts';
 
 const require = createRequire(import.meta.url);
 // pdfmake 0.3's server build is one shared instance per thread; it embeds TTF or WOFF (not WOFF2).
@@ -50,6 +51,7 @@ function configure() {
   pdfmake.setFonts({ [pdfFont]: virtual });
   pdfmake.setUrlAccessPolicy(() => false);
   pdfmake.setLocalAccessPolicy(() => false);
+  tunePdfkit(pdfFontFiles.normal);
   configured = true;
 }
 
