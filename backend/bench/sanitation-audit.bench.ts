@@ -1,9 +1,10 @@
 // The sanitation audit for a year of a fleet of 80 vessels (20 fermenters, 60 kegs): a cycle on
 // every vessel about every six days, a fill of every keg about every twelve, some exceptions.
 // Prints the time of the set-based queries, of the PDF, the number of queries made, the PDF's
-// pages and size, and the peak memory; then the audit as the route makes it (the data loaded while
-// the warm render threads wait, the PDF laid out in parts on them at once and joined) against the 2 s
-// target, with the number of parts and pages and the CPU time the process spent, all threads together
+// pages and size, and the peak memory; then the audit as the route makes it five times (the render
+// threads warmed as a production server's are at start, the data loaded while they wait, the PDF laid
+// out in parts on them at once and joined), the median against the 2 s target, with the number of parts
+// and pages, when each part and the join ended, and the CPU time the process spent, all threads together
 // (a figure that holds when other work shares the machine). Then the event loop's
 // worst delay while that PDF renders, on the request's own thread and on a PDF render thread.
 // Figures only; tests assert behaviour elsewhere.
@@ -159,7 +160,7 @@ try {
   pdfRenderPool.events.on('start', ({ exportName }: { exportName: string }) => parts.push(exportName));
   pdfRenderPool.events.on('done', ({ exportName }: { exportName: string }) => ended.push({ exportName, ms: performance.now() - layoutStart }));
   const routeMs: number[] = [];
-  for (const round of [1, 2, 3]) {
+  for (const round of [1, 2, 3, 4, 5]) {
     const cpu0 = process.cpuUsage();
     const t = performance.now();
     const loaded = await loadAuditData(db, { from, to, filter: {}, settings: defaultSanitationSettings, now: to });
@@ -183,10 +184,10 @@ try {
     );
   }
 
-  // The server warms its render threads at start, so the figure is the median of the rounds after the first.
-  const warmMs = [...routeMs.slice(1)].sort((a, b) => a - b)[Math.floor((routeMs.length - 1) / 2)]!;
+  // The threads were warmed as a production server's are at start: the figure is the median of the five reports.
+  const warmMs = [...routeMs].sort((a, b) => a - b)[Math.floor(routeMs.length / 2)]!;
   reportTarget({
-    name: `a year's sanitation audit, 80 vessels, as the route makes it (warm; peak RSS ${peakRssMiB()} MiB)`,
+    name: `a year's sanitation audit, 80 vessels, as the route makes it (median of 5 after a production start; peak RSS ${peakRssMiB()} MiB)`,
     figure: Math.round(warmMs),
     unit: 'ms',
     target: targetMs,
