@@ -24,7 +24,7 @@ import type { DB } from '../db/schema.ts';
 import { systemClock } from '../lib/clock.ts';
 import { createQueue } from '../lib/queue.ts';
 import { benchDataset } from './dataset.ts';
-import { cpuDuring, parentOf } from './process-cpu.ts';
+import { cpuDuring, parentOf, waitForQuiet } from './process-cpu.ts';
 import { atLeast, atMost, reportTarget } from './report.ts';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
@@ -184,6 +184,7 @@ async function main() {
     // PostgreSQL's processes: the parent of this connection's backend, and its children.
     const { rows: backendRows } = await bench.pool.query<{ pid: number }>('select pg_backend_pid() as pid');
     const postmaster = parentOf(backendRows[0]!.pid);
+    await waitForQuiet('app started');
     // What the app and PostgreSQL spend with no request at all (the job queue's polling, say), a second.
     const idle = await cpuDuring({ server: children[0]!.pid!, pg: postmaster }, () => new Promise((r) => setTimeout(r, 5000)));
     console.log(`  idle, CPU a second: server ${(idle.cpuMs.server! / 5).toFixed(0)} ms, PostgreSQL ${(idle.cpuMs.pg! / 5).toFixed(0)} ms`);

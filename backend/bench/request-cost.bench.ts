@@ -16,6 +16,7 @@ import { listBookings } from '../modules/bookings/bookings.service.ts';
 import { freePort, root, runSync } from '../scripts/lib.mjs';
 import { productionEnv, signInCookie, startInstance, type Instance } from '../scripts/load-balancer.mjs';
 import { benchDatabase } from './bench-db.ts';
+import { waitForQuiet } from './process-cpu.ts';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 const CONNECTIONS = 50;
@@ -115,6 +116,7 @@ try {
     env: { ...productionEnv(bench.url), WORKERS: 'false' },
   });
   await instance.ready();
+  await waitForQuiet('instance started');
   const cookie = await signInCookie(instance.url, 'member@example.org');
   const sid = decodeURIComponent(/cw\.sid=([^;]+)/.exec(cookie)![1]!)
     .replace(/^s:/, '')
