@@ -9,6 +9,7 @@
 //   BENCH_SCREENS_RUNS      visits of each page per role (default 3); the median and the maximum are printed.
 //   BENCH_SCREENS_BUILD     `0` to use dist/app as it is instead of building it first.
 //   BENCH_SCREENS_PORT      the app's port (default 4310).
+//   BENCH_SCREENS_ONLY      a comma-separated list of addresses (`/bookings,/batches`): only those pages.
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import type { AddressInfo } from 'node:net';
@@ -33,6 +34,7 @@ const READY_TARGET_MS = 800;
 /** No request for this long after the last one ends: the page has stopped loading. */
 const QUIET_MS = 300;
 const RUNS = Number(process.env.BENCH_SCREENS_RUNS ?? 3);
+const ONLY = process.env.BENCH_SCREENS_ONLY?.split(',').filter(Boolean) ?? null;
 const PORT = Number(process.env.BENCH_SCREENS_PORT ?? 4310);
 const DATABASE = process.env.BENCH_SCREENS_DATABASE ?? 'benchmark';
 const distDir = path.resolve('dist', 'app');
@@ -183,7 +185,7 @@ try {
     const watch = networkWatch(page);
     const ability = defineAbilityFor({ id: 'bench', roles: [account.role] });
     const pages = flatten([...visibleNav(mainNav, ability), ...visibleNav(accountNav, ability)]).map((e) => e.to);
-    for (const to of pages) {
+    for (const to of pages.filter((p) => !ONLY || ONLY.includes(p))) {
       const loads: number[] = [];
       const menus: number[] = [];
       let firstJsKB = 0;
