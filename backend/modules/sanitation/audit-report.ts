@@ -49,9 +49,10 @@ const warmUpCoop = { coopName: 'Cellarwright', addressLines: [], email: 'cellar@
  * Starts every render thread ahead of the first audit (about 2 s of start-up otherwise paid by that
  * request) and has each lay out the made-up year `rounds` times. A thread keeps getting faster over its
  * first few reports, each a new document whose fonts and layout objects the compiled code has not yet
- * seen: measured on a year of 80 vessels, the compiler still gave up on optimized code some 95 times in
- * a thread's first report, 55 in its second, 24 in its third and none by its sixth, and the report took
- * 1.6, 1.2, 1.1 and then 0.9–1.0 s. Each round is about 1 s of one core's time per thread.
+ * seen: laying out half of a made-up year of 80 vessels again and again on one thread, the compiler still
+ * gave up on optimized code some 95 times in the first layout, 55 in the second, 24 in the third and none
+ * by the sixth, and the layout took 1.6, 1.2, 1.1 and then 0.9–1.0 s. On the 2-core benchmark machine,
+ * three rounds on a pool of two threads took 6.4–9.5 s from start, the threads' own start included.
  */
 export async function warmAuditRenderer(pool: PdfRenderPool = pdfRenderPool, rounds = 1): Promise<Buffer> {
   const job = { module: new URL(import.meta.url), exportName: 'renderWarmUpPdf', args: [] };
